@@ -1,0 +1,238 @@
+//! The candidate catalogue: columnar storage with interned ids, indexed by
+//! host star. Loading lives in `load`, the header mapping in `columns`.
+
+mod columns;
+mod load;
+mod pool;
+
+use std::hash::BuildHasher;
+
+pub use columns::{
+    ColumnMap, ColumnUse, DepthUnit, FIELDS, Field, Mapping, NUMERIC, REQUIRED,
+};
+pub use load::{LoadOptions, Source};
+use pool::StrPool;
+use serde::Serialize;
+
+/// Why a catalogue could not be loaded at all. Bad rows are not errors: they
+/// are skipped and listed in [`Catalogue::skipped`].
+#[derive(Debug, thiserror::Error)]
+pub enum LoadError {
+    #[error("{path}: cannot read: {source}")]
+    Io {
+        path: String,
+        #[source]
+        source: std::io::Error,
+    },
+    #[error("{path}: line {line}: cannot read: {message}")]
+    Read {
+        path: String,
+        line: u64,
+        message: String,
+    },
+    #[error("{path}: the file is empty (no header row)")]
+    Empty { path: String },
+    #[error("{path}: no candidate rows after the header")]
+    NoRows { path: String },
+    #[error(
+        "{path}: line 1: no column for required field `{field}` \
+         (looked for: {synonyms}); header is: {header}. \
+         Name the column with --columns FILE (field = \"header\")"
+    )]
+    MissingColumn {
+        path: String,
+        field: Field,
+        synonyms: String,
+        header: String,
+    },
+    #[error(
+        "{path}: line 1: the column map names `{header}` for `{field}`, \
+         but the header has no such column; header is: {available}"
+    )]
+    MappedColumnMissing {
+        path: String,
+        field: Field,
+        header: String,
+        available: String,
+    },
+    #[error("{path}:{line}: column map: {message}")]
+    ColumnMap {
+        path: String,
+        line: usize,
+        message: String,
+    },
+    #[error(
+        "{path}: column `{header}`: cannot tell the depth unit (median value {median}); \
+         values below 50 could be fractions or percent. Say which with \
+         --depth-unit ppm|fraction|percent, or name the column depth_ppm, \
+         depth_frac or depth_pct"
+    )]
+    DepthUnitUnknown {
+        path: String,
+        header: String,
+        median: f64,
+    },
+    #[error("{path}: line {line}: the header has {count} columns; at most 65535 are supported")]
+    TooManyColumns { path: String, line: u64, count: usize },
+}
+
+/// One row that was not loaded, and why.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Skip {
+    /// 1-based line in the file where the row starts.
+    pub line: u64,
+    /// The file's own header for the offending column, if one is to blame.
+    pub column: Option<String>,
+    pub reason: String,
+}
+
+/// Index of a candidate (a row that loaded), in file order.
+pub type CandidateId = u32;
+/// Index of a star, in order of first appearance.
+pub type StarId = u32;
+
+/// A loaded catalogue. Numeric fields are stored as columns of `f64` with
+/// `NaN` for a missing value; depths are always ppm.
+#[derive(Debug)]
+pub struct Catalogue {
+    /// Where it came from, as given (a path, or `built-in demo`).
+    pub source: String,
+    candidates: StrPool,
+    stars: StrPool,
+    star_of: Vec<StarId>,
+    num: Vec<Option<Vec<f64>>>,
+    lightcurve: Option<StrPool>,
+    extras: Vec<(String, StrPool)>,
+    member_start: Vec<u32>,
+    members: Vec<CandidateId>,
+    candidate_lookup: hashbrown::HashTable<CandidateId>,
+    star_lookup: hashbrown::HashTable<StarId>,
+    hasher: hashbrown::DefaultHashBuilder,
+    /// Which header fed which field, in which unit.
+    pub columns: Vec<ColumnUse>,
+    /// Rows that were not loaded, in file order.
+    pub skipped: Vec<Skip>,
+    /// Data rows seen (loaded plus skipped).
+    pub rows_seen: u64,
+}
+
+impl Catalogue {
+    pub fn len(&self) -> usize {
+        self.star_of.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.star_of.is_empty()
+    }
+
+    pub fn star_count(&self) -> usize {
+        self.stars.len()
+    }
+
+    pub fn candidate_id(&self, c: CandidateId) -> &str {
+        self.candidates.get(c as usize)
+    }
+
+    pub fn star_id(&self, s: StarId) -> &str {
+        self.stars.get(s as usize)
+    }
+
+    pub fn star_of(&self, c: CandidateId) -> StarId {
+        self.star_of[c as usize]
+    }
+
+    /// The candidates of one star, in file order.
+    pub fn members(&self, s: StarId) -> &[CandidateId] {
+        let (a, b) = (
+            self.member_start[s as usize] as usize,
+            self.member_start[s as usize + 1] as usize,
+        );
+        &self.members[a..b]
+    }
+
+    /// The value of a numeric field, `None` where the column is absent or the
+    /// cell was empty.
+    pub fn value(&self, field: Field, c: CandidateId) -> Option<f64> {
+        let v = self.column(field)?[c as usize];
+        (!v.is_nan()).then_some(v)
+    }
+
+    /// A whole numeric column (`NaN` = missing), `None` if the catalogue lacks it.
+    pub fn column(&self, field: Field) -> Option<&[f64]> {
+        self.num[field.num_slot()?].as_deref()
+    }
+
+    pub fn has(&self, field: Field) -> bool {
+        match field {
+            Field::Lightcurve => self.lightcurve.is_some(),
+            Field::Star | Field::Candidate => true,
+            f => self.column(f).is_some(),
+        }
+    }
+
+    pub fn lightcurve(&self, c: CandidateId) -> Option<&str> {
+        let v = self.lightcurve.as_ref()?.get(c as usize);
+        (!v.is_empty()).then_some(v)
+    }
+
+    /// Headers of the extra (unmapped) columns, in file order.
+    pub fn extra_headers(&self) -> impl Iterator<Item = &str> {
+        self.extras.iter().map(|(h, _)| h.as_str())
+    }
+
+    pub fn extra(&self, i: usize, c: CandidateId) -> &str {
+        self.extras[i].1.get(c as usize)
+    }
+
+    pub fn find_candidate(&self, id: &str) -> Option<CandidateId> {
+        let h = self.hasher.hash_one(id.as_bytes());
+        self.candidate_lookup
+            .find(h, |&c| self.candidates.get(c as usize) == id)
+            .copied()
+    }
+
+    pub fn find_star(&self, id: &str) -> Option<StarId> {
+        let h = self.hasher.hash_one(id.as_bytes());
+        self.star_lookup
+            .find(h, |&s| self.stars.get(s as usize) == id)
+            .copied()
+    }
+
+    /// Number of stars with exactly k candidates, indexed by k (index 0 is 0).
+    pub fn histogram(&self) -> Vec<usize> {
+        let mut h = Vec::new();
+        for w in self.member_start.windows(2) {
+            let k = (w[1] - w[0]) as usize;
+            if h.len() <= k {
+                h.resize(k + 1, 0);
+            }
+            h[k] += 1;
+        }
+        h
+    }
+
+    /// Candidates ordered by a numeric field; missing values always last.
+    /// Returns an index vector, never copies of rows.
+    pub fn sorted_by(&self, field: Field, descending: bool) -> Vec<CandidateId> {
+        let Some(col) = self.column(field) else {
+            return (0..self.len() as CandidateId).collect();
+        };
+        let mut keyed: Vec<(f64, CandidateId)> = col
+            .iter()
+            .enumerate()
+            .map(|(i, &v)| (v, i as CandidateId))
+            .collect();
+        keyed.sort_unstable_by(|a, b| {
+            match (a.0.is_nan(), b.0.is_nan()) {
+                (true, true) => a.1.cmp(&b.1),
+                (true, false) => std::cmp::Ordering::Greater,
+                (false, true) => std::cmp::Ordering::Less,
+                (false, false) => {
+                    let o = a.0.total_cmp(&b.0);
+                    if descending { o.reverse() } else { o }.then(a.1.cmp(&b.1))
+                }
+            }
+        });
+        keyed.into_iter().map(|(_, i)| i).collect()
+    }
+}

@@ -1,0 +1,436 @@
+//! Canonical catalogue fields, the built-in header synonyms, column-map files
+//! and the mapping of one catalogue's header onto the fields.
+
+use std::collections::BTreeMap;
+use std::fmt;
+use std::path::Path;
+
+use serde::Serialize;
+
+use super::LoadError;
+
+/// A canonical catalogue field. Units live in the names (DESIGN.md, Inputs).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
+pub enum Field {
+    Star,
+    Candidate,
+    PeriodD,
+    Epoch,
+    DepthPpm,
+    DurationH,
+    Snr,
+    Impact,
+    Ror,
+    StarRadiusRsun,
+    StarMassMsun,
+    StarTeffK,
+    StarLogg,
+    RaDeg,
+    DecDeg,
+    Mag,
+    Fpp,
+    Lightcurve,
+    PeriodErrD,
+    EpochErrD,
+    Contamination,
+}
+
+/// Every field, in the order summaries list them.
+pub const FIELDS: [Field; 21] = [
+    Field::Star,
+    Field::Candidate,
+    Field::PeriodD,
+    Field::Epoch,
+    Field::DepthPpm,
+    Field::DurationH,
+    Field::Snr,
+    Field::Impact,
+    Field::Ror,
+    Field::StarRadiusRsun,
+    Field::StarMassMsun,
+    Field::StarTeffK,
+    Field::StarLogg,
+    Field::RaDeg,
+    Field::DecDeg,
+    Field::Mag,
+    Field::Fpp,
+    Field::Lightcurve,
+    Field::PeriodErrD,
+    Field::EpochErrD,
+    Field::Contamination,
+];
+
+/// The fields a row cannot do without.
+pub const REQUIRED: [Field; 6] = [
+    Field::Star,
+    Field::Candidate,
+    Field::PeriodD,
+    Field::Epoch,
+    Field::DepthPpm,
+    Field::DurationH,
+];
+
+/// The numeric fields, in storage order: `Field::num_slot` indexes this.
+pub const NUMERIC: [Field; 18] = [
+    Field::PeriodD,
+    Field::Epoch,
+    Field::DepthPpm,
+    Field::DurationH,
+    Field::Snr,
+    Field::Impact,
+    Field::Ror,
+    Field::StarRadiusRsun,
+    Field::StarMassMsun,
+    Field::StarTeffK,
+    Field::StarLogg,
+    Field::RaDeg,
+    Field::DecDeg,
+    Field::Mag,
+    Field::Fpp,
+    Field::PeriodErrD,
+    Field::EpochErrD,
+    Field::Contamination,
+];
+
+impl Field {
+    /// The canonical name, as used in column-map files, filters and exports.
+    pub fn name(self) -> &'static str {
+        match self {
+            Field::Star => "star",
+            Field::Candidate => "candidate",
+            Field::PeriodD => "period_d",
+            Field::Epoch => "epoch",
+            Field::DepthPpm => "depth_ppm",
+            Field::DurationH => "duration_h",
+            Field::Snr => "snr",
+            Field::Impact => "impact",
+            Field::Ror => "ror",
+            Field::StarRadiusRsun => "star_radius_rsun",
+            Field::StarMassMsun => "star_mass_msun",
+            Field::StarTeffK => "star_teff_k",
+            Field::StarLogg => "star_logg",
+            Field::RaDeg => "ra_deg",
+            Field::DecDeg => "dec_deg",
+            Field::Mag => "mag",
+            Field::Fpp => "fpp",
+            Field::Lightcurve => "lightcurve",
+            Field::PeriodErrD => "period_err_d",
+            Field::EpochErrD => "epoch_err_d",
+            Field::Contamination => "contamination",
+        }
+    }
+
+    /// Header names (lower case) that map to this field without a column map.
+    ///
+    /// To add a synonym, add it here and to the table in DEVELOPERS.md; the
+    /// test `synonyms_are_unambiguous` keeps two fields from sharing one.
+    pub fn synonyms(self) -> &'static [&'static str] {
+        match self {
+            Field::Star => &["star", "star_id", "host", "host_id", "target", "target_id"],
+            Field::Candidate => &["candidate", "candidate_id", "cand", "cand_id", "name", "id"],
+            Field::PeriodD => &["period", "period_d", "period_days", "per"],
+            Field::Epoch => &["epoch", "t0", "tc", "epoch_bjd"],
+            // The unit-suffixed depth names fix the unit; see `DepthUnit`.
+            Field::DepthPpm => &[
+                "depth",
+                "depth_ppm",
+                "depth_frac",
+                "depth_fraction",
+                "depth_pct",
+                "depth_percent",
+            ],
+            Field::DurationH => &["duration", "duration_h", "duration_hours", "dur", "t14"],
+            Field::Snr => &["snr"],
+            Field::Impact => &["impact", "b"],
+            Field::Ror => &["ror", "rp_rs"],
+            Field::StarRadiusRsun => &["star_radius", "star_radius_rsun", "rstar"],
+            Field::StarMassMsun => &["star_mass", "star_mass_msun", "mstar"],
+            Field::StarTeffK => &["teff", "star_teff", "star_teff_k"],
+            Field::StarLogg => &["logg", "star_logg"],
+            Field::RaDeg => &["ra", "ra_deg"],
+            Field::DecDeg => &["dec", "dec_deg"],
+            Field::Mag => &["mag"],
+            Field::Fpp => &["fpp"],
+            Field::Lightcurve => &["lightcurve", "lc"],
+            Field::PeriodErrD => &["period_err", "period_err_d", "period_unc"],
+            Field::EpochErrD => &["epoch_err", "epoch_err_d", "t0_err"],
+            Field::Contamination => &["contamination", "dilution"],
+        }
+    }
+
+    /// The unit shown beside the field in summaries.
+    pub fn unit(self) -> &'static str {
+        match self {
+            Field::PeriodD | Field::PeriodErrD | Field::EpochErrD => "d",
+            Field::Epoch => "light-curve time",
+            Field::DepthPpm => "ppm",
+            Field::DurationH => "h",
+            Field::StarRadiusRsun => "R_sun",
+            Field::StarMassMsun => "M_sun",
+            Field::StarTeffK => "K",
+            Field::StarLogg => "log10(cm s^-2)",
+            Field::RaDeg | Field::DecDeg => "deg",
+            Field::Mag => "mag",
+            Field::Fpp | Field::Contamination => "fraction",
+            Field::Ror => "R_p/R_star",
+            _ => "",
+        }
+    }
+
+    /// The position of a numeric field in `NUMERIC`, `None` for text fields.
+    pub fn num_slot(self) -> Option<usize> {
+        NUMERIC.iter().position(|f| *f == self)
+    }
+
+    pub fn from_name(name: &str) -> Option<Field> {
+        FIELDS.iter().copied().find(|f| f.name() == name)
+    }
+
+    fn from_header(header: &str) -> Option<Field> {
+        let h = header.trim().to_ascii_lowercase();
+        FIELDS.iter().copied().find(|f| f.synonyms().contains(&h.as_str()))
+    }
+}
+
+impl fmt::Display for Field {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(self.name())
+    }
+}
+
+/// The unit transit depths arrive in. Stored depths are always ppm.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum DepthUnit {
+    Ppm,
+    Fraction,
+    Percent,
+}
+
+impl DepthUnit {
+    pub fn to_ppm(self) -> f64 {
+        match self {
+            DepthUnit::Ppm => 1.0,
+            DepthUnit::Fraction => 1e6,
+            DepthUnit::Percent => 1e4,
+        }
+    }
+
+    pub fn name(self) -> &'static str {
+        match self {
+            DepthUnit::Ppm => "ppm",
+            DepthUnit::Fraction => "fraction",
+            DepthUnit::Percent => "percent",
+        }
+    }
+
+    pub fn parse(s: &str) -> Option<DepthUnit> {
+        match s.to_ascii_lowercase().as_str() {
+            "ppm" => Some(DepthUnit::Ppm),
+            "fraction" | "frac" => Some(DepthUnit::Fraction),
+            "percent" | "pct" | "%" => Some(DepthUnit::Percent),
+            _ => None,
+        }
+    }
+
+    /// The unit a header name itself states, if any (`depth_ppm`, `depth_frac`...).
+    pub fn from_header(header: &str) -> Option<DepthUnit> {
+        let h = header.trim().to_ascii_lowercase();
+        if h.ends_with("ppm") {
+            Some(DepthUnit::Ppm)
+        } else if h.ends_with("frac") || h.ends_with("fraction") {
+            Some(DepthUnit::Fraction)
+        } else if h.ends_with("pct") || h.ends_with("percent") {
+            Some(DepthUnit::Percent)
+        } else {
+            None
+        }
+    }
+}
+
+/// The user's column map: canonical field → their header, from `--columns`.
+#[derive(Clone, Debug, Default)]
+pub struct ColumnMap {
+    pub fields: BTreeMap<Field, String>,
+}
+
+impl ColumnMap {
+    /// Reads a TOML column-map file: `canonical_field = "their header"` lines.
+    pub fn from_file(path: &Path) -> Result<ColumnMap, LoadError> {
+        let text = std::fs::read_to_string(path).map_err(|source| LoadError::Io {
+            path: path.display().to_string(),
+            source,
+        })?;
+        ColumnMap::from_toml(&text, &path.display().to_string())
+    }
+
+    pub fn from_toml(text: &str, path: &str) -> Result<ColumnMap, LoadError> {
+        let bad = |line: usize, message: String| LoadError::ColumnMap {
+            path: path.to_string(),
+            line,
+            message,
+        };
+        let table: toml::Table = text.parse().map_err(|e: toml::de::Error| {
+            let line = e.span().map_or(0, |s| line_of(text, s.start));
+            bad(line, e.message().to_string())
+        })?;
+        let mut map = ColumnMap::default();
+        for (key, value) in &table {
+            let line = find_key_line(text, key);
+            let field = Field::from_name(key).ok_or_else(|| {
+                bad(
+                    line,
+                    format!(
+                        "`{key}` is not a canonical field; known: {}",
+                        FIELDS.map(Field::name).join(", ")
+                    ),
+                )
+            })?;
+            let header = value.as_str().ok_or_else(|| {
+                bad(line, format!("`{key}` must be a string naming a header"))
+            })?;
+            map.fields.insert(field, header.to_string());
+        }
+        Ok(map)
+    }
+}
+
+fn line_of(text: &str, byte: usize) -> usize {
+    text[..byte.min(text.len())].matches('\n').count() + 1
+}
+
+fn find_key_line(text: &str, key: &str) -> usize {
+    text.lines()
+        .position(|l| {
+            let l = l.trim_start();
+            let l = l.strip_prefix('"').unwrap_or(l);
+            l.starts_with(key)
+        })
+        .map_or(0, |i| i + 1)
+}
+
+/// Where one canonical field comes from in this catalogue.
+#[derive(Clone, Debug, Serialize)]
+pub struct ColumnUse {
+    pub field: &'static str,
+    pub header: String,
+    pub index: usize,
+    pub unit: String,
+    /// How the mapping was chosen: `synonym`, `column map`, or a unit note.
+    pub how: String,
+}
+
+/// The header of one catalogue resolved onto fields.
+#[derive(Clone, Debug)]
+pub struct Mapping {
+    /// For each field, the column index that feeds it.
+    pub by_field: BTreeMap<Field, usize>,
+    /// Columns that feed no field, kept as extra text fields: (index, header).
+    pub extras: Vec<(usize, String)>,
+    /// Columns that matched a field already taken: (index, header, field).
+    pub shadowed: Vec<(usize, String, Field)>,
+}
+
+impl Mapping {
+    pub fn resolve(path: &str, header: &[String], map: &ColumnMap) -> Result<Mapping, LoadError> {
+        let mut by_field = BTreeMap::new();
+        for (field, wanted) in &map.fields {
+            let index = header
+                .iter()
+                .position(|h| h.trim() == wanted.trim())
+                .or_else(|| {
+                    header
+                        .iter()
+                        .position(|h| h.trim().eq_ignore_ascii_case(wanted.trim()))
+                })
+                .ok_or_else(|| LoadError::MappedColumnMissing {
+                    path: path.to_string(),
+                    field: *field,
+                    header: wanted.clone(),
+                    available: header.join(", "),
+                })?;
+            by_field.insert(*field, index);
+        }
+        let mut extras = Vec::new();
+        let mut shadowed = Vec::new();
+        for (index, h) in header.iter().enumerate() {
+            if by_field.values().any(|i| *i == index) {
+                continue;
+            }
+            match Field::from_header(h) {
+                Some(field) if !by_field.contains_key(&field) => {
+                    by_field.insert(field, index);
+                }
+                Some(field) => {
+                    shadowed.push((index, h.clone(), field));
+                    extras.push((index, h.clone()));
+                }
+                None => extras.push((index, h.clone())),
+            }
+        }
+        for field in REQUIRED {
+            if !by_field.contains_key(&field) {
+                return Err(LoadError::MissingColumn {
+                    path: path.to_string(),
+                    field,
+                    synonyms: field.synonyms().join(", "),
+                    header: header.join(", "),
+                });
+            }
+        }
+        Ok(Mapping {
+            by_field,
+            extras,
+            shadowed,
+        })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn synonyms_are_unambiguous() {
+        let mut seen = std::collections::HashMap::new();
+        for f in FIELDS {
+            assert!(f.synonyms().contains(&f.name()), "{f} lacks its own name");
+            for s in f.synonyms() {
+                assert_eq!(*s, s.to_ascii_lowercase());
+                if let Some(other) = seen.insert(*s, f) {
+                    panic!("synonym {s} maps to both {other} and {f}");
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn headers_map_case_insensitively() {
+        let header: Vec<String> = ["Host_ID", "CAND", "Per", "T0", "Depth_PPM", "T14", "Extra col"]
+            .map(String::from)
+            .to_vec();
+        let m = Mapping::resolve("x.csv", &header, &ColumnMap::default()).unwrap();
+        assert_eq!(m.by_field[&Field::Star], 0);
+        assert_eq!(m.by_field[&Field::Candidate], 1);
+        assert_eq!(m.by_field[&Field::DurationH], 5);
+        assert_eq!(m.extras, vec![(6, "Extra col".to_string())]);
+    }
+
+    #[test]
+    fn column_map_errors_name_the_line() {
+        let err = ColumnMap::from_toml("star = \"a\"\nperiod = \"p\"\n", "map.toml").unwrap_err();
+        let msg = err.to_string();
+        assert!(msg.contains("map.toml:2"), "{msg}");
+        assert!(msg.contains("`period` is not a canonical field"), "{msg}");
+        let err = ColumnMap::from_toml("star = \n", "map.toml").unwrap_err();
+        assert!(err.to_string().contains("map.toml:1"), "{err}");
+    }
+
+    #[test]
+    fn depth_unit_from_header() {
+        assert_eq!(DepthUnit::from_header("depth_ppm"), Some(DepthUnit::Ppm));
+        assert_eq!(DepthUnit::from_header("Depth_Frac"), Some(DepthUnit::Fraction));
+        assert_eq!(DepthUnit::from_header("depth_percent"), Some(DepthUnit::Percent));
+        assert_eq!(DepthUnit::from_header("depth"), None);
+    }
+}

@@ -1,0 +1,162 @@
+//! The command line: raw arguments (clap), their resolution into settings
+//! for the core, errors for users and exit codes.
+//!
+//! Exit codes: 0 success; 1 an unexpected internal error; 2 bad input or
+//! usage (unreadable or invalid catalogue, survey or column-map file, bad
+//! flag values, impossible model inputs); 3 a ledger that cannot be written.
+
+use std::io::{self, Write};
+use std::path::PathBuf;
+
+use clap::{Parser, Subcommand};
+
+use crate::catalogue::{Catalogue, ColumnMap, DepthUnit, LoadError, LoadOptions, Source};
+use crate::cmd;
+use crate::survey::{SurveyError, SurveyFacts};
+
+#[derive(Debug, Parser)]
+#[command(
+    name = "starsift",
+    version,
+    about = "Triage transiting-exoplanet candidate catalogues, star by star, with live multiplicity odds.",
+    long_about = "Triage transiting-exoplanet candidate catalogues, star by star, with live multiplicity odds.\n\n\
+                  With no command, opens the built-in demo catalogue (an invented survey).\n\
+                  Odds are reported under a stated model; statistical validation is not confirmation.",
+    after_help = "Exit codes: 0 success, 1 internal error, 2 bad input or usage, 3 ledger not writable."
+)]
+pub struct Cli {
+    #[command(subcommand)]
+    pub command: Option<Command>,
+}
+
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Stars, candidates, multiplicity histogram, column mapping, skipped rows.
+    Summary(cmd::summary::Args),
+    /// Regenerate the demo catalogue or write a large synthetic one.
+    #[command(hide = true)]
+    Generate(cmd::generate::Args),
+}
+
+/// Arguments that say which catalogue to read and how.
+#[derive(Debug, Clone, clap::Args)]
+pub struct CatalogueArgs {
+    /// Catalogue file (CSV or TSV, optionally .gz). Omit it for the built-in demo.
+    pub catalogue: Option<PathBuf>,
+    /// Column-map file (TOML: canonical_field = "their header").
+    #[arg(long, value_name = "FILE")]
+    pub columns: Option<PathBuf>,
+    /// Unit of the depth column, overriding detection.
+    #[arg(long, value_name = "UNIT", value_parser = ["ppm", "fraction", "percent"])]
+    pub depth_unit: Option<String>,
+    /// Field delimiter, overriding detection by extension and sniffing.
+    #[arg(long, value_name = "DELIM", value_parser = ["comma", "tab"])]
+    pub delimiter: Option<String>,
+}
+
+/// An error for the user, with the exit code it maps to.
+#[derive(Debug, thiserror::Error)]
+pub enum CliError {
+    #[error(transparent)]
+    Load(#[from] LoadError),
+    #[error(transparent)]
+    Survey(#[from] SurveyError),
+    #[error("{0}")]
+    Input(String),
+    #[error("{0}")]
+    Io(#[from] io::Error),
+}
+
+impl CliError {
+    pub fn exit_code(&self) -> i32 {
+        match self {
+            CliError::Io(_) => 1,
+            _ => 2,
+        }
+    }
+}
+
+/// A loaded catalogue with the survey facts found beside it.
+pub struct Loaded {
+    pub catalogue: Catalogue,
+    pub survey: SurveyFacts,
+    /// Where the survey facts came from, for people.
+    pub survey_source: Option<String>,
+}
+
+impl CatalogueArgs {
+    pub fn options(&self) -> Result<LoadOptions, CliError> {
+        let columns = match &self.columns {
+            Some(p) => ColumnMap::from_file(p)?,
+            None => ColumnMap::default(),
+        };
+        Ok(LoadOptions {
+            columns,
+            depth_unit: self.depth_unit.as_deref().and_then(DepthUnit::parse),
+            delimiter: self.delimiter.as_deref().map(|d| if d == "tab" { b'\t' } else { b',' }),
+        })
+    }
+
+    /// Loads the catalogue (or the demo) and its `survey.toml`, if any.
+    pub fn load(&self) -> Result<Loaded, CliError> {
+        let opts = self.options()?;
+        match &self.catalogue {
+            None => Ok(Loaded {
+                catalogue: Catalogue::load(
+                    Source::Bytes {
+                        name: crate::demo::NAME,
+                        data: crate::demo::CATALOGUE_CSV.as_bytes(),
+                    },
+                    &opts,
+                )?,
+                survey: crate::demo::survey(),
+                survey_source: Some("built-in demo survey.toml".into()),
+            }),
+            Some(path) => {
+                let catalogue = Catalogue::load(Source::Path(path), &opts)?;
+                let (survey, survey_source) = match SurveyFacts::beside(path) {
+                    Some(p) => (SurveyFacts::from_file(&p)?, Some(p.display().to_string())),
+                    None => (SurveyFacts::default(), None),
+                };
+                Ok(Loaded {
+                    catalogue,
+                    survey,
+                    survey_source,
+                })
+            }
+        }
+    }
+}
+
+/// Runs the command line and returns the process exit code.
+pub fn main() -> i32 {
+    let cli = match Cli::try_parse() {
+        Ok(c) => c,
+        Err(e) => {
+            let code = if e.use_stderr() { 2 } else { 0 };
+            let _ = e.print();
+            return code;
+        }
+    };
+    let stdout = io::stdout();
+    let mut out = io::BufWriter::new(stdout.lock());
+    let result = run(cli, &mut out).and_then(|()| out.flush().map_err(CliError::from));
+    match result {
+        Ok(()) => 0,
+        Err(CliError::Io(e)) if e.kind() == io::ErrorKind::BrokenPipe => 0,
+        Err(e) => {
+            let _ = out.flush();
+            eprintln!("starsift: error: {e}");
+            e.exit_code()
+        }
+    }
+}
+
+pub fn run(cli: Cli, out: &mut dyn Write) -> Result<(), CliError> {
+    match cli.command {
+        // Until the terminal browser lands, the main job on the demo is its summary.
+        None => cmd::summary::run(&cmd::summary::Args::demo(), out),
+        Some(Command::Summary(a)) => cmd::summary::run(&a, out),
+        Some(Command::Generate(a)) => cmd::generate::run(&a, out),
+    }
+}

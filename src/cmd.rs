@@ -1,0 +1,4 @@
+//! Headless commands, one file each: its arguments and its `run`.
+
+pub mod generate;
+pub mod summary;

@@ -1,0 +1,168 @@
+//! `starsift summary CATALOGUE`: what loaded — stars, candidates, the
+//! multiplicity histogram, the column mapping and the skipped rows.
+
+use std::io::Write;
+
+use serde_json::{Value, json};
+
+use crate::catalogue::Catalogue;
+use crate::cli::{CatalogueArgs, CliError};
+use crate::output::{Align, Format, Table, csv_writer, write_json};
+use crate::sanitize::clean;
+
+#[derive(Debug, Clone, clap::Args)]
+pub struct Args {
+    #[command(flatten)]
+    pub input: CatalogueArgs,
+    /// Output format: a table for people, CSV (the histogram) or JSON for scripts.
+    #[arg(long, value_enum, default_value = "table")]
+    pub format: Format,
+}
+
+/// Skipped rows listed in the table format; JSON lists them all.
+const SKIPPED_SHOWN: usize = 20;
+
+impl Args {
+    /// The summary of the built-in demo, as a table.
+    pub fn demo() -> Args {
+        Args {
+            input: CatalogueArgs {
+                catalogue: None,
+                columns: None,
+                depth_unit: None,
+                delimiter: None,
+            },
+            format: Format::Table,
+        }
+    }
+}
+
+pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
+    let loaded = args.input.load()?;
+    let cat = &loaded.catalogue;
+    match args.format {
+        Format::Json => write_json(out, &to_json(cat))?,
+        Format::Csv => {
+            let mut w = csv_writer(out);
+            w.write_record(["multiplicity", "stars", "candidates"])
+                .map_err(|e| CliError::Input(e.to_string()))?;
+            for (k, n) in cat.histogram().iter().enumerate().skip(1) {
+                w.write_record([k.to_string(), n.to_string(), (k * n).to_string()])
+                    .map_err(|e| CliError::Input(e.to_string()))?;
+            }
+            w.flush()?;
+            if !cat.skipped.is_empty() {
+                eprintln!(
+                    "starsift: {} rows skipped; `--format table` or `--format json` lists them",
+                    cat.skipped.len()
+                );
+            }
+        }
+        Format::Table => {
+            writeln!(out, "catalogue   {}", clean(&cat.source))?;
+            match (&loaded.survey.name, &loaded.survey_source) {
+                (Some(name), Some(src)) => writeln!(out, "survey      {} ({})", clean(name), clean(src))?,
+                (None, Some(src)) => writeln!(out, "survey      {}", clean(src))?,
+                _ => writeln!(out, "survey      no survey.toml beside the catalogue")?,
+            }
+            writeln!(out, "stars       {}", cat.star_count())?;
+            writeln!(out, "candidates  {}", cat.len())?;
+            writeln!(out, "rows        {} read, {} skipped", cat.rows_seen, cat.skipped.len())?;
+            writeln!(out)?;
+            let mut t = Table::new(&[
+                ("multiplicity", Align::Right),
+                ("stars", Align::Right),
+                ("candidates", Align::Right),
+            ]);
+            for (k, n) in cat.histogram().iter().enumerate().skip(1) {
+                if *n > 0 {
+                    t.row(&[k.to_string(), n.to_string(), (k * n).to_string()]);
+                }
+            }
+            t.row(&["all".to_string(), cat.star_count().to_string(), cat.len().to_string()]);
+            t.write(out, "")?;
+            writeln!(out)?;
+            writeln!(out, "columns")?;
+            let mut t = Table::new(&[
+                ("field", Align::Left),
+                ("header", Align::Left),
+                ("unit", Align::Left),
+                ("mapped by", Align::Left),
+            ]);
+            for c in &cat.columns {
+                t.row(&[c.field, &c.header, &c.unit, &c.how]);
+            }
+            t.write(out, "  ")?;
+            let extras: Vec<_> = cat.extra_headers().map(|h| clean(h).into_owned()).collect();
+            if !extras.is_empty() {
+                writeln!(out, "  kept as extra columns: {}", extras.join(", "))?;
+            }
+            if !cat.skipped.is_empty() {
+                writeln!(out)?;
+                writeln!(
+                    out,
+                    "skipped rows ({} of {}{})",
+                    cat.skipped.len().min(SKIPPED_SHOWN),
+                    cat.skipped.len(),
+                    if cat.skipped.len() > SKIPPED_SHOWN { "; --format json lists all" } else { "" }
+                )?;
+                let mut t = Table::new(&[("line", Align::Right), ("column", Align::Left), ("reason", Align::Left)]);
+                for s in cat.skipped.iter().take(SKIPPED_SHOWN) {
+                    t.row(&[s.line.to_string(), s.column.clone().unwrap_or_else(|| "-".into()), s.reason.clone()]);
+                }
+                t.write(out, "  ")?;
+            }
+        }
+    }
+    Ok(())
+}
+
+/// The JSON summary. Keys: `catalogue`, `stars`, `candidates`, `rows_seen`,
+/// `histogram` (multiplicity as a string → stars), `skipped_rows`, `skipped`
+/// (all of them, {line, column, reason}), `columns`, `extra_columns`.
+pub fn to_json(cat: &Catalogue) -> Value {
+    let histogram: serde_json::Map<String, Value> = cat
+        .histogram()
+        .iter()
+        .enumerate()
+        .skip(1)
+        .filter(|(_, n)| **n > 0)
+        .map(|(k, n)| (k.to_string(), json!(n)))
+        .collect();
+    let skipped: Vec<Value> = cat
+        .skipped
+        .iter()
+        .map(|s| {
+            json!({
+                "line": s.line,
+                "column": s.column.as_deref().map(|c| clean(c).into_owned()),
+                "reason": clean(&s.reason),
+            })
+        })
+        .collect();
+    let columns: Vec<Value> = cat
+        .columns
+        .iter()
+        .map(|c| {
+            json!({
+                "field": c.field,
+                "header": clean(&c.header),
+                "index": c.index,
+                "unit": c.unit,
+                "mapped_by": clean(&c.how),
+            })
+        })
+        .collect();
+    let extras: Vec<String> = cat.extra_headers().map(|h| clean(h).into_owned()).collect();
+    json!({
+        "catalogue": clean(&cat.source),
+        "stars": cat.star_count(),
+        "candidates": cat.len(),
+        "rows_seen": cat.rows_seen,
+        "histogram": histogram,
+        "skipped_rows": cat.skipped.len(),
+        "skipped": skipped,
+        "columns": columns,
+        "extra_columns": extras,
+    })
+}

@@ -1,0 +1,26 @@
+//! starsift: triage of transiting-exoplanet candidate catalogues with live
+//! multiplicity odds.
+//!
+//! Map of the modules:
+//! - [`catalogue`]: loading CSV/TSV(.gz) catalogues into columnar storage
+//!   indexed by host star.
+//! - [`constants`] and [`science`]: constants with sources; transit physics.
+//! - [`survey`]: survey facts (targets searched, false-positive fraction).
+//! - [`odds`]: the multiplicity odds model and its live, incremental state.
+//! - [`demo`]: the built-in invented demo survey and its generator.
+//! - [`sanitize`]: making input text safe to print.
+//! - [`output`]: tables, CSV and JSON for people and scripts.
+//! - [`cli`] and [`cmd`]: the command line; one file per command.
+//!
+//! The core (`catalogue`, `survey`, `odds`) knows nothing of terminals.
+
+pub mod catalogue;
+pub mod constants;
+pub mod cli;
+pub mod cmd;
+pub mod demo;
+
+pub mod output;
+pub mod sanitize;
+pub mod science;
+pub mod survey;

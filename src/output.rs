@@ -1,0 +1,159 @@
+//! Output for people (aligned tables) and for scripts (CSV, JSON). Every cell
+//! that came from an input file passes through [`crate::sanitize::clean`].
+
+use std::io::{self, Write};
+
+use crate::sanitize::clean;
+
+/// The `--format` of a headless command.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
+pub enum Format {
+    Table,
+    Csv,
+    Json,
+}
+
+/// Column alignment in a table for people.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Align {
+    Left,
+    Right,
+}
+
+/// A plain text table: a header row, aligned columns, two spaces between.
+#[derive(Debug, Default)]
+pub struct Table {
+    header: Vec<String>,
+    align: Vec<Align>,
+    rows: Vec<Vec<String>>,
+}
+
+impl Table {
+    pub fn new(columns: &[(&str, Align)]) -> Table {
+        Table {
+            header: columns.iter().map(|(h, _)| h.to_string()).collect(),
+            align: columns.iter().map(|(_, a)| *a).collect(),
+            rows: Vec::new(),
+        }
+    }
+
+    /// Adds a row; cells are sanitised here.
+    pub fn row<S: AsRef<str>>(&mut self, cells: &[S]) {
+        self.rows
+            .push(cells.iter().map(|c| clean(c.as_ref()).into_owned()).collect());
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.rows.is_empty()
+    }
+
+    pub fn write(&self, out: &mut dyn Write, indent: &str) -> io::Result<()> {
+        let n = self.header.len();
+        let mut width: Vec<usize> = self.header.iter().map(|h| h.chars().count()).collect();
+        for r in &self.rows {
+            for (i, c) in r.iter().enumerate().take(n) {
+                width[i] = width[i].max(c.chars().count());
+            }
+        }
+        let line = |out: &mut dyn Write, cells: &[String]| -> io::Result<()> {
+            let mut s = String::from(indent);
+            for (i, c) in cells.iter().enumerate().take(n) {
+                let pad = width[i].saturating_sub(c.chars().count());
+                let last = i + 1 == n;
+                match self.align[i] {
+                    Align::Right => {
+                        s.extend(std::iter::repeat_n(' ', pad));
+                        s.push_str(c);
+                    }
+                    Align::Left => {
+                        s.push_str(c);
+                        if !last {
+                            s.extend(std::iter::repeat_n(' ', pad));
+                        }
+                    }
+                }
+                if !last {
+                    s.push_str("  ");
+                }
+            }
+            writeln!(out, "{}", s.trim_end())
+        };
+        line(out, &self.header)?;
+        for r in &self.rows {
+            line(out, r)?;
+        }
+        Ok(())
+    }
+}
+
+/// A CSV writer over `out` with sanitised text cells.
+pub fn csv_writer(out: &mut dyn Write) -> csv::Writer<&mut dyn Write> {
+    csv::WriterBuilder::new().from_writer(out)
+}
+
+/// Writes a JSON value, pretty, with a final newline. serde_json escapes C0
+/// controls; text cells are sanitised by the callers for DEL and C1.
+pub fn write_json(out: &mut dyn Write, value: &serde_json::Value) -> io::Result<()> {
+    serde_json::to_writer_pretty(&mut *out, value)?;
+    writeln!(out)
+}
+
+/// A number for people: up to `sig` significant digits, no exponent for
+/// everyday magnitudes, `-` for missing.
+pub fn num(v: Option<f64>, sig: usize) -> String {
+    match v {
+        None => "-".into(),
+        Some(v) if !v.is_finite() => "-".into(),
+        Some(v) if v == 0.0 => "0".into(),
+        Some(v) => {
+            let mag = v.abs().log10().floor() as i32;
+            if !(-4..=9).contains(&mag) {
+                return format!("{:.*e}", sig.saturating_sub(1), v);
+            }
+            let decimals = (sig as i32 - 1 - mag).max(0) as usize;
+            let s = format!("{v:.decimals$}");
+            if s.contains('.') {
+                s.trim_end_matches('0').trim_end_matches('.').to_string()
+            } else {
+                s
+            }
+        }
+    }
+}
+
+/// A number for scripts: full precision (shortest round-trip form), empty
+/// for missing.
+pub fn exact(v: Option<f64>) -> String {
+    match v {
+        Some(v) if v.is_finite() => format!("{v}"),
+        _ => String::new(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn numbers_for_people() {
+        assert_eq!(num(Some(52.7143), 3), "52.7");
+        assert_eq!(num(Some(0.001899), 4), "0.001899");
+        assert_eq!(num(Some(156453.0), 3), "156453");
+        assert_eq!(num(Some(1.0e-6), 3), "1.00e-6");
+        assert_eq!(num(None, 3), "-");
+        assert_eq!(num(Some(f64::NAN), 3), "-");
+        assert_eq!(exact(Some(0.1)), "0.1");
+        assert_eq!(exact(None), "");
+    }
+
+    #[test]
+    fn table_aligns_and_sanitises() {
+        let mut t = Table::new(&[("id", Align::Left), ("k", Align::Right)]);
+        t.row(&["a\u{1b}b", "1"]);
+        t.row(&["long-id", "12"]);
+        let mut out = Vec::new();
+        t.write(&mut out, "").unwrap();
+        let s = String::from_utf8(out).unwrap();
+        assert_eq!(s, "id        k\na\\x1bb     1\nlong-id  12\n");
+    }
+}
