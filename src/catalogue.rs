@@ -7,9 +7,7 @@ mod pool;
 
 use std::hash::BuildHasher;
 
-pub use columns::{
-    ColumnMap, ColumnUse, DepthUnit, FIELDS, Field, Mapping, NUMERIC, REQUIRED,
-};
+pub use columns::{ColumnMap, ColumnUse, DepthUnit, FIELDS, Field, Mapping, NUMERIC, REQUIRED};
 pub use load::{LoadOptions, Source};
 use pool::StrPool;
 use serde::Serialize;
@@ -73,7 +71,11 @@ pub enum LoadError {
         median: f64,
     },
     #[error("{path}: line {line}: the header has {count} columns; at most 65535 are supported")]
-    TooManyColumns { path: String, line: u64, count: usize },
+    TooManyColumns {
+        path: String,
+        line: u64,
+        count: usize,
+    },
 }
 
 /// One row that was not loaded, and why.
@@ -105,8 +107,10 @@ pub struct Catalogue {
     extras: Vec<(String, StrPool)>,
     member_start: Vec<u32>,
     members: Vec<CandidateId>,
-    candidate_lookup: hashbrown::HashTable<CandidateId>,
-    star_lookup: hashbrown::HashTable<StarId>,
+    /// (high half of the id's hash, candidate)
+    candidate_lookup: hashbrown::HashTable<(u32, CandidateId)>,
+    /// (high half of the id's hash, star)
+    star_lookup: hashbrown::HashTable<(u32, StarId)>,
     hasher: hashbrown::DefaultHashBuilder,
     /// Which header fed which field, in which unit.
     pub columns: Vec<ColumnUse>,
@@ -187,15 +191,19 @@ impl Catalogue {
     pub fn find_candidate(&self, id: &str) -> Option<CandidateId> {
         let h = self.hasher.hash_one(id.as_bytes());
         self.candidate_lookup
-            .find(h, |&c| self.candidates.get(c as usize) == id)
-            .copied()
+            .find(h, |e| {
+                e.0 == load::tag_of(h) && self.candidates.get(e.1 as usize) == id
+            })
+            .map(|e| e.1)
     }
 
     pub fn find_star(&self, id: &str) -> Option<StarId> {
         let h = self.hasher.hash_one(id.as_bytes());
         self.star_lookup
-            .find(h, |&s| self.stars.get(s as usize) == id)
-            .copied()
+            .find(h, |e| {
+                e.0 == load::tag_of(h) && self.stars.get(e.1 as usize) == id
+            })
+            .map(|e| e.1)
     }
 
     /// Number of stars with exactly k candidates, indexed by k (index 0 is 0).
@@ -222,15 +230,13 @@ impl Catalogue {
             .enumerate()
             .map(|(i, &v)| (v, i as CandidateId))
             .collect();
-        keyed.sort_unstable_by(|a, b| {
-            match (a.0.is_nan(), b.0.is_nan()) {
-                (true, true) => a.1.cmp(&b.1),
-                (true, false) => std::cmp::Ordering::Greater,
-                (false, true) => std::cmp::Ordering::Less,
-                (false, false) => {
-                    let o = a.0.total_cmp(&b.0);
-                    if descending { o.reverse() } else { o }.then(a.1.cmp(&b.1))
-                }
+        keyed.sort_unstable_by(|a, b| match (a.0.is_nan(), b.0.is_nan()) {
+            (true, true) => a.1.cmp(&b.1),
+            (true, false) => std::cmp::Ordering::Greater,
+            (false, true) => std::cmp::Ordering::Less,
+            (false, false) => {
+                let o = a.0.total_cmp(&b.0);
+                if descending { o.reverse() } else { o }.then(a.1.cmp(&b.1))
             }
         });
         keyed.into_iter().map(|(_, i)| i).collect()

@@ -93,7 +93,10 @@ impl CatalogueArgs {
         Ok(LoadOptions {
             columns,
             depth_unit: self.depth_unit.as_deref().and_then(DepthUnit::parse),
-            delimiter: self.delimiter.as_deref().map(|d| if d == "tab" { b'\t' } else { b',' }),
+            delimiter: self
+                .delimiter
+                .as_deref()
+                .map(|d| if d == "tab" { b'\t' } else { b',' }),
         })
     }
 

@@ -15,9 +15,9 @@
 //! The core (`catalogue`, `survey`, `odds`) knows nothing of terminals.
 
 pub mod catalogue;
-pub mod constants;
 pub mod cli;
 pub mod cmd;
+pub mod constants;
 pub mod demo;
 
 pub mod output;

@@ -39,8 +39,12 @@ impl Table {
 
     /// Adds a row; cells are sanitised here.
     pub fn row<S: AsRef<str>>(&mut self, cells: &[S]) {
-        self.rows
-            .push(cells.iter().map(|c| clean(c.as_ref()).into_owned()).collect());
+        self.rows.push(
+            cells
+                .iter()
+                .map(|c| clean(c.as_ref()).into_owned())
+                .collect(),
+        );
     }
 
     pub fn is_empty(&self) -> bool {
@@ -104,7 +108,7 @@ pub fn num(v: Option<f64>, sig: usize) -> String {
     match v {
         None => "-".into(),
         Some(v) if !v.is_finite() => "-".into(),
-        Some(v) if v == 0.0 => "0".into(),
+        Some(0.0) => "0".into(),
         Some(v) => {
             let mag = v.abs().log10().floor() as i32;
             if !(-4..=9).contains(&mag) {
@@ -154,6 +158,6 @@ mod tests {
         let mut out = Vec::new();
         t.write(&mut out, "").unwrap();
         let s = String::from_utf8(out).unwrap();
-        assert_eq!(s, "id        k\na\\x1bb     1\nlong-id  12\n");
+        assert_eq!(s, "id        k\na\\x1bb    1\nlong-id  12\n");
     }
 }

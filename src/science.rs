@@ -36,7 +36,11 @@ pub fn durations_h(period_d: f64, a_rstar: f64, ror: f64, impact: f64) -> Option
         return None;
     }
     let t14 = chord(1.0 + ror);
-    let t23 = if impact > 1.0 - ror { 0.0 } else { chord(1.0 - ror) };
+    let t23 = if impact > 1.0 - ror {
+        0.0
+    } else {
+        chord(1.0 - ror)
+    };
     Some((t14, t23))
 }
 
@@ -77,16 +81,28 @@ mod tests {
         let a_earth = semi_major_axis_m(SIDEREAL_YEAR_D, 1.0, GM_EARTH) / R_SUN_M;
         let k = R_EARTH_M / R_SUN_M;
         let (t14, t23) = durations_h(SIDEREAL_YEAR_D, a_earth, k, 0.0).unwrap();
-        assert!((t14 - 13.095).abs() < 2e-3 && (t23 - 12.858).abs() < 2e-3, "{t14} {t23}");
+        assert!(
+            (t14 - 13.095).abs() < 2e-3 && (t23 - 12.858).abs() < 2e-3,
+            "{t14} {t23}"
+        );
         let (t14, t23) = durations_h(SIDEREAL_YEAR_D, a_earth, k, 0.5).unwrap();
-        assert!((t14 - 11.375).abs() < 2e-3 && (t23 - 11.100).abs() < 2e-3, "{t14} {t23}");
+        assert!(
+            (t14 - 11.375).abs() < 2e-3 && (t23 - 11.100).abs() < 2e-3,
+            "{t14} {t23}"
+        );
         // Hot Jupiter: P = 3 d, 1 M☉, 1 R☉, k = 0.1 (a/R★ = 8.7536).
         let a = a_over_rstar(3.0, 1.0, 1.0);
         assert!((a - 8.7536).abs() < 1e-3, "{a}");
         let (t14, t23) = durations_h(3.0, a, 0.1, 0.0).unwrap();
-        assert!((t14 - 2.888).abs() < 1e-3 && (t23 - 2.361).abs() < 1e-3, "{t14} {t23}");
+        assert!(
+            (t14 - 2.888).abs() < 1e-3 && (t23 - 2.361).abs() < 1e-3,
+            "{t14} {t23}"
+        );
         let (t14, t23) = durations_h(3.0, a, 0.1, 0.7).unwrap();
-        assert!((t14 - 2.232).abs() < 1e-3 && (t23 - 1.487).abs() < 1e-3, "{t14} {t23}");
+        assert!(
+            (t14 - 2.232).abs() < 1e-3 && (t23 - 1.487).abs() < 1e-3,
+            "{t14} {t23}"
+        );
         assert!(durations_h(3.0, a, 0.1, 1.2).is_none());
         assert_eq!(durations_h(3.0, a, 0.1, 0.95).unwrap().1, 0.0);
     }

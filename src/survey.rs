@@ -45,9 +45,9 @@ impl SurveyFacts {
     pub fn from_toml(text: &str, path: &str) -> Result<SurveyFacts, SurveyError> {
         toml::from_str(text).map_err(|e| SurveyError::Parse {
             path: path.to_string(),
-            line: e
-                .span()
-                .map_or(0, |s| text[..s.start.min(text.len())].matches('\n').count() + 1),
+            line: e.span().map_or(0, |s| {
+                text[..s.start.min(text.len())].matches('\n').count() + 1
+            }),
             message: e.message().to_string(),
         })
     }
@@ -62,7 +62,10 @@ impl SurveyFacts {
 
     /// The `survey.toml` beside a catalogue, if there is one.
     pub fn beside(catalogue: &Path) -> Option<PathBuf> {
-        let p = catalogue.parent().unwrap_or(Path::new(".")).join("survey.toml");
+        let p = catalogue
+            .parent()
+            .unwrap_or(Path::new("."))
+            .join("survey.toml");
         p.is_file().then_some(p)
     }
 }
@@ -73,11 +76,15 @@ mod tests {
 
     #[test]
     fn parses_and_reports_lines() {
-        let s = SurveyFacts::from_toml("targets_searched = 1000\nfp_fraction_singles = 0.1\n", "s.toml")
-            .unwrap();
+        let s = SurveyFacts::from_toml(
+            "targets_searched = 1000\nfp_fraction_singles = 0.1\n",
+            "s.toml",
+        )
+        .unwrap();
         assert_eq!(s.targets_searched, Some(1000));
         assert_eq!(s.fp_fraction_singles, Some(0.1));
-        let e = SurveyFacts::from_toml("targets_searched = 1000\ntargets = 5\n", "s.toml").unwrap_err();
+        let e =
+            SurveyFacts::from_toml("targets_searched = 1000\ntargets = 5\n", "s.toml").unwrap_err();
         assert!(e.to_string().starts_with("s.toml:2:"), "{e}");
         let e = SurveyFacts::from_toml("targets_searched = \"many\"\n", "s.toml").unwrap_err();
         assert!(e.to_string().starts_with("s.toml:1:"), "{e}");

@@ -188,7 +188,10 @@ impl Field {
 
     fn from_header(header: &str) -> Option<Field> {
         let h = header.trim().to_ascii_lowercase();
-        FIELDS.iter().copied().find(|f| f.synonyms().contains(&h.as_str()))
+        FIELDS
+            .iter()
+            .copied()
+            .find(|f| f.synonyms().contains(&h.as_str()))
     }
 }
 
@@ -286,9 +289,9 @@ impl ColumnMap {
                     ),
                 )
             })?;
-            let header = value.as_str().ok_or_else(|| {
-                bad(line, format!("`{key}` must be a string naming a header"))
-            })?;
+            let header = value
+                .as_str()
+                .ok_or_else(|| bad(line, format!("`{key}` must be a string naming a header")))?;
             map.fields.insert(field, header.to_string());
         }
         Ok(map)
@@ -406,9 +409,17 @@ mod tests {
 
     #[test]
     fn headers_map_case_insensitively() {
-        let header: Vec<String> = ["Host_ID", "CAND", "Per", "T0", "Depth_PPM", "T14", "Extra col"]
-            .map(String::from)
-            .to_vec();
+        let header: Vec<String> = [
+            "Host_ID",
+            "CAND",
+            "Per",
+            "T0",
+            "Depth_PPM",
+            "T14",
+            "Extra col",
+        ]
+        .map(String::from)
+        .to_vec();
         let m = Mapping::resolve("x.csv", &header, &ColumnMap::default()).unwrap();
         assert_eq!(m.by_field[&Field::Star], 0);
         assert_eq!(m.by_field[&Field::Candidate], 1);
@@ -429,8 +440,14 @@ mod tests {
     #[test]
     fn depth_unit_from_header() {
         assert_eq!(DepthUnit::from_header("depth_ppm"), Some(DepthUnit::Ppm));
-        assert_eq!(DepthUnit::from_header("Depth_Frac"), Some(DepthUnit::Fraction));
-        assert_eq!(DepthUnit::from_header("depth_percent"), Some(DepthUnit::Percent));
+        assert_eq!(
+            DepthUnit::from_header("Depth_Frac"),
+            Some(DepthUnit::Fraction)
+        );
+        assert_eq!(
+            DepthUnit::from_header("depth_percent"),
+            Some(DepthUnit::Percent)
+        );
         assert_eq!(DepthUnit::from_header("depth"), None);
     }
 }

@@ -1,18 +1,20 @@
 //! Reading a catalogue file: CSV or TSV, optionally gzip-compressed, with a
 //! UTF-8 BOM, CRLF line ends, `#` comment lines and quoted fields. Bad rows are
 //! skipped and listed; only an unreadable file or header stops the load.
+//! Messages keep the file's text as it is; output sanitises it (one chokepoint).
 
 use std::fs::File;
 use std::hash::BuildHasher;
 use std::io::{BufRead, BufReader, Read};
 use std::path::Path;
+use std::sync::{Mutex, mpsc};
 
 use csv::ByteRecord;
 use flate2::read::MultiGzDecoder;
 
 use super::columns::{ColumnMap, ColumnUse, DepthUnit, Field, Mapping, NUMERIC};
 use super::pool::StrPool;
-use super::{Catalogue, CandidateId, LoadError, Skip, StarId};
+use super::{CandidateId, Catalogue, LoadError, Skip, StarId};
 
 /// How to read a catalogue. The default reads any supported file unaided.
 #[derive(Clone, Debug, Default)]
@@ -30,7 +32,10 @@ pub struct LoadOptions {
 pub enum Source<'a> {
     Path(&'a Path),
     /// Bytes in memory (the built-in demo), with the name to report.
-    Bytes { name: &'a str, data: &'a [u8] },
+    Bytes {
+        name: &'a str,
+        data: &'a [u8],
+    },
 }
 
 const GZIP_MAGIC: [u8; 2] = [0x1f, 0x8b];
@@ -42,26 +47,34 @@ const PPM_MEDIAN_FLOOR: f64 = 50.0;
 
 impl Catalogue {
     pub fn load(source: Source<'_>, opts: &LoadOptions) -> Result<Catalogue, LoadError> {
-        let (name, ext_name, raw): (String, String, Box<dyn Read + Send>) = match source {
-            Source::Path(p) => {
-                let name = p.display().to_string();
-                let file = File::open(p).map_err(|source| LoadError::Io {
-                    path: name.clone(),
-                    source,
-                })?;
-                (name.clone(), name, Box::new(file))
-            }
-            Source::Bytes { name, data } => {
-                (name.to_string(), name.to_string(), Box::new(std::io::Cursor::new(data.to_vec())))
-            }
-        };
+        let (name, mut size_hint, raw): (String, Option<u64>, Box<dyn Read + Send + '_>) =
+            match source {
+                Source::Path(p) => {
+                    let name = p.display().to_string();
+                    let file = File::open(p).map_err(|source| LoadError::Io {
+                        path: name.clone(),
+                        source,
+                    })?;
+                    let size = file.metadata().ok().map(|m| m.len());
+                    (name, size, Box::new(file))
+                }
+                Source::Bytes { name, data } => (
+                    name.to_string(),
+                    Some(data.len() as u64),
+                    Box::new(std::io::Cursor::new(data)),
+                ),
+            };
+        let ext_name = name.clone();
         let io_err = |source| LoadError::Io {
             path: name.clone(),
             source,
         };
         let mut raw = BufReader::with_capacity(1 << 16, raw);
         let gz = raw.fill_buf().map_err(io_err)?.starts_with(&GZIP_MAGIC);
-        let decoded: Box<dyn Read + Send> = if gz {
+        if gz {
+            size_hint = None; // the decompressed size is not known ahead
+        }
+        let decoded: Box<dyn Read + Send + '_> = if gz {
             Box::new(MultiGzDecoder::new(raw))
         } else {
             Box::new(raw)
@@ -73,9 +86,11 @@ impl Catalogue {
         }
         let delimiter = match opts.delimiter {
             Some(d) => d,
-            None => delimiter_for(&ext_name).unwrap_or_else(|| sniff(text.fill_buf().unwrap_or(&[]))),
+            None => {
+                delimiter_for(&ext_name).unwrap_or_else(|| sniff(text.fill_buf().unwrap_or(&[])))
+            }
         };
-        read_catalogue(name, text, delimiter, opts)
+        read_catalogue(name, text, delimiter, opts, size_hint)
     }
 }
 
@@ -103,65 +118,321 @@ fn sniff(head: &[u8]) -> u8 {
     if tabs > commas { b'\t' } else { b',' }
 }
 
+/// Bytes handed to one worker at a time: large enough to amortise the
+/// hand-over, small enough to keep memory flat.
+const CHUNK_BYTES: usize = 2 << 20;
+/// The first read, which finds the header; a small file is read whole by it.
+const HEAD_BYTES: usize = 64 << 10;
+
+/// Reads the header, then parses the rest in record-aligned chunks on worker
+/// threads and merges the parts in file order, so the result is the same as
+/// a serial read, row for row.
 fn read_catalogue(
     name: String,
-    text: impl Read,
+    mut text: impl Read + Send,
     delimiter: u8,
     opts: &LoadOptions,
+    size_hint: Option<u64>,
 ) -> Result<Catalogue, LoadError> {
-    let mut rdr = csv::ReaderBuilder::new()
-        .delimiter(delimiter)
-        .comment(Some(b'#'))
-        .flexible(true)
-        .has_headers(false)
-        .buffer_capacity(1 << 18)
-        .from_reader(text);
-    let mut rec = ByteRecord::new();
-    let path = name.clone();
-    let read_err = |e: csv::Error, line: u64| LoadError::Read {
-        path: path.clone(),
-        line,
-        message: e.to_string(),
+    let io_err = |source| LoadError::Io {
+        path: name.clone(),
+        source,
     };
-    let header_line;
-    loop {
-        if !rdr.read_byte_record(&mut rec).map_err(|e| read_err(e, 1))? {
+    // The header: the first record that is neither a comment nor blank.
+    let mut buf: Vec<u8> = Vec::new();
+    let mut eof = false;
+    let (header_line, header_end) = loop {
+        if let Some(found) = find_header(&buf, eof) {
+            break found;
+        }
+        if eof {
             return Err(LoadError::Empty { path: name });
         }
-        // A blank line before the header is not a header.
-        if !(rec.len() == 1 && rec[0].iter().all(u8::is_ascii_whitespace)) {
-            header_line = rec.position().map_or(1, |p| p.line());
-            break;
-        }
-    }
-    if rec.len() > u16::MAX as usize {
+        let want = HEAD_BYTES.max(buf.len());
+        eof = fill(&mut text, &mut buf, want).map_err(io_err)?;
+    };
+    let header_fields = parse_header(&buf[header_end.0..header_end.1], delimiter);
+    if header_fields.len() > u16::MAX as usize {
         return Err(LoadError::TooManyColumns {
             path: name,
             line: header_line,
-            count: rec.len(),
+            count: header_fields.len(),
         });
     }
-    let header: Vec<String> = rec.iter().map(|h| String::from_utf8_lossy(h).trim().to_string()).collect();
-    let mapping = Mapping::resolve(&name, &header, &opts.columns)?;
-    let mut b = Builder::new(name, header, mapping);
-    let mut last_line = header_line;
-    loop {
-        match rdr.read_byte_record(&mut rec) {
-            Ok(true) => {}
-            Ok(false) => break,
-            Err(e) => return Err(read_err(e, last_line + 1)),
+    let mapping = Mapping::resolve(&name, &header_fields, &opts.columns)?;
+    let first_line = header_line + count_newlines(&buf[header_end.0..header_end.1]);
+    buf.drain(..header_end.1);
+    let layout = Layout::new(header_fields, mapping, delimiter);
+    let mut merger = Merger::new(name, &layout);
+    if eof {
+        // Everything is in memory already: no threads for a small file.
+        let chunk = Chunk {
+            seq: 0,
+            line: first_line,
+            bytes: buf,
+        };
+        let part = layout.parse(&chunk, &merger.hasher);
+        merger.absorb(part, size_hint);
+        return merger.finish(&layout, opts);
+    }
+    let workers = std::thread::available_parallelism()
+        .map_or(2, |n| n.get())
+        .clamp(1, 4);
+
+    let (chunk_tx, chunk_rx) = mpsc::sync_channel::<Chunk>(workers * 2);
+    let chunk_rx = Mutex::new(chunk_rx);
+    // Bounded too, so parsed parts cannot pile up ahead of the merger.
+    let (part_tx, part_rx) = mpsc::sync_channel::<(usize, Result<Part, LoadError>)>(workers);
+    let mut failure = None;
+    std::thread::scope(|s| {
+        let reader_tx = part_tx.clone();
+        let path = merger.name.clone();
+        // The reader: cuts the stream at record boundaries.
+        s.spawn(move || {
+            let mut seq = 0;
+            let mut line = first_line;
+            let mut carry = buf;
+            let mut eof = eof;
+            let mut need_more = false;
+            loop {
+                if !eof && (need_more || carry.len() < CHUNK_BYTES) {
+                    need_more = false;
+                    match fill(&mut text, &mut carry, CHUNK_BYTES) {
+                        Ok(e) => eof = e,
+                        Err(e) => {
+                            let err = LoadError::Read {
+                                path: path.clone(),
+                                line,
+                                message: e.to_string(),
+                            };
+                            let _ = reader_tx.send((seq, Err(err)));
+                            return;
+                        }
+                    }
+                }
+                let cut = if eof {
+                    carry.len()
+                } else {
+                    match last_record_end(&carry, delimiter) {
+                        Some(c) => c,
+                        None => {
+                            need_more = true; // one record longer than a chunk
+                            continue;
+                        }
+                    }
+                };
+                if cut == 0 {
+                    return;
+                }
+                let rest = carry.split_off(cut);
+                let chunk = std::mem::replace(&mut carry, rest);
+                let lines = count_newlines(&chunk);
+                if chunk_tx
+                    .send(Chunk {
+                        seq,
+                        line,
+                        bytes: chunk,
+                    })
+                    .is_err()
+                {
+                    return;
+                }
+                seq += 1;
+                line += lines;
+                if eof && carry.is_empty() {
+                    return;
+                }
+            }
+        });
+        for _ in 0..workers {
+            let part_tx = part_tx.clone();
+            let chunk_rx = &chunk_rx;
+            let layout = &layout;
+            let hasher = merger.hasher;
+            s.spawn(move || {
+                loop {
+                    let next = match chunk_rx.lock() {
+                        Ok(rx) => rx.recv(),
+                        Err(_) => return,
+                    };
+                    let Ok(chunk) = next else { return };
+                    let part = layout.parse(&chunk, &hasher);
+                    if part_tx.send((chunk.seq, Ok(part))).is_err() {
+                        return;
+                    }
+                }
+            });
         }
-        let line = rec.position().map_or(last_line + 1, |p| p.line());
-        last_line = line;
-        if rec.len() == 1 && rec[0].iter().all(u8::is_ascii_whitespace) {
-            continue; // blank line
+        drop(part_tx);
+        // The merger: takes parts in file order. After a failure it keeps
+        // draining, so no thread is left blocked.
+        let mut waiting = std::collections::BTreeMap::new();
+        let mut next = 0;
+        for (seq, part) in part_rx {
+            if failure.is_some() {
+                continue;
+            }
+            waiting.insert(seq, part);
+            while let Some(part) = waiting.remove(&next) {
+                match part {
+                    Ok(p) => merger.absorb(p, size_hint),
+                    Err(e) => {
+                        failure = Some(e);
+                        break;
+                    }
+                }
+                next += 1;
+            }
         }
-        b.rows_seen += 1;
-        if let Err(skip) = b.add_row(&rec, line) {
-            b.skipped.push(skip);
+    });
+    if let Some(e) = failure {
+        return Err(e);
+    }
+    merger.finish(&layout, opts)
+}
+
+/// Reads until `buf` holds `want` more bytes or the stream ends; true at the end.
+fn fill(text: &mut impl Read, buf: &mut Vec<u8>, want: usize) -> std::io::Result<bool> {
+    let target = buf.len() + want;
+    while buf.len() < target {
+        let start = buf.len();
+        buf.resize(target, 0);
+        match text.read(&mut buf[start..]) {
+            Ok(0) => {
+                buf.truncate(start);
+                return Ok(true);
+            }
+            Ok(n) => buf.truncate(start + n),
+            Err(e) if e.kind() == std::io::ErrorKind::Interrupted => buf.truncate(start),
+            Err(e) => {
+                buf.truncate(start);
+                return Err(e);
+            }
         }
     }
-    b.finish(opts)
+    Ok(false)
+}
+
+fn count_newlines(b: &[u8]) -> u64 {
+    memchr::memchr_iter(b'\n', b).count() as u64
+}
+
+/// The header record: (its 1-based line, (start, end) byte range including
+/// its line end). Skips `#` comment lines and blank lines before it.
+fn find_header(buf: &[u8], eof: bool) -> Option<(u64, (usize, usize))> {
+    let mut pos = 0;
+    let mut line = 1;
+    loop {
+        let nl = memchr::memchr(b'\n', &buf[pos..]).map(|i| pos + i + 1);
+        let end = nl.unwrap_or(buf.len());
+        let l = &buf[pos..end];
+        if l.starts_with(b"#") || l.iter().all(u8::is_ascii_whitespace) {
+            nl?; // comment or blank to the end: read more, or the file is empty
+            pos = end;
+            line += 1;
+            continue;
+        }
+        // A header may hold quoted line breaks: find its real end.
+        return match first_record_end(&buf[pos..]) {
+            Some(e) => Some((line, (pos, pos + e))),
+            None if eof => Some((line, (pos, buf.len()))),
+            None => None,
+        };
+    }
+}
+
+fn parse_header(record: &[u8], delimiter: u8) -> Vec<String> {
+    let mut rdr = csv::ReaderBuilder::new()
+        .delimiter(delimiter)
+        .has_headers(false)
+        .flexible(true)
+        .from_reader(record);
+    let mut rec = ByteRecord::new();
+    match rdr.read_byte_record(&mut rec) {
+        Ok(true) => rec
+            .iter()
+            .map(|h| String::from_utf8_lossy(h).trim().to_string())
+            .collect(),
+        _ => Vec::new(),
+    }
+}
+
+/// Quote-aware CSV scanning state, as csv-core reads: a quote opens a quoted
+/// field only at the start of a field; `""` inside is an escaped quote.
+#[derive(Clone, Copy, PartialEq)]
+enum Scan {
+    RecordStart,
+    FieldStart,
+    InField,
+    InQuoted,
+    QuoteInQuoted,
+}
+
+/// Byte offsets just past each record end (`\n` outside quotes) in `buf`,
+/// which starts at a record boundary; calls `at` for each, stopping when it
+/// returns false. `#` lines at a record start are comments.
+fn scan_record_ends(buf: &[u8], delimiter: u8, mut at: impl FnMut(usize) -> bool) {
+    let mut st = Scan::RecordStart;
+    let mut i = 0;
+    while i < buf.len() {
+        let b = buf[i];
+        st = match st {
+            Scan::RecordStart if b == b'#' => match memchr::memchr(b'\n', &buf[i..]) {
+                Some(j) => {
+                    i += j + 1;
+                    if !at(i) {
+                        return;
+                    }
+                    continue;
+                }
+                None => return,
+            },
+            Scan::RecordStart | Scan::FieldStart if b == b'"' => Scan::InQuoted,
+            Scan::InQuoted if b == b'"' => Scan::QuoteInQuoted,
+            Scan::InQuoted => Scan::InQuoted,
+            Scan::QuoteInQuoted if b == b'"' => Scan::InQuoted,
+            _ if b == b'\n' => {
+                if !at(i + 1) {
+                    return;
+                }
+                Scan::RecordStart
+            }
+            _ if b == delimiter => Scan::FieldStart,
+            _ => Scan::InField,
+        };
+        i += 1;
+    }
+}
+
+fn first_record_end(buf: &[u8]) -> Option<usize> {
+    let mut found = None;
+    // The delimiter does not change where a record ends.
+    scan_record_ends(buf, b',', |e| {
+        found = Some(e);
+        false
+    });
+    found
+}
+
+/// The end of the last complete record in `buf`. Without any quote in the
+/// buffer every line end is a record end, found at memchr speed.
+fn last_record_end(buf: &[u8], delimiter: u8) -> Option<usize> {
+    if memchr::memchr(b'"', buf).is_none() {
+        return memchr::memrchr(b'\n', buf).map(|i| i + 1);
+    }
+    let mut last = None;
+    scan_record_ends(buf, delimiter, |e| {
+        last = Some(e);
+        true
+    });
+    last
+}
+
+struct Chunk {
+    seq: usize,
+    /// Line number of the chunk's first byte.
+    line: u64,
+    bytes: Vec<u8>,
 }
 
 /// What one cell held.
@@ -172,94 +443,225 @@ enum Cell {
 }
 
 /// Cells that mean "no value" in common catalogue exports.
-const MISSING_TOKENS: [&[u8]; 9] = [b"", b"nan", b"NaN", b"NAN", b"null", b"NULL", b"NA", b"N/A", b"--"];
+const MISSING_TOKENS: [&[u8]; 9] = [
+    b"", b"nan", b"NaN", b"NAN", b"null", b"NULL", b"NA", b"N/A", b"--",
+];
 
 fn parse_cell(raw: &[u8]) -> Cell {
     let b = raw.trim_ascii();
+    if let Some(v) = fast_f64(b) {
+        return Cell::Value(v);
+    }
     if MISSING_TOKENS.contains(&b) {
         return Cell::Missing;
     }
-    match std::str::from_utf8(b).ok().and_then(|s| s.parse::<f64>().ok()) {
+    match std::str::from_utf8(b)
+        .ok()
+        .and_then(|s| s.parse::<f64>().ok())
+    {
         Some(v) if v.is_finite() => Cell::Value(v),
-        Some(_) => Cell::Missing, // inf: treat like NaN, checked below for required fields
+        Some(_) => Cell::Missing, // inf: treated like NaN; required fields say so
         None => Cell::Bad,
     }
 }
 
-struct Builder {
-    name: String,
+/// Powers of ten exactly representable in f64.
+const POW10: [f64; 23] = [
+    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,
+    1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
+];
+
+/// Clinger's fast path (Clinger 1990, "How to read floating point numbers
+/// accurately", PLDI): a decimal `[+-]digits[.digits][e[+-]digits]` whose
+/// digits fit in a 53-bit integer m and whose power of ten |e| ≤ 22 is exactly
+/// m·10^e or m/10^−e, correctly rounded by one IEEE operation. Anything else
+/// returns `None` and goes to the standard library's parser.
+fn fast_f64(b: &[u8]) -> Option<f64> {
+    let (neg, mut i) = match b.first()? {
+        b'-' => (true, 1),
+        b'+' => (false, 1),
+        _ => (false, 0),
+    };
+    let mut m: u64 = 0;
+    let mut digits = 0;
+    let mut exp: i32 = 0;
+    let start = i;
+    while i < b.len() && b[i].is_ascii_digit() {
+        m = m.checked_mul(10)?.checked_add((b[i] - b'0') as u64)?;
+        digits += 1;
+        i += 1;
+    }
+    if i < b.len() && b[i] == b'.' {
+        i += 1;
+        while i < b.len() && b[i].is_ascii_digit() {
+            m = m.checked_mul(10)?.checked_add((b[i] - b'0') as u64)?;
+            digits += 1;
+            exp -= 1;
+            i += 1;
+        }
+    }
+    if digits == 0 || (i == start + 1 && b[start] == b'.') {
+        return None;
+    }
+    if i < b.len() && (b[i] == b'e' || b[i] == b'E') {
+        i += 1;
+        let eneg = match b.get(i) {
+            Some(b'-') => {
+                i += 1;
+                true
+            }
+            Some(b'+') => {
+                i += 1;
+                false
+            }
+            _ => false,
+        };
+        let es = i;
+        let mut e: i32 = 0;
+        while i < b.len() && b[i].is_ascii_digit() {
+            e = e.checked_mul(10)?.checked_add((b[i] - b'0') as i32)?;
+            i += 1;
+        }
+        if i == es {
+            return None;
+        }
+        exp = exp.checked_add(if eneg { -e } else { e })?;
+    }
+    if i != b.len() || m > (1u64 << 53) || !(-22..=22).contains(&exp) {
+        return None;
+    }
+    let v = if exp < 0 {
+        m as f64 / POW10[(-exp) as usize]
+    } else {
+        m as f64 * POW10[exp as usize]
+    };
+    Some(if neg { -v } else { v })
+}
+
+/// Where each field is in a row of this catalogue; shared by the workers.
+struct Layout {
     header: Vec<String>,
     mapping: Mapping,
+    delimiter: u8,
     star_col: usize,
     cand_col: usize,
     /// (slot in NUMERIC, column index)
     num_cols: Vec<(usize, usize)>,
     lc_col: Option<usize>,
-    candidates: StrPool,
-    stars: StrPool,
-    star_of: Vec<StarId>,
-    lines: Vec<u32>,
-    num: Vec<Option<Vec<f64>>>,
-    lightcurve: Option<StrPool>,
-    extras: Vec<(usize, String, StrPool)>,
-    candidate_lookup: hashbrown::HashTable<CandidateId>,
-    star_lookup: hashbrown::HashTable<StarId>,
-    hasher: hashbrown::DefaultHashBuilder,
-    scratch: Vec<f64>,
-    skipped: Vec<Skip>,
-    rows_seen: u64,
+    extra_cols: Vec<usize>,
 }
 
-impl Builder {
-    fn new(name: String, header: Vec<String>, mapping: Mapping) -> Builder {
+/// The rows of one chunk, parsed and validated, not yet deduplicated.
+struct Part {
+    candidates: StrPool,
+    candidate_hash: Vec<u64>,
+    stars: StrPool,
+    star_hash: Vec<u64>,
+    lines: Vec<u32>,
+    /// One column per `Layout::num_cols` entry.
+    num: Vec<Vec<f64>>,
+    lightcurve: Option<StrPool>,
+    extras: Vec<StrPool>,
+    skipped: Vec<Skip>,
+    rows_seen: u64,
+    bytes: usize,
+}
+
+impl Layout {
+    fn new(header: Vec<String>, mapping: Mapping, delimiter: u8) -> Layout {
         let col = |f: Field| mapping.by_field.get(&f).copied();
-        let num_cols: Vec<(usize, usize)> = NUMERIC
-            .iter()
-            .enumerate()
-            .filter_map(|(slot, f)| col(*f).map(|c| (slot, c)))
-            .collect();
-        let mut num = vec![None; NUMERIC.len()];
-        for (slot, _) in &num_cols {
-            num[*slot] = Some(Vec::new());
-        }
-        let extras = mapping
-            .extras
-            .iter()
-            .map(|(i, h)| (*i, h.clone(), StrPool::default()))
-            .collect();
-        Builder {
+        Layout {
             star_col: col(Field::Star).unwrap_or(0),
             cand_col: col(Field::Candidate).unwrap_or(0),
             lc_col: col(Field::Lightcurve),
-            lightcurve: col(Field::Lightcurve).map(|_| StrPool::default()),
-            num_cols,
-            num,
-            extras,
-            name,
+            num_cols: NUMERIC
+                .iter()
+                .enumerate()
+                .filter_map(|(slot, f)| col(*f).map(|c| (slot, c)))
+                .collect(),
+            extra_cols: mapping.extras.iter().map(|(i, _)| *i).collect(),
             header,
             mapping,
-            candidates: StrPool::with_capacity(1024, 16 * 1024),
-            stars: StrPool::with_capacity(1024, 16 * 1024),
-            star_of: Vec::new(),
+            delimiter,
+        }
+    }
+
+    fn parse(&self, chunk: &Chunk, hasher: &hashbrown::DefaultHashBuilder) -> Part {
+        let mut part = Part {
+            candidates: StrPool::with_capacity(chunk.bytes.len() / 100, chunk.bytes.len() / 8),
+            candidate_hash: Vec::new(),
+            stars: StrPool::with_capacity(chunk.bytes.len() / 100, chunk.bytes.len() / 10),
+            star_hash: Vec::new(),
             lines: Vec::new(),
-            candidate_lookup: hashbrown::HashTable::new(),
-            star_lookup: hashbrown::HashTable::new(),
-            hasher: hashbrown::DefaultHashBuilder::default(),
-            scratch: vec![f64::NAN; NUMERIC.len()],
+            num: vec![Vec::with_capacity(chunk.bytes.len() / 100); self.num_cols.len()],
+            lightcurve: self.lc_col.map(|_| StrPool::default()),
+            extras: vec![StrPool::default(); self.extra_cols.len()],
             skipped: Vec::new(),
             rows_seen: 0,
+            bytes: chunk.bytes.len(),
+        };
+        let mut rdr = csv::ReaderBuilder::new()
+            .delimiter(self.delimiter)
+            .comment(Some(b'#'))
+            .flexible(true)
+            .has_headers(false)
+            .from_reader(&chunk.bytes[..]);
+        let mut rec = ByteRecord::new();
+        let mut scratch = vec![f64::NAN; NUMERIC.len()];
+        let mut last_line = chunk.line;
+        // Reading from memory fails only on a broken record: that ends the chunk.
+        while let Ok(true) = rdr.read_byte_record(&mut rec) {
+            let line = rec
+                .position()
+                .map_or(last_line, |p| chunk.line + p.line() - 1);
+            last_line = line;
+            if rec.len() == 1 && rec[0].iter().all(u8::is_ascii_whitespace) {
+                continue; // blank line
+            }
+            part.rows_seen += 1;
+            match self.row(&rec, line, &mut scratch) {
+                Ok((star, cand)) => {
+                    part.candidate_hash.push(hasher.hash_one(cand.as_bytes()));
+                    part.candidates.push(cand);
+                    part.star_hash.push(hasher.hash_one(star.as_bytes()));
+                    part.stars.push(star);
+                    part.lines.push(u32::try_from(line).unwrap_or(u32::MAX));
+                    for (j, &(slot, _)) in self.num_cols.iter().enumerate() {
+                        part.num[j].push(scratch[slot]);
+                    }
+                    if let (Some(pool), Some(col)) = (part.lightcurve.as_mut(), self.lc_col) {
+                        pool.push(&String::from_utf8_lossy(rec[col].trim_ascii()));
+                    }
+                    for (pool, &col) in part.extras.iter_mut().zip(&self.extra_cols) {
+                        pool.push(&String::from_utf8_lossy(&rec[col]));
+                    }
+                }
+                Err(skip) => part.skipped.push(skip),
+            }
         }
+        part
     }
 
     fn skip(&self, line: u64, col: Option<usize>, reason: String) -> Skip {
         Skip {
             line,
-            column: col.map(|c| self.header.get(c).cloned().unwrap_or_else(|| format!("#{}", c + 1))),
+            column: col.map(|c| {
+                self.header
+                    .get(c)
+                    .cloned()
+                    .unwrap_or_else(|| format!("#{}", c + 1))
+            }),
             reason,
         }
     }
 
-    fn id_cell<'r>(&self, rec: &'r ByteRecord, col: usize, field: Field, line: u64) -> Result<&'r str, Skip> {
+    fn id_cell<'r>(
+        &self,
+        rec: &'r ByteRecord,
+        col: usize,
+        field: Field,
+        line: u64,
+    ) -> Result<&'r str, Skip> {
         let raw = rec.get(col).unwrap_or(&[]).trim_ascii();
         let s = std::str::from_utf8(raw)
             .map_err(|_| self.skip(line, Some(col), format!("{field}: not valid UTF-8")))?;
@@ -269,19 +671,29 @@ impl Builder {
         Ok(s)
     }
 
-    fn add_row(&mut self, rec: &ByteRecord, line: u64) -> Result<(), Skip> {
+    /// Parses and validates one row into `scratch`; returns its (star, candidate).
+    fn row<'r>(
+        &self,
+        rec: &'r ByteRecord,
+        line: u64,
+        scratch: &mut [f64],
+    ) -> Result<(&'r str, &'r str), Skip> {
         if rec.len() != self.header.len() {
             return Err(self.skip(
                 line,
                 None,
-                format!("has {} fields, the header has {}", rec.len(), self.header.len()),
+                format!(
+                    "has {} fields, the header has {}",
+                    rec.len(),
+                    self.header.len()
+                ),
             ));
         }
         let star = self.id_cell(rec, self.star_col, Field::Star, line)?;
         let cand = self.id_cell(rec, self.cand_col, Field::Candidate, line)?;
         for &(slot, col) in &self.num_cols {
             let raw = &rec[col];
-            self.scratch[slot] = match parse_cell(raw) {
+            scratch[slot] = match parse_cell(raw) {
                 Cell::Value(v) => v,
                 Cell::Missing => f64::NAN,
                 Cell::Bad => {
@@ -291,73 +703,34 @@ impl Builder {
                         format!(
                             "{}: `{}` is not a number",
                             NUMERIC[slot],
-                            crate::sanitize::clean_bytes(raw.trim_ascii())
+                            String::from_utf8_lossy(raw.trim_ascii())
                         ),
                     ));
                 }
             };
         }
-        self.validate(rec, line)?;
-        let h = self.hasher.hash_one(cand.as_bytes());
-        if let Some(&first) = self
-            .candidate_lookup
-            .find(h, |&c| self.candidates.get(c as usize) == cand)
-        {
-            return Err(self.skip(
-                line,
-                Some(self.cand_col),
-                format!(
-                    "candidate: duplicate id `{}` (first on line {})",
-                    crate::sanitize::clean(cand),
-                    self.lines[first as usize]
-                ),
-            ));
-        }
-        // Commit the row.
-        let c = self.candidates.push(cand) as CandidateId;
-        let candidates = &self.candidates;
-        self.candidate_lookup
-            .insert_unique(h, c, |&x| self.hasher.hash_one(candidates.get(x as usize).as_bytes()));
-        let hs = self.hasher.hash_one(star.as_bytes());
-        let s = match self.star_lookup.find(hs, |&s| self.stars.get(s as usize) == star) {
-            Some(&s) => s,
-            None => {
-                let s = self.stars.push(star) as StarId;
-                let stars = &self.stars;
-                self.star_lookup
-                    .insert_unique(hs, s, |&x| self.hasher.hash_one(stars.get(x as usize).as_bytes()));
-                s
-            }
-        };
-        self.star_of.push(s);
-        self.lines.push(u32::try_from(line).unwrap_or(u32::MAX));
-        for &(slot, _) in &self.num_cols {
-            if let Some(col) = self.num[slot].as_mut() {
-                col.push(self.scratch[slot]);
-            }
-        }
-        if let (Some(pool), Some(col)) = (self.lightcurve.as_mut(), self.lc_col) {
-            pool.push(&String::from_utf8_lossy(rec[col].trim_ascii()));
-        }
-        for (col, _, pool) in &mut self.extras {
-            pool.push(&String::from_utf8_lossy(&rec[*col]));
-        }
-        Ok(())
+        self.validate(rec, line, scratch)?;
+        Ok((star, cand))
     }
 
-    /// The per-row rules of the foundation issue: required fields present and
-    /// numeric, period finite and positive, duration positive and shorter than
-    /// the period, depth positive.
-    fn validate(&self, rec: &ByteRecord, line: u64) -> Result<(), Skip> {
-        let get = |f: Field| self.scratch[f.num_slot().unwrap_or(0)];
+    /// The per-row rules: required fields present and numeric, period finite
+    /// and positive, duration positive and shorter than the period, depth
+    /// positive.
+    fn validate(&self, rec: &ByteRecord, line: u64, scratch: &[f64]) -> Result<(), Skip> {
+        let get = |f: Field| scratch[f.num_slot().unwrap_or(0)];
         let col = |f: Field| self.mapping.by_field.get(&f).copied();
         let raw = |f: Field| {
             col(f)
                 .and_then(|c| rec.get(c))
-                .map(|b| crate::sanitize::clean_bytes(b.trim_ascii()))
+                .map(|b| String::from_utf8_lossy(b.trim_ascii()).into_owned())
                 .unwrap_or_default()
         };
-        for f in [Field::PeriodD, Field::Epoch, Field::DepthPpm, Field::DurationH] {
+        for f in [
+            Field::PeriodD,
+            Field::Epoch,
+            Field::DepthPpm,
+            Field::DurationH,
+        ] {
             if get(f).is_nan() {
                 let what = if raw(f).is_empty() {
                     "missing".to_string()
@@ -367,18 +740,17 @@ impl Builder {
                 return Err(self.skip(line, col(f), format!("{f}: {what}")));
             }
         }
-        let period = get(Field::PeriodD);
-        if period <= 0.0 {
-            return Err(self.skip(line, col(Field::PeriodD), format!("period_d: must be > 0, got {}", raw(Field::PeriodD))));
-        }
-        let depth = get(Field::DepthPpm);
-        if depth <= 0.0 {
-            return Err(self.skip(line, col(Field::DepthPpm), format!("depth: must be > 0, got {}", raw(Field::DepthPpm))));
-        }
-        let dur = get(Field::DurationH);
-        if dur <= 0.0 {
-            return Err(self.skip(line, col(Field::DurationH), format!("duration_h: must be > 0, got {}", raw(Field::DurationH))));
-        }
+        let positive = |f: Field| -> Result<f64, Skip> {
+            let v = get(f);
+            if v > 0.0 {
+                Ok(v)
+            } else {
+                Err(self.skip(line, col(f), format!("{f}: must be > 0, got {}", raw(f))))
+            }
+        };
+        let period = positive(Field::PeriodD)?;
+        positive(Field::DepthPpm)?;
+        let dur = positive(Field::DurationH)?;
         if dur / 24.0 >= period {
             return Err(self.skip(
                 line,
@@ -393,28 +765,169 @@ impl Builder {
         }
         Ok(())
     }
+}
 
-    fn finish(self, opts: &LoadOptions) -> Result<Catalogue, LoadError> {
-        let Builder {
+/// The high half of an id's hash, kept beside the id so most probes of a
+/// lookup table never touch the string pool.
+pub(super) fn tag_of(h: u64) -> u32 {
+    (h >> 32) as u32
+}
+
+/// Takes parts in file order: drops duplicate candidate ids, interns stars
+/// and appends the columns.
+struct Merger {
+    name: String,
+    candidates: StrPool,
+    stars: StrPool,
+    star_of: Vec<StarId>,
+    lines: Vec<u32>,
+    /// One column per `Layout::num_cols` entry.
+    num: Vec<Vec<f64>>,
+    lightcurve: Option<StrPool>,
+    extras: Vec<StrPool>,
+    candidate_lookup: hashbrown::HashTable<(u32, CandidateId)>,
+    star_lookup: hashbrown::HashTable<(u32, StarId)>,
+    hasher: hashbrown::DefaultHashBuilder,
+    cand_header: String,
+    skipped: Vec<Skip>,
+    rows_seen: u64,
+    reserved: bool,
+}
+
+impl Merger {
+    fn new(name: String, layout: &Layout) -> Merger {
+        Merger {
             name,
-            header,
-            mapping,
+            candidates: StrPool::default(),
+            stars: StrPool::default(),
+            star_of: Vec::new(),
+            lines: Vec::new(),
+            num: vec![Vec::new(); layout.num_cols.len()],
+            lightcurve: layout.lc_col.map(|_| StrPool::default()),
+            extras: vec![StrPool::default(); layout.extra_cols.len()],
+            candidate_lookup: hashbrown::HashTable::new(),
+            star_lookup: hashbrown::HashTable::new(),
+            hasher: hashbrown::DefaultHashBuilder::default(),
+            cand_header: layout.header[layout.cand_col].clone(),
+            skipped: Vec::new(),
+            rows_seen: 0,
+            reserved: false,
+        }
+    }
+
+    /// Sizes the tables once from the first part's rows per byte.
+    fn reserve(&mut self, part: &Part, size_hint: Option<u64>) {
+        self.reserved = true;
+        let (Some(size), true) = (size_hint, part.bytes > 0) else {
+            return;
+        };
+        let rows = part.lines.len() as f64 / part.bytes as f64;
+        let est = (size as f64 * rows * 1.02) as usize + 16;
+        let id_bytes = part.candidates.byte_len() as f64 / part.lines.len().max(1) as f64;
+        self.candidates = StrPool::with_capacity(est, (est as f64 * id_bytes) as usize);
+        self.star_of.reserve(est);
+        self.lines.reserve(est);
+        for c in &mut self.num {
+            c.reserve(est);
+        }
+        let (candidates, stars, hasher) = (&self.candidates, &self.stars, &self.hasher);
+        self.candidate_lookup.reserve(est, |e| {
+            hasher.hash_one(candidates.get(e.1 as usize).as_bytes())
+        });
+        self.star_lookup.reserve(est * 3 / 4, |e| {
+            hasher.hash_one(stars.get(e.1 as usize).as_bytes())
+        });
+    }
+
+    fn absorb(&mut self, part: Part, size_hint: Option<u64>) {
+        if !self.reserved {
+            self.reserve(&part, size_hint);
+        }
+        self.rows_seen += part.rows_seen;
+        self.skipped.extend(part.skipped);
+        for r in 0..part.lines.len() {
+            let cand = part.candidates.get(r);
+            let h = part.candidate_hash[r];
+            let tag = tag_of(h);
+            let candidates = &self.candidates;
+            if let Some(&(_, first)) = self
+                .candidate_lookup
+                .find(h, |e| e.0 == tag && candidates.get(e.1 as usize) == cand)
+            {
+                self.skipped.push(Skip {
+                    line: part.lines[r] as u64,
+                    column: Some(self.cand_header.clone()),
+                    reason: format!(
+                        "candidate: duplicate id `{cand}` (first on line {})",
+                        self.lines[first as usize]
+                    ),
+                });
+                continue;
+            }
+            let c = self.candidates.push(cand) as CandidateId;
+            let (candidates, hasher) = (&self.candidates, &self.hasher);
+            self.candidate_lookup.insert_unique(h, (tag, c), |e| {
+                hasher.hash_one(candidates.get(e.1 as usize).as_bytes())
+            });
+            let star = part.stars.get(r);
+            let hs = part.star_hash[r];
+            let tag = tag_of(hs);
+            let stars = &self.stars;
+            let s = match self
+                .star_lookup
+                .find(hs, |e| e.0 == tag && stars.get(e.1 as usize) == star)
+            {
+                Some(&(_, s)) => s,
+                None => {
+                    let s = self.stars.push(star) as StarId;
+                    let (stars, hasher) = (&self.stars, &self.hasher);
+                    self.star_lookup.insert_unique(hs, (tag, s), |e| {
+                        hasher.hash_one(stars.get(e.1 as usize).as_bytes())
+                    });
+                    s
+                }
+            };
+            self.star_of.push(s);
+            self.lines.push(part.lines[r]);
+            for (col, src) in self.num.iter_mut().zip(&part.num) {
+                col.push(src[r]);
+            }
+            if let (Some(dst), Some(src)) = (self.lightcurve.as_mut(), part.lightcurve.as_ref()) {
+                dst.push(src.get(r));
+            }
+            for (dst, src) in self.extras.iter_mut().zip(&part.extras) {
+                dst.push(src.get(r));
+            }
+        }
+    }
+
+    fn finish(self, layout: &Layout, opts: &LoadOptions) -> Result<Catalogue, LoadError> {
+        let Merger {
+            name,
             mut candidates,
             mut stars,
             star_of,
-            mut num,
+            num: parsed,
             mut lightcurve,
             extras,
             candidate_lookup,
             star_lookup,
             hasher,
-            skipped,
+            mut skipped,
             rows_seen,
             ..
         } = self;
         if star_of.is_empty() && skipped.is_empty() {
             return Err(LoadError::NoRows { path: name });
         }
+        // Duplicates were found after their chunk's own skips: restore file order.
+        skipped.sort_by_key(|s| s.line);
+        let mut num: Vec<Option<Vec<f64>>> = vec![None; NUMERIC.len()];
+        for (&(slot, _), col) in layout.num_cols.iter().zip(parsed) {
+            num[slot] = Some(col);
+        }
+        let header = &layout.header;
+        let mapping = &layout.mapping;
         let mut columns = Vec::new();
         for (field, &index) in &mapping.by_field {
             let forced = opts.columns.fields.contains_key(field);
@@ -422,7 +935,7 @@ impl Builder {
             let mut how = if forced { "column map" } else { "synonym" }.to_string();
             if *field == Field::DepthPpm {
                 let slot = Field::DepthPpm.num_slot().unwrap_or(0);
-                let depths = num[slot].as_mut().map(Vec::as_mut_slice).unwrap_or(&mut []);
+                let depths = num[slot].as_deref_mut().unwrap_or(&mut []);
                 let (du, why) = depth_unit(&name, &header[index], depths, opts.depth_unit)?;
                 let factor = du.to_ppm();
                 if factor != 1.0 {
@@ -445,7 +958,9 @@ impl Builder {
                 header: h.clone(),
                 index: *index,
                 unit: String::new(),
-                how: format!("also names {f}, which an earlier column feeds; kept as an extra column"),
+                how: format!(
+                    "also names {f}, which an earlier column feeds; kept as an extra column"
+                ),
             });
         }
         // Star → members, as compressed rows (counting sort by star).
@@ -465,11 +980,14 @@ impl Builder {
         candidates.shrink_to_fit();
         stars.shrink_to_fit();
         for v in num.iter_mut().flatten() {
-            v.shrink_to_fit();
+            if v.capacity() > v.len() + v.len() / 8 {
+                v.shrink_to_fit();
+            }
         }
         if let Some(p) = lightcurve.as_mut() {
             p.shrink_to_fit();
         }
+        let extra_names = mapping.extras.iter().map(|(_, h)| h.clone());
         Ok(Catalogue {
             source: name,
             candidates,
@@ -477,7 +995,7 @@ impl Builder {
             star_of,
             num,
             lightcurve,
-            extras: extras.into_iter().map(|(_, h, p)| (h, p)).collect(),
+            extras: extra_names.zip(extras).collect(),
             member_start,
             members,
             candidate_lookup,
@@ -512,7 +1030,10 @@ fn depth_unit(
     let (_, median, _) = v.select_nth_unstable_by(mid, f64::total_cmp);
     let median = *median;
     if median >= PPM_MEDIAN_FLOOR {
-        Ok((DepthUnit::Ppm, format!("detected: median {median} >= {PPM_MEDIAN_FLOOR}, so ppm")))
+        Ok((
+            DepthUnit::Ppm,
+            format!("detected: median {median} >= {PPM_MEDIAN_FLOOR}, so ppm"),
+        ))
     } else {
         Err(LoadError::DepthUnitUnknown {
             path: path.to_string(),
@@ -534,6 +1055,69 @@ mod tests {
         assert_eq!(delimiter_for("b.txt"), None);
         assert_eq!(sniff(b"# a,b,c\nstar\tcandidate\tperiod\n"), b'\t');
         assert_eq!(sniff(b"star,candidate\tx,y\n"), b',');
+    }
+
+    #[test]
+    fn record_ends_respect_quotes_and_comments() {
+        let b = b"a,\"x\ny\",c\n# \"odd\nd,e\"f,g\n\"h\"\"\n\",i\npartial";
+        let mut ends = Vec::new();
+        scan_record_ends(b, b',', |e| {
+            ends.push(e);
+            true
+        });
+        // Records end after `c`, after the comment, after `g` (a quote inside
+        // an unquoted field is literal), and after the escaped-quote field.
+        assert_eq!(ends, [10, 17, 25, 34]);
+        assert_eq!(last_record_end(b, b','), Some(34));
+        assert_eq!(last_record_end(b"a,b\nc,d\ne", b','), Some(8));
+        assert_eq!(first_record_end(b"\"a\nb\",c\nd"), Some(8));
+    }
+
+    #[test]
+    fn fast_path_agrees_with_std() {
+        for s in [
+            "0",
+            "-0",
+            "1",
+            "3.5",
+            "-12.25",
+            "+7",
+            "0.000123",
+            "1e3",
+            "2.5E-4",
+            "123456789.123456",
+            "9007199254740993",
+            "1e22",
+            "1e-22",
+            "4.35",
+            "0.1",
+            "1234.56789",
+        ] {
+            let std: f64 = s.parse().unwrap();
+            match fast_f64(s.as_bytes()) {
+                Some(v) => assert_eq!(v.to_bits(), std.to_bits(), "{s}"),
+                None => assert!(s == "9007199254740993", "{s} should take the fast path"),
+            }
+        }
+        for s in ["", ".", "-", "1e", "1.2.3", "e5", "1e400", "abc", "1,5"] {
+            assert!(fast_f64(s.as_bytes()).is_none(), "{s}");
+        }
+    }
+
+    proptest::proptest! {
+        #[test]
+        fn fast_path_is_exact(m in 0u64..(1 << 53), frac in 0usize..12, e in -10i32..10, neg: bool) {
+            let digits = m.to_string();
+            let s = if frac > 0 && frac < digits.len() {
+                format!("{}{}.{}e{}", if neg { "-" } else { "" }, &digits[..digits.len() - frac], &digits[digits.len() - frac..], e)
+            } else {
+                format!("{}{}e{}", if neg { "-" } else { "" }, digits, e)
+            };
+            let std: f64 = s.parse().unwrap();
+            if let Some(v) = fast_f64(s.as_bytes()) {
+                proptest::prop_assert_eq!(v.to_bits(), std.to_bits(), "{}", s);
+            }
+        }
     }
 
     #[test]

@@ -26,6 +26,10 @@ impl StrPool {
         &self.buf[start..self.ends[i]]
     }
 
+    pub fn byte_len(&self) -> usize {
+        self.buf.len()
+    }
+
     pub fn len(&self) -> usize {
         self.ends.len()
     }

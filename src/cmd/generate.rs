@@ -40,7 +40,11 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             demo::write_demo(dir)?;
             writeln!(out, "wrote the demo to {}", dir.display())?;
         }
-        What::Big { candidates, seed, out: path } => {
+        What::Big {
+            candidates,
+            seed,
+            out: path,
+        } => {
             demo::write_big(path, *candidates, *seed)?;
             writeln!(out, "wrote {candidates} candidates to {}", path.display())?;
         }

@@ -61,13 +61,20 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         Format::Table => {
             writeln!(out, "catalogue   {}", clean(&cat.source))?;
             match (&loaded.survey.name, &loaded.survey_source) {
-                (Some(name), Some(src)) => writeln!(out, "survey      {} ({})", clean(name), clean(src))?,
+                (Some(name), Some(src)) => {
+                    writeln!(out, "survey      {} ({})", clean(name), clean(src))?
+                }
                 (None, Some(src)) => writeln!(out, "survey      {}", clean(src))?,
                 _ => writeln!(out, "survey      no survey.toml beside the catalogue")?,
             }
             writeln!(out, "stars       {}", cat.star_count())?;
             writeln!(out, "candidates  {}", cat.len())?;
-            writeln!(out, "rows        {} read, {} skipped", cat.rows_seen, cat.skipped.len())?;
+            writeln!(
+                out,
+                "rows        {} read, {} skipped",
+                cat.rows_seen,
+                cat.skipped.len()
+            )?;
             writeln!(out)?;
             let mut t = Table::new(&[
                 ("multiplicity", Align::Right),
@@ -79,7 +86,11 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     t.row(&[k.to_string(), n.to_string(), (k * n).to_string()]);
                 }
             }
-            t.row(&["all".to_string(), cat.star_count().to_string(), cat.len().to_string()]);
+            t.row(&[
+                "all".to_string(),
+                cat.star_count().to_string(),
+                cat.len().to_string(),
+            ]);
             t.write(out, "")?;
             writeln!(out)?;
             writeln!(out, "columns")?;
@@ -104,11 +115,23 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     "skipped rows ({} of {}{})",
                     cat.skipped.len().min(SKIPPED_SHOWN),
                     cat.skipped.len(),
-                    if cat.skipped.len() > SKIPPED_SHOWN { "; --format json lists all" } else { "" }
+                    if cat.skipped.len() > SKIPPED_SHOWN {
+                        "; --format json lists all"
+                    } else {
+                        ""
+                    }
                 )?;
-                let mut t = Table::new(&[("line", Align::Right), ("column", Align::Left), ("reason", Align::Left)]);
+                let mut t = Table::new(&[
+                    ("line", Align::Right),
+                    ("column", Align::Left),
+                    ("reason", Align::Left),
+                ]);
                 for s in cat.skipped.iter().take(SKIPPED_SHOWN) {
-                    t.row(&[s.line.to_string(), s.column.clone().unwrap_or_else(|| "-".into()), s.reason.clone()]);
+                    t.row(&[
+                        s.line.to_string(),
+                        s.column.clone().unwrap_or_else(|| "-".into()),
+                        s.reason.clone(),
+                    ]);
                 }
                 t.write(out, "  ")?;
             }

@@ -117,7 +117,11 @@ fn star_params(rng: &mut Rng, id: String) -> Star {
         ra: rng.uniform(40.0, 58.0),
         dec: rng.uniform(-22.0, -10.0),
         mag,
-        contamination: if rng.f64() < 0.7 { rng.uniform(0.0, 0.04) } else { rng.uniform(0.04, 0.2) },
+        contamination: if rng.f64() < 0.7 {
+            rng.uniform(0.0, 0.04)
+        } else {
+            rng.uniform(0.04, 0.2)
+        },
         sigma_ppm: 80.0 * 10f64.powf(0.2 * (mag - 12.0)),
         signals: Vec::new(),
         lightcurve: false,
@@ -147,7 +151,8 @@ impl Star {
         if t14 <= 0.0 {
             return None;
         }
-        let depth = small_planet_depth_ppm(ror, b.min(0.99), LD.0, LD.1) * (1.0 - self.contamination);
+        let depth =
+            small_planet_depth_ppm(ror, b.min(0.99), LD.0, LD.1) * (1.0 - self.contamination);
         Some(Signal {
             period,
             epoch: T_START + rng.uniform(0.0, period.min(BASELINE_D / 2.0)),
@@ -194,7 +199,9 @@ fn draw_system(rng: &mut Rng, star: &Star, k: usize) -> Vec<Signal> {
             let b = (a * (cos_i + 0.012 * rng.normal() / a.sqrt())).abs();
             let rp = draw_radius(rng, if k == 1 { 0.06 } else { 0.01 });
             match star.planet(rng, period, rp, b) {
-                Some(s) if b < 0.9 && star.snr(&s) >= 7.3 && star.transits(&s) >= 2.0 => out.push(s),
+                Some(s) if b < 0.9 && star.snr(&s) >= 7.3 && star.transits(&s) >= 2.0 => {
+                    out.push(s)
+                }
                 _ => continue 'retry,
             }
         }
@@ -239,7 +246,10 @@ fn build_demo() -> Demo {
     }
     plant_cases(&mut rng, &mut stars, &mut used);
     // Light curves: every planted star, then multis, to at least 32 stars.
-    let mut with_lc = stars.iter().filter(|s| s.signals.iter().any(|x| x.truth != Truth::Planet)).count();
+    let mut with_lc = stars
+        .iter()
+        .filter(|s| s.signals.iter().any(|x| x.truth != Truth::Planet))
+        .count();
     for s in stars.iter_mut() {
         if s.signals.iter().any(|x| x.truth != Truth::Planet) {
             s.lightcurve = true;
@@ -255,7 +265,11 @@ fn build_demo() -> Demo {
         }
     }
     // A few clean singles too, so a vetter sees what a good single looks like.
-    for s in stars.iter_mut().filter(|s| s.signals.len() == 1 && !s.lightcurve).take(4) {
+    for s in stars
+        .iter_mut()
+        .filter(|s| s.signals.len() == 1 && !s.lightcurve)
+        .take(4)
+    {
         s.lightcurve = true;
     }
     rng.shuffle(&mut stars);
@@ -264,9 +278,15 @@ fn build_demo() -> Demo {
 
 /// Turns some of the drawn stars into the planted cases of DESIGN.md.
 fn plant_cases(rng: &mut Rng, stars: &mut Vec<Star>, used: &mut std::collections::HashSet<u32>) {
-    let singles: Vec<usize> = (0..stars.len()).filter(|&i| stars[i].signals.len() == 1).collect();
-    let doubles: Vec<usize> = (0..stars.len()).filter(|&i| stars[i].signals.len() == 2).collect();
-    let triples: Vec<usize> = (0..stars.len()).filter(|&i| stars[i].signals.len() == 3).collect();
+    let singles: Vec<usize> = (0..stars.len())
+        .filter(|&i| stars[i].signals.len() == 1)
+        .collect();
+    let doubles: Vec<usize> = (0..stars.len())
+        .filter(|&i| stars[i].signals.len() == 2)
+        .collect();
+    let triples: Vec<usize> = (0..stars.len())
+        .filter(|&i| stars[i].signals.len() == 3)
+        .collect();
     // Eclipsing binaries on singles: four odd/even, four with secondaries, two grazing.
     for (n, &i) in singles.iter().take(10).enumerate() {
         let star = &mut stars[i];
@@ -279,13 +299,37 @@ fn plant_cases(rng: &mut Rng, stars: &mut Vec<Star>, used: &mut std::collections
                 // Caught at half the true period: transits alternate primary, secondary.
                 let d1 = rng.uniform(9_000.0, 30_000.0);
                 let d2 = d1 * rng.uniform(0.45, 0.75);
-                (Truth::EbOddEven, true_period / 2.0, (d1 + d2) / 2.0, Some((d1, d2)), None, rng.uniform(0.1, 0.6), rng.uniform(0.2, 0.35))
+                (
+                    Truth::EbOddEven,
+                    true_period / 2.0,
+                    (d1 + d2) / 2.0,
+                    Some((d1, d2)),
+                    None,
+                    rng.uniform(0.1, 0.6),
+                    rng.uniform(0.2, 0.35),
+                )
             }
             4..=7 => {
                 let d1 = rng.uniform(12_000.0, 60_000.0);
-                (Truth::EbSecondary, true_period, d1, None, Some(d1 * rng.uniform(0.08, 0.25)), rng.uniform(0.1, 0.6), rng.uniform(0.25, 0.45))
+                (
+                    Truth::EbSecondary,
+                    true_period,
+                    d1,
+                    None,
+                    Some(d1 * rng.uniform(0.08, 0.25)),
+                    rng.uniform(0.1, 0.6),
+                    rng.uniform(0.25, 0.45),
+                )
             }
-            _ => (Truth::EbGrazing, true_period, rng.uniform(4_000.0, 15_000.0), None, Some(rng.uniform(300.0, 900.0)), 1.05, rng.uniform(0.3, 0.5)),
+            _ => (
+                Truth::EbGrazing,
+                true_period,
+                rng.uniform(4_000.0, 15_000.0),
+                None,
+                Some(rng.uniform(300.0, 900.0)),
+                1.05,
+                rng.uniform(0.3, 0.5),
+            ),
         };
         let (t14, _) = durations_h(true_period, a, ror, b).unwrap_or((3.0, 0.0));
         let sig = &mut star.signals[0];
@@ -294,7 +338,11 @@ fn plant_cases(rng: &mut Rng, stars: &mut Vec<Star>, used: &mut std::collections
         sig.epoch = T_START + rng.uniform(0.0, period);
         sig.depth_ppm = depth;
         sig.duration_h = t14;
-        sig.flat_h = if truth == Truth::EbGrazing { 0.0 } else { t14 * 0.35 };
+        sig.flat_h = if truth == Truth::EbGrazing {
+            0.0
+        } else {
+            t14 * 0.35
+        };
         sig.impact = b;
         sig.ror = ror;
         sig.alt_depth_ppm = alt.map(|(_, d2)| d2);
@@ -391,7 +439,10 @@ fn plant_cases(rng: &mut Rng, stars: &mut Vec<Star>, used: &mut std::collections
     for &i in singles.iter().skip(11).take(2) {
         let star = &mut stars[i];
         let s = &mut star.signals[0];
-        s.depth_ppm *= 6.6 / (s.depth_ppm / star.sigma_ppm * (((T_START + BASELINE_D - s.epoch) / s.period).floor() + 1.0).sqrt() * (s.duration_h * 2.0).sqrt());
+        s.depth_ppm *= 6.6
+            / (s.depth_ppm / star.sigma_ppm
+                * (((T_START + BASELINE_D - s.epoch) / s.period).floor() + 1.0).sqrt()
+                * (s.duration_h * 2.0).sqrt());
         s.truth = Truth::LowSnr;
         s.note = "near the detection threshold";
     }
@@ -416,9 +467,21 @@ pub fn write_demo(dir: &Path) -> io::Result<()> {
     fs::create_dir_all(dir.join("lightcurves"))?;
     let mut cat = String::new();
     let mut truth = String::from("candidate_id,star_id,planted,note\n");
-    writeln!(cat, "# Halcyon Wide Transit Search (an invented survey): demo candidate catalogue for starsift").ok();
-    writeln!(cat, "# Generated by `starsift generate demo` with a fixed seed; do not edit by hand.").ok();
-    writeln!(cat, "# Times are in the survey's own invented system (days); depths in ppm.").ok();
+    writeln!(
+        cat,
+        "# Halcyon Wide Transit Search (an invented survey): demo candidate catalogue for starsift"
+    )
+    .ok();
+    writeln!(
+        cat,
+        "# Generated by `starsift generate demo` with a fixed seed; do not edit by hand."
+    )
+    .ok();
+    writeln!(
+        cat,
+        "# Times are in the survey's own invented system (days); depths in ppm."
+    )
+    .ok();
     writeln!(cat, "{}", catalogue_header()).ok();
     let mut rng = Rng::new(DEMO_SEED ^ 0xcafe);
     for star in &demo.stars {
@@ -463,7 +526,9 @@ pub fn write_demo(dir: &Path) -> io::Result<()> {
     for star in demo.stars.iter().filter(|s| s.lightcurve) {
         let text = lightcurve_csv(star);
         let file = fs::File::create(dir.join("lightcurves").join(format!("{}.csv.gz", star.id)))?;
-        let mut gz = flate2::GzBuilder::new().mtime(0).write(BufWriter::new(file), flate2::Compression::default());
+        let mut gz = flate2::GzBuilder::new()
+            .mtime(0)
+            .write(BufWriter::new(file), flate2::Compression::default());
         gz.write_all(text.as_bytes())?;
         gz.finish()?.flush()?;
     }
@@ -488,7 +553,10 @@ fn trapezoid(dt_h: f64, total_h: f64, flat_h: f64, depth: f64) -> f64 {
 /// The star's light curve: 30-minute samples over the baseline, two data
 /// gaps, white noise, slow stellar variability and every signal's transits.
 fn lightcurve_csv(star: &Star) -> String {
-    let seed = star.id.bytes().fold(DEMO_SEED, |h, b| h.rotate_left(7) ^ b as u64);
+    let seed = star
+        .id
+        .bytes()
+        .fold(DEMO_SEED, |h, b| h.rotate_left(7) ^ b as u64);
     let mut rng = Rng::new(seed);
     let amp = 10f64.powf(rng.uniform(-4.0, -2.6));
     let prot = rng.uniform(4.0, 30.0);
@@ -504,7 +572,8 @@ fn lightcurve_csv(star: &Star) -> String {
         if gaps.iter().any(|&(g, w)| t >= g && t < g + w) {
             continue;
         }
-        let mut f = 1.0 + amp * (std::f64::consts::TAU * t / prot + phase).sin() + drift * (t - T_START);
+        let mut f =
+            1.0 + amp * (std::f64::consts::TAU * t / prot + phase).sin() + drift * (t - T_START);
         for s in &star.signals {
             let cycles = ((t - s.epoch) / s.period).round();
             let dt_h = (t - s.epoch - cycles * s.period) * 24.0;
@@ -560,7 +629,14 @@ pub fn write_big(path: &Path, candidates: usize, seed: u64) -> io::Result<()> {
         let mass = (0.95 + 0.18 * r.normal()).clamp(0.5, 1.4);
         let radius = mass.powf(0.85) * (0.08 * r.normal()).exp();
         let teff = 5772.0 * mass.powf(0.55);
-        (mass, radius, teff, r.uniform(0.0, 360.0), r.uniform(-90.0, 90.0), r.uniform(0.6, 20.0))
+        (
+            mass,
+            radius,
+            teff,
+            r.uniform(0.0, 360.0),
+            r.uniform(-90.0, 90.0),
+            r.uniform(0.6, 20.0),
+        )
     };
     let file = fs::File::create(path)?;
     let mut w = BufWriter::with_capacity(1 << 20, file);

@@ -1,0 +1,125 @@
+//! The built binary on fixture files, valid and invalid.
+
+mod common;
+
+use common::{fixture, starsift, stderr, stdout};
+
+#[test]
+fn summary_json_shape() {
+    let o = starsift(&[
+        "summary",
+        fixture("bad_rows.csv").to_str().unwrap(),
+        "--format",
+        "json",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["stars"], 2);
+    assert_eq!(v["candidates"], 2);
+    assert_eq!(v["histogram"], serde_json::json!({"1": 2}));
+    assert_eq!(v["skipped_rows"], 12);
+    let skipped = v["skipped"].as_array().unwrap();
+    assert_eq!(skipped.len(), 12);
+    assert_eq!(
+        skipped[0],
+        serde_json::json!({"line": 3, "column": "period_d", "reason": "period_d: missing"})
+    );
+    let cols = v["columns"].as_array().unwrap();
+    assert!(
+        cols.iter()
+            .any(|c| c["field"] == "snr" && c["header"] == "snr")
+    );
+}
+
+#[test]
+fn no_arguments_runs_the_demo() {
+    let o = starsift(&[]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let s = stdout(&o);
+    assert!(
+        s.contains("built-in demo") && s.contains("candidates  444"),
+        "{s}"
+    );
+}
+
+#[test]
+fn summary_table_lists_skips_and_mapping() {
+    let o = starsift(&["summary", fixture("good.csv").to_str().unwrap()]);
+    assert!(o.status.success());
+    let s = stdout(&o);
+    assert!(
+        s.contains("stars       3") && s.contains("kept as extra columns: note"),
+        "{s}"
+    );
+    let o = starsift(&["summary", fixture("bad_rows.csv").to_str().unwrap()]);
+    let s = stdout(&o);
+    assert!(s.contains("skipped rows (12 of 12)"), "{s}");
+    assert!(
+        s.contains("    10  candidate   candidate: duplicate id `BR01-1` (first on line 2)"),
+        "{s}"
+    );
+}
+
+#[test]
+fn summary_csv_is_the_histogram() {
+    let o = starsift(&[
+        "summary",
+        fixture("good.csv").to_str().unwrap(),
+        "--format",
+        "csv",
+    ]);
+    assert_eq!(
+        stdout(&o),
+        "multiplicity,stars,candidates\n1,2,2\n2,0,0\n3,1,3\n"
+    );
+}
+
+#[test]
+fn bad_input_exits_2_naming_the_file() {
+    for (name, needle) in [
+        ("missing_column.csv", "no column for required field `epoch`"),
+        ("empty.csv", "the file is empty"),
+        ("no-such.csv", "cannot read"),
+        ("depth_fraction.csv", "--depth-unit"),
+    ] {
+        let o = starsift(&["summary", fixture(name).to_str().unwrap()]);
+        assert_eq!(o.status.code(), Some(2), "{name}");
+        let e = stderr(&o);
+        assert!(e.contains(name) && e.contains(needle), "{name}: {e}");
+        assert!(o.stdout.is_empty());
+    }
+    let o = starsift(&[
+        "summary",
+        fixture("depth_fraction.csv").to_str().unwrap(),
+        "--depth-unit",
+        "fraction",
+    ]);
+    assert!(o.status.success());
+    let o = starsift(&["summary", "--bogus"]);
+    assert_eq!(o.status.code(), Some(2));
+}
+
+#[test]
+fn escape_sequences_never_reach_the_terminal() {
+    for format in ["table", "json", "csv"] {
+        let o = starsift(&[
+            "summary",
+            fixture("escapes.csv").to_str().unwrap(),
+            "--format",
+            format,
+        ]);
+        assert!(o.status.success(), "{}", stderr(&o));
+        assert!(
+            !o.stdout.contains(&0x1b) && !o.stdout.contains(&0x07),
+            "{format}: {:?}",
+            stdout(&o)
+        );
+        assert!(!o.stderr.contains(&0x1b));
+    }
+    let o = starsift(&["summary", fixture("escapes.csv").to_str().unwrap()]);
+    assert!(
+        stdout(&o).contains("depth_ppm: `x\\x1b]0;owned\\x07` is not a number"),
+        "{}",
+        stdout(&o)
+    );
+}

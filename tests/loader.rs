@@ -1,0 +1,293 @@
+//! Loader tests on fixtures of our own (invented ids): formats, each skip
+//! reason, fatal errors, and the demo's histogram.
+
+mod common;
+
+use std::io::Write;
+
+use common::{fixture, scratch};
+use starsift::catalogue::{Catalogue, ColumnMap, DepthUnit, Field, LoadError, LoadOptions, Source};
+
+fn load(name: &str) -> Result<Catalogue, LoadError> {
+    Catalogue::load(Source::Path(&fixture(name)), &LoadOptions::default())
+}
+
+#[test]
+fn good_csv_with_comments_quotes_and_multiline_fields() {
+    let c = load("good.csv").unwrap();
+    assert_eq!(c.len(), 5);
+    assert_eq!(c.star_count(), 3);
+    assert!(c.skipped.is_empty(), "{:?}", c.skipped);
+    let a = c.find_candidate("QX0001-b").unwrap();
+    assert_eq!(c.value(Field::PeriodD, a), Some(7.25));
+    assert_eq!(c.value(Field::DepthPpm, a), Some(420.5));
+    assert_eq!(c.star_id(c.star_of(a)), "QX0001");
+    let note = c.extra_headers().position(|h| h == "note").unwrap();
+    assert_eq!(c.extra(note, a), "with, a comma");
+    let q = c.find_candidate("QX0002-a").unwrap();
+    assert_eq!(c.extra(note, q), "a \"quoted\" word");
+    assert_eq!(
+        c.value(Field::Snr, q),
+        None,
+        "empty cell is missing, never zero"
+    );
+    let m = c.find_candidate("QX0003-a").unwrap();
+    assert_eq!(c.extra(note, m), "multi\nline note");
+    // The row after the multi-line field still loads, from the right line.
+    assert!(c.find_candidate("QX0001-c").is_some());
+    let s = c.find_star("QX0001").unwrap();
+    let ids: Vec<&str> = c.members(s).iter().map(|&m| c.candidate_id(m)).collect();
+    assert_eq!(ids, ["QX0001-a", "QX0001-b", "QX0001-c"]);
+    assert_eq!(c.histogram(), vec![0, 2, 0, 1]);
+    let depth = c.columns.iter().find(|u| u.field == "depth_ppm").unwrap();
+    assert!(depth.how.contains("detected"), "{}", depth.how);
+}
+
+#[test]
+fn tsv_by_extension_and_by_sniffing() {
+    for name in ["tabs.tsv", "tabs.txt"] {
+        let c = load(name).unwrap();
+        assert_eq!((c.len(), c.star_count()), (3, 2), "{name}");
+        assert_eq!(c.value(Field::DurationH, 2), Some(3.0));
+    }
+}
+
+#[test]
+fn crlf_and_bom() {
+    let c = load("crlf_bom.csv").unwrap();
+    assert_eq!(c.len(), 3);
+    assert_eq!(c.candidate_id(0), "CR01-1");
+    assert_eq!(
+        c.star_id(0),
+        "CR01",
+        "BOM must not stick to the first header or id"
+    );
+    assert_eq!(
+        c.value(Field::DurationH, 2),
+        Some(3.0),
+        "no stray \\r in the last field"
+    );
+}
+
+#[test]
+fn gzip_is_detected_by_content() {
+    let d = scratch("gzip");
+    let raw = std::fs::read(fixture("good.csv")).unwrap();
+    for name in ["cat.csv.gz", "cat.bin"] {
+        let p = d.join(name);
+        let mut gz = flate2::write::GzEncoder::new(
+            std::fs::File::create(&p).unwrap(),
+            flate2::Compression::fast(),
+        );
+        gz.write_all(&raw).unwrap();
+        gz.finish().unwrap();
+        let c = Catalogue::load(Source::Path(&p), &LoadOptions::default()).unwrap();
+        assert_eq!(c.len(), 5, "{name}");
+    }
+}
+
+#[test]
+fn every_skip_reason_names_line_and_column() {
+    let c = load("bad_rows.csv").unwrap();
+    let loaded: Vec<&str> = (0..c.len() as u32).map(|i| c.candidate_id(i)).collect();
+    assert_eq!(loaded, ["BR01-1", "BR14-1"]);
+    assert_eq!(c.rows_seen, 14);
+    let got: Vec<(u64, Option<&str>, &str)> = c
+        .skipped
+        .iter()
+        .map(|s| (s.line, s.column.as_deref(), s.reason.as_str()))
+        .collect();
+    let expect: [(u64, Option<&str>, &str); 12] = [
+        (3, Some("period_d"), "period_d: missing"),
+        (4, Some("period_d"), "period_d: `abc` is not a number"),
+        (5, Some("period_d"), "period_d: must be > 0, got -3"),
+        (6, Some("depth_ppm"), "depth_ppm: must be > 0, got 0"),
+        (7, Some("duration_h"), "duration_h: must be > 0, got 0"),
+        (
+            8,
+            Some("duration_h"),
+            "duration_h: 30 h is not shorter than the period (1.0 d = 24 h)",
+        ),
+        (9, Some("snr"), "snr: `high` is not a number"),
+        (
+            10,
+            Some("candidate"),
+            "candidate: duplicate id `BR01-1` (first on line 2)",
+        ),
+        (11, Some("star"), "star: empty"),
+        (12, None, "has 5 fields, the header has 7"),
+        (
+            13,
+            Some("period_d"),
+            "period_d: `inf` is not a finite number",
+        ),
+        (14, Some("epoch"), "epoch: `nan` is not a finite number"),
+    ];
+    assert_eq!(got, expect);
+}
+
+#[test]
+fn fatal_errors_name_the_file() {
+    let e = load("missing_column.csv").unwrap_err();
+    let msg = e.to_string();
+    assert!(
+        matches!(
+            e,
+            LoadError::MissingColumn {
+                field: Field::Epoch,
+                ..
+            }
+        ),
+        "{msg}"
+    );
+    assert!(
+        msg.contains("missing_column.csv") && msg.contains("`epoch`") && msg.contains("t0"),
+        "{msg}"
+    );
+    for name in ["empty.csv", "only_comments.csv"] {
+        let e = load(name).unwrap_err();
+        assert!(matches!(e, LoadError::Empty { .. }), "{name}: {e}");
+        assert!(e.to_string().contains(name));
+    }
+    let e = load("no-such-file.csv").unwrap_err();
+    assert!(matches!(e, LoadError::Io { .. }) && e.to_string().contains("no-such-file.csv"));
+}
+
+#[test]
+fn depth_units_are_never_guessed_silently() {
+    let e = load("depth_fraction.csv").unwrap_err();
+    assert!(matches!(e, LoadError::DepthUnitUnknown { .. }), "{e}");
+    assert!(e.to_string().contains("--depth-unit"));
+    let opts = LoadOptions {
+        depth_unit: Some(DepthUnit::Fraction),
+        ..LoadOptions::default()
+    };
+    let c = Catalogue::load(Source::Path(&fixture("depth_fraction.csv")), &opts).unwrap();
+    assert_eq!(c.value(Field::DepthPpm, 0), Some(500.0));
+    // depth_pct names its unit: 0.05 % = 500 ppm.
+    let c = load("depth_percent.csv").unwrap();
+    assert!((c.value(Field::DepthPpm, 0).unwrap() - 500.0).abs() < 1e-9);
+}
+
+#[test]
+fn column_map_file_overrides_synonyms() {
+    assert!(matches!(
+        load("custom_header.csv"),
+        Err(LoadError::MissingColumn { .. })
+    ));
+    let opts = LoadOptions {
+        columns: ColumnMap::from_file(&fixture("custom_header.columns.toml")).unwrap(),
+        ..LoadOptions::default()
+    };
+    let c = Catalogue::load(Source::Path(&fixture("custom_header.csv")), &opts).unwrap();
+    assert_eq!(c.candidate_id(0), "CM01-1");
+    assert_eq!(c.value(Field::DurationH, 0), Some(2.0));
+    let bad = LoadOptions {
+        columns: ColumnMap::from_toml("epoch = \"Missing\"\n", "m.toml").unwrap(),
+        ..opts
+    };
+    let e = Catalogue::load(Source::Path(&fixture("custom_header.csv")), &bad).unwrap_err();
+    assert!(e.to_string().contains("`Missing`"), "{e}");
+}
+
+#[test]
+fn sorting_returns_an_index_vector_with_missing_last() {
+    let c = load("good.csv").unwrap();
+    let by = |f, d| -> Vec<&str> {
+        c.sorted_by(f, d)
+            .iter()
+            .map(|&i| c.candidate_id(i))
+            .collect()
+    };
+    assert_eq!(
+        by(Field::PeriodD, false),
+        ["QX0003-a", "QX0001-a", "QX0001-b", "QX0002-a", "QX0001-c"]
+    );
+    assert_eq!(
+        by(Field::Snr, true),
+        ["QX0001-a", "QX0001-b", "QX0001-c", "QX0003-a", "QX0002-a"]
+    );
+    assert_eq!(by(Field::StarRadiusRsun, false).last(), Some(&"QX0003-a"));
+}
+
+#[test]
+fn demo_histogram() {
+    // The demo plan (src/demo/generate.rs) plus the planted echo neighbour.
+    let c = starsift::demo::catalogue().unwrap();
+    assert_eq!(c.histogram(), vec![0, 247, 44, 18, 7, 3, 2]);
+    assert_eq!((c.star_count(), c.len()), (321, 444));
+    assert!(c.skipped.is_empty());
+}
+
+#[test]
+fn large_files_split_across_threads_match_a_serial_read() {
+    // Big enough for many 2 MB chunks; quoted fields with line breaks,
+    // delimiters and escaped quotes, comment lines with stray quotes, and bad
+    // rows and duplicates spread through the file.
+    let d = scratch("large");
+    let p = d.join("large.csv");
+    let mut text = String::from(
+        "# a comment with a \" stray quote\nstar,candidate,period_d,epoch,depth_ppm,duration_h,note\n",
+    );
+    let mut line = 3u64;
+    let mut expect_skips = Vec::new();
+    let mut loaded = 0usize;
+    for i in 0..150_000u64 {
+        let star = i / 3;
+        let note = match i % 7 {
+            0 => "\"two\nlines, \"\"quoted\"\"\"".to_string(),
+            1 => "plain".to_string(),
+            _ => String::new(),
+        };
+        if i % 5000 == 17 {
+            text.push_str("# comment \" inside the data\n");
+            line += 1;
+        }
+        let period = if i % 9973 == 5 {
+            "x".to_string()
+        } else {
+            format!("{}.5", 1 + i % 50)
+        };
+        let cand = if i % 20011 == 9 {
+            "LF0-0".to_string()
+        } else {
+            format!("LF{star}-{i}")
+        };
+        text.push_str(&format!(
+            "LF{star},{cand},{period},{}.25,{},2.0,{note}\n",
+            1000 + i,
+            100 + i % 900
+        ));
+        if period == "x" || (i > 0 && cand == "LF0-0") {
+            expect_skips.push(line);
+        } else {
+            loaded += 1;
+        }
+        line += 1 + note.matches('\n').count() as u64;
+    }
+    std::fs::write(&p, &text).unwrap();
+    assert!(text.len() > 5 << 20, "the file must span several chunks");
+    let c = Catalogue::load(Source::Path(&p), &LoadOptions::default()).unwrap();
+    assert_eq!(c.len(), loaded);
+    let lines: Vec<u64> = c.skipped.iter().map(|s| s.line).collect();
+    assert_eq!(lines, expect_skips, "{:?}", c.skipped);
+    let note = c.extra_headers().position(|h| h == "note").unwrap();
+    let q = c.find_candidate("LF2-7").unwrap();
+    assert_eq!(c.extra(note, q), "two\nlines, \"quoted\"");
+    assert_eq!(c.value(Field::Epoch, q), Some(1007.25));
+    // File order is kept: candidate i is row i (less the skipped rows before it).
+    let last = c.find_candidate("LF49999-149999").unwrap();
+    assert_eq!(last as usize, c.len() - 1);
+    // The same bytes read from memory agree.
+    let m = Catalogue::load(
+        Source::Bytes {
+            name: "large.csv",
+            data: text.as_bytes(),
+        },
+        &LoadOptions::default(),
+    )
+    .unwrap();
+    assert_eq!(m.len(), c.len());
+    assert_eq!(m.skipped, c.skipped);
+    let _ = std::fs::remove_dir_all(&d);
+}
