@@ -18,8 +18,10 @@ pub mod catalogue;
 pub mod cli;
 pub mod cmd;
 pub mod constants;
+pub mod decision;
 pub mod demo;
-
+pub mod flags;
+pub mod odds;
 pub mod output;
 pub mod sanitize;
 pub mod science;

@@ -1,0 +1,159 @@
+//! Diagnostic flags: the warning signs a check can raise on a candidate, and
+//! a small set type for them.
+
+use std::fmt;
+
+/// A diagnostic that fired (DESIGN.md vocabulary).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
+pub enum Flag {
+    BigRadius,
+    OddEven,
+    Secondary,
+    VShape,
+    DensityMismatch,
+    NearTwin,
+    Harmonic,
+    Crowded,
+    Echo,
+    LowSnr,
+}
+
+pub const ALL_FLAGS: [Flag; 10] = [
+    Flag::BigRadius,
+    Flag::OddEven,
+    Flag::Secondary,
+    Flag::VShape,
+    Flag::DensityMismatch,
+    Flag::NearTwin,
+    Flag::Harmonic,
+    Flag::Crowded,
+    Flag::Echo,
+    Flag::LowSnr,
+];
+
+impl Flag {
+    pub fn name(self) -> &'static str {
+        match self {
+            Flag::BigRadius => "big-radius",
+            Flag::OddEven => "odd-even",
+            Flag::Secondary => "secondary",
+            Flag::VShape => "v-shape",
+            Flag::DensityMismatch => "density-mismatch",
+            Flag::NearTwin => "near-twin",
+            Flag::Harmonic => "harmonic",
+            Flag::Crowded => "crowded",
+            Flag::Echo => "echo",
+            Flag::LowSnr => "low-snr",
+        }
+    }
+
+    pub fn parse(s: &str) -> Option<Flag> {
+        ALL_FLAGS.iter().copied().find(|f| f.name() == s)
+    }
+
+    fn bit(self) -> u16 {
+        1 << (self as u16)
+    }
+}
+
+impl fmt::Display for Flag {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(self.name())
+    }
+}
+
+/// A set of flags, as bits.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash)]
+pub struct FlagSet(u16);
+
+impl FlagSet {
+    pub const EMPTY: FlagSet = FlagSet(0);
+
+    /// The flags that keep a candidate from `validated` by default
+    /// (METHODS.md §0).
+    pub fn default_blocking() -> FlagSet {
+        [
+            Flag::BigRadius,
+            Flag::Secondary,
+            Flag::OddEven,
+            Flag::Echo,
+            Flag::Crowded,
+        ]
+        .into_iter()
+        .collect()
+    }
+
+    pub fn insert(&mut self, f: Flag) {
+        self.0 |= f.bit();
+    }
+
+    pub fn contains(self, f: Flag) -> bool {
+        self.0 & f.bit() != 0
+    }
+
+    pub fn intersects(self, other: FlagSet) -> bool {
+        self.0 & other.0 != 0
+    }
+
+    pub fn is_empty(self) -> bool {
+        self.0 == 0
+    }
+
+    pub fn iter(self) -> impl Iterator<Item = Flag> {
+        ALL_FLAGS.into_iter().filter(move |f| self.contains(*f))
+    }
+
+    /// `a;b;c`, as in CSV exports.
+    pub fn joined(self, sep: &str) -> String {
+        self.iter().map(Flag::name).collect::<Vec<_>>().join(sep)
+    }
+
+    /// Parses a comma-separated list of flag names.
+    pub fn parse_list(s: &str) -> Result<FlagSet, String> {
+        let mut set = FlagSet::EMPTY;
+        for name in s.split(',').map(str::trim).filter(|n| !n.is_empty()) {
+            let f = Flag::parse(name).ok_or_else(|| {
+                format!(
+                    "unknown flag `{name}`; known: {}",
+                    ALL_FLAGS.map(Flag::name).join(", ")
+                )
+            })?;
+            set.insert(f);
+        }
+        Ok(set)
+    }
+}
+
+impl FromIterator<Flag> for FlagSet {
+    fn from_iter<I: IntoIterator<Item = Flag>>(iter: I) -> FlagSet {
+        let mut s = FlagSet::EMPTY;
+        for f in iter {
+            s.insert(f);
+        }
+        s
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn names_round_trip_and_sets() {
+        for f in ALL_FLAGS {
+            assert_eq!(Flag::parse(f.name()), Some(f));
+        }
+        let b = FlagSet::default_blocking();
+        assert!(b.contains(Flag::Echo) && !b.contains(Flag::LowSnr));
+        assert_eq!(b.joined(";"), "big-radius;odd-even;secondary;crowded;echo");
+        assert_eq!(
+            FlagSet::parse_list("echo, low-snr").unwrap().joined(","),
+            "echo,low-snr"
+        );
+        assert!(
+            FlagSet::parse_list("wobbly")
+                .unwrap_err()
+                .contains("unknown flag `wobbly`")
+        );
+    }
+}
