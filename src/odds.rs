@@ -265,8 +265,8 @@ pub fn table(model: &Model, hist: &[usize]) -> Table {
     let mut rows = Vec::with_capacity(k_max);
     for k in 1..=k_max {
         let (mut e, mut fk) = (0.0, 0.0);
-        for j in 1..=k {
-            let term = h(k - j) * pi[j];
+        for (j, p) in pi.iter().enumerate().take(k + 1).skip(1) {
+            let term = h(k - j) * p;
             e += term;
             fk += j as f64 * term;
         }
