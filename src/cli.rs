@@ -33,6 +33,8 @@ pub struct Cli {
 pub enum Command {
     /// Stars, candidates, multiplicity histogram, column mapping, skipped rows.
     Summary(cmd::summary::Args),
+    /// Multiplicity odds and verdict of every candidate.
+    Odds(cmd::odds::Args),
     /// Regenerate the demo catalogue or write a large synthetic one.
     #[command(hide = true)]
     Generate(cmd::generate::Args),
@@ -54,6 +56,46 @@ pub struct CatalogueArgs {
     pub delimiter: Option<String>,
 }
 
+/// Arguments of the odds model. Flags win over `survey.toml`.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct ModelArgs {
+    /// N: number of target stars searched (overrides survey.toml).
+    #[arg(long, value_name = "N")]
+    pub targets: Option<u64>,
+    /// f: false-positive fraction of single-candidate stars, in (0, 1) [default: survey.toml, else 0.1].
+    #[arg(long, value_name = "F")]
+    pub fp_fraction: Option<f64>,
+    /// Boost definition: catalogue, system, or fixed:2=25,3=100.
+    #[arg(long, value_name = "MODE", default_value = "catalogue")]
+    pub boost: String,
+    /// Posterior odds needed for `validated`.
+    #[arg(long, value_name = "T", default_value_t = crate::odds::DEFAULT_THRESHOLD)]
+    pub threshold: f64,
+    /// Flags that keep a candidate from `validated` (comma-separated).
+    #[arg(
+        long,
+        value_name = "FLAGS",
+        default_value = "big-radius,secondary,odd-even,echo,crowded"
+    )]
+    pub blocking: String,
+}
+
+impl ModelArgs {
+    /// The model, from these flags and the survey facts.
+    pub fn model(&self, survey: &SurveyFacts) -> Result<crate::odds::Model, CliError> {
+        Ok(crate::odds::Model {
+            targets: self.targets.or(survey.targets_searched),
+            fp_fraction: self
+                .fp_fraction
+                .or(survey.fp_fraction_singles)
+                .unwrap_or(crate::odds::DEFAULT_FP_FRACTION),
+            mode: crate::odds::BoostMode::parse(&self.boost).map_err(CliError::Input)?,
+            threshold: self.threshold,
+            blocking: crate::flags::FlagSet::parse_list(&self.blocking).map_err(CliError::Input)?,
+        })
+    }
+}
+
 /// An error for the user, with the exit code it maps to.
 #[derive(Debug, thiserror::Error)]
 pub enum CliError {
@@ -63,6 +105,8 @@ pub enum CliError {
     Survey(#[from] SurveyError),
     #[error("{0}")]
     Input(String),
+    #[error(transparent)]
+    Model(#[from] crate::odds::ModelError),
     #[error("{0}")]
     Io(#[from] io::Error),
 }
@@ -160,6 +204,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<(), CliError> {
         // Until the terminal browser lands, the main job on the demo is its summary.
         None => cmd::summary::run(&cmd::summary::Args::demo(), out),
         Some(Command::Summary(a)) => cmd::summary::run(&a, out),
+        Some(Command::Odds(a)) => cmd::odds::run(&a, out),
         Some(Command::Generate(a)) => cmd::generate::run(&a, out),
     }
 }

@@ -1,4 +1,5 @@
 //! Headless commands, one file each: its arguments and its `run`.
 
 pub mod generate;
+pub mod odds;
 pub mod summary;

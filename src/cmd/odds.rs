@@ -1,0 +1,227 @@
+//! `starsift odds CATALOGUE`: the multiplicity odds and verdict of every
+//! candidate, the model table per multiplicity, and counts per verdict.
+
+use std::io::Write;
+
+use serde_json::{Value, json};
+
+use crate::catalogue::{CandidateId, Catalogue};
+use crate::cli::{CatalogueArgs, CliError, ModelArgs};
+use crate::odds::{ALL_VERDICTS, Live, Table, format_odds, model_statement};
+use crate::output::{Align, Format, Table as TextTable, csv_writer, exact, num, write_json};
+use crate::sanitize::clean;
+
+#[derive(Debug, Clone, clap::Args)]
+pub struct Args {
+    #[command(flatten)]
+    pub input: CatalogueArgs,
+    #[command(flatten)]
+    pub model: ModelArgs,
+    /// Output format: a table for people, CSV or JSON for scripts.
+    #[arg(long, value_enum, default_value = "table")]
+    pub format: Format,
+}
+
+pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
+    let loaded = args.input.load()?;
+    let cat = &loaded.catalogue;
+    let model = args.model.model(&loaded.survey)?;
+    let live = Live::new(cat, model)?;
+    let warnings: Vec<&String> = live
+        .input_warnings
+        .iter()
+        .chain(&live.table().warnings)
+        .collect();
+    if args.format != Format::Json {
+        for w in &warnings {
+            eprintln!("starsift: warning: {w}");
+        }
+    }
+    match args.format {
+        Format::Csv => write_csv(cat, &live, out),
+        Format::Json => write_json(out, &to_json(cat, &live)).map_err(CliError::from),
+        Format::Table => write_table(cat, &live, out),
+    }
+}
+
+fn write_csv(cat: &Catalogue, live: &Live, out: &mut dyn Write) -> Result<(), CliError> {
+    let mut w = csv_writer(out);
+    let err = |e: csv::Error| CliError::Input(e.to_string());
+    w.write_record([
+        "star",
+        "candidate",
+        "k",
+        "prior",
+        "boost",
+        "odds",
+        "probability",
+        "verdict",
+        "decision",
+        "flags",
+    ])
+    .map_err(err)?;
+    for c in 0..cat.len() as CandidateId {
+        w.write_record([
+            clean(cat.star_id(cat.star_of(c))).as_ref(),
+            clean(cat.candidate_id(c)).as_ref(),
+            &live.k(c).to_string(),
+            &exact(Some(live.prior(c))),
+            &exact(live.boost(c)),
+            &exact(live.odds(c)),
+            &exact(live.probability(c)),
+            live.verdict(c).name(),
+            live.decision(c).name(),
+            &live.flags(c).joined(";"),
+        ])
+        .map_err(err)?;
+    }
+    w.flush()?;
+    Ok(())
+}
+
+fn table_json(t: &Table) -> Vec<Value> {
+    let f = |v: f64| if v.is_finite() { json!(v) } else { Value::Null };
+    t.rows
+        .iter()
+        .map(|r| {
+            json!({
+                "k": r.k, "stars": r.stars, "e_k": f(r.e), "f_k": f(r.f), "q_k": f(r.q), "s_k": f(r.s),
+                "boost_candidate": f(r.boost_cand), "boost_system": f(r.boost_sys),
+                "boost_odds": f(r.boost_odds), "boost": f(r.boost),
+            })
+        })
+        .collect()
+}
+
+fn model_json(live: &Live) -> Value {
+    let m = live.model();
+    json!({
+        "targets_searched": m.targets,
+        "fp_fraction_singles": m.fp_fraction,
+        "lambda": if live.table().lambda.is_finite() { json!(live.table().lambda) } else { Value::Null },
+        "boost_mode": m.mode.describe(),
+        "threshold": m.threshold,
+        "blocking_flags": m.blocking.iter().map(|f| f.name()).collect::<Vec<_>>(),
+        "statement": model_statement(m),
+    })
+}
+
+fn to_json(cat: &Catalogue, live: &Live) -> Value {
+    let f = |v: Option<f64>| v.map_or(Value::Null, |x| json!(x));
+    let candidates: Vec<Value> = (0..cat.len() as CandidateId)
+        .map(|c| {
+            json!({
+                "star": clean(cat.star_id(cat.star_of(c))),
+                "candidate": clean(cat.candidate_id(c)),
+                "k": live.k(c),
+                "prior": live.prior(c),
+                "boost": f(live.boost(c)),
+                "odds": f(live.odds(c)),
+                "probability": f(live.probability(c)),
+                "verdict": live.verdict(c).name(),
+                "decision": live.decision(c).name(),
+                "flags": live.flags(c).iter().map(|f| f.name()).collect::<Vec<_>>(),
+            })
+        })
+        .collect();
+    let counts: serde_json::Map<String, Value> = ALL_VERDICTS
+        .iter()
+        .map(|v| (v.name().to_string(), json!(live.counts().get(*v))))
+        .collect();
+    let warnings: Vec<&String> = live
+        .input_warnings
+        .iter()
+        .chain(&live.table().warnings)
+        .collect();
+    json!({
+        "catalogue": clean(&cat.source),
+        "model": model_json(live),
+        "table": table_json(live.table()),
+        "counts": counts,
+        "warnings": warnings,
+        "candidates": candidates,
+    })
+}
+
+fn write_table(cat: &Catalogue, live: &Live, out: &mut dyn Write) -> Result<(), CliError> {
+    writeln!(out, "catalogue  {}", clean(&cat.source))?;
+    let mut t = TextTable::new(&[
+        ("star", Align::Left),
+        ("candidate", Align::Left),
+        ("k", Align::Right),
+        ("prior", Align::Right),
+        ("boost", Align::Right),
+        ("odds", Align::Right),
+        ("probability", Align::Right),
+        ("verdict", Align::Left),
+    ]);
+    for c in 0..cat.len() as CandidateId {
+        t.row(&[
+            cat.star_id(cat.star_of(c)).to_string(),
+            cat.candidate_id(c).to_string(),
+            live.k(c).to_string(),
+            num(Some(live.prior(c)), 3),
+            num(live.boost(c), 4),
+            live.odds(c).map_or("-".into(), format_odds),
+            live.probability(c)
+                .map_or("-".into(), |p| format!("{p:.5}")),
+            live.verdict(c).name().to_string(),
+        ]);
+    }
+    t.write(out, "")?;
+    write_model_footer(live, out)
+}
+
+/// N, f, the table per k, counts per verdict, and the model statement.
+pub fn write_model_footer(live: &Live, out: &mut dyn Write) -> Result<(), CliError> {
+    let m = live.model();
+    let table = live.table();
+    writeln!(out)?;
+    writeln!(
+        out,
+        "model      N = {} targets searched, f = {} (false-positive fraction of singles), λ = f·n1/N = {}",
+        m.targets.map_or("not given".into(), |n| n.to_string()),
+        m.fp_fraction,
+        num(Some(table.lambda), 4)
+    )?;
+    writeln!(out, "boost      {}", m.mode.describe())?;
+    let mut t = TextTable::new(&[
+        ("k", Align::Right),
+        ("stars", Align::Right),
+        ("q_k", Align::Right),
+        ("s_k", Align::Right),
+        ("B_cand", Align::Right),
+        ("B_sys", Align::Right),
+        ("B_odds", Align::Right),
+        ("boost", Align::Right),
+        ("odds at f", Align::Right),
+        ("P", Align::Right),
+    ]);
+    for r in &table.rows {
+        let o = crate::odds::posterior_odds(r.boost, m.fp_fraction);
+        t.row(&[
+            r.k.to_string(),
+            r.stars.to_string(),
+            num(Some(r.q), 4),
+            num(Some(r.s), 4),
+            num(Some(r.boost_cand), 4),
+            num(Some(r.boost_sys), 4),
+            num(Some(r.boost_odds), 4),
+            num(Some(r.boost), 4),
+            format_odds(o),
+            format!("{:.5}", crate::odds::probability(o)),
+        ]);
+    }
+    t.write(out, "  ")?;
+    let c = live.counts();
+    writeln!(
+        out,
+        "verdicts   {} validated, {} likely, {} unlikely, {} rejected",
+        c.validated, c.likely, c.unlikely, c.rejected
+    )?;
+    for w in live.input_warnings.iter().chain(&table.warnings) {
+        writeln!(out, "warning    {}", clean(w))?;
+    }
+    writeln!(out, "{}", model_statement(m))?;
+    Ok(())
+}
