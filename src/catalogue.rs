@@ -6,6 +6,7 @@ mod load;
 mod pool;
 
 use std::hash::BuildHasher;
+use std::sync::Arc;
 
 pub use columns::{ColumnMap, ColumnUse, DepthUnit, FIELDS, Field, Mapping, NUMERIC, REQUIRED};
 pub use load::{LoadOptions, Source};
@@ -93,6 +94,31 @@ pub type CandidateId = u32;
 /// Index of a star, in order of first appearance.
 pub type StarId = u32;
 
+/// Which star each candidate orbits and which candidates each star has.
+#[derive(Debug)]
+pub struct StarIndex {
+    /// Star of each candidate.
+    pub star_of: Vec<StarId>,
+    /// Compressed rows: the members of star s are
+    /// `members[member_start[s]..member_start[s + 1]]`, in file order.
+    pub member_start: Vec<u32>,
+    pub members: Vec<CandidateId>,
+}
+
+impl StarIndex {
+    pub fn members(&self, s: StarId) -> &[CandidateId] {
+        let (a, b) = (
+            self.member_start[s as usize] as usize,
+            self.member_start[s as usize + 1] as usize,
+        );
+        &self.members[a..b]
+    }
+
+    pub fn star_count(&self) -> usize {
+        self.member_start.len() - 1
+    }
+}
+
 /// A loaded catalogue. Numeric fields are stored as columns of `f64` with
 /// `NaN` for a missing value; depths are always ppm.
 #[derive(Debug)]
@@ -101,12 +127,10 @@ pub struct Catalogue {
     pub source: String,
     candidates: StrPool,
     stars: StrPool,
-    star_of: Vec<StarId>,
+    index: Arc<StarIndex>,
     num: Vec<Option<Vec<f64>>>,
     lightcurve: Option<StrPool>,
     extras: Vec<(String, StrPool)>,
-    member_start: Vec<u32>,
-    members: Vec<CandidateId>,
     /// (high half of the id's hash, candidate)
     candidate_lookup: hashbrown::HashTable<(u32, CandidateId)>,
     /// (high half of the id's hash, star)
@@ -122,11 +146,11 @@ pub struct Catalogue {
 
 impl Catalogue {
     pub fn len(&self) -> usize {
-        self.star_of.len()
+        self.index.star_of.len()
     }
 
     pub fn is_empty(&self) -> bool {
-        self.star_of.is_empty()
+        self.index.star_of.is_empty()
     }
 
     pub fn star_count(&self) -> usize {
@@ -142,16 +166,17 @@ impl Catalogue {
     }
 
     pub fn star_of(&self, c: CandidateId) -> StarId {
-        self.star_of[c as usize]
+        self.index.star_of[c as usize]
     }
 
     /// The candidates of one star, in file order.
     pub fn members(&self, s: StarId) -> &[CandidateId] {
-        let (a, b) = (
-            self.member_start[s as usize] as usize,
-            self.member_start[s as usize + 1] as usize,
-        );
-        &self.members[a..b]
+        self.index.members(s)
+    }
+
+    /// The star index, shared (cheaply cloned) with the live odds state.
+    pub fn index(&self) -> Arc<StarIndex> {
+        Arc::clone(&self.index)
     }
 
     /// The value of a numeric field, `None` where the column is absent or the
@@ -209,7 +234,7 @@ impl Catalogue {
     /// Number of stars with exactly k candidates, indexed by k (index 0 is 0).
     pub fn histogram(&self) -> Vec<usize> {
         let mut h = Vec::new();
-        for w in self.member_start.windows(2) {
+        for w in self.index.member_start.windows(2) {
             let k = (w[1] - w[0]) as usize;
             if h.len() <= k {
                 h.resize(k + 1, 0);

@@ -7,7 +7,9 @@
 use super::{
     Model, ModelError, Table, Verdict, check_inputs, posterior_odds, probability, table, verdict,
 };
-use crate::catalogue::{CandidateId, Catalogue, Field, StarId};
+use std::sync::Arc;
+
+use crate::catalogue::{CandidateId, Catalogue, Field, StarId, StarIndex};
 use crate::decision::Decision;
 use crate::flags::FlagSet;
 
@@ -79,9 +81,7 @@ enum Bucket {
 #[derive(Clone, Debug)]
 pub struct Live {
     model: Model,
-    star_of: Vec<StarId>,
-    member_start: Vec<u32>,
-    members: Vec<CandidateId>,
+    index: Arc<StarIndex>,
     /// Per-candidate prior FP probability, when the catalogue has `fpp`.
     prior: Option<Vec<f64>>,
     /// Priors ascending and each candidate's rank among them.
@@ -94,6 +94,9 @@ pub struct Live {
     hist: Vec<usize>,
     buckets: Vec<Bucket>,
     table: Table,
+    /// Posterior odds at the prior f, per k (index 0 unused): the odds of
+    /// every candidate when the catalogue has no `fpp`.
+    odds_at_f: Vec<f64>,
     counts: VerdictCounts,
     rejected: usize,
     /// Cautions about the inputs (bad fpp values, clamps in the table).
@@ -119,15 +122,6 @@ impl Live {
         decision: Vec<Decision>,
     ) -> Result<Live, ModelError> {
         check_inputs(&model, cat.star_count())?;
-        let n = cat.len();
-        let star_of: Vec<StarId> = (0..n as CandidateId).map(|c| cat.star_of(c)).collect();
-        let mut member_start = Vec::with_capacity(cat.star_count() + 1);
-        let mut members = Vec::with_capacity(n);
-        member_start.push(0);
-        for s in 0..cat.star_count() as StarId {
-            members.extend_from_slice(cat.members(s));
-            member_start.push(members.len() as u32);
-        }
         let mut input_warnings = Vec::new();
         let prior = cat.column(Field::Fpp).map(|col| {
             let mut bad = 0;
@@ -163,9 +157,7 @@ impl Live {
         });
         let mut live = Live {
             model,
-            star_of,
-            member_start,
-            members,
+            index: cat.index(),
             prior,
             ranked,
             flags,
@@ -180,25 +172,26 @@ impl Live {
                 rows: Vec::new(),
                 warnings: Vec::new(),
             },
+            odds_at_f: Vec::new(),
             counts: VerdictCounts::default(),
             rejected: 0,
             input_warnings,
         };
-        for s in 0..live.k_of_star.len() {
-            let k = live
-                .members_of(s as StarId)
+        let index = Arc::clone(&live.index);
+        for s in 0..index.star_count() {
+            let members = index.members(s as StarId);
+            let k = members
                 .iter()
                 .filter(|&&c| !live.decision[c as usize].is_rejected())
                 .count();
             live.k_of_star[s] = k as u16;
             live.bump_hist(k, 1);
-        }
-        for c in 0..n as CandidateId {
-            if live.decision[c as usize].is_rejected() {
-                live.rejected += 1;
-            } else {
-                let k = live.k_of_star[live.star_of[c as usize] as usize] as usize;
-                live.bucket_add(k, c, 1);
+            for &c in members {
+                if live.decision[c as usize].is_rejected() {
+                    live.rejected += 1;
+                } else {
+                    live.bucket_add(k, c, 1);
+                }
             }
         }
         live.refresh();
@@ -231,11 +224,11 @@ impl Live {
     }
 
     fn members_of(&self, s: StarId) -> &[CandidateId] {
-        let (a, b) = (
-            self.member_start[s as usize],
-            self.member_start[s as usize + 1],
-        );
-        &self.members[a as usize..b as usize]
+        self.index.members(s)
+    }
+
+    fn star_of(&self, c: CandidateId) -> StarId {
+        self.index.star_of[c as usize]
     }
 
     /// The size of the system the candidate belongs to; 0 once rejected.
@@ -243,7 +236,7 @@ impl Live {
         if self.decision[c as usize].is_rejected() {
             0
         } else {
-            self.k_of_star[self.star_of[c as usize] as usize] as usize
+            self.k_of_star[self.star_of(c) as usize] as usize
         }
     }
 
@@ -264,7 +257,19 @@ impl Live {
 
     /// Posterior odds planet : FP; `None` once rejected.
     pub fn odds(&self, c: CandidateId) -> Option<f64> {
-        self.boost(c).map(|b| posterior_odds(b, self.prior(c)))
+        let k = self.k(c);
+        if k == 0 {
+            return None;
+        }
+        match &self.prior {
+            None => Some(
+                self.odds_at_f
+                    .get(k)
+                    .copied()
+                    .unwrap_or_else(|| posterior_odds(self.table.boost(k), self.model.fp_fraction)),
+            ),
+            Some(p) => Some(posterior_odds(self.table.boost(k), p[c as usize])),
+        }
     }
 
     pub fn probability(&self, c: CandidateId) -> Option<f64> {
@@ -292,7 +297,7 @@ impl Live {
         if old.is_rejected() == d.is_rejected() {
             return;
         }
-        let s = self.star_of[c as usize];
+        let s = self.star_of(c);
         let k = self.k_of_star[s as usize] as usize;
         let siblings: Vec<CandidateId> = self
             .members_of(s)
@@ -350,7 +355,7 @@ impl Live {
         hist[k] -= 1;
         hist[k - 1] += 1;
         let t = table(&self.model, trimmed(&hist));
-        let s = self.star_of[c as usize];
+        let s = self.star_of(c);
         self.members_of(s)
             .iter()
             .copied()
@@ -445,6 +450,11 @@ impl Live {
     fn refresh(&mut self) {
         self.table = table(&self.model, trimmed(&self.hist));
         let (t, f) = (self.model.threshold, self.model.fp_fraction);
+        self.odds_at_f.clear();
+        self.odds_at_f.push(f64::NAN);
+        for r in &self.table.rows {
+            self.odds_at_f.push(posterior_odds(r.boost, f));
+        }
         let mut counts = VerdictCounts {
             rejected: self.rejected,
             ..VerdictCounts::default()
