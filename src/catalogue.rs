@@ -131,10 +131,8 @@ pub struct Catalogue {
     num: Vec<Option<Vec<f64>>>,
     lightcurve: Option<StrPool>,
     extras: Vec<(String, StrPool)>,
-    /// (high half of the id's hash, candidate)
-    candidate_lookup: hashbrown::HashTable<(u32, CandidateId)>,
-    /// (high half of the id's hash, star)
-    star_lookup: hashbrown::HashTable<(u32, StarId)>,
+    candidate_lookup: load::IdIndex,
+    star_lookup: load::IdIndex,
     hasher: hashbrown::DefaultHashBuilder,
     /// Which header fed which field, in which unit.
     pub columns: Vec<ColumnUse>,
@@ -216,19 +214,13 @@ impl Catalogue {
     pub fn find_candidate(&self, id: &str) -> Option<CandidateId> {
         let h = self.hasher.hash_one(id.as_bytes());
         self.candidate_lookup
-            .find(h, |e| {
-                e.0 == load::tag_of(h) && self.candidates.get(e.1 as usize) == id
-            })
-            .map(|e| e.1)
+            .find(h, |c| self.candidates.get(c as usize) == id)
     }
 
     pub fn find_star(&self, id: &str) -> Option<StarId> {
         let h = self.hasher.hash_one(id.as_bytes());
         self.star_lookup
-            .find(h, |e| {
-                e.0 == load::tag_of(h) && self.stars.get(e.1 as usize) == id
-            })
-            .map(|e| e.1)
+            .find(h, |s| self.stars.get(s as usize) == id)
     }
 
     /// Number of stars with exactly k candidates, indexed by k (index 0 is 0).

@@ -179,7 +179,28 @@ impl Field {
 
     /// The position of a numeric field in `NUMERIC`, `None` for text fields.
     pub fn num_slot(self) -> Option<usize> {
-        NUMERIC.iter().position(|f| *f == self)
+        // A match, not a search: the loader asks this for every row.
+        Some(match self {
+            Field::PeriodD => 0,
+            Field::Epoch => 1,
+            Field::DepthPpm => 2,
+            Field::DurationH => 3,
+            Field::Snr => 4,
+            Field::Impact => 5,
+            Field::Ror => 6,
+            Field::StarRadiusRsun => 7,
+            Field::StarMassMsun => 8,
+            Field::StarTeffK => 9,
+            Field::StarLogg => 10,
+            Field::RaDeg => 11,
+            Field::DecDeg => 12,
+            Field::Mag => 13,
+            Field::Fpp => 14,
+            Field::PeriodErrD => 15,
+            Field::EpochErrD => 16,
+            Field::Contamination => 17,
+            Field::Star | Field::Candidate | Field::Lightcurve => return None,
+        })
     }
 
     pub fn from_name(name: &str) -> Option<Field> {
@@ -435,6 +456,17 @@ mod tests {
         assert!(msg.contains("`period` is not a canonical field"), "{msg}");
         let err = ColumnMap::from_toml("star = \n", "map.toml").unwrap_err();
         assert!(err.to_string().contains("map.toml:1"), "{err}");
+    }
+
+    #[test]
+    fn numeric_slots_follow_the_storage_order() {
+        for (i, f) in NUMERIC.iter().enumerate() {
+            assert_eq!(f.num_slot(), Some(i), "{f}");
+        }
+        assert_eq!(
+            FIELDS.iter().filter(|f| f.num_slot().is_some()).count(),
+            NUMERIC.len()
+        );
     }
 
     #[test]

@@ -428,6 +428,64 @@ fn last_record_end(buf: &[u8], delimiter: u8) -> Option<usize> {
     last
 }
 
+/// The fields of one record, however it was read.
+trait Record {
+    fn len(&self) -> usize;
+    /// Field i, empty if the record is shorter.
+    fn field(&self, i: usize) -> &[u8];
+}
+
+impl Record for ByteRecord {
+    fn len(&self) -> usize {
+        ByteRecord::len(self)
+    }
+
+    fn field(&self, i: usize) -> &[u8] {
+        self.get(i).unwrap_or(&[])
+    }
+}
+
+/// A record cut from a line without quotes.
+#[derive(Default)]
+struct SplitRecord<'a> {
+    line: &'a [u8],
+    /// (start, end) of each field in `line`.
+    bounds: Vec<(usize, usize)>,
+}
+
+impl<'a> SplitRecord<'a> {
+    fn split(&mut self, line: &'a [u8], delimiter: u8) {
+        self.line = line;
+        self.bounds.clear();
+        // Fields are short: a plain loop beats memchr's set-up per call.
+        let mut start = 0;
+        for (i, &b) in line.iter().enumerate() {
+            if b == delimiter {
+                self.bounds.push((start, i));
+                start = i + 1;
+            }
+        }
+        self.bounds.push((start, line.len()));
+    }
+}
+
+impl Record for SplitRecord<'_> {
+    fn len(&self) -> usize {
+        self.bounds.len()
+    }
+
+    fn field(&self, i: usize) -> &[u8] {
+        self.bounds.get(i).map_or(&[], |&(a, b)| &self.line[a..b])
+    }
+}
+
+/// True when a chunk can be split without a CSV state machine: no quote
+/// character, and every CR is part of a CRLF.
+fn plain_text(b: &[u8]) -> bool {
+    memchr::memchr(b'"', b).is_none()
+        && memchr::memchr_iter(b'\r', b).all(|i| b.get(i + 1) == Some(&b'\n'))
+}
+
 struct Chunk {
     seq: usize,
     /// Line number of the chunk's first byte.
@@ -476,34 +534,48 @@ const POW10: [f64; 23] = [
 /// digits fit in a 53-bit integer m and whose power of ten |e| ≤ 22 is exactly
 /// m·10^e or m/10^−e, correctly rounded by one IEEE operation. Anything else
 /// returns `None` and goes to the standard library's parser.
+#[inline]
 fn fast_f64(b: &[u8]) -> Option<f64> {
-    let (neg, mut i) = match b.first()? {
-        b'-' => (true, 1),
-        b'+' => (false, 1),
-        _ => (false, 0),
+    let (neg, b) = match b {
+        [b'-', rest @ ..] => (true, rest),
+        [b'+', rest @ ..] => (false, rest),
+        _ => (false, b),
     };
+    let n = b.len();
+    // Up to 19 digits always fit in a u64; more go to the slow path.
     let mut m: u64 = 0;
-    let mut digits = 0;
-    let mut exp: i32 = 0;
-    let start = i;
-    while i < b.len() && b[i].is_ascii_digit() {
-        m = m.checked_mul(10)?.checked_add((b[i] - b'0') as u64)?;
-        digits += 1;
+    let mut i = 0;
+    while i < n {
+        let d = b[i].wrapping_sub(b'0');
+        if d > 9 {
+            break;
+        }
+        m = m.wrapping_mul(10).wrapping_add(d as u64);
         i += 1;
     }
-    if i < b.len() && b[i] == b'.' {
+    let mut digits = i;
+    let mut exp: i32 = 0;
+    if i < n && b[i] == b'.' {
         i += 1;
-        while i < b.len() && b[i].is_ascii_digit() {
-            m = m.checked_mul(10)?.checked_add((b[i] - b'0') as u64)?;
-            digits += 1;
-            exp -= 1;
+        let start = i;
+        while i < n {
+            let d = b[i].wrapping_sub(b'0');
+            if d > 9 {
+                break;
+            }
+            m = m.wrapping_mul(10).wrapping_add(d as u64);
             i += 1;
         }
+        digits += i - start;
+        exp = -((i - start) as i32);
     }
-    if digits == 0 || (i == start + 1 && b[start] == b'.') {
+    if digits == 0 || digits > 19 {
         return None;
     }
-    if i < b.len() && (b[i] == b'e' || b[i] == b'E') {
+    if i < n {
+        if b[i] != b'e' && b[i] != b'E' {
+            return None;
+        }
         i += 1;
         let eneg = match b.get(i) {
             Some(b'-') => {
@@ -516,18 +588,22 @@ fn fast_f64(b: &[u8]) -> Option<f64> {
             }
             _ => false,
         };
-        let es = i;
+        let start = i;
         let mut e: i32 = 0;
-        while i < b.len() && b[i].is_ascii_digit() {
-            e = e.checked_mul(10)?.checked_add((b[i] - b'0') as i32)?;
+        while i < n && i - start < 6 {
+            let d = b[i].wrapping_sub(b'0');
+            if d > 9 {
+                break;
+            }
+            e = e * 10 + d as i32;
             i += 1;
         }
-        if i == es {
+        if i == start || i != n {
             return None;
         }
-        exp = exp.checked_add(if eneg { -e } else { e })?;
+        exp += if eneg { -e } else { e };
     }
-    if i != b.len() || m > (1u64 << 53) || !(-22..=22).contains(&exp) {
+    if m > (1u64 << 53) || !(-22..=22).contains(&exp) {
         return None;
     }
     let v = if exp < 0 {
@@ -593,13 +669,30 @@ impl Layout {
             stars: StrPool::with_capacity(chunk.bytes.len() / 100, chunk.bytes.len() / 10),
             star_hash: Vec::new(),
             lines: Vec::new(),
-            num: vec![Vec::with_capacity(chunk.bytes.len() / 100); self.num_cols.len()],
+            num: (0..self.num_cols.len())
+                .map(|_| Vec::with_capacity(chunk.bytes.len() / 100))
+                .collect(),
             lightcurve: self.lc_col.map(|_| StrPool::default()),
             extras: vec![StrPool::default(); self.extra_cols.len()],
             skipped: Vec::new(),
             rows_seen: 0,
             bytes: chunk.bytes.len(),
         };
+        let mut scratch = vec![f64::NAN; NUMERIC.len()];
+        if plain_text(&chunk.bytes) {
+            // No quotes and no bare CR: every line is a record and every
+            // delimiter ends a field, so split at memchr speed.
+            let mut rec = SplitRecord::default();
+            for (this, text) in (chunk.line..).zip(chunk.bytes.split(|&b| b == b'\n')) {
+                let text = text.strip_suffix(b"\r").unwrap_or(text);
+                if text.starts_with(b"#") || text.iter().all(u8::is_ascii_whitespace) {
+                    continue; // comment or blank line
+                }
+                rec.split(text, self.delimiter);
+                self.add(&mut part, &rec, this, &mut scratch, hasher);
+            }
+            return part;
+        }
         let mut rdr = csv::ReaderBuilder::new()
             .delimiter(self.delimiter)
             .comment(Some(b'#'))
@@ -607,7 +700,6 @@ impl Layout {
             .has_headers(false)
             .from_reader(&chunk.bytes[..]);
         let mut rec = ByteRecord::new();
-        let mut scratch = vec![f64::NAN; NUMERIC.len()];
         let mut last_line = chunk.line;
         // Reading from memory fails only on a broken record: that ends the chunk.
         while let Ok(true) = rdr.read_byte_record(&mut rec) {
@@ -618,28 +710,40 @@ impl Layout {
             if rec.len() == 1 && rec[0].iter().all(u8::is_ascii_whitespace) {
                 continue; // blank line
             }
-            part.rows_seen += 1;
-            match self.row(&rec, line, &mut scratch) {
-                Ok((star, cand)) => {
-                    part.candidate_hash.push(hasher.hash_one(cand.as_bytes()));
-                    part.candidates.push(cand);
-                    part.star_hash.push(hasher.hash_one(star.as_bytes()));
-                    part.stars.push(star);
-                    part.lines.push(u32::try_from(line).unwrap_or(u32::MAX));
-                    for (j, &(slot, _)) in self.num_cols.iter().enumerate() {
-                        part.num[j].push(scratch[slot]);
-                    }
-                    if let (Some(pool), Some(col)) = (part.lightcurve.as_mut(), self.lc_col) {
-                        pool.push(&String::from_utf8_lossy(rec[col].trim_ascii()));
-                    }
-                    for (pool, &col) in part.extras.iter_mut().zip(&self.extra_cols) {
-                        pool.push(&String::from_utf8_lossy(&rec[col]));
-                    }
-                }
-                Err(skip) => part.skipped.push(skip),
-            }
+            self.add(&mut part, &rec, line, &mut scratch, hasher);
         }
         part
+    }
+
+    /// Parses one record into `part`, or records why it was skipped.
+    fn add(
+        &self,
+        part: &mut Part,
+        rec: &impl Record,
+        line: u64,
+        scratch: &mut [f64],
+        hasher: &hashbrown::DefaultHashBuilder,
+    ) {
+        part.rows_seen += 1;
+        match self.row(rec, line, scratch) {
+            Ok((star, cand)) => {
+                part.candidate_hash.push(hasher.hash_one(cand.as_bytes()));
+                part.candidates.push(cand);
+                part.star_hash.push(hasher.hash_one(star.as_bytes()));
+                part.stars.push(star);
+                part.lines.push(u32::try_from(line).unwrap_or(u32::MAX));
+                for (j, &(slot, _)) in self.num_cols.iter().enumerate() {
+                    part.num[j].push(scratch[slot]);
+                }
+                if let (Some(pool), Some(col)) = (part.lightcurve.as_mut(), self.lc_col) {
+                    pool.push(&String::from_utf8_lossy(rec.field(col).trim_ascii()));
+                }
+                for (pool, &col) in part.extras.iter_mut().zip(&self.extra_cols) {
+                    pool.push(&String::from_utf8_lossy(rec.field(col)));
+                }
+            }
+            Err(skip) => part.skipped.push(skip),
+        }
     }
 
     fn skip(&self, line: u64, col: Option<usize>, reason: String) -> Skip {
@@ -657,12 +761,12 @@ impl Layout {
 
     fn id_cell<'r>(
         &self,
-        rec: &'r ByteRecord,
+        rec: &'r impl Record,
         col: usize,
         field: Field,
         line: u64,
     ) -> Result<&'r str, Skip> {
-        let raw = rec.get(col).unwrap_or(&[]).trim_ascii();
+        let raw = rec.field(col).trim_ascii();
         let s = std::str::from_utf8(raw)
             .map_err(|_| self.skip(line, Some(col), format!("{field}: not valid UTF-8")))?;
         if s.is_empty() {
@@ -674,7 +778,7 @@ impl Layout {
     /// Parses and validates one row into `scratch`; returns its (star, candidate).
     fn row<'r>(
         &self,
-        rec: &'r ByteRecord,
+        rec: &'r impl Record,
         line: u64,
         scratch: &mut [f64],
     ) -> Result<(&'r str, &'r str), Skip> {
@@ -692,7 +796,7 @@ impl Layout {
         let star = self.id_cell(rec, self.star_col, Field::Star, line)?;
         let cand = self.id_cell(rec, self.cand_col, Field::Candidate, line)?;
         for &(slot, col) in &self.num_cols {
-            let raw = &rec[col];
+            let raw = rec.field(col);
             scratch[slot] = match parse_cell(raw) {
                 Cell::Value(v) => v,
                 Cell::Missing => f64::NAN,
@@ -716,13 +820,12 @@ impl Layout {
     /// The per-row rules: required fields present and numeric, period finite
     /// and positive, duration positive and shorter than the period, depth
     /// positive.
-    fn validate(&self, rec: &ByteRecord, line: u64, scratch: &[f64]) -> Result<(), Skip> {
+    fn validate(&self, rec: &impl Record, line: u64, scratch: &[f64]) -> Result<(), Skip> {
         let get = |f: Field| scratch[f.num_slot().unwrap_or(0)];
         let col = |f: Field| self.mapping.by_field.get(&f).copied();
         let raw = |f: Field| {
             col(f)
-                .and_then(|c| rec.get(c))
-                .map(|b| String::from_utf8_lossy(b.trim_ascii()).into_owned())
+                .map(|c| String::from_utf8_lossy(rec.field(c).trim_ascii()).into_owned())
                 .unwrap_or_default()
         };
         for f in [
@@ -767,26 +870,21 @@ impl Layout {
     }
 }
 
-/// The high half of an id's hash, kept beside the id so most probes of a
-/// lookup table never touch the string pool.
-pub(super) fn tag_of(h: u64) -> u32 {
-    (h >> 32) as u32
-}
-
-/// Takes parts in file order: drops duplicate candidate ids, interns stars
-/// and appends the columns.
+/// Takes parts in file order and appends them; duplicates and star ids are
+/// resolved once at the end, by sorting hashes, which is far cheaper than a
+/// hash-table probe per row.
 struct Merger {
     name: String,
     candidates: StrPool,
-    stars: StrPool,
-    star_of: Vec<StarId>,
+    candidate_hash: Vec<u64>,
+    /// The star id of every row, before interning.
+    row_stars: StrPool,
+    star_hash: Vec<u64>,
     lines: Vec<u32>,
     /// One column per `Layout::num_cols` entry.
     num: Vec<Vec<f64>>,
     lightcurve: Option<StrPool>,
     extras: Vec<StrPool>,
-    candidate_lookup: hashbrown::HashTable<(u32, CandidateId)>,
-    star_lookup: hashbrown::HashTable<(u32, StarId)>,
     hasher: hashbrown::DefaultHashBuilder,
     cand_header: String,
     skipped: Vec<Skip>,
@@ -799,14 +897,13 @@ impl Merger {
         Merger {
             name,
             candidates: StrPool::default(),
-            stars: StrPool::default(),
-            star_of: Vec::new(),
+            candidate_hash: Vec::new(),
+            row_stars: StrPool::default(),
+            star_hash: Vec::new(),
             lines: Vec::new(),
             num: vec![Vec::new(); layout.num_cols.len()],
             lightcurve: layout.lc_col.map(|_| StrPool::default()),
             extras: vec![StrPool::default(); layout.extra_cols.len()],
-            candidate_lookup: hashbrown::HashTable::new(),
-            star_lookup: hashbrown::HashTable::new(),
             hasher: hashbrown::DefaultHashBuilder::default(),
             cand_header: layout.header[layout.cand_col].clone(),
             skipped: Vec::new(),
@@ -815,7 +912,7 @@ impl Merger {
         }
     }
 
-    /// Sizes the tables once from the first part's rows per byte.
+    /// Sizes the columns once from the first part's rows per byte.
     fn reserve(&mut self, part: &Part, size_hint: Option<u64>) {
         self.reserved = true;
         let (Some(size), true) = (size_hint, part.bytes > 0) else {
@@ -823,20 +920,16 @@ impl Merger {
         };
         let rows = part.lines.len() as f64 / part.bytes as f64;
         let est = (size as f64 * rows * 1.02) as usize + 16;
-        let id_bytes = part.candidates.byte_len() as f64 / part.lines.len().max(1) as f64;
-        self.candidates = StrPool::with_capacity(est, (est as f64 * id_bytes) as usize);
-        self.star_of.reserve(est);
+        let per_row = |p: &StrPool| p.byte_len() as f64 / part.lines.len().max(1) as f64;
+        self.candidates =
+            StrPool::with_capacity(est, (est as f64 * per_row(&part.candidates)) as usize);
+        self.row_stars = StrPool::with_capacity(est, (est as f64 * per_row(&part.stars)) as usize);
+        self.candidate_hash.reserve(est);
+        self.star_hash.reserve(est);
         self.lines.reserve(est);
         for c in &mut self.num {
             c.reserve(est);
         }
-        let (candidates, stars, hasher) = (&self.candidates, &self.stars, &self.hasher);
-        self.candidate_lookup.reserve(est, |e| {
-            hasher.hash_one(candidates.get(e.1 as usize).as_bytes())
-        });
-        self.star_lookup.reserve(est * 3 / 4, |e| {
-            hasher.hash_one(stars.get(e.1 as usize).as_bytes())
-        });
     }
 
     fn absorb(&mut self, part: Part, size_hint: Option<u64>) {
@@ -845,81 +938,112 @@ impl Merger {
         }
         self.rows_seen += part.rows_seen;
         self.skipped.extend(part.skipped);
-        for r in 0..part.lines.len() {
-            let cand = part.candidates.get(r);
-            let h = part.candidate_hash[r];
-            let tag = tag_of(h);
-            let candidates = &self.candidates;
-            if let Some(&(_, first)) = self
-                .candidate_lookup
-                .find(h, |e| e.0 == tag && candidates.get(e.1 as usize) == cand)
-            {
-                self.skipped.push(Skip {
-                    line: part.lines[r] as u64,
-                    column: Some(self.cand_header.clone()),
-                    reason: format!(
-                        "candidate: duplicate id `{cand}` (first on line {})",
-                        self.lines[first as usize]
-                    ),
-                });
-                continue;
-            }
-            let c = self.candidates.push(cand) as CandidateId;
-            let (candidates, hasher) = (&self.candidates, &self.hasher);
-            self.candidate_lookup.insert_unique(h, (tag, c), |e| {
-                hasher.hash_one(candidates.get(e.1 as usize).as_bytes())
-            });
-            let star = part.stars.get(r);
-            let hs = part.star_hash[r];
-            let tag = tag_of(hs);
-            let stars = &self.stars;
-            let s = match self
-                .star_lookup
-                .find(hs, |e| e.0 == tag && stars.get(e.1 as usize) == star)
-            {
-                Some(&(_, s)) => s,
-                None => {
-                    let s = self.stars.push(star) as StarId;
-                    let (stars, hasher) = (&self.stars, &self.hasher);
-                    self.star_lookup.insert_unique(hs, (tag, s), |e| {
-                        hasher.hash_one(stars.get(e.1 as usize).as_bytes())
-                    });
-                    s
-                }
-            };
-            self.star_of.push(s);
-            self.lines.push(part.lines[r]);
-            for (col, src) in self.num.iter_mut().zip(&part.num) {
-                col.push(src[r]);
-            }
-            if let (Some(dst), Some(src)) = (self.lightcurve.as_mut(), part.lightcurve.as_ref()) {
-                dst.push(src.get(r));
-            }
-            for (dst, src) in self.extras.iter_mut().zip(&part.extras) {
-                dst.push(src.get(r));
-            }
+        self.candidates.append(&part.candidates);
+        self.candidate_hash.extend_from_slice(&part.candidate_hash);
+        self.row_stars.append(&part.stars);
+        self.star_hash.extend_from_slice(&part.star_hash);
+        self.lines.extend_from_slice(&part.lines);
+        for (dst, src) in self.num.iter_mut().zip(&part.num) {
+            dst.extend_from_slice(src);
+        }
+        if let (Some(dst), Some(src)) = (self.lightcurve.as_mut(), part.lightcurve.as_ref()) {
+            dst.append(src);
+        }
+        for (dst, src) in self.extras.iter_mut().zip(&part.extras) {
+            dst.append(src);
         }
     }
 
-    fn finish(self, layout: &Layout, opts: &LoadOptions) -> Result<Catalogue, LoadError> {
+    /// Removes duplicate rows (row, first row with the same id), with a skip
+    /// naming the first line.
+    fn remove_rows(&mut self, dups: &[(u32, u32)]) {
+        let mut keep = vec![true; self.lines.len()];
+        for &(row, first) in dups {
+            keep[row as usize] = false;
+            self.skipped.push(Skip {
+                line: self.lines[row as usize] as u64,
+                column: Some(self.cand_header.clone()),
+                reason: format!(
+                    "candidate: duplicate id `{}` (first on line {})",
+                    self.candidates.get(row as usize),
+                    self.lines[first as usize]
+                ),
+            });
+        }
+        fn retain<T>(v: &mut Vec<T>, keep: &[bool]) {
+            let mut i = 0;
+            v.retain(|_| {
+                i += 1;
+                keep[i - 1]
+            });
+        }
+        self.candidates = self.candidates.filter(&keep);
+        self.row_stars = self.row_stars.filter(&keep);
+        retain(&mut self.candidate_hash, &keep);
+        retain(&mut self.star_hash, &keep);
+        retain(&mut self.lines, &keep);
+        for col in &mut self.num {
+            retain(col, &keep);
+        }
+        if let Some(p) = self.lightcurve.as_mut() {
+            *p = p.filter(&keep);
+        }
+        for p in &mut self.extras {
+            *p = p.filter(&keep);
+        }
+    }
+
+    fn finish(mut self, layout: &Layout, opts: &LoadOptions) -> Result<Catalogue, LoadError> {
+        if self.lines.is_empty() && self.skipped.is_empty() {
+            return Err(LoadError::NoRows { path: self.name });
+        }
+        // Candidate ids and star ids are resolved on two threads at once.
+        // Duplicate ids are rare; when there are some, their rows go and the
+        // stars are grouped again without them.
+        let ((candidate_lookup, dups), grouping) = std::thread::scope(|s| {
+            let (rows, hashes) = (&self.row_stars, &self.star_hash);
+            let stars = s.spawn(move || StarGrouping::build(rows, hashes));
+            let cands = &self.candidates;
+            let ids = IdIndex::build(&self.candidate_hash, |a, b| {
+                cands.get(a as usize) == cands.get(b as usize)
+            });
+            let grouping = stars
+                .join()
+                .unwrap_or_else(|e| std::panic::resume_unwind(e));
+            (ids, grouping)
+        });
+        let (candidate_lookup, grouping) = if dups.is_empty() {
+            (candidate_lookup, grouping)
+        } else {
+            self.remove_rows(&dups);
+            let cands = &self.candidates;
+            let (ids, _) = IdIndex::build(&self.candidate_hash, |a, b| {
+                cands.get(a as usize) == cands.get(b as usize)
+            });
+            (ids, StarGrouping::build(&self.row_stars, &self.star_hash))
+        };
         let Merger {
             name,
             mut candidates,
-            mut stars,
-            star_of,
+            row_stars,
             num: parsed,
             mut lightcurve,
             extras,
-            candidate_lookup,
-            star_lookup,
             hasher,
             mut skipped,
             rows_seen,
             ..
         } = self;
-        if star_of.is_empty() && skipped.is_empty() {
-            return Err(LoadError::NoRows { path: name });
+        let StarGrouping {
+            star_of,
+            first_rows,
+            lookup: star_lookup,
+        } = grouping;
+        let mut stars = StrPool::with_capacity(first_rows.len(), row_stars.byte_len() / 2);
+        for &r in &first_rows {
+            stars.push(row_stars.get(r as usize));
         }
+        drop(row_stars);
         // Duplicates were found after their chunk's own skips: restore file order.
         skipped.sort_by_key(|s| s.line);
         let mut num: Vec<Option<Vec<f64>>> = vec![None; NUMERIC.len()];
@@ -978,7 +1102,6 @@ impl Merger {
             fill[s as usize] += 1;
         }
         candidates.shrink_to_fit();
-        stars.shrink_to_fit();
         for v in num.iter_mut().flatten() {
             if v.capacity() > v.len() + v.len() / 8 {
                 v.shrink_to_fit();
@@ -1007,6 +1130,129 @@ impl Merger {
             skipped,
             rows_seen,
         })
+    }
+}
+
+/// Rows grouped into stars: star ids in order of first appearance.
+struct StarGrouping {
+    star_of: Vec<StarId>,
+    /// The first row of each star, by star id.
+    first_rows: Vec<u32>,
+    lookup: IdIndex,
+}
+
+impl StarGrouping {
+    fn build(rows: &StrPool, hashes: &[u64]) -> StarGrouping {
+        let (mut lookup, repeats) =
+            IdIndex::build(hashes, |a, b| rows.get(a as usize) == rows.get(b as usize));
+        // lookup.ids holds each star's first row; number stars in row order.
+        let mut is_first = vec![false; hashes.len()];
+        for &r in &lookup.ids {
+            is_first[r as usize] = true;
+        }
+        let mut star_of = vec![0 as StarId; hashes.len()];
+        let mut first_rows = Vec::with_capacity(lookup.ids.len());
+        for (r, _) in is_first.iter().enumerate().filter(|(_, f)| **f) {
+            star_of[r] = first_rows.len() as StarId;
+            first_rows.push(r as u32);
+        }
+        drop(is_first);
+        for id in &mut lookup.ids {
+            *id = star_of[*id as usize];
+        }
+        for &(row, first) in &repeats {
+            star_of[row as usize] = star_of[first as usize];
+        }
+        StarGrouping {
+            star_of,
+            first_rows,
+            lookup,
+        }
+    }
+}
+
+/// (hash, row) pairs sorted by hash then row: a counting sort on the top 16
+/// bits of the hash (which is uniform) straight from the hashes, then each
+/// small bucket on its own. No intermediate copy of the pairs is made.
+fn sorted_pairs(hashes: &[u64]) -> Vec<(u64, u32)> {
+    if hashes.len() < 1 << 12 {
+        let mut pairs: Vec<(u64, u32)> = hashes
+            .iter()
+            .enumerate()
+            .map(|(i, &h)| (h, i as u32))
+            .collect();
+        pairs.sort_unstable();
+        return pairs;
+    }
+    const BITS: u32 = 16;
+    let bucket = |h: u64| (h >> (64 - BITS)) as usize;
+    let mut start = vec![0usize; (1 << BITS) + 1];
+    for &h in hashes {
+        start[bucket(h) + 1] += 1;
+    }
+    for i in 1..start.len() {
+        start[i] += start[i - 1];
+    }
+    let mut out = vec![(0u64, 0u32); hashes.len()];
+    let mut fill = start.clone();
+    for (i, &h) in hashes.iter().enumerate() {
+        let b = bucket(h);
+        out[fill[b]] = (h, i as u32);
+        fill[b] += 1;
+    }
+    for w in start.windows(2) {
+        out[w[0]..w[1]].sort_unstable();
+    }
+    out
+}
+
+/// Ids found by hash: hashes ascending, each with the row or id it names.
+#[derive(Debug, Default)]
+pub(super) struct IdIndex {
+    hashes: Vec<u64>,
+    ids: Vec<u32>,
+}
+
+impl IdIndex {
+    /// Sorts (hash, row) pairs; rows whose text equals an earlier row's (as
+    /// `same` says) are returned as (row, earlier row) and left out.
+    fn build(hashes: &[u64], same: impl Fn(u32, u32) -> bool) -> (IdIndex, Vec<(u32, u32)>) {
+        let pairs = sorted_pairs(hashes);
+        let mut index = IdIndex {
+            hashes: Vec::with_capacity(pairs.len()),
+            ids: Vec::with_capacity(pairs.len()),
+        };
+        let mut repeats = Vec::new();
+        let mut i = 0;
+        while i < pairs.len() {
+            let h = pairs[i].0;
+            let run_start = index.ids.len();
+            while i < pairs.len() && pairs[i].0 == h {
+                let row = pairs[i].1;
+                // Rows ascend within a run, so an equal earlier entry is the first.
+                match index.ids[run_start..].iter().find(|&&r| same(r, row)) {
+                    Some(&first) => repeats.push((row, first)),
+                    None => {
+                        index.hashes.push(h);
+                        index.ids.push(row);
+                    }
+                }
+                i += 1;
+            }
+        }
+        index.hashes.shrink_to_fit();
+        index.ids.shrink_to_fit();
+        (index, repeats)
+    }
+
+    pub(super) fn find(&self, h: u64, eq: impl Fn(u32) -> bool) -> Option<u32> {
+        let start = self.hashes.partition_point(|&x| x < h);
+        self.hashes[start..]
+            .iter()
+            .take_while(|&&x| x == h)
+            .zip(&self.ids[start..])
+            .find(|(_, id)| eq(**id))
+            .map(|(_, id)| *id)
     }
 }
 

@@ -26,6 +26,24 @@ impl StrPool {
         &self.buf[start..self.ends[i]]
     }
 
+    /// Appends every string of `other`.
+    pub fn append(&mut self, other: &StrPool) {
+        let base = self.buf.len();
+        self.buf.push_str(&other.buf);
+        self.ends.extend(other.ends.iter().map(|e| e + base));
+    }
+
+    /// The strings whose `keep` entry is true.
+    pub fn filter(&self, keep: &[bool]) -> StrPool {
+        let mut out = StrPool::with_capacity(self.len(), self.buf.len());
+        for (i, &k) in keep.iter().enumerate().take(self.len()) {
+            if k {
+                out.push(self.get(i));
+            }
+        }
+        out
+    }
+
     pub fn byte_len(&self) -> usize {
         self.buf.len()
     }
