@@ -60,6 +60,155 @@ pub fn radius_rearth(ror: f64, star_radius_rsun: f64) -> f64 {
     ror * star_radius_rsun * R_SUN_M / R_EARTH_M
 }
 
+/// Planet radius in Earth radii from the observed depth (ppm), the stellar
+/// radius and the fraction `c` of aperture flux from other sources:
+/// δ_true = δ_obs/(1−c), R_p = R★ √δ_true (uniform disc; METHODS.md §2).
+pub fn radius_from_depth_rearth(depth_ppm: f64, star_radius_rsun: f64, contamination: f64) -> f64 {
+    let c = contamination.clamp(0.0, 0.999);
+    let k = (depth_ppm * 1e-6 / (1.0 - c)).sqrt();
+    radius_rearth(k, star_radius_rsun)
+}
+
+/// Equilibrium temperature, K: T_eq = T_eff √(R★/a) [f_r (1 − A_B)]^{1/4},
+/// with f_r = 1/4 for full redistribution, 1/2 for the dayside only
+/// (standard radiative balance; METHODS.md §2, from memory).
+pub fn equilibrium_temperature_k(
+    teff_k: f64,
+    a_rstar: f64,
+    albedo: f64,
+    redistribution: f64,
+) -> f64 {
+    teff_k * (1.0 / a_rstar).sqrt() * (redistribution * (1.0 - albedo)).powf(0.25)
+}
+
+/// Insolation relative to Earth: S/S⊕ = (R★/R☉)² (T_eff/5772 K)⁴ (a/au)⁻²
+/// (METHODS.md §2; T_eff☉ nominal, IAU 2015 B3).
+pub fn insolation_earth(star_radius_rsun: f64, teff_k: f64, a_au: f64) -> f64 {
+    star_radius_rsun.powi(2) * (teff_k / crate::constants::TEFF_SUN_K).powi(4) / (a_au * a_au)
+}
+
+/// Mean stellar density, kg m⁻³, from a/R★ and the period:
+/// ρ★ = 3π (a/R★)³ / (G P²) (Seager & Mallén-Ornelas 2003, ApJ 585, 1038, in
+/// Winn's 2010 form without the planet term; METHODS.md §2).
+pub fn density_from_a_rstar(a_rstar: f64, period_d: f64) -> f64 {
+    let p = period_d * DAY_S;
+    3.0 * PI * a_rstar.powi(3) / (crate::constants::G * p * p)
+}
+
+/// a/R★ from the total duration, impact parameter and R_p/R★ of a circular
+/// orbit: (a/R★)² = [(1+k)² − b²(1 − s_T²)] / s_T², s_T = sin(π T₁₄/P)
+/// (Seager & Mallén-Ornelas 2003, METHODS.md §2).
+pub fn a_rstar_from_duration(period_d: f64, t14_h: f64, ror: f64, impact: f64) -> Option<f64> {
+    let st = (PI * t14_h / (period_d * 24.0)).sin();
+    if !(st > 0.0 && st < 1.0) {
+        return None;
+    }
+    let v = ((1.0 + ror).powi(2) - impact * impact * (1.0 - st * st)) / (st * st);
+    (v > 0.0).then(|| v.sqrt())
+}
+
+/// Impact parameter and a/R★ from the total and full durations and the depth
+/// (Seager & Mallén-Ornelas 2003; METHODS.md §2):
+/// b² = [(1−√δ)² − (s_F/s_T)² (1+√δ)²] / [1 − (s_F/s_T)²].
+pub fn impact_and_a_rstar(period_d: f64, t14_h: f64, t23_h: f64, depth: f64) -> Option<(f64, f64)> {
+    let st = (PI * t14_h / (period_d * 24.0)).sin();
+    let sf = (PI * t23_h / (period_d * 24.0)).sin();
+    let k = depth.sqrt();
+    let r2 = (sf / st).powi(2);
+    let b2 = ((1.0 - k).powi(2) - r2 * (1.0 + k).powi(2)) / (1.0 - r2);
+    if !(b2 >= 0.0) {
+        return None;
+    }
+    let b = b2.sqrt();
+    Some((b, a_rstar_from_duration(period_d, t14_h, k, b)?))
+}
+
+/// Mean density of a star from its mass and radius, kg m⁻³, with
+/// M☉ = GM☉/G (IAU 2015 B3 nominal GM☉, CODATA 2018 G).
+pub fn star_density(star_mass_msun: f64, star_radius_rsun: f64) -> f64 {
+    let m = star_mass_msun * GM_SUN / crate::constants::G;
+    let r = star_radius_rsun * R_SUN_M;
+    m / (4.0 / 3.0 * PI * r.powi(3))
+}
+
+/// Normalised transit duration ratio ξ = (T_in/T_out)(P_out/P_in)^{1/3}
+/// (Fabrycky et al. 2014, ApJ 790, 146; definition from memory).
+pub fn duration_ratio_xi(t_in_h: f64, p_in_d: f64, t_out_h: f64, p_out_d: f64) -> f64 {
+    (t_in_h / t_out_h) * (p_out_d / p_in_d).cbrt()
+}
+
+/// Planet mass in Earth masses from radius (Earth radii): Weiss & Marcy
+/// 2014 (ApJL 783, L6) below 4 R⊕ — ρ = 2.43 + 3.39 R g cm⁻³ below 1.5 R⊕,
+/// M = 2.69 R^0.93 from 1.5 to 4 R⊕ — and the generic M = R^2.06 above
+/// (a law fitting Earth and Saturn; METHODS.md §3, from memory).
+pub fn mass_from_radius_mearth(r: f64) -> f64 {
+    if r < 1.5 {
+        (2.43 + 3.39 * r) / earth_density_g_cm3() * r.powi(3)
+    } else if r < 4.0 {
+        2.69 * r.powf(0.93)
+    } else {
+        r.powf(2.06)
+    }
+}
+
+/// Mass from radius by Wolfgang et al. 2016 (ApJ 825, 19): M = 2.7 R^1.3 for
+/// R < 4 R⊕ (METHODS.md §3).
+pub fn mass_wolfgang_2016(r: f64) -> f64 {
+    2.7 * r.powf(1.3)
+}
+
+/// Earth's mean density, g cm⁻³, from nominal GM⊕ and the equatorial radius
+/// (IAU 2015 B3): 5.495 (METHODS.md §3).
+pub fn earth_density_g_cm3() -> f64 {
+    let m = crate::constants::GM_EARTH / crate::constants::G;
+    m / (4.0 / 3.0 * PI * R_EARTH_M.powi(3)) / 1000.0
+}
+
+/// Separation of two orbits in mutual Hill radii (Gladman 1993, Icarus 106,
+/// 247; METHODS.md §3): R_H = [(m₁+m₂)/(3M★)]^{1/3} (a₁+a₂)/2 and
+/// Δ = (a₂−a₁)/R_H. Masses in Earth masses, periods in days; depends only on
+/// the period ratio.
+pub fn hill_separation(
+    p1_d: f64,
+    p2_d: f64,
+    m1_mearth: f64,
+    m2_mearth: f64,
+    star_mass_msun: f64,
+) -> f64 {
+    let (p1, p2) = if p1_d <= p2_d {
+        (p1_d, p2_d)
+    } else {
+        (p2_d, p1_d)
+    };
+    let x = (p2 / p1).powf(2.0 / 3.0); // a₂/a₁
+    let mu = (m1_mearth + m2_mearth) / (crate::constants::M_SUN_PER_M_EARTH * star_mass_msun);
+    (x - 1.0) / ((mu / 3.0).cbrt() * (1.0 + x) / 2.0)
+}
+
+/// Two-planet Hill stability limit in mutual Hill radii, 2√3 (Gladman 1993;
+/// METHODS.md §3, from memory).
+pub const HILL_CRITICAL: f64 = 3.464_101_615_137_754_6;
+
+/// The period ratio at which two planets reach `delta` mutual Hill radii
+/// (bisection on [`hill_separation`]).
+pub fn period_ratio_for_hill(
+    delta: f64,
+    m1_mearth: f64,
+    m2_mearth: f64,
+    star_mass_msun: f64,
+) -> f64 {
+    let (mut lo, mut hi) = (1.0, 100.0);
+    for _ in 0..200 {
+        let mid = 0.5 * (lo + hi);
+        if hill_separation(1.0, mid, m1_mearth, m2_mearth, star_mass_msun) < delta {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+    }
+    0.5 * (lo + hi)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -116,5 +265,97 @@ mod tests {
         // δ = k²/(1 − 0.4/3 − 0.26/6); METHODS.md §4 gives F = 0.9878543 for p = 0.1.
         let d = small_planet_depth_ppm(0.1, 0.0, 0.4, 0.26);
         assert!((1.0 - d * 1e-6 - 0.9878543).abs() < 1e-7, "{d}");
+    }
+
+    #[test]
+    fn dilution() {
+        // METHODS.md §2 [D]: c = 0.5 turns 84.05 ppm on 1 R☉ into 1.414 R⊕.
+        assert!((radius_from_depth_rearth(84.05, 1.0, 0.0) - 1.000).abs() < 1e-3);
+        assert!((radius_from_depth_rearth(84.05, 1.0, 0.5) - 1.414).abs() < 1e-3);
+    }
+
+    #[test]
+    fn earth_temperature_and_insolation() {
+        // METHODS.md §2 checks [D]: Earth 278.33 K (A = 0), 254.59 K (A = 0.3),
+        // 330.99 K (dayside only).
+        let a = semi_major_axis_m(SIDEREAL_YEAR_D, 1.0, GM_EARTH) / R_SUN_M;
+        assert!((equilibrium_temperature_k(5772.0, a, 0.0, 0.25) - 278.33).abs() < 0.01);
+        assert!((equilibrium_temperature_k(5772.0, a, 0.3, 0.25) - 254.59).abs() < 0.01);
+        assert!((equilibrium_temperature_k(5772.0, a, 0.0, 0.5) - 330.99).abs() < 0.01);
+        // S/S⊕ = 1 at 1 au from a nominal Sun.
+        assert!((insolation_earth(1.0, 5772.0, 1.0) - 1.0).abs() < 1e-12);
+    }
+
+    #[test]
+    fn stellar_density_round_trips() {
+        // METHODS.md §2 [D]: the solar mean density is 1409.8 kg m⁻³, and the
+        // Earth transit at b = 0.3 (T14 = 12.5034 h, T23 = 12.2540 h)
+        // recovers b = 0.300, a/R★ = 215.03 and ρ★ = 1409.8.
+        assert!((star_density(1.0, 1.0) - 1409.8).abs() < 0.1);
+        let k = R_EARTH_M / R_SUN_M;
+        let (b, a) = impact_and_a_rstar(SIDEREAL_YEAR_D, 12.5034, 12.2540, k * k).unwrap();
+        assert!((b - 0.300).abs() < 2e-3, "{b}");
+        assert!((a - 215.03).abs() < 0.05, "{a}");
+        let rho = density_from_a_rstar(a, SIDEREAL_YEAR_D);
+        assert!((rho - 1409.8).abs() < 1.0, "{rho}");
+        let a = a_rstar_from_duration(SIDEREAL_YEAR_D, 12.5034, k, 0.3).unwrap();
+        assert!((density_from_a_rstar(a, SIDEREAL_YEAR_D) - 1409.8).abs() < 1.0);
+        // Hot Jupiter b = 0.5 (2.5749 h / 1.9649 h) recovers b and a/R★ = 8.7536.
+        let (b, a) = impact_and_a_rstar(3.0, 2.5749, 1.9649, 0.01).unwrap();
+        assert!(
+            (b - 0.5).abs() < 1e-3 && (a - 8.7536).abs() < 5e-3,
+            "{b} {a}"
+        );
+    }
+
+    #[test]
+    fn normalised_duration_ratio() {
+        // METHODS.md §2 [D]: b_in = 0, b_out = 0.5 → ξ ≈ √(1/0.75) = 1.1547;
+        // full formula with k = 0.02, P = 10 / 20 d: 1.1475.
+        assert!(((1.0f64 / 0.75).sqrt() - 1.1547).abs() < 1e-4);
+        let (ai, ao) = (a_over_rstar(10.0, 1.0, 1.0), a_over_rstar(20.0, 1.0, 1.0));
+        let ti = durations_h(10.0, ai, 0.02, 0.0).unwrap().0;
+        let to = durations_h(20.0, ao, 0.02, 0.5).unwrap().0;
+        let xi = duration_ratio_xi(ti, 10.0, to, 20.0);
+        assert!((xi - 1.1475).abs() < 5e-4, "{xi}");
+    }
+
+    #[test]
+    fn hill_spacing() {
+        // METHODS.md §3 checks [D] around 1 M☉ (M☉/M⊕ = 332,946.05, DE405).
+        assert!((hill_separation(10.0, 15.0, 5.0, 5.0, 1.0) - 12.47).abs() < 0.01);
+        assert!((hill_separation(10.0, 12.0, 5.0, 5.0, 1.0) - 5.63).abs() < 0.01);
+        assert!((hill_separation(10.0, 20.0, 1.0, 1.0, 1.0) - 36.0).abs() < 0.05);
+        // Critical ratios at Δ = 2√3 (Gladman 1993, from memory).
+        assert!((HILL_CRITICAL - 2.0 * 3f64.sqrt()).abs() < 1e-15);
+        let mj = crate::constants::M_SUN_PER_M_EARTH / crate::constants::M_SUN_PER_M_JUPITER;
+        assert!((period_ratio_for_hill(HILL_CRITICAL, 1.0, 1.0, 1.0) - 1.0677).abs() < 1e-4);
+        assert!((period_ratio_for_hill(HILL_CRITICAL, 10.0, 10.0, 1.0) - 1.1517).abs() < 1e-4);
+        assert!((period_ratio_for_hill(HILL_CRITICAL, mj, mj, 1.0) - 1.5688).abs() < 1e-4);
+        assert!((period_ratio_for_hill(10.0, 5.0, 5.0, 1.0) - 1.383).abs() < 1e-3);
+        // 2√3/3^(1/3) = 2.4019 (METHODS.md §3, equivalent form).
+        assert!((HILL_CRITICAL / 3f64.cbrt() - 2.4019).abs() < 1e-4);
+    }
+
+    #[test]
+    fn mass_radius_table() {
+        // METHODS.md §3 table [D]: Weiss & Marcy 2014, Wolfgang et al. 2016,
+        // and R^2.06, with ρ⊕ = 5.495 g cm⁻³.
+        assert!((earth_density_g_cm3() - 5.495).abs() < 1e-3);
+        for (r, wm, wo, generic) in [
+            (1.0, 1.059, 2.700, 1.000),
+            (1.499, 4.604, 4.570, 2.302),
+            (1.5, 3.922, 4.574, 2.305),
+            (2.0, 5.125, 6.648, 4.170),
+            (3.0, 7.473, 11.262, 9.613),
+        ] {
+            assert!(
+                (mass_from_radius_mearth(r) - wm).abs() < 2e-3,
+                "WM {r}: {}",
+                mass_from_radius_mearth(r)
+            );
+            assert!((mass_wolfgang_2016(r) - wo).abs() < 2e-3, "Wolfgang {r}");
+            assert!((r.powf(2.06) - generic).abs() < 2e-3, "R^2.06 {r}");
+        }
     }
 }
