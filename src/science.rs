@@ -116,7 +116,7 @@ pub fn impact_and_a_rstar(period_d: f64, t14_h: f64, t23_h: f64, depth: f64) -> 
     let k = depth.sqrt();
     let r2 = (sf / st).powi(2);
     let b2 = ((1.0 - k).powi(2) - r2 * (1.0 + k).powi(2)) / (1.0 - r2);
-    if !(b2 >= 0.0) {
+    if b2.is_nan() || b2 < 0.0 {
         return None;
     }
     let b = b2.sqrt();
