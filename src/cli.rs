@@ -35,6 +35,8 @@ pub enum Command {
     Summary(cmd::summary::Args),
     /// Multiplicity odds and verdict of every candidate.
     Odds(cmd::odds::Args),
+    /// Derived physics and vetting flags of every candidate.
+    Checks(cmd::checks::Args),
     /// Regenerate the demo catalogue or write a large synthetic one.
     #[command(hide = true)]
     Generate(cmd::generate::Args),
@@ -109,6 +111,19 @@ pub enum CliError {
     Model(#[from] crate::odds::ModelError),
     #[error("{0}")]
     Io(#[from] io::Error),
+}
+
+impl From<csv::Error> for CliError {
+    fn from(e: csv::Error) -> CliError {
+        if e.is_io_error() {
+            match e.into_kind() {
+                csv::ErrorKind::Io(io) => CliError::Io(io),
+                other => CliError::Input(format!("{other:?}")),
+            }
+        } else {
+            CliError::Input(e.to_string())
+        }
+    }
 }
 
 impl CliError {
@@ -205,6 +220,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<(), CliError> {
         None => cmd::summary::run(&cmd::summary::Args::demo(), out),
         Some(Command::Summary(a)) => cmd::summary::run(&a, out),
         Some(Command::Odds(a)) => cmd::odds::run(&a, out),
+        Some(Command::Checks(a)) => cmd::checks::run(&a, out),
         Some(Command::Generate(a)) => cmd::generate::run(&a, out),
     }
 }

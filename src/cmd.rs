@@ -1,5 +1,6 @@
 //! Headless commands, one file each: its arguments and its `run`.
 
+pub mod checks;
 pub mod generate;
 pub mod odds;
 pub mod summary;

@@ -15,6 +15,7 @@
 //! The core (`catalogue`, `survey`, `odds`) knows nothing of terminals.
 
 pub mod catalogue;
+pub mod checks;
 pub mod cli;
 pub mod cmd;
 pub mod constants;

@@ -128,9 +128,18 @@ pub fn num(v: Option<f64>, sig: usize) -> String {
 /// A number for scripts: full precision (shortest round-trip form), empty
 /// for missing.
 pub fn exact(v: Option<f64>) -> String {
+    exact_in(&mut ryu::Buffer::new(), v).to_string()
+}
+
+/// [`exact`] into a reusable buffer, for hot output loops.
+pub fn exact_in(b: &mut ryu::Buffer, v: Option<f64>) -> &str {
     match v {
-        Some(v) if v.is_finite() => format!("{v}"),
-        _ => String::new(),
+        Some(v) if v.is_finite() => {
+            // Ryu's shortest round-trip digits (Adams 2018), without a bare ".0".
+            let s = b.format_finite(v);
+            s.strip_suffix(".0").unwrap_or(s)
+        }
+        _ => "",
     }
 }
 
@@ -147,6 +156,9 @@ mod tests {
         assert_eq!(num(None, 3), "-");
         assert_eq!(num(Some(f64::NAN), 3), "-");
         assert_eq!(exact(Some(0.1)), "0.1");
+        assert_eq!(exact(Some(100.0)), "100");
+        assert_eq!(exact(Some(-2.5e-7)).parse::<f64>().unwrap(), -2.5e-7);
+        assert_eq!(exact(Some(0.9988901220865705)), "0.9988901220865705");
         assert_eq!(exact(None), "");
     }
 

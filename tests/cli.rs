@@ -123,3 +123,71 @@ fn escape_sequences_never_reach_the_terminal() {
         stdout(&o)
     );
 }
+
+#[test]
+fn checks_command_outputs() {
+    let o = starsift(&["checks", "--format", "csv"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let s = stdout(&o);
+    let header = s.lines().next().unwrap();
+    assert!(
+        header.starts_with("star,candidate,radius_rearth,a_au,"),
+        "{header}"
+    );
+    for col in ["teq_k", "insolation_earth", "density_ratio", "flags", "why"] {
+        assert!(header.split(',').any(|h| h == col), "{col} missing");
+    }
+    assert_eq!(s.lines().count(), 445);
+    // --only keeps the candidates with that flag; the echo copy names its source.
+    let o = starsift(&["checks", "--only", "echo", "--format", "json"]);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let list = v["candidates"].as_array().unwrap();
+    assert_eq!(list.len(), 2, "source (warning) and copy (flag)");
+    let copy = list
+        .iter()
+        .find(|c| c["flags"].as_array().unwrap().iter().any(|f| f == "echo"))
+        .unwrap();
+    assert!(
+        copy["findings"][0]["why"]
+            .as_str()
+            .unwrap()
+            .contains("likely light from")
+    );
+    let o = starsift(&["checks", "--only", "wobble"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("unknown flag"));
+    // The table explains every flag.
+    let o = starsift(&["checks"]);
+    let s = stdout(&o);
+    assert!(
+        s.contains("why (flags firm") && s.contains("near-twin: period ratio"),
+        "{s}"
+    );
+}
+
+#[test]
+fn broken_pipe_exits_quietly() {
+    use std::io::Read;
+    let mut child = std::process::Command::new(env!("CARGO_BIN_EXE_starsift"))
+        // More than a pipe buffer (64 KiB) of output, so the write really fails.
+        .args(["checks", "--format", "csv"])
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    let mut first = [0u8; 16];
+    child
+        .stdout
+        .as_mut()
+        .unwrap()
+        .read_exact(&mut first)
+        .unwrap();
+    drop(child.stdout.take());
+    let out = child.wait_with_output().unwrap();
+    assert_eq!(out.status.code(), Some(0));
+    assert!(
+        out.stderr.is_empty(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+}

@@ -17,6 +17,8 @@ pub struct Args {
     pub input: CatalogueArgs,
     #[command(flatten)]
     pub model: ModelArgs,
+    #[command(flatten)]
+    pub checks: crate::cmd::checks::CheckArgs,
     /// Output format: a table for people, CSV or JSON for scripts.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
@@ -26,7 +28,12 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let loaded = args.input.load()?;
     let cat = &loaded.catalogue;
     let model = args.model.model(&loaded.survey)?;
-    let live = Live::new(cat, model)?;
+    // The checks' flags feed the verdicts (a blocking flag bars `validated`).
+    let flags = crate::checks::run(cat, &args.checks.settings())
+        .all_flags()
+        .to_vec();
+    let decisions = vec![crate::decision::Decision::Open; cat.len()];
+    let live = Live::with_state(cat, model, flags, decisions)?;
     let warnings: Vec<&String> = live
         .input_warnings
         .iter()
@@ -46,7 +53,6 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
 
 fn write_csv(cat: &Catalogue, live: &Live, out: &mut dyn Write) -> Result<(), CliError> {
     let mut w = csv_writer(out);
-    let err = |e: csv::Error| CliError::Input(e.to_string());
     w.write_record([
         "star",
         "candidate",
@@ -58,8 +64,7 @@ fn write_csv(cat: &Catalogue, live: &Live, out: &mut dyn Write) -> Result<(), Cl
         "verdict",
         "decision",
         "flags",
-    ])
-    .map_err(err)?;
+    ])?;
     for c in 0..cat.len() as CandidateId {
         w.write_record([
             clean(cat.star_id(cat.star_of(c))).as_ref(),
@@ -72,8 +77,7 @@ fn write_csv(cat: &Catalogue, live: &Live, out: &mut dyn Write) -> Result<(), Cl
             live.verdict(c).name(),
             live.decision(c).name(),
             &live.flags(c).joined(";"),
-        ])
-        .map_err(err)?;
+        ])?;
     }
     w.flush()?;
     Ok(())

@@ -44,11 +44,9 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         Format::Json => write_json(out, &to_json(cat))?,
         Format::Csv => {
             let mut w = csv_writer(out);
-            w.write_record(["multiplicity", "stars", "candidates"])
-                .map_err(|e| CliError::Input(e.to_string()))?;
+            w.write_record(["multiplicity", "stars", "candidates"])?;
             for (k, n) in cat.histogram().iter().enumerate().skip(1) {
-                w.write_record([k.to_string(), n.to_string(), (k * n).to_string()])
-                    .map_err(|e| CliError::Input(e.to_string()))?;
+                w.write_record([k.to_string(), n.to_string(), (k * n).to_string()])?;
             }
             w.flush()?;
             if !cat.skipped.is_empty() {

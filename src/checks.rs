@@ -1,0 +1,317 @@
+//! Vetting checks on the catalogue: the physics each candidate implies
+//! (radius, orbit, temperature, insolation, the stellar density its transit
+//! implies), and the warning signs — a stellar-size companion, a too-short
+//! duration for its star, two signals that cannot both orbit one star, a
+//! duplicate or alias, a signal copied from a neighbour. Methods and
+//! thresholds: METHODS.md §2–§3.
+
+mod echo;
+mod system;
+
+use crate::catalogue::{CandidateId, Catalogue, Field};
+use crate::constants::{AU_M, G, R_SUN_M};
+use crate::flags::{Flag, FlagSet};
+use crate::science;
+
+/// Thresholds of the checks. Defaults carry their source.
+#[derive(Clone, Debug, PartialEq)]
+pub struct CheckSettings {
+    /// `big-radius` above this, Earth radii: 2 R_J from nominal radii
+    /// (METHODS.md §2, derived from Borucki 2011's largest planetary class).
+    pub big_radius_rearth: f64,
+    /// A softer `big-radius` warning above this (Fressin 2013's giant bin).
+    pub suspect_radius_rearth: f64,
+    /// `low-snr` below this (common practice, no source: the 7.1σ threshold of
+    /// transit searches).
+    pub low_snr: f64,
+    /// `density-mismatch` when the transit's stellar density differs from the
+    /// star's or its siblings' by more than this factor (common practice, no
+    /// source; eccentric orbits alone can shift it by ~2).
+    pub density_factor: f64,
+    /// A soft `density-mismatch` when |log10 ξ| of a pair exceeds this
+    /// (from the spread of METHODS.md §2's Monte Carlo: ±0.16 for 1.5°
+    /// mutual inclinations).
+    pub xi_log10: f64,
+    /// `near-twin` and `harmonic`: the relative period tolerance used when
+    /// it is larger than three combined uncertainties (common practice, no source).
+    pub period_rel_tol: f64,
+    /// `harmonic`: integers 2..=this are checked.
+    pub harmonic_max: u32,
+    /// `crowded` trio threshold: Δ_in + Δ_out below this (Lissauer 2011,
+    /// Fabrycky 2014; METHODS.md §3, from memory).
+    pub trio_hill_sum: f64,
+    /// `echo`: only within this angular distance when positions exist, arcsec.
+    pub echo_radius_arcsec: f64,
+    /// `echo`: the widest relative period difference ever matched; bounds the
+    /// sweep so it stays O(n log n). Half of it is the tolerance when period
+    /// errors are missing (common practice, no source: catalogue periods are
+    /// typically known to 1e-6–1e-5).
+    pub echo_max_rel: f64,
+    /// Bond albedo and redistribution factor of the equilibrium temperature.
+    pub albedo: f64,
+    pub redistribution: f64,
+}
+
+impl Default for CheckSettings {
+    fn default() -> CheckSettings {
+        CheckSettings {
+            big_radius_rearth: 22.4,
+            suspect_radius_rearth: 15.0,
+            low_snr: 7.1,
+            density_factor: 4.0,
+            xi_log10: 0.25,
+            period_rel_tol: 1e-3,
+            harmonic_max: 5,
+            trio_hill_sum: 18.0,
+            echo_radius_arcsec: 120.0,
+            echo_max_rel: 5e-5,
+            albedo: 0.0,
+            redistribution: 0.25,
+        }
+    }
+}
+
+/// What a candidate's transit implies, where the inputs exist (`None`
+/// otherwise, never zero).
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Derived {
+    pub star_radius_rsun: Option<f64>,
+    pub star_mass_msun: Option<f64>,
+    /// R_p from depth, stellar radius and contamination.
+    pub radius_rearth: Option<f64>,
+    pub a_au: Option<f64>,
+    pub a_rstar: Option<f64>,
+    pub teq_k: Option<f64>,
+    pub insolation_earth: Option<f64>,
+    /// Expected T₁₄ of a central transit for the catalogue's star, hours.
+    pub t14_central_h: Option<f64>,
+    /// Mean stellar density implied by the transit, kg m⁻³.
+    pub density_transit: Option<f64>,
+    /// Mean density of the catalogue's star, kg m⁻³.
+    pub density_star: Option<f64>,
+    /// density_transit / density_star.
+    pub density_ratio: Option<f64>,
+    /// True when the transit density assumed b = 0 (no impact column).
+    pub assumed_central: bool,
+}
+
+fn finite(v: f64) -> Option<f64> {
+    v.is_finite().then_some(v)
+}
+
+/// The derived quantities of one candidate.
+pub fn derive(cat: &Catalogue, c: CandidateId, s: &CheckSettings) -> Derived {
+    let v = |f: Field| cat.value(f, c);
+    let (period, depth, t14) = (
+        v(Field::PeriodD).unwrap_or(f64::NAN),
+        v(Field::DepthPpm).unwrap_or(f64::NAN),
+        v(Field::DurationH).unwrap_or(f64::NAN),
+    );
+    let contamination = v(Field::Contamination).unwrap_or(0.0);
+    // Surface gravity g = GM/R² (cgs logg) fills in a missing mass or radius.
+    let g = v(Field::StarLogg).map(|l| 10f64.powf(l) / 100.0);
+    let m_sun = crate::constants::GM_SUN / G;
+    let mut radius = v(Field::StarRadiusRsun).filter(|r| *r > 0.0);
+    let mut mass = v(Field::StarMassMsun).filter(|m| *m > 0.0);
+    if let (None, Some(m), Some(g)) = (radius, mass, g) {
+        radius = finite((G * m * m_sun / g).sqrt() / R_SUN_M);
+    }
+    if let (None, Some(r), Some(g)) = (mass, radius, g) {
+        mass = finite(g * (r * R_SUN_M).powi(2) / G / m_sun);
+    }
+    let k = (depth * 1e-6 / (1.0 - contamination.clamp(0.0, 0.999))).sqrt();
+    let mut d = Derived {
+        star_radius_rsun: radius,
+        star_mass_msun: mass,
+        ..Derived::default()
+    };
+    if let Some(r) = radius {
+        d.radius_rearth = finite(science::radius_from_depth_rearth(depth, r, contamination));
+    }
+    if let Some(m) = mass {
+        d.a_au = finite(science::semi_major_axis_m(period, m, 0.0) / AU_M);
+    }
+    if let (Some(m), Some(r)) = (mass, radius) {
+        let a_rstar = science::a_over_rstar(period, m, r);
+        d.a_rstar = finite(a_rstar);
+        d.t14_central_h = science::durations_h(period, a_rstar, k, 0.0).map(|t| t.0);
+        d.density_star = finite(science::star_density(m, r));
+        if let Some(teff) = v(Field::StarTeffK) {
+            d.teq_k = finite(science::equilibrium_temperature_k(
+                teff,
+                a_rstar,
+                s.albedo,
+                s.redistribution,
+            ));
+            d.insolation_earth = d
+                .a_au
+                .and_then(|a| finite(science::insolation_earth(r, teff, a)));
+        }
+    }
+    let impact = v(Field::Impact);
+    d.assumed_central = impact.is_none();
+    d.density_transit =
+        science::a_rstar_from_duration(period, t14, k, impact.unwrap_or(0.0).min(1.0 + k))
+            .and_then(|a| finite(science::density_from_a_rstar(a, period)));
+    if let (Some(t), Some(st)) = (d.density_transit, d.density_star) {
+        d.density_ratio = finite(t / st);
+    }
+    d
+}
+
+/// A diagnostic that fired on a candidate, with the numbers behind it. A
+/// soft finding is a warning: it is shown but never blocks a verdict.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Finding {
+    pub flag: Flag,
+    pub soft: bool,
+    pub why: String,
+}
+
+/// The outcome of the checks for a whole catalogue.
+#[derive(Clone, Debug, Default)]
+pub struct Checks {
+    flags: Vec<FlagSet>,
+    soft: Vec<FlagSet>,
+    /// (candidate, finding), sorted by candidate.
+    findings: Vec<(CandidateId, Finding)>,
+}
+
+impl Checks {
+    /// Flags that fired firmly (these feed verdicts).
+    pub fn flags(&self, c: CandidateId) -> FlagSet {
+        self.flags[c as usize]
+    }
+
+    /// Warnings: soft findings only.
+    pub fn warnings(&self, c: CandidateId) -> FlagSet {
+        self.soft[c as usize]
+    }
+
+    pub fn all_flags(&self) -> &[FlagSet] {
+        &self.flags
+    }
+
+    pub fn findings(&self, c: CandidateId) -> impl Iterator<Item = &Finding> {
+        let a = self.findings.partition_point(|(x, _)| *x < c);
+        self.findings[a..]
+            .iter()
+            .take_while(move |(x, _)| *x == c)
+            .map(|(_, f)| f)
+    }
+
+    /// `flag: why; flag: why` for exports.
+    pub fn why(&self, c: CandidateId) -> String {
+        self.findings(c)
+            .map(|f| {
+                format!(
+                    "{}{}: {}",
+                    if f.soft { "warning " } else { "" },
+                    f.flag,
+                    f.why
+                )
+            })
+            .collect::<Vec<_>>()
+            .join("; ")
+    }
+
+    fn add(&mut self, c: CandidateId, flag: Flag, soft: bool, why: String) {
+        if soft {
+            self.soft[c as usize].insert(flag);
+        } else {
+            self.flags[c as usize].insert(flag);
+        }
+        self.findings.push((c, Finding { flag, soft, why }));
+    }
+}
+
+/// Runs every check on the catalogue.
+pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
+    let n = cat.len();
+    let mut checks = Checks {
+        flags: vec![FlagSet::EMPTY; n],
+        soft: vec![FlagSet::EMPTY; n],
+        findings: Vec::new(),
+    };
+    // Transit densities are needed by the sibling comparison.
+    let mut density_transit = vec![f64::NAN; n];
+    let mut radius = vec![f64::NAN; n];
+    for c in 0..n as CandidateId {
+        let d = derive(cat, c, s);
+        density_transit[c as usize] = d.density_transit.unwrap_or(f64::NAN);
+        radius[c as usize] = d.radius_rearth.unwrap_or(f64::NAN);
+        candidate_flags(cat, c, &d, s, &mut checks);
+    }
+    let derived = system::PerCandidate {
+        density_transit: &density_transit,
+        radius_rearth: &radius,
+    };
+    let mut scratch = system::Scratch::default();
+    for star in 0..cat.star_count() as u32 {
+        let members = cat.members(star);
+        if members.len() >= 2 {
+            system::check(cat, members, &derived, s, &mut scratch, &mut checks);
+        }
+    }
+    echo::check(cat, s, &mut checks);
+
+    checks.findings.sort_by_key(|(c, _)| *c);
+    checks
+}
+
+fn candidate_flags(
+    cat: &Catalogue,
+    c: CandidateId,
+    d: &Derived,
+    s: &CheckSettings,
+    out: &mut Checks,
+) {
+    if let Some(r) = d.radius_rearth {
+        if r > s.big_radius_rearth {
+            out.add(
+                c,
+                Flag::BigRadius,
+                false,
+                format!(
+                    "R = {r:.1} R⊕ > {} R⊕ (2 R_J): likely a star",
+                    s.big_radius_rearth
+                ),
+            );
+        } else if r > s.suspect_radius_rearth {
+            out.add(
+                c,
+                Flag::BigRadius,
+                true,
+                format!(
+                    "R = {r:.1} R⊕ > {} R⊕: giant or small star",
+                    s.suspect_radius_rearth
+                ),
+            );
+        }
+    }
+    if let Some(snr) = cat.value(Field::Snr, c) {
+        if snr < s.low_snr {
+            out.add(
+                c,
+                Flag::LowSnr,
+                false,
+                format!("SNR {snr:.1} < {}", s.low_snr),
+            );
+        }
+    }
+    if let Some(ratio) = d.density_ratio {
+        if ratio > s.density_factor || ratio < 1.0 / s.density_factor {
+            out.add(c, Flag::DensityMismatch, false, format!(
+                "the transit implies ρ★ = {:.0} kg/m³{}, the catalogue star {:.0} kg/m³ (ratio {:.3}, outside 1/{f}–{f})",
+                d.density_transit.unwrap_or(f64::NAN),
+                if d.assumed_central { " (b = 0 assumed)" } else { "" },
+                d.density_star.unwrap_or(f64::NAN),
+                ratio,
+                f = s.density_factor
+            ));
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests;

@@ -1,0 +1,223 @@
+//! Checks between the candidates of one star: duplicates, aliases, orbits too
+//! close to be stable, and durations that betray a different star.
+
+use super::{CheckSettings, Checks};
+use crate::catalogue::{CandidateId, Catalogue, Field};
+use crate::flags::Flag;
+use crate::science;
+
+/// Relative uncertainty of a period ratio r = P₂/P₁:
+/// σ_r = r √((σ₁/P₁)² + (σ₂/P₂)²) (METHODS.md §3); `None` without errors.
+fn ratio_sigma(r: f64, p1: f64, e1: Option<f64>, p2: f64, e2: Option<f64>) -> Option<f64> {
+    Some(r * ((e1? / p1).powi(2) + (e2? / p2).powi(2)).sqrt())
+}
+
+/// Epoch offset of b's transits from a's, days: E_b − E_a reduced modulo P_a
+/// into (−P_a/2, P_a/2].
+pub(super) fn phase_offset_d(e_a: f64, p_a: f64, e_b: f64) -> f64 {
+    let d = e_b - e_a;
+    d - (d / p_a).round() * p_a
+}
+
+/// What the per-candidate pass derived, indexed by candidate (NaN = missing).
+pub(super) struct PerCandidate<'a> {
+    pub density_transit: &'a [f64],
+    pub radius_rearth: &'a [f64],
+}
+
+/// Buffers reused from star to star.
+#[derive(Default)]
+pub(super) struct Scratch {
+    by_period: Vec<CandidateId>,
+    twins: Vec<(CandidateId, CandidateId)>,
+    deltas: Vec<Option<f64>>,
+    others: Vec<f64>,
+}
+
+pub(super) fn check(
+    cat: &Catalogue,
+    members: &[CandidateId],
+    derived: &PerCandidate,
+    s: &CheckSettings,
+    scratch: &mut Scratch,
+    out: &mut Checks,
+) {
+    let v = |f: Field, c: CandidateId| cat.value(f, c);
+    let id = |c: CandidateId| cat.candidate_id(c).to_string();
+    let period = |c: CandidateId| v(Field::PeriodD, c).unwrap_or(f64::NAN);
+    let Scratch {
+        by_period,
+        twins,
+        deltas,
+        others,
+    } = scratch;
+    by_period.clear();
+    by_period.extend_from_slice(members);
+    by_period.sort_by(|&a, &b| period(a).total_cmp(&period(b)));
+    twins.clear();
+    deltas.clear();
+    let by_period: &[CandidateId] = by_period;
+
+    // Every pair: near twins and harmonics. A near-twin pair is one signal,
+    // so its Hill spacing is not checked.
+    for (i, &a) in by_period.iter().enumerate() {
+        for &b in &by_period[i + 1..] {
+            let (pa, pb) = (period(a), period(b));
+            let r = pb / pa;
+            let sigma = ratio_sigma(r, pa, v(Field::PeriodErrD, a), pb, v(Field::PeriodErrD, b));
+            let tol = |n: f64| (3.0 * sigma.unwrap_or(0.0)).max(s.period_rel_tol * n);
+            let t14_d = v(Field::DurationH, a).unwrap_or(0.0) / 24.0;
+            let off = phase_offset_d(
+                v(Field::Epoch, a).unwrap_or(0.0),
+                pa,
+                v(Field::Epoch, b).unwrap_or(0.0),
+            );
+            let epochs_agree = off.abs() <= t14_d;
+            if (r - 1.0).abs() <= tol(1.0) {
+                let how = if epochs_agree {
+                    format!(
+                        "epochs agree within {:.2} h: likely one signal found twice",
+                        off.abs() * 24.0
+                    )
+                } else {
+                    format!("transits {:.2} h apart in phase", off.abs() * 24.0)
+                };
+                for (x, y) in [(a, b), (b, a)] {
+                    out.add(
+                        x,
+                        Flag::NearTwin,
+                        false,
+                        format!(
+                            "period ratio to {} is {r:.6} (within {:.1e} of 1); {how}",
+                            id(y),
+                            tol(1.0)
+                        ),
+                    );
+                }
+                twins.push((a, b));
+                continue;
+            }
+            for n in 2..=s.harmonic_max {
+                let nf = n as f64;
+                if (r - nf).abs() <= tol(nf) && epochs_agree {
+                    for (x, y) in [(a, b), (b, a)] {
+                        out.add(x, Flag::Harmonic, false, format!(
+                            "period ratio to {} is {r:.6} ≈ {n} and its transits fall on the shorter signal's (offset {:.2} h): likely an alias of one signal",
+                            id(y), off.abs() * 24.0
+                        ));
+                    }
+                }
+            }
+        }
+    }
+
+    // Adjacent pairs and trios: Hill spacing with masses from radii.
+    let star_mass = v(Field::StarMassMsun, by_period[0]);
+    let radius = |c: CandidateId| {
+        let r = derived.radius_rearth[c as usize];
+        r.is_finite().then_some(r)
+    };
+    let mass_star = star_mass.unwrap_or(1.0);
+    let assumed = if star_mass.is_none() {
+        " (1 M☉ assumed)"
+    } else {
+        ""
+    };
+    for i in 0..by_period.len().saturating_sub(1) {
+        let (a, b) = (by_period[i], by_period[i + 1]);
+        let delta = match (radius(a), radius(b)) {
+            (Some(ra), Some(rb)) => {
+                let (ma, mb) = (
+                    science::mass_from_radius_mearth(ra),
+                    science::mass_from_radius_mearth(rb),
+                );
+                let d = science::hill_separation(period(a), period(b), ma, mb, mass_star);
+                if d < science::HILL_CRITICAL && !twins.contains(&(a, b)) {
+                    for (x, y) in [(a, b), (b, a)] {
+                        out.add(x, Flag::Crowded, false, format!(
+                            "{d:.2} mutual Hill radii from {} (< 2√3 = 3.46; masses {ma:.1} and {mb:.1} M⊕ from Weiss & Marcy 2014{assumed}): both cannot orbit this star stably",
+                            id(y)
+                        ));
+                    }
+                }
+                Some(d)
+            }
+            _ => None,
+        };
+        deltas.push(delta);
+    }
+    for i in 0..deltas.len().saturating_sub(1) {
+        if let (Some(d1), Some(d2)) = (deltas[i], deltas[i + 1]) {
+            if d1 + d2 < s.trio_hill_sum
+                && d1 >= science::HILL_CRITICAL
+                && d2 >= science::HILL_CRITICAL
+            {
+                let trio = [by_period[i], by_period[i + 1], by_period[i + 2]];
+                for &x in &trio {
+                    out.add(
+                        x,
+                        Flag::Crowded,
+                        true,
+                        format!(
+                            "trio {}, {}, {}: Hill spacings {d1:.1} + {d2:.1} < {}",
+                            id(trio[0]),
+                            id(trio[1]),
+                            id(trio[2]),
+                            s.trio_hill_sum
+                        ),
+                    );
+                }
+            }
+        }
+    }
+
+    // Durations: the density each transit implies, against its siblings'.
+    let dens = |c: CandidateId| derived.density_transit[c as usize];
+    for &c in by_period {
+        let own = dens(c);
+        if !own.is_finite() {
+            continue;
+        }
+        others.clear();
+        others.extend(
+            by_period
+                .iter()
+                .filter(|&&o| o != c)
+                .map(|&o| dens(o))
+                .filter(|d| d.is_finite()),
+        );
+        if others.is_empty() {
+            continue;
+        }
+        others.sort_by(f64::total_cmp);
+        let median = others[others.len() / 2];
+        let ratio = own / median;
+        if ratio > s.density_factor || ratio < 1.0 / s.density_factor {
+            out.add(c, Flag::DensityMismatch, false, format!(
+                "its duration implies ρ★ = {own:.0} kg/m³, its siblings' {median:.0} kg/m³ (ratio {ratio:.3}): perhaps another star"
+            ));
+        }
+    }
+    // The normalised duration ratio of adjacent pairs, a soft signal.
+    for i in 0..by_period.len().saturating_sub(1) {
+        let (a, b) = (by_period[i], by_period[i + 1]);
+        if let (Some(ta), Some(tb)) = (v(Field::DurationH, a), v(Field::DurationH, b)) {
+            let xi = science::duration_ratio_xi(ta, period(a), tb, period(b));
+            if xi.log10().abs() > s.xi_log10 {
+                for (x, y) in [(a, b), (b, a)] {
+                    out.add(
+                        x,
+                        Flag::DensityMismatch,
+                        true,
+                        format!(
+                            "normalised duration ratio ξ with {} is {xi:.2} (|log ξ| = {:.2} > {})",
+                            id(y),
+                            xi.log10().abs(),
+                            s.xi_log10
+                        ),
+                    );
+                }
+            }
+        }
+    }
+}

@@ -1,0 +1,169 @@
+//! The checks on invented catalogues and on the demo's planted cases.
+
+use super::*;
+use crate::catalogue::{LoadOptions, Source};
+
+fn load(text: &str) -> Catalogue {
+    Catalogue::load(
+        Source::Bytes {
+            name: "t.csv",
+            data: text.as_bytes(),
+        },
+        &LoadOptions::default(),
+    )
+    .unwrap()
+}
+
+const HEAD: &str = "star,candidate,period_d,period_err_d,epoch,epoch_err_d,depth_ppm,duration_h,snr,impact,star_radius_rsun,star_mass_msun,star_teff_k,ra_deg,dec_deg,mag\n";
+
+#[test]
+fn missing_inputs_stay_missing() {
+    let c = load("star,candidate,period_d,epoch,depth_ppm,duration_h\nA,A-1,10,100,84.05,13\n");
+    let d = derive(&c, 0, &CheckSettings::default());
+    assert_eq!(d.radius_rearth, None);
+    assert_eq!(d.a_au, None);
+    assert_eq!(d.teq_k, None);
+    assert_eq!(d.density_star, None);
+    assert!(d.density_transit.is_some() && d.assumed_central);
+}
+
+#[test]
+fn earth_sun_derived() {
+    // METHODS.md §2 [D]: the Earth seen transiting the Sun: 84.05 ppm → 1.000
+    // R⊕, a sidereal year → 1.0000 au, T_eq 278.33 K, S = 1, central T14
+    // 13.10 h; its transit density is the Sun's.
+    let text = format!("{HEAD}SUN,EARTH,365.256363,,100,,84.05,13.095,50,0,1,1,5772,,,\n");
+    let c = load(&text);
+    let d = derive(&c, 0, &CheckSettings::default());
+    assert!((d.radius_rearth.unwrap() - 1.000).abs() < 1e-3);
+    assert!((d.a_au.unwrap() - 1.0).abs() < 1e-5, "{:?}", d.a_au);
+    assert!((d.teq_k.unwrap() - 278.33).abs() < 0.01);
+    assert!((d.insolation_earth.unwrap() - 1.0).abs() < 1e-4);
+    assert!((d.t14_central_h.unwrap() - 13.10).abs() < 0.01);
+    assert!(
+        (d.density_ratio.unwrap() - 1.0).abs() < 0.01,
+        "{:?}",
+        d.density_ratio
+    );
+}
+
+#[test]
+fn radius_and_snr_flags() {
+    let text = format!(
+        "{HEAD}B1,B1-1,3,,100,,80000,2,20,0.2,1,1,5772,,,\nB2,B2-1,3,,100,,30000,2,20,0.2,1,1,5772,,,\nB3,B3-1,3,,100,,500,2,6.5,0.2,1,1,5772,,,\n"
+    );
+    let c = load(&text);
+    let ch = run(&c, &CheckSettings::default());
+    assert!(ch.flags(0).contains(Flag::BigRadius), "{}", ch.why(0)); // √0.08 R☉ = 30.9 R⊕
+    assert!(!ch.flags(1).contains(Flag::BigRadius) && ch.warnings(1).contains(Flag::BigRadius)); // 18.9 R⊕
+    assert!(ch.flags(2).contains(Flag::LowSnr));
+    assert!(ch.why(0).contains("R = 30.9"), "{}", ch.why(0));
+}
+
+#[test]
+fn pair_checks() {
+    // Invented stars: a duplicate, an alias, an unstable pair, a clean pair.
+    let text = format!(
+        "{HEAD}\
+D,D-1,5.0,0.00001,100.0,0.001,500,3,20,0.3,1,1,5772,,,\n\
+D,D-2,5.000005,0.00001,100.002,0.001,480,3,20,0.3,1,1,5772,,,\n\
+H,H-1,4.0,0.00001,100.0,0.001,500,2.8,20,0.3,1,1,5772,,,\n\
+H,H-2,8.0,0.00002,104.0,0.001,500,3.5,20,0.3,1,1,5772,,,\n\
+U,U-1,12.4,0.0001,100.0,0.01,600,4,20,0.3,1,1,5772,,,\n\
+U,U-2,12.95,0.0001,101.0,0.01,550,4.1,20,0.3,1,1,5772,,,\n\
+C,C-1,10.0,0.0001,100.0,0.01,600,3.9,20,0.3,1,1,5772,,,\n\
+C,C-2,21.0,0.0001,101.0,0.01,550,5.0,20,0.4,1,1,5772,,,\n"
+    );
+    let c = load(&text);
+    let ch = run(&c, &CheckSettings::default());
+    let f = |id: &str| ch.flags(c.find_candidate(id).unwrap());
+    assert!(f("D-1").contains(Flag::NearTwin) && f("D-2").contains(Flag::NearTwin));
+    assert!(
+        ch.why(0).contains("likely one signal found twice"),
+        "{}",
+        ch.why(0)
+    );
+    assert!(f("H-1").contains(Flag::Harmonic) && f("H-2").contains(Flag::Harmonic));
+    assert!(f("U-1").contains(Flag::Crowded) && f("U-2").contains(Flag::Crowded));
+    assert!(
+        f("C-1").is_empty() && f("C-2").is_empty(),
+        "{} / {}",
+        ch.why(6),
+        ch.why(7)
+    );
+}
+
+#[test]
+fn echo_flags_the_fainter_copy() {
+    let text = format!(
+        "{HEAD}\
+BRIGHT,BRIGHT-1,3.2,0.000001,100.0,0.0005,3000,2.5,80,0.3,1,1,5772,50.0,-15.0,10.0\n\
+FAINT,FAINT-1,3.2000005,0.000002,100.0003,0.001,150,2.5,12,0.3,0.8,0.8,5200,50.002,-15.001,13.8\n\
+FAR,FAR-1,3.2000005,0.000002,100.0003,0.001,150,2.5,12,0.3,0.8,0.8,5200,51.0,-15.0,13.8\n\
+OTHER,OTHER-1,3.2,0.000001,101.1,0.0005,150,2.5,12,0.3,0.8,0.8,5200,50.001,-15.0,13.8\n"
+    );
+    let c = load(&text);
+    let ch = run(&c, &CheckSettings::default());
+    assert!(ch.flags(1).contains(Flag::Echo), "{}", ch.why(1));
+    assert!(
+        ch.why(1).contains("likely light from BRIGHT"),
+        "{}",
+        ch.why(1)
+    );
+    assert!(!ch.flags(0).contains(Flag::Echo) && ch.warnings(0).contains(Flag::Echo));
+    assert!(
+        !ch.flags(2).contains(Flag::Echo),
+        "3,600″ away: {}",
+        ch.why(2)
+    );
+    assert!(
+        !ch.flags(3).contains(Flag::Echo),
+        "other phase: {}",
+        ch.why(3)
+    );
+}
+
+#[test]
+fn demo_planted_cases_are_flagged() {
+    let c = crate::demo::catalogue().unwrap();
+    let ch = run(&c, &CheckSettings::default());
+    let truth = include_str!("../../demo-catalogue/truth.csv");
+    let mut clean_flagged = 0;
+    let mut clean = 0;
+    for line in truth.lines().skip(1) {
+        let f: Vec<&str> = line.split(',').collect();
+        let id = c.find_candidate(f[0]).unwrap();
+        let flags = ch.flags(id);
+        let want = match f[2] {
+            "background-blend" => Some(Flag::DensityMismatch),
+            "duplicate" => Some(Flag::NearTwin),
+            "period-alias" => Some(Flag::Harmonic),
+            "unstable-pair" => Some(Flag::Crowded),
+            "echo-copy" => Some(Flag::Echo),
+            "low-snr-planet" => Some(Flag::LowSnr),
+            "planet" => {
+                clean += 1;
+                if !flags.is_empty() {
+                    clean_flagged += 1;
+                }
+                None
+            }
+            _ => None,
+        };
+        if let Some(w) = want {
+            assert!(
+                flags.contains(w),
+                "{} ({}) lacks {w}: {}",
+                f[0],
+                f[2],
+                ch.why(id)
+            );
+        }
+    }
+    // Few clean planets raise a firm flag (the demo's siblings of planted
+    // duplicates and aliases do, by design).
+    assert!(
+        clean_flagged * 20 < clean,
+        "{clean_flagged} of {clean} clean planets flagged"
+    );
+}

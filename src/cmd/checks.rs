@@ -1,0 +1,236 @@
+//! `starsift checks CATALOGUE`: what each candidate's transit implies
+//! physically, and which warning signs fired, with the numbers behind them.
+
+use std::io::Write;
+
+use serde_json::{Value, json};
+
+use crate::catalogue::CandidateId;
+use crate::checks::{self, CheckSettings, Checks};
+use crate::cli::{CatalogueArgs, CliError};
+use crate::flags::{ALL_FLAGS, Flag};
+use crate::output::{Align, Format, Table, csv_writer, exact_in, num, write_json};
+use crate::sanitize::clean;
+
+/// Thresholds of the checks (defaults in `CheckSettings`, with sources).
+#[derive(Debug, Clone, clap::Args)]
+pub struct CheckArgs {
+    /// `low-snr` below this signal-to-noise ratio.
+    #[arg(long, value_name = "SNR", default_value_t = CheckSettings::default().low_snr)]
+    pub low_snr: f64,
+    /// `big-radius` above this many Earth radii (a warning above 15).
+    #[arg(long, value_name = "R_EARTH", default_value_t = CheckSettings::default().big_radius_rearth)]
+    pub big_radius: f64,
+    /// `density-mismatch` beyond this factor between densities.
+    #[arg(long, value_name = "FACTOR", default_value_t = CheckSettings::default().density_factor)]
+    pub density_factor: f64,
+    /// `echo` only within this many arcsec when positions exist.
+    #[arg(long, value_name = "ARCSEC", default_value_t = CheckSettings::default().echo_radius_arcsec)]
+    pub echo_radius: f64,
+}
+
+impl CheckArgs {
+    pub fn settings(&self) -> CheckSettings {
+        CheckSettings {
+            low_snr: self.low_snr,
+            big_radius_rearth: self.big_radius,
+            density_factor: self.density_factor,
+            echo_radius_arcsec: self.echo_radius,
+            ..CheckSettings::default()
+        }
+    }
+}
+
+#[derive(Debug, Clone, clap::Args)]
+pub struct Args {
+    #[command(flatten)]
+    pub input: CatalogueArgs,
+    #[command(flatten)]
+    pub checks: CheckArgs,
+    /// Only candidates on which this flag fired (firmly or as a warning).
+    #[arg(long, value_name = "FLAG")]
+    pub only: Option<String>,
+    /// Output format: a table for people, CSV or JSON for scripts.
+    #[arg(long, value_enum, default_value = "table")]
+    pub format: Format,
+}
+
+const COLUMNS: [&str; 14] = [
+    "star",
+    "candidate",
+    "radius_rearth",
+    "a_au",
+    "a_rstar",
+    "teq_k",
+    "insolation_earth",
+    "t14_central_h",
+    "density_transit_kg_m3",
+    "density_star_kg_m3",
+    "density_ratio",
+    "flags",
+    "warnings",
+    "why",
+];
+
+pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
+    let only = match &args.only {
+        Some(name) => Some(Flag::parse(name).ok_or_else(|| {
+            CliError::Input(format!(
+                "--only {name}: unknown flag; known: {}",
+                ALL_FLAGS.map(Flag::name).join(", ")
+            ))
+        })?),
+        None => None,
+    };
+    let loaded = args.input.load()?;
+    let cat = &loaded.catalogue;
+    let settings = args.checks.settings();
+    let ch = checks::run(cat, &settings);
+    let rows: Vec<CandidateId> = (0..cat.len() as CandidateId)
+        .filter(|&c| only.is_none_or(|f| ch.flags(c).contains(f) || ch.warnings(c).contains(f)))
+        .collect();
+    match args.format {
+        Format::Csv => {
+            let mut w = csv_writer(out);
+            w.write_record(COLUMNS)?;
+            let mut b = ryu::Buffer::new();
+            for &c in &rows {
+                let d = checks::derive(cat, c, &settings);
+                w.write_field(clean(cat.star_id(cat.star_of(c))).as_bytes())?;
+                w.write_field(clean(cat.candidate_id(c)).as_bytes())?;
+                for v in [
+                    d.radius_rearth,
+                    d.a_au,
+                    d.a_rstar,
+                    d.teq_k,
+                    d.insolation_earth,
+                    d.t14_central_h,
+                    d.density_transit,
+                    d.density_star,
+                    d.density_ratio,
+                ] {
+                    w.write_field(exact_in(&mut b, v))?;
+                }
+                w.write_field(ch.flags(c).joined(";"))?;
+                w.write_field(ch.warnings(c).joined(";"))?;
+                w.write_field(clean(&ch.why(c)).as_bytes())?;
+                w.write_record(None::<&[u8]>)?;
+            }
+            w.flush()?;
+        }
+        Format::Json => {
+            let list: Vec<Value> = rows
+                .iter()
+                .map(|&c| {
+                    let d = checks::derive(cat, c, &settings);
+                    let f = |v: Option<f64>| v.map_or(Value::Null, |x| json!(x));
+                    json!({
+                        "star": clean(cat.star_id(cat.star_of(c))),
+                        "candidate": clean(cat.candidate_id(c)),
+                        "radius_rearth": f(d.radius_rearth),
+                        "a_au": f(d.a_au),
+                        "a_rstar": f(d.a_rstar),
+                        "teq_k": f(d.teq_k),
+                        "insolation_earth": f(d.insolation_earth),
+                        "t14_central_h": f(d.t14_central_h),
+                        "density_transit_kg_m3": f(d.density_transit),
+                        "density_star_kg_m3": f(d.density_star),
+                        "density_ratio": f(d.density_ratio),
+                        "impact_assumed_zero": d.assumed_central,
+                        "flags": ch.flags(c).iter().map(Flag::name).collect::<Vec<_>>(),
+                        "warnings": ch.warnings(c).iter().map(Flag::name).collect::<Vec<_>>(),
+                        "findings": ch.findings(c).map(|x| json!({
+                            "flag": x.flag.name(), "soft": x.soft, "why": clean(&x.why),
+                        })).collect::<Vec<_>>(),
+                    })
+                })
+                .collect();
+            write_json(
+                out,
+                &json!({
+                    "catalogue": clean(&cat.source),
+                    "temperature_assumption": format!("Bond albedo {}, redistribution factor {}", settings.albedo, settings.redistribution),
+                    "flag_counts": flag_counts(&ch, cat.len()),
+                    "candidates": list,
+                }),
+            )?;
+        }
+        Format::Table => {
+            writeln!(out, "catalogue  {}", clean(&cat.source))?;
+            let mut t = Table::new(&[
+                ("star", Align::Left),
+                ("candidate", Align::Left),
+                ("R_earth", Align::Right),
+                ("a_au", Align::Right),
+                ("Teq_K", Align::Right),
+                ("S_earth", Align::Right),
+                ("rho_ratio", Align::Right),
+                ("flags", Align::Left),
+            ]);
+            for &c in &rows {
+                let d = checks::derive(cat, c, &settings);
+                let mut flags = ch.flags(c).joined(",");
+                let soft = ch.warnings(c).joined(",");
+                if !soft.is_empty() {
+                    flags = if flags.is_empty() {
+                        format!("({soft})")
+                    } else {
+                        format!("{flags} ({soft})")
+                    };
+                }
+                t.row(&[
+                    cat.star_id(cat.star_of(c)).to_string(),
+                    cat.candidate_id(c).to_string(),
+                    num(d.radius_rearth, 3),
+                    num(d.a_au, 3),
+                    num(d.teq_k.map(f64::round), 4),
+                    num(d.insolation_earth, 3),
+                    num(d.density_ratio, 2),
+                    flags,
+                ]);
+            }
+            t.write(out, "")?;
+            writeln!(out)?;
+            writeln!(out, "why (flags firm, warnings in brackets above)")?;
+            for &c in &rows {
+                for f in ch.findings(c) {
+                    writeln!(
+                        out,
+                        "  {}  {}{}: {}",
+                        clean(cat.candidate_id(c)),
+                        if f.soft { "warning " } else { "" },
+                        f.flag,
+                        clean(&f.why)
+                    )?;
+                }
+            }
+            writeln!(out)?;
+            let counts = flag_counts(&ch, cat.len());
+            let line: Vec<String> = counts
+                .as_object()
+                .map(|m| m.iter().map(|(k, v)| format!("{k} {v}")).collect())
+                .unwrap_or_default();
+            writeln!(out, "flags      {}", line.join(", "))?;
+            writeln!(
+                out,
+                "T_eq assumes Bond albedo {} and redistribution factor {} (1/4: whole planet); densities are mean stellar densities.",
+                settings.albedo, settings.redistribution
+            )?;
+        }
+    }
+    Ok(())
+}
+
+/// Candidates per flag (firm), for every flag that fired.
+fn flag_counts(ch: &Checks, n: usize) -> Value {
+    let mut m = serde_json::Map::new();
+    for f in ALL_FLAGS {
+        let k = (0..n as CandidateId)
+            .filter(|&c| ch.flags(c).contains(f))
+            .count();
+        if k > 0 {
+            m.insert(f.name().to_string(), json!(k));
+        }
+    }
+    Value::Object(m)
+}
