@@ -27,3 +27,4 @@ pub mod output;
 pub mod sanitize;
 pub mod science;
 pub mod survey;
+pub mod transit_model;
