@@ -9,7 +9,7 @@ use std::hash::BuildHasher;
 use std::sync::Arc;
 
 pub use columns::{ColumnMap, ColumnUse, DepthUnit, FIELDS, Field, Mapping, NUMERIC, REQUIRED};
-pub use load::{LoadOptions, Source};
+pub use load::{LoadOptions, Source, parse_number};
 use pool::StrPool;
 use serde::Serialize;
 

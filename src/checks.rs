@@ -215,6 +215,14 @@ impl Checks {
             .join("; ")
     }
 
+    /// Adds the flags of the light-curve diagnostics (they fire firmly).
+    pub fn add_lightcurve(&mut self, c: CandidateId, findings: &[(Flag, String)]) {
+        for (flag, why) in findings {
+            self.add(c, *flag, false, why.clone());
+        }
+        self.findings.sort_by_key(|(c, _)| *c);
+    }
+
     fn add(&mut self, c: CandidateId, flag: Flag, soft: bool, why: String) {
         if soft {
             self.soft[c as usize].insert(flag);
@@ -257,6 +265,35 @@ pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
 
     checks.findings.sort_by_key(|(c, _)| *c);
     checks
+}
+
+/// Runs the light-curve diagnostics of every candidate whose star has a
+/// light curve and adds their flags. Stars without one are passed over; a
+/// star whose light curve cannot be read is reported and skipped: (star id,
+/// error) for each.
+pub fn run_lightcurves(
+    cat: &Catalogue,
+    finder: &crate::lightcurve::Finder,
+    detrend: &crate::lightcurve::analysis::DetrendSettings,
+    checks: &mut Checks,
+) -> Vec<(String, String)> {
+    let cache = crate::lightcurve::Cache::default();
+    let mut errors = Vec::new();
+    for star in 0..cat.star_count() as u32 {
+        if !finder.has(cat, star) {
+            continue;
+        }
+        for &c in cat.members(star) {
+            match cache.diagnostics(finder, cat, c, detrend).as_ref() {
+                Ok(d) => checks.add_lightcurve(c, &d.findings),
+                Err(e) => {
+                    errors.push((cat.star_id(star).to_string(), e.clone()));
+                    break;
+                }
+            }
+        }
+    }
+    errors
 }
 
 fn candidate_flags(

@@ -37,6 +37,8 @@ pub enum Command {
     Odds(cmd::odds::Args),
     /// Derived physics and vetting flags of every candidate.
     Checks(cmd::checks::Args),
+    /// A candidate's folded light curve, its diagnostics and the model transit.
+    Fold(cmd::fold::Args),
     /// Regenerate the demo catalogue or write a large synthetic one.
     #[command(hide = true)]
     Generate(cmd::generate::Args),
@@ -141,6 +143,66 @@ pub struct Loaded {
     pub survey: SurveyFacts,
     /// Where the survey facts came from, for people.
     pub survey_source: Option<String>,
+    /// The catalogue's folder (light-curve paths are relative to it).
+    pub dir: Option<PathBuf>,
+    /// True for the built-in demo.
+    pub demo: bool,
+}
+
+/// Where light curves are and how to read them.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct LightcurveArgs {
+    /// Light curves: a folder of `<star id>.csv|.csv.gz|.tsv|.fits[.gz]`; with
+    /// no folder, the paths in the catalogue's `lightcurve` column.
+    #[arg(long, value_name = "DIR", num_args = 0..=1, default_missing_value = "")]
+    pub lightcurves: Option<String>,
+    /// Light-curve time column (default: time|t|bjd).
+    #[arg(long, value_name = "NAME")]
+    pub time_column: Option<String>,
+    /// Light-curve flux column (default: flux|f|norm_flux).
+    #[arg(long, value_name = "NAME")]
+    pub flux_column: Option<String>,
+    /// Light-curve flux error column (default: flux_err|err|sigma).
+    #[arg(long, value_name = "NAME")]
+    pub err_column: Option<String>,
+    /// FITS extension to read: a number (1 = first extension) or a name.
+    #[arg(long, value_name = "HDU")]
+    pub hdu: Option<String>,
+    /// Do not remove slow variability before measuring.
+    #[arg(long)]
+    pub no_detrend: bool,
+}
+
+impl LightcurveArgs {
+    /// True when light curves were asked for.
+    pub fn wanted(&self) -> bool {
+        self.lightcurves.is_some()
+    }
+
+    pub fn finder(&self, loaded: &Loaded) -> crate::lightcurve::Finder {
+        crate::lightcurve::Finder {
+            catalogue_dir: loaded.dir.clone(),
+            dir: self
+                .lightcurves
+                .as_deref()
+                .filter(|d| !d.is_empty())
+                .map(PathBuf::from),
+            columns: crate::lightcurve::LcColumns {
+                time: self.time_column.clone(),
+                flux: self.flux_column.clone(),
+                flux_err: self.err_column.clone(),
+                hdu: self.hdu.clone(),
+            },
+            demo: loaded.demo,
+        }
+    }
+
+    pub fn detrend(&self) -> crate::lightcurve::analysis::DetrendSettings {
+        crate::lightcurve::analysis::DetrendSettings {
+            enabled: !self.no_detrend,
+            ..Default::default()
+        }
+    }
 }
 
 impl CatalogueArgs {
@@ -173,6 +235,8 @@ impl CatalogueArgs {
                 )?,
                 survey: crate::demo::survey(),
                 survey_source: Some("built-in demo survey.toml".into()),
+                dir: crate::demo::source_dir(),
+                demo: true,
             }),
             Some(path) => {
                 let catalogue = Catalogue::load(Source::Path(path), &opts)?;
@@ -184,6 +248,17 @@ impl CatalogueArgs {
                     catalogue,
                     survey,
                     survey_source,
+                    dir: Some(path.parent().map_or_else(
+                        || PathBuf::from("."),
+                        |p| {
+                            if p.as_os_str().is_empty() {
+                                PathBuf::from(".")
+                            } else {
+                                p.to_path_buf()
+                            }
+                        },
+                    )),
+                    demo: false,
                 })
             }
         }
@@ -221,6 +296,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<(), CliError> {
         Some(Command::Summary(a)) => cmd::summary::run(&a, out),
         Some(Command::Odds(a)) => cmd::odds::run(&a, out),
         Some(Command::Checks(a)) => cmd::checks::run(&a, out),
+        Some(Command::Fold(a)) => cmd::fold::run(&a, out),
         Some(Command::Generate(a)) => cmd::generate::run(&a, out),
     }
 }

@@ -7,7 +7,7 @@ mod rng;
 
 use std::path::PathBuf;
 
-pub use generate::{DEMO_SEED, DEMO_TARGETS, write_big, write_demo};
+pub use generate::{DEMO_SEED, DEMO_TARGETS, demo_lightcurve_csv, write_big, write_demo};
 pub use rng::Rng;
 
 use crate::catalogue::{Catalogue, LoadError, LoadOptions, Source};

@@ -22,6 +22,7 @@ pub mod constants;
 pub mod decision;
 pub mod demo;
 pub mod flags;
+pub mod lightcurve;
 pub mod odds;
 pub mod output;
 pub mod sanitize;

@@ -27,9 +27,13 @@ pub fn uniform_covered(p: f64, z: f64) -> f64 {
     } else if z <= 1.0 - p {
         p * p
     } else {
-        let k0 = ((p * p + z * z - 1.0) / (2.0 * p * z)).clamp(-1.0, 1.0).acos();
+        let k0 = ((p * p + z * z - 1.0) / (2.0 * p * z))
+            .clamp(-1.0, 1.0)
+            .acos();
         let k1 = ((1.0 - p * p + z * z) / (2.0 * z)).clamp(-1.0, 1.0).acos();
-        let root = ((4.0 * z * z - (1.0 + z * z - p * p).powi(2)) / 4.0).max(0.0).sqrt();
+        let root = ((4.0 * z * z - (1.0 + z * z - p * p).powi(2)) / 4.0)
+            .max(0.0)
+            .sqrt();
         (p * p * k0 + k1 - root) / PI
     }
 }
@@ -49,7 +53,11 @@ pub fn quadratic_flux(p: f64, z: f64, u1: f64, u2: f64) -> f64 {
     let total = PI * (1.0 - u1 / 3.0 - u2 / 6.0);
     // Rings entirely inside the planet (r < p − z): covered all round.
     let inner = (p - z).clamp(0.0, 1.0);
-    let mut blocked = if inner > 0.0 { full_rings(inner, u1, u2) } else { 0.0 };
+    let mut blocked = if inner > 0.0 {
+        full_rings(inner, u1, u2)
+    } else {
+        0.0
+    };
     // Rings crossed by the planet's edge: |z − p| < r < z + p.
     let (lo, hi) = ((z - p).abs().min(1.0), (z + p).min(1.0));
     if hi > lo && z > 0.0 {
@@ -128,7 +136,14 @@ mod tests {
     fn uniform_source_check_values() {
         // METHODS.md §4, Mandel & Agol 2002 uniform source, p = 0.1 (checked
         // there by a 2-D grid integration at z = 1).
-        for (z, f) in [(0.0, 0.9900000), (0.9, 0.9900000), (0.95, 0.9920266), (1.0, 0.9951061), (1.05, 0.9981114), (1.1, 1.0)] {
+        for (z, f) in [
+            (0.0, 0.9900000),
+            (0.9, 0.9900000),
+            (0.95, 0.9920266),
+            (1.0, 0.9951061),
+            (1.05, 0.9981114),
+            (1.1, 1.0),
+        ] {
             let got = 1.0 - uniform_covered(0.1, z);
             assert!((got - f).abs() < 5e-8, "z = {z}: {got} vs {f}");
         }
@@ -150,7 +165,8 @@ mod tests {
         // The exact z = 0 formula of METHODS.md §4 with μ_p = √(1−p²).
         let (p, u1, u2) = (0.1f64, 0.4, 0.26);
         let mp = (1.0 - p * p).sqrt();
-        let lam = (p * p - u1 * (1.0 / 3.0 - mp * mp + 2.0 * mp.powi(3) / 3.0)
+        let lam = (p * p
+            - u1 * (1.0 / 3.0 - mp * mp + 2.0 * mp.powi(3) / 3.0)
             - u2 * (1.0 / 6.0 - mp * mp + 4.0 * mp.powi(3) / 3.0 - mp.powi(4) / 2.0))
             / (1.0 - u1 / 3.0 - u2 / 6.0);
         assert!((f0 - (1.0 - lam)).abs() < 1e-10);

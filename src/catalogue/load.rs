@@ -523,6 +523,15 @@ fn parse_cell(raw: &[u8]) -> Cell {
     }
 }
 
+/// A number from a text cell: `Some` for a finite value, `None` for missing
+/// tokens, non-finite values or text that is not a number.
+pub fn parse_number(raw: &[u8]) -> Option<f64> {
+    match parse_cell(raw) {
+        Cell::Value(v) => Some(v),
+        _ => None,
+    }
+}
+
 /// Powers of ten exactly representable in f64.
 const POW10: [f64; 23] = [
     1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16,

@@ -47,6 +47,8 @@ pub struct Args {
     pub input: CatalogueArgs,
     #[command(flatten)]
     pub checks: CheckArgs,
+    #[command(flatten)]
+    pub lc: crate::cli::LightcurveArgs,
     /// Only candidates on which this flag fired (firmly or as a warning).
     #[arg(long, value_name = "FLAG")]
     pub only: Option<String>,
@@ -85,7 +87,17 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let loaded = args.input.load()?;
     let cat = &loaded.catalogue;
     let settings = args.checks.settings();
-    let ch = checks::run(cat, &settings);
+    let mut ch = checks::run(cat, &settings);
+    let lc_errors = if args.lc.wanted() {
+        checks::run_lightcurves(cat, &args.lc.finder(&loaded), &args.lc.detrend(), &mut ch)
+    } else {
+        Vec::new()
+    };
+    if args.format != Format::Json {
+        for (star, e) in &lc_errors {
+            eprintln!("starsift: warning: star {}: {}", clean(star), clean(e));
+        }
+    }
     let rows: Vec<CandidateId> = (0..cat.len() as CandidateId)
         .filter(|&c| only.is_none_or(|f| ch.flags(c).contains(f) || ch.warnings(c).contains(f)))
         .collect();
@@ -151,6 +163,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     "catalogue": clean(&cat.source),
                     "temperature_assumption": format!("Bond albedo {}, redistribution factor {}", settings.albedo, settings.redistribution),
                     "flag_counts": flag_counts(&ch, cat.len()),
+                "lightcurve_errors": lc_errors.iter().map(|(s, e)| json!({"star": clean(s), "error": clean(e)})).collect::<Vec<_>>(),
                     "candidates": list,
                 }),
             )?;
@@ -211,6 +224,15 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 .map(|m| m.iter().map(|(k, v)| format!("{k} {v}")).collect())
                 .unwrap_or_default();
             writeln!(out, "flags      {}", line.join(", "))?;
+            if !args.lc.wanted() {
+                writeln!(
+                    out,
+                    "light curves not read: give --lightcurves [DIR] for odd-even, secondary and v-shape"
+                )?;
+            }
+            for (star, e) in &lc_errors {
+                writeln!(out, "light curve of {} not read: {}", clean(star), clean(e))?;
+            }
             writeln!(
                 out,
                 "T_eq assumes Bond albedo {} and redistribution factor {} (1/4: whole planet); densities are mean stellar densities.",

@@ -19,6 +19,8 @@ pub struct Args {
     pub model: ModelArgs,
     #[command(flatten)]
     pub checks: crate::cmd::checks::CheckArgs,
+    #[command(flatten)]
+    pub lc: crate::cli::LightcurveArgs,
     /// Output format: a table for people, CSV or JSON for scripts.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,

@@ -535,6 +535,17 @@ pub fn write_demo(dir: &Path) -> io::Result<()> {
     Ok(())
 }
 
+/// The demo light curve of one star as CSV text, regenerated from the seed
+/// (for a binary that runs away from the source tree).
+pub fn demo_lightcurve_csv(star_id: &str) -> Option<String> {
+    let demo = build_demo();
+    let star = demo
+        .stars
+        .iter()
+        .find(|s| s.id == star_id && s.lightcurve)?;
+    Some(lightcurve_csv(star))
+}
+
 /// Relative flux deficit of a trapezoid transit at time offset `dt_h` from
 /// mid-transit (hours).
 fn trapezoid(dt_h: f64, total_h: f64, flat_h: f64, depth: f64) -> f64 {

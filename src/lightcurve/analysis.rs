@@ -1,0 +1,577 @@
+//! Detrending, folding, binning and the light-curve diagnostics of a
+//! candidate: measured depth and SNR, odd/even depths, the secondary
+//! eclipse, per-transit depth consistency and the transit's shape
+//! (METHODS.md §4).
+
+use statrs::distribution::{ChiSquared, ContinuousCDF};
+
+use super::{LightCurve, median_of};
+use crate::flags::Flag;
+
+/// Period, epoch and total duration of one signal.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Ephemeris {
+    pub period_d: f64,
+    pub epoch: f64,
+    pub duration_h: f64,
+}
+
+impl Ephemeris {
+    /// Time from the nearest mid-transit, days.
+    pub fn offset_d(&self, t: f64) -> f64 {
+        let x = (t - self.epoch) / self.period_d;
+        (x - x.round()) * self.period_d
+    }
+
+    /// The number of the nearest transit (0 at the epoch).
+    pub fn cycle(&self, t: f64) -> i64 {
+        ((t - self.epoch) / self.period_d).round() as i64
+    }
+
+    fn half_d(&self) -> f64 {
+        self.duration_h / 48.0
+    }
+}
+
+/// Phase in cycles, in [−0.5, 0.5), 0 at mid-transit.
+pub fn phase(t: f64, period_d: f64, epoch: f64) -> f64 {
+    let x = (t - epoch) / period_d + 0.5;
+    x - x.floor() - 0.5
+}
+
+/// How to remove slow stellar and instrumental variability.
+#[derive(Clone, Debug, PartialEq)]
+pub struct DetrendSettings {
+    pub enabled: bool,
+    /// The running-median window as a multiple of the longest transit
+    /// duration of the star's candidates (about 3, per the light-curve issue).
+    pub window_factor: f64,
+    /// The shortest window, hours.
+    pub min_window_h: f64,
+}
+
+impl Default for DetrendSettings {
+    fn default() -> DetrendSettings {
+        DetrendSettings {
+            enabled: true,
+            window_factor: 3.0,
+            min_window_h: 6.0,
+        }
+    }
+}
+
+/// True for samples inside any of the transits, widened by `widen` × the
+/// half duration.
+pub fn in_transit(time: &[f64], signals: &[Ephemeris], widen: f64) -> Vec<bool> {
+    time.iter()
+        .map(|&t| {
+            signals
+                .iter()
+                .any(|s| s.offset_d(t).abs() < s.half_d() * widen)
+        })
+        .collect()
+}
+
+/// The slow trend under a light curve: on a grid every fifth of a window, a
+/// straight line fitted to the unmasked samples within `window_d` days,
+/// refitted once without the samples beyond 3σ (a robust running line, which
+/// stays unbiased where masked transits leave samples on one side only),
+/// read at the grid point and interpolated linearly between grid points.
+pub fn running_median_trend(time: &[f64], flux: &[f64], mask: &[bool], window_d: f64) -> Vec<f64> {
+    let n = time.len();
+    if n == 0 {
+        return Vec::new();
+    }
+    let step = window_d / 5.0;
+    let (t0, t1) = (time[0], time[n - 1]);
+    let nodes = ((t1 - t0) / step).ceil() as usize + 1;
+    let mut grid: Vec<(f64, f64)> = Vec::with_capacity(nodes);
+    let (mut lo, mut hi) = (0usize, 0usize);
+    let mut pts: Vec<(f64, f64)> = Vec::new();
+    for g in 0..nodes {
+        let tc = t0 + g as f64 * step;
+        while lo < n && time[lo] < tc - window_d / 2.0 {
+            lo += 1;
+        }
+        while hi < n && time[hi] <= tc + window_d / 2.0 {
+            hi += 1;
+        }
+        pts.clear();
+        pts.extend(
+            (lo..hi)
+                .filter(|&i| !mask[i])
+                .map(|i| (time[i] - tc, flux[i])),
+        );
+        if let Some(v) = robust_line_at_zero(&mut pts) {
+            grid.push((tc, v));
+        }
+    }
+    if grid.is_empty() {
+        return vec![1.0; n];
+    }
+    let mut j = 0;
+    time.iter()
+        .map(|&t| {
+            while j + 1 < grid.len() && grid[j + 1].0 <= t {
+                j += 1;
+            }
+            match grid.get(j + 1) {
+                Some(&(tb, fb)) if grid[j].0 <= t => {
+                    let (ta, fa) = grid[j];
+                    fa + (fb - fa) * (t - ta) / (tb - ta)
+                }
+                _ => grid[j].1,
+            }
+        })
+        .collect()
+}
+
+/// Least-squares line through (x, y), refitted once without points beyond
+/// 3σ of the first fit; returns its value at x = 0. `None` with < 5 points.
+fn robust_line_at_zero(pts: &mut Vec<(f64, f64)>) -> Option<f64> {
+    let fit = |pts: &[(f64, f64)]| -> Option<(f64, f64)> {
+        let n = pts.len() as f64;
+        if pts.len() < 5 {
+            return None;
+        }
+        let (sx, sy) = pts.iter().fold((0.0, 0.0), |a, p| (a.0 + p.0, a.1 + p.1));
+        let (mx, my) = (sx / n, sy / n);
+        let (sxx, sxy) = pts.iter().fold((0.0, 0.0), |a, p| {
+            (a.0 + (p.0 - mx).powi(2), a.1 + (p.0 - mx) * (p.1 - my))
+        });
+        let slope = if sxx > 0.0 { sxy / sxx } else { 0.0 };
+        Some((my - slope * mx, slope))
+    };
+    let (a, b) = fit(pts)?;
+    let rms =
+        (pts.iter().map(|p| (p.1 - a - b * p.0).powi(2)).sum::<f64>() / pts.len() as f64).sqrt();
+    pts.retain(|p| (p.1 - a - b * p.0).abs() <= 3.0 * rms);
+    Some(fit(pts).map_or(a, |f| f.0))
+}
+
+/// The light curve divided by its trend, with every known transit of the
+/// star masked while the trend is estimated.
+pub fn detrend(lc: &LightCurve, signals: &[Ephemeris], s: &DetrendSettings) -> Vec<f64> {
+    if !s.enabled {
+        return lc.flux.clone();
+    }
+    let longest_h = signals.iter().map(|e| e.duration_h).fold(0.0, f64::max);
+    let window_d = (s.window_factor * longest_h).max(s.min_window_h) / 24.0;
+    let mask = in_transit(&lc.time, signals, 1.2);
+    let trend = running_median_trend(&lc.time, &lc.flux, &mask, window_d);
+    lc.flux.iter().zip(&trend).map(|(f, t)| f / t).collect()
+}
+
+/// A folded, binned light curve: per bin its centre (phase, cycles), mean,
+/// inverse-variance weighted mean, median, the standard error of the mean
+/// and the number of samples.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Binned {
+    pub centre: Vec<f64>,
+    pub mean: Vec<f64>,
+    pub weighted_mean: Vec<f64>,
+    pub median: Vec<f64>,
+    pub err: Vec<f64>,
+    pub count: Vec<u32>,
+}
+
+/// Folds on `period` and `epoch` and bins phases in [lo, hi) (cycles; the
+/// phase is taken about `centre`, 0 for the transit, 0.5 for the secondary).
+/// Samples with `skip[i]` set are left out.
+#[allow(clippy::too_many_arguments)]
+pub fn fold_bin(
+    time: &[f64],
+    flux: &[f64],
+    err: &[f64],
+    skip: Option<&[bool]>,
+    period_d: f64,
+    epoch: f64,
+    centre: f64,
+    (lo, hi): (f64, f64),
+    bins: usize,
+) -> Binned {
+    let bins = bins.max(1);
+    let width = (hi - lo) / bins as f64;
+    let inv = 1.0 / width;
+    let e0 = epoch + centre * period_d;
+    let mut which = vec![u32::MAX; time.len()];
+    let mut count = vec![0u32; bins];
+    let (mut sum, mut wsum, mut wf, mut sq) = (
+        vec![0.0; bins],
+        vec![0.0; bins],
+        vec![0.0; bins],
+        vec![0.0; bins],
+    );
+    for i in 0..time.len() {
+        if skip.is_some_and(|s| s[i]) {
+            continue;
+        }
+        let ph = phase(time[i], period_d, e0);
+        let b = ((ph - lo) * inv).floor();
+        if !(b >= 0.0 && b < bins as f64) {
+            continue;
+        }
+        let b = b as usize;
+        which[i] = b as u32;
+        let f = flux[i];
+        count[b] += 1;
+        sum[b] += f;
+        sq[b] += f * f;
+        let w = if err[i] > 0.0 {
+            1.0 / (err[i] * err[i])
+        } else {
+            0.0
+        };
+        wsum[b] += w;
+        wf[b] += w * f;
+    }
+    // Medians: samples grouped by bin with a counting sort, then selection.
+    let mut start = vec![0usize; bins + 1];
+    for b in 0..bins {
+        start[b + 1] = start[b] + count[b] as usize;
+    }
+    let mut fill = start.clone();
+    let mut grouped = vec![0.0; start[bins]];
+    for (i, &b) in which.iter().enumerate() {
+        if b != u32::MAX {
+            grouped[fill[b as usize]] = flux[i];
+            fill[b as usize] += 1;
+        }
+    }
+    let mut out = Binned::default();
+    for b in 0..bins {
+        let n = count[b] as f64;
+        out.centre.push(lo + (b as f64 + 0.5) * width);
+        out.count.push(count[b]);
+        if count[b] == 0 {
+            for v in [
+                &mut out.mean,
+                &mut out.weighted_mean,
+                &mut out.median,
+                &mut out.err,
+            ] {
+                v.push(f64::NAN);
+            }
+            continue;
+        }
+        let mean = sum[b] / n;
+        out.mean.push(mean);
+        out.weighted_mean
+            .push(if wsum[b] > 0.0 { wf[b] / wsum[b] } else { mean });
+        out.median
+            .push(median_of(&mut grouped[start[b]..start[b + 1]]));
+        let var = if count[b] > 1 {
+            ((sq[b] - n * mean * mean) / (n - 1.0)).max(0.0)
+        } else {
+            0.0
+        };
+        out.err.push((var / n).sqrt());
+    }
+    out
+}
+
+/// A measured quantity with its 1σ uncertainty.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Measure {
+    pub value: f64,
+    pub err: f64,
+}
+
+impl Measure {
+    /// Significance value/err.
+    pub fn z(&self) -> f64 {
+        self.value / self.err
+    }
+}
+
+/// Odd/even depth difference in σ: Z = |δ_odd − δ_even| / √(σ_odd² + σ_even²)
+/// (METHODS.md §4).
+pub fn odd_even_z(odd: Measure, even: Measure) -> f64 {
+    (odd.value - even.value).abs() / (odd.err.powi(2) + even.err.powi(2)).sqrt()
+}
+
+/// Per-transit depth consistency: χ² = Σ (δᵢ − δ̄)²/σᵢ² about the
+/// inverse-variance weighted mean δ̄, n − 1 degrees of freedom, and p from
+/// the χ² survival function (statrs). `None` with fewer than two depths.
+pub fn depth_consistency(depths: &[Measure]) -> Option<(f64, usize, f64)> {
+    if depths.len() < 2 {
+        return None;
+    }
+    let w: Vec<f64> = depths.iter().map(|d| 1.0 / (d.err * d.err)).collect();
+    let mean = depths.iter().zip(&w).map(|(d, w)| d.value * w).sum::<f64>() / w.iter().sum::<f64>();
+    let chi2: f64 = depths
+        .iter()
+        .map(|d| ((d.value - mean) / d.err).powi(2))
+        .sum();
+    let dof = depths.len() - 1;
+    let p = ChiSquared::new(dof as f64).ok()?.sf(chi2);
+    Some((chi2, dof, p))
+}
+
+/// Largest secondary-eclipse depth reflected light could give, ppm:
+/// A_g k² (R★/a)² with A_g = 1 (METHODS.md §4).
+pub fn reflected_ceiling_ppm(ror: f64, a_rstar: f64) -> f64 {
+    ror * ror / (a_rstar * a_rstar) * 1e6
+}
+
+/// Thermal secondary-eclipse depth, ppm: k² B_λ(T_day)/B_λ(T_eff) at
+/// wavelength `lambda_m`, with the dayside at T_day = T_eff √(R★/a) (2/3)^{1/4}
+/// (no redistribution; METHODS.md §4, physics from Winn 2010).
+pub fn thermal_depth_ppm(ror: f64, a_rstar: f64, teff_k: f64, lambda_m: f64) -> f64 {
+    // Planck: B ∝ 1/(exp(hc/λkT) − 1); hc/k = 0.014387769 m K (CODATA 2018).
+    let c2 = 0.014_387_769;
+    let t_day = teff_k * (1.0 / a_rstar).sqrt() * (2.0f64 / 3.0).powf(0.25);
+    let planck = |t: f64| 1.0 / ((c2 / (lambda_m * t)).exp_m1());
+    ror * ror * planck(t_day) / planck(teff_k) * 1e6
+}
+
+/// What the star and the candidate are, for the diagnostics.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Context {
+    /// R_p/R★ (from `ror`, else √depth).
+    pub ror: f64,
+    /// a/R★, if known.
+    pub a_rstar: Option<f64>,
+    pub teff_k: Option<f64>,
+}
+
+/// The light-curve diagnostics of one candidate.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Diagnostics {
+    /// Depth from the central half of the transits, ppm.
+    pub depth: Measure,
+    pub snr: f64,
+    pub odd: Measure,
+    pub even: Measure,
+    pub odd_even_z: f64,
+    /// Depth at phase 0.5 with the transit's duration, ppm.
+    pub secondary: Measure,
+    pub reflected_ceiling_ppm: Option<f64>,
+    pub thermal_ppm: Option<f64>,
+    /// (χ², degrees of freedom, p) of the per-transit depths.
+    pub consistency: Option<(f64, usize, f64)>,
+    pub transits_seen: usize,
+    /// Best-fit flat-bottom fraction T₂₃/T₁₄ of a trapezoid (0 = V-shaped).
+    pub flat_fraction: f64,
+    /// χ² of the best flat-bottomed (T₂₃/T₁₄ ≥ 0.5) minus the best V-shaped
+    /// (≤ 0.15) trapezoid: large and positive means V-shaped.
+    pub v_shape_dchi2: f64,
+    /// Point-to-point scatter of the detrended out-of-transit flux.
+    pub scatter: f64,
+    /// Flags raised, with the numbers behind them.
+    pub findings: Vec<(Flag, String)>,
+}
+
+/// Z of the odd/even and secondary tests at which a flag fires (METHODS.md §4).
+pub const FLAG_Z: f64 = 3.0;
+
+/// Computes the diagnostics of signal `me` from a star's light curve;
+/// `others` are the star's other signals, masked while `me` is measured.
+pub fn diagnose(
+    lc: &LightCurve,
+    me: &Ephemeris,
+    others: &[Ephemeris],
+    ctx: &Context,
+    detrend_settings: &DetrendSettings,
+) -> Diagnostics {
+    // The trend is estimated with every known transit masked, and this
+    // signal's phase-0.5 window too, so that a secondary eclipse is not
+    // mistaken for variability.
+    let mut all = vec![*me];
+    all.extend_from_slice(others);
+    all.push(Ephemeris {
+        epoch: me.epoch + me.period_d / 2.0,
+        ..*me
+    });
+    let flux = detrend(lc, &all, detrend_settings);
+    let masked_others = in_transit(&lc.time, others, 1.2);
+    let half = me.half_d();
+    let dt: Vec<f64> = lc.time.iter().map(|&t| me.offset_d(t)).collect();
+    // Baseline and per-sample scatter from the out-of-transit, detrended
+    // flux; the scatter from neighbour differences, which a running-median
+    // trend cannot absorb (a scatter about the trend would be too small).
+    let mut out_of_transit: Vec<f64> = (0..flux.len())
+        .filter(|&i| !masked_others[i] && dt[i].abs() > 1.2 * half)
+        .map(|i| flux[i])
+        .collect();
+    let scatter = super::point_to_point_sigma(&out_of_transit);
+    let baseline = median_of(&mut out_of_transit);
+    // A box depth from the samples `pick` selects, against the baseline.
+    let box_depth = |pick: &dyn Fn(usize) -> bool| -> Measure {
+        let (mut s, mut n) = (0.0, 0usize);
+        for i in 0..flux.len() {
+            if !masked_others[i] && pick(i) {
+                s += flux[i];
+                n += 1;
+            }
+        }
+        if n == 0 {
+            return Measure {
+                value: f64::NAN,
+                err: f64::NAN,
+            };
+        }
+        Measure {
+            value: (baseline - s / n as f64) * 1e6,
+            err: scatter / (n as f64).sqrt() * 1e6,
+        }
+    };
+    let core = |i: usize| dt[i].abs() < half / 2.0;
+    let depth = box_depth(&core);
+    let odd = box_depth(&|i| core(i) && me.cycle(lc.time[i]).rem_euclid(2) == 1);
+    let even = box_depth(&|i| core(i) && me.cycle(lc.time[i]).rem_euclid(2) == 0);
+    let sec_eph = Ephemeris {
+        epoch: me.epoch + me.period_d / 2.0,
+        ..*me
+    };
+    let secondary = box_depth(&|i| sec_eph.offset_d(lc.time[i]).abs() < half / 2.0);
+    // Per-transit depths against each transit's own neighbourhood
+    // (1.2–3 half-durations from mid-transit), so that what the trend left
+    // locally cancels; transits with at least three samples in each.
+    let mut per: std::collections::BTreeMap<i64, [(f64, usize); 2]> = Default::default();
+    for i in 0..flux.len() {
+        let a = dt[i].abs();
+        if masked_others[i] || a >= 3.0 * half || (a >= half / 2.0 && a <= 1.2 * half) {
+            continue;
+        }
+        let e = per.entry(me.cycle(lc.time[i])).or_insert([(0.0, 0); 2]);
+        let k = usize::from(a > half);
+        e[k].0 += flux[i];
+        e[k].1 += 1;
+    }
+    let depths: Vec<Measure> = per
+        .values()
+        .filter(|[inner, outer]| inner.1 >= 3 && outer.1 >= 3)
+        .map(|[(si, ni), (so, no)]| Measure {
+            value: (so / *no as f64 - si / *ni as f64) * 1e6,
+            err: scatter * (1.0 / *ni as f64 + 1.0 / *no as f64).sqrt() * 1e6,
+        })
+        .collect();
+    let consistency = depth_consistency(&depths);
+    let (flat_fraction, v_shape_dchi2) =
+        shape_fit(&lc.time, &flux, &masked_others, me, scatter, baseline);
+    let reflected = ctx.a_rstar.map(|a| reflected_ceiling_ppm(ctx.ror, a));
+    let thermal = match (ctx.a_rstar, ctx.teff_k) {
+        (Some(a), Some(t)) => Some(thermal_depth_ppm(ctx.ror, a, t, 0.6e-6)),
+        _ => None,
+    };
+    let mut d = Diagnostics {
+        depth,
+        snr: depth.z(),
+        odd,
+        even,
+        odd_even_z: odd_even_z(odd, even),
+        secondary,
+        reflected_ceiling_ppm: reflected,
+        thermal_ppm: thermal,
+        consistency,
+        transits_seen: depths.len(),
+        flat_fraction,
+        v_shape_dchi2,
+        scatter,
+        findings: Vec::new(),
+    };
+    d.findings = findings(&d);
+    d
+}
+
+/// The flags the diagnostics raise.
+fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
+    let mut out = Vec::new();
+    if d.odd_even_z >= FLAG_Z {
+        out.push((
+            Flag::OddEven,
+            format!(
+                "odd transits {:.0} ± {:.0} ppm, even {:.0} ± {:.0} ppm: Z = {:.1} ≥ {FLAG_Z}",
+                d.odd.value, d.odd.err, d.even.value, d.even.err, d.odd_even_z
+            ),
+        ));
+    }
+    let ceiling = d
+        .reflected_ceiling_ppm
+        .unwrap_or(0.0)
+        .max(d.thermal_ppm.unwrap_or(0.0));
+    // "Well above" the planetary ceilings: twice the larger (common practice, no source).
+    if d.secondary.z() >= FLAG_Z && d.secondary.value > 2.0 * ceiling {
+        out.push((Flag::Secondary, format!(
+            "eclipse at phase 0.5: {:.0} ± {:.0} ppm (Z = {:.1}), above twice the planetary ceiling {:.0} ppm (reflected {}, thermal {})",
+            d.secondary.value, d.secondary.err, d.secondary.z(), ceiling,
+            d.reflected_ceiling_ppm.map_or("unknown".into(), |v| format!("{v:.0}")),
+            d.thermal_ppm.map_or("unknown".into(), |v| format!("{v:.0}")),
+        )));
+    }
+    if d.v_shape_dchi2 >= 9.0 && d.flat_fraction <= 0.15 {
+        out.push((Flag::VShape, format!(
+            "a V-shaped trapezoid (flat fraction {:.2}) fits better than any flat-bottomed one by Δχ² = {:.0}",
+            d.flat_fraction, d.v_shape_dchi2
+        )));
+    }
+    out
+}
+
+/// Fits trapezoids of total duration T₁₄ and flat fraction f = T₂₃/T₁₄
+/// (grid 0, 0.05, …, 1; depth by linear least squares) to the samples within
+/// ±T₁₄ of mid-transit. Returns the best f and χ²(best f ≥ 0.5) − χ²(best
+/// f ≤ 0.15).
+fn shape_fit(
+    time: &[f64],
+    flux: &[f64],
+    skip: &[bool],
+    me: &Ephemeris,
+    sigma: f64,
+    baseline: f64,
+) -> (f64, f64) {
+    let half = me.half_d();
+    let pts: Vec<(f64, f64)> = (0..time.len())
+        .filter(|&i| !skip[i])
+        .filter_map(|i| {
+            let dt = me.offset_d(time[i]);
+            (dt.abs() < 2.0 * half).then(|| (dt.abs() / half, baseline - flux[i]))
+        })
+        .collect();
+    if pts.len() < 10 || sigma.is_nan() || sigma <= 0.0 {
+        return (f64::NAN, 0.0);
+    }
+    let mut best = (f64::INFINITY, f64::NAN);
+    let (mut best_v, mut best_u) = (f64::INFINITY, f64::INFINITY);
+    for step in 0..=20 {
+        let f = step as f64 / 20.0;
+        // Shape s(x) for x = |dt|/half: 1 inside the flat part, linear to 0 at x = 1.
+        let shape = |x: f64| {
+            if x >= 1.0 {
+                0.0
+            } else if x <= f {
+                1.0
+            } else {
+                (1.0 - x) / (1.0 - f)
+            }
+        };
+        let (mut sy, mut ss) = (0.0, 0.0);
+        for &(x, y) in &pts {
+            let s = shape(x);
+            sy += s * y;
+            ss += s * s;
+        }
+        if ss == 0.0 {
+            continue;
+        }
+        let depth = sy / ss;
+        let chi2: f64 = pts
+            .iter()
+            .map(|&(x, y)| ((y - depth * shape(x)) / sigma).powi(2))
+            .sum();
+        if chi2 < best.0 {
+            best = (chi2, f);
+        }
+        if f <= 0.15 {
+            best_v = best_v.min(chi2);
+        }
+        if f >= 0.5 {
+            best_u = best_u.min(chi2);
+        }
+    }
+    (best.1, best_u - best_v)
+}
+
+#[cfg(test)]
+mod tests;

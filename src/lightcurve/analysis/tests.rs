@@ -1,0 +1,219 @@
+//! Diagnostics against the check values of METHODS.md §4 and recovery tests
+//! on synthetic light curves made here (invented).
+
+use super::*;
+use crate::demo::Rng;
+
+#[test]
+fn odd_even_check_value() {
+    // METHODS.md §4 [D]: 1000 ± 30 vs 850 ± 40 ppm → Z = 3.00.
+    let z = odd_even_z(
+        Measure {
+            value: 1000.0,
+            err: 30.0,
+        },
+        Measure {
+            value: 850.0,
+            err: 40.0,
+        },
+    );
+    assert!((z - 3.0).abs() < 1e-12, "{z}");
+}
+
+#[test]
+fn depth_consistency_check_values() {
+    // METHODS.md §4 [D]: depths 100, 110, 90, 100 ± 5 → δ̄ = 100, χ² = 8,
+    // p = 0.04601 (3 degrees of freedom); χ² survival(9, 1 dof) = 0.0026998.
+    let d: Vec<Measure> = [100.0, 110.0, 90.0, 100.0]
+        .iter()
+        .map(|&v| Measure { value: v, err: 5.0 })
+        .collect();
+    let (chi2, dof, p) = depth_consistency(&d).unwrap();
+    assert!((chi2 - 8.0).abs() < 1e-12 && dof == 3);
+    assert!((p - 0.04601).abs() < 5e-6, "{p}");
+    let p1 = ChiSquared::new(1.0).unwrap().sf(9.0);
+    assert!((p1 - 0.0026998).abs() < 5e-8, "{p1}");
+    assert!(depth_consistency(&d[..1]).is_none());
+}
+
+#[test]
+fn reflected_light_ceiling() {
+    // METHODS.md §4 [D]: k = 0.1, a/R★ = 8.7536 → 130.5 ppm for A_g = 1.
+    assert!((reflected_ceiling_ppm(0.1, 8.7536) - 130.5).abs() < 0.05);
+    // Thermal emission of a hot planet is far below its reflected ceiling in
+    // the visible, and rises with temperature.
+    let cool = thermal_depth_ppm(0.1, 8.7536, 5000.0, 0.6e-6);
+    let hot = thermal_depth_ppm(0.1, 8.7536, 6500.0, 0.6e-6);
+    assert!(cool > 0.0 && cool < hot && hot < 130.5, "{cool} {hot}");
+}
+
+/// An invented light curve: 30-minute cadence over 200 d, white noise of
+/// `sigma`, a slow sinusoid, and trapezoid transits of `depth` (ppm) every
+/// `period`, with every second one of depth `alt` and an eclipse of `sec`
+/// at phase 0.5.
+fn synthetic(
+    period: f64,
+    depth: f64,
+    alt: f64,
+    sec: f64,
+    flat: f64,
+    sigma: f64,
+    seed: u64,
+) -> (LightCurve, Ephemeris) {
+    let mut rng = Rng::new(seed);
+    let e = Ephemeris {
+        period_d: period,
+        epoch: 3.3,
+        duration_h: 3.0,
+    };
+    let (mut t, mut f) = (Vec::new(), Vec::new());
+    let trap = |dt_h: f64, d: f64| {
+        let x = dt_h.abs() / 1.5;
+        if x >= 1.0 {
+            0.0
+        } else if x <= flat {
+            d
+        } else {
+            d * (1.0 - x) / (1.0 - flat)
+        }
+    };
+    for i in 0..9600 {
+        let ti = i as f64 / 48.0;
+        let cyc = e.cycle(ti);
+        let d = if cyc.rem_euclid(2) == 1 { alt } else { depth };
+        let mut v = 1.0 + 0.002 * (ti / 7.0).sin();
+        v -= trap(e.offset_d(ti) * 24.0, d * 1e-6);
+        let s2 = Ephemeris {
+            epoch: e.epoch + period / 2.0,
+            ..e
+        };
+        v -= trap(s2.offset_d(ti) * 24.0, sec * 1e-6);
+        v += sigma * rng.normal();
+        t.push(ti);
+        f.push(v * 1234.5);
+    }
+    let lc = LightCurve::from_samples("synthetic".into(), t, f, None).unwrap();
+    (lc, e)
+}
+
+fn ctx() -> Context {
+    Context {
+        ror: 0.03,
+        a_rstar: Some(12.0),
+        teff_k: Some(5700.0),
+    }
+}
+
+#[test]
+fn a_clean_planet_is_recovered_and_not_flagged() {
+    let (lc, e) = synthetic(4.1, 900.0, 900.0, 0.0, 0.8, 3e-4, 11);
+    let d = diagnose(&lc, &e, &[], &ctx(), &DetrendSettings::default());
+    // The central half of a trapezoid with 80 % flat bottom is at full depth.
+    assert!(
+        (d.depth.value - 900.0).abs() < 3.0 * d.depth.err,
+        "{:?}",
+        d.depth
+    );
+    assert!(d.snr > 30.0);
+    assert!(d.findings.is_empty(), "{:?}", d.findings);
+    assert!(d.flat_fraction >= 0.5, "{}", d.flat_fraction);
+    let (chi2, dof, p) = d.consistency.unwrap();
+    assert!(p > 1e-3, "χ² {chi2} on {dof}");
+}
+
+#[test]
+fn an_eclipsing_binary_is_flagged() {
+    // Alternating depths and a secondary eclipse, V-shaped.
+    let (lc, e) = synthetic(2.7, 12000.0, 7000.0, 2500.0, 0.0, 5e-4, 12);
+    let d = diagnose(
+        &lc,
+        &e,
+        &[],
+        &Context { ror: 0.1, ..ctx() },
+        &DetrendSettings::default(),
+    );
+    let flags: Vec<Flag> = d.findings.iter().map(|f| f.0).collect();
+    assert!(flags.contains(&Flag::OddEven), "{:?}", d.findings);
+    assert!(flags.contains(&Flag::Secondary), "{:?}", d.findings);
+    assert!(
+        flags.contains(&Flag::VShape),
+        "{:?} {}",
+        d.findings,
+        d.flat_fraction
+    );
+    assert!(d.consistency.unwrap().2 < 1e-6);
+}
+
+#[test]
+fn other_signals_are_masked() {
+    // A second, deeper signal on the same star does not leak into the first.
+    let (mut lc, e) = synthetic(4.1, 900.0, 900.0, 0.0, 0.8, 3e-4, 13);
+    let other = Ephemeris {
+        period_d: 6.7,
+        epoch: 1.1,
+        duration_h: 4.0,
+    };
+    for (t, f) in lc.time.iter().zip(lc.flux.iter_mut()) {
+        if other.offset_d(*t).abs() < other.half_d() {
+            *f -= 5e-3;
+        }
+    }
+    let d = diagnose(&lc, &e, &[other], &ctx(), &DetrendSettings::default());
+    assert!(
+        (d.depth.value - 900.0).abs() < 3.0 * d.depth.err,
+        "{:?}",
+        d.depth
+    );
+    assert!(d.findings.is_empty(), "{:?}", d.findings);
+}
+
+#[test]
+fn detrending_removes_slow_variability() {
+    let (lc, e) = synthetic(4.1, 0.0, 0.0, 0.0, 0.8, 1e-4, 14);
+    let flat = detrend(&lc, &[e], &DetrendSettings::default());
+    let mut dev: Vec<f64> = flat.iter().map(|f| (f - 1.0).abs()).collect();
+    let mad = median_of(&mut dev);
+    assert!(mad < 1.5e-4, "{mad}");
+    let raw = detrend(
+        &lc,
+        &[e],
+        &DetrendSettings {
+            enabled: false,
+            ..DetrendSettings::default()
+        },
+    );
+    assert_eq!(raw, lc.flux);
+}
+
+#[test]
+fn binning_matches_a_direct_computation() {
+    let (lc, e) = synthetic(4.1, 900.0, 900.0, 0.0, 0.8, 3e-4, 15);
+    let b = fold_bin(
+        &lc.time,
+        &lc.flux,
+        &lc.flux_err,
+        None,
+        e.period_d,
+        e.epoch,
+        0.0,
+        (-0.5, 0.5),
+        40,
+    );
+    assert_eq!(
+        b.count.iter().map(|&c| c as usize).sum::<usize>(),
+        lc.time.len()
+    );
+    let k = 20; // the bin just after phase 0
+    let vals: Vec<f64> = (0..lc.time.len())
+        .filter(|&i| ((phase(lc.time[i], e.period_d, e.epoch) + 0.5) * 40.0).floor() as usize == k)
+        .map(|i| lc.flux[i])
+        .collect();
+    let mean = vals.iter().sum::<f64>() / vals.len() as f64;
+    assert_eq!(vals.len() as u32, b.count[k]);
+    assert!((mean - b.mean[k]).abs() < 1e-12);
+    // Equal errors: the weighted mean is the mean.
+    assert!((b.weighted_mean[k] - b.mean[k]).abs() < 1e-12);
+    assert!(
+        (phase(10.0, 4.0, 2.0) - 0.0).abs() < 1e-12 && (phase(4.0, 4.0, 2.0) + 0.5).abs() < 1e-12
+    );
+}

@@ -1,0 +1,218 @@
+//! From a catalogue candidate to its light curve, ephemerides, diagnostic
+//! context and model parameters, and a cache of the results for callers on
+//! other threads.
+
+use std::collections::HashMap;
+use std::path::PathBuf;
+use std::sync::{Arc, Mutex};
+
+use super::analysis::{Context, DetrendSettings, Diagnostics, Ephemeris, diagnose};
+use super::{LcColumns, LcError, LightCurve, locate};
+use crate::catalogue::{CandidateId, Catalogue, Field, StarId};
+use crate::checks::{CheckSettings, derive};
+use crate::science;
+use crate::transit_model::DEFAULT_LD;
+
+/// Where to look for light curves and how to read them.
+#[derive(Clone, Debug, Default)]
+pub struct Finder {
+    /// The catalogue's folder, against which `lightcurve` paths are relative.
+    pub catalogue_dir: Option<PathBuf>,
+    /// `--lightcurves DIR`: files named `<star id>.<ext>`.
+    pub dir: Option<PathBuf>,
+    pub columns: LcColumns,
+    /// The built-in demo: regenerate a light curve from the seed when the
+    /// file is not on disk.
+    pub demo: bool,
+}
+
+impl Finder {
+    /// True when the star has a light curve to read (a file that exists, or
+    /// one the demo can regenerate); a file that exists may still be unreadable.
+    pub fn has(&self, cat: &Catalogue, star: StarId) -> bool {
+        let named = cat.members(star).iter().find_map(|&c| cat.lightcurve(c));
+        locate(
+            cat.star_id(star),
+            named,
+            self.catalogue_dir.as_deref(),
+            self.dir.as_deref(),
+        )
+        .is_ok()
+            || (self.demo && named.is_some())
+    }
+
+    /// The light curve of a star, from the first of its candidates that names
+    /// a file, or from the folder.
+    pub fn load(&self, cat: &Catalogue, star: StarId) -> Result<LightCurve, LcError> {
+        let id = cat.star_id(star);
+        let named = cat.members(star).iter().find_map(|&c| cat.lightcurve(c));
+        match locate(
+            id,
+            named,
+            self.catalogue_dir.as_deref(),
+            self.dir.as_deref(),
+        ) {
+            Ok(path) => LightCurve::read(&path, &self.columns),
+            Err(e) if self.demo && named.is_some() => match crate::demo::demo_lightcurve_csv(id) {
+                Some(text) => LightCurve::from_text(
+                    &format!("built-in demo light curve of {id}"),
+                    text.into_bytes(),
+                    &self.columns,
+                ),
+                None => Err(e),
+            },
+            Err(e) => Err(e),
+        }
+    }
+}
+
+/// The candidate's ephemeris and those of its siblings (to be masked).
+pub fn signals(cat: &Catalogue, c: CandidateId) -> (Ephemeris, Vec<Ephemeris>) {
+    let eph = |x: CandidateId| Ephemeris {
+        period_d: cat.value(Field::PeriodD, x).unwrap_or(f64::NAN),
+        epoch: cat.value(Field::Epoch, x).unwrap_or(f64::NAN),
+        duration_h: cat.value(Field::DurationH, x).unwrap_or(f64::NAN),
+    };
+    let others = cat
+        .members(cat.star_of(c))
+        .iter()
+        .filter(|&&x| x != c)
+        .map(|&x| eph(x))
+        .collect();
+    (eph(c), others)
+}
+
+/// R_p/R★ and a/R★ of a candidate. R_p/R★ reproduces the catalogue depth
+/// with limb darkening: k² ≈ δ_true (1 − u₁/3 − u₂/6)/I(μ), μ = √(1−b²)
+/// (Mandel & Agol 2002 small-planet limit; METHODS.md §2), δ_true =
+/// δ/(1−c); the `ror` column only when there is no usable depth. a/R★ from
+/// the star's mass and radius, else from the transit itself.
+pub fn model_params(cat: &Catalogue, c: CandidateId) -> ModelParams {
+    let d = derive(cat, c, &CheckSettings::default());
+    let depth = cat.value(Field::DepthPpm, c).unwrap_or(0.0) * 1e-6;
+    let contamination = cat
+        .value(Field::Contamination, c)
+        .unwrap_or(0.0)
+        .clamp(0.0, 0.999);
+    let impact = cat.value(Field::Impact, c).unwrap_or(0.0);
+    let (u1, u2) = DEFAULT_LD;
+    let mu = (1.0 - impact.min(0.99).powi(2)).sqrt();
+    let i_mu = 1.0 - u1 * (1.0 - mu) - u2 * (1.0 - mu).powi(2);
+    let from_depth = (depth / (1.0 - contamination) * (1.0 - u1 / 3.0 - u2 / 6.0) / i_mu).sqrt();
+    let ror = if from_depth > 0.0 {
+        from_depth
+    } else {
+        cat.value(Field::Ror, c).filter(|r| *r > 0.0).unwrap_or(0.0)
+    };
+    let period = cat.value(Field::PeriodD, c).unwrap_or(f64::NAN);
+    let t14 = cat.value(Field::DurationH, c).unwrap_or(f64::NAN);
+    let a_rstar = d
+        .a_rstar
+        .or_else(|| science::a_rstar_from_duration(period, t14, ror, impact.min(1.0)));
+    ModelParams {
+        ror,
+        a_rstar,
+        impact,
+        period_d: period,
+        ld: DEFAULT_LD,
+        teff_k: cat.value(Field::StarTeffK, c),
+        // The model's observed depth is diluted like the data's.
+        dilution: 1.0 - contamination,
+    }
+}
+
+/// What the model transit needs.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct ModelParams {
+    pub ror: f64,
+    pub a_rstar: Option<f64>,
+    pub impact: f64,
+    pub period_d: f64,
+    pub ld: (f64, f64),
+    pub teff_k: Option<f64>,
+    /// Fraction of the aperture's light that is the target's.
+    pub dilution: f64,
+}
+
+impl ModelParams {
+    /// Relative model flux at `phase` (cycles); 1 where a/R★ is unknown.
+    pub fn flux(&self, phase: f64) -> f64 {
+        let Some(a) = self.a_rstar else { return 1.0 };
+        let f =
+            crate::transit_model::model_flux(phase, self.ror, a, self.impact, self.ld.0, self.ld.1);
+        1.0 - (1.0 - f) * self.dilution
+    }
+}
+
+/// The diagnostics context of a candidate.
+pub fn context(cat: &Catalogue, c: CandidateId) -> Context {
+    let m = model_params(cat, c);
+    Context {
+        ror: m.ror,
+        a_rstar: m.a_rstar,
+        teff_k: m.teff_k,
+    }
+}
+
+/// A light curve or why there is none.
+pub type LoadedCurve = Arc<Result<LightCurve, String>>;
+/// Diagnostics or why there are none.
+pub type CachedDiagnostics = Arc<Result<Diagnostics, String>>;
+
+/// Results computed once and shared: light curves per star, diagnostics per
+/// candidate. Safe to use from several threads; a caller that loses interest
+/// simply drops its handle.
+#[derive(Default)]
+pub struct Cache {
+    curves: Mutex<HashMap<StarId, LoadedCurve>>,
+    diagnostics: Mutex<HashMap<CandidateId, CachedDiagnostics>>,
+}
+
+impl Cache {
+    pub fn curve(&self, finder: &Finder, cat: &Catalogue, star: StarId) -> LoadedCurve {
+        if let Some(hit) = self.curves.lock().ok().and_then(|m| m.get(&star).cloned()) {
+            return hit;
+        }
+        let loaded = Arc::new(finder.load(cat, star).map_err(|e| e.to_string()));
+        if let Ok(mut m) = self.curves.lock() {
+            m.insert(star, Arc::clone(&loaded));
+        }
+        loaded
+    }
+
+    /// The diagnostics of a candidate, computed on first use.
+    pub fn diagnostics(
+        &self,
+        finder: &Finder,
+        cat: &Catalogue,
+        c: CandidateId,
+        detrend: &DetrendSettings,
+    ) -> CachedDiagnostics {
+        if let Some(hit) = self
+            .diagnostics
+            .lock()
+            .ok()
+            .and_then(|m| m.get(&c).cloned())
+        {
+            return hit;
+        }
+        let curve = self.curve(finder, cat, cat.star_of(c));
+        let result = match curve.as_ref() {
+            Ok(lc) => {
+                let (me, others) = signals(cat, c);
+                Ok(diagnose(lc, &me, &others, &context(cat, c), detrend))
+            }
+            Err(e) => Err(e.clone()),
+        };
+        let result = Arc::new(result);
+        if let Ok(mut m) = self.diagnostics.lock() {
+            m.insert(c, Arc::clone(&result));
+        }
+        result
+    }
+
+    /// What is cached now, without computing anything.
+    pub fn peek(&self, c: CandidateId) -> Option<CachedDiagnostics> {
+        self.diagnostics.lock().ok()?.get(&c).cloned()
+    }
+}

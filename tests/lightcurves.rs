@@ -1,0 +1,257 @@
+//! Light curves through the built binary: CSV, gzip and FITS files written
+//! here (invented stars), the demo's planted eclipsing binaries, and errors.
+
+mod common;
+
+use std::io::Write;
+
+use common::{scratch, starsift, stderr, stdout};
+use starsift::lightcurve::{LcColumns, LightCurve, write_fits};
+
+/// An invented star with one transiting signal; returns the light curve as
+/// (time, flux, err).
+fn samples() -> (Vec<f64>, Vec<f64>, Vec<f64>) {
+    let mut rng = starsift::demo::Rng::new(99);
+    let (mut t, mut f, mut e) = (Vec::new(), Vec::new(), Vec::new());
+    for i in 0..8000 {
+        let ti = 10.0 + i as f64 / 48.0;
+        let ph = ((ti - 11.0) / 3.5 + 0.5).rem_euclid(1.0) - 0.5;
+        let dip = if (ph * 3.5 * 24.0).abs() < 1.2 {
+            1.5e-3
+        } else {
+            0.0
+        };
+        t.push(ti);
+        f.push(5000.0 * (1.0 - dip + 4e-4 * rng.normal()));
+        e.push(2.0);
+    }
+    (t, f, e)
+}
+
+fn catalogue(dir: &std::path::Path) -> std::path::PathBuf {
+    let p = dir.join("cat.csv");
+    std::fs::write(
+        &p,
+        "star,candidate,period_d,epoch,depth_ppm,duration_h,star_radius_rsun,star_mass_msun\n\
+         LCA,LCA-1,3.5,11.0,1500,2.4,1.0,1.0\nLCB,LCB-1,3.5,11.0,1500,2.4,1.0,1.0\nLCC,LCC-1,5.0,11.0,900,3.0,1.0,1.0\n",
+    )
+    .unwrap();
+    p
+}
+
+#[test]
+fn fits_written_here_reads_back_exactly() {
+    let d = scratch("fits");
+    let (t, f, e) = samples();
+    let p = d.join("LCA.fits");
+    write_fits(&p, &t, &f, &e).unwrap();
+    let lc = LightCurve::read(&p, &LcColumns::default()).unwrap();
+    assert_eq!(lc.time, t);
+    let median = lc.normalised_by;
+    for i in 0..t.len() {
+        assert_eq!(lc.flux[i] * median, f[i] / median * median);
+        assert!((lc.flux_err[i] - e[i] / median).abs() < 1e-18);
+    }
+    // A named extension and a column override.
+    let cols = LcColumns {
+        hdu: Some("LIGHTCURVE".into()),
+        flux: Some("FLUX".into()),
+        ..LcColumns::default()
+    };
+    assert_eq!(LightCurve::read(&p, &cols).unwrap().time.len(), t.len());
+    let bad = LcColumns {
+        flux: Some("SAP".into()),
+        ..LcColumns::default()
+    };
+    let err = LightCurve::read(&p, &bad).unwrap_err().to_string();
+    assert!(
+        err.contains("no flux column") && err.contains("SAP") && err.contains("LCA.fits"),
+        "{err}"
+    );
+}
+
+#[test]
+fn fold_reads_csv_gzip_and_fits_alike() {
+    let d = scratch("fold");
+    let cat = catalogue(&d);
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    let (t, f, e) = samples();
+    let mut text = String::from("# invented\nTIME,FLUX,FLUX_ERR\n");
+    for i in 0..t.len() {
+        text.push_str(&format!("{},{},{}\n", t[i], f[i], e[i]));
+    }
+    text.push_str("30.0,nan,2\n");
+    std::fs::write(lcs.join("LCA.csv"), &text).unwrap();
+    let mut gz = flate2::write::GzEncoder::new(
+        std::fs::File::create(lcs.join("LCB.csv.gz")).unwrap(),
+        flate2::Compression::fast(),
+    );
+    gz.write_all(text.as_bytes()).unwrap();
+    gz.finish().unwrap();
+    write_fits(&lcs.join("LCC.fits"), &t, &f, &e).unwrap();
+    let run = |id: &str| {
+        starsift(&[
+            "fold",
+            cat.to_str().unwrap(),
+            "--candidate",
+            id,
+            "--lightcurves",
+            lcs.to_str().unwrap(),
+            "--bins",
+            "50",
+            "--format",
+            "csv",
+        ])
+    };
+    let a = run("LCA-1");
+    assert!(a.status.success(), "{}", stderr(&a));
+    let b = run("LCB-1");
+    assert_eq!(stdout(&a), stdout(&b), "CSV and gzipped CSV fold alike");
+    let s = stdout(&a);
+    assert_eq!(
+        s.lines().next(),
+        Some("phase,flux,flux_err,count,median,weighted_mean,model")
+    );
+    assert_eq!(s.lines().count(), 51);
+    let c = run("LCC-1");
+    assert!(c.status.success(), "{}", stderr(&c));
+    // The JSON diagnostics recover the injected depth (1500 ppm) within 3σ.
+    let j = starsift(&[
+        "fold",
+        cat.to_str().unwrap(),
+        "--candidate",
+        "LCA-1",
+        "--lightcurves",
+        lcs.to_str().unwrap(),
+        "--format",
+        "json",
+    ]);
+    let v: serde_json::Value = serde_json::from_slice(&j.stdout).unwrap();
+    let depth = &v["diagnostics"]["depth_ppm"];
+    let (val, err) = (
+        depth["value"].as_f64().unwrap(),
+        depth["err"].as_f64().unwrap(),
+    );
+    assert!((val - 1500.0).abs() < 3.0 * err, "{val} ± {err}");
+    assert_eq!(v["lightcurve"]["dropped"], 1);
+    assert!(
+        v["diagnostics"]["flags"].as_array().unwrap().is_empty(),
+        "{}",
+        v["diagnostics"]["flags"]
+    );
+    // The table draws a plot and prints the diagnostics.
+    let t = starsift(&[
+        "fold",
+        cat.to_str().unwrap(),
+        "--candidate",
+        "LCA-1",
+        "--lightcurves",
+        lcs.to_str().unwrap(),
+        "--window",
+        "transit",
+    ]);
+    let s = stdout(&t);
+    assert!(
+        s.contains("relative flux (ppm)")
+            && s.contains("odd / even")
+            && s.contains("flags                  none"),
+        "{s}"
+    );
+}
+
+#[test]
+fn unreadable_light_curves_are_named() {
+    let d = scratch("badlc");
+    let cat = catalogue(&d);
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    std::fs::write(lcs.join("LCA.csv"), "when,brightness\n1,2\n").unwrap();
+    std::fs::write(lcs.join("LCB.fits"), "not a fits file at all").unwrap();
+    let o = starsift(&[
+        "fold",
+        cat.to_str().unwrap(),
+        "--candidate",
+        "LCA-1",
+        "--lightcurves",
+        lcs.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    let e = stderr(&o);
+    assert!(
+        e.contains("star LCA") && e.contains("LCA.csv") && e.contains("no time column"),
+        "{e}"
+    );
+    let o = starsift(&[
+        "fold",
+        cat.to_str().unwrap(),
+        "--candidate",
+        "LCC-1",
+        "--lightcurves",
+        lcs.to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("star LCC: no light curve found"),
+        "{}",
+        stderr(&o)
+    );
+    // checks reports each unreadable star and goes on.
+    let o = starsift(&[
+        "checks",
+        cat.to_str().unwrap(),
+        "--lightcurves",
+        lcs.to_str().unwrap(),
+        "--format",
+        "json",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let errs = v["lightcurve_errors"].as_array().unwrap();
+    assert_eq!(errs.len(), 2, "{errs:?}");
+    assert!(
+        errs.iter()
+            .any(|x| x["star"] == "LCB" && x["error"].as_str().unwrap().contains("FITS"))
+    );
+    assert_eq!(v["candidates"].as_array().unwrap().len(), 3);
+}
+
+#[test]
+fn demo_eclipsing_binaries_are_caught_by_their_light_curves() {
+    let o = starsift(&["checks", "--lightcurves", "--format", "json"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let flags = |id: &str| -> Vec<String> {
+        v["candidates"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|c| c["candidate"] == id)
+            .unwrap()["flags"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|f| f.as_str().unwrap().to_string())
+            .collect()
+    };
+    let truth = std::fs::read_to_string(
+        std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("demo-catalogue/truth.csv"),
+    )
+    .unwrap();
+    for line in truth.lines().skip(1) {
+        let f: Vec<&str> = line.split(',').collect();
+        let want = match f[2] {
+            "eclipsing-binary-odd-even" => "odd-even",
+            "eclipsing-binary-secondary" => "secondary",
+            "eclipsing-binary-grazing" => "v-shape",
+            _ => continue,
+        };
+        assert!(
+            flags(f[0]).iter().any(|x| x == want),
+            "{} ({}) lacks {want}: {:?}",
+            f[0],
+            f[2],
+            flags(f[0])
+        );
+    }
+}
