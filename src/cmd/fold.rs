@@ -90,7 +90,8 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         range,
         args.bins,
     );
-    let diag = diagnose(&lc, &me, &others, &context(cat, c), &settings);
+    // The CSV holds the bins only: the diagnostics are computed when shown.
+    let diag = || diagnose(&lc, &me, &others, &context(cat, c), &settings);
     let model = model_params(cat, c);
     match args.format {
         Format::Csv => {
@@ -130,10 +131,10 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 "lightcurve": light_curve_json(&lc),
                 "window": format!("{:?}", args.window).to_lowercase(),
                 "bins": binned_json(&binned, &model, centre),
-                "diagnostics": diagnostics_json(&diag),
+                "diagnostics": diagnostics_json(&diag()),
             }),
         )?,
-        Format::Table => write_table(cat, c, &lc, &binned, &diag, &model, args, out)?,
+        Format::Table => write_table(cat, c, &lc, &binned, &diag(), &model, args, out)?,
     }
     Ok(())
 }

@@ -202,13 +202,18 @@ pub fn fold_bin(
         vec![0.0; bins],
         vec![0.0; bins],
     );
+    let inv_p = 1.0 / period_d;
+    let nb = bins as f64;
     for i in 0..time.len() {
-        if skip.is_some_and(|s| s[i]) {
-            continue;
+        if let Some(s) = skip {
+            if s[i] {
+                continue;
+            }
         }
-        let ph = phase(time[i], period_d, e0);
-        let b = ((ph - lo) * inv).floor();
-        if !(b >= 0.0 && b < bins as f64) {
+        // The phase of `phase()`, in one multiply: x − ⌊x⌋ − ½ with x = (t − e₀)/P + ½.
+        let x = (time[i] - e0) * inv_p + 0.5;
+        let b = ((x - x.floor() - 0.5 - lo) * inv).floor();
+        if !(0.0..nb).contains(&b) {
             continue;
         }
         let b = b as usize;
