@@ -39,6 +39,17 @@ pub enum Command {
     Checks(cmd::checks::Args),
     /// A candidate's folded light curve, its diagnostics and the model transit.
     Fold(cmd::fold::Args),
+    /// Record a decision in the ledger.
+    Decide(cmd::decide::Args),
+    /// The ledger's decisions, oldest first.
+    History(cmd::history::Args),
+    /// The vetted catalogue: every input column plus odds, verdicts and decisions.
+    Export(cmd::export::Args),
+    /// A Markdown report of the vetting.
+    Report(cmd::report::Args),
+    /// Write a stream of decisions, acknowledging each commit (for crash tests).
+    #[command(hide = true)]
+    StressLedger(cmd::decide::StressArgs),
     /// Regenerate the demo catalogue or write a large synthetic one.
     #[command(hide = true)]
     Generate(cmd::generate::Args),
@@ -100,6 +111,82 @@ impl ModelArgs {
     }
 }
 
+/// Which ledger to use and who is deciding.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct LedgerArgs {
+    /// The ledger file [default: <catalogue>.ledger.sqlite beside the catalogue,
+    /// or in the XDG data folder when that folder is not writable or for the demo].
+    #[arg(long, value_name = "PATH")]
+    pub ledger: Option<PathBuf>,
+    /// Who is deciding [default: the login name].
+    #[arg(long, value_name = "NAME")]
+    pub vetter: Option<String>,
+}
+
+impl LedgerArgs {
+    pub fn vetter(&self) -> String {
+        self.vetter
+            .clone()
+            .unwrap_or_else(crate::ledger::login_name)
+    }
+
+    /// Opens the ledger for a loaded catalogue, records the catalogue's
+    /// fingerprint and warns (on stderr) when the catalogue changed or
+    /// decisions name candidates it no longer has.
+    pub fn open(
+        &self,
+        input: &CatalogueArgs,
+        loaded: &Loaded,
+    ) -> Result<crate::ledger::Ledger, CliError> {
+        let bytes = match &input.catalogue {
+            Some(p) => std::fs::read(p)?,
+            None => crate::demo::CATALOGUE_CSV.as_bytes().to_vec(),
+        };
+        let fp = crate::ledger::fingerprint(&bytes);
+        let path = match &self.ledger {
+            Some(p) => p.clone(),
+            None => crate::ledger::default_path(input.catalogue.as_deref(), &fp),
+        };
+        if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
+            std::fs::create_dir_all(dir).map_err(|e| {
+                CliError::Ledger(crate::ledger::LedgerError::Unwritable {
+                    path: path.display().to_string(),
+                    message: e.to_string(),
+                })
+            })?;
+        }
+        let mut ledger = crate::ledger::Ledger::open(&path)?;
+        let cat = &loaded.catalogue;
+        if let Some(previous) = ledger.note_catalogue(&cat.source, &fp, cat.len())? {
+            eprintln!(
+                "starsift: note: {} changed since this ledger last saw it ({previous} → {fp}); decisions are matched by candidate id",
+                crate::sanitize::clean(&cat.source)
+            );
+        }
+        let gone: Vec<String> = ledger
+            .latest(None)?
+            .iter()
+            .filter(|e| cat.find_candidate(&e.candidate).is_none())
+            .map(|e| e.candidate.clone())
+            .collect();
+        if !gone.is_empty() {
+            let mut gone = gone;
+            gone.sort();
+            eprintln!(
+                "starsift: note: {} decided candidates are not in the catalogue: {}{}",
+                gone.len(),
+                gone.iter()
+                    .take(20)
+                    .map(|g| crate::sanitize::clean(g).into_owned())
+                    .collect::<Vec<_>>()
+                    .join(", "),
+                if gone.len() > 20 { ", ..." } else { "" }
+            );
+        }
+        Ok(ledger)
+    }
+}
+
 /// An error for the user, with the exit code it maps to.
 #[derive(Debug, thiserror::Error)]
 pub enum CliError {
@@ -111,6 +198,8 @@ pub enum CliError {
     Input(String),
     #[error(transparent)]
     Model(#[from] crate::odds::ModelError),
+    #[error(transparent)]
+    Ledger(#[from] crate::ledger::LedgerError),
     #[error("{0}")]
     Io(#[from] io::Error),
 }
@@ -130,8 +219,10 @@ impl From<csv::Error> for CliError {
 
 impl CliError {
     pub fn exit_code(&self) -> i32 {
+        use crate::ledger::LedgerError;
         match self {
             CliError::Io(_) => 1,
+            CliError::Ledger(LedgerError::Unwritable { .. } | LedgerError::Open { .. }) => 3,
             _ => 2,
         }
     }
@@ -297,6 +388,11 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<(), CliError> {
         Some(Command::Odds(a)) => cmd::odds::run(&a, out),
         Some(Command::Checks(a)) => cmd::checks::run(&a, out),
         Some(Command::Fold(a)) => cmd::fold::run(&a, out),
+        Some(Command::Decide(a)) => cmd::decide::run(&a, out),
+        Some(Command::History(a)) => cmd::history::run(&a, out),
+        Some(Command::Export(a)) => cmd::export::run(&a, out),
+        Some(Command::Report(a)) => cmd::report::run(&a, out),
+        Some(Command::StressLedger(a)) => cmd::decide::stress(&a, out),
         Some(Command::Generate(a)) => cmd::generate::run(&a, out),
     }
 }

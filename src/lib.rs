@@ -22,6 +22,7 @@ pub mod constants;
 pub mod decision;
 pub mod demo;
 pub mod flags;
+pub mod ledger;
 pub mod lightcurve;
 pub mod odds;
 pub mod output;

@@ -1,0 +1,295 @@
+//! `starsift export CATALOGUE`: the vetted catalogue — every input column,
+//! then the system size, boost, odds, probability and verdict recomputed from
+//! the ledger's decisions (rejected candidates leave their systems), the
+//! decision with its reason, vetter and time, and the flags.
+
+use std::io::Write;
+use std::path::PathBuf;
+
+use serde_json::{Map, Value, json};
+
+use crate::catalogue::{CandidateId, Field, NUMERIC};
+use crate::checks::Checks;
+use crate::cli::{CatalogueArgs, CliError, LedgerArgs, LightcurveArgs, Loaded, ModelArgs};
+use crate::cmd::checks::CheckArgs;
+use crate::decision::Decision;
+use crate::ledger::Entry;
+use crate::odds::{Live, model_statement};
+use crate::output::{csv_writer, exact_in, write_json};
+use crate::sanitize::clean;
+
+#[derive(Debug, Clone, clap::Args)]
+pub struct Args {
+    #[command(flatten)]
+    pub input: CatalogueArgs,
+    #[command(flatten)]
+    pub ledger: LedgerArgs,
+    #[command(flatten)]
+    pub model: ModelArgs,
+    #[command(flatten)]
+    pub checks: CheckArgs,
+    #[command(flatten)]
+    pub lc: LightcurveArgs,
+    /// Output format.
+    #[arg(long, value_enum, default_value = "csv")]
+    pub format: ExportFormat,
+    /// Write to this file (atomically) instead of standard output.
+    #[arg(short = 'o', long = "output", value_name = "FILE")]
+    pub output: Option<PathBuf>,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
+pub enum ExportFormat {
+    Csv,
+    Json,
+}
+
+/// A catalogue with its checks, decisions and odds, as the ledger says.
+pub struct Vetted {
+    pub loaded: Loaded,
+    pub checks: Checks,
+    pub live: Live,
+    /// Latest entry per candidate id (of one vetter when asked).
+    pub latest: crate::ledger::Latest,
+    pub ledger_path: String,
+    pub disagreements: std::collections::BTreeMap<String, Vec<Entry>>,
+    pub history: Vec<Entry>,
+}
+
+/// Loads a catalogue, runs the checks, reads the ledger and recomputes the
+/// odds with every decision applied.
+pub fn vetted(
+    input: &CatalogueArgs,
+    ledger_args: &LedgerArgs,
+    model: &ModelArgs,
+    check_args: &CheckArgs,
+    lc: &LightcurveArgs,
+) -> Result<Vetted, CliError> {
+    let loaded = input.load()?;
+    let cat = &loaded.catalogue;
+    let mut checks = crate::checks::run(cat, &check_args.settings());
+    if lc.wanted() {
+        for (star, e) in
+            crate::checks::run_lightcurves(cat, &lc.finder(&loaded), &lc.detrend(), &mut checks)
+        {
+            eprintln!("starsift: warning: star {}: {}", clean(&star), clean(&e));
+        }
+    }
+    let ledger = ledger_args.open(input, &loaded)?;
+    let latest = ledger.latest(ledger_args.vetter.as_deref())?;
+    let decisions: Vec<Decision> = (0..cat.len() as CandidateId)
+        .map(|c| {
+            latest
+                .get(cat.candidate_id(c))
+                .map_or(Decision::Open, |e| e.decision)
+        })
+        .collect();
+    let live = Live::with_state(
+        cat,
+        model.model(&loaded.survey)?,
+        checks.all_flags().to_vec(),
+        decisions,
+    )?;
+    let disagreements = ledger.disagreements()?;
+    let history = ledger.history(None)?;
+    let ledger_path = ledger.path().display().to_string();
+    Ok(Vetted {
+        loaded,
+        checks,
+        live,
+        latest,
+        ledger_path,
+        disagreements,
+        history,
+    })
+}
+
+/// Writes `text` to `path` through a temporary file and a rename, so a
+/// reader never sees half a file.
+pub fn write_atomically(path: &std::path::Path, bytes: &[u8]) -> Result<(), CliError> {
+    let tmp = path.with_extension(format!("tmp-{}", std::process::id()));
+    std::fs::write(&tmp, bytes)?;
+    std::fs::rename(&tmp, path)?;
+    Ok(())
+}
+
+pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
+    let v = vetted(
+        &args.input,
+        &args.ledger,
+        &args.model,
+        &args.checks,
+        &args.lc,
+    )?;
+    let mut buf: Vec<u8> = Vec::new();
+    let sink: &mut dyn Write = if args.output.is_some() { &mut buf } else { out };
+    match args.format {
+        ExportFormat::Csv => write_csv(&v, sink)?,
+        ExportFormat::Json => write_json(sink, &to_json(&v))?,
+    }
+    if let Some(path) = &args.output {
+        write_atomically(path, &buf)?;
+        eprintln!(
+            "starsift: wrote {} candidates to {}",
+            v.loaded.catalogue.len(),
+            clean(&path.display().to_string())
+        );
+    }
+    Ok(())
+}
+
+const VETTING_COLUMNS: [&str; 12] = [
+    "k",
+    "boost",
+    "odds",
+    "probability",
+    "verdict",
+    "decision",
+    "reason",
+    "note",
+    "vetter",
+    "decided_at",
+    "flags",
+    "warnings",
+];
+
+fn input_numeric(v: &Vetted) -> Vec<Field> {
+    NUMERIC
+        .iter()
+        .copied()
+        .filter(|f| v.loaded.catalogue.has(*f))
+        .collect()
+}
+
+fn write_csv(v: &Vetted, out: &mut dyn Write) -> Result<(), CliError> {
+    let cat = &v.loaded.catalogue;
+    let m = v.live.model();
+    writeln!(
+        out,
+        "# starsift vetted catalogue of {}; ledger {}",
+        clean(&cat.source),
+        clean(&v.ledger_path)
+    )?;
+    writeln!(
+        out,
+        "# model: N = {}, f = {}, boost {}",
+        m.targets.map_or("not given".into(), |n| n.to_string()),
+        m.fp_fraction,
+        m.mode.describe()
+    )?;
+    writeln!(out, "# {}", model_statement(m))?;
+    let numeric = input_numeric(v);
+    let extras: Vec<String> = cat.extra_headers().map(|h| clean(h).into_owned()).collect();
+    let mut w = csv_writer(out);
+    let mut header: Vec<String> = vec!["star".into(), "candidate".into()];
+    header.extend(numeric.iter().map(|f| f.name().to_string()));
+    if cat.has(Field::Lightcurve) {
+        header.push("lightcurve".into());
+    }
+    header.extend(extras.iter().cloned());
+    header.extend(VETTING_COLUMNS.iter().map(|s| s.to_string()));
+    w.write_record(&header)?;
+    let mut b = ryu::Buffer::new();
+    for c in 0..cat.len() as CandidateId {
+        w.write_field(clean(cat.star_id(cat.star_of(c))).as_bytes())?;
+        w.write_field(clean(cat.candidate_id(c)).as_bytes())?;
+        for f in &numeric {
+            w.write_field(exact_in(&mut b, cat.value(*f, c)))?;
+        }
+        if cat.has(Field::Lightcurve) {
+            w.write_field(clean(cat.lightcurve(c).unwrap_or("")).as_bytes())?;
+        }
+        for i in 0..extras.len() {
+            w.write_field(clean(cat.extra(i, c)).as_bytes())?;
+        }
+        let e = v.latest.get(cat.candidate_id(c));
+        w.write_field(v.live.k(c).to_string())?;
+        w.write_field(exact_in(&mut b, v.live.boost(c)))?;
+        w.write_field(exact_in(&mut b, v.live.odds(c)))?;
+        w.write_field(exact_in(&mut b, v.live.probability(c)))?;
+        w.write_field(v.live.verdict(c).name())?;
+        w.write_field(v.live.decision(c).name())?;
+        w.write_field(v.live.decision(c).reason().map_or("", |r| r.name()))?;
+        w.write_field(clean(e.and_then(|e| e.note.as_deref()).unwrap_or("")).as_bytes())?;
+        w.write_field(clean(e.map_or("", |e| &*e.vetter)).as_bytes())?;
+        w.write_field(e.map_or("", |e| e.decided_at.as_str()))?;
+        w.write_field(v.checks.flags(c).joined(";"))?;
+        w.write_field(v.checks.warnings(c).joined(";"))?;
+        w.write_record(None::<&[u8]>)?;
+    }
+    w.flush()?;
+    Ok(())
+}
+
+fn to_json(v: &Vetted) -> Value {
+    let cat = &v.loaded.catalogue;
+    let numeric = input_numeric(v);
+    let f = |x: Option<f64>| x.map_or(Value::Null, |y| json!(y));
+    let rows: Vec<Value> = (0..cat.len() as CandidateId)
+        .map(|c| {
+            let mut o = Map::new();
+            o.insert("star".into(), json!(clean(cat.star_id(cat.star_of(c)))));
+            o.insert("candidate".into(), json!(clean(cat.candidate_id(c))));
+            for fl in &numeric {
+                o.insert(fl.name().into(), f(cat.value(*fl, c)));
+            }
+            for (i, h) in cat.extra_headers().enumerate() {
+                o.insert(clean(h).into_owned(), json!(clean(cat.extra(i, c))));
+            }
+            let e = v.latest.get(cat.candidate_id(c));
+            o.insert("k".into(), json!(v.live.k(c)));
+            o.insert("boost".into(), f(v.live.boost(c)));
+            o.insert("odds".into(), f(v.live.odds(c)));
+            o.insert("probability".into(), f(v.live.probability(c)));
+            o.insert("verdict".into(), json!(v.live.verdict(c).name()));
+            o.insert("decision".into(), json!(v.live.decision(c).name()));
+            o.insert(
+                "reason".into(),
+                json!(v.live.decision(c).reason().map(|r| r.name())),
+            );
+            o.insert(
+                "note".into(),
+                json!(
+                    e.and_then(|e| e.note.as_deref())
+                        .map(|n| clean(n).into_owned())
+                ),
+            );
+            o.insert(
+                "vetter".into(),
+                json!(e.map(|e| clean(&e.vetter).into_owned())),
+            );
+            o.insert("decided_at".into(), json!(e.map(|e| e.decided_at.clone())));
+            o.insert(
+                "flags".into(),
+                json!(
+                    v.checks
+                        .flags(c)
+                        .iter()
+                        .map(|x| x.name())
+                        .collect::<Vec<_>>()
+                ),
+            );
+            o.insert(
+                "warnings".into(),
+                json!(
+                    v.checks
+                        .warnings(c)
+                        .iter()
+                        .map(|x| x.name())
+                        .collect::<Vec<_>>()
+                ),
+            );
+            Value::Object(o)
+        })
+        .collect();
+    let m = v.live.model();
+    json!({
+        "catalogue": clean(&cat.source),
+        "ledger": clean(&v.ledger_path),
+        "model": {
+            "targets_searched": m.targets, "fp_fraction_singles": m.fp_fraction,
+            "boost_mode": m.mode.describe(), "threshold": m.threshold, "statement": model_statement(m),
+        },
+        "candidates": rows,
+    })
+}

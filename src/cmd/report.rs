@@ -1,0 +1,209 @@
+//! `starsift report CATALOGUE`: a Markdown report of the vetting — the model
+//! and its inputs, counts per verdict and decision, the validated list,
+//! rejections by reason, decisions per vetter and disagreements.
+
+use std::collections::BTreeMap;
+use std::fmt::Write as _;
+use std::io::Write;
+use std::path::PathBuf;
+
+use crate::catalogue::CandidateId;
+use crate::cli::{CatalogueArgs, CliError, LedgerArgs, LightcurveArgs, ModelArgs};
+use crate::cmd::checks::CheckArgs;
+use crate::cmd::export::{vetted, write_atomically};
+use crate::odds::{
+    ALL_VERDICTS, Verdict, format_odds, model_statement, posterior_odds, probability,
+};
+use crate::output::num;
+use crate::sanitize::clean;
+
+#[derive(Debug, Clone, clap::Args)]
+pub struct Args {
+    #[command(flatten)]
+    pub input: CatalogueArgs,
+    #[command(flatten)]
+    pub ledger: LedgerArgs,
+    #[command(flatten)]
+    pub model: ModelArgs,
+    #[command(flatten)]
+    pub checks: CheckArgs,
+    #[command(flatten)]
+    pub lc: LightcurveArgs,
+    /// Write to this file (atomically) instead of standard output.
+    #[arg(short = 'o', long = "output", value_name = "FILE")]
+    pub output: Option<PathBuf>,
+}
+
+/// Markdown-safe text: sanitised, with table pipes escaped.
+fn md(s: &str) -> String {
+    clean(s).replace('|', "\\|")
+}
+
+pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
+    let v = vetted(
+        &args.input,
+        &args.ledger,
+        &args.model,
+        &args.checks,
+        &args.lc,
+    )?;
+    let cat = &v.loaded.catalogue;
+    let live = &v.live;
+    let m = live.model();
+    let mut r = String::new();
+    let _ = writeln!(r, "# Vetting report: {}\n", md(&cat.source));
+    if let Some(name) = &v.loaded.survey.name {
+        let _ = writeln!(r, "Survey: {}.  ", md(name));
+    }
+    let _ = writeln!(
+        r,
+        "Ledger: `{}`; {} decisions recorded.\n",
+        md(&v.ledger_path),
+        v.history.len()
+    );
+    let _ = writeln!(r, "> {}\n", model_statement(m));
+    let _ = writeln!(r, "## Model\n");
+    let _ = writeln!(
+        r,
+        "- N (targets searched): {}\n- f (false-positive fraction of single-candidate stars): {}\n- λ = f·n₁/N: {}\n- boost: {}\n- validated at odds ≥ {}:1 with no blocking flag ({})\n",
+        m.targets.map_or("not given".into(), |n| n.to_string()),
+        m.fp_fraction,
+        num(Some(live.table().lambda), 4),
+        m.mode.describe(),
+        m.threshold,
+        m.blocking.joined(", ")
+    );
+    let _ = writeln!(
+        r,
+        "| k | stars | q_k | B_cand | B_sys | B_odds | boost | odds at f | P |"
+    );
+    let _ = writeln!(r, "|---|---|---|---|---|---|---|---|---|");
+    for row in &live.table().rows {
+        let o = posterior_odds(row.boost, m.fp_fraction);
+        let _ = writeln!(
+            r,
+            "| {} | {} | {} | {} | {} | {} | {} | {} | {:.5} |",
+            row.k,
+            row.stars,
+            num(Some(row.q), 4),
+            num(Some(row.boost_cand), 4),
+            num(Some(row.boost_sys), 4),
+            num(Some(row.boost_odds), 4),
+            num(Some(row.boost), 4),
+            format_odds(o),
+            probability(o)
+        );
+    }
+    for w in live.input_warnings.iter().chain(&live.table().warnings) {
+        let _ = writeln!(r, "\nWarning: {}", md(w));
+    }
+    let _ = writeln!(r, "\n## Counts\n");
+    let counts = live.counts();
+    let _ = writeln!(r, "| verdict | candidates |\n|---|---|");
+    for vd in ALL_VERDICTS {
+        let _ = writeln!(r, "| {} | {} |", vd.name(), counts.get(vd));
+    }
+    let mut by_decision: BTreeMap<&str, usize> = BTreeMap::new();
+    for c in 0..cat.len() as CandidateId {
+        *by_decision.entry(live.decision(c).name()).or_default() += 1;
+    }
+    let _ = writeln!(r, "\n| decision | candidates |\n|---|---|");
+    for (d, n) in &by_decision {
+        let _ = writeln!(r, "| {d} | {n} |");
+    }
+    let _ = writeln!(r, "\n## Validated\n");
+    let validated: Vec<CandidateId> = (0..cat.len() as CandidateId)
+        .filter(|&c| live.verdict(c) == Verdict::Validated)
+        .collect();
+    if validated.is_empty() {
+        let _ = writeln!(r, "None.");
+    } else {
+        let _ = writeln!(
+            r,
+            "| star | candidate | k | odds | P | decision |\n|---|---|---|---|---|---|"
+        );
+        for &c in &validated {
+            let o = live.odds(c).unwrap_or(0.0);
+            let _ = writeln!(
+                r,
+                "| {} | {} | {} | {} | {:.5} | {} |",
+                md(cat.star_id(cat.star_of(c))),
+                md(cat.candidate_id(c)),
+                live.k(c),
+                format_odds(o),
+                probability(o),
+                live.decision(c).name()
+            );
+        }
+    }
+    let _ = writeln!(r, "\n## Rejections by reason\n");
+    let mut by_reason: BTreeMap<&str, Vec<String>> = BTreeMap::new();
+    for c in 0..cat.len() as CandidateId {
+        if let Some(reason) = live.decision(c).reason() {
+            by_reason
+                .entry(reason.name())
+                .or_default()
+                .push(md(cat.candidate_id(c)));
+        }
+    }
+    if by_reason.is_empty() {
+        let _ = writeln!(r, "None.");
+    }
+    for (reason, ids) in &by_reason {
+        let _ = writeln!(r, "- {reason} ({}): {}", ids.len(), ids.join(", "));
+    }
+    let _ = writeln!(r, "\n## Decisions per vetter\n");
+    let mut per: BTreeMap<&str, BTreeMap<&str, usize>> = BTreeMap::new();
+    for e in &v.history {
+        *per.entry(&*e.vetter)
+            .or_default()
+            .entry(e.decision.name())
+            .or_default() += 1;
+    }
+    if per.is_empty() {
+        let _ = writeln!(r, "No decisions yet.");
+    } else {
+        let _ = writeln!(
+            r,
+            "| vetter | open | kept | parked | rejected |\n|---|---|---|---|---|"
+        );
+        for (who, d) in &per {
+            let g = |k: &str| d.get(k).copied().unwrap_or(0);
+            let _ = writeln!(
+                r,
+                "| {} | {} | {} | {} | {} |",
+                md(who),
+                g("open"),
+                g("kept"),
+                g("parked"),
+                g("rejected")
+            );
+        }
+    }
+    let _ = writeln!(r, "\n## Disagreements\n");
+    if v.disagreements.is_empty() {
+        let _ = writeln!(r, "None: every vetter's latest decision agrees.");
+    }
+    for (cand, entries) in &v.disagreements {
+        let each: Vec<String> = entries
+            .iter()
+            .map(|e| format!("{}: {}", md(&e.vetter), e.decision))
+            .collect();
+        let _ = writeln!(r, "- {}: {}", md(cand), each.join("; "));
+    }
+    let _ = writeln!(
+        r,
+        "\n---\nStatistical validation is not confirmation: these odds hold under the stated model and its assumptions; the team's own publication standards decide."
+    );
+    match &args.output {
+        Some(path) => {
+            write_atomically(path, r.as_bytes())?;
+            eprintln!(
+                "starsift: wrote the report to {}",
+                clean(&path.display().to_string())
+            );
+        }
+        None => out.write_all(r.as_bytes())?,
+    }
+    Ok(())
+}

@@ -1,0 +1,842 @@
+//! The ledger: every decision by every vetter, durable, in SQLite (WAL,
+//! `synchronous=FULL`). Append-only — every decision is a new row, undo is a
+//! new row, triggers refuse updates and deletes — so history, undo and team
+//! review come free. A decision is committed before it is reported as made.
+
+use std::collections::{BTreeMap, HashMap};
+use std::path::{Path, PathBuf};
+use std::sync::Arc;
+use std::time::{Duration, SystemTime, UNIX_EPOCH};
+
+use rusqlite::{Connection, OpenFlags, OptionalExtension, params};
+
+use crate::decision::{Decision, Reason};
+
+/// `PRAGMA application_id` of a starsift ledger: "STSF".
+pub const APPLICATION_ID: i32 = 0x5354_5346;
+/// The schema this build writes. Version 1 lacked `tool_version` and `undoes`.
+pub const SCHEMA_VERSION: i32 = 2;
+/// How long a writer waits for another to finish, per attempt.
+const BUSY_TIMEOUT: Duration = Duration::from_secs(5);
+/// Attempts at a write that keeps finding the ledger locked.
+const WRITE_ATTEMPTS: u32 = 4;
+
+#[derive(Debug, thiserror::Error)]
+pub enum LedgerError {
+    #[error(
+        "{path}: not a starsift ledger ({why}); it was left unchanged. Choose another file with --ledger PATH"
+    )]
+    Foreign { path: String, why: String },
+    #[error("{path}: the ledger cannot be written: {message}. Nothing was recorded")]
+    Unwritable { path: String, message: String },
+    #[error("{path}: cannot open the ledger: {message}")]
+    Open { path: String, message: String },
+    #[error(
+        "{path}: the ledger has schema version {found}, newer than this starsift understands ({SCHEMA_VERSION}); upgrade starsift"
+    )]
+    TooNew { path: String, found: i32 },
+    #[error("{0}")]
+    Invalid(String),
+}
+
+/// One row of the ledger.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Entry {
+    pub id: i64,
+    pub candidate: String,
+    /// Star, vetter and tool version repeat from row to row: shared, not copied.
+    pub star: Arc<str>,
+    pub vetter: Arc<str>,
+    pub decision: Decision,
+    pub note: Option<String>,
+    /// RFC 3339, UTC.
+    pub decided_at: String,
+    pub tool_version: Option<Arc<str>>,
+    /// The entry an undo reverted.
+    pub undoes: Option<i64>,
+}
+
+/// The latest entry per candidate.
+#[derive(Debug, Default)]
+pub struct Latest {
+    entries: Vec<Entry>,
+    index: hashbrown::HashMap<String, u32>,
+}
+
+impl Latest {
+    pub fn get(&self, candidate: &str) -> Option<&Entry> {
+        self.index
+            .get(candidate)
+            .map(|&i| &self.entries[i as usize])
+    }
+
+    pub fn contains_key(&self, candidate: &str) -> bool {
+        self.index.contains_key(candidate)
+    }
+
+    pub fn len(&self) -> usize {
+        self.entries.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.entries.is_empty()
+    }
+
+    /// Entries, newest first.
+    pub fn iter(&self) -> impl Iterator<Item = &Entry> {
+        self.entries.iter()
+    }
+}
+
+impl std::ops::Index<&str> for Latest {
+    type Output = Entry;
+
+    fn index(&self, candidate: &str) -> &Entry {
+        self.get(candidate)
+            .unwrap_or_else(|| panic!("no entry for {candidate}"))
+    }
+}
+
+/// What a caller asks to record.
+#[derive(Clone, Debug, PartialEq)]
+pub struct NewDecision<'a> {
+    pub candidate: &'a str,
+    pub star: &'a str,
+    pub vetter: &'a str,
+    pub decision: Decision,
+    pub note: Option<&'a str>,
+    pub undoes: Option<i64>,
+}
+
+/// An open ledger.
+pub struct Ledger {
+    conn: Connection,
+    path: PathBuf,
+}
+
+const SCHEMA_V2: &str = "
+CREATE TABLE IF NOT EXISTS catalogue (
+    id INTEGER PRIMARY KEY,
+    path TEXT NOT NULL,
+    fingerprint TEXT NOT NULL,
+    candidates INTEGER NOT NULL,
+    seen_at TEXT NOT NULL
+);
+CREATE TABLE IF NOT EXISTS decision (
+    id INTEGER PRIMARY KEY AUTOINCREMENT,
+    candidate TEXT NOT NULL,
+    star TEXT NOT NULL,
+    vetter TEXT NOT NULL,
+    decision TEXT NOT NULL CHECK (decision IN ('open', 'kept', 'rejected', 'parked')),
+    reason TEXT CHECK ((decision = 'rejected') = (reason IS NOT NULL)),
+    note TEXT,
+    decided_at TEXT NOT NULL,
+    tool_version TEXT,
+    undoes INTEGER REFERENCES decision(id)
+);
+CREATE INDEX IF NOT EXISTS decision_by_candidate ON decision (candidate, id);
+CREATE INDEX IF NOT EXISTS decision_by_vetter ON decision (vetter, candidate, id);
+CREATE TRIGGER IF NOT EXISTS decision_append_only_update BEFORE UPDATE ON decision
+    BEGIN SELECT RAISE(ABORT, 'the ledger is append-only'); END;
+CREATE TRIGGER IF NOT EXISTS decision_append_only_delete BEFORE DELETE ON decision
+    BEGIN SELECT RAISE(ABORT, 'the ledger is append-only'); END;
+";
+
+/// The version-1 schema, kept to test and perform migrations.
+pub const SCHEMA_V1: &str = "
+CREATE TABLE catalogue (id INTEGER PRIMARY KEY, path TEXT NOT NULL, fingerprint TEXT NOT NULL,
+    candidates INTEGER NOT NULL, seen_at TEXT NOT NULL);
+CREATE TABLE decision (id INTEGER PRIMARY KEY AUTOINCREMENT, candidate TEXT NOT NULL, star TEXT NOT NULL,
+    vetter TEXT NOT NULL, decision TEXT NOT NULL, reason TEXT, note TEXT, decided_at TEXT NOT NULL);
+";
+
+/// SQLite's file header (the first 16 bytes of every database file).
+const SQLITE_MAGIC: &[u8; 16] = b"SQLite format 3\0";
+
+fn now_rfc3339() -> String {
+    let d = SystemTime::now()
+        .duration_since(UNIX_EPOCH)
+        .unwrap_or_default();
+    rfc3339(d.as_secs() as i64, d.subsec_millis())
+}
+
+/// UTC date and time from Unix seconds (civil-from-days, Hinnant 2013).
+pub fn rfc3339(secs: i64, millis: u32) -> String {
+    let days = secs.div_euclid(86_400);
+    let rem = secs.rem_euclid(86_400);
+    let z = days + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z - era * 146_097;
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let y = yoe + era * 400;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = doy - (153 * mp + 2) / 5 + 1;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 };
+    let y = if m <= 2 { y + 1 } else { y };
+    format!(
+        "{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}.{millis:03}Z",
+        rem / 3600,
+        rem % 3600 / 60,
+        rem % 60
+    )
+}
+
+/// FNV-1a, 64 bit (Fowler, Noll & Vo): a stable fingerprint of catalogue bytes.
+pub fn fingerprint(bytes: &[u8]) -> String {
+    let mut h: u64 = 0xcbf2_9ce4_8422_2325;
+    for &b in bytes {
+        h ^= b as u64;
+        h = h.wrapping_mul(0x0000_0100_0000_01b3);
+    }
+    format!("fnv1a64:{h:016x}")
+}
+
+fn decision_from(name: &str, reason: Option<&str>) -> Option<Decision> {
+    Some(match name {
+        "open" => Decision::Open,
+        "kept" => Decision::Kept,
+        "parked" => Decision::Parked,
+        "rejected" => Decision::Rejected(reason.and_then(Reason::parse).unwrap_or(Reason::Other)),
+        _ => return None,
+    })
+}
+
+impl Ledger {
+    /// Opens (or creates) a ledger. A file that is not ours is refused before
+    /// anything is written to it.
+    pub fn open(path: &Path) -> Result<Ledger, LedgerError> {
+        let name = path.display().to_string();
+        if path.exists() {
+            check_ours(path)?;
+        }
+        let conn = Connection::open(path).map_err(|e| LedgerError::Open {
+            path: name.clone(),
+            message: e.to_string(),
+        })?;
+        conn.busy_timeout(BUSY_TIMEOUT)
+            .map_err(|e| LedgerError::Open {
+                path: name.clone(),
+                message: e.to_string(),
+            })?;
+        let mut ledger = Ledger {
+            conn,
+            path: path.to_path_buf(),
+        };
+        ledger.prepare()?;
+        Ok(ledger)
+    }
+
+    pub fn path(&self) -> &Path {
+        &self.path
+    }
+
+    fn name(&self) -> String {
+        self.path.display().to_string()
+    }
+
+    fn unwritable(&self, e: impl std::fmt::Display) -> LedgerError {
+        LedgerError::Unwritable {
+            path: self.name(),
+            message: e.to_string(),
+        }
+    }
+
+    /// WAL, full sync, schema created or migrated.
+    fn prepare(&mut self) -> Result<(), LedgerError> {
+        let version: i32 = self
+            .conn
+            .query_row("PRAGMA user_version", [], |r| r.get(0))
+            .map_err(|e| self.unwritable(e))?;
+        if version > SCHEMA_VERSION {
+            return Err(LedgerError::TooNew {
+                path: self.name(),
+                found: version,
+            });
+        }
+        let mode: String = self
+            .conn
+            .query_row("PRAGMA journal_mode=WAL", [], |r| r.get(0))
+            .map_err(|e| self.unwritable(e))?;
+        if !mode.eq_ignore_ascii_case("wal") {
+            return Err(self.unwritable(format!("journal mode is {mode}, not WAL")));
+        }
+        self.conn
+            .execute_batch("PRAGMA synchronous=FULL; PRAGMA foreign_keys=ON;")
+            .map_err(|e| self.unwritable(e))?;
+        if version == SCHEMA_VERSION {
+            return Ok(());
+        }
+        let tx = self
+            .conn
+            .transaction()
+            .map_err(|e| LedgerError::Unwritable {
+                path: self.path.display().to_string(),
+                message: e.to_string(),
+            })?;
+        let step = |sql: &str| tx.execute_batch(sql);
+        let result = (|| {
+            if version == 1 {
+                // v1 → v2: who wrote each row, and which row an undo reverts.
+                step("ALTER TABLE decision ADD COLUMN tool_version TEXT;")?;
+                step("ALTER TABLE decision ADD COLUMN undoes INTEGER REFERENCES decision(id);")?;
+            }
+            step(SCHEMA_V2)?;
+            step(&format!(
+                "PRAGMA application_id = {APPLICATION_ID}; PRAGMA user_version = {SCHEMA_VERSION};"
+            ))
+        })();
+        result
+            .and_then(|()| tx.commit())
+            .map_err(|e| LedgerError::Unwritable {
+                path: self.path.display().to_string(),
+                message: e.to_string(),
+            })
+    }
+
+    /// Runs a write transaction, retrying while another writer holds the lock.
+    fn write<T>(
+        &mut self,
+        f: impl Fn(&rusqlite::Transaction) -> rusqlite::Result<T>,
+    ) -> Result<T, LedgerError> {
+        let path = self.name();
+        let unwritable = |e: &dyn std::fmt::Display| LedgerError::Unwritable {
+            path: path.clone(),
+            message: e.to_string(),
+        };
+        let mut last = None;
+        for attempt in 0..WRITE_ATTEMPTS {
+            let tx = match self
+                .conn
+                .transaction_with_behavior(rusqlite::TransactionBehavior::Immediate)
+            {
+                Ok(tx) => tx,
+                Err(e) if is_busy(&e) => {
+                    last = Some(e);
+                    std::thread::sleep(Duration::from_millis(50 << attempt));
+                    continue;
+                }
+                Err(e) => return Err(unwritable(&e)),
+            };
+            match f(&tx).and_then(|v| tx.commit().map(|()| v)) {
+                Ok(v) => return Ok(v),
+                Err(e) if is_busy(&e) => last = Some(e),
+                Err(e) => return Err(unwritable(&e)),
+            }
+        }
+        Err(unwritable(&format!(
+            "still locked by another writer after {WRITE_ATTEMPTS} tries ({})",
+            last.map_or(String::new(), |e| e.to_string())
+        )))
+    }
+
+    /// Records a decision; returns its id once it is committed to disk.
+    pub fn record(&mut self, d: &NewDecision) -> Result<i64, LedgerError> {
+        if d.vetter.trim().is_empty() {
+            return Err(LedgerError::Invalid(
+                "a decision needs a vetter name".into(),
+            ));
+        }
+        let at = now_rfc3339();
+        let version = env!("CARGO_PKG_VERSION");
+        self.write(|tx| {
+            tx.execute(
+                "INSERT INTO decision (candidate, star, vetter, decision, reason, note, decided_at, tool_version, undoes)
+                 VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9)",
+                params![
+                    d.candidate,
+                    d.star,
+                    d.vetter,
+                    d.decision.name(),
+                    d.decision.reason().map(Reason::name),
+                    d.note,
+                    at,
+                    format!("starsift {version}"),
+                    d.undoes,
+                ],
+            )?;
+            Ok(tx.last_insert_rowid())
+        })
+    }
+
+    /// Records many decisions in one transaction (a bulk decision).
+    pub fn record_all(&mut self, ds: &[NewDecision]) -> Result<Vec<i64>, LedgerError> {
+        let at = now_rfc3339();
+        let version = format!("starsift {}", env!("CARGO_PKG_VERSION"));
+        self.write(|tx| {
+            let mut stmt = tx.prepare_cached(
+                "INSERT INTO decision (candidate, star, vetter, decision, reason, note, decided_at, tool_version, undoes)
+                 VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9)",
+            )?;
+            let mut ids = Vec::with_capacity(ds.len());
+            for d in ds {
+                stmt.execute(params![
+                    d.candidate,
+                    d.star,
+                    d.vetter,
+                    d.decision.name(),
+                    d.decision.reason().map(Reason::name),
+                    d.note,
+                    at,
+                    version,
+                    d.undoes
+                ])?;
+                ids.push(tx.last_insert_rowid());
+            }
+            Ok(ids)
+        })
+    }
+
+    /// Notes which catalogue the ledger is used with. Returns the fingerprint
+    /// recorded last time for this path, when it differs.
+    pub fn note_catalogue(
+        &mut self,
+        path: &str,
+        fp: &str,
+        candidates: usize,
+    ) -> Result<Option<String>, LedgerError> {
+        let previous: Option<String> = self
+            .conn
+            .query_row(
+                "SELECT fingerprint FROM catalogue WHERE path = ?1 ORDER BY id DESC LIMIT 1",
+                [path],
+                |r| r.get(0),
+            )
+            .optional()
+            .map_err(|e| self.unwritable(e))?;
+        if previous.as_deref() != Some(fp) {
+            let at = now_rfc3339();
+            self.write(|tx| {
+                tx.execute(
+                    "INSERT INTO catalogue (path, fingerprint, candidates, seen_at) VALUES (?1, ?2, ?3, ?4)",
+                    params![path, fp, candidates as i64, at],
+                )
+            })?;
+        }
+        Ok(previous.filter(|p| p != fp))
+    }
+
+    fn entries(&self, sql: &str, args: &[&dyn rusqlite::ToSql]) -> Result<Vec<Entry>, LedgerError> {
+        let mut out = Vec::new();
+        self.each(sql, args, |r, shared| {
+            out.push(entry_from(r, shared)?);
+            Ok(())
+        })?;
+        Ok(out)
+    }
+
+    /// Calls `f` on every row of `sql` (with the interner for repeated text).
+    fn each(
+        &self,
+        sql: &str,
+        args: &[&dyn rusqlite::ToSql],
+        mut f: impl FnMut(&rusqlite::Row, &mut Interner) -> rusqlite::Result<()>,
+    ) -> Result<(), LedgerError> {
+        let mut stmt = self
+            .conn
+            .prepare_cached(sql)
+            .map_err(|e| self.unwritable(e))?;
+        let mut rows = stmt.query(args).map_err(|e| self.unwritable(e))?;
+        let mut shared = Interner::default();
+        while let Some(r) = rows.next().map_err(|e| self.unwritable(e))? {
+            f(r, &mut shared).map_err(|e| self.unwritable(e))?;
+        }
+        Ok(())
+    }
+
+    const COLUMNS: &'static str =
+        "id, candidate, star, vetter, decision, reason, note, decided_at, tool_version, undoes";
+
+    /// Every entry, oldest first; for one candidate if given.
+    pub fn history(&self, candidate: Option<&str>) -> Result<Vec<Entry>, LedgerError> {
+        match candidate {
+            Some(c) => self.entries(
+                &format!(
+                    "SELECT {} FROM decision WHERE candidate = ?1 ORDER BY id",
+                    Self::COLUMNS
+                ),
+                &[&c],
+            ),
+            None => self.entries(
+                &format!("SELECT {} FROM decision ORDER BY id", Self::COLUMNS),
+                &[],
+            ),
+        }
+    }
+
+    /// The latest entry per candidate: of any vetter, or of one. One scan
+    /// from the newest row back; older rows of a candidate already seen are
+    /// passed over without being read into memory.
+    pub fn latest(&self, vetter: Option<&str>) -> Result<Latest, LedgerError> {
+        let mut latest = Latest::default();
+        let mut visit = |r: &rusqlite::Row, shared: &mut Interner| -> rusqlite::Result<()> {
+            let seen = r
+                .get_ref(1)?
+                .as_str()
+                .map(|c| latest.index.contains_key(c))?;
+            if !seen {
+                let e = entry_from(r, shared)?;
+                latest
+                    .index
+                    .insert(e.candidate.clone(), latest.entries.len() as u32);
+                latest.entries.push(e);
+            }
+            Ok(())
+        };
+        match vetter {
+            None => self.each(
+                &format!("SELECT {} FROM decision ORDER BY id DESC", Self::COLUMNS),
+                &[],
+                &mut visit,
+            )?,
+            Some(v) => self.each(
+                &format!(
+                    "SELECT {} FROM decision WHERE vetter = ?1 ORDER BY id DESC",
+                    Self::COLUMNS
+                ),
+                &[&v],
+                &mut visit,
+            )?,
+        }
+        Ok(latest)
+    }
+
+    /// Candidates on which vetters' latest decisions differ: candidate →
+    /// each vetter's latest entry.
+    pub fn disagreements(&self) -> Result<BTreeMap<String, Vec<Entry>>, LedgerError> {
+        // Each vetter's latest entry per candidate, newest rows first.
+        let mut latest: HashMap<(String, Arc<str>), Entry> = HashMap::new();
+        self.each(
+            &format!("SELECT {} FROM decision ORDER BY id DESC", Self::COLUMNS),
+            &[],
+            |r, shared| {
+                let c = r.get_ref(1)?.as_str()?;
+                let v = shared.get(r.get_ref(3)?.as_str()?);
+                if !latest.contains_key(&(c.to_string(), Arc::clone(&v))) {
+                    let e = entry_from(r, shared)?;
+                    latest.insert((e.candidate.clone(), v), e);
+                }
+                Ok(())
+            },
+        )?;
+        let mut by: BTreeMap<String, Vec<Entry>> = BTreeMap::new();
+        for ((c, _), e) in latest {
+            by.entry(c).or_default().push(e);
+        }
+        by.retain(|_, v| v.iter().any(|e| e.decision != v[0].decision));
+        for v in by.values_mut() {
+            v.sort_by(|a, b| a.vetter.cmp(&b.vetter));
+        }
+        Ok(by)
+    }
+
+    /// Number of entries.
+    pub fn len(&self) -> Result<usize, LedgerError> {
+        self.conn
+            .query_row("SELECT COUNT(*) FROM decision", [], |r| r.get::<_, i64>(0))
+            .map(|n| n as usize)
+            .map_err(|e| self.unwritable(e))
+    }
+
+    pub fn is_empty(&self) -> Result<bool, LedgerError> {
+        Ok(self.len()? == 0)
+    }
+
+    /// SQLite's own consistency check: "ok" when the file is sound.
+    pub fn integrity(&self) -> Result<String, LedgerError> {
+        self.conn
+            .query_row("PRAGMA integrity_check", [], |r| r.get(0))
+            .map_err(|e| self.unwritable(e))
+    }
+}
+
+/// Shares the text that repeats from row to row (stars, vetters, versions).
+#[derive(Default)]
+struct Interner(hashbrown::HashSet<Arc<str>>);
+
+impl Interner {
+    fn get(&mut self, s: &str) -> Arc<str> {
+        match self.0.get(s) {
+            Some(a) => Arc::clone(a),
+            None => {
+                let a: Arc<str> = Arc::from(s);
+                self.0.insert(Arc::clone(&a));
+                a
+            }
+        }
+    }
+}
+
+/// One ledger row (in `Ledger::COLUMNS` order) as an entry.
+fn entry_from(r: &rusqlite::Row, shared: &mut Interner) -> rusqlite::Result<Entry> {
+    let text = |i| -> rusqlite::Result<Option<&str>> { Ok(r.get_ref(i)?.as_str_or_null()?) };
+    Ok(Entry {
+        id: r.get(0)?,
+        candidate: r.get(1)?,
+        star: shared.get(text(2)?.unwrap_or("")),
+        vetter: shared.get(text(3)?.unwrap_or("")),
+        decision: decision_from(text(4)?.unwrap_or("open"), text(5)?).unwrap_or(Decision::Open),
+        note: r.get(6)?,
+        decided_at: r.get(7)?,
+        tool_version: text(8)?.map(|v| shared.get(v)),
+        undoes: r.get(9)?,
+    })
+}
+
+fn is_busy(e: &rusqlite::Error) -> bool {
+    matches!(
+        e.sqlite_error_code(),
+        Some(rusqlite::ErrorCode::DatabaseBusy) | Some(rusqlite::ErrorCode::DatabaseLocked)
+    )
+}
+
+/// Refuses a file that is not a starsift ledger without writing to it.
+fn check_ours(path: &Path) -> Result<(), LedgerError> {
+    let name = path.display().to_string();
+    let foreign = |why: String| LedgerError::Foreign {
+        path: name.clone(),
+        why,
+    };
+    let mut head = [0u8; 16];
+    let len = std::fs::metadata(path).map(|m| m.len()).unwrap_or(0);
+    if len == 0 {
+        return Ok(()); // an empty file becomes a new ledger
+    }
+    use std::io::Read;
+    let read = std::fs::File::open(path)
+        .and_then(|mut f| f.read(&mut head))
+        .map_err(|e| LedgerError::Open {
+            path: name.clone(),
+            message: e.to_string(),
+        })?;
+    if read < 16 || &head != SQLITE_MAGIC {
+        return Err(foreign("it is not an SQLite database".into()));
+    }
+    // An SQLite file we may not write (or whose WAL index we cannot make)
+    // is a ledger problem, not a foreign file.
+    let access = |e: rusqlite::Error| -> LedgerError {
+        use rusqlite::ErrorCode::*;
+        match e.sqlite_error_code() {
+            Some(ReadOnly | CannotOpen | PermissionDenied | DatabaseBusy | DatabaseLocked) => {
+                LedgerError::Unwritable {
+                    path: name.clone(),
+                    message: e.to_string(),
+                }
+            }
+            _ => foreign(format!("SQLite cannot read it: {e}")),
+        }
+    };
+    let conn = Connection::open_with_flags(
+        path,
+        OpenFlags::SQLITE_OPEN_READ_ONLY | OpenFlags::SQLITE_OPEN_NO_MUTEX,
+    )
+    .map_err(access)?;
+    let app: i32 = conn
+        .query_row("PRAGMA application_id", [], |r| r.get(0))
+        .map_err(access)?;
+    if app == APPLICATION_ID {
+        return Ok(());
+    }
+    // A version-1 ledger predates the application id: it has our tables.
+    let has_v1: bool = conn
+        .query_row(
+            "SELECT COUNT(*) = 2 FROM sqlite_master WHERE type = 'table' AND name IN ('decision', 'catalogue')",
+            [],
+            |r| r.get(0),
+        )
+        .unwrap_or(false);
+    let version: i32 = conn
+        .query_row("PRAGMA user_version", [], |r| r.get(0))
+        .unwrap_or(0);
+    if has_v1 && version == 1 {
+        return Ok(());
+    }
+    Err(foreign(format!(
+        "an SQLite database of another application (application_id {app:#x})"
+    )))
+}
+
+/// The default ledger beside the catalogue, or in the data folder when that
+/// folder cannot be written (and for the built-in demo).
+pub fn default_path(catalogue: Option<&Path>, fp: &str) -> PathBuf {
+    let data = data_dir().join("starsift");
+    match catalogue {
+        None => data.join("demo.ledger.sqlite"),
+        Some(cat) => {
+            let beside = PathBuf::from(format!("{}.ledger.sqlite", cat.display()));
+            let dir = cat
+                .parent()
+                .filter(|p| !p.as_os_str().is_empty())
+                .unwrap_or(Path::new("."));
+            if beside.exists() || writable_dir(dir) {
+                beside
+            } else {
+                let stem = cat
+                    .file_name()
+                    .map_or("catalogue".into(), |f| f.to_string_lossy().into_owned());
+                let short = fp.rsplit(':').next().unwrap_or("").get(..8).unwrap_or("");
+                data.join(format!("{stem}-{short}.ledger.sqlite"))
+            }
+        }
+    }
+}
+
+/// `$XDG_DATA_HOME`, else `~/.local/share` (XDG Base Directory Specification).
+pub fn data_dir() -> PathBuf {
+    std::env::var_os("XDG_DATA_HOME")
+        .map(PathBuf::from)
+        .filter(|p| p.is_absolute())
+        .or_else(|| std::env::var_os("HOME").map(|h| PathBuf::from(h).join(".local/share")))
+        .unwrap_or_else(std::env::temp_dir)
+}
+
+fn writable_dir(dir: &Path) -> bool {
+    let probe = dir.join(format!(".starsift-probe-{}", std::process::id()));
+    match std::fs::File::create(&probe) {
+        Ok(_) => {
+            let _ = std::fs::remove_file(&probe);
+            true
+        }
+        Err(_) => false,
+    }
+}
+
+/// The login name: `$USER`, else `$LOGNAME`, else `unknown`.
+pub fn login_name() -> String {
+    std::env::var("USER")
+        .or_else(|_| std::env::var("LOGNAME"))
+        .ok()
+        .filter(|s| !s.trim().is_empty())
+        .unwrap_or_else(|| "unknown".into())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn temp(name: &str) -> PathBuf {
+        let d = std::env::temp_dir().join(format!("starsift-ledger-{}-{name}", std::process::id()));
+        let _ = std::fs::remove_dir_all(&d);
+        std::fs::create_dir_all(&d).unwrap();
+        d.join("l.sqlite")
+    }
+
+    #[test]
+    fn dates_and_fingerprints() {
+        // 2000-03-01 (the day after a leap day): 951868800 s after the Unix epoch.
+        assert_eq!(rfc3339(951_868_800, 5), "2000-03-01T00:00:00.005Z");
+        assert_eq!(rfc3339(0, 0), "1970-01-01T00:00:00.000Z");
+        // FNV-1a 64 of "a" is 0xaf63dc4c8601ec8c (Fowler–Noll–Vo reference vectors, from memory).
+        assert_eq!(fingerprint(b"a"), "fnv1a64:af63dc4c8601ec8c");
+    }
+
+    #[test]
+    fn append_only_and_latest() {
+        let p = temp("basic");
+        let mut l = Ledger::open(&p).unwrap();
+        let d = |c, v, dec| NewDecision {
+            candidate: c,
+            star: "S",
+            vetter: v,
+            decision: dec,
+            note: None,
+            undoes: None,
+        };
+        l.record(&d("S-1", "ann", Decision::Kept)).unwrap();
+        let id = l
+            .record(&d("S-1", "ann", Decision::Rejected(Reason::Blend)))
+            .unwrap();
+        l.record(&d("S-1", "bob", Decision::Kept)).unwrap();
+        l.record(&d("S-2", "bob", Decision::Parked)).unwrap();
+        assert_eq!(l.len().unwrap(), 4);
+        let latest = l.latest(None).unwrap();
+        assert_eq!(latest["S-1"].decision, Decision::Kept);
+        assert_eq!(&*latest["S-1"].vetter, "bob");
+        let ann = l.latest(Some("ann")).unwrap();
+        assert_eq!(ann["S-1"].decision, Decision::Rejected(Reason::Blend));
+        assert!(!ann.contains_key("S-2"));
+        let dis = l.disagreements().unwrap();
+        assert_eq!(dis.keys().collect::<Vec<_>>(), ["S-1"]);
+        // Nothing is updated or deleted in place.
+        let e = l
+            .conn
+            .execute("UPDATE decision SET vetter = 'eve' WHERE id = ?1", [id])
+            .unwrap_err();
+        assert!(e.to_string().contains("append-only"), "{e}");
+        assert!(l.conn.execute("DELETE FROM decision", []).is_err());
+        // A rejection without a reason is refused by the schema itself.
+        assert!(l.conn.execute(
+            "INSERT INTO decision (candidate, star, vetter, decision, decided_at) VALUES ('x','S','ann','rejected','t')",
+            []
+        ).is_err());
+        let mode: String = l
+            .conn
+            .query_row("PRAGMA journal_mode", [], |r| r.get(0))
+            .unwrap();
+        let sync: i64 = l
+            .conn
+            .query_row("PRAGMA synchronous", [], |r| r.get(0))
+            .unwrap();
+        assert_eq!((mode.as_str(), sync), ("wal", 2));
+        assert_eq!(l.integrity().unwrap(), "ok");
+    }
+
+    #[test]
+    fn migrates_version_1() {
+        let p = temp("v1");
+        {
+            let c = Connection::open(&p).unwrap();
+            c.execute_batch(SCHEMA_V1).unwrap();
+            c.execute_batch("PRAGMA user_version = 1;").unwrap();
+            c.execute(
+                "INSERT INTO decision (candidate, star, vetter, decision, reason, note, decided_at)
+                 VALUES ('OLD-1', 'OLD', 'ann', 'rejected', 'alias', 'from v1', '2026-01-02T03:04:05.000Z')",
+                [],
+            )
+            .unwrap();
+        }
+        let mut l = Ledger::open(&p).unwrap();
+        let h = l.history(None).unwrap();
+        assert_eq!(h.len(), 1);
+        assert_eq!(h[0].decision, Decision::Rejected(Reason::Alias));
+        assert_eq!(h[0].tool_version, None);
+        let v: i32 = l
+            .conn
+            .query_row("PRAGMA user_version", [], |r| r.get(0))
+            .unwrap();
+        assert_eq!(v, SCHEMA_VERSION);
+        let id = l
+            .record(&NewDecision {
+                candidate: "OLD-1",
+                star: "OLD",
+                vetter: "bob",
+                decision: Decision::Open,
+                note: None,
+                undoes: Some(h[0].id),
+            })
+            .unwrap();
+        assert_eq!(l.history(Some("OLD-1")).unwrap()[1].undoes, Some(h[0].id));
+        assert!(id > h[0].id);
+    }
+
+    #[test]
+    fn foreign_files_are_refused_unchanged() {
+        let p = temp("foreign");
+        std::fs::write(&p, b"star,candidate\nA,A-1\n").unwrap();
+        let before = std::fs::read(&p).unwrap();
+        let e = Ledger::open(&p).err().unwrap();
+        assert!(e.to_string().contains("not an SQLite database"), "{e}");
+        assert_eq!(std::fs::read(&p).unwrap(), before);
+        let q = p.with_file_name("other.sqlite");
+        {
+            let c = Connection::open(&q).unwrap();
+            c.execute_batch("CREATE TABLE birds (name TEXT); INSERT INTO birds VALUES ('wren');")
+                .unwrap();
+        }
+        let before = std::fs::read(&q).unwrap();
+        let e = Ledger::open(&q).err().unwrap();
+        assert!(e.to_string().contains("another application"), "{e}");
+        assert_eq!(std::fs::read(&q).unwrap(), before);
+        assert!(!q.with_file_name("other.sqlite-wal").exists());
+    }
+}

@@ -1,0 +1,370 @@
+//! The ledger through the built binary: decisions, history, export, report,
+//! a writer killed mid-stream, two writers at once, and files that cannot or
+//! must not be written.
+
+mod common;
+
+use std::io::{BufRead, BufReader};
+use std::path::{Path, PathBuf};
+use std::process::{Command, Stdio};
+
+use common::{scratch, starsift, stderr, stdout};
+use starsift::ledger::Ledger;
+
+/// A copy of the demo catalogue and survey facts in a scratch folder.
+fn demo_copy(test: &str) -> (PathBuf, PathBuf) {
+    let d = scratch(test);
+    let src = Path::new(env!("CARGO_MANIFEST_DIR")).join("demo-catalogue");
+    std::fs::copy(src.join("catalogue.csv"), d.join("cat.csv")).unwrap();
+    std::fs::copy(src.join("survey.toml"), d.join("survey.toml")).unwrap();
+    (d.clone(), d.join("cat.csv"))
+}
+
+fn s(p: &Path) -> &str {
+    p.to_str().unwrap()
+}
+
+/// The first star with exactly `k` candidates in the demo, and its members.
+fn system_of(k: usize) -> Vec<String> {
+    let cat = starsift::demo::catalogue().unwrap();
+    let star = (0..cat.star_count() as u32)
+        .find(|&s| cat.members(s).len() == k)
+        .unwrap();
+    cat.members(star)
+        .iter()
+        .map(|&c| cat.candidate_id(c).to_string())
+        .collect()
+}
+
+fn export_rows(cat: &Path, extra: &[&str]) -> Vec<csv::StringRecord> {
+    let mut args = vec!["export", s(cat)];
+    args.extend_from_slice(extra);
+    let o = starsift(&args);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = stdout(&o);
+    assert!(text.starts_with("# starsift vetted catalogue"));
+    assert!(text.contains("Statistical validation is not confirmation"));
+    let body: String = text
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    let mut r = csv::Reader::from_reader(body.as_bytes());
+    let h = r.headers().unwrap().clone();
+    for col in [
+        "k",
+        "boost",
+        "odds",
+        "probability",
+        "verdict",
+        "decision",
+        "reason",
+        "vetter",
+        "decided_at",
+        "flags",
+    ] {
+        assert!(h.iter().any(|x| x == col), "export lacks {col}");
+    }
+    let mut rows = vec![h];
+    rows.extend(r.records().map(|x| x.unwrap()));
+    rows
+}
+
+fn column(rows: &[csv::StringRecord], id: &str, col: &str) -> String {
+    let i = rows[0].iter().position(|h| h == col).unwrap();
+    rows.iter().find(|r| &r[1] == id).unwrap()[i].to_string()
+}
+
+#[test]
+fn rejecting_one_of_three_gives_the_siblings_two_candidate_odds() {
+    let (_, cat) = demo_copy("three");
+    let three = system_of(3);
+    let two = system_of(2);
+    let before = export_rows(&cat, &[]);
+    let odds3 = column(&before, &three[1], "odds");
+    let o = starsift(&[
+        "decide",
+        s(&cat),
+        "--candidate",
+        &three[0],
+        "--decision",
+        "rejected",
+        "--reason",
+        "eclipsing-binary",
+        "--vetter",
+        "ann",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    assert!(stdout(&o).contains("recorded #1"), "{}", stdout(&o));
+    let after = export_rows(&cat, &[]);
+    assert_eq!(column(&after, &three[0], "verdict"), "rejected");
+    assert_eq!(column(&after, &three[0], "reason"), "eclipsing-binary");
+    assert_eq!(column(&after, &three[0], "vetter"), "ann");
+    for sib in &three[1..] {
+        assert_eq!(column(&after, sib, "k"), "2");
+        assert_eq!(
+            column(&after, sib, "odds"),
+            column(&after, &two[0], "odds"),
+            "siblings take the 2-candidate odds"
+        );
+        assert!(
+            column(&after, sib, "odds").parse::<f64>().unwrap() < odds3.parse::<f64>().unwrap()
+        );
+    }
+    // The report says the same, and that validation is not confirmation.
+    let o = starsift(&["report", s(&cat)]);
+    let r = stdout(&o);
+    assert!(
+        r.contains("## Rejections by reason")
+            && r.contains(&format!("eclipsing-binary (1): {}", three[0])),
+        "{r}"
+    );
+    assert!(r.contains("Statistical validation is not confirmation"));
+    // JSON export carries the model and the decision.
+    let o = starsift(&["export", s(&cat), "--format", "json"]);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["model"]["targets_searched"], 52000);
+    let row = v["candidates"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|c| c["candidate"] == three[0].as_str())
+        .unwrap();
+    assert_eq!(row["decision"], "rejected");
+    assert_eq!(row["k"], 0);
+}
+
+#[test]
+fn decide_validates_and_history_lists() {
+    let (dir, cat) = demo_copy("decide");
+    let id = &system_of(1)[0];
+    let o = starsift(&[
+        "decide",
+        s(&cat),
+        "--candidate",
+        id,
+        "--decision",
+        "rejected",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("needs a reason"));
+    let o = starsift(&[
+        "decide",
+        s(&cat),
+        "--candidate",
+        id,
+        "--decision",
+        "kept",
+        "--reason",
+        "blend",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    let o = starsift(&[
+        "decide",
+        s(&cat),
+        "--candidate",
+        "NOPE-1",
+        "--decision",
+        "kept",
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("no candidate `NOPE-1`"));
+    assert!(
+        !dir.join("cat.csv.ledger.sqlite").exists(),
+        "nothing decided, no ledger made"
+    );
+    for (who, d) in [("ann", "parked"), ("bob", "kept"), ("ann", "open")] {
+        let o = starsift(&[
+            "decide",
+            s(&cat),
+            "--candidate",
+            id,
+            "--decision",
+            d,
+            "--vetter",
+            who,
+            "--note",
+            "looked twice",
+        ]);
+        assert!(o.status.success(), "{}", stderr(&o));
+    }
+    let o = starsift(&["history", s(&cat), "--candidate", id, "--format", "csv"]);
+    let h = stdout(&o);
+    assert_eq!(h.lines().count(), 4, "{h}");
+    assert!(
+        h.lines()
+            .nth(1)
+            .unwrap()
+            .contains(",ann,parked,,looked twice,"),
+        "{h}"
+    );
+    let l = Ledger::open(&dir.join("cat.csv.ledger.sqlite")).unwrap();
+    assert_eq!(
+        l.disagreements().unwrap().len(),
+        1,
+        "ann says open, bob kept"
+    );
+    // --vetter picks one vetter's view in exports.
+    let rows = export_rows(&cat, &["--vetter", "bob"]);
+    assert_eq!(column(&rows, id, "decision"), "kept");
+}
+
+#[test]
+fn a_killed_writer_loses_nothing_it_acknowledged() {
+    let d = scratch("crash");
+    let ledger = d.join("crash.ledger.sqlite");
+    let mut child = Command::new(env!("CARGO_BIN_EXE_starsift"))
+        .args([
+            "stress-ledger",
+            "--ledger",
+            s(&ledger),
+            "--vetter",
+            "crash",
+            "--count",
+            "100000",
+        ])
+        .stdout(Stdio::piped())
+        .stderr(Stdio::null())
+        .spawn()
+        .unwrap();
+    let mut acked = Vec::new();
+    let mut lines = BufReader::new(child.stdout.take().unwrap()).lines();
+    while acked.len() < 300 {
+        let line = lines.next().unwrap().unwrap();
+        acked.push(line.strip_prefix("ack ").unwrap().parse::<i64>().unwrap());
+    }
+    child.kill().unwrap(); // SIGKILL, mid-stream
+    child.wait().unwrap();
+    let l = Ledger::open(&ledger).unwrap();
+    assert_eq!(l.integrity().unwrap(), "ok");
+    let ids: std::collections::HashSet<i64> =
+        l.history(None).unwrap().iter().map(|e| e.id).collect();
+    for id in &acked {
+        assert!(ids.contains(id), "acknowledged decision #{id} is missing");
+    }
+    assert!(ids.len() >= acked.len());
+}
+
+#[test]
+fn two_writers_at_once_lose_nothing() {
+    let d = scratch("two");
+    let ledger = d.join("two.ledger.sqlite");
+    Ledger::open(&ledger).unwrap();
+    let spawn = |who: &str| {
+        Command::new(env!("CARGO_BIN_EXE_starsift"))
+            .args([
+                "stress-ledger",
+                "--ledger",
+                s(&ledger),
+                "--vetter",
+                who,
+                "--count",
+                "300",
+            ])
+            .stdout(Stdio::null())
+            .stderr(Stdio::piped())
+            .spawn()
+            .unwrap()
+    };
+    let (a, b) = (spawn("ann"), spawn("bob"));
+    for child in [a, b] {
+        let o = child.wait_with_output().unwrap();
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    }
+    let l = Ledger::open(&ledger).unwrap();
+    let h = l.history(None).unwrap();
+    assert_eq!(h.len(), 600);
+    assert_eq!(h.iter().filter(|e| &*e.vetter == "ann").count(), 300);
+    assert_eq!(l.integrity().unwrap(), "ok");
+}
+
+#[test]
+fn foreign_files_are_refused_and_left_unchanged() {
+    let (dir, cat) = demo_copy("foreign");
+    let f = dir.join("notes.txt");
+    std::fs::write(&f, "my precious notes\n").unwrap();
+    let id = &system_of(1)[0];
+    let o = starsift(&[
+        "decide",
+        s(&cat),
+        "--candidate",
+        id,
+        "--decision",
+        "kept",
+        "--ledger",
+        s(&f),
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("not a starsift ledger"),
+        "{}",
+        stderr(&o)
+    );
+    assert_eq!(std::fs::read_to_string(&f).unwrap(), "my precious notes\n");
+}
+
+#[test]
+fn an_unwritable_ledger_is_reported_and_changes_nothing() {
+    let (dir, cat) = demo_copy("readonly");
+    let id = &system_of(1)[0];
+    let ledger = dir.join("cat.csv.ledger.sqlite");
+    assert!(
+        starsift(&["decide", s(&cat), "--candidate", id, "--decision", "kept"])
+            .status
+            .success()
+    );
+    let before = std::fs::read(&ledger).unwrap();
+    // Root ignores file modes, so the writer runs as `nobody` when we are root.
+    let root = Command::new("id")
+        .arg("-u")
+        .output()
+        .map(|o| String::from_utf8_lossy(&o.stdout).trim() == "0")
+        .unwrap_or(false);
+    let mut cmd;
+    if root {
+        cmd = Command::new("setpriv");
+        cmd.args([
+            "--reuid=65534",
+            "--regid=65534",
+            "--clear-groups",
+            env!("CARGO_BIN_EXE_starsift"),
+        ]);
+    } else {
+        use std::os::unix::fs::PermissionsExt;
+        std::fs::set_permissions(&ledger, std::fs::Permissions::from_mode(0o444)).unwrap();
+        std::fs::set_permissions(&dir, std::fs::Permissions::from_mode(0o555)).unwrap();
+        cmd = Command::new(env!("CARGO_BIN_EXE_starsift"));
+    }
+    let o = cmd
+        .args([
+            "decide",
+            s(&cat),
+            "--candidate",
+            id,
+            "--decision",
+            "parked",
+            "--ledger",
+            s(&ledger),
+            "--vetter",
+            "ro",
+        ])
+        .output()
+        .unwrap();
+    if !root {
+        use std::os::unix::fs::PermissionsExt;
+        std::fs::set_permissions(&dir, std::fs::Permissions::from_mode(0o755)).unwrap();
+    }
+    assert_eq!(
+        o.status.code(),
+        Some(3),
+        "{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    assert!(
+        String::from_utf8_lossy(&o.stderr).contains("cannot be written"),
+        "{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    assert!(o.stdout.is_empty(), "nothing may be reported as recorded");
+    assert_eq!(std::fs::read(&ledger).unwrap(), before);
+}
