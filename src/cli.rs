@@ -31,6 +31,8 @@ pub struct Cli {
 
 #[derive(Debug, Subcommand)]
 pub enum Command {
+    /// Browse a catalogue in the terminal (the default, on the demo).
+    Browse(crate::tui::Args),
     /// Stars, candidates, multiplicity histogram, column mapping, skipped rows.
     Summary(cmd::summary::Args),
     /// Multiplicity odds and verdict of every candidate.
@@ -382,8 +384,8 @@ pub fn main() -> i32 {
 
 pub fn run(cli: Cli, out: &mut dyn Write) -> Result<(), CliError> {
     match cli.command {
-        // Until the terminal browser lands, the main job on the demo is its summary.
-        None => cmd::summary::run(&cmd::summary::Args::demo(), out),
+        None => crate::tui::run(&crate::tui::Args::demo()),
+        Some(Command::Browse(a)) => crate::tui::run(&a),
         Some(Command::Summary(a)) => cmd::summary::run(&a, out),
         Some(Command::Odds(a)) => cmd::odds::run(&a, out),
         Some(Command::Checks(a)) => cmd::checks::run(&a, out),

@@ -10,6 +10,10 @@
 //! - [`demo`]: the built-in invented demo survey and its generator.
 //! - [`sanitize`]: making input text safe to print.
 //! - [`output`]: tables, CSV and JSON for people and scripts.
+//! - [`checks`], [`lightcurve`], [`transit_model`]: vetting diagnostics.
+//! - [`ledger`]: the durable SQLite record of decisions.
+//! - [`query`]: the filter syntax.
+//! - [`tui`]: the terminal browser, a thin shell over the core.
 //! - [`cli`] and [`cmd`]: the command line; one file per command.
 //!
 //! The core (`catalogue`, `survey`, `odds`) knows nothing of terminals.
@@ -26,7 +30,9 @@ pub mod ledger;
 pub mod lightcurve;
 pub mod odds;
 pub mod output;
+pub mod query;
 pub mod sanitize;
 pub mod science;
 pub mod survey;
 pub mod transit_model;
+pub mod tui;

@@ -32,9 +32,16 @@ fn summary_json_shape() {
 }
 
 #[test]
-fn no_arguments_runs_the_demo() {
+fn no_arguments_wants_a_terminal_and_says_what_else_there_is() {
+    // Without a terminal the browser refuses, naming the headless commands.
     let o = starsift(&[]);
-    assert!(o.status.success(), "{}", stderr(&o));
+    assert_eq!(o.status.code(), Some(2));
+    let e = stderr(&o);
+    assert!(
+        e.contains("needs a terminal") && e.contains("summary"),
+        "{e}"
+    );
+    let o = starsift(&["summary"]);
     let s = stdout(&o);
     assert!(
         s.contains("built-in demo") && s.contains("candidates  444"),

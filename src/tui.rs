@@ -1,0 +1,386 @@
+//! The terminal browser: a thin shell over [`app::App`]. It owns the
+//! terminal (one guard restores it on exit, error and panic), turns key
+//! presses into actions through the key map, runs light-curve work on a
+//! background thread, and draws with [`draw::draw`].
+
+pub mod app;
+pub mod draw;
+pub mod keymap;
+
+use std::io::{IsTerminal, Write};
+use std::path::PathBuf;
+use std::sync::{Arc, mpsc};
+use std::time::Duration;
+
+use ratatui::Terminal;
+use ratatui::backend::CrosstermBackend;
+use ratatui::crossterm::event::{self, Event, KeyEventKind};
+use ratatui::crossterm::{cursor, execute, terminal};
+
+use crate::cli::{CatalogueArgs, CliError, LedgerArgs, LightcurveArgs, ModelArgs};
+use crate::cmd::checks::CheckArgs;
+use app::{App, Effect, Input, Mode, SignalResult};
+use draw::Look;
+use keymap::{Key, Keymap};
+
+#[derive(Debug, Clone, clap::Args)]
+pub struct Args {
+    #[command(flatten)]
+    pub input: CatalogueArgs,
+    #[command(flatten)]
+    pub ledger: LedgerArgs,
+    #[command(flatten)]
+    pub model: ModelArgs,
+    #[command(flatten)]
+    pub checks: CheckArgs,
+    #[command(flatten)]
+    pub lc: LightcurveArgs,
+    /// Start with this filter (e.g. "odds>=100 decision:open").
+    #[arg(long = "where", value_name = "FILTER")]
+    pub filter: Option<String>,
+    /// A key-map file that overrides the defaults.
+    #[arg(long, value_name = "FILE")]
+    pub keymap: Option<PathBuf>,
+    /// Use the home-row key map (adds h/j/k/l movement).
+    #[arg(long)]
+    pub home_row: bool,
+    /// Colour: never, or 16 / 256 / true colour (NO_COLOR is honoured).
+    #[arg(long, value_parser = ["never", "16", "256", "true"], default_value = "16")]
+    pub color: String,
+    /// Draw plots and sparklines with ASCII only.
+    #[arg(long)]
+    pub ascii: bool,
+    /// Decisions stay in memory, no ledger is opened.
+    #[arg(long)]
+    pub no_ledger: bool,
+}
+
+impl Args {
+    /// The demo, with everything at its defaults.
+    pub fn demo() -> Args {
+        use clap::Parser;
+        #[derive(clap::Parser)]
+        struct Wrap {
+            #[command(flatten)]
+            args: Args,
+        }
+        Wrap::parse_from(["starsift"]).args
+    }
+
+    fn look(&self) -> Look {
+        let no_color = std::env::var_os("NO_COLOR").is_some_and(|v| !v.is_empty());
+        let utf8 = ["LC_ALL", "LC_CTYPE", "LANG"]
+            .iter()
+            .find_map(|k| std::env::var(k).ok().filter(|v| !v.is_empty()))
+            .is_none_or(|v| {
+                v.to_ascii_uppercase().contains("UTF-8") || v.to_ascii_uppercase().contains("UTF8")
+            });
+        Look {
+            color: !no_color && self.color != "never",
+            ascii: self.ascii || !utf8,
+        }
+    }
+
+    fn keymap(&self) -> Result<Keymap, CliError> {
+        let mut layers: Vec<(String, String)> = Vec::new();
+        if self.home_row {
+            layers.push(("keymaps/home-row.toml".into(), keymap::HOME_ROW.into()));
+        }
+        let user = self.keymap.clone().or_else(|| {
+            let dir = std::env::var_os("XDG_CONFIG_HOME")
+                .map(PathBuf::from)
+                .or_else(|| std::env::var_os("HOME").map(|h| PathBuf::from(h).join(".config")))?;
+            let p = dir.join("starsift/keymap.toml");
+            p.is_file().then_some(p)
+        });
+        if let Some(p) = user {
+            let text = std::fs::read_to_string(&p)
+                .map_err(|e| CliError::Input(format!("{}: cannot read: {e}", p.display())))?;
+            layers.push((p.display().to_string(), text));
+        }
+        let refs: Vec<(&str, &str)> = layers
+            .iter()
+            .map(|(a, b)| (a.as_str(), b.as_str()))
+            .collect();
+        Keymap::load(&refs).map_err(|e| CliError::Input(e.to_string()))
+    }
+}
+
+/// Builds the browser state for a catalogue (everything but the terminal).
+pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliError> {
+    let keymap = args.keymap()?;
+    let loaded = args.input.load()?;
+    let mut checks = crate::checks::run(&loaded.catalogue, &args.checks.settings());
+    let finder = args.lc.finder(&loaded);
+    if args.lc.wanted() {
+        for (star, e) in crate::checks::run_lightcurves(
+            &loaded.catalogue,
+            &finder,
+            &args.lc.detrend(),
+            &mut checks,
+        ) {
+            eprintln!(
+                "starsift: warning: star {}: {}",
+                crate::sanitize::clean(&star),
+                crate::sanitize::clean(&e)
+            );
+        }
+    }
+    let ledger = if args.no_ledger {
+        None
+    } else {
+        Some(args.ledger.open(&args.input, &loaded)?)
+    };
+    let cat = &loaded.catalogue;
+    let decisions: Vec<crate::decision::Decision> = match &ledger {
+        Some(l) => {
+            let latest = l.latest(args.ledger.vetter.as_deref())?;
+            (0..cat.len() as u32)
+                .map(|c| {
+                    latest
+                        .get(cat.candidate_id(c))
+                        .map_or(crate::decision::Decision::Open, |e| e.decision)
+                })
+                .collect()
+        }
+        None => vec![crate::decision::Decision::Open; cat.len()],
+    };
+    let live = crate::odds::Live::with_state(
+        cat,
+        args.model.model(&loaded.survey)?,
+        checks.all_flags().to_vec(),
+        decisions,
+    )?;
+    let mut app = App::new(
+        Arc::new(loaded.catalogue),
+        live,
+        checks,
+        ledger,
+        args.ledger.vetter(),
+        keymap,
+    );
+    if let Some(f) = &args.filter {
+        app.filter = crate::query::Filter::parse(f)
+            .map_err(|e| CliError::Input(format!("--where {}: {e}", crate::sanitize::clean(f))))?;
+        app.refresh_view();
+    }
+    Ok((app, finder))
+}
+
+/// Restores the terminal when dropped, and from the panic hook.
+struct Guard;
+
+impl Guard {
+    fn enter() -> std::io::Result<Guard> {
+        terminal::enable_raw_mode()?;
+        execute!(
+            std::io::stdout(),
+            terminal::EnterAlternateScreen,
+            cursor::Hide
+        )?;
+        let previous = std::panic::take_hook();
+        std::panic::set_hook(Box::new(move |info| {
+            restore();
+            previous(info);
+        }));
+        Ok(Guard)
+    }
+}
+
+fn restore() {
+    let _ = terminal::disable_raw_mode();
+    let _ = execute!(
+        std::io::stdout(),
+        ratatui::crossterm::event::DisableMouseCapture,
+        ratatui::crossterm::event::DisableBracketedPaste,
+        terminal::LeaveAlternateScreen,
+        cursor::Show
+    );
+}
+
+impl Drop for Guard {
+    fn drop(&mut self) {
+        restore();
+    }
+}
+
+/// The light-curve worker: computes binned folds and diagnostics off the
+/// drawing thread and sends them back.
+fn spawn_worker(
+    cat: Arc<crate::catalogue::Catalogue>,
+    finder: crate::lightcurve::Finder,
+    detrend: crate::lightcurve::analysis::DetrendSettings,
+    results: mpsc::Sender<(u32, SignalResult)>,
+) -> mpsc::Sender<u32> {
+    let (tx, rx) = mpsc::channel::<u32>();
+    std::thread::spawn(move || {
+        let cache = crate::lightcurve::Cache::default();
+        while let Ok(c) = rx.recv() {
+            let star = cat.star_of(c);
+            let out = if !finder.has(&cat, star) {
+                SignalResult::Model(
+                    "no light curve for this star: the model transit is shown".into(),
+                )
+            } else {
+                let curve = cache.curve(&finder, &cat, star);
+                match curve.as_ref() {
+                    Err(e) => SignalResult::Model(format!("light curve not read: {e}")),
+                    Ok(lc) => {
+                        let (me, others) = crate::lightcurve::signals(&cat, c);
+                        let mut all = vec![me];
+                        all.extend_from_slice(&others);
+                        let flux = crate::lightcurve::analysis::detrend(lc, &all, &detrend);
+                        let skip = crate::lightcurve::analysis::in_transit(&lc.time, &others, 1.2);
+                        let z = (3.0 * me.duration_h / 24.0 / me.period_d).min(0.5);
+                        let binned = crate::lightcurve::analysis::fold_bin(
+                            &lc.time,
+                            &flux,
+                            &lc.flux_err,
+                            Some(&skip),
+                            me.period_d,
+                            me.epoch,
+                            0.0,
+                            (-z, z),
+                            60,
+                        );
+                        let diagnostics = cache.diagnostics(&finder, &cat, c, &detrend);
+                        match diagnostics.as_ref() {
+                            Ok(d) => SignalResult::Data {
+                                binned,
+                                diagnostics: Box::new(d.clone()),
+                                source: lc.source.clone(),
+                            },
+                            Err(e) => SignalResult::Model(e.clone()),
+                        }
+                    }
+                }
+            };
+            if results.send((c, out)).is_err() {
+                return;
+            }
+        }
+    });
+    tx
+}
+
+/// OSC 52: ask the terminal to put text on the clipboard (works over SSH
+/// and through tmux with `set-clipboard on`).
+fn osc52(text: &str) -> String {
+    use std::fmt::Write as _;
+    const B64: &[u8; 64] = b"ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/";
+    let bytes = text.as_bytes();
+    let mut out = String::from("\x1b]52;c;");
+    for chunk in bytes.chunks(3) {
+        let n = chunk
+            .iter()
+            .enumerate()
+            .fold(0u32, |a, (i, &b)| a | (b as u32) << (16 - 8 * i));
+        for i in 0..4 {
+            if i <= chunk.len() {
+                out.push(B64[(n >> (18 - 6 * i) & 63) as usize] as char);
+            } else {
+                out.push('=');
+            }
+        }
+    }
+    let _ = write!(out, "\x07");
+    out
+}
+
+pub fn run(args: &Args) -> Result<(), CliError> {
+    if !std::io::stdout().is_terminal() || !std::io::stdin().is_terminal() {
+        return Err(CliError::Input(
+            "the browser needs a terminal; for scripts use the headless commands: summary, odds, checks, fold, decide, history, export, report".into(),
+        ));
+    }
+    let look = args.look();
+    let (mut app, finder) = build_app(args)?;
+    let (res_tx, res_rx) = mpsc::channel();
+    let worker = spawn_worker(Arc::clone(&app.cat), finder, args.lc.detrend(), res_tx);
+    let guard = Guard::enter()?;
+    let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
+    let mut effects = app.update(Input::Resize);
+    loop {
+        for e in effects.drain(..) {
+            match e {
+                Effect::Quit => {
+                    drop(term);
+                    drop(guard);
+                    return Ok(());
+                }
+                Effect::Copy(text) => {
+                    let mut out = std::io::stdout();
+                    let _ = out.write_all(osc52(&text).as_bytes());
+                    let _ = out.flush();
+                }
+                Effect::LoadSignal(c) => {
+                    let _ = worker.send(c);
+                }
+            }
+        }
+        app.page = term.size().map_or(10, |s| (s.height as usize / 3).max(1));
+        term.draw(|f| draw::draw(&app, f, look))?;
+        while let Ok((c, r)) = res_rx.try_recv() {
+            effects.extend(app.update(Input::Signal(c, Box::new(r))));
+        }
+        if !effects.is_empty() {
+            continue;
+        }
+        if !event::poll(Duration::from_millis(100))? {
+            continue;
+        }
+        match event::read()? {
+            Event::Key(k) if k.kind == KeyEventKind::Press => {
+                let prompt = matches!(app.mode, Mode::Prompt { .. });
+                let key = Key::from_event(&k);
+                let input = match (prompt, key) {
+                    (
+                        true,
+                        Some(Key {
+                            code: keymap::KeyName::Char(c),
+                            ctrl: false,
+                        }),
+                    ) => Some(Input::Char(c)),
+                    (
+                        true,
+                        Some(Key {
+                            code: keymap::KeyName::Space,
+                            ..
+                        }),
+                    ) => Some(Input::Char(' ')),
+                    (
+                        true,
+                        Some(Key {
+                            code: keymap::KeyName::Backspace,
+                            ..
+                        }),
+                    ) => Some(Input::Backspace),
+                    (
+                        true,
+                        Some(Key {
+                            code: keymap::KeyName::Enter,
+                            ..
+                        }),
+                    ) => Some(Input::Action(app::Action::Select)),
+                    (
+                        true,
+                        Some(Key {
+                            code: keymap::KeyName::Esc,
+                            ..
+                        }),
+                    ) => Some(Input::Action(app::Action::Close)),
+                    (_, Some(key)) => app.keymap.action(key).map(Input::Action),
+                    _ => None,
+                };
+                if let Some(i) = input {
+                    effects.extend(app.update(i));
+                }
+            }
+            Event::Resize(..) => effects.extend(app.update(Input::Resize)),
+            _ => {}
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests;

@@ -1,0 +1,891 @@
+//! The browser's state and its one verb list: every key becomes an
+//! [`Action`], and only [`App::update`] changes state. Nothing here touches
+//! the terminal, so every action is testable without one.
+
+use std::collections::{HashMap, HashSet};
+
+use fuzzy_matcher::FuzzyMatcher;
+use fuzzy_matcher::skim::SkimMatcherV2;
+
+use crate::catalogue::{CandidateId, Catalogue, Field, StarId};
+use crate::checks::Checks;
+use crate::decision::{ALL_REASONS, Decision, Reason};
+use crate::flags::{Flag, FlagSet};
+use crate::ledger::{Ledger, NewDecision};
+use crate::lightcurve::analysis::{Binned, Diagnostics};
+use crate::odds::{Live, Verdict};
+use crate::query::{Filter, NumField, ParseError, Subject};
+
+/// Everything a person can do.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
+pub enum Action {
+    Quit,
+    Help,
+    Find,
+    Filter,
+    SortNext,
+    SortReverse,
+    Keep,
+    Reject,
+    Park,
+    Reopen,
+    Undo,
+    Redo,
+    Up,
+    Down,
+    PageUp,
+    PageDown,
+    Top,
+    Bottom,
+    NextPane,
+    PrevPane,
+    Select,
+    NextOpen,
+    PrevOpen,
+    NextFlagged,
+    ToggleAdvance,
+    CopyId,
+    Close,
+}
+
+impl Action {
+    pub const ALL: [Action; 27] = [
+        Action::Quit,
+        Action::Help,
+        Action::Find,
+        Action::Filter,
+        Action::SortNext,
+        Action::SortReverse,
+        Action::Keep,
+        Action::Reject,
+        Action::Park,
+        Action::Reopen,
+        Action::Undo,
+        Action::Redo,
+        Action::Up,
+        Action::Down,
+        Action::PageUp,
+        Action::PageDown,
+        Action::Top,
+        Action::Bottom,
+        Action::NextPane,
+        Action::PrevPane,
+        Action::Select,
+        Action::NextOpen,
+        Action::PrevOpen,
+        Action::NextFlagged,
+        Action::ToggleAdvance,
+        Action::CopyId,
+        Action::Close,
+    ];
+
+    pub fn name(self) -> &'static str {
+        match self {
+            Action::Quit => "quit",
+            Action::Help => "help",
+            Action::Find => "find",
+            Action::Filter => "filter",
+            Action::SortNext => "sort-next",
+            Action::SortReverse => "sort-reverse",
+            Action::Keep => "keep",
+            Action::Reject => "reject",
+            Action::Park => "park",
+            Action::Reopen => "reopen",
+            Action::Undo => "undo",
+            Action::Redo => "redo",
+            Action::Up => "up",
+            Action::Down => "down",
+            Action::PageUp => "page-up",
+            Action::PageDown => "page-down",
+            Action::Top => "top",
+            Action::Bottom => "bottom",
+            Action::NextPane => "next-pane",
+            Action::PrevPane => "prev-pane",
+            Action::Select => "select",
+            Action::NextOpen => "next-open",
+            Action::PrevOpen => "prev-open",
+            Action::NextFlagged => "next-flagged",
+            Action::ToggleAdvance => "toggle-advance",
+            Action::CopyId => "copy-id",
+            Action::Close => "close",
+        }
+    }
+
+    pub fn describe(self) -> &'static str {
+        match self {
+            Action::Quit => "leave the browser",
+            Action::Help => "show these keys",
+            Action::Find => "fuzzy-find a star or candidate by id",
+            Action::Filter => "filter the systems (e.g. odds>=100 flag:echo decision:open)",
+            Action::SortNext => "sort systems by the next column",
+            Action::SortReverse => "reverse the sort",
+            Action::Keep => "keep the candidate",
+            Action::Reject => "reject the candidate (pick a reason)",
+            Action::Park => "park the candidate (needs more data)",
+            Action::Reopen => "reopen the candidate",
+            Action::Undo => "undo the last decision",
+            Action::Redo => "redo an undone decision",
+            Action::Up => "move up",
+            Action::Down => "move down",
+            Action::PageUp => "move a page up",
+            Action::PageDown => "move a page down",
+            Action::Top => "go to the first row",
+            Action::Bottom => "go to the last row",
+            Action::NextPane => "next pane",
+            Action::PrevPane => "previous pane",
+            Action::Select => "open the selected system / accept the prompt",
+            Action::NextOpen => "next open candidate",
+            Action::PrevOpen => "previous open candidate",
+            Action::NextFlagged => "next star with a flag",
+            Action::ToggleAdvance => "advance to the next open candidate after a decision (on/off)",
+            Action::CopyId => "copy the selected id to the clipboard (OSC 52)",
+            Action::Close => "close a prompt or overlay",
+        }
+    }
+
+    pub fn from_name(s: &str) -> Option<Action> {
+        Action::ALL.into_iter().find(|a| a.name() == s)
+    }
+}
+
+/// Typed input the keymap does not own (prompt text).
+#[derive(Clone, Debug, PartialEq)]
+pub enum Input {
+    Action(Action),
+    Char(char),
+    Backspace,
+    /// A light-curve result from the background worker.
+    Signal(CandidateId, Box<SignalResult>),
+    Resize,
+}
+
+/// What the background worker found for a candidate.
+#[derive(Clone, Debug, PartialEq)]
+pub enum SignalResult {
+    Data {
+        binned: Binned,
+        diagnostics: Box<Diagnostics>,
+        source: String,
+    },
+    /// No light curve: the model is drawn.
+    Model(String),
+}
+
+/// What the shell must do after an update.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Effect {
+    Quit,
+    /// Put this text on the clipboard (OSC 52).
+    Copy(String),
+    /// Compute the light-curve result of this candidate.
+    LoadSignal(CandidateId),
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Pane {
+    Systems,
+    Candidates,
+}
+
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum PromptKind {
+    Filter,
+    Find,
+}
+
+#[derive(Clone, Debug, PartialEq)]
+pub enum Mode {
+    Normal,
+    Prompt {
+        kind: PromptKind,
+        text: String,
+        error: Option<ParseError>,
+    },
+    /// Choosing a rejection reason (index into ALL_REASONS).
+    Reasons {
+        selected: usize,
+    },
+    Help,
+}
+
+/// How the systems are ordered.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum SortKey {
+    BestOdds,
+    Multiplicity,
+    Flags,
+    Star,
+    Period,
+}
+
+impl SortKey {
+    const ALL: [SortKey; 5] = [
+        SortKey::BestOdds,
+        SortKey::Multiplicity,
+        SortKey::Flags,
+        SortKey::Star,
+        SortKey::Period,
+    ];
+
+    pub fn name(self) -> &'static str {
+        match self {
+            SortKey::BestOdds => "best odds",
+            SortKey::Multiplicity => "k",
+            SortKey::Flags => "flags",
+            SortKey::Star => "star",
+            SortKey::Period => "shortest period",
+        }
+    }
+}
+
+/// A decision as made and as undone.
+#[derive(Clone, Copy, Debug, PartialEq)]
+struct Step {
+    candidate: CandidateId,
+    before: Decision,
+    after: Decision,
+    ledger_id: Option<i64>,
+}
+
+/// The whole browser state.
+pub struct App {
+    pub cat: std::sync::Arc<Catalogue>,
+    pub live: Live,
+    pub checks: Checks,
+    radius: Vec<f64>,
+    pub ledger: Option<Ledger>,
+    pub ledger_path: String,
+    pub vetter: String,
+    pub disagree: HashSet<CandidateId>,
+    /// The stars shown, filtered and sorted: an index vector.
+    pub stars: Vec<StarId>,
+    pub star_row: usize,
+    pub cand_row: usize,
+    pub focus: Pane,
+    pub filter: Filter,
+    pub sort: SortKey,
+    pub descending: bool,
+    pub mode: Mode,
+    undo: Vec<Step>,
+    redo: Vec<Step>,
+    pub message: Option<String>,
+    pub advance: bool,
+    pub signals: HashMap<CandidateId, SignalResult>,
+    pending: HashSet<CandidateId>,
+    pub page: usize,
+    pub keymap: super::keymap::Keymap,
+    /// The star a decision was just made on stays in view, whatever the
+    /// filter now says, until the selection leaves it.
+    pinned: Option<StarId>,
+}
+
+/// One candidate as the filter sees it.
+struct Row<'a> {
+    app: &'a App,
+    c: CandidateId,
+}
+
+impl Subject for Row<'_> {
+    fn number(&self, f: NumField) -> Option<f64> {
+        let (a, c) = (self.app, self.c);
+        let v = |field| a.cat.value(field, c);
+        match f {
+            NumField::Odds => a.live.odds(c),
+            NumField::Probability => a.live.probability(c),
+            NumField::Period => v(Field::PeriodD),
+            NumField::Depth => v(Field::DepthPpm),
+            NumField::Duration => v(Field::DurationH),
+            NumField::Snr => v(Field::Snr),
+            NumField::Radius => Some(a.radius[c as usize]).filter(|r| r.is_finite()),
+            NumField::K => Some(a.live.k(c) as f64),
+            NumField::Boost => a.live.boost(c),
+            NumField::Prior => Some(a.live.prior(c)),
+            NumField::Mag => v(Field::Mag),
+            NumField::Teff => v(Field::StarTeffK),
+            NumField::Impact => v(Field::Impact),
+        }
+    }
+    fn has_flag(&self, f: Flag) -> bool {
+        self.app.checks.flags(self.c).contains(f) || self.app.checks.warnings(self.c).contains(f)
+    }
+    fn decision(&self) -> &'static str {
+        self.app.live.decision(self.c).name()
+    }
+    fn reason(&self) -> Option<Reason> {
+        self.app.live.decision(self.c).reason()
+    }
+    fn verdict(&self) -> Verdict {
+        self.app.live.verdict(self.c)
+    }
+    fn star(&self) -> &str {
+        self.app.cat.star_id(self.app.cat.star_of(self.c))
+    }
+    fn id(&self) -> &str {
+        self.app.cat.candidate_id(self.c)
+    }
+    fn disagreed(&self) -> bool {
+        self.app.disagree.contains(&self.c)
+    }
+}
+
+impl App {
+    pub fn new(
+        cat: std::sync::Arc<Catalogue>,
+        live: Live,
+        checks: Checks,
+        ledger: Option<Ledger>,
+        vetter: String,
+        keymap: super::keymap::Keymap,
+    ) -> App {
+        let settings = crate::checks::CheckSettings::default();
+        let radius = (0..cat.len() as CandidateId)
+            .map(|c| {
+                crate::checks::derive(&cat, c, &settings)
+                    .radius_rearth
+                    .unwrap_or(f64::NAN)
+            })
+            .collect();
+        let ledger_path = ledger
+            .as_ref()
+            .map_or("none (decisions in memory)".into(), |l| {
+                l.path().display().to_string()
+            });
+        let disagree = ledger
+            .as_ref()
+            .and_then(|l| l.disagreements().ok())
+            .map(|d| d.keys().filter_map(|id| cat.find_candidate(id)).collect())
+            .unwrap_or_default();
+        let mut app = App {
+            cat,
+            live,
+            checks,
+            radius,
+            ledger,
+            ledger_path,
+            vetter,
+            disagree,
+            stars: Vec::new(),
+            star_row: 0,
+            cand_row: 0,
+            focus: Pane::Systems,
+            filter: Filter::default(),
+            sort: SortKey::BestOdds,
+            descending: true,
+            mode: Mode::Normal,
+            undo: Vec::new(),
+            redo: Vec::new(),
+            message: None,
+            advance: true,
+            signals: HashMap::new(),
+            pending: HashSet::new(),
+            page: 10,
+            keymap,
+            pinned: None,
+        };
+        app.refresh_view();
+        app
+    }
+
+    /// The selected star, if any is shown.
+    pub fn star(&self) -> Option<StarId> {
+        self.stars.get(self.star_row).copied()
+    }
+
+    /// The members of the selected star.
+    pub fn members(&self) -> &[CandidateId] {
+        self.star().map_or(&[], |s| self.cat.members(s))
+    }
+
+    /// The selected candidate.
+    pub fn candidate(&self) -> Option<CandidateId> {
+        self.members().get(self.cand_row).copied()
+    }
+
+    fn matches(&self, c: CandidateId) -> bool {
+        self.filter.matches(&Row { app: self, c })
+    }
+
+    /// The best (largest) odds among a star's non-rejected candidates.
+    pub fn best_odds(&self, s: StarId) -> Option<f64> {
+        self.cat
+            .members(s)
+            .iter()
+            .filter_map(|&c| self.live.odds(c))
+            .reduce(f64::max)
+    }
+
+    pub fn star_flags(&self, s: StarId) -> FlagSet {
+        self.cat
+            .members(s)
+            .iter()
+            .map(|&c| self.checks.flags(c))
+            .fold(FlagSet::EMPTY, |a, b| {
+                let mut out = a;
+                b.iter().for_each(|f| out.insert(f));
+                out
+            })
+    }
+
+    /// Rebuilds the index vector of shown stars from the filter and sort,
+    /// keeping the selection on the same star where it is still shown.
+    pub fn refresh_view(&mut self) {
+        let keep = self.star();
+        if self.pinned != keep {
+            self.pinned = None;
+        }
+        let mut stars: Vec<StarId> = (0..self.cat.star_count() as StarId)
+            .filter(|&s| {
+                self.filter.is_empty()
+                    || Some(s) == self.pinned
+                    || self.cat.members(s).iter().any(|&c| self.matches(c))
+            })
+            .collect();
+        let key = |s: StarId| -> f64 {
+            match self.sort {
+                SortKey::BestOdds => self.best_odds(s).unwrap_or(-1.0),
+                SortKey::Multiplicity => self
+                    .cat
+                    .members(s)
+                    .iter()
+                    .filter(|&&c| self.live.k(c) > 0)
+                    .count() as f64,
+                SortKey::Flags => self.star_flags(s).iter().count() as f64,
+                SortKey::Star => 0.0,
+                SortKey::Period => self
+                    .cat
+                    .members(s)
+                    .iter()
+                    .filter_map(|&c| self.cat.value(Field::PeriodD, c))
+                    .fold(f64::INFINITY, f64::min),
+            }
+        };
+        let keys: HashMap<StarId, f64> = stars.iter().map(|&s| (s, key(s))).collect();
+        stars.sort_by(|&a, &b| {
+            let o = keys[&a]
+                .total_cmp(&keys[&b])
+                .then_with(|| self.cat.star_id(a).cmp(self.cat.star_id(b)));
+            if self.descending && self.sort != SortKey::Star {
+                o.reverse()
+            } else {
+                o
+            }
+        });
+        if self.sort == SortKey::Star && self.descending {
+            stars.reverse();
+        }
+        self.stars = stars;
+        self.star_row = keep
+            .and_then(|k| self.stars.iter().position(|&s| s == k))
+            .unwrap_or(0)
+            .min(self.stars.len().saturating_sub(1));
+        self.cand_row = self.cand_row.min(self.members().len().saturating_sub(1));
+    }
+
+    /// Applies one input; returns what the shell must do.
+    pub fn update(&mut self, input: Input) -> Vec<Effect> {
+        let before = self.candidate();
+        let mut effects = match input {
+            Input::Signal(c, result) => {
+                self.pending.remove(&c);
+                self.signals.insert(c, *result);
+                Vec::new()
+            }
+            Input::Resize => Vec::new(),
+            Input::Char(ch) => {
+                self.type_char(ch);
+                Vec::new()
+            }
+            Input::Backspace => {
+                if let Mode::Prompt { text, .. } = &mut self.mode {
+                    text.pop();
+                }
+                self.prompt_changed();
+                Vec::new()
+            }
+            Input::Action(a) => self.act(a),
+        };
+        if let Some(c) = self.candidate() {
+            if (before != Some(c) || !self.signals.contains_key(&c))
+                && !self.pending.contains(&c)
+                && !self.signals.contains_key(&c)
+            {
+                self.pending.insert(c);
+                effects.push(Effect::LoadSignal(c));
+            }
+        }
+        effects
+    }
+
+    /// True while the light-curve result of `c` is being computed.
+    pub fn loading(&self, c: CandidateId) -> bool {
+        self.pending.contains(&c)
+    }
+
+    fn type_char(&mut self, ch: char) {
+        if let Mode::Prompt { text, .. } = &mut self.mode {
+            text.push(ch);
+            self.prompt_changed();
+        }
+    }
+
+    /// Live feedback while typing: filter errors at their position, fuzzy
+    /// jumps as the text grows.
+    fn prompt_changed(&mut self) {
+        if let Mode::Prompt { kind, text, error } = &mut self.mode {
+            match kind {
+                PromptKind::Filter => *error = Filter::parse(text).err(),
+                PromptKind::Find => {
+                    let t = text.clone();
+                    self.jump_fuzzy(&t);
+                }
+            }
+        }
+    }
+
+    fn jump_fuzzy(&mut self, text: &str) {
+        if text.is_empty() {
+            return;
+        }
+        let matcher = SkimMatcherV2::default();
+        let best = (0..self.cat.len() as CandidateId)
+            .filter_map(|c| {
+                matcher
+                    .fuzzy_match(self.cat.candidate_id(c), text)
+                    .map(|score| (score, c))
+            })
+            .max_by(|a, b| a.0.cmp(&b.0).then(b.1.cmp(&a.1)));
+        if let Some((_, c)) = best {
+            self.go_to(c);
+        }
+    }
+
+    /// Selects a candidate, clearing a filter that hides it.
+    pub fn go_to(&mut self, c: CandidateId) {
+        let s = self.cat.star_of(c);
+        if !self.stars.contains(&s) {
+            self.filter = Filter::default();
+            self.refresh_view();
+        }
+        if let Some(row) = self.stars.iter().position(|&x| x == s) {
+            self.star_row = row;
+            self.cand_row = self
+                .cat
+                .members(s)
+                .iter()
+                .position(|&m| m == c)
+                .unwrap_or(0);
+        }
+    }
+
+    fn act(&mut self, a: Action) -> Vec<Effect> {
+        // Overlays and prompts take their keys first.
+        match (&self.mode, a) {
+            (Mode::Help, Action::Close | Action::Help | Action::Quit) => {
+                self.mode = Mode::Normal;
+                return Vec::new();
+            }
+            (Mode::Help, _) => return Vec::new(),
+            (Mode::Prompt { .. }, Action::Close) => {
+                self.mode = Mode::Normal;
+                return Vec::new();
+            }
+            (Mode::Prompt { kind, text, .. }, Action::Select) => {
+                let (kind, text) = (*kind, text.clone());
+                match kind {
+                    PromptKind::Filter => match Filter::parse(&text) {
+                        Ok(f) => {
+                            self.filter = f;
+                            self.mode = Mode::Normal;
+                            self.refresh_view();
+                            self.message = Some(format!("{} systems match", self.stars.len()));
+                        }
+                        Err(e) => {
+                            self.mode = Mode::Prompt {
+                                kind,
+                                text,
+                                error: Some(e),
+                            };
+                        }
+                    },
+                    PromptKind::Find => {
+                        self.jump_fuzzy(&text);
+                        self.mode = Mode::Normal;
+                        self.focus = Pane::Candidates;
+                    }
+                }
+                return Vec::new();
+            }
+            (Mode::Prompt { .. }, _) => return Vec::new(),
+            (Mode::Reasons { selected }, _) => {
+                let sel = *selected;
+                match a {
+                    Action::Up => {
+                        self.mode = Mode::Reasons {
+                            selected: sel.saturating_sub(1),
+                        }
+                    }
+                    Action::Down => {
+                        self.mode = Mode::Reasons {
+                            selected: (sel + 1).min(ALL_REASONS.len() - 1),
+                        }
+                    }
+                    Action::Select | Action::Reject => {
+                        self.mode = Mode::Normal;
+                        self.decide(Decision::Rejected(ALL_REASONS[sel]));
+                    }
+                    Action::Close | Action::Quit => self.mode = Mode::Normal,
+                    _ => {}
+                }
+                return Vec::new();
+            }
+            (Mode::Normal, _) => {}
+        }
+        self.message = None;
+        let rows = match self.focus {
+            Pane::Systems => self.stars.len(),
+            Pane::Candidates => self.members().len(),
+        };
+        let moved = |app: &mut App, to: usize| match app.focus {
+            Pane::Systems => {
+                app.star_row = to.min(rows.saturating_sub(1));
+                app.cand_row = 0;
+            }
+            Pane::Candidates => app.cand_row = to.min(rows.saturating_sub(1)),
+        };
+        let cur = match self.focus {
+            Pane::Systems => self.star_row,
+            Pane::Candidates => self.cand_row,
+        };
+        match a {
+            Action::Quit => return vec![Effect::Quit],
+            Action::Help => self.mode = Mode::Help,
+            Action::Close => {}
+            Action::Find => {
+                self.mode = Mode::Prompt {
+                    kind: PromptKind::Find,
+                    text: String::new(),
+                    error: None,
+                }
+            }
+            Action::Filter => {
+                self.mode = Mode::Prompt {
+                    kind: PromptKind::Filter,
+                    text: self.filter.text.clone(),
+                    error: None,
+                }
+            }
+            Action::SortNext => {
+                let i = SortKey::ALL
+                    .iter()
+                    .position(|k| *k == self.sort)
+                    .unwrap_or(0);
+                self.sort = SortKey::ALL[(i + 1) % SortKey::ALL.len()];
+                self.refresh_view();
+            }
+            Action::SortReverse => {
+                self.descending = !self.descending;
+                self.refresh_view();
+            }
+            Action::Up => moved(self, cur.saturating_sub(1)),
+            Action::Down => moved(self, cur + 1),
+            Action::PageUp => moved(self, cur.saturating_sub(self.page)),
+            Action::PageDown => moved(self, cur + self.page),
+            Action::Top => moved(self, 0),
+            Action::Bottom => moved(self, rows.saturating_sub(1)),
+            Action::NextPane | Action::PrevPane => {
+                self.focus = if self.focus == Pane::Systems {
+                    Pane::Candidates
+                } else {
+                    Pane::Systems
+                }
+            }
+            Action::Select => {
+                if self.focus == Pane::Systems {
+                    self.focus = Pane::Candidates;
+                }
+            }
+            Action::Keep => self.decide(Decision::Kept),
+            Action::Park => self.decide(Decision::Parked),
+            Action::Reopen => self.decide(Decision::Open),
+            Action::Reject => {
+                if self.candidate().is_some() {
+                    self.mode = Mode::Reasons { selected: 0 };
+                }
+            }
+            Action::Undo => self.undo(),
+            Action::Redo => self.redo(),
+            Action::NextOpen => self.next_open(true),
+            Action::PrevOpen => self.next_open(false),
+            Action::NextFlagged => self.next_flagged(),
+            Action::ToggleAdvance => {
+                self.advance = !self.advance;
+                self.message = Some(format!(
+                    "advance after a decision: {}",
+                    if self.advance { "on" } else { "off" }
+                ));
+            }
+            Action::CopyId => {
+                let id = match self.focus {
+                    Pane::Systems => self.star().map(|s| self.cat.star_id(s).to_string()),
+                    Pane::Candidates => self
+                        .candidate()
+                        .map(|c| self.cat.candidate_id(c).to_string()),
+                };
+                if let Some(id) = id {
+                    self.message = Some(format!("copied {}", crate::sanitize::clean(&id)));
+                    return vec![Effect::Copy(id)];
+                }
+            }
+        }
+        Vec::new()
+    }
+
+    /// Records a decision: the ledger first, then the state, then the odds.
+    fn decide(&mut self, d: Decision) {
+        let Some(c) = self.candidate() else { return };
+        let before = self.live.decision(c);
+        match self.record(c, d, None) {
+            Ok(id) => {
+                self.undo.push(Step {
+                    candidate: c,
+                    before,
+                    after: d,
+                    ledger_id: id,
+                });
+                self.redo.clear();
+                self.after_decision(c, d);
+                if self.advance {
+                    self.next_open(true);
+                }
+            }
+            Err(e) => self.message = Some(format!("NOT SAVED: {e}")),
+        }
+    }
+
+    fn record(
+        &mut self,
+        c: CandidateId,
+        d: Decision,
+        undoes: Option<i64>,
+    ) -> Result<Option<i64>, String> {
+        let Some(ledger) = self.ledger.as_mut() else {
+            return Ok(None);
+        };
+        let cat = &self.cat;
+        ledger
+            .record(&NewDecision {
+                candidate: cat.candidate_id(c),
+                star: cat.star_id(cat.star_of(c)),
+                vetter: &self.vetter,
+                decision: d,
+                note: None,
+                undoes,
+            })
+            .map(Some)
+            .map_err(|e| e.to_string())
+    }
+
+    fn after_decision(&mut self, c: CandidateId, d: Decision) {
+        self.live.set_decision(c, d);
+        self.pinned = Some(self.cat.star_of(c));
+        self.message = Some(format!(
+            "{} {}",
+            crate::sanitize::clean(self.cat.candidate_id(c)),
+            d
+        ));
+        self.refresh_view();
+    }
+
+    fn undo(&mut self) {
+        let Some(step) = self.undo.pop() else {
+            self.message = Some("nothing to undo".into());
+            return;
+        };
+        match self.record(step.candidate, step.before, step.ledger_id) {
+            Ok(_) => {
+                self.after_decision(step.candidate, step.before);
+                self.message = Some(format!(
+                    "undone: {}",
+                    crate::sanitize::clean(self.cat.candidate_id(step.candidate))
+                ));
+                self.go_to(step.candidate);
+                self.redo.push(step);
+            }
+            Err(e) => {
+                self.undo.push(step);
+                self.message = Some(format!("NOT SAVED: {e}"));
+            }
+        }
+    }
+
+    fn redo(&mut self) {
+        let Some(step) = self.redo.pop() else {
+            self.message = Some("nothing to redo".into());
+            return;
+        };
+        match self.record(step.candidate, step.after, None) {
+            Ok(id) => {
+                self.after_decision(step.candidate, step.after);
+                self.go_to(step.candidate);
+                self.undo.push(Step {
+                    ledger_id: id,
+                    ..step
+                });
+            }
+            Err(e) => {
+                self.redo.push(step);
+                self.message = Some(format!("NOT SAVED: {e}"));
+            }
+        }
+    }
+
+    /// Moves to the next (or previous) open candidate in view order.
+    fn next_open(&mut self, forward: bool) {
+        let order: Vec<CandidateId> = self
+            .stars
+            .iter()
+            .flat_map(|&s| self.cat.members(s).iter().copied())
+            .collect();
+        if order.is_empty() {
+            return;
+        }
+        let here = self
+            .candidate()
+            .and_then(|c| order.iter().position(|&x| x == c))
+            .unwrap_or(0);
+        let n = order.len();
+        for step in 1..=n {
+            let i = if forward {
+                (here + step) % n
+            } else {
+                (here + n - step % n) % n
+            };
+            if self.live.decision(order[i]) == Decision::Open {
+                let c = order[i];
+                self.go_to(c);
+                self.focus = Pane::Candidates;
+                return;
+            }
+        }
+        self.message = Some("no open candidate left in view".into());
+    }
+
+    fn next_flagged(&mut self) {
+        let n = self.stars.len();
+        for step in 1..=n {
+            let row = (self.star_row + step) % n;
+            if !self.star_flags(self.stars[row]).is_empty() {
+                self.star_row = row;
+                self.cand_row = 0;
+                return;
+            }
+        }
+        self.message = Some("no flagged star in view".into());
+    }
+
+    /// The siblings' odds if the selected candidate were rejected.
+    pub fn what_if(&self) -> Vec<(CandidateId, usize, f64)> {
+        self.candidate()
+            .map_or_else(Vec::new, |c| self.live.what_if_rejected(c))
+    }
+}

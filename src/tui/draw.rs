@@ -1,0 +1,588 @@
+//! Drawing: a pure function of the [`App`] state. Only visible rows become
+//! widgets; every text from the catalogue is sanitised.
+
+use ratatui::Frame;
+use ratatui::layout::{Constraint, Layout, Rect};
+use ratatui::style::{Color, Modifier, Style};
+use ratatui::symbols::Marker;
+use ratatui::text::{Line, Span};
+use ratatui::widgets::{
+    Axis, Block, Borders, Cell, Chart, Clear, Dataset, GraphType, Paragraph, Row, Table, Wrap,
+};
+
+use super::app::{App, Mode, Pane, PromptKind, SignalResult};
+use crate::catalogue::{CandidateId, Field};
+use crate::decision::ALL_REASONS;
+use crate::odds::{Verdict, format_odds};
+use crate::output::num;
+use crate::sanitize::clean;
+
+/// How the terminal can show things: one chokepoint for colour and glyphs.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct Look {
+    pub color: bool,
+    pub ascii: bool,
+}
+
+/// The smallest area the browser draws into.
+pub const MIN_SIZE: (u16, u16) = (60, 16);
+
+fn style(look: Look, color: Color) -> Style {
+    if look.color {
+        Style::default().fg(color)
+    } else {
+        Style::default()
+    }
+}
+
+fn verdict_style(look: Look, v: Verdict) -> Style {
+    match v {
+        Verdict::Validated => style(look, Color::Green).add_modifier(Modifier::BOLD),
+        Verdict::Likely => style(look, Color::Cyan),
+        Verdict::Unlikely => style(look, Color::Yellow),
+        Verdict::Rejected => style(look, Color::DarkGray),
+    }
+}
+
+/// A tiny fold of a candidate's model transit: 8 cells from −2 to +2 durations.
+pub fn sparkline(app: &App, c: CandidateId, look: Look) -> String {
+    let m = crate::lightcurve::model_params(&app.cat, c);
+    let (period, dur) = (
+        app.cat.value(Field::PeriodD, c).unwrap_or(1.0),
+        app.cat.value(Field::DurationH, c).unwrap_or(1.0),
+    );
+    let depth = 1.0 - m.flux(0.0);
+    let glyphs: &[char] = if look.ascii {
+        &['_', '.', '-', '~', '\'']
+    } else {
+        &['▁', '▂', '▃', '▅', '▇']
+    };
+    (0..8)
+        .map(|i| {
+            let x = (i as f64 - 3.5) / 3.5 * 2.0 * dur / 24.0 / period;
+            let f = if depth > 0.0 {
+                (m.flux(x) - (1.0 - depth)) / depth
+            } else {
+                1.0
+            };
+            glyphs[((f.clamp(0.0, 1.0) * (glyphs.len() - 1) as f64).round()) as usize]
+        })
+        .collect()
+}
+
+pub fn draw(app: &App, frame: &mut Frame, look: Look) {
+    let area = frame.area();
+    if area.width < MIN_SIZE.0 || area.height < MIN_SIZE.1 {
+        let msg = format!(
+            "starsift needs at least {}x{}; this terminal is {}x{}",
+            MIN_SIZE.0, MIN_SIZE.1, area.width, area.height
+        );
+        frame.render_widget(Paragraph::new(msg).wrap(Wrap { trim: true }), area);
+        return;
+    }
+    let [main, whatif, status, prompt] = Layout::vertical([
+        Constraint::Min(10),
+        Constraint::Length(1),
+        Constraint::Length(1),
+        Constraint::Length(1),
+    ])
+    .areas(area);
+    let wide = area.width >= 120;
+    let [left, right] = Layout::horizontal(if wide {
+        [Constraint::Percentage(40), Constraint::Percentage(60)]
+    } else {
+        [Constraint::Percentage(45), Constraint::Percentage(55)]
+    })
+    .areas(main);
+    let [systems, facts] =
+        Layout::vertical([Constraint::Percentage(65), Constraint::Percentage(35)]).areas(left);
+    let [candidates, signal] =
+        Layout::vertical([Constraint::Percentage(45), Constraint::Percentage(55)]).areas(right);
+    draw_systems(app, frame, systems, look);
+    draw_candidates(app, frame, candidates, look);
+    draw_signal(app, frame, signal, look);
+    draw_facts(app, frame, facts, look);
+    draw_what_if(app, frame, whatif, look);
+    draw_status(app, frame, status, look);
+    draw_prompt(app, frame, prompt, look);
+    match &app.mode {
+        Mode::Help => draw_help(app, frame, area),
+        Mode::Reasons { selected } => draw_reasons(frame, area, *selected, look),
+        _ => {}
+    }
+}
+
+fn block(title: String, focused: bool, look: Look) -> Block<'static> {
+    let b = Block::default().borders(Borders::ALL).title(title);
+    if focused {
+        b.border_style(style(look, Color::Yellow).add_modifier(Modifier::BOLD))
+    } else {
+        b
+    }
+}
+
+/// The window of rows to draw so the selection stays visible.
+fn window(selected: usize, len: usize, height: usize) -> (usize, usize) {
+    if height == 0 {
+        return (0, 0);
+    }
+    let start = selected
+        .saturating_sub(height / 2)
+        .min(len.saturating_sub(height));
+    (start, (start + height).min(len))
+}
+
+fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    let title = format!(
+        " Systems {} of {} · sort {}{} ",
+        app.stars.len(),
+        app.cat.star_count(),
+        app.sort.name(),
+        if app.descending { " ↓" } else { " ↑" }
+    );
+    let b = block(title, app.focus == Pane::Systems, look);
+    let inner = b.inner(area);
+    frame.render_widget(b, area);
+    let height = inner.height.saturating_sub(1) as usize;
+    let (a, z) = window(app.star_row, app.stars.len(), height);
+    let rows: Vec<Row> = (a..z)
+        .map(|i| {
+            let s = app.stars[i];
+            let k = app
+                .cat
+                .members(s)
+                .iter()
+                .filter(|&&c| app.live.k(c) > 0)
+                .count();
+            let best = app
+                .cat
+                .members(s)
+                .iter()
+                .copied()
+                .filter(|&c| app.live.k(c) > 0)
+                .max_by(|&x, &y| {
+                    app.live
+                        .odds(x)
+                        .unwrap_or(0.0)
+                        .total_cmp(&app.live.odds(y).unwrap_or(0.0))
+                });
+            let spark = best.map_or(String::new(), |c| sparkline(app, c, look));
+            let r = Row::new(vec![
+                Cell::from(clean(app.cat.star_id(s)).into_owned()),
+                Cell::from(k.to_string()),
+                Cell::from(app.best_odds(s).map_or("-".into(), format_odds)),
+                Cell::from(spark),
+                Cell::from(app.star_flags(s).joined(",")),
+            ]);
+            if i == app.star_row {
+                r.style(Style::default().add_modifier(Modifier::REVERSED))
+            } else {
+                r
+            }
+        })
+        .collect();
+    let table = Table::new(
+        rows,
+        [
+            Constraint::Length(9),
+            Constraint::Length(1),
+            Constraint::Length(8),
+            Constraint::Length(8),
+            Constraint::Min(4),
+        ],
+    )
+    .column_spacing(1)
+    .header(
+        Row::new(vec!["star", "k", "odds", "fold", "flags"])
+            .style(Style::default().add_modifier(Modifier::BOLD)),
+    );
+    frame.render_widget(table, inner);
+}
+
+fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    let title = match app.star() {
+        Some(s) => format!(" Candidates of {} ", clean(app.cat.star_id(s))),
+        None => " Candidates ".into(),
+    };
+    let b = block(title, app.focus == Pane::Candidates, look);
+    let inner = b.inner(area);
+    frame.render_widget(b, area);
+    let members = app.members();
+    let height = inner.height.saturating_sub(1) as usize;
+    let (a, z) = window(app.cand_row, members.len(), height);
+    let v = |f, c| app.cat.value(f, c);
+    // Columns by priority; as many as fit are shown, left to right.
+    const COLS: [(&str, u16, u8); 12] = [
+        ("id", 12, 0),
+        ("odds", 8, 0),
+        ("verdict", 9, 0),
+        ("period d", 9, 1),
+        ("decision", 8, 1),
+        ("flags", 10, 1),
+        ("ppm", 7, 2),
+        ("P", 6, 2),
+        ("dur h", 5, 3),
+        ("R⊕", 5, 3),
+        ("SNR", 5, 3),
+        ("boost", 6, 3),
+    ];
+    let mut used = 0u16;
+    let mut shown: Vec<usize> = Vec::new();
+    for level in 0..4u8 {
+        for (i, col) in COLS.iter().enumerate() {
+            if col.2 == level && used + col.1 < inner.width {
+                used += col.1 + 1;
+                shown.push(i);
+            }
+        }
+    }
+    shown.sort_unstable();
+    let rows: Vec<Row> = (a..z)
+        .map(|i| {
+            let c = members[i];
+            let verdict = app.live.verdict(c);
+            let mut flags = app.checks.flags(c).joined(",");
+            if let Some(SignalResult::Data { diagnostics, .. }) = app.signals.get(&c) {
+                for (f, _) in &diagnostics.findings {
+                    if !flags.contains(f.name()) {
+                        if !flags.is_empty() {
+                            flags.push(',');
+                        }
+                        flags.push_str(f.name());
+                    }
+                }
+            }
+            let cell = |k: usize| -> Cell {
+                match k {
+                    0 => Cell::from(clean(app.cat.candidate_id(c)).into_owned()),
+                    1 => Cell::from(app.live.odds(c).map_or("-".into(), format_odds)),
+                    2 => Cell::from(Span::styled(verdict.name(), verdict_style(look, verdict))),
+                    3 => Cell::from(num(v(Field::PeriodD, c), 5)),
+                    4 => Cell::from(app.live.decision(c).name()),
+                    5 => Cell::from(flags.clone()),
+                    6 => Cell::from(num(v(Field::DepthPpm, c), 4)),
+                    7 => Cell::from(
+                        app.live
+                            .probability(c)
+                            .map_or("-".into(), |p| format!("{p:.4}")),
+                    ),
+                    8 => Cell::from(num(v(Field::DurationH, c), 3)),
+                    9 => Cell::from(num(
+                        crate::checks::derive(&app.cat, c, &Default::default()).radius_rearth,
+                        3,
+                    )),
+                    10 => Cell::from(num(v(Field::Snr, c), 3)),
+                    _ => Cell::from(num(app.live.boost(c), 3)),
+                }
+            };
+            let r = Row::new(shown.iter().map(|&k| cell(k)).collect::<Vec<_>>());
+            if i == app.cand_row {
+                r.style(Style::default().add_modifier(Modifier::REVERSED))
+            } else {
+                r
+            }
+        })
+        .collect();
+    let widths: Vec<Constraint> = shown
+        .iter()
+        .map(|&k| Constraint::Length(COLS[k].1))
+        .collect();
+    let header: Vec<&str> = shown.iter().map(|&k| COLS[k].0).collect();
+    frame.render_widget(
+        Table::new(rows, widths)
+            .column_spacing(1)
+            .header(Row::new(header).style(Style::default().add_modifier(Modifier::BOLD))),
+        inner,
+    );
+}
+
+fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    let Some(c) = app.candidate() else {
+        frame.render_widget(block(" Signal ".into(), false, look), area);
+        return;
+    };
+    let m = crate::lightcurve::model_params(&app.cat, c);
+    let (period, dur) = (
+        app.cat.value(Field::PeriodD, c).unwrap_or(1.0),
+        app.cat.value(Field::DurationH, c).unwrap_or(1.0),
+    );
+    let span_h = 3.0 * dur;
+    let to_h = |phase: f64| phase * period * 24.0;
+    let model: Vec<(f64, f64)> = (0..120)
+        .map(|i| {
+            let h = -span_h + 2.0 * span_h * i as f64 / 119.0;
+            (h, (m.flux(h / 24.0 / period) - 1.0) * 1e6)
+        })
+        .collect();
+    let (title, points, note) = match app.signals.get(&c) {
+        Some(SignalResult::Data {
+            binned,
+            diagnostics,
+            source,
+        }) => {
+            let pts: Vec<(f64, f64)> = (0..binned.centre.len())
+                .filter(|&i| binned.mean[i].is_finite())
+                .map(|i| (to_h(binned.centre[i]), (binned.mean[i] - 1.0) * 1e6))
+                .collect();
+            let d = diagnostics;
+            let note = format!(
+                "depth {:.0}±{:.0} · odd {:.0} even {:.0} (Z {:.1}) · sec {:.0}±{:.0} · flat {:.2}",
+                d.depth.value,
+                d.depth.err,
+                d.odd.value,
+                d.even.value,
+                d.odd_even_z,
+                d.secondary.value,
+                d.secondary.err,
+                d.flat_fraction
+            );
+            let src = std::path::Path::new(source)
+                .file_name()
+                .map_or(source.clone(), |f| f.to_string_lossy().into_owned());
+            (format!(" Signal · data {} ", clean(&src)), pts, note)
+        }
+        Some(SignalResult::Model(why)) => (
+            " Signal · model (no light curve) ".to_string(),
+            Vec::new(),
+            clean(why).into_owned(),
+        ),
+        None if app.loading(c) => (
+            " Signal · loading… ".to_string(),
+            Vec::new(),
+            "reading the light curve".into(),
+        ),
+        None => (" Signal · model ".to_string(), Vec::new(), String::new()),
+    };
+    let b = block(title, false, look);
+    let inner = b.inner(area);
+    frame.render_widget(b, area);
+    let [chart_area, note_area] =
+        Layout::vertical([Constraint::Min(3), Constraint::Length(1)]).areas(inner);
+    let ys = points.iter().chain(model.iter()).map(|p| p.1);
+    let lo = ys.clone().fold(f64::INFINITY, f64::min);
+    let hi = ys.fold(f64::NEG_INFINITY, f64::max).max(lo + 1.0);
+    let pad = (hi - lo) * 0.08;
+    let marker = if look.ascii {
+        Marker::Dot
+    } else {
+        Marker::Braille
+    };
+    let mut sets = vec![
+        Dataset::default()
+            .name("model")
+            .marker(marker)
+            .graph_type(GraphType::Line)
+            .style(style(look, Color::Magenta))
+            .data(&model),
+    ];
+    if !points.is_empty() {
+        sets.push(
+            Dataset::default()
+                .name("binned")
+                .marker(marker)
+                .graph_type(GraphType::Scatter)
+                .style(style(look, Color::White))
+                .data(&points),
+        );
+    }
+    let chart = Chart::new(sets)
+        .x_axis(Axis::default().bounds([-span_h, span_h]).labels(vec![
+            Line::from(format!("{:.1} h", -span_h)),
+            Line::from("0"),
+            Line::from(format!("{span_h:.1} h")),
+        ]))
+        .y_axis(Axis::default().bounds([lo - pad, hi + pad]).labels(vec![
+            Line::from(format!("{:.0}", lo)),
+            Line::from(format!("{:.0} ppm", hi)),
+        ]));
+    frame.render_widget(chart, chart_area);
+    frame.render_widget(Paragraph::new(note), note_area);
+}
+
+fn draw_facts(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    let b = block(" Facts ".into(), false, look);
+    let inner = b.inner(area);
+    frame.render_widget(b, area);
+    let Some(c) = app.candidate() else { return };
+    let d = crate::checks::derive(&app.cat, c, &Default::default());
+    let mut lines = vec![
+        Line::from(format!(
+            "R {} R⊕ · a {} au (a/R★ {}) · Teq {} K · S {} S⊕",
+            num(d.radius_rearth, 3),
+            num(d.a_au, 3),
+            num(d.a_rstar, 3),
+            num(d.teq_k.map(f64::round), 4),
+            num(d.insolation_earth, 3)
+        )),
+        Line::from(format!(
+            "ρ★ transit {} / star {} kg/m³ (ratio {}){} · central T14 {} h",
+            num(d.density_transit, 3),
+            num(d.density_star, 3),
+            num(d.density_ratio, 2),
+            if d.assumed_central {
+                ", b = 0 assumed"
+            } else {
+                ""
+            },
+            num(d.t14_central_h, 3)
+        )),
+    ];
+    for f in app.checks.findings(c) {
+        let head = format!("{}{}: ", if f.soft { "warning " } else { "" }, f.flag);
+        lines.push(Line::from(vec![
+            Span::styled(head, style(look, Color::Yellow)),
+            Span::raw(clean(&f.why).into_owned()),
+        ]));
+    }
+    if let Some(SignalResult::Data { diagnostics, .. }) = app.signals.get(&c) {
+        for (f, why) in &diagnostics.findings {
+            lines.push(Line::from(vec![
+                Span::styled(format!("{f}: "), style(look, Color::Yellow)),
+                Span::raw(clean(why).into_owned()),
+            ]));
+        }
+    }
+    frame.render_widget(Paragraph::new(lines).wrap(Wrap { trim: true }), inner);
+}
+
+fn draw_what_if(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    let w = app.what_if();
+    let text = if w.is_empty() {
+        String::new()
+    } else {
+        let each: Vec<String> = w
+            .iter()
+            .map(|(s, k, o)| {
+                format!(
+                    "{} → {} (k={k})",
+                    clean(app.cat.candidate_id(*s)),
+                    format_odds(*o)
+                )
+            })
+            .collect();
+        format!("if rejected: {}", each.join(", "))
+    };
+    frame.render_widget(Paragraph::new(text).style(style(look, Color::Cyan)), area);
+}
+
+fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    let c = app.live.counts();
+    let m = app.live.model();
+    let text = match &app.message {
+        Some(msg) => clean(msg).into_owned(),
+        None => format!(
+            "{} · {} validated {} likely {} unlikely {} rejected · filter [{}] · {} · N={} f={} · disagree {} · ? keys",
+            clean(&app.cat.source),
+            c.validated,
+            c.likely,
+            c.unlikely,
+            c.rejected,
+            clean(&app.filter.text),
+            clean(&app.vetter),
+            m.targets.map_or("?".into(), |n| n.to_string()),
+            m.fp_fraction,
+            app.disagree.len(),
+        ),
+    };
+    let st = if app
+        .message
+        .as_deref()
+        .is_some_and(|m| m.starts_with("NOT SAVED"))
+    {
+        style(look, Color::Red).add_modifier(Modifier::BOLD)
+    } else {
+        Style::default().add_modifier(Modifier::REVERSED)
+    };
+    frame.render_widget(Paragraph::new(text).style(st), area);
+}
+
+fn draw_prompt(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    let line = match &app.mode {
+        Mode::Prompt { kind, text, error } => {
+            let head = match kind {
+                PromptKind::Filter => "filter: ",
+                PromptKind::Find => "find: ",
+            };
+            let mut spans = vec![
+                Span::raw(head),
+                Span::raw(clean(text).into_owned()),
+                Span::raw("▏"),
+            ];
+            if let Some(e) = error {
+                spans.push(Span::styled(format!("  {e}"), style(look, Color::Red)));
+            }
+            Line::from(spans)
+        }
+        _ => Line::from(format!(
+            "ledger {} · {} keep · {} reject · {} park · {} undo · {} filter · {} find",
+            clean(&app.ledger_path),
+            app.keymap.keys_of(super::app::Action::Keep),
+            app.keymap.keys_of(super::app::Action::Reject),
+            app.keymap.keys_of(super::app::Action::Park),
+            app.keymap.keys_of(super::app::Action::Undo),
+            app.keymap.keys_of(super::app::Action::Filter),
+            app.keymap.keys_of(super::app::Action::Find),
+        )),
+    };
+    frame.render_widget(Paragraph::new(line), area);
+}
+
+fn centred(area: Rect, w: u16, h: u16) -> Rect {
+    let w = w.min(area.width);
+    let h = h.min(area.height);
+    Rect {
+        x: area.x + (area.width - w) / 2,
+        y: area.y + (area.height - h) / 2,
+        width: w,
+        height: h,
+    }
+}
+
+fn draw_help(app: &App, frame: &mut Frame, area: Rect) {
+    let lines: Vec<Line> = super::app::Action::ALL
+        .iter()
+        .map(|a| {
+            Line::from(format!(
+                "{:<16} {:<18} {}",
+                a.name(),
+                app.keymap.keys_of(*a),
+                a.describe()
+            ))
+        })
+        .collect();
+    let r = centred(area, 100, lines.len() as u16 + 2);
+    frame.render_widget(Clear, r);
+    frame.render_widget(
+        Paragraph::new(lines).block(
+            Block::default()
+                .borders(Borders::ALL)
+                .title(" Keys (Esc closes) "),
+        ),
+        r,
+    );
+}
+
+fn draw_reasons(frame: &mut Frame, area: Rect, selected: usize, look: Look) {
+    let lines: Vec<Line> = ALL_REASONS
+        .iter()
+        .enumerate()
+        .map(|(i, r)| {
+            let l = Line::from(format!(" {} ", r.name()));
+            if i == selected {
+                l.style(style(look, Color::Yellow).add_modifier(Modifier::REVERSED))
+            } else {
+                l
+            }
+        })
+        .collect();
+    let r = centred(area, 30, lines.len() as u16 + 2);
+    frame.render_widget(Clear, r);
+    frame.render_widget(
+        Paragraph::new(lines).block(
+            Block::default()
+                .borders(Borders::ALL)
+                .title(" Reject: why? "),
+        ),
+        r,
+    );
+}

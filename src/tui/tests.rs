@@ -1,0 +1,202 @@
+//! The browser without a terminal: actions → state, and rendering on
+//! ratatui's TestBackend at 80x24 and at a tiny size.
+
+use ratatui::Terminal;
+use ratatui::backend::TestBackend;
+
+use super::app::{Action, App, Input, Mode, Pane};
+use super::draw::{Look, draw};
+use super::keymap::Keymap;
+use crate::decision::Decision;
+use crate::odds::{Live, Model};
+
+fn demo_app() -> App {
+    let cat = crate::demo::catalogue().unwrap();
+    let checks = crate::checks::run(&cat, &Default::default());
+    let model = Model {
+        targets: Some(crate::demo::DEMO_TARGETS),
+        ..Model::default()
+    };
+    let live = Live::with_state(
+        &cat,
+        model,
+        checks.all_flags().to_vec(),
+        vec![Decision::Open; cat.len()],
+    )
+    .unwrap();
+    App::new(
+        std::sync::Arc::new(cat),
+        live,
+        checks,
+        None,
+        "tester".into(),
+        Keymap::load(&[]).unwrap(),
+    )
+}
+
+fn act(app: &mut App, a: Action) {
+    app.update(Input::Action(a));
+}
+
+fn typed(app: &mut App, text: &str) {
+    for c in text.chars() {
+        app.update(Input::Char(c));
+    }
+}
+
+fn screen(app: &App, w: u16, h: u16) -> String {
+    let mut t = Terminal::new(TestBackend::new(w, h)).unwrap();
+    t.draw(|f| {
+        draw(
+            app,
+            f,
+            Look {
+                color: false,
+                ascii: true,
+            },
+        )
+    })
+    .unwrap();
+    let buf = t.backend().buffer().clone();
+    (0..h)
+        .map(|y| {
+            (0..w)
+                .map(|x| buf[(x, y)].symbol().to_string())
+                .collect::<String>()
+                .trim_end()
+                .to_string()
+        })
+        .collect::<Vec<_>>()
+        .join("\n")
+}
+
+#[test]
+fn rejecting_one_of_three_drops_the_siblings_to_two_candidate_odds() {
+    let mut app = demo_app();
+    typed_filter(&mut app, "k=3");
+    assert!(app.stars.iter().all(|&s| app.cat.members(s).len() == 3));
+    act(&mut app, Action::Select);
+    assert_eq!(app.focus, Pane::Candidates);
+    let members = app.members().to_vec();
+    let before = app.live.odds(members[1]).unwrap();
+    let what_if = app.what_if();
+    act(&mut app, Action::Reject);
+    assert!(matches!(app.mode, Mode::Reasons { .. }));
+    act(&mut app, Action::Down);
+    act(&mut app, Action::Select);
+    assert_eq!(
+        app.live.decision(members[0]),
+        Decision::Rejected(crate::decision::Reason::Blend)
+    );
+    let after = app.live.odds(members[1]).unwrap();
+    assert!(after < before);
+    assert_eq!(what_if[0].2, after, "the what-if line said so");
+    assert_eq!(app.live.counts().rejected, 1);
+    // Undo and redo.
+    act(&mut app, Action::Undo);
+    assert_eq!(app.live.decision(members[0]), Decision::Open);
+    assert_eq!(app.live.odds(members[1]), Some(before));
+    act(&mut app, Action::Redo);
+    assert!(app.live.decision(members[0]).is_rejected());
+}
+
+fn typed_filter(app: &mut App, text: &str) {
+    act(app, Action::Filter);
+    typed(app, text);
+    act(app, Action::Select);
+    assert!(matches!(app.mode, Mode::Normal), "{:?}", app.mode);
+}
+
+#[test]
+fn filter_errors_stay_at_the_prompt_with_the_position() {
+    let mut app = demo_app();
+    act(&mut app, Action::Filter);
+    typed(&mut app, "odds>=100 peroid<3");
+    act(&mut app, Action::Select);
+    match &app.mode {
+        Mode::Prompt { error: Some(e), .. } => assert_eq!(e.pos, 10),
+        m => panic!("{m:?}"),
+    }
+    let s = screen(&app, 80, 24);
+    assert!(s.contains("at column 11"), "{s}");
+    act(&mut app, Action::Close);
+    assert!(matches!(app.mode, Mode::Normal));
+}
+
+#[test]
+fn keep_advances_to_the_next_open_candidate_and_find_jumps() {
+    let mut app = demo_app();
+    act(&mut app, Action::Select);
+    let first = app.candidate().unwrap();
+    act(&mut app, Action::Keep);
+    assert_eq!(app.live.decision(first), Decision::Kept);
+    assert_ne!(app.candidate(), Some(first));
+    assert_eq!(app.live.decision(app.candidate().unwrap()), Decision::Open);
+    act(&mut app, Action::Find);
+    typed(&mut app, "HWT20300-s3");
+    act(&mut app, Action::Select);
+    assert_eq!(
+        app.cat.candidate_id(app.candidate().unwrap()),
+        "HWT20300-s3"
+    );
+    act(&mut app, Action::SortNext);
+    act(&mut app, Action::SortReverse);
+    assert_eq!(
+        app.cat.candidate_id(app.candidate().unwrap()),
+        "HWT20300-s3",
+        "the selection survives a sort"
+    );
+}
+
+#[test]
+fn renders_at_80x24_and_says_so_when_too_small() {
+    let mut app = demo_app();
+    let s = screen(&app, 80, 24);
+    assert!(s.contains("Systems 321 of 321"), "{s}");
+    assert!(s.contains("Candidates of"), "{s}");
+    assert!(s.contains("Facts"), "{s}");
+    assert!(s.contains("validated"), "{s}");
+    act(&mut app, Action::Help);
+    let h = screen(&app, 120, 40);
+    for a in Action::ALL {
+        assert!(h.contains(a.name()), "help lacks {}", a.name());
+    }
+    let tiny = screen(&app, 20, 6);
+    assert!(
+        tiny.contains("starsift needs at") && tiny.contains("20x6"),
+        "{tiny}"
+    );
+    for (w, h) in [(1, 1), (2, 3), (59, 15), (60, 16)] {
+        let _ = screen(&app, w, h);
+    }
+}
+
+#[test]
+fn escape_sequences_in_ids_never_reach_the_screen() {
+    let text = "star,candidate,period_d,epoch,depth_ppm,duration_h\nE\u{1b}[2J,E-\u{1b}]0;x\u{7}1,3,10,500,2\n";
+    let cat = crate::catalogue::Catalogue::load(
+        crate::catalogue::Source::Bytes {
+            name: "esc.csv",
+            data: text.as_bytes(),
+        },
+        &Default::default(),
+    )
+    .unwrap();
+    let checks = crate::checks::run(&cat, &Default::default());
+    let model = Model {
+        targets: Some(100),
+        ..Model::default()
+    };
+    let live = Live::new(&cat, model).unwrap();
+    let app = App::new(
+        std::sync::Arc::new(cat),
+        live,
+        checks,
+        None,
+        "t".into(),
+        Keymap::load(&[]).unwrap(),
+    );
+    let s = screen(&app, 100, 30);
+    assert!(!s.contains('\u{1b}') && !s.contains('\u{7}'));
+    assert!(s.contains("E\\x1b[2J"), "{s}");
+}

@@ -1,0 +1,133 @@
+//! The browser in a real terminal: tmux starts it on the demo, keys are sent
+//! as a person would type them, and the pane is read back.
+
+mod common;
+
+use std::process::Command;
+use std::thread::sleep;
+use std::time::{Duration, Instant};
+
+fn tmux(args: &[&str]) -> String {
+    let o = Command::new("tmux").args(args).output().expect("tmux");
+    String::from_utf8_lossy(&o.stdout).into_owned()
+}
+
+fn pane(session: &str) -> String {
+    tmux(&["capture-pane", "-t", session, "-p"])
+}
+
+/// Waits until the pane shows `text` (or fails after a few seconds).
+fn wait_for(session: &str, text: &str) -> String {
+    let start = Instant::now();
+    loop {
+        let p = pane(session);
+        if p.contains(text) {
+            return p;
+        }
+        if start.elapsed() > Duration::from_secs(10) {
+            panic!("the pane never showed {text:?}:\n{p}");
+        }
+        sleep(Duration::from_millis(100));
+    }
+}
+
+fn keys(session: &str, k: &[&str]) {
+    let mut args = vec!["send-keys", "-t", session];
+    args.extend_from_slice(k);
+    tmux(&args);
+    sleep(Duration::from_millis(250));
+}
+
+#[test]
+fn browse_the_demo_reject_one_of_three_and_quit() {
+    if Command::new("tmux").arg("-V").output().is_err() {
+        assert!(
+            std::env::var_os("CI").is_none(),
+            "CI must install tmux (see .ci/run)"
+        );
+        eprintln!("tmux is not installed: skipping the terminal test");
+        return;
+    }
+    let dir = common::scratch("tmux");
+    let session = format!("starsift-test-{}", std::process::id());
+    let status = dir.join("status");
+    // The shell runs the browser, then records its exit status and whether a
+    // plain command still works afterwards (the terminal was restored).
+    let script = format!(
+        "cd {d} && XDG_DATA_HOME={d}/data {bin}; echo $? > {s}; stty -a > {d}/stty.txt; echo shell-ok >> {s}; sleep 30",
+        d = dir.display(),
+        bin = env!("CARGO_BIN_EXE_starsift"),
+        s = status.display()
+    );
+    tmux(&["kill-session", "-t", &session]);
+    tmux(&[
+        "new-session",
+        "-d",
+        "-s",
+        &session,
+        "-x",
+        "80",
+        "-y",
+        "24",
+        "bash",
+        "-c",
+        &script,
+    ]);
+    wait_for(&session, "Systems 321 of 321");
+    keys(&session, &["?"]);
+    wait_for(&session, "Keys (Esc closes)");
+    keys(&session, &["Escape"]);
+    sleep(Duration::from_millis(300));
+    keys(&session, &["f"]);
+    keys(&session, &["k=3"]);
+    keys(&session, &["Enter"]);
+    wait_for(&session, "Systems 18 of 321");
+    keys(&session, &["Enter"]);
+    let before = wait_for(&session, "if rejected:");
+    // The what-if line names the siblings and the odds they would have.
+    let line = before
+        .lines()
+        .find(|l| l.starts_with("if rejected:"))
+        .unwrap()
+        .to_string();
+    let predicted: String = line
+        .split("→ ")
+        .nth(1)
+        .unwrap()
+        .split(' ')
+        .next()
+        .unwrap()
+        .to_string();
+    keys(&session, &["x"]);
+    wait_for(&session, "Reject: why?");
+    keys(&session, &["Enter"]);
+    let after = wait_for(&session, "rejected (eclipsing-binary)");
+    assert!(
+        after.contains(&predicted),
+        "the siblings now show {predicted}:\n{after}"
+    );
+    // The two-candidate odds: the same as every other 2-candidate star now.
+    keys(&session, &["q"]);
+    let start = Instant::now();
+    while !std::fs::read_to_string(&status)
+        .unwrap_or_default()
+        .contains("shell-ok")
+    {
+        assert!(
+            start.elapsed() < Duration::from_secs(10),
+            "the browser did not quit"
+        );
+        sleep(Duration::from_millis(100));
+    }
+    let s = std::fs::read_to_string(&status).unwrap();
+    assert!(s.starts_with("0\n"), "exit status: {s}");
+    let stty = std::fs::read_to_string(dir.join("stty.txt")).unwrap();
+    assert!(
+        stty.contains(" icanon") && stty.contains(" echo "),
+        "the terminal was not restored: {stty}"
+    );
+    tmux(&["kill-session", "-t", &session]);
+    // The decision is in the demo's ledger.
+    let l = starsift::ledger::Ledger::open(&dir.join("data/starsift/demo.ledger.sqlite")).unwrap();
+    assert_eq!(l.len().unwrap(), 1);
+}
