@@ -252,7 +252,9 @@ pub struct App {
     pub cat: std::sync::Arc<Catalogue>,
     pub live: Live,
     pub checks: Checks,
-    radius: Vec<f64>,
+    /// Planet radii, computed on first use (only a `radius` filter needs them all).
+    radius: std::cell::OnceCell<Vec<f64>>,
+    id_rank: std::cell::OnceCell<Vec<u32>>,
     pub ledger: Option<Ledger>,
     pub ledger_path: String,
     pub vetter: String,
@@ -296,7 +298,7 @@ impl Subject for Row<'_> {
             NumField::Depth => v(Field::DepthPpm),
             NumField::Duration => v(Field::DurationH),
             NumField::Snr => v(Field::Snr),
-            NumField::Radius => Some(a.radius[c as usize]).filter(|r| r.is_finite()),
+            NumField::Radius => Some(a.radii()[c as usize]).filter(|r| r.is_finite()),
             NumField::K => Some(a.live.k(c) as f64),
             NumField::Boost => a.live.boost(c),
             NumField::Prior => Some(a.live.prior(c)),
@@ -337,14 +339,6 @@ impl App {
         vetter: String,
         keymap: super::keymap::Keymap,
     ) -> App {
-        let settings = crate::checks::CheckSettings::default();
-        let radius = (0..cat.len() as CandidateId)
-            .map(|c| {
-                crate::checks::derive(&cat, c, &settings)
-                    .radius_rearth
-                    .unwrap_or(f64::NAN)
-            })
-            .collect();
         let ledger_path = ledger
             .as_ref()
             .map_or("none (decisions in memory)".into(), |l| {
@@ -359,7 +353,8 @@ impl App {
             cat,
             live,
             checks,
-            radius,
+            radius: std::cell::OnceCell::new(),
+            id_rank: std::cell::OnceCell::new(),
             ledger,
             ledger_path,
             vetter,
@@ -384,6 +379,86 @@ impl App {
         };
         app.refresh_view();
         app
+    }
+
+    fn radii(&self) -> &[f64] {
+        self.radius.get_or_init(|| {
+            let settings = crate::checks::CheckSettings::default();
+            (0..self.cat.len() as CandidateId)
+                .map(|c| {
+                    crate::checks::derive(&self.cat, c, &settings)
+                        .radius_rearth
+                        .unwrap_or(f64::NAN)
+                })
+                .collect()
+        })
+    }
+
+    /// The sort key of a star (larger first when descending).
+    fn sort_key(&self, s: StarId) -> f64 {
+        match self.sort {
+            SortKey::BestOdds => self.best_odds(s).unwrap_or(-1.0),
+            SortKey::Multiplicity => self
+                .cat
+                .members(s)
+                .iter()
+                .filter(|&&c| self.live.k(c) > 0)
+                .count() as f64,
+            SortKey::Flags => self.star_flags(s).iter().count() as f64,
+            SortKey::Star => 0.0,
+            SortKey::Period => self
+                .cat
+                .members(s)
+                .iter()
+                .filter_map(|&c| self.cat.value(Field::PeriodD, c))
+                .fold(f64::INFINITY, f64::min),
+        }
+    }
+
+    /// Each star's place in id order, computed once: sorting compares
+    /// integers, not strings.
+    fn id_rank(&self) -> &[u32] {
+        self.id_rank.get_or_init(|| {
+            let mut order: Vec<StarId> = (0..self.cat.star_count() as StarId).collect();
+            order.sort_unstable_by(|&a, &b| self.cat.star_id(a).cmp(self.cat.star_id(b)));
+            let mut rank = vec![0u32; order.len()];
+            for (r, &s) in order.iter().enumerate() {
+                rank[s as usize] = r as u32;
+            }
+            rank
+        })
+    }
+
+    /// Orders (key, star) pairs: by key, then by star id.
+    fn order(&self, a: &(f64, StarId), b: &(f64, StarId)) -> std::cmp::Ordering {
+        let by_key = a.0.total_cmp(&b.0);
+        let by_key = if self.descending {
+            by_key.reverse()
+        } else {
+            by_key
+        };
+        let rank = self.id_rank();
+        let by_id = rank[a.1 as usize].cmp(&rank[b.1 as usize]);
+        match self.sort {
+            SortKey::Star if self.descending => by_id.reverse(),
+            SortKey::Star => by_id,
+            _ => by_key.then(by_id),
+        }
+    }
+
+    /// After a decision on star `s`: only its place in the view changes
+    /// (every other star of the same size moves with the same factor, so the
+    /// order among them holds); O(log n) to find, one memmove to move.
+    fn reposition(&mut self, s: StarId) {
+        if let Some(i) = self.stars.iter().position(|&x| x == s) {
+            self.stars.remove(i);
+        }
+        let key = (self.sort_key(s), s);
+        let at = self.stars.partition_point(|&x| {
+            self.order(&(self.sort_key(x), x), &key) == std::cmp::Ordering::Less
+        });
+        self.stars.insert(at, s);
+        self.star_row = at;
     }
 
     /// The selected star, if any is shown.
@@ -433,46 +508,16 @@ impl App {
         if self.pinned != keep {
             self.pinned = None;
         }
-        let mut stars: Vec<StarId> = (0..self.cat.star_count() as StarId)
+        let stars: Vec<StarId> = (0..self.cat.star_count() as StarId)
             .filter(|&s| {
                 self.filter.is_empty()
                     || Some(s) == self.pinned
                     || self.cat.members(s).iter().any(|&c| self.matches(c))
             })
             .collect();
-        let key = |s: StarId| -> f64 {
-            match self.sort {
-                SortKey::BestOdds => self.best_odds(s).unwrap_or(-1.0),
-                SortKey::Multiplicity => self
-                    .cat
-                    .members(s)
-                    .iter()
-                    .filter(|&&c| self.live.k(c) > 0)
-                    .count() as f64,
-                SortKey::Flags => self.star_flags(s).iter().count() as f64,
-                SortKey::Star => 0.0,
-                SortKey::Period => self
-                    .cat
-                    .members(s)
-                    .iter()
-                    .filter_map(|&c| self.cat.value(Field::PeriodD, c))
-                    .fold(f64::INFINITY, f64::min),
-            }
-        };
-        let keys: HashMap<StarId, f64> = stars.iter().map(|&s| (s, key(s))).collect();
-        stars.sort_by(|&a, &b| {
-            let o = keys[&a]
-                .total_cmp(&keys[&b])
-                .then_with(|| self.cat.star_id(a).cmp(self.cat.star_id(b)));
-            if self.descending && self.sort != SortKey::Star {
-                o.reverse()
-            } else {
-                o
-            }
-        });
-        if self.sort == SortKey::Star && self.descending {
-            stars.reverse();
-        }
+        let mut keyed: Vec<(f64, StarId)> = stars.iter().map(|&s| (self.sort_key(s), s)).collect();
+        keyed.sort_unstable_by(|a, b| self.order(a, b));
+        let stars: Vec<StarId> = keyed.into_iter().map(|(_, s)| s).collect();
         self.stars = stars;
         self.star_row = keep
             .and_then(|k| self.stars.iter().position(|&s| s == k))
@@ -787,13 +832,16 @@ impl App {
 
     fn after_decision(&mut self, c: CandidateId, d: Decision) {
         self.live.set_decision(c, d);
-        self.pinned = Some(self.cat.star_of(c));
+        let s = self.cat.star_of(c);
+        self.pinned = Some(s);
         self.message = Some(format!(
             "{} {}",
             crate::sanitize::clean(self.cat.candidate_id(c)),
             d
         ));
-        self.refresh_view();
+        let row = self.cand_row;
+        self.reposition(s);
+        self.cand_row = row.min(self.members().len().saturating_sub(1));
     }
 
     fn undo(&mut self) {
@@ -839,30 +887,33 @@ impl App {
         }
     }
 
-    /// Moves to the next (or previous) open candidate in view order.
+    /// Moves to the next (or previous) open candidate in view order,
+    /// looking star by star from the selection (no pass over the whole view).
     fn next_open(&mut self, forward: bool) {
-        let order: Vec<CandidateId> = self
-            .stars
-            .iter()
-            .flat_map(|&s| self.cat.members(s).iter().copied())
-            .collect();
-        if order.is_empty() {
+        let n = self.stars.len();
+        if n == 0 {
             return;
         }
-        let here = self
-            .candidate()
-            .and_then(|c| order.iter().position(|&x| x == c))
-            .unwrap_or(0);
-        let n = order.len();
-        for step in 1..=n {
-            let i = if forward {
-                (here + step) % n
+        for step in 0..=n {
+            let row = if forward {
+                (self.star_row + step) % n
             } else {
-                (here + n - step % n) % n
+                (self.star_row + n - step % n) % n
             };
-            if self.live.decision(order[i]) == Decision::Open {
-                let c = order[i];
-                self.go_to(c);
+            let members = self.cat.members(self.stars[row]);
+            let m = members.len();
+            let picks: Vec<usize> = match (step, forward) {
+                (0, true) => (self.cand_row + 1..m).collect(),
+                (0, false) => (0..self.cand_row.min(m)).rev().collect(),
+                (_, true) => (0..m).collect(),
+                (_, false) => (0..m).rev().collect(),
+            };
+            if let Some(&i) = picks
+                .iter()
+                .find(|&&i| self.live.decision(members[i]) == Decision::Open)
+            {
+                self.star_row = row;
+                self.cand_row = i;
                 self.focus = Pane::Candidates;
                 return;
             }

@@ -1,0 +1,134 @@
+//! Bench: the browser on the 1,000,000-candidate synthetic catalogue —
+//! start-up to the first frame, every keystroke handled and drawn on a
+//! 200x50 TestBackend (p99), and bytes written to a terminal per navigation
+//! keystroke at 100x30 through a counting writer.
+//!
+//! Run: `cargo bench --bench tui` (uses bench-data/big-1000000.csv).
+
+use std::io::Write;
+use std::sync::Arc;
+use std::time::Instant;
+
+use ratatui::Terminal;
+use ratatui::backend::{CrosstermBackend, TestBackend};
+use starsift::catalogue::{Catalogue, LoadOptions, Source};
+use starsift::decision::Decision;
+use starsift::odds::{Live, Model};
+use starsift::tui::app::{Action, App, Input};
+use starsift::tui::draw::{Look, draw};
+use starsift::tui::keymap::Keymap;
+
+struct Counting(Arc<std::sync::atomic::AtomicUsize>);
+
+impl Write for Counting {
+    fn write(&mut self, b: &[u8]) -> std::io::Result<usize> {
+        self.0
+            .fetch_add(b.len(), std::sync::atomic::Ordering::Relaxed);
+        Ok(b.len())
+    }
+    fn flush(&mut self) -> std::io::Result<()> {
+        Ok(())
+    }
+}
+
+fn main() {
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("bench-data/big-1000000.csv");
+    if !path.exists() {
+        std::fs::create_dir_all(path.parent().expect("parent")).expect("dir");
+        starsift::demo::write_big(&path, 1_000_000, 42).expect("write");
+    }
+    let look = Look {
+        color: true,
+        ascii: false,
+    };
+    let t = Instant::now();
+    let cat = Catalogue::load(Source::Path(&path), &LoadOptions::default()).expect("load");
+    let checks = starsift::checks::run(&cat, &Default::default());
+    let model = Model {
+        targets: Some(cat.star_count() as u64 * 20),
+        ..Model::default()
+    };
+    let live = Live::with_state(
+        &cat,
+        model,
+        checks.all_flags().to_vec(),
+        vec![Decision::Open; cat.len()],
+    )
+    .expect("model");
+    let mut app = App::new(
+        Arc::new(cat),
+        live,
+        checks,
+        None,
+        "bench".into(),
+        Keymap::load(&[]).expect("keys"),
+    );
+    let mut term = Terminal::new(TestBackend::new(200, 50)).expect("term");
+    term.draw(|f| draw(&app, f, look)).expect("draw");
+    println!(
+        "start-up to the first frame (load, checks, odds, first draw): {:.3} s",
+        t.elapsed().as_secs_f64()
+    );
+
+    let script: Vec<(&str, Vec<Input>)> = vec![
+        ("move", vec![Input::Action(Action::Down)]),
+        ("page", vec![Input::Action(Action::PageDown)]),
+        ("sort change", vec![Input::Action(Action::SortNext)]),
+        (
+            "decision",
+            vec![Input::Action(Action::NextPane), Input::Action(Action::Keep)],
+        ),
+        (
+            "filter edit",
+            vec![
+                Input::Action(Action::Filter),
+                Input::Char('k'),
+                Input::Char('>'),
+                Input::Char('1'),
+                Input::Action(Action::Select),
+            ],
+        ),
+    ];
+    for (name, inputs) in &script {
+        let mut times = Vec::new();
+        for _ in 0..40 {
+            for input in inputs {
+                let t = Instant::now();
+                app.update(input.clone());
+                term.draw(|f| draw(&app, f, look)).expect("draw");
+                times.push(t.elapsed().as_secs_f64() * 1e3);
+            }
+            if *name == "filter edit" {
+                app.update(Input::Action(Action::Filter));
+                for _ in 0..3 {
+                    app.update(Input::Backspace);
+                }
+                app.update(Input::Action(Action::Select));
+            }
+        }
+        times.sort_by(f64::total_cmp);
+        println!(
+            "{name:<12} median {:.2} ms, p99 {:.2} ms ({} keystrokes)",
+            times[times.len() / 2],
+            times[(times.len() as f64 * 0.99) as usize - 1],
+            times.len()
+        );
+    }
+    // Bytes per navigation keystroke at 100x30.
+    let count = Arc::new(std::sync::atomic::AtomicUsize::new(0));
+    let mut term =
+        Terminal::new(CrosstermBackend::new(Counting(Arc::clone(&count)))).expect("term");
+    term.resize(ratatui::layout::Rect::new(0, 0, 100, 30))
+        .expect("resize");
+    term.draw(|f| draw(&app, f, look)).expect("draw");
+    let base = count.load(std::sync::atomic::Ordering::Relaxed);
+    let n = 50;
+    for _ in 0..n {
+        app.update(Input::Action(Action::Down));
+        term.draw(|f| draw(&app, f, look)).expect("draw");
+    }
+    println!(
+        "bytes written per navigation keystroke at 100x30: {} B",
+        (count.load(std::sync::atomic::Ordering::Relaxed) - base) / n
+    );
+}
