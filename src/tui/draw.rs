@@ -145,6 +145,8 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     frame.render_widget(b, area);
     let height = inner.height.saturating_sub(1) as usize;
     let (a, z) = window(app.star_row, app.stars.len(), height);
+    // The fold sparkline only where the id, k, odds and some flags still fit.
+    let with_fold = inner.width >= 40;
     let rows: Vec<Row> = (a..z)
         .map(|i| {
             let s = app.stars[i];
@@ -166,14 +168,18 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
                         .unwrap_or(0.0)
                         .total_cmp(&app.live.odds(y).unwrap_or(0.0))
                 });
-            let spark = best.map_or(String::new(), |c| sparkline(app, c, look));
-            let r = Row::new(vec![
+            let mut cells = vec![
                 Cell::from(clean(app.cat.star_id(s)).into_owned()),
                 Cell::from(k.to_string()),
                 Cell::from(app.best_odds(s).map_or("-".into(), format_odds)),
-                Cell::from(spark),
-                Cell::from(app.star_flags(s).joined(",")),
-            ]);
+            ];
+            if with_fold {
+                cells.push(Cell::from(
+                    best.map_or(String::new(), |c| sparkline(app, c, look)),
+                ));
+            }
+            cells.push(Cell::from(app.star_flags(s).joined(",")));
+            let r = Row::new(cells);
             if i == app.star_row {
                 r.style(Style::default().add_modifier(Modifier::REVERSED))
             } else {
@@ -181,21 +187,31 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             }
         })
         .collect();
-    let table = Table::new(
-        rows,
-        [
-            Constraint::Length(9),
-            Constraint::Length(1),
-            Constraint::Length(8),
-            Constraint::Length(8),
-            Constraint::Min(4),
-        ],
-    )
-    .column_spacing(1)
-    .header(
-        Row::new(vec!["star", "k", "odds", "fold", "flags"])
-            .style(Style::default().add_modifier(Modifier::BOLD)),
-    );
+    let (widths, header) = if with_fold {
+        (
+            vec![
+                Constraint::Length(9),
+                Constraint::Length(1),
+                Constraint::Length(8),
+                Constraint::Length(8),
+                Constraint::Min(4),
+            ],
+            vec!["star", "k", "odds", "fold", "flags"],
+        )
+    } else {
+        (
+            vec![
+                Constraint::Length(9),
+                Constraint::Length(1),
+                Constraint::Length(8),
+                Constraint::Min(4),
+            ],
+            vec!["star", "k", "odds", "flags"],
+        )
+    };
+    let table = Table::new(rows, widths)
+        .column_spacing(1)
+        .header(Row::new(header).style(Style::default().add_modifier(Modifier::BOLD)));
     frame.render_widget(table, inner);
 }
 
