@@ -45,11 +45,12 @@ pub enum Action {
     NextFlagged,
     ToggleAdvance,
     CopyId,
+    ShowLedger,
     Close,
 }
 
 impl Action {
-    pub const ALL: [Action; 27] = [
+    pub const ALL: [Action; 28] = [
         Action::Quit,
         Action::Help,
         Action::Find,
@@ -76,6 +77,7 @@ impl Action {
         Action::NextFlagged,
         Action::ToggleAdvance,
         Action::CopyId,
+        Action::ShowLedger,
         Action::Close,
     ];
 
@@ -107,6 +109,7 @@ impl Action {
             Action::NextFlagged => "next-flagged",
             Action::ToggleAdvance => "toggle-advance",
             Action::CopyId => "copy-id",
+            Action::ShowLedger => "show-ledger",
             Action::Close => "close",
         }
     }
@@ -139,6 +142,9 @@ impl Action {
             Action::NextFlagged => "next star with a flag",
             Action::ToggleAdvance => "advance to the next open candidate after a decision (on/off)",
             Action::CopyId => "copy the selected id to the clipboard (OSC 52)",
+            Action::ShowLedger => {
+                "show the ledger history of the selected system instead of its facts (and back)"
+            }
             Action::Close => "close a prompt or overlay",
         }
     }
@@ -279,6 +285,11 @@ pub struct App {
     /// The star a decision was just made on stays in view, whatever the
     /// filter now says, until the selection leaves it.
     pinned: Option<StarId>,
+    /// The lower-left pane shows the ledger history instead of the facts.
+    pub show_ledger: bool,
+    /// The ledger history of the selected star (all vetters), oldest first.
+    pub history: Vec<crate::ledger::Entry>,
+    history_of: Option<StarId>,
 }
 
 /// One candidate as the filter sees it.
@@ -376,6 +387,9 @@ impl App {
             page: 10,
             keymap,
             pinned: None,
+            show_ledger: false,
+            history: Vec::new(),
+            history_of: None,
         };
         app.refresh_view();
         app
@@ -549,6 +563,7 @@ impl App {
             }
             Input::Action(a) => self.act(a),
         };
+        self.refresh_history(false);
         if let Some(c) = self.candidate() {
             if (before != Some(c) || !self.signals.contains_key(&c))
                 && !self.pending.contains(&c)
@@ -559,6 +574,33 @@ impl App {
             }
         }
         effects
+    }
+
+    /// Reloads the selected star's ledger history when the star changed (or
+    /// when forced, after a decision).
+    fn refresh_history(&mut self, force: bool) {
+        let star = self.star();
+        if !force && star == self.history_of {
+            return;
+        }
+        self.history_of = star;
+        self.history = match (star, self.ledger.as_ref()) {
+            (Some(s), Some(l)) => {
+                let ids: Vec<&str> = self
+                    .cat
+                    .members(s)
+                    .iter()
+                    .map(|&c| self.cat.candidate_id(c))
+                    .collect();
+                let mut h: Vec<crate::ledger::Entry> = Vec::new();
+                for id in ids {
+                    h.extend(l.history(Some(id)).unwrap_or_default());
+                }
+                h.sort_by_key(|e| e.id);
+                h
+            }
+            _ => Vec::new(),
+        };
     }
 
     /// True while the light-curve result of `c` is being computed.
@@ -769,6 +811,7 @@ impl App {
                     if self.advance { "on" } else { "off" }
                 ));
             }
+            Action::ShowLedger => self.show_ledger = !self.show_ledger,
             Action::CopyId => {
                 let id = match self.focus {
                     Pane::Systems => self.star().map(|s| self.cat.star_id(s).to_string()),
@@ -842,6 +885,7 @@ impl App {
         let row = self.cand_row;
         self.reposition(s);
         self.cand_row = row.min(self.members().len().saturating_sub(1));
+        self.refresh_history(true);
     }
 
     fn undo(&mut self) {

@@ -415,7 +415,57 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     frame.render_widget(Paragraph::new(note), note_area);
 }
 
+fn draw_ledger(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    let b = block(
+        format!(" Ledger · {} entries · L for facts ", app.history.len()),
+        false,
+        look,
+    );
+    let inner = b.inner(area);
+    frame.render_widget(b, area);
+    if app.ledger.is_none() {
+        frame.render_widget(Paragraph::new("no ledger: decisions stay in memory"), inner);
+        return;
+    }
+    // The newest entries that fit, newest last.
+    let skip = app.history.len().saturating_sub(inner.height as usize);
+    let lines: Vec<Line> = app.history[skip..]
+        .iter()
+        .map(|e| {
+            let when = e
+                .decided_at
+                .get(5..16)
+                .unwrap_or(&e.decided_at)
+                .replace('T', " ");
+            Line::from(vec![
+                Span::styled(format!("{when} "), style(look, Color::DarkGray)),
+                Span::raw(format!(
+                    "{} {} {}",
+                    clean(&e.vetter),
+                    clean(&e.candidate),
+                    e.decision
+                )),
+                Span::raw(
+                    e.note
+                        .as_deref()
+                        .map_or(String::new(), |n| format!(" · {}", clean(n))),
+                ),
+            ])
+        })
+        .collect();
+    let text = if lines.is_empty() {
+        vec![Line::from("no decisions on this system yet")]
+    } else {
+        lines
+    };
+    frame.render_widget(Paragraph::new(text), inner);
+}
+
 fn draw_facts(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    if app.show_ledger {
+        draw_ledger(app, frame, area, look);
+        return;
+    }
     let b = block(" Facts ".into(), false, look);
     let inner = b.inner(area);
     frame.render_widget(b, area);

@@ -200,3 +200,52 @@ fn escape_sequences_in_ids_never_reach_the_screen() {
     assert!(!s.contains('\u{1b}') && !s.contains('\u{7}'));
     assert!(s.contains("E\\x1b[2J"), "{s}");
 }
+
+#[test]
+fn decisions_go_to_the_ledger_first_and_show_in_its_pane() {
+    let dir = std::env::temp_dir().join(format!("starsift-tui-ledger-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(&dir).unwrap();
+    let ledger = crate::ledger::Ledger::open(&dir.join("l.sqlite")).unwrap();
+    let cat = crate::demo::catalogue().unwrap();
+    let checks = crate::checks::run(&cat, &Default::default());
+    let model = Model {
+        targets: Some(crate::demo::DEMO_TARGETS),
+        ..Model::default()
+    };
+    let live = Live::with_state(
+        &cat,
+        model,
+        checks.all_flags().to_vec(),
+        vec![Decision::Open; cat.len()],
+    )
+    .unwrap();
+    let mut app = App::new(
+        std::sync::Arc::new(cat),
+        live,
+        checks,
+        Some(ledger),
+        "tester".into(),
+        Keymap::load(&[]).unwrap(),
+    );
+    act(&mut app, Action::Select);
+    let c = app.candidate().unwrap();
+    act(&mut app, Action::Park);
+    assert_eq!(app.ledger.as_ref().unwrap().len().unwrap(), 1);
+    act(&mut app, Action::Undo);
+    let h = app
+        .ledger
+        .as_ref()
+        .unwrap()
+        .history(Some(app.cat.candidate_id(c)))
+        .unwrap();
+    assert_eq!(h.len(), 2, "undo is a new row");
+    assert_eq!(h[1].undoes, Some(h[0].id));
+    app.advance = false;
+    act(&mut app, Action::ShowLedger);
+    let s = screen(&app, 100, 30);
+    assert!(
+        s.contains("Ledger · 2 entries") && s.contains("tester"),
+        "{s}"
+    );
+}
