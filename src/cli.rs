@@ -264,6 +264,9 @@ pub struct LightcurveArgs {
     /// Do not remove slow variability before measuring.
     #[arg(long)]
     pub no_detrend: bool,
+    /// Detrending window, as a multiple of the star's longest transit duration.
+    #[arg(long, value_name = "FACTOR", default_value_t = 3.0)]
+    pub detrend_window: f64,
 }
 
 impl LightcurveArgs {
@@ -293,6 +296,11 @@ impl LightcurveArgs {
     pub fn detrend(&self) -> crate::lightcurve::analysis::DetrendSettings {
         crate::lightcurve::analysis::DetrendSettings {
             enabled: !self.no_detrend,
+            window_factor: if self.detrend_window > 0.0 {
+                self.detrend_window
+            } else {
+                3.0
+            },
             ..Default::default()
         }
     }

@@ -140,6 +140,31 @@ fn fold_reads_csv_gzip_and_fits_alike() {
         "{}",
         v["diagnostics"]["flags"]
     );
+    // Odd and even transits fold separately and together make the whole.
+    let count = |parity: &str| -> u64 {
+        let o = starsift(&[
+            "fold",
+            cat.to_str().unwrap(),
+            "--candidate",
+            "LCA-1",
+            "--lightcurves",
+            lcs.to_str().unwrap(),
+            "--bins",
+            "10",
+            "--format",
+            "csv",
+            "--parity",
+            parity,
+        ]);
+        assert!(o.status.success(), "{}", stderr(&o));
+        stdout(&o)
+            .lines()
+            .skip(1)
+            .map(|l| l.split(',').nth(3).unwrap().parse::<u64>().unwrap())
+            .sum()
+    };
+    assert_eq!(count("odd") + count("even"), count("all"));
+    assert!(count("odd") > 0 && count("even") > 0);
     // The table draws a plot and prints the diagnostics.
     let t = starsift(&[
         "fold",

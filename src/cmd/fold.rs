@@ -38,9 +38,20 @@ pub struct Args {
     /// Which part of the orbit to bin.
     #[arg(long, value_enum, default_value = "full")]
     pub window: Window,
+    /// Only odd or only even transits (transit 0 at the epoch is even).
+    #[arg(long, value_enum, default_value = "all")]
+    pub parity: Parity,
     /// Output format: a plot and the diagnostics for people, CSV or JSON for scripts.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
+}
+
+/// Which transits to fold.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
+pub enum Parity {
+    All,
+    Odd,
+    Even,
 }
 
 /// Durations shown on each side of the transit in the zoomed windows.
@@ -72,7 +83,13 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let mut all = vec![me];
     all.extend_from_slice(&others);
     let flux = detrend(&lc, &all, &settings);
-    let skip = crate::lightcurve::analysis::in_transit(&lc.time, &others, 1.2);
+    let mut skip = crate::lightcurve::analysis::in_transit(&lc.time, &others, 1.2);
+    if args.parity != Parity::All {
+        let want = i64::from(args.parity == Parity::Odd);
+        for (i, t) in lc.time.iter().enumerate() {
+            skip[i] |= me.cycle(*t).rem_euclid(2) != want;
+        }
+    }
     let zoom = (ZOOM_DURATIONS * me.duration_h / 24.0 / me.period_d).min(0.5);
     let (centre, range) = match args.window {
         Window::Full => (0.0, (-0.5, 0.5)),
