@@ -215,6 +215,19 @@ impl Checks {
             .join("; ")
     }
 
+    /// Adds everything `other` found.
+    fn merge(&mut self, other: Checks) {
+        for (mine, theirs) in self.flags.iter_mut().zip(&other.flags) {
+            theirs.iter().for_each(|f| mine.insert(f));
+        }
+        for (mine, theirs) in self.soft.iter_mut().zip(&other.soft) {
+            theirs.iter().for_each(|f| mine.insert(f));
+        }
+        self.findings.extend(other.findings);
+        // Stable: per candidate, findings keep the order they were found in.
+        self.findings.sort_by_key(|(c, _)| *c);
+    }
+
     /// Adds the flags of the light-curve diagnostics (they fire firmly).
     pub fn add_lightcurve(&mut self, c: CandidateId, findings: &[(Flag, String)]) {
         for (flag, why) in findings {
@@ -236,34 +249,46 @@ impl Checks {
 /// Runs every check on the catalogue.
 pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
     let n = cat.len();
-    let mut checks = Checks {
+    let empty = || Checks {
         flags: vec![FlagSet::EMPTY; n],
         soft: vec![FlagSet::EMPTY; n],
         findings: Vec::new(),
     };
-    // Transit densities are needed by the sibling comparison.
-    let mut density_transit = vec![f64::NAN; n];
-    let mut radius = vec![f64::NAN; n];
-    for c in 0..n as CandidateId {
-        let d = derive(cat, c, s);
-        density_transit[c as usize] = d.density_transit.unwrap_or(f64::NAN);
-        radius[c as usize] = d.radius_rearth.unwrap_or(f64::NAN);
-        candidate_flags(cat, c, &d, s, &mut checks);
-    }
-    let derived = system::PerCandidate {
-        density_transit: &density_transit,
-        radius_rearth: &radius,
-    };
-    let mut scratch = system::Scratch::default();
-    for star in 0..cat.star_count() as u32 {
-        let members = cat.members(star);
-        if members.len() >= 2 {
-            system::check(cat, members, &derived, s, &mut scratch, &mut checks);
+    // The cross-star echo sweep is independent of the per-star checks: it
+    // runs on a thread of its own and the two results are merged.
+    let (mut checks, echoes) = std::thread::scope(|scope| {
+        let echo = scope.spawn(|| {
+            let mut e = empty();
+            echo::check(cat, s, &mut e);
+            e
+        });
+        let mut checks = empty();
+        // Transit densities are needed by the sibling comparison.
+        let mut density_transit = vec![f64::NAN; n];
+        let mut radius = vec![f64::NAN; n];
+        for c in 0..n as CandidateId {
+            let d = derive(cat, c, s);
+            density_transit[c as usize] = d.density_transit.unwrap_or(f64::NAN);
+            radius[c as usize] = d.radius_rearth.unwrap_or(f64::NAN);
+            candidate_flags(cat, c, &d, s, &mut checks);
         }
-    }
-    echo::check(cat, s, &mut checks);
-
-    checks.findings.sort_by_key(|(c, _)| *c);
+        let derived = system::PerCandidate {
+            density_transit: &density_transit,
+            radius_rearth: &radius,
+        };
+        let mut scratch = system::Scratch::default();
+        for star in 0..cat.star_count() as u32 {
+            let members = cat.members(star);
+            if members.len() >= 2 {
+                system::check(cat, members, &derived, s, &mut scratch, &mut checks);
+            }
+        }
+        (
+            checks,
+            echo.join().unwrap_or_else(|e| std::panic::resume_unwind(e)),
+        )
+    });
+    checks.merge(echoes);
     checks
 }
 
