@@ -242,6 +242,35 @@ pub struct Loaded {
     pub demo: bool,
 }
 
+impl Loaded {
+    /// A candidate by id, or an error naming the catalogue.
+    pub fn candidate(&self, id: &str) -> Result<crate::catalogue::CandidateId, CliError> {
+        self.catalogue.find_candidate(id).ok_or_else(|| {
+            CliError::Input(format!(
+                "{}: no candidate `{}`",
+                crate::sanitize::clean(&self.catalogue.source),
+                crate::sanitize::clean(id)
+            ))
+        })
+    }
+}
+
+/// Everything a vetted view needs: the catalogue, the ledger, the model, the
+/// checks and the light curves.
+#[derive(Debug, Clone, clap::Args)]
+pub struct VettingArgs {
+    #[command(flatten)]
+    pub input: CatalogueArgs,
+    #[command(flatten)]
+    pub ledger: LedgerArgs,
+    #[command(flatten)]
+    pub model: ModelArgs,
+    #[command(flatten)]
+    pub checks: crate::cmd::checks::CheckArgs,
+    #[command(flatten)]
+    pub lc: LightcurveArgs,
+}
+
 /// Where light curves are and how to read them.
 #[derive(Debug, Clone, Default, clap::Args)]
 pub struct LightcurveArgs {

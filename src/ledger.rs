@@ -332,35 +332,19 @@ impl Ledger {
 
     /// Records a decision; returns its id once it is committed to disk.
     pub fn record(&mut self, d: &NewDecision) -> Result<i64, LedgerError> {
-        if d.vetter.trim().is_empty() {
-            return Err(LedgerError::Invalid(
-                "a decision needs a vetter name".into(),
-            ));
-        }
-        let at = now_rfc3339();
-        let version = env!("CARGO_PKG_VERSION");
-        self.write(|tx| {
-            tx.execute(
-                "INSERT INTO decision (candidate, star, vetter, decision, reason, note, decided_at, tool_version, undoes)
-                 VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7, ?8, ?9)",
-                params![
-                    d.candidate,
-                    d.star,
-                    d.vetter,
-                    d.decision.name(),
-                    d.decision.reason().map(Reason::name),
-                    d.note,
-                    at,
-                    format!("starsift {version}"),
-                    d.undoes,
-                ],
-            )?;
-            Ok(tx.last_insert_rowid())
-        })
+        let ids = self.record_all(std::slice::from_ref(d))?;
+        ids.first()
+            .copied()
+            .ok_or_else(|| self.unwritable("no row was written"))
     }
 
     /// Records many decisions in one transaction (a bulk decision).
     pub fn record_all(&mut self, ds: &[NewDecision]) -> Result<Vec<i64>, LedgerError> {
+        if ds.iter().any(|d| d.vetter.trim().is_empty()) {
+            return Err(LedgerError::Invalid(
+                "a decision needs a vetter name".into(),
+            ));
+        }
         let at = now_rfc3339();
         let version = format!("starsift {}", env!("CARGO_PKG_VERSION"));
         self.write(|tx| {

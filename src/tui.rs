@@ -17,8 +17,7 @@ use ratatui::backend::CrosstermBackend;
 use ratatui::crossterm::event::{self, Event, KeyEventKind};
 use ratatui::crossterm::{cursor, execute, terminal};
 
-use crate::cli::{CatalogueArgs, CliError, LedgerArgs, LightcurveArgs, ModelArgs};
-use crate::cmd::checks::CheckArgs;
+use crate::cli::{CliError, VettingArgs};
 use app::{App, Effect, Input, Mode, SignalResult};
 use draw::Look;
 use keymap::{Key, Keymap};
@@ -26,15 +25,7 @@ use keymap::{Key, Keymap};
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
     #[command(flatten)]
-    pub input: CatalogueArgs,
-    #[command(flatten)]
-    pub ledger: LedgerArgs,
-    #[command(flatten)]
-    pub model: ModelArgs,
-    #[command(flatten)]
-    pub checks: CheckArgs,
-    #[command(flatten)]
-    pub lc: LightcurveArgs,
+    pub vetting: VettingArgs,
     /// Start with this filter (e.g. "odds>=100 decision:open").
     #[arg(long = "where", value_name = "FILTER")]
     pub filter: Option<String>,
@@ -109,16 +100,20 @@ impl Args {
 /// Builds the browser state for a catalogue (everything but the terminal).
 pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliError> {
     let keymap = args.keymap()?;
-    let loaded = args.input.load()?;
-    let mut checks = crate::checks::run(&loaded.catalogue, &args.checks.settings());
-    let finder = args.lc.finder(&loaded);
-    if args.lc.wanted() {
-        for (star, e) in crate::checks::run_lightcurves(
-            &loaded.catalogue,
-            &finder,
-            &args.lc.detrend(),
-            &mut checks,
-        ) {
+    let VettingArgs {
+        input,
+        ledger: ledger_args,
+        model,
+        checks: check_args,
+        lc,
+    } = &args.vetting;
+    let loaded = input.load()?;
+    let mut checks = crate::checks::run(&loaded.catalogue, &check_args.settings());
+    let finder = lc.finder(&loaded);
+    if lc.wanted() {
+        for (star, e) in
+            crate::checks::run_lightcurves(&loaded.catalogue, &finder, &lc.detrend(), &mut checks)
+        {
             eprintln!(
                 "starsift: warning: star {}: {}",
                 crate::sanitize::clean(&star),
@@ -129,12 +124,12 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
     let ledger = if args.no_ledger {
         None
     } else {
-        Some(args.ledger.open(&args.input, &loaded)?)
+        Some(ledger_args.open(input, &loaded)?)
     };
     let cat = &loaded.catalogue;
     let decisions: Vec<crate::decision::Decision> = match &ledger {
         Some(l) => {
-            let latest = l.latest(args.ledger.vetter.as_deref())?;
+            let latest = l.latest(ledger_args.vetter.as_deref())?;
             (0..cat.len() as u32)
                 .map(|c| {
                     latest
@@ -147,7 +142,7 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
     };
     let live = crate::odds::Live::with_state(
         cat,
-        args.model.model(&loaded.survey)?,
+        model.model(&loaded.survey)?,
         checks.all_flags().to_vec(),
         decisions,
     )?;
@@ -156,7 +151,7 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
         live,
         checks,
         ledger,
-        args.ledger.vetter(),
+        ledger_args.vetter(),
         keymap,
     );
     if let Some(f) = &args.filter {
@@ -296,7 +291,12 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     let look = args.look();
     let (mut app, finder) = build_app(args)?;
     let (res_tx, res_rx) = mpsc::channel();
-    let worker = spawn_worker(Arc::clone(&app.cat), finder, args.lc.detrend(), res_tx);
+    let worker = spawn_worker(
+        Arc::clone(&app.cat),
+        finder,
+        args.vetting.lc.detrend(),
+        res_tx,
+    );
     let guard = Guard::enter()?;
     let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
     let mut effects = app.update(Input::Resize);

@@ -63,13 +63,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let decision = parse_decision(&args.decision, args.reason.as_deref())?;
     let loaded = args.input.load()?;
     let cat = &loaded.catalogue;
-    let c = cat.find_candidate(&args.candidate).ok_or_else(|| {
-        CliError::Input(format!(
-            "{}: no candidate `{}`",
-            clean(&cat.source),
-            clean(&args.candidate)
-        ))
-    })?;
+    let c = loaded.candidate(&args.candidate)?;
     let vetter = args.ledger.vetter();
     let mut ledger = args.ledger.open(&args.input, &loaded)?;
     let id = ledger.record(&NewDecision {

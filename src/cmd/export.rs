@@ -10,8 +10,7 @@ use serde_json::{Map, Value, json};
 
 use crate::catalogue::{CandidateId, Field, NUMERIC};
 use crate::checks::Checks;
-use crate::cli::{CatalogueArgs, CliError, LedgerArgs, LightcurveArgs, Loaded, ModelArgs};
-use crate::cmd::checks::CheckArgs;
+use crate::cli::{CliError, Loaded, VettingArgs};
 use crate::decision::Decision;
 use crate::ledger::Entry;
 use crate::odds::{Live, model_statement};
@@ -21,15 +20,7 @@ use crate::sanitize::clean;
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
     #[command(flatten)]
-    pub input: CatalogueArgs,
-    #[command(flatten)]
-    pub ledger: LedgerArgs,
-    #[command(flatten)]
-    pub model: ModelArgs,
-    #[command(flatten)]
-    pub checks: CheckArgs,
-    #[command(flatten)]
-    pub lc: LightcurveArgs,
+    pub vetting: VettingArgs,
     /// Output format.
     #[arg(long, value_enum, default_value = "csv")]
     pub format: ExportFormat,
@@ -58,13 +49,14 @@ pub struct Vetted {
 
 /// Loads a catalogue, runs the checks, reads the ledger and recomputes the
 /// odds with every decision applied.
-pub fn vetted(
-    input: &CatalogueArgs,
-    ledger_args: &LedgerArgs,
-    model: &ModelArgs,
-    check_args: &CheckArgs,
-    lc: &LightcurveArgs,
-) -> Result<Vetted, CliError> {
+pub fn vetted(args: &VettingArgs) -> Result<Vetted, CliError> {
+    let VettingArgs {
+        input,
+        ledger: ledger_args,
+        model,
+        checks: check_args,
+        lc,
+    } = args;
     let loaded = input.load()?;
     let cat = &loaded.catalogue;
     let mut checks = crate::checks::run(cat, &check_args.settings());
@@ -114,13 +106,7 @@ pub fn write_atomically(path: &std::path::Path, bytes: &[u8]) -> Result<(), CliE
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    let v = vetted(
-        &args.input,
-        &args.ledger,
-        &args.model,
-        &args.checks,
-        &args.lc,
-    )?;
+    let v = vetted(&args.vetting)?;
     let mut buf: Vec<u8> = Vec::new();
     let sink: &mut dyn Write = if args.output.is_some() { &mut buf } else { out };
     match args.format {

@@ -60,13 +60,7 @@ const ZOOM_DURATIONS: f64 = 3.0;
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let loaded = args.input.load()?;
     let cat = &loaded.catalogue;
-    let c = cat.find_candidate(&args.candidate).ok_or_else(|| {
-        CliError::Input(format!(
-            "{}: no candidate `{}`",
-            clean(&cat.source),
-            clean(&args.candidate)
-        ))
-    })?;
+    let c = loaded.candidate(&args.candidate)?;
     if args.bins == 0 || args.bins > 100_000 {
         return Err(CliError::Input(format!(
             "--bins {}: use 1 to 100000",

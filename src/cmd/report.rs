@@ -8,8 +8,7 @@ use std::io::Write;
 use std::path::PathBuf;
 
 use crate::catalogue::CandidateId;
-use crate::cli::{CatalogueArgs, CliError, LedgerArgs, LightcurveArgs, ModelArgs};
-use crate::cmd::checks::CheckArgs;
+use crate::cli::{CliError, VettingArgs};
 use crate::cmd::export::{vetted, write_atomically};
 use crate::odds::{
     ALL_VERDICTS, Verdict, format_odds, model_statement, posterior_odds, probability,
@@ -20,15 +19,7 @@ use crate::sanitize::clean;
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
     #[command(flatten)]
-    pub input: CatalogueArgs,
-    #[command(flatten)]
-    pub ledger: LedgerArgs,
-    #[command(flatten)]
-    pub model: ModelArgs,
-    #[command(flatten)]
-    pub checks: CheckArgs,
-    #[command(flatten)]
-    pub lc: LightcurveArgs,
+    pub vetting: VettingArgs,
     /// Write to this file (atomically) instead of standard output.
     #[arg(short = 'o', long = "output", value_name = "FILE")]
     pub output: Option<PathBuf>,
@@ -40,13 +31,7 @@ fn md(s: &str) -> String {
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    let v = vetted(
-        &args.input,
-        &args.ledger,
-        &args.model,
-        &args.checks,
-        &args.lc,
-    )?;
+    let v = vetted(&args.vetting)?;
     let cat = &v.loaded.catalogue;
     let live = &v.live;
     let m = live.model();
