@@ -445,28 +445,11 @@ impl Record for ByteRecord {
     }
 }
 
-/// A record cut from a line without quotes.
-#[derive(Default)]
+/// A record cut from a chunk without quotes.
 struct SplitRecord<'a> {
     line: &'a [u8],
-    /// (start, end) of each field in `line`.
+    /// (start, end) of each field in `line` (the whole chunk).
     bounds: Vec<(usize, usize)>,
-}
-
-impl<'a> SplitRecord<'a> {
-    fn split(&mut self, line: &'a [u8], delimiter: u8) {
-        self.line = line;
-        self.bounds.clear();
-        // Fields are short: a plain loop beats memchr's set-up per call.
-        let mut start = 0;
-        for (i, &b) in line.iter().enumerate() {
-            if b == delimiter {
-                self.bounds.push((start, i));
-                start = i + 1;
-            }
-        }
-        self.bounds.push((start, line.len()));
-    }
 }
 
 impl Record for SplitRecord<'_> {
@@ -691,14 +674,38 @@ impl Layout {
         if plain_text(&chunk.bytes) {
             // No quotes and no bare CR: every line is a record and every
             // delimiter ends a field, so split at memchr speed.
-            let mut rec = SplitRecord::default();
-            for (this, text) in (chunk.line..).zip(chunk.bytes.split(|&b| b == b'\n')) {
-                let text = text.strip_suffix(b"\r").unwrap_or(text);
-                if text.starts_with(b"#") || text.iter().all(u8::is_ascii_whitespace) {
-                    continue; // comment or blank line
+            // One SIMD scan finds every delimiter and line end of the chunk.
+            let bytes = &chunk.bytes[..];
+            let mut rec = SplitRecord {
+                line: bytes,
+                bounds: Vec::with_capacity(32),
+            };
+            let (mut line, mut line_start, mut start) = (chunk.line, 0usize, 0usize);
+            let ends = memchr::memchr2_iter(self.delimiter, b'\n', bytes)
+                .chain(std::iter::once(bytes.len()));
+            for i in ends {
+                if i < bytes.len() && bytes[i] == self.delimiter {
+                    rec.bounds.push((start, i));
+                    start = i + 1;
+                    continue;
                 }
-                rec.split(text, self.delimiter);
-                self.add(&mut part, &rec, this, &mut scratch, hasher);
+                if i == bytes.len() && line_start == bytes.len() {
+                    break; // the chunk ended with its last line end
+                }
+                let end = if i > line_start && bytes[i - 1] == b'\r' {
+                    i - 1
+                } else {
+                    i
+                };
+                rec.bounds.push((start, end.max(start)));
+                let text = &bytes[line_start..end.max(line_start)];
+                if !(text.starts_with(b"#") || text.iter().all(u8::is_ascii_whitespace)) {
+                    self.add(&mut part, &rec, line, &mut scratch, hasher);
+                }
+                rec.bounds.clear();
+                line += 1;
+                line_start = i + 1;
+                start = i + 1;
             }
             return part;
         }
