@@ -368,3 +368,40 @@ fn an_unwritable_ledger_is_reported_and_changes_nothing() {
     assert!(o.stdout.is_empty(), "nothing may be reported as recorded");
     assert_eq!(std::fs::read(&ledger).unwrap(), before);
 }
+
+#[test]
+fn a_changed_catalogue_is_noticed_and_gone_candidates_listed() {
+    let (_, cat) = demo_copy("changed");
+    let gone = &system_of(1)[0];
+    let o = starsift(&[
+        "decide",
+        s(&cat),
+        "--candidate",
+        gone,
+        "--decision",
+        "parked",
+        "--vetter",
+        "ann",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    // The candidate's row is removed from the catalogue.
+    let text = std::fs::read_to_string(&cat).unwrap();
+    let kept: String = text
+        .lines()
+        .filter(|l| !l.contains(&format!(",{gone},")))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    std::fs::write(&cat, kept).unwrap();
+    let o = starsift(&["history", s(&cat)]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let e = stderr(&o);
+    assert!(e.contains("changed since this ledger last saw it"), "{e}");
+    assert!(
+        e.contains(&format!(
+            "1 decided candidates are not in the catalogue: {gone}"
+        )),
+        "{e}"
+    );
+    // The decision is still there, matched by id.
+    assert!(stdout(&o).contains(gone.as_str()));
+}
