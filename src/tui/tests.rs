@@ -11,6 +11,11 @@ use crate::decision::Decision;
 use crate::odds::{Live, Model};
 
 fn demo_app() -> App {
+    demo_app_with(None)
+}
+
+/// The demo browser state, with a ledger or with decisions in memory.
+fn demo_app_with(ledger: Option<crate::ledger::Ledger>) -> App {
     let cat = crate::demo::catalogue().unwrap();
     let checks = crate::checks::run(&cat, &Default::default());
     let model = Model {
@@ -28,7 +33,7 @@ fn demo_app() -> App {
         std::sync::Arc::new(cat),
         live,
         checks,
-        None,
+        ledger,
         "tester".into(),
         Keymap::load(&[]).unwrap(),
     )
@@ -207,27 +212,7 @@ fn decisions_go_to_the_ledger_first_and_show_in_its_pane() {
     let _ = std::fs::remove_dir_all(&dir);
     std::fs::create_dir_all(&dir).unwrap();
     let ledger = crate::ledger::Ledger::open(&dir.join("l.sqlite")).unwrap();
-    let cat = crate::demo::catalogue().unwrap();
-    let checks = crate::checks::run(&cat, &Default::default());
-    let model = Model {
-        targets: Some(crate::demo::DEMO_TARGETS),
-        ..Model::default()
-    };
-    let live = Live::with_state(
-        &cat,
-        model,
-        checks.all_flags().to_vec(),
-        vec![Decision::Open; cat.len()],
-    )
-    .unwrap();
-    let mut app = App::new(
-        std::sync::Arc::new(cat),
-        live,
-        checks,
-        Some(ledger),
-        "tester".into(),
-        Keymap::load(&[]).unwrap(),
-    );
+    let mut app = demo_app_with(Some(ledger));
     act(&mut app, Action::Select);
     let c = app.candidate().unwrap();
     act(&mut app, Action::Park);
