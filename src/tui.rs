@@ -162,6 +162,37 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
     Ok((app, finder))
 }
 
+/// `$XDG_STATE_HOME/starsift/positions.json` (else `~/.local/state/...`):
+/// where the vetter was, per catalogue.
+fn positions_path() -> Option<PathBuf> {
+    let base = std::env::var_os("XDG_STATE_HOME")
+        .map(PathBuf::from)
+        .filter(|p| p.is_absolute())
+        .or_else(|| std::env::var_os("HOME").map(|h| PathBuf::from(h).join(".local/state")))?;
+    Some(base.join("starsift/positions.json"))
+}
+
+fn load_positions() -> std::collections::BTreeMap<String, app::Position> {
+    positions_path()
+        .and_then(|p| std::fs::read(p).ok())
+        .and_then(|b| serde_json::from_slice(&b).ok())
+        .unwrap_or_default()
+}
+
+/// Remembers where the vetter was; failure to save is not worth an error.
+fn save_position(catalogue: &str, pos: app::Position) {
+    let Some(path) = positions_path() else { return };
+    let mut all = load_positions();
+    all.insert(catalogue.to_string(), pos);
+    if let (Some(dir), Ok(text)) = (path.parent(), serde_json::to_vec_pretty(&all)) {
+        let _ = std::fs::create_dir_all(dir);
+        let tmp = path.with_extension("tmp");
+        if std::fs::write(&tmp, text).is_ok() {
+            let _ = std::fs::rename(&tmp, &path);
+        }
+    }
+}
+
 /// Restores the terminal when dropped, and from the panic hook.
 struct Guard;
 
@@ -290,6 +321,11 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     }
     let look = args.look();
     let (mut app, finder) = build_app(args)?;
+    if args.filter.is_none() {
+        if let Some(p) = load_positions().get(&app.cat.source) {
+            app.restore(p);
+        }
+    }
     let (res_tx, res_rx) = mpsc::channel();
     let worker = spawn_worker(
         Arc::clone(&app.cat),
@@ -306,6 +342,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                 Effect::Quit => {
                     drop(term);
                     drop(guard);
+                    save_position(&app.cat.source, app.position());
                     return Ok(());
                 }
                 Effect::Copy(text) => {

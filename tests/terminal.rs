@@ -54,7 +54,7 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
     // The shell runs the browser, then records its exit status and whether a
     // plain command still works afterwards (the terminal was restored).
     let script = format!(
-        "cd {d} && XDG_DATA_HOME={d}/data {bin}; echo $? > {s}; stty -a > {d}/stty.txt; echo shell-ok >> {s}; sleep 30",
+        "cd {d} && XDG_DATA_HOME={d}/data XDG_STATE_HOME={d}/state {bin}; echo $? > {s}; stty -a > {d}/stty.txt; echo shell-ok >> {s}; sleep 30",
         d = dir.display(),
         bin = env!("CARGO_BIN_EXE_starsift"),
         s = status.display()
@@ -127,6 +127,9 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
         "the terminal was not restored: {stty}"
     );
     tmux(&["kill-session", "-t", &session]);
+    // Where the vetter was is remembered for the next session.
+    let pos = std::fs::read_to_string(dir.join("state/starsift/positions.json")).unwrap();
+    assert!(pos.contains("\"filter\": \"k=3\""), "{pos}");
     // The decision is in the demo's ledger.
     let l = starsift::ledger::Ledger::open(&dir.join("data/starsift/demo.ledger.sqlite")).unwrap();
     assert_eq!(l.len().unwrap(), 1);

@@ -244,6 +244,16 @@ impl SortKey {
     }
 }
 
+/// Where a vetter was in a catalogue, remembered between sessions.
+#[derive(Clone, Debug, Default, PartialEq, serde::Serialize, serde::Deserialize)]
+pub struct Position {
+    pub candidate: Option<String>,
+    pub filter: String,
+    pub sort: String,
+    pub descending: bool,
+    pub candidates_pane: bool,
+}
+
 /// A decision as made and as undone.
 #[derive(Clone, Copy, Debug, PartialEq)]
 struct Step {
@@ -473,6 +483,44 @@ impl App {
         });
         self.stars.insert(at, s);
         self.star_row = at;
+    }
+
+    /// Where the vetter is now.
+    pub fn position(&self) -> Position {
+        Position {
+            candidate: self
+                .candidate()
+                .map(|c| self.cat.candidate_id(c).to_string()),
+            filter: self.filter.text.clone(),
+            sort: self.sort.name().to_string(),
+            descending: self.descending,
+            candidates_pane: self.focus == Pane::Candidates,
+        }
+    }
+
+    /// Returns to a remembered position; what no longer applies (a filter
+    /// that does not parse, a candidate that is gone) is passed over.
+    pub fn restore(&mut self, p: &Position) {
+        if let Some(k) = SortKey::ALL.into_iter().find(|k| k.name() == p.sort) {
+            self.sort = k;
+        }
+        self.descending = p.descending;
+        if let Ok(f) = Filter::parse(&p.filter) {
+            self.filter = f;
+        }
+        self.refresh_view();
+        if let Some(c) = p
+            .candidate
+            .as_deref()
+            .and_then(|id| self.cat.find_candidate(id))
+        {
+            self.go_to(c);
+        }
+        self.focus = if p.candidates_pane {
+            Pane::Candidates
+        } else {
+            Pane::Systems
+        };
     }
 
     /// The selected star, if any is shown.

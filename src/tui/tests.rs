@@ -234,3 +234,24 @@ fn decisions_go_to_the_ledger_first_and_show_in_its_pane() {
         "{s}"
     );
 }
+
+#[test]
+fn a_position_is_remembered_and_restored() {
+    let mut app = demo_app();
+    act(&mut app, Action::Find);
+    typed(&mut app, "HWT20300-s2");
+    act(&mut app, Action::Select);
+    act(&mut app, Action::SortNext);
+    let p = app.position();
+    assert_eq!(p.candidate.as_deref(), Some("HWT20300-s2"));
+    let mut fresh = demo_app();
+    fresh.restore(&p);
+    assert_eq!(fresh.position(), p);
+    // A filter that no longer parses and a vanished candidate are passed over.
+    fresh.restore(&super::app::Position {
+        candidate: Some("GONE-1".into()),
+        filter: "wobble>1".into(),
+        ..p.clone()
+    });
+    assert!(fresh.filter.is_empty());
+}
