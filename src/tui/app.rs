@@ -46,11 +46,12 @@ pub enum Action {
     ToggleAdvance,
     CopyId,
     ShowLedger,
+    ApplyToFilter,
     Close,
 }
 
 impl Action {
-    pub const ALL: [Action; 28] = [
+    pub const ALL: [Action; 29] = [
         Action::Quit,
         Action::Help,
         Action::Find,
@@ -78,6 +79,7 @@ impl Action {
         Action::ToggleAdvance,
         Action::CopyId,
         Action::ShowLedger,
+        Action::ApplyToFilter,
         Action::Close,
     ];
 
@@ -110,6 +112,7 @@ impl Action {
             Action::ToggleAdvance => "toggle-advance",
             Action::CopyId => "copy-id",
             Action::ShowLedger => "show-ledger",
+            Action::ApplyToFilter => "apply-to-filter",
             Action::Close => "close",
         }
     }
@@ -144,6 +147,9 @@ impl Action {
             Action::CopyId => "copy the selected id to the clipboard (OSC 52)",
             Action::ShowLedger => {
                 "show the ledger history of the selected system instead of its facts (and back)"
+            }
+            Action::ApplyToFilter => {
+                "apply one decision to every candidate matching the filter (asks first)"
             }
             Action::Close => "close a prompt or overlay",
         }
@@ -207,9 +213,18 @@ pub enum Mode {
         text: String,
         error: Option<ParseError>,
     },
-    /// Choosing a rejection reason (index into ALL_REASONS).
+    /// Choosing a rejection reason (index into ALL_REASONS); for every
+    /// candidate matching the filter when `bulk`.
     Reasons {
         selected: usize,
+        bulk: bool,
+    },
+    /// Choosing the decision for every candidate matching the filter.
+    Bulk,
+    /// Asking before a decision is applied to `count` candidates.
+    Confirm {
+        decision: Decision,
+        count: usize,
     },
     Help,
 }
@@ -751,18 +766,65 @@ impl App {
                 return Vec::new();
             }
             (Mode::Prompt { .. }, _) => return Vec::new(),
-            (Mode::Reasons { selected }, _) => {
-                let sel = *selected;
+            (Mode::Bulk, _) => {
+                let d = match a {
+                    Action::Keep => Some(Decision::Kept),
+                    Action::Park => Some(Decision::Parked),
+                    Action::Reopen => Some(Decision::Open),
+                    Action::Reject => {
+                        self.mode = Mode::Reasons {
+                            selected: 0,
+                            bulk: true,
+                        };
+                        None
+                    }
+                    Action::Close | Action::Quit => {
+                        self.mode = Mode::Normal;
+                        None
+                    }
+                    _ => None,
+                };
+                if let Some(d) = d {
+                    self.mode = Mode::Confirm {
+                        decision: d,
+                        count: self.bulk_targets(d).len(),
+                    };
+                }
+                return Vec::new();
+            }
+            (Mode::Confirm { decision, .. }, _) => {
+                let d = *decision;
+                match a {
+                    Action::Select => {
+                        self.mode = Mode::Normal;
+                        self.apply_bulk(d);
+                    }
+                    Action::Close | Action::Quit => self.mode = Mode::Normal,
+                    _ => {}
+                }
+                return Vec::new();
+            }
+            (Mode::Reasons { selected, bulk }, _) => {
+                let (sel, bulk) = (*selected, *bulk);
                 match a {
                     Action::Up => {
                         self.mode = Mode::Reasons {
                             selected: sel.saturating_sub(1),
+                            bulk,
                         }
                     }
                     Action::Down => {
                         self.mode = Mode::Reasons {
                             selected: (sel + 1).min(ALL_REASONS.len() - 1),
+                            bulk,
                         }
+                    }
+                    Action::Select | Action::Reject if bulk => {
+                        let d = Decision::Rejected(ALL_REASONS[sel]);
+                        self.mode = Mode::Confirm {
+                            decision: d,
+                            count: self.bulk_targets(d).len(),
+                        };
                     }
                     Action::Select | Action::Reject => {
                         self.mode = Mode::Normal;
@@ -844,7 +906,10 @@ impl App {
             Action::Reopen => self.decide(Decision::Open),
             Action::Reject => {
                 if self.candidate().is_some() {
-                    self.mode = Mode::Reasons { selected: 0 };
+                    self.mode = Mode::Reasons {
+                        selected: 0,
+                        bulk: false,
+                    };
                 }
             }
             Action::Undo => self.undo(),
@@ -860,6 +925,16 @@ impl App {
                 ));
             }
             Action::ShowLedger => self.show_ledger = !self.show_ledger,
+            Action::ApplyToFilter => {
+                if self.filter.is_empty() {
+                    self.message = Some(
+                        "set a filter first: a decision applies to every candidate it matches"
+                            .into(),
+                    );
+                } else {
+                    self.mode = Mode::Bulk;
+                }
+            }
             Action::CopyId => {
                 let id = match self.focus {
                     Pane::Systems => self.star().map(|s| self.cat.star_id(s).to_string()),
@@ -874,6 +949,60 @@ impl App {
             }
         }
         Vec::new()
+    }
+
+    /// The candidates a bulk decision would change: those matching the
+    /// filter whose decision is not already `d`.
+    pub fn bulk_targets(&self, d: Decision) -> Vec<CandidateId> {
+        (0..self.cat.len() as CandidateId)
+            .filter(|&c| self.live.decision(c) != d && self.matches(c))
+            .collect()
+    }
+
+    /// Applies one decision to every candidate matching the filter, in one
+    /// ledger transaction (all or nothing), then to the state.
+    fn apply_bulk(&mut self, d: Decision) {
+        let targets = self.bulk_targets(d);
+        let mut ids: Vec<Option<i64>> = vec![None; targets.len()];
+        if let Some(ledger) = self.ledger.as_mut() {
+            let cat = &self.cat;
+            let rows: Vec<NewDecision> = targets
+                .iter()
+                .map(|&c| NewDecision {
+                    candidate: cat.candidate_id(c),
+                    star: cat.star_id(cat.star_of(c)),
+                    vetter: &self.vetter,
+                    decision: d,
+                    note: Some("applied to every candidate matching the filter"),
+                    undoes: None,
+                })
+                .collect();
+            match ledger.record_all(&rows) {
+                Ok(written) => ids = written.into_iter().map(Some).collect(),
+                Err(e) => {
+                    self.message = Some(format!("NOT SAVED: {e}"));
+                    return;
+                }
+            }
+        }
+        for (&c, id) in targets.iter().zip(ids) {
+            let before = self.live.decision(c);
+            self.live.set_decision(c, d);
+            self.undo.push(Step {
+                candidate: c,
+                before,
+                after: d,
+                ledger_id: id,
+            });
+        }
+        self.redo.clear();
+        self.refresh_view();
+        self.refresh_history(true);
+        self.message = Some(format!(
+            "{d} applied to {} candidates matching [{}]",
+            targets.len(),
+            self.filter.text
+        ));
     }
 
     /// Records a decision: the ledger first, then the state, then the odds.

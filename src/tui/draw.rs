@@ -107,7 +107,30 @@ pub fn draw(app: &App, frame: &mut Frame, look: Look) {
     draw_prompt(app, frame, prompt, look);
     match &app.mode {
         Mode::Help => draw_help(app, frame, area),
-        Mode::Reasons { selected } => draw_reasons(frame, area, *selected, look),
+        Mode::Reasons { selected, .. } => draw_reasons(frame, area, *selected, look),
+        Mode::Bulk => {
+            let k = |a| app.keymap.keys_of(a);
+            use super::app::Action as A;
+            let text = format!(
+                "Decide every candidate matching [{}]:\n{} keep · {} reject · {} park · {} reopen · {} cancel",
+                clean(&app.filter.text),
+                k(A::Keep),
+                k(A::Reject),
+                k(A::Park),
+                k(A::Reopen),
+                k(A::Close)
+            );
+            draw_box(frame, area, " Apply to the filter ", text);
+        }
+        Mode::Confirm { decision, count } => {
+            let text = format!(
+                "Record {decision} for {count} candidates matching [{}]?\n{} confirms · {} cancels",
+                clean(&app.filter.text),
+                app.keymap.keys_of(super::app::Action::Select),
+                app.keymap.keys_of(super::app::Action::Close)
+            );
+            draw_box(frame, area, " Confirm ", text);
+        }
         _ => {}
     }
 }
@@ -623,6 +646,19 @@ fn draw_help(app: &App, frame: &mut Frame, area: Rect) {
             Block::default()
                 .borders(Borders::ALL)
                 .title(" Keys (Esc closes) "),
+        ),
+        r,
+    );
+}
+
+fn draw_box(frame: &mut Frame, area: Rect, title: &str, text: String) {
+    let r = centred(area, 70, 4);
+    frame.render_widget(Clear, r);
+    frame.render_widget(
+        Paragraph::new(text).wrap(Wrap { trim: true }).block(
+            Block::default()
+                .borders(Borders::ALL)
+                .title(title.to_string()),
         ),
         r,
     );

@@ -255,3 +255,37 @@ fn a_position_is_remembered_and_restored() {
     });
     assert!(fresh.filter.is_empty());
 }
+
+#[test]
+fn a_decision_applies_to_the_whole_filter_after_confirmation() {
+    let mut app = demo_app();
+    act(&mut app, Action::ApplyToFilter);
+    assert!(
+        matches!(app.mode, Mode::Normal),
+        "no filter, no bulk decision"
+    );
+    typed_filter(&mut app, "k>=5");
+    let n = app.bulk_targets(Decision::Parked).len();
+    assert!(n > 0);
+    act(&mut app, Action::ApplyToFilter);
+    act(&mut app, Action::Park);
+    match app.mode {
+        Mode::Confirm { count, .. } => assert_eq!(count, n),
+        ref m => panic!("{m:?}"),
+    }
+    let s = screen(&app, 100, 30);
+    assert!(s.contains(&format!("for {n} candidates")), "{s}");
+    act(&mut app, Action::Select);
+    assert_eq!(
+        (0..app.cat.len() as u32)
+            .filter(|&c| app.live.decision(c) == Decision::Parked)
+            .count(),
+        n
+    );
+    // Rejecting them all takes them out of their systems.
+    act(&mut app, Action::ApplyToFilter);
+    act(&mut app, Action::Reject);
+    act(&mut app, Action::Select);
+    act(&mut app, Action::Select);
+    assert_eq!(app.live.counts().rejected, n);
+}
