@@ -178,6 +178,15 @@ pub struct Checks {
 }
 
 impl Checks {
+    /// No findings yet, for `n` candidates (before the checks have run).
+    pub fn none(n: usize) -> Checks {
+        Checks {
+            flags: vec![FlagSet::EMPTY; n],
+            soft: vec![FlagSet::EMPTY; n],
+            findings: Vec::new(),
+        }
+    }
+
     /// Flags that fired firmly (these feed verdicts).
     pub fn flags(&self, c: CandidateId) -> FlagSet {
         self.flags[c as usize]

@@ -108,19 +108,10 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
         lc,
     } = &args.vetting;
     let loaded = input.load()?;
-    let mut checks = crate::checks::run(&loaded.catalogue, &check_args.settings());
+    // The checks run on a background thread once the browser is up.
+    let _ = check_args;
+    let checks = crate::checks::Checks::none(loaded.catalogue.len());
     let finder = lc.finder(&loaded);
-    if lc.wanted() {
-        for (star, e) in
-            crate::checks::run_lightcurves(&loaded.catalogue, &finder, &lc.detrend(), &mut checks)
-        {
-            eprintln!(
-                "starsift: warning: star {}: {}",
-                crate::sanitize::clean(&star),
-                crate::sanitize::clean(&e)
-            );
-        }
-    }
     let ledger = if args.no_ledger {
         None
     } else {
@@ -329,10 +320,28 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     let (res_tx, res_rx) = mpsc::channel();
     let worker = spawn_worker(
         Arc::clone(&app.cat),
-        finder,
+        finder.clone(),
         args.vetting.lc.detrend(),
         res_tx,
     );
+    // The checks (and, when asked, the light-curve checks) in the background.
+    app.checks_pending = true;
+    let (checks_tx, checks_rx) = mpsc::channel();
+    {
+        let cat = Arc::clone(&app.cat);
+        let settings = args.vetting.checks.settings();
+        let lc = args.vetting.lc.clone();
+        let finder = finder.clone();
+        std::thread::spawn(move || {
+            let mut checks = crate::checks::run(&cat, &settings);
+            let errors = if lc.wanted() {
+                crate::checks::run_lightcurves(&cat, &finder, &lc.detrend(), &mut checks)
+            } else {
+                Vec::new()
+            };
+            let _ = checks_tx.send((checks, errors));
+        });
+    }
     let guard = Guard::enter()?;
     let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
     let mut effects = app.update(Input::Resize);
@@ -357,6 +366,16 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         }
         app.page = term.size().map_or(10, |s| (s.height as usize / 3).max(1));
         term.draw(|f| draw::draw(&app, f, look))?;
+        if let Ok((checks, errors)) = checks_rx.try_recv() {
+            effects.extend(app.update(Input::Checks(Box::new(checks))));
+            if !errors.is_empty() {
+                app.message = Some(format!(
+                    "{} light curves could not be read (first: {})",
+                    errors.len(),
+                    errors[0].1
+                ));
+            }
+        }
         while let Ok((c, r)) = res_rx.try_recv() {
             effects.extend(app.update(Input::Signal(c, Box::new(r))));
         }

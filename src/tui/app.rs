@@ -160,14 +160,17 @@ impl Action {
     }
 }
 
-/// Typed input the keymap does not own (prompt text).
-#[derive(Clone, Debug, PartialEq)]
+/// Typed input the keymap does not own (prompt text), and results of
+/// background work.
+#[derive(Clone, Debug)]
 pub enum Input {
     Action(Action),
     Char(char),
     Backspace,
     /// A light-curve result from the background worker.
     Signal(CandidateId, Box<SignalResult>),
+    /// The checks, run on a background thread at start-up.
+    Checks(Box<Checks>),
     Resize,
 }
 
@@ -312,6 +315,8 @@ pub struct App {
     pinned: Option<StarId>,
     /// The lower-left pane shows the ledger history instead of the facts.
     pub show_ledger: bool,
+    /// True until the background checks have arrived.
+    pub checks_pending: bool,
     /// The ledger history of the selected star (all vetters), oldest first.
     pub history: Vec<crate::ledger::Entry>,
     history_of: Option<StarId>,
@@ -413,6 +418,7 @@ impl App {
             keymap,
             pinned: None,
             show_ledger: false,
+            checks_pending: false,
             history: Vec::new(),
             history_of: None,
         };
@@ -468,7 +474,8 @@ impl App {
         })
     }
 
-    /// Orders (key, star) pairs: by key, then by star id.
+    /// Orders (key, star) pairs: by key, then in catalogue order (by id for
+    /// the id sort).
     fn order(&self, a: &(f64, StarId), b: &(f64, StarId)) -> std::cmp::Ordering {
         let by_key = a.0.total_cmp(&b.0);
         let by_key = if self.descending {
@@ -476,12 +483,18 @@ impl App {
         } else {
             by_key
         };
-        let rank = self.id_rank();
-        let by_id = rank[a.1 as usize].cmp(&rank[b.1 as usize]);
         match self.sort {
-            SortKey::Star if self.descending => by_id.reverse(),
-            SortKey::Star => by_id,
-            _ => by_key.then(by_id),
+            SortKey::Star => {
+                let rank = self.id_rank();
+                let by_id = rank[a.1 as usize].cmp(&rank[b.1 as usize]);
+                if self.descending {
+                    by_id.reverse()
+                } else {
+                    by_id
+                }
+            }
+            // Ties keep catalogue order: cheap, and the same every time.
+            _ => by_key.then(a.1.cmp(&b.1)),
         }
     }
 
@@ -613,6 +626,10 @@ impl App {
                 Vec::new()
             }
             Input::Resize => Vec::new(),
+            Input::Checks(checks) => {
+                self.apply_checks(*checks);
+                Vec::new()
+            }
             Input::Char(ch) => {
                 self.type_char(ch);
                 Vec::new()
@@ -949,6 +966,25 @@ impl App {
             }
         }
         Vec::new()
+    }
+
+    /// Takes the checks' results: flags feed the verdicts from now on.
+    pub fn apply_checks(&mut self, checks: Checks) {
+        let decisions: Vec<Decision> = (0..self.cat.len() as CandidateId)
+            .map(|c| self.live.decision(c))
+            .collect();
+        match Live::with_state(
+            &self.cat,
+            self.live.model().clone(),
+            checks.all_flags().to_vec(),
+            decisions,
+        ) {
+            Ok(live) => self.live = live,
+            Err(e) => self.message = Some(format!("checks not applied: {e}")),
+        }
+        self.checks = checks;
+        self.checks_pending = false;
+        self.refresh_view();
     }
 
     /// The candidates a bulk decision would change: those matching the

@@ -560,7 +560,12 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let text = match &app.message {
         Some(msg) => clean(msg).into_owned(),
         None => format!(
-            "{} · {} validated {} likely {} unlikely {} rejected · filter [{}] · {} · N={} f={} · disagree {} · ? keys",
+            "{}{} · {} validated {} likely {} unlikely {} rejected · filter [{}] · {} · N={} f={} · disagree {} · ? keys",
+            if app.checks_pending {
+                "checks running… · "
+            } else {
+                ""
+            },
             clean(&app.cat.source),
             c.validated,
             c.likely,

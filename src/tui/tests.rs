@@ -289,3 +289,33 @@ fn a_decision_applies_to_the_whole_filter_after_confirmation() {
     act(&mut app, Action::Select);
     assert_eq!(app.live.counts().rejected, n);
 }
+
+#[test]
+fn checks_arriving_later_feed_the_verdicts() {
+    let cat = crate::demo::catalogue().unwrap();
+    let n = cat.len();
+    let model = Model {
+        targets: Some(crate::demo::DEMO_TARGETS),
+        ..Model::default()
+    };
+    let live = Live::new(&cat, model).unwrap();
+    let checks = crate::checks::run(&cat, &Default::default());
+    let cat = std::sync::Arc::new(cat);
+    let mut app = App::new(
+        std::sync::Arc::clone(&cat),
+        live,
+        crate::checks::Checks::none(n),
+        None,
+        "t".into(),
+        Keymap::load(&[]).unwrap(),
+    );
+    app.checks_pending = true;
+    assert!(screen(&app, 120, 30).contains("checks running"));
+    // The planted unstable pair is validated until its `crowded` flag arrives.
+    let pair = cat.find_candidate("HWT74304-s1").unwrap();
+    assert_eq!(app.live.verdict(pair), crate::odds::Verdict::Validated);
+    app.update(Input::Checks(Box::new(checks)));
+    assert!(app.checks.flags(pair).contains(crate::flags::Flag::Crowded));
+    assert_eq!(app.live.verdict(pair), crate::odds::Verdict::Likely);
+    assert!(!screen(&app, 120, 30).contains("checks running"));
+}
