@@ -272,6 +272,45 @@ pub struct Position {
     pub candidates_pane: bool,
 }
 
+/// An f64 as a u64 whose unsigned order is the float's total order.
+fn sortable_bits(x: f64) -> u64 {
+    let b = x.to_bits();
+    if b >> 63 == 1 { !b } else { b | 1 << 63 }
+}
+
+/// Stable LSD radix sort of (key, star) pairs by key, 16 bits a pass.
+fn radix_sort(v: &mut Vec<(u64, StarId)>) {
+    if v.len() < 256 {
+        v.sort_by_key(|e| e.0);
+        return;
+    }
+    let mut tmp = vec![(0u64, 0 as StarId); v.len()];
+    for pass in 0..4 {
+        let shift = pass * 16;
+        // Skip a pass where every key has the same 16 bits.
+        let first = (v[0].0 >> shift) & 0xffff;
+        if v.iter().all(|e| (e.0 >> shift) & 0xffff == first) {
+            continue;
+        }
+        let mut count = vec![0usize; 1 << 16];
+        for e in v.iter() {
+            count[((e.0 >> shift) & 0xffff) as usize] += 1;
+        }
+        let mut at = 0;
+        for c in count.iter_mut() {
+            let n = *c;
+            *c = at;
+            at += n;
+        }
+        for &e in v.iter() {
+            let b = ((e.0 >> shift) & 0xffff) as usize;
+            tmp[count[b]] = e;
+            count[b] += 1;
+        }
+        std::mem::swap(v, &mut tmp);
+    }
+}
+
 /// A decision as made and as undone.
 #[derive(Clone, Copy, Debug, PartialEq)]
 struct Step {
@@ -605,10 +644,20 @@ impl App {
                     || self.cat.members(s).iter().any(|&c| self.matches(c))
             })
             .collect();
-        let mut keyed: Vec<(f64, StarId)> = stars.iter().map(|&s| (self.sort_key(s), s)).collect();
-        keyed.sort_unstable_by(|a, b| self.order(a, b));
-        let stars: Vec<StarId> = keyed.into_iter().map(|(_, s)| s).collect();
-        self.stars = stars;
+        // Keys as order-preserving integers, then a stable radix sort: ties
+        // keep catalogue order, exactly as `order` says.
+        let mut keyed: Vec<(u64, StarId)> = stars
+            .iter()
+            .map(|&s| {
+                let k = match self.sort {
+                    SortKey::Star => self.id_rank()[s as usize] as u64,
+                    _ => sortable_bits(self.sort_key(s)),
+                };
+                (if self.descending { !k } else { k }, s)
+            })
+            .collect();
+        radix_sort(&mut keyed);
+        self.stars = keyed.into_iter().map(|(_, s)| s).collect();
         self.star_row = keep
             .and_then(|k| self.stars.iter().position(|&s| s == k))
             .unwrap_or(0)
@@ -1195,5 +1244,35 @@ impl App {
     pub fn what_if(&self) -> Vec<(CandidateId, usize, f64)> {
         self.candidate()
             .map_or_else(Vec::new, |c| self.live.what_if_rejected(c))
+    }
+}
+
+#[cfg(test)]
+mod sort_tests {
+    use super::*;
+
+    #[test]
+    fn radix_sort_is_a_stable_sort_by_key() {
+        let mut rng = crate::demo::Rng::new(8);
+        let keys = [-3.5, -0.0, 0.0, 1.0, 1.0, 2.5, f64::MAX, -1e300, 7.25];
+        let mut v: Vec<(u64, StarId)> = (0..5000u32)
+            .map(|i| {
+                (
+                    sortable_bits(keys[rng.below(keys.len() as u64) as usize]),
+                    i,
+                )
+            })
+            .collect();
+        let mut want = v.clone();
+        want.sort_by_key(|e| e.0); // std's sort_by_key is stable
+        radix_sort(&mut v);
+        assert_eq!(v, want);
+        // The bits keep the float order.
+        let mut f = keys.to_vec();
+        f.sort_by(f64::total_cmp);
+        assert!(
+            f.windows(2)
+                .all(|w| sortable_bits(w[0]) <= sortable_bits(w[1]))
+        );
     }
 }
