@@ -86,6 +86,17 @@ impl Latest {
     pub fn iter(&self) -> impl Iterator<Item = &Entry> {
         self.entries.iter()
     }
+
+    /// The decision in force for every candidate of a catalogue (open where
+    /// the ledger has none).
+    pub fn decisions(&self, cat: &crate::catalogue::Catalogue) -> Vec<Decision> {
+        (0..cat.len() as crate::catalogue::CandidateId)
+            .map(|c| {
+                self.get(cat.candidate_id(c))
+                    .map_or(Decision::Open, |e| e.decision)
+            })
+            .collect()
+    }
 }
 
 impl std::ops::Index<&str> for Latest {

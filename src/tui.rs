@@ -104,12 +104,11 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
         input,
         ledger: ledger_args,
         model,
-        checks: check_args,
         lc,
+        ..
     } = &args.vetting;
     let loaded = input.load()?;
-    // The checks run on a background thread once the browser is up.
-    let _ = check_args;
+    // The checks run on a background thread once the browser is up (see `run`).
     let checks = crate::checks::Checks::none(loaded.catalogue.len());
     let finder = lc.finder(&loaded);
     let ledger = if args.no_ledger {
@@ -121,13 +120,7 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
     let decisions: Vec<crate::decision::Decision> = match &ledger {
         Some(l) => {
             let latest = l.latest(ledger_args.vetter.as_deref())?;
-            (0..cat.len() as u32)
-                .map(|c| {
-                    latest
-                        .get(cat.candidate_id(c))
-                        .map_or(crate::decision::Decision::Open, |e| e.decision)
-                })
-                .collect()
+            latest.decisions(cat)
         }
         None => vec![crate::decision::Decision::Open; cat.len()],
     };

@@ -535,29 +535,12 @@ fn fast_f64(b: &[u8]) -> Option<f64> {
     };
     let n = b.len();
     // Up to 19 digits always fit in a u64; more go to the slow path.
-    let mut m: u64 = 0;
-    let mut i = 0;
-    while i < n {
-        let d = b[i].wrapping_sub(b'0');
-        if d > 9 {
-            break;
-        }
-        m = m.wrapping_mul(10).wrapping_add(d as u64);
-        i += 1;
-    }
+    let (mut i, mut m) = decimal_digits(b, 0, 0);
     let mut digits = i;
     let mut exp: i32 = 0;
     if i < n && b[i] == b'.' {
-        i += 1;
-        let start = i;
-        while i < n {
-            let d = b[i].wrapping_sub(b'0');
-            if d > 9 {
-                break;
-            }
-            m = m.wrapping_mul(10).wrapping_add(d as u64);
-            i += 1;
-        }
+        let start = i + 1;
+        (i, m) = decimal_digits(b, start, m);
         digits += i - start;
         exp = -((i - start) as i32);
     }
@@ -604,6 +587,17 @@ fn fast_f64(b: &[u8]) -> Option<f64> {
         m as f64 * POW10[exp as usize]
     };
     Some(if neg { -v } else { v })
+}
+
+/// Appends the decimal digits of `b` from `i` to the mantissa `m`
+/// (wrapping: callers bound the digit count); returns where they stop.
+#[inline]
+fn decimal_digits(b: &[u8], mut i: usize, mut m: u64) -> (usize, u64) {
+    while let Some(d) = b.get(i).map(|c| c.wrapping_sub(b'0')).filter(|d| *d <= 9) {
+        m = m.wrapping_mul(10).wrapping_add(d as u64);
+        i += 1;
+    }
+    (i, m)
 }
 
 /// Where each field is in a row of this catalogue; shared by the workers.

@@ -11,7 +11,6 @@ use serde_json::{Map, Value, json};
 use crate::catalogue::{CandidateId, Field, NUMERIC};
 use crate::checks::Checks;
 use crate::cli::{CliError, Loaded, VettingArgs};
-use crate::decision::Decision;
 use crate::ledger::Entry;
 use crate::odds::{Live, model_statement};
 use crate::output::{csv_writer, exact_in, write_json};
@@ -69,13 +68,7 @@ pub fn vetted(args: &VettingArgs) -> Result<Vetted, CliError> {
     }
     let ledger = ledger_args.open(input, &loaded)?;
     let latest = ledger.latest(ledger_args.vetter.as_deref())?;
-    let decisions: Vec<Decision> = (0..cat.len() as CandidateId)
-        .map(|c| {
-            latest
-                .get(cat.candidate_id(c))
-                .map_or(Decision::Open, |e| e.decision)
-        })
-        .collect();
+    let decisions = latest.decisions(cat);
     let live = Live::with_state(
         cat,
         model.model(&loaded.survey)?,

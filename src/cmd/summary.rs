@@ -22,21 +22,6 @@ pub struct Args {
 /// Skipped rows listed in the table format; JSON lists them all.
 const SKIPPED_SHOWN: usize = 20;
 
-impl Args {
-    /// The summary of the built-in demo, as a table.
-    pub fn demo() -> Args {
-        Args {
-            input: CatalogueArgs {
-                catalogue: None,
-                columns: None,
-                depth_unit: None,
-                delimiter: None,
-            },
-            format: Format::Table,
-        }
-    }
-}
-
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let loaded = args.input.load()?;
     let cat = &loaded.catalogue;
