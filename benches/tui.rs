@@ -87,6 +87,17 @@ fn main() {
         t.elapsed().as_secs_f64() - ready
     );
 
+    // Each sort the first time (nothing cached: a full sort of every star).
+    for _ in 0..5 {
+        let t = Instant::now();
+        app.update(Input::Action(Action::SortNext));
+        term.draw(|f| draw(&app, f, look)).expect("draw");
+        println!(
+            "first sort by {:<16} {:.2} ms",
+            app.sort.name(),
+            t.elapsed().as_secs_f64() * 1e3
+        );
+    }
     let script: Vec<(&str, Vec<Input>)> = vec![
         ("move", vec![Input::Action(Action::Down)]),
         ("page", vec![Input::Action(Action::PageDown)]),
@@ -94,6 +105,16 @@ fn main() {
         (
             "decision",
             vec![Input::Action(Action::NextPane), Input::Action(Action::Keep)],
+        ),
+        // A decision makes the best-odds order stale: the next sort change
+        // (here: reverse and back) sorts every star again.
+        (
+            "sort after a decision",
+            vec![
+                Input::Action(Action::Keep),
+                Input::Action(Action::SortReverse),
+                Input::Action(Action::SortReverse),
+            ],
         ),
         (
             "filter edit",
@@ -125,12 +146,41 @@ fn main() {
         }
         times.sort_by(f64::total_cmp);
         println!(
-            "{name:<12} median {:.2} ms, p99 {:.2} ms ({} keystrokes)",
+            "{name:<22} median {:.2} ms, p99 {:.2} ms ({} keystrokes)",
             times[times.len() / 2],
             times[(times.len() as f64 * 0.99) as usize - 1],
             times.len()
         );
     }
+    // The filter apply alone, split into update and draw.
+    let (mut up, mut dr) = (Vec::new(), Vec::new());
+    for _ in 0..20 {
+        for text in ["k>1", ""] {
+            app.update(Input::Action(Action::Filter));
+            for _ in 0..5 {
+                app.update(Input::Backspace);
+            }
+            for ch in text.chars() {
+                app.update(Input::Char(ch));
+            }
+            let t = Instant::now();
+            app.update(Input::Action(Action::Select));
+            let t1 = t.elapsed().as_secs_f64() * 1e3;
+            term.draw(|f| draw(&app, f, look)).expect("draw");
+            if !text.is_empty() {
+                up.push(t1);
+                dr.push(t.elapsed().as_secs_f64() * 1e3 - t1);
+            }
+        }
+    }
+    up.sort_by(f64::total_cmp);
+    dr.sort_by(f64::total_cmp);
+    println!(
+        "filter apply `k>1`: update median {:.2} ms, max {:.2} ms; draw median {:.2} ms",
+        up[up.len() / 2],
+        up[up.len() - 1],
+        dr[dr.len() / 2]
+    );
     // Bytes per navigation keystroke at 100x30.
     let count = Arc::new(std::sync::atomic::AtomicUsize::new(0));
     let mut term =

@@ -95,6 +95,16 @@ impl FlagSet {
         self.0 & other.0 != 0
     }
 
+    /// Every flag in either set.
+    pub fn union(self, other: FlagSet) -> FlagSet {
+        FlagSet(self.0 | other.0)
+    }
+
+    /// How many flags are set.
+    pub fn len(self) -> usize {
+        self.0.count_ones() as usize
+    }
+
     pub fn is_empty(self) -> bool {
         self.0 == 0
     }

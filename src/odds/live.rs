@@ -240,6 +240,26 @@ impl Live {
         }
     }
 
+    /// The odds every candidate of a k-candidate system has when the
+    /// catalogue has no `fpp` (all priors are f); `None` when it has.
+    pub fn uniform_odds(&self, k: usize) -> Option<f64> {
+        if self.prior.is_some() || k == 0 {
+            return None;
+        }
+        Some(
+            self.odds_at_f
+                .get(k)
+                .copied()
+                .unwrap_or_else(|| posterior_odds(self.table.boost(k), self.model.fp_fraction)),
+        )
+    }
+
+    /// The number of a star's candidates not rejected.
+    #[inline]
+    pub fn star_k(&self, s: StarId) -> usize {
+        self.k_of_star[s as usize] as usize
+    }
+
     /// Prior FP probability: the candidate's `fpp`, else f.
     pub fn prior(&self, c: CandidateId) -> f64 {
         self.prior
@@ -269,6 +289,31 @@ impl Live {
                     .unwrap_or_else(|| posterior_odds(self.table.boost(k), self.model.fp_fraction)),
             ),
             Some(p) => Some(posterior_odds(self.table.boost(k), p[c as usize])),
+        }
+    }
+
+    /// The largest odds among a star's non-rejected candidates; `None` when
+    /// all are rejected. Every member shares the star's boost and the odds
+    /// fall as the prior rises, so this is the odds at the smallest prior:
+    /// one pass over the members, no table lookups per member.
+    #[inline]
+    pub fn best_odds(&self, s: StarId) -> Option<f64> {
+        let k = self.k_of_star[s as usize] as usize;
+        if k == 0 {
+            return None;
+        }
+        match &self.prior {
+            None => self.uniform_odds(k),
+            Some(p) => {
+                let least = self
+                    .index
+                    .members(s)
+                    .iter()
+                    .filter(|&&c| !self.decision[c as usize].is_rejected())
+                    .map(|&c| p[c as usize])
+                    .fold(f64::INFINITY, f64::min);
+                Some(posterior_odds(self.table.boost(k), least))
+            }
         }
     }
 

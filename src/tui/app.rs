@@ -243,7 +243,7 @@ pub enum SortKey {
 }
 
 impl SortKey {
-    const ALL: [SortKey; 5] = [
+    pub const ALL: [SortKey; 5] = [
         SortKey::BestOdds,
         SortKey::Multiplicity,
         SortKey::Flags,
@@ -278,37 +278,126 @@ fn sortable_bits(x: f64) -> u64 {
     if b >> 63 == 1 { !b } else { b | 1 << 63 }
 }
 
-/// Stable LSD radix sort of (key, star) pairs by key, 16 bits a pass.
-fn radix_sort(v: &mut Vec<(u64, StarId)>) {
-    if v.len() < 256 {
-        v.sort_by_key(|e| e.0);
+/// Stable sort of (key, star) pairs by key, then by `tie` among equal
+/// keys. An LSD radix sort, 11 bits a pass (2048 buckets: the counts stay in
+/// L1), over the key's bits from `low` up; keys and stars in two arrays so a
+/// pass moves 12 bytes an element; every digit's counts come from one read,
+/// and a digit the same for every key is skipped. Runs that agree on those
+/// bits are then put in full order by a stable sort on (key, tie): for
+/// floats `low = 32` leaves three passes and short runs; for a string
+/// prefix the tie compares the strings.
+fn sort_keyed(
+    keys: &mut Vec<u64>,
+    vals: &mut Vec<StarId>,
+    scratch: &mut Scratch,
+    low: u32,
+    tie: Option<&dyn Fn(StarId, StarId) -> std::cmp::Ordering>,
+) {
+    const BITS: u32 = 11;
+    const MASK: u64 = (1 << BITS) - 1;
+    let n = keys.len();
+    debug_assert_eq!(n, vals.len());
+    if n < 2 {
         return;
     }
-    let mut tmp = vec![(0u64, 0 as StarId); v.len()];
-    for pass in 0..4 {
-        let shift = pass * 16;
-        // Skip a pass where every key has the same 16 bits.
-        let first = (v[0].0 >> shift) & 0xffff;
-        if v.iter().all(|e| (e.0 >> shift) & 0xffff == first) {
-            continue;
+    let passes = (64 - low).div_ceil(BITS) as usize;
+    let shift_of = |p: usize| (low + p as u32 * BITS).min(63);
+    // The bits that differ between keys: a digit without any is skipped.
+    let (all, any) = keys
+        .iter()
+        .fold((u64::MAX, 0u64), |(a, o), &k| (a & k, o | k));
+    let varies: Vec<usize> = (0..passes)
+        .filter(|&p| ((all ^ any) >> shift_of(p)) & MASK != 0)
+        .collect();
+    let mut count = vec![[0usize; 1 << BITS]; varies.len()];
+    for &k in keys.iter() {
+        for (&p, c) in varies.iter().zip(count.iter_mut()) {
+            c[((k >> shift_of(p)) & MASK) as usize] += 1;
         }
-        let mut count = vec![0usize; 1 << 16];
-        for e in v.iter() {
-            count[((e.0 >> shift) & 0xffff) as usize] += 1;
-        }
-        let mut at = 0;
-        for c in count.iter_mut() {
-            let n = *c;
-            *c = at;
-            at += n;
-        }
-        for &e in v.iter() {
-            let b = ((e.0 >> shift) & 0xffff) as usize;
-            tmp[count[b]] = e;
-            count[b] += 1;
-        }
-        std::mem::swap(v, &mut tmp);
     }
+    // Reused buffers: fresh ones would cost a page fault every 4 KB.
+    let (tk, tv) = (&mut scratch.keys, &mut scratch.stars);
+    if !varies.is_empty() && tk.len() != n {
+        tk.resize(n, 0);
+        tv.resize(n, 0);
+    }
+    for (&p, c) in varies.iter().zip(count.iter_mut()) {
+        let shift = shift_of(p);
+        let mut at = 0;
+        for slot in c.iter_mut() {
+            let m = *slot;
+            *slot = at;
+            at += m;
+        }
+        for (&k, &v) in keys.iter().zip(vals.iter()) {
+            let b = ((k >> shift) & MASK) as usize;
+            tk[c[b]] = k;
+            tv[c[b]] = v;
+            c[b] += 1;
+        }
+        std::mem::swap(keys, tk);
+        std::mem::swap(vals, tv);
+    }
+    if low == 0 && tie.is_none() {
+        return;
+    }
+    let hi = |k: u64| k.checked_shr(low).unwrap_or(0);
+    let less = |a: (u64, StarId), b: (u64, StarId)| {
+        a.0.cmp(&b.0)
+            .then_with(|| tie.map_or(std::cmp::Ordering::Equal, |t| t(a.1, b.1)))
+    };
+    let mut i = 0;
+    while i < n {
+        let mut j = i + 1;
+        while j < n && hi(keys[j]) == hi(keys[i]) {
+            j += 1;
+        }
+        if j - i <= 16 {
+            // Short runs (the usual case): a stable insertion sort in place.
+            for m in i + 1..j {
+                let x = (keys[m], vals[m]);
+                let mut at = m;
+                while at > i && less(x, (keys[at - 1], vals[at - 1])).is_lt() {
+                    keys[at] = keys[at - 1];
+                    vals[at] = vals[at - 1];
+                    at -= 1;
+                }
+                keys[at] = x.0;
+                vals[at] = x.1;
+            }
+        } else if keys[i..j].is_sorted() && tie.is_none() {
+            // Equal or ascending keys, catalogue order kept by the passes.
+        } else {
+            let mut run: Vec<(u64, StarId)> = keys[i..j]
+                .iter()
+                .copied()
+                .zip(vals[i..j].iter().copied())
+                .collect();
+            // Stable and adaptive: an already ordered run costs one pass.
+            run.sort_by(|a, b| less(*a, *b));
+            for (o, (k, v)) in run.into_iter().enumerate() {
+                keys[i + o] = k;
+                vals[i + o] = v;
+            }
+        }
+        i = j;
+    }
+}
+
+/// Buffers the sort reuses between calls.
+#[derive(Default)]
+struct Scratch {
+    keys: Vec<u64>,
+    stars: Vec<StarId>,
+}
+
+/// The first eight bytes as a big-endian integer, zero-padded: a smaller
+/// prefix means a smaller byte string; equal prefixes need the strings.
+fn prefix_key(s: &[u8]) -> u64 {
+    let mut b = [0u8; 8];
+    let n = s.len().min(8);
+    b[..n].copy_from_slice(&s[..n]);
+    u64::from_be_bytes(b)
 }
 
 /// A decision as made and as undone.
@@ -327,7 +416,7 @@ pub struct App {
     pub checks: Checks,
     /// Planet radii, computed on first use (only a `radius` filter needs them all).
     radius: std::cell::OnceCell<Vec<f64>>,
-    id_rank: std::cell::OnceCell<Vec<u32>>,
+    id_common: std::cell::OnceCell<usize>,
     pub ledger: Option<Ledger>,
     pub ledger_path: String,
     pub vetter: String,
@@ -359,11 +448,35 @@ pub struct App {
     /// The ledger history of the selected star (all vetters), oldest first.
     pub history: Vec<crate::ledger::Entry>,
     history_of: Option<StarId>,
+    /// Every star in the order of a (sort, descending) pair, kept until a
+    /// decision or the checks change the keys: a sort change or a new
+    /// filter then costs one pass over the stars, not a sort.
+    orders: Vec<((SortKey, bool), Vec<StarId>)>,
+    buffers: SortBuffers,
+}
+
+/// Memory the sorts of the view reuse.
+#[derive(Default)]
+struct SortBuffers {
+    keys: Vec<u64>,
+    scratch: Scratch,
+    /// Orders dropped from the cache, to be refilled.
+    spare: Vec<Vec<StarId>>,
+}
+
+/// What the filter reads, borrowed from the App; `Sync`, so a filter can
+/// run on several threads.
+struct Shared<'a> {
+    cat: &'a Catalogue,
+    live: &'a Live,
+    checks: &'a Checks,
+    radii: &'a [f64],
+    disagree: &'a HashSet<CandidateId>,
 }
 
 /// One candidate as the filter sees it.
 struct Row<'a> {
-    app: &'a App,
+    app: &'a Shared<'a>,
     c: CandidateId,
 }
 
@@ -378,7 +491,7 @@ impl Subject for Row<'_> {
             NumField::Depth => v(Field::DepthPpm),
             NumField::Duration => v(Field::DurationH),
             NumField::Snr => v(Field::Snr),
-            NumField::Radius => Some(a.radii()[c as usize]).filter(|r| r.is_finite()),
+            NumField::Radius => a.radii.get(c as usize).copied().filter(|r| r.is_finite()),
             NumField::K => Some(a.live.k(c) as f64),
             NumField::Boost => a.live.boost(c),
             NumField::Prior => Some(a.live.prior(c)),
@@ -434,7 +547,7 @@ impl App {
             live,
             checks,
             radius: std::cell::OnceCell::new(),
-            id_rank: std::cell::OnceCell::new(),
+            id_common: std::cell::OnceCell::new(),
             ledger,
             ledger_path,
             vetter,
@@ -460,6 +573,8 @@ impl App {
             checks_pending: false,
             history: Vec::new(),
             history_of: None,
+            orders: Vec::new(),
+            buffers: SortBuffers::default(),
         };
         app.refresh_view();
         app
@@ -478,76 +593,115 @@ impl App {
         })
     }
 
-    /// The sort key of a star (larger first when descending).
-    fn sort_key(&self, s: StarId) -> f64 {
-        match self.sort {
-            SortKey::BestOdds => self.best_odds(s).unwrap_or(-1.0),
-            SortKey::Multiplicity => self
-                .cat
-                .members(s)
-                .iter()
-                .filter(|&&c| self.live.k(c) > 0)
-                .count() as f64,
-            SortKey::Flags => self.star_flags(s).iter().count() as f64,
-            SortKey::Star => 0.0,
-            SortKey::Period => self
-                .cat
-                .members(s)
-                .iter()
-                .filter_map(|&c| self.cat.value(Field::PeriodD, c))
-                .fold(f64::INFINITY, f64::min),
+    /// The sort key of stars as an integer whose order is the key's
+    /// (inverted when descending); `low_bits` says how many of its low bits
+    /// the radix passes may leave to the run fix-up (floats: 32). For the id
+    /// sort the key is eight bytes of the id past the prefix every id shares;
+    /// equal keys compare the ids.
+    fn sort_bits(&self) -> impl Fn(StarId) -> u64 + '_ {
+        let period = self.cat.column(Field::PeriodD).unwrap_or(&[]);
+        let common = match self.sort {
+            SortKey::Star => self.id_common(),
+            _ => 0,
+        };
+        // Without `fpp` a star's best odds depend on its size alone: rank the
+        // few sizes' odds once, and the key is a small integer (one pass).
+        let by_size = self.odds_rank_by_size();
+        move |s| {
+            let k = match self.sort {
+                SortKey::BestOdds => match &by_size {
+                    Some(rank) => rank[self.live.star_k(s)],
+                    None => sortable_bits(self.live.best_odds(s).unwrap_or(-1.0)),
+                },
+                SortKey::Multiplicity => self.live.star_k(s) as u64,
+                SortKey::Flags => self.star_flags(s).len() as u64,
+                SortKey::Star => prefix_key(&self.cat.star_id(s).as_bytes()[common..]),
+                SortKey::Period => sortable_bits(
+                    self.cat
+                        .members(s)
+                        .iter()
+                        .filter_map(|&c| period.get(c as usize).copied())
+                        .fold(f64::INFINITY, f64::min),
+                ),
+            };
+            if self.descending { !k } else { k }
         }
     }
 
-    /// Each star's place in id order, computed once: sorting compares
-    /// integers, not strings.
-    fn id_rank(&self) -> &[u32] {
-        self.id_rank.get_or_init(|| {
-            let mut order: Vec<StarId> = (0..self.cat.star_count() as StarId).collect();
-            order.sort_unstable_by(|&a, &b| self.cat.star_id(a).cmp(self.cat.star_id(b)));
-            let mut rank = vec![0u32; order.len()];
-            for (r, &s) in order.iter().enumerate() {
-                rank[s as usize] = r as u32;
-            }
-            rank
+    /// The length in bytes of the prefix every star id shares.
+    fn id_common(&self) -> usize {
+        *self.id_common.get_or_init(|| {
+            let first = self.cat.star_id(0).as_bytes();
+            (1..self.cat.star_count() as StarId).fold(first.len(), |n, s| {
+                let id = self.cat.star_id(s).as_bytes();
+                first[..n]
+                    .iter()
+                    .zip(id)
+                    .take_while(|(a, b)| a == b)
+                    .count()
+            })
         })
     }
 
-    /// Orders (key, star) pairs: by key, then in catalogue order (by id for
-    /// the id sort).
-    fn order(&self, a: &(f64, StarId), b: &(f64, StarId)) -> std::cmp::Ordering {
-        let by_key = a.0.total_cmp(&b.0);
-        let by_key = if self.descending {
-            by_key.reverse()
-        } else {
-            by_key
-        };
+    /// For each system size 0..=k_max, the rank of its odds among all
+    /// sizes' (ties share a rank; 0 = every candidate rejected), when the
+    /// odds depend on the size alone.
+    fn odds_rank_by_size(&self) -> Option<Vec<u64>> {
+        if self.sort != SortKey::BestOdds || self.live.uniform_odds(1).is_none() {
+            return None;
+        }
+        // The live histogram only grows, so it covers every star's size.
+        let k_max = self.live.histogram().len().saturating_sub(1);
+        let odds: Vec<f64> = (0..=k_max)
+            .map(|k| self.live.uniform_odds(k).unwrap_or(-1.0))
+            .collect();
+        Some(
+            odds.iter()
+                .map(|&o| odds.iter().filter(|&&x| x.total_cmp(&o).is_lt()).count() as u64)
+                .collect(),
+        )
+    }
+
+    fn low_bits(&self) -> u32 {
+        match self.sort {
+            SortKey::BestOdds if self.live.uniform_odds(1).is_none() => 32,
+            SortKey::Period => 32,
+            _ => 0,
+        }
+    }
+
+    /// Ties of the sort: the ids for the id sort (reversed when
+    /// descending), else catalogue order.
+    fn tie(&self, a: StarId, b: StarId) -> std::cmp::Ordering {
         match self.sort {
             SortKey::Star => {
-                let rank = self.id_rank();
-                let by_id = rank[a.1 as usize].cmp(&rank[b.1 as usize]);
+                let by_id = self.cat.star_id(a).cmp(self.cat.star_id(b));
                 if self.descending {
                     by_id.reverse()
                 } else {
                     by_id
                 }
             }
-            // Ties keep catalogue order: cheap, and the same every time.
-            _ => by_key.then(a.1.cmp(&b.1)),
+            _ => a.cmp(&b),
         }
     }
 
-    /// After a decision on star `s`: only its place in the view changes
-    /// (every other star of the same size moves with the same factor, so the
-    /// order among them holds); O(log n) to find, one memmove to move.
+    /// After a decision on star `s`: it moves to its new place, found by
+    /// binary search, O(log n) plus one memmove. Stars of the same size keep
+    /// their order (their odds all move by one factor); a change of the
+    /// table can reorder stars of different sizes whose odds are close, and
+    /// the view shows that at its next full sort (a sort or filter change),
+    /// which is exact.
     fn reposition(&mut self, s: StarId) {
         if let Some(i) = self.stars.iter().position(|&x| x == s) {
             self.stars.remove(i);
         }
-        let key = (self.sort_key(s), s);
-        let at = self.stars.partition_point(|&x| {
-            self.order(&(self.sort_key(x), x), &key) == std::cmp::Ordering::Less
-        });
+        let at = {
+            let key = self.sort_bits();
+            let ks = key(s);
+            self.stars
+                .partition_point(|&x| key(x).cmp(&ks).then_with(|| self.tie(x, s)).is_lt())
+        };
         self.stars.insert(at, s);
         self.star_row = at;
     }
@@ -605,29 +759,85 @@ impl App {
         self.members().get(self.cand_row).copied()
     }
 
-    fn matches(&self, c: CandidateId) -> bool {
-        self.filter.matches(&Row { app: self, c })
+    /// The filter's view of the App; planet radii are computed first
+    /// when the filter asks for them.
+    fn shared(&self) -> Shared<'_> {
+        let radius = self
+            .filter
+            .clauses
+            .iter()
+            .any(|c| matches!(c, crate::query::Clause::Compare(NumField::Radius, ..)));
+        Shared {
+            cat: &self.cat,
+            live: &self.live,
+            checks: &self.checks,
+            radii: if radius { self.radii() } else { &[] },
+            disagree: &self.disagree,
+        }
     }
 
     /// The best (largest) odds among a star's non-rejected candidates.
     pub fn best_odds(&self, s: StarId) -> Option<f64> {
-        self.cat
-            .members(s)
-            .iter()
-            .filter_map(|&c| self.live.odds(c))
-            .reduce(f64::max)
+        self.live.best_odds(s)
     }
 
     pub fn star_flags(&self, s: StarId) -> FlagSet {
         self.cat
             .members(s)
             .iter()
-            .map(|&c| self.checks.flags(c))
-            .fold(FlagSet::EMPTY, |a, b| {
-                let mut out = a;
-                b.iter().for_each(|f| out.insert(f));
-                out
-            })
+            .fold(FlagSet::EMPTY, |a, &c| a.union(self.checks.flags(c)))
+    }
+
+    /// Every star in the current sort order, from the cache or sorted now:
+    /// keys as order-preserving integers, then a stable radix sort, so ties
+    /// keep catalogue order exactly as `order` says.
+    fn full_order(&mut self) -> Vec<StarId> {
+        let at = (self.sort, self.descending);
+        if let Some(i) = self.orders.iter().position(|(k, _)| *k == at) {
+            return self.orders.remove(i).1;
+        }
+        let n = self.cat.star_count() as StarId;
+        let mut buf = std::mem::take(&mut self.buffers);
+        let mut stars = buf.spare.pop().unwrap_or_default();
+        stars.clear();
+        stars.extend(0..n);
+        buf.keys.clear();
+        buf.keys.extend((0..n).map(self.sort_bits()));
+        let tie = |a, b| self.tie(a, b);
+        let by_id: Option<&dyn Fn(StarId, StarId) -> std::cmp::Ordering> =
+            (self.sort == SortKey::Star).then_some(&tie);
+        sort_keyed(
+            &mut buf.keys,
+            &mut stars,
+            &mut buf.scratch,
+            self.low_bits(),
+            by_id,
+        );
+        self.buffers = buf;
+        stars
+    }
+
+    /// Forgets the cached orders whose keys a change of decisions (or, with
+    /// `checks`, of flags) can move.
+    fn forget_orders(&mut self, checks: bool) {
+        let (keep, gone) = std::mem::take(&mut self.orders)
+            .into_iter()
+            .partition(|((k, _), _)| match k {
+                SortKey::BestOdds | SortKey::Multiplicity => false,
+                SortKey::Flags => !checks,
+                SortKey::Star | SortKey::Period => true,
+            });
+        self.orders = keep;
+        self.recycle(gone);
+    }
+
+    /// Keeps up to two dropped orders' memory for the next sort.
+    fn recycle(&mut self, gone: Vec<((SortKey, bool), Vec<StarId>)>) {
+        for (_, v) in gone {
+            if self.buffers.spare.len() < 2 {
+                self.buffers.spare.push(v);
+            }
+        }
     }
 
     /// Rebuilds the index vector of shown stars from the filter and sort,
@@ -637,27 +847,45 @@ impl App {
         if self.pinned != keep {
             self.pinned = None;
         }
-        let stars: Vec<StarId> = (0..self.cat.star_count() as StarId)
-            .filter(|&s| {
-                self.filter.is_empty()
-                    || Some(s) == self.pinned
-                    || self.cat.members(s).iter().any(|&c| self.matches(c))
-            })
-            .collect();
-        // Keys as order-preserving integers, then a stable radix sort: ties
-        // keep catalogue order, exactly as `order` says.
-        let mut keyed: Vec<(u64, StarId)> = stars
-            .iter()
-            .map(|&s| {
-                let k = match self.sort {
-                    SortKey::Star => self.id_rank()[s as usize] as u64,
-                    _ => sortable_bits(self.sort_key(s)),
-                };
-                (if self.descending { !k } else { k }, s)
-            })
-            .collect();
-        radix_sort(&mut keyed);
-        self.stars = keyed.into_iter().map(|(_, s)| s).collect();
+        let order = self.full_order();
+        let mut stars = std::mem::take(&mut self.stars);
+        stars.clear();
+        if self.filter.is_empty() {
+            stars.extend_from_slice(&order);
+        } else {
+            let shared = self.shared();
+            let (filter, pinned) = (&self.filter, self.pinned);
+            let shown = |part: &[StarId], out: &mut Vec<StarId>| {
+                out.extend(part.iter().copied().filter(|&s| {
+                    Some(s) == pinned
+                        || shared
+                            .cat
+                            .members(s)
+                            .iter()
+                            .any(|&c| filter.matches(&Row { app: &shared, c }))
+                }))
+            };
+            // Half the stars on a second thread: the filter reads columns
+            // at random (stars in sort order), so it waits on memory.
+            if order.len() >= 100_000 {
+                let (a, b) = order.split_at(order.len() / 2);
+                let mut second = Vec::new();
+                std::thread::scope(|scope| {
+                    scope.spawn(|| shown(b, &mut second));
+                    shown(a, &mut stars);
+                });
+                stars.extend_from_slice(&second);
+            } else {
+                shown(&order, &mut stars);
+            }
+        }
+        self.stars = stars;
+        // Least recently used first; six orders of a million stars are 24 MB.
+        if self.orders.len() >= 6 {
+            let gone = self.orders.remove(0);
+            self.recycle(vec![gone]);
+        }
+        self.orders.push(((self.sort, self.descending), order));
         self.star_row = keep
             .and_then(|k| self.stars.iter().position(|&s| s == k))
             .unwrap_or(0)
@@ -1033,14 +1261,18 @@ impl App {
         }
         self.checks = checks;
         self.checks_pending = false;
+        self.forget_orders(true);
         self.refresh_view();
     }
 
     /// The candidates a bulk decision would change: those matching the
     /// filter whose decision is not already `d`.
     pub fn bulk_targets(&self, d: Decision) -> Vec<CandidateId> {
+        let shared = self.shared();
         (0..self.cat.len() as CandidateId)
-            .filter(|&c| self.live.decision(c) != d && self.matches(c))
+            .filter(|&c| {
+                self.live.decision(c) != d && self.filter.matches(&Row { app: &shared, c })
+            })
             .collect()
     }
 
@@ -1081,6 +1313,7 @@ impl App {
             });
         }
         self.redo.clear();
+        self.forget_orders(false);
         self.refresh_view();
         self.refresh_history(true);
         self.message = Some(format!(
@@ -1137,6 +1370,7 @@ impl App {
 
     fn after_decision(&mut self, c: CandidateId, d: Decision) {
         self.live.set_decision(c, d);
+        self.forget_orders(false);
         let s = self.cat.star_of(c);
         self.pinned = Some(s);
         self.message = Some(format!(
@@ -1251,24 +1485,82 @@ impl App {
 mod sort_tests {
     use super::*;
 
-    #[test]
-    fn radix_sort_is_a_stable_sort_by_key() {
-        let mut rng = crate::demo::Rng::new(8);
-        let keys = [-3.5, -0.0, 0.0, 1.0, 1.0, 2.5, f64::MAX, -1e300, 7.25];
-        let mut v: Vec<(u64, StarId)> = (0..5000u32)
-            .map(|i| {
-                (
-                    sortable_bits(keys[rng.below(keys.len() as u64) as usize]),
-                    i,
-                )
-            })
-            .collect();
+    /// The reference is std's `sort_by`, which is stable (documented).
+    fn check(
+        v: Vec<(u64, StarId)>,
+        low: u32,
+        tie: Option<&dyn Fn(StarId, StarId) -> std::cmp::Ordering>,
+    ) {
         let mut want = v.clone();
-        want.sort_by_key(|e| e.0); // std's sort_by_key is stable
-        radix_sort(&mut v);
-        assert_eq!(v, want);
+        want.sort_by(|a, b| {
+            a.0.cmp(&b.0)
+                .then_with(|| tie.map_or(std::cmp::Ordering::Equal, |t| t(a.1, b.1)))
+        });
+        let (mut k, mut s): (Vec<u64>, Vec<StarId>) = v.into_iter().unzip();
+        sort_keyed(&mut k, &mut s, &mut Scratch::default(), low, tie);
+        assert_eq!(k.into_iter().zip(s).collect::<Vec<_>>(), want, "low {low}");
+    }
+
+    #[test]
+    fn sort_keyed_is_a_stable_sort_by_key_then_tie() {
+        let mut rng = crate::demo::Rng::new(8);
+        let floats = [
+            -3.5,
+            -0.0,
+            0.0,
+            1.0,
+            1.0,
+            2.5,
+            f64::MAX,
+            -1e300,
+            7.25,
+            1.0 + 1e-12,
+        ];
+        for n in [0, 1, 2, 7, 300, 5000] {
+            for low in [0, 32] {
+                // Few distinct floats (long runs of equal keys) ...
+                let v = (0..n)
+                    .map(|i| {
+                        (
+                            sortable_bits(floats[rng.below(floats.len() as u64) as usize]),
+                            i,
+                        )
+                    })
+                    .collect();
+                check(v, low, None);
+                // ... and keys whose every digit varies.
+                let v = (0..n).map(|i| (rng.next_u64(), i)).collect();
+                check(v, low, None);
+            }
+            // Strings by their prefix, ties by the whole string.
+            let ids: Vec<String> = (0..n)
+                .map(|_| {
+                    format!(
+                        "STAR-{:04}{}",
+                        rng.below(50),
+                        ["", "a", "\u{0}", "b"][rng.below(4) as usize]
+                    )
+                })
+                .collect();
+            let tie = |a: StarId, b: StarId| ids[a as usize].cmp(&ids[b as usize]);
+            let v = (0..n)
+                .map(|i| (prefix_key(ids[i as usize].as_bytes()), i))
+                .collect();
+            check(v, 0, Some(&tie));
+            // The prefix keeps the string order.
+            let mut sorted = ids.clone();
+            sorted.sort();
+            assert!(
+                sorted
+                    .windows(2)
+                    .all(|w| prefix_key(w[0].as_bytes()) <= prefix_key(w[1].as_bytes()))
+            );
+            // Past a prefix every id shares, too.
+            assert!(sorted.windows(2).all(|w| prefix_key(&w[0].as_bytes()[5..])
+                <= prefix_key(&w[1].as_bytes()[5..])));
+        }
         // The bits keep the float order.
-        let mut f = keys.to_vec();
+        let mut f = floats.to_vec();
         f.sort_by(f64::total_cmp);
         assert!(
             f.windows(2)
