@@ -18,7 +18,7 @@ use ratatui::crossterm::event::{self, Event, KeyEventKind};
 use ratatui::crossterm::{cursor, execute, terminal};
 
 use crate::cli::{CliError, VettingArgs};
-use app::{App, Effect, Input, Mode, SignalResult};
+use app::{App, Effect, Input, SignalResult};
 use draw::Look;
 use keymap::{Key, Keymap};
 
@@ -380,7 +380,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         }
         match event::read()? {
             Event::Key(k) if k.kind == KeyEventKind::Press => {
-                let prompt = matches!(app.mode, Mode::Prompt { .. });
+                let prompt = app.takes_text();
                 let key = Key::from_event(&k);
                 let input = match (prompt, key) {
                     (

@@ -216,11 +216,12 @@ pub enum Mode {
         text: String,
         error: Option<ParseError>,
     },
-    /// Choosing a rejection reason (index into ALL_REASONS); for every
-    /// candidate matching the filter when `bulk`.
+    /// Choosing a rejection reason (index into ALL_REASONS) and typing an
+    /// optional note; for every candidate matching the filter when `bulk`.
     Reasons {
         selected: usize,
         bulk: bool,
+        note: String,
     },
     /// Choosing the decision for every candidate matching the filter.
     Bulk,
@@ -228,6 +229,7 @@ pub enum Mode {
     Confirm {
         decision: Decision,
         count: usize,
+        note: String,
     },
     Help,
 }
@@ -430,8 +432,9 @@ pub struct App {
     pub sort: SortKey,
     pub descending: bool,
     pub mode: Mode,
-    undo: Vec<Step>,
-    redo: Vec<Step>,
+    /// Undo and redo stacks of groups: a bulk decision is one group.
+    undo: Vec<Vec<Step>>,
+    redo: Vec<Vec<Step>>,
     pub message: Option<String>,
     pub advance: bool,
     pub signals: HashMap<CandidateId, SignalResult>,
@@ -912,8 +915,14 @@ impl App {
                 Vec::new()
             }
             Input::Backspace => {
-                if let Mode::Prompt { text, .. } = &mut self.mode {
-                    text.pop();
+                match &mut self.mode {
+                    Mode::Prompt { text, .. } => {
+                        text.pop();
+                    }
+                    Mode::Reasons { note, .. } => {
+                        note.pop();
+                    }
+                    _ => {}
                 }
                 self.prompt_changed();
                 Vec::new()
@@ -965,10 +974,22 @@ impl App {
         self.pending.contains(&c)
     }
 
+    /// True while a prompt or the reason picker's note takes typed text.
+    pub fn takes_text(&self) -> bool {
+        matches!(self.mode, Mode::Prompt { .. } | Mode::Reasons { .. })
+    }
+
     fn type_char(&mut self, ch: char) {
-        if let Mode::Prompt { text, .. } = &mut self.mode {
-            text.push(ch);
-            self.prompt_changed();
+        match &mut self.mode {
+            Mode::Prompt { text, .. } => {
+                text.push(ch);
+                self.prompt_changed();
+            }
+            // A note is one line of plain text.
+            Mode::Reasons { note, .. } if !ch.is_control() && note.chars().count() < 200 => {
+                note.push(ch)
+            }
+            _ => {}
         }
     }
 
@@ -1069,6 +1090,7 @@ impl App {
                         self.mode = Mode::Reasons {
                             selected: 0,
                             bulk: true,
+                            note: String::new(),
                         };
                         None
                     }
@@ -1082,47 +1104,55 @@ impl App {
                     self.mode = Mode::Confirm {
                         decision: d,
                         count: self.bulk_targets(d).len(),
+                        note: String::new(),
                     };
                 }
                 return Vec::new();
             }
-            (Mode::Confirm { decision, .. }, _) => {
-                let d = *decision;
+            (Mode::Confirm { decision, note, .. }, _) => {
+                let (d, note) = (*decision, note.clone());
                 match a {
                     Action::Select => {
                         self.mode = Mode::Normal;
-                        self.apply_bulk(d);
+                        self.apply_bulk(d, &note);
                     }
                     Action::Close | Action::Quit => self.mode = Mode::Normal,
                     _ => {}
                 }
                 return Vec::new();
             }
-            (Mode::Reasons { selected, bulk }, _) => {
-                let (sel, bulk) = (*selected, *bulk);
+            (
+                Mode::Reasons {
+                    selected,
+                    bulk,
+                    note,
+                },
+                _,
+            ) => {
+                let (sel, bulk, note) = (*selected, *bulk, note.clone());
+                let reasons = |selected| Mode::Reasons {
+                    selected,
+                    bulk,
+                    note: note.clone(),
+                };
                 match a {
-                    Action::Up => {
-                        self.mode = Mode::Reasons {
-                            selected: sel.saturating_sub(1),
-                            bulk,
-                        }
-                    }
-                    Action::Down => {
-                        self.mode = Mode::Reasons {
-                            selected: (sel + 1).min(ALL_REASONS.len() - 1),
-                            bulk,
-                        }
-                    }
-                    Action::Select | Action::Reject if bulk => {
+                    Action::Up => self.mode = reasons(sel.saturating_sub(1)),
+                    Action::Down => self.mode = reasons((sel + 1).min(ALL_REASONS.len() - 1)),
+                    Action::Select if bulk => {
                         let d = Decision::Rejected(ALL_REASONS[sel]);
                         self.mode = Mode::Confirm {
                             decision: d,
                             count: self.bulk_targets(d).len(),
+                            note,
                         };
                     }
-                    Action::Select | Action::Reject => {
+                    Action::Select => {
                         self.mode = Mode::Normal;
-                        self.decide(Decision::Rejected(ALL_REASONS[sel]));
+                        let note = note.trim();
+                        self.decide(
+                            Decision::Rejected(ALL_REASONS[sel]),
+                            (!note.is_empty()).then_some(note),
+                        );
                     }
                     Action::Close | Action::Quit => self.mode = Mode::Normal,
                     _ => {}
@@ -1195,14 +1225,15 @@ impl App {
                     self.focus = Pane::Candidates;
                 }
             }
-            Action::Keep => self.decide(Decision::Kept),
-            Action::Park => self.decide(Decision::Parked),
-            Action::Reopen => self.decide(Decision::Open),
+            Action::Keep => self.decide(Decision::Kept, None),
+            Action::Park => self.decide(Decision::Parked, None),
+            Action::Reopen => self.decide(Decision::Open, None),
             Action::Reject => {
                 if self.candidate().is_some() {
                     self.mode = Mode::Reasons {
                         selected: 0,
                         bulk: false,
+                        note: String::new(),
                     };
                 }
             }
@@ -1277,45 +1308,21 @@ impl App {
     }
 
     /// Applies one decision to every candidate matching the filter, in one
-    /// ledger transaction (all or nothing), then to the state.
-    fn apply_bulk(&mut self, d: Decision) {
+    /// ledger transaction (all or nothing), then to the state; one undo
+    /// step takes it all back.
+    fn apply_bulk(&mut self, d: Decision, note: &str) {
         let targets = self.bulk_targets(d);
-        let mut ids: Vec<Option<i64>> = vec![None; targets.len()];
-        if let Some(ledger) = self.ledger.as_mut() {
-            let cat = &self.cat;
-            let rows: Vec<NewDecision> = targets
-                .iter()
-                .map(|&c| NewDecision {
-                    candidate: cat.candidate_id(c),
-                    star: cat.star_id(cat.star_of(c)),
-                    vetter: &self.vetter,
-                    decision: d,
-                    note: Some("applied to every candidate matching the filter"),
-                    undoes: None,
-                })
-                .collect();
-            match ledger.record_all(&rows) {
-                Ok(written) => ids = written.into_iter().map(Some).collect(),
-                Err(e) => {
-                    self.message = Some(format!("NOT SAVED: {e}"));
-                    return;
-                }
-            }
-        }
-        for (&c, id) in targets.iter().zip(ids) {
-            let before = self.live.decision(c);
-            self.live.set_decision(c, d);
-            self.undo.push(Step {
-                candidate: c,
-                before,
-                after: d,
-                ledger_id: id,
-            });
-        }
+        let note = match note.trim() {
+            "" => "applied to every candidate matching the filter".to_string(),
+            n => format!("applied to every candidate matching the filter: {n}"),
+        };
+        let rows: Vec<(CandidateId, Decision, Option<i64>)> =
+            targets.iter().map(|&c| (c, d, None)).collect();
+        let Some(group) = self.write(&rows, Some(&note)) else {
+            return;
+        };
+        self.undo.push(group);
         self.redo.clear();
-        self.forget_orders(false);
-        self.refresh_view();
-        self.refresh_history(true);
         self.message = Some(format!(
             "{d} applied to {} candidates matching [{}]",
             targets.len(),
@@ -1324,48 +1331,69 @@ impl App {
     }
 
     /// Records a decision: the ledger first, then the state, then the odds.
-    fn decide(&mut self, d: Decision) {
+    fn decide(&mut self, d: Decision, note: Option<&str>) {
         let Some(c) = self.candidate() else { return };
-        let before = self.live.decision(c);
-        match self.record(c, d, None) {
-            Ok(id) => {
-                self.undo.push(Step {
-                    candidate: c,
-                    before,
-                    after: d,
-                    ledger_id: id,
-                });
-                self.redo.clear();
-                self.after_decision(c, d);
-                if self.advance {
-                    self.next_open(true);
-                }
+        if let Some(group) = self.write(&[(c, d, None)], note) {
+            self.undo.push(group);
+            self.redo.clear();
+            if self.advance {
+                self.next_open(true);
             }
-            Err(e) => self.message = Some(format!("NOT SAVED: {e}")),
         }
     }
 
-    fn record(
+    /// Writes decisions (candidate, decision, the ledger entry it undoes) to
+    /// the ledger in one transaction, then to the state; returns the steps
+    /// as made, or `None` (with the reason on the status line) when the
+    /// ledger refused them and nothing changed.
+    fn write(
         &mut self,
-        c: CandidateId,
-        d: Decision,
-        undoes: Option<i64>,
-    ) -> Result<Option<i64>, String> {
-        let Some(ledger) = self.ledger.as_mut() else {
-            return Ok(None);
-        };
-        let cat = &self.cat;
-        ledger
-            .record(&NewDecision {
-                candidate: cat.candidate_id(c),
-                star: cat.star_id(cat.star_of(c)),
-                vetter: &self.vetter,
-                decision: d,
-                note: None,
-                undoes,
+        rows: &[(CandidateId, Decision, Option<i64>)],
+        note: Option<&str>,
+    ) -> Option<Vec<Step>> {
+        let mut ids: Vec<Option<i64>> = vec![None; rows.len()];
+        if let Some(ledger) = self.ledger.as_mut() {
+            let cat = &self.cat;
+            let new: Vec<NewDecision> = rows
+                .iter()
+                .map(|&(c, d, undoes)| NewDecision {
+                    candidate: cat.candidate_id(c),
+                    star: cat.star_id(cat.star_of(c)),
+                    vetter: &self.vetter,
+                    decision: d,
+                    note,
+                    undoes,
+                })
+                .collect();
+            match ledger.record_all(&new) {
+                Ok(written) => ids = written.into_iter().map(Some).collect(),
+                Err(e) => {
+                    self.message = Some(format!("NOT SAVED: {e}"));
+                    return None;
+                }
+            }
+        }
+        let steps: Vec<Step> = rows
+            .iter()
+            .zip(ids)
+            .map(|(&(c, d, _), id)| Step {
+                candidate: c,
+                before: self.live.decision(c),
+                after: d,
+                ledger_id: id,
             })
-            .map(Some)
-            .map_err(|e| e.to_string())
+            .collect();
+        if let [one] = steps.as_slice() {
+            self.after_decision(one.candidate, one.after);
+        } else {
+            for st in &steps {
+                self.live.set_decision(st.candidate, st.after);
+            }
+            self.forget_orders(false);
+            self.refresh_view();
+            self.refresh_history(true);
+        }
+        Some(steps)
     }
 
     fn after_decision(&mut self, c: CandidateId, d: Decision) {
@@ -1384,46 +1412,57 @@ impl App {
         self.refresh_history(true);
     }
 
+    /// Takes back the last group of decisions (each recorded in the ledger
+    /// as a new entry naming the one it undoes).
     fn undo(&mut self) {
-        let Some(step) = self.undo.pop() else {
+        let Some(group) = self.undo.pop() else {
             self.message = Some("nothing to undo".into());
             return;
         };
-        match self.record(step.candidate, step.before, step.ledger_id) {
-            Ok(_) => {
-                self.after_decision(step.candidate, step.before);
-                self.message = Some(format!(
-                    "undone: {}",
-                    crate::sanitize::clean(self.cat.candidate_id(step.candidate))
-                ));
-                self.go_to(step.candidate);
-                self.redo.push(step);
+        let rows: Vec<_> = group
+            .iter()
+            .rev()
+            .map(|st| (st.candidate, st.before, st.ledger_id))
+            .collect();
+        match self.write(&rows, None) {
+            Some(_) => {
+                let first = group[0].candidate;
+                self.message = Some(match group.len() {
+                    1 => format!(
+                        "undone: {}",
+                        crate::sanitize::clean(self.cat.candidate_id(first))
+                    ),
+                    n => format!("undone: {} for {n} candidates", group[0].after),
+                });
+                self.go_to(first);
+                self.redo.push(group);
             }
-            Err(e) => {
-                self.undo.push(step);
-                self.message = Some(format!("NOT SAVED: {e}"));
-            }
+            None => self.undo.push(group),
         }
     }
 
     fn redo(&mut self) {
-        let Some(step) = self.redo.pop() else {
+        let Some(group) = self.redo.pop() else {
             self.message = Some("nothing to redo".into());
             return;
         };
-        match self.record(step.candidate, step.after, None) {
-            Ok(id) => {
-                self.after_decision(step.candidate, step.after);
-                self.go_to(step.candidate);
-                self.undo.push(Step {
-                    ledger_id: id,
-                    ..step
-                });
+        let rows: Vec<_> = group
+            .iter()
+            .map(|st| (st.candidate, st.after, None))
+            .collect();
+        match self.write(&rows, None) {
+            Some(steps) => {
+                if group.len() > 1 {
+                    self.message = Some(format!(
+                        "redone: {} for {} candidates",
+                        group[0].after,
+                        group.len()
+                    ));
+                }
+                self.go_to(group[0].candidate);
+                self.undo.push(steps);
             }
-            Err(e) => {
-                self.redo.push(step);
-                self.message = Some(format!("NOT SAVED: {e}"));
-            }
+            None => self.redo.push(group),
         }
     }
 

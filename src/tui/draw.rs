@@ -107,7 +107,7 @@ pub fn draw(app: &App, frame: &mut Frame, look: Look) {
     draw_prompt(app, frame, prompt, look);
     match &app.mode {
         Mode::Help => draw_help(app, frame, area),
-        Mode::Reasons { selected, .. } => draw_reasons(frame, area, *selected, look),
+        Mode::Reasons { selected, note, .. } => draw_reasons(frame, area, *selected, note, look),
         Mode::Bulk => {
             let k = |a| app.keymap.keys_of(a);
             use super::app::Action as A;
@@ -122,9 +122,17 @@ pub fn draw(app: &App, frame: &mut Frame, look: Look) {
             );
             draw_box(frame, area, " Apply to the filter ", text);
         }
-        Mode::Confirm { decision, count } => {
+        Mode::Confirm {
+            decision,
+            count,
+            note,
+        } => {
+            let note = match note.trim() {
+                "" => String::new(),
+                n => format!(" with the note \"{}\"", clean(n)),
+            };
             let text = format!(
-                "Record {decision} for {count} candidates matching [{}]?\n{} confirms · {} cancels",
+                "Record {decision} for {count} candidates matching [{}]{note}?\n{} confirms · {} cancels",
                 clean(&app.filter.text),
                 app.keymap.keys_of(super::app::Action::Select),
                 app.keymap.keys_of(super::app::Action::Close)
@@ -669,8 +677,8 @@ fn draw_box(frame: &mut Frame, area: Rect, title: &str, text: String) {
     );
 }
 
-fn draw_reasons(frame: &mut Frame, area: Rect, selected: usize, look: Look) {
-    let lines: Vec<Line> = ALL_REASONS
+fn draw_reasons(frame: &mut Frame, area: Rect, selected: usize, note: &str, look: Look) {
+    let mut lines: Vec<Line> = ALL_REASONS
         .iter()
         .enumerate()
         .map(|(i, r)| {
@@ -682,7 +690,21 @@ fn draw_reasons(frame: &mut Frame, area: Rect, selected: usize, look: Look) {
             }
         })
         .collect();
-    let r = centred(area, 30, lines.len() as u16 + 2);
+    let width = 40.min(area.width);
+    // The note's tail, so the cursor end stays in sight.
+    let room = (width as usize).saturating_sub(10);
+    let shown: String = {
+        let chars: Vec<char> = note.chars().collect();
+        chars[chars.len().saturating_sub(room)..].iter().collect()
+    };
+    lines.push(Line::from(""));
+    lines.push(Line::from(format!(" note: {}_", clean(&shown))));
+    let arrows = if look.ascii { "up/down" } else { "↑↓" };
+    lines.push(
+        Line::from(format!(" {arrows} reason · type a note · Enter"))
+            .style(style(look, Color::DarkGray)),
+    );
+    let r = centred(area, width, lines.len() as u16 + 2);
     frame.render_widget(Clear, r);
     frame.render_widget(
         Paragraph::new(lines).block(

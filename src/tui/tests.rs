@@ -288,6 +288,56 @@ fn a_decision_applies_to_the_whole_filter_after_confirmation() {
     act(&mut app, Action::Select);
     act(&mut app, Action::Select);
     assert_eq!(app.live.counts().rejected, n);
+    // One undo takes the whole bulk rejection back (to parked), one redo
+    // makes it again.
+    act(&mut app, Action::Undo);
+    assert_eq!(app.live.counts().rejected, 0);
+    let parked = |app: &App| {
+        (0..app.cat.len() as u32)
+            .filter(|&c| app.live.decision(c) == Decision::Parked)
+            .count()
+    };
+    assert_eq!(parked(&app), n);
+    act(&mut app, Action::Redo);
+    assert_eq!(app.live.counts().rejected, n);
+    act(&mut app, Action::Undo);
+    act(&mut app, Action::Undo);
+    assert_eq!(
+        parked(&app),
+        0,
+        "two undos: the rejection, then the parking"
+    );
+}
+
+#[test]
+fn a_note_typed_in_the_reason_picker_goes_to_the_ledger() {
+    let dir = std::env::temp_dir().join(format!("starsift-tui-note-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(&dir).unwrap();
+    let ledger = crate::ledger::Ledger::open(&dir.join("l.sqlite")).unwrap();
+    let mut app = demo_app_with(Some(ledger));
+    act(&mut app, Action::NextPane);
+    let c = app.candidate().unwrap();
+    act(&mut app, Action::Reject);
+    act(&mut app, Action::Down);
+    // Letters type into the note, even those bound to actions elsewhere.
+    typed(&mut app, "odd/even x2");
+    app.update(Input::Backspace);
+    let s = screen(&app, 80, 24);
+    assert!(s.contains("note: odd/even x_"), "{s}");
+    act(&mut app, Action::Select);
+    assert_eq!(
+        app.live.decision(c),
+        Decision::Rejected(crate::decision::ALL_REASONS[1])
+    );
+    let h = app
+        .ledger
+        .as_ref()
+        .unwrap()
+        .history(Some(app.cat.candidate_id(c)))
+        .unwrap();
+    assert_eq!(h.last().unwrap().note.as_deref(), Some("odd/even x"));
+    let _ = std::fs::remove_dir_all(&dir);
 }
 
 #[test]
