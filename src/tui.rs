@@ -242,21 +242,19 @@ fn spawn_worker(
                         let flux = crate::lightcurve::analysis::detrend(lc, &all, &detrend);
                         let skip = crate::lightcurve::analysis::in_transit(&lc.time, &others, 1.2);
                         let z = (3.0 * me.duration_h / 24.0 / me.period_d).min(0.5);
-                        let binned = crate::lightcurve::analysis::fold_bin(
+                        let views = crate::lightcurve::analysis::views(
                             &lc.time,
                             &flux,
                             &lc.flux_err,
-                            Some(&skip),
-                            me.period_d,
-                            me.epoch,
-                            0.0,
-                            (-z, z),
+                            &skip,
+                            &me,
+                            z,
                             60,
                         );
                         let diagnostics = cache.diagnostics(&finder, &cat, c, &detrend);
                         match diagnostics.as_ref() {
                             Ok(d) => SignalResult::Data {
-                                binned,
+                                views: Box::new(views),
                                 diagnostics: Box::new(d.clone()),
                                 source: lc.source.clone(),
                             },

@@ -79,10 +79,12 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let flux = detrend(&lc, &all, &settings);
     let mut skip = crate::lightcurve::analysis::in_transit(&lc.time, &others, 1.2);
     if args.parity != Parity::All {
-        let want = i64::from(args.parity == Parity::Odd);
-        for (i, t) in lc.time.iter().enumerate() {
-            skip[i] |= me.cycle(*t).rem_euclid(2) != want;
-        }
+        crate::lightcurve::analysis::keep_parity(
+            &lc.time,
+            &me,
+            args.parity == Parity::Odd,
+            &mut skip,
+        );
     }
     let zoom = (ZOOM_DURATIONS * me.duration_h / 24.0 / me.period_d).min(0.5);
     let (centre, range) = match args.window {

@@ -150,14 +150,27 @@ fn robust_line_at_zero(pts: &mut Vec<(f64, f64)>) -> Option<f64> {
 }
 
 /// The light curve divided by its trend, with every known transit of the
-/// star masked while the trend is estimated.
+/// star masked while the trend is estimated, and the window half an orbit
+/// later too: a trend fitted through a secondary eclipse takes up part of
+/// its depth (a third of it, for a 3 h eclipse under a 9 h window), and the
+/// secondary check measures there.
 pub fn detrend(lc: &LightCurve, signals: &[Ephemeris], s: &DetrendSettings) -> Vec<f64> {
     if !s.enabled {
         return lc.flux.clone();
     }
     let longest_h = signals.iter().map(|e| e.duration_h).fold(0.0, f64::max);
     let window_d = (s.window_factor * longest_h).max(s.min_window_h) / 24.0;
-    let mask = in_transit(&lc.time, signals, 1.2);
+    let halves: Vec<Ephemeris> = signals
+        .iter()
+        .map(|e| Ephemeris {
+            epoch: e.epoch + e.period_d / 2.0,
+            ..*e
+        })
+        .collect();
+    let mut mask = in_transit(&lc.time, signals, 1.2);
+    for (m, h) in mask.iter_mut().zip(in_transit(&lc.time, &halves, 1.2)) {
+        *m |= h;
+    }
     let trend = running_median_trend(&lc.time, &lc.flux, &mask, window_d);
     lc.flux.iter().zip(&trend).map(|(f, t)| f / t).collect()
 }
@@ -273,6 +286,64 @@ pub fn fold_bin(
         out.err.push((var / n).sqrt());
     }
     out
+}
+
+/// Adds to `skip` every sample of a transit of the other parity: keeps the
+/// odd transits when `odd`, else the even ones (transit 0, at the epoch, is
+/// even).
+pub fn keep_parity(time: &[f64], me: &Ephemeris, odd: bool, skip: &mut [bool]) {
+    let want = i64::from(odd);
+    for (s, &t) in skip.iter_mut().zip(time) {
+        *s |= me.cycle(t).rem_euclid(2) != want;
+    }
+}
+
+/// The folds a vetter compares, each ± `zoom` cycles wide: all transits,
+/// the odd and the even ones apart, and the window half an orbit later
+/// where a secondary eclipse would be.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Views {
+    pub transit: Binned,
+    pub odd: Binned,
+    pub even: Binned,
+    pub secondary: Binned,
+}
+
+/// Bins the four views of one candidate; `skip` masks the other
+/// candidates' transits.
+pub fn views(
+    time: &[f64],
+    flux: &[f64],
+    err: &[f64],
+    skip: &[bool],
+    me: &Ephemeris,
+    zoom: f64,
+    bins: usize,
+) -> Views {
+    let fold = |skip: &[bool], centre| {
+        fold_bin(
+            time,
+            flux,
+            err,
+            Some(skip),
+            me.period_d,
+            me.epoch,
+            centre,
+            (-zoom, zoom),
+            bins,
+        )
+    };
+    let parity = |odd| {
+        let mut s = skip.to_vec();
+        keep_parity(time, me, odd, &mut s);
+        fold(&s, 0.0)
+    };
+    Views {
+        transit: fold(skip, 0.0),
+        odd: parity(true),
+        even: parity(false),
+        secondary: fold(skip, 0.5),
+    }
 }
 
 /// A measured quantity with its 1σ uncertainty.

@@ -12,7 +12,7 @@ use crate::checks::Checks;
 use crate::decision::{ALL_REASONS, Decision, Reason};
 use crate::flags::{Flag, FlagSet};
 use crate::ledger::{Ledger, NewDecision};
-use crate::lightcurve::analysis::{Binned, Diagnostics};
+use crate::lightcurve::analysis::Diagnostics;
 use crate::odds::{Live, Verdict};
 use crate::query::{Filter, NumField, ParseError, Subject};
 
@@ -46,12 +46,13 @@ pub enum Action {
     ToggleAdvance,
     CopyId,
     ShowLedger,
+    SignalView,
     ApplyToFilter,
     Close,
 }
 
 impl Action {
-    pub const ALL: [Action; 29] = [
+    pub const ALL: [Action; 30] = [
         Action::Quit,
         Action::Help,
         Action::Find,
@@ -79,6 +80,7 @@ impl Action {
         Action::ToggleAdvance,
         Action::CopyId,
         Action::ShowLedger,
+        Action::SignalView,
         Action::ApplyToFilter,
         Action::Close,
     ];
@@ -112,6 +114,7 @@ impl Action {
             Action::ToggleAdvance => "toggle-advance",
             Action::CopyId => "copy-id",
             Action::ShowLedger => "show-ledger",
+            Action::SignalView => "signal-view",
             Action::ApplyToFilter => "apply-to-filter",
             Action::Close => "close",
         }
@@ -148,6 +151,9 @@ impl Action {
             Action::ShowLedger => {
                 "show the ledger history of the selected system instead of its facts (and back)"
             }
+            Action::SignalView => {
+                "signal pane: all transits, odd beside even, or the secondary window (cycles)"
+            }
             Action::ApplyToFilter => {
                 "apply one decision to every candidate matching the filter (asks first)"
             }
@@ -178,7 +184,7 @@ pub enum Input {
 #[derive(Clone, Debug, PartialEq)]
 pub enum SignalResult {
     Data {
-        binned: Binned,
+        views: Box<crate::lightcurve::analysis::Views>,
         diagnostics: Box<Diagnostics>,
         source: String,
     },
@@ -232,6 +238,28 @@ pub enum Mode {
         note: String,
     },
     Help,
+}
+
+/// What the signal pane shows. A tall pane shows the transit fold with the
+/// three others in a row beneath it.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum SignalView {
+    /// Every transit folded, the model over it.
+    Transit,
+    /// Odd and even transits side by side on one scale.
+    OddEven,
+    /// Half an orbit after the transit, where a secondary eclipse would be.
+    Secondary,
+}
+
+impl SignalView {
+    fn next(self) -> SignalView {
+        match self {
+            SignalView::Transit => SignalView::OddEven,
+            SignalView::OddEven => SignalView::Secondary,
+            SignalView::Secondary => SignalView::Transit,
+        }
+    }
 }
 
 /// How the systems are ordered.
@@ -446,6 +474,8 @@ pub struct App {
     pinned: Option<StarId>,
     /// The lower-left pane shows the ledger history instead of the facts.
     pub show_ledger: bool,
+    /// What the signal pane shows.
+    pub signal_view: SignalView,
     /// True until the background checks have arrived.
     pub checks_pending: bool,
     /// The ledger history of the selected star (all vetters), oldest first.
@@ -573,6 +603,7 @@ impl App {
             keymap,
             pinned: None,
             show_ledger: false,
+            signal_view: SignalView::Transit,
             checks_pending: false,
             history: Vec::new(),
             history_of: None,
@@ -1250,6 +1281,7 @@ impl App {
                 ));
             }
             Action::ShowLedger => self.show_ledger = !self.show_ledger,
+            Action::SignalView => self.signal_view = self.signal_view.next(),
             Action::ApplyToFilter => {
                 if self.filter.is_empty() {
                     self.message = Some(

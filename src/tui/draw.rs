@@ -13,6 +13,7 @@ use ratatui::widgets::{
 use super::app::{App, Mode, Pane, PromptKind, SignalResult};
 use crate::catalogue::{CandidateId, Field};
 use crate::decision::ALL_REASONS;
+use crate::lightcurve::analysis::Binned;
 use crate::odds::{Verdict, format_odds};
 use crate::output::num;
 use crate::sanitize::clean;
@@ -344,6 +345,7 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
 }
 
 fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    use super::app::SignalView;
     let Some(c) = app.candidate() else {
         frame.render_widget(block(" Signal ".into(), false, look), area);
         return;
@@ -353,25 +355,25 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
         app.cat.value(Field::PeriodD, c).unwrap_or(1.0),
         app.cat.value(Field::DurationH, c).unwrap_or(1.0),
     );
-    let span_h = 3.0 * dur;
-    let to_h = |phase: f64| phase * period * 24.0;
+    // The same window the folds are binned in: ± 3 durations, at most half an orbit.
+    let span_h = (3.0 * dur).min(12.0 * period);
     let model: Vec<(f64, f64)> = (0..120)
         .map(|i| {
             let h = -span_h + 2.0 * span_h * i as f64 / 119.0;
             (h, (m.flux(h / 24.0 / period) - 1.0) * 1e6)
         })
         .collect();
-    let (title, points, note) = match app.signals.get(&c) {
+    let flat = [(-span_h, 0.0), (span_h, 0.0)];
+    let views = match app.signals.get(&c) {
+        Some(SignalResult::Data { views, .. }) => Some(views.as_ref()),
+        _ => None,
+    };
+    let (title, note) = match app.signals.get(&c) {
         Some(SignalResult::Data {
-            binned,
-            diagnostics,
+            diagnostics: d,
             source,
+            ..
         }) => {
-            let pts: Vec<(f64, f64)> = (0..binned.centre.len())
-                .filter(|&i| binned.mean[i].is_finite())
-                .map(|i| (to_h(binned.centre[i]), (binned.mean[i] - 1.0) * 1e6))
-                .collect();
-            let d = diagnostics;
             let note = format!(
                 "depth {:.0}±{:.0} · odd {:.0} even {:.0} (Z {:.1}) · sec {:.0}±{:.0} · flat {:.2}",
                 d.depth.value,
@@ -386,26 +388,90 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             let src = std::path::Path::new(source)
                 .file_name()
                 .map_or(source.clone(), |f| f.to_string_lossy().into_owned());
-            (format!(" Signal · data {} ", clean(&src)), pts, note)
+            (format!(" Signal · data {} ", clean(&src)), note)
         }
         Some(SignalResult::Model(why)) => (
             " Signal · model (no light curve) ".to_string(),
-            Vec::new(),
             clean(why).into_owned(),
         ),
         None if app.loading(c) => (
             " Signal · loading… ".to_string(),
-            Vec::new(),
             "reading the light curve".into(),
         ),
-        None => (" Signal · model ".to_string(), Vec::new(), String::new()),
+        None => (" Signal · model ".to_string(), String::new()),
     };
     let b = block(title, false, look);
     let inner = b.inner(area);
     frame.render_widget(b, area);
     let [chart_area, note_area] =
         Layout::vertical([Constraint::Min(3), Constraint::Length(1)]).areas(inner);
-    let ys = points.iter().chain(model.iter()).map(|p| p.1);
+    let to_points = |b: &Binned| -> Vec<(f64, f64)> {
+        (0..b.centre.len())
+            .filter(|&i| b.mean[i].is_finite())
+            .map(|i| (b.centre[i] * period * 24.0, (b.mean[i] - 1.0) * 1e6))
+            .collect()
+    };
+    // (label, binned points, the model curve drawn with them)
+    let panel = |which: SignalView, label: &str| -> (String, Vec<(f64, f64)>, &[(f64, f64)]) {
+        let (binned, curve): (Option<&Binned>, &[(f64, f64)]) = match which {
+            SignalView::Transit => (views.map(|v| &v.transit), &model),
+            SignalView::OddEven => (None, &model),
+            SignalView::Secondary => (views.map(|v| &v.secondary), &flat),
+        };
+        let pts = binned.map(to_points).unwrap_or_default();
+        (label.to_string(), pts, curve)
+    };
+    let odd_even = |odd: bool| -> (String, Vec<(f64, f64)>, &[(f64, f64)]) {
+        let pts = views
+            .map(|v| to_points(if odd { &v.odd } else { &v.even }))
+            .unwrap_or_default();
+        (if odd { "odd" } else { "even" }.to_string(), pts, &model)
+    };
+    let tall = chart_area.height >= 16 && chart_area.width >= 60;
+    let mut panels = Vec::new();
+    let mut areas = Vec::new();
+    if tall {
+        let [top, bottom] =
+            Layout::vertical([Constraint::Percentage(60), Constraint::Percentage(40)])
+                .areas(chart_area);
+        panels.push(panel(SignalView::Transit, "all transits"));
+        areas.push(top);
+        panels.push(odd_even(true));
+        panels.push(odd_even(false));
+        panels.push(panel(SignalView::Secondary, "secondary (phase 0.5)"));
+        areas.extend(
+            Layout::horizontal([Constraint::Ratio(1, 3); 3])
+                .split(bottom)
+                .iter(),
+        );
+    } else {
+        match app.signal_view {
+            SignalView::Transit => {
+                panels.push(panel(SignalView::Transit, "all transits · v: odd/even"));
+                areas.push(chart_area);
+            }
+            SignalView::OddEven => {
+                panels.push(odd_even(true));
+                panels.push(odd_even(false));
+                areas.extend(
+                    Layout::horizontal([Constraint::Ratio(1, 2); 2])
+                        .split(chart_area)
+                        .iter(),
+                );
+            }
+            SignalView::Secondary => {
+                panels.push(panel(
+                    SignalView::Secondary,
+                    "secondary (phase 0.5) · v: all",
+                ));
+                areas.push(chart_area);
+            }
+        }
+    }
+    // One vertical scale for every panel, so depths compare by eye.
+    let ys = panels
+        .iter()
+        .flat_map(|(_, p, curve)| p.iter().chain(curve.iter()).map(|q| q.1));
     let lo = ys.clone().fold(f64::INFINITY, f64::min);
     let hi = ys.fold(f64::NEG_INFINITY, f64::max).max(lo + 1.0);
     let pad = (hi - lo) * 0.08;
@@ -414,35 +480,63 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     } else {
         Marker::Braille
     };
-    let mut sets = vec![
-        Dataset::default()
-            .name("model")
-            .marker(marker)
-            .graph_type(GraphType::Line)
-            .style(style(look, Color::Magenta))
-            .data(&model),
-    ];
-    if !points.is_empty() {
-        sets.push(
+    for (i, ((label, points, curve), r)) in panels.iter().zip(areas).enumerate() {
+        let label = if views.is_none() {
+            format!("{label} · model")
+        } else {
+            label.clone()
+        };
+        let mut sets = vec![
             Dataset::default()
-                .name("binned")
                 .marker(marker)
-                .graph_type(GraphType::Scatter)
-                .style(style(look, Color::White))
-                .data(&points),
-        );
+                .graph_type(GraphType::Line)
+                .style(style(look, Color::Magenta))
+                .data(curve),
+        ];
+        if !points.is_empty() {
+            sets.push(
+                Dataset::default()
+                    .marker(marker)
+                    .graph_type(GraphType::Scatter)
+                    .style(style(look, Color::White))
+                    .data(points),
+            );
+        }
+        // Labels on the first panel of a row only: small panels need the room.
+        let first = i == 0 || (tall && i == 1);
+        let y_labels = if first {
+            vec![
+                Line::from(format!("{lo:.0}")),
+                Line::from(format!("{hi:.0} ppm")),
+            ]
+        } else {
+            Vec::new()
+        };
+        let x_labels = if first && r.width >= 30 {
+            vec![
+                Line::from(format!("{:.1} h", -span_h)),
+                Line::from("0"),
+                Line::from(format!("{span_h:.1} h")),
+            ]
+        } else if first {
+            vec![
+                Line::from(format!("{:.0}", -span_h)),
+                Line::from("0"),
+                Line::from(format!("{span_h:.0}h")),
+            ]
+        } else {
+            vec![Line::from(""), Line::from("0"), Line::from("")]
+        };
+        let chart = Chart::new(sets)
+            .block(Block::default().title(Line::from(label).style(style(look, Color::DarkGray))))
+            .x_axis(Axis::default().bounds([-span_h, span_h]).labels(x_labels))
+            .y_axis(
+                Axis::default()
+                    .bounds([lo - pad, hi + pad])
+                    .labels(y_labels),
+            );
+        frame.render_widget(chart, r);
     }
-    let chart = Chart::new(sets)
-        .x_axis(Axis::default().bounds([-span_h, span_h]).labels(vec![
-            Line::from(format!("{:.1} h", -span_h)),
-            Line::from("0"),
-            Line::from(format!("{span_h:.1} h")),
-        ]))
-        .y_axis(Axis::default().bounds([lo - pad, hi + pad]).labels(vec![
-            Line::from(format!("{:.0}", lo)),
-            Line::from(format!("{:.0} ppm", hi)),
-        ]));
-    frame.render_widget(chart, chart_area);
     frame.render_widget(Paragraph::new(note), note_area);
 }
 

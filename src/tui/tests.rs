@@ -497,3 +497,24 @@ fn reference_order(app: &App) -> Vec<crate::catalogue::StarId> {
     });
     v
 }
+
+#[test]
+fn the_signal_pane_shows_odd_beside_even_and_the_secondary() {
+    let mut app = demo_app();
+    let s = screen(&app, 80, 24);
+    assert!(s.contains("all transits"), "{s}");
+    act(&mut app, Action::SignalView);
+    let s = screen(&app, 80, 24);
+    assert!(
+        s.contains("odd · model") && s.contains("even · model"),
+        "{s}"
+    );
+    act(&mut app, Action::SignalView);
+    assert!(screen(&app, 80, 24).contains("secondary (phase 0.5)"));
+    act(&mut app, Action::SignalView);
+    // A tall pane shows all four at once.
+    let s = screen(&app, 160, 50);
+    for label in ["all transits", "odd", "even", "secondary (phase 0.5)"] {
+        assert!(s.contains(label), "{label}: {s}");
+    }
+}

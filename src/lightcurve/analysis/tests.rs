@@ -217,3 +217,35 @@ fn binning_matches_a_direct_computation() {
         (phase(10.0, 4.0, 2.0) - 0.0).abs() < 1e-12 && (phase(4.0, 4.0, 2.0) + 0.5).abs() < 1e-12
     );
 }
+
+#[test]
+fn the_views_show_odd_even_and_secondary_apart() {
+    // Flat-bottomed eclipses of 12000 ppm (even transits) and 7000 ppm (odd),
+    // and a 2500 ppm secondary half an orbit later: each view's deepest
+    // bins sit at its own depth (injected values; invented star).
+    let (lc, e) = synthetic(2.7, 12000.0, 7000.0, 2500.0, 0.9, 2e-4, 21);
+    let all = [e];
+    let flux = detrend(&lc, &all, &DetrendSettings::default());
+    let skip = vec![false; lc.time.len()];
+    let zoom = 3.0 * e.duration_h / 24.0 / e.period_d;
+    let v = views(&lc.time, &flux, &lc.flux_err, &skip, &e, zoom, 60);
+    let deepest = |b: &Binned| {
+        b.mean
+            .iter()
+            .filter(|m| m.is_finite())
+            .map(|m| (1.0 - m) * 1e6)
+            .fold(f64::NEG_INFINITY, f64::max)
+    };
+    let near = |got: f64, want: f64| (got - want).abs() < 0.06 * want;
+    assert!(near(deepest(&v.even), 12000.0), "even {}", deepest(&v.even));
+    assert!(near(deepest(&v.odd), 7000.0), "odd {}", deepest(&v.odd));
+    assert!(
+        near(deepest(&v.secondary), 2500.0),
+        "secondary {}",
+        deepest(&v.secondary)
+    );
+    // All transits together: the deepest bin lies between the two.
+    let d = deepest(&v.transit);
+    assert!(d > 8000.0 && d < 11500.0, "all {d}");
+    assert_eq!(v.transit.centre.len(), 60);
+}
