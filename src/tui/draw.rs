@@ -344,6 +344,10 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     );
 }
 
+/// One plot of the signal pane: its label, the binned points, and the model
+/// curve drawn with them.
+type Panel<'a> = (String, Vec<(f64, f64)>, &'a [(f64, f64)]);
+
 fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     use super::app::SignalView;
     let Some(c) = app.candidate() else {
@@ -411,8 +415,7 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             .map(|i| (b.centre[i] * period * 24.0, (b.mean[i] - 1.0) * 1e6))
             .collect()
     };
-    // (label, binned points, the model curve drawn with them)
-    let panel = |which: SignalView, label: &str| -> (String, Vec<(f64, f64)>, &[(f64, f64)]) {
+    let panel = |which: SignalView, label: &str| -> Panel {
         let (binned, curve): (Option<&Binned>, &[(f64, f64)]) = match which {
             SignalView::Transit => (views.map(|v| &v.transit), &model),
             SignalView::OddEven => (None, &model),
@@ -421,7 +424,7 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
         let pts = binned.map(to_points).unwrap_or_default();
         (label.to_string(), pts, curve)
     };
-    let odd_even = |odd: bool| -> (String, Vec<(f64, f64)>, &[(f64, f64)]) {
+    let odd_even = |odd: bool| -> Panel {
         let pts = views
             .map(|v| to_points(if odd { &v.odd } else { &v.even }))
             .unwrap_or_default();
