@@ -68,6 +68,19 @@ fn fits_written_here_reads_back_exactly() {
         err.contains("no flux column") && err.contains("SAP") && err.contains("LCA.fits"),
         "{err}"
     );
+    // The same file gzipped (by flate2 here) reads back the same.
+    let gz = d.join("LCA.fits.gz");
+    let mut enc = flate2::write::GzEncoder::new(
+        std::fs::File::create(&gz).unwrap(),
+        flate2::Compression::default(),
+    );
+    enc.write_all(&std::fs::read(&p).unwrap()).unwrap();
+    enc.finish().unwrap();
+    let from_gz = LightCurve::read(&gz, &LcColumns::default()).unwrap();
+    let plain = LightCurve::read(&p, &LcColumns::default()).unwrap();
+    assert_eq!(from_gz.time, plain.time);
+    assert_eq!(from_gz.flux, plain.flux);
+    assert_eq!(from_gz.flux_err, plain.flux_err);
 }
 
 #[test]

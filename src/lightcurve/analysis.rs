@@ -450,15 +450,12 @@ pub fn diagnose(
     ctx: &Context,
     detrend_settings: &DetrendSettings,
 ) -> Diagnostics {
-    // The trend is estimated with every known transit masked, and this
-    // signal's phase-0.5 window too, so that a secondary eclipse is not
-    // mistaken for variability.
+    // The trend is estimated with every known transit masked, and the
+    // phase-0.5 windows too (see `detrend`), so that a secondary eclipse is
+    // not mistaken for variability; the folds the browser and `fold` draw
+    // use the same trend.
     let mut all = vec![*me];
     all.extend_from_slice(others);
-    all.push(Ephemeris {
-        epoch: me.epoch + me.period_d / 2.0,
-        ..*me
-    });
     let flux = detrend(lc, &all, detrend_settings);
     let masked_others = in_transit(&lc.time, others, 1.2);
     let half = me.half_d();
