@@ -126,8 +126,8 @@ impl Action {
             Action::Help => "show these keys",
             Action::Find => "fuzzy-find a star or candidate by id",
             Action::Filter => "filter the systems (e.g. odds>=100 flag:echo decision:open)",
-            Action::SortNext => "sort systems by the next column",
-            Action::SortReverse => "reverse the sort",
+            Action::SortNext => "sort by the next column (systems, or the candidates of a system)",
+            Action::SortReverse => "reverse the sort of the pane",
             Action::Keep => "keep the candidate",
             Action::Reject => "reject the candidate (pick a reason)",
             Action::Park => "park the candidate (needs more data)",
@@ -292,6 +292,37 @@ impl SortKey {
     }
 }
 
+/// How the candidates of the selected star are ordered.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum CandidateSort {
+    /// As in the catalogue file.
+    File,
+    Period,
+    Depth,
+    Odds,
+    Snr,
+}
+
+impl CandidateSort {
+    pub const ALL: [CandidateSort; 5] = [
+        CandidateSort::File,
+        CandidateSort::Period,
+        CandidateSort::Depth,
+        CandidateSort::Odds,
+        CandidateSort::Snr,
+    ];
+
+    pub fn name(self) -> &'static str {
+        match self {
+            CandidateSort::File => "file order",
+            CandidateSort::Period => "period",
+            CandidateSort::Depth => "depth",
+            CandidateSort::Odds => "odds",
+            CandidateSort::Snr => "SNR",
+        }
+    }
+}
+
 /// Where a vetter was in a catalogue, remembered between sessions.
 #[derive(Clone, Debug, Default, PartialEq, serde::Serialize, serde::Deserialize)]
 pub struct Position {
@@ -300,6 +331,10 @@ pub struct Position {
     pub sort: String,
     pub descending: bool,
     pub candidates_pane: bool,
+    #[serde(default)]
+    pub candidate_sort: String,
+    #[serde(default)]
+    pub candidate_descending: bool,
 }
 
 /// An f64 as a u64 whose unsigned order is the float's total order.
@@ -459,6 +494,9 @@ pub struct App {
     pub filter: Filter,
     pub sort: SortKey,
     pub descending: bool,
+    /// The order of the candidates pane.
+    pub cand_sort: CandidateSort,
+    pub cand_descending: bool,
     pub mode: Mode,
     /// Undo and redo stacks of groups: a bulk decision is one group.
     undo: Vec<Vec<Step>>,
@@ -592,6 +630,8 @@ impl App {
             filter: Filter::default(),
             sort: SortKey::BestOdds,
             descending: true,
+            cand_sort: CandidateSort::File,
+            cand_descending: false,
             mode: Mode::Normal,
             undo: Vec::new(),
             redo: Vec::new(),
@@ -750,6 +790,8 @@ impl App {
             sort: self.sort.name().to_string(),
             descending: self.descending,
             candidates_pane: self.focus == Pane::Candidates,
+            candidate_sort: self.cand_sort.name().to_string(),
+            candidate_descending: self.cand_descending,
         }
     }
 
@@ -760,6 +802,13 @@ impl App {
             self.sort = k;
         }
         self.descending = p.descending;
+        if let Some(k) = CandidateSort::ALL
+            .into_iter()
+            .find(|k| k.name() == p.candidate_sort)
+        {
+            self.cand_sort = k;
+        }
+        self.cand_descending = p.candidate_descending;
         if let Ok(f) = Filter::parse(&p.filter) {
             self.filter = f;
         }
@@ -783,14 +832,48 @@ impl App {
         self.stars.get(self.star_row).copied()
     }
 
-    /// The members of the selected star.
-    pub fn members(&self) -> &[CandidateId] {
-        self.star().map_or(&[], |s| self.cat.members(s))
+    /// The members of the selected star, in the candidates pane's order.
+    pub fn members(&self) -> Vec<CandidateId> {
+        self.star().map_or_else(Vec::new, |s| self.members_of(s))
+    }
+
+    /// A star's members in the candidates pane's order (file order breaks
+    /// ties; a missing value sorts last either way).
+    pub fn members_of(&self, s: StarId) -> Vec<CandidateId> {
+        let mut m = self.cat.members(s).to_vec();
+        let key = |c: CandidateId| -> Option<f64> {
+            match self.cand_sort {
+                CandidateSort::File => None,
+                CandidateSort::Period => self.cat.value(Field::PeriodD, c),
+                CandidateSort::Depth => self.cat.value(Field::DepthPpm, c),
+                CandidateSort::Odds => self.live.odds(c),
+                CandidateSort::Snr => self.cat.value(Field::Snr, c),
+            }
+        };
+        if self.cand_sort != CandidateSort::File {
+            m.sort_by(|&a, &b| match (key(a), key(b)) {
+                (Some(x), Some(y)) if self.cand_descending => y.total_cmp(&x),
+                (Some(x), Some(y)) => x.total_cmp(&y),
+                (Some(_), None) => std::cmp::Ordering::Less,
+                (None, Some(_)) => std::cmp::Ordering::Greater,
+                (None, None) => std::cmp::Ordering::Equal,
+            });
+        } else if self.cand_descending {
+            m.reverse();
+        }
+        m
     }
 
     /// The selected candidate.
     pub fn candidate(&self) -> Option<CandidateId> {
         self.members().get(self.cand_row).copied()
+    }
+
+    /// Keeps the selection on candidate `c` after the members are reordered.
+    fn keep_candidate(&mut self, c: Option<CandidateId>) {
+        if let Some(c) = c {
+            self.cand_row = self.members().iter().position(|&m| m == c).unwrap_or(0);
+        }
     }
 
     /// The filter's view of the App; planet radii are computed first
@@ -1064,12 +1147,7 @@ impl App {
         }
         if let Some(row) = self.stars.iter().position(|&x| x == s) {
             self.star_row = row;
-            self.cand_row = self
-                .cat
-                .members(s)
-                .iter()
-                .position(|&m| m == c)
-                .unwrap_or(0);
+            self.cand_row = self.members_of(s).iter().position(|&m| m == c).unwrap_or(0);
         }
     }
 
@@ -1225,6 +1303,19 @@ impl App {
                     text: self.filter.text.clone(),
                     error: None,
                 }
+            }
+            // In the candidates pane the sort keys order the members.
+            Action::SortNext if self.focus == Pane::Candidates => {
+                let keep = self.candidate();
+                let all = CandidateSort::ALL;
+                let i = all.iter().position(|k| *k == self.cand_sort).unwrap_or(0);
+                self.cand_sort = all[(i + 1) % all.len()];
+                self.keep_candidate(keep);
+            }
+            Action::SortReverse if self.focus == Pane::Candidates => {
+                let keep = self.candidate();
+                self.cand_descending = !self.cand_descending;
+                self.keep_candidate(keep);
             }
             Action::SortNext => {
                 let i = SortKey::ALL
@@ -1511,7 +1602,7 @@ impl App {
             } else {
                 (self.star_row + n - step % n) % n
             };
-            let members = self.cat.members(self.stars[row]);
+            let members = self.members_of(self.stars[row]);
             let m = members.len();
             let picks: Vec<usize> = match (step, forward) {
                 (0, true) => (self.cand_row + 1..m).collect(),

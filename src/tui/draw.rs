@@ -164,13 +164,23 @@ fn window(selected: usize, len: usize, height: usize) -> (usize, usize) {
     (start, (start + height).min(len))
 }
 
+/// The sort direction as shown in a pane title.
+fn direction(look: Look, descending: bool) -> &'static str {
+    match (look.ascii, descending) {
+        (false, true) => " ↓",
+        (false, false) => " ↑",
+        (true, true) => " desc",
+        (true, false) => " asc",
+    }
+}
+
 fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let title = format!(
         " Systems {} of {} · sort {}{} ",
         app.stars.len(),
         app.cat.star_count(),
         app.sort.name(),
-        if app.descending { " ↓" } else { " ↑" }
+        direction(look, app.descending)
     );
     let b = block(title, app.focus == Pane::Systems, look);
     let inner = b.inner(area);
@@ -248,8 +258,12 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
 }
 
 fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    let order = match (app.cand_sort, app.cand_descending) {
+        (super::app::CandidateSort::File, false) => String::new(),
+        (k, d) => format!("· by {}{} ", k.name(), direction(look, d)),
+    };
     let title = match app.star() {
-        Some(s) => format!(" Candidates of {} ", clean(app.cat.star_id(s))),
+        Some(s) => format!(" Candidates of {} {order}", clean(app.cat.star_id(s))),
         None => " Candidates ".into(),
     };
     let b = block(title, app.focus == Pane::Candidates, look);

@@ -518,3 +518,43 @@ fn the_signal_pane_shows_odd_beside_even_and_the_secondary() {
         assert!(s.contains(label), "{label}: {s}");
     }
 }
+
+#[test]
+fn the_candidates_pane_sorts_its_members() {
+    use super::app::CandidateSort;
+    let mut app = demo_app();
+    act(&mut app, Action::NextPane);
+    act(&mut app, Action::Down);
+    let picked = app.candidate().unwrap();
+    let period = |app: &App, c| app.cat.value(crate::catalogue::Field::PeriodD, c).unwrap();
+    // s in the candidates pane: file order → period, ascending.
+    act(&mut app, Action::SortNext);
+    assert_eq!(app.cand_sort, CandidateSort::Period);
+    let m = app.members();
+    assert!(
+        m.windows(2)
+            .all(|w| period(&app, w[0]) <= period(&app, w[1]))
+    );
+    assert_eq!(
+        app.candidate(),
+        Some(picked),
+        "the selection follows the candidate"
+    );
+    act(&mut app, Action::SortReverse);
+    let m = app.members();
+    assert!(
+        m.windows(2)
+            .all(|w| period(&app, w[0]) >= period(&app, w[1]))
+    );
+    assert!(screen(&app, 100, 30).contains("by period desc"));
+    // The systems' sort is untouched, and the order is remembered.
+    assert_eq!(app.sort, super::app::SortKey::BestOdds);
+    let p = app.position();
+    let mut fresh = demo_app();
+    fresh.restore(&p);
+    assert_eq!(
+        (fresh.cand_sort, fresh.cand_descending),
+        (CandidateSort::Period, true)
+    );
+    assert_eq!(fresh.candidate(), Some(picked));
+}
