@@ -38,7 +38,7 @@ fn main() {
         starsift::demo::write_big(&path, 1_000_000, 42).expect("write");
     }
     let look = Look {
-        color: true,
+        palette: starsift::tui::draw::Palette::Basic,
         ascii: false,
     };
     // As the browser starts: the checks run on another thread and arrive later.

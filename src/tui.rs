@@ -44,6 +44,10 @@ pub struct Args {
     /// Decisions stay in memory, no ledger is opened.
     #[arg(long)]
     pub no_ledger: bool,
+    /// Let the mouse select rows (click) and scroll the lists (wheel).
+    /// Off by default: it takes the terminal's own text selection away.
+    #[arg(long)]
+    pub mouse: bool,
 }
 
 impl Args {
@@ -66,8 +70,13 @@ impl Args {
             .is_none_or(|v| {
                 v.to_ascii_uppercase().contains("UTF-8") || v.to_ascii_uppercase().contains("UTF8")
             });
+        let palette = match draw::Palette::parse(&self.color) {
+            _ if no_color => draw::Palette::None,
+            Some(p) => p,
+            None => draw::Palette::Basic,
+        };
         Look {
-            color: !no_color && self.color != "never",
+            palette,
             ascii: self.ascii || !utf8,
         }
     }
@@ -181,13 +190,19 @@ fn save_position(catalogue: &str, pos: app::Position) {
 struct Guard;
 
 impl Guard {
-    fn enter() -> std::io::Result<Guard> {
+    fn enter(mouse: bool) -> std::io::Result<Guard> {
         terminal::enable_raw_mode()?;
         execute!(
             std::io::stdout(),
             terminal::EnterAlternateScreen,
             cursor::Hide
         )?;
+        if mouse {
+            execute!(
+                std::io::stdout(),
+                ratatui::crossterm::event::EnableMouseCapture
+            )?;
+        }
         let previous = std::panic::take_hook();
         std::panic::set_hook(Box::new(move |info| {
             restore();
@@ -333,7 +348,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             let _ = checks_tx.send((checks, errors));
         });
     }
-    let guard = Guard::enter()?;
+    let guard = Guard::enter(args.mouse)?;
     let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
     let mut effects = app.update(Input::Resize);
     loop {
@@ -424,6 +439,18 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                 }
             }
             Event::Resize(..) => effects.extend(app.update(Input::Resize)),
+            Event::Mouse(m) => {
+                use ratatui::crossterm::event::{MouseButton, MouseEventKind};
+                let input = match m.kind {
+                    MouseEventKind::Down(MouseButton::Left) => Some(Input::Click(m.column, m.row)),
+                    MouseEventKind::ScrollDown => Some(Input::Scroll(m.column, m.row, true)),
+                    MouseEventKind::ScrollUp => Some(Input::Scroll(m.column, m.row, false)),
+                    _ => None,
+                };
+                if let Some(i) = input {
+                    effects.extend(app.update(i));
+                }
+            }
             _ => {}
         }
     }

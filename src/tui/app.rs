@@ -178,6 +178,19 @@ pub enum Input {
     /// The checks, run on a background thread at start-up.
     Checks(Box<Checks>),
     Resize,
+    /// A left click at a terminal cell (column, row), with `--mouse`.
+    Click(u16, u16),
+    /// The wheel turned over a cell: down when true.
+    Scroll(u16, u16, bool),
+}
+
+/// Where the last frame drew the two lists: the rows' area (below the
+/// header) and the index of the first row shown. Set by `draw`, read when a
+/// click or the wheel arrives.
+#[derive(Debug, Default)]
+pub struct Hits {
+    pub systems: std::cell::Cell<(ratatui::layout::Rect, usize)>,
+    pub candidates: std::cell::Cell<(ratatui::layout::Rect, usize)>,
 }
 
 /// What the background worker found for a candidate.
@@ -514,6 +527,8 @@ pub struct App {
     pub show_ledger: bool,
     /// What the signal pane shows.
     pub signal_view: SignalView,
+    /// Where the lists were drawn, for the mouse.
+    pub hits: Hits,
     /// True until the background checks have arrived.
     pub checks_pending: bool,
     /// The ledger history of the selected star (all vetters), oldest first.
@@ -644,6 +659,7 @@ impl App {
             pinned: None,
             show_ledger: false,
             signal_view: SignalView::Transit,
+            hits: Hits::default(),
             checks_pending: false,
             history: Vec::new(),
             history_of: None,
@@ -869,6 +885,64 @@ impl App {
         self.members().get(self.cand_row).copied()
     }
 
+    /// The pane and list row under a cell, if it is a row of a list.
+    fn hit(&self, x: u16, y: u16) -> Option<(Pane, usize)> {
+        let inside = |(r, first): (ratatui::layout::Rect, usize)| {
+            (x >= r.x && x < r.x + r.width && y >= r.y && y < r.y + r.height)
+                .then(|| first + (y - r.y) as usize)
+        };
+        inside(self.hits.systems.get())
+            .map(|i| (Pane::Systems, i))
+            .or_else(|| inside(self.hits.candidates.get()).map(|i| (Pane::Candidates, i)))
+    }
+
+    /// A click selects the row under it (only in the normal mode: an open
+    /// overlay or prompt is left alone).
+    fn click(&mut self, x: u16, y: u16) {
+        if self.mode != Mode::Normal {
+            return;
+        }
+        match self.hit(x, y) {
+            Some((Pane::Systems, i)) if i < self.stars.len() => {
+                self.focus = Pane::Systems;
+                if self.star_row != i {
+                    self.star_row = i;
+                    self.cand_row = 0;
+                }
+            }
+            Some((Pane::Candidates, i)) if i < self.members().len() => {
+                self.focus = Pane::Candidates;
+                self.cand_row = i;
+            }
+            _ => {}
+        }
+    }
+
+    /// The wheel moves the selection of the list under the pointer by three rows.
+    fn scroll(&mut self, x: u16, y: u16, down: bool) {
+        if self.mode != Mode::Normal {
+            return;
+        }
+        let step = |row: usize, len: usize| {
+            if down {
+                (row + 3).min(len.saturating_sub(1))
+            } else {
+                row.saturating_sub(3)
+            }
+        };
+        match self.hit(x, y).map(|h| h.0) {
+            Some(Pane::Systems) => {
+                let to = step(self.star_row, self.stars.len());
+                if to != self.star_row {
+                    self.star_row = to;
+                    self.cand_row = 0;
+                }
+            }
+            Some(Pane::Candidates) => self.cand_row = step(self.cand_row, self.members().len()),
+            None => {}
+        }
+    }
+
     /// Keeps the selection on candidate `c` after the members are reordered.
     fn keep_candidate(&mut self, c: Option<CandidateId>) {
         if let Some(c) = c {
@@ -1042,6 +1116,14 @@ impl App {
                 Vec::new()
             }
             Input::Action(a) => self.act(a),
+            Input::Click(x, y) => {
+                self.click(x, y);
+                Vec::new()
+            }
+            Input::Scroll(x, y, down) => {
+                self.scroll(x, y, down);
+                Vec::new()
+            }
         };
         self.refresh_history(false);
         if let Some(c) = self.candidate() {

@@ -21,18 +21,66 @@ use crate::sanitize::clean;
 /// How the terminal can show things: one chokepoint for colour and glyphs.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub struct Look {
-    pub color: bool,
+    pub palette: Palette,
     pub ascii: bool,
+}
+
+/// The colours the terminal is told it can show (`--color`).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Palette {
+    /// No colour at all (`NO_COLOR`, `--color never`): emphasis by bold and
+    /// reverse video only.
+    None,
+    /// The 16 named colours, as the terminal's theme draws them.
+    Basic,
+    /// Fixed entries of the 256-colour cube, the same on every theme.
+    Indexed,
+    /// 24-bit colour.
+    Rgb,
+}
+
+impl Palette {
+    pub fn parse(s: &str) -> Option<Palette> {
+        match s {
+            "never" => Some(Palette::None),
+            "16" => Some(Palette::Basic),
+            "256" => Some(Palette::Indexed),
+            "true" => Some(Palette::Rgb),
+            _ => None,
+        }
+    }
+
+    /// A named colour in this palette: softer hues chosen to stay readable
+    /// on dark and light backgrounds alike where the palette allows it.
+    fn paint(self, c: Color) -> Option<Color> {
+        // (256-colour index, 24-bit value) per named colour.
+        let (indexed, rgb) = match c {
+            Color::Green => (114, (135, 215, 135)),
+            Color::Cyan => (80, (95, 215, 215)),
+            Color::Yellow => (221, (255, 215, 95)),
+            Color::Red => (203, (255, 95, 95)),
+            Color::Magenta => (176, (215, 135, 215)),
+            Color::DarkGray => (245, (138, 138, 138)),
+            Color::White => (253, (218, 218, 218)),
+            Color::Blue => (75, (95, 175, 255)),
+            other => return (self != Palette::None).then_some(other),
+        };
+        match self {
+            Palette::None => None,
+            Palette::Basic => Some(c),
+            Palette::Indexed => Some(Color::Indexed(indexed)),
+            Palette::Rgb => Some(Color::Rgb(rgb.0, rgb.1, rgb.2)),
+        }
+    }
 }
 
 /// The smallest area the browser draws into.
 pub const MIN_SIZE: (u16, u16) = (60, 16);
 
 fn style(look: Look, color: Color) -> Style {
-    if look.color {
-        Style::default().fg(color)
-    } else {
-        Style::default()
+    match look.palette.paint(color) {
+        Some(c) => Style::default().fg(c),
+        None => Style::default(),
     }
 }
 
@@ -73,6 +121,9 @@ pub fn sparkline(app: &App, c: CandidateId, look: Look) -> String {
 
 pub fn draw(app: &App, frame: &mut Frame, look: Look) {
     let area = frame.area();
+    // Nothing to click until the lists are drawn again.
+    app.hits.systems.set((Rect::default(), 0));
+    app.hits.candidates.set((Rect::default(), 0));
     if area.width < MIN_SIZE.0 || area.height < MIN_SIZE.1 {
         let msg = format!(
             "starsift needs at least {}x{}; this terminal is {}x{}",
@@ -164,6 +215,15 @@ fn window(selected: usize, len: usize, height: usize) -> (usize, usize) {
     (start, (start + height).min(len))
 }
 
+/// The rows of a list: its area below the header line.
+fn rows_area(inner: Rect) -> Rect {
+    Rect {
+        y: inner.y.saturating_add(1),
+        height: inner.height.saturating_sub(1),
+        ..inner
+    }
+}
+
 /// The sort direction as shown in a pane title.
 fn direction(look: Look, descending: bool) -> &'static str {
     match (look.ascii, descending) {
@@ -187,6 +247,7 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     frame.render_widget(b, area);
     let height = inner.height.saturating_sub(1) as usize;
     let (a, z) = window(app.star_row, app.stars.len(), height);
+    app.hits.systems.set((rows_area(inner), a));
     // The fold sparkline only where the id, k, odds and some flags still fit.
     let with_fold = inner.width >= 40;
     let rows: Vec<Row> = (a..z)
@@ -272,6 +333,7 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let members = app.members();
     let height = inner.height.saturating_sub(1) as usize;
     let (a, z) = window(app.cand_row, members.len(), height);
+    app.hits.candidates.set((rows_area(inner), a));
     let v = |f, c| app.cat.value(f, c);
     // Columns by priority; as many as fit are shown, left to right.
     const COLS: [(&str, u16, u8); 12] = [

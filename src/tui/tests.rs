@@ -56,7 +56,7 @@ fn screen(app: &App, w: u16, h: u16) -> String {
             app,
             f,
             Look {
-                color: false,
+                palette: super::draw::Palette::None,
                 ascii: true,
             },
         )
@@ -557,4 +557,66 @@ fn the_candidates_pane_sorts_its_members() {
         (CandidateSort::Period, true)
     );
     assert_eq!(fresh.candidate(), Some(picked));
+}
+
+#[test]
+fn clicks_select_rows_and_the_wheel_scrolls() {
+    let mut app = demo_app();
+    let _ = screen(&app, 100, 30); // the lists' places come from a frame
+    let (rows, first) = app.hits.systems.get();
+    assert!(rows.height > 5 && first == 0);
+    // The fourth system's row.
+    app.update(Input::Click(rows.x + 2, rows.y + 3));
+    assert_eq!((app.focus, app.star_row), (Pane::Systems, 3));
+    app.update(Input::Scroll(rows.x + 2, rows.y, true));
+    assert_eq!(app.star_row, 6);
+    app.update(Input::Scroll(rows.x + 2, rows.y, false));
+    assert_eq!(app.star_row, 3);
+    let _ = screen(&app, 100, 30);
+    let (cands, _) = app.hits.candidates.get();
+    app.update(Input::Click(cands.x + 1, cands.y + 1));
+    assert_eq!((app.focus, app.cand_row), (Pane::Candidates, 1));
+    // Outside the lists, or under an overlay, nothing happens.
+    app.update(Input::Click(0, 29));
+    assert_eq!(
+        (app.focus, app.star_row, app.cand_row),
+        (Pane::Candidates, 3, 1)
+    );
+    act(&mut app, Action::Help);
+    app.update(Input::Click(rows.x + 2, rows.y));
+    assert_eq!(app.star_row, 3);
+}
+
+#[test]
+fn palettes_paint_16_256_and_true_colour_and_none() {
+    use super::draw::Palette;
+    use ratatui::style::Color;
+    let app = demo_app();
+    let colours = |palette| {
+        let mut t = Terminal::new(TestBackend::new(100, 30)).unwrap();
+        t.draw(|f| {
+            draw(
+                &app,
+                f,
+                Look {
+                    palette,
+                    ascii: false,
+                },
+            )
+        })
+        .unwrap();
+        let buf = t.backend().buffer().clone();
+        buf.content().iter().map(|c| c.fg).collect::<Vec<Color>>()
+    };
+    let none = colours(Palette::None);
+    assert!(none.iter().all(|c| *c == Color::Reset));
+    assert!(colours(Palette::Basic).contains(&Color::Green));
+    let indexed = colours(Palette::Indexed);
+    assert!(indexed.iter().any(|c| matches!(c, Color::Indexed(_))));
+    assert!(!indexed.contains(&Color::Green));
+    assert!(
+        colours(Palette::Rgb)
+            .iter()
+            .any(|c| matches!(c, Color::Rgb(..)))
+    );
 }
