@@ -529,6 +529,9 @@ pub struct App {
     pub signal_view: SignalView,
     /// Where the lists were drawn, for the mouse.
     pub hits: Hits,
+    /// The first line of the help overlay shown (it scrolls when taller
+    /// than the terminal).
+    pub help_scroll: usize,
     /// True until the background checks have arrived.
     pub checks_pending: bool,
     /// The ledger history of the selected star (all vetters), oldest first.
@@ -660,6 +663,7 @@ impl App {
             show_ledger: false,
             signal_view: SignalView::Transit,
             hits: Hits::default(),
+            help_scroll: 0,
             checks_pending: false,
             history: Vec::new(),
             history_of: None,
@@ -1240,7 +1244,19 @@ impl App {
                 self.mode = Mode::Normal;
                 return Vec::new();
             }
-            (Mode::Help, _) => return Vec::new(),
+            (Mode::Help, _) => {
+                // The overlay scrolls; the draw clamps the offset.
+                let h = &mut self.help_scroll;
+                match a {
+                    Action::Down => *h += 1,
+                    Action::PageDown => *h += self.page,
+                    Action::Up => *h = h.saturating_sub(1),
+                    Action::PageUp => *h = h.saturating_sub(self.page),
+                    Action::Top => *h = 0,
+                    _ => {}
+                }
+                return Vec::new();
+            }
             (Mode::Prompt { .. }, Action::Close) => {
                 self.mode = Mode::Normal;
                 return Vec::new();
@@ -1370,7 +1386,10 @@ impl App {
         };
         match a {
             Action::Quit => return vec![Effect::Quit],
-            Action::Help => self.mode = Mode::Help,
+            Action::Help => {
+                self.mode = Mode::Help;
+                self.help_scroll = 0;
+            }
             Action::Close => {}
             Action::Find => {
                 self.mode = Mode::Prompt {

@@ -741,22 +741,22 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let text = match &app.message {
         Some(msg) => clean(msg).into_owned(),
         None => format!(
-            "{}{} · {} validated {} likely {} unlikely {} rejected · filter [{}] · {} · N={} f={} · disagree {} · ? keys",
+            "{}{} validated {} likely {} unlikely {} rejected · N={} f={} · filter [{}] · {} · disagree {} · {}",
             if app.checks_pending {
                 "checks running… · "
             } else {
                 ""
             },
-            clean(&app.cat.source),
             c.validated,
             c.likely,
             c.unlikely,
             c.rejected,
-            clean(&app.filter.text),
-            clean(&app.vetter),
             m.targets.map_or("?".into(), |n| n.to_string()),
             m.fp_fraction,
+            clean(&app.filter.text),
+            clean(&app.vetter),
             app.disagree.len(),
+            clean(&app.cat.source),
         ),
     };
     let st = if app
@@ -789,14 +789,15 @@ fn draw_prompt(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             Line::from(spans)
         }
         _ => Line::from(format!(
-            "ledger {} · {} keep · {} reject · {} park · {} undo · {} filter · {} find",
-            clean(&app.ledger_path),
+            "odds under the multiplicity model, not confirmation ({} explains) · {} keep · {} reject · {} park · {} undo · {} filter · {} find · ledger {}",
+            app.keymap.keys_of(super::app::Action::Help),
             app.keymap.keys_of(super::app::Action::Keep),
             app.keymap.keys_of(super::app::Action::Reject),
             app.keymap.keys_of(super::app::Action::Park),
             app.keymap.keys_of(super::app::Action::Undo),
             app.keymap.keys_of(super::app::Action::Filter),
             app.keymap.keys_of(super::app::Action::Find),
+            clean(&app.ledger_path),
         )),
     };
     frame.render_widget(Paragraph::new(line), area);
@@ -814,7 +815,8 @@ fn centred(area: Rect, w: u16, h: u16) -> Rect {
 }
 
 fn draw_help(app: &App, frame: &mut Frame, area: Rect) {
-    let lines: Vec<Line> = super::app::Action::ALL
+    let width = 100.min(area.width);
+    let mut lines: Vec<Line> = super::app::Action::ALL
         .iter()
         .map(|a| {
             Line::from(format!(
@@ -825,13 +827,35 @@ fn draw_help(app: &App, frame: &mut Frame, area: Rect) {
             ))
         })
         .collect();
-    let r = centred(area, 100, lines.len() as u16 + 2);
+    // What the odds mean, wrapped to the box.
+    lines.push(Line::from(""));
+    let statement = crate::odds::model_statement(app.live.model());
+    let mut row = String::new();
+    for word in statement.split_whitespace() {
+        if !row.is_empty() && row.len() + 1 + word.len() > width.saturating_sub(2) as usize {
+            lines.push(Line::from(std::mem::take(&mut row)));
+        }
+        if !row.is_empty() {
+            row.push(' ');
+        }
+        row.push_str(word);
+    }
+    lines.push(Line::from(row));
+    let height = (lines.len() as u16 + 2).min(area.height);
+    let visible = height.saturating_sub(2) as usize;
+    let skip = app.help_scroll.min(lines.len().saturating_sub(visible));
+    let more = if lines.len() > visible {
+        " · ↑↓ PgUp PgDn scroll"
+    } else {
+        ""
+    };
+    let r = centred(area, width, height);
     frame.render_widget(Clear, r);
     frame.render_widget(
-        Paragraph::new(lines).block(
+        Paragraph::new(lines.split_off(skip)).block(
             Block::default()
                 .borders(Borders::ALL)
-                .title(" Keys (Esc closes) "),
+                .title(format!(" Keys (Esc closes){more} ")),
         ),
         r,
     );

@@ -620,3 +620,48 @@ fn palettes_paint_16_256_and_true_colour_and_none() {
             .any(|c| matches!(c, Color::Rgb(..)))
     );
 }
+
+/// The screen as snapshot files (insta; `cargo insta review` or
+/// `INSTA_UPDATE=always cargo test` after a deliberate change): the demo's
+/// first system at 80x24 with the reason picker open, the odd/even view,
+/// and the too-small message at 20x6.
+#[test]
+fn snapshots_at_80x24_and_20x6() {
+    let mut app = demo_app();
+    insta::assert_snapshot!("start_80x24", screen(&app, 80, 24));
+    act(&mut app, Action::NextPane);
+    act(&mut app, Action::SignalView);
+    insta::assert_snapshot!("odd_even_80x24", screen(&app, 80, 24));
+    act(&mut app, Action::Reject);
+    typed(&mut app, "secondary at 0.5");
+    insta::assert_snapshot!("reject_picker_80x24", screen(&app, 80, 24));
+    insta::assert_snapshot!("too_small_20x6", screen(&app, 20, 6));
+}
+
+#[test]
+fn the_screen_states_the_model_and_help_scrolls_to_its_statement() {
+    let mut app = demo_app();
+    let s = screen(&app, 80, 24);
+    assert!(
+        s.contains("odds under the multiplicity model, not confirmation"),
+        "{s}"
+    );
+    assert!(s.contains("N=52000 f=0.1"), "{s}");
+    act(&mut app, Action::Help);
+    let top = screen(&app, 80, 24);
+    assert!(top.contains("quit") && top.contains("scroll"), "{top}");
+    for _ in 0..60 {
+        act(&mut app, Action::Down);
+    }
+    let bottom = screen(&app, 80, 24);
+    assert!(
+        bottom.contains("Statistical validation is not confirmation."),
+        "{bottom}"
+    );
+    assert_eq!(
+        app.star_row, 0,
+        "scrolling the help does not move the selection"
+    );
+    act(&mut app, Action::Close);
+    assert!(matches!(app.mode, Mode::Normal));
+}
