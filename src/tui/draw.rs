@@ -93,28 +93,57 @@ fn verdict_style(look: Look, v: Verdict) -> Style {
     }
 }
 
-/// A tiny fold of a candidate's model transit: 8 cells from −2 to +2 durations.
+/// A tiny fold of a candidate: 8 cells from −2 to +2 durations, from its
+/// binned light curve once loaded, else from the model. The dip's floor
+/// says the depth class on a shared scale (below 300 ppm one level, to
+/// 3000 two, to 30000 three, deeper four), so shallow planets and deep
+/// eclipses look different at a glance.
 pub fn sparkline(app: &App, c: CandidateId, look: Look) -> String {
     let m = crate::lightcurve::model_params(&app.cat, c);
     let (period, dur) = (
         app.cat.value(Field::PeriodD, c).unwrap_or(1.0),
         app.cat.value(Field::DurationH, c).unwrap_or(1.0),
     );
-    let depth = 1.0 - m.flux(0.0);
     let glyphs: &[char] = if look.ascii {
         &['_', '.', '-', '~', '\'']
     } else {
         &['▁', '▂', '▃', '▅', '▇']
     };
-    (0..8)
-        .map(|i| {
-            let x = (i as f64 - 3.5) / 3.5 * 2.0 * dur / 24.0 / period;
-            let f = if depth > 0.0 {
-                (m.flux(x) - (1.0 - depth)) / depth
+    let top = glyphs.len() - 1;
+    let cell = |i: usize| (i as f64 - 3.5) / 3.5 * 2.0 * dur / 24.0 / period;
+    let half_cell = 2.0 * dur / 24.0 / period / 7.0;
+    // Relative flux drop in each cell.
+    let drops: Vec<f64> = match app.signals.get(&c) {
+        Some(SignalResult::Data { views, .. }) => {
+            let b = &views.transit;
+            (0..8)
+                .map(|i| {
+                    let x = cell(i);
+                    let (sum, n) = (0..b.centre.len())
+                        .filter(|&j| (b.centre[j] - x).abs() <= half_cell && b.mean[j].is_finite())
+                        .fold((0.0, 0), |(s, n), j| (s + 1.0 - b.mean[j], n + 1));
+                    if n > 0 { sum / n as f64 } else { 0.0 }
+                })
+                .collect()
+        }
+        _ => (0..8).map(|i| 1.0 - m.flux(cell(i))).collect(),
+    };
+    let deepest = drops.iter().copied().fold(0.0, f64::max);
+    let depth_ppm = app
+        .cat
+        .value(Field::DepthPpm, c)
+        .unwrap_or(deepest * 1e6)
+        .max(1.0);
+    let levels = (1.0 + (depth_ppm / 30.0).log10().floor()).clamp(1.0, top as f64);
+    drops
+        .iter()
+        .map(|&d| {
+            let f = if deepest > 0.0 {
+                (d / deepest).clamp(0.0, 1.0)
             } else {
-                1.0
+                0.0
             };
-            glyphs[((f.clamp(0.0, 1.0) * (glyphs.len() - 1) as f64).round()) as usize]
+            glyphs[top - (f * levels).round() as usize]
         })
         .collect()
 }
