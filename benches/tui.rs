@@ -14,7 +14,7 @@ use ratatui::backend::{CrosstermBackend, TestBackend};
 use starsift::catalogue::{Catalogue, LoadOptions, Source};
 use starsift::decision::Decision;
 use starsift::odds::{Live, Model};
-use starsift::tui::app::{Action, App, Input};
+use starsift::tui::app::{Action, App, Input, Pane};
 use starsift::tui::draw::{Look, draw};
 use starsift::tui::keymap::Keymap;
 
@@ -131,6 +131,11 @@ fn main() {
         let mut times = Vec::new();
         for _ in 0..40 {
             for input in inputs {
+                // The sorts are the systems' sorts (in the candidates pane
+                // the same keys order a system's members).
+                if matches!(input, Input::Action(Action::SortNext | Action::SortReverse)) {
+                    app.focus = Pane::Systems;
+                }
                 let t = Instant::now();
                 app.update(input.clone());
                 term.draw(|f| draw(&app, f, look)).expect("draw");
@@ -188,14 +193,29 @@ fn main() {
     term.resize(ratatui::layout::Rect::new(0, 0, 100, 30))
         .expect("resize");
     term.draw(|f| draw(&app, f, look)).expect("draw");
-    let base = count.load(std::sync::atomic::Ordering::Relaxed);
-    let n = 50;
-    for _ in 0..n {
-        app.update(Input::Action(Action::Down));
+    for (pane, name) in [
+        (Pane::Systems, "system to system"),
+        (Pane::Candidates, "candidate to candidate"),
+    ] {
+        app.focus = pane;
+        app.update(Input::Action(Action::Top));
         term.draw(|f| draw(&app, f, look)).expect("draw");
+        let base = count.load(std::sync::atomic::Ordering::Relaxed);
+        let mut n = 0;
+        for _ in 0..50 {
+            // Within one system's members, down and back up.
+            let a = if pane == Pane::Candidates && n % 2 == 1 {
+                Action::Up
+            } else {
+                Action::Down
+            };
+            app.update(Input::Action(a));
+            term.draw(|f| draw(&app, f, look)).expect("draw");
+            n += 1;
+        }
+        println!(
+            "bytes written per navigation keystroke at 100x30, {name}: {} B",
+            (count.load(std::sync::atomic::Ordering::Relaxed) - base) / n
+        );
     }
-    println!(
-        "bytes written per navigation keystroke at 100x30: {} B",
-        (count.load(std::sync::atomic::Ordering::Relaxed) - base) / n
-    );
 }
