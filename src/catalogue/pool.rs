@@ -15,6 +15,12 @@ impl StrPool {
         }
     }
 
+    /// Empties the pool, keeping its memory.
+    pub fn clear(&mut self) {
+        self.buf.clear();
+        self.ends.clear();
+    }
+
     pub fn push(&mut self, s: &str) -> usize {
         self.buf.push_str(s);
         self.ends.push(self.buf.len());
