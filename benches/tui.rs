@@ -157,6 +157,23 @@ fn main() {
             times.len()
         );
     }
+    // Fuzzy find: every typed character jumps to the best match.
+    let mut times = Vec::new();
+    app.update(Input::Action(Action::Find));
+    for ch in "SYN05517".chars() {
+        let t = Instant::now();
+        app.update(Input::Char(ch));
+        term.draw(|f| draw(&app, f, look)).expect("draw");
+        times.push(t.elapsed().as_secs_f64() * 1e3);
+    }
+    app.update(Input::Action(Action::Close));
+    times.sort_by(f64::total_cmp);
+    println!(
+        "find keystroke         median {:.2} ms, max {:.2} ms ({} keystrokes)",
+        times[times.len() / 2],
+        times[times.len() - 1],
+        times.len()
+    );
     // The filter apply alone, split into update and draw.
     let (mut up, mut dr) = (Vec::new(), Vec::new());
     for _ in 0..20 {

@@ -1201,14 +1201,37 @@ impl App {
                 PromptKind::Filter => *error = Filter::parse(text).err(),
                 PromptKind::Find => {
                     let t = text.clone();
-                    self.jump_fuzzy(&t);
+                    self.jump_fuzzy(&t, false);
                 }
             }
         }
     }
 
-    fn jump_fuzzy(&mut self, text: &str) {
+    /// Jumps to the candidate an id (or part of one) names: an exact
+    /// candidate or star id first, then the best id containing the text
+    /// (those starting with it first, then the shortest; lower-case text
+    /// matches either case), and only then the best fuzzy match (the
+    /// skim algorithm of fuzzy-matcher). The fuzzy pass reads every id,
+    /// ~0.3 s on a million: while typing it runs on catalogues up to
+    /// 100,000 candidates, and on Enter always.
+    fn jump_fuzzy(&mut self, text: &str, enter: bool) {
         if text.is_empty() {
+            return;
+        }
+        if let Some(c) = self.cat.find_candidate(text) {
+            return self.go_to(c);
+        }
+        if let Some(&c) = self
+            .cat
+            .find_star(text)
+            .and_then(|s| self.cat.members(s).first())
+        {
+            return self.go_to(c);
+        }
+        if let Some(c) = self.best_containing(text) {
+            return self.go_to(c);
+        }
+        if !enter && self.cat.len() > 100_000 {
             return;
         }
         let matcher = SkimMatcherV2::default();
@@ -1222,6 +1245,33 @@ impl App {
         if let Some((_, c)) = best {
             self.go_to(c);
         }
+    }
+
+    /// The candidate whose id contains `text` best: a prefix before a
+    /// match inside, then the shortest id, then file order. Smart case:
+    /// text without capitals ignores ASCII case.
+    fn best_containing(&self, text: &str) -> Option<CandidateId> {
+        let needle = text.as_bytes();
+        let fold = !text.bytes().any(|b| b.is_ascii_uppercase());
+        let at = |id: &[u8]| -> Option<usize> {
+            if id.len() < needle.len() {
+                return None;
+            }
+            id.windows(needle.len()).position(|w| {
+                if fold {
+                    w.eq_ignore_ascii_case(needle)
+                } else {
+                    w == needle
+                }
+            })
+        };
+        (0..self.cat.len() as CandidateId)
+            .filter_map(|c| {
+                let id = self.cat.candidate_id(c).as_bytes();
+                at(id).map(|pos| ((pos != 0, id.len(), c), c))
+            })
+            .min_by_key(|(rank, _)| *rank)
+            .map(|(_, c)| c)
     }
 
     /// Selects a candidate, clearing a filter that hides it.
@@ -1280,7 +1330,7 @@ impl App {
                         }
                     },
                     PromptKind::Find => {
-                        self.jump_fuzzy(&text);
+                        self.jump_fuzzy(&text, true);
                         self.mode = Mode::Normal;
                         self.focus = Pane::Candidates;
                     }

@@ -665,3 +665,30 @@ fn the_screen_states_the_model_and_help_scrolls_to_its_statement() {
     act(&mut app, Action::Close);
     assert!(matches!(app.mode, Mode::Normal));
 }
+
+#[test]
+fn find_takes_exact_ids_then_parts_of_ids_then_fuzzy() {
+    let mut app = demo_app();
+    let id = |app: &App| app.cat.candidate_id(app.candidate().unwrap()).to_string();
+    act(&mut app, Action::Find);
+    typed(&mut app, "HWT20300-s2");
+    assert_eq!(id(&app), "HWT20300-s2", "exact");
+    act(&mut app, Action::Close);
+    act(&mut app, Action::Find);
+    typed(&mut app, "hwt20300-s2");
+    assert_eq!(id(&app), "HWT20300-s2", "lower case matches either case");
+    act(&mut app, Action::Close);
+    act(&mut app, Action::Find);
+    typed(&mut app, "HWT20300");
+    assert_eq!(
+        app.cat.star_id(app.star().unwrap()),
+        "HWT20300",
+        "a star id goes to its first candidate"
+    );
+    act(&mut app, Action::Close);
+    // A typo: no id contains it, the fuzzy match still finds the candidate.
+    act(&mut app, Action::Find);
+    typed(&mut app, "HWT2030s2");
+    act(&mut app, Action::Select);
+    assert_eq!(id(&app), "HWT20300-s2", "fuzzy");
+}
