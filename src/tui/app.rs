@@ -693,16 +693,25 @@ impl App {
     /// sort the key is eight bytes of the id past the prefix every id shares;
     /// equal keys compare the ids.
     fn sort_bits(&self) -> impl Fn(StarId) -> u64 + '_ {
+        self.sort_bits_for(self.sort, self.descending)
+    }
+
+    /// `sort_bits` for any sort and direction (the cached orders'
+    /// included).
+    fn sort_bits_for(&self, sort: SortKey, descending: bool) -> impl Fn(StarId) -> u64 + '_ {
         let period = self.cat.column(Field::PeriodD).unwrap_or(&[]);
-        let common = match self.sort {
+        let common = match sort {
             SortKey::Star => self.id_common(),
             _ => 0,
         };
         // Without `fpp` a star's best odds depend on its size alone: rank the
         // few sizes' odds once, and the key is a small integer (one pass).
-        let by_size = self.odds_rank_by_size();
+        let by_size = match sort {
+            SortKey::BestOdds => self.odds_rank_by_size(),
+            _ => None,
+        };
         move |s| {
-            let k = match self.sort {
+            let k = match sort {
                 SortKey::BestOdds => match &by_size {
                     Some(rank) => rank[self.live.star_k(s)],
                     None => sortable_bits(self.live.best_odds(s).unwrap_or(-1.0)),
@@ -718,7 +727,7 @@ impl App {
                         .fold(f64::INFINITY, f64::min),
                 ),
             };
-            if self.descending { !k } else { k }
+            if descending { !k } else { k }
         }
     }
 
@@ -741,9 +750,7 @@ impl App {
     /// sizes' (ties share a rank; 0 = every candidate rejected), when the
     /// odds depend on the size alone.
     fn odds_rank_by_size(&self) -> Option<Vec<u64>> {
-        if self.sort != SortKey::BestOdds || self.live.uniform_odds(1).is_none() {
-            return None;
-        }
+        self.live.uniform_odds(1)?;
         // The live histogram only grows, so it covers every star's size.
         let k_max = self.live.histogram().len().saturating_sub(1);
         let odds: Vec<f64> = (0..=k_max)
@@ -767,14 +774,14 @@ impl App {
     /// Ties of the sort: the ids for the id sort (reversed when
     /// descending), else catalogue order.
     fn tie(&self, a: StarId, b: StarId) -> std::cmp::Ordering {
-        match self.sort {
+        self.tie_for(self.sort, self.descending, a, b)
+    }
+
+    fn tie_for(&self, sort: SortKey, descending: bool, a: StarId, b: StarId) -> std::cmp::Ordering {
+        match sort {
             SortKey::Star => {
                 let by_id = self.cat.star_id(a).cmp(self.cat.star_id(b));
-                if self.descending {
-                    by_id.reverse()
-                } else {
-                    by_id
-                }
+                if descending { by_id.reverse() } else { by_id }
             }
             _ => a.cmp(&b),
         }
@@ -1023,6 +1030,47 @@ impl App {
                 SortKey::Star | SortKey::Period => true,
             });
         self.orders = keep;
+        self.recycle(gone);
+    }
+
+    /// After a decision on star `s`, keeps the cached orders exact without
+    /// sorting again where only `s`'s key moved: by size always; by best
+    /// odds when they depend on size alone (no `fpp`) and the sizes' ranks
+    /// (`before`, from before the decision) still hold. The others whose
+    /// keys a decision moves are forgotten, to be sorted afresh.
+    fn keep_orders(&mut self, s: StarId, before: Option<Vec<u64>>) {
+        let same_ranks = before.is_some() && before == self.odds_rank_by_size();
+        let orders = std::mem::take(&mut self.orders);
+        let mut gone = Vec::new();
+        for ((key, descending), mut order) in orders {
+            let exact = match key {
+                SortKey::Multiplicity => true,
+                SortKey::BestOdds => same_ranks,
+                SortKey::Flags | SortKey::Star | SortKey::Period => {
+                    self.orders.push(((key, descending), order));
+                    continue;
+                }
+            };
+            if !exact {
+                gone.push(((key, descending), order));
+                continue;
+            }
+            if let Some(i) = order.iter().position(|&x| x == s) {
+                order.remove(i);
+            }
+            let at = {
+                let bits = self.sort_bits_for(key, descending);
+                let ks = bits(s);
+                order.partition_point(|&x| {
+                    bits(x)
+                        .cmp(&ks)
+                        .then_with(|| self.tie_for(key, descending, x, s))
+                        .is_lt()
+                })
+            };
+            order.insert(at, s);
+            self.orders.push(((key, descending), order));
+        }
         self.recycle(gone);
     }
 
@@ -1671,9 +1719,10 @@ impl App {
     }
 
     fn after_decision(&mut self, c: CandidateId, d: Decision) {
-        self.live.set_decision(c, d);
-        self.forget_orders(false);
         let s = self.cat.star_of(c);
+        let ranks = self.odds_rank_by_size();
+        self.live.set_decision(c, d);
+        self.keep_orders(s, ranks);
         self.pinned = Some(s);
         self.message = Some(format!(
             "{} {}",
