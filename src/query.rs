@@ -147,7 +147,7 @@ impl Filter {
         self.clauses.is_empty()
     }
 
-    pub fn matches(&self, s: &dyn Subject) -> bool {
+    pub fn matches<S: Subject + ?Sized>(&self, s: &S) -> bool {
         self.clauses.iter().all(|c| match c {
             Clause::Compare(f, op, v) => s.number(*f).is_some_and(|x| op.holds(x, *v)),
             Clause::Flag(f, want) => s.has_flag(*f) == *want,
