@@ -39,6 +39,16 @@ fn demo_app_with(ledger: Option<crate::ledger::Ledger>) -> App {
     )
 }
 
+/// The demo browser with a ledger in a fresh scratch folder (returned, to
+/// be removed by the test).
+fn demo_app_with_ledger(tag: &str) -> (std::path::PathBuf, App) {
+    let dir = std::env::temp_dir().join(format!("starsift-tui-{tag}-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(&dir).unwrap();
+    let ledger = crate::ledger::Ledger::open(&dir.join("l.sqlite")).unwrap();
+    (dir, demo_app_with(Some(ledger)))
+}
+
 fn act(app: &mut App, a: Action) {
     app.update(Input::Action(a));
 }
@@ -208,11 +218,7 @@ fn escape_sequences_in_ids_never_reach_the_screen() {
 
 #[test]
 fn decisions_go_to_the_ledger_first_and_show_in_its_pane() {
-    let dir = std::env::temp_dir().join(format!("starsift-tui-ledger-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&dir);
-    std::fs::create_dir_all(&dir).unwrap();
-    let ledger = crate::ledger::Ledger::open(&dir.join("l.sqlite")).unwrap();
-    let mut app = demo_app_with(Some(ledger));
+    let (dir, mut app) = demo_app_with_ledger("ledger");
     act(&mut app, Action::Select);
     let c = app.candidate().unwrap();
     act(&mut app, Action::Park);
@@ -233,6 +239,7 @@ fn decisions_go_to_the_ledger_first_and_show_in_its_pane() {
         s.contains("Ledger · 2 entries") && s.contains("tester"),
         "{s}"
     );
+    let _ = std::fs::remove_dir_all(&dir);
 }
 
 #[test]
@@ -311,11 +318,7 @@ fn a_decision_applies_to_the_whole_filter_after_confirmation() {
 
 #[test]
 fn a_note_typed_in_the_reason_picker_goes_to_the_ledger() {
-    let dir = std::env::temp_dir().join(format!("starsift-tui-note-{}", std::process::id()));
-    let _ = std::fs::remove_dir_all(&dir);
-    std::fs::create_dir_all(&dir).unwrap();
-    let ledger = crate::ledger::Ledger::open(&dir.join("l.sqlite")).unwrap();
-    let mut app = demo_app_with(Some(ledger));
+    let (dir, mut app) = demo_app_with_ledger("note");
     act(&mut app, Action::NextPane);
     let c = app.candidate().unwrap();
     act(&mut app, Action::Reject);
