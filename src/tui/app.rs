@@ -563,10 +563,12 @@ struct Shared<'a> {
     disagree: &'a HashSet<CandidateId>,
 }
 
-/// One candidate as the filter sees it.
+/// One candidate as the filter sees it, with its star (known to the caller:
+/// one random read fewer per candidate).
 struct Row<'a> {
     app: &'a Shared<'a>,
     c: CandidateId,
+    star: StarId,
 }
 
 impl Subject for Row<'_> {
@@ -581,7 +583,11 @@ impl Subject for Row<'_> {
             NumField::Duration => v(Field::DurationH),
             NumField::Snr => v(Field::Snr),
             NumField::Radius => a.radii.get(c as usize).copied().filter(|r| r.is_finite()),
-            NumField::K => Some(a.live.k(c) as f64),
+            NumField::K => Some(if a.live.decision(c).is_rejected() {
+                0.0
+            } else {
+                a.live.star_k(self.star) as f64
+            }),
             NumField::Boost => a.live.boost(c),
             NumField::Prior => Some(a.live.prior(c)),
             NumField::Mag => v(Field::Mag),
@@ -602,7 +608,7 @@ impl Subject for Row<'_> {
         self.app.live.verdict(self.c)
     }
     fn star(&self) -> &str {
-        self.app.cat.star_id(self.app.cat.star_of(self.c))
+        self.app.cat.star_id(self.star)
     }
     fn id(&self) -> &str {
         self.app.cat.candidate_id(self.c)
@@ -1101,11 +1107,13 @@ impl App {
             let shown = |part: &[StarId], out: &mut Vec<StarId>| {
                 out.extend(part.iter().copied().filter(|&s| {
                     Some(s) == pinned
-                        || shared
-                            .cat
-                            .members(s)
-                            .iter()
-                            .any(|&c| filter.matches(&Row { app: &shared, c }))
+                        || shared.cat.members(s).iter().any(|&c| {
+                            filter.matches(&Row {
+                                app: &shared,
+                                c,
+                                star: s,
+                            })
+                        })
                 }))
             };
             // Half the stars on a second thread: the filter reads columns
@@ -1624,7 +1632,12 @@ impl App {
         let shared = self.shared();
         (0..self.cat.len() as CandidateId)
             .filter(|&c| {
-                self.live.decision(c) != d && self.filter.matches(&Row { app: &shared, c })
+                self.live.decision(c) != d
+                    && self.filter.matches(&Row {
+                        app: &shared,
+                        c,
+                        star: self.cat.star_of(c),
+                    })
             })
             .collect()
     }

@@ -115,8 +115,12 @@ fn rejecting_one_of_three_drops_the_siblings_to_two_candidate_odds() {
     assert!(app.live.decision(members[0]).is_rejected());
 }
 
+/// Replaces the filter through its prompt (which opens holding the current one).
 fn typed_filter(app: &mut App, text: &str) {
     act(app, Action::Filter);
+    for _ in 0..app.filter.text.chars().count() {
+        app.update(Input::Backspace);
+    }
     typed(app, text);
     act(app, Action::Select);
     assert!(matches!(app.mode, Mode::Normal), "{:?}", app.mode);
@@ -700,4 +704,23 @@ fn find_takes_exact_ids_then_parts_of_ids_then_fuzzy() {
     typed(&mut app, "HWT2030s2");
     act(&mut app, Action::Select);
     assert_eq!(id(&app), "HWT20300-s2", "fuzzy");
+}
+
+#[test]
+fn a_rejected_candidate_has_k_zero_in_filters() {
+    let mut app = demo_app();
+    typed_filter(&mut app, "k<1");
+    assert!(app.stars.is_empty(), "nothing rejected yet");
+    typed_filter(&mut app, "");
+    act(&mut app, Action::NextPane);
+    let c = app.candidate().unwrap();
+    act(&mut app, Action::Reject);
+    act(&mut app, Action::Select);
+    assert!(app.live.decision(c).is_rejected());
+    typed_filter(&mut app, "k<1");
+    assert_eq!(app.stars, vec![app.cat.star_of(c)]);
+    // Its siblings are still counted in the smaller system.
+    let k = app.cat.members(app.cat.star_of(c)).len() - 1;
+    typed_filter(&mut app, &format!("k={k} decision:open"));
+    assert!(app.stars.contains(&app.cat.star_of(c)));
 }
