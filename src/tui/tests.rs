@@ -17,9 +17,18 @@ fn demo_app() -> App {
 /// The demo browser state, with a ledger or with decisions in memory.
 fn demo_app_with(ledger: Option<crate::ledger::Ledger>) -> App {
     let cat = crate::demo::catalogue().unwrap();
+    app_of(cat, crate::demo::DEMO_TARGETS, ledger)
+}
+
+/// The browser on a catalogue, its checks run, N targets, every candidate open.
+fn app_of(
+    cat: crate::catalogue::Catalogue,
+    targets: u64,
+    ledger: Option<crate::ledger::Ledger>,
+) -> App {
     let checks = crate::checks::run(&cat, &Default::default());
     let model = Model {
-        targets: Some(crate::demo::DEMO_TARGETS),
+        targets: Some(targets),
         ..Model::default()
     };
     let live = Live::with_state(
@@ -419,26 +428,7 @@ fn every_sort_orders_the_systems_exactly() {
         )
         .unwrap();
         assert_eq!(cat.has(Field::Fpp), with_fpp);
-        let checks = crate::checks::run(&cat, &Default::default());
-        let model = Model {
-            targets: Some(20_000),
-            ..Model::default()
-        };
-        let live = Live::with_state(
-            &cat,
-            model,
-            checks.all_flags().to_vec(),
-            vec![Decision::Open; cat.len()],
-        )
-        .unwrap();
-        let mut app = App::new(
-            std::sync::Arc::new(cat),
-            live,
-            checks,
-            None,
-            "tester".into(),
-            Keymap::load(&[]).unwrap(),
-        );
+        let mut app = app_of(cat, 20_000, None);
         // Every order checked at the start and after each rejection (the
         // cached orders are kept across decisions where that stays exact).
         for round in 0..16 {
