@@ -282,12 +282,7 @@ impl Live {
             return None;
         }
         match &self.prior {
-            None => Some(
-                self.odds_at_f
-                    .get(k)
-                    .copied()
-                    .unwrap_or_else(|| posterior_odds(self.table.boost(k), self.model.fp_fraction)),
-            ),
+            None => self.uniform_odds(k),
             Some(p) => Some(posterior_odds(self.table.boost(k), p[c as usize])),
         }
     }

@@ -13,7 +13,7 @@ use ratatui::widgets::{
 use super::app::{App, Mode, Pane, PromptKind, SignalResult};
 use crate::catalogue::{CandidateId, Field};
 use crate::decision::ALL_REASONS;
-use crate::lightcurve::analysis::Binned;
+use crate::lightcurve::analysis::{Binned, Views};
 use crate::odds::{Verdict, format_odds};
 use crate::output::num;
 use crate::sanitize::clean;
@@ -514,39 +514,36 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     frame.render_widget(b, area);
     let [chart_area, note_area] =
         Layout::vertical([Constraint::Min(3), Constraint::Length(1)]).areas(inner);
-    let to_points = |b: &Binned| -> Vec<(f64, f64)> {
+    // The binned points of one fold of the data (none without data).
+    let points = |pick: fn(&Views) -> &Binned| -> Vec<(f64, f64)> {
+        let Some(b) = views.map(pick) else {
+            return Vec::new();
+        };
         (0..b.centre.len())
             .filter(|&i| b.mean[i].is_finite())
             .map(|i| (b.centre[i] * period * 24.0, (b.mean[i] - 1.0) * 1e6))
             .collect()
     };
-    let panel = |which: SignalView, label: &str| -> Panel {
-        let (binned, curve): (Option<&Binned>, &[(f64, f64)]) = match which {
-            SignalView::Transit => (views.map(|v| &v.transit), &model),
-            SignalView::OddEven => (None, &model),
-            SignalView::Secondary => (views.map(|v| &v.secondary), &flat),
-        };
-        let pts = binned.map(to_points).unwrap_or_default();
-        (label.to_string(), pts, curve)
-    };
-    let odd_even = |odd: bool| -> Panel {
-        let pts = views
-            .map(|v| to_points(if odd { &v.odd } else { &v.even }))
-            .unwrap_or_default();
-        (if odd { "odd" } else { "even" }.to_string(), pts, &model)
-    };
     let tall = chart_area.height >= 16 && chart_area.width >= 60;
-    let mut panels = Vec::new();
+    let mut panels: Vec<Panel> = Vec::new();
     let mut areas = Vec::new();
     if tall {
         let [top, bottom] =
             Layout::vertical([Constraint::Percentage(60), Constraint::Percentage(40)])
                 .areas(chart_area);
-        panels.push(panel(SignalView::Transit, "all transits"));
+        panels.push((
+            "all transits".to_string(),
+            points(|v| &v.transit),
+            &model[..],
+        ));
         areas.push(top);
-        panels.push(odd_even(true));
-        panels.push(odd_even(false));
-        panels.push(panel(SignalView::Secondary, "secondary (phase 0.5)"));
+        panels.push(("odd".to_string(), points(|v| &v.odd), &model[..]));
+        panels.push(("even".to_string(), points(|v| &v.even), &model[..]));
+        panels.push((
+            "secondary (phase 0.5)".to_string(),
+            points(|v| &v.secondary),
+            &flat[..],
+        ));
         areas.extend(
             Layout::horizontal([Constraint::Ratio(1, 3); 3])
                 .split(bottom)
@@ -555,12 +552,16 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     } else {
         match app.signal_view {
             SignalView::Transit => {
-                panels.push(panel(SignalView::Transit, "all transits · v: odd/even"));
+                panels.push((
+                    "all transits · v: odd/even".to_string(),
+                    points(|v| &v.transit),
+                    &model[..],
+                ));
                 areas.push(chart_area);
             }
             SignalView::OddEven => {
-                panels.push(odd_even(true));
-                panels.push(odd_even(false));
+                panels.push(("odd".to_string(), points(|v| &v.odd), &model[..]));
+                panels.push(("even".to_string(), points(|v| &v.even), &model[..]));
                 areas.extend(
                     Layout::horizontal([Constraint::Ratio(1, 2); 2])
                         .split(chart_area)
@@ -568,9 +569,10 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
                 );
             }
             SignalView::Secondary => {
-                panels.push(panel(
-                    SignalView::Secondary,
-                    "secondary (phase 0.5) · v: all",
+                panels.push((
+                    "secondary (phase 0.5) · v: all".to_string(),
+                    points(|v| &v.secondary),
+                    &flat[..],
                 ));
                 areas.push(chart_area);
             }

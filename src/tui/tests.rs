@@ -210,20 +210,7 @@ fn escape_sequences_in_ids_never_reach_the_screen() {
         &Default::default(),
     )
     .unwrap();
-    let checks = crate::checks::run(&cat, &Default::default());
-    let model = Model {
-        targets: Some(100),
-        ..Model::default()
-    };
-    let live = Live::new(&cat, model).unwrap();
-    let app = App::new(
-        std::sync::Arc::new(cat),
-        live,
-        checks,
-        None,
-        "t".into(),
-        Keymap::load(&[]).unwrap(),
-    );
+    let app = app_of(cat, 100, None);
     let s = screen(&app, 100, 30);
     assert!(!s.contains('\u{1b}') && !s.contains('\u{7}'));
     assert!(s.contains("E\\x1b[2J"), "{s}");
