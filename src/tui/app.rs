@@ -800,17 +800,29 @@ impl App {
     /// the view shows that at its next full sort (a sort or filter change),
     /// which is exact.
     fn reposition(&mut self, s: StarId) {
-        if let Some(i) = self.stars.iter().position(|&x| x == s) {
-            self.stars.remove(i);
-        }
-        let at = {
-            let key = self.sort_bits();
-            let ks = key(s);
-            self.stars
-                .partition_point(|&x| key(x).cmp(&ks).then_with(|| self.tie(x, s)).is_lt())
-        };
-        self.stars.insert(at, s);
+        let mut stars = std::mem::take(&mut self.stars);
+        let at = self.place(&mut stars, s, self.sort, self.descending);
+        self.stars = stars;
         self.star_row = at;
+    }
+
+    /// Moves star `s` to its place in `order` (sorted by `sort` in that
+    /// direction, all but `s` in place): one scan to find it, a binary
+    /// search, one memmove. Returns the new index.
+    fn place(&self, order: &mut Vec<StarId>, s: StarId, sort: SortKey, descending: bool) -> usize {
+        if let Some(i) = order.iter().position(|&x| x == s) {
+            order.remove(i);
+        }
+        let key = self.sort_bits_for(sort, descending);
+        let ks = key(s);
+        let at = order.partition_point(|&x| {
+            key(x)
+                .cmp(&ks)
+                .then_with(|| self.tie_for(sort, descending, x, s))
+                .is_lt()
+        });
+        order.insert(at, s);
+        at
     }
 
     /// Where the vetter is now.
@@ -1061,20 +1073,7 @@ impl App {
                 gone.push(((key, descending), order));
                 continue;
             }
-            if let Some(i) = order.iter().position(|&x| x == s) {
-                order.remove(i);
-            }
-            let at = {
-                let bits = self.sort_bits_for(key, descending);
-                let ks = bits(s);
-                order.partition_point(|&x| {
-                    bits(x)
-                        .cmp(&ks)
-                        .then_with(|| self.tie_for(key, descending, x, s))
-                        .is_lt()
-                })
-            };
-            order.insert(at, s);
+            self.place(&mut order, s, key, descending);
             self.orders.push(((key, descending), order));
         }
         self.recycle(gone);
