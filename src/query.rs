@@ -91,6 +91,52 @@ pub enum Clause {
     Disagree(bool),
 }
 
+impl Clause {
+    pub fn holds<S: Subject + ?Sized>(&self, s: &S) -> bool {
+        match self {
+            Clause::Compare(f, op, v) => s.number(*f).is_some_and(|x| op.holds(x, *v)),
+            Clause::Flag(f, want) => s.has_flag(*f) == *want,
+            Clause::Decision(d, want) => (s.decision() == *d) == *want,
+            Clause::Verdict(v, want) => (s.verdict() == *v) == *want,
+            Clause::Reason(r, want) => (s.reason() == Some(*r)) == *want,
+            Clause::Star(t, want) => contains_folded(s.star(), t) == *want,
+            Clause::Id(t, want) => contains_folded(s.id(), t) == *want,
+            Clause::Disagree(want) => s.disagreed() == *want,
+        }
+    }
+}
+
+/// Where `Compare(_, op, v)` holds over up to 64 values of a column, one
+/// bit each (bit i for `values[i]`). `NaN` is a missing value and fails,
+/// as does any value when `finite` and the value is infinite. One loop per
+/// operator, so that each compiles to straight compares.
+pub fn compare_bits(values: &[f64], op: Op, v: f64, finite: bool) -> u64 {
+    // Branch-free bodies (`&`, not `&&`), so that the loops vectorise.
+    fn bits(values: &[f64], keep: impl Fn(f64) -> bool) -> u64 {
+        values
+            .iter()
+            .enumerate()
+            .fold(0, |b, (i, &x)| b | (keep(x) as u64) << i)
+    }
+    fn by_op(values: &[f64], op: Op, v: f64, ok: impl Fn(f64) -> bool) -> u64 {
+        match op {
+            Op::Lt => bits(values, |x| (x < v) & ok(x)),
+            Op::Le => bits(values, |x| (x <= v) & ok(x)),
+            Op::Gt => bits(values, |x| (x > v) & ok(x)),
+            Op::Ge => bits(values, |x| (x >= v) & ok(x)),
+            Op::Eq => bits(values, |x| (x == v) & ok(x)),
+            Op::Ne => bits(values, |x| (x != v) & ok(x)),
+        }
+    }
+    debug_assert!(values.len() <= 64);
+    match (finite, op) {
+        (true, _) => by_op(values, op, v, f64::is_finite),
+        // Every comparison but `!=` already fails on NaN.
+        (false, Op::Ne) => by_op(values, op, v, |x| !x.is_nan()),
+        (false, _) => by_op(values, op, v, |_| true),
+    }
+}
+
 /// A parsed filter: all clauses must hold. Empty holds for everything.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct Filter {
@@ -148,17 +194,97 @@ impl Filter {
     }
 
     pub fn matches<S: Subject + ?Sized>(&self, s: &S) -> bool {
-        self.clauses.iter().all(|c| match c {
-            Clause::Compare(f, op, v) => s.number(*f).is_some_and(|x| op.holds(x, *v)),
-            Clause::Flag(f, want) => s.has_flag(*f) == *want,
-            Clause::Decision(d, want) => (s.decision() == *d) == *want,
-            Clause::Verdict(v, want) => (s.verdict() == *v) == *want,
-            Clause::Reason(r, want) => (s.reason() == Some(*r)) == *want,
-            Clause::Star(t, want) => s.star().to_ascii_lowercase().contains(t.as_str()) == *want,
-            Clause::Id(t, want) => s.id().to_ascii_lowercase().contains(t.as_str()) == *want,
-            Clause::Disagree(want) => s.disagreed() == *want,
-        })
+        self.clauses.iter().all(|c| c.holds(s))
     }
+
+    /// The part of the filter that reads only the star, to judge a whole
+    /// star before reading its members.
+    pub fn star_test(&self) -> StarTest<'_> {
+        let k_holds = |k: f64| {
+            self.clauses.iter().all(|c| match c {
+                Clause::Compare(NumField::K, op, v) => op.holds(k, *v),
+                _ => true,
+            })
+        };
+        StarTest {
+            table: (0..StarTest::TABLE).map(|k| k_holds(k as f64)).collect(),
+            k_holds: Box::new(move |k| k_holds(k as f64)),
+            star: self
+                .clauses
+                .iter()
+                .filter_map(|c| match c {
+                    Clause::Star(t, want) => Some((t.as_str(), *want)),
+                    _ => None,
+                })
+                .collect(),
+            exact: self
+                .clauses
+                .iter()
+                .all(|c| matches!(c, Clause::Compare(NumField::K, ..) | Clause::Star(..))),
+        }
+    }
+}
+
+/// The star-level clauses of a filter (`k` and `star:`), compiled to judge
+/// a whole star from its id, its `k` (open and kept candidates) and its
+/// number of candidates. A member's `k` is the star's, or 0 when the member
+/// itself is rejected.
+pub struct StarTest<'f> {
+    /// Whether the `k` clauses hold, for small `k`.
+    table: Vec<bool>,
+    k_holds: Box<dyn Fn(usize) -> bool + Sync + 'f>,
+    star: Vec<(&'f str, bool)>,
+    /// The filter has no other clauses: the star's answer is its members'.
+    exact: bool,
+}
+
+impl StarTest<'_> {
+    const TABLE: usize = 256;
+
+    /// Whether the filter has star-level clauses at all (else every star
+    /// is undecided).
+    pub fn reads_star(&self) -> bool {
+        !self.star.is_empty() || self.table.iter().any(|&ok| !ok)
+    }
+
+    #[inline]
+    fn k_holds(&self, k: usize) -> bool {
+        match self.table.get(k) {
+            Some(&ok) => ok,
+            None => (self.k_holds)(k),
+        }
+    }
+
+    /// Whether some candidate of a star with `k` open and kept candidates
+    /// out of `n`, and this id, matches the filter: `Some(false)` none does,
+    /// `Some(true)` one does, `None` the members must be read to know.
+    #[inline]
+    pub fn judge<'s>(&self, k: usize, n: usize, star: impl FnOnce() -> &'s str) -> Option<bool> {
+        // Some member has k = the star's when k > 0, and k = 0 when k < n.
+        let at_k = k > 0 && self.k_holds(k);
+        let at_0 = k < n && self.k_holds(0);
+        if !at_k && !at_0 {
+            return Some(false);
+        }
+        if !self.star.is_empty() {
+            let id = star();
+            if !self
+                .star
+                .iter()
+                .all(|&(t, want)| contains_folded(id, t) == want)
+            {
+                return Some(false);
+            }
+        }
+        self.exact.then_some(true)
+    }
+}
+
+/// Whether `hay` contains `needle` (already lower case), ignoring ASCII
+/// case, without allocating.
+fn contains_folded(hay: &str, needle: &str) -> bool {
+    let (h, n) = (hay.as_bytes(), needle.as_bytes());
+    n.is_empty() || h.windows(n.len()).any(|w| w.eq_ignore_ascii_case(n))
 }
 
 fn parse_clause(word: &str, at: usize) -> Result<Clause, ParseError> {
@@ -300,6 +426,132 @@ mod tests {
         );
         assert!(Filter::parse("").unwrap().matches(&S));
         assert!(Filter::parse("  k=3  ").unwrap().matches(&S));
+    }
+
+    #[test]
+    fn a_star_is_judged_as_its_members_are() {
+        // Stars of n candidates, k of them open or kept (the rest rejected,
+        // with k 0), judged whole and member by member.
+        struct M {
+            k: usize,
+            rejected: bool,
+            id: &'static str,
+        }
+        impl Subject for M {
+            fn number(&self, f: NumField) -> Option<f64> {
+                match f {
+                    NumField::K => Some(if self.rejected { 0.0 } else { self.k as f64 }),
+                    NumField::Odds => Some(340.0),
+                    _ => None,
+                }
+            }
+            fn has_flag(&self, _: Flag) -> bool {
+                false
+            }
+            fn decision(&self) -> &'static str {
+                if self.rejected { "rejected" } else { "open" }
+            }
+            fn reason(&self) -> Option<Reason> {
+                None
+            }
+            fn verdict(&self) -> Verdict {
+                Verdict::Likely
+            }
+            fn star(&self) -> &str {
+                self.id
+            }
+            fn id(&self) -> &str {
+                self.id
+            }
+            fn disagreed(&self) -> bool {
+                false
+            }
+        }
+        let texts = [
+            "k>1",
+            "k<1",
+            "k=0",
+            "k>=1 k<1",
+            "k!=2",
+            "k>=2 star:wt1",
+            "star:wt2",
+            "!star:wt",
+            "k>1 odds>5",
+            "k>300",
+            "k<=300 k>=299",
+            "odds>1000",
+            "",
+        ];
+        for text in texts {
+            let f = Filter::parse(text).unwrap();
+            let test = f.star_test();
+            for (n, id) in [
+                (1, "HWT1"),
+                (2, "HWT1"),
+                (3, "HWT1"),
+                (300, "HWT1"),
+                (4, "hwt2"),
+            ] {
+                for k in 0..=n {
+                    let members: Vec<M> = (0..n)
+                        .map(|i| M {
+                            k,
+                            rejected: i >= k,
+                            id,
+                        })
+                        .collect();
+                    let truth = members.iter().any(|m| f.matches(m));
+                    match test.judge(k, n, || id) {
+                        Some(v) => assert_eq!(v, truth, "{text}: k {k} of {n}, {id}"),
+                        None => assert!(!f.star_test().exact, "{text}"),
+                    }
+                }
+            }
+        }
+        assert_eq!(
+            Filter::parse("k>1")
+                .unwrap()
+                .star_test()
+                .judge(1, 3, || "x"),
+            Some(false)
+        );
+        assert_eq!(
+            Filter::parse("k>1 odds>5")
+                .unwrap()
+                .star_test()
+                .judge(2, 2, || "x"),
+            None
+        );
+    }
+
+    #[test]
+    fn column_bits_agree_with_one_value_at_a_time() {
+        let values = [
+            1.0,
+            f64::NAN,
+            20.0,
+            f64::INFINITY,
+            -3.0,
+            20.0,
+            f64::NEG_INFINITY,
+        ];
+        for op in [Op::Lt, Op::Le, Op::Gt, Op::Ge, Op::Eq, Op::Ne] {
+            for finite in [false, true] {
+                let bits = compare_bits(&values, op, 20.0, finite);
+                for (i, &x) in values.iter().enumerate() {
+                    let one = !x.is_nan() && (!finite || x.is_finite()) && op.holds(x, 20.0);
+                    assert_eq!(bits >> i & 1 == 1, one, "{op:?} {x} finite {finite}");
+                }
+            }
+        }
+        assert_eq!(compare_bits(&[2.0; 64], Op::Gt, 1.0, false), u64::MAX);
+    }
+
+    #[test]
+    fn id_clauses_ignore_case() {
+        assert!(contains_folded("HWT12345-s2", "t12345-s"));
+        assert!(contains_folded("abc", ""));
+        assert!(!contains_folded("ab", "abc"));
     }
 
     #[test]

@@ -260,6 +260,11 @@ impl Live {
         self.k_of_star[s as usize] as usize
     }
 
+    /// `star_k` of every star, by star index.
+    pub fn star_ks(&self) -> &[u16] {
+        &self.k_of_star
+    }
+
     /// Prior FP probability: the candidate's `fpp`, else f.
     pub fn prior(&self, c: CandidateId) -> f64 {
         self.prior

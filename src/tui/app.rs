@@ -14,7 +14,7 @@ use crate::flags::{Flag, FlagSet};
 use crate::ledger::{Ledger, NewDecision};
 use crate::lightcurve::analysis::Diagnostics;
 use crate::odds::{Live, Verdict};
-use crate::query::{Filter, NumField, ParseError, Subject};
+use crate::query::{Clause, Filter, NumField, ParseError, Subject, compare_bits};
 
 /// Everything a person can do.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
@@ -542,6 +542,8 @@ pub struct App {
     /// filter then costs one pass over the stars, not a sort.
     orders: Vec<((SortKey, bool), Vec<StarId>)>,
     buffers: SortBuffers,
+    /// From this many stars on, the filter runs on two threads.
+    pub(crate) parallel_from: usize,
 }
 
 /// Memory the sorts of the view reuse.
@@ -549,6 +551,11 @@ pub struct App {
 struct SortBuffers {
     keys: Vec<u64>,
     scratch: Scratch,
+    /// One bit per star: shown by the filter; not decided by the star
+    /// alone; shown, from the second thread.
+    shown: Vec<u64>,
+    undecided: Vec<u64>,
+    second: Vec<u64>,
     /// Orders dropped from the cache, to be refilled.
     spare: Vec<Vec<StarId>>,
 }
@@ -563,6 +570,54 @@ struct Shared<'a> {
     disagree: &'a HashSet<CandidateId>,
 }
 
+impl Shared<'_> {
+    /// Which of the candidates `cands` (at most 64; bit i for the i-th) the
+    /// clause holds for, among those set in `live`. Catalogue columns are
+    /// compared 64 values at a time; other clauses read one candidate
+    /// after another.
+    fn clause_bits(&self, clause: &Clause, cands: std::ops::Range<usize>, live: u64) -> u64 {
+        if let Clause::Compare(f, op, v) = *clause {
+            if f == NumField::Radius {
+                return (self.radii.get(cands)).map_or(0, |r| compare_bits(r, op, v, true));
+            }
+            if let Some(field) = column_field(f) {
+                return self
+                    .cat
+                    .column(field)
+                    .map_or(0, |col| compare_bits(&col[cands], op, v, false));
+            }
+        }
+        let mut out = 0;
+        let mut rest = live;
+        while rest != 0 {
+            let i = rest.trailing_zeros();
+            let c = (cands.start + i as usize) as CandidateId;
+            let row = Row {
+                app: self,
+                c,
+                star: self.cat.star_of(c),
+            };
+            out |= (clause.holds(&row) as u64) << i;
+            rest &= rest - 1;
+        }
+        out
+    }
+}
+
+/// The catalogue column a numeric filter field reads, if it is one.
+fn column_field(f: NumField) -> Option<Field> {
+    Some(match f {
+        NumField::Period => Field::PeriodD,
+        NumField::Depth => Field::DepthPpm,
+        NumField::Duration => Field::DurationH,
+        NumField::Snr => Field::Snr,
+        NumField::Mag => Field::Mag,
+        NumField::Teff => Field::StarTeffK,
+        NumField::Impact => Field::Impact,
+        _ => return None,
+    })
+}
+
 /// One candidate as the filter sees it, with its star (known to the caller:
 /// one random read fewer per candidate).
 struct Row<'a> {
@@ -574,14 +629,12 @@ struct Row<'a> {
 impl Subject for Row<'_> {
     fn number(&self, f: NumField) -> Option<f64> {
         let (a, c) = (self.app, self.c);
-        let v = |field| a.cat.value(field, c);
+        if let Some(field) = column_field(f) {
+            return a.cat.value(field, c);
+        }
         match f {
             NumField::Odds => a.live.odds(c),
             NumField::Probability => a.live.probability(c),
-            NumField::Period => v(Field::PeriodD),
-            NumField::Depth => v(Field::DepthPpm),
-            NumField::Duration => v(Field::DurationH),
-            NumField::Snr => v(Field::Snr),
             NumField::Radius => a.radii.get(c as usize).copied().filter(|r| r.is_finite()),
             NumField::K => Some(if a.live.decision(c).is_rejected() {
                 0.0
@@ -590,9 +643,8 @@ impl Subject for Row<'_> {
             }),
             NumField::Boost => a.live.boost(c),
             NumField::Prior => Some(a.live.prior(c)),
-            NumField::Mag => v(Field::Mag),
-            NumField::Teff => v(Field::StarTeffK),
-            NumField::Impact => v(Field::Impact),
+            // The catalogue columns, read above.
+            _ => None,
         }
     }
     fn has_flag(&self, f: Flag) -> bool {
@@ -675,6 +727,7 @@ impl App {
             history_of: None,
             orders: Vec::new(),
             buffers: SortBuffers::default(),
+            parallel_from: 100_000,
         };
         app.refresh_view();
         app
@@ -1088,6 +1141,129 @@ impl App {
         }
     }
 
+    /// Marks, one bit per star, the stars with a candidate the filter
+    /// matches. Two passes, each reading columns in order and each split
+    /// over two threads: the stars, judged whole where the star-level
+    /// clauses (`k`, `star:`) decide; then the candidates of the stars left
+    /// undecided, 64 at a time and one clause at a time.
+    fn shown_stars(&mut self, bits: &mut Vec<u64>) {
+        let n = self.cat.star_count();
+        let words = n.div_ceil(64);
+        let mut undecided = std::mem::take(&mut self.buffers.undecided);
+        let mut second = std::mem::take(&mut self.buffers.second);
+        for v in [&mut *bits, &mut undecided, &mut second] {
+            v.clear();
+            v.resize(words, 0);
+        }
+        let two = n >= self.parallel_from;
+        let shared = self.shared();
+        let filter = &self.filter;
+        let star_test = filter.star_test();
+        let index = self.cat.index();
+        let (ks, starts, star_of) = (self.live.star_ks(), &index.member_start, &index.star_of);
+        let reads_star = star_test.reads_star();
+        let mut mixed = true;
+        if reads_star {
+            // Returns whether an undecided star has a rejected candidate.
+            let judge = |first_word: usize, hit: &mut [u64], open: &mut [u64]| {
+                let mut mixed = false;
+                for (w, (hit, open)) in hit.iter_mut().zip(open).enumerate() {
+                    let base = (first_word + w) * 64;
+                    let (mut h, mut o) = (0, 0);
+                    for bit in 0..64.min(n - base) {
+                        let s = base + bit;
+                        let (k, members) = (ks[s] as usize, (starts[s + 1] - starts[s]) as usize);
+                        match star_test.judge(k, members, || shared.cat.star_id(s as StarId)) {
+                            Some(v) => h |= (v as u64) << bit,
+                            None => {
+                                o |= 1 << bit;
+                                mixed |= k < members;
+                            }
+                        }
+                    }
+                    (*hit, *open) = (h, o);
+                }
+                mixed
+            };
+            mixed = if two {
+                let half = words / 2;
+                let (h1, h2) = bits.split_at_mut(half);
+                let (o1, o2) = undecided.split_at_mut(half);
+                std::thread::scope(|scope| {
+                    let second = scope.spawn(|| judge(half, h2, o2));
+                    judge(0, h1, o1) | second.join().expect("filter thread")
+                })
+            } else {
+                judge(0, bits, &mut undecided)
+            };
+            if undecided.iter().all(|&w| w == 0) {
+                self.buffers.undecided = undecided;
+                self.buffers.second = second;
+                return;
+            }
+        }
+        let is_open = |s: StarId| !reads_star || undecided[s as usize / 64] >> (s % 64) & 1 == 1;
+        let m = self.cat.len();
+        // The star clauses held for every undecided star, and so did the
+        // `k` clauses unless one has a rejected candidate (with k 0). Column
+        // compares go first (they read in order), then whether the star is
+        // undecided, then the rest, each over the candidates still in the
+        // running.
+        let (columns, others): (Vec<&Clause>, Vec<&Clause>) = filter
+            .clauses
+            .iter()
+            .filter(|c| match c {
+                Clause::Star(..) => !reads_star,
+                Clause::Compare(NumField::K, ..) => !reads_star || mixed,
+                _ => true,
+            })
+            .partition(|c| {
+                matches!(c, Clause::Compare(f, ..) if column_field(*f).is_some() || *f == NumField::Radius)
+            });
+        let members = |words: std::ops::Range<usize>, hit: &mut [u64]| {
+            for w in words {
+                let first = w * 64;
+                let len = 64.min(m - first);
+                let cands = first..first + len;
+                let mut live = u64::MAX >> (64 - len);
+                for clause in &columns {
+                    live &= shared.clause_bits(clause, cands.clone(), live);
+                }
+                let mut rest = live;
+                while rest != 0 {
+                    let i = rest.trailing_zeros();
+                    if !is_open(star_of[first + i as usize]) {
+                        live &= !(1 << i);
+                    }
+                    rest &= rest - 1;
+                }
+                for clause in &others {
+                    if live == 0 {
+                        break;
+                    }
+                    live &= shared.clause_bits(clause, cands.clone(), live);
+                }
+                while live != 0 {
+                    let s = star_of[first + live.trailing_zeros() as usize];
+                    hit[s as usize / 64] |= 1 << (s % 64);
+                    live &= live - 1;
+                }
+            }
+        };
+        let cand_words = m.div_ceil(64);
+        if two {
+            std::thread::scope(|scope| {
+                scope.spawn(|| members(cand_words / 2..cand_words, &mut second));
+                members(0..cand_words / 2, bits);
+            });
+            bits.iter_mut().zip(&second).for_each(|(a, b)| *a |= b);
+        } else {
+            members(0..cand_words, bits);
+        }
+        self.buffers.undecided = undecided;
+        self.buffers.second = second;
+    }
+
     /// Rebuilds the index vector of shown stars from the filter and sort,
     /// keeping the selection on the same star where it is still shown.
     pub fn refresh_view(&mut self) {
@@ -1101,33 +1277,18 @@ impl App {
         if self.filter.is_empty() {
             stars.extend_from_slice(&order);
         } else {
-            let shared = self.shared();
-            let (filter, pinned) = (&self.filter, self.pinned);
-            let shown = |part: &[StarId], out: &mut Vec<StarId>| {
-                out.extend(part.iter().copied().filter(|&s| {
-                    Some(s) == pinned
-                        || shared.cat.members(s).iter().any(|&c| {
-                            filter.matches(&Row {
-                                app: &shared,
-                                c,
-                                star: s,
-                            })
-                        })
-                }))
-            };
-            // Half the stars on a second thread: the filter reads columns
-            // at random (stars in sort order), so it waits on memory.
-            if order.len() >= 100_000 {
-                let (a, b) = order.split_at(order.len() / 2);
-                let mut second = Vec::new();
-                std::thread::scope(|scope| {
-                    scope.spawn(|| shown(b, &mut second));
-                    shown(a, &mut stars);
-                });
-                stars.extend_from_slice(&second);
-            } else {
-                shown(&order, &mut stars);
+            let mut shown = std::mem::take(&mut self.buffers.shown);
+            self.shown_stars(&mut shown);
+            if let Some(p) = self.pinned {
+                shown[p as usize / 64] |= 1 << (p % 64);
             }
+            stars.extend(
+                order
+                    .iter()
+                    .copied()
+                    .filter(|&s| shown[s as usize / 64] >> (s % 64) & 1 == 1),
+            );
+            self.buffers.shown = shown;
         }
         self.stars = stars;
         // Least recently used first; six orders of a million stars are 24 MB.

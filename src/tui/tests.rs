@@ -701,3 +701,70 @@ fn a_rejected_candidate_has_k_zero_in_filters() {
     typed_filter(&mut app, &format!("k={k} decision:open"));
     assert!(app.stars.contains(&app.cat.star_of(c)));
 }
+
+#[test]
+fn the_filter_shows_exactly_the_stars_with_a_matching_candidate() {
+    let mut app = demo_app();
+    let texts = [
+        "k>1",
+        "k<1",
+        "k>=2 k<=3",
+        "k=0 decision:rejected",
+        "star:hwt2",
+        "!star:0 k>=3",
+        "depth>300 snr>10 k>=2",
+        "period<20 flag:near-twin",
+        "period!=3.5 duration<4",
+        "radius>2 !flag:odd-even",
+        "odds>=10 decision:open",
+        "verdict:likely k>=2 star:hwt",
+        "decision:parked",
+        "id:s2 teff>5000",
+        "reason:eclipsing-binary k>=1",
+        "mag<13 impact<0.5",
+    ];
+    let check = |app: &mut App| {
+        for parallel_from in [usize::MAX, 0] {
+            app.parallel_from = parallel_from;
+            for text in texts {
+                let before = app.star();
+                typed_filter(app, text);
+                // No candidate is kept, so these are all the matching ones.
+                let mut want: Vec<_> = app
+                    .bulk_targets(Decision::Kept)
+                    .into_iter()
+                    .map(|c| app.cat.star_of(c))
+                    .collect();
+                want.sort_unstable();
+                want.dedup();
+                let mut shown = app.stars.clone();
+                shown.sort_unstable();
+                // The star just decided on may stay in view (pinned).
+                shown.retain(|&s| want.binary_search(&s).is_ok() || Some(s) != before);
+                assert_eq!(
+                    shown, want,
+                    "{text}, two threads from {parallel_from} stars"
+                );
+                typed_filter(app, "");
+            }
+        }
+    };
+    // Before any decision (every `k` is decided by the star), and after.
+    check(&mut app);
+    // Rejections and parks on a spread of systems, so that `k`, decisions
+    // and verdicts differ from candidate to candidate.
+    for step in 0..24 {
+        app.focus = Pane::Systems;
+        for _ in 0..7 {
+            act(&mut app, Action::Down);
+        }
+        act(&mut app, Action::NextPane);
+        if step % 3 == 0 {
+            act(&mut app, Action::Park);
+        } else {
+            act(&mut app, Action::Reject);
+            act(&mut app, Action::Select);
+        }
+    }
+    check(&mut app);
+}
