@@ -159,6 +159,11 @@ impl Catalogue {
         self.candidates.get(c as usize)
     }
 
+    /// Every candidate id, end to end in one pool (for substring search).
+    pub fn candidate_ids(&self) -> &pool::StrPool {
+        &self.candidates
+    }
+
     pub fn star_id(&self, s: StarId) -> &str {
         self.stars.get(s as usize)
     }

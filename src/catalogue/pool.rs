@@ -50,6 +50,55 @@ impl StrPool {
         out
     }
 
+    /// Every string containing `needle`, in order, with the byte position
+    /// of its first occurrence: one SIMD substring search (memchr's
+    /// `memmem`) over the whole pool, not one per string. `hay` is the
+    /// pool's bytes or a copy of the same length (e.g. ASCII lower case,
+    /// which keeps every position).
+    pub fn containing(&self, hay: &[u8], needle: &[u8], mut found: impl FnMut(usize, usize)) {
+        assert_eq!(hay.len(), self.buf.len(), "a copy of the pool's bytes");
+        if needle.is_empty() {
+            return;
+        }
+        let finder = memchr::memmem::Finder::new(needle);
+        let (ends, mut from, mut i) = (&self.ends, 0, 0);
+        while i < ends.len() {
+            // From the start of string i: a prefix (the common case when
+            // many ids share a head) costs one compare, else search on.
+            let p = if hay[from..ends[i]].starts_with(needle) {
+                from
+            } else {
+                match finder.find(&hay[from..]) {
+                    Some(p) => from + p,
+                    None => break,
+                }
+            };
+            // The string holding position p: close by when matches are
+            // dense, else by bisection.
+            let mut steps = 0;
+            while ends[i] <= p && steps < 8 {
+                i += 1;
+                steps += 1;
+            }
+            if ends[i] <= p {
+                i += ends[i..].partition_point(|&e| e <= p);
+            }
+            let start = if i == 0 { 0 } else { ends[i - 1] };
+            if p + needle.len() <= ends[i] {
+                found(i, p - start);
+            }
+            // A later match starting in string i is no earlier (or also
+            // crosses its end): go on with the next string.
+            from = ends[i];
+            i += 1;
+        }
+    }
+
+    /// The pool's bytes, all strings end to end.
+    pub fn bytes(&self) -> &[u8] {
+        self.buf.as_bytes()
+    }
+
     pub fn byte_len(&self) -> usize {
         self.buf.len()
     }
@@ -76,5 +125,40 @@ mod tests {
         assert_eq!(p.push("çd"), 2);
         assert_eq!((p.get(0), p.get(1), p.get(2)), ("ab", "", "çd"));
         assert_eq!(p.len(), 3);
+    }
+
+    #[test]
+    fn containing_finds_what_a_search_per_string_finds() {
+        let mut p = StrPool::default();
+        let words = ["abcab", "", "b", "xab", "a", "bab", "abab", "ba", "", "aab"];
+        for w in words {
+            p.push(w);
+        }
+        for needle in [
+            "ab", "b", "a", "ba", "aba", "abcab", "zz", "bb", "ab", /* across ends */
+        ] {
+            let mut got = Vec::new();
+            p.containing(p.bytes(), needle.as_bytes(), |i, at| got.push((i, at)));
+            let want: Vec<_> = words
+                .iter()
+                .enumerate()
+                .filter_map(|(i, w)| w.find(needle).map(|at| (i, at)))
+                .collect();
+            assert_eq!(got, want, "{needle}");
+        }
+        // Many strings between two matches (the bisection).
+        let mut q = StrPool::default();
+        for i in 0..1000 {
+            q.push(if i % 97 == 3 { "xyz" } else { "ab" });
+        }
+        let mut got = Vec::new();
+        q.containing(q.bytes(), b"yz", |i, at| got.push((i, at)));
+        assert_eq!(
+            got,
+            (0..1000)
+                .filter(|i| i % 97 == 3)
+                .map(|i| (i, 1))
+                .collect::<Vec<_>>()
+        );
     }
 }

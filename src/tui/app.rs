@@ -495,6 +495,8 @@ pub struct App {
     /// Planet radii, computed on first use (only a `radius` filter needs them all).
     radius: std::cell::OnceCell<Vec<f64>>,
     id_common: std::cell::OnceCell<usize>,
+    /// The candidate ids in ASCII lower case, for find (built on first use).
+    ids_folded: std::cell::OnceCell<Vec<u8>>,
     pub ledger: Option<Ledger>,
     pub ledger_path: String,
     pub vetter: String,
@@ -695,6 +697,7 @@ impl App {
             checks,
             radius: std::cell::OnceCell::new(),
             id_common: std::cell::OnceCell::new(),
+            ids_folded: std::cell::OnceCell::new(),
             ledger,
             ledger_path,
             vetter,
@@ -1467,27 +1470,25 @@ impl App {
     /// match inside, then the shortest id, then file order. Smart case:
     /// text without capitals ignores ASCII case.
     fn best_containing(&self, text: &str) -> Option<CandidateId> {
-        let needle = text.as_bytes();
+        let ids = self.cat.candidate_ids();
         let fold = !text.bytes().any(|b| b.is_ascii_uppercase());
-        let at = |id: &[u8]| -> Option<usize> {
-            if id.len() < needle.len() {
-                return None;
-            }
-            id.windows(needle.len()).position(|w| {
-                if fold {
-                    w.eq_ignore_ascii_case(needle)
-                } else {
-                    w == needle
-                }
-            })
+        let hay = if fold && text.bytes().any(|b| b.is_ascii_alphabetic()) {
+            // Built on the first search that needs it: the ids in lower case.
+            self.ids_folded
+                .get_or_init(|| ids.bytes().to_ascii_lowercase())
+                .as_slice()
+        } else {
+            ids.bytes()
         };
-        (0..self.cat.len() as CandidateId)
-            .filter_map(|c| {
-                let id = self.cat.candidate_id(c).as_bytes();
-                at(id).map(|pos| ((pos != 0, id.len(), c), c))
-            })
-            .min_by_key(|(rank, _)| *rank)
-            .map(|(_, c)| c)
+        let mut best: Option<((bool, usize), CandidateId)> = None;
+        ids.containing(hay, text.as_bytes(), |c, at| {
+            let rank = (at != 0, ids.get(c).len());
+            // Ties go to file order: the first found.
+            if best.is_none_or(|(b, _)| rank < b) {
+                best = Some((rank, c as CandidateId));
+            }
+        });
+        best.map(|(_, c)| c)
     }
 
     /// Selects a candidate, clearing a filter that hides it.
