@@ -652,7 +652,10 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
 
 fn draw_ledger(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let b = block(
-        format!(" Ledger · {} entries · L for facts ", app.history.len()),
+        match app.history.len() {
+            1 => " Ledger · 1 entry · L for facts ".to_string(),
+            n => format!(" Ledger · {n} entries · L for facts "),
+        },
         false,
         look,
     );
@@ -662,9 +665,8 @@ fn draw_ledger(app: &App, frame: &mut Frame, area: Rect, look: Look) {
         frame.render_widget(Paragraph::new("no ledger: decisions stay in memory"), inner);
         return;
     }
-    // The newest entries that fit, newest last.
-    let skip = app.history.len().saturating_sub(inner.height as usize);
-    let lines: Vec<Line> = app.history[skip..]
+    let lines: Vec<Line> = app
+        .history
         .iter()
         .map(|e| {
             let when = e
@@ -688,12 +690,26 @@ fn draw_ledger(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             ])
         })
         .collect();
-    let text = if lines.is_empty() {
-        vec![Line::from("no decisions on this system yet")]
-    } else {
-        lines
-    };
-    frame.render_widget(Paragraph::new(text), inner);
+    if lines.is_empty() {
+        frame.render_widget(Paragraph::new("no decisions on this system yet"), inner);
+        return;
+    }
+    // The newest entries that fit, newest last, long ones wrapped: count
+    // the wrapped rows from the newest back, and scroll off the top rows
+    // of the oldest one shown when it does not fit whole.
+    let wrap = Wrap { trim: false };
+    let (mut rows, mut first) = (0, lines.len());
+    while first > 0 && rows < inner.height as usize {
+        first -= 1;
+        rows += Paragraph::new(lines[first].clone())
+            .wrap(wrap)
+            .line_count(inner.width);
+    }
+    let over = rows.saturating_sub(inner.height as usize) as u16;
+    let shown = Paragraph::new(lines[first..].to_vec())
+        .wrap(wrap)
+        .scroll((over, 0));
+    frame.render_widget(shown, inner);
 }
 
 fn draw_facts(app: &App, frame: &mut Frame, area: Rect, look: Look) {

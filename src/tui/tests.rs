@@ -768,3 +768,25 @@ fn the_filter_shows_exactly_the_stars_with_a_matching_candidate() {
     }
     check(&mut app);
 }
+
+#[test]
+fn long_ledger_entries_wrap_and_the_newest_stays_in_view() {
+    let (dir, mut app) = demo_app_with_ledger("wrap");
+    app.advance = false;
+    act(&mut app, Action::NextPane);
+    for _ in 0..10 {
+        act(&mut app, Action::Park);
+        act(&mut app, Action::Reopen);
+    }
+    act(&mut app, Action::Reject);
+    typed(
+        &mut app,
+        "secondary at phase 0.5 is four tenths of the primary, so this is a binary END",
+    );
+    act(&mut app, Action::Select);
+    act(&mut app, Action::ShowLedger);
+    let s = screen(&app, 80, 24);
+    assert!(s.contains("Ledger · 21 entries"), "{s}");
+    assert!(s.contains("END") && s.contains("secondary"), "{s}");
+    let _ = std::fs::remove_dir_all(&dir);
+}
