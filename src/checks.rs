@@ -326,6 +326,7 @@ pub fn run_lightcurves(
                 }
             }
         }
+        cache.forget(star);
     }
     errors
 }

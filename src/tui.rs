@@ -252,9 +252,7 @@ fn spawn_worker(
                     Err(e) => SignalResult::Model(format!("light curve not read: {e}")),
                     Ok(lc) => {
                         let (me, others) = crate::lightcurve::signals(&cat, c);
-                        let mut all = vec![me];
-                        all.extend_from_slice(&others);
-                        let flux = crate::lightcurve::analysis::detrend(lc, &all, &detrend);
+                        let flux = cache.detrended(&cat, star, lc, &detrend);
                         let skip = crate::lightcurve::analysis::in_transit(&lc.time, &others, 1.2);
                         let z = (3.0 * me.duration_h / 24.0 / me.period_d).min(0.5);
                         let views = crate::lightcurve::analysis::views(

@@ -457,6 +457,18 @@ pub fn diagnose(
     let mut all = vec![*me];
     all.extend_from_slice(others);
     let flux = detrend(lc, &all, detrend_settings);
+    diagnose_detrended(lc, &flux, me, others, ctx)
+}
+
+/// `diagnose` on a flux already detrended with every signal of the star
+/// (the trend is the star's, shared by its candidates).
+pub fn diagnose_detrended(
+    lc: &LightCurve,
+    flux: &[f64],
+    me: &Ephemeris,
+    others: &[Ephemeris],
+    ctx: &Context,
+) -> Diagnostics {
     let masked_others = in_transit(&lc.time, others, 1.2);
     let half = me.half_d();
     let dt: Vec<f64> = lc.time.iter().map(|&t| me.offset_d(t)).collect();
@@ -522,7 +534,7 @@ pub fn diagnose(
         .collect();
     let consistency = depth_consistency(&depths);
     let (flat_fraction, v_shape_dchi2) =
-        shape_fit(&lc.time, &flux, &masked_others, me, scatter, baseline);
+        shape_fit(&lc.time, flux, &masked_others, me, scatter, baseline);
     let reflected = ctx.a_rstar.map(|a| reflected_ceiling_ppm(ctx.ror, a));
     let thermal = match (ctx.a_rstar, ctx.teff_k) {
         (Some(a), Some(t)) => Some(thermal_depth_ppm(ctx.ror, a, t, 0.6e-6)),

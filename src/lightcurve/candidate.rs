@@ -6,7 +6,7 @@ use std::collections::HashMap;
 use std::path::PathBuf;
 use std::sync::{Arc, Mutex};
 
-use super::analysis::{Context, DetrendSettings, Diagnostics, Ephemeris, diagnose};
+use super::analysis::{Context, DetrendSettings, Diagnostics, Ephemeris, diagnose_detrended};
 use super::{LcColumns, LcError, LightCurve, locate};
 use crate::catalogue::{CandidateId, Catalogue, Field, StarId};
 use crate::checks::{CheckSettings, derive};
@@ -165,6 +165,7 @@ pub type CachedDiagnostics = Arc<Result<Diagnostics, String>>;
 #[derive(Default)]
 pub struct Cache {
     curves: Mutex<HashMap<StarId, LoadedCurve>>,
+    trends: Mutex<HashMap<StarId, Arc<Vec<f64>>>>,
     diagnostics: Mutex<HashMap<CandidateId, CachedDiagnostics>>,
 }
 
@@ -178,6 +179,34 @@ impl Cache {
             m.insert(star, Arc::clone(&loaded));
         }
         loaded
+    }
+
+    /// A star's light curve divided by its trend, with all its signals
+    /// masked (`analysis::detrend`), computed once per star: every
+    /// candidate of the star reads the same trend.
+    pub fn detrended(
+        &self,
+        cat: &Catalogue,
+        star: StarId,
+        lc: &LightCurve,
+        settings: &DetrendSettings,
+    ) -> Arc<Vec<f64>> {
+        if let Some(hit) = self.trends.lock().ok().and_then(|m| m.get(&star).cloned()) {
+            return hit;
+        }
+        let all: Vec<Ephemeris> = match cat.members(star).first() {
+            Some(&c) => {
+                let (me, mut others) = signals(cat, c);
+                others.insert(0, me);
+                others
+            }
+            None => Vec::new(),
+        };
+        let flux = Arc::new(super::analysis::detrend(lc, &all, settings));
+        if let Ok(mut m) = self.trends.lock() {
+            m.insert(star, Arc::clone(&flux));
+        }
+        flux
     }
 
     /// The diagnostics of a candidate, computed on first use.
@@ -200,7 +229,14 @@ impl Cache {
         let result = match curve.as_ref() {
             Ok(lc) => {
                 let (me, others) = signals(cat, c);
-                Ok(diagnose(lc, &me, &others, &context(cat, c), detrend))
+                let flux = self.detrended(cat, cat.star_of(c), lc, detrend);
+                Ok(diagnose_detrended(
+                    lc,
+                    &flux,
+                    &me,
+                    &others,
+                    &context(cat, c),
+                ))
             }
             Err(e) => Err(e.clone()),
         };
@@ -211,8 +247,57 @@ impl Cache {
         result
     }
 
+    /// Drops a star's light curve and trend (its diagnostics stay): a pass
+    /// over every star keeps one curve in memory at a time.
+    pub fn forget(&self, star: StarId) {
+        if let Ok(mut m) = self.curves.lock() {
+            m.remove(&star);
+        }
+        if let Ok(mut m) = self.trends.lock() {
+            m.remove(&star);
+        }
+    }
+
     /// What is cached now, without computing anything.
     pub fn peek(&self, c: CandidateId) -> Option<CachedDiagnostics> {
         self.diagnostics.lock().ok()?.get(&c).cloned()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_shared_trend_gives_what_a_trend_per_candidate_gives() {
+        let cat = crate::demo::catalogue().unwrap();
+        let finder = Finder {
+            demo: true,
+            ..Finder::default()
+        };
+        let star = (0..cat.star_count() as StarId)
+            .find(|&s| cat.members(s).len() >= 3 && finder.has(&cat, s))
+            .expect("a demo system of three with a light curve");
+        let (cache, settings) = (Cache::default(), DetrendSettings::default());
+        let lc = finder.load(&cat, star).unwrap();
+        for &c in cat.members(star) {
+            let (me, others) = signals(&cat, c);
+            let alone =
+                super::super::analysis::diagnose(&lc, &me, &others, &context(&cat, c), &settings);
+            let shared = cache.diagnostics(&finder, &cat, c, &settings);
+            assert_eq!(
+                shared.as_ref().as_ref().unwrap(),
+                &alone,
+                "{}",
+                cat.candidate_id(c)
+            );
+        }
+        assert_eq!(
+            cache.trends.lock().unwrap().len(),
+            1,
+            "one trend for the star"
+        );
+        cache.forget(star);
+        assert!(cache.trends.lock().unwrap().is_empty() && cache.curves.lock().unwrap().is_empty());
     }
 }
