@@ -73,10 +73,25 @@ fn main() {
     println!("file: {} ({:.1} MB)", path.display(), size as f64 / 1e6);
 
     // Interleaved, best of 7 each: on a shared machine the load drifts over
-    // seconds, and alternating keeps both measures in the same conditions.
-    let (mut raw, mut load) = (Duration::MAX, Duration::MAX);
+    // seconds, and alternating keeps the measures in the same conditions.
+    let bin = Path::new(env!("CARGO_MANIFEST_DIR")).join("target/release/starsift");
+    let summary = || {
+        Command::new(&bin)
+            .args([
+                "summary",
+                path.to_str().expect("utf-8 path"),
+                "--format",
+                "json",
+            ])
+            .output()
+            .expect("starsift summary")
+    };
+    let (mut raw, mut load, mut whole) = (Duration::MAX, Duration::MAX, Duration::MAX);
     let (mut n, mut shape) = (0, (0, 0, Vec::new()));
     for _ in 0..7 {
+        if bin.exists() {
+            whole = whole.min(best_of(1, summary).0);
+        }
         let (t, v) = best_of(1, || raw_scan(&path));
         raw = raw.min(t);
         n = v;
@@ -117,19 +132,7 @@ fn main() {
         );
     }
 
-    let bin = Path::new(env!("CARGO_MANIFEST_DIR")).join("target/release/starsift");
     if bin.exists() {
-        let (whole, _) = best_of(3, || {
-            Command::new(&bin)
-                .args([
-                    "summary",
-                    path.to_str().expect("utf-8 path"),
-                    "--format",
-                    "json",
-                ])
-                .output()
-                .expect("starsift summary")
-        });
         println!(
             "whole `starsift summary` process:  {:>6.3} s  = {:.2}x raw scan",
             whole.as_secs_f64(),

@@ -348,12 +348,26 @@ impl CatalogueArgs {
                 .delimiter
                 .as_deref()
                 .map(|d| if d == "tab" { b'\t' } else { b',' }),
+            index_only: false,
         })
     }
 
     /// Loads the catalogue (or the demo) and its `survey.toml`, if any.
     pub fn load(&self) -> Result<Loaded, CliError> {
-        let opts = self.options()?;
+        self.load_with(self.options()?)
+    }
+
+    /// `load` keeping only the ids, the star index, depth and the skips
+    /// (`LoadOptions::index_only`), for `summary`.
+    pub fn load_index(&self) -> Result<Loaded, CliError> {
+        let opts = LoadOptions {
+            index_only: true,
+            ..self.options()?
+        };
+        self.load_with(opts)
+    }
+
+    fn load_with(&self, opts: LoadOptions) -> Result<Loaded, CliError> {
         match &self.catalogue {
             None => Ok(Loaded {
                 catalogue: Catalogue::load(

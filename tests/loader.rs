@@ -291,3 +291,74 @@ fn large_files_split_across_threads_match_a_serial_read() {
     assert_eq!(m.skipped, c.skipped);
     let _ = std::fs::remove_dir_all(&d);
 }
+
+#[test]
+fn an_index_only_load_keeps_the_same_rows_and_skips() {
+    // `summary` loads this way: every cell validated, only depth kept.
+    let index = LoadOptions {
+        index_only: true,
+        ..LoadOptions::default()
+    };
+    let gz = scratch("index-only").join("good.csv.gz");
+    {
+        let mut e = flate2::write::GzEncoder::new(
+            std::fs::File::create(&gz).unwrap(),
+            flate2::Compression::fast(),
+        );
+        e.write_all(&std::fs::read(fixture("good.csv")).unwrap())
+            .unwrap();
+        e.finish().unwrap();
+    }
+    let mut paths: Vec<_> = [
+        "bad_rows.csv",
+        "crlf_bom.csv",
+        "escapes.csv",
+        "good.csv",
+        "tabs.tsv",
+        "depth_percent.csv",
+    ]
+    .map(fixture)
+    .to_vec();
+    paths.push(gz);
+    for path in paths {
+        let full = Catalogue::load(Source::Path(&path), &LoadOptions::default()).unwrap();
+        let lean = Catalogue::load(Source::Path(&path), &index).unwrap();
+        let name = path.display();
+        assert_eq!(lean.len(), full.len(), "{name}");
+        assert_eq!(lean.histogram(), full.histogram(), "{name}");
+        assert_eq!(lean.skipped, full.skipped, "{name}");
+        assert_eq!(lean.rows_seen, full.rows_seen, "{name}");
+        assert_eq!(
+            lean.columns
+                .iter()
+                .map(|c| (c.field, &c.unit))
+                .collect::<Vec<_>>(),
+            full.columns
+                .iter()
+                .map(|c| (c.field, &c.unit))
+                .collect::<Vec<_>>(),
+            "{name}"
+        );
+        assert_eq!(
+            lean.column(Field::DepthPpm),
+            full.column(Field::DepthPpm),
+            "{name}"
+        );
+        assert!(lean.column(Field::PeriodD).is_none(), "{name}");
+        for c in 0..full.len() as u32 {
+            assert_eq!(lean.candidate_id(c), full.candidate_id(c));
+            assert_eq!(lean.star_id(lean.star_of(c)), full.star_id(full.star_of(c)));
+        }
+    }
+    // A big file goes through the threaded path.
+    let big = scratch("index-only").join("big.csv");
+    starsift::demo::write_big(&big, 30_000, 7).unwrap();
+    let full = Catalogue::load(Source::Path(&big), &LoadOptions::default()).unwrap();
+    let lean = Catalogue::load(Source::Path(&big), &index).unwrap();
+    assert_eq!(
+        (lean.len(), lean.star_count()),
+        (full.len(), full.star_count())
+    );
+    assert_eq!(lean.histogram(), full.histogram());
+    assert_eq!(lean.column(Field::DepthPpm), full.column(Field::DepthPpm));
+}

@@ -25,6 +25,12 @@ pub struct LoadOptions {
     pub depth_unit: Option<DepthUnit>,
     /// The field delimiter, overriding detection by extension and sniffing.
     pub delimiter: Option<u8>,
+    /// Keep the ids, the star index and the skips, but of the numeric
+    /// columns only depth (its unit rule reads it): for `summary`, which
+    /// reports no other value. Every cell is still parsed and validated, so
+    /// the same rows load and the same rows are skipped; the columns not
+    /// kept read as absent (`Catalogue::column` is `None`).
+    pub index_only: bool,
 }
 
 /// Where catalogue bytes come from.
@@ -162,7 +168,7 @@ fn read_catalogue(
     let mapping = Mapping::resolve(&name, &header_fields, &opts.columns)?;
     let first_line = header_line + count_newlines(&buf[header_end.0..header_end.1]);
     buf.drain(..header_end.1);
-    let layout = Layout::new(header_fields, mapping, delimiter);
+    let layout = Layout::new(header_fields, mapping, delimiter, opts.index_only);
     let mut merger = Merger::new(name, &layout);
     if eof {
         // Everything is in memory already: no threads for a small file.
@@ -622,8 +628,10 @@ struct Layout {
     delimiter: u8,
     star_col: usize,
     cand_col: usize,
-    /// (slot in NUMERIC, column index)
+    /// (slot in NUMERIC, column index), of the columns parsed and
+    /// validated, and whether each is kept.
     num_cols: Vec<(usize, usize)>,
+    kept: Vec<bool>,
     lc_col: Option<usize>,
     extra_cols: Vec<usize>,
 }
@@ -707,17 +715,22 @@ struct Part {
 }
 
 impl Layout {
-    fn new(header: Vec<String>, mapping: Mapping, delimiter: u8) -> Layout {
+    fn new(header: Vec<String>, mapping: Mapping, delimiter: u8, index_only: bool) -> Layout {
         let col = |f: Field| mapping.by_field.get(&f).copied();
+        let num_cols: Vec<(usize, usize)> = NUMERIC
+            .iter()
+            .enumerate()
+            .filter_map(|(slot, f)| col(*f).map(|c| (slot, c)))
+            .collect();
         Layout {
+            kept: num_cols
+                .iter()
+                .map(|&(slot, _)| !index_only || NUMERIC[slot] == Field::DepthPpm)
+                .collect(),
+            num_cols,
             star_col: col(Field::Star).unwrap_or(0),
             cand_col: col(Field::Candidate).unwrap_or(0),
             lc_col: col(Field::Lightcurve),
-            num_cols: NUMERIC
-                .iter()
-                .enumerate()
-                .filter_map(|(slot, f)| col(*f).map(|c| (slot, c)))
-                .collect(),
             extra_cols: mapping.extras.iter().map(|(i, _)| *i).collect(),
             header,
             mapping,
@@ -844,7 +857,9 @@ impl Layout {
                 part.stars.push(star);
                 part.lines.push(u32::try_from(line).unwrap_or(u32::MAX));
                 for (j, &(slot, _)) in self.num_cols.iter().enumerate() {
-                    part.num[j].push(scratch[slot]);
+                    if self.kept[j] {
+                        part.num[j].push(scratch[slot]);
+                    }
                 }
                 if let (Some(pool), Some(col)) = (part.lightcurve.as_mut(), self.lc_col) {
                     pool.push(&String::from_utf8_lossy(rec.field(col).trim_ascii()));
@@ -1038,8 +1053,11 @@ impl Merger {
         self.candidate_hash.reserve(est);
         self.star_hash.reserve(est);
         self.lines.reserve(est);
-        for c in &mut self.num {
-            c.reserve(est);
+        // Columns not kept (`index_only`) stay empty.
+        for (c, p) in self.num.iter_mut().zip(&part.num) {
+            if !p.is_empty() {
+                c.reserve(est);
+            }
         }
     }
 
@@ -1161,8 +1179,10 @@ impl Merger {
         // Duplicates were found after their chunk's own skips: restore file order.
         skipped.sort_by_key(|s| s.line);
         let mut num: Vec<Option<Vec<f64>>> = vec![None; NUMERIC.len()];
-        for (&(slot, _), col) in layout.num_cols.iter().zip(parsed) {
-            num[slot] = Some(col);
+        for ((&(slot, _), col), &kept) in layout.num_cols.iter().zip(parsed).zip(&layout.kept) {
+            if kept {
+                num[slot] = Some(col);
+            }
         }
         let header = &layout.header;
         let mapping = &layout.mapping;

@@ -23,7 +23,8 @@ pub struct Args {
 const SKIPPED_SHOWN: usize = 20;
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    let loaded = args.input.load()?;
+    // Every cell is validated; only the values summary reports are kept.
+    let loaded = args.input.load_index()?;
     let cat = &loaded.catalogue;
     match args.format {
         Format::Json => write_json(out, &to_json(cat))?,
