@@ -12,7 +12,7 @@ use std::sync::{Mutex, mpsc};
 use csv::ByteRecord;
 use flate2::read::MultiGzDecoder;
 
-use super::columns::{ColumnMap, ColumnUse, DepthUnit, Field, Mapping, NUMERIC};
+use super::columns::{ColumnMap, ColumnUse, DepthUnit, Field, Mapping, NUMERIC, REQUIRED};
 use super::pool::StrPool;
 use super::{CandidateId, Catalogue, LoadError, Skip, StarId};
 
@@ -527,6 +527,42 @@ fn parse_cell(raw: &[u8]) -> Cell {
     }
 }
 
+/// True when `parse_cell` would read a value (finite or not) from the
+/// cell: `[+-]digits[.digits][e[+-]digits]`, spaces around, at most five
+/// exponent digits. A cheap test for cells whose value is not kept; `false`
+/// decides nothing (the cell then goes to `parse_cell`).
+fn is_number(raw: &[u8]) -> bool {
+    let b = raw.trim_ascii();
+    let b = match b {
+        [b'-' | b'+', rest @ ..] => rest,
+        _ => b,
+    };
+    let digits = |from: usize| from + b[from..].iter().take_while(|c| c.is_ascii_digit()).count();
+    let mut i = digits(0);
+    if i == 0 {
+        return false;
+    }
+    if b.get(i) == Some(&b'.') {
+        let j = digits(i + 1);
+        if j == i + 1 {
+            return false;
+        }
+        i = j;
+    }
+    if matches!(b.get(i), Some(b'e' | b'E')) {
+        i += 1;
+        if matches!(b.get(i), Some(b'-' | b'+')) {
+            i += 1;
+        }
+        let j = digits(i);
+        if j == i || j - i > 5 {
+            return false;
+        }
+        i = j;
+    }
+    i == b.len()
+}
+
 /// A number from a text cell: `Some` for a finite value, `None` for missing
 /// tokens, non-finite values or text that is not a number.
 pub fn parse_number(raw: &[u8]) -> Option<f64> {
@@ -632,6 +668,9 @@ struct Layout {
     /// validated, and whether each is kept.
     num_cols: Vec<(usize, usize)>,
     kept: Vec<bool>,
+    /// Columns whose values no rule and no caller reads (`index_only`):
+    /// each cell is only checked to be a number or missing.
+    checked: Vec<bool>,
     lc_col: Option<usize>,
     extra_cols: Vec<usize>,
 }
@@ -722,11 +761,17 @@ impl Layout {
             .enumerate()
             .filter_map(|(slot, f)| col(*f).map(|c| (slot, c)))
             .collect();
+        let kept: Vec<bool> = num_cols
+            .iter()
+            .map(|&(slot, _)| !index_only || NUMERIC[slot] == Field::DepthPpm)
+            .collect();
         Layout {
-            kept: num_cols
+            checked: num_cols
                 .iter()
-                .map(|&(slot, _)| !index_only || NUMERIC[slot] == Field::DepthPpm)
+                .zip(&kept)
+                .map(|(&(slot, _), &kept)| !kept && !REQUIRED.contains(&NUMERIC[slot]))
                 .collect(),
+            kept,
             num_cols,
             star_col: col(Field::Star).unwrap_or(0),
             cand_col: col(Field::Candidate).unwrap_or(0),
@@ -921,8 +966,11 @@ impl Layout {
         }
         let star = self.id_cell(rec, self.star_col, Field::Star, line)?;
         let cand = self.id_cell(rec, self.cand_col, Field::Candidate, line)?;
-        for &(slot, col) in &self.num_cols {
+        for (j, &(slot, col)) in self.num_cols.iter().enumerate() {
             let raw = rec.field(col);
+            if self.checked[j] && is_number(raw) {
+                continue; // its value is not kept
+            }
             scratch[slot] = match parse_cell(raw) {
                 Cell::Value(v) => v,
                 Cell::Missing => f64::NAN,
@@ -1522,6 +1570,29 @@ mod tests {
             if let Some(v) = fast_f64(s.as_bytes()) {
                 proptest::prop_assert_eq!(v.to_bits(), std.to_bits(), "{}", s);
             }
+        }
+    }
+
+    proptest::proptest! {
+        /// What `is_number` accepts, `parse_cell` reads as a value or as a
+        /// non-finite one (missing), never as text that is not a number.
+        #[test]
+        fn a_checked_number_is_one(cell in "[ ]?[-+]?[0-9]{0,4}[.]?[0-9]{0,3}([eE][-+]?[0-9]{0,6})?[ ]?|[ -~]{0,8}") {
+            if is_number(cell.as_bytes()) {
+                proptest::prop_assert!(!matches!(parse_cell(cell.as_bytes()), Cell::Bad), "{}", cell);
+            }
+        }
+    }
+
+    #[test]
+    fn numbers_are_told_from_text() {
+        for yes in ["1", "-2.5", " +3.25e-4 ", "1e400", "0.000123", "5038"] {
+            assert!(is_number(yes.as_bytes()), "{yes}");
+        }
+        for no in [
+            "", "nan", "1.", ".5", "1e", "1e123456", "3.5d", "--", "1,5", "0x10",
+        ] {
+            assert!(!is_number(no.as_bytes()), "{no}");
         }
     }
 
