@@ -346,6 +346,20 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             let _ = checks_tx.send((checks, errors));
         });
     }
+    // The orders no decision moves (by star id, by shortest period), sorted
+    // in the background too, so that the first such sort is not a wait.
+    let (orders_tx, orders_rx) = mpsc::channel();
+    {
+        let cat = Arc::clone(&app.cat);
+        std::thread::spawn(move || {
+            let orders: Vec<_> = [app::SortKey::Star, app::SortKey::Period]
+                .into_iter()
+                .flat_map(|k| [(k, false), (k, true)])
+                .filter_map(|(k, d)| Some(((k, d), app::static_order(&cat, k, d)?)))
+                .collect();
+            let _ = orders_tx.send(orders);
+        });
+    }
     let guard = Guard::enter(args.mouse)?;
     let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
     let mut effects = app.update(Input::Resize);
@@ -379,6 +393,9 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                     errors[0].1
                 ));
             }
+        }
+        if let Ok(orders) = orders_rx.try_recv() {
+            effects.extend(app.update(Input::Orders(orders)));
         }
         while let Ok((c, r)) = res_rx.try_recv() {
             effects.extend(app.update(Input::Signal(c, Box::new(r))));

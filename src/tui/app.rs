@@ -177,6 +177,9 @@ pub enum Input {
     Signal(CandidateId, Box<SignalResult>),
     /// The checks, run on a background thread at start-up.
     Checks(Box<Checks>),
+    /// Orders of the sorts no decision moves (`static_order`), computed on
+    /// a background thread at start-up: (sort, descending) and the stars.
+    Orders(Vec<((SortKey, bool), Vec<StarId>)>),
     Resize,
     /// A left click at a terminal cell (column, row), with `--mouse`.
     Click(u16, u16),
@@ -462,6 +465,9 @@ fn sort_keyed(
     }
 }
 
+/// Star orders the browser keeps sorted: one per (sort, direction).
+const ORDERS_KEPT: usize = 2 * SortKey::ALL.len();
+
 /// Buffers the sort reuses between calls.
 #[derive(Default)]
 struct Scratch {
@@ -476,6 +482,82 @@ fn prefix_key(s: &[u8]) -> u64 {
     let n = s.len().min(8);
     b[..n].copy_from_slice(&s[..n]);
     u64::from_be_bytes(b)
+}
+
+/// The length in bytes of the prefix every star id shares.
+fn id_common_of(cat: &Catalogue) -> usize {
+    let first = cat.star_id(0).as_bytes();
+    (1..cat.star_count() as StarId).fold(first.len(), |n, s| {
+        let id = cat.star_id(s).as_bytes();
+        first[..n]
+            .iter()
+            .zip(id)
+            .take_while(|(a, b)| a == b)
+            .count()
+    })
+}
+
+/// The sort key of a star for the sorts no decision moves: by id (its
+/// first eight bytes after the prefix all ids share; ties compare the ids)
+/// and by the shortest period of its candidates. `None` for the others.
+fn static_key(cat: &Catalogue, common: usize, sort: SortKey, s: StarId) -> Option<u64> {
+    Some(match sort {
+        SortKey::Star => prefix_key(&cat.star_id(s).as_bytes()[common..]),
+        SortKey::Period => {
+            let period = cat.column(Field::PeriodD).unwrap_or(&[]);
+            sortable_bits(
+                cat.members(s)
+                    .iter()
+                    .filter_map(|&c| period.get(c as usize).copied())
+                    .fold(f64::INFINITY, f64::min),
+            )
+        }
+        _ => return None,
+    })
+}
+
+/// Ties of the id sort: the ids (reversed when descending).
+fn id_tie(cat: &Catalogue, descending: bool, a: StarId, b: StarId) -> std::cmp::Ordering {
+    let by_id = cat.star_id(a).cmp(cat.star_id(b));
+    if descending { by_id.reverse() } else { by_id }
+}
+
+/// Bits of the key below which `sort_keyed` leaves the order to its run
+/// fix-up (floats: the low half).
+fn low_bits_of(sort: SortKey, odds_by_size: bool) -> u32 {
+    match sort {
+        SortKey::BestOdds if !odds_by_size => 32,
+        SortKey::Period => 32,
+        _ => 0,
+    }
+}
+
+/// Every star in the order of a sort no decision moves (`static_key`), as
+/// the browser's own sort gives it; `None` for the other sorts. The
+/// browser computes these on a thread at start-up (`Input::Orders`): on a
+/// million stars each takes some 40 ms, too long for a keystroke.
+pub fn static_order(cat: &Catalogue, sort: SortKey, descending: bool) -> Option<Vec<StarId>> {
+    let common = if sort == SortKey::Star {
+        id_common_of(cat)
+    } else {
+        0
+    };
+    let n = cat.star_count() as StarId;
+    let mut keys = (0..n)
+        .map(|s| static_key(cat, common, sort, s).map(|k| if descending { !k } else { k }))
+        .collect::<Option<Vec<u64>>>()?;
+    let mut stars: Vec<StarId> = (0..n).collect();
+    let tie = |a, b| id_tie(cat, descending, a, b);
+    let by_id: Option<&dyn Fn(StarId, StarId) -> std::cmp::Ordering> =
+        (sort == SortKey::Star).then_some(&tie);
+    sort_keyed(
+        &mut keys,
+        &mut stars,
+        &mut Scratch::default(),
+        low_bits_of(sort, false),
+        by_id,
+    );
+    Some(stars)
 }
 
 /// A decision as made and as undone.
@@ -761,7 +843,6 @@ impl App {
     /// `sort_bits` for any sort and direction (the cached orders'
     /// included).
     fn sort_bits_for(&self, sort: SortKey, descending: bool) -> impl Fn(StarId) -> u64 + '_ {
-        let period = self.cat.column(Field::PeriodD).unwrap_or(&[]);
         let common = match sort {
             SortKey::Star => self.id_common(),
             _ => 0,
@@ -780,14 +861,9 @@ impl App {
                 },
                 SortKey::Multiplicity => self.live.star_k(s) as u64,
                 SortKey::Flags => self.star_flags(s).len() as u64,
-                SortKey::Star => prefix_key(&self.cat.star_id(s).as_bytes()[common..]),
-                SortKey::Period => sortable_bits(
-                    self.cat
-                        .members(s)
-                        .iter()
-                        .filter_map(|&c| period.get(c as usize).copied())
-                        .fold(f64::INFINITY, f64::min),
-                ),
+                SortKey::Star | SortKey::Period => {
+                    static_key(&self.cat, common, sort, s).unwrap_or(0)
+                }
             };
             if descending { !k } else { k }
         }
@@ -795,17 +871,7 @@ impl App {
 
     /// The length in bytes of the prefix every star id shares.
     fn id_common(&self) -> usize {
-        *self.id_common.get_or_init(|| {
-            let first = self.cat.star_id(0).as_bytes();
-            (1..self.cat.star_count() as StarId).fold(first.len(), |n, s| {
-                let id = self.cat.star_id(s).as_bytes();
-                first[..n]
-                    .iter()
-                    .zip(id)
-                    .take_while(|(a, b)| a == b)
-                    .count()
-            })
-        })
+        *self.id_common.get_or_init(|| id_common_of(&self.cat))
     }
 
     /// For each system size 0..=k_max, the rank of its odds among all
@@ -826,11 +892,7 @@ impl App {
     }
 
     fn low_bits(&self) -> u32 {
-        match self.sort {
-            SortKey::BestOdds if self.live.uniform_odds(1).is_none() => 32,
-            SortKey::Period => 32,
-            _ => 0,
-        }
+        low_bits_of(self.sort, self.live.uniform_odds(1).is_some())
     }
 
     /// Ties of the sort: the ids for the id sort (reversed when
@@ -841,10 +903,7 @@ impl App {
 
     fn tie_for(&self, sort: SortKey, descending: bool, a: StarId, b: StarId) -> std::cmp::Ordering {
         match sort {
-            SortKey::Star => {
-                let by_id = self.cat.star_id(a).cmp(self.cat.star_id(b));
-                if descending { by_id.reverse() } else { by_id }
-            }
+            SortKey::Star => id_tie(&self.cat, descending, a, b),
             _ => a.cmp(&b),
         }
     }
@@ -1294,8 +1353,9 @@ impl App {
             self.buffers.shown = shown;
         }
         self.stars = stars;
-        // Least recently used first; six orders of a million stars are 24 MB.
-        if self.orders.len() >= 6 {
+        // Least recently used first. Room for every (sort, direction): ten
+        // orders of 730,000 stars are 29 MB.
+        if self.orders.len() >= ORDERS_KEPT {
             let gone = self.orders.remove(0);
             self.recycle(vec![gone]);
         }
@@ -1317,6 +1377,19 @@ impl App {
                 Vec::new()
             }
             Input::Resize => Vec::new(),
+            Input::Orders(orders) => {
+                for (at, order) in orders {
+                    // Cached as the least recently used, while there is room.
+                    let known = self.orders.iter().any(|(k, _)| *k == at);
+                    if !known
+                        && self.orders.len() < ORDERS_KEPT
+                        && order.len() == self.cat.star_count()
+                    {
+                        self.orders.insert(0, (at, order));
+                    }
+                }
+                Vec::new()
+            }
             Input::Checks(checks) => {
                 self.apply_checks(*checks);
                 Vec::new()

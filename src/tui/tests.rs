@@ -790,3 +790,30 @@ fn long_ledger_entries_wrap_and_the_newest_stays_in_view() {
     assert!(s.contains("END") && s.contains("secondary"), "{s}");
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn orders_sorted_in_the_background_are_the_browsers_own() {
+    use super::app::{SortKey, static_order};
+    let mut app = demo_app();
+    let mut sent = Vec::new();
+    for key in [SortKey::Star, SortKey::Period] {
+        for descending in [false, true] {
+            let order = static_order(&app.cat, key, descending).unwrap();
+            (app.sort, app.descending) = (key, descending);
+            app.refresh_view();
+            assert_eq!(app.stars, order, "{} descending {descending}", key.name());
+            sent.push(((key, descending), order));
+        }
+    }
+    assert!(static_order(&app.cat, SortKey::BestOdds, false).is_none());
+    // Delivered to a fresh browser, they are its orders, and survive a decision.
+    let mut fresh = demo_app();
+    fresh.update(Input::Orders(sent.clone()));
+    act(&mut fresh, Action::NextPane);
+    act(&mut fresh, Action::Park);
+    for ((key, descending), order) in sent {
+        (fresh.sort, fresh.descending) = (key, descending);
+        fresh.refresh_view();
+        assert_eq!(fresh.stars, order, "{} descending {descending}", key.name());
+    }
+}
