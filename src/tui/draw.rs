@@ -279,6 +279,18 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     app.hits.systems.set((rows_area(inner), a));
     // The fold sparkline only where the id, k, odds and some flags still fit.
     let with_fold = inner.width >= 40;
+    // The id column as wide as the ids shown (what is left beside k, odds,
+    // fold and four columns of flags, at most); a longer id keeps its end.
+    let k_w = (a..z)
+        .map(|i| app.cat.members(app.stars[i]).len().to_string().len())
+        .max()
+        .unwrap_or(1) as u16;
+    let rest = k_w + 1 + 8 + 1 + if with_fold { 9 } else { 0 } + 4 + 1;
+    let id_w = (a..z)
+        .map(|i| app.cat.star_id(app.stars[i]).chars().count() as u16)
+        .max()
+        .unwrap_or(4)
+        .clamp(4, inner.width.saturating_sub(rest).max(4));
     let rows: Vec<Row> = (a..z)
         .map(|i| {
             let s = app.stars[i];
@@ -301,7 +313,7 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
                         .total_cmp(&app.live.odds(y).unwrap_or(0.0))
                 });
             let mut cells = vec![
-                Cell::from(clean(app.cat.star_id(s)).into_owned()),
+                Cell::from(fit_id(&clean(app.cat.star_id(s)), id_w, look)),
                 Cell::from(k.to_string()),
                 Cell::from(app.best_odds(s).map_or("-".into(), format_odds)),
             ];
@@ -322,8 +334,8 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let (widths, header) = if with_fold {
         (
             vec![
-                Constraint::Length(9),
-                Constraint::Length(1),
+                Constraint::Length(id_w),
+                Constraint::Length(k_w),
                 Constraint::Length(8),
                 Constraint::Length(8),
                 Constraint::Min(4),
@@ -333,8 +345,8 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     } else {
         (
             vec![
-                Constraint::Length(9),
-                Constraint::Length(1),
+                Constraint::Length(id_w),
+                Constraint::Length(k_w),
                 Constraint::Length(8),
                 Constraint::Min(4),
             ],
@@ -345,6 +357,18 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
         .column_spacing(1)
         .header(Row::new(header).style(Style::default().add_modifier(Modifier::BOLD)));
     frame.render_widget(table, inner);
+}
+
+/// An id in at most `width` columns: whole when it fits, else its end after
+/// an ellipsis (ids of one survey share their beginnings).
+fn fit_id(id: &str, width: u16, look: Look) -> String {
+    let n = id.chars().count();
+    let width = width as usize;
+    if n <= width || width < 2 {
+        return id.to_string();
+    }
+    let tail: String = id.chars().skip(n - (width - 1)).collect();
+    format!("{}{tail}", if look.ascii { "~" } else { "…" })
 }
 
 fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
@@ -379,12 +403,22 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
         ("SNR", 5, 3),
         ("boost", 6, 3),
     ];
+    // The id column as wide as the members' ids (6 to 24), keeping their
+    // ends when the pane is narrow: siblings differ at the end.
+    let id_w = members
+        .iter()
+        .map(|&c| app.cat.candidate_id(c).chars().count() as u16)
+        .max()
+        .unwrap_or(6)
+        .clamp(6, 24)
+        .min(inner.width.saturating_sub(8 + 1 + 9 + 1).max(6));
+    let width = |i: usize| if i == 0 { id_w } else { COLS[i].1 };
     let mut used = 0u16;
     let mut shown: Vec<usize> = Vec::new();
     for level in 0..4u8 {
         for (i, col) in COLS.iter().enumerate() {
-            if col.2 == level && used + col.1 < inner.width {
-                used += col.1 + 1;
+            if col.2 == level && used + width(i) < inner.width {
+                used += width(i) + 1;
                 shown.push(i);
             }
         }
@@ -407,7 +441,7 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             }
             let cell = |k: usize| -> Cell {
                 match k {
-                    0 => Cell::from(clean(app.cat.candidate_id(c)).into_owned()),
+                    0 => Cell::from(fit_id(&clean(app.cat.candidate_id(c)), id_w, look)),
                     1 => Cell::from(app.live.odds(c).map_or("-".into(), format_odds)),
                     2 => Cell::from(Span::styled(verdict.name(), verdict_style(look, verdict))),
                     3 => Cell::from(num(v(Field::PeriodD, c), 5)),
@@ -438,7 +472,7 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
         .collect();
     let widths: Vec<Constraint> = shown
         .iter()
-        .map(|&k| Constraint::Length(COLS[k].1))
+        .map(|&k| Constraint::Length(width(k)))
         .collect();
     let header: Vec<&str> = shown.iter().map(|&k| COLS[k].0).collect();
     frame.render_widget(
@@ -958,4 +992,31 @@ fn draw_reasons(frame: &mut Frame, area: Rect, selected: usize, note: &str, look
         ),
         r,
     );
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn long_ids_keep_their_ends() {
+        let (utf8, ascii) = (
+            Look {
+                palette: Palette::None,
+                ascii: false,
+            },
+            Look {
+                palette: Palette::None,
+                ascii: true,
+            },
+        );
+        assert_eq!(fit_id("HWT52057-s2", 11, utf8), "HWT52057-s2");
+        assert_eq!(fit_id("HWT52057-s2", 8, utf8), "…2057-s2");
+        assert_eq!(fit_id("HWT52057-s2", 6, ascii), "~57-s2");
+        assert_eq!(
+            fit_id("ab", 1, ascii),
+            "ab",
+            "too narrow to say anything better"
+        );
+    }
 }
