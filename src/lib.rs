@@ -12,7 +12,8 @@
 //! - [`output`]: tables, CSV and JSON for people and scripts.
 //! - [`checks`], [`lightcurve`], [`transit_model`]: vetting diagnostics.
 //! - [`ledger`]: the durable SQLite record of decisions.
-//! - [`query`]: the filter syntax.
+//! - [`query`]: the filter syntax; [`selection`]: what a filter selects
+//!   (candidates as the filter sees them, shared by the browser and `--where`).
 //! - [`tui`]: the terminal browser, a thin shell over the core.
 //! - [`cli`] and [`cmd`]: the command line; one file per command.
 //!
@@ -33,6 +34,7 @@ pub mod output;
 pub mod query;
 pub mod sanitize;
 pub mod science;
+pub mod selection;
 pub mod survey;
 pub mod transit_model;
 pub mod tui;

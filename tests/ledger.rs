@@ -70,6 +70,22 @@ fn export_rows(cat: &Path, extra: &[&str]) -> Vec<csv::StringRecord> {
     rows
 }
 
+/// `starsift decide`: candidate `id` rejected as an eclipsing binary.
+fn reject_as_binary(cat: &Path, id: &str, extra: &[&str]) -> std::process::Output {
+    let mut args = vec![
+        "decide",
+        s(cat),
+        "--candidate",
+        id,
+        "--decision",
+        "rejected",
+        "--reason",
+        "eclipsing-binary",
+    ];
+    args.extend_from_slice(extra);
+    starsift(&args)
+}
+
 fn column(rows: &[csv::StringRecord], id: &str, col: &str) -> String {
     let i = rows[0].iter().position(|h| h == col).unwrap();
     rows.iter().find(|r| &r[1] == id).unwrap()[i].to_string()
@@ -82,18 +98,7 @@ fn rejecting_one_of_three_gives_the_siblings_two_candidate_odds() {
     let two = system_of(2);
     let before = export_rows(&cat, &[]);
     let odds3 = column(&before, &three[1], "odds");
-    let o = starsift(&[
-        "decide",
-        s(&cat),
-        "--candidate",
-        &three[0],
-        "--decision",
-        "rejected",
-        "--reason",
-        "eclipsing-binary",
-        "--vetter",
-        "ann",
-    ]);
+    let o = reject_as_binary(&cat, &three[0], &["--vetter", "ann"]);
     assert!(o.status.success(), "{}", stderr(&o));
     assert!(stdout(&o).contains("recorded #1"), "{}", stdout(&o));
     let after = export_rows(&cat, &[]);
@@ -404,4 +409,45 @@ fn a_changed_catalogue_is_noticed_and_gone_candidates_listed() {
     );
     // The decision is still there, matched by id.
     assert!(stdout(&o).contains(gone.as_str()));
+}
+
+#[test]
+fn export_where_keeps_the_matching_rows_and_the_whole_catalogues_odds() {
+    let (_, cat) = demo_copy("where");
+    let three = system_of(3);
+    let o = reject_as_binary(&cat, &three[0], &[]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let all = export_rows(&cat, &[]);
+    let rejected = export_rows(&cat, &["--where", "decision:rejected"]);
+    assert_eq!(rejected.len(), 2, "a header and the one rejected row");
+    assert_eq!(&rejected[1][1], three[0].as_str());
+    // The rows kept carry the odds of the whole catalogue's model.
+    let twos = export_rows(&cat, &["--where", "k=2 decision:open"]);
+    assert!(twos.len() > 2);
+    for r in &twos[1..] {
+        assert_eq!(column(&twos, &r[1], "k"), "2");
+        assert_eq!(column(&twos, &r[1], "odds"), column(&all, &r[1], "odds"));
+    }
+    assert!(
+        twos.iter().any(|r| &r[1] == three[1].as_str()),
+        "a sibling of the rejected one"
+    );
+    let o = starsift(&["export", s(&cat), "--where", "k=2", "--format", "json"]);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["filter"], "k=2");
+    assert!(
+        v["candidates"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .all(|c| c["k"] == 2)
+    );
+    // A filter that does not parse stops with its position, exit 2.
+    let o = starsift(&["export", s(&cat), "--where", "k=2 peroid<3"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(
+        stderr(&o).contains("at column 5: `peroid` is not a field"),
+        "{}",
+        stderr(&o)
+    );
 }

@@ -3,6 +3,7 @@
 //! the ledger's decisions (rejected candidates leave their systems), the
 //! decision with its reason, vetter and time, and the flags.
 
+use std::collections::HashSet;
 use std::io::Write;
 use std::path::PathBuf;
 
@@ -14,7 +15,9 @@ use crate::cli::{CliError, Loaded, VettingArgs};
 use crate::ledger::Entry;
 use crate::odds::{Live, model_statement};
 use crate::output::{csv_writer, exact_in, write_json};
+use crate::query::Filter;
 use crate::sanitize::clean;
+use crate::selection::{Selection, needs_radii, planet_radii};
 
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
@@ -26,6 +29,11 @@ pub struct Args {
     /// Write to this file (atomically) instead of standard output.
     #[arg(short = 'o', long = "output", value_name = "FILE")]
     pub output: Option<PathBuf>,
+    /// Only the candidates this filter matches (the browser's syntax, e.g.
+    /// "verdict:validated !flag:echo"); the odds are still those of the
+    /// whole catalogue.
+    #[arg(long = "where", value_name = "FILTER")]
+    pub filter: Option<String>,
 }
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
@@ -99,22 +107,61 @@ pub fn write_atomically(path: &std::path::Path, bytes: &[u8]) -> Result<(), CliE
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
+    let filter = parse_where(args.filter.as_deref())?;
     let v = vetted(&args.vetting)?;
+    let rows = v.selected(filter.as_ref());
     let mut buf: Vec<u8> = Vec::new();
     let sink: &mut dyn Write = if args.output.is_some() { &mut buf } else { out };
     match args.format {
-        ExportFormat::Csv => write_csv(&v, sink)?,
-        ExportFormat::Json => write_json(sink, &to_json(&v))?,
+        ExportFormat::Csv => write_csv(&v, &rows, filter.as_ref(), sink)?,
+        ExportFormat::Json => write_json(sink, &to_json(&v, &rows, filter.as_ref()))?,
     }
     if let Some(path) = &args.output {
         write_atomically(path, &buf)?;
         eprintln!(
             "starsift: wrote {} candidates to {}",
-            v.loaded.catalogue.len(),
+            rows.len(),
             clean(&path.display().to_string())
         );
     }
     Ok(())
+}
+
+/// `--where FILTER`, parsed; a filter that does not parse says where.
+pub fn parse_where(text: Option<&str>) -> Result<Option<Filter>, CliError> {
+    text.map(|t| {
+        Filter::parse(t).map_err(|e| CliError::Input(format!("--where {}: {e}", clean(t))))
+    })
+    .transpose()
+}
+
+impl Vetted {
+    /// The candidates a filter matches (all without one), in file order.
+    pub fn selected(&self, filter: Option<&Filter>) -> Vec<CandidateId> {
+        let cat = &self.loaded.catalogue;
+        let all = 0..cat.len() as CandidateId;
+        let Some(filter) = filter else {
+            return all.collect();
+        };
+        let disagree: HashSet<CandidateId> = self
+            .disagreements
+            .keys()
+            .filter_map(|id| cat.find_candidate(id))
+            .collect();
+        let radii = if needs_radii(filter) {
+            planet_radii(cat)
+        } else {
+            Vec::new()
+        };
+        let selection = Selection {
+            cat,
+            live: &self.live,
+            checks: &self.checks,
+            radii: &radii,
+            disagree: &disagree,
+        };
+        all.filter(|&c| selection.selects(filter, c)).collect()
+    }
 }
 
 const VETTING_COLUMNS: [&str; 12] = [
@@ -140,7 +187,12 @@ fn input_numeric(v: &Vetted) -> Vec<Field> {
         .collect()
 }
 
-fn write_csv(v: &Vetted, out: &mut dyn Write) -> Result<(), CliError> {
+fn write_csv(
+    v: &Vetted,
+    rows: &[CandidateId],
+    filter: Option<&Filter>,
+    out: &mut dyn Write,
+) -> Result<(), CliError> {
     let cat = &v.loaded.catalogue;
     let m = v.live.model();
     writeln!(
@@ -157,6 +209,15 @@ fn write_csv(v: &Vetted, out: &mut dyn Write) -> Result<(), CliError> {
         m.mode.describe()
     )?;
     writeln!(out, "# {}", model_statement(m))?;
+    if let Some(f) = filter {
+        writeln!(
+            out,
+            "# only the {} of {} candidates matching: {}",
+            rows.len(),
+            cat.len(),
+            clean(&f.text)
+        )?;
+    }
     let numeric = input_numeric(v);
     let extras: Vec<String> = cat.extra_headers().map(|h| clean(h).into_owned()).collect();
     let mut w = csv_writer(out);
@@ -169,7 +230,7 @@ fn write_csv(v: &Vetted, out: &mut dyn Write) -> Result<(), CliError> {
     header.extend(VETTING_COLUMNS.iter().map(|s| s.to_string()));
     w.write_record(&header)?;
     let mut b = ryu::Buffer::new();
-    for c in 0..cat.len() as CandidateId {
+    for &c in rows {
         w.write_field(clean(cat.star_id(cat.star_of(c))).as_bytes())?;
         w.write_field(clean(cat.candidate_id(c)).as_bytes())?;
         for f in &numeric {
@@ -200,12 +261,13 @@ fn write_csv(v: &Vetted, out: &mut dyn Write) -> Result<(), CliError> {
     Ok(())
 }
 
-fn to_json(v: &Vetted) -> Value {
+fn to_json(v: &Vetted, selected: &[CandidateId], filter: Option<&Filter>) -> Value {
     let cat = &v.loaded.catalogue;
     let numeric = input_numeric(v);
     let f = |x: Option<f64>| x.map_or(Value::Null, |y| json!(y));
-    let rows: Vec<Value> = (0..cat.len() as CandidateId)
-        .map(|c| {
+    let rows: Vec<Value> = selected
+        .iter()
+        .map(|&c| {
             let mut o = Map::new();
             o.insert("star".into(), json!(clean(cat.star_id(cat.star_of(c)))));
             o.insert("candidate".into(), json!(clean(cat.candidate_id(c))));
@@ -269,6 +331,7 @@ fn to_json(v: &Vetted) -> Value {
             "targets_searched": m.targets, "fp_fraction_singles": m.fp_fraction,
             "boost_mode": m.mode.describe(), "threshold": m.threshold, "statement": model_statement(m),
         },
+        "filter": filter.map(|f| clean(&f.text).into_owned()),
         "candidates": rows,
     })
 }

@@ -9,12 +9,13 @@ use fuzzy_matcher::skim::SkimMatcherV2;
 
 use crate::catalogue::{CandidateId, Catalogue, Field, StarId};
 use crate::checks::Checks;
-use crate::decision::{ALL_REASONS, Decision, Reason};
-use crate::flags::{Flag, FlagSet};
+use crate::decision::{ALL_REASONS, Decision};
+use crate::flags::FlagSet;
 use crate::ledger::{Ledger, NewDecision};
 use crate::lightcurve::analysis::Diagnostics;
-use crate::odds::{Live, Verdict};
-use crate::query::{Clause, Filter, NumField, ParseError, Subject, compare_bits};
+use crate::odds::Live;
+use crate::query::{Clause, Filter, NumField, ParseError};
+use crate::selection::{Selection, column_field};
 
 /// Everything a person can do.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
@@ -644,116 +645,6 @@ struct SortBuffers {
     spare: Vec<Vec<StarId>>,
 }
 
-/// What the filter reads, borrowed from the App; `Sync`, so a filter can
-/// run on several threads.
-struct Shared<'a> {
-    cat: &'a Catalogue,
-    live: &'a Live,
-    checks: &'a Checks,
-    radii: &'a [f64],
-    disagree: &'a HashSet<CandidateId>,
-}
-
-impl Shared<'_> {
-    /// Which of the candidates `cands` (at most 64; bit i for the i-th) the
-    /// clause holds for, among those set in `live`. Catalogue columns are
-    /// compared 64 values at a time; other clauses read one candidate
-    /// after another.
-    fn clause_bits(&self, clause: &Clause, cands: std::ops::Range<usize>, live: u64) -> u64 {
-        if let Clause::Compare(f, op, v) = *clause {
-            if f == NumField::Radius {
-                return (self.radii.get(cands)).map_or(0, |r| compare_bits(r, op, v, true));
-            }
-            if let Some(field) = column_field(f) {
-                return self
-                    .cat
-                    .column(field)
-                    .map_or(0, |col| compare_bits(&col[cands], op, v, false));
-            }
-        }
-        let mut out = 0;
-        let mut rest = live;
-        while rest != 0 {
-            let i = rest.trailing_zeros();
-            let c = (cands.start + i as usize) as CandidateId;
-            let row = Row {
-                app: self,
-                c,
-                star: self.cat.star_of(c),
-            };
-            out |= (clause.holds(&row) as u64) << i;
-            rest &= rest - 1;
-        }
-        out
-    }
-}
-
-/// The catalogue column a numeric filter field reads, if it is one.
-fn column_field(f: NumField) -> Option<Field> {
-    Some(match f {
-        NumField::Period => Field::PeriodD,
-        NumField::Depth => Field::DepthPpm,
-        NumField::Duration => Field::DurationH,
-        NumField::Snr => Field::Snr,
-        NumField::Mag => Field::Mag,
-        NumField::Teff => Field::StarTeffK,
-        NumField::Impact => Field::Impact,
-        _ => return None,
-    })
-}
-
-/// One candidate as the filter sees it, with its star (known to the caller:
-/// one random read fewer per candidate).
-struct Row<'a> {
-    app: &'a Shared<'a>,
-    c: CandidateId,
-    star: StarId,
-}
-
-impl Subject for Row<'_> {
-    fn number(&self, f: NumField) -> Option<f64> {
-        let (a, c) = (self.app, self.c);
-        if let Some(field) = column_field(f) {
-            return a.cat.value(field, c);
-        }
-        match f {
-            NumField::Odds => a.live.odds(c),
-            NumField::Probability => a.live.probability(c),
-            NumField::Radius => a.radii.get(c as usize).copied().filter(|r| r.is_finite()),
-            NumField::K => Some(if a.live.decision(c).is_rejected() {
-                0.0
-            } else {
-                a.live.star_k(self.star) as f64
-            }),
-            NumField::Boost => a.live.boost(c),
-            NumField::Prior => Some(a.live.prior(c)),
-            // The catalogue columns, read above.
-            _ => None,
-        }
-    }
-    fn has_flag(&self, f: Flag) -> bool {
-        self.app.checks.flags(self.c).contains(f) || self.app.checks.warnings(self.c).contains(f)
-    }
-    fn decision(&self) -> &'static str {
-        self.app.live.decision(self.c).name()
-    }
-    fn reason(&self) -> Option<Reason> {
-        self.app.live.decision(self.c).reason()
-    }
-    fn verdict(&self) -> Verdict {
-        self.app.live.verdict(self.c)
-    }
-    fn star(&self) -> &str {
-        self.app.cat.star_id(self.star)
-    }
-    fn id(&self) -> &str {
-        self.app.cat.candidate_id(self.c)
-    }
-    fn disagreed(&self) -> bool {
-        self.app.disagree.contains(&self.c)
-    }
-}
-
 impl App {
     pub fn new(
         cat: std::sync::Arc<Catalogue>,
@@ -819,16 +710,8 @@ impl App {
     }
 
     fn radii(&self) -> &[f64] {
-        self.radius.get_or_init(|| {
-            let settings = crate::checks::CheckSettings::default();
-            (0..self.cat.len() as CandidateId)
-                .map(|c| {
-                    crate::checks::derive(&self.cat, c, &settings)
-                        .radius_rearth
-                        .unwrap_or(f64::NAN)
-                })
-                .collect()
-        })
+        self.radius
+            .get_or_init(|| crate::selection::planet_radii(&self.cat))
     }
 
     /// The sort key of stars as an integer whose order is the key's
@@ -1096,17 +979,16 @@ impl App {
 
     /// The filter's view of the App; planet radii are computed first
     /// when the filter asks for them.
-    fn shared(&self) -> Shared<'_> {
-        let radius = self
-            .filter
-            .clauses
-            .iter()
-            .any(|c| matches!(c, crate::query::Clause::Compare(NumField::Radius, ..)));
-        Shared {
+    fn shared(&self) -> Selection<'_> {
+        Selection {
             cat: &self.cat,
             live: &self.live,
             checks: &self.checks,
-            radii: if radius { self.radii() } else { &[] },
+            radii: if crate::selection::needs_radii(&self.filter) {
+                self.radii()
+            } else {
+                &[]
+            },
             disagree: &self.disagree,
         }
     }
@@ -1865,14 +1747,7 @@ impl App {
     pub fn bulk_targets(&self, d: Decision) -> Vec<CandidateId> {
         let shared = self.shared();
         (0..self.cat.len() as CandidateId)
-            .filter(|&c| {
-                self.live.decision(c) != d
-                    && self.filter.matches(&Row {
-                        app: &shared,
-                        c,
-                        star: self.cat.star_of(c),
-                    })
-            })
+            .filter(|&c| self.live.decision(c) != d && shared.selects(&self.filter, c))
             .collect()
     }
 
