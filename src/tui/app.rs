@@ -487,6 +487,9 @@ fn prefix_key(s: &[u8]) -> u64 {
 
 /// The length in bytes of the prefix every star id shares.
 fn id_common_of(cat: &Catalogue) -> usize {
+    if cat.star_count() == 0 {
+        return 0;
+    }
     let first = cat.star_id(0).as_bytes();
     (1..cat.star_count() as StarId).fold(first.len(), |n, s| {
         let id = cat.star_id(s).as_bytes();

@@ -817,3 +817,20 @@ fn orders_sorted_in_the_background_are_the_browsers_own() {
         assert_eq!(fresh.stars, order, "{} descending {descending}", key.name());
     }
 }
+
+#[test]
+fn a_catalogue_whose_rows_were_all_skipped_sorts_and_filters_without_panic() {
+    use super::app::{SortKey, static_order};
+    let cat = crate::catalogue::Catalogue::load(
+        crate::catalogue::Source::Bytes {
+            name: "all-bad.csv",
+            data: b"star,candidate,period,epoch,depth,duration\nZZ1,ZZ1-a,-1,1,100,2\n",
+        },
+        &Default::default(),
+    )
+    .unwrap();
+    assert_eq!((cat.len(), cat.star_count(), cat.skipped.len()), (0, 0, 1));
+    for key in [SortKey::Star, SortKey::Period] {
+        assert_eq!(static_order(&cat, key, false), Some(Vec::new()));
+    }
+}
