@@ -147,12 +147,26 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
         ledger_args.vetter(),
         keymap,
     );
+    app.message = skipped_message(&app.cat);
     if let Some(f) = &args.filter {
         app.filter = crate::query::Filter::parse(f)
             .map_err(|e| CliError::Input(format!("--where {}: {e}", crate::sanitize::clean(f))))?;
         app.refresh_view();
     }
     Ok((app, finder))
+}
+
+/// Rows that did not load, said as the browser opens: how many, and the
+/// first with its line and reason.
+fn skipped_message(cat: &crate::catalogue::Catalogue) -> Option<String> {
+    let first = cat.skipped.first()?;
+    let n = cat.skipped.len();
+    Some(format!(
+        "{n} row{} skipped; first: line {} ({}); `starsift summary` lists them all",
+        if n == 1 { "" } else { "s" },
+        first.line,
+        first.reason
+    ))
 }
 
 /// `$XDG_STATE_HOME/starsift/positions.json` (else `~/.local/state/...`):

@@ -822,7 +822,7 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let text = match &app.message {
         Some(msg) => clean(msg).into_owned(),
         None => format!(
-            "{}{} validated {} likely {} unlikely {} rejected · N={} f={} · filter [{}] · {} · disagree {} · {}",
+            "{}{} validated {} likely {} unlikely {} rejected{} · N={} f={} · filter [{}] · {} · disagree {} · {}",
             if app.checks_pending {
                 "checks running… · "
             } else {
@@ -832,6 +832,10 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             c.likely,
             c.unlikely,
             c.rejected,
+            match app.cat.skipped.len() {
+                0 => String::new(),
+                n => format!(" · {n} rows skipped"),
+            },
             m.targets.map_or("?".into(), |n| n.to_string()),
             m.fp_fraction,
             clean(&app.filter.text),

@@ -834,3 +834,27 @@ fn a_catalogue_whose_rows_were_all_skipped_sorts_and_filters_without_panic() {
         assert_eq!(static_order(&cat, key, false), Some(Vec::new()));
     }
 }
+
+#[test]
+fn skipped_rows_are_said_as_the_browser_opens() {
+    let cat = crate::catalogue::Catalogue::load(
+        crate::catalogue::Source::Bytes {
+            name: "some-bad.csv",
+            data: b"star,candidate,period,epoch,depth,duration\nZZ1,ZZ1-a,-1,1,100,2\nZZ2,ZZ2-a,3,1,100,2\nZZ3,ZZ3-a,3,1,0,2\n",
+        },
+        &Default::default(),
+    )
+    .unwrap();
+    let msg = super::skipped_message(&cat).unwrap();
+    assert!(
+        msg.starts_with("2 rows skipped; first: line 2 (period_d: must be > 0"),
+        "{msg}"
+    );
+    assert!(super::skipped_message(&crate::demo::catalogue().unwrap()).is_none());
+    let mut app = app_of(cat, 1000, None);
+    app.message = None;
+    assert!(
+        screen(&app, 120, 30).contains("2 rows skipped"),
+        "the status line says it too"
+    );
+}
