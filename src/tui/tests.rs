@@ -818,17 +818,22 @@ fn orders_sorted_in_the_background_are_the_browsers_own() {
     }
 }
 
+/// A catalogue from bytes (invented rows), default options.
+fn catalogue_of(name: &str, data: &[u8]) -> crate::catalogue::Catalogue {
+    crate::catalogue::Catalogue::load(
+        crate::catalogue::Source::Bytes { name, data },
+        &Default::default(),
+    )
+    .unwrap()
+}
+
 #[test]
 fn a_catalogue_whose_rows_were_all_skipped_sorts_and_filters_without_panic() {
     use super::app::{SortKey, static_order};
-    let cat = crate::catalogue::Catalogue::load(
-        crate::catalogue::Source::Bytes {
-            name: "all-bad.csv",
-            data: b"star,candidate,period,epoch,depth,duration\nZZ1,ZZ1-a,-1,1,100,2\n",
-        },
-        &Default::default(),
-    )
-    .unwrap();
+    let cat = catalogue_of(
+        "all-bad.csv",
+        b"star,candidate,period,epoch,depth,duration\nZZ1,ZZ1-a,-1,1,100,2\n",
+    );
     assert_eq!((cat.len(), cat.star_count(), cat.skipped.len()), (0, 0, 1));
     for key in [SortKey::Star, SortKey::Period] {
         assert_eq!(static_order(&cat, key, false), Some(Vec::new()));
@@ -837,14 +842,10 @@ fn a_catalogue_whose_rows_were_all_skipped_sorts_and_filters_without_panic() {
 
 #[test]
 fn skipped_rows_are_said_as_the_browser_opens() {
-    let cat = crate::catalogue::Catalogue::load(
-        crate::catalogue::Source::Bytes {
-            name: "some-bad.csv",
-            data: b"star,candidate,period,epoch,depth,duration\nZZ1,ZZ1-a,-1,1,100,2\nZZ2,ZZ2-a,3,1,100,2\nZZ3,ZZ3-a,3,1,0,2\n",
-        },
-        &Default::default(),
-    )
-    .unwrap();
+    let cat = catalogue_of(
+        "some-bad.csv",
+        b"star,candidate,period,epoch,depth,duration\nZZ1,ZZ1-a,-1,1,100,2\nZZ2,ZZ2-a,3,1,100,2\nZZ3,ZZ3-a,3,1,0,2\n",
+    );
     let msg = super::skipped_message(&cat).unwrap();
     assert!(
         msg.starts_with("2 rows skipped; first: line 2 (period_d: must be > 0"),
