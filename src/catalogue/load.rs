@@ -470,7 +470,7 @@ impl Record for ByteRecord {
 struct SplitRecord<'a> {
     line: &'a [u8],
     /// (start, end) of each field in `line` (the whole chunk).
-    bounds: Vec<(usize, usize)>,
+    bounds: Vec<(u32, u32)>,
 }
 
 impl Record for SplitRecord<'_> {
@@ -479,7 +479,9 @@ impl Record for SplitRecord<'_> {
     }
 
     fn field(&self, i: usize) -> &[u8] {
-        self.bounds.get(i).map_or(&[], |&(a, b)| &self.line[a..b])
+        self.bounds
+            .get(i)
+            .map_or(&[], |&(a, b)| &self.line[a as usize..b as usize])
     }
 }
 
@@ -825,7 +827,9 @@ impl Layout {
             },
         };
         let mut scratch = vec![f64::NAN; NUMERIC.len()];
-        if plain_text(&chunk.bytes) {
+        // Field bounds are u32 (chunks are a few MB; a longer one takes the
+        // general path).
+        if chunk.bytes.len() <= u32::MAX as usize && plain_text(&chunk.bytes) {
             // No quotes and no bare CR: every line is a record and every
             // delimiter ends a field, so one scan, eight bytes at a time,
             // finds every delimiter and line end of the chunk.
@@ -838,7 +842,7 @@ impl Layout {
             let ends = Hits2::new(bytes, self.delimiter, b'\n').chain(std::iter::once(bytes.len()));
             for i in ends {
                 if i < bytes.len() && bytes[i] == self.delimiter {
-                    rec.bounds.push((start, i));
+                    rec.bounds.push((start as u32, i as u32));
                     start = i + 1;
                     continue;
                 }
@@ -850,7 +854,7 @@ impl Layout {
                 } else {
                     i
                 };
-                rec.bounds.push((start, end.max(start)));
+                rec.bounds.push((start as u32, end.max(start) as u32));
                 let text = &bytes[line_start..end.max(line_start)];
                 if !(text.starts_with(b"#") || text.iter().all(u8::is_ascii_whitespace)) {
                     self.add(&mut part, &rec, line, &mut scratch, hasher);
