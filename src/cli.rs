@@ -335,6 +335,15 @@ impl LightcurveArgs {
     }
 }
 
+/// `--where FILTER`, parsed; a filter that does not parse says where.
+pub fn parse_where(text: Option<&str>) -> Result<Option<crate::query::Filter>, CliError> {
+    text.map(|t| {
+        crate::query::Filter::parse(t)
+            .map_err(|e| CliError::Input(format!("--where {}: {e}", crate::sanitize::clean(t))))
+    })
+    .transpose()
+}
+
 impl CatalogueArgs {
     pub fn options(&self) -> Result<LoadOptions, CliError> {
         let columns = match &self.columns {

@@ -65,6 +65,18 @@ impl Selection<'_> {
     }
 }
 
+/// The candidates of the catalogue among the ledger's disagreements (by
+/// candidate id; ids the catalogue lacks are left out).
+pub fn disagreeing<V>(
+    cat: &Catalogue,
+    disagreements: &std::collections::BTreeMap<String, V>,
+) -> HashSet<CandidateId> {
+    disagreements
+        .keys()
+        .filter_map(|id| cat.find_candidate(id))
+        .collect()
+}
+
 /// Whether a filter compares planet radii (which `planet_radii` computes).
 pub fn needs_radii(filter: &Filter) -> bool {
     filter

@@ -148,9 +148,8 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
         keymap,
     );
     app.message = skipped_message(&app.cat);
-    if let Some(f) = &args.filter {
-        app.filter = crate::query::Filter::parse(f)
-            .map_err(|e| CliError::Input(format!("--where {}: {e}", crate::sanitize::clean(f))))?;
+    if let Some(f) = crate::cli::parse_where(args.filter.as_deref())? {
+        app.filter = f;
         app.refresh_view();
     }
     Ok((app, finder))

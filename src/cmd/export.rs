@@ -3,7 +3,6 @@
 //! the ledger's decisions (rejected candidates leave their systems), the
 //! decision with its reason, vetter and time, and the flags.
 
-use std::collections::HashSet;
 use std::io::Write;
 use std::path::PathBuf;
 
@@ -17,7 +16,7 @@ use crate::odds::{Live, model_statement};
 use crate::output::{csv_writer, exact_in, write_json};
 use crate::query::Filter;
 use crate::sanitize::clean;
-use crate::selection::{Selection, needs_radii, planet_radii};
+use crate::selection::{Selection, disagreeing, needs_radii, planet_radii};
 
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
@@ -107,7 +106,7 @@ pub fn write_atomically(path: &std::path::Path, bytes: &[u8]) -> Result<(), CliE
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    let filter = parse_where(args.filter.as_deref())?;
+    let filter = crate::cli::parse_where(args.filter.as_deref())?;
     let v = vetted(&args.vetting)?;
     let rows = v.selected(filter.as_ref());
     let mut buf: Vec<u8> = Vec::new();
@@ -127,14 +126,6 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     Ok(())
 }
 
-/// `--where FILTER`, parsed; a filter that does not parse says where.
-pub fn parse_where(text: Option<&str>) -> Result<Option<Filter>, CliError> {
-    text.map(|t| {
-        Filter::parse(t).map_err(|e| CliError::Input(format!("--where {}: {e}", clean(t))))
-    })
-    .transpose()
-}
-
 impl Vetted {
     /// The candidates a filter matches (all without one), in file order.
     pub fn selected(&self, filter: Option<&Filter>) -> Vec<CandidateId> {
@@ -143,11 +134,7 @@ impl Vetted {
         let Some(filter) = filter else {
             return all.collect();
         };
-        let disagree: HashSet<CandidateId> = self
-            .disagreements
-            .keys()
-            .filter_map(|id| cat.find_candidate(id))
-            .collect();
+        let disagree = disagreeing(cat, &self.disagreements);
         let radii = if needs_radii(filter) {
             planet_radii(cat)
         } else {

@@ -665,7 +665,7 @@ impl App {
         let disagree = ledger
             .as_ref()
             .and_then(|l| l.disagreements().ok())
-            .map(|d| d.keys().filter_map(|id| cat.find_candidate(id)).collect())
+            .map(|d| crate::selection::disagreeing(&cat, &d))
             .unwrap_or_default();
         let mut app = App {
             cat,

@@ -58,6 +58,12 @@ fn demo_app_with_ledger(tag: &str) -> (std::path::PathBuf, App) {
     (dir, demo_app_with(Some(ledger)))
 }
 
+/// The ledger's history of candidate `c`, oldest first.
+fn ledger_history(app: &App, c: crate::catalogue::CandidateId) -> Vec<crate::ledger::Entry> {
+    let ledger = app.ledger.as_ref().expect("a browser with a ledger");
+    ledger.history(Some(app.cat.candidate_id(c))).unwrap()
+}
+
 fn act(app: &mut App, a: Action) {
     app.update(Input::Action(a));
 }
@@ -224,12 +230,7 @@ fn decisions_go_to_the_ledger_first_and_show_in_its_pane() {
     act(&mut app, Action::Park);
     assert_eq!(app.ledger.as_ref().unwrap().len().unwrap(), 1);
     act(&mut app, Action::Undo);
-    let h = app
-        .ledger
-        .as_ref()
-        .unwrap()
-        .history(Some(app.cat.candidate_id(c)))
-        .unwrap();
+    let h = ledger_history(&app, c);
     assert_eq!(h.len(), 2, "undo is a new row");
     assert_eq!(h[1].undoes, Some(h[0].id));
     app.advance = false;
@@ -333,12 +334,7 @@ fn a_note_typed_in_the_reason_picker_goes_to_the_ledger() {
         app.live.decision(c),
         Decision::Rejected(crate::decision::ALL_REASONS[1])
     );
-    let h = app
-        .ledger
-        .as_ref()
-        .unwrap()
-        .history(Some(app.cat.candidate_id(c)))
-        .unwrap();
+    let h = ledger_history(&app, c);
     assert_eq!(h.last().unwrap().note.as_deref(), Some("odd/even x"));
     let _ = std::fs::remove_dir_all(&dir);
 }
