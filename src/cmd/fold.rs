@@ -7,7 +7,7 @@ use serde_json::{Value, json};
 
 use crate::catalogue::Catalogue;
 use crate::cli::{CatalogueArgs, CliError, LightcurveArgs};
-use crate::lightcurve::analysis::{Binned, Diagnostics, detrend, diagnose, fold_bin};
+use crate::lightcurve::analysis::{Binned, Diagnostics, detrend, diagnose_detrended, fold_bin};
 use crate::lightcurve::{LightCurve, ModelParams, context, model_params, signals};
 use crate::output::{Format, csv_writer, exact_in, num, write_json};
 use crate::sanitize::clean;
@@ -103,8 +103,9 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         range,
         args.bins,
     );
-    // The CSV holds the bins only: the diagnostics are computed when shown.
-    let diag = || diagnose(&lc, &me, &others, &context(cat, c), &settings);
+    // The CSV holds the bins only: the diagnostics are computed when shown,
+    // on the flux already detrended for the fold.
+    let diag = || diagnose_detrended(&lc, &flux, &me, &others, &context(cat, c));
     let model = model_params(cat, c);
     match args.format {
         Format::Csv => {
