@@ -8,7 +8,7 @@ pub mod analysis;
 mod candidate;
 mod fits;
 
-pub use candidate::{Cache, Finder, ModelParams, context, model_params, signals};
+pub use candidate::{Cache, Finder, ModelParams, context, model_params, signals, star_signals};
 
 pub use fits::write_table as write_fits;
 

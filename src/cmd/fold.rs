@@ -8,7 +8,7 @@ use serde_json::{Value, json};
 use crate::catalogue::Catalogue;
 use crate::cli::{CatalogueArgs, CliError, LightcurveArgs};
 use crate::lightcurve::analysis::{Binned, Diagnostics, detrend, diagnose_detrended, fold_bin};
-use crate::lightcurve::{LightCurve, ModelParams, context, model_params, signals};
+use crate::lightcurve::{LightCurve, ModelParams, context, model_params, signals, star_signals};
 use crate::output::{Format, csv_writer, exact_in, num, write_json};
 use crate::sanitize::clean;
 
@@ -74,9 +74,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         .map_err(|e| CliError::Input(format!("star {}: {e}", clean(cat.star_id(star)))))?;
     let (me, others) = signals(cat, c);
     let settings = args.lc.detrend();
-    let mut all = vec![me];
-    all.extend_from_slice(&others);
-    let flux = detrend(&lc, &all, &settings);
+    let flux = detrend(&lc, &star_signals(cat, star), &settings);
     let mut skip = crate::lightcurve::analysis::in_transit(&lc.time, &others, 1.2);
     if args.parity != Parity::All {
         crate::lightcurve::analysis::keep_parity(

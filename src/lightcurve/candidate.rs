@@ -68,18 +68,29 @@ impl Finder {
 
 /// The candidate's ephemeris and those of its siblings (to be masked).
 pub fn signals(cat: &Catalogue, c: CandidateId) -> (Ephemeris, Vec<Ephemeris>) {
-    let eph = |x: CandidateId| Ephemeris {
-        period_d: cat.value(Field::PeriodD, x).unwrap_or(f64::NAN),
-        epoch: cat.value(Field::Epoch, x).unwrap_or(f64::NAN),
-        duration_h: cat.value(Field::DurationH, x).unwrap_or(f64::NAN),
-    };
     let others = cat
         .members(cat.star_of(c))
         .iter()
         .filter(|&&x| x != c)
-        .map(|&x| eph(x))
+        .map(|&x| ephemeris(cat, x))
         .collect();
-    (eph(c), others)
+    (ephemeris(cat, c), others)
+}
+
+/// Every signal of a star, in file order: what its trend masks.
+pub fn star_signals(cat: &Catalogue, star: StarId) -> Vec<Ephemeris> {
+    cat.members(star)
+        .iter()
+        .map(|&x| ephemeris(cat, x))
+        .collect()
+}
+
+fn ephemeris(cat: &Catalogue, c: CandidateId) -> Ephemeris {
+    Ephemeris {
+        period_d: cat.value(Field::PeriodD, c).unwrap_or(f64::NAN),
+        epoch: cat.value(Field::Epoch, c).unwrap_or(f64::NAN),
+        duration_h: cat.value(Field::DurationH, c).unwrap_or(f64::NAN),
+    }
 }
 
 /// R_p/R★ and a/R★ of a candidate. R_p/R★ reproduces the catalogue depth
@@ -194,14 +205,7 @@ impl Cache {
         if let Some(hit) = self.trends.lock().ok().and_then(|m| m.get(&star).cloned()) {
             return hit;
         }
-        let all: Vec<Ephemeris> = match cat.members(star).first() {
-            Some(&c) => {
-                let (me, mut others) = signals(cat, c);
-                others.insert(0, me);
-                others
-            }
-            None => Vec::new(),
-        };
+        let all = star_signals(cat, star);
         let flux = Arc::new(super::analysis::detrend(lc, &all, settings));
         if let Ok(mut m) = self.trends.lock() {
             m.insert(star, Arc::clone(&flux));
