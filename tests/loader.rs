@@ -362,3 +362,29 @@ fn an_index_only_load_keeps_the_same_rows_and_skips() {
     assert_eq!(lean.histogram(), full.histogram());
     assert_eq!(lean.column(Field::DepthPpm), full.column(Field::DepthPpm));
 }
+
+#[test]
+fn skips_in_a_quoted_file_name_the_right_line() {
+    // A quote sends a file through the general reader; its line numbers must
+    // count CRLF line ends, blank lines and comments as the one-pass reader
+    // does (an earlier version used the CSV reader's own count, which
+    // skipped them).
+    let text = "star,candidate,period,epoch,depth_ppm,duration_h,note\r\n\
+                QL1,QL1-a,3.5,100,400,2,\"quoted\"\r\n\
+                \r\n\
+                # a comment\r\n\
+                QL1,QL1-b,x,100,400,2,\r\n\
+                QL2,QL2-a,3.5,100,400,2,\"two\r\nlines\"\r\n\
+                QL2,QL2-b,3.5,100,-1,2,\r\n";
+    let c = Catalogue::load(
+        Source::Bytes {
+            name: "quoted.csv",
+            data: text.as_bytes(),
+        },
+        &LoadOptions::default(),
+    )
+    .unwrap();
+    assert_eq!(c.len(), 2);
+    let lines: Vec<u64> = c.skipped.iter().map(|s| s.line).collect();
+    assert_eq!(lines, [5, 8], "{:?}", c.skipped);
+}

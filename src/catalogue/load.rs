@@ -425,6 +425,20 @@ fn scan_record_ends(buf: &[u8], delimiter: u8, mut at: impl FnMut(usize) -> bool
     }
 }
 
+/// Where the record that csv-core reports at byte `at` really starts: past
+/// the line ends and comment lines it passes over first.
+fn record_start(b: &[u8], mut at: usize) -> usize {
+    loop {
+        match b.get(at) {
+            Some(b'\r' | b'\n') => at += 1,
+            Some(b'#') => {
+                at = memchr::memchr(b'\n', &b[at..]).map_or(b.len(), |i| at + i + 1);
+            }
+            _ => return at.min(b.len()),
+        }
+    }
+}
+
 fn first_record_end(buf: &[u8]) -> Option<usize> {
     let mut found = None;
     // The delimiter does not change where a record ends.
@@ -587,15 +601,37 @@ const POW10: [f64; 23] = [
 /// returns `None` and goes to the standard library's parser.
 #[inline]
 fn fast_f64(b: &[u8]) -> Option<f64> {
-    let (neg, b) = match b {
-        [b'-', rest @ ..] => (true, rest),
-        [b'+', rest @ ..] => (false, rest),
-        _ => (false, b),
+    match number_at(b, 0) {
+        Some((v, end)) if end == b.len() => Some(v),
+        _ => None,
+    }
+}
+
+/// A decimal `[+-]digits[.digits][e[+-]digits]` as read by [`number_scan`].
+struct Decimal {
+    neg: bool,
+    /// The digits as an integer (wrapped when there are more than 19).
+    m: u64,
+    digits: usize,
+    /// The power of ten: the exponent less the fraction's digits.
+    exp: i32,
+}
+
+/// Reads the decimal that starts at `b[p]` up to the first byte that
+/// cannot continue it: (the decimal, that byte's position). `None` when no
+/// digit starts it, an exponent has no digit or more than six.
+#[inline(always)]
+fn number_scan(b: &[u8], p: usize) -> Option<(Decimal, usize)> {
+    let (neg, mut i) = match b.get(p) {
+        Some(b'-') => (true, p + 1),
+        Some(b'+') => (false, p + 1),
+        _ => (false, p),
     };
     let n = b.len();
-    // Up to 19 digits always fit in a u64; more go to the slow path.
-    let (mut i, mut m) = decimal_digits(b, 0, 0);
-    let mut digits = i;
+    let int_start = i;
+    let mut m;
+    (i, m) = decimal_digits(b, i, 0);
+    let mut digits = i - int_start;
     let mut exp: i32 = 0;
     if i < n && b[i] == b'.' {
         let start = i + 1;
@@ -603,13 +639,10 @@ fn fast_f64(b: &[u8]) -> Option<f64> {
         digits += i - start;
         exp = -((i - start) as i32);
     }
-    if digits == 0 || digits > 19 {
+    if digits == 0 {
         return None;
     }
-    if i < n {
-        if b[i] != b'e' && b[i] != b'E' {
-            return None;
-        }
+    if i < n && (b[i] == b'e' || b[i] == b'E') {
         i += 1;
         let eneg = match b.get(i) {
             Some(b'-') => {
@@ -632,24 +665,65 @@ fn fast_f64(b: &[u8]) -> Option<f64> {
             e = e * 10 + d as i32;
             i += 1;
         }
-        if i == start || i != n {
+        if i == start || b.get(i).is_some_and(u8::is_ascii_digit) {
             return None;
         }
         exp += if eneg { -e } else { e };
     }
-    if m > (1u64 << 53) || !(-22..=22).contains(&exp) {
+    Some((
+        Decimal {
+            neg,
+            m,
+            digits,
+            exp,
+        },
+        i,
+    ))
+}
+
+/// The number of [`fast_f64`]'s form that starts at `b[p]`, read up to the
+/// first byte that cannot continue it: (its value, that byte's position).
+/// `None` when no number starts there or it is outside the fast path (more
+/// than 19 digits, m > 2^53, |e| > 22, more than six exponent digits).
+#[inline(always)]
+fn number_at(b: &[u8], p: usize) -> Option<(f64, usize)> {
+    let (d, end) = number_scan(b, p)?;
+    if d.digits > 19 || d.m > (1u64 << 53) || !(-22..=22).contains(&d.exp) {
         return None;
     }
-    let v = if exp < 0 {
-        m as f64 / POW10[(-exp) as usize]
+    let v = if d.exp < 0 {
+        d.m as f64 / POW10[(-d.exp) as usize]
     } else {
-        m as f64 * POW10[exp as usize]
+        d.m as f64 * POW10[d.exp as usize]
     };
-    Some(if neg { -v } else { v })
+    Some((if d.neg { -v } else { v }, end))
+}
+
+/// Where the text cell that starts at `b[p]` ends: the next delimiter or
+/// line end, or the end of `b`. Eight bytes at a time (SWAR: a word's
+/// matching bytes become a bit mask), as cells are short.
+#[inline]
+fn text_end(b: &[u8], mut p: usize, delimiter: u8) -> usize {
+    const ONES: u64 = 0x0101_0101_0101_0101;
+    while let Some(word) = b.get(p..p + 8) {
+        let w = u64::from_le_bytes(word.try_into().unwrap_or([0; 8]));
+        let hits =
+            zero_bytes(w ^ (ONES * delimiter as u64)) | zero_bytes(w ^ (ONES * b'\n' as u64));
+        if hits != 0 {
+            return p + (hits.trailing_zeros() / 8) as usize;
+        }
+        p += 8;
+    }
+    while p < b.len() && b[p] != delimiter && b[p] != b'\n' {
+        p += 1;
+    }
+    p
 }
 
 /// Appends the decimal digits of `b` from `i` to the mantissa `m`
 /// (wrapping: callers bound the digit count); returns where they stop.
+/// (Eight digits at a time by SWAR multiplications was tried: slower, as
+/// most runs here are a few digits long.)
 #[inline]
 fn decimal_digits(b: &[u8], mut i: usize, mut m: u64) -> (usize, u64) {
     while let Some(d) = b.get(i).map(|c| c.wrapping_sub(b'0')).filter(|d| *d <= 9) {
@@ -675,32 +749,22 @@ struct Layout {
     checked: Vec<bool>,
     lc_col: Option<usize>,
     extra_cols: Vec<usize>,
+    /// What `quick_row` does with each column, by column index.
+    roles: Vec<Role>,
 }
 
-/// The positions of the bytes equal to `a` or `b`, eight bytes at a time
-/// (SWAR: a word's matching bytes become a bit mask, walked by trailing
-/// zeros). Faster than a SIMD search restarted at every hit when hits are
-/// dense, as delimiters are: one every eight bytes or so.
-struct Hits2<'a> {
-    bytes: &'a [u8],
-    at: usize,
-    base: usize,
-    mask: u64,
-    a: u8,
-    b: u8,
-}
-
-impl<'a> Hits2<'a> {
-    fn new(bytes: &'a [u8], a: u8, b: u8) -> Hits2<'a> {
-        Hits2 {
-            bytes,
-            at: 0,
-            base: 0,
-            mask: 0,
-            a,
-            b,
-        }
-    }
+/// A column as `Layout::quick_row` reads it.
+#[derive(Clone, Copy)]
+enum Role {
+    /// The star or candidate id.
+    Id,
+    /// A numeric field, parsed into this slot of the scratch row.
+    Number(usize),
+    /// A numeric field whose value nothing reads (`index_only`): it is
+    /// only checked to be a number, else read as `Number` is.
+    Checked(usize),
+    /// Any other column: only its bounds are kept.
+    Text,
 }
 
 /// The high bit of every zero byte of `x`, exactly (no false hits: the low
@@ -708,35 +772,6 @@ impl<'a> Hits2<'a> {
 fn zero_bytes(x: u64) -> u64 {
     const LOW7: u64 = 0x7f7f_7f7f_7f7f_7f7f;
     !(((x & LOW7) + LOW7) | x | LOW7)
-}
-
-impl Iterator for Hits2<'_> {
-    type Item = usize;
-
-    fn next(&mut self) -> Option<usize> {
-        const ONES: u64 = 0x0101_0101_0101_0101;
-        loop {
-            if self.mask != 0 {
-                let i = self.base + (self.mask.trailing_zeros() / 8) as usize;
-                self.mask &= self.mask - 1;
-                return Some(i);
-            }
-            if let Some(word) = self.bytes.get(self.at..self.at + 8) {
-                let w = u64::from_le_bytes(word.try_into().unwrap_or([0; 8]));
-                self.mask =
-                    zero_bytes(w ^ (ONES * self.a as u64)) | zero_bytes(w ^ (ONES * self.b as u64));
-                self.base = self.at;
-                self.at += 8;
-            } else if let Some(&c) = self.bytes.get(self.at) {
-                self.at += 1;
-                if c == self.a || c == self.b {
-                    return Some(self.at - 1);
-                }
-            } else {
-                return None;
-            }
-        }
-    }
 }
 
 /// The rows of one chunk, parsed and validated, not yet deduplicated.
@@ -767,12 +802,29 @@ impl Layout {
             .iter()
             .map(|&(slot, _)| !index_only || NUMERIC[slot] == Field::DepthPpm)
             .collect();
+        let checked: Vec<bool> = num_cols
+            .iter()
+            .zip(&kept)
+            .map(|(&(slot, _), &kept)| !kept && !REQUIRED.contains(&NUMERIC[slot]))
+            .collect();
+        let roles = (0..header.len())
+            .map(|c| {
+                if Some(c) == col(Field::Star) || Some(c) == col(Field::Candidate) {
+                    Role::Id
+                } else if let Some(j) = num_cols.iter().position(|n| n.1 == c) {
+                    if checked[j] {
+                        Role::Checked(num_cols[j].0)
+                    } else {
+                        Role::Number(num_cols[j].0)
+                    }
+                } else {
+                    Role::Text
+                }
+            })
+            .collect();
         Layout {
-            checked: num_cols
-                .iter()
-                .zip(&kept)
-                .map(|(&(slot, _), &kept)| !kept && !REQUIRED.contains(&NUMERIC[slot]))
-                .collect(),
+            roles,
+            checked,
             kept,
             num_cols,
             star_col: col(Field::Star).unwrap_or(0),
@@ -831,38 +883,48 @@ impl Layout {
         // general path).
         if chunk.bytes.len() <= u32::MAX as usize && plain_text(&chunk.bytes) {
             // No quotes and no bare CR: every line is a record and every
-            // delimiter ends a field, so one scan, eight bytes at a time,
-            // finds every delimiter and line end of the chunk.
+            // delimiter ends a field. A row in the plainest form is read in
+            // one pass, each cell parsed as it is found; any other row is
+            // cut at its delimiters and read by the general rules.
             let bytes = &chunk.bytes[..];
             let mut rec = SplitRecord {
                 line: bytes,
-                bounds: Vec::with_capacity(32),
+                bounds: Vec::with_capacity(self.header.len()),
             };
-            let (mut line, mut line_start, mut start) = (chunk.line, 0usize, 0usize);
-            let ends = Hits2::new(bytes, self.delimiter, b'\n').chain(std::iter::once(bytes.len()));
-            for i in ends {
-                if i < bytes.len() && bytes[i] == self.delimiter {
-                    rec.bounds.push((start as u32, i as u32));
-                    start = i + 1;
-                    continue;
-                }
-                if i == bytes.len() && line_start == bytes.len() {
-                    break; // the chunk ended with its last line end
-                }
-                let end = if i > line_start && bytes[i - 1] == b'\r' {
-                    i - 1
-                } else {
-                    i
+            // One UTF-8 check of the whole chunk (it nearly always passes)
+            // makes each id's a check of its two ends.
+            let text = std::str::from_utf8(bytes).ok();
+            let id = |(a, b): (u32, u32)| match text {
+                Some(t) => t.get(a as usize..b as usize),
+                None => std::str::from_utf8(&bytes[a as usize..b as usize]).ok(),
+            };
+            let (mut line, mut start) = (chunk.line, 0usize);
+            while start < bytes.len() {
+                let end = match self.quick_row(bytes, start, &mut rec, &mut scratch) {
+                    Some(end) => {
+                        let ids = (id(rec.bounds[self.star_col]), id(rec.bounds[self.cand_col]));
+                        if let (Some(star), Some(cand)) = ids {
+                            let row = self.validate(&rec, line, &scratch).map(|()| (star, cand));
+                            self.push_row(&mut part, &rec, line, &scratch, hasher, row);
+                        } else {
+                            // Not UTF-8: the general rules say so.
+                            self.add(&mut part, &rec, line, &mut scratch, hasher);
+                        }
+                        end
+                    }
+                    None => {
+                        let end = memchr::memchr(b'\n', &bytes[start..])
+                            .map_or(bytes.len(), |i| start + i);
+                        self.split_line(bytes, start, end, &mut rec);
+                        let text = &bytes[start..rec.bounds.last().map_or(start, |b| b.1 as usize)];
+                        if !(text.starts_with(b"#") || text.iter().all(u8::is_ascii_whitespace)) {
+                            self.add(&mut part, &rec, line, &mut scratch, hasher);
+                        }
+                        end
+                    }
                 };
-                rec.bounds.push((start as u32, end.max(start) as u32));
-                let text = &bytes[line_start..end.max(line_start)];
-                if !(text.starts_with(b"#") || text.iter().all(u8::is_ascii_whitespace)) {
-                    self.add(&mut part, &rec, line, &mut scratch, hasher);
-                }
-                rec.bounds.clear();
                 line += 1;
-                line_start = i + 1;
-                start = i + 1;
+                start = end + 1;
             }
             return part;
         }
@@ -873,19 +935,120 @@ impl Layout {
             .has_headers(false)
             .from_reader(&chunk.bytes[..]);
         let mut rec = ByteRecord::new();
-        let mut last_line = chunk.line;
+        // The line of a record's first byte, by counting line ends up to it:
+        // csv-core's own count leaves out blank lines, comments and CRLFs.
+        let (mut counted_to, mut line) = (0usize, chunk.line);
         // Reading from memory fails only on a broken record: that ends the chunk.
         while let Ok(true) = rdr.read_byte_record(&mut rec) {
-            let line = rec
-                .position()
-                .map_or(last_line, |p| chunk.line + p.line() - 1);
-            last_line = line;
+            if let Some(p) = rec.position() {
+                let at = record_start(&chunk.bytes, p.byte() as usize).max(counted_to);
+                line += count_newlines(&chunk.bytes[counted_to..at]);
+                counted_to = at;
+            }
             if rec.len() == 1 && rec[0].iter().all(u8::is_ascii_whitespace) {
                 continue; // blank line
             }
             self.add(&mut part, &rec, line, &mut scratch, hasher);
         }
         part
+    }
+
+    /// Reads the record that starts at `start` of a plain-text chunk when
+    /// it is in the plainest form: one cell per header column, ids with no
+    /// blank at either end, numbers that [`number_at`] reads exactly
+    /// or empty or a missing token. Fills `rec.bounds` (line ends and a CR
+    /// before them excluded) and the numbers' slots of `scratch`; returns
+    /// where the record's line ends (its `\n`, or the chunk's end). `None`
+    /// for any other row, which the general reader then takes, with its
+    /// messages; so a row read here reads the same as there.
+    fn quick_row(
+        &self,
+        b: &[u8],
+        start: usize,
+        rec: &mut SplitRecord,
+        scratch: &mut [f64],
+    ) -> Option<usize> {
+        rec.bounds.clear();
+        let last = self.roles.len().checked_sub(1)?;
+        let mut p = start;
+        for (c, role) in self.roles.iter().enumerate() {
+            let stop =
+                |q: usize| q == b.len() || b[q] == self.delimiter || b[q] == b'\n' || b[q] == b'\r';
+            // A value nothing reads needs only to be a number: any decimal
+            // of `number_scan`'s form is one (some read as inf, which is
+            // missing, never bad).
+            let checked = match role {
+                Role::Checked(_) => number_scan(b, p).map(|(_, q)| q).filter(|&q| stop(q)),
+                _ => None,
+            };
+            let mut end = match (*role, checked) {
+                (_, Some(q)) => q,
+                (Role::Number(slot) | Role::Checked(slot), None) => match number_at(b, p) {
+                    Some((v, q)) if stop(q) => {
+                        scratch[slot] = v;
+                        q
+                    }
+                    Some(_) => return None,
+                    None => {
+                        let q = text_end(b, p, self.delimiter);
+                        let q = if q > p && b[q - 1] == b'\r' { q - 1 } else { q };
+                        if !MISSING_TOKENS.contains(&&b[p..q]) {
+                            return None;
+                        }
+                        scratch[slot] = f64::NAN;
+                        q
+                    }
+                },
+                (Role::Id | Role::Text, None) => {
+                    let q = text_end(b, p, self.delimiter);
+                    if q > p && b[q - 1] == b'\r' { q - 1 } else { q }
+                }
+            };
+            if let Role::Id = role {
+                let id = &b[p..end];
+                let plain = |c: &u8| !c.is_ascii_whitespace();
+                if !(id.first().is_some_and(plain) && id.last().is_some_and(plain)) {
+                    return None;
+                }
+            }
+            rec.bounds.push((p as u32, end as u32));
+            if c < last {
+                if b.get(end) != Some(&self.delimiter) {
+                    return None;
+                }
+            } else {
+                if b.get(end) == Some(&b'\r') {
+                    end += 1;
+                }
+                return match b.get(end) {
+                    None | Some(b'\n') => Some(end),
+                    Some(_) => None,
+                };
+            }
+            p = end + 1;
+        }
+        None
+    }
+
+    /// Cuts the line `b[start..end]` (`end` at its `\n` or the chunk's end)
+    /// at its delimiters into `rec.bounds`, a CR before the line end left out.
+    fn split_line(&self, b: &[u8], start: usize, end: usize, rec: &mut SplitRecord) {
+        rec.bounds.clear();
+        let end = if end > start && b[end - 1] == b'\r' {
+            end - 1
+        } else {
+            end
+        };
+        let line = &b[..end];
+        let mut p = start;
+        loop {
+            let q = text_end(line, p, self.delimiter);
+            rec.bounds.push((p as u32, q as u32));
+            if q >= end {
+                return;
+            }
+            p = q + 1;
+        }
     }
 
     /// Parses one record into `part`, or records why it was skipped.
@@ -897,8 +1060,23 @@ impl Layout {
         scratch: &mut [f64],
         hasher: &hashbrown::DefaultHashBuilder,
     ) {
+        let row = self.row(rec, line, scratch);
+        self.push_row(part, rec, line, scratch, hasher, row);
+    }
+
+    /// Appends a row read as (star, candidate) with its numbers in
+    /// `scratch`, or records why it was skipped.
+    fn push_row(
+        &self,
+        part: &mut Part,
+        rec: &impl Record,
+        line: u64,
+        scratch: &[f64],
+        hasher: &hashbrown::DefaultHashBuilder,
+        row: Result<(&str, &str), Skip>,
+    ) {
         part.rows_seen += 1;
-        match self.row(rec, line, scratch) {
+        match row {
             Ok((star, cand)) => {
                 part.candidate_hash.push(hasher.hash_one(cand.as_bytes()));
                 part.candidates.push(cand);
@@ -1184,7 +1362,7 @@ impl Merger {
         // Candidate ids and star ids are resolved on two threads at once.
         // Duplicate ids are rare; when there are some, their rows go and the
         // stars are grouped again without them.
-        let ((candidate_lookup, dups), grouping) = std::thread::scope(|s| {
+        let ((candidate_lookup, first_of), grouping) = std::thread::scope(|s| {
             let (rows, hashes) = (&self.row_stars, &self.star_hash);
             let stars = s.spawn(move || StarGrouping::build(rows, hashes));
             let cands = &self.candidates;
@@ -1196,6 +1374,11 @@ impl Merger {
                 .unwrap_or_else(|e| std::panic::resume_unwind(e));
             (ids, grouping)
         });
+        let dups: Vec<(u32, u32)> = (first_of.iter().enumerate())
+            .filter(|&(r, &f)| f as usize != r)
+            .map(|(r, &f)| (r as u32, f))
+            .collect();
+        drop(first_of);
         let (candidate_lookup, grouping) = if dups.is_empty() {
             (candidate_lookup, grouping)
         } else {
@@ -1329,25 +1512,23 @@ struct StarGrouping {
 
 impl StarGrouping {
     fn build(rows: &StrPool, hashes: &[u64]) -> StarGrouping {
-        let (mut lookup, repeats) =
+        let (mut lookup, mut star_of) =
             IdIndex::build(hashes, |a, b| rows.get(a as usize) == rows.get(b as usize));
-        // lookup.ids holds each star's first row; number stars in row order.
-        let mut is_first = vec![false; hashes.len()];
-        for &r in &lookup.ids {
-            is_first[r as usize] = true;
-        }
-        let mut star_of = vec![0 as StarId; hashes.len()];
+        // star_of holds each row's first row; number the stars in row order,
+        // in place: a first row comes before the rows that repeat it.
         let mut first_rows = Vec::with_capacity(lookup.ids.len());
-        for (r, _) in is_first.iter().enumerate().filter(|(_, f)| **f) {
-            star_of[r] = first_rows.len() as StarId;
-            first_rows.push(r as u32);
+        for r in 0..star_of.len() {
+            let first = star_of[r] as usize;
+            star_of[r] = if first == r {
+                first_rows.push(r as u32);
+                (first_rows.len() - 1) as StarId
+            } else {
+                star_of[first]
+            };
         }
-        drop(is_first);
+        // lookup.ids holds each star's first row: make it the star id.
         for id in &mut lookup.ids {
             *id = star_of[*id as usize];
-        }
-        for &(row, first) in &repeats {
-            star_of[row as usize] = star_of[first as usize];
         }
         StarGrouping {
             star_of,
@@ -1357,9 +1538,12 @@ impl StarGrouping {
     }
 }
 
-/// (hash, row) pairs sorted by hash then row: a counting sort on the top 16
-/// bits of the hash (which is uniform) straight from the hashes, then each
-/// small bucket on its own. No intermediate copy of the pairs is made.
+/// (hash, row) pairs sorted by hash then row. A radix sort on the top bits
+/// of the hash (which is uniform): one scatter by the top 11 bits, whose
+/// 2,048 write positions stay in cache, then each bucket on its own by the
+/// next 8 bits through a small buffer, then an insertion pass for the few
+/// pairs still out of order. Every step is stable, so rows ascend within a
+/// hash as they did in `hashes`.
 fn sorted_pairs(hashes: &[u64]) -> Vec<(u64, u32)> {
     if hashes.len() < 1 << 12 {
         let mut pairs: Vec<(u64, u32)> = hashes
@@ -1370,11 +1554,13 @@ fn sorted_pairs(hashes: &[u64]) -> Vec<(u64, u32)> {
         pairs.sort_unstable();
         return pairs;
     }
-    const BITS: u32 = 16;
-    let bucket = |h: u64| (h >> (64 - BITS)) as usize;
-    let mut start = vec![0usize; (1 << BITS) + 1];
+    const TOP: u32 = 11;
+    const NEXT: u32 = 8;
+    let top = |h: u64| (h >> (64 - TOP)) as usize;
+    let next = |h: u64| ((h >> (64 - TOP - NEXT)) & ((1 << NEXT) - 1)) as usize;
+    let mut start = vec![0usize; (1 << TOP) + 1];
     for &h in hashes {
-        start[bucket(h) + 1] += 1;
+        start[top(h) + 1] += 1;
     }
     for i in 1..start.len() {
         start[i] += start[i - 1];
@@ -1382,14 +1568,47 @@ fn sorted_pairs(hashes: &[u64]) -> Vec<(u64, u32)> {
     let mut out = vec![(0u64, 0u32); hashes.len()];
     let mut fill = start.clone();
     for (i, &h) in hashes.iter().enumerate() {
-        let b = bucket(h);
+        let b = top(h);
         out[fill[b]] = (h, i as u32);
         fill[b] += 1;
     }
+    let mut buf = Vec::new();
+    let mut count = [0usize; (1 << NEXT) + 1];
     for w in start.windows(2) {
-        out[w[0]..w[1]].sort_unstable();
+        let bucket = &mut out[w[0]..w[1]];
+        if bucket.len() > 64 {
+            count.fill(0);
+            for &(h, _) in bucket.iter() {
+                count[next(h) + 1] += 1;
+            }
+            for i in 1..count.len() {
+                count[i] += count[i - 1];
+            }
+            buf.clear();
+            buf.resize(bucket.len(), (0, 0));
+            for &p in bucket.iter() {
+                let d = next(p.0);
+                buf[count[d]] = p;
+                count[d] += 1;
+            }
+            bucket.copy_from_slice(&buf);
+        }
+        insertion_sort(bucket);
     }
     out
+}
+
+/// Sorts a slice that is short or nearly in order.
+fn insertion_sort<T: Copy + Ord>(v: &mut [T]) {
+    for i in 1..v.len() {
+        let x = v[i];
+        let mut j = i;
+        while j > 0 && v[j - 1] > x {
+            v[j] = v[j - 1];
+            j -= 1;
+        }
+        v[j] = x;
+    }
 }
 
 /// Ids found by hash: hashes ascending, each with the row or id it names.
@@ -1400,15 +1619,45 @@ pub(super) struct IdIndex {
 }
 
 impl IdIndex {
-    /// Sorts (hash, row) pairs; rows whose text equals an earlier row's (as
-    /// `same` says) are returned as (row, earlier row) and left out.
-    fn build(hashes: &[u64], same: impl Fn(u32, u32) -> bool) -> (IdIndex, Vec<(u32, u32)>) {
+    /// Groups rows by id: the index of each id's first row, and for every
+    /// row the first row whose text is the same (`same` says), itself when
+    /// it is the first. Rows of one hash are taken as one id, then checked
+    /// in row order, so that one side of every comparison is read in
+    /// sequence; a true collision (two texts, one 64-bit hash, rare) sends
+    /// the build through the slower path that compares within each hash.
+    fn build(hashes: &[u64], same: impl Fn(u32, u32) -> bool) -> (IdIndex, Vec<u32>) {
         let pairs = sorted_pairs(hashes);
-        let mut index = IdIndex {
-            hashes: Vec::with_capacity(pairs.len()),
-            ids: Vec::with_capacity(pairs.len()),
-        };
-        let mut repeats = Vec::new();
+        let mut first_of: Vec<u32> = (0..hashes.len() as u32).collect();
+        let mut index = IdIndex::default();
+        let mut i = 0;
+        while i < pairs.len() {
+            let (h, first) = pairs[i];
+            index.hashes.push(h);
+            index.ids.push(first);
+            i += 1;
+            while i < pairs.len() && pairs[i].0 == h {
+                first_of[pairs[i].1 as usize] = first;
+                i += 1;
+            }
+        }
+        let agreed = first_of
+            .iter()
+            .enumerate()
+            .all(|(r, &f)| f as usize == r || same(f, r as u32));
+        if agreed {
+            return (index, first_of);
+        }
+        Self::build_comparing(&pairs, same)
+    }
+
+    /// `build` when some hash is shared by different texts: within each run
+    /// of one hash, every row is compared with the distinct texts before it.
+    fn build_comparing(
+        pairs: &[(u64, u32)],
+        same: impl Fn(u32, u32) -> bool,
+    ) -> (IdIndex, Vec<u32>) {
+        let mut first_of: Vec<u32> = (0..pairs.len() as u32).collect();
+        let mut index = IdIndex::default();
         let mut i = 0;
         while i < pairs.len() {
             let h = pairs[i].0;
@@ -1417,7 +1666,7 @@ impl IdIndex {
                 let row = pairs[i].1;
                 // Rows ascend within a run, so an equal earlier entry is the first.
                 match index.ids[run_start..].iter().find(|&&r| same(r, row)) {
-                    Some(&first) => repeats.push((row, first)),
+                    Some(&first) => first_of[row as usize] = first,
                     None => {
                         index.hashes.push(h);
                         index.ids.push(row);
@@ -1426,9 +1675,7 @@ impl IdIndex {
                 i += 1;
             }
         }
-        index.hashes.shrink_to_fit();
-        index.ids.shrink_to_fit();
-        (index, repeats)
+        (index, first_of)
     }
 
     pub(super) fn find(&self, h: u64, eq: impl Fn(u32) -> bool) -> Option<u32> {
@@ -1508,25 +1755,179 @@ mod tests {
     }
 
     #[test]
-    fn hits2_finds_what_a_byte_loop_finds() {
+    fn text_end_finds_what_a_byte_loop_finds() {
         let mut rng = crate::demo::Rng::new(3);
-        let alphabet = b",\n0a.\x80\xff\x2c\x0a\x00\x7f";
+        let alphabet = b",\n0a.\x80\xff\t\x00\x7f";
         for len in [0, 1, 7, 8, 9, 15, 16, 17, 100, 1000] {
             let bytes: Vec<u8> = (0..len)
                 .map(|_| alphabet[rng.below(alphabet.len() as u64) as usize])
                 .collect();
-            let want: Vec<usize> = (0..len)
-                .filter(|&i| bytes[i] == b',' || bytes[i] == b'\n')
-                .collect();
+            for delimiter in [b',', b'\t'] {
+                for p in 0..=len {
+                    let want = (p..len)
+                        .find(|&i| bytes[i] == delimiter || bytes[i] == b'\n')
+                        .unwrap_or(len);
+                    assert_eq!(text_end(&bytes, p, delimiter), want, "{bytes:?} from {p}");
+                }
+            }
+        }
+    }
+
+    /// Parses `text` (rows after a header of `header`) as one chunk, as the
+    /// loader does: by the one-pass reader when `plain`, else by the
+    /// general (csv-core) reader, which a quote in a trailing comment forces.
+    fn parse_rows(header: &str, text: &[u8], plain: bool, index_only: bool) -> Part {
+        let header: Vec<String> = header.split(',').map(str::to_string).collect();
+        let mapping = Mapping::resolve("t.csv", &header, &ColumnMap::default()).expect("header");
+        let layout = Layout::new(header, mapping, b',', index_only);
+        let mut bytes = text.to_vec();
+        if !plain {
+            bytes.extend_from_slice(b"\n#\"\n");
+        }
+        let chunk = Chunk {
+            seq: 0,
+            line: 2,
+            bytes,
+        };
+        layout.parse(&chunk, &hashbrown::DefaultHashBuilder::default(), None)
+    }
+
+    /// A part as comparable text: every kept row and every skip.
+    fn part_text(p: &Part) -> Vec<String> {
+        let mut out: Vec<String> = (0..p.lines.len())
+            .map(|r| {
+                let nums: Vec<String> = p
+                    .num
+                    .iter()
+                    .filter_map(|c| c.get(r))
+                    .map(|v| format!("{:?}", v.to_bits()))
+                    .collect();
+                format!(
+                    "{} {} {} {}",
+                    p.lines[r],
+                    p.stars.get(r),
+                    p.candidates.get(r),
+                    nums.join(" ")
+                )
+            })
+            .collect();
+        out.extend(p.skipped.iter().map(|s| format!("{s:?}")));
+        out.push(format!("rows {}", p.rows_seen));
+        out
+    }
+
+    #[test]
+    fn one_pass_rows_read_as_the_general_reader_reads_them() {
+        // Every kind of cell the one-pass reader takes or hands on.
+        let header = "star,candidate,period,epoch,depth_ppm,duration_h,snr,note";
+        let text = "S1,S1-a,10.5,100.25,500,3.5,12,x\n\
+                    S1,S1-b,2e1,1.5E+2,2.5e-3,1,,\n\
+                    S2, S2-a,10,100,500,3,nan,y z\n\
+                    S2,S2-b ,10,100,500,3,NaN,\r\n\
+                    S3,S3-a,10 ,100,500,3,1,\n\
+                    S3,S3-b,12345678901234567890,100,500,3,1,q\n\
+                    S4,S4-a,10,100,500,300,1,q\n\
+                    S4,S4-b,10,100,-5,3,1,q\n\
+                    S5,S5-a,10,100,500,3,1\n\
+                    S5,S5-b,10,100,500,3,1,q,extra\n\
+                    \n\
+                    # a comment\n\
+                    \u{e9}toile,\u{e9}-1,1,2,3,4,5,6\r\n\
+                    S6,S6-a,10,100,abc,3,1,q\n\
+                    S6,S6-b,1e999,100,500,3,1e-999,q\n\
+                    S7,,10,100,500,3,1,q\n\
+                    S7,S7-a,.5,-.5,+500,3.,1,q\n\
+                    S7,S7-b,10,100,500,3,1e1234567,q\n\
+                    S8,S8-a,1,2,3,4,5,last";
+        for text in [
+            text.as_bytes(),
+            &[text.as_bytes(), b"\nS9,S9-\xff,1,2,3,4,5,6"].concat(),
+        ] {
+            for index_only in [false, true] {
+                let plain = parse_rows(header, text, true, index_only);
+                let general = parse_rows(header, text, false, index_only);
+                assert_eq!(part_text(&plain), part_text(&general));
+            }
+        }
+        let plain = parse_rows(header, text.as_bytes(), true, false);
+        assert!(
+            plain.lines.len() >= 8 && plain.skipped.len() >= 6,
+            "{:?}",
+            part_text(&plain)
+        );
+    }
+
+    proptest::proptest! {
+        #[test]
+        fn one_pass_reader_agrees_on_random_rows(
+            rows in proptest::collection::vec(
+                (0usize..8, proptest::collection::vec(0usize..24, 8), 0usize..10, proptest::bool::ANY),
+                1..30,
+            )
+        ) {
+            const IDS: [&str; 8] = ["S1", "S2", " S3", "S4 ", "", "\u{e9}", "a b", "S1"];
+            const NUMS: [&str; 24] = [
+                "1", "-2.5", "1e3", "1e999", "", "nan", "NA", "abc", " 4", "5 ",
+                "12345678901234567890", ".5", "1.", "+3", "0", "2.5E-2",
+                ".", "-", "1.2.3", "-.5", "5-", "123456789012345", "1234567890123456", "inf",
+            ];
+            let header = "star,candidate,period,epoch,depth_ppm,duration_h,snr,impact";
+            let mut text = String::new();
+            for (i, (id, cells, shape, crlf)) in rows.iter().enumerate() {
+                let mut fields = vec![IDS[*id].to_string(), format!("c{i}")];
+                fields.extend(cells[..6].iter().map(|&c| NUMS[c].to_string()));
+                match shape {
+                    0 => { fields.pop(); }
+                    1 => fields.push("x".into()),
+                    2 => fields = vec!["# note".into()],
+                    3 => fields = vec![String::new()],
+                    _ => {}
+                }
+                text.push_str(&fields.join(","));
+                text.push_str(if *crlf { "\r\n" } else { "\n" });
+            }
+            for index_only in [false, true] {
+                let plain = parse_rows(header, text.as_bytes(), true, index_only);
+                let general = parse_rows(header, text.as_bytes(), false, index_only);
+                proptest::prop_assert_eq!(part_text(&plain), part_text(&general));
+            }
+        }
+    }
+
+    #[test]
+    fn a_checked_decimal_is_a_number() {
+        // What the quick check takes (its value unread) must never be a bad cell.
+        let take = [
+            "0",
+            "5038",
+            "0.043",
+            "-45.64639",
+            ".5",
+            "5.",
+            "-.5",
+            "+3",
+            "1e3",
+            "2.5E-2",
+            "1e999",
+            "123456789012345678901234567890",
+            "1.40e-4",
+        ];
+        let leave = ["", ".", "-", "e5", "1e", "1e+", "1e1234567", "nan", "--1"];
+        for cell in take {
+            let row = format!("{cell},rest");
             assert_eq!(
-                Hits2::new(&bytes, b',', b'\n').collect::<Vec<_>>(),
-                want,
-                "{bytes:?}"
+                number_scan(row.as_bytes(), 0).map(|(_, q)| q),
+                Some(cell.len()),
+                "{cell}"
             );
-            let tabs: Vec<usize> = (0..len)
-                .filter(|&i| bytes[i] == 0x7f || bytes[i] == 0)
-                .collect();
-            assert_eq!(Hits2::new(&bytes, 0x7f, 0).collect::<Vec<_>>(), tabs);
+            assert!(!matches!(parse_cell(cell.as_bytes()), Cell::Bad), "{cell}");
+        }
+        for cell in leave {
+            let row = format!("{cell},rest");
+            assert!(
+                number_scan(row.as_bytes(), 0).is_none_or(|(_, q)| q != cell.len()),
+                "{cell}"
+            );
         }
     }
 
