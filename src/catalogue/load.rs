@@ -1516,7 +1516,7 @@ impl StarGrouping {
             IdIndex::build(hashes, |a, b| rows.get(a as usize) == rows.get(b as usize));
         // star_of holds each row's first row; number the stars in row order,
         // in place: a first row comes before the rows that repeat it.
-        let mut first_rows = Vec::with_capacity(lookup.ids.len());
+        let mut first_rows = Vec::with_capacity(lookup.keys.len());
         for r in 0..star_of.len() {
             let first = star_of[r] as usize;
             star_of[r] = if first == r {
@@ -1526,10 +1526,8 @@ impl StarGrouping {
                 star_of[first]
             };
         }
-        // lookup.ids holds each star's first row: make it the star id.
-        for id in &mut lookup.ids {
-            *id = star_of[*id as usize];
-        }
+        // The index names each star by its first row: make it the star id.
+        lookup.rename(|row| star_of[row as usize]);
         StarGrouping {
             star_of,
             first_rows,
@@ -1538,105 +1536,44 @@ impl StarGrouping {
     }
 }
 
-/// (hash, row) pairs sorted by hash then row. A radix sort on the top bits
-/// of the hash (which is uniform): one scatter by the top 11 bits, whose
-/// 2,048 write positions stay in cache, then each bucket on its own by the
-/// next 8 bits through a small buffer, then an insertion pass for the few
-/// pairs still out of order. Every step is stable, so rows ascend within a
-/// hash as they did in `hashes`.
-fn sorted_pairs(hashes: &[u64]) -> Vec<(u64, u32)> {
-    if hashes.len() < 1 << 12 {
-        let mut pairs: Vec<(u64, u32)> = hashes
-            .iter()
-            .enumerate()
-            .map(|(i, &h)| (h, i as u32))
-            .collect();
-        pairs.sort_unstable();
-        return pairs;
-    }
-    const TOP: u32 = 11;
-    const NEXT: u32 = 8;
-    let top = |h: u64| (h >> (64 - TOP)) as usize;
-    let next = |h: u64| ((h >> (64 - TOP - NEXT)) & ((1 << NEXT) - 1)) as usize;
-    let mut start = vec![0usize; (1 << TOP) + 1];
-    for &h in hashes {
-        start[top(h) + 1] += 1;
-    }
-    for i in 1..start.len() {
-        start[i] += start[i - 1];
-    }
-    let mut out = vec![(0u64, 0u32); hashes.len()];
-    let mut fill = start.clone();
-    for (i, &h) in hashes.iter().enumerate() {
-        let b = top(h);
-        out[fill[b]] = (h, i as u32);
-        fill[b] += 1;
-    }
-    let mut buf = Vec::new();
-    let mut count = [0usize; (1 << NEXT) + 1];
-    for w in start.windows(2) {
-        let bucket = &mut out[w[0]..w[1]];
-        if bucket.len() > 64 {
-            count.fill(0);
-            for &(h, _) in bucket.iter() {
-                count[next(h) + 1] += 1;
-            }
-            for i in 1..count.len() {
-                count[i] += count[i - 1];
-            }
-            buf.clear();
-            buf.resize(bucket.len(), (0, 0));
-            for &p in bucket.iter() {
-                let d = next(p.0);
-                buf[count[d]] = p;
-                count[d] += 1;
-            }
-            bucket.copy_from_slice(&buf);
-        }
-        insertion_sort(bucket);
-    }
-    out
-}
-
-/// Sorts a slice that is short or nearly in order.
-fn insertion_sort<T: Copy + Ord>(v: &mut [T]) {
-    for i in 1..v.len() {
-        let x = v[i];
-        let mut j = i;
-        while j > 0 && v[j - 1] > x {
-            v[j] = v[j - 1];
-            j -= 1;
-        }
-        v[j] = x;
-    }
-}
-
-/// Ids found by hash: hashes ascending, each with the row or id it names.
+/// Ids found by hash, in one sorted array of keys. A key is an id's hash
+/// with its low bits replaced by the row (or star id) it names, so that one
+/// sort of 8-byte keys orders rows by hash and, within a hash, by row.
 #[derive(Debug, Default)]
 pub(super) struct IdIndex {
-    hashes: Vec<u64>,
-    ids: Vec<u32>,
+    keys: Vec<u64>,
+    /// How many low bits of a key hold the id.
+    id_bits: u32,
 }
 
 impl IdIndex {
+    fn mask(&self) -> u64 {
+        (1u64 << self.id_bits) - 1
+    }
+
     /// Groups rows by id: the index of each id's first row, and for every
     /// row the first row whose text is the same (`same` says), itself when
-    /// it is the first. Rows of one hash are taken as one id, then checked
-    /// in row order, so that one side of every comparison is read in
-    /// sequence; a true collision (two texts, one 64-bit hash, rare) sends
-    /// the build through the slower path that compares within each hash.
+    /// it is the first. Rows whose keys share a hash part are taken as one
+    /// id, then checked in row order, so that one side of every comparison
+    /// is read in sequence; a collision (two texts, one hash part; rare)
+    /// sends the build through the slower path that compares within each
+    /// hash part.
     fn build(hashes: &[u64], same: impl Fn(u32, u32) -> bool) -> (IdIndex, Vec<u32>) {
-        let pairs = sorted_pairs(hashes);
+        let id_bits = (usize::BITS - hashes.len().leading_zeros()).max(1);
+        let keys = sorted_keys(hashes, id_bits);
+        let mut index = IdIndex {
+            keys: Vec::with_capacity(keys.len()),
+            id_bits,
+        };
+        let mask = index.mask();
         let mut first_of: Vec<u32> = (0..hashes.len() as u32).collect();
-        let mut index = IdIndex::default();
         let mut i = 0;
-        while i < pairs.len() {
-            let (h, first) = pairs[i];
-            index.hashes.push(h);
-            index.ids.push(first);
+        while i < keys.len() {
+            let (hash, first) = (keys[i] >> id_bits, (keys[i] & mask) as u32);
+            index.keys.push(keys[i]);
             i += 1;
-            while i < pairs.len() && pairs[i].0 == h {
-                first_of[pairs[i].1 as usize] = first;
+            while i < keys.len() && keys[i] >> id_bits == hash {
+                first_of[(keys[i] & mask) as usize] = first;
                 i += 1;
             }
         }
@@ -1645,47 +1582,143 @@ impl IdIndex {
             .enumerate()
             .all(|(r, &f)| f as usize == r || same(f, r as u32));
         if agreed {
+            index.keys.shrink_to_fit();
             return (index, first_of);
         }
-        Self::build_comparing(&pairs, same)
+        index.keys.clear();
+        index.build_comparing(&keys, first_of, same)
     }
 
-    /// `build` when some hash is shared by different texts: within each run
-    /// of one hash, every row is compared with the distinct texts before it.
+    /// `build` when some hash part is shared by different texts: within
+    /// each run of one hash part, every row is compared with the distinct
+    /// texts before it.
     fn build_comparing(
-        pairs: &[(u64, u32)],
+        mut self,
+        keys: &[u64],
+        mut first_of: Vec<u32>,
         same: impl Fn(u32, u32) -> bool,
     ) -> (IdIndex, Vec<u32>) {
-        let mut first_of: Vec<u32> = (0..pairs.len() as u32).collect();
-        let mut index = IdIndex::default();
+        let (bits, mask) = (self.id_bits, self.mask());
         let mut i = 0;
-        while i < pairs.len() {
-            let h = pairs[i].0;
-            let run_start = index.ids.len();
-            while i < pairs.len() && pairs[i].0 == h {
-                let row = pairs[i].1;
+        while i < keys.len() {
+            let hash = keys[i] >> bits;
+            let run_start = self.keys.len();
+            while i < keys.len() && keys[i] >> bits == hash {
+                let row = (keys[i] & mask) as u32;
                 // Rows ascend within a run, so an equal earlier entry is the first.
-                match index.ids[run_start..].iter().find(|&&r| same(r, row)) {
-                    Some(&first) => first_of[row as usize] = first,
+                let earlier = self.keys[run_start..].iter().map(|k| (k & mask) as u32);
+                match earlier.clone().find(|&r| same(r, row)) {
+                    Some(first) => first_of[row as usize] = first,
                     None => {
-                        index.hashes.push(h);
-                        index.ids.push(row);
+                        first_of[row as usize] = row;
+                        self.keys.push(keys[i]);
                     }
                 }
                 i += 1;
             }
         }
-        (index, first_of)
+        self.keys.shrink_to_fit();
+        (self, first_of)
+    }
+
+    /// Renames every id (a row, when built) by `to`.
+    fn rename(&mut self, to: impl Fn(u32) -> u32) {
+        let mask = self.mask();
+        for k in &mut self.keys {
+            *k = (*k & !mask) | to((*k & mask) as u32) as u64;
+        }
     }
 
     pub(super) fn find(&self, h: u64, eq: impl Fn(u32) -> bool) -> Option<u32> {
-        let start = self.hashes.partition_point(|&x| x < h);
-        self.hashes[start..]
+        let (bits, mask) = (self.id_bits, self.mask());
+        let hash = h >> bits;
+        let start = self.keys.partition_point(|&k| k >> bits < hash);
+        self.keys[start..]
             .iter()
-            .take_while(|&&x| x == h)
-            .zip(&self.ids[start..])
-            .find(|(_, id)| eq(**id))
-            .map(|(_, id)| *id)
+            .take_while(|&&k| k >> bits == hash)
+            .map(|&k| (k & mask) as u32)
+            .find(|&id| eq(id))
+    }
+}
+
+/// The keys of `hashes` (each hash with its low `id_bits` bits replaced by
+/// its row), sorted. A radix sort on the top bits of the hash (which is
+/// uniform): one scatter by the top 11 bits, whose 2,048 write positions
+/// stay in cache, then each bucket on its own by the next 8 bits through a
+/// small buffer, then each of those ranges (a key or two) by insertion.
+fn sorted_keys(hashes: &[u64], id_bits: u32) -> Vec<u64> {
+    let key = |(row, &h): (usize, &u64)| (h >> id_bits << id_bits) | row as u64;
+    if hashes.len() < 1 << 12 {
+        let mut keys: Vec<u64> = hashes.iter().enumerate().map(key).collect();
+        keys.sort_unstable();
+        return keys;
+    }
+    const TOP: u32 = 11;
+    const NEXT: u32 = 8;
+    let top = |k: u64| (k >> (64 - TOP)) as usize;
+    let next = |k: u64| ((k >> (64 - TOP - NEXT)) & ((1 << NEXT) - 1)) as usize;
+    let mut start = vec![0usize; (1 << TOP) + 1];
+    for &h in hashes {
+        start[top(h) + 1] += 1;
+    }
+    for i in 1..start.len() {
+        start[i] += start[i - 1];
+    }
+    let mut out = vec![0u64; hashes.len()];
+    let mut fill = start.clone();
+    for k in hashes.iter().enumerate().map(key) {
+        let b = top(k);
+        out[fill[b]] = k;
+        fill[b] += 1;
+    }
+    let mut buf = Vec::new();
+    let mut count = [0usize; (1 << NEXT) + 1];
+    for w in start.windows(2) {
+        let bucket = &mut out[w[0]..w[1]];
+        if bucket.len() <= 64 {
+            sort_short(bucket);
+            continue;
+        }
+        count.fill(0);
+        for &k in bucket.iter() {
+            count[next(k) + 1] += 1;
+        }
+        for i in 1..count.len() {
+            count[i] += count[i - 1];
+        }
+        buf.clear();
+        buf.resize(bucket.len(), 0);
+        for &k in bucket.iter() {
+            let d = next(k);
+            buf[count[d]] = k;
+            count[d] += 1;
+        }
+        bucket.copy_from_slice(&buf);
+        // Each digit's range now ends where its count stopped.
+        let mut from = 0;
+        for &to in &count[..1 << NEXT] {
+            sort_short(&mut bucket[from..to]);
+            from = to;
+        }
+    }
+    out
+}
+
+/// Sorts a slice that is nearly always short: by insertion when it is (a
+/// uniform hash puts a key or two in each), else in O(n log n).
+fn sort_short(v: &mut [u64]) {
+    if v.len() > 32 {
+        v.sort_unstable();
+        return;
+    }
+    for i in 1..v.len() {
+        let x = v[i];
+        let mut j = i;
+        while j > 0 && v[j - 1] > x {
+            v[j] = v[j - 1];
+            j -= 1;
+        }
+        v[j] = x;
     }
 }
 
@@ -1928,6 +1961,52 @@ mod tests {
                 number_scan(row.as_bytes(), 0).is_none_or(|(_, q)| q != cell.len()),
                 "{cell}"
             );
+        }
+    }
+
+    #[test]
+    fn keys_sort_as_a_plain_sort_does() {
+        let mut rng = crate::demo::Rng::new(5);
+        for n in [0usize, 1, 100, 5000, 70_000] {
+            // Few distinct hashes too, so that rows must order equal ones.
+            let hashes: Vec<u64> = (0..n)
+                .map(|i| {
+                    if i % 3 == 0 {
+                        rng.next_u64()
+                    } else {
+                        (rng.next_u64() % 7) << 60
+                    }
+                })
+                .collect();
+            let bits = 17;
+            let mut want: Vec<u64> = (hashes.iter().enumerate())
+                .map(|(i, &h)| (h >> bits << bits) | i as u64)
+                .collect();
+            want.sort();
+            assert_eq!(sorted_keys(&hashes, bits), want, "{n}");
+        }
+    }
+
+    #[test]
+    fn ids_group_by_text_even_when_hashes_collide() {
+        // Texts by row, and hashes that collide on purpose: one hash for
+        // different texts, and the same text under one hash.
+        let texts = ["a", "b", "a", "c", "b", "a", "d"];
+        let hashers: [fn(&str) -> u64; 3] = [
+            |_| 1 << 40,
+            |t| (t.len() as u64) << 40,
+            |t| (t.as_bytes()[0] as u64) << 40,
+        ];
+        for hash in hashers {
+            let hashes: Vec<u64> = texts.iter().map(|t| hash(t)).collect();
+            let (index, first_of) =
+                IdIndex::build(&hashes, |a, b| texts[a as usize] == texts[b as usize]);
+            assert_eq!(first_of, [0, 1, 0, 3, 1, 0, 6]);
+            for (row, t) in texts.iter().enumerate() {
+                let found = index.find(hash(t), |r| texts[r as usize] == *t);
+                assert_eq!(found, Some(first_of[row]), "{t}");
+            }
+            assert_eq!(index.keys.len(), 4);
         }
     }
 
