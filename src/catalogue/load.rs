@@ -1643,9 +1643,10 @@ impl IdIndex {
 
 /// The keys of `hashes` (each hash with its low `id_bits` bits replaced by
 /// its row), sorted. A radix sort on the top bits of the hash (which is
-/// uniform): one scatter by the top 11 bits, whose 2,048 write positions
-/// stay in cache, then each bucket on its own by the next 8 bits through a
-/// small buffer, then each of those ranges (a key or two) by insertion.
+/// uniform, and seeded afresh in every process): one scatter by the top 8
+/// bits, whose 256 write positions stay in cache and in the TLB, then each
+/// bucket (in cache) by the next 11 bits through a small buffer, then one
+/// insertion pass over the bucket for the key or two that share those bits.
 fn sorted_keys(hashes: &[u64], id_bits: u32) -> Vec<u64> {
     let key = |(row, &h): (usize, &u64)| (h >> id_bits << id_bits) | row as u64;
     if hashes.len() < 1 << 12 {
@@ -1653,8 +1654,8 @@ fn sorted_keys(hashes: &[u64], id_bits: u32) -> Vec<u64> {
         keys.sort_unstable();
         return keys;
     }
-    const TOP: u32 = 11;
-    const NEXT: u32 = 8;
+    const TOP: u32 = 8;
+    const NEXT: u32 = 11;
     let top = |k: u64| (k >> (64 - TOP)) as usize;
     let next = |k: u64| ((k >> (64 - TOP - NEXT)) & ((1 << NEXT) - 1)) as usize;
     let mut start = vec![0usize; (1 << TOP) + 1];
@@ -1672,13 +1673,9 @@ fn sorted_keys(hashes: &[u64], id_bits: u32) -> Vec<u64> {
         fill[b] += 1;
     }
     let mut buf = Vec::new();
-    let mut count = [0usize; (1 << NEXT) + 1];
+    let mut count = vec![0usize; (1 << NEXT) + 1];
     for w in start.windows(2) {
         let bucket = &mut out[w[0]..w[1]];
-        if bucket.len() <= 64 {
-            sort_short(bucket);
-            continue;
-        }
         count.fill(0);
         for &k in bucket.iter() {
             count[next(k) + 1] += 1;
@@ -1694,23 +1691,17 @@ fn sorted_keys(hashes: &[u64], id_bits: u32) -> Vec<u64> {
             count[d] += 1;
         }
         bucket.copy_from_slice(&buf);
-        // Each digit's range now ends where its count stopped.
-        let mut from = 0;
-        for &to in &count[..1 << NEXT] {
-            sort_short(&mut bucket[from..to]);
-            from = to;
-        }
+        nearly_sorted(bucket);
     }
     out
 }
 
-/// Sorts a slice that is nearly always short: by insertion when it is (a
-/// uniform hash puts a key or two in each), else in O(n log n).
-fn sort_short(v: &mut [u64]) {
-    if v.len() > 32 {
-        v.sort_unstable();
-        return;
-    }
+/// Sorts keys already in order but for short runs: by insertion, which
+/// costs one step per key plus one per key out of place. A run longer than
+/// a uniform hash would give (many ids with one hash prefix) is sorted
+/// whole instead, so no input costs more than O(n log n).
+fn nearly_sorted(v: &mut [u64]) {
+    let mut moves = 0usize;
     for i in 1..v.len() {
         let x = v[i];
         let mut j = i;
@@ -1719,6 +1710,11 @@ fn sort_short(v: &mut [u64]) {
             j -= 1;
         }
         v[j] = x;
+        moves += i - j;
+        if moves > 8 * v.len() + 64 {
+            v.sort_unstable();
+            return;
+        }
     }
 }
 
