@@ -1406,10 +1406,19 @@ impl Merger {
             first_rows,
             lookup: star_lookup,
         } = grouping;
-        let mut stars = StrPool::with_capacity(first_rows.len(), row_stars.byte_len() / 2);
-        for &r in &first_rows {
-            stars.push(row_stars.get(r as usize));
-        }
+        // The stars' ids and the star → members rows, on two threads.
+        let (stars, (member_start, members)) = std::thread::scope(|s| {
+            let ids = s.spawn(|| {
+                let mut stars = StrPool::with_capacity(first_rows.len(), row_stars.byte_len() / 2);
+                for &r in &first_rows {
+                    stars.push(row_stars.get(r as usize));
+                }
+                stars
+            });
+            let members = star_members(&star_of, first_rows.len());
+            let stars = ids.join().unwrap_or_else(|e| std::panic::resume_unwind(e));
+            (stars, members)
+        });
         drop(row_stars);
         // Duplicates were found after their chunk's own skips: restore file order.
         skipped.sort_by_key(|s| s.line);
@@ -1456,20 +1465,6 @@ impl Merger {
                 ),
             });
         }
-        // Star → members, as compressed rows (counting sort by star).
-        let mut member_start = vec![0u32; stars.len() + 1];
-        for &s in &star_of {
-            member_start[s as usize + 1] += 1;
-        }
-        for i in 1..member_start.len() {
-            member_start[i] += member_start[i - 1];
-        }
-        let mut fill = member_start.clone();
-        let mut members = vec![0; star_of.len()];
-        for (c, &s) in star_of.iter().enumerate() {
-            members[fill[s as usize] as usize] = c as CandidateId;
-            fill[s as usize] += 1;
-        }
         candidates.shrink_to_fit();
         for v in num.iter_mut().flatten() {
             if v.capacity() > v.len() + v.len() / 8 {
@@ -1500,6 +1495,26 @@ impl Merger {
             rows_seen,
         })
     }
+}
+
+/// Star → members as compressed rows: where each star's members start in
+/// the list of members (one more entry at the end), and the list, in file
+/// order within a star (a counting sort by star).
+fn star_members(star_of: &[StarId], stars: usize) -> (Vec<u32>, Vec<CandidateId>) {
+    let mut member_start = vec![0u32; stars + 1];
+    for &s in star_of {
+        member_start[s as usize + 1] += 1;
+    }
+    for i in 1..member_start.len() {
+        member_start[i] += member_start[i - 1];
+    }
+    let mut fill = member_start.clone();
+    let mut members = vec![0; star_of.len()];
+    for (c, &s) in star_of.iter().enumerate() {
+        members[fill[s as usize] as usize] = c as CandidateId;
+        fill[s as usize] += 1;
+    }
+    (member_start, members)
 }
 
 /// Rows grouped into stars: star ids in order of first appearance.
