@@ -388,3 +388,37 @@ fn skips_in_a_quoted_file_name_the_right_line() {
     let lines: Vec<u64> = c.skipped.iter().map(|s| s.line).collect();
     assert_eq!(lines, [5, 8], "{:?}", c.skipped);
 }
+
+#[test]
+fn a_broken_gzip_stream_names_the_file_and_the_line_it_reached() {
+    // Several chunks of rows, compressed, then cut short: the rows before
+    // the break are read; the error names the file and a line near it.
+    let mut text = String::from("star,candidate,period,epoch,depth_ppm,duration_h\n");
+    for i in 0..200_000 {
+        text.push_str(&format!(
+            "GZ{},GZ{i}-b,{}.5,100.25,400,2\n",
+            i / 2,
+            1 + i % 40
+        ));
+    }
+    let mut gz = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::fast());
+    gz.write_all(text.as_bytes()).unwrap();
+    let bytes = gz.finish().unwrap();
+    let cut = &bytes[..bytes.len() * 3 / 5];
+    let err = Catalogue::load(
+        Source::Bytes {
+            name: "broken.csv.gz",
+            data: cut,
+        },
+        &LoadOptions::default(),
+    )
+    .unwrap_err();
+    let LoadError::Read { path, line, .. } = &err else {
+        panic!("{err}");
+    };
+    assert_eq!(path, "broken.csv.gz");
+    // Chunks are 2 MB (about 46,000 lines here) and the break is past 60%
+    // of the rows: the line is the start of a later chunk, not the first.
+    assert!((40_000..=200_001).contains(line), "{err}");
+    assert!(err.to_string().starts_with("broken.csv.gz: line "), "{err}");
+}

@@ -169,14 +169,10 @@ fn read_catalogue(
     let first_line = header_line + count_newlines(&buf[header_end.0..header_end.1]);
     buf.drain(..header_end.1);
     let layout = Layout::new(header_fields, mapping, delimiter, opts.index_only);
-    let mut merger = Merger::new(name, &layout);
+    let mut merger = Merger::new(name, &layout, first_line);
     if eof {
         // Everything is in memory already: no threads for a small file.
-        let chunk = Chunk {
-            seq: 0,
-            line: first_line,
-            bytes: buf,
-        };
+        let chunk = Chunk { seq: 0, bytes: buf };
         let part = layout.parse(&chunk, &merger.hasher, None);
         merger.absorb(part, size_hint);
         return merger.finish(&layout, opts);
@@ -202,7 +198,6 @@ fn read_catalogue(
         // The reader: cuts the stream at record boundaries.
         s.spawn(move || {
             let mut seq = 0;
-            let mut line = first_line;
             let mut carry = buf;
             let mut eof = eof;
             let mut need_more = false;
@@ -212,9 +207,11 @@ fn read_catalogue(
                     match fill(&mut text, &mut carry, CHUNK_BYTES) {
                         Ok(e) => eof = e,
                         Err(e) => {
+                            // The merger knows the line: it is where this
+                            // chunk would have started.
                             let err = LoadError::Read {
                                 path: path.clone(),
-                                line,
+                                line: 0,
                                 message: e.to_string(),
                             };
                             let _ = reader_tx.send((seq, Err(err)));
@@ -243,19 +240,10 @@ fn read_catalogue(
                 rest.extend_from_slice(&carry[cut..]);
                 carry.truncate(cut);
                 let chunk = std::mem::replace(&mut carry, rest);
-                let lines = count_newlines(&chunk);
-                if chunk_tx
-                    .send(Chunk {
-                        seq,
-                        line,
-                        bytes: chunk,
-                    })
-                    .is_err()
-                {
+                if chunk_tx.send(Chunk { seq, bytes: chunk }).is_err() {
                     return;
                 }
                 seq += 1;
-                line += lines;
                 if eof && carry.is_empty() {
                     return;
                 }
@@ -300,7 +288,10 @@ fn read_catalogue(
                         let spent = merger.absorb(p, size_hint);
                         let _ = part_spare_tx.send(spent);
                     }
-                    Err(e) => {
+                    Err(mut e) => {
+                        if let LoadError::Read { line, .. } = &mut e {
+                            *line = merger.next_line;
+                        }
                         failure = Some(e);
                         break;
                     }
@@ -508,8 +499,6 @@ fn plain_text(b: &[u8]) -> bool {
 
 struct Chunk {
     seq: usize,
-    /// Line number of the chunk's first byte.
-    line: u64,
     bytes: Vec<u8>,
 }
 
@@ -788,6 +777,8 @@ struct Part {
     skipped: Vec<Skip>,
     rows_seen: u64,
     bytes: usize,
+    /// Line ends in the chunk: lines here count from 0 at its start.
+    newlines: u64,
 }
 
 impl Layout {
@@ -860,6 +851,7 @@ impl Layout {
                 p.skipped.clear();
                 p.rows_seen = 0;
                 p.bytes = chunk.bytes.len();
+                p.newlines = 0;
                 p
             }
             None => Part {
@@ -876,6 +868,7 @@ impl Layout {
                 skipped: Vec::new(),
                 rows_seen: 0,
                 bytes: chunk.bytes.len(),
+                newlines: 0,
             },
         };
         let mut scratch = vec![f64::NAN; NUMERIC.len()];
@@ -898,7 +891,7 @@ impl Layout {
                 Some(t) => t.get(a as usize..b as usize),
                 None => std::str::from_utf8(&bytes[a as usize..b as usize]).ok(),
             };
-            let (mut line, mut start) = (chunk.line, 0usize);
+            let (mut line, mut start) = (0u64, 0usize);
             while start < bytes.len() {
                 let end = match self.quick_row(bytes, start, &mut rec, &mut scratch) {
                     Some(end) => {
@@ -926,6 +919,8 @@ impl Layout {
                 line += 1;
                 start = end + 1;
             }
+            // Every line but perhaps the last ended in a line end.
+            part.newlines = line.saturating_sub(u64::from(!bytes.ends_with(b"\n")));
             return part;
         }
         let mut rdr = csv::ReaderBuilder::new()
@@ -937,7 +932,7 @@ impl Layout {
         let mut rec = ByteRecord::new();
         // The line of a record's first byte, by counting line ends up to it:
         // csv-core's own count leaves out blank lines, comments and CRLFs.
-        let (mut counted_to, mut line) = (0usize, chunk.line);
+        let (mut counted_to, mut line) = (0usize, 0u64);
         // Reading from memory fails only on a broken record: that ends the chunk.
         while let Ok(true) = rdr.read_byte_record(&mut rec) {
             if let Some(p) = rec.position() {
@@ -950,6 +945,7 @@ impl Layout {
             }
             self.add(&mut part, &rec, line, &mut scratch, hasher);
         }
+        part.newlines = count_newlines(&chunk.bytes);
         part
     }
 
@@ -1246,10 +1242,13 @@ struct Merger {
     skipped: Vec<Skip>,
     rows_seen: u64,
     reserved: bool,
+    /// The file's line at the start of the next part (parts number their
+    /// lines from their own start).
+    next_line: u64,
 }
 
 impl Merger {
-    fn new(name: String, layout: &Layout) -> Merger {
+    fn new(name: String, layout: &Layout, first_line: u64) -> Merger {
         Merger {
             name,
             candidates: StrPool::default(),
@@ -1265,6 +1264,7 @@ impl Merger {
             skipped: Vec::new(),
             rows_seen: 0,
             reserved: false,
+            next_line: first_line,
         }
     }
 
@@ -1298,12 +1298,18 @@ impl Merger {
             self.reserve(&part, size_hint);
         }
         self.rows_seen += part.rows_seen;
+        let base = self.next_line;
+        self.next_line += part.newlines;
+        for skip in &mut part.skipped {
+            skip.line += base;
+        }
         self.skipped.append(&mut part.skipped);
         self.candidates.append(&part.candidates);
         self.candidate_hash.extend_from_slice(&part.candidate_hash);
         self.row_stars.append(&part.stars);
         self.star_hash.extend_from_slice(&part.star_hash);
-        self.lines.extend_from_slice(&part.lines);
+        let line = |l: &u32| u32::try_from(base + *l as u64).unwrap_or(u32::MAX);
+        self.lines.extend(part.lines.iter().map(line));
         for (dst, src) in self.num.iter_mut().zip(&part.num) {
             dst.extend_from_slice(src);
         }
@@ -1828,11 +1834,7 @@ mod tests {
         if !plain {
             bytes.extend_from_slice(b"\n#\"\n");
         }
-        let chunk = Chunk {
-            seq: 0,
-            line: 2,
-            bytes,
-        };
+        let chunk = Chunk { seq: 0, bytes };
         layout.parse(&chunk, &hashbrown::DefaultHashBuilder::default(), None)
     }
 
