@@ -1365,21 +1365,25 @@ impl Merger {
         if self.lines.is_empty() && self.skipped.is_empty() {
             return Err(LoadError::NoRows { path: self.name });
         }
-        // Candidate ids and star ids are resolved on two threads at once.
-        // Duplicate ids are rare; when there are some, their rows go and the
-        // stars are grouped again without them.
-        let ((candidate_lookup, first_of), grouping) = std::thread::scope(|s| {
-            let (rows, hashes) = (&self.row_stars, &self.star_hash);
-            let stars = s.spawn(move || StarGrouping::build(rows, hashes));
-            let cands = &self.candidates;
-            let ids = IdIndex::build(&self.candidate_hash, |a, b| {
-                cands.get(a as usize) == cands.get(b as usize)
-            });
-            let grouping = stars
+        // Candidate ids and star ids are grouped by hash on two threads at
+        // once, then checked by text on both (star ids repeat: most of the
+        // work). Duplicate ids are rare; when there are some, their rows go
+        // and the stars are grouped again without them.
+        let (cands, stars) = std::thread::scope(|s| {
+            let stars = s.spawn(|| Grouped::new(&self.star_hash));
+            let cands = Grouped::new(&self.candidate_hash);
+            let stars = stars
                 .join()
                 .unwrap_or_else(|e| std::panic::resume_unwind(e));
-            (ids, grouping)
+            (cands, stars)
         });
+        let (cand_ids, star_ids) = (&self.candidates, &self.row_stars);
+        let same_cand = |a: u32, b: u32| cand_ids.get(a as usize) == cand_ids.get(b as usize);
+        let same_star = |a: u32, b: u32| star_ids.get(a as usize) == star_ids.get(b as usize);
+        let cands_agree = all_blocks(self.candidate_hash.len(), |r| cands.agrees(r, &same_cand));
+        let stars_agree = all_blocks(self.star_hash.len(), |r| stars.agrees(r, &same_star));
+        let (candidate_lookup, first_of) = cands.settle(cands_agree, same_cand);
+        let grouping = StarGrouping::number(stars.settle(stars_agree, same_star));
         let dups: Vec<(u32, u32)> = (first_of.iter().enumerate())
             .filter(|&(r, &f)| f as usize != r)
             .map(|(r, &f)| (r as u32, f))
@@ -1533,8 +1537,12 @@ struct StarGrouping {
 
 impl StarGrouping {
     fn build(rows: &StrPool, hashes: &[u64]) -> StarGrouping {
-        let (mut lookup, mut star_of) =
-            IdIndex::build(hashes, |a, b| rows.get(a as usize) == rows.get(b as usize));
+        let same = |a: u32, b: u32| rows.get(a as usize) == rows.get(b as usize);
+        StarGrouping::number(IdIndex::build(hashes, same))
+    }
+
+    /// Stars numbered from (index, first row of each row).
+    fn number((mut lookup, mut star_of): (IdIndex, Vec<u32>)) -> StarGrouping {
         // star_of holds each row's first row; number the stars in row order,
         // in place: a first row comes before the rows that repeat it.
         let mut first_rows = Vec::with_capacity(lookup.keys.len());
@@ -1580,34 +1588,9 @@ impl IdIndex {
     /// sends the build through the slower path that compares within each
     /// hash part.
     fn build(hashes: &[u64], same: impl Fn(u32, u32) -> bool) -> (IdIndex, Vec<u32>) {
-        let id_bits = (usize::BITS - hashes.len().leading_zeros()).max(1);
-        let keys = sorted_keys(hashes, id_bits);
-        let mut index = IdIndex {
-            keys: Vec::with_capacity(keys.len()),
-            id_bits,
-        };
-        let mask = index.mask();
-        let mut first_of: Vec<u32> = (0..hashes.len() as u32).collect();
-        let mut i = 0;
-        while i < keys.len() {
-            let (hash, first) = (keys[i] >> id_bits, (keys[i] & mask) as u32);
-            index.keys.push(keys[i]);
-            i += 1;
-            while i < keys.len() && keys[i] >> id_bits == hash {
-                first_of[(keys[i] & mask) as usize] = first;
-                i += 1;
-            }
-        }
-        let agreed = first_of
-            .iter()
-            .enumerate()
-            .all(|(r, &f)| f as usize == r || same(f, r as u32));
-        if agreed {
-            index.keys.shrink_to_fit();
-            return (index, first_of);
-        }
-        index.keys.clear();
-        index.build_comparing(&keys, first_of, same)
+        let grouped = Grouped::new(hashes);
+        let agreed = grouped.agrees(0..hashes.len(), &same);
+        grouped.settle(agreed, same)
     }
 
     /// `build` when some hash part is shared by different texts: within
@@ -1660,6 +1643,93 @@ impl IdIndex {
             .map(|&k| (k & mask) as u32)
             .find(|&id| eq(id))
     }
+}
+
+/// Rows grouped by hash alone, for `IdIndex::build`: the index of each
+/// hash's first row, each row's first row of the same hash, and the sorted
+/// keys (kept for the slower path).
+struct Grouped {
+    index: IdIndex,
+    first_of: Vec<u32>,
+    keys: Vec<u64>,
+}
+
+impl Grouped {
+    fn new(hashes: &[u64]) -> Grouped {
+        let id_bits = (usize::BITS - hashes.len().leading_zeros()).max(1);
+        let keys = sorted_keys(hashes, id_bits);
+        let mut index = IdIndex {
+            keys: Vec::with_capacity(keys.len()),
+            id_bits,
+        };
+        let mask = index.mask();
+        let mut first_of: Vec<u32> = (0..hashes.len() as u32).collect();
+        let mut i = 0;
+        while i < keys.len() {
+            let (hash, first) = (keys[i] >> id_bits, (keys[i] & mask) as u32);
+            index.keys.push(keys[i]);
+            i += 1;
+            while i < keys.len() && keys[i] >> id_bits == hash {
+                first_of[(keys[i] & mask) as usize] = first;
+                i += 1;
+            }
+        }
+        Grouped {
+            index,
+            first_of,
+            keys,
+        }
+    }
+
+    /// True when each of these rows that is grouped with an earlier row
+    /// has its text (`same` says), in row order: one side of every
+    /// comparison is then read in sequence.
+    fn agrees(&self, rows: std::ops::Range<usize>, same: &impl Fn(u32, u32) -> bool) -> bool {
+        (self.first_of[rows.clone()].iter().zip(rows))
+            .all(|(&f, r)| f as usize == r || same(f, r as u32))
+    }
+
+    /// The index and first rows: as grouped when the texts `agreed`, else
+    /// by the slower path that compares within each hash part (a collision:
+    /// two texts, one hash part; rare).
+    fn settle(self, agreed: bool, same: impl Fn(u32, u32) -> bool) -> (IdIndex, Vec<u32>) {
+        let Grouped {
+            mut index,
+            first_of,
+            keys,
+        } = self;
+        if agreed {
+            index.keys.shrink_to_fit();
+            return (index, first_of);
+        }
+        index.keys.clear();
+        index.build_comparing(&keys, first_of, same)
+    }
+}
+
+/// True when `test` passes for every block of `0..n`, tried on two threads
+/// (blocks handed out in turn, so uneven blocks still share the work).
+fn all_blocks(n: usize, test: impl Fn(std::ops::Range<usize>) -> bool + Sync) -> bool {
+    use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+    const BLOCK: usize = 1 << 15;
+    let next = AtomicUsize::new(0);
+    let failed = AtomicBool::new(false);
+    let work = || {
+        loop {
+            let start = next.fetch_add(1, Ordering::Relaxed) * BLOCK;
+            if start >= n || failed.load(Ordering::Relaxed) {
+                return;
+            }
+            if !test(start..(start + BLOCK).min(n)) {
+                failed.store(true, Ordering::Relaxed);
+            }
+        }
+    };
+    std::thread::scope(|s| {
+        s.spawn(work);
+        work();
+    });
+    !failed.load(Ordering::Relaxed)
 }
 
 /// The keys of `hashes` (each hash with its low `id_bits` bits replaced by
