@@ -172,7 +172,11 @@ fn read_catalogue(
     let mut merger = Merger::new(name, &layout, first_line);
     if eof {
         // Everything is in memory already: no threads for a small file.
-        let chunk = Chunk { seq: 0, bytes: buf };
+        let chunk = Chunk {
+            seq: 0,
+            bytes: buf,
+            plain: false,
+        };
         let part = layout.parse(&chunk, &merger.hasher, None);
         merger.absorb(part, size_hint);
         return merger.finish(&layout, opts);
@@ -219,10 +223,18 @@ fn read_catalogue(
                         }
                     }
                 }
+                // One search tells the cut and whether the workers can take
+                // the chunk as plain text (no quote, no CR).
+                let plain = memchr::memchr2(b'"', b'\r', &carry).is_none();
                 let cut = if eof {
                     carry.len()
                 } else {
-                    match last_record_end(&carry, delimiter) {
+                    let end = if plain {
+                        memchr::memrchr(b'\n', &carry).map(|i| i + 1)
+                    } else {
+                        last_record_end(&carry, delimiter)
+                    };
+                    match end {
                         Some(c) => c,
                         None => {
                             need_more = true; // one record longer than a chunk
@@ -240,7 +252,12 @@ fn read_catalogue(
                 rest.extend_from_slice(&carry[cut..]);
                 carry.truncate(cut);
                 let chunk = std::mem::replace(&mut carry, rest);
-                if chunk_tx.send(Chunk { seq, bytes: chunk }).is_err() {
+                let chunk = Chunk {
+                    seq,
+                    bytes: chunk,
+                    plain,
+                };
+                if chunk_tx.send(chunk).is_err() {
                     return;
                 }
                 seq += 1;
@@ -500,6 +517,8 @@ fn plain_text(b: &[u8]) -> bool {
 struct Chunk {
     seq: usize,
     bytes: Vec<u8>,
+    /// Known to hold no quote and no CR (else `plain_text` tells).
+    plain: bool,
 }
 
 /// What one cell held.
@@ -874,7 +893,7 @@ impl Layout {
         let mut scratch = vec![f64::NAN; NUMERIC.len()];
         // Field bounds are u32 (chunks are a few MB; a longer one takes the
         // general path).
-        if chunk.bytes.len() <= u32::MAX as usize && plain_text(&chunk.bytes) {
+        if chunk.bytes.len() <= u32::MAX as usize && (chunk.plain || plain_text(&chunk.bytes)) {
             // No quotes and no bare CR: every line is a record and every
             // delimiter ends a field. A row in the plainest form is read in
             // one pass, each cell parsed as it is found; any other row is
@@ -1904,7 +1923,11 @@ mod tests {
         if !plain {
             bytes.extend_from_slice(b"\n#\"\n");
         }
-        let chunk = Chunk { seq: 0, bytes };
+        let chunk = Chunk {
+            seq: 0,
+            bytes,
+            plain: false,
+        };
         layout.parse(&chunk, &hashbrown::DefaultHashBuilder::default(), None)
     }
 
