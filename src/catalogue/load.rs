@@ -1401,8 +1401,9 @@ impl Merger {
         let same_star = |a: u32, b: u32| star_ids.get(a as usize) == star_ids.get(b as usize);
         let cands_agree = all_blocks(self.candidate_hash.len(), |r| cands.agrees(r, &same_cand));
         let stars_agree = all_blocks(self.star_hash.len(), |r| stars.agrees(r, &same_star));
-        let (candidate_lookup, first_of) = cands.settle(cands_agree, same_cand);
-        let grouping = StarGrouping::number(stars.settle(stars_agree, same_star));
+        let (candidate_lookup, first_of) =
+            cands.settle(cands_agree, &self.candidate_hash, same_cand);
+        let grouping = StarGrouping::number(stars.settle(stars_agree, &self.star_hash, same_star));
         let dups: Vec<(u32, u32)> = (first_of.iter().enumerate())
             .filter(|&(r, &f)| f as usize != r)
             .map(|(r, &f)| (r as u32, f))
@@ -1609,7 +1610,7 @@ impl IdIndex {
     fn build(hashes: &[u64], same: impl Fn(u32, u32) -> bool) -> (IdIndex, Vec<u32>) {
         let grouped = Grouped::new(hashes);
         let agreed = grouped.agrees(0..hashes.len(), &same);
-        grouped.settle(agreed, same)
+        grouped.settle(agreed, hashes, same)
     }
 
     /// `build` when some hash part is shared by different texts: within
@@ -1665,12 +1666,10 @@ impl IdIndex {
 }
 
 /// Rows grouped by hash alone, for `IdIndex::build`: the index of each
-/// hash's first row, each row's first row of the same hash, and the sorted
-/// keys (kept for the slower path).
+/// hash's first row, and each row's first row of the same hash.
 struct Grouped {
     index: IdIndex,
     first_of: Vec<u32>,
-    keys: Vec<u64>,
 }
 
 impl Grouped {
@@ -1693,11 +1692,7 @@ impl Grouped {
                 i += 1;
             }
         }
-        Grouped {
-            index,
-            first_of,
-            keys,
-        }
+        Grouped { index, first_of }
     }
 
     /// True when each of these rows that is grouped with an earlier row
@@ -1711,16 +1706,22 @@ impl Grouped {
     /// The index and first rows: as grouped when the texts `agreed`, else
     /// by the slower path that compares within each hash part (a collision:
     /// two texts, one hash part; rare).
-    fn settle(self, agreed: bool, same: impl Fn(u32, u32) -> bool) -> (IdIndex, Vec<u32>) {
+    fn settle(
+        self,
+        agreed: bool,
+        hashes: &[u64],
+        same: impl Fn(u32, u32) -> bool,
+    ) -> (IdIndex, Vec<u32>) {
         let Grouped {
             mut index,
             first_of,
-            keys,
         } = self;
         if agreed {
             index.keys.shrink_to_fit();
             return (index, first_of);
         }
+        // The keys again (they are not kept meanwhile: memory).
+        let keys = sorted_keys(hashes, index.id_bits);
         index.keys.clear();
         index.build_comparing(&keys, first_of, same)
     }
