@@ -77,6 +77,33 @@ pub fn disagreeing<V>(
         .collect()
 }
 
+/// The candidates `filter` selects, in file order (all without a filter).
+pub fn selected(
+    cat: &Catalogue,
+    live: &Live,
+    checks: &Checks,
+    disagree: &HashSet<CandidateId>,
+    filter: Option<&Filter>,
+) -> Vec<CandidateId> {
+    let all = 0..cat.len() as CandidateId;
+    let Some(filter) = filter else {
+        return all.collect();
+    };
+    let radii = if needs_radii(filter) {
+        planet_radii(cat)
+    } else {
+        Vec::new()
+    };
+    let selection = Selection {
+        cat,
+        live,
+        checks,
+        radii: &radii,
+        disagree,
+    };
+    all.filter(|&c| selection.selects(filter, c)).collect()
+}
+
 /// Whether a filter compares planet radii (which `planet_radii` computes).
 pub fn needs_radii(filter: &Filter) -> bool {
     filter

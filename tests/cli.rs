@@ -198,3 +198,27 @@ fn broken_pipe_exits_quietly() {
         String::from_utf8_lossy(&out.stderr)
     );
 }
+
+#[test]
+fn odds_where_lists_the_matching_candidates_under_the_whole_catalogue_model() {
+    let all = starsift(&["odds", "--format", "json"]);
+    assert!(all.status.success(), "{}", stderr(&all));
+    let all: serde_json::Value = serde_json::from_slice(&all.stdout).unwrap();
+    let o = starsift(&["odds", "--where", "k>=5", "--format", "json"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let some: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let listed = some["candidates"].as_array().unwrap();
+    let want = (all["candidates"].as_array().unwrap().iter())
+        .filter(|c| c["k"].as_u64().unwrap() >= 5)
+        .count();
+    assert!(want > 0 && want < 444, "{want}");
+    assert_eq!(listed.len(), want);
+    assert_eq!(some["filter"], "k>=5");
+    // The model, its table and the counts are the whole catalogue's.
+    for key in ["model", "table", "counts"] {
+        assert_eq!(some[key], all[key], "{key}");
+    }
+    let bad = starsift(&["odds", "--where", "k>>5"]);
+    assert_eq!(bad.status.code(), Some(2));
+    assert!(stderr(&bad).contains("--where k>>5"), "{}", stderr(&bad));
+}

@@ -16,7 +16,7 @@ use crate::odds::{Live, model_statement};
 use crate::output::{csv_writer, exact_in, write_json};
 use crate::query::Filter;
 use crate::sanitize::clean;
-use crate::selection::{Selection, disagreeing, needs_radii, planet_radii};
+use crate::selection::{disagreeing, selected};
 
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
@@ -130,24 +130,8 @@ impl Vetted {
     /// The candidates a filter matches (all without one), in file order.
     pub fn selected(&self, filter: Option<&Filter>) -> Vec<CandidateId> {
         let cat = &self.loaded.catalogue;
-        let all = 0..cat.len() as CandidateId;
-        let Some(filter) = filter else {
-            return all.collect();
-        };
         let disagree = disagreeing(cat, &self.disagreements);
-        let radii = if needs_radii(filter) {
-            planet_radii(cat)
-        } else {
-            Vec::new()
-        };
-        let selection = Selection {
-            cat,
-            live: &self.live,
-            checks: &self.checks,
-            radii: &radii,
-            disagree: &disagree,
-        };
-        all.filter(|&c| selection.selects(filter, c)).collect()
+        selected(cat, &self.live, &self.checks, &disagree, filter)
     }
 }
 

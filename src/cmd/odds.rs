@@ -24,18 +24,30 @@ pub struct Args {
     /// Output format: a table for people, CSV or JSON for scripts.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
+    /// List only the candidates this filter matches (the browser's syntax,
+    /// e.g. "k>=2 verdict:validated"); the odds, the table per k and the
+    /// counts are still those of the whole catalogue. No ledger is read, so
+    /// every candidate is open and `disagree` matches none.
+    #[arg(long = "where", value_name = "FILTER")]
+    pub filter: Option<String>,
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
+    let filter = crate::cli::parse_where(args.filter.as_deref())?;
     let loaded = args.input.load()?;
     let cat = &loaded.catalogue;
     let model = args.model.model(&loaded.survey)?;
     // The checks' flags feed the verdicts (a blocking flag bars `validated`).
-    let flags = crate::checks::run(cat, &args.checks.settings())
-        .all_flags()
-        .to_vec();
+    let checks = crate::checks::run(cat, &args.checks.settings());
+    let flags = checks.all_flags().to_vec();
     let decisions = vec![crate::decision::Decision::Open; cat.len()];
     let live = Live::with_state(cat, model, flags, decisions)?;
+    let none = std::collections::HashSet::new();
+    let rows = crate::selection::selected(cat, &live, &checks, &none, filter.as_ref());
+    let shown = Shown {
+        rows: &rows,
+        filter: filter.as_ref().map(|f| f.text.as_str()),
+    };
     let warnings: Vec<&String> = live
         .input_warnings
         .iter()
@@ -47,13 +59,24 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         }
     }
     match args.format {
-        Format::Csv => write_csv(cat, &live, out),
-        Format::Json => write_json(out, &to_json(cat, &live)).map_err(CliError::from),
-        Format::Table => write_table(cat, &live, out),
+        Format::Csv => write_csv(cat, &live, &shown, out),
+        Format::Json => write_json(out, &to_json(cat, &live, &shown)).map_err(CliError::from),
+        Format::Table => write_table(cat, &live, &shown, out),
     }
 }
 
-fn write_csv(cat: &Catalogue, live: &Live, out: &mut dyn Write) -> Result<(), CliError> {
+/// The candidates listed, and the filter that chose them.
+struct Shown<'a> {
+    rows: &'a [CandidateId],
+    filter: Option<&'a str>,
+}
+
+fn write_csv(
+    cat: &Catalogue,
+    live: &Live,
+    shown: &Shown,
+    out: &mut dyn Write,
+) -> Result<(), CliError> {
     let mut w = csv_writer(out);
     w.write_record([
         "star",
@@ -67,7 +90,7 @@ fn write_csv(cat: &Catalogue, live: &Live, out: &mut dyn Write) -> Result<(), Cl
         "decision",
         "flags",
     ])?;
-    for c in 0..cat.len() as CandidateId {
+    for &c in shown.rows {
         w.write_record([
             clean(cat.star_id(cat.star_of(c))).as_ref(),
             clean(cat.candidate_id(c)).as_ref(),
@@ -112,10 +135,10 @@ fn model_json(live: &Live) -> Value {
     })
 }
 
-fn to_json(cat: &Catalogue, live: &Live) -> Value {
+fn to_json(cat: &Catalogue, live: &Live, shown: &Shown) -> Value {
     let f = |v: Option<f64>| v.map_or(Value::Null, |x| json!(x));
-    let candidates: Vec<Value> = (0..cat.len() as CandidateId)
-        .map(|c| {
+    let candidates: Vec<Value> = (shown.rows.iter())
+        .map(|&c| {
             json!({
                 "star": clean(cat.star_id(cat.star_of(c))),
                 "candidate": clean(cat.candidate_id(c)),
@@ -145,12 +168,27 @@ fn to_json(cat: &Catalogue, live: &Live) -> Value {
         "table": table_json(live.table()),
         "counts": counts,
         "warnings": warnings,
+        "filter": shown.filter.map(|t| clean(t).into_owned()),
         "candidates": candidates,
     })
 }
 
-fn write_table(cat: &Catalogue, live: &Live, out: &mut dyn Write) -> Result<(), CliError> {
+fn write_table(
+    cat: &Catalogue,
+    live: &Live,
+    shown: &Shown,
+    out: &mut dyn Write,
+) -> Result<(), CliError> {
     writeln!(out, "catalogue  {}", clean(&cat.source))?;
+    if let Some(f) = shown.filter {
+        writeln!(
+            out,
+            "where      {} ({} of {} candidates)",
+            clean(f),
+            shown.rows.len(),
+            cat.len()
+        )?;
+    }
     let mut t = TextTable::new(&[
         ("star", Align::Left),
         ("candidate", Align::Left),
@@ -161,7 +199,7 @@ fn write_table(cat: &Catalogue, live: &Live, out: &mut dyn Write) -> Result<(), 
         ("probability", Align::Right),
         ("verdict", Align::Left),
     ]);
-    for c in 0..cat.len() as CandidateId {
+    for &c in shown.rows {
         t.row(&[
             cat.star_id(cat.star_of(c)).to_string(),
             cat.candidate_id(c).to_string(),
