@@ -1916,10 +1916,14 @@ mod tests {
     /// Parses `text` (rows after a header of `header`) as one chunk, as the
     /// loader does: by the one-pass reader when `plain`, else by the
     /// general (csv-core) reader, which a quote in a trailing comment forces.
+    /// The delimiter is a tab when the header has one, else a comma.
     fn parse_rows(header: &str, text: &[u8], plain: bool, index_only: bool) -> Part {
-        let header: Vec<String> = header.split(',').map(str::to_string).collect();
+        let delimiter = if header.contains('\t') { b'\t' } else { b',' };
+        let header: Vec<String> = (header.split(delimiter as char))
+            .map(str::to_string)
+            .collect();
         let mapping = Mapping::resolve("t.csv", &header, &ColumnMap::default()).expect("header");
-        let layout = Layout::new(header, mapping, b',', index_only);
+        let layout = Layout::new(header, mapping, delimiter, index_only);
         let mut bytes = text.to_vec();
         if !plain {
             bytes.extend_from_slice(b"\n#\"\n");
@@ -2029,6 +2033,11 @@ mod tests {
             for index_only in [false, true] {
                 let plain = parse_rows(header, text.as_bytes(), true, index_only);
                 let general = parse_rows(header, text.as_bytes(), false, index_only);
+                proptest::prop_assert_eq!(part_text(&plain), part_text(&general));
+                // The same rows as TSV.
+                let (header, text) = (header.replace(',', "\t"), text.replace(',', "\t"));
+                let plain = parse_rows(&header, text.as_bytes(), true, index_only);
+                let general = parse_rows(&header, text.as_bytes(), false, index_only);
                 proptest::prop_assert_eq!(part_text(&plain), part_text(&general));
             }
         }
