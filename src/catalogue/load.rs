@@ -707,6 +707,15 @@ fn number_at(b: &[u8], p: usize) -> Option<(f64, usize)> {
     Some((if d.neg { -v } else { v }, end))
 }
 
+/// `end`, or one byte less when `b[start..end]` ends in a CR (of a CRLF).
+fn before_cr(b: &[u8], start: usize, end: usize) -> usize {
+    if end > start && b[end - 1] == b'\r' {
+        end - 1
+    } else {
+        end
+    }
+}
+
 /// Where the text cell that starts at `b[p]` ends: the next delimiter or
 /// line end, or the end of `b`. Eight bytes at a time (SWAR: a word's
 /// matching bytes become a bit mask), as cells are short.
@@ -1005,8 +1014,7 @@ impl Layout {
                     }
                     Some(_) => return None,
                     None => {
-                        let q = text_end(b, p, self.delimiter);
-                        let q = if q > p && b[q - 1] == b'\r' { q - 1 } else { q };
+                        let q = before_cr(b, p, text_end(b, p, self.delimiter));
                         if !MISSING_TOKENS.contains(&&b[p..q]) {
                             return None;
                         }
@@ -1014,10 +1022,7 @@ impl Layout {
                         q
                     }
                 },
-                (Role::Id | Role::Text, None) => {
-                    let q = text_end(b, p, self.delimiter);
-                    if q > p && b[q - 1] == b'\r' { q - 1 } else { q }
-                }
+                (Role::Id | Role::Text, None) => before_cr(b, p, text_end(b, p, self.delimiter)),
             };
             if let Role::Id = role {
                 let id = &b[p..end];
@@ -1049,11 +1054,7 @@ impl Layout {
     /// at its delimiters into `rec.bounds`, a CR before the line end left out.
     fn split_line(&self, b: &[u8], start: usize, end: usize, rec: &mut SplitRecord) {
         rec.bounds.clear();
-        let end = if end > start && b[end - 1] == b'\r' {
-            end - 1
-        } else {
-            end
-        };
+        let end = before_cr(b, start, end);
         let line = &b[..end];
         let mut p = start;
         loop {
