@@ -12,6 +12,11 @@ fn load(name: &str) -> Result<Catalogue, LoadError> {
     Catalogue::load(Source::Path(&fixture(name)), &LoadOptions::default())
 }
 
+/// Loads bytes from memory under a file name, with the default options.
+fn load_bytes(name: &str, data: &[u8]) -> Result<Catalogue, LoadError> {
+    Catalogue::load(Source::Bytes { name, data }, &LoadOptions::default())
+}
+
 #[test]
 fn good_csv_with_comments_quotes_and_multiline_fields() {
     let c = load("good.csv").unwrap();
@@ -279,14 +284,7 @@ fn large_files_split_across_threads_match_a_serial_read() {
     let last = c.find_candidate("LF49999-149999").unwrap();
     assert_eq!(last as usize, c.len() - 1);
     // The same bytes read from memory agree.
-    let m = Catalogue::load(
-        Source::Bytes {
-            name: "large.csv",
-            data: text.as_bytes(),
-        },
-        &LoadOptions::default(),
-    )
-    .unwrap();
+    let m = load_bytes("large.csv", text.as_bytes()).unwrap();
     assert_eq!(m.len(), c.len());
     assert_eq!(m.skipped, c.skipped);
     let _ = std::fs::remove_dir_all(&d);
@@ -376,14 +374,7 @@ fn skips_in_a_quoted_file_name_the_right_line() {
                 QL1,QL1-b,x,100,400,2,\r\n\
                 QL2,QL2-a,3.5,100,400,2,\"two\r\nlines\"\r\n\
                 QL2,QL2-b,3.5,100,-1,2,\r\n";
-    let c = Catalogue::load(
-        Source::Bytes {
-            name: "quoted.csv",
-            data: text.as_bytes(),
-        },
-        &LoadOptions::default(),
-    )
-    .unwrap();
+    let c = load_bytes("quoted.csv", text.as_bytes()).unwrap();
     assert_eq!(c.len(), 2);
     let lines: Vec<u64> = c.skipped.iter().map(|s| s.line).collect();
     assert_eq!(lines, [5, 8], "{:?}", c.skipped);
@@ -405,14 +396,7 @@ fn a_broken_gzip_stream_names_the_file_and_the_line_it_reached() {
     gz.write_all(text.as_bytes()).unwrap();
     let bytes = gz.finish().unwrap();
     let cut = &bytes[..bytes.len() * 3 / 5];
-    let err = Catalogue::load(
-        Source::Bytes {
-            name: "broken.csv.gz",
-            data: cut,
-        },
-        &LoadOptions::default(),
-    )
-    .unwrap_err();
+    let err = load_bytes("broken.csv.gz", cut).unwrap_err();
     let LoadError::Read { path, line, .. } = &err else {
         panic!("{err}");
     };
