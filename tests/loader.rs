@@ -406,3 +406,25 @@ fn a_broken_gzip_stream_names_the_file_and_the_line_it_reached() {
     assert!((40_000..=200_001).contains(line), "{err}");
     assert!(err.to_string().starts_with("broken.csv.gz: line "), "{err}");
 }
+
+#[test]
+fn lines_ended_by_a_cr_alone_load_with_their_line_numbers() {
+    // Classic Mac line ends (CR only), as CSV and as TSV found by sniffing.
+    let csv = "star,candidate,period,epoch,depth_ppm,duration_h\r\
+               MC1,MC1-a,3.5,100,400,2\r\
+               # a comment\r\
+               MC1,MC1-b,x,100,400,2\r\
+               MC2,MC2-a,7.25,100,400,2\r";
+    for (name, text) in [
+        ("mac.csv", csv.to_string()),
+        ("mac.txt", csv.replace(',', "\t")),
+    ] {
+        let c = load_bytes(name, text.as_bytes()).unwrap();
+        assert_eq!(c.len(), 2, "{name}");
+        assert_eq!(c.star_count(), 2, "{name}");
+        let b = c.find_candidate("MC2-a").unwrap();
+        assert_eq!(c.value(Field::PeriodD, b), Some(7.25));
+        let lines: Vec<u64> = c.skipped.iter().map(|s| s.line).collect();
+        assert_eq!(lines, [4], "{name}: {:?}", c.skipped);
+    }
+}

@@ -90,13 +90,35 @@ impl Catalogue {
         if head.starts_with(&BOM) {
             text.consume(BOM.len());
         }
+        // Classic Mac line ends: a CR alone, and no LF in the first read.
+        let head = text.fill_buf().map_err(io_err)?;
+        let cr_only =
+            memchr::memchr(b'\r', head).is_some() && memchr::memchr(b'\n', head).is_none();
         let delimiter = match opts.delimiter {
             Some(d) => d,
             None => {
                 delimiter_for(&ext_name).unwrap_or_else(|| sniff(text.fill_buf().unwrap_or(&[])))
             }
         };
+        if cr_only {
+            return read_catalogue(name, CrAsLf(text), delimiter, opts, size_hint);
+        }
         read_catalogue(name, text, delimiter, opts, size_hint)
+    }
+}
+
+/// Reads a CR as a line end (LF), for files whose lines end in a CR alone.
+struct CrAsLf<R>(R);
+
+impl<R: Read> Read for CrAsLf<R> {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        let n = self.0.read(buf)?;
+        for b in &mut buf[..n] {
+            if *b == b'\r' {
+                *b = b'\n';
+            }
+        }
+        Ok(n)
     }
 }
 
@@ -114,9 +136,10 @@ fn delimiter_for(path: &str) -> Option<u8> {
 }
 
 /// Tab if the first non-comment line has more tabs than commas, else comma.
+/// (A CR ends a line too: some files end lines with a CR alone.)
 fn sniff(head: &[u8]) -> u8 {
     let line = head
-        .split(|&b| b == b'\n')
+        .split(|&b| b == b'\n' || b == b'\r')
         .find(|l| !l.starts_with(b"#") && !l.iter().all(u8::is_ascii_whitespace))
         .unwrap_or(&[]);
     let tabs = line.iter().filter(|&&b| b == b'\t').count();
