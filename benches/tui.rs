@@ -72,6 +72,7 @@ fn main() {
         &cat,
         model,
         vec![Default::default(); n],
+        starsift::checks::SignalGroups::none(n),
         vec![Decision::Open; n],
     )
     .expect("model");

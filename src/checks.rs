@@ -6,7 +6,10 @@
 //! thresholds: METHODS.md §2–§3.
 
 mod echo;
+mod groups;
 mod system;
+
+pub use groups::SignalGroups;
 
 use crate::catalogue::{CandidateId, Catalogue, Field};
 use crate::constants::{AU_M, G, R_SUN_M};
@@ -175,6 +178,8 @@ pub struct Checks {
     soft: Vec<FlagSet>,
     /// (candidate, finding), sorted by candidate.
     findings: Vec<(CandidateId, Finding)>,
+    /// Candidates that are one signal, best first.
+    groups: SignalGroups,
 }
 
 impl Checks {
@@ -184,7 +189,13 @@ impl Checks {
             flags: vec![FlagSet::EMPTY; n],
             soft: vec![FlagSet::EMPTY; n],
             findings: Vec::new(),
+            groups: SignalGroups::none(n),
         }
+    }
+
+    /// The signal groups: candidates of one star that are one signal.
+    pub fn groups(&self) -> &SignalGroups {
+        &self.groups
     }
 
     /// Flags that fired firmly (these feed verdicts).
@@ -258,11 +269,7 @@ impl Checks {
 /// Runs every check on the catalogue.
 pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
     let n = cat.len();
-    let empty = || Checks {
-        flags: vec![FlagSet::EMPTY; n],
-        soft: vec![FlagSet::EMPTY; n],
-        findings: Vec::new(),
-    };
+    let empty = || Checks::none(n);
     // The cross-star echo sweep is independent of the per-star checks: it
     // runs on a thread of its own and the two results are merged.
     let (mut checks, echoes) = std::thread::scope(|scope| {
@@ -286,12 +293,22 @@ pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
             radius_rearth: &radius,
         };
         let mut scratch = system::Scratch::default();
+        let mut links = Vec::new();
         for star in 0..cat.star_count() as u32 {
             let members = cat.members(star);
             if members.len() >= 2 {
-                system::check(cat, members, &derived, s, &mut scratch, &mut checks);
+                system::check(
+                    cat,
+                    members,
+                    &derived,
+                    s,
+                    &mut scratch,
+                    &mut links,
+                    &mut checks,
+                );
             }
         }
+        group_flags(cat, &links, &mut checks);
         (
             checks,
             echo.join().unwrap_or_else(|e| std::panic::resume_unwind(e)),
@@ -311,12 +328,27 @@ pub fn run_lightcurves(
     detrend: &crate::lightcurve::analysis::DetrendSettings,
     checks: &mut Checks,
 ) -> Vec<(String, String)> {
+    run_lightcurves_counted(cat, finder, detrend, checks, |_, _| {}).1
+}
+
+/// [`run_lightcurves`], star by star (each star's curve is dropped when
+/// done), calling `progress(done, total)` over the stars that have a light
+/// curve; returns how many stars were read and the errors.
+pub fn run_lightcurves_counted(
+    cat: &Catalogue,
+    finder: &crate::lightcurve::Finder,
+    detrend: &crate::lightcurve::analysis::DetrendSettings,
+    checks: &mut Checks,
+    mut progress: impl FnMut(usize, usize),
+) -> (usize, Vec<(String, String)>) {
     let cache = crate::lightcurve::Cache::default();
     let mut errors = Vec::new();
-    for star in 0..cat.star_count() as u32 {
-        if !finder.has(cat, star) {
-            continue;
-        }
+    let stars: Vec<u32> = (0..cat.star_count() as u32)
+        .filter(|&s| finder.has(cat, s))
+        .collect();
+    let total = stars.len();
+    let mut last = std::time::Instant::now();
+    for (done, &star) in stars.iter().enumerate() {
         for &c in cat.members(star) {
             match cache.diagnostics(finder, cat, c, detrend).as_ref() {
                 Ok(d) => checks.add_lightcurve(c, &d.findings),
@@ -327,9 +359,131 @@ pub fn run_lightcurves(
             }
         }
         cache.forget(star);
+        if last.elapsed().as_millis() >= 200 || done + 1 == total {
+            progress(done + 1, total);
+            last = std::time::Instant::now();
+        }
     }
-    errors
+    (total, errors)
 }
+
+/// Signal groups from the links between candidates, and their flags: each
+/// member but the representative gets the firm flag of its link, naming the
+/// representative it follows; the representative gets it as a warning. An
+/// eclipse pair whose shallower eclipse is deeper than any planet's
+/// occultation could be marks every member `secondary`
+/// (docs/science.md §3.1, §4.3).
+fn group_flags(cat: &Catalogue, links: &[system::Link], out: &mut Checks) {
+    let triples: Vec<(CandidateId, CandidateId, Flag)> =
+        links.iter().map(|l| (l.a, l.b, l.flag)).collect();
+    let groups = SignalGroups::from_links(cat, &triples);
+    let id = |c: CandidateId| cat.candidate_id(c).to_string();
+    // The links of each candidate, by index into `links`.
+    let mut of: std::collections::HashMap<CandidateId, Vec<usize>> = Default::default();
+    for (i, l) in links.iter().enumerate() {
+        of.entry(l.a).or_default().push(i);
+        of.entry(l.b).or_default().push(i);
+    }
+    let links_of = |c: CandidateId| of.get(&c).map_or(&[][..], |v| v.as_slice());
+    let other = |l: &system::Link, c: CandidateId| if l.a == c { l.b } else { l.a };
+    for g in 0..groups.len() as u32 {
+        let members = groups.members(g);
+        let rep = members[0];
+        for &m in &members[1..] {
+            // The link to the representative if there is one, else any.
+            let mine = links_of(m);
+            let link = mine
+                .iter()
+                .map(|&i| &links[i])
+                .find(|l| other(l, m) == rep)
+                .or_else(|| mine.first().map(|&i| &links[i]));
+            if let Some(l) = link {
+                out.add(
+                    m,
+                    l.flag,
+                    false,
+                    format!(
+                        "with {}: {}; counts once, as {}",
+                        id(other(l, m)),
+                        l.detail,
+                        id(rep)
+                    ),
+                );
+            }
+        }
+        for l in links_of(rep).iter().map(|&i| &links[i]) {
+            out.add(
+                rep,
+                l.flag,
+                true,
+                format!(
+                    "with {}: {}; this candidate stands for the signal",
+                    id(other(l, rep)),
+                    l.detail
+                ),
+            );
+        }
+        let too_deep = members.iter().find_map(|&m| {
+            links_of(m)
+                .iter()
+                .map(|&i| &links[i])
+                .filter(|l| l.flag == Flag::HalfPhase && l.a == m)
+                .find_map(|l| eclipse_pair_too_deep(cat, l.a, l.b))
+        });
+        if let Some(why) = too_deep {
+            for &m in members {
+                out.add(m, Flag::Secondary, false, why.clone());
+            }
+        }
+    }
+    out.groups = groups;
+}
+
+/// Whether the shallower of two same-period signals is deeper than a
+/// planet's occultation could be behind the deeper: reflected light with
+/// geometric albedo 1 plus dayside thermal emission (bolometric, no
+/// redistribution), together (5/3)·k²·(R★/a)² with k² the deeper depth
+/// (docs/science.md §4.3; Winn 2010 for the geometry). a/R★ from the star,
+/// else from the deeper transit's duration (b = 0 when unknown: the largest
+/// a/R★, the lowest ceiling). The shallower depth must clear the ceiling by
+/// three times its error (depth/SNR) when the SNR is known.
+fn eclipse_pair_too_deep(cat: &Catalogue, a: CandidateId, b: CandidateId) -> Option<String> {
+    let depth = |c| cat.value(Field::DepthPpm, c).unwrap_or(f64::NAN);
+    let (deep, shallow) = if depth(a) >= depth(b) { (a, b) } else { (b, a) };
+    let (d1, d2) = (depth(deep), depth(shallow));
+    if !(d1 > 0.0 && d2 > 0.0) {
+        return None;
+    }
+    let k = (d1 * 1e-6).sqrt();
+    let period = cat.value(Field::PeriodD, deep)?;
+    let a_rstar = derive(cat, deep, &CheckSettings::default())
+        .a_rstar
+        .or_else(|| {
+            science::a_rstar_from_duration(
+                period,
+                cat.value(Field::DurationH, deep)?,
+                k,
+                cat.value(Field::Impact, deep).unwrap_or(0.0).min(1.0 + k),
+            )
+        })?;
+    let ceiling = OCCULTATION_CEILING_FACTOR * d1 / (a_rstar * a_rstar);
+    let sigma2 = cat
+        .value(Field::Snr, shallow)
+        .filter(|s| *s > 0.0)
+        .map_or(0.0, |s| d2 / s);
+    (d2 - 3.0 * sigma2 > ceiling).then(|| {
+        format!(
+            "same-period signals {} ({d1:.0} ppm) and {} ({d2:.0} ppm): the shallower is above the {ceiling:.0} ppm a planet's occultation can reach at a/R★ = {a_rstar:.1} (albedo 1 plus dayside heat): an eclipsing binary",
+            cat.candidate_id(deep),
+            cat.candidate_id(shallow)
+        )
+    })
+}
+
+/// Reflected (geometric albedo 1) plus bolometric dayside thermal emission
+/// ((T_day/T_eff)⁴ = (2/3)(R★/a)², no redistribution) of a planet, in units
+/// of k²(R★/a)²: 1 + 2/3 (docs/science.md §4.3).
+const OCCULTATION_CEILING_FACTOR: f64 = 5.0 / 3.0;
 
 fn candidate_flags(
     cat: &Catalogue,

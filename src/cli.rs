@@ -79,37 +79,48 @@ pub struct ModelArgs {
     /// N: number of target stars searched (overrides survey.toml).
     #[arg(long, value_name = "N")]
     pub targets: Option<u64>,
-    /// f: false-positive fraction of single-candidate stars, in (0, 1) [default: survey.toml, else 0.1].
+    /// f: false-positive fraction of single-candidate stars, in (0, 1)
+    /// [default: survey.toml, else 0.1]; or by planet radius in Earth radii,
+    /// e.g. 0-2:0.07,2-6:0.09,6-22:0.18 (radii outside every bin, or unknown,
+    /// take survey.toml's f, else 0.1).
     #[arg(long, value_name = "F")]
-    pub fp_fraction: Option<f64>,
+    pub fp_fraction: Option<String>,
     /// Boost definition: catalogue, system, or fixed:2=25,3=100.
     #[arg(long, value_name = "MODE", default_value = "catalogue")]
     pub boost: String,
     /// Posterior odds needed for `validated`.
     #[arg(long, value_name = "T", default_value_t = crate::odds::DEFAULT_THRESHOLD)]
     pub threshold: f64,
-    /// Flags that keep a candidate from `validated` (comma-separated).
-    #[arg(
-        long,
-        value_name = "FLAGS",
-        default_value = "big-radius,secondary,odd-even,echo,crowded"
-    )]
-    pub blocking: String,
+    /// Flags that hold a candidate back from the count and from `validated`
+    /// (comma-separated) [default: big-radius, odd-even, secondary,
+    /// density-mismatch, near-twin, harmonic, crowded, echo, low-snr,
+    /// half-phase, not-recovered].
+    #[arg(long, value_name = "FLAGS")]
+    pub blocking: Option<String>,
 }
 
 impl ModelArgs {
     /// The model, from these flags and the survey facts.
     pub fn model(&self, survey: &SurveyFacts) -> Result<crate::odds::Model, CliError> {
-        Ok(crate::odds::Model {
+        let (single, bins) = match &self.fp_fraction {
+            Some(text) => crate::odds::parse_fp_fraction(text).map_err(CliError::Input)?,
+            None => (None, Vec::new()),
+        };
+        let model = crate::odds::Model {
             targets: self.targets.or(survey.targets_searched),
-            fp_fraction: self
-                .fp_fraction
+            fp_fraction: single
                 .or(survey.fp_fraction_singles)
                 .unwrap_or(crate::odds::DEFAULT_FP_FRACTION),
+            fp_by_radius: bins,
             mode: crate::odds::BoostMode::parse(&self.boost).map_err(CliError::Input)?,
             threshold: self.threshold,
-            blocking: crate::flags::FlagSet::parse_list(&self.blocking).map_err(CliError::Input)?,
-        })
+            blocking: match &self.blocking {
+                Some(list) => crate::flags::FlagSet::parse_list(list).map_err(CliError::Input)?,
+                None => crate::flags::FlagSet::default_blocking(),
+            },
+        };
+        crate::odds::check_inputs(&model, 0)?;
+        Ok(model)
     }
 }
 
@@ -130,6 +141,54 @@ impl LedgerArgs {
         self.vetter
             .clone()
             .unwrap_or_else(crate::ledger::login_name)
+    }
+
+    /// The ledger a read-only command reads: the one `--ledger` names (which
+    /// must exist: a mistyped path is an error, not an empty ledger), else
+    /// the default one if it exists; `None` when there is none. Nothing is
+    /// created or written.
+    pub fn open_existing(
+        &self,
+        input: &CatalogueArgs,
+        loaded: &Loaded,
+    ) -> Result<Option<crate::ledger::Ledger>, CliError> {
+        let path = match &self.ledger {
+            Some(p) => {
+                if !p.exists() {
+                    return Err(CliError::Input(format!(
+                        "--ledger {}: no such ledger (a read-only command never creates one)",
+                        crate::sanitize::clean(&p.display().to_string())
+                    )));
+                }
+                p.clone()
+            }
+            None => {
+                let bytes = match &input.catalogue {
+                    Some(p) => std::fs::read(p)?,
+                    None => crate::demo::CATALOGUE_CSV.as_bytes().to_vec(),
+                };
+                let fp = crate::ledger::fingerprint(&bytes);
+                let p = crate::ledger::default_path(input.catalogue.as_deref(), &fp);
+                if !p.exists() {
+                    return Ok(None);
+                }
+                p
+            }
+        };
+        let ledger = crate::ledger::Ledger::open(&path)?;
+        let cat = &loaded.catalogue;
+        let gone = ledger
+            .latest(None)?
+            .iter()
+            .filter(|e| cat.find_candidate(&e.candidate).is_none())
+            .count();
+        if gone > 0 {
+            eprintln!(
+                "starsift: note: {gone} decided candidates of {} are not in the catalogue",
+                crate::sanitize::clean(&path.display().to_string())
+            );
+        }
+        Ok(Some(ledger))
     }
 
     /// Opens the ledger for a loaded catalogue, records the catalogue's
@@ -274,10 +333,14 @@ pub struct VettingArgs {
 /// Where light curves are and how to read them.
 #[derive(Debug, Clone, Default, clap::Args)]
 pub struct LightcurveArgs {
-    /// Light curves: a folder of `<star id>.csv|.csv.gz|.tsv|.fits[.gz]`; with
-    /// no folder, the paths in the catalogue's `lightcurve` column.
+    /// Light curves: a folder of `<star id>.csv|.csv.gz|.tsv|.fits[.gz]`
+    /// [default: the paths in the catalogue's `lightcurve` column, and the
+    /// demo's own]. Every light curve found is used.
     #[arg(long, value_name = "DIR", num_args = 0..=1, default_missing_value = "")]
     pub lightcurves: Option<String>,
+    /// Do not read light curves: the light-curve flags stay unset.
+    #[arg(long, conflicts_with = "lightcurves")]
+    pub no_lightcurves: bool,
     /// Light-curve time column (default: time|t|bjd).
     #[arg(long, value_name = "NAME")]
     pub time_column: Option<String>,
@@ -299,9 +362,9 @@ pub struct LightcurveArgs {
 }
 
 impl LightcurveArgs {
-    /// True when light curves were asked for.
+    /// True unless `--no-lightcurves`: every light curve found is used.
     pub fn wanted(&self) -> bool {
-        self.lightcurves.is_some()
+        !self.no_lightcurves
     }
 
     pub fn finder(&self, loaded: &Loaded) -> crate::lightcurve::Finder {

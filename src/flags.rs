@@ -16,9 +16,11 @@ pub enum Flag {
     Crowded,
     Echo,
     LowSnr,
+    HalfPhase,
+    NotRecovered,
 }
 
-pub const ALL_FLAGS: [Flag; 10] = [
+pub const ALL_FLAGS: [Flag; 12] = [
     Flag::BigRadius,
     Flag::OddEven,
     Flag::Secondary,
@@ -29,6 +31,8 @@ pub const ALL_FLAGS: [Flag; 10] = [
     Flag::Crowded,
     Flag::Echo,
     Flag::LowSnr,
+    Flag::HalfPhase,
+    Flag::NotRecovered,
 ];
 
 impl Flag {
@@ -44,6 +48,8 @@ impl Flag {
             Flag::Crowded => "crowded",
             Flag::Echo => "echo",
             Flag::LowSnr => "low-snr",
+            Flag::HalfPhase => "half-phase",
+            Flag::NotRecovered => "not-recovered",
         }
     }
 
@@ -69,8 +75,10 @@ pub struct FlagSet(u16);
 impl FlagSet {
     pub const EMPTY: FlagSet = FlagSet(0);
 
-    /// The flags that keep a candidate from `validated` by default
-    /// (METHODS.md §0).
+    /// The flags that keep a candidate out of the count and from
+    /// `validated` by default (docs/science.md §4): every firm sign that the
+    /// signal is not an independent planet of this star. Only `v-shape`
+    /// (grazing planets are V-shaped too) stays out by default.
     pub fn default_blocking() -> FlagSet {
         [
             Flag::BigRadius,
@@ -78,9 +86,23 @@ impl FlagSet {
             Flag::OddEven,
             Flag::Echo,
             Flag::Crowded,
+            Flag::LowSnr,
+            Flag::NearTwin,
+            Flag::Harmonic,
+            Flag::HalfPhase,
+            Flag::DensityMismatch,
+            Flag::NotRecovered,
         ]
         .into_iter()
         .collect()
+    }
+
+    /// The flags that mark a candidate as a copy of another signal of its
+    /// star (one member of a signal group that is not its representative).
+    pub fn group_flags() -> FlagSet {
+        [Flag::NearTwin, Flag::Harmonic, Flag::HalfPhase]
+            .into_iter()
+            .collect()
     }
 
     pub fn insert(&mut self, f: Flag) {
@@ -93,6 +115,16 @@ impl FlagSet {
 
     pub fn intersects(self, other: FlagSet) -> bool {
         self.0 & other.0 != 0
+    }
+
+    /// The flags in both sets.
+    pub fn intersection(self, other: FlagSet) -> FlagSet {
+        FlagSet(self.0 & other.0)
+    }
+
+    /// The flags of `self` not in `other`.
+    pub fn difference(self, other: FlagSet) -> FlagSet {
+        FlagSet(self.0 & !other.0)
     }
 
     /// Every flag in either set.
@@ -154,8 +186,12 @@ mod tests {
             assert_eq!(Flag::parse(f.name()), Some(f));
         }
         let b = FlagSet::default_blocking();
-        assert!(b.contains(Flag::Echo) && !b.contains(Flag::LowSnr));
-        assert_eq!(b.joined(";"), "big-radius;odd-even;secondary;crowded;echo");
+        assert!(b.contains(Flag::Echo) && b.contains(Flag::LowSnr));
+        assert!(!b.contains(Flag::VShape));
+        assert_eq!(
+            b.joined(";"),
+            "big-radius;odd-even;secondary;density-mismatch;near-twin;harmonic;crowded;echo;low-snr;half-phase;not-recovered"
+        );
         assert_eq!(
             FlagSet::parse_list("echo, low-snr").unwrap().joined(","),
             "echo,low-snr"

@@ -15,6 +15,8 @@
 //! - [`query`]: the filter syntax; [`selection`]: what a filter selects
 //!   (candidates as the filter sees them, shared by the browser and `--where`).
 //! - [`tui`]: the terminal browser, a thin shell over the core.
+//! - [`session`]: one catalogue with all its evidence (checks, light curves,
+//!   ledger) and the live odds; every command's verdicts come from it.
 //! - [`cli`] and [`cmd`]: the command line; one file per command.
 //!
 //! The core (`catalogue`, `survey`, `odds`) knows nothing of terminals.
@@ -35,6 +37,7 @@ pub mod query;
 pub mod sanitize;
 pub mod science;
 pub mod selection;
+pub mod session;
 pub mod survey;
 pub mod transit_model;
 pub mod tui;

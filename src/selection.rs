@@ -157,11 +157,7 @@ impl Subject for Row<'_> {
             NumField::Odds => a.live.odds(c),
             NumField::Probability => a.live.probability(c),
             NumField::Radius => a.radii.get(c as usize).copied().filter(|r| r.is_finite()),
-            NumField::K => Some(if a.live.decision(c).is_rejected() {
-                0.0
-            } else {
-                a.live.star_k(self.star) as f64
-            }),
+            NumField::K => Some(a.live.k(c) as f64),
             NumField::Boost => a.live.boost(c),
             NumField::Prior => Some(a.live.prior(c)),
             // The catalogue columns, read above.

@@ -137,6 +137,7 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
         cat,
         model.model(&loaded.survey)?,
         checks.all_flags().to_vec(),
+        checks.groups().clone(),
         decisions,
     )?;
     let mut app = App::new(

@@ -167,7 +167,7 @@ fn checks_command_outputs() {
     let o = starsift(&["checks"]);
     let s = stdout(&o);
     assert!(
-        s.contains("why (flags firm") && s.contains("near-twin: period ratio"),
+        s.contains("why (flags firm") && s.contains("near-twin: with HWT47246-s1: period ratio"),
         "{s}"
     );
 }

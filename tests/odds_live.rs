@@ -162,7 +162,9 @@ fn odds_command_csv_and_refusals() {
     let mut lines = s.lines();
     assert_eq!(
         lines.next(),
-        Some("star,candidate,k,prior,boost,odds,probability,verdict,decision,flags")
+        Some(
+            "star,candidate,k,prior,boost,odds,probability,verdict,decision,flags,counted,held_back,holds_to_f"
+        )
     );
     assert_eq!(lines.count(), 444);
     // No N anywhere: refused with a suggestion, never an invented N.

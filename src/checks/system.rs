@@ -19,6 +19,16 @@ pub(super) fn phase_offset_d(e_a: f64, p_a: f64, e_b: f64) -> f64 {
     d - (d / p_a).round() * p_a
 }
 
+/// Two candidates of one star that are one signal, and how they were found.
+#[derive(Clone, Debug)]
+pub(super) struct Link {
+    pub a: CandidateId,
+    pub b: CandidateId,
+    /// `near-twin`, `harmonic` or `half-phase`.
+    pub flag: Flag,
+    pub detail: String,
+}
+
 /// What the per-candidate pass derived, indexed by candidate (NaN = missing).
 pub(super) struct PerCandidate<'a> {
     pub density_transit: &'a [f64],
@@ -29,7 +39,6 @@ pub(super) struct PerCandidate<'a> {
 #[derive(Default)]
 pub(super) struct Scratch {
     by_period: Vec<CandidateId>,
-    twins: Vec<(CandidateId, CandidateId)>,
     deltas: Vec<Option<f64>>,
     others: Vec<f64>,
 }
@@ -40,6 +49,7 @@ pub(super) fn check(
     derived: &PerCandidate,
     s: &CheckSettings,
     scratch: &mut Scratch,
+    links: &mut Vec<Link>,
     out: &mut Checks,
 ) {
     let v = |f: Field, c: CandidateId| cat.value(f, c);
@@ -47,69 +57,89 @@ pub(super) fn check(
     let period = |c: CandidateId| v(Field::PeriodD, c).unwrap_or(f64::NAN);
     let Scratch {
         by_period,
-        twins,
         deltas,
         others,
     } = scratch;
     by_period.clear();
     by_period.extend_from_slice(members);
     by_period.sort_by(|&a, &b| period(a).total_cmp(&period(b)));
-    twins.clear();
     deltas.clear();
     let by_period: &[CandidateId] = by_period;
 
-    // Every pair: near twins and harmonics. A near-twin pair is one signal,
-    // so its Hill spacing is not checked.
+    let first_link = links.len();
+    // Every pair: one signal twice (same period, transits together), an
+    // alias (period ratio n or 1/n, transits together) or an eclipse pair
+    // (same period, transits apart: two planets cannot share an orbit —
+    // zero Hill separation). Each is a link of a signal group.
     for (i, &a) in by_period.iter().enumerate() {
         for &b in &by_period[i + 1..] {
             let (pa, pb) = (period(a), period(b));
             let r = pb / pa;
             let sigma = ratio_sigma(r, pa, v(Field::PeriodErrD, a), pb, v(Field::PeriodErrD, b));
             let tol = |n: f64| (3.0 * sigma.unwrap_or(0.0)).max(s.period_rel_tol * n);
-            let t14_d = v(Field::DurationH, a).unwrap_or(0.0) / 24.0;
-            let off = phase_offset_d(
+            let t14_d = v(Field::DurationH, a)
+                .unwrap_or(0.0)
+                .max(v(Field::DurationH, b).unwrap_or(0.0))
+                / 24.0;
+            let epoch_sigma = match (v(Field::EpochErrD, a), v(Field::EpochErrD, b)) {
+                (Some(x), Some(y)) => 3.0 * x.hypot(y),
+                _ => 0.0,
+            };
+            let (ea, eb) = (
                 v(Field::Epoch, a).unwrap_or(0.0),
-                pa,
                 v(Field::Epoch, b).unwrap_or(0.0),
             );
-            let epochs_agree = off.abs() <= t14_d;
+            // b's transit nearest a's epoch, then its offset from a's
+            // transits (modulo the shorter period).
+            let eb_near = eb + ((ea - eb) / pb).round() * pb;
+            let off = phase_offset_d(ea, pa, eb_near);
+            let together = off.abs() <= t14_d + epoch_sigma;
             if (r - 1.0).abs() <= tol(1.0) {
-                let how = if epochs_agree {
-                    format!(
-                        "epochs agree within {:.2} h: likely one signal found twice",
-                        off.abs() * 24.0
-                    )
-                } else {
-                    format!("transits {:.2} h apart in phase", off.abs() * 24.0)
-                };
-                for (x, y) in [(a, b), (b, a)] {
-                    out.add(
-                        x,
-                        Flag::NearTwin,
-                        false,
-                        format!(
-                            "period ratio to {} is {r:.6} (within {:.1e} of 1); {how}",
-                            id(y),
-                            tol(1.0)
+                if together {
+                    links.push(Link {
+                        a,
+                        b,
+                        flag: Flag::NearTwin,
+                        detail: format!(
+                            "period ratio {r:.6} (within {:.1e} of 1) and transits {:.2} h apart: one signal found twice",
+                            tol(1.0),
+                            off.abs() * 24.0
                         ),
-                    );
+                    });
+                } else {
+                    let phase = (off / pa).rem_euclid(1.0);
+                    links.push(Link {
+                        a,
+                        b,
+                        flag: Flag::HalfPhase,
+                        detail: format!(
+                            "same period (ratio {r:.6}) with transits at phase {phase:.3} of each other: two eclipses of one binary (two planets cannot share an orbit)"
+                        ),
+                    });
                 }
-                twins.push((a, b));
                 continue;
             }
             for n in 2..=s.harmonic_max {
                 let nf = n as f64;
-                if (r - nf).abs() <= tol(nf) && epochs_agree {
-                    for (x, y) in [(a, b), (b, a)] {
-                        out.add(x, Flag::Harmonic, false, format!(
-                            "period ratio to {} is {r:.6} ≈ {n} and its transits fall on the shorter signal's (offset {:.2} h): likely an alias of one signal",
-                            id(y), off.abs() * 24.0
-                        ));
-                    }
+                if (r - nf).abs() <= tol(nf) && together {
+                    links.push(Link {
+                        a,
+                        b,
+                        flag: Flag::Harmonic,
+                        detail: format!(
+                            "period ratio {r:.6} ≈ {n} and every transit of the longer falls on one of the shorter (offset {:.2} h): one signal at two periods",
+                            off.abs() * 24.0
+                        ),
+                    });
                 }
             }
         }
     }
+    let linked = |x: CandidateId, y: CandidateId| {
+        links[first_link..]
+            .iter()
+            .any(|l| (l.a == x && l.b == y) || (l.a == y && l.b == x))
+    };
 
     // Adjacent pairs and trios: Hill spacing with masses from radii.
     let star_mass = v(Field::StarMassMsun, by_period[0]);
@@ -132,7 +162,7 @@ pub(super) fn check(
                     science::mass_from_radius_mearth(rb),
                 );
                 let d = science::hill_separation(period(a), period(b), ma, mb, mass_star);
-                if d < science::HILL_CRITICAL && !twins.contains(&(a, b)) {
+                if d < science::HILL_CRITICAL && !linked(a, b) {
                     for (x, y) in [(a, b), (b, a)] {
                         out.add(x, Flag::Crowded, false, format!(
                             "{d:.2} mutual Hill radii from {} (< 2√3 = 3.46; masses {ma:.1} and {mb:.1} M⊕ from Weiss & Marcy 2014{assumed}): both cannot orbit this star stably",

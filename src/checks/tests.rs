@@ -63,12 +63,13 @@ fn radius_and_snr_flags() {
 #[test]
 fn pair_checks() {
     // Invented stars: a duplicate, an alias, an unstable pair, a clean pair.
+    // The duplicate's second entry (SNR 19) follows the first (SNR 20).
     let text = format!(
         "{HEAD}\
 D,D-1,5.0,0.00001,100.0,0.001,500,3,20,0.3,1,1,5772,,,\n\
-D,D-2,5.000005,0.00001,100.002,0.001,480,3,20,0.3,1,1,5772,,,\n\
+D,D-2,5.000005,0.00001,100.002,0.001,480,3,19,0.3,1,1,5772,,,\n\
 H,H-1,4.0,0.00001,100.0,0.001,500,2.8,20,0.3,1,1,5772,,,\n\
-H,H-2,8.0,0.00002,104.0,0.001,500,3.5,20,0.3,1,1,5772,,,\n\
+H,H-2,8.0,0.00002,104.0,0.001,500,3.5,25,0.3,1,1,5772,,,\n\
 U,U-1,12.4,0.0001,100.0,0.01,600,4,20,0.3,1,1,5772,,,\n\
 U,U-2,12.95,0.0001,101.0,0.01,550,4.1,20,0.3,1,1,5772,,,\n\
 C,C-1,10.0,0.0001,100.0,0.01,600,3.9,20,0.3,1,1,5772,,,\n\
@@ -76,20 +77,123 @@ C,C-2,21.0,0.0001,101.0,0.01,550,5.0,20,0.4,1,1,5772,,,\n"
     );
     let c = load(&text);
     let ch = run(&c, &CheckSettings::default());
-    let f = |id: &str| ch.flags(c.find_candidate(id).unwrap());
-    assert!(f("D-1").contains(Flag::NearTwin) && f("D-2").contains(Flag::NearTwin));
+    let id = |s: &str| c.find_candidate(s).unwrap();
+    let f = |s: &str| ch.flags(id(s));
+    let w = |s: &str| ch.warnings(id(s));
+    // The copy is flagged firmly and names whom it follows; the
+    // representative (highest SNR) carries the link as a warning only.
+    assert!(f("D-2").contains(Flag::NearTwin) && !f("D-1").contains(Flag::NearTwin));
+    assert!(w("D-1").contains(Flag::NearTwin));
     assert!(
-        ch.why(0).contains("likely one signal found twice"),
+        ch.why(id("D-2")).contains("one signal found twice"),
         "{}",
-        ch.why(0)
+        ch.why(id("D-2"))
     );
-    assert!(f("H-1").contains(Flag::Harmonic) && f("H-2").contains(Flag::Harmonic));
+    assert!(
+        ch.why(id("D-2")).contains("counts once, as D-1"),
+        "{}",
+        ch.why(id("D-2"))
+    );
+    // The alias: H-2 (SNR 25) stands for the signal, H-1 follows it.
+    assert!(f("H-1").contains(Flag::Harmonic) && !f("H-2").contains(Flag::Harmonic));
+    let g = ch.groups();
+    assert_eq!(g.len(), 2);
+    let hg = g.group_of(id("H-1")).unwrap();
+    assert_eq!(g.members(hg), &[id("H-2"), id("H-1")]);
     assert!(f("U-1").contains(Flag::Crowded) && f("U-2").contains(Flag::Crowded));
     assert!(
         f("C-1").is_empty() && f("C-2").is_empty(),
         "{} / {}",
         ch.why(6),
         ch.why(7)
+    );
+    assert!(g.group_of(id("C-1")).is_none() && g.group_of(id("U-1")).is_none());
+}
+
+#[test]
+fn an_eclipse_pair_is_one_binary() {
+    // Invented: one eclipsing binary listed twice, primary and secondary
+    // (same period, second epoch half a period later). Two planets cannot
+    // share an orbit (zero Hill separation, Gladman 1993), so this is one
+    // signal (docs/science.md §3.1); the secondary at 2,500 ppm is far above
+    // what a planet's occultation can reach ((5/3)·δ·(R★/a)² ≈ 70 ppm at
+    // a/R★ ≈ 16 for P = 6 d around the Sun; docs/science.md §4.3), so every
+    // member is flagged `secondary`.
+    let text = format!(
+        "{HEAD}\
+E,E-1,6.0,0.00001,100.0,0.001,9000,3.2,60,0.2,1,1,5772,,,\n\
+E,E-2,6.0000003,0.00001,103.0,0.001,2500,3.2,25,0.2,1,1,5772,,,\n\
+P,P-1,6.0,0.00001,100.0,0.001,9000,3.2,60,0.2,1,1,5772,,,\n\
+P,P-2,6.0000003,0.00001,103.0,0.001,40,3.2,8,0.2,1,1,5772,,,\n\
+X,X-1,9.0,0.00001,100.0,0.001,900,3.2,20,0.2,1,1,5772,,,\n\
+X,X-2,9.0,0.00001,103.1,0.001,850,3.2,19,0.2,1,1,5772,,,\n"
+    );
+    let c = load(&text);
+    let ch = run(&c, &CheckSettings::default());
+    let id = |s: &str| c.find_candidate(s).unwrap();
+    assert!(
+        ch.flags(id("E-2")).contains(Flag::HalfPhase),
+        "{}",
+        ch.why(id("E-2"))
+    );
+    assert!(
+        ch.why(id("E-2")).contains("phase 0.500"),
+        "{}",
+        ch.why(id("E-2"))
+    );
+    for m in ["E-1", "E-2"] {
+        assert!(
+            ch.flags(id(m)).contains(Flag::Secondary),
+            "{m}: {}",
+            ch.why(id(m))
+        );
+    }
+    // A faint same-period signal within a planet's occultation ceiling:
+    // still one signal (the copy is held), but the primary is not called a
+    // binary for it.
+    assert!(ch.flags(id("P-2")).contains(Flag::HalfPhase));
+    assert!(
+        !ch.flags(id("P-1")).contains(Flag::Secondary),
+        "{}",
+        ch.why(id("P-1"))
+    );
+    // An eccentric binary: the second eclipse at phase 0.34, not 0.5, is
+    // still one binary.
+    assert!(
+        ch.flags(id("X-2")).contains(Flag::HalfPhase),
+        "{}",
+        ch.why(id("X-2"))
+    );
+    assert!(
+        ch.flags(id("X-1")).contains(Flag::Secondary),
+        "{}",
+        ch.why(id("X-1"))
+    );
+    assert!(
+        !ch.flags(id("X-1")).contains(Flag::Crowded),
+        "{}",
+        ch.why(id("X-1"))
+    );
+}
+
+#[test]
+fn a_true_resonance_with_offset_transits_stays_two_planets() {
+    // Invented: periods 2:1 within the errors but the longer period's
+    // transits fall half-way between the shorter's (offset 2.5 d ≫ T14):
+    // two planets in resonance, not an alias (docs/science.md §3.1).
+    let text = format!(
+        "{HEAD}\
+R,R-1,5.0,0.00001,100.0,0.001,500,3,20,0.3,1,1,5772,,,\n\
+R,R-2,10.0,0.00002,102.5,0.001,450,3.8,18,0.3,1,1,5772,,,\n"
+    );
+    let c = load(&text);
+    let ch = run(&c, &CheckSettings::default());
+    assert!(ch.groups().is_empty());
+    assert!(
+        ch.flags(0).is_empty() && ch.flags(1).is_empty(),
+        "{} / {}",
+        ch.why(0),
+        ch.why(1)
     );
 }
 

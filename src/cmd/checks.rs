@@ -7,10 +7,11 @@ use serde_json::{Value, json};
 
 use crate::catalogue::CandidateId;
 use crate::checks::{self, CheckSettings, Checks};
-use crate::cli::{CatalogueArgs, CliError};
+use crate::cli::CliError;
 use crate::flags::{ALL_FLAGS, Flag};
 use crate::output::{Align, Format, Table, csv_writer, exact_in, num, write_json};
 use crate::sanitize::clean;
+use crate::session::{LedgerUse, Session};
 
 /// Thresholds of the checks (defaults in `CheckSettings`, with sources).
 #[derive(Debug, Clone, clap::Args)]
@@ -44,11 +45,7 @@ impl CheckArgs {
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
     #[command(flatten)]
-    pub input: CatalogueArgs,
-    #[command(flatten)]
-    pub checks: CheckArgs,
-    #[command(flatten)]
-    pub lc: crate::cli::LightcurveArgs,
+    pub vetting: crate::cli::VettingArgs,
     /// Only candidates on which this flag fired (firmly or as a warning).
     #[arg(long, value_name = "FLAG")]
     pub only: Option<String>,
@@ -57,7 +54,7 @@ pub struct Args {
     pub format: Format,
 }
 
-const COLUMNS: [&str; 14] = [
+const COLUMNS: [&str; 18] = [
     "star",
     "candidate",
     "radius_rearth",
@@ -72,6 +69,10 @@ const COLUMNS: [&str; 14] = [
     "flags",
     "warnings",
     "why",
+    "k",
+    "odds",
+    "verdict",
+    "held_back",
 ];
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
@@ -84,18 +85,18 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         })?),
         None => None,
     };
-    let loaded = args.input.load()?;
+    let session = Session::open(&args.vetting, LedgerUse::Read)?;
+    let (loaded, settings, ch) = (&session.loaded, &session.settings, &session.checks);
     let cat = &loaded.catalogue;
-    let settings = args.checks.settings();
-    let mut ch = checks::run(cat, &settings);
-    let lc_errors = if args.lc.wanted() {
-        checks::run_lightcurves(cat, &args.lc.finder(&loaded), &args.lc.detrend(), &mut ch)
-    } else {
-        Vec::new()
-    };
+    let lc_errors = &session.lightcurve_errors;
+    // Verdicts come with the checks when the model can be built (it needs N).
+    let live = session.live.as_ref().ok();
     if args.format != Format::Json {
-        for (star, e) in &lc_errors {
+        for (star, e) in lc_errors {
             eprintln!("starsift: warning: star {}: {}", clean(star), clean(e));
+        }
+        if let Err(e) = &session.live {
+            eprintln!("starsift: note: no verdicts: {e}");
         }
     }
     let rows: Vec<CandidateId> = (0..cat.len() as CandidateId)
@@ -107,7 +108,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             w.write_record(COLUMNS)?;
             let mut b = ryu::Buffer::new();
             for &c in &rows {
-                let d = checks::derive(cat, c, &settings);
+                let d = checks::derive(cat, c, settings);
                 w.write_field(clean(cat.star_id(cat.star_of(c))).as_bytes())?;
                 w.write_field(clean(cat.candidate_id(c)).as_bytes())?;
                 for v in [
@@ -126,6 +127,19 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 w.write_field(ch.flags(c).joined(";"))?;
                 w.write_field(ch.warnings(c).joined(";"))?;
                 w.write_field(clean(&ch.why(c)).as_bytes())?;
+                match live {
+                    Some(l) => {
+                        w.write_field(l.k(c).to_string())?;
+                        w.write_field(exact_in(&mut b, l.odds(c)))?;
+                        w.write_field(l.verdict(c).name())?;
+                        w.write_field(crate::cmd::odds::hold_text(cat, l, c))?;
+                    }
+                    None => {
+                        for _ in 0..4 {
+                            w.write_field("")?;
+                        }
+                    }
+                }
                 w.write_record(None::<&[u8]>)?;
             }
             w.flush()?;
@@ -134,7 +148,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             let list: Vec<Value> = rows
                 .iter()
                 .map(|&c| {
-                    let d = checks::derive(cat, c, &settings);
+                    let d = checks::derive(cat, c, settings);
                     let f = |v: Option<f64>| v.map_or(Value::Null, |x| json!(x));
                     json!({
                         "star": clean(cat.star_id(cat.star_of(c))),
@@ -154,6 +168,10 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                         "findings": ch.findings(c).map(|x| json!({
                             "flag": x.flag.name(), "soft": x.soft, "why": clean(&x.why),
                         })).collect::<Vec<_>>(),
+                        "k": live.map(|l| l.k(c)),
+                        "odds": live.and_then(|l| l.odds(c)),
+                        "verdict": live.map(|l| l.verdict(c).name()),
+                        "held_back": live.map(|l| crate::cmd::odds::hold_text(cat, l, c)),
                     })
                 })
                 .collect();
@@ -162,7 +180,8 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 &json!({
                     "catalogue": clean(&cat.source),
                     "temperature_assumption": format!("Bond albedo {}, redistribution factor {}", settings.albedo, settings.redistribution),
-                    "flag_counts": flag_counts(&ch, cat.len()),
+                    "flag_counts": flag_counts(ch, cat.len()),
+                    "lightcurve_stars": session.lightcurve_stars,
                 "lightcurve_errors": lc_errors.iter().map(|(s, e)| json!({"star": clean(s), "error": clean(e)})).collect::<Vec<_>>(),
                     "candidates": list,
                 }),
@@ -178,10 +197,11 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 ("Teq_K", Align::Right),
                 ("S_earth", Align::Right),
                 ("rho_ratio", Align::Right),
+                ("verdict", Align::Left),
                 ("flags", Align::Left),
             ]);
             for &c in &rows {
-                let d = checks::derive(cat, c, &settings);
+                let d = checks::derive(cat, c, settings);
                 let mut flags = ch.flags(c).joined(",");
                 let soft = ch.warnings(c).joined(",");
                 if !soft.is_empty() {
@@ -199,6 +219,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     num(d.teq_k.map(f64::round), 4),
                     num(d.insolation_earth, 3),
                     num(d.density_ratio, 2),
+                    live.map_or("-".into(), |l| l.verdict(c).name().to_string()),
                     flags,
                 ]);
             }
@@ -218,19 +239,28 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 }
             }
             writeln!(out)?;
-            let counts = flag_counts(&ch, cat.len());
+            let counts = flag_counts(ch, cat.len());
             let line: Vec<String> = counts
                 .as_object()
                 .map(|m| m.iter().map(|(k, v)| format!("{k} {v}")).collect())
                 .unwrap_or_default();
             writeln!(out, "flags      {}", line.join(", "))?;
-            if !args.lc.wanted() {
+            if !args.vetting.lc.wanted() {
                 writeln!(
                     out,
-                    "light curves not read: give --lightcurves [DIR] for odd-even, secondary and v-shape"
+                    "light curves not read (--no-lightcurves): odd-even, secondary and v-shape unchecked"
+                )?;
+            } else {
+                writeln!(
+                    out,
+                    "light curves read for {} stars",
+                    session.lightcurve_stars
                 )?;
             }
-            for (star, e) in &lc_errors {
+            if let Some(line) = live.and_then(|l| l.held_line()) {
+                writeln!(out, "cleaning   {line}")?;
+            }
+            for (star, e) in lc_errors {
                 writeln!(out, "light curve of {} not read: {}", clean(star), clean(e))?;
             }
             writeln!(

@@ -9,14 +9,13 @@ use std::path::PathBuf;
 use serde_json::{Map, Value, json};
 
 use crate::catalogue::{CandidateId, Field, NUMERIC};
-use crate::checks::Checks;
-use crate::cli::{CliError, Loaded, VettingArgs};
-use crate::ledger::Entry;
+use crate::cli::{CliError, VettingArgs};
 use crate::odds::{Live, model_statement};
 use crate::output::{csv_writer, exact_in, write_json};
 use crate::query::Filter;
 use crate::sanitize::clean;
-use crate::selection::{disagreeing, selected};
+use crate::selection::selected;
+use crate::session::{LedgerUse, Session};
 
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
@@ -41,59 +40,12 @@ pub enum ExportFormat {
     Json,
 }
 
-/// A catalogue with its checks, decisions and odds, as the ledger says.
-pub struct Vetted {
-    pub loaded: Loaded,
-    pub checks: Checks,
-    pub live: Live,
-    /// Latest entry per candidate id (of one vetter when asked).
-    pub latest: crate::ledger::Latest,
-    pub ledger_path: String,
-    pub disagreements: std::collections::BTreeMap<String, Vec<Entry>>,
-    pub history: Vec<Entry>,
-}
-
-/// Loads a catalogue, runs the checks, reads the ledger and recomputes the
-/// odds with every decision applied.
-pub fn vetted(args: &VettingArgs) -> Result<Vetted, CliError> {
-    let VettingArgs {
-        input,
-        ledger: ledger_args,
-        model,
-        checks: check_args,
-        lc,
-    } = args;
-    let loaded = input.load()?;
-    let cat = &loaded.catalogue;
-    let mut checks = crate::checks::run(cat, &check_args.settings());
-    if lc.wanted() {
-        for (star, e) in
-            crate::checks::run_lightcurves(cat, &lc.finder(&loaded), &lc.detrend(), &mut checks)
-        {
-            eprintln!("starsift: warning: star {}: {}", clean(&star), clean(&e));
-        }
-    }
-    let ledger = ledger_args.open(input, &loaded)?;
-    let latest = ledger.latest(ledger_args.vetter.as_deref())?;
-    let decisions = latest.decisions(cat);
-    let live = Live::with_state(
-        cat,
-        model.model(&loaded.survey)?,
-        checks.all_flags().to_vec(),
-        decisions,
-    )?;
-    let disagreements = ledger.disagreements()?;
-    let history = ledger.history(None)?;
-    let ledger_path = ledger.path().display().to_string();
-    Ok(Vetted {
-        loaded,
-        checks,
-        live,
-        latest,
-        ledger_path,
-        disagreements,
-        history,
-    })
+/// Opens the session every exporting command shares (the ledger read, never
+/// created) and requires its odds.
+pub fn vetted(args: &VettingArgs) -> Result<Session, CliError> {
+    let session = Session::open(args, LedgerUse::Read)?;
+    session.live()?;
+    Ok(session)
 }
 
 /// Writes `text` to `path` through a temporary file and a rename, so a
@@ -108,12 +60,14 @@ pub fn write_atomically(path: &std::path::Path, bytes: &[u8]) -> Result<(), CliE
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let filter = crate::cli::parse_where(args.filter.as_deref())?;
     let v = vetted(&args.vetting)?;
-    let rows = v.selected(filter.as_ref());
+    v.warn();
+    let live = v.live()?;
+    let rows = select(&v, live, filter.as_ref());
     let mut buf: Vec<u8> = Vec::new();
     let sink: &mut dyn Write = if args.output.is_some() { &mut buf } else { out };
     match args.format {
-        ExportFormat::Csv => write_csv(&v, &rows, filter.as_ref(), sink)?,
-        ExportFormat::Json => write_json(sink, &to_json(&v, &rows, filter.as_ref()))?,
+        ExportFormat::Csv => write_csv(&v, live, &rows, filter.as_ref(), sink)?,
+        ExportFormat::Json => write_json(sink, &to_json(&v, live, &rows, filter.as_ref()))?,
     }
     if let Some(path) = &args.output {
         write_atomically(path, &buf)?;
@@ -126,16 +80,18 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     Ok(())
 }
 
-impl Vetted {
-    /// The candidates a filter matches (all without one), in file order.
-    pub fn selected(&self, filter: Option<&Filter>) -> Vec<CandidateId> {
-        let cat = &self.loaded.catalogue;
-        let disagree = disagreeing(cat, &self.disagreements);
-        selected(cat, &self.live, &self.checks, &disagree, filter)
-    }
+/// The candidates a filter matches (all without one), in file order.
+pub fn select(v: &Session, live: &Live, filter: Option<&Filter>) -> Vec<CandidateId> {
+    selected(
+        &v.loaded.catalogue,
+        live,
+        &v.checks,
+        &v.disagreeing(),
+        filter,
+    )
 }
 
-const VETTING_COLUMNS: [&str; 12] = [
+const VETTING_COLUMNS: [&str; 15] = [
     "k",
     "boost",
     "odds",
@@ -148,9 +104,12 @@ const VETTING_COLUMNS: [&str; 12] = [
     "decided_at",
     "flags",
     "warnings",
+    "counted",
+    "held_back",
+    "holds_to_f",
 ];
 
-fn input_numeric(v: &Vetted) -> Vec<Field> {
+fn input_numeric(v: &Session) -> Vec<Field> {
     NUMERIC
         .iter()
         .copied()
@@ -159,26 +118,30 @@ fn input_numeric(v: &Vetted) -> Vec<Field> {
 }
 
 fn write_csv(
-    v: &Vetted,
+    v: &Session,
+    live: &Live,
     rows: &[CandidateId],
     filter: Option<&Filter>,
     out: &mut dyn Write,
 ) -> Result<(), CliError> {
     let cat = &v.loaded.catalogue;
-    let m = v.live.model();
+    let m = live.model();
     writeln!(
         out,
         "# starsift vetted catalogue of {}; ledger {}",
         clean(&cat.source),
-        clean(&v.ledger_path)
+        clean(v.ledger_path.as_deref().unwrap_or("none"))
     )?;
     writeln!(
         out,
-        "# model: N = {}, f = {}, boost {}",
+        "# model: N = {}, {}, boost {}",
         m.targets.map_or("not given".into(), |n| n.to_string()),
-        m.fp_fraction,
+        m.describe_fp(),
         m.mode.describe()
     )?;
+    if let Some(line) = live.held_line() {
+        writeln!(out, "# {line}")?;
+    }
     writeln!(out, "# {}", model_statement(m))?;
     if let Some(f) = filter {
         writeln!(
@@ -214,25 +177,32 @@ fn write_csv(
             w.write_field(clean(cat.extra(i, c)).as_bytes())?;
         }
         let e = v.latest.get(cat.candidate_id(c));
-        w.write_field(v.live.k(c).to_string())?;
-        w.write_field(exact_in(&mut b, v.live.boost(c)))?;
-        w.write_field(exact_in(&mut b, v.live.odds(c)))?;
-        w.write_field(exact_in(&mut b, v.live.probability(c)))?;
-        w.write_field(v.live.verdict(c).name())?;
-        w.write_field(v.live.decision(c).name())?;
-        w.write_field(v.live.decision(c).reason().map_or("", |r| r.name()))?;
+        w.write_field(live.k(c).to_string())?;
+        w.write_field(exact_in(&mut b, live.boost(c)))?;
+        w.write_field(exact_in(&mut b, live.odds(c)))?;
+        w.write_field(exact_in(&mut b, live.probability(c)))?;
+        w.write_field(live.verdict(c).name())?;
+        w.write_field(live.decision(c).name())?;
+        w.write_field(live.decision(c).reason().map_or("", |r| r.name()))?;
         w.write_field(clean(e.and_then(|e| e.note.as_deref()).unwrap_or("")).as_bytes())?;
         w.write_field(clean(e.map_or("", |e| &*e.vetter)).as_bytes())?;
         w.write_field(e.map_or("", |e| e.decided_at.as_str()))?;
         w.write_field(v.checks.flags(c).joined(";"))?;
         w.write_field(v.checks.warnings(c).joined(";"))?;
+        w.write_field(if live.status(c) == crate::odds::Status::Counted {
+            "yes"
+        } else {
+            "no"
+        })?;
+        w.write_field(crate::cmd::odds::hold_text(cat, live, c))?;
+        w.write_field(exact_in(&mut b, live.holds_to(c)))?;
         w.write_record(None::<&[u8]>)?;
     }
     w.flush()?;
     Ok(())
 }
 
-fn to_json(v: &Vetted, selected: &[CandidateId], filter: Option<&Filter>) -> Value {
+fn to_json(v: &Session, live: &Live, selected: &[CandidateId], filter: Option<&Filter>) -> Value {
     let cat = &v.loaded.catalogue;
     let numeric = input_numeric(v);
     let f = |x: Option<f64>| x.map_or(Value::Null, |y| json!(y));
@@ -249,15 +219,15 @@ fn to_json(v: &Vetted, selected: &[CandidateId], filter: Option<&Filter>) -> Val
                 o.insert(clean(h).into_owned(), json!(clean(cat.extra(i, c))));
             }
             let e = v.latest.get(cat.candidate_id(c));
-            o.insert("k".into(), json!(v.live.k(c)));
-            o.insert("boost".into(), f(v.live.boost(c)));
-            o.insert("odds".into(), f(v.live.odds(c)));
-            o.insert("probability".into(), f(v.live.probability(c)));
-            o.insert("verdict".into(), json!(v.live.verdict(c).name()));
-            o.insert("decision".into(), json!(v.live.decision(c).name()));
+            o.insert("k".into(), json!(live.k(c)));
+            o.insert("boost".into(), f(live.boost(c)));
+            o.insert("odds".into(), f(live.odds(c)));
+            o.insert("probability".into(), f(live.probability(c)));
+            o.insert("verdict".into(), json!(live.verdict(c).name()));
+            o.insert("decision".into(), json!(live.decision(c).name()));
             o.insert(
                 "reason".into(),
-                json!(v.live.decision(c).reason().map(|r| r.name())),
+                json!(live.decision(c).reason().map(|r| r.name())),
             );
             o.insert(
                 "note".into(),
@@ -291,15 +261,26 @@ fn to_json(v: &Vetted, selected: &[CandidateId], filter: Option<&Filter>) -> Val
                         .collect::<Vec<_>>()
                 ),
             );
+            o.insert(
+                "counted".into(),
+                json!(live.status(c) == crate::odds::Status::Counted),
+            );
+            o.insert(
+                "held_back".into(),
+                json!(crate::cmd::odds::hold_text(cat, live, c)),
+            );
+            o.insert("holds_to_f".into(), f(live.holds_to(c)));
             Value::Object(o)
         })
         .collect();
-    let m = v.live.model();
+    let m = live.model();
     json!({
         "catalogue": clean(&cat.source),
-        "ledger": clean(&v.ledger_path),
+        "ledger": v.ledger_path.as_deref().map(clean),
+        "held_back": live.held_line(),
         "model": {
             "targets_searched": m.targets, "fp_fraction_singles": m.fp_fraction,
+            "fp_fraction": m.describe_fp(),
             "boost_mode": m.mode.describe(), "threshold": m.threshold, "statement": model_statement(m),
         },
         "filter": filter.map(|f| clean(&f.text).into_owned()),

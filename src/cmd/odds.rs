@@ -6,64 +6,55 @@ use std::io::Write;
 use serde_json::{Value, json};
 
 use crate::catalogue::{CandidateId, Catalogue};
-use crate::cli::{CatalogueArgs, CliError, ModelArgs};
+use crate::cli::{CliError, VettingArgs};
 use crate::odds::{ALL_VERDICTS, Live, Table, format_odds, model_statement};
 use crate::output::{Align, Format, Table as TextTable, csv_writer, exact, num, write_json};
 use crate::sanitize::clean;
+use crate::session::{LedgerUse, Session};
 
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
     #[command(flatten)]
-    pub input: CatalogueArgs,
-    #[command(flatten)]
-    pub model: ModelArgs,
-    #[command(flatten)]
-    pub checks: crate::cmd::checks::CheckArgs,
-    #[command(flatten)]
-    pub lc: crate::cli::LightcurveArgs,
+    pub vetting: VettingArgs,
     /// Output format: a table for people, CSV or JSON for scripts.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
     /// List only the candidates this filter matches (the browser's syntax,
     /// e.g. "k>=2 verdict:validated"); the odds, the table per k and the
-    /// counts are still those of the whole catalogue. No ledger is read, so
-    /// every candidate is open and `disagree` matches none.
+    /// counts are still those of the whole catalogue.
     #[arg(long = "where", value_name = "FILTER")]
     pub filter: Option<String>,
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let filter = crate::cli::parse_where(args.filter.as_deref())?;
-    let loaded = args.input.load()?;
-    let cat = &loaded.catalogue;
-    let model = args.model.model(&loaded.survey)?;
-    // The checks' flags feed the verdicts (a blocking flag bars `validated`).
-    let checks = crate::checks::run(cat, &args.checks.settings());
-    let flags = checks.all_flags().to_vec();
-    let decisions = vec![crate::decision::Decision::Open; cat.len()];
-    let live = Live::with_state(cat, model, flags, decisions)?;
-    let none = std::collections::HashSet::new();
-    let rows = crate::selection::selected(cat, &live, &checks, &none, filter.as_ref());
+    let session = Session::open(&args.vetting, LedgerUse::Read)?;
+    let cat = &session.loaded.catalogue;
+    let live = session.live()?;
+    let rows = crate::selection::selected(
+        cat,
+        live,
+        &session.checks,
+        &session.disagreeing(),
+        filter.as_ref(),
+    );
     let shown = Shown {
         rows: &rows,
         filter: filter.as_ref().map(|f| f.text.as_str()),
     };
-    let warnings: Vec<&String> = live
-        .input_warnings
-        .iter()
-        .chain(&live.table().warnings)
-        .collect();
     if args.format != Format::Json {
-        for w in &warnings {
-            eprintln!("starsift: warning: {w}");
-        }
+        session.warn();
     }
     match args.format {
-        Format::Csv => write_csv(cat, &live, &shown, out),
-        Format::Json => write_json(out, &to_json(cat, &live, &shown)).map_err(CliError::from),
-        Format::Table => write_table(cat, &live, &shown, out),
+        Format::Csv => write_csv(cat, live, &shown, out),
+        Format::Json => {
+            write_json(out, &to_json(cat, live, &session, &shown)).map_err(CliError::from)
+        }
+        Format::Table => write_table(cat, live, &shown, out),
     }
 }
+
+pub use crate::odds::hold_text;
 
 /// The candidates listed, and the filter that chose them.
 struct Shown<'a> {
@@ -89,6 +80,9 @@ fn write_csv(
         "verdict",
         "decision",
         "flags",
+        "counted",
+        "held_back",
+        "holds_to_f",
     ])?;
     for &c in shown.rows {
         w.write_record([
@@ -102,6 +96,13 @@ fn write_csv(
             live.verdict(c).name(),
             live.decision(c).name(),
             &live.flags(c).joined(";"),
+            if live.status(c) == crate::odds::Status::Counted {
+                "yes"
+            } else {
+                "no"
+            },
+            &hold_text(cat, live, c),
+            &exact(live.holds_to(c)),
         ])?;
     }
     w.flush()?;
@@ -116,7 +117,8 @@ fn table_json(t: &Table) -> Vec<Value> {
             json!({
                 "k": r.k, "stars": r.stars, "e_k": f(r.e), "f_k": f(r.f), "q_k": f(r.q), "s_k": f(r.s),
                 "boost_candidate": f(r.boost_cand), "boost_system": f(r.boost_sys),
-                "boost_odds": f(r.boost_odds), "boost": f(r.boost),
+                "boost_odds": f(r.boost_odds), "pooled_k": [r.pool.0, r.pool.1],
+                "q_used": f(r.q_used), "boost": f(r.boost),
             })
         })
         .collect()
@@ -126,7 +128,8 @@ fn model_json(live: &Live) -> Value {
     let m = live.model();
     json!({
         "targets_searched": m.targets,
-        "fp_fraction_singles": m.fp_fraction,
+        "fp_fraction_singles": live.table().fp_fraction,
+        "fp_fraction": m.describe_fp(),
         "lambda": if live.table().lambda.is_finite() { json!(live.table().lambda) } else { Value::Null },
         "boost_mode": m.mode.describe(),
         "threshold": m.threshold,
@@ -135,7 +138,7 @@ fn model_json(live: &Live) -> Value {
     })
 }
 
-fn to_json(cat: &Catalogue, live: &Live, shown: &Shown) -> Value {
+fn to_json(cat: &Catalogue, live: &Live, session: &Session, shown: &Shown) -> Value {
     let f = |v: Option<f64>| v.map_or(Value::Null, |x| json!(x));
     let candidates: Vec<Value> = (shown.rows.iter())
         .map(|&c| {
@@ -150,6 +153,9 @@ fn to_json(cat: &Catalogue, live: &Live, shown: &Shown) -> Value {
                 "verdict": live.verdict(c).name(),
                 "decision": live.decision(c).name(),
                 "flags": live.flags(c).iter().map(|f| f.name()).collect::<Vec<_>>(),
+                "counted": live.status(c) == crate::odds::Status::Counted,
+                "held_back": hold_text(cat, live, c),
+                "holds_to_f": f(live.holds_to(c)),
             })
         })
         .collect();
@@ -168,6 +174,9 @@ fn to_json(cat: &Catalogue, live: &Live, shown: &Shown) -> Value {
         "table": table_json(live.table()),
         "counts": counts,
         "warnings": warnings,
+        "held_back": live.held_summary().into_iter().map(|(what, n)| json!({"cause": what, "candidates": n})).collect::<Vec<_>>(),
+        "ledger": session.ledger_path.as_deref().map(clean),
+        "lightcurve_stars": session.lightcurve_stars,
         "filter": shown.filter.map(|t| clean(t).into_owned()),
         "candidates": candidates,
     })
@@ -198,6 +207,8 @@ fn write_table(
         ("odds", Align::Right),
         ("probability", Align::Right),
         ("verdict", Align::Left),
+        ("holds to f", Align::Right),
+        ("held back", Align::Left),
     ]);
     for &c in shown.rows {
         t.row(&[
@@ -210,6 +221,8 @@ fn write_table(
             live.probability(c)
                 .map_or("-".into(), |p| format!("{p:.5}")),
             live.verdict(c).name().to_string(),
+            live.holds_to(c).map_or("-".into(), |f| format!("{f:.3}")),
+            hold_text(cat, live, c),
         ]);
     }
     t.write(out, "")?;
@@ -223,9 +236,10 @@ pub fn write_model_footer(live: &Live, out: &mut dyn Write) -> Result<(), CliErr
     writeln!(out)?;
     writeln!(
         out,
-        "model      N = {} targets searched, f = {} (false-positive fraction of singles), λ = f·n1/N = {}",
+        "model      N = {} targets searched, {} (false-positive fraction of singles; mean over the counted singles {}), λ = N_FP/N = {}",
         m.targets.map_or("not given".into(), |n| n.to_string()),
-        m.fp_fraction,
+        m.describe_fp(),
+        num(Some(table.fp_fraction), 4),
         num(Some(table.lambda), 4)
     )?;
     writeln!(out, "boost      {}", m.mode.describe())?;
@@ -237,12 +251,13 @@ pub fn write_model_footer(live: &Live, out: &mut dyn Write) -> Result<(), CliErr
         ("B_cand", Align::Right),
         ("B_sys", Align::Right),
         ("B_odds", Align::Right),
+        ("pooled", Align::Left),
         ("boost", Align::Right),
         ("odds at f", Align::Right),
         ("P", Align::Right),
     ]);
     for r in &table.rows {
-        let o = crate::odds::posterior_odds(r.boost, m.fp_fraction);
+        let o = crate::odds::posterior_odds(r.boost, table.fp_fraction);
         t.row(&[
             r.k.to_string(),
             r.stars.to_string(),
@@ -251,6 +266,7 @@ pub fn write_model_footer(live: &Live, out: &mut dyn Write) -> Result<(), CliErr
             num(Some(r.boost_cand), 4),
             num(Some(r.boost_sys), 4),
             num(Some(r.boost_odds), 4),
+            pool_text(r.pool),
             num(Some(r.boost), 4),
             format_odds(o),
             format!("{:.5}", crate::odds::probability(o)),
@@ -263,9 +279,21 @@ pub fn write_model_footer(live: &Live, out: &mut dyn Write) -> Result<(), CliErr
         "verdicts   {} validated, {} likely, {} unlikely, {} rejected",
         c.validated, c.likely, c.unlikely, c.rejected
     )?;
+    if let Some(line) = live.held_line() {
+        writeln!(out, "cleaning   {line}")?;
+    }
     for w in live.input_warnings.iter().chain(&table.warnings) {
         writeln!(out, "warning    {}", clean(w))?;
     }
     writeln!(out, "{}", model_statement(m))?;
     Ok(())
+}
+
+/// `4-6` for a pooled run of multiplicities, `-` for a k alone.
+pub fn pool_text(pool: (usize, usize)) -> String {
+    if pool.0 == pool.1 {
+        "-".into()
+    } else {
+        format!("{}-{}", pool.0, pool.1)
+    }
 }

@@ -32,8 +32,9 @@ fn md(s: &str) -> String {
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let v = vetted(&args.vetting)?;
+    v.warn();
     let cat = &v.loaded.catalogue;
-    let live = &v.live;
+    let live = v.live()?;
     let m = live.model();
     let mut r = String::new();
     let _ = writeln!(r, "# Vetting report: {}\n", md(&cat.source));
@@ -43,16 +44,16 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let _ = writeln!(
         r,
         "Ledger: `{}`; {} decisions recorded.\n",
-        md(&v.ledger_path),
+        md(v.ledger_path.as_deref().unwrap_or("none yet")),
         v.history.len()
     );
     let _ = writeln!(r, "> {}\n", model_statement(m));
     let _ = writeln!(r, "## Model\n");
     let _ = writeln!(
         r,
-        "- N (targets searched): {}\n- f (false-positive fraction of single-candidate stars): {}\n- λ = f·n₁/N: {}\n- boost: {}\n- validated at odds ≥ {}:1 with no blocking flag ({})\n",
+        "- N (targets searched): {}\n- f (false-positive fraction of single-candidate stars): {}\n- λ = N_FP/N: {}\n- boost: {}\n- validated at odds ≥ {}:1, counted only: not rejected, one per signal group, no blocking flag ({})\n",
         m.targets.map_or("not given".into(), |n| n.to_string()),
-        m.fp_fraction,
+        md(&m.describe_fp()),
         num(Some(live.table().lambda), 4),
         m.mode.describe(),
         m.threshold,
@@ -60,20 +61,21 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     );
     let _ = writeln!(
         r,
-        "| k | stars | q_k | B_cand | B_sys | B_odds | boost | odds at f | P |"
+        "| k | stars | q_k | B_cand | B_sys | B_odds | pooled | boost | odds at f | P |"
     );
-    let _ = writeln!(r, "|---|---|---|---|---|---|---|---|---|");
+    let _ = writeln!(r, "|---|---|---|---|---|---|---|---|---|---|");
     for row in &live.table().rows {
-        let o = posterior_odds(row.boost, m.fp_fraction);
+        let o = posterior_odds(row.boost, live.table().fp_fraction);
         let _ = writeln!(
             r,
-            "| {} | {} | {} | {} | {} | {} | {} | {} | {:.5} |",
+            "| {} | {} | {} | {} | {} | {} | {} | {} | {} | {:.5} |",
             row.k,
             row.stars,
             num(Some(row.q), 4),
             num(Some(row.boost_cand), 4),
             num(Some(row.boost_sys), 4),
             num(Some(row.boost_odds), 4),
+            crate::cmd::odds::pool_text(row.pool),
             num(Some(row.boost), 4),
             format_odds(o),
             probability(o)
@@ -105,19 +107,46 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     } else {
         let _ = writeln!(
             r,
-            "| star | candidate | k | odds | P | decision |\n|---|---|---|---|---|---|"
+            "| star | candidate | k | odds | P | holds to f | decision |\n|---|---|---|---|---|---|---|"
         );
         for &c in &validated {
             let o = live.odds(c).unwrap_or(0.0);
             let _ = writeln!(
                 r,
-                "| {} | {} | {} | {} | {:.5} | {} |",
+                "| {} | {} | {} | {} | {:.5} | {} | {} |",
                 md(cat.star_id(cat.star_of(c))),
                 md(cat.candidate_id(c)),
                 live.k(c),
                 format_odds(o),
                 probability(o),
+                live.holds_to(c).map_or("-".into(), |f| format!("{f:.3}")),
                 live.decision(c).name()
+            );
+        }
+    }
+    let _ = writeln!(r, "\n## Held back by the cleaning\n");
+    let held: Vec<CandidateId> = (0..cat.len() as CandidateId)
+        .filter(|&c| live.hold(c).is_some())
+        .collect();
+    if held.is_empty() {
+        let _ = writeln!(r, "None: every candidate not rejected counts.");
+    } else {
+        let _ = writeln!(
+            r,
+            "Not rejected, but not counted toward any system and never validated:\n"
+        );
+        for (what, n) in live.held_summary() {
+            let _ = writeln!(r, "- {}: {n}", md(&what));
+        }
+        let _ = writeln!(r, "\n| star | candidate | why | flags |\n|---|---|---|---|");
+        for &c in &held {
+            let _ = writeln!(
+                r,
+                "| {} | {} | {} | {} |",
+                md(cat.star_id(cat.star_of(c))),
+                md(cat.candidate_id(c)),
+                md(&crate::cmd::odds::hold_text(cat, live, c)),
+                live.flags(c).joined(", ")
             );
         }
     }

@@ -1,17 +1,23 @@
-//! The odds of a whole catalogue kept current as decisions change: a
-//! rejection takes a candidate out of its system, its siblings move to the
-//! next smaller multiplicity, the histogram changes, the model table is
-//! rebuilt (O(k_max²), k_max ≈ 7) and the verdict counts are read from
-//! per-multiplicity buckets, never from a pass over the catalogue.
+//! The odds of a whole catalogue kept current as decisions change. Only
+//! *counted* candidates make a star's system (docs/science.md §1.1): not
+//! rejected, no blocking flag, and the representative of their signal
+//! group. A rejection or a new flag takes a candidate out of its system, its
+//! siblings move to the next smaller multiplicity, the histogram changes,
+//! the model table is rebuilt (O(k_max²), k_max ≈ 7) and the verdict counts
+//! are read from per-multiplicity buckets, never from a pass over the
+//! catalogue. Every verdict of every command and of the browser comes from
+//! here.
+
+use std::sync::{Arc, OnceLock};
 
 use super::{
-    Model, ModelError, Table, Verdict, check_inputs, posterior_odds, probability, table, verdict,
+    Model, ModelError, Table, Verdict, check_inputs, posterior_odds, probability, table_with,
+    verdict,
 };
-use std::sync::Arc;
-
 use crate::catalogue::{CandidateId, Catalogue, Field, StarId, StarIndex};
-use crate::decision::Decision;
-use crate::flags::FlagSet;
+use crate::checks::SignalGroups;
+use crate::decision::{Decision, Reason};
+use crate::flags::{Flag, FlagSet};
 
 /// Candidates per verdict.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
@@ -33,72 +39,116 @@ impl VerdictCounts {
     }
 }
 
-/// A Fenwick tree of counts over prior ranks (Fenwick 1994, Software:
+/// A Fenwick tree of counts over prior classes (Fenwick 1994, Software:
 /// Practice and Experience 24, 327): add and prefix sum in O(log n).
 #[derive(Clone, Debug, PartialEq)]
-struct Fenwick(Vec<u32>);
+struct Fenwick {
+    tree: Vec<u32>,
+    total: usize,
+}
 
 impl Fenwick {
     fn new(n: usize) -> Fenwick {
-        Fenwick(vec![0; n + 1])
+        Fenwick {
+            tree: vec![0; n + 1],
+            total: 0,
+        }
     }
 
     fn add(&mut self, i: usize, delta: i32) {
+        self.total = self.total.wrapping_add_signed(delta as isize);
         let mut i = i + 1;
-        while i < self.0.len() {
-            self.0[i] = self.0[i].wrapping_add_signed(delta);
+        while i < self.tree.len() {
+            self.tree[i] = self.tree[i].wrapping_add_signed(delta);
             i += i & i.wrapping_neg();
         }
     }
 
-    /// Sum over ranks 0..i.
-    fn prefix(&self, i: usize) -> u32 {
+    /// Sum over classes 0..i.
+    fn prefix(&self, i: usize) -> usize {
         let (mut i, mut s) = (i, 0u32);
         while i > 0 {
-            s = s.wrapping_add(self.0[i]);
+            s = s.wrapping_add(self.tree[i]);
             i &= i - 1;
         }
-        s
+        s as usize
     }
 }
 
-/// The non-rejected candidates in k-systems, split by whether a blocking
-/// flag keeps them from `validated`.
-#[derive(Clone, Debug, PartialEq)]
-enum Bucket {
-    /// Every candidate has the prior f: counts suffice.
-    Uniform { unblocked: usize, blocked: usize },
-    /// Per-candidate priors: counts over prior ranks (ascending FP probability).
-    Ranked {
-        unblocked: Box<Fenwick>,
-        blocked: Box<Fenwick>,
-        total_unblocked: usize,
-        total_blocked: usize,
-    },
+/// Where a candidate stands in the model.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Status {
+    /// Counted: one of its star's system, with the system's boost.
+    Counted,
+    /// Not rejected but held back: a blocking flag, or a copy of a signal
+    /// its group's representative stands for. No boost; never validated.
+    Held,
+    Rejected,
 }
+
+/// Why a candidate is held back.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Hold {
+    /// Blocking flags of its own.
+    Flags(FlagSet),
+    /// One signal with `rep`, which stands for the group.
+    Copy { rep: CandidateId, kind: Flag },
+    /// One signal with `by`, which a vetter rejected for what it is.
+    GroupRejected { by: CandidateId, reason: Reason },
+    /// One signal with `rep`, which blocking flags hold back.
+    GroupHeld { rep: CandidateId },
+}
+
+/// The table of boosts at a grid of f values (scaled from the model's), for
+/// "holds to f" (docs/science.md §1.5).
+#[derive(Clone, Debug)]
+struct Margins {
+    /// The scale on every f at grid point j, ascending.
+    scale: Vec<f64>,
+    /// boost[j][k] at scale j (index 0 unused).
+    boost: Vec<Vec<f64>>,
+    /// Per k, the suffix maximum over j of boost[j][k].
+    suffix_max: Vec<Vec<f64>>,
+    /// For candidates without `fpp`: per (k, f), the edge refined by
+    /// bisection between grid points (`None`: below the threshold at every f).
+    refined: Vec<(usize, f64, Option<f64>)>,
+}
+
+const MARGIN_STEPS: usize = 480;
 
 /// Live odds for one catalogue under one model.
 #[derive(Clone, Debug)]
 pub struct Live {
     model: Model,
     index: Arc<StarIndex>,
-    /// Per-candidate prior FP probability, when the catalogue has `fpp`.
-    prior: Option<Vec<f64>>,
-    /// Priors ascending and each candidate's rank among them.
-    ranked: Option<(Vec<f64>, Vec<u32>)>,
+    /// Per-candidate prior FP probability: its `fpp`, else its f.
+    prior: Vec<f64>,
+    /// Whether the prior came from `fpp`.
+    has_fpp: Vec<bool>,
+    /// Per-candidate f (by its planet radius when f depends on size).
+    f_of: Vec<f64>,
+    /// Distinct priors ascending, and each candidate's class among them.
+    classes: Vec<f64>,
+    class_of: Vec<u32>,
     flags: Vec<FlagSet>,
+    groups: SignalGroups,
     decision: Vec<Decision>,
-    /// Non-rejected candidates per star.
+    status: Vec<Status>,
+    /// Counted candidates per star.
     k_of_star: Vec<u16>,
-    /// hist[k] = stars with k non-rejected candidates.
+    /// hist[k] = stars with k counted candidates.
     hist: Vec<usize>,
-    buckets: Vec<Bucket>,
+    /// Σ f over the counted candidates of single-candidate stars, kept as
+    /// counts per distinct f (exact under any order of updates).
+    singles_by_f: Vec<(f64, i64)>,
+    /// Counted candidates of k-systems, by prior class.
+    buckets: Vec<Fenwick>,
+    /// Held candidates, by prior class.
+    held: Fenwick,
     table: Table,
-    /// Posterior odds at the prior f, per k (index 0 unused): the odds of
-    /// every candidate when the catalogue has no `fpp`.
-    odds_at_f: Vec<f64>,
     counts: VerdictCounts,
     rejected: usize,
+    margins: OnceLock<Margins>,
     /// Cautions about the inputs (bad fpp values, clamps in the table).
     pub input_warnings: Vec<String>,
 }
@@ -110,61 +160,80 @@ impl Live {
             cat,
             model,
             vec![FlagSet::EMPTY; cat.len()],
+            SignalGroups::none(cat.len()),
             vec![Decision::Open; cat.len()],
         )
     }
 
-    /// Builds the live state from given flags and decisions, from scratch.
+    /// Builds the live state from the checks' flags and signal groups and
+    /// the ledger's decisions, from scratch.
     pub fn with_state(
         cat: &Catalogue,
         model: Model,
         flags: Vec<FlagSet>,
+        groups: SignalGroups,
         decision: Vec<Decision>,
     ) -> Result<Live, ModelError> {
         check_inputs(&model, cat.star_count())?;
+        let n = cat.len();
         let mut input_warnings = Vec::new();
-        let prior = cat.column(Field::Fpp).map(|col| {
+        let f_of: Vec<f64> = if model.fp_by_radius.is_empty() {
+            vec![model.fp_fraction; n]
+        } else {
+            crate::selection::planet_radii(cat)
+                .into_iter()
+                .map(|r| model.fp_for_radius(r))
+                .collect()
+        };
+        let mut has_fpp = vec![false; n];
+        let mut prior = f_of.clone();
+        if let Some(col) = cat.column(Field::Fpp) {
             let mut bad = 0;
-            let p: Vec<f64> = col
-                .iter()
-                .map(|&v| {
-                    if v.is_nan() {
-                        model.fp_fraction
-                    } else if (0.0..=1.0).contains(&v) {
-                        v
-                    } else {
-                        bad += 1;
-                        model.fp_fraction
-                    }
-                })
-                .collect();
+            for (c, &v) in col.iter().enumerate() {
+                if v.is_nan() {
+                    continue;
+                }
+                if (0.0..=1.0).contains(&v) {
+                    prior[c] = v;
+                    has_fpp[c] = true;
+                } else {
+                    bad += 1;
+                }
+            }
             if bad > 0 {
                 input_warnings.push(format!(
-                    "{bad} fpp values outside [0, 1] were replaced by f = {}",
-                    model.fp_fraction
+                    "{bad} fpp values outside [0, 1] were replaced by the candidate's f"
                 ));
             }
-            p
-        });
-        let ranked = prior.as_ref().map(|p| {
-            let mut order: Vec<u32> = (0..p.len() as u32).collect();
-            order.sort_by(|&a, &b| p[a as usize].total_cmp(&p[b as usize]).then(a.cmp(&b)));
-            let mut rank = vec![0u32; p.len()];
-            for (r, &c) in order.iter().enumerate() {
-                rank[c as usize] = r as u32;
-            }
-            (order.iter().map(|&c| p[c as usize]).collect(), rank)
-        });
+        }
+        let mut classes = prior.clone();
+        classes.sort_by(f64::total_cmp);
+        classes.dedup();
+        let class_of = prior
+            .iter()
+            .map(|p| classes.partition_point(|c| c < p) as u32)
+            .collect();
+        let mut singles_by_f: Vec<(f64, i64)> = f_of.iter().map(|&f| (f, 0)).collect();
+        singles_by_f.sort_by(|a, b| a.0.total_cmp(&b.0));
+        singles_by_f.dedup_by(|a, b| a.0 == b.0);
+        let nclasses = classes.len();
         let mut live = Live {
             model,
             index: cat.index(),
             prior,
-            ranked,
+            has_fpp,
+            f_of,
+            classes,
+            class_of,
             flags,
+            groups,
             decision,
+            status: vec![Status::Rejected; n],
             k_of_star: vec![0; cat.star_count()],
             hist: vec![0],
+            singles_by_f,
             buckets: Vec::new(),
+            held: Fenwick::new(nclasses),
             table: Table {
                 targets: None,
                 fp_fraction: 0.0,
@@ -172,27 +241,13 @@ impl Live {
                 rows: Vec::new(),
                 warnings: Vec::new(),
             },
-            odds_at_f: Vec::new(),
             counts: VerdictCounts::default(),
             rejected: 0,
+            margins: OnceLock::new(),
             input_warnings,
         };
-        let index = Arc::clone(&live.index);
-        for s in 0..index.star_count() {
-            let members = index.members(s as StarId);
-            let k = members
-                .iter()
-                .filter(|&&c| !live.decision[c as usize].is_rejected())
-                .count();
-            live.k_of_star[s] = k as u16;
-            live.bump_hist(k, 1);
-            for &c in members {
-                if live.decision[c as usize].is_rejected() {
-                    live.rejected += 1;
-                } else {
-                    live.bucket_add(k, c, 1);
-                }
-            }
+        for s in 0..live.index.star_count() {
+            live.place_star(s as StarId);
         }
         live.refresh();
         Ok(live)
@@ -210,7 +265,7 @@ impl Live {
         self.counts
     }
 
-    /// Stars with k non-rejected candidates, indexed by k.
+    /// Stars with k counted candidates, indexed by k.
     pub fn histogram(&self) -> &[usize] {
         &self.hist
     }
@@ -223,38 +278,44 @@ impl Live {
         self.flags[c as usize]
     }
 
-    fn members_of(&self, s: StarId) -> &[CandidateId] {
-        self.index.members(s)
+    pub fn groups(&self) -> &SignalGroups {
+        &self.groups
+    }
+
+    /// Where the candidate stands: counted, held back, or rejected.
+    pub fn status(&self, c: CandidateId) -> Status {
+        self.status[c as usize]
+    }
+
+    /// Candidates held back (not rejected, not counted).
+    pub fn held_count(&self) -> usize {
+        self.held.total
     }
 
     fn star_of(&self, c: CandidateId) -> StarId {
         self.index.star_of[c as usize]
     }
 
-    /// The size of the system the candidate belongs to; 0 once rejected.
+    /// The size of the system the candidate is counted in (its star's
+    /// counted candidates); 0 when it is not counted (held back or
+    /// rejected).
     pub fn k(&self, c: CandidateId) -> usize {
-        if self.decision[c as usize].is_rejected() {
-            0
-        } else {
-            self.k_of_star[self.star_of(c) as usize] as usize
+        match self.status[c as usize] {
+            Status::Counted => self.k_of_star[self.star_of(c) as usize] as usize,
+            _ => 0,
         }
     }
 
-    /// The odds every candidate of a k-candidate system has when the
-    /// catalogue has no `fpp` (all priors are f); `None` when it has.
+    /// The odds every counted candidate of a k-system has when every prior
+    /// is the same f (no `fpp`, one f for all sizes); `None` otherwise.
     pub fn uniform_odds(&self, k: usize) -> Option<f64> {
-        if self.prior.is_some() || k == 0 {
+        if self.classes.len() != 1 || k == 0 {
             return None;
         }
-        Some(
-            self.odds_at_f
-                .get(k)
-                .copied()
-                .unwrap_or_else(|| posterior_odds(self.table.boost(k), self.model.fp_fraction)),
-        )
+        Some(posterior_odds(self.table.boost(k), self.classes[0]))
     }
 
-    /// The number of a star's candidates not rejected.
+    /// The number of a star's counted candidates.
     #[inline]
     pub fn star_k(&self, s: StarId) -> usize {
         self.k_of_star[s as usize] as usize
@@ -265,56 +326,35 @@ impl Live {
         &self.k_of_star
     }
 
-    /// Prior FP probability: the candidate's `fpp`, else f.
+    /// Prior FP probability: the candidate's `fpp`, else its f.
     pub fn prior(&self, c: CandidateId) -> f64 {
-        self.prior
-            .as_ref()
-            .map_or(self.model.fp_fraction, |p| p[c as usize])
+        self.prior[c as usize]
     }
 
-    /// The factor on prior odds for the candidate's system; `None` once rejected.
+    /// The factor on prior odds the candidate gets: its system's boost when
+    /// counted, 1 when held back; `None` once rejected.
     pub fn boost(&self, c: CandidateId) -> Option<f64> {
-        match self.k(c) {
-            0 => None,
-            k => Some(self.table.boost(k)),
+        match self.status[c as usize] {
+            Status::Counted => Some(self.table.boost(self.k(c))),
+            Status::Held => Some(1.0),
+            Status::Rejected => None,
         }
     }
 
     /// Posterior odds planet : FP; `None` once rejected.
     pub fn odds(&self, c: CandidateId) -> Option<f64> {
-        let k = self.k(c);
-        if k == 0 {
-            return None;
-        }
-        match &self.prior {
-            None => self.uniform_odds(k),
-            Some(p) => Some(posterior_odds(self.table.boost(k), p[c as usize])),
-        }
+        Some(posterior_odds(self.boost(c)?, self.prior[c as usize]))
     }
 
-    /// The largest odds among a star's non-rejected candidates; `None` when
-    /// all are rejected. Every member shares the star's boost and the odds
-    /// fall as the prior rises, so this is the odds at the smallest prior:
-    /// one pass over the members, no table lookups per member.
+    /// The largest odds among a star's candidates not rejected; `None` when
+    /// all are rejected.
     #[inline]
     pub fn best_odds(&self, s: StarId) -> Option<f64> {
-        let k = self.k_of_star[s as usize] as usize;
-        if k == 0 {
-            return None;
-        }
-        match &self.prior {
-            None => self.uniform_odds(k),
-            Some(p) => {
-                let least = self
-                    .index
-                    .members(s)
-                    .iter()
-                    .filter(|&&c| !self.decision[c as usize].is_rejected())
-                    .map(|&c| p[c as usize])
-                    .fold(f64::INFINITY, f64::min);
-                Some(posterior_odds(self.table.boost(k), least))
-            }
-        }
+        self.index
+            .members(s)
+            .iter()
+            .filter_map(|&c| self.odds(c))
+            .reduce(f64::max)
     }
 
     pub fn probability(&self, c: CandidateId) -> Option<f64> {
@@ -328,84 +368,231 @@ impl Live {
                 o,
                 self.model.threshold,
                 false,
-                self.flags[c as usize],
-                self.model.blocking,
+                self.status[c as usize] == Status::Counted,
             ),
         }
     }
 
-    /// Records a decision and updates everything it changes. Only a change
-    /// into or out of `rejected` moves odds: O(k) for the system, O(k_max²)
-    /// for the table, O(k_max log n) for the counts.
+    /// Why a candidate is held back; `None` when counted or rejected.
+    pub fn hold(&self, c: CandidateId) -> Option<Hold> {
+        if self.status[c as usize] != Status::Held {
+            return None;
+        }
+        let own = self.flags[c as usize].intersection(self.own_blocking());
+        if !own.is_empty() {
+            return Some(Hold::Flags(own));
+        }
+        let g = self.active_group(c)?;
+        let members = self.groups.members(g);
+        if let Some((&by, reason)) = members.iter().find_map(|m| {
+            let r = self.decision[*m as usize].reason()?;
+            (!is_copy(r)).then_some((m, r))
+        }) {
+            return Some(Hold::GroupRejected { by, reason });
+        }
+        let rep = *members
+            .iter()
+            .find(|&&m| !self.decision[m as usize].is_rejected())?;
+        if rep == c {
+            return None;
+        }
+        if self.status[rep as usize] == Status::Held {
+            return Some(Hold::GroupHeld { rep });
+        }
+        let kind = self.flags[c as usize]
+            .intersection(FlagSet::group_flags())
+            .iter()
+            .next()
+            .or_else(|| self.groups.kinds(g).iter().next())
+            .unwrap_or(Flag::NearTwin);
+        Some(Hold::Copy { rep, kind })
+    }
+
+    /// The largest f (the candidate's own, with every other f scaled in
+    /// proportion) at which a counted candidate still reaches the threshold,
+    /// everything else unchanged; `None` when it is not counted or does not
+    /// reach it at any f (docs/science.md §1.5).
+    pub fn holds_to(&self, c: CandidateId) -> Option<f64> {
+        if self.status[c as usize] != Status::Counted || self.model.targets.is_none() {
+            return None;
+        }
+        let k = self.k(c);
+        let m = self.margins.get_or_init(|| self.margins_table());
+        let t = self.model.threshold;
+        let f_c = self.f_of[c as usize];
+        let last = m.scale.len() - 1;
+        let hold_at = |j: usize| {
+            let b = m.boost[j].get(k).copied().unwrap_or(1.0);
+            let p = if self.has_fpp[c as usize] {
+                self.prior[c as usize]
+            } else {
+                (m.scale[j] * f_c).min(1.0)
+            };
+            posterior_odds(b, p) >= t
+        };
+        if !self.has_fpp[c as usize] {
+            return m
+                .refined
+                .iter()
+                .find(|r| r.0 == k && r.1 == f_c)
+                .and_then(|r| r.2);
+        }
+        let j = if self.has_fpp[c as usize] {
+            // Largest j with boost_j ≥ x: the suffix maximum falls with j.
+            let p = self.prior[c as usize];
+            let x = t * p / (1.0 - p).max(1e-300);
+            let sm = m.suffix_max.get(k)?;
+            let upto = sm.partition_point(|&b| b >= x);
+            upto.checked_sub(1)?
+        } else {
+            (0..=last).rev().find(|&j| hold_at(j))?
+        };
+        Some((m.scale[j] * f_c).min(0.9999))
+    }
+
+    fn margins_table(&self) -> Margins {
+        let f_max = self
+            .f_of
+            .iter()
+            .copied()
+            .fold(self.model.fp_fraction, f64::max);
+        let k_max = self.hist.len().saturating_sub(1).max(1);
+        let (lo, hi) = (1e-4_f64.ln(), 0.9999_f64.ln());
+        let mut scale = Vec::with_capacity(MARGIN_STEPS);
+        let mut boost = Vec::with_capacity(MARGIN_STEPS);
+        let fp_singles = self.fp_singles();
+        // The boost per k with every f scaled by s (each f capped below 1).
+        let boosts_at = |s: f64| -> Vec<f64> {
+            let mut model = self.model.clone();
+            model.fp_fraction = (model.fp_fraction * s).min(0.9999);
+            for b in &mut model.fp_by_radius {
+                b.f = (b.f * s).min(0.9999);
+            }
+            let t = table_with(&model, trimmed(&self.hist), fp_singles * s);
+            let mut row = vec![f64::NAN];
+            row.extend((1..=k_max).map(|k| t.boost(k)));
+            row
+        };
+        for j in 0..MARGIN_STEPS {
+            let f_top = (lo + (hi - lo) * j as f64 / (MARGIN_STEPS - 1) as f64).exp();
+            let s = f_top / f_max;
+            scale.push(s);
+            boost.push(boosts_at(s));
+        }
+        let t = self.model.threshold;
+        let mut fs: Vec<f64> = self.f_of.clone();
+        fs.sort_by(f64::total_cmp);
+        fs.dedup();
+        let mut refined = Vec::new();
+        for k in 1..=k_max {
+            for &f_c in &fs {
+                let holds = |b: &[f64], s: f64| posterior_odds(b[k], (s * f_c).min(1.0)) >= t;
+                let edge = (0..scale.len())
+                    .rev()
+                    .find(|&j| holds(&boost[j], scale[j]))
+                    .map(|j| {
+                        if j + 1 == scale.len() {
+                            return scale[j];
+                        }
+                        let (mut a, mut b) = (scale[j], scale[j + 1]);
+                        for _ in 0..40 {
+                            let mid = 0.5 * (a + b);
+                            if holds(&boosts_at(mid), mid) {
+                                a = mid;
+                            } else {
+                                b = mid;
+                            }
+                        }
+                        a
+                    });
+                refined.push((k, f_c, edge.map(|s| (s * f_c).min(0.9999))));
+            }
+        }
+        let suffix_max = (0..=k_max)
+            .map(|k| {
+                let mut v: Vec<f64> = boost.iter().map(|r| r[k]).collect();
+                for j in (0..v.len().saturating_sub(1)).rev() {
+                    v[j] = v[j].max(v[j + 1]);
+                }
+                v
+            })
+            .collect();
+        Margins {
+            scale,
+            boost,
+            suffix_max,
+            refined,
+        }
+    }
+
+    /// Records a decision and updates everything it changes: the star's
+    /// statuses (O(members × group size)), the table (O(k_max²)), the
+    /// counts (O(k_max log n)).
     pub fn set_decision(&mut self, c: CandidateId, d: Decision) {
         let old = std::mem::replace(&mut self.decision[c as usize], d);
-        if old.is_rejected() == d.is_rejected() {
+        if old == d {
             return;
         }
-        let s = self.star_of(c);
-        let k = self.k_of_star[s as usize] as usize;
-        let siblings: Vec<CandidateId> = self
-            .members_of(s)
-            .iter()
-            .copied()
-            .filter(|&m| m != c && !self.decision[m as usize].is_rejected())
-            .collect();
-        if d.is_rejected() {
-            // c leaves a k-system; its siblings now form a (k−1)-system.
-            self.bucket_add(k, c, -1);
-            for &m in &siblings {
-                self.bucket_add(k, m, -1);
-                self.bucket_add(k - 1, m, 1);
-            }
-            self.bump_hist(k, -1);
-            self.bump_hist(k - 1, 1);
-            self.k_of_star[s as usize] -= 1;
-            self.rejected += 1;
-        } else {
-            for &m in &siblings {
-                self.bucket_add(k, m, -1);
-                self.bucket_add(k + 1, m, 1);
-            }
-            self.bucket_add(k + 1, c, 1);
-            self.bump_hist(k, -1);
-            self.bump_hist(k + 1, 1);
-            self.k_of_star[s as usize] += 1;
-            self.rejected -= 1;
-        }
-        self.refresh();
+        self.replace_star(self.star_of(c));
     }
 
-    /// Sets a candidate's flags (from the checks); a change of blocking
-    /// status moves it between halves of its bucket.
+    /// Sets a candidate's flags (from the checks).
     pub fn set_flags(&mut self, c: CandidateId, flags: FlagSet) {
-        let k = self.k(c);
-        if k > 0 {
-            self.bucket_add(k, c, -1);
+        if self.flags[c as usize] == flags {
+            return;
         }
         self.flags[c as usize] = flags;
-        if k > 0 {
-            self.bucket_add(k, c, 1);
-        }
-        self.refresh();
+        self.replace_star(self.star_of(c));
     }
 
-    /// The odds each non-rejected sibling would have if `c` were rejected:
+    /// The odds each counted sibling would have if `c` were rejected:
     /// (sibling, its new k, its new odds). Empty if `c` is already rejected.
     pub fn what_if_rejected(&self, c: CandidateId) -> Vec<(CandidateId, usize, f64)> {
-        let k = self.k(c);
-        if k == 0 {
+        if self.status[c as usize] == Status::Rejected {
             return Vec::new();
         }
-        let mut hist = self.hist.clone();
-        hist[k] -= 1;
-        hist[k - 1] += 1;
-        let t = table(&self.model, trimmed(&hist));
         let s = self.star_of(c);
-        self.members_of(s)
+        let after = self.statuses(s, |m| {
+            if m == c {
+                Decision::Rejected(Reason::Duplicate)
+            } else {
+                self.decision[m as usize]
+            }
+        });
+        let k_old = self.k_of_star[s as usize] as usize;
+        let k_new = after.iter().filter(|x| x.1 == Status::Counted).count();
+        let mut hist = self.hist.clone();
+        if hist.len() <= k_new {
+            hist.resize(k_new + 1, 0);
+        }
+        if k_old > 0 {
+            hist[k_old] -= 1;
+        }
+        if k_new > 0 {
+            hist[k_new] += 1;
+        }
+        let mut fp_singles = self.fp_singles();
+        if k_old == 1 {
+            fp_singles -= self.star_single_f(s, |m| self.status[m as usize]);
+        }
+        if k_new == 1 {
+            let f = after
+                .iter()
+                .find(|x| x.1 == Status::Counted)
+                .map_or(0.0, |x| self.f_of[x.0 as usize]);
+            fp_singles += f;
+        }
+        let t = table_with(&self.model, trimmed(&hist), fp_singles.max(0.0));
+        after
             .iter()
-            .copied()
-            .filter(|&m| m != c && !self.decision[m as usize].is_rejected())
-            .map(|m| (m, k - 1, posterior_odds(t.boost(k - 1), self.prior(m))))
+            .filter(|&&(m, st)| m != c && st == Status::Counted)
+            .map(|&(m, _)| {
+                (
+                    m,
+                    k_new,
+                    posterior_odds(t.boost(k_new), self.prior[m as usize]),
+                )
+            })
             .collect()
     }
 
@@ -415,6 +602,7 @@ impl Live {
             cat,
             self.model.clone(),
             self.flags.clone(),
+            self.groups.clone(),
             self.decision.clone(),
         )
     }
@@ -422,10 +610,184 @@ impl Live {
     /// True when two states agree on everything the odds depend on.
     pub fn same_odds_state(&self, other: &Live) -> bool {
         self.k_of_star == other.k_of_star
+            && self.status == other.status
             && trimmed(&self.hist) == trimmed(&other.hist)
             && self.table == other.table
             && self.counts == other.counts
             && self.rejected == other.rejected
+    }
+
+    /// Counts of held-back candidates by cause, for "the cleaning held back
+    /// N": one pass over the catalogue. A candidate with several blocking
+    /// flags counts under each.
+    pub fn held_summary(&self) -> Vec<(String, usize)> {
+        let mut copies = 0;
+        let mut group_out = 0;
+        let mut by_flag: std::collections::BTreeMap<&'static str, usize> = Default::default();
+        for c in 0..self.status.len() as CandidateId {
+            match self.hold(c) {
+                Some(Hold::Flags(f)) => f
+                    .iter()
+                    .for_each(|f| *by_flag.entry(f.name()).or_default() += 1),
+                Some(Hold::Copy { .. }) => copies += 1,
+                Some(Hold::GroupRejected { .. } | Hold::GroupHeld { .. }) => group_out += 1,
+                None => {}
+            }
+        }
+        let mut out = Vec::new();
+        if copies > 0 {
+            out.push((
+                "copies of another signal (near-twin, harmonic, half-phase)".to_string(),
+                copies,
+            ));
+        }
+        if group_out > 0 {
+            out.push((
+                "one signal with a rejected or held-back candidate".to_string(),
+                group_out,
+            ));
+        }
+        out.extend(by_flag.into_iter().map(|(f, n)| (format!("flag {f}"), n)));
+        out
+    }
+
+    /// One line: "N held back: a (cause), b (cause)…", or `None`.
+    pub fn held_line(&self) -> Option<String> {
+        let n = self.held_count();
+        if n == 0 {
+            return None;
+        }
+        let parts: Vec<String> = self
+            .held_summary()
+            .into_iter()
+            .map(|(what, k)| format!("{k} {what}"))
+            .collect();
+        Some(format!(
+            "{n} candidate{} held back from the count (not rejected, never validated): {}",
+            if n == 1 { "" } else { "s" },
+            parts.join("; ")
+        ))
+    }
+
+    /// Blocking flags that hold a candidate back on their own (the group
+    /// flags act through the group instead).
+    fn own_blocking(&self) -> FlagSet {
+        self.model.blocking.difference(FlagSet::group_flags())
+    }
+
+    /// The candidate's group, when its links are among the blocking flags.
+    fn active_group(&self, c: CandidateId) -> Option<u32> {
+        let g = self.groups.group_of(c)?;
+        self.groups
+            .kinds(g)
+            .intersects(self.model.blocking)
+            .then_some(g)
+    }
+
+    /// Each member of star s with its status under `decision`.
+    fn statuses(
+        &self,
+        s: StarId,
+        decision: impl Fn(CandidateId) -> Decision,
+    ) -> Vec<(CandidateId, Status)> {
+        let own_blocking = self.own_blocking();
+        self.index
+            .members(s)
+            .iter()
+            .map(|&c| {
+                let st = if decision(c).is_rejected() {
+                    Status::Rejected
+                } else if self.flags[c as usize].intersects(own_blocking) {
+                    Status::Held
+                } else if let Some(g) = self.active_group(c) {
+                    let members = self.groups.members(g);
+                    let dead = members
+                        .iter()
+                        .any(|&m| decision(m).reason().is_some_and(|r| !is_copy(r)));
+                    let rep = members.iter().find(|&&m| !decision(m).is_rejected());
+                    if !dead && rep == Some(&c) {
+                        Status::Counted
+                    } else {
+                        Status::Held
+                    }
+                } else {
+                    Status::Counted
+                };
+                (c, st)
+            })
+            .collect()
+    }
+
+    /// The f of the one counted member of a star whose system is a single.
+    fn star_single_f(&self, s: StarId, status: impl Fn(CandidateId) -> Status) -> f64 {
+        self.index
+            .members(s)
+            .iter()
+            .find(|&&m| status(m) == Status::Counted)
+            .map_or(0.0, |&m| self.f_of[m as usize])
+    }
+
+    /// Σ f over the counted singles.
+    fn fp_singles(&self) -> f64 {
+        self.singles_by_f.iter().map(|&(f, n)| f * n as f64).sum()
+    }
+
+    /// Removes a star's contribution, recomputes its statuses, adds it back.
+    fn replace_star(&mut self, s: StarId) {
+        self.unplace_star(s);
+        self.place_star(s);
+        self.margins = OnceLock::new();
+        self.refresh();
+    }
+
+    fn place_star(&mut self, s: StarId) {
+        let st = self.statuses(s, |m| self.decision[m as usize]);
+        let k = st.iter().filter(|x| x.1 == Status::Counted).count();
+        self.k_of_star[s as usize] = k as u16;
+        self.bump_hist(k, 1);
+        for (c, status) in st {
+            self.status[c as usize] = status;
+            self.contribute(c, k, 1);
+        }
+        if k == 1 {
+            let f = self.star_single_f(s, |m| self.status[m as usize]);
+            self.bump_single(f, 1);
+        }
+    }
+
+    fn unplace_star(&mut self, s: StarId) {
+        let k = self.k_of_star[s as usize] as usize;
+        if k == 1 {
+            let f = self.star_single_f(s, |m| self.status[m as usize]);
+            self.bump_single(f, -1);
+        }
+        self.bump_hist(k, -1);
+        let index = Arc::clone(&self.index);
+        for &c in index.members(s) {
+            self.contribute(c, k, -1);
+        }
+    }
+
+    fn contribute(&mut self, c: CandidateId, k: usize, delta: i32) {
+        let class = self.class_of[c as usize] as usize;
+        match self.status[c as usize] {
+            Status::Rejected => {
+                self.rejected = self.rejected.wrapping_add_signed(delta as isize);
+            }
+            Status::Held => self.held.add(class, delta),
+            Status::Counted => {
+                while self.buckets.len() <= k {
+                    self.buckets.push(Fenwick::new(self.classes.len()));
+                }
+                self.buckets[k].add(class, delta);
+            }
+        }
+    }
+
+    fn bump_single(&mut self, f: f64, delta: i64) {
+        if let Some(e) = self.singles_by_f.iter_mut().find(|e| e.0 == f) {
+            e.1 += delta;
+        }
     }
 
     fn bump_hist(&mut self, k: usize, delta: isize) {
@@ -438,109 +800,36 @@ impl Live {
         self.hist[k] = self.hist[k].wrapping_add_signed(delta);
     }
 
-    fn blocked(&self, c: CandidateId) -> bool {
-        self.flags[c as usize].intersects(self.model.blocking)
-    }
-
-    fn bucket_add(&mut self, k: usize, c: CandidateId, delta: i32) {
-        if k == 0 {
-            return;
-        }
-        while self.buckets.len() <= k {
-            let b = match &self.ranked {
-                None => Bucket::Uniform {
-                    unblocked: 0,
-                    blocked: 0,
-                },
-                Some((sorted, _)) => Bucket::Ranked {
-                    unblocked: Box::new(Fenwick::new(sorted.len())),
-                    blocked: Box::new(Fenwick::new(sorted.len())),
-                    total_unblocked: 0,
-                    total_blocked: 0,
-                },
-            };
-            self.buckets.push(b);
-        }
-        let blocked = self.blocked(c);
-        let rank = self
-            .ranked
-            .as_ref()
-            .map_or(0, |(_, r)| r[c as usize] as usize);
-        match &mut self.buckets[k] {
-            Bucket::Uniform {
-                unblocked,
-                blocked: b,
-            } => {
-                let n = if blocked { b } else { unblocked };
-                *n = n.wrapping_add_signed(delta as isize);
-            }
-            Bucket::Ranked {
-                unblocked,
-                blocked: b,
-                total_unblocked,
-                total_blocked,
-            } => {
-                let (tree, total) = if blocked {
-                    (b, total_blocked)
-                } else {
-                    (unblocked, total_unblocked)
-                };
-                tree.add(rank, delta);
-                *total = total.wrapping_add_signed(delta as isize);
-            }
-        }
-    }
-
     /// Rebuilds the table from the histogram and the counts from the buckets.
     fn refresh(&mut self) {
-        self.table = table(&self.model, trimmed(&self.hist));
-        let (t, f) = (self.model.threshold, self.model.fp_fraction);
-        self.odds_at_f.clear();
-        self.odds_at_f.push(f64::NAN);
-        for r in &self.table.rows {
-            self.odds_at_f.push(posterior_odds(r.boost, f));
-        }
+        self.table = table_with(&self.model, trimmed(&self.hist), self.fp_singles());
+        let t = self.model.threshold;
         let mut counts = VerdictCounts {
             rejected: self.rejected,
             ..VerdictCounts::default()
         };
+        // Classes ascend in FP probability, so odds descend: the candidates
+        // at or above a threshold are a prefix.
+        let upto = |b: f64, x: f64| self.classes.partition_point(|&p| posterior_odds(b, p) >= x);
         for (k, bucket) in self.buckets.iter().enumerate().skip(1) {
             let b = self.table.boost(k);
-            match bucket {
-                Bucket::Uniform { unblocked, blocked } => {
-                    let o = posterior_odds(b, f);
-                    if o >= t {
-                        counts.validated += unblocked;
-                        counts.likely += blocked;
-                    } else if o >= 1.0 {
-                        counts.likely += unblocked + blocked;
-                    } else {
-                        counts.unlikely += unblocked + blocked;
-                    }
-                }
-                Bucket::Ranked {
-                    unblocked,
-                    blocked,
-                    total_unblocked,
-                    total_blocked,
-                } => {
-                    let sorted = self.ranked.as_ref().map_or(&[][..], |(s, _)| s.as_slice());
-                    // Ranks ascend in FP probability, so odds descend: the
-                    // candidates at or above a threshold are a prefix.
-                    let upto = |x: f64| sorted.partition_point(|&p| posterior_odds(b, p) >= x);
-                    let (at_t, at_1) = (upto(t), upto(1.0));
-                    let v = unblocked.prefix(at_t) as usize;
-                    let l_unblocked = unblocked.prefix(at_1) as usize - v;
-                    let l_blocked = blocked.prefix(at_1) as usize;
-                    counts.validated += v;
-                    counts.likely += l_unblocked + l_blocked;
-                    counts.unlikely +=
-                        total_unblocked + total_blocked - v - l_unblocked - l_blocked;
-                }
-            }
+            let v = bucket.prefix(upto(b, t));
+            let l = bucket.prefix(upto(b, 1.0)) - v;
+            counts.validated += v;
+            counts.likely += l;
+            counts.unlikely += bucket.total - v - l;
         }
+        let l = self.held.prefix(upto(1.0, 1.0));
+        counts.likely += l;
+        counts.unlikely += self.held.total - l;
         self.counts = counts;
     }
+}
+
+/// A rejection that says "this entry is a copy" (the signal lives on in
+/// another member of its group), not what the signal is.
+fn is_copy(r: Reason) -> bool {
+    matches!(r, Reason::Duplicate | Reason::Alias)
 }
 
 /// The histogram without trailing zero rows.

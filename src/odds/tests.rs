@@ -137,45 +137,16 @@ fn leading_order_closed_forms() {
 
 #[test]
 fn threshold_is_p_100_over_101() {
-    // METHODS.md §1.1: validated at planet:FP odds ≥ 100:1, i.e. P ≥ 100/101.
+    // docs/science.md §1.1 (Lissauer et al. 2014; Rowe et al. 2014):
+    // validated at planet:FP odds ≥ 100:1, i.e. P ≥ 100/101.
     assert_eq!(probability(DEFAULT_THRESHOLD), 100.0 / 101.0);
-    assert_eq!(
-        verdict(
-            100.0,
-            100.0,
-            false,
-            FlagSet::EMPTY,
-            FlagSet::default_blocking()
-        ),
-        Verdict::Validated
-    );
-    assert_eq!(
-        verdict(
-            99.99,
-            100.0,
-            false,
-            FlagSet::EMPTY,
-            FlagSet::default_blocking()
-        ),
-        Verdict::Likely
-    );
-    assert_eq!(
-        verdict(0.5, 100.0, false, FlagSet::EMPTY, FlagSet::EMPTY),
-        Verdict::Unlikely
-    );
-    assert_eq!(
-        verdict(1e6, 100.0, true, FlagSet::EMPTY, FlagSet::EMPTY),
-        Verdict::Rejected
-    );
-    let echo: FlagSet = [crate::flags::Flag::Echo].into_iter().collect();
-    assert_eq!(
-        verdict(1e6, 100.0, false, echo, FlagSet::default_blocking()),
-        Verdict::Likely
-    );
-    assert_eq!(
-        verdict(1e6, 100.0, false, echo, FlagSet::EMPTY),
-        Verdict::Validated
-    );
+    assert_eq!(verdict(100.0, 100.0, false, true), Verdict::Validated);
+    assert_eq!(verdict(99.99, 100.0, false, true), Verdict::Likely);
+    assert_eq!(verdict(0.5, 100.0, false, true), Verdict::Unlikely);
+    assert_eq!(verdict(1e6, 100.0, true, true), Verdict::Rejected);
+    // Not counted (a blocking flag, or a copy of another signal): never
+    // validated, whatever the odds.
+    assert_eq!(verdict(1e6, 100.0, false, false), Verdict::Likely);
 }
 
 #[test]

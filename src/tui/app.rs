@@ -742,7 +742,12 @@ impl App {
         move |s| {
             let k = match sort {
                 SortKey::BestOdds => match &by_size {
-                    Some(rank) => rank[self.live.star_k(s)],
+                    // A star with no counted candidate but a held one has
+                    // the held one's prior odds: those of a single.
+                    Some(rank) => match self.live.star_k(s) {
+                        0 if self.live.best_odds(s).is_some() => rank[1.min(rank.len() - 1)],
+                        k => rank[k],
+                    },
                     None => sortable_bits(self.live.best_odds(s).unwrap_or(-1.0)),
                 },
                 SortKey::Multiplicity => self.live.star_k(s) as u64,
@@ -1734,6 +1739,7 @@ impl App {
             &self.cat,
             self.live.model().clone(),
             checks.all_flags().to_vec(),
+            checks.groups().clone(),
             decisions,
         ) {
             Ok(live) => self.live = live,

@@ -778,6 +778,21 @@ fn draw_facts(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             num(d.t14_central_h, 3)
         )),
     ];
+    let standing = match app.live.status(c) {
+        crate::odds::Status::Counted => format!(
+            "counted in a {}-system{}",
+            app.live.k(c),
+            app.live
+                .holds_to(c)
+                .map_or(String::new(), |f| format!(" · holds to f = {f:.3}"))
+        ),
+        crate::odds::Status::Held => format!(
+            "held back, never validated: {}",
+            crate::odds::hold_text(&app.cat, &app.live, c)
+        ),
+        crate::odds::Status::Rejected => "rejected: out of every system".into(),
+    };
+    lines.push(Line::from(Span::styled(standing, style(look, Color::Cyan))));
     for f in app.checks.findings(c) {
         let head = format!("{}{}: ", if f.soft { "warning " } else { "" }, f.flag);
         lines.push(Line::from(vec![
@@ -822,7 +837,7 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let text = match &app.message {
         Some(msg) => clean(msg).into_owned(),
         None => format!(
-            "{}{} validated {} likely {} unlikely {} rejected{} · N={} f={} · filter [{}] · {} · disagree {} · {}",
+            "{}{} validated {} likely {} unlikely {} rejected · {} held back{} · N={} f={} · filter [{}] · {} · disagree {} · {}",
             if app.checks_pending {
                 "checks running… · "
             } else {
@@ -832,6 +847,7 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             c.likely,
             c.unlikely,
             c.rejected,
+            app.live.held_count(),
             match app.cat.skipped.len() {
                 0 => String::new(),
                 n => format!(" · {n} rows skipped"),

@@ -1,0 +1,152 @@
+//! One vetting session: the catalogue, its checks, the light-curve
+//! diagnostics of every star whose light curve is found, the ledger's
+//! decisions and the live odds built from all of them. Every command that
+//! reports a verdict (`odds`, `checks`, `export`, `report`, `decide`) opens
+//! one with the same defaults, so a candidate gets the same verdict
+//! everywhere; the browser builds the same [`Live`] from the same pieces.
+
+use std::collections::BTreeMap;
+use std::io::IsTerminal;
+
+use crate::checks::{CheckSettings, Checks};
+use crate::cli::{CliError, Loaded, VettingArgs};
+use crate::decision::Decision;
+use crate::ledger::{Entry, Latest};
+use crate::odds::{Live, ModelError};
+use crate::sanitize::clean;
+
+/// What a session reads of the ledger.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum LedgerUse {
+    /// The ledger's decisions if the ledger exists; never creates one.
+    Read,
+    /// No ledger: every candidate open.
+    Ignore,
+}
+
+/// A catalogue with all its evidence and the odds it implies.
+pub struct Session {
+    pub loaded: Loaded,
+    pub settings: CheckSettings,
+    pub checks: Checks,
+    /// The odds; `Err` when the model cannot be built (e.g. no N), for the
+    /// commands that can report without it.
+    pub live: Result<Live, ModelError>,
+    /// Latest entry per candidate id (of one vetter when asked).
+    pub latest: Latest,
+    /// The ledger read, if one was.
+    pub ledger_path: Option<String>,
+    pub disagreements: BTreeMap<String, Vec<Entry>>,
+    pub history: Vec<Entry>,
+    /// Stars whose light curve was read, and those that failed (id, error).
+    pub lightcurve_stars: usize,
+    pub lightcurve_errors: Vec<(String, String)>,
+}
+
+impl Session {
+    /// Loads the catalogue, runs every check (light curves included unless
+    /// `--no-lightcurves`), reads the ledger and builds the odds.
+    pub fn open(args: &VettingArgs, ledger: LedgerUse) -> Result<Session, CliError> {
+        let VettingArgs {
+            input,
+            ledger: ledger_args,
+            model,
+            checks: check_args,
+            lc,
+        } = args;
+        // Flags first: a bad value costs nothing.
+        let settings = check_args.settings();
+        match model.model(&crate::survey::SurveyFacts::default()) {
+            Ok(_) | Err(CliError::Model(ModelError::NoTargets(_))) => {}
+            Err(e) => return Err(e),
+        }
+        let loaded = input.load()?;
+        let model = model.model(&loaded.survey);
+        let cat = &loaded.catalogue;
+        let mut checks = crate::checks::run(cat, &settings);
+        let (mut lightcurve_stars, mut lightcurve_errors) = (0, Vec::new());
+        if lc.wanted() {
+            let finder = lc.finder(&loaded);
+            let progress = std::io::stderr().is_terminal();
+            let (stars, errors) = crate::checks::run_lightcurves_counted(
+                cat,
+                &finder,
+                &lc.detrend(),
+                &mut checks,
+                |done, total| {
+                    if progress {
+                        eprint!("\rstarsift: light curves {done} / {total}");
+                        if done == total {
+                            eprintln!();
+                        }
+                    }
+                },
+            );
+            lightcurve_stars = stars;
+            lightcurve_errors = errors;
+        }
+        let opened = match ledger {
+            LedgerUse::Read => ledger_args.open_existing(input, &loaded)?,
+            LedgerUse::Ignore => None,
+        };
+        let (latest, disagreements, history, ledger_path) = match &opened {
+            Some(l) => (
+                l.latest(ledger_args.vetter.as_deref())?,
+                l.disagreements()?,
+                l.history(None)?,
+                Some(l.path().display().to_string()),
+            ),
+            None => (Latest::default(), BTreeMap::new(), Vec::new(), None),
+        };
+        let decisions = if opened.is_some() {
+            latest.decisions(cat)
+        } else {
+            vec![Decision::Open; cat.len()]
+        };
+        let live = match model {
+            Ok(m) => Live::with_state(
+                cat,
+                m,
+                checks.all_flags().to_vec(),
+                checks.groups().clone(),
+                decisions,
+            ),
+            Err(CliError::Model(e)) => Err(e),
+            Err(e) => return Err(e),
+        };
+        Ok(Session {
+            loaded,
+            settings,
+            checks,
+            live,
+            latest,
+            ledger_path,
+            disagreements,
+            history,
+            lightcurve_stars,
+            lightcurve_errors,
+        })
+    }
+
+    /// The odds, or the error that stopped them, for commands that need them.
+    pub fn live(&self) -> Result<&Live, CliError> {
+        self.live.as_ref().map_err(|e| CliError::Model(e.clone()))
+    }
+
+    /// Prints the light-curve errors and the held-back line on stderr.
+    pub fn warn(&self) {
+        for (star, e) in &self.lightcurve_errors {
+            eprintln!("starsift: warning: star {}: {}", clean(star), clean(e));
+        }
+        if let Ok(live) = &self.live {
+            for w in live.input_warnings.iter().chain(&live.table().warnings) {
+                eprintln!("starsift: warning: {}", clean(w));
+            }
+        }
+    }
+
+    /// The candidates of the ledger's disagreements.
+    pub fn disagreeing(&self) -> std::collections::HashSet<crate::catalogue::CandidateId> {
+        crate::selection::disagreeing(&self.loaded.catalogue, &self.disagreements)
+    }
+}

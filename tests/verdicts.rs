@@ -1,0 +1,428 @@
+//! Verdicts a referee would sign: only counted candidates (not rejected, no
+//! blocking flag, one per signal group) make a system; the boost never falls
+//! with k; a rejection or a flag never raises a sibling's odds; how close to
+//! the edge each verdict stands. Invented catalogues throughout; published
+//! numbers only where named (docs/science.md).
+
+mod common;
+
+use common::{scratch, starsift, stderr, stdout};
+use proptest::prelude::*;
+use starsift::catalogue::{CandidateId, Catalogue, LoadOptions, Source};
+use starsift::checks::{CheckSettings, SignalGroups};
+use starsift::decision::{Decision, Reason};
+use starsift::flags::{Flag, FlagSet};
+use starsift::odds::{Live, Model, Status, Verdict, parse_fp_fraction, table};
+
+const HEAD: &str = "star,candidate,period_d,period_err_d,epoch,epoch_err_d,depth_ppm,duration_h,snr,impact,star_radius_rsun,star_mass_msun,star_teff_k\n";
+
+/// Invented clean systems that give the model a histogram: 400 singles,
+/// 60 doubles, 20 triples (periods spread so no pair is an alias or
+/// unstable).
+fn background() -> String {
+    let mut t = String::new();
+    // Every star its own periods (no two stars share an ephemeris).
+    let mut n = 0;
+    let mut row = |s: &str, j: usize, p: f64| {
+        n += 1;
+        let p = p * (1.0 + 0.0007 * n as f64);
+        t.push_str(&format!(
+            "{s},{s}-{j},{p:.6},0.00001,100.{j},0.001,600,3.0,25,0.3,1,1,5772\n"
+        ));
+    };
+    for i in 0..400 {
+        row(&format!("BG1x{i}"), 1, 3.3);
+    }
+    for i in 0..60 {
+        let s = format!("BG2x{i}");
+        row(&s, 1, 3.3);
+        row(&s, 2, 7.9);
+    }
+    for i in 0..20 {
+        let s = format!("BG3x{i}");
+        row(&s, 1, 3.3);
+        row(&s, 2, 7.9);
+        row(&s, 3, 17.7);
+    }
+    t
+}
+
+fn load(text: &str) -> Catalogue {
+    Catalogue::load(
+        Source::Bytes {
+            name: "invented.csv",
+            data: text.as_bytes(),
+        },
+        &LoadOptions::default(),
+    )
+    .unwrap()
+}
+
+fn model() -> Model {
+    Model {
+        targets: Some(50_000),
+        ..Model::default()
+    }
+}
+
+/// The checks and the live odds, as every command builds them.
+fn vet(text: &str) -> (Catalogue, Live) {
+    let cat = load(text);
+    let checks = starsift::checks::run(&cat, &CheckSettings::default());
+    let live = Live::with_state(
+        &cat,
+        model(),
+        checks.all_flags().to_vec(),
+        checks.groups().clone(),
+        vec![Decision::Open; cat.len()],
+    )
+    .unwrap();
+    (cat, live)
+}
+
+fn id(cat: &Catalogue, s: &str) -> CandidateId {
+    cat.find_candidate(s).unwrap()
+}
+
+#[test]
+fn a_clean_double_is_validated_and_its_copies_are_not() {
+    let text = format!(
+        "{HEAD}{}\
+OK,OK-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772\n\
+OK,OK-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772\n\
+EB,EB-1,6.0,0.00001,100.0,0.001,9000,3.2,60,0.2,1,1,5772\n\
+EB,EB-2,6.0000003,0.00001,103.0,0.001,2500,3.2,25,0.2,1,1,5772\n\
+DU,DU-1,5.0,0.00001,100.0,0.001,500,3,20,0.3,1,1,5772\n\
+DU,DU-2,5.000005,0.00001,100.002,0.001,480,3,19,0.3,1,1,5772\n\
+AL,AL-1,4.0,0.00001,100.0,0.001,500,2.8,20,0.3,1,1,5772\n\
+AL,AL-2,8.0,0.00002,104.0,0.001,500,3.5,25,0.3,1,1,5772\n\
+BR,BR-1,4.4,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772\n\
+BR,BR-2,11.3,0.00001,101.0,0.001,90000,3.6,300,0.3,1,1,5772\n\
+LS,LS-1,4.7,0.00001,100.3,0.001,700,3.0,30,0.3,1,1,5772\n\
+LS,LS-2,11.9,0.00001,101.3,0.001,90,3.6,5,0.3,1,1,5772\n",
+        background()
+    );
+    let (cat, live) = vet(&text);
+    let v = |s: &str| live.verdict(id(&cat, s));
+    // The clean pair: a 2-system, validated.
+    assert_eq!(v("OK-1"), Verdict::Validated);
+    assert_eq!(live.k(id(&cat, "OK-1")), 2);
+    // One eclipsing binary listed twice (primary and secondary), one signal
+    // found twice, an alias: none of them validated; each star is at most a
+    // single.
+    for s in ["EB-1", "EB-2", "DU-1", "DU-2", "AL-1", "AL-2"] {
+        assert_ne!(v(s), Verdict::Validated, "{s}");
+        assert!(live.k(id(&cat, s)) <= 1, "{s}");
+    }
+    // The copy follows the representative (highest SNR) and is held back.
+    assert_eq!(live.status(id(&cat, "DU-2")), Status::Held);
+    assert_eq!(live.status(id(&cat, "DU-1")), Status::Counted);
+    assert_eq!(live.status(id(&cat, "AL-1")), Status::Held);
+    // The binary's primary and secondary are both held (`secondary`).
+    assert_eq!(live.status(id(&cat, "EB-1")), Status::Held);
+    // A sibling of a stellar-size companion (90,000 ppm on a Sun: 33 R⊕)
+    // or of a noise detection (SNR 5) counts alone: odds of a single.
+    for s in ["BR-1", "LS-1"] {
+        assert_eq!(live.k(id(&cat, s)), 1, "{s}");
+        assert_eq!(v(s), Verdict::Likely, "{s}");
+        assert!((live.odds(id(&cat, s)).unwrap() - 9.0).abs() < 1e-9);
+    }
+    assert!(live.flags(id(&cat, "BR-2")).contains(Flag::BigRadius));
+    assert!(live.flags(id(&cat, "LS-2")).contains(Flag::LowSnr));
+    // Said in one line, with causes.
+    let line = live.held_line().unwrap();
+    assert!(line.contains("copies of another signal"), "{line}");
+    assert!(
+        line.contains("flag big-radius") && line.contains("flag low-snr"),
+        "{line}"
+    );
+}
+
+#[test]
+fn rejecting_a_copy_or_the_signal_itself() {
+    let text = format!(
+        "{HEAD}{}\
+DU,DU-1,5.0,0.00001,100.0,0.001,500,3,20,0.3,1,1,5772\n\
+DU,DU-2,5.000005,0.00001,100.002,0.001,480,3,19,0.3,1,1,5772\n\
+DU,DU-3,11.7,0.00001,101.0,0.001,520,3.8,22,0.3,1,1,5772\n",
+        background()
+    );
+    let (cat, mut live) = vet(&text);
+    let (d1, d2, d3) = (id(&cat, "DU-1"), id(&cat, "DU-2"), id(&cat, "DU-3"));
+    // DU-1 stands for the duplicated signal: a 2-system with DU-3.
+    assert_eq!(live.k(d3), 2);
+    assert_eq!(live.verdict(d1), Verdict::Validated);
+    assert_eq!(live.verdict(d2), Verdict::Likely);
+    // Rejecting DU-1 as the duplicate: DU-2 now stands for the signal.
+    live.set_decision(d1, Decision::Rejected(Reason::Duplicate));
+    assert_eq!(live.status(d2), Status::Counted);
+    assert_eq!(live.k(d3), 2);
+    // Rejecting it for what it is (a binary): the signal is a false
+    // positive, so its copy is held too and DU-3 is a single.
+    live.set_decision(d1, Decision::Rejected(Reason::EclipsingBinary));
+    assert_eq!(live.status(d2), Status::Held);
+    assert!(matches!(
+        live.hold(d2),
+        Some(starsift::odds::Hold::GroupRejected { .. })
+    ));
+    assert_eq!(live.k(d3), 1);
+    assert_eq!(live.verdict(d3), Verdict::Likely);
+    assert!(live.same_odds_state(&live.rebuilt(&cat).unwrap()));
+}
+
+#[test]
+fn small_bins_are_pooled_and_said() {
+    // An irregular histogram: few 4- and 5-systems. Per-k estimates would
+    // give 4-systems more odds than 5-systems; pooled they share one boost
+    // and the boost never falls with k.
+    let hist = [0, 800, 90, 25, 7, 4];
+    let t = table(&model(), &hist);
+    for w in t.rows.windows(2) {
+        assert!(w[1].boost >= w[0].boost, "{:?}", t.rows);
+    }
+    let r4 = t.row(4).unwrap();
+    assert_eq!(r4.pool, (4, 5));
+    assert_eq!(t.row(5).unwrap().boost, r4.boost);
+    assert_eq!(t.row(2).unwrap().pool, (2, 2));
+    assert_eq!(t.row(3).unwrap().pool, (3, 3));
+    // Nine systems at k ≥ 4 are still too few: they join k = 3.
+    let t = table(&model(), &[0, 800, 90, 25, 7, 2]);
+    assert_eq!(t.row(5).unwrap().pool, (3, 5));
+}
+
+#[test]
+fn holds_to_f_is_the_edge_of_the_verdict() {
+    let (cat, live) = vet(&format!("{HEAD}{}", background()));
+    // A single: (1 − f)/f ≥ 100 needs f ≤ 1/101 (docs/science.md §1.5).
+    let single = id(&cat, "BG1x0-1");
+    let f1 = live.holds_to(single).unwrap();
+    assert!((f1 - 1.0 / 101.0).abs() < 1e-3 / 101.0, "{f1}");
+    // A double: validated at f = 0.1, and at its edge it is just so.
+    let double = id(&cat, "BG2x0-1");
+    let edge = live.holds_to(double).unwrap();
+    assert!(edge > 0.1, "{edge}");
+    let at = |f: f64| {
+        let m = Model {
+            fp_fraction: f,
+            ..model()
+        };
+        let checks = starsift::checks::run(&cat, &CheckSettings::default());
+        let l = Live::with_state(
+            &cat,
+            m,
+            checks.all_flags().to_vec(),
+            checks.groups().clone(),
+            vec![Decision::Open; cat.len()],
+        )
+        .unwrap();
+        l.verdict(double)
+    };
+    assert_eq!(at(edge * 0.999), Verdict::Validated);
+    assert_ne!(at((edge * 1.02).min(0.99)), Verdict::Validated);
+}
+
+#[test]
+fn fp_fraction_by_planet_radius() {
+    // Fressin et al. 2013 (ApJ 766, 81) give 17.7 % for 6–22 R⊕ (seen in
+    // the abstract) and a lower rate for small planets; the bins here are the
+    // user's, the values only illustrative.
+    let (none, bins) = parse_fp_fraction("0-6:0.07,6-22:0.177").unwrap();
+    assert!(none.is_none() && bins.len() == 2);
+    assert!(parse_fp_fraction("0-6:0.07,5-22:0.2").is_err());
+    assert!(parse_fp_fraction("0-6:1.5").is_err());
+    let text = format!(
+        "{HEAD}{}GI,GI-1,4.1,0.00001,100.0,0.001,10000,3.0,80,0.3,1,1,5772\n",
+        background()
+    );
+    let cat = load(&text);
+    let live = Live::with_state(
+        &cat,
+        Model {
+            fp_by_radius: bins,
+            ..model()
+        },
+        vec![FlagSet::EMPTY; cat.len()],
+        SignalGroups::none(cat.len()),
+        vec![Decision::Open; cat.len()],
+    )
+    .unwrap();
+    // 10,000 ppm on a Sun: 10.9 R⊕, in the giant bin.
+    assert_eq!(live.prior(id(&cat, "GI-1")), 0.177);
+    assert_eq!(live.prior(id(&cat, "BG1x0-1")), 0.07);
+    let t = live.table();
+    assert!((t.fp_fraction - (400.0 * 0.07 + 0.177) / 401.0).abs() < 1e-12);
+}
+
+/// A random invented catalogue of `sizes[i]` candidates per star; some pairs
+/// are twins (same period and epoch).
+fn random_catalogue(sizes: &[usize], twins: &[bool]) -> String {
+    let mut t = String::from(HEAD);
+    let mut n = 0;
+    for (s, &k) in sizes.iter().enumerate() {
+        for j in 0..k {
+            let twin = j > 0 && twins[n % twins.len()];
+            let p = if twin {
+                1.7 * 2.3f64.powi(j as i32 - 1)
+            } else {
+                1.7 * 2.3f64.powi(j as i32)
+            };
+            t.push_str(&format!(
+                "S{s},S{s}-{j},{p:.6},0.00001,100.0,0.001,600,2.0,{},0.3,1,1,5772\n",
+                20 + j
+            ));
+            n += 1;
+        }
+    }
+    t
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(96))]
+
+    /// The boost never falls as k rises, on any histogram.
+    #[test]
+    fn boost_never_falls_with_k(
+        hist in proptest::collection::vec(0usize..400, 1..9),
+        extra in 0u64..1_000_000,
+        f in 0.01f64..0.9,
+        system in any::<bool>(),
+    ) {
+        let mut h = vec![0];
+        h.extend(hist);
+        let stars: usize = h.iter().sum();
+        let m = Model {
+            targets: Some(stars as u64 + extra + 1),
+            fp_fraction: f,
+            mode: if system { starsift::odds::BoostMode::System } else { starsift::odds::BoostMode::Catalogue },
+            ..Model::default()
+        };
+        let t = table(&m, &h);
+        for w in t.rows.windows(2) {
+            prop_assert!(w[1].boost >= w[0].boost, "{:?}", t.rows);
+        }
+        prop_assert!(t.rows.iter().all(|r| r.boost >= 1.0));
+    }
+
+    /// Rejecting or flagging a counted candidate never raises the odds of a
+    /// sibling that stays counted; the incremental state equals a fresh one.
+    #[test]
+    fn a_rejection_or_a_flag_never_raises_a_sibling(
+        sizes in proptest::collection::vec(1usize..7, 4..60),
+        twins in proptest::collection::vec(proptest::bool::weighted(0.15), 1..9),
+        extra in 0u64..20_000,
+        f in 0.02f64..0.6,
+        steps in proptest::collection::vec((0usize..10_000, 0u8..3), 1..25),
+    ) {
+        let cat = load(&random_catalogue(&sizes, &twins));
+        let checks = starsift::checks::run(&cat, &CheckSettings::default());
+        let mut live = Live::with_state(
+            &cat,
+            Model { targets: Some(cat.star_count() as u64 + extra), fp_fraction: f, ..Model::default() },
+            checks.all_flags().to_vec(),
+            checks.groups().clone(),
+            vec![Decision::Open; cat.len()],
+        ).unwrap();
+        for (pick, how) in steps {
+            let c = (pick % cat.len()) as CandidateId;
+            if live.status(c) != Status::Counted {
+                continue;
+            }
+            let siblings: Vec<(CandidateId, f64)> = cat
+                .members(cat.star_of(c))
+                .iter()
+                .filter(|&&m| m != c && live.status(m) == Status::Counted)
+                .map(|&m| (m, live.odds(m).unwrap()))
+                .collect();
+            match how {
+                0 => live.set_decision(c, Decision::Rejected(Reason::EclipsingBinary)),
+                1 => live.set_decision(c, Decision::Rejected(Reason::Artefact)),
+                _ => live.set_flags(c, live.flags(c).union([Flag::OddEven].into_iter().collect())),
+            }
+            for (m, before) in siblings {
+                if live.status(m) == Status::Counted {
+                    let after = live.odds(m).unwrap();
+                    prop_assert!(after <= before * (1.0 + 1e-12), "{m}: {before} -> {after}");
+                }
+            }
+            prop_assert!(live.same_odds_state(&live.rebuilt(&cat).unwrap()));
+        }
+    }
+}
+
+#[test]
+fn commands_agree_on_every_verdict() {
+    // One invented catalogue with an eclipse pair, a duplicate, an alias and
+    // a flagged sibling, beside its survey.toml; one decision in the ledger.
+    let dir = scratch("commands_agree");
+    let text = format!(
+        "{HEAD}{}\
+OK,OK-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772\n\
+OK,OK-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772\n\
+OK,OK-3,21.3,0.00001,102.0,0.001,640,4.6,26,0.3,1,1,5772\n\
+EB,EB-1,6.0,0.00001,100.0,0.001,9000,3.2,60,0.2,1,1,5772\n\
+EB,EB-2,6.0000003,0.00001,103.0,0.001,2500,3.2,25,0.2,1,1,5772\n\
+DU,DU-1,5.0,0.00001,100.0,0.001,500,3,20,0.3,1,1,5772\n\
+DU,DU-2,5.000005,0.00001,100.002,0.001,480,3,19,0.3,1,1,5772\n\
+BR,BR-1,4.4,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772\n\
+BR,BR-2,11.3,0.00001,101.0,0.001,90000,3.6,300,0.3,1,1,5772\n",
+        background()
+    );
+    let cat = dir.join("cat.csv");
+    std::fs::write(&cat, text).unwrap();
+    std::fs::write(dir.join("survey.toml"), "targets_searched = 50000\n").unwrap();
+    let c = cat.to_str().unwrap();
+    let o = starsift(&[
+        "decide",
+        c,
+        "--candidate",
+        "OK-3",
+        "--decision",
+        "rejected",
+        "--reason",
+        "artefact",
+        "--vetter",
+        "t",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let verdicts = |args: &[&str]| -> std::collections::BTreeMap<String, (String, String)> {
+        let o = starsift(args);
+        assert!(o.status.success(), "{}", stderr(&o));
+        let text = stdout(&o);
+        let mut r = csv::ReaderBuilder::new()
+            .comment(Some(b'#'))
+            .from_reader(text.as_bytes());
+        let h = r.headers().unwrap().clone();
+        let col = |n: &str| h.iter().position(|x| x == n).unwrap();
+        let (ci, ki, vi) = (col("candidate"), col("k"), col("verdict"));
+        r.records()
+            .map(|rec| {
+                let rec = rec.unwrap();
+                (
+                    rec[ci].to_string(),
+                    (rec[ki].to_string(), rec[vi].to_string()),
+                )
+            })
+            .collect()
+    };
+    let odds = verdicts(&["odds", c, "--format", "csv"]);
+    let export = verdicts(&["export", c, "--format", "csv"]);
+    let checks = verdicts(&["checks", c, "--format", "csv"]);
+    assert_eq!(odds, export);
+    assert_eq!(odds, checks);
+    // OK-3 rejected: OK-1 and OK-2 are a 2-system, still validated.
+    assert_eq!(odds["OK-3"], ("0".into(), "rejected".into()));
+    assert_eq!(odds["OK-1"], ("2".into(), "validated".into()));
+    for s in ["EB-1", "EB-2", "DU-2", "BR-2"] {
+        assert_eq!(odds[s].0, "0", "{s}");
+        assert_ne!(odds[s].1, "validated", "{s}");
+    }
+    for s in ["DU-1", "BR-1"] {
+        assert_eq!(odds[s], ("1".into(), "likely".into()), "{s}");
+    }
+    // The report lists the held-back candidates and the browser's build
+    // agrees (same Live from the same pieces: tested in the tui tests).
+    let o = starsift(&["report", c]);
+    let r = stdout(&o);
+    assert!(r.contains("Held back by the cleaning"), "{r}");
+    assert!(r.contains("| EB | EB-2 |"), "{r}");
+}
