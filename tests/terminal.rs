@@ -31,6 +31,18 @@ fn wait_for(session: &str, text: &str) -> String {
     }
 }
 
+/// Waits until the pane no longer shows `text` (e.g. a background job's
+/// progress).
+fn wait_gone(session: &str, text: &str) {
+    let start = Instant::now();
+    while pane(session).contains(text) {
+        if start.elapsed() > Duration::from_secs(30) {
+            panic!("the pane still shows {text:?}:\n{}", pane(session));
+        }
+        sleep(Duration::from_millis(100));
+    }
+}
+
 fn keys(session: &str, k: &[&str]) {
     let mut args = vec!["send-keys", "-t", session];
     args.extend_from_slice(k);
@@ -74,6 +86,9 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
         &script,
     ]);
     wait_for(&session, "Systems 321 of 321");
+    // The checks (light curves included) run in the background and change
+    // the odds when they arrive: wait for them.
+    wait_gone(&session, "checks running");
     keys(&session, &["?"]);
     wait_for(&session, "Keys (Esc closes)");
     keys(&session, &["Escape"]);
@@ -81,7 +96,7 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
     keys(&session, &["f"]);
     keys(&session, &["k=3"]);
     keys(&session, &["Enter"]);
-    wait_for(&session, "Systems 18 of 321");
+    wait_for(&session, "Systems 17 of 321");
     keys(&session, &["Enter"]);
     let before = wait_for(&session, "if rejected:");
     // The what-if line names the siblings and the odds they would have.

@@ -53,80 +53,101 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, out: &mut Checks) {
     let dec = col(Field::DecDeg);
     let mag = col(Field::Mag);
     let depth = col(Field::DepthPpm);
+    // One match: b's transits fall on a's (b's period n·P_a, n = 1 or 2,
+    // or a's is twice b's: swap). `a` has the shorter period.
+    let mut matched = |a: &Sig, b: &Sig, n: f64| {
+        if a.star == b.star {
+            return;
+        }
+        let dp = (b.period - n * a.period).abs();
+        let sigma_p = (b.period_err.powi(2) + (n * a.period_err).powi(2)).sqrt();
+        let p_tol = if sigma_p > 0.0 {
+            3.0 * sigma_p
+        } else {
+            0.5 * s.echo_max_rel * b.period
+        };
+        if dp > p_tol.min(s.echo_max_rel * b.period) {
+            return;
+        }
+        // b's transit nearest a's epoch, against a's transits.
+        let nb = ((a.epoch - b.epoch) / b.period).round();
+        let diff = b.epoch + nb * b.period - a.epoch;
+        let na = (diff / a.period).round();
+        let off = diff - na * a.period;
+        let sigma_t = (a.epoch_err.powi(2) + b.epoch_err.powi(2) + (nb * sigma_p).powi(2)).sqrt();
+        let t_tol = (3.0 * sigma_t).max(0.25 * a.t14_d.min(b.t14_d));
+        if off.abs() > t_tol {
+            return;
+        }
+        let sep = match (ra, dec) {
+            (Some(ra), Some(dec)) => {
+                let (i1, i2) = (a.c as usize, b.c as usize);
+                let v = separation_arcsec(ra[i1], dec[i1], ra[i2], dec[i2]);
+                if v.is_finite() && v > s.echo_radius_arcsec {
+                    return;
+                }
+                v.is_finite().then_some(v)
+            }
+            _ => None,
+        };
+        // Dilution only makes a copy shallower: the deeper eclipse is the
+        // source (docs/science.md §3.3); magnitudes decide only without depths.
+        let (da, db) = depth.map_or((f64::NAN, f64::NAN), |d| (d[a.c as usize], d[b.c as usize]));
+        let (copy, source, by) = if da.is_finite() && db.is_finite() && da != db {
+            if da < db {
+                (a.c, b.c, "shallower")
+            } else {
+                (b.c, a.c, "shallower")
+            }
+        } else {
+            let (ma, mb) = mag.map_or((f64::NAN, f64::NAN), |m| (m[a.c as usize], m[b.c as usize]));
+            if ma.is_finite() && mb.is_finite() && ma > mb {
+                (a.c, b.c, "fainter")
+            } else {
+                (b.c, a.c, "fainter")
+            }
+        };
+        let ratio = if n == 1.0 {
+            String::new()
+        } else {
+            format!(", period ratio {n:.0}:1")
+        };
+        let place = sep.map_or(", no positions to say how close".to_string(), |v| {
+            format!(", {v:.1}″ apart")
+        });
+        let star = |c: CandidateId| cat.star_id(cat.star_of(c)).to_string();
+        // Without positions a match is only a hint (chance coincidences in a
+        // large catalogue): a warning, never blocking.
+        let firm = sep.is_some();
+        out.add(copy, Flag::Echo, !firm, format!(
+            "same ephemeris as {} on {} (ΔP = {dp:.2e} d, Δt = {:.2} h{ratio}{place}); this is the {by} copy: likely light from {}",
+            cat.candidate_id(source), star(source), off.abs() * 24.0, star(source)
+        ));
+        out.add(
+            source,
+            Flag::Echo,
+            true,
+            format!(
+                "its signal also appears as {} on {}{ratio}{place}: likely leaking into that star",
+                cat.candidate_id(copy),
+                star(copy)
+            ),
+        );
+    };
     for i in 0..sigs.len() {
         let a = &sigs[i];
         let limit = a.period * (1.0 + s.echo_max_rel);
         for b in sigs[i + 1..].iter().take_while(|b| b.period <= limit) {
-            // Periods: within three combined errors, or half the sweep window
-            // when errors are missing; never beyond the window.
-            let dp = (b.period - a.period).abs();
-            let sigma_p = (a.period_err.powi(2) + b.period_err.powi(2)).sqrt();
-            let p_tol = if sigma_p > 0.0 {
-                3.0 * sigma_p
-            } else {
-                0.5 * s.echo_max_rel * a.period
-            };
-            if dp > p_tol.min(s.echo_max_rel * a.period) {
-                continue;
-            }
-            // Epochs: the offset after n cycles, against errors propagated
-            // over those cycles, floored at a quarter of the shorter duration.
-            let p = 0.5 * (a.period + b.period);
-            let diff = b.epoch - a.epoch;
-            let n = (diff / p).round();
-            let off = diff - n * p;
-            let sigma_t =
-                (a.epoch_err.powi(2) + b.epoch_err.powi(2) + (n * sigma_p).powi(2)).sqrt();
-            let t_tol = (3.0 * sigma_t).max(0.25 * a.t14_d.min(b.t14_d));
-            if off.abs() > t_tol || a.star == b.star {
-                continue;
-            }
-            let sep = match (ra, dec) {
-                (Some(ra), Some(dec)) => {
-                    let (i1, i2) = (a.c as usize, b.c as usize);
-                    let v = separation_arcsec(ra[i1], dec[i1], ra[i2], dec[i2]);
-                    if v.is_finite() && v > s.echo_radius_arcsec {
-                        continue;
-                    }
-                    v.is_finite().then_some(v)
-                }
-                _ => None,
-            };
-            // The copy is on the fainter star; without magnitudes, the shallower.
-            let (mag_a, mag_b) = (mag.map(|m| m[a.c as usize]), mag.map(|m| m[b.c as usize]));
-            let (copy, source, by) = match (mag_a, mag_b) {
-                (Some(ma), Some(mb)) if ma.is_finite() && mb.is_finite() && ma != mb => {
-                    if ma > mb {
-                        (a.c, b.c, "fainter")
-                    } else {
-                        (b.c, a.c, "fainter")
-                    }
-                }
-                _ => {
-                    let (da, db) = depth.map_or((0.0, 0.0), |d| (d[a.c as usize], d[b.c as usize]));
-                    if da < db {
-                        (a.c, b.c, "shallower")
-                    } else {
-                        (b.c, a.c, "shallower")
-                    }
-                }
-            };
-            let place = sep.map_or(String::new(), |v| format!(", {v:.1}″ apart"));
-            let star = |c: CandidateId| cat.star_id(cat.star_of(c)).to_string();
-            out.add(copy, Flag::Echo, false, format!(
-                "same period and epoch as {} on {} (ΔP = {dp:.2e} d, Δt = {:.2} h{place}); this is the {by} copy: likely light from {}",
-                cat.candidate_id(source), star(source), off.abs() * 24.0, star(source)
-            ));
-            out.add(
-                source,
-                Flag::Echo,
-                true,
-                format!(
-                    "its signal also appears as {} on {}{place}: likely leaking into that star",
-                    cat.candidate_id(copy),
-                    star(copy)
-                ),
-            );
+            matched(a, b, 1.0);
+        }
+        // Twice the period: a bounded window of the sorted list.
+        let (lo, hi) = (
+            2.0 * a.period * (1.0 - s.echo_max_rel),
+            2.0 * a.period * (1.0 + s.echo_max_rel),
+        );
+        let start = sigs.partition_point(|x| x.period < lo);
+        for b in sigs[start..].iter().take_while(|b| b.period <= hi) {
+            matched(a, b, 2.0);
         }
     }
 }

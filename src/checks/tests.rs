@@ -271,3 +271,34 @@ fn demo_planted_cases_are_flagged() {
         "{clean_flagged} of {clean} clean planets flagged"
     );
 }
+
+#[test]
+fn echo_by_physics_deeper_is_source_twice_the_period_and_no_positions() {
+    // Invented: a faint star's deep eclipse (2 %) leaks into a bright
+    // neighbour as a shallow copy: dilution only makes a copy shallower, so
+    // the deeper is the source whatever the magnitudes (docs/science.md §3.3;
+    // Coughlin et al. 2014, AJ 147, 119, from memory).
+    let text = format!(
+        "{HEAD}\
+FAINT,FAINT-1,3.2,0.000001,100.0,0.0005,20000,2.5,80,0.3,0.8,0.8,5200,50.0,-15.0,14.0\n\
+BRIGHT,BRIGHT-1,3.2000005,0.000002,100.0003,0.001,150,2.5,12,0.3,1,1,5772,50.002,-15.001,10.0\n\
+HALF,HALF-1,6.4000010,0.000004,103.2002,0.001,120,2.5,10,0.3,1,1,5772,50.003,-15.0,11.0\n"
+    );
+    let c = load(&text);
+    let ch = run(&c, &CheckSettings::default());
+    assert!(ch.flags(1).contains(Flag::Echo), "{}", ch.why(1));
+    assert!(!ch.flags(0).contains(Flag::Echo) && ch.warnings(0).contains(Flag::Echo));
+    // The same signal at twice the period (2:1) is matched too.
+    assert!(ch.flags(2).contains(Flag::Echo), "{}", ch.why(2));
+    assert!(ch.why(2).contains("period ratio 2:1"), "{}", ch.why(2));
+    // Without positions the same match is only a warning.
+    let bare = "star,candidate,period_d,epoch,depth_ppm,duration_h\n\
+A,A-1,3.2,100.0,20000,2.5\nB,B-1,3.2000001,100.0003,150,2.5\n";
+    let c = load(bare);
+    let ch = run(&c, &CheckSettings::default());
+    assert!(
+        !ch.flags(1).contains(Flag::Echo) && ch.warnings(1).contains(Flag::Echo),
+        "{}",
+        ch.why(1)
+    );
+}

@@ -480,6 +480,7 @@ pub fn diagnose_detrended(
         .map(|i| flux[i])
         .collect();
     let scatter = super::point_to_point_sigma(&out_of_transit);
+    let beta = red_noise_beta(&out_of_transit, scatter, cadence_d(&lc.time), 2.0 * half);
     let baseline = median_of(&mut out_of_transit);
     // A box depth from the samples `pick` selects, against the baseline.
     let box_depth = |pick: &dyn Fn(usize) -> bool| -> Measure {
@@ -498,7 +499,7 @@ pub fn diagnose_detrended(
         }
         Measure {
             value: (baseline - s / n as f64) * 1e6,
-            err: scatter / (n as f64).sqrt() * 1e6,
+            err: beta * scatter / (n as f64).sqrt() * 1e6,
         }
     };
     let core = |i: usize| dt[i].abs() < half / 2.0;
@@ -560,10 +561,63 @@ pub fn diagnose_detrended(
     d
 }
 
+/// The time-averaging factor β of correlated noise (Pont, Zucker & Queloz
+/// 2006, MNRAS 373, 231; the binning form of Winn et al. 2008, ApJ 683,
+/// 1076; docs/science.md §4.1): the out-of-transit residuals (in time order)
+/// are averaged in M bins of n samples for bins of ½, 1 and 2 transit
+/// durations; β = σ_n / [σ₁/√n · √(M/(M−1))], averaged over the bin sizes,
+/// never below 1. σ₁ is the white scatter (point to point).
+pub fn red_noise_beta(residuals: &[f64], sigma1: f64, cadence_d: f64, t14_d: f64) -> f64 {
+    if !(sigma1 > 0.0 && cadence_d > 0.0 && t14_d > 0.0) {
+        return 1.0;
+    }
+    let mut betas = Vec::new();
+    for width in [0.5, 1.0, 2.0] {
+        let n = ((width * t14_d / cadence_d).round() as usize).max(2);
+        let m = residuals.len() / n;
+        if m < 8 {
+            continue;
+        }
+        let means: Vec<f64> = residuals
+            .chunks_exact(n)
+            .map(|c| c.iter().sum::<f64>() / n as f64)
+            .collect();
+        let mean = means.iter().sum::<f64>() / m as f64;
+        let var = means.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / (m - 1) as f64;
+        let expected = sigma1 / (n as f64).sqrt() * (m as f64 / (m - 1) as f64).sqrt();
+        betas.push(var.sqrt() / expected);
+    }
+    if betas.is_empty() {
+        return 1.0;
+    }
+    (betas.iter().sum::<f64>() / betas.len() as f64).max(1.0)
+}
+
+/// The median time step of a light curve, days.
+fn cadence_d(time: &[f64]) -> f64 {
+    let mut d: Vec<f64> = time
+        .windows(2)
+        .map(|w| w[1] - w[0])
+        .filter(|x| *x > 0.0)
+        .collect();
+    if d.is_empty() {
+        return f64::NAN;
+    }
+    median_of(&mut d)
+}
+
+/// The smallest odd/even difference that can fire the flag, as a fraction of
+/// the deeper of the two: a planet's transits are identical, an eclipsing
+/// binary at twice its period alternates two different stars' eclipses
+/// (common practice, no source: a physical size as well as a significance).
+pub const ODD_EVEN_MIN_FRACTION: f64 = 0.05;
+
 /// The flags the diagnostics raise.
 fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
     let mut out = Vec::new();
-    if d.odd_even_z >= FLAG_Z {
+    let odd_even_size =
+        (d.odd.value - d.even.value).abs() >= ODD_EVEN_MIN_FRACTION * d.odd.value.max(d.even.value);
+    if d.odd_even_z >= FLAG_Z && odd_even_size {
         out.push((
             Flag::OddEven,
             format!(

@@ -249,3 +249,29 @@ fn the_views_show_odd_even_and_secondary_apart() {
     assert!(d > 8000.0 && d < 11500.0, "all {d}");
     assert_eq!(v.transit.centre.len(), 60);
 }
+
+#[test]
+fn red_noise_beta_is_one_for_white_noise_and_large_for_correlated() {
+    // docs/science.md §4.1 (Pont, Zucker & Queloz 2006): white noise gives
+    // β → 1; an AR(1) series with equal red and white variance and a
+    // correlation time of hours gives β well above 1 for bins of hours.
+    let mut rng = Rng::new(7);
+    let n = 20_000;
+    let cadence = 2.0 / 1440.0;
+    let white: Vec<f64> = (0..n).map(|_| rng.normal() * 1e-3).collect();
+    let s1 = crate::lightcurve::point_to_point_sigma(&white);
+    let b = red_noise_beta(&white, s1, cadence, 3.0 / 24.0);
+    assert!((1.0..1.1).contains(&b), "{b}");
+    let tau = 2.0 / 24.0;
+    let phi = (-cadence / tau).exp();
+    let mut r = 0.0;
+    let red: Vec<f64> = (0..n)
+        .map(|_| {
+            r = phi * r + (1.0 - phi * phi).sqrt() * rng.normal() * 1e-3;
+            r + rng.normal() * 1e-3
+        })
+        .collect();
+    let s1 = crate::lightcurve::point_to_point_sigma(&red);
+    let b = red_noise_beta(&red, s1, cadence, 3.0 / 24.0);
+    assert!(b > 3.0, "{b}");
+}
