@@ -47,6 +47,21 @@ impl Session {
     /// Loads the catalogue, runs every check (light curves included unless
     /// `--no-lightcurves`), reads the ledger and builds the odds.
     pub fn open(args: &VettingArgs, ledger: LedgerUse) -> Result<Session, CliError> {
+        // Flags first: a bad value costs nothing.
+        match args.model.model(&crate::survey::SurveyFacts::default()) {
+            Ok(_) | Err(CliError::Model(ModelError::NoTargets(_))) => {}
+            Err(e) => return Err(e),
+        }
+        let loaded = args.input.load()?;
+        Session::with_loaded(args, loaded, ledger)
+    }
+
+    /// [`Session::open`] for a catalogue already loaded.
+    pub fn with_loaded(
+        args: &VettingArgs,
+        loaded: Loaded,
+        ledger: LedgerUse,
+    ) -> Result<Session, CliError> {
         let VettingArgs {
             input,
             ledger: ledger_args,
@@ -54,13 +69,7 @@ impl Session {
             checks: check_args,
             lc,
         } = args;
-        // Flags first: a bad value costs nothing.
         let settings = check_args.settings();
-        match model.model(&crate::survey::SurveyFacts::default()) {
-            Ok(_) | Err(CliError::Model(ModelError::NoTargets(_))) => {}
-            Err(e) => return Err(e),
-        }
-        let loaded = input.load()?;
         let model = model.model(&loaded.survey);
         let cat = &loaded.catalogue;
         let mut checks = crate::checks::run(cat, &settings);

@@ -28,6 +28,12 @@ pub struct Args {
     /// A note for the team.
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
+    #[command(flatten)]
+    pub model: crate::cli::ModelArgs,
+    #[command(flatten)]
+    pub checks: crate::cmd::checks::CheckArgs,
+    #[command(flatten)]
+    pub lc: crate::cli::LightcurveArgs,
 }
 
 /// Parses a decision and its reason as a person typed them.
@@ -61,6 +67,13 @@ pub fn parse_decision(decision: &str, reason: Option<&str>) -> Result<Decision, 
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let decision = parse_decision(&args.decision, args.reason.as_deref())?;
+    let vetting = crate::cli::VettingArgs {
+        input: args.input.clone(),
+        ledger: args.ledger.clone(),
+        model: args.model.clone(),
+        checks: args.checks.clone(),
+        lc: args.lc.clone(),
+    };
     let loaded = args.input.load()?;
     let cat = &loaded.catalogue;
     let c = loaded.candidate(&args.candidate)?;
@@ -81,6 +94,42 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         clean(&vetter),
         clean(&ledger.path().display().to_string())
     )?;
+    drop(ledger);
+    // What the decision did, from the same session every command opens:
+    // the verdict of each member of the star.
+    let star = cat.star_of(c);
+    let members: Vec<String> = cat
+        .members(star)
+        .iter()
+        .map(|&m| cat.candidate_id(m).to_string())
+        .collect();
+    let session =
+        crate::session::Session::with_loaded(&vetting, loaded, crate::session::LedgerUse::Read)?;
+    match &session.live {
+        Ok(live) => {
+            let cat = &session.loaded.catalogue;
+            for id in &members {
+                let Some(m) = cat.find_candidate(id) else {
+                    continue;
+                };
+                let held = crate::odds::hold_text(cat, live, m);
+                writeln!(
+                    out,
+                    "  {} {} {} (k={}){}",
+                    clean(id),
+                    live.verdict(m),
+                    live.odds(m).map_or("-".into(), crate::odds::format_odds),
+                    live.k(m),
+                    if held.is_empty() {
+                        String::new()
+                    } else {
+                        format!(": {held}")
+                    }
+                )?;
+            }
+        }
+        Err(e) => writeln!(out, "  no verdicts: {e}")?,
+    }
     Ok(())
 }
 
