@@ -3,7 +3,7 @@
 //! implies), and the warning signs — a stellar-size companion, a too-short
 //! duration for its star, two signals that cannot both orbit one star, a
 //! duplicate or alias, a signal copied from a neighbour. Methods and
-//! thresholds: METHODS.md §2–§3.
+//! thresholds: docs/science.md §2–§3.
 
 mod echo;
 mod groups;
@@ -20,7 +20,7 @@ use crate::science;
 #[derive(Clone, Debug, PartialEq)]
 pub struct CheckSettings {
     /// `big-radius` above this, Earth radii: 2 R_J from nominal radii
-    /// (METHODS.md §2, derived from Borucki 2011's largest planetary class).
+    /// (docs/science.md §2, derived from Borucki 2011's largest planetary class).
     pub big_radius_rearth: f64,
     /// A softer `big-radius` warning above this (Fressin 2013's giant bin).
     pub suspect_radius_rearth: f64,
@@ -32,7 +32,7 @@ pub struct CheckSettings {
     /// source; eccentric orbits alone can shift it by ~2).
     pub density_factor: f64,
     /// A soft `density-mismatch` when |log10 ξ| of a pair exceeds this
-    /// (from the spread of METHODS.md §2's Monte Carlo: ±0.16 for 1.5°
+    /// (from the spread of docs/science.md §2's Monte Carlo: ±0.16 for 1.5°
     /// mutual inclinations).
     pub xi_log10: f64,
     /// `near-twin` and `harmonic`: the relative period tolerance used when
@@ -41,7 +41,7 @@ pub struct CheckSettings {
     /// `harmonic`: integers 2..=this are checked.
     pub harmonic_max: u32,
     /// `crowded` trio threshold: Δ_in + Δ_out below this (Lissauer 2011,
-    /// Fabrycky 2014; METHODS.md §3, from memory).
+    /// Fabrycky 2014; docs/science.md §3, from memory).
     pub trio_hill_sum: f64,
     /// `echo`: only within this angular distance when positions exist, arcsec.
     pub echo_radius_arcsec: f64,

@@ -19,16 +19,16 @@ pub const R_JUPITER_M: f64 = 7.1492e7;
 /// Nominal Jupiter polar radius, m. IAU 2015 Resolution B3.
 pub const R_JUPITER_POLAR_M: f64 = 6.6854e7;
 /// Nominal terrestrial mass parameter GM⊕, m³ s⁻². IAU 2015 Resolution B3
-/// (value from memory, METHODS.md §5 [M]).
+/// (value from memory, docs/science.md §5 [M]).
 pub const GM_EARTH: f64 = 3.986004e14;
 /// Nominal Jovian mass parameter GM_J, m³ s⁻². IAU 2015 Resolution B3
-/// (value from memory, METHODS.md §5 [M]).
+/// (value from memory, docs/science.md §5 [M]).
 pub const GM_JUPITER: f64 = 1.2668653e17;
 /// Astronomical unit, m, exact. IAU 2012 Resolution B2.
 pub const AU_M: f64 = 149_597_870_700.0;
-/// Solar to Earth mass ratio. JPL DE405 (METHODS.md §5).
+/// Solar to Earth mass ratio. JPL DE405 (docs/science.md §5).
 pub const M_SUN_PER_M_EARTH: f64 = 332_946.05;
-/// Solar to Jupiter mass ratio. JPL DE405 (METHODS.md §5).
+/// Solar to Jupiter mass ratio. JPL DE405 (docs/science.md §5).
 pub const M_SUN_PER_M_JUPITER: f64 = 1047.3486;
 /// Newtonian constant of gravitation, m³ kg⁻¹ s⁻². CODATA 2018 (from memory).
 pub const G: f64 = 6.67430e-11;
@@ -36,7 +36,7 @@ pub const G: f64 = 6.67430e-11;
 pub const SIGMA_SB: f64 = 5.670374419e-8;
 /// Seconds per day.
 pub const DAY_S: f64 = 86_400.0;
-/// Sidereal year, days (from memory; METHODS.md §2 uses it as the Earth check).
+/// Sidereal year, days (from memory; docs/science.md §2 uses it as the Earth check).
 pub const SIDEREAL_YEAR_D: f64 = 365.256363;
 
 #[cfg(test)]
@@ -45,7 +45,7 @@ mod tests {
 
     #[test]
     fn derived_values_match_methods_section_5() {
-        // METHODS.md §5 derived checks [D]: R☉/au = 0.00465047.
+        // docs/science.md §5 derived checks [D]: R☉/au = 0.00465047.
         assert!((R_SUN_M / AU_M - 0.00465047).abs() < 5e-9);
         // L☉/(4π au²) = 1361.17 W m⁻², consistent with the nominal S☉ = 1361.
         let s = L_SUN_W / (4.0 * std::f64::consts::PI * AU_M * AU_M);

@@ -1,4 +1,4 @@
-//! The multiplicity odds model (METHODS.md §0–§1.2; the framework of
+//! The multiplicity odds model (docs/science.md §1–§1.2; the framework of
 //! Lissauer et al. 2012, ApJ 750, 112 and 2014, ApJ 784, 44): false positives
 //! land on the N searched targets at random, planets cluster, so a candidate
 //! that shares its star is more likely a planet. This module computes the
@@ -16,7 +16,7 @@ use crate::flags::FlagSet;
 
 pub use live::{Hold, Live, Status, VerdictCounts};
 
-/// How the boost on prior odds is defined (METHODS.md §0).
+/// How the boost on prior odds is defined (docs/science.md §1).
 #[derive(Clone, Debug, PartialEq)]
 pub enum BoostMode {
     /// From the catalogue's own histogram, per candidate: q_k = F_k/(k n_k).
@@ -200,9 +200,9 @@ impl Model {
     }
 }
 
-/// The validation threshold of METHODS.md §0 and §1.1: planet:FP odds of 100:1.
+/// The validation threshold of docs/science.md §1 and §1.1: planet:FP odds of 100:1.
 pub const DEFAULT_THRESHOLD: f64 = 100.0;
-/// The default f (METHODS.md §0; Fressin et al. 2013, ApJ 766, 81 give 9.4%).
+/// The default f (docs/science.md §1; Fressin et al. 2013, ApJ 766, 81 give 9.4%).
 pub const DEFAULT_FP_FRACTION: f64 = 0.1;
 /// The smallest FP probability a table row may hold: below it the model says
 /// nothing more (q_k underflows only when λ is 0 or k is very large).
@@ -521,7 +521,7 @@ impl Table {
 
 /// Posterior odds planet : FP for a candidate with prior FP probability `p`
 /// (its `fpp`, else f) in a system whose boost is `b`: O = B (1−p)/p
-/// (METHODS.md §0). Finite for p in (0, 1].
+/// (docs/science.md §1). Finite for p in (0, 1].
 pub fn posterior_odds(boost: f64, prior_fp: f64) -> f64 {
     let p = prior_fp.clamp(Q_FLOOR, 1.0);
     let o = boost * (1.0 - p) / p;

@@ -47,7 +47,7 @@ pub fn durations_h(period_d: f64, a_rstar: f64, ror: f64, impact: f64) -> Option
 /// Transit depth (ppm) of a small planet on a quadratically limb-darkened
 /// star: δ ≈ k² I(μ) / (1 − u₁/3 − u₂/6), with I(μ) = 1 − u₁(1−μ) − u₂(1−μ)²
 /// and μ = √(1 − b²) (Mandel & Agol 2002, ApJ 580, L171, small-planet limit;
-/// METHODS.md §2). Outside the disc (b ≥ 1) the limb value μ = 0 is used.
+/// docs/science.md §2). Outside the disc (b ≥ 1) the limb value μ = 0 is used.
 pub fn small_planet_depth_ppm(ror: f64, impact: f64, u1: f64, u2: f64) -> f64 {
     let mu = (1.0 - impact * impact).max(0.0).sqrt();
     let i_mu = 1.0 - u1 * (1.0 - mu) - u2 * (1.0 - mu).powi(2);
@@ -62,7 +62,7 @@ pub fn radius_rearth(ror: f64, star_radius_rsun: f64) -> f64 {
 
 /// Planet radius in Earth radii from the observed depth (ppm), the stellar
 /// radius and the fraction `c` of aperture flux from other sources:
-/// δ_true = δ_obs/(1−c), R_p = R★ √δ_true (uniform disc; METHODS.md §2).
+/// δ_true = δ_obs/(1−c), R_p = R★ √δ_true (uniform disc; docs/science.md §2).
 pub fn radius_from_depth_rearth(depth_ppm: f64, star_radius_rsun: f64, contamination: f64) -> f64 {
     let c = contamination.clamp(0.0, 0.999);
     let k = (depth_ppm * 1e-6 / (1.0 - c)).sqrt();
@@ -71,7 +71,7 @@ pub fn radius_from_depth_rearth(depth_ppm: f64, star_radius_rsun: f64, contamina
 
 /// Equilibrium temperature, K: T_eq = T_eff √(R★/a) [f_r (1 − A_B)]^{1/4},
 /// with f_r = 1/4 for full redistribution, 1/2 for the dayside only
-/// (standard radiative balance; METHODS.md §2, from memory).
+/// (standard radiative balance; docs/science.md §2, from memory).
 pub fn equilibrium_temperature_k(
     teff_k: f64,
     a_rstar: f64,
@@ -82,14 +82,14 @@ pub fn equilibrium_temperature_k(
 }
 
 /// Insolation relative to Earth: S/S⊕ = (R★/R☉)² (T_eff/5772 K)⁴ (a/au)⁻²
-/// (METHODS.md §2; T_eff☉ nominal, IAU 2015 B3).
+/// (docs/science.md §2; T_eff☉ nominal, IAU 2015 B3).
 pub fn insolation_earth(star_radius_rsun: f64, teff_k: f64, a_au: f64) -> f64 {
     star_radius_rsun.powi(2) * (teff_k / crate::constants::TEFF_SUN_K).powi(4) / (a_au * a_au)
 }
 
 /// Mean stellar density, kg m⁻³, from a/R★ and the period:
 /// ρ★ = 3π (a/R★)³ / (G P²) (Seager & Mallén-Ornelas 2003, ApJ 585, 1038, in
-/// Winn's 2010 form without the planet term; METHODS.md §2).
+/// Winn's 2010 form without the planet term; docs/science.md §2).
 pub fn density_from_a_rstar(a_rstar: f64, period_d: f64) -> f64 {
     let p = period_d * DAY_S;
     3.0 * PI * a_rstar.powi(3) / (crate::constants::G * p * p)
@@ -97,7 +97,7 @@ pub fn density_from_a_rstar(a_rstar: f64, period_d: f64) -> f64 {
 
 /// a/R★ from the total duration, impact parameter and R_p/R★ of a circular
 /// orbit: (a/R★)² = [(1+k)² − b²(1 − s_T²)] / s_T², s_T = sin(π T₁₄/P)
-/// (Seager & Mallén-Ornelas 2003, METHODS.md §2).
+/// (Seager & Mallén-Ornelas 2003, docs/science.md §2).
 pub fn a_rstar_from_duration(period_d: f64, t14_h: f64, ror: f64, impact: f64) -> Option<f64> {
     let st = (PI * t14_h / (period_d * 24.0)).sin();
     if !(st > 0.0 && st < 1.0) {
@@ -108,7 +108,7 @@ pub fn a_rstar_from_duration(period_d: f64, t14_h: f64, ror: f64, impact: f64) -
 }
 
 /// Impact parameter and a/R★ from the total and full durations and the depth
-/// (Seager & Mallén-Ornelas 2003; METHODS.md §2):
+/// (Seager & Mallén-Ornelas 2003; docs/science.md §2):
 /// b² = [(1−√δ)² − (s_F/s_T)² (1+√δ)²] / [1 − (s_F/s_T)²].
 pub fn impact_and_a_rstar(period_d: f64, t14_h: f64, t23_h: f64, depth: f64) -> Option<(f64, f64)> {
     let st = (PI * t14_h / (period_d * 24.0)).sin();
@@ -140,7 +140,7 @@ pub fn duration_ratio_xi(t_in_h: f64, p_in_d: f64, t_out_h: f64, p_out_d: f64) -
 /// Planet mass in Earth masses from radius (Earth radii): Weiss & Marcy
 /// 2014 (ApJL 783, L6) below 4 R⊕ — ρ = 2.43 + 3.39 R g cm⁻³ below 1.5 R⊕,
 /// M = 2.69 R^0.93 from 1.5 to 4 R⊕ — and the generic M = R^2.06 above
-/// (a law fitting Earth and Saturn; METHODS.md §3, from memory).
+/// (a law fitting Earth and Saturn; docs/science.md §3, from memory).
 pub fn mass_from_radius_mearth(r: f64) -> f64 {
     if r < 1.5 {
         (2.43 + 3.39 * r) / earth_density_g_cm3() * r.powi(3)
@@ -152,20 +152,20 @@ pub fn mass_from_radius_mearth(r: f64) -> f64 {
 }
 
 /// Mass from radius by Wolfgang et al. 2016 (ApJ 825, 19): M = 2.7 R^1.3 for
-/// R < 4 R⊕ (METHODS.md §3).
+/// R < 4 R⊕ (docs/science.md §3).
 pub fn mass_wolfgang_2016(r: f64) -> f64 {
     2.7 * r.powf(1.3)
 }
 
 /// Earth's mean density, g cm⁻³, from nominal GM⊕ and the equatorial radius
-/// (IAU 2015 B3): 5.495 (METHODS.md §3).
+/// (IAU 2015 B3): 5.495 (docs/science.md §3).
 pub fn earth_density_g_cm3() -> f64 {
     let m = crate::constants::GM_EARTH / crate::constants::G;
     m / (4.0 / 3.0 * PI * R_EARTH_M.powi(3)) / 1000.0
 }
 
 /// Separation of two orbits in mutual Hill radii (Gladman 1993, Icarus 106,
-/// 247; METHODS.md §3): R_H = [(m₁+m₂)/(3M★)]^{1/3} (a₁+a₂)/2 and
+/// 247; docs/science.md §3): R_H = [(m₁+m₂)/(3M★)]^{1/3} (a₁+a₂)/2 and
 /// Δ = (a₂−a₁)/R_H. Masses in Earth masses, periods in days; depends only on
 /// the period ratio.
 pub fn hill_separation(
@@ -186,7 +186,7 @@ pub fn hill_separation(
 }
 
 /// Two-planet Hill stability limit in mutual Hill radii, 2√3 (Gladman 1993;
-/// METHODS.md §3, from memory).
+/// docs/science.md §3, from memory).
 pub const HILL_CRITICAL: f64 = 3.464_101_615_137_754_6;
 
 /// The period ratio at which two planets reach `delta` mutual Hill radii
@@ -216,7 +216,7 @@ mod tests {
 
     #[test]
     fn kepler_third_law() {
-        // METHODS.md §2 [D]: a sidereal year with GM☉ + GM⊕ gives 1.0000000 au.
+        // docs/science.md §2 [D]: a sidereal year with GM☉ + GM⊕ gives 1.0000000 au.
         let a = semi_major_axis_m(SIDEREAL_YEAR_D, 1.0, GM_EARTH) / AU_M;
         assert!((a - 1.0).abs() < 5e-7, "{a}");
         // P = 10 d around 1 M☉: a = 0.090838 au, a/R★ = 19.533 [D].
@@ -226,7 +226,7 @@ mod tests {
 
     #[test]
     fn winn_durations() {
-        // METHODS.md §2 checks [D]; formula Winn 2010 §2.
+        // docs/science.md §2 checks [D]; formula Winn 2010 §2.
         let a_earth = semi_major_axis_m(SIDEREAL_YEAR_D, 1.0, GM_EARTH) / R_SUN_M;
         let k = R_EARTH_M / R_SUN_M;
         let (t14, t23) = durations_h(SIDEREAL_YEAR_D, a_earth, k, 0.0).unwrap();
@@ -258,25 +258,25 @@ mod tests {
 
     #[test]
     fn earth_radius_from_depth() {
-        // METHODS.md §2 [D]: 84.05 ppm on 1 R☉ is 1.000 R⊕ (uniform disc, k = √δ).
+        // docs/science.md §2 [D]: 84.05 ppm on 1 R☉ is 1.000 R⊕ (uniform disc, k = √δ).
         let r = radius_rearth((84.05e-6f64).sqrt(), 1.0);
         assert!((r - 1.000).abs() < 1e-3, "{r}");
         // Quadratic LD small-planet limit at b = 0 with u = (0.4, 0.26):
-        // δ = k²/(1 − 0.4/3 − 0.26/6); METHODS.md §4 gives F = 0.9878543 for p = 0.1.
+        // δ = k²/(1 − 0.4/3 − 0.26/6); docs/science.md §4 gives F = 0.9878543 for p = 0.1.
         let d = small_planet_depth_ppm(0.1, 0.0, 0.4, 0.26);
         assert!((1.0 - d * 1e-6 - 0.9878543).abs() < 1e-7, "{d}");
     }
 
     #[test]
     fn dilution() {
-        // METHODS.md §2 [D]: c = 0.5 turns 84.05 ppm on 1 R☉ into 1.414 R⊕.
+        // docs/science.md §2 [D]: c = 0.5 turns 84.05 ppm on 1 R☉ into 1.414 R⊕.
         assert!((radius_from_depth_rearth(84.05, 1.0, 0.0) - 1.000).abs() < 1e-3);
         assert!((radius_from_depth_rearth(84.05, 1.0, 0.5) - 1.414).abs() < 1e-3);
     }
 
     #[test]
     fn earth_temperature_and_insolation() {
-        // METHODS.md §2 checks [D]: Earth 278.33 K (A = 0), 254.59 K (A = 0.3),
+        // docs/science.md §2 checks [D]: Earth 278.33 K (A = 0), 254.59 K (A = 0.3),
         // 330.99 K (dayside only).
         let a = semi_major_axis_m(SIDEREAL_YEAR_D, 1.0, GM_EARTH) / R_SUN_M;
         assert!((equilibrium_temperature_k(5772.0, a, 0.0, 0.25) - 278.33).abs() < 0.01);
@@ -288,7 +288,7 @@ mod tests {
 
     #[test]
     fn stellar_density_round_trips() {
-        // METHODS.md §2 [D]: the solar mean density is 1409.8 kg m⁻³, and the
+        // docs/science.md §2 [D]: the solar mean density is 1409.8 kg m⁻³, and the
         // Earth transit at b = 0.3 (T14 = 12.5034 h, T23 = 12.2540 h)
         // recovers b = 0.300, a/R★ = 215.03 and ρ★ = 1409.8.
         assert!((star_density(1.0, 1.0) - 1409.8).abs() < 0.1);
@@ -310,7 +310,7 @@ mod tests {
 
     #[test]
     fn normalised_duration_ratio() {
-        // METHODS.md §2 [D]: b_in = 0, b_out = 0.5 → ξ ≈ √(1/0.75) = 1.1547;
+        // docs/science.md §2 [D]: b_in = 0, b_out = 0.5 → ξ ≈ √(1/0.75) = 1.1547;
         // full formula with k = 0.02, P = 10 / 20 d: 1.1475.
         assert!(((1.0f64 / 0.75).sqrt() - 1.1547).abs() < 1e-4);
         let (ai, ao) = (a_over_rstar(10.0, 1.0, 1.0), a_over_rstar(20.0, 1.0, 1.0));
@@ -322,7 +322,7 @@ mod tests {
 
     #[test]
     fn hill_spacing() {
-        // METHODS.md §3 checks [D] around 1 M☉ (M☉/M⊕ = 332,946.05, DE405).
+        // docs/science.md §3 checks [D] around 1 M☉ (M☉/M⊕ = 332,946.05, DE405).
         assert!((hill_separation(10.0, 15.0, 5.0, 5.0, 1.0) - 12.47).abs() < 0.01);
         assert!((hill_separation(10.0, 12.0, 5.0, 5.0, 1.0) - 5.63).abs() < 0.01);
         assert!((hill_separation(10.0, 20.0, 1.0, 1.0, 1.0) - 36.0).abs() < 0.05);
@@ -333,13 +333,13 @@ mod tests {
         assert!((period_ratio_for_hill(HILL_CRITICAL, 10.0, 10.0, 1.0) - 1.1517).abs() < 1e-4);
         assert!((period_ratio_for_hill(HILL_CRITICAL, mj, mj, 1.0) - 1.5688).abs() < 1e-4);
         assert!((period_ratio_for_hill(10.0, 5.0, 5.0, 1.0) - 1.383).abs() < 1e-3);
-        // 2√3/3^(1/3) = 2.4019 (METHODS.md §3, equivalent form).
+        // 2√3/3^(1/3) = 2.4019 (docs/science.md §3, equivalent form).
         assert!((HILL_CRITICAL / 3f64.cbrt() - 2.4019).abs() < 1e-4);
     }
 
     #[test]
     fn mass_radius_table() {
-        // METHODS.md §3 table [D]: Weiss & Marcy 2014, Wolfgang et al. 2016,
+        // docs/science.md §3 table [D]: Weiss & Marcy 2014, Wolfgang et al. 2016,
         // and R^2.06, with ρ⊕ = 5.495 g cm⁻³.
         assert!((earth_density_g_cm3() - 5.495).abs() < 1e-3);
         for (r, wm, wo, generic) in [

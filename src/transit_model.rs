@@ -7,7 +7,7 @@
 //! quadratic limb-darkened source their eq. (7) with λᵈ and ηᵈ from the case
 //! table (their Table 1 and §4), through complete elliptic integrals of the
 //! first, second and third kind computed by Bulirsch's general integral
-//! `cel`. Tests check it against METHODS.md §4, against values computed
+//! `cel`. Tests check it against docs/science.md §4, against values computed
 //! offline with scipy, and against a direct quadrature of the intensity
 //! over the covered part of each ring of the stellar disc, kept in the tests.
 
@@ -386,7 +386,7 @@ mod tests {
 
     #[test]
     fn uniform_source_check_values() {
-        // METHODS.md §4, Mandel & Agol 2002 uniform source, p = 0.1 (checked
+        // docs/science.md §4, Mandel & Agol 2002 uniform source, p = 0.1 (checked
         // there by a 2-D grid integration at z = 1).
         for (z, f) in [
             (0.0, 0.9900000),
@@ -404,17 +404,17 @@ mod tests {
 
     #[test]
     fn quadratic_check_values() {
-        // METHODS.md §4: u = (0.4, 0.26), p = 0.1; exact at z = 0: 0.9878664;
+        // docs/science.md §4: u = (0.4, 0.26), p = 0.1; exact at z = 0: 0.9878664;
         // numerical at z = 0.5: 0.9885839. An independent midpoint rule with a
         // cosine substitution (200,000 nodes, plain Python, run offline) gives
-        // 0.98858383 at z = 0.5, so METHODS' seventh digit is rounded up:
+        // 0.98858383 at z = 0.5, so the methods note's seventh digit is rounded up:
         // agreement is asked to 1e-7 there.
         let f0 = quadratic_flux(0.1, 0.0, 0.4, 0.26);
         assert!((f0 - 0.9878664).abs() < 5e-8, "{f0}");
         let f5 = quadratic_flux(0.1, 0.5, 0.4, 0.26);
         assert!((f5 - 0.9885839).abs() < 1e-7, "{f5}");
         assert!((f5 - 0.98858383).abs() < 1e-8, "{f5}");
-        // The exact z = 0 formula of METHODS.md §4 with μ_p = √(1−p²).
+        // The exact z = 0 formula of docs/science.md §4 with μ_p = √(1−p²).
         let (p, u1, u2) = (0.1f64, 0.4, 0.26);
         let mp = (1.0 - p * p).sqrt();
         let lam = (p * p

@@ -7,7 +7,7 @@ use crate::flags::Flag;
 use crate::science;
 
 /// Relative uncertainty of a period ratio r = P₂/P₁:
-/// σ_r = r √((σ₁/P₁)² + (σ₂/P₂)²) (METHODS.md §3); `None` without errors.
+/// σ_r = r √((σ₁/P₁)² + (σ₂/P₂)²) (docs/science.md §3); `None` without errors.
 fn ratio_sigma(r: f64, p1: f64, e1: Option<f64>, p2: f64, e2: Option<f64>) -> Option<f64> {
     Some(r * ((e1? / p1).powi(2) + (e2? / p2).powi(2)).sqrt())
 }

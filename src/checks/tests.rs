@@ -29,7 +29,7 @@ fn missing_inputs_stay_missing() {
 
 #[test]
 fn earth_sun_derived() {
-    // METHODS.md §2 [D]: the Earth seen transiting the Sun: 84.05 ppm → 1.000
+    // docs/science.md §2 [D]: the Earth seen transiting the Sun: 84.05 ppm → 1.000
     // R⊕, a sidereal year → 1.0000 au, T_eq 278.33 K, S = 1, central T14
     // 13.10 h; its transit density is the Sun's.
     let text = format!("{HEAD}SUN,EARTH,365.256363,,100,,84.05,13.095,50,0,1,1,5772,,,\n");

@@ -1,7 +1,7 @@
 //! Detrending, folding, binning and the light-curve diagnostics of a
 //! candidate: measured depth and SNR, odd/even depths, the secondary
 //! eclipse, per-transit depth consistency and the transit's shape
-//! (METHODS.md §4).
+//! (docs/science.md §4).
 
 use statrs::distribution::{ChiSquared, ContinuousCDF};
 
@@ -361,7 +361,7 @@ impl Measure {
 }
 
 /// Odd/even depth difference in σ: Z = |δ_odd − δ_even| / √(σ_odd² + σ_even²)
-/// (METHODS.md §4).
+/// (docs/science.md §4).
 pub fn odd_even_z(odd: Measure, even: Measure) -> f64 {
     (odd.value - even.value).abs() / (odd.err.powi(2) + even.err.powi(2)).sqrt()
 }
@@ -385,14 +385,14 @@ pub fn depth_consistency(depths: &[Measure]) -> Option<(f64, usize, f64)> {
 }
 
 /// Largest secondary-eclipse depth reflected light could give, ppm:
-/// A_g k² (R★/a)² with A_g = 1 (METHODS.md §4).
+/// A_g k² (R★/a)² with A_g = 1 (docs/science.md §4).
 pub fn reflected_ceiling_ppm(ror: f64, a_rstar: f64) -> f64 {
     ror * ror / (a_rstar * a_rstar) * 1e6
 }
 
 /// Thermal secondary-eclipse depth, ppm: k² B_λ(T_day)/B_λ(T_eff) at
 /// wavelength `lambda_m`, with the dayside at T_day = T_eff √(R★/a) (2/3)^{1/4}
-/// (no redistribution; METHODS.md §4, physics from Winn 2010).
+/// (no redistribution; docs/science.md §4, physics from Winn 2010).
 pub fn thermal_depth_ppm(ror: f64, a_rstar: f64, teff_k: f64, lambda_m: f64) -> f64 {
     // Planck: B ∝ 1/(exp(hc/λkT) − 1); hc/k = 0.014387769 m K (CODATA 2018).
     let c2 = 0.014_387_769;
@@ -438,7 +438,7 @@ pub struct Diagnostics {
     pub findings: Vec<(Flag, String)>,
 }
 
-/// Z of the odd/even and secondary tests at which a flag fires (METHODS.md §4).
+/// Z of the odd/even and secondary tests at which a flag fires (docs/science.md §4).
 pub const FLAG_Z: f64 = 3.0;
 
 /// Computes the diagnostics of signal `me` from a star's light curve;

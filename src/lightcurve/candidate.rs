@@ -95,7 +95,7 @@ fn ephemeris(cat: &Catalogue, c: CandidateId) -> Ephemeris {
 
 /// R_p/R★ and a/R★ of a candidate. R_p/R★ reproduces the catalogue depth
 /// with limb darkening: k² ≈ δ_true (1 − u₁/3 − u₂/6)/I(μ), μ = √(1−b²)
-/// (Mandel & Agol 2002 small-planet limit; METHODS.md §2), δ_true =
+/// (Mandel & Agol 2002 small-planet limit; docs/science.md §2), δ_true =
 /// δ/(1−c); the `ror` column only when there is no usable depth. a/R★ from
 /// the star's mass and radius, else from the transit itself.
 pub fn model_params(cat: &Catalogue, c: CandidateId) -> ModelParams {

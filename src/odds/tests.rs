@@ -1,5 +1,5 @@
 //! The model against published inputs and the worked values derived from
-//! them in METHODS.md §1.4.
+//! them in docs/science.md §1.2.
 
 use proptest::prelude::*;
 use statrs::distribution::{Discrete, Poisson};
@@ -26,7 +26,7 @@ fn close(got: f64, want: f64, rel: f64) -> bool {
 
 #[test]
 fn worked_values_f_0_1() {
-    // METHODS.md §1.4, "Full formula, N = 156,453", f = 0.1 [D], from the
+    // docs/science.md §1.2, "Full formula, N = 156,453", f = 0.1 [D], from the
     // published N (Borucki 2011) and histogram (Latham 2011).
     let t = table(&model(0.1), &HIST_LATHAM_2011);
     assert!(close(t.lambda, 5.286e-4, 1e-3), "λ = {}", t.lambda);
@@ -60,7 +60,7 @@ fn worked_values_f_0_1() {
         "B3,odds = {}",
         r3.boost_odds
     );
-    // Catalogue mode applies the odds-form boost; k = 1 has B = 1 (METHODS §0).
+    // Catalogue mode applies the odds-form boost; k = 1 has B = 1 (docs/science.md §1).
     assert_eq!(r2.boost, r2.boost_odds);
     assert_eq!(t.row(1).unwrap().boost, 1.0);
     assert!(t.warnings.is_empty(), "{:?}", t.warnings);
@@ -68,7 +68,7 @@ fn worked_values_f_0_1() {
 
 #[test]
 fn worked_values_f_1() {
-    // METHODS.md §1.4, f = 1.0 rows [D]: every single might be an FP. The odds
+    // docs/science.md §1.2, f = 1.0 rows [D]: every single might be an FP. The odds
     // form is undefined there, so only B_cand = f/q_k and B_sys are checked.
     let t = table(&model(1.0), &HIST_LATHAM_2011);
     assert!(close(t.lambda, 5.286e-3, 1e-3));
@@ -101,7 +101,7 @@ fn worked_values_f_1() {
 
 #[test]
 fn leading_order_closed_forms() {
-    // METHODS.md §1.2 leading order and §1.4 closed forms for N = 156,453 [D].
+    // docs/science.md §1.2 leading order and §1.4 closed forms for N = 156,453 [D].
     let n = N_BORUCKI_2011 as f64;
     let (n1, n2, n3) = (827.0, 115.0, 45.0);
     assert!(close(2.0 * n * n2 / (n1 * n1), 52.6, 1e-3));
@@ -126,7 +126,7 @@ fn leading_order_closed_forms() {
         5e-3
     ));
     assert!(close(t.row(3).unwrap().boost_sys, n * n3 / (n1 * n2), 5e-3));
-    // B2,cand does not depend on f at leading order (METHODS.md §1.2).
+    // B2,cand does not depend on f at leading order (docs/science.md §1.2).
     let t1 = table(&model(1.0), &HIST_LATHAM_2011);
     assert!(close(
         t1.row(2).unwrap().boost_cand,
@@ -151,7 +151,7 @@ fn threshold_is_p_100_over_101() {
 
 #[test]
 fn odds_with_f_0_1() {
-    // METHODS.md §1.4 [D]: with f = 0.1 (prior odds 9), B = 25 → 225:1,
+    // docs/science.md §1.2 [D]: with f = 0.1 (prior odds 9), B = 25 → 225:1,
     // P = 0.99558; B = 54 → 486:1, P = 0.99795; B = 100 → 900:1, P = 0.99889.
     for (b, o, p) in [
         (25.0, 225.0, 0.99558),
@@ -187,7 +187,7 @@ fn poisson_terms_agree_with_statrs() {
 
 #[test]
 fn loose_checks_common_practice() {
-    // METHODS.md §0, common practice, no source: a second candidate raises the
+    // docs/science.md §1, common practice, no source: a second candidate raises the
     // odds by a factor of order tens, a third by more, and three-candidate
     // systems reach at least 99 %.
     let t = table(&model(0.1), &HIST_LATHAM_2011);

@@ -1,4 +1,4 @@
-//! Diagnostics against the check values of METHODS.md §4 and recovery tests
+//! Diagnostics against the check values of docs/science.md §4 and recovery tests
 //! on synthetic light curves made here (invented).
 
 use super::*;
@@ -6,7 +6,7 @@ use crate::demo::Rng;
 
 #[test]
 fn odd_even_check_value() {
-    // METHODS.md §4 [D]: 1000 ± 30 vs 850 ± 40 ppm → Z = 3.00.
+    // docs/science.md §4 [D]: 1000 ± 30 vs 850 ± 40 ppm → Z = 3.00.
     let z = odd_even_z(
         Measure {
             value: 1000.0,
@@ -22,7 +22,7 @@ fn odd_even_check_value() {
 
 #[test]
 fn depth_consistency_check_values() {
-    // METHODS.md §4 [D]: depths 100, 110, 90, 100 ± 5 → δ̄ = 100, χ² = 8,
+    // docs/science.md §4 [D]: depths 100, 110, 90, 100 ± 5 → δ̄ = 100, χ² = 8,
     // p = 0.04601 (3 degrees of freedom); χ² survival(9, 1 dof) = 0.0026998.
     let d: Vec<Measure> = [100.0, 110.0, 90.0, 100.0]
         .iter()
@@ -38,7 +38,7 @@ fn depth_consistency_check_values() {
 
 #[test]
 fn reflected_light_ceiling() {
-    // METHODS.md §4 [D]: k = 0.1, a/R★ = 8.7536 → 130.5 ppm for A_g = 1.
+    // docs/science.md §4 [D]: k = 0.1, a/R★ = 8.7536 → 130.5 ppm for A_g = 1.
     assert!((reflected_ceiling_ppm(0.1, 8.7536) - 130.5).abs() < 0.05);
     // Thermal emission of a hot planet is far below its reflected ceiling in
     // the visible, and rises with temperature.
