@@ -5,6 +5,7 @@
 //! per-multiplicity table from N, f and the histogram of non-rejected
 //! candidates per star; [`live`] keeps it current as decisions change.
 
+mod fenwick;
 pub mod live;
 pub mod pool;
 

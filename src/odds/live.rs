@@ -19,6 +19,8 @@ use crate::checks::SignalGroups;
 use crate::decision::{Decision, Reason};
 use crate::flags::{Flag, FlagSet};
 
+use super::fenwick::Fenwick;
+
 /// Candidates per verdict.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
 pub struct VerdictCounts {
@@ -36,42 +38,6 @@ impl VerdictCounts {
             Verdict::Unlikely => self.unlikely,
             Verdict::Rejected => self.rejected,
         }
-    }
-}
-
-/// A Fenwick tree of counts over prior classes (Fenwick 1994, Software:
-/// Practice and Experience 24, 327): add and prefix sum in O(log n).
-#[derive(Clone, Debug, PartialEq)]
-struct Fenwick {
-    tree: Vec<u32>,
-    total: usize,
-}
-
-impl Fenwick {
-    fn new(n: usize) -> Fenwick {
-        Fenwick {
-            tree: vec![0; n + 1],
-            total: 0,
-        }
-    }
-
-    fn add(&mut self, i: usize, delta: i32) {
-        self.total = self.total.wrapping_add_signed(delta as isize);
-        let mut i = i + 1;
-        while i < self.tree.len() {
-            self.tree[i] = self.tree[i].wrapping_add_signed(delta);
-            i += i & i.wrapping_neg();
-        }
-    }
-
-    /// Sum over classes 0..i.
-    fn prefix(&self, i: usize) -> usize {
-        let (mut i, mut s) = (i, 0u32);
-        while i > 0 {
-            s = s.wrapping_add(self.tree[i]);
-            i &= i - 1;
-        }
-        s as usize
     }
 }
 
