@@ -253,6 +253,11 @@ impl Live {
         self.status[c as usize]
     }
 
+    /// Whether the candidate is counted in its star's system.
+    pub fn counted(&self, c: CandidateId) -> bool {
+        self.status[c as usize] == Status::Counted
+    }
+
     /// Candidates held back (not rejected, not counted).
     pub fn held_count(&self) -> usize {
         self.held.total
@@ -349,16 +354,11 @@ impl Live {
             return Some(Hold::Flags(own));
         }
         let g = self.active_group(c)?;
-        let members = self.groups.members(g);
-        if let Some((&by, reason)) = members.iter().find_map(|m| {
-            let r = self.decision[*m as usize].reason()?;
-            (!is_copy(r)).then_some((m, r))
-        }) {
+        let standing = self.group_standing(g, |m| self.decision[m as usize]);
+        if let Some((by, reason)) = standing.rejected_by {
             return Some(Hold::GroupRejected { by, reason });
         }
-        let rep = *members
-            .iter()
-            .find(|&&m| !self.decision[m as usize].is_rejected())?;
+        let rep = standing.rep?;
         if rep == c {
             return None;
         }
@@ -539,7 +539,7 @@ impl Live {
         }
         let mut fp_singles = self.fp_singles();
         if k_old == 1 {
-            fp_singles -= self.star_single_f(s, |m| self.status[m as usize]);
+            fp_singles -= self.star_single_f(s);
         }
         if k_new == 1 {
             let f = after
@@ -666,12 +666,8 @@ impl Live {
                 } else if self.flags[c as usize].intersects(own_blocking) {
                     Status::Held
                 } else if let Some(g) = self.active_group(c) {
-                    let members = self.groups.members(g);
-                    let dead = members
-                        .iter()
-                        .any(|&m| decision(m).reason().is_some_and(|r| !is_copy(r)));
-                    let rep = members.iter().find(|&&m| !decision(m).is_rejected());
-                    if !dead && rep == Some(&c) {
+                    let standing = self.group_standing(g, &decision);
+                    if standing.rejected_by.is_none() && standing.rep == Some(c) {
                         Status::Counted
                     } else {
                         Status::Held
@@ -684,12 +680,29 @@ impl Live {
             .collect()
     }
 
+    /// Where signal group g stands under `decision`: a member rejected for
+    /// what the signal is (not as a copy) holds the whole group back;
+    /// otherwise the first member not rejected (best first) stands for it.
+    fn group_standing(&self, g: u32, decision: impl Fn(CandidateId) -> Decision) -> GroupStanding {
+        let members = self.groups.members(g);
+        GroupStanding {
+            rejected_by: members.iter().find_map(|&m| {
+                let r = decision(m).reason()?;
+                (!is_copy(r)).then_some((m, r))
+            }),
+            rep: members
+                .iter()
+                .copied()
+                .find(|&m| !decision(m).is_rejected()),
+        }
+    }
+
     /// The f of the one counted member of a star whose system is a single.
-    fn star_single_f(&self, s: StarId, status: impl Fn(CandidateId) -> Status) -> f64 {
+    fn star_single_f(&self, s: StarId) -> f64 {
         self.index
             .members(s)
             .iter()
-            .find(|&&m| status(m) == Status::Counted)
+            .find(|&&m| self.status[m as usize] == Status::Counted)
             .map_or(0.0, |&m| self.f_of[m as usize])
     }
 
@@ -716,7 +729,7 @@ impl Live {
             self.contribute(c, k, 1);
         }
         if k == 1 {
-            let f = self.star_single_f(s, |m| self.status[m as usize]);
+            let f = self.star_single_f(s);
             self.bump_single(f, 1);
         }
     }
@@ -724,7 +737,7 @@ impl Live {
     fn unplace_star(&mut self, s: StarId) {
         let k = self.k_of_star[s as usize] as usize;
         if k == 1 {
-            let f = self.star_single_f(s, |m| self.status[m as usize]);
+            let f = self.star_single_f(s);
             self.bump_single(f, -1);
         }
         self.bump_hist(k, -1);
@@ -790,6 +803,12 @@ impl Live {
         counts.unlikely += self.held.total - l;
         self.counts = counts;
     }
+}
+
+/// See [`Live::group_standing`].
+struct GroupStanding {
+    rejected_by: Option<(CandidateId, Reason)>,
+    rep: Option<CandidateId>,
 }
 
 /// A rejection that says "this entry is a copy" (the signal lives on in
