@@ -622,6 +622,15 @@ pub fn hold_text(
     }
 }
 
+/// `4-6` for a pooled run of multiplicities, `-` for a k alone.
+pub fn format_pool(pool: (usize, usize)) -> String {
+    if pool.0 == pool.1 {
+        "-".into()
+    } else {
+        format!("{}-{}", pool.0, pool.1)
+    }
+}
+
 /// Odds for people: `340:1`, `1:25` below even.
 pub fn format_odds(o: f64) -> String {
     if !o.is_finite() || o <= 0.0 {

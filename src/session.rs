@@ -154,8 +154,15 @@ impl Session {
         }
     }
 
-    /// The candidates of the ledger's disagreements.
-    pub fn disagreeing(&self) -> std::collections::HashSet<crate::catalogue::CandidateId> {
-        crate::selection::disagreeing(&self.loaded.catalogue, &self.disagreements)
+    /// The candidates `filter` selects (all without one), in file order, as
+    /// the filter sees them under `live` (the session's own odds).
+    pub fn selected(
+        &self,
+        live: &Live,
+        filter: Option<&crate::query::Filter>,
+    ) -> Vec<crate::catalogue::CandidateId> {
+        let cat = &self.loaded.catalogue;
+        let disagree = crate::selection::disagreeing(cat, &self.disagreements);
+        crate::selection::selected(cat, live, &self.checks, &disagree, filter)
     }
 }

@@ -132,7 +132,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                         w.write_field(l.k(c).to_string())?;
                         w.write_field(exact_in(&mut b, l.odds(c)))?;
                         w.write_field(l.verdict(c).name())?;
-                        w.write_field(crate::cmd::odds::hold_text(cat, l, c))?;
+                        w.write_field(crate::odds::hold_text(cat, l, c))?;
                     }
                     None => {
                         for _ in 0..4 {
@@ -171,7 +171,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                         "k": live.map(|l| l.k(c)),
                         "odds": live.and_then(|l| l.odds(c)),
                         "verdict": live.map(|l| l.verdict(c).name()),
-                        "held_back": live.map(|l| crate::cmd::odds::hold_text(cat, l, c)),
+                        "held_back": live.map(|l| crate::odds::hold_text(cat, l, c)),
                     })
                 })
                 .collect();

@@ -14,7 +14,6 @@ use crate::odds::{Live, model_statement};
 use crate::output::{csv_writer, exact_in, write_json};
 use crate::query::Filter;
 use crate::sanitize::clean;
-use crate::selection::selected;
 use crate::session::{LedgerUse, Session};
 
 #[derive(Debug, Clone, clap::Args)]
@@ -40,14 +39,6 @@ pub enum ExportFormat {
     Json,
 }
 
-/// Opens the session every exporting command shares (the ledger read, never
-/// created) and requires its odds.
-pub fn vetted(args: &VettingArgs) -> Result<Session, CliError> {
-    let session = Session::open(args, LedgerUse::Read)?;
-    session.live()?;
-    Ok(session)
-}
-
 /// Writes `text` to `path` through a temporary file and a rename, so a
 /// reader never sees half a file.
 pub fn write_atomically(path: &std::path::Path, bytes: &[u8]) -> Result<(), CliError> {
@@ -59,10 +50,10 @@ pub fn write_atomically(path: &std::path::Path, bytes: &[u8]) -> Result<(), CliE
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let filter = crate::cli::parse_where(args.filter.as_deref())?;
-    let v = vetted(&args.vetting)?;
+    let v = Session::open(&args.vetting, LedgerUse::Read)?;
     v.warn();
     let live = v.live()?;
-    let rows = select(&v, live, filter.as_ref());
+    let rows = v.selected(live, filter.as_ref());
     let mut buf: Vec<u8> = Vec::new();
     let sink: &mut dyn Write = if args.output.is_some() { &mut buf } else { out };
     match args.format {
@@ -78,17 +69,6 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         );
     }
     Ok(())
-}
-
-/// The candidates a filter matches (all without one), in file order.
-pub fn select(v: &Session, live: &Live, filter: Option<&Filter>) -> Vec<CandidateId> {
-    selected(
-        &v.loaded.catalogue,
-        live,
-        &v.checks,
-        &v.disagreeing(),
-        filter,
-    )
 }
 
 const VETTING_COLUMNS: [&str; 15] = [
@@ -189,12 +169,8 @@ fn write_csv(
         w.write_field(e.map_or("", |e| e.decided_at.as_str()))?;
         w.write_field(v.checks.flags(c).joined(";"))?;
         w.write_field(v.checks.warnings(c).joined(";"))?;
-        w.write_field(if live.status(c) == crate::odds::Status::Counted {
-            "yes"
-        } else {
-            "no"
-        })?;
-        w.write_field(crate::cmd::odds::hold_text(cat, live, c))?;
+        w.write_field(if live.counted(c) { "yes" } else { "no" })?;
+        w.write_field(crate::odds::hold_text(cat, live, c))?;
         w.write_field(exact_in(&mut b, live.holds_to(c)))?;
         w.write_record(None::<&[u8]>)?;
     }
@@ -261,13 +237,10 @@ fn to_json(v: &Session, live: &Live, selected: &[CandidateId], filter: Option<&F
                         .collect::<Vec<_>>()
                 ),
             );
-            o.insert(
-                "counted".into(),
-                json!(live.status(c) == crate::odds::Status::Counted),
-            );
+            o.insert("counted".into(), json!(live.counted(c)));
             o.insert(
                 "held_back".into(),
-                json!(crate::cmd::odds::hold_text(cat, live, c)),
+                json!(crate::odds::hold_text(cat, live, c)),
             );
             o.insert("holds_to_f".into(), f(live.holds_to(c)));
             Value::Object(o)

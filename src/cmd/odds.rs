@@ -7,7 +7,9 @@ use serde_json::{Value, json};
 
 use crate::catalogue::{CandidateId, Catalogue};
 use crate::cli::{CliError, VettingArgs};
-use crate::odds::{ALL_VERDICTS, Live, Table, format_odds, model_statement};
+use crate::odds::{
+    ALL_VERDICTS, Live, Table, format_odds, format_pool, hold_text, model_statement,
+};
 use crate::output::{Align, Format, Table as TextTable, csv_writer, exact, num, write_json};
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
@@ -31,13 +33,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let session = Session::open(&args.vetting, LedgerUse::Read)?;
     let cat = &session.loaded.catalogue;
     let live = session.live()?;
-    let rows = crate::selection::selected(
-        cat,
-        live,
-        &session.checks,
-        &session.disagreeing(),
-        filter.as_ref(),
-    );
+    let rows = session.selected(live, filter.as_ref());
     let shown = Shown {
         rows: &rows,
         filter: filter.as_ref().map(|f| f.text.as_str()),
@@ -53,8 +49,6 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         Format::Table => write_table(cat, live, &shown, out),
     }
 }
-
-pub use crate::odds::hold_text;
 
 /// The candidates listed, and the filter that chose them.
 struct Shown<'a> {
@@ -96,11 +90,7 @@ fn write_csv(
             live.verdict(c).name(),
             live.decision(c).name(),
             &live.flags(c).joined(";"),
-            if live.status(c) == crate::odds::Status::Counted {
-                "yes"
-            } else {
-                "no"
-            },
+            if live.counted(c) { "yes" } else { "no" },
             &hold_text(cat, live, c),
             &exact(live.holds_to(c)),
         ])?;
@@ -153,7 +143,7 @@ fn to_json(cat: &Catalogue, live: &Live, session: &Session, shown: &Shown) -> Va
                 "verdict": live.verdict(c).name(),
                 "decision": live.decision(c).name(),
                 "flags": live.flags(c).iter().map(|f| f.name()).collect::<Vec<_>>(),
-                "counted": live.status(c) == crate::odds::Status::Counted,
+                "counted": live.counted(c),
                 "held_back": hold_text(cat, live, c),
                 "holds_to_f": f(live.holds_to(c)),
             })
@@ -266,7 +256,7 @@ pub fn write_model_footer(live: &Live, out: &mut dyn Write) -> Result<(), CliErr
             num(Some(r.boost_cand), 4),
             num(Some(r.boost_sys), 4),
             num(Some(r.boost_odds), 4),
-            pool_text(r.pool),
+            format_pool(r.pool),
             num(Some(r.boost), 4),
             format_odds(o),
             format!("{:.5}", crate::odds::probability(o)),
@@ -287,13 +277,4 @@ pub fn write_model_footer(live: &Live, out: &mut dyn Write) -> Result<(), CliErr
     }
     writeln!(out, "{}", model_statement(m))?;
     Ok(())
-}
-
-/// `4-6` for a pooled run of multiplicities, `-` for a k alone.
-pub fn pool_text(pool: (usize, usize)) -> String {
-    if pool.0 == pool.1 {
-        "-".into()
-    } else {
-        format!("{}-{}", pool.0, pool.1)
-    }
 }

@@ -9,12 +9,13 @@ use std::path::PathBuf;
 
 use crate::catalogue::CandidateId;
 use crate::cli::{CliError, VettingArgs};
-use crate::cmd::export::{vetted, write_atomically};
+use crate::cmd::export::write_atomically;
 use crate::odds::{
     ALL_VERDICTS, Verdict, format_odds, model_statement, posterior_odds, probability,
 };
 use crate::output::num;
 use crate::sanitize::clean;
+use crate::session::{LedgerUse, Session};
 
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
@@ -31,7 +32,7 @@ fn md(s: &str) -> String {
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    let v = vetted(&args.vetting)?;
+    let v = Session::open(&args.vetting, LedgerUse::Read)?;
     v.warn();
     let cat = &v.loaded.catalogue;
     let live = v.live()?;
@@ -75,7 +76,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             num(Some(row.boost_cand), 4),
             num(Some(row.boost_sys), 4),
             num(Some(row.boost_odds), 4),
-            crate::cmd::odds::pool_text(row.pool),
+            crate::odds::format_pool(row.pool),
             num(Some(row.boost), 4),
             format_odds(o),
             probability(o)
@@ -145,7 +146,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 "| {} | {} | {} | {} |",
                 md(cat.star_id(cat.star_of(c))),
                 md(cat.candidate_id(c)),
-                md(&crate::cmd::odds::hold_text(cat, live, c)),
+                md(&crate::odds::hold_text(cat, live, c)),
                 live.flags(c).joined(", ")
             );
         }
