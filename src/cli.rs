@@ -163,12 +163,7 @@ impl LedgerArgs {
                 p.clone()
             }
             None => {
-                let bytes = match &input.catalogue {
-                    Some(p) => std::fs::read(p)?,
-                    None => crate::demo::CATALOGUE_CSV.as_bytes().to_vec(),
-                };
-                let fp = crate::ledger::fingerprint(&bytes);
-                let p = crate::ledger::default_path(input.catalogue.as_deref(), &fp);
+                let p = default_ledger(input)?.0;
                 if !p.exists() {
                     return Ok(None);
                 }
@@ -176,18 +171,7 @@ impl LedgerArgs {
             }
         };
         let ledger = crate::ledger::Ledger::open(&path)?;
-        let cat = &loaded.catalogue;
-        let gone = ledger
-            .latest(None)?
-            .iter()
-            .filter(|e| cat.find_candidate(&e.candidate).is_none())
-            .count();
-        if gone > 0 {
-            eprintln!(
-                "starsift: note: {gone} decided candidates of {} are not in the catalogue",
-                crate::sanitize::clean(&path.display().to_string())
-            );
-        }
+        note_gone(&ledger, &loaded.catalogue)?;
         Ok(Some(ledger))
     }
 
@@ -199,15 +183,8 @@ impl LedgerArgs {
         input: &CatalogueArgs,
         loaded: &Loaded,
     ) -> Result<crate::ledger::Ledger, CliError> {
-        let bytes = match &input.catalogue {
-            Some(p) => std::fs::read(p)?,
-            None => crate::demo::CATALOGUE_CSV.as_bytes().to_vec(),
-        };
-        let fp = crate::ledger::fingerprint(&bytes);
-        let path = match &self.ledger {
-            Some(p) => p.clone(),
-            None => crate::ledger::default_path(input.catalogue.as_deref(), &fp),
-        };
+        let (default, fp) = default_ledger(input)?;
+        let path = self.ledger.clone().unwrap_or(default);
         if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
             std::fs::create_dir_all(dir).map_err(|e| {
                 CliError::Ledger(crate::ledger::LedgerError::Unwritable {
@@ -224,28 +201,47 @@ impl LedgerArgs {
                 crate::sanitize::clean(&cat.source)
             );
         }
-        let gone: Vec<String> = ledger
-            .latest(None)?
-            .iter()
-            .filter(|e| cat.find_candidate(&e.candidate).is_none())
-            .map(|e| e.candidate.clone())
-            .collect();
-        if !gone.is_empty() {
-            let mut gone = gone;
-            gone.sort();
-            eprintln!(
-                "starsift: note: {} decided candidates are not in the catalogue: {}{}",
-                gone.len(),
-                gone.iter()
-                    .take(20)
-                    .map(|g| crate::sanitize::clean(g).into_owned())
-                    .collect::<Vec<_>>()
-                    .join(", "),
-                if gone.len() > 20 { ", ..." } else { "" }
-            );
-        }
+        note_gone(&ledger, cat)?;
         Ok(ledger)
     }
+}
+
+/// The default ledger of a catalogue (beside it, or in the data folder) and
+/// the catalogue's fingerprint.
+fn default_ledger(input: &CatalogueArgs) -> Result<(PathBuf, String), CliError> {
+    let bytes = match &input.catalogue {
+        Some(p) => std::fs::read(p)?,
+        None => crate::demo::CATALOGUE_CSV.as_bytes().to_vec(),
+    };
+    let fp = crate::ledger::fingerprint(&bytes);
+    Ok((
+        crate::ledger::default_path(input.catalogue.as_deref(), &fp),
+        fp,
+    ))
+}
+
+/// Says (on stderr) which decided candidates the catalogue no longer has.
+fn note_gone(ledger: &crate::ledger::Ledger, cat: &Catalogue) -> Result<(), CliError> {
+    let mut gone: Vec<String> = ledger
+        .latest(None)?
+        .iter()
+        .filter(|e| cat.find_candidate(&e.candidate).is_none())
+        .map(|e| e.candidate.clone())
+        .collect();
+    if !gone.is_empty() {
+        gone.sort();
+        eprintln!(
+            "starsift: note: {} decided candidates are not in the catalogue: {}{}",
+            gone.len(),
+            gone.iter()
+                .take(20)
+                .map(|g| crate::sanitize::clean(g).into_owned())
+                .collect::<Vec<_>>()
+                .join(", "),
+            if gone.len() > 20 { ", ..." } else { "" }
+        );
+    }
+    Ok(())
 }
 
 /// An error for the user, with the exit code it maps to.
