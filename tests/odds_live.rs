@@ -4,9 +4,9 @@
 
 mod common;
 
-use common::{fixture, starsift, stderr, stdout};
+use common::{fixture, load_text, starsift, stderr, stdout};
 use proptest::prelude::*;
-use starsift::catalogue::{CandidateId, Catalogue, LoadOptions, Source};
+use starsift::catalogue::{CandidateId, Catalogue};
 use starsift::decision::{Decision, Reason};
 use starsift::flags::{ALL_FLAGS, FlagSet};
 use starsift::odds::{ALL_VERDICTS, BoostMode, Live, Model, Verdict, VerdictCounts};
@@ -22,14 +22,7 @@ fn catalogue(sizes: &[usize], fpp: Option<&[f64]>) -> Catalogue {
             n += 1;
         }
     }
-    Catalogue::load(
-        Source::Bytes {
-            name: "invented.csv",
-            data: text.as_bytes(),
-        },
-        &LoadOptions::default(),
-    )
-    .unwrap()
+    load_text(&text)
 }
 
 fn tally(live: &Live, n: usize) -> VerdictCounts {

@@ -6,9 +6,9 @@
 
 mod common;
 
-use common::{scratch, starsift, stderr, stdout};
+use common::{load_text as load, scratch, starsift, stderr, stdout};
 use proptest::prelude::*;
-use starsift::catalogue::{CandidateId, Catalogue, LoadOptions, Source};
+use starsift::catalogue::{CandidateId, Catalogue};
 use starsift::checks::{CheckSettings, SignalGroups};
 use starsift::decision::{Decision, Reason};
 use starsift::flags::{Flag, FlagSet};
@@ -47,17 +47,6 @@ fn background() -> String {
     t
 }
 
-fn load(text: &str) -> Catalogue {
-    Catalogue::load(
-        Source::Bytes {
-            name: "invented.csv",
-            data: text.as_bytes(),
-        },
-        &LoadOptions::default(),
-    )
-    .unwrap()
-}
-
 fn model() -> Model {
     Model {
         targets: Some(50_000),
@@ -65,18 +54,23 @@ fn model() -> Model {
     }
 }
 
-/// The checks and the live odds, as every command builds them.
-fn vet(text: &str) -> (Catalogue, Live) {
-    let cat = load(text);
-    let checks = starsift::checks::run(&cat, &CheckSettings::default());
-    let live = Live::with_state(
-        &cat,
-        model(),
+/// The checks and the live odds under `model`, every candidate open, as
+/// every command builds them.
+fn live_for(cat: &Catalogue, model: Model) -> Live {
+    let checks = starsift::checks::run(cat, &CheckSettings::default());
+    Live::with_state(
+        cat,
+        model,
         checks.all_flags().to_vec(),
         checks.groups().clone(),
         vec![Decision::Open; cat.len()],
     )
-    .unwrap();
+    .unwrap()
+}
+
+fn vet(text: &str) -> (Catalogue, Live) {
+    let cat = load(text);
+    let live = live_for(&cat, model());
     (cat, live)
 }
 
@@ -206,16 +200,7 @@ fn holds_to_f_is_the_edge_of_the_verdict() {
             fp_fraction: f,
             ..model()
         };
-        let checks = starsift::checks::run(&cat, &CheckSettings::default());
-        let l = Live::with_state(
-            &cat,
-            m,
-            checks.all_flags().to_vec(),
-            checks.groups().clone(),
-            vec![Decision::Open; cat.len()],
-        )
-        .unwrap();
-        l.verdict(double)
+        live_for(&cat, m).verdict(double)
     };
     assert_eq!(at(edge * 0.999), Verdict::Validated);
     assert_ne!(at((edge * 1.02).min(0.99)), Verdict::Validated);
@@ -314,14 +299,10 @@ proptest! {
         steps in proptest::collection::vec((0usize..10_000, 0u8..3), 1..25),
     ) {
         let cat = load(&random_catalogue(&sizes, &twins));
-        let checks = starsift::checks::run(&cat, &CheckSettings::default());
-        let mut live = Live::with_state(
+        let mut live = live_for(
             &cat,
             Model { targets: Some(cat.star_count() as u64 + extra), fp_fraction: f, ..Model::default() },
-            checks.all_flags().to_vec(),
-            checks.groups().clone(),
-            vec![Decision::Open; cat.len()],
-        ).unwrap();
+        );
         for (pick, how) in steps {
             let c = (pick % cat.len()) as CandidateId;
             if live.status(c) != Status::Counted {

@@ -33,3 +33,15 @@ pub fn stdout(o: &Output) -> String {
 pub fn stderr(o: &Output) -> String {
     String::from_utf8_lossy(&o.stderr).into_owned()
 }
+
+/// An invented catalogue from its text, loaded with the default options.
+pub fn load_text(text: &str) -> starsift::catalogue::Catalogue {
+    starsift::catalogue::Catalogue::load(
+        starsift::catalogue::Source::Bytes {
+            name: "invented.csv",
+            data: text.as_bytes(),
+        },
+        &starsift::catalogue::LoadOptions::default(),
+    )
+    .unwrap()
+}
