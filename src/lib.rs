@@ -26,6 +26,7 @@ pub mod checks;
 pub mod cli;
 pub mod cmd;
 pub mod constants;
+pub mod contain;
 pub mod decision;
 pub mod demo;
 pub mod flags;

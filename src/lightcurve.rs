@@ -141,7 +141,8 @@ impl LightCurve {
         flux: Vec<f64>,
         err: Option<Vec<f64>>,
     ) -> Result<LightCurve, LcError> {
-        let n = time.len();
+        let n = time.len().min(flux.len());
+        let n = err.as_ref().map_or(n, |e| n.min(e.len()));
         let mut rows: Vec<(f64, f64, f64)> = (0..n)
             .map(|i| (time[i], flux[i], err.as_ref().map_or(0.0, |e| e[i])))
             .filter(|(t, f, e)| t.is_finite() && f.is_finite() && e.is_finite() && *e >= 0.0)
@@ -156,6 +157,7 @@ impl LightCurve {
         if !rows.windows(2).all(|w| w[0].0 <= w[1].0) {
             rows.sort_by(|a, b| a.0.total_cmp(&b.0));
         }
+        check_span(&source, &time, &rows)?;
         let mut f: Vec<f64> = rows.iter().map(|r| r.1).collect();
         let median = median_of(&mut f.clone());
         if median.is_nan() || median <= 0.0 {
@@ -185,14 +187,49 @@ impl LightCurve {
     }
 }
 
-/// Median of a slice (reordered in place); NaN when empty.
+/// The longest time span a light curve may cover, in days (about 270
+/// years: every space and ground survey fits many times over). A longer span
+/// means a wrong timestamp, and the detrending grid would grow with it.
+pub const MAX_SPAN_D: f64 = 1e5;
+
+/// Refuses a light curve whose timestamps span more than [`MAX_SPAN_D`],
+/// naming the sample farthest from the median time (its data row, 1-based).
+fn check_span(source: &str, raw_time: &[f64], rows: &[(f64, f64, f64)]) -> Result<(), LcError> {
+    let (first, last) = (rows[0].0, rows[rows.len() - 1].0);
+    if last - first <= MAX_SPAN_D {
+        return Ok(());
+    }
+    let mid = rows[rows.len() / 2].0;
+    let far = if mid - first > last - mid {
+        first
+    } else {
+        last
+    };
+    let row = raw_time.iter().position(|&t| t == far).map_or(0, |i| i + 1);
+    Err(LcError::Bad {
+        path: source.to_string(),
+        message: format!(
+            "data row {row}: time {far} lies {:.0} days from the median time {mid}; \
+             a light curve spans at most {MAX_SPAN_D:.0} days, so this timestamp is wrong \
+             (remove the row or fix its time)",
+            (far - mid).abs()
+        ),
+    })
+}
+
+/// Median of a slice (reordered in place): the middle value, or the mean of
+/// the two middle values of an even count; NaN when empty.
 pub fn median_of(v: &mut [f64]) -> f64 {
     if v.is_empty() {
         return f64::NAN;
     }
-    let mid = v.len() / 2;
-    let (_, m, _) = v.select_nth_unstable_by(mid, f64::total_cmp);
-    *m
+    let (len, mid) = (v.len(), v.len() / 2);
+    let (below, m, _) = v.select_nth_unstable_by(mid, f64::total_cmp);
+    if len % 2 == 1 {
+        return *m;
+    }
+    let lower = below.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    0.5 * (lower + *m)
 }
 
 /// Per-point scatter from the median absolute difference of neighbours:
@@ -342,6 +379,23 @@ mod tests {
         assert!(lc.flux.iter().all(|&v| v == 1.0));
         assert!(lc.flux_err.iter().all(|&v| (v - 0.01).abs() < 1e-15));
         assert!(!lc.err_estimated);
+    }
+
+    #[test]
+    fn median_of_an_even_count_is_the_mean_of_the_middle_two() {
+        // Definition of the sample median (any statistics handbook).
+        assert_eq!(median_of(&mut [4.0, 1.0, 3.0, 2.0]), 2.5);
+        assert_eq!(median_of(&mut [5.0, 1.0, 3.0]), 3.0);
+        assert!(median_of(&mut []).is_nan());
+    }
+
+    #[test]
+    fn a_stray_timestamp_is_an_error_naming_its_row_not_a_huge_allocation() {
+        let mut t: Vec<f64> = (0..100).map(|i| i as f64 * 0.02).collect();
+        t[37] = 1e12;
+        let e = LightCurve::from_samples("lc.csv".into(), t, vec![1.0; 100], None).unwrap_err();
+        let m = e.to_string();
+        assert!(m.contains("lc.csv") && m.contains("data row 38"), "{m}");
     }
 
     #[test]

@@ -217,9 +217,14 @@ impl Guard {
                 ratatui::crossterm::event::EnableMouseCapture
             )?;
         }
+        crate::contain::install_hook();
         let previous = std::panic::take_hook();
         std::panic::set_hook(Box::new(move |info| {
-            restore();
+            // A panic `contain::contained` catches is one star's error: the
+            // browser goes on, so the terminal stays as it is.
+            if !crate::contain::inside() {
+                restore();
+            }
             previous(info);
         }));
         Ok(Guard)
@@ -256,40 +261,45 @@ fn spawn_worker(
         let cache = crate::lightcurve::Cache::default();
         while let Ok(c) = rx.recv() {
             let star = cat.star_of(c);
-            let out = if !finder.has(&cat, star) {
-                SignalResult::Model(
-                    "no light curve for this star: the model transit is shown".into(),
-                )
-            } else {
-                let curve = cache.curve(&finder, &cat, star);
-                match curve.as_ref() {
-                    Err(e) => SignalResult::Model(format!("light curve not read: {e}")),
-                    Ok(lc) => {
-                        let (me, others) = crate::lightcurve::signals(&cat, c);
-                        let flux = cache.detrended(&cat, star, lc, &detrend);
-                        let skip = crate::lightcurve::analysis::in_transit(&lc.time, &others, 1.2);
-                        let z = (3.0 * me.duration_h / 24.0 / me.period_d).min(0.5);
-                        let views = crate::lightcurve::analysis::views(
-                            &lc.time,
-                            &flux,
-                            &lc.flux_err,
-                            &skip,
-                            &me,
-                            z,
-                            60,
-                        );
-                        let diagnostics = cache.diagnostics(&finder, &cat, c, &detrend);
-                        match diagnostics.as_ref() {
-                            Ok(d) => SignalResult::Data {
-                                views: Box::new(views),
-                                diagnostics: Box::new(d.clone()),
-                                source: lc.source.clone(),
-                            },
-                            Err(e) => SignalResult::Model(e.clone()),
+            let what = format!("showing {}", cat.candidate_id(c));
+            let out = crate::contain::contained(&what, || {
+                if !finder.has(&cat, star) {
+                    SignalResult::Model(
+                        "no light curve for this star: the model transit is shown".into(),
+                    )
+                } else {
+                    let curve = cache.curve(&finder, &cat, star);
+                    match curve.as_ref() {
+                        Err(e) => SignalResult::Model(format!("light curve not read: {e}")),
+                        Ok(lc) => {
+                            let (me, others) = crate::lightcurve::signals(&cat, c);
+                            let flux = cache.detrended(&cat, star, lc, &detrend);
+                            let skip =
+                                crate::lightcurve::analysis::in_transit(&lc.time, &others, 1.2);
+                            let z = (3.0 * me.duration_h / 24.0 / me.period_d).min(0.5);
+                            let views = crate::lightcurve::analysis::views(
+                                &lc.time,
+                                &flux,
+                                &lc.flux_err,
+                                &skip,
+                                &me,
+                                z,
+                                60,
+                            );
+                            let diagnostics = cache.diagnostics(&finder, &cat, c, &detrend);
+                            match diagnostics.as_ref() {
+                                Ok(d) => SignalResult::Data {
+                                    views: Box::new(views),
+                                    diagnostics: Box::new(d.clone()),
+                                    source: lc.source.clone(),
+                                },
+                                Err(e) => SignalResult::Model(e.clone()),
+                            }
                         }
                     }
                 }
-            };
+            })
+            .unwrap_or_else(SignalResult::Model);
             if results.send((c, out)).is_err() {
                 return;
             }
@@ -398,15 +408,25 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         }
         app.page = term.size().map_or(10, |s| (s.height as usize / 3).max(1));
         term.draw(|f| draw::draw(&app, f, look))?;
-        if let Ok((checks, errors)) = checks_rx.try_recv() {
-            effects.extend(app.update(Input::Checks(Box::new(checks))));
-            if !errors.is_empty() {
-                app.message = Some(format!(
-                    "{} light curves could not be read (first: {})",
-                    errors.len(),
-                    errors[0].1
-                ));
+        match checks_rx.try_recv() {
+            Ok((checks, errors)) => {
+                effects.extend(app.update(Input::Checks(Box::new(checks))));
+                if !errors.is_empty() {
+                    effects.extend(app.update(Input::Notice(format!(
+                        "{} light curves could not be read (first: {})",
+                        errors.len(),
+                        errors[0].1
+                    ))));
+                }
             }
+            Err(mpsc::TryRecvError::Disconnected) if app.checks_pending => {
+                effects.extend(app.update(Input::ChecksFailed(
+                    "the checks stopped on an internal error: flags and verdicts are not shown; \
+                     run `starsift checks` on this catalogue to see the error"
+                        .into(),
+                )));
+            }
+            Err(_) => {}
         }
         if let Ok(orders) = orders_rx.try_recv() {
             effects.extend(app.update(Input::Orders(orders)));

@@ -293,3 +293,58 @@ fn demo_eclipsing_binaries_are_caught_by_their_light_curves() {
         );
     }
 }
+
+/// Damaged or unusual FITS tables are that file's error, never a crash or a
+/// huge allocation (regression tests from hostile-input probing).
+#[test]
+fn damaged_fits_tables_are_errors_not_crashes() {
+    let d = scratch("fits-damage");
+    let (t, f, e) = samples();
+    // A folder whose name CFITSIO would read as a filter.
+    let plain = d.join("run1");
+    std::fs::create_dir_all(&plain).unwrap();
+    write_fits(&plain.join("LCA.fits"), &t, &f, &e).unwrap();
+    let odd = d.join("run[1]");
+    std::fs::rename(&plain, &odd).unwrap();
+    let p = odd.join("LCA.fits");
+    assert_eq!(LightCurve::read(&p, &LcColumns::default()).unwrap().time, t);
+
+    // A header claiming 10^10 rows: refused before any column is read.
+    let mut bytes = std::fs::read(&p).unwrap();
+    let at = bytes
+        .windows(8)
+        .position(|w| w == b"NAXIS2  ")
+        .expect("NAXIS2 card");
+    let card = format!("{:<80}", "NAXIS2  =          10000000000");
+    bytes[at..at + 80].copy_from_slice(card.as_bytes());
+    let lie = d.join("lie.fits");
+    std::fs::write(&lie, &bytes).unwrap();
+    let m = LightCurve::read(&lie, &LcColumns::default())
+        .unwrap_err()
+        .to_string();
+    assert!(m.contains("lie.fits") && m.contains("NAXIS2"), "{m}");
+    assert!(!m.contains("FitsError {"), "debug dump in {m}");
+
+    // A vector column (TFORM = '2D') is named, not indexed out of bounds.
+    use fitsio::tables::{ColumnDataType, ColumnDescription};
+    let vec_path = d.join("vector.fits");
+    let mut ff = fitsio::FitsFile::create(&vec_path).open().unwrap();
+    let desc = [
+        ColumnDescription::new("TIME")
+            .with_type(ColumnDataType::Double)
+            .that_repeats(2)
+            .create()
+            .unwrap(),
+        ColumnDescription::new("FLUX")
+            .with_type(ColumnDataType::Double)
+            .create()
+            .unwrap(),
+    ];
+    let hdu = ff.create_table("LC", &desc).unwrap();
+    hdu.write_col(&mut ff, "FLUX", &f[..20]).unwrap();
+    drop(ff);
+    let m = LightCurve::read(&vec_path, &LcColumns::default())
+        .unwrap_err()
+        .to_string();
+    assert!(m.contains("TIME") && m.contains("vector"), "{m}");
+}

@@ -83,18 +83,38 @@ pub fn running_median_trend(time: &[f64], flux: &[f64], mask: &[bool], window_d:
         return Vec::new();
     }
     let step = window_d / 5.0;
+    // A grid finer than the float spacing of the times could not advance.
+    if !(step > 0.0) || !((time[n - 1] - time[0]) / step < 1e9) {
+        return vec![1.0; n];
+    }
     let (t0, t1) = (time[0], time[n - 1]);
-    let nodes = ((t1 - t0) / step).ceil() as usize + 1;
-    let mut grid: Vec<(f64, f64)> = Vec::with_capacity(nodes);
+    // Grid nodes are visited only where there are samples: a gap (or one
+    // stray timestamp far away) is jumped over, so the work and memory are
+    // bounded by the number of samples, never by the time span.
+    let mut grid: Vec<(f64, f64)> = Vec::new();
     let (mut lo, mut hi) = (0usize, 0usize);
     let mut pts: Vec<(f64, f64)> = Vec::new();
-    for g in 0..nodes {
-        let tc = t0 + g as f64 * step;
+    let mut g = 0.0_f64;
+    while t0 + g * step <= t1 + step {
+        let tc = t0 + g * step;
+        g += 1.0;
         while lo < n && time[lo] < tc - window_d / 2.0 {
             lo += 1;
         }
         while hi < n && time[hi] <= tc + window_d / 2.0 {
             hi += 1;
+        }
+        if lo == hi {
+            // No sample in this window: go to the first node whose window
+            // reaches the next sample.
+            match time.get(hi) {
+                Some(&next) => {
+                    let jump = ((next - window_d / 2.0 - t0) / step).floor();
+                    g = g.max(jump);
+                    continue;
+                }
+                None => break,
+            }
         }
         pts.clear();
         pts.extend(

@@ -185,7 +185,11 @@ impl Cache {
         if let Some(hit) = self.curves.lock().ok().and_then(|m| m.get(&star).cloned()) {
             return hit;
         }
-        let loaded = Arc::new(finder.load(cat, star).map_err(|e| e.to_string()));
+        let what = format!("reading the light curve of star {}", cat.star_id(star));
+        let loaded = Arc::new(
+            crate::contain::contained(&what, || finder.load(cat, star).map_err(|e| e.to_string()))
+                .and_then(|r| r),
+        );
         if let Ok(mut m) = self.curves.lock() {
             m.insert(star, Arc::clone(&loaded));
         }
@@ -232,15 +236,12 @@ impl Cache {
         let curve = self.curve(finder, cat, cat.star_of(c));
         let result = match curve.as_ref() {
             Ok(lc) => {
-                let (me, others) = signals(cat, c);
-                let flux = self.detrended(cat, cat.star_of(c), lc, detrend);
-                Ok(diagnose_detrended(
-                    lc,
-                    &flux,
-                    &me,
-                    &others,
-                    &context(cat, c),
-                ))
+                let what = format!("checking {} in {}", cat.candidate_id(c), lc.source);
+                crate::contain::contained(&what, || {
+                    let (me, others) = signals(cat, c);
+                    let flux = self.detrended(cat, cat.star_of(c), lc, detrend);
+                    diagnose_detrended(lc, &flux, &me, &others, &context(cat, c))
+                })
             }
             Err(e) => Err(e.clone()),
         };

@@ -182,6 +182,10 @@ pub enum Input {
     /// a background thread at start-up: (sort, descending) and the stars.
     Orders(Vec<((SortKey, bool), Vec<StarId>)>),
     Resize,
+    /// A line for the message bar, from a background thread.
+    Notice(String),
+    /// The background checks stopped without a result: why.
+    ChecksFailed(String),
     /// A left click at a terminal cell (column, row), with `--mouse`.
     Click(u16, u16),
     /// The wheel turned over a cell: down when true.
@@ -1282,6 +1286,15 @@ impl App {
             }
             Input::Checks(checks) => {
                 self.apply_checks(*checks);
+                Vec::new()
+            }
+            Input::Notice(text) => {
+                self.message = Some(text);
+                Vec::new()
+            }
+            Input::ChecksFailed(text) => {
+                self.checks_pending = false;
+                self.message = Some(text);
                 Vec::new()
             }
             Input::Char(ch) => {
