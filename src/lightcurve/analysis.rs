@@ -84,7 +84,8 @@ pub fn running_median_trend(time: &[f64], flux: &[f64], mask: &[bool], window_d:
     }
     let step = window_d / 5.0;
     // A grid finer than the float spacing of the times could not advance.
-    if !(step > 0.0) || !((time[n - 1] - time[0]) / step < 1e9) {
+    let nodes = (time[n - 1] - time[0]) / step;
+    if step.is_nan() || step <= 0.0 || nodes.is_nan() || nodes >= 1e9 {
         return vec![1.0; n];
     }
     let (t0, t1) = (time[0], time[n - 1]);
