@@ -122,14 +122,25 @@ pub fn derive(cat: &Catalogue, c: CandidateId, s: &CheckSettings) -> Derived {
     if let (None, Some(r), Some(g)) = (mass, radius, g) {
         mass = finite(g * (r * R_SUN_M).powi(2) / G / m_sun);
     }
-    let k = (depth * 1e-6 / (1.0 - contamination.clamp(0.0, 0.999))).sqrt();
+    // The radius ratio: the catalogue's `ror` when given, else the
+    // limb-darkening-corrected ratio of the depth (the one the model transit
+    // uses; docs/science.md §2).
+    let impact = v(Field::Impact);
+    let k = v(Field::Ror).filter(|r| *r > 0.0).unwrap_or_else(|| {
+        science::ror_from_depth(
+            depth,
+            contamination,
+            impact.unwrap_or(0.0),
+            crate::transit_model::DEFAULT_LD,
+        )
+    });
     let mut d = Derived {
         star_radius_rsun: radius,
         star_mass_msun: mass,
         ..Derived::default()
     };
     if let Some(r) = radius {
-        d.radius_rearth = finite(science::radius_from_depth_rearth(depth, r, contamination));
+        d.radius_rearth = finite(science::radius_rearth(k, r));
     }
     if let Some(m) = mass {
         d.a_au = finite(science::semi_major_axis_m(period, m, 0.0) / AU_M);
@@ -151,7 +162,6 @@ pub fn derive(cat: &Catalogue, c: CandidateId, s: &CheckSettings) -> Derived {
                 .and_then(|a| finite(science::insolation_earth(r, teff, a)));
         }
     }
-    let impact = v(Field::Impact);
     d.assumed_central = impact.is_none();
     d.density_transit =
         science::a_rstar_from_duration(period, t14, k, impact.unwrap_or(0.0).min(1.0 + k))
@@ -526,15 +536,19 @@ fn candidate_flags(
         }
     }
     if let Some(ratio) = d.density_ratio {
+        // With b unknown the transit density (b = 0) is an upper bound: a
+        // transit density far above the star's can be a high-b transit, so
+        // it is a warning; one far below no b can explain (docs/science.md §2).
+        let explainable = d.assumed_central && ratio > s.density_factor;
         if ratio > s.density_factor || ratio < 1.0 / s.density_factor {
-            out.add(c, Flag::DensityMismatch, false, format!(
+            out.add(c, Flag::DensityMismatch, explainable, format!(
                 "the transit implies ρ★ = {:.0} kg/m³{}, the catalogue star {:.0} kg/m³ (ratio {:.3}, outside 1/{f}–{f})",
                 d.density_transit.unwrap_or(f64::NAN),
                 if d.assumed_central { " (b = 0 assumed)" } else { "" },
                 d.density_star.unwrap_or(f64::NAN),
                 ratio,
                 f = s.density_factor
-            ));
+            ) + if explainable { "; b is unknown and a larger b lowers the transit density, so this is a warning" } else { "" });
         }
     }
 }

@@ -69,6 +69,20 @@ pub fn radius_from_depth_rearth(depth_ppm: f64, star_radius_rsun: f64, contamina
     radius_rearth(k, star_radius_rsun)
 }
 
+/// Planet-to-star radius ratio k from an observed central depth (ppm) with
+/// quadratic limb darkening (u₁, u₂): in the small-planet limit the depth at
+/// impact b is k² I(μ)/(1 − u₁/3 − u₂/6) with I(μ) = 1 − u₁(1−μ) − u₂(1−μ)²,
+/// μ = √(1−b²) (Mandel & Agol 2002, ApJ 580, L171, §5; docs/science.md §2),
+/// so k = √[δ/(1−c) · (1 − u₁/3 − u₂/6)/I(μ)], with δ/(1−c) the undiluted
+/// depth for contamination c. b above 0.99 is read as 0.99.
+pub fn ror_from_depth(depth_ppm: f64, contamination: f64, impact: f64, ld: (f64, f64)) -> f64 {
+    let (u1, u2) = ld;
+    let c = contamination.clamp(0.0, 0.999);
+    let mu = (1.0 - impact.clamp(0.0, 0.99).powi(2)).sqrt();
+    let i_mu = 1.0 - u1 * (1.0 - mu) - u2 * (1.0 - mu).powi(2);
+    (depth_ppm * 1e-6 / (1.0 - c) * (1.0 - u1 / 3.0 - u2 / 6.0) / i_mu).sqrt()
+}
+
 /// Equilibrium temperature, K: T_eq = T_eff √(R★/a) [f_r (1 − A_B)]^{1/4},
 /// with f_r = 1/4 for full redistribution, 1/2 for the dayside only
 /// (standard radiative balance; docs/science.md §2, from memory).
@@ -272,6 +286,21 @@ mod tests {
         // docs/science.md §2 [D]: c = 0.5 turns 84.05 ppm on 1 R☉ into 1.414 R⊕.
         assert!((radius_from_depth_rearth(84.05, 1.0, 0.0) - 1.000).abs() < 1e-3);
         assert!((radius_from_depth_rearth(84.05, 1.0, 0.5) - 1.414).abs() < 1e-3);
+    }
+
+    #[test]
+    fn limb_darkened_ratio() {
+        // Uniform disc: k = √δ (Earth across the Sun, 84.05 ppm).
+        assert!((ror_from_depth(84.05, 0.0, 0.0, (0.0, 0.0)) - 84.05e-6f64.sqrt()).abs() < 1e-12);
+        // Quadratic law u = (0.4, 0.26) at b = 0: δ = k²/(1 − u₁/3 − u₂/6)
+        // (Mandel & Agol 2002 small-planet limit), so √depth overstates k
+        // by 1/√0.82333 = 1.1021; checked against the full model, which
+        // agrees with an independent reference implementation.
+        let k = ror_from_depth(1000.0, 0.0, 0.0, (0.4, 0.26));
+        assert!((1000e-6f64.sqrt() / k - 1.1021).abs() < 1e-4, "{k}");
+        let a_rstar = 15.0;
+        let centre = crate::transit_model::model_flux(0.0, k, a_rstar, 0.0, 0.4, 0.26);
+        assert!(((1.0 - centre) * 1e6 / 1000.0 - 1.0).abs() < 0.02, "{centre}");
     }
 
     #[test]

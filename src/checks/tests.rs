@@ -29,10 +29,11 @@ fn missing_inputs_stay_missing() {
 
 #[test]
 fn earth_sun_derived() {
-    // docs/science.md §2 [D]: the Earth seen transiting the Sun: 84.05 ppm → 1.000
-    // R⊕, a sidereal year → 1.0000 au, T_eq 278.33 K, S = 1, central T14
+    // docs/science.md §2 [D]: the Earth seen transiting the Sun: (R⊕/R☉)² =
+    // 84.05 ppm, observed at the centre of a limb-darkened Sun (u = 0.4,
+    // 0.26) as 84.05/(1 − 0.4/3 − 0.26/6) = 102.085 ppm → 1.000 R⊕, a sidereal year → 1.0000 au, T_eq 278.33 K, S = 1, central T14
     // 13.10 h; its transit density is the Sun's.
-    let text = format!("{HEAD}SUN,EARTH,365.256363,,100,,84.05,13.095,50,0,1,1,5772,,,\n");
+    let text = format!("{HEAD}SUN,EARTH,365.256363,,100,,102.085,13.095,50,0,1,1,5772,,,\n");
     let c = load(&text);
     let d = derive(&c, 0, &CheckSettings::default());
     assert!((d.radius_rearth.unwrap() - 1.000).abs() < 1e-3);
@@ -48,16 +49,41 @@ fn earth_sun_derived() {
 }
 
 #[test]
+fn density_mismatch_is_one_sided_when_the_impact_parameter_is_unknown() {
+    // A Sun-like star (ρ☉ = 1410 kg/m³). With b unknown the transit density
+    // is computed at b = 0, its largest value (Seager & Mallén-Ornelas 2003):
+    // a genuine planet at b = 0.9 has a short transit that reads as a dense
+    // star, which a larger b explains (a warning); a transit far too long
+    // for the star no b can explain (firm). P = 10 d, a/R★ = 20.1: central
+    // T14 = 4.46 h; at b = 0.9, 1.99 h.
+    let head = "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,star_radius_rsun,star_mass_msun\n";
+    let c = load(&format!(
+        "{head}S,S-1,10,100,1000,1.0,30,1,1\nL,L-1,10,100,1000,16,30,1,1\n"
+    ));
+    let ch = run(&c, &CheckSettings::default());
+    assert!(ch.warnings(0).contains(Flag::DensityMismatch), "{}", ch.why(0));
+    assert!(!ch.flags(0).contains(Flag::DensityMismatch), "{}", ch.why(0));
+    assert!(ch.flags(1).contains(Flag::DensityMismatch), "{}", ch.why(1));
+    // With b given, both sides are firm.
+    let c = load(
+        "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,impact,star_radius_rsun,star_mass_msun\nS,S-1,10,100,1000,1.0,30,0.1,1,1\n",
+    );
+    assert!(run(&c, &CheckSettings::default()).flags(0).contains(Flag::DensityMismatch));
+}
+
+#[test]
 fn radius_and_snr_flags() {
     let text = format!(
         "{HEAD}B1,B1-1,3,,100,,80000,2,20,0.2,1,1,5772,,,\nB2,B2-1,3,,100,,30000,2,20,0.2,1,1,5772,,,\nB3,B3-1,3,,100,,500,2,6.5,0.2,1,1,5772,,,\n"
     );
     let c = load(&text);
     let ch = run(&c, &CheckSettings::default());
-    assert!(ch.flags(0).contains(Flag::BigRadius), "{}", ch.why(0)); // √0.08 R☉ = 30.9 R⊕
-    assert!(!ch.flags(1).contains(Flag::BigRadius) && ch.warnings(1).contains(Flag::BigRadius)); // 18.9 R⊕
+    // √0.08 R☉ = 30.9 R⊕ for a uniform disc; limb darkening (u = 0.4,
+    // 0.26, b = 0.2) makes k = √(0.08 · 0.82333/0.99182) = 0.2577, 28.1 R⊕.
+    assert!(ch.flags(0).contains(Flag::BigRadius), "{}", ch.why(0));
+    assert!(!ch.flags(1).contains(Flag::BigRadius) && ch.warnings(1).contains(Flag::BigRadius)); // 17.2 R⊕
     assert!(ch.flags(2).contains(Flag::LowSnr));
-    assert!(ch.why(0).contains("R = 30.9"), "{}", ch.why(0));
+    assert!(ch.why(0).contains("R = 28.1"), "{}", ch.why(0));
 }
 
 #[test]

@@ -106,10 +106,7 @@ pub fn model_params(cat: &Catalogue, c: CandidateId) -> ModelParams {
         .unwrap_or(0.0)
         .clamp(0.0, 0.999);
     let impact = cat.value(Field::Impact, c).unwrap_or(0.0);
-    let (u1, u2) = DEFAULT_LD;
-    let mu = (1.0 - impact.min(0.99).powi(2)).sqrt();
-    let i_mu = 1.0 - u1 * (1.0 - mu) - u2 * (1.0 - mu).powi(2);
-    let from_depth = (depth / (1.0 - contamination) * (1.0 - u1 / 3.0 - u2 / 6.0) / i_mu).sqrt();
+    let from_depth = science::ror_from_depth(depth * 1e6, contamination, impact, DEFAULT_LD);
     let ror = if from_depth > 0.0 {
         from_depth
     } else {
