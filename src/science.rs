@@ -300,7 +300,10 @@ mod tests {
         assert!((1000e-6f64.sqrt() / k - 1.1021).abs() < 1e-4, "{k}");
         let a_rstar = 15.0;
         let centre = crate::transit_model::model_flux(0.0, k, a_rstar, 0.0, 0.4, 0.26);
-        assert!(((1.0 - centre) * 1e6 / 1000.0 - 1.0).abs() < 0.02, "{centre}");
+        assert!(
+            ((1.0 - centre) * 1e6 / 1000.0 - 1.0).abs() < 0.02,
+            "{centre}"
+        );
     }
 
     #[test]

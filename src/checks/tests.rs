@@ -56,19 +56,32 @@ fn density_mismatch_is_one_sided_when_the_impact_parameter_is_unknown() {
     // star, which a larger b explains (a warning); a transit far too long
     // for the star no b can explain (firm). P = 10 d, a/R★ = 20.1: central
     // T14 = 4.46 h; at b = 0.9, 1.99 h.
-    let head = "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,star_radius_rsun,star_mass_msun\n";
+    let head =
+        "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,star_radius_rsun,star_mass_msun\n";
     let c = load(&format!(
         "{head}S,S-1,10,100,1000,1.0,30,1,1\nL,L-1,10,100,1000,16,30,1,1\n"
     ));
     let ch = run(&c, &CheckSettings::default());
-    assert!(ch.warnings(0).contains(Flag::DensityMismatch), "{}", ch.why(0));
-    assert!(!ch.flags(0).contains(Flag::DensityMismatch), "{}", ch.why(0));
+    assert!(
+        ch.warnings(0).contains(Flag::DensityMismatch),
+        "{}",
+        ch.why(0)
+    );
+    assert!(
+        !ch.flags(0).contains(Flag::DensityMismatch),
+        "{}",
+        ch.why(0)
+    );
     assert!(ch.flags(1).contains(Flag::DensityMismatch), "{}", ch.why(1));
     // With b given, both sides are firm.
     let c = load(
         "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,impact,star_radius_rsun,star_mass_msun\nS,S-1,10,100,1000,1.0,30,0.1,1,1\n",
     );
-    assert!(run(&c, &CheckSettings::default()).flags(0).contains(Flag::DensityMismatch));
+    assert!(
+        run(&c, &CheckSettings::default())
+            .flags(0)
+            .contains(Flag::DensityMismatch)
+    );
 }
 
 #[test]

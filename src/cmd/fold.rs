@@ -103,7 +103,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     );
     // The CSV holds the bins only: the diagnostics are computed when shown,
     // on the flux already detrended for the fold.
-    let diag = || diagnose_detrended(&lc, &flux, &me, &others, &context(cat, c));
+    let diag = || diagnose_detrended(&lc, &flux, &me, &others, &context(cat, c), &settings);
     let model = model_params(cat, c);
     match args.format {
         Format::Csv => {
@@ -173,6 +173,20 @@ fn binned_json(b: &Binned, m: &ModelParams, centre: f64) -> Vec<Value> {
         .collect()
 }
 
+/// Whether the light curve shows the catalogue's signal, in words.
+fn recovery_text(r: &crate::lightcurve::analysis::Recovery) -> String {
+    use crate::lightcurve::analysis::Recovery;
+    match r {
+        Recovery::Shown => "shown (or the test cannot tell)".into(),
+        Recovery::NoTransitInData { first, last } => {
+            format!("no transit of the ephemeris in the light curve ({first:.4} to {last:.4})")
+        }
+        Recovery::TooShallow { catalogue_ppm, z } => {
+            format!("not shown: below half the catalogue's {catalogue_ppm:.0} ppm, Z = {z:.1}")
+        }
+    }
+}
+
 /// The diagnostics as JSON: each with value, uncertainty and significance.
 pub fn diagnostics_json(d: &Diagnostics) -> Value {
     let f = |v: f64| if v.is_finite() { json!(v) } else { Value::Null };
@@ -184,6 +198,8 @@ pub fn diagnostics_json(d: &Diagnostics) -> Value {
         "even_depth_ppm": m(d.even),
         "odd_even_z": f(d.odd_even_z),
         "secondary_depth_ppm": m(d.secondary),
+        "deepest_dip_elsewhere": d.eclipse.map(|e| json!({"phase": f(e.phase), "depth_ppm": m(e.depth), "z_needed": f(e.threshold_z)})),
+        "recovery": recovery_text(&d.recovery),
         "reflected_ceiling_ppm": d.reflected_ceiling_ppm.map(f),
         "thermal_ppm": d.thermal_ppm.map(f),
         "depth_consistency": d.consistency.map(|(c, n, p)| json!({"chi2": c, "dof": n, "p": p})),
@@ -331,6 +347,16 @@ fn write_table(
         d.thermal_ppm
             .map_or("unknown".into(), |v| format!("{v:.1} ppm"))
     )?;
+    if let Some(e) = d.eclipse {
+        writeln!(
+            out,
+            "  deepest dip elsewhere  {} at phase {:.3} (Z {:.1} needed for the phases searched)",
+            m(e.depth),
+            e.phase,
+            e.threshold_z
+        )?;
+    }
+    writeln!(out, "  catalogue signal       {}", recovery_text(&d.recovery))?;
     match d.consistency {
         Some((chi2, dof, p)) => writeln!(
             out,

@@ -585,7 +585,13 @@ fn lightcurve_csv(star: &Star) -> String {
         }
         let mut f =
             1.0 + amp * (std::f64::consts::TAU * t / prot + phase).sin() + drift * (t - T_START);
-        for s in &star.signals {
+        // A duplicate or an alias is a second detection of dips already
+        // there, not a second body: nothing more is added to the flux.
+        for s in star
+            .signals
+            .iter()
+            .filter(|s| !matches!(s.truth, Truth::Duplicate | Truth::Alias))
+        {
             let cycles = ((t - s.epoch) / s.period).round();
             let dt_h = (t - s.epoch - cycles * s.period) * 24.0;
             let depth = match s.alt_depth_ppm {

@@ -8,6 +8,12 @@ use statrs::distribution::{ChiSquared, ContinuousCDF};
 use super::{LightCurve, median_of};
 use crate::flags::Flag;
 
+mod scan;
+pub use scan::{
+    Eclipse, Recovery, deepest_eclipse, null_scatter_factor, phase_boxes, phase_scatter_factor,
+    recovery, trials_threshold,
+};
+
 /// Period, epoch and total duration of one signal.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Ephemeris {
@@ -430,6 +436,10 @@ pub struct Context {
     /// a/R★, if known.
     pub a_rstar: Option<f64>,
     pub teff_k: Option<f64>,
+    /// The catalogue's depth (ppm) and SNR, which the light curve should
+    /// reproduce.
+    pub catalogue_depth_ppm: Option<f64>,
+    pub catalogue_snr: Option<f64>,
 }
 
 /// The light-curve diagnostics of one candidate.
@@ -443,6 +453,10 @@ pub struct Diagnostics {
     pub odd_even_z: f64,
     /// Depth at phase 0.5 with the transit's duration, ppm.
     pub secondary: Measure,
+    /// The deepest dip anywhere else in the orbit, outside the transit.
+    pub eclipse: Option<Eclipse>,
+    /// Whether the catalogue's transit is in the light curve.
+    pub recovery: Recovery,
     pub reflected_ceiling_ppm: Option<f64>,
     pub thermal_ppm: Option<f64>,
     /// (χ², degrees of freedom, p) of the per-transit depths.
@@ -478,7 +492,7 @@ pub fn diagnose(
     let mut all = vec![*me];
     all.extend_from_slice(others);
     let flux = detrend(lc, &all, detrend_settings);
-    diagnose_detrended(lc, &flux, me, others, ctx)
+    diagnose_detrended(lc, &flux, me, others, ctx, detrend_settings)
 }
 
 /// `diagnose` on a flux already detrended with every signal of the star
@@ -489,10 +503,22 @@ pub fn diagnose_detrended(
     me: &Ephemeris,
     others: &[Ephemeris],
     ctx: &Context,
+    settings: &DetrendSettings,
 ) -> Diagnostics {
-    let masked_others = in_transit(&lc.time, others, 1.2);
     let half = me.half_d();
     let dt: Vec<f64> = lc.time.iter().map(|&t| me.offset_d(t)).collect();
+    // The star's other signals are masked, except those that share the
+    // transits of this one (a copy, or a harmonic of it): masking them
+    // would hide this signal itself.
+    let core_samples: Vec<usize> = (0..dt.len())
+        .filter(|&i| dt[i].abs() < half / 2.0)
+        .collect();
+    let apart: Vec<Ephemeris> = others
+        .iter()
+        .filter(|o| !shares_transits(me, o))
+        .copied()
+        .collect();
+    let masked_others = in_transit(&lc.time, &apart, 1.2);
     // Baseline and per-sample scatter from the out-of-transit, detrended
     // flux; the scatter from neighbour differences, which a running-median
     // trend cannot absorb (a scatter about the trend would be too small).
@@ -503,6 +529,38 @@ pub fn diagnose_detrended(
     let scatter = super::point_to_point_sigma(&out_of_transit);
     let beta = red_noise_beta(&out_of_transit, scatter, cadence_d(&lc.time), 2.0 * half);
     let baseline = median_of(&mut out_of_transit);
+    // Per-transit depths against each transit's own neighbourhood
+    // (1.2–3 half-durations from mid-transit), so that what the trend left
+    // locally cancels; transits with at least three samples in each.
+    let mut per: std::collections::BTreeMap<i64, [(f64, usize); 2]> = Default::default();
+    for i in 0..flux.len() {
+        let a = dt[i].abs();
+        if masked_others[i] || a >= 3.0 * half || (a >= half / 2.0 && a <= 1.2 * half) {
+            continue;
+        }
+        let e = per.entry(me.cycle(lc.time[i])).or_insert([(0.0, 0); 2]);
+        let k = usize::from(a > half);
+        e[k].0 += flux[i];
+        e[k].1 += 1;
+    }
+    let (depths, odd_cycle): (Vec<Measure>, Vec<bool>) = per
+        .iter()
+        .filter(|(_, [inner, outer])| inner.1 >= 3 && outer.1 >= 3)
+        .map(|(cycle, [(si, ni), (so, no)])| {
+            let m = Measure {
+                value: (so / *no as f64 - si / *ni as f64) * 1e6,
+                err: scatter * (1.0 / *ni as f64 + 1.0 / *no as f64).sqrt() * 1e6,
+            };
+            (m, cycle.rem_euclid(2) == 1)
+        })
+        .unzip();
+    // Noise as it is: every box error is the white error times the larger
+    // of β and the excess scatter of the per-transit depths.
+    let boxes = phase_boxes(&lc.time, flux, &masked_others, me, baseline, scatter);
+    let noise_factor = beta
+        .max(transit_scatter_factor(&depths, &odd_cycle))
+        .max(phase_scatter_factor(&boxes))
+        .max(null_scatter_factor(lc, me, &apart, settings, scatter));
     // A box depth from the samples `pick` selects, against the baseline.
     let box_depth = |pick: &dyn Fn(usize) -> bool| -> Measure {
         let (mut s, mut n) = (0.0, 0usize);
@@ -520,11 +578,21 @@ pub fn diagnose_detrended(
         }
         Measure {
             value: (baseline - s / n as f64) * 1e6,
-            err: beta * scatter / (n as f64).sqrt() * 1e6,
+            err: noise_factor * scatter / (n as f64).sqrt() * 1e6,
         }
     };
     let core = |i: usize| dt[i].abs() < half / 2.0;
     let depth = box_depth(&core);
+    let in_transit_samples = core_samples.iter().filter(|&&i| !masked_others[i]).count();
+    let recovered = recovery(
+        depth,
+        in_transit_samples,
+        (lc.time[0], lc.time[lc.time.len() - 1]),
+        ctx.catalogue_depth_ppm,
+        ctx.catalogue_snr,
+        FLAG_Z,
+    );
+    let eclipse = deepest_eclipse(&boxes, noise_factor);
     let odd = box_depth(&|i| core(i) && me.cycle(lc.time[i]).rem_euclid(2) == 1);
     let even = box_depth(&|i| core(i) && me.cycle(lc.time[i]).rem_euclid(2) == 0);
     let sec_eph = Ephemeris {
@@ -532,28 +600,6 @@ pub fn diagnose_detrended(
         ..*me
     };
     let secondary = box_depth(&|i| sec_eph.offset_d(lc.time[i]).abs() < half / 2.0);
-    // Per-transit depths against each transit's own neighbourhood
-    // (1.2–3 half-durations from mid-transit), so that what the trend left
-    // locally cancels; transits with at least three samples in each.
-    let mut per: std::collections::BTreeMap<i64, [(f64, usize); 2]> = Default::default();
-    for i in 0..flux.len() {
-        let a = dt[i].abs();
-        if masked_others[i] || a >= 3.0 * half || (a >= half / 2.0 && a <= 1.2 * half) {
-            continue;
-        }
-        let e = per.entry(me.cycle(lc.time[i])).or_insert([(0.0, 0); 2]);
-        let k = usize::from(a > half);
-        e[k].0 += flux[i];
-        e[k].1 += 1;
-    }
-    let depths: Vec<Measure> = per
-        .values()
-        .filter(|[inner, outer]| inner.1 >= 3 && outer.1 >= 3)
-        .map(|[(si, ni), (so, no)]| Measure {
-            value: (so / *no as f64 - si / *ni as f64) * 1e6,
-            err: scatter * (1.0 / *ni as f64 + 1.0 / *no as f64).sqrt() * 1e6,
-        })
-        .collect();
     let consistency = depth_consistency(&depths);
     let (flat_fraction, v_shape_dchi2) =
         shape_fit(&lc.time, flux, &masked_others, me, scatter, baseline);
@@ -569,6 +615,8 @@ pub fn diagnose_detrended(
         even,
         odd_even_z: odd_even_z(odd, even),
         secondary,
+        eclipse,
+        recovery: recovered,
         reflected_ceiling_ppm: reflected,
         thermal_ppm: thermal,
         consistency,
@@ -580,6 +628,61 @@ pub fn diagnose_detrended(
     };
     d.findings = findings(&d);
     d
+}
+
+/// True when `other` transits at the same times as `me` or at a subset or
+/// superset of them: its period is n or 1/n times this one's (n ≤ 5, within
+/// 0.2 %, common practice, no source) and one of its transits falls within
+/// a half-duration of one of this one's. A copy or alias of a signal, not a
+/// second body; chance overlaps of unrelated orbits do not qualify.
+pub fn shares_transits(me: &Ephemeris, other: &Ephemeris) -> bool {
+    let (a, b) = (me.period_d, other.period_d);
+    if !(a > 0.0 && b > 0.0) {
+        return false;
+    }
+    let ratio = if a > b { a / b } else { b / a };
+    let n = ratio.round();
+    if !(1.0..=5.0).contains(&n) || (ratio / n - 1.0).abs() > 2e-3 {
+        return false;
+    }
+    // Every transit of the longer period is one of the shorter's.
+    let (short, long) = if a <= b { (me, other) } else { (other, me) };
+    short.offset_d(long.epoch).abs() < me.half_d().max(other.half_d())
+}
+
+/// How much more the per-transit depths scatter than their white errors
+/// allow: √(χ²/(n − 2)) about the mean of the odd and the mean of the even
+/// transits separately (so that a binary's alternating depths do not count
+/// as noise), at least 1; 1 with fewer than four transits. This catches
+/// noise at the transit's own time scale that β, measured out of transit,
+/// misses: a trend interpolated across a long masked transit, spots
+/// (docs/science.md §4.1).
+pub fn transit_scatter_factor(depths: &[Measure], odd: &[bool]) -> f64 {
+    let n = depths.len();
+    if n < 4 {
+        return 1.0;
+    }
+    let mut chi2 = 0.0;
+    for parity in [false, true] {
+        let (mut sw, mut swx) = (0.0, 0.0);
+        for (d, _) in depths.iter().zip(odd).filter(|(_, o)| **o == parity) {
+            let w = 1.0 / (d.err * d.err);
+            sw += w;
+            swx += w * d.value;
+        }
+        if sw == 0.0 {
+            continue;
+        }
+        let mean = swx / sw;
+        chi2 += depths
+            .iter()
+            .zip(odd)
+            .filter(|(_, o)| **o == parity)
+            .map(|(d, _)| ((d.value - mean) / d.err).powi(2))
+            .sum::<f64>();
+    }
+    let f = (chi2 / (n - 2) as f64).sqrt();
+    if f.is_finite() { f.max(1.0) } else { 1.0 }
 }
 
 /// The time-averaging factor β of correlated noise (Pont, Zucker & Queloz
@@ -659,6 +762,37 @@ fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
             d.reflected_ceiling_ppm.map_or("unknown".into(), |v| format!("{v:.0}")),
             d.thermal_ppm.map_or("unknown".into(), |v| format!("{v:.0}")),
         )));
+    }
+    // The same test anywhere else in the orbit, at the Z the number of
+    // phases searched demands (docs/science.md §4.3): an eccentric binary.
+    if let Some(e) = d.eclipse {
+        if !out.iter().any(|(f, _)| *f == Flag::Secondary)
+            && e.depth.z() >= e.threshold_z
+            && e.depth.value > 2.0 * ceiling
+        {
+            out.push((Flag::Secondary, format!(
+                "eclipse at phase {:.3}: {:.0} ± {:.0} ppm (Z = {:.1} ≥ {:.1}, the threshold for the phases searched), above twice the planetary ceiling {:.0} ppm",
+                e.phase, e.depth.value, e.depth.err, e.depth.z(), e.threshold_z, ceiling,
+            )));
+        }
+    }
+    match &d.recovery {
+        Recovery::Shown => {}
+        Recovery::NoTransitInData { first, last } => out.push((
+            Flag::NotRecovered,
+            format!(
+                "no transit of the ephemeris falls in the light curve (times {first:.4} to {last:.4}); \
+                 check that the catalogue epochs and the light-curve times count from the same zero"
+            ),
+        )),
+        Recovery::TooShallow { catalogue_ppm, z } => out.push((
+            Flag::NotRecovered,
+            format!(
+                "the light curve shows {:.0} ± {:.0} ppm at the ephemeris, the catalogue {catalogue_ppm:.0} ppm: \
+                 below half and Z = {z:.1} ≥ {FLAG_Z} from it",
+                d.depth.value, d.depth.err
+            ),
+        )),
     }
     if d.v_shape_dchi2 >= 9.0 && d.flat_fraction <= 0.15 {
         out.push((Flag::VShape, format!(

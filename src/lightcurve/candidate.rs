@@ -159,6 +159,8 @@ pub fn context(cat: &Catalogue, c: CandidateId) -> Context {
         ror: m.ror,
         a_rstar: m.a_rstar,
         teff_k: m.teff_k,
+        catalogue_depth_ppm: cat.value(Field::DepthPpm, c),
+        catalogue_snr: cat.value(Field::Snr, c),
     }
 }
 
@@ -237,7 +239,7 @@ impl Cache {
                 crate::contain::contained(&what, || {
                     let (me, others) = signals(cat, c);
                     let flux = self.detrended(cat, cat.star_of(c), lc, detrend);
-                    diagnose_detrended(lc, &flux, &me, &others, &context(cat, c))
+                    diagnose_detrended(lc, &flux, &me, &others, &context(cat, c), detrend)
                 })
             }
             Err(e) => Err(e.clone()),

@@ -1,0 +1,280 @@
+//! Two searches over the whole orbit of a candidate: the deepest eclipse at
+//! any phase outside the transit (an eccentric binary's secondary is not at
+//! phase 0.5), and whether the catalogue's transit is in the light curve at
+//! all (docs/science.md §4.3, §4.4).
+
+use statrs::distribution::{ContinuousCDF, Normal};
+
+use super::{Ephemeris, Measure};
+
+/// The most significant dip at the candidate's period away from its
+/// transit: where (phase in cycles, 0 = mid-transit), how deep, and the Z it
+/// must reach to count after the number of phases searched.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Eclipse {
+    pub phase: f64,
+    pub depth: Measure,
+    /// Z needed: the one-sided 3σ false-alarm probability shared over the
+    /// independent phases searched (Bonferroni).
+    pub threshold_z: f64,
+}
+
+/// The one-sided tail probability of a 3σ excess (Φ(−3) = 0.0013499,
+/// standard normal tables).
+const P_3SIGMA: f64 = 0.001_349_9;
+
+/// Z a maximum over `trials` independent phases must reach to be as
+/// unlikely as one 3σ excess: Φ⁻¹(1 − P₃/trials).
+pub fn trials_threshold(trials: f64) -> f64 {
+    let n = Normal::standard();
+    n.inverse_cdf(1.0 - P_3SIGMA / trials.max(1.0))
+}
+
+/// The dips of the whole orbit at the candidate's period: the samples are
+/// binned by orbital offset in steps of a quarter of the transit duration,
+/// and a box of half the duration (two steps, as the transit's own depth
+/// box) is slid a step at a time; boxes closer than 1.7 half-durations to
+/// mid-transit (the transit and its wings) are passed over. Each box: its
+/// phase (cycles) and depth = baseline − box mean with the white error
+/// `sigma`/√n. Empty when the period is too short or too long to scan.
+pub fn phase_boxes(
+    time: &[f64],
+    flux: &[f64],
+    skip: &[bool],
+    me: &Ephemeris,
+    baseline: f64,
+    sigma: f64,
+) -> Vec<(f64, Measure)> {
+    let (p, half) = (me.period_d, me.duration_h / 48.0);
+    if !(p > 0.0 && half > 0.0 && sigma > 0.0) {
+        return Vec::new();
+    }
+    let step = half / 2.0;
+    let bins = (p / step).ceil();
+    if !(8.0..=4.0e6).contains(&bins) {
+        return Vec::new();
+    }
+    let bins = bins as usize;
+    let (mut sum, mut count) = (vec![0.0; bins], vec![0u32; bins]);
+    for i in 0..time.len() {
+        if skip[i] {
+            continue;
+        }
+        let x = me.offset_d(time[i]).rem_euclid(p);
+        let b = ((x / step) as usize).min(bins - 1);
+        sum[b] += flux[i];
+        count[b] += 1;
+    }
+    (0..bins)
+        .filter_map(|b| {
+            let c = (b + 1) % bins;
+            let centre = (b + 1) as f64 * step;
+            let n = count[b] + count[c];
+            (centre.min(p - centre) >= 1.7 * half && n >= 3).then(|| {
+                (
+                    centre / p,
+                    Measure {
+                        value: (baseline - (sum[b] + sum[c]) / n as f64) * 1e6,
+                        err: sigma / (n as f64).sqrt() * 1e6,
+                    },
+                )
+            })
+        })
+        .collect()
+}
+
+/// How much more the boxes of [`phase_boxes`] scatter than their white
+/// errors say: 1.4826 × the median absolute deviation of their pulls,
+/// at least 1 (a robust σ, untouched by a real eclipse at a few phases). An
+/// empirical error for a box of the transit's width at this period, with
+/// every kind of noise in it: red noise, trend residuals, spots
+/// (docs/science.md §4.1). 1 with fewer than 16 boxes.
+pub fn phase_scatter_factor(boxes: &[(f64, Measure)]) -> f64 {
+    if boxes.len() < 16 {
+        return 1.0;
+    }
+    let mut pulls: Vec<f64> = boxes.iter().map(|(_, m)| m.value / m.err).collect();
+    let centre = crate::lightcurve::median_of(&mut pulls);
+    let mut dev: Vec<f64> = pulls.iter().map(|z| (z - centre).abs()).collect();
+    let f = 1.4826 * crate::lightcurve::median_of(&mut dev);
+    if f.is_finite() { f.max(1.0) } else { 1.0 }
+}
+
+/// The noise of a transit depth measured exactly as the transit's is, from
+/// "null transits": up to six windows per orbit where the star shows no
+/// known signal (at phases 1/8, 1/4, 3/8, 5/8, 3/4, 7/8, as many as leave
+/// most of the light curve unmasked) are masked while the trend is fitted,
+/// as a transit is; then each one's depth (1 − the mean detrended flux in
+/// its central half, per orbit) is divided by its white error
+/// `sigma`/√n. Returns 1.4826 × the MAD of these pulls, at least 1 (1 with
+/// fewer than 24 of them). Red noise on the transit's time scale and the
+/// trend's error across a masked window are both in it
+/// (docs/science.md §4.1).
+pub fn null_scatter_factor(
+    lc: &crate::lightcurve::LightCurve,
+    me: &Ephemeris,
+    others: &[Ephemeris],
+    settings: &super::DetrendSettings,
+    sigma: f64,
+) -> f64 {
+    let half = me.duration_h / 48.0;
+    if !(half > 0.0 && me.period_d > 0.0 && sigma > 0.0) {
+        return 1.0;
+    }
+    // Each masked window is 2.4 half-durations wide; the transit and phase
+    // 0.5 are masked already. Keep the masked share of an orbit under 40 %.
+    let fits = ((0.4 * me.period_d / (2.4 * half)) as usize).saturating_sub(2);
+    let phases: Vec<f64> = [0.25, 0.75, 0.125, 0.875, 0.375, 0.625]
+        .into_iter()
+        .take(fits.min(6))
+        .collect();
+    if phases.len() < 2 {
+        return 1.0;
+    }
+    let nulls: Vec<Ephemeris> = phases
+        .iter()
+        .map(|ph| Ephemeris {
+            epoch: me.epoch + ph * me.period_d,
+            ..*me
+        })
+        .collect();
+    let mut masked_for_trend = vec![*me];
+    masked_for_trend.extend_from_slice(others);
+    masked_for_trend.extend_from_slice(&nulls);
+    let flux = super::detrend(lc, &masked_for_trend, settings);
+    let busy = super::in_transit(&lc.time, others, 1.2);
+    let mut per: std::collections::HashMap<(usize, i64), (f64, u32)> = Default::default();
+    for (i, &t) in lc.time.iter().enumerate() {
+        if busy[i] {
+            continue;
+        }
+        for (k, e) in nulls.iter().enumerate() {
+            if e.offset_d(t).abs() < half / 2.0 {
+                let slot = per.entry((k, e.cycle(t))).or_insert((0.0, 0));
+                slot.0 += 1.0 - flux[i];
+                slot.1 += 1;
+            }
+        }
+    }
+    let mut pulls: Vec<f64> = per
+        .values()
+        .filter(|(_, n)| *n >= 2)
+        .map(|(s, n)| (s / *n as f64) / (sigma / (*n as f64).sqrt()))
+        .collect();
+    if pulls.len() < 24 {
+        return 1.0;
+    }
+    let centre = crate::lightcurve::median_of(&mut pulls);
+    let mut dev: Vec<f64> = pulls.iter().map(|z| (z - centre).abs()).collect();
+    let f = 1.4826 * crate::lightcurve::median_of(&mut dev);
+    if f.is_finite() { f.max(1.0) } else { 1.0 }
+}
+
+/// The deepest of the [`phase_boxes`], its error multiplied by `factor`
+/// (the noise factor of every box depth), with the Z it must reach.
+pub fn deepest_eclipse(boxes: &[(f64, Measure)], factor: f64) -> Option<Eclipse> {
+    let (phase, white) = boxes
+        .iter()
+        .copied()
+        .max_by(|a, b| a.1.z().total_cmp(&b.1.z()))?;
+    // Boxes overlap by half, so about half of them are independent.
+    Some(Eclipse {
+        phase,
+        depth: Measure {
+            value: white.value,
+            err: white.err * factor,
+        },
+        threshold_z: trials_threshold(boxes.len() as f64 / 2.0),
+    })
+}
+
+/// Whether the light curve shows the catalogue's signal.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Recovery {
+    /// The measured depth agrees with the catalogue's, or the test cannot
+    /// tell.
+    Shown,
+    /// No sample of the light curve falls within a transit of the
+    /// ephemeris (first and last time of the light curve).
+    NoTransitInData { first: f64, last: f64 },
+    /// The measured depth is below half the catalogue's and inconsistent
+    /// with it: Z = (δ_cat − δ)/√(σ² + σ_cat²).
+    TooShallow { catalogue_ppm: f64, z: f64 },
+}
+
+/// Compares the measured central depth with the catalogue's, whose error is
+/// δ_cat/SNR when the catalogue gives an SNR (else the measurement's error
+/// alone). Not recovered when Z ≥ `z_min` and the measured depth is below
+/// half the catalogue's (a physical size as well as a significance: common
+/// practice, no source). `in_transit` is the number of unmasked samples in
+/// the central half of the transits.
+pub fn recovery(
+    measured: Measure,
+    in_transit: usize,
+    span: (f64, f64),
+    catalogue_ppm: Option<f64>,
+    catalogue_snr: Option<f64>,
+    z_min: f64,
+) -> Recovery {
+    if in_transit == 0 {
+        return Recovery::NoTransitInData {
+            first: span.0,
+            last: span.1,
+        };
+    }
+    let Some(cat) = catalogue_ppm.filter(|d| *d > 0.0) else {
+        return Recovery::Shown;
+    };
+    if !(measured.value.is_finite() && measured.err > 0.0) {
+        return Recovery::Shown;
+    }
+    let cat_err = catalogue_snr.filter(|s| *s > 0.0).map_or(0.0, |s| cat / s);
+    let z = (cat - measured.value) / (measured.err.powi(2) + cat_err.powi(2)).sqrt();
+    if z >= z_min && measured.value < 0.5 * cat {
+        Recovery::TooShallow {
+            catalogue_ppm: cat,
+            z,
+        }
+    } else {
+        Recovery::Shown
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn trials_threshold_is_three_sigma_for_one_trial() {
+        // Φ⁻¹(1 − 0.0013499) = 3.000 (standard normal tables).
+        assert!((trials_threshold(1.0) - 3.0).abs() < 1e-3);
+        // 100 trials: Φ⁻¹(1 − 1.3499e-5) = 4.1974 (Python's
+        // statistics.NormalDist().inv_cdf, computed offline).
+        let z = trials_threshold(100.0);
+        assert!((z - 4.1974).abs() < 1e-3, "{z}");
+    }
+
+    #[test]
+    fn recovery_needs_both_a_significance_and_a_size() {
+        let m = |v, e| Measure { value: v, err: e };
+        // 13 ± 9 ppm against 54.5 ppm at SNR 11: Z = 41.5/√(81 + 24.5) = 4.04.
+        match recovery(m(13.0, 9.0), 100, (0.0, 1.0), Some(54.5), Some(11.0), 3.0) {
+            Recovery::TooShallow { z, .. } => assert!((z - 4.04).abs() < 0.01, "{z}"),
+            other => panic!("{other:?}"),
+        }
+        // 40 ± 2 ppm against 54.5: significant but not below half.
+        assert_eq!(
+            recovery(m(40.0, 2.0), 100, (0.0, 1.0), Some(54.5), Some(11.0), 3.0),
+            Recovery::Shown
+        );
+        // Below half but within the noise.
+        assert_eq!(
+            recovery(m(20.0, 30.0), 100, (0.0, 1.0), Some(54.5), None, 3.0),
+            Recovery::Shown
+        );
+        assert!(matches!(
+            recovery(m(f64::NAN, f64::NAN), 0, (1.0, 2.0), Some(54.5), None, 3.0),
+            Recovery::NoTransitInData { .. }
+        ));
+    }
+}
