@@ -328,40 +328,66 @@ pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
     checks
 }
 
+/// What a pass over the light curves found besides the flags.
+#[derive(Clone, Debug, Default)]
+pub struct LightcurveRun {
+    /// Stars with a light curve.
+    pub stars: usize,
+    /// (star id, error) for each light curve that could not be read.
+    pub errors: Vec<(String, String)>,
+    /// One plain notice when most candidates are not recovered and the
+    /// epochs sit a common zero away from the light-curve times.
+    pub notice: Option<String>,
+}
+
 /// Runs the light-curve diagnostics of every candidate whose star has a
 /// light curve and adds their flags. Stars without one are passed over; a
-/// star whose light curve cannot be read is reported and skipped: (star id,
-/// error) for each.
+/// star whose light curve cannot be read is reported and skipped.
 pub fn run_lightcurves(
     cat: &Catalogue,
     finder: &crate::lightcurve::Finder,
     detrend: &crate::lightcurve::analysis::DetrendSettings,
     checks: &mut Checks,
-) -> Vec<(String, String)> {
-    run_lightcurves_counted(cat, finder, detrend, checks, |_, _| {}).1
+) -> LightcurveRun {
+    run_lightcurves_counted(cat, finder, detrend, checks, |_, _| {})
 }
 
 /// [`run_lightcurves`], star by star (each star's curve is dropped when
 /// done), calling `progress(done, total)` over the stars that have a light
-/// curve; returns how many stars were read and the errors.
+/// curve.
 pub fn run_lightcurves_counted(
     cat: &Catalogue,
     finder: &crate::lightcurve::Finder,
     detrend: &crate::lightcurve::analysis::DetrendSettings,
     checks: &mut Checks,
     mut progress: impl FnMut(usize, usize),
-) -> (usize, Vec<(String, String)>) {
+) -> LightcurveRun {
+    use crate::lightcurve::analysis::Recovery;
+    use crate::lightcurve::timezero::{EpochAndSpan, offset_notice};
     let cache = crate::lightcurve::Cache::default();
     let mut errors = Vec::new();
+    let mut spans = Vec::new();
     let stars: Vec<u32> = (0..cat.star_count() as u32)
         .filter(|&s| finder.has(cat, s))
         .collect();
     let total = stars.len();
     let mut last = std::time::Instant::now();
     for (done, &star) in stars.iter().enumerate() {
+        let span = match cache.curve(finder, cat, star).as_ref() {
+            Ok(lc) => (lc.time[0], lc.time[lc.time.len() - 1]),
+            Err(_) => (f64::NAN, f64::NAN),
+        };
         for &c in cat.members(star) {
             match cache.diagnostics(finder, cat, c, detrend).as_ref() {
-                Ok(d) => checks.add_lightcurve(c, &d.findings),
+                Ok(d) => {
+                    checks.add_lightcurve(c, &d.findings);
+                    spans.push(EpochAndSpan {
+                        epoch: cat.value(Field::Epoch, c).unwrap_or(f64::NAN),
+                        first: span.0,
+                        last: span.1,
+                        not_recovered: d.recovery != Recovery::Shown,
+                    });
+                }
                 Err(e) => {
                     errors.push((cat.star_id(star).to_string(), e.clone()));
                     break;
@@ -374,7 +400,11 @@ pub fn run_lightcurves_counted(
             last = std::time::Instant::now();
         }
     }
-    (total, errors)
+    LightcurveRun {
+        stars: total,
+        errors,
+        notice: offset_notice(&spans),
+    }
 }
 
 /// Signal groups from the links between candidates, and their flags: each

@@ -349,6 +349,12 @@ pub struct LightcurveArgs {
     /// FITS extension to read: a number (1 = first extension) or a name.
     #[arg(long, value_name = "HDU")]
     pub hdu: Option<String>,
+    /// Days added to every light-curve time, so that it counts from the
+    /// catalogue epochs' zero (e.g. 2457000 when epochs are BJD and light
+    /// curves BJD − 2457000) [default: survey.toml's
+    /// lightcurve_time_offset, else 0].
+    #[arg(long, value_name = "DAYS", allow_negative_numbers = true)]
+    pub lc_time_offset: Option<f64>,
     /// Do not remove slow variability before measuring.
     #[arg(long)]
     pub no_detrend: bool,
@@ -378,6 +384,10 @@ impl LightcurveArgs {
                 hdu: self.hdu.clone(),
             },
             demo: loaded.demo,
+            time_offset: self
+                .lc_time_offset
+                .or(loaded.survey.lightcurve_time_offset)
+                .unwrap_or(0.0),
         }
     }
 

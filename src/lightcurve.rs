@@ -7,6 +7,7 @@
 pub mod analysis;
 mod candidate;
 mod fits;
+pub mod timezero;
 
 pub use candidate::{Cache, Finder, ModelParams, context, model_params, signals, star_signals};
 

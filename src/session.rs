@@ -41,6 +41,9 @@ pub struct Session {
     /// Stars whose light curve was read, and those that failed (id, error).
     pub lightcurve_stars: usize,
     pub lightcurve_errors: Vec<(String, String)>,
+    /// A plain notice about the light curves as a whole (epochs and
+    /// light-curve times counted from different zeros).
+    pub lightcurve_notice: Option<String>,
 }
 
 impl Session {
@@ -74,10 +77,11 @@ impl Session {
         let cat = &loaded.catalogue;
         let mut checks = crate::checks::run(cat, &settings);
         let (mut lightcurve_stars, mut lightcurve_errors) = (0, Vec::new());
+        let mut lightcurve_notice = None;
         if lc.wanted() {
             let finder = lc.finder(&loaded);
             let progress = std::io::stderr().is_terminal();
-            let (stars, errors) = crate::checks::run_lightcurves_counted(
+            let run = crate::checks::run_lightcurves_counted(
                 cat,
                 &finder,
                 &lc.detrend(),
@@ -91,8 +95,9 @@ impl Session {
                     }
                 },
             );
-            lightcurve_stars = stars;
-            lightcurve_errors = errors;
+            lightcurve_stars = run.stars;
+            lightcurve_errors = run.errors;
+            lightcurve_notice = run.notice;
         }
         let opened = match ledger {
             LedgerUse::Read => ledger_args.open_existing(input, &loaded)?,
@@ -134,6 +139,7 @@ impl Session {
             history,
             lightcurve_stars,
             lightcurve_errors,
+            lightcurve_notice,
         })
     }
 
@@ -146,6 +152,9 @@ impl Session {
     pub fn warn(&self) {
         for (star, e) in &self.lightcurve_errors {
             eprintln!("starsift: warning: star {}: {}", clean(star), clean(e));
+        }
+        if let Some(n) = &self.lightcurve_notice {
+            eprintln!("starsift: warning: {}", clean(n));
         }
         if let Ok(live) = &self.live {
             for w in live.input_warnings.iter().chain(&live.table().warnings) {

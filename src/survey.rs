@@ -23,6 +23,10 @@ pub struct SurveyFacts {
     pub cadence_min: Option<f64>,
     /// The time system of epochs and light-curve times, for people.
     pub time_system: Option<String>,
+    /// Days added to every light-curve time so that it counts from the same
+    /// zero as the catalogue's epochs (e.g. 2457000 when the epochs are BJD
+    /// and the light curves BJD − 2457000). `--lc-time-offset` wins.
+    pub lightcurve_time_offset: Option<f64>,
 }
 
 #[derive(Debug, thiserror::Error)]

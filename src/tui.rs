@@ -362,12 +362,12 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         let finder = finder.clone();
         std::thread::spawn(move || {
             let mut checks = crate::checks::run(&cat, &settings);
-            let errors = if lc.wanted() {
+            let run = if lc.wanted() {
                 crate::checks::run_lightcurves(&cat, &finder, &lc.detrend(), &mut checks)
             } else {
-                Vec::new()
+                Default::default()
             };
-            let _ = checks_tx.send((checks, errors));
+            let _ = checks_tx.send((checks, run));
         });
     }
     // The orders no decision moves (by star id, by shortest period), sorted
@@ -409,13 +409,14 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         app.page = term.size().map_or(10, |s| (s.height as usize / 3).max(1));
         term.draw(|f| draw::draw(&app, f, look))?;
         match checks_rx.try_recv() {
-            Ok((checks, errors)) => {
+            Ok((checks, run)) => {
                 effects.extend(app.update(Input::Checks(Box::new(checks))));
-                if !errors.is_empty() {
+                if let Some(n) = run.notice {
+                    effects.extend(app.update(Input::Notice(n)));
+                } else if let Some((_, first)) = run.errors.first() {
                     effects.extend(app.update(Input::Notice(format!(
-                        "{} light curves could not be read (first: {})",
-                        errors.len(),
-                        errors[0].1
+                        "{} light curves could not be read (first: {first})",
+                        run.errors.len(),
                     ))));
                 }
             }

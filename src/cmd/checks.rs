@@ -95,6 +95,9 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         for (star, e) in lc_errors {
             eprintln!("starsift: warning: star {}: {}", clean(star), clean(e));
         }
+        if let Some(n) = &session.lightcurve_notice {
+            eprintln!("starsift: warning: {}", clean(n));
+        }
         if let Err(e) = &session.live {
             eprintln!("starsift: note: no verdicts: {e}");
         }
@@ -183,6 +186,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     "flag_counts": flag_counts(ch, cat.len()),
                     "lightcurve_stars": session.lightcurve_stars,
                 "lightcurve_errors": lc_errors.iter().map(|(s, e)| json!({"star": clean(s), "error": clean(e)})).collect::<Vec<_>>(),
+                "lightcurve_notice": session.lightcurve_notice,
                     "candidates": list,
                 }),
             )?;
@@ -253,8 +257,9 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             } else {
                 writeln!(
                     out,
-                    "light curves read for {} stars",
-                    session.lightcurve_stars
+                    "light curves found for {} stars, {} not readable",
+                    session.lightcurve_stars,
+                    lc_errors.len()
                 )?;
             }
             if let Some(line) = live.and_then(|l| l.held_line()) {

@@ -356,7 +356,11 @@ fn write_table(
             e.threshold_z
         )?;
     }
-    writeln!(out, "  catalogue signal       {}", recovery_text(&d.recovery))?;
+    writeln!(
+        out,
+        "  catalogue signal       {}",
+        recovery_text(&d.recovery)
+    )?;
     match d.consistency {
         Some((chi2, dof, p)) => writeln!(
             out,

@@ -167,6 +167,7 @@ fn to_json(cat: &Catalogue, live: &Live, session: &Session, shown: &Shown) -> Va
         "held_back": live.held_summary().into_iter().map(|(what, n)| json!({"cause": what, "candidates": n})).collect::<Vec<_>>(),
         "ledger": session.ledger_path.as_deref().map(clean),
         "lightcurve_stars": session.lightcurve_stars,
+        "lightcurve_notice": session.lightcurve_notice,
         "filter": shown.filter.map(|t| clean(t).into_owned()),
         "candidates": candidates,
     })

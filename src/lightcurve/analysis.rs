@@ -765,7 +765,11 @@ fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
     }
     // The same test anywhere else in the orbit, at the Z the number of
     // phases searched demands (docs/science.md §4.3): an eccentric binary.
-    if let Some(e) = d.eclipse {
+    // When the transit itself is missing, the deepest dip elsewhere is more
+    // likely the transit at another epoch than a secondary eclipse: it is
+    // named in the not-recovered finding instead.
+    let shown = d.recovery == Recovery::Shown;
+    if let (Some(e), true) = (d.eclipse, shown) {
         if !out.iter().any(|(f, _)| *f == Flag::Secondary)
             && e.depth.z() >= e.threshold_z
             && e.depth.value > 2.0 * ceiling
@@ -776,20 +780,27 @@ fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
             )));
         }
     }
+    let elsewhere = match d.eclipse {
+        Some(e) if e.depth.z() >= e.threshold_z => format!(
+            "; the deepest dip at this period is {:.0} ± {:.0} ppm at phase {:.3}: the transit may be there, the epoch off",
+            e.depth.value, e.depth.err, e.phase,
+        ),
+        _ => String::new(),
+    };
     match &d.recovery {
         Recovery::Shown => {}
         Recovery::NoTransitInData { first, last } => out.push((
             Flag::NotRecovered,
             format!(
                 "no transit of the ephemeris falls in the light curve (times {first:.4} to {last:.4}); \
-                 check that the catalogue epochs and the light-curve times count from the same zero"
+                 check that the catalogue epochs and the light-curve times count from the same zero{elsewhere}"
             ),
         )),
         Recovery::TooShallow { catalogue_ppm, z } => out.push((
             Flag::NotRecovered,
             format!(
                 "the light curve shows {:.0} ± {:.0} ppm at the ephemeris, the catalogue {catalogue_ppm:.0} ppm: \
-                 below half and Z = {z:.1} ≥ {FLAG_Z} from it",
+                 below half and Z = {z:.1} ≥ {FLAG_Z} from it{elsewhere}",
                 d.depth.value, d.depth.err
             ),
         )),

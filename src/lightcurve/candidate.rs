@@ -24,6 +24,8 @@ pub struct Finder {
     /// The built-in demo: regenerate a light curve from the seed when the
     /// file is not on disk.
     pub demo: bool,
+    /// Days added to every light-curve time (`--lc-time-offset`).
+    pub time_offset: f64,
 }
 
 impl Finder {
@@ -44,6 +46,14 @@ impl Finder {
     /// The light curve of a star, from the first of its candidates that names
     /// a file, or from the folder.
     pub fn load(&self, cat: &Catalogue, star: StarId) -> Result<LightCurve, LcError> {
+        let mut lc = self.load_as_stored(cat, star)?;
+        if self.time_offset != 0.0 {
+            lc.time.iter_mut().for_each(|t| *t += self.time_offset);
+        }
+        Ok(lc)
+    }
+
+    fn load_as_stored(&self, cat: &Catalogue, star: StarId) -> Result<LightCurve, LcError> {
         let id = cat.star_id(star);
         let named = cat.members(star).iter().find_map(|&c| cat.lightcurve(c));
         match locate(
