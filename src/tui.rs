@@ -355,6 +355,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     // The checks (and, when asked, the light-curve checks) in the background.
     app.checks_pending = true;
     let (checks_tx, checks_rx) = mpsc::channel();
+    let (progress_tx, progress_rx) = mpsc::channel();
     {
         let cat = Arc::clone(&app.cat);
         let settings = args.vetting.checks.settings();
@@ -363,7 +364,15 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         std::thread::spawn(move || {
             let mut checks = crate::checks::run(&cat, &settings);
             let run = if lc.wanted() {
-                crate::checks::run_lightcurves(&cat, &finder, &lc.detrend(), &mut checks)
+                crate::checks::run_lightcurves_counted(
+                    &cat,
+                    &finder,
+                    &lc.detrend(),
+                    &mut checks,
+                    |done, total| {
+                        let _ = progress_tx.send((done, total));
+                    },
+                )
             } else {
                 Default::default()
             };
@@ -408,6 +417,9 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         }
         app.page = term.size().map_or(10, |s| (s.height as usize / 3).max(1));
         term.draw(|f| draw::draw(&app, f, look))?;
+        if let Some((done, total)) = progress_rx.try_iter().last() {
+            effects.extend(app.update(Input::Progress(done, total)));
+        }
         match checks_rx.try_recv() {
             Ok((checks, run)) => {
                 effects.extend(app.update(Input::Checks(Box::new(checks))));

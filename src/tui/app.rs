@@ -186,6 +186,8 @@ pub enum Input {
     Notice(String),
     /// The background checks stopped without a result: why.
     ChecksFailed(String),
+    /// Light curves checked so far, of how many.
+    Progress(usize, usize),
     /// A left click at a terminal cell (column, row), with `--mouse`.
     Click(u16, u16),
     /// The wheel turned over a cell: down when true.
@@ -626,6 +628,8 @@ pub struct App {
     pub help_scroll: usize,
     /// True until the background checks have arrived.
     pub checks_pending: bool,
+    /// Light curves checked so far, of how many, while the checks run.
+    pub lc_progress: Option<(usize, usize)>,
     /// The ledger history of the selected star (all vetters), oldest first.
     pub history: Vec<crate::ledger::Entry>,
     history_of: Option<StarId>,
@@ -706,6 +710,7 @@ impl App {
             hits: Hits::default(),
             help_scroll: 0,
             checks_pending: false,
+            lc_progress: None,
             history: Vec::new(),
             history_of: None,
             orders: Vec::new(),
@@ -1290,6 +1295,10 @@ impl App {
             }
             Input::Notice(text) => {
                 self.message = Some(text);
+                Vec::new()
+            }
+            Input::Progress(done, total) => {
+                self.lc_progress = Some((done, total));
                 Vec::new()
             }
             Input::ChecksFailed(text) => {

@@ -831,6 +831,19 @@ fn draw_what_if(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     frame.render_widget(Paragraph::new(text).style(style(look, Color::Cyan)), area);
 }
 
+/// 1234567 → "1,234,567".
+fn thousands(n: usize) -> String {
+    let digits = n.to_string();
+    let mut out = String::new();
+    for (i, ch) in digits.chars().enumerate() {
+        if i > 0 && (digits.len() - i) % 3 == 0 {
+            out.push(',');
+        }
+        out.push(ch);
+    }
+    out
+}
+
 fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let c = app.live.counts();
     let m = app.live.model();
@@ -838,10 +851,14 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
         Some(msg) => clean(msg).into_owned(),
         None => format!(
             "{}{} validated {} likely {} unlikely {} rejected · {} held back{} · N={} f={} · filter [{}] · {} · disagree {} · {}",
-            if app.checks_pending {
-                "checks running… · "
-            } else {
-                ""
+            match (app.checks_pending, app.lc_progress) {
+                (false, _) => String::new(),
+                (true, None) => "checks running… · ".into(),
+                (true, Some((done, total))) => format!(
+                    "checks running: light curves {} / {} · ",
+                    thousands(done),
+                    thousands(total)
+                ),
             },
             c.validated,
             c.likely,

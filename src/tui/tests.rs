@@ -361,6 +361,8 @@ fn checks_arriving_later_feed_the_verdicts() {
     );
     app.checks_pending = true;
     assert!(screen(&app, 120, 30).contains("checks running"));
+    app.update(Input::Progress(1240, 8000));
+    assert!(screen(&app, 160, 30).contains("light curves 1,240 / 8,000"));
     // The planted unstable pair is validated until its `crowded` flag arrives.
     let pair = cat.find_candidate("HWT74304-s1").unwrap();
     assert_eq!(app.live.verdict(pair), crate::odds::Verdict::Validated);
