@@ -393,10 +393,29 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             let _ = orders_tx.send(orders);
         });
     }
+    // SIGTERM, SIGHUP (a lost terminal) and SIGINT end the browser the
+    // normal way: terminal restored, place saved. Ctrl-C in raw mode is a
+    // key, which `quit` handles.
+    let stop = Arc::new(std::sync::atomic::AtomicBool::new(false));
+    for sig in [
+        signal_hook::consts::SIGTERM,
+        signal_hook::consts::SIGHUP,
+        signal_hook::consts::SIGINT,
+    ] {
+        signal_hook::flag::register(sig, Arc::clone(&stop))?;
+    }
     let guard = Guard::enter(args.mouse)?;
     let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
     let mut effects = app.update(Input::Resize);
     loop {
+        if stop.load(std::sync::atomic::Ordering::Relaxed) {
+            drop(term);
+            drop(guard);
+            save_position(&app.cat.source, app.position());
+            return Err(CliError::Input(
+                "stopped by a signal; the terminal is restored and the place saved".into(),
+            ));
+        }
         for e in effects.drain(..) {
             match e {
                 Effect::Quit => {

@@ -149,3 +149,73 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
     let l = starsift::ledger::Ledger::open(&dir.join("data/starsift/demo.ledger.sqlite")).unwrap();
     assert_eq!(l.len().unwrap(), 1);
 }
+
+/// SIGTERM, SIGHUP and SIGINT end the browser the normal way: the terminal
+/// restored (echo and line editing back) and the place saved.
+#[test]
+fn signals_restore_the_terminal() {
+    if Command::new("tmux").arg("-V").output().is_err() {
+        assert!(std::env::var_os("CI").is_none(), "CI must install tmux");
+        return;
+    }
+    for sig in ["TERM", "HUP", "INT"] {
+        let dir = common::scratch(&format!("signal-{sig}"));
+        let session = format!("starsift-sig-{sig}-{}", std::process::id());
+        let status = dir.join("status");
+        let script = format!(
+            "cd {d} && XDG_DATA_HOME={d}/data XDG_STATE_HOME={d}/state {bin}; echo $? > {s}; stty -a > {d}/stty.txt; echo shell-ok >> {s}; sleep 30",
+            d = dir.display(),
+            bin = env!("CARGO_BIN_EXE_starsift"),
+            s = status.display()
+        );
+        tmux(&["kill-session", "-t", &session]);
+        tmux(&[
+            "new-session",
+            "-d",
+            "-s",
+            &session,
+            "-x",
+            "80",
+            "-y",
+            "24",
+            "bash",
+            "-c",
+            &script,
+        ]);
+        wait_for(&session, "Systems 321 of 321");
+        let shell = tmux(&["list-panes", "-t", &session, "-F", "#{pane_pid}"]);
+        let child = Command::new("pgrep")
+            .args(["-P", shell.trim()])
+            .output()
+            .expect("pgrep");
+        let pid = String::from_utf8_lossy(&child.stdout).trim().to_string();
+        assert!(!pid.is_empty(), "no browser process under the shell");
+        Command::new("kill")
+            .args([&format!("-{sig}"), &pid])
+            .status()
+            .unwrap();
+        let start = Instant::now();
+        while !std::fs::read_to_string(&status)
+            .unwrap_or_default()
+            .contains("shell-ok")
+        {
+            assert!(
+                start.elapsed() < Duration::from_secs(10),
+                "SIG{sig}: the browser did not stop"
+            );
+            sleep(Duration::from_millis(100));
+        }
+        let stty = std::fs::read_to_string(dir.join("stty.txt")).unwrap();
+        assert!(
+            stty.contains(" icanon") && stty.contains(" echo "),
+            "SIG{sig}: the terminal was not restored: {stty}"
+        );
+        let after = pane(&session);
+        assert!(after.contains("stopped by a signal"), "SIG{sig}:\n{after}");
+        assert!(
+            dir.join("state/starsift/positions.json").is_file(),
+            "SIG{sig}: the place was not saved"
+        );
+        tmux(&["kill-session", "-t", &session]);
+    }
+}
