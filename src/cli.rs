@@ -6,7 +6,7 @@
 //! flag values, impossible model inputs); 3 a ledger that cannot be written.
 
 use std::io::{self, Write};
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 use clap::{Parser, Subcommand};
 
@@ -218,6 +218,88 @@ fn default_ledger(input: &CatalogueArgs) -> Result<(PathBuf, String), CliError> 
         crate::ledger::default_path(input.catalogue.as_deref(), &fp),
         fp,
     ))
+}
+
+/// A path made absolute with its folder resolved (the file itself need not
+/// exist yet), for comparing where two paths lead.
+fn resolved(p: &Path) -> PathBuf {
+    if let Ok(real) = std::fs::canonicalize(p) {
+        return real;
+    }
+    // `a/missing/../b` is `a/b` even when `missing` does not exist.
+    let mut lexical = PathBuf::new();
+    for part in p.components() {
+        match part {
+            std::path::Component::ParentDir => {
+                lexical.pop();
+            }
+            std::path::Component::CurDir => {}
+            other => lexical.push(other),
+        }
+    }
+    let p = lexical.as_path();
+    if let Ok(real) = std::fs::canonicalize(p) {
+        return real;
+    }
+    let parent = p
+        .parent()
+        .filter(|d| !d.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let dir = std::fs::canonicalize(parent).unwrap_or_else(|_| parent.to_path_buf());
+    p.file_name().map_or(dir.clone(), |f| dir.join(f))
+}
+
+/// Refuses an output path that names an input of this run or a ledger: the
+/// catalogue, its `survey.toml`, the ledger in use (given or default) and
+/// its SQLite side files, anything inside the light-curve folder, or any
+/// existing SQLite file. Checked before any data is read, so a refused
+/// command creates and changes nothing.
+pub fn check_output_path(output: &Path, vetting: &VettingArgs) -> Result<(), CliError> {
+    let out = resolved(output);
+    let shown = crate::sanitize::clean(&output.display().to_string()).into_owned();
+    let refuse = |what: &str| {
+        Err(CliError::Input(format!(
+            "--output {shown}: that is {what}; choose another file (nothing was written)"
+        )))
+    };
+    let mut ledgers: Vec<PathBuf> = vetting.ledger.ledger.iter().cloned().collect();
+    if let Some(cat) = &vetting.input.catalogue {
+        if resolved(cat) == out {
+            return refuse("the input catalogue");
+        }
+        if let Some(survey) = crate::survey::SurveyFacts::beside(cat) {
+            if resolved(&survey) == out {
+                return refuse("the catalogue's survey.toml");
+            }
+        }
+    }
+    ledgers.push(crate::ledger::default_path(
+        vetting.input.catalogue.as_deref(),
+        "",
+    ));
+    for l in &ledgers {
+        let base = resolved(l);
+        let side = ["", "-wal", "-shm", "-journal"]
+            .iter()
+            .map(|s| PathBuf::from(format!("{}{s}", base.display())));
+        if side.into_iter().any(|p| p == out) {
+            return refuse("the ledger (or one of its side files)");
+        }
+    }
+    if let Some(dir) = vetting.lc.lightcurves.as_deref().filter(|d| !d.is_empty()) {
+        if out.starts_with(resolved(Path::new(dir))) {
+            return refuse("inside the light-curve folder");
+        }
+    }
+    let mut head = [0u8; 16];
+    if std::fs::File::open(&out)
+        .and_then(|mut f| std::io::Read::read_exact(&mut f, &mut head))
+        .is_ok()
+        && &head == b"SQLite format 3\0"
+    {
+        return refuse("an SQLite database (perhaps a ledger)");
+    }
+    Ok(())
 }
 
 /// Says (on stderr) which decided candidates the catalogue no longer has.

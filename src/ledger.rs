@@ -651,26 +651,44 @@ fn check_ours(path: &Path) -> Result<(), LedgerError> {
     )))
 }
 
-/// The default ledger beside the catalogue, or in the data folder when that
-/// folder cannot be written (and for the built-in demo).
+/// The default ledger of a catalogue: named by where the catalogue is, never
+/// by what it holds, so an edited catalogue keeps its decisions. Beside the
+/// catalogue (the file a symlink points to, so every link to it shares one
+/// ledger), or in the data folder when that folder cannot be written (and for
+/// the built-in demo). `fp` is the catalogue's content fingerprint: only to
+/// find a ledger an earlier version named by content.
 pub fn default_path(catalogue: Option<&Path>, fp: &str) -> PathBuf {
     let data = data_dir().join("starsift");
     match catalogue {
         None => data.join("demo.ledger.sqlite"),
         Some(cat) => {
-            let beside = PathBuf::from(format!("{}.ledger.sqlite", cat.display()));
-            let dir = cat
+            let real = std::fs::canonicalize(cat).unwrap_or_else(|_| cat.to_path_buf());
+            let beside = PathBuf::from(format!("{}.ledger.sqlite", real.display()));
+            let dir = real
                 .parent()
                 .filter(|p| !p.as_os_str().is_empty())
                 .unwrap_or(Path::new("."));
             if beside.exists() || writable_dir(dir) {
-                beside
+                return beside;
+            }
+            let stem = real
+                .file_name()
+                .map_or("catalogue".into(), |f| f.to_string_lossy().into_owned());
+            let by_place = fingerprint(real.as_os_str().as_encoded_bytes());
+            let short = |f: &str| {
+                f.rsplit(':')
+                    .next()
+                    .unwrap_or("")
+                    .get(..8)
+                    .unwrap_or("")
+                    .to_string()
+            };
+            let by_path = data.join(format!("{stem}-{}.ledger.sqlite", short(&by_place)));
+            let by_content = data.join(format!("{stem}-{}.ledger.sqlite", short(fp)));
+            if !by_path.exists() && by_content.exists() {
+                by_content
             } else {
-                let stem = cat
-                    .file_name()
-                    .map_or("catalogue".into(), |f| f.to_string_lossy().into_owned());
-                let short = fp.rsplit(':').next().unwrap_or("").get(..8).unwrap_or("");
-                data.join(format!("{stem}-{short}.ledger.sqlite"))
+                by_path
             }
         }
     }

@@ -451,3 +451,59 @@ fn export_where_keeps_the_matching_rows_and_the_whole_catalogues_odds() {
         stderr(&o)
     );
 }
+
+/// An output path that names the ledger, the catalogue, its survey facts or
+/// any SQLite file is refused before anything is read or written; a symlink
+/// to a catalogue shares the catalogue's ledger; a failed `decide` creates
+/// no ledger.
+#[test]
+fn outputs_never_overwrite_inputs_and_links_share_one_ledger() {
+    let (d, cat) = demo_copy("outputs");
+    let ids = system_of(3);
+    let o = reject_as_binary(&cat, &ids[0], &[]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let ledger = d.join("cat.csv.ledger.sqlite");
+    let before = std::fs::read(&ledger).unwrap();
+    let catalogue = std::fs::read(&cat).unwrap();
+    let other_db = d.join("team.sqlite");
+    std::fs::copy(&ledger, &other_db).unwrap();
+    for (target, what) in [
+        (ledger.clone(), "ledger"),
+        (d.join("cat.csv.ledger.sqlite-wal"), "ledger"),
+        (cat.clone(), "input catalogue"),
+        (d.join("survey.toml"), "survey.toml"),
+        (other_db.clone(), "SQLite"),
+        (d.join("./sub/../cat.csv"), "input catalogue"),
+    ] {
+        for cmd in ["export", "report"] {
+            let o = starsift(&[cmd, s(&cat), "-o", s(&target)]);
+            assert_eq!(o.status.code(), Some(2), "{cmd} -o {}", target.display());
+            let e = stderr(&o);
+            assert!(e.contains(what) && e.contains("nothing was written"), "{e}");
+        }
+    }
+    assert_eq!(
+        std::fs::read(&ledger).unwrap(),
+        before,
+        "the ledger changed"
+    );
+    assert_eq!(
+        std::fs::read(&cat).unwrap(),
+        catalogue,
+        "the catalogue changed"
+    );
+    // A symlink to the catalogue reads the same ledger.
+    let link = d.join("link.csv");
+    std::os::unix::fs::symlink(&cat, &link).unwrap();
+    let rows = export_rows(&link, &[]);
+    assert_eq!(column(&rows, &ids[0], "decision"), "rejected");
+    assert!(!d.join("link.csv.ledger.sqlite").exists());
+    // A decide that fails (unknown candidate) creates no ledger.
+    let (d2, cat2) = demo_copy("outputs-fail");
+    let o = reject_as_binary(&cat2, "NO-SUCH-CANDIDATE", &[]);
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(
+        !d2.join("cat.csv.ledger.sqlite").exists(),
+        "a failed decide made a ledger"
+    );
+}

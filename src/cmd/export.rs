@@ -50,6 +50,9 @@ pub fn write_atomically(path: &std::path::Path, bytes: &[u8]) -> Result<(), CliE
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let filter = crate::cli::parse_where(args.filter.as_deref())?;
+    if let Some(path) = &args.output {
+        crate::cli::check_output_path(path, &args.vetting)?;
+    }
     let v = Session::open(&args.vetting, LedgerUse::Read)?;
     v.warn();
     let live = v.live()?;

@@ -32,6 +32,9 @@ fn md(s: &str) -> String {
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
+    if let Some(path) = &args.output {
+        crate::cli::check_output_path(path, &args.vetting)?;
+    }
     let v = Session::open(&args.vetting, LedgerUse::Read)?;
     v.warn();
     let cat = &v.loaded.catalogue;
