@@ -451,13 +451,27 @@ fn group_flags(cat: &Catalogue, links: &[system::Link], out: &mut Checks) {
                 );
             }
         }
+        // The representative's warnings: one per kind of link, the first
+        // link's numbers, and how many more (linear in the group's size).
+        let mut kinds: Vec<(Flag, &system::Link, usize)> = Vec::new();
         for l in links_of(rep).iter().map(|&i| &links[i]) {
+            match kinds.iter_mut().find(|k| k.0 == l.flag) {
+                Some(k) => k.2 += 1,
+                None => kinds.push((l.flag, l, 0)),
+            }
+        }
+        for (flag, l, more) in kinds {
+            let more = if more > 0 {
+                format!(" (and {more} more like it)")
+            } else {
+                String::new()
+            };
             out.add(
                 rep,
-                l.flag,
+                flag,
                 true,
                 format!(
-                    "with {}: {}; this candidate stands for the signal",
+                    "with {}: {}{more}; this candidate stands for the signal",
                     id(other(l, rep)),
                     l.detail
                 ),

@@ -29,6 +29,40 @@ pub(super) struct Link {
     pub detail: String,
 }
 
+/// The most partners in period each candidate of a star is compared with.
+const PAIR_WINDOW: usize = 64;
+
+/// Which candidates of one star (by position in period order) are joined
+/// by links already: a union-find.
+struct Joined {
+    parent: Vec<usize>,
+}
+
+impl Joined {
+    fn new(n: usize) -> Joined {
+        Joined {
+            parent: (0..n).collect(),
+        }
+    }
+
+    fn root(&mut self, mut x: usize) -> usize {
+        while self.parent[x] != x {
+            self.parent[x] = self.parent[self.parent[x]];
+            x = self.parent[x];
+        }
+        x
+    }
+
+    fn same(&mut self, a: usize, b: usize) -> bool {
+        self.root(a) == self.root(b)
+    }
+
+    fn join(&mut self, a: usize, b: usize) {
+        let (ra, rb) = (self.root(a), self.root(b));
+        self.parent[ra] = rb;
+    }
+}
+
 /// What the per-candidate pass derived, indexed by candidate (NaN = missing).
 pub(super) struct PerCandidate<'a> {
     pub density_transit: &'a [f64],
@@ -66,13 +100,30 @@ pub(super) fn check(
     deltas.clear();
     let by_period: &[CandidateId] = by_period;
 
-    let first_link = links.len();
     // Every pair: one signal twice (same period, transits together), an
     // alias (period ratio n or 1/n, transits together) or an eclipse pair
     // (same period, transits apart: two planets cannot share an orbit —
     // zero Hill separation). Each is a link of a signal group.
+    //
+    // Bounded for any input: each candidate meets at most PAIR_WINDOW
+    // partners, only those within the largest harmonic of its period, and a
+    // link is kept only between candidates not already joined (a spanning
+    // forest of each group), so thousands of copies of one signal on one
+    // star cost linear memory.
+    let mut joined = Joined::new(by_period.len());
+    let widest = (s.harmonic_max as f64) * (1.0 + 10.0 * s.period_rel_tol).max(1.01);
     for (i, &a) in by_period.iter().enumerate() {
-        for &b in &by_period[i + 1..] {
+        let partners = by_period[i + 1..]
+            .iter()
+            .enumerate()
+            .take_while(|&(_, &b)| period(b) <= widest * period(a))
+            .take(PAIR_WINDOW);
+        for (j, &b) in partners {
+            let j = i + 1 + j;
+            if joined.same(i, j) {
+                continue;
+            }
+            let before = links.len();
             let (pa, pb) = (period(a), period(b));
             let r = pb / pa;
             let sigma = ratio_sigma(r, pa, v(Field::PeriodErrD, a), pb, v(Field::PeriodErrD, b));
@@ -117,6 +168,7 @@ pub(super) fn check(
                         ),
                     });
                 }
+                joined.join(i, j);
                 continue;
             }
             for n in 2..=s.harmonic_max {
@@ -133,14 +185,11 @@ pub(super) fn check(
                     });
                 }
             }
+            if links.len() > before {
+                joined.join(i, j);
+            }
         }
     }
-    let linked = |x: CandidateId, y: CandidateId| {
-        links[first_link..]
-            .iter()
-            .any(|l| (l.a == x && l.b == y) || (l.a == y && l.b == x))
-    };
-
     // Adjacent pairs and trios: Hill spacing with masses from radii.
     let star_mass = v(Field::StarMassMsun, by_period[0]);
     let radius = |c: CandidateId| {
@@ -162,7 +211,9 @@ pub(super) fn check(
                     science::mass_from_radius_mearth(rb),
                 );
                 let d = science::hill_separation(period(a), period(b), ma, mb, mass_star);
-                if d < science::HILL_CRITICAL && !linked(a, b) {
+                // Two candidates of one signal group are one signal, not two
+                // orbits.
+                if d < science::HILL_CRITICAL && !joined.same(i, i + 1) {
                     for (x, y) in [(a, b), (b, a)] {
                         out.add(x, Flag::Crowded, false, format!(
                             "{d:.2} mutual Hill radii from {} (< 2√3 = 3.46; masses {ma:.1} and {mb:.1} M⊕ from Weiss & Marcy 2014{assumed}): both cannot orbit this star stably",
@@ -202,25 +253,26 @@ pub(super) fn check(
     }
 
     // Durations: the density each transit implies, against its siblings'.
+    // The siblings' median is read from one sorted list of the whole star
+    // with the candidate's own value taken out (O(m log m) per star).
     let dens = |c: CandidateId| derived.density_transit[c as usize];
+    others.clear();
+    others.extend(by_period.iter().map(|&o| dens(o)).filter(|d| d.is_finite()));
+    others.sort_by(f64::total_cmp);
     for &c in by_period {
         let own = dens(c);
-        if !own.is_finite() {
+        if !own.is_finite() || others.len() < 2 {
             continue;
         }
-        others.clear();
-        others.extend(
-            by_period
-                .iter()
-                .filter(|&&o| o != c)
-                .map(|&o| dens(o))
-                .filter(|d| d.is_finite()),
-        );
-        if others.is_empty() {
-            continue;
-        }
-        others.sort_by(f64::total_cmp);
-        let median = others[others.len() / 2];
+        // `others` without one copy of `own`: index i maps to i, or i + 1
+        // at and after own's first position.
+        let at = others.partition_point(|x| *x < own);
+        let mid = (others.len() - 1) / 2;
+        let median = if mid < at {
+            others[mid]
+        } else {
+            others[mid + 1]
+        };
         let ratio = own / median;
         if ratio > s.density_factor || ratio < 1.0 / s.density_factor {
             out.add(c, Flag::DensityMismatch, false, format!(

@@ -341,3 +341,38 @@ A,A-1,3.2,100.0,20000,2.5\nB,B-1,3.2000001,100.0003,150,2.5\n";
         ch.why(1)
     );
 }
+
+#[test]
+fn thousands_of_copies_of_one_signal_stay_linear() {
+    // A hostile catalogue: one ephemeris and one position copied 400 times on
+    // each of 5 stars. Every copy is caught (near-twin on its star, echo
+    // across stars) and the findings grow linearly, not with the pairs.
+    let mut text = String::from(
+        "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,star_radius_rsun,star_mass_msun,ra_deg,dec_deg\n",
+    );
+    for s in 0..5 {
+        for j in 0..400 {
+            text.push_str(&format!("S{s},S{s}-{j},3.3,100.1,500,2.5,20,1,1,10,20\n"));
+        }
+    }
+    let c = load(&text);
+    let ch = run(&c, &CheckSettings::default());
+    let n = c.len() as CandidateId;
+    let copies = (0..n)
+        .filter(|&x| ch.flags(x).contains(Flag::NearTwin))
+        .count();
+    assert_eq!(copies, 5 * 399, "all but one per star are copies");
+    assert!(
+        (0..n).all(
+            |x| ch.flags(x).contains(Flag::NearTwin) || ch.warnings(x).contains(Flag::NearTwin)
+        )
+    );
+    let echoes = (0..n).filter(|&x| ch.flags(x).contains(Flag::Echo)).count();
+    assert!(echoes >= 5 * 400 - 1, "{echoes} echo copies");
+    let findings: usize = (0..n).map(|x| ch.findings(x).count()).sum();
+    assert!(
+        findings <= 4 * c.len(),
+        "{findings} findings for {} candidates",
+        c.len()
+    );
+}

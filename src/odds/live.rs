@@ -8,6 +8,7 @@
 //! catalogue. Every verdict of every command and of the browser comes from
 //! here.
 
+use std::collections::HashMap;
 use std::sync::{Arc, OnceLock};
 
 use super::{
@@ -115,6 +116,9 @@ pub struct Live {
     counts: VerdictCounts,
     rejected: usize,
     margins: OnceLock<Margins>,
+    /// Each signal group's standing under the decisions, kept per group so
+    /// that a group of thousands costs one pass, not one per member.
+    standings: Vec<GroupStanding>,
     /// Cautions about the inputs (bad fpp values, clamps in the table).
     pub input_warnings: Vec<String>,
 }
@@ -183,6 +187,7 @@ impl Live {
         singles_by_f.sort_by(|a, b| a.0.total_cmp(&b.0));
         singles_by_f.dedup_by(|a, b| a.0 == b.0);
         let nclasses = classes.len();
+        let ngroups = groups.len();
         let mut live = Live {
             model,
             index: cat.index(),
@@ -210,6 +215,7 @@ impl Live {
             counts: VerdictCounts::default(),
             rejected: 0,
             margins: OnceLock::new(),
+            standings: vec![GroupStanding::default(); ngroups],
             input_warnings,
         };
         for s in 0..live.index.star_count() {
@@ -354,7 +360,7 @@ impl Live {
             return Some(Hold::Flags(own));
         }
         let g = self.active_group(c)?;
-        let standing = self.group_standing(g, |m| self.decision[m as usize]);
+        let standing = self.standings[g as usize];
         if let Some((by, reason)) = standing.rejected_by {
             return Some(Hold::GroupRejected { by, reason });
         }
@@ -657,6 +663,7 @@ impl Live {
         decision: impl Fn(CandidateId) -> Decision,
     ) -> Vec<(CandidateId, Status)> {
         let own_blocking = self.own_blocking();
+        let mut memo: HashMap<u32, GroupStanding> = HashMap::new();
         self.index
             .members(s)
             .iter()
@@ -666,7 +673,9 @@ impl Live {
                 } else if self.flags[c as usize].intersects(own_blocking) {
                     Status::Held
                 } else if let Some(g) = self.active_group(c) {
-                    let standing = self.group_standing(g, &decision);
+                    let standing = *memo
+                        .entry(g)
+                        .or_insert_with(|| self.group_standing(g, &decision));
                     if standing.rejected_by.is_none() && standing.rep == Some(c) {
                         Status::Counted
                     } else {
@@ -721,6 +730,15 @@ impl Live {
 
     fn place_star(&mut self, s: StarId) {
         let st = self.statuses(s, |m| self.decision[m as usize]);
+        let mut groups: Vec<u32> = st
+            .iter()
+            .filter_map(|&(c, _)| self.active_group(c))
+            .collect();
+        groups.sort_unstable();
+        groups.dedup();
+        for g in groups {
+            self.standings[g as usize] = self.group_standing(g, |m| self.decision[m as usize]);
+        }
         let k = st.iter().filter(|x| x.1 == Status::Counted).count();
         self.k_of_star[s as usize] = k as u16;
         self.bump_hist(k, 1);
@@ -806,6 +824,7 @@ impl Live {
 }
 
 /// See [`Live::group_standing`].
+#[derive(Clone, Copy, Debug, Default)]
 struct GroupStanding {
     rejected_by: Option<(CandidateId, Reason)>,
     rep: Option<CandidateId>,
