@@ -19,7 +19,7 @@ pub const SCHEMA_VERSION: i32 = 2;
 /// How long a writer waits for another to finish, per attempt.
 const BUSY_TIMEOUT: Duration = Duration::from_secs(5);
 /// Attempts at a write that keeps finding the ledger locked.
-const WRITE_ATTEMPTS: u32 = 4;
+const WRITE_ATTEMPTS: u32 = 10;
 
 #[derive(Debug, thiserror::Error)]
 pub enum LedgerError {
@@ -253,56 +253,88 @@ impl Ledger {
         }
     }
 
-    /// WAL, full sync, schema created or migrated.
+    /// WAL, full sync, schema created or migrated, retried (with jitter)
+    /// while another process holds the lock: several vetters opening a new
+    /// ledger at the same moment all succeed, one of them creating it.
     fn prepare(&mut self) -> Result<(), LedgerError> {
+        let mut last = None;
+        for attempt in 0..PREPARE_ATTEMPTS {
+            match self.try_prepare() {
+                Ok(()) => return Ok(()),
+                Err(Prepare::Busy(e)) => {
+                    last = Some(e);
+                    std::thread::sleep(backoff(attempt));
+                }
+                Err(Prepare::Fatal(e)) => return Err(e),
+            }
+        }
+        Err(self.unwritable(format!(
+            "still locked by another process after {PREPARE_ATTEMPTS} tries ({})",
+            last.map_or(String::new(), |e| e.to_string())
+        )))
+    }
+
+    fn try_prepare(&mut self) -> Result<(), Prepare> {
+        let name = self.name();
+        let fatal = |e: rusqlite::Error| {
+            if is_busy(&e) {
+                Prepare::Busy(e)
+            } else {
+                Prepare::Fatal(LedgerError::Unwritable {
+                    path: name.clone(),
+                    message: e.to_string(),
+                })
+            }
+        };
         let version: i32 = self
             .conn
             .query_row("PRAGMA user_version", [], |r| r.get(0))
-            .map_err(|e| self.unwritable(e))?;
+            .map_err(fatal)?;
         if version > SCHEMA_VERSION {
-            return Err(LedgerError::TooNew {
+            return Err(Prepare::Fatal(LedgerError::TooNew {
                 path: self.name(),
                 found: version,
-            });
+            }));
         }
         let mode: String = self
             .conn
             .query_row("PRAGMA journal_mode=WAL", [], |r| r.get(0))
-            .map_err(|e| self.unwritable(e))?;
+            .map_err(fatal)?;
         if !mode.eq_ignore_ascii_case("wal") {
-            return Err(self.unwritable(format!("journal mode is {mode}, not WAL")));
+            return Err(Prepare::Fatal(
+                self.unwritable(format!("journal mode is {mode}, not WAL")),
+            ));
         }
         self.conn
             .execute_batch("PRAGMA synchronous=FULL; PRAGMA foreign_keys=ON;")
-            .map_err(|e| self.unwritable(e))?;
+            .map_err(fatal)?;
         if version == SCHEMA_VERSION {
             return Ok(());
         }
+        // Created or migrated under an exclusive lock, after reading the
+        // version again: another process may have just done it.
         let tx = self
             .conn
-            .transaction()
-            .map_err(|e| LedgerError::Unwritable {
-                path: self.path.display().to_string(),
-                message: e.to_string(),
-            })?;
-        let step = |sql: &str| tx.execute_batch(sql);
+            .transaction_with_behavior(rusqlite::TransactionBehavior::Exclusive)
+            .map_err(fatal)?;
         let result = (|| {
-            if version == 1 {
-                // v1 → v2: who wrote each row, and which row an undo reverts.
-                step("ALTER TABLE decision ADD COLUMN tool_version TEXT;")?;
-                step("ALTER TABLE decision ADD COLUMN undoes INTEGER REFERENCES decision(id);")?;
+            let now: i32 = tx.query_row("PRAGMA user_version", [], |r| r.get(0))?;
+            if now == SCHEMA_VERSION {
+                return Ok(());
             }
-            step(SCHEMA_V2)?;
-            step(&format!(
+            if now == 1 {
+                // v1 → v2: who wrote each row, and which row an undo reverts.
+                tx.execute_batch("ALTER TABLE decision ADD COLUMN tool_version TEXT;")?;
+                tx.execute_batch(
+                    "ALTER TABLE decision ADD COLUMN undoes INTEGER REFERENCES decision(id);",
+                )?;
+            }
+            tx.execute_batch(SCHEMA_V2)?;
+            tx.execute_batch(&format!(
                 "PRAGMA application_id = {APPLICATION_ID}; PRAGMA user_version = {SCHEMA_VERSION};"
             ))
         })();
-        result
-            .and_then(|()| tx.commit())
-            .map_err(|e| LedgerError::Unwritable {
-                path: self.path.display().to_string(),
-                message: e.to_string(),
-            })
+        result.and_then(|()| tx.commit()).map_err(fatal)
     }
 
     /// Runs a write transaction, retrying while another writer holds the lock.
@@ -324,7 +356,7 @@ impl Ledger {
                 Ok(tx) => tx,
                 Err(e) if is_busy(&e) => {
                     last = Some(e);
-                    std::thread::sleep(Duration::from_millis(50 << attempt));
+                    std::thread::sleep(backoff(attempt));
                     continue;
                 }
                 Err(e) => return Err(unwritable(&e)),
@@ -578,6 +610,28 @@ fn entry_from(r: &rusqlite::Row, shared: &mut Interner) -> rusqlite::Result<Entr
     })
 }
 
+/// Why preparing a ledger stopped: another process holds it (try again) or
+/// an error to report.
+enum Prepare {
+    Busy(rusqlite::Error),
+    Fatal(LedgerError),
+}
+
+/// How many times opening a ledger is tried while another process holds it.
+const PREPARE_ATTEMPTS: u32 = 12;
+
+/// The wait before try `attempt + 1`: 10 ms doubling to at most 640 ms,
+/// with up to half again at random so that processes that collided do not
+/// collide again (jitter from the clock and the process id).
+fn backoff(attempt: u32) -> Duration {
+    let base = 10u64 << attempt.min(6);
+    let nanos = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map_or(0, |d| d.subsec_nanos() as u64);
+    let noise = (nanos ^ (std::process::id() as u64).wrapping_mul(0x9e37_79b9)) % (base / 2 + 1);
+    Duration::from_millis(base + noise)
+}
+
 fn is_busy(e: &rusqlite::Error) -> bool {
     matches!(
         e.sqlite_error_code(),
@@ -626,10 +680,20 @@ fn check_ours(path: &Path) -> Result<(), LedgerError> {
         OpenFlags::SQLITE_OPEN_READ_ONLY | OpenFlags::SQLITE_OPEN_NO_MUTEX,
     )
     .map_err(access)?;
+    // Another process may be creating or writing it: wait as a writer would.
+    conn.busy_timeout(BUSY_TIMEOUT).map_err(access)?;
     let app: i32 = conn
         .query_row("PRAGMA application_id", [], |r| r.get(0))
         .map_err(access)?;
     if app == APPLICATION_ID {
+        return Ok(());
+    }
+    // No tables at all: a database another starsift is creating this very
+    // moment (its first transaction not yet committed), or an empty one.
+    let tables: i64 = conn
+        .query_row("SELECT COUNT(*) FROM sqlite_master", [], |r| r.get(0))
+        .map_err(access)?;
+    if app == 0 && tables == 0 {
         return Ok(());
     }
     // A version-1 ledger predates the application id: it has our tables.

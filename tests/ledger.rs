@@ -507,3 +507,57 @@ fn outputs_never_overwrite_inputs_and_links_share_one_ledger() {
         "a failed decide made a ledger"
     );
 }
+
+/// Four vetters' first use of a new ledger at the same moment, then four
+/// processes × 500 decisions on it: no refusal, nothing lost.
+#[test]
+fn four_vetters_at_once_from_the_first_use() {
+    let d = scratch("four");
+    let spawn = |ledger: &Path, who: &str, count: &str| {
+        Command::new(env!("CARGO_BIN_EXE_starsift"))
+            .args([
+                "stress-ledger",
+                "--ledger",
+                s(ledger),
+                "--vetter",
+                who,
+                "--count",
+                count,
+            ])
+            .stdout(Stdio::null())
+            .stderr(Stdio::piped())
+            .spawn()
+            .unwrap()
+    };
+    let who = ["ann", "bob", "cy", "dee"];
+    // The first use, raced ten times on fresh files.
+    for round in 0..10 {
+        let ledger = d.join(format!("new-{round}.ledger.sqlite"));
+        let children: Vec<_> = who.iter().map(|w| spawn(&ledger, w, "1")).collect();
+        for child in children {
+            let o = child.wait_with_output().unwrap();
+            assert!(
+                o.status.success(),
+                "round {round}: {}",
+                String::from_utf8_lossy(&o.stderr)
+            );
+        }
+        assert_eq!(
+            Ledger::open(&ledger).unwrap().history(None).unwrap().len(),
+            4
+        );
+    }
+    let ledger = d.join("busy.ledger.sqlite");
+    let children: Vec<_> = who.iter().map(|w| spawn(&ledger, w, "500")).collect();
+    for child in children {
+        let o = child.wait_with_output().unwrap();
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    }
+    let l = Ledger::open(&ledger).unwrap();
+    let h = l.history(None).unwrap();
+    assert_eq!(h.len(), 2000);
+    for w in who {
+        assert_eq!(h.iter().filter(|e| &*e.vetter == w).count(), 500);
+    }
+    assert_eq!(l.integrity().unwrap(), "ok");
+}
