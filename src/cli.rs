@@ -362,6 +362,8 @@ impl CliError {
         match self {
             CliError::Io(_) => 1,
             CliError::Ledger(LedgerError::Unwritable { .. } | LedgerError::Open { .. }) => 3,
+            CliError::Ledger(LedgerError::Damaged { .. }) => 4,
+            CliError::Ledger(LedgerError::DiskFull { .. }) => 5,
             _ => 2,
         }
     }

@@ -29,6 +29,14 @@ pub enum LedgerError {
     Foreign { path: String, why: String },
     #[error("{path}: the ledger cannot be written: {message}. Nothing was recorded")]
     Unwritable { path: String, message: String },
+    #[error(
+        "{path}: the ledger is damaged ({why}); starsift left it as it is. Keep a copy, then recover what it holds with the sqlite3 tool: sqlite3 {path} .recover | sqlite3 recovered.sqlite, and give --ledger recovered.sqlite"
+    )]
+    Damaged { path: String, why: String },
+    #[error(
+        "{path}: the disk holding the ledger is full; nothing was recorded and the ledger is intact. Free some space and try again"
+    )]
+    DiskFull { path: String },
     #[error("{path}: cannot open the ledger: {message}")]
     Open { path: String, message: String },
     #[error(
@@ -246,6 +254,11 @@ impl Ledger {
         self.path.display().to_string()
     }
 
+    /// The error a failed SQLite call means for this ledger.
+    fn classify(&self, e: rusqlite::Error) -> LedgerError {
+        classify(&self.path, e)
+    }
+
     fn unwritable(&self, e: impl std::fmt::Display) -> LedgerError {
         LedgerError::Unwritable {
             path: self.name(),
@@ -280,10 +293,7 @@ impl Ledger {
             if is_busy(&e) {
                 Prepare::Busy(e)
             } else {
-                Prepare::Fatal(LedgerError::Unwritable {
-                    path: name.clone(),
-                    message: e.to_string(),
-                })
+                Prepare::Fatal(classify(Path::new(&name), e))
             }
         };
         let version: i32 = self
@@ -359,12 +369,12 @@ impl Ledger {
                     std::thread::sleep(backoff(attempt));
                     continue;
                 }
-                Err(e) => return Err(unwritable(&e)),
+                Err(e) => return Err(classify(&self.path, e)),
             };
             match f(&tx).and_then(|v| tx.commit().map(|()| v)) {
                 Ok(v) => return Ok(v),
                 Err(e) if is_busy(&e) => last = Some(e),
-                Err(e) => return Err(unwritable(&e)),
+                Err(e) => return Err(classify(&self.path, e)),
             }
         }
         Err(unwritable(&format!(
@@ -430,7 +440,7 @@ impl Ledger {
                 |r| r.get(0),
             )
             .optional()
-            .map_err(|e| self.unwritable(e))?;
+            .map_err(|e| self.classify(e))?;
         if previous.as_deref() != Some(fp) {
             let at = now_rfc3339();
             self.write(|tx| {
@@ -462,11 +472,11 @@ impl Ledger {
         let mut stmt = self
             .conn
             .prepare_cached(sql)
-            .map_err(|e| self.unwritable(e))?;
-        let mut rows = stmt.query(args).map_err(|e| self.unwritable(e))?;
+            .map_err(|e| self.classify(e))?;
+        let mut rows = stmt.query(args).map_err(|e| self.classify(e))?;
         let mut shared = Interner::default();
-        while let Some(r) = rows.next().map_err(|e| self.unwritable(e))? {
-            f(r, &mut shared).map_err(|e| self.unwritable(e))?;
+        while let Some(r) = rows.next().map_err(|e| self.classify(e))? {
+            f(r, &mut shared).map_err(|e| self.classify(e))?;
         }
         Ok(())
     }
@@ -562,7 +572,7 @@ impl Ledger {
         self.conn
             .query_row("SELECT COUNT(*) FROM decision", [], |r| r.get::<_, i64>(0))
             .map(|n| n as usize)
-            .map_err(|e| self.unwritable(e))
+            .map_err(|e| self.classify(e))
     }
 
     pub fn is_empty(&self) -> Result<bool, LedgerError> {
@@ -573,7 +583,7 @@ impl Ledger {
     pub fn integrity(&self) -> Result<String, LedgerError> {
         self.conn
             .query_row("PRAGMA integrity_check", [], |r| r.get(0))
-            .map_err(|e| self.unwritable(e))
+            .map_err(|e| self.classify(e))
     }
 }
 
@@ -632,6 +642,49 @@ fn backoff(attempt: u32) -> Duration {
     Duration::from_millis(base + noise)
 }
 
+/// What a failed SQLite call means for the ledger at `path`: damaged (a
+/// corrupt or truncated file), a full disk, or not writable (read-only file
+/// or folder, a side file left by another user, permissions), each with its
+/// own error and advice.
+pub fn classify(path: &Path, e: rusqlite::Error) -> LedgerError {
+    use rusqlite::ErrorCode::*;
+    let name = path.display().to_string();
+    match e.sqlite_error_code() {
+        Some(DatabaseCorrupt | NotADatabase) => LedgerError::Damaged {
+            path: name,
+            why: e.to_string(),
+        },
+        Some(DiskFull) => LedgerError::DiskFull { path: name },
+        Some(ReadOnly | CannotOpen | PermissionDenied) => {
+            let side: Vec<String> = ["-wal", "-shm"]
+                .iter()
+                .map(|s| format!("{name}{s}"))
+                .filter(|p| {
+                    std::fs::metadata(p).is_ok_and(|m| m.permissions().readonly())
+                        || std::fs::OpenOptions::new().append(true).open(p).is_err()
+                            && Path::new(p).exists()
+                })
+                .collect();
+            let hint = if side.is_empty() {
+                "check that you may write the file and its folder".to_string()
+            } else {
+                format!(
+                    "the side file {} cannot be written (left by another user or a read-only copy): fix its permissions or remove it when no one else is using the ledger",
+                    side.join(" and ")
+                )
+            };
+            LedgerError::Unwritable {
+                path: name,
+                message: format!("{e}; {hint}"),
+            }
+        }
+        _ => LedgerError::Unwritable {
+            path: name,
+            message: e.to_string(),
+        },
+    }
+}
+
 fn is_busy(e: &rusqlite::Error) -> bool {
     matches!(
         e.sqlite_error_code(),
@@ -663,16 +716,16 @@ fn check_ours(path: &Path) -> Result<(), LedgerError> {
     }
     // An SQLite file we may not write (or whose WAL index we cannot make)
     // is a ledger problem, not a foreign file.
+    // The file starts as an SQLite database: if SQLite cannot read it, it is
+    // damaged (truncated, overwritten in part), not someone else's.
     let access = |e: rusqlite::Error| -> LedgerError {
         use rusqlite::ErrorCode::*;
         match e.sqlite_error_code() {
-            Some(ReadOnly | CannotOpen | PermissionDenied | DatabaseBusy | DatabaseLocked) => {
-                LedgerError::Unwritable {
-                    path: name.clone(),
-                    message: e.to_string(),
-                }
-            }
-            _ => foreign(format!("SQLite cannot read it: {e}")),
+            Some(DatabaseBusy | DatabaseLocked) => LedgerError::Unwritable {
+                path: name.clone(),
+                message: e.to_string(),
+            },
+            _ => classify(path, e),
         }
     };
     let conn = Connection::open_with_flags(

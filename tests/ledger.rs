@@ -561,3 +561,45 @@ fn four_vetters_at_once_from_the_first_use() {
     }
     assert_eq!(l.integrity().unwrap(), "ok");
 }
+
+/// A truncated or overwritten ledger is called damaged (exit 4) with the
+/// way to recover it, never "not a starsift ledger", and is left as it is.
+#[test]
+fn a_damaged_ledger_is_named_damaged_with_the_way_to_recover() {
+    let (dir, cat) = demo_copy("damaged");
+    let ids = system_of(3);
+    for id in &ids {
+        assert!(reject_as_binary(&cat, id, &[]).status.success());
+    }
+    let ledger = dir.join("cat.csv.ledger.sqlite");
+    // Fold the WAL into the file so that the damage hits the decisions.
+    Ledger::open(&ledger).unwrap().integrity().unwrap();
+    let _ = std::fs::remove_file(dir.join("cat.csv.ledger.sqlite-wal"));
+    let whole = std::fs::read(&ledger).unwrap();
+    for (how, bytes) in [
+        ("truncated", whole[..whole.len() / 2].to_vec()),
+        ("overwritten", {
+            let mut b = whole.clone();
+            for x in b[100..whole.len().min(9000)].iter_mut() {
+                *x = 0xA5;
+            }
+            b
+        }),
+    ] {
+        std::fs::write(&ledger, &bytes).unwrap();
+        let _ = std::fs::remove_file(dir.join("cat.csv.ledger.sqlite-shm"));
+        let o = starsift(&["history", s(&cat)]);
+        let e = stderr(&o);
+        assert_eq!(o.status.code(), Some(4), "{how}: {e}");
+        assert!(
+            e.contains("damaged") && e.contains(".recover"),
+            "{how}: {e}"
+        );
+        assert!(!e.contains("not a starsift ledger"), "{how}: {e}");
+        assert_eq!(
+            std::fs::read(&ledger).unwrap(),
+            bytes,
+            "{how}: the file was changed"
+        );
+    }
+}
