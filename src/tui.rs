@@ -476,6 +476,11 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             Event::Key(k) if k.kind == KeyEventKind::Press => {
                 let prompt = app.takes_text();
                 let key = Key::from_event(&k);
+                // Ctrl-C leaves from anywhere, whatever the key map says.
+                if key == Some(keymap::ALWAYS_QUITS) {
+                    effects.push(Effect::Quit);
+                    continue;
+                }
                 let input = match (prompt, key) {
                     (
                         true,

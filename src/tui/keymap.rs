@@ -127,6 +127,8 @@ impl Key {
 #[derive(Clone, Debug, Default)]
 pub struct Keymap {
     pub keys: BTreeMap<Action, Vec<Key>>,
+    /// Where each action's keys were set: (file, line).
+    origin: BTreeMap<Action, (String, usize)>,
 }
 
 #[derive(Debug, thiserror::Error)]
@@ -137,14 +139,22 @@ pub struct KeymapError {
     pub message: String,
 }
 
+/// Ctrl-C quits whatever the key map says (a way out that cannot be lost).
+pub const ALWAYS_QUITS: Key = Key {
+    code: KeyName::Char('c'),
+    ctrl: true,
+};
+
 impl Keymap {
-    /// The defaults, then each (name, text) layer on top, in order.
+    /// The defaults, then each (name, text) layer on top, in order. The
+    /// result must keep a key for `quit` and give no key two actions.
     pub fn load(layers: &[(&str, &str)]) -> Result<Keymap, KeymapError> {
         let mut map = Keymap::default();
         map.apply("keymaps/default.toml", DEFAULT)?;
         for (name, text) in layers {
             map.apply(name, text)?;
         }
+        map.check()?;
         Ok(map)
     }
 
@@ -155,17 +165,17 @@ impl Keymap {
             line,
             message,
         };
-        let table: toml::Table = text.parse().map_err(|e: toml::de::Error| {
-            err(
-                e.span().map_or(0, |s| line_of(s.start)),
-                e.message().to_string(),
-            )
-        })?;
+        type Spanned<T> = toml::Spanned<T>;
+        let table: BTreeMap<Spanned<String>, Spanned<toml::Value>> =
+            toml::from_str(text).map_err(|e: toml::de::Error| {
+                err(
+                    e.span().map_or(1, |s| line_of(s.start)),
+                    e.message().to_string(),
+                )
+            })?;
         for (name, value) in &table {
-            let line = text
-                .lines()
-                .position(|l| l.trim_start().starts_with(name.as_str()))
-                .map_or(0, |i| i + 1);
+            let line = line_of(name.span().start);
+            let name = name.get_ref();
             let action = Action::from_name(name).ok_or_else(|| {
                 err(
                     line,
@@ -175,9 +185,9 @@ impl Keymap {
                     ),
                 )
             })?;
-            let list = value.as_array().ok_or_else(|| {
+            let list = value.get_ref().as_array().ok_or_else(|| {
                 err(
-                    line,
+                    line_of(value.span().start),
                     format!("`{name}` must be a list of keys, e.g. [\"x\"]"),
                 )
             })?;
@@ -188,7 +198,61 @@ impl Keymap {
                     .ok_or_else(|| err(line, format!("`{name}`: keys are strings")))?;
                 keys.push(Key::parse(s).ok_or_else(|| err(line, format!("`{s}` is not a key")))?);
             }
+            if action == Action::Quit && keys.is_empty() {
+                return Err(err(
+                    line,
+                    "`quit` needs at least one key (Ctrl-C quits too, always)".into(),
+                ));
+            }
+            if action != Action::Quit && keys.contains(&ALWAYS_QUITS) {
+                return Err(err(
+                    line,
+                    format!("`{name}`: ctrl-c always quits and cannot be bound to another action"),
+                ));
+            }
             self.keys.insert(action, keys);
+            self.origin.insert(action, (file.to_string(), line));
+        }
+        Ok(())
+    }
+
+    /// No key bound to two actions: the error names both actions and where
+    /// each was set.
+    fn check(&self) -> Result<(), KeymapError> {
+        let mut owner: std::collections::HashMap<Key, Action> = Default::default();
+        for (&action, keys) in &self.keys {
+            for &k in keys {
+                if let Some(&other) = owner.get(&k) {
+                    let at = |a: Action| {
+                        self.origin
+                            .get(&a)
+                            .cloned()
+                            .unwrap_or_else(|| ("keymaps/default.toml".into(), 0))
+                    };
+                    let (mine, theirs) = (at(action), at(other));
+                    // Report at the later layer's line (usually the user's file).
+                    let (file, line) = if mine.0 != "keymaps/default.toml" {
+                        mine.clone()
+                    } else {
+                        theirs.clone()
+                    };
+                    return Err(KeymapError {
+                        file,
+                        line,
+                        message: format!(
+                            "`{}` is bound to both `{}` ({}:{}) and `{}` ({}:{}); give one of them another key",
+                            k.label(),
+                            other.name(),
+                            theirs.0,
+                            theirs.1,
+                            action.name(),
+                            mine.0,
+                            mine.1
+                        ),
+                    });
+                }
+                owner.insert(k, action);
+            }
         }
         Ok(())
     }
@@ -229,6 +293,24 @@ mod tests {
         let home = Keymap::load(&[("home-row.toml", HOME_ROW)]).unwrap();
         assert_eq!(home.action(Key::parse("j").unwrap()), Some(Action::Down));
         assert_eq!(home.action(Key::parse("x").unwrap()), Some(Action::Reject));
+    }
+
+    #[test]
+    fn foot_guns_are_refused_with_both_lines() {
+        let e = Keymap::load(&[("mine.toml", "# mine\nquit = []\n")]).unwrap_err();
+        assert_eq!((e.file.as_str(), e.line), ("mine.toml", 2), "{e}");
+        let e = Keymap::load(&[("mine.toml", "\n\nquit = [\"a\"]\n")]).unwrap_err();
+        assert_eq!((e.file.as_str(), e.line), ("mine.toml", 3), "{e}");
+        let m = e.to_string();
+        assert!(
+            m.contains("`keep`") && m.contains("`quit`") && m.contains("keymaps/default.toml:"),
+            "{m}"
+        );
+        let e = Keymap::load(&[("mine.toml", "keep = [\"ctrl-c\"]\n")]).unwrap_err();
+        assert!(e.to_string().contains("always quits"), "{e}");
+        // Moving a key is fine when its old action gets another.
+        let m = Keymap::load(&[("mine.toml", "quit = [\"a\"]\nkeep = [\"k\"]\n")]).unwrap();
+        assert_eq!(m.action(Key::parse("a").unwrap()), Some(Action::Quit));
     }
 
     #[test]
