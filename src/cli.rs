@@ -576,9 +576,15 @@ pub fn main() -> i32 {
     let cli = match Cli::try_parse() {
         Ok(c) => c,
         Err(e) => {
-            let code = if e.use_stderr() { 2 } else { 0 };
-            let _ = e.print();
-            return code;
+            // Usage errors quote what was typed: through the terminal guard.
+            let text = e.render().to_string();
+            let safe = crate::sanitize::for_terminal(&text);
+            if e.use_stderr() {
+                eprint!("{safe}");
+                return 2;
+            }
+            print!("{safe}");
+            return 0;
         }
     };
     let stdout = io::stdout();
@@ -589,7 +595,8 @@ pub fn main() -> i32 {
         Err(CliError::Io(e)) if e.kind() == io::ErrorKind::BrokenPipe => 0,
         Err(e) => {
             let _ = out.flush();
-            eprintln!("starsift: error: {e}");
+            let text = e.to_string();
+            eprintln!("starsift: error: {}", crate::sanitize::for_terminal(&text));
             e.exit_code()
         }
     }

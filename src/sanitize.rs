@@ -37,6 +37,27 @@ pub fn clean(s: &str) -> Cow<'_, str> {
     Cow::Owned(out)
 }
 
+/// The last guard before a message reaches the terminal: every control
+/// character, escape sequence and bidirectional mark escaped as [`clean`]
+/// does, but line breaks kept and backslashes left alone, so text cleaned
+/// already passes through unchanged. Every error message goes through it.
+pub fn for_terminal(s: &str) -> Cow<'_, str> {
+    let risky = |c: char| c != '\\' && c != '\n' && needs_escape(c);
+    if !s.chars().any(risky) {
+        return Cow::Borrowed(s);
+    }
+    let mut out = String::with_capacity(s.len() + 8);
+    for c in s.chars() {
+        if risky(c) {
+            let mut buf = [0u8; 4];
+            out.push_str(&clean(c.encode_utf8(&mut buf)));
+        } else {
+            out.push(c);
+        }
+    }
+    Cow::Owned(out)
+}
+
 /// Lossy UTF-8 decoding followed by [`clean`], for raw bytes from a file.
 pub fn clean_bytes(b: &[u8]) -> String {
     clean(&String::from_utf8_lossy(b)).into_owned()
@@ -55,6 +76,21 @@ fn needs_escape(c: char) -> bool {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn the_terminal_guard_escapes_controls_and_keeps_cleaned_text() {
+        // OSC 52 (clipboard write) and OSC 0 (window title), as a hostile
+        // header would carry them (ECMA-48 control functions).
+        let hostile = "time\u{1b}]52;c;ZXZpbA==\u{7}\u{1b}]0;owned\u{7}";
+        let safe = for_terminal(hostile);
+        assert!(
+            !safe.contains('\u{1b}') && !safe.contains('\u{7}'),
+            "{safe}"
+        );
+        let cleaned = clean("A\\B-1\tx").into_owned();
+        assert_eq!(for_terminal(&cleaned), cleaned);
+        assert_eq!(for_terminal("two\nlines"), "two\nlines");
+    }
 
     #[test]
     fn clean_text_is_borrowed() {

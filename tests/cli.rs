@@ -222,3 +222,93 @@ fn odds_where_lists_the_matching_candidates_under_the_whole_catalogue_model() {
     assert_eq!(bad.status.code(), Some(2));
     assert!(stderr(&bad).contains("--where k>>5"), "{}", stderr(&bad));
 }
+
+/// Error messages pass one terminal guard: a header carrying OSC 52 and
+/// OSC 0 sequences, a filter and a light-curve folder with escapes, never
+/// put an escape on the terminal. Machine formats stay byte-exact: an id
+/// with a backslash and a note with a tab come back from `export` as they
+/// went in.
+#[test]
+fn errors_are_guarded_and_exports_are_byte_exact() {
+    let d = common::scratch("guard");
+    let bad = d.join("bad.csv");
+    std::fs::write(
+        &bad,
+        "star,cand\x1b]52;c;ZXZpbA==\x07idate\x1b]0;owned\x07,period_d\nA,A-1,3\n",
+    )
+    .unwrap();
+    for args in [
+        vec!["summary", bad.to_str().unwrap()],
+        vec!["odds", "--where", "k=\x1b]0;x\x07"],
+        vec![
+            "fold",
+            "--candidate",
+            "HWT10850-s1",
+            "--lightcurves",
+            "/nope/\x1b]0;x\x07",
+        ],
+    ] {
+        let o = starsift(&args);
+        assert!(!o.status.success(), "{args:?}");
+        assert!(
+            !o.stderr.contains(&0x1b) && !o.stderr.contains(&0x07),
+            "{args:?}: {}",
+            stderr(&o)
+        );
+    }
+    let cat = d.join("cat.csv");
+    std::fs::write(
+        &cat,
+        "star,candidate,period_d,epoch,depth_ppm,duration_h\nA\\B,A\\B-1,3.5,100,500,2.5\n",
+    )
+    .unwrap();
+    let o = starsift(&[
+        "decide",
+        cat.to_str().unwrap(),
+        "--candidate",
+        "A\\B-1",
+        "--decision",
+        "parked",
+        "--note",
+        "see\tlog",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let o = starsift(&[
+        "export",
+        cat.to_str().unwrap(),
+        "--no-lightcurves",
+        "--targets",
+        "1000",
+        "--format",
+        "csv",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let body: String = stdout(&o)
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    let mut r = csv::Reader::from_reader(body.as_bytes());
+    let h = r.headers().unwrap().clone();
+    let row = r.records().next().unwrap().unwrap();
+    let col = |name: &str| row[h.iter().position(|x| x == name).unwrap()].to_string();
+    assert_eq!(col("candidate"), "A\\B-1");
+    assert_eq!(col("star"), "A\\B");
+    assert_eq!(col("note"), "see\tlog");
+    let o = starsift(&[
+        "export",
+        cat.to_str().unwrap(),
+        "--no-lightcurves",
+        "--targets",
+        "1000",
+        "--format",
+        "json",
+    ]);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let rows = v["candidates"]
+        .as_array()
+        .or_else(|| v["rows"].as_array())
+        .unwrap();
+    assert_eq!(rows[0]["candidate"], "A\\B-1");
+    assert_eq!(rows[0]["note"], "see\tlog");
+}

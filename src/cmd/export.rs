@@ -136,7 +136,7 @@ fn write_csv(
         )?;
     }
     let numeric = input_numeric(v);
-    let extras: Vec<String> = cat.extra_headers().map(|h| clean(h).into_owned()).collect();
+    let extras: Vec<String> = cat.extra_headers().map(str::to_string).collect();
     let mut w = csv_writer(out);
     let mut header: Vec<String> = vec!["star".into(), "candidate".into()];
     header.extend(numeric.iter().map(|f| f.name().to_string()));
@@ -148,16 +148,16 @@ fn write_csv(
     w.write_record(&header)?;
     let mut b = ryu::Buffer::new();
     for &c in rows {
-        w.write_field(clean(cat.star_id(cat.star_of(c))).as_bytes())?;
-        w.write_field(clean(cat.candidate_id(c)).as_bytes())?;
+        w.write_field(cat.star_id(cat.star_of(c)).as_bytes())?;
+        w.write_field(cat.candidate_id(c).as_bytes())?;
         for f in &numeric {
             w.write_field(exact_in(&mut b, cat.value(*f, c)))?;
         }
         if cat.has(Field::Lightcurve) {
-            w.write_field(clean(cat.lightcurve(c).unwrap_or("")).as_bytes())?;
+            w.write_field(cat.lightcurve(c).unwrap_or("").as_bytes())?;
         }
         for i in 0..extras.len() {
-            w.write_field(clean(cat.extra(i, c)).as_bytes())?;
+            w.write_field(cat.extra(i, c).as_bytes())?;
         }
         let e = v.latest.get(cat.candidate_id(c));
         w.write_field(live.k(c).to_string())?;
@@ -167,8 +167,8 @@ fn write_csv(
         w.write_field(live.verdict(c).name())?;
         w.write_field(live.decision(c).name())?;
         w.write_field(live.decision(c).reason().map_or("", |r| r.name()))?;
-        w.write_field(clean(e.and_then(|e| e.note.as_deref()).unwrap_or("")).as_bytes())?;
-        w.write_field(clean(e.map_or("", |e| &*e.vetter)).as_bytes())?;
+        w.write_field(e.and_then(|e| e.note.as_deref()).unwrap_or("").as_bytes())?;
+        w.write_field(e.map_or("", |e| &*e.vetter).as_bytes())?;
         w.write_field(e.map_or("", |e| e.decided_at.as_str()))?;
         w.write_field(v.checks.flags(c).joined(";"))?;
         w.write_field(v.checks.warnings(c).joined(";"))?;
@@ -189,13 +189,13 @@ fn to_json(v: &Session, live: &Live, selected: &[CandidateId], filter: Option<&F
         .iter()
         .map(|&c| {
             let mut o = Map::new();
-            o.insert("star".into(), json!(clean(cat.star_id(cat.star_of(c)))));
-            o.insert("candidate".into(), json!(clean(cat.candidate_id(c))));
+            o.insert("star".into(), json!(cat.star_id(cat.star_of(c))));
+            o.insert("candidate".into(), json!(cat.candidate_id(c)));
             for fl in &numeric {
                 o.insert(fl.name().into(), f(cat.value(*fl, c)));
             }
             for (i, h) in cat.extra_headers().enumerate() {
-                o.insert(clean(h).into_owned(), json!(clean(cat.extra(i, c))));
+                o.insert(h.to_string(), json!(cat.extra(i, c)));
             }
             let e = v.latest.get(cat.candidate_id(c));
             o.insert("k".into(), json!(live.k(c)));
@@ -208,17 +208,8 @@ fn to_json(v: &Session, live: &Live, selected: &[CandidateId], filter: Option<&F
                 "reason".into(),
                 json!(live.decision(c).reason().map(|r| r.name())),
             );
-            o.insert(
-                "note".into(),
-                json!(
-                    e.and_then(|e| e.note.as_deref())
-                        .map(|n| clean(n).into_owned())
-                ),
-            );
-            o.insert(
-                "vetter".into(),
-                json!(e.map(|e| clean(&e.vetter).into_owned())),
-            );
+            o.insert("note".into(), json!(e.and_then(|e| e.note.as_deref())));
+            o.insert("vetter".into(), json!(e.map(|e| &*e.vetter)));
             o.insert("decided_at".into(), json!(e.map(|e| e.decided_at.clone())));
             o.insert(
                 "flags".into(),
@@ -251,7 +242,7 @@ fn to_json(v: &Session, live: &Live, selected: &[CandidateId], filter: Option<&F
         .collect();
     let m = live.model();
     json!({
-        "catalogue": clean(&cat.source),
+        "catalogue": cat.source,
         "ledger": v.ledger_path.as_deref().map(clean),
         "held_back": live.held_line(),
         "model": {
@@ -259,7 +250,7 @@ fn to_json(v: &Session, live: &Live, selected: &[CandidateId], filter: Option<&F
             "fp_fraction": m.describe_fp(),
             "boost_mode": m.mode.describe(), "threshold": m.threshold, "statement": model_statement(m),
         },
-        "filter": filter.map(|f| clean(&f.text).into_owned()),
+        "filter": filter.map(|f| f.text.as_str()),
         "candidates": rows,
     })
 }
