@@ -5,6 +5,7 @@
 
 pub mod app;
 pub mod draw;
+mod input;
 pub mod keymap;
 
 use std::io::{IsTerminal, Write};
@@ -14,13 +15,13 @@ use std::time::Duration;
 
 use ratatui::Terminal;
 use ratatui::backend::CrosstermBackend;
-use ratatui::crossterm::event::{self, Event, KeyEventKind};
+use ratatui::crossterm::event;
 use ratatui::crossterm::{cursor, execute, terminal};
 
 use crate::cli::{CliError, VettingArgs};
 use app::{App, Effect, Input, SignalResult};
 use draw::Look;
-use keymap::{Key, Keymap};
+use keymap::Keymap;
 
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
@@ -209,7 +210,8 @@ impl Guard {
         execute!(
             std::io::stdout(),
             terminal::EnterAlternateScreen,
-            cursor::Hide
+            cursor::Hide,
+            ratatui::crossterm::event::EnableBracketedPaste
         )?;
         if mouse {
             execute!(
@@ -259,7 +261,11 @@ fn spawn_worker(
     let (tx, rx) = mpsc::channel::<u32>();
     std::thread::spawn(move || {
         let cache = crate::lightcurve::Cache::default();
-        while let Ok(c) = rx.recv() {
+        while let Ok(mut c) = rx.recv() {
+            // Only the latest request matters: the vetter has moved on.
+            while let Ok(newer) = rx.try_recv() {
+                c = newer;
+            }
             let star = cat.star_of(c);
             let what = format!("showing {}", cat.candidate_id(c));
             let out = crate::contain::contained(&what, || {
@@ -407,6 +413,8 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     let guard = Guard::enter(args.mouse)?;
     let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
     let mut effects = app.update(Input::Resize);
+    const FRAME: Duration = Duration::from_millis(16);
+    let mut last_draw = std::time::Instant::now() - FRAME;
     loop {
         if stop.load(std::sync::atomic::Ordering::Relaxed) {
             drop(term);
@@ -434,8 +442,16 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                 }
             }
         }
+        // Keys that trickle in (a paste through a slow link) are read on
+        // for the rest of a 16 ms frame before the screen is drawn again.
+        let since = last_draw.elapsed();
+        if since < FRAME && event::poll(FRAME - since)? {
+            read_batch(&mut app, &mut effects, &worker)?;
+            continue;
+        }
         app.page = term.size().map_or(10, |s| (s.height as usize / 3).max(1));
         term.draw(|f| draw::draw(&app, f, look))?;
+        last_draw = std::time::Instant::now();
         if let Some((done, total)) = progress_rx.try_iter().last() {
             effects.extend(app.update(Input::Progress(done, total)));
         }
@@ -472,74 +488,37 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         if !event::poll(Duration::from_millis(100))? {
             continue;
         }
-        match event::read()? {
-            Event::Key(k) if k.kind == KeyEventKind::Press => {
-                let prompt = app.takes_text();
-                let key = Key::from_event(&k);
-                // Ctrl-C leaves from anywhere, whatever the key map says.
-                if key == Some(keymap::ALWAYS_QUITS) {
-                    effects.push(Effect::Quit);
-                    continue;
-                }
-                let input = match (prompt, key) {
-                    (
-                        true,
-                        Some(Key {
-                            code: keymap::KeyName::Char(c),
-                            ctrl: false,
-                        }),
-                    ) => Some(Input::Char(c)),
-                    (
-                        true,
-                        Some(Key {
-                            code: keymap::KeyName::Space,
-                            ..
-                        }),
-                    ) => Some(Input::Char(' ')),
-                    (
-                        true,
-                        Some(Key {
-                            code: keymap::KeyName::Backspace,
-                            ..
-                        }),
-                    ) => Some(Input::Backspace),
-                    (
-                        true,
-                        Some(Key {
-                            code: keymap::KeyName::Enter,
-                            ..
-                        }),
-                    ) => Some(Input::Action(app::Action::Select)),
-                    (
-                        true,
-                        Some(Key {
-                            code: keymap::KeyName::Esc,
-                            ..
-                        }),
-                    ) => Some(Input::Action(app::Action::Close)),
-                    (_, Some(key)) => app.keymap.action(key).map(Input::Action),
-                    _ => None,
-                };
-                if let Some(i) = input {
-                    effects.extend(app.update(i));
-                }
+        read_batch(&mut app, &mut effects, &worker)?;
+    }
+}
+
+/// Handles every event already waiting before the next frame (a paste or a
+/// burst of keys is one redraw, not one per key), up to a bound that keeps
+/// the screen alive. Light-curve requests go to the worker at once; any
+/// other effect ends the batch.
+fn read_batch(
+    app: &mut App,
+    effects: &mut Vec<Effect>,
+    worker: &mpsc::Sender<u32>,
+) -> std::io::Result<()> {
+    for _ in 0..4096 {
+        match input::translate(app, event::read()?) {
+            input::Translated::Quit => effects.push(Effect::Quit),
+            input::Translated::Input(i) => effects.extend(app.update(i)),
+            input::Translated::Nothing => {}
+        }
+        effects.retain(|e| match e {
+            Effect::LoadSignal(c) => {
+                let _ = worker.send(*c);
+                false
             }
-            Event::Resize(..) => effects.extend(app.update(Input::Resize)),
-            Event::Mouse(m) => {
-                use ratatui::crossterm::event::{MouseButton, MouseEventKind};
-                let input = match m.kind {
-                    MouseEventKind::Down(MouseButton::Left) => Some(Input::Click(m.column, m.row)),
-                    MouseEventKind::ScrollDown => Some(Input::Scroll(m.column, m.row, true)),
-                    MouseEventKind::ScrollUp => Some(Input::Scroll(m.column, m.row, false)),
-                    _ => None,
-                };
-                if let Some(i) = input {
-                    effects.extend(app.update(i));
-                }
-            }
-            _ => {}
+            _ => true,
+        });
+        if !effects.is_empty() || !event::poll(Duration::ZERO)? {
+            break;
         }
     }
+    Ok(())
 }
 
 #[cfg(test)]

@@ -219,3 +219,47 @@ fn signals_restore_the_terminal() {
         tmux(&["kill-session", "-t", &session]);
     }
 }
+
+/// A burst of 5,000 keys is read to the end: the key typed after it is
+/// answered at once (the terminal is drained, not read 1 kB per wake-up),
+/// and a 20,000-character filter typed into the prompt is capped, not a
+/// frozen screen.
+#[test]
+fn a_burst_of_keys_is_drained() {
+    if Command::new("tmux").arg("-V").output().is_err() {
+        assert!(std::env::var_os("CI").is_none(), "CI must install tmux");
+        return;
+    }
+    let dir = common::scratch("burst");
+    let session = format!("starsift-burst-{}", std::process::id());
+    let script = format!(
+        "cd {d} && XDG_DATA_HOME={d}/data XDG_STATE_HOME={d}/state {bin}; sleep 30",
+        d = dir.display(),
+        bin = env!("CARGO_BIN_EXE_starsift"),
+    );
+    tmux(&["kill-session", "-t", &session]);
+    tmux(&[
+        "new-session",
+        "-d",
+        "-s",
+        &session,
+        "-x",
+        "100",
+        "-y",
+        "30",
+        "bash",
+        "-c",
+        &script,
+    ]);
+    wait_for(&session, "Systems 321 of 321");
+    keys(&session, &["-l", &"n".repeat(5000)]);
+    keys(&session, &["?"]);
+    wait_for(&session, "Keys (Esc closes)");
+    keys(&session, &["Escape"]);
+    keys(&session, &["f"]);
+    keys(&session, &["-l", &format!("{}k=3", " ".repeat(20_000))]);
+    keys(&session, &["Escape"]);
+    keys(&session, &["?"]);
+    wait_for(&session, "Keys (Esc closes)");
+    tmux(&["kill-session", "-t", &session]);
+}

@@ -167,12 +167,21 @@ impl Action {
     }
 }
 
+/// The longest filter or find text, characters (a filter is a line, not a
+/// file; the cap keeps every keystroke's work bounded).
+pub const PROMPT_MAX: usize = 500;
+/// The longest note typed in the browser, characters.
+pub const NOTE_MAX: usize = 200;
+
 /// Typed input the keymap does not own (prompt text), and results of
 /// background work.
 #[derive(Clone, Debug)]
 pub enum Input {
     Action(Action),
     Char(char),
+    /// Text pasted into the terminal (bracketed paste): typed into a prompt
+    /// or a note, ignored elsewhere.
+    Paste(String),
     Backspace,
     /// A light-curve result from the background worker.
     Signal(CandidateId, Box<SignalResult>),
@@ -1310,6 +1319,10 @@ impl App {
                 self.type_char(ch);
                 Vec::new()
             }
+            Input::Paste(text) => {
+                self.paste(&text);
+                Vec::new()
+            }
             Input::Backspace => {
                 match &mut self.mode {
                     Mode::Prompt { text, .. } => {
@@ -1383,14 +1396,37 @@ impl App {
         matches!(self.mode, Mode::Prompt { .. } | Mode::Reasons { .. })
     }
 
+    /// Pasted text: into a prompt or a note up to its length cap, control
+    /// characters (a pasted line break) as spaces; outside them it is
+    /// ignored, never read as keys.
+    fn paste(&mut self, pasted: &str) {
+        let clean = |c: char| if c.is_control() { ' ' } else { c };
+        match &mut self.mode {
+            Mode::Prompt { text, .. } => {
+                let room = PROMPT_MAX.saturating_sub(text.chars().count());
+                text.extend(pasted.chars().map(clean).take(room));
+                self.prompt_changed();
+            }
+            Mode::Reasons { note, .. } => {
+                let room = NOTE_MAX.saturating_sub(note.chars().count());
+                note.extend(pasted.chars().map(clean).take(room));
+            }
+            _ => {
+                self.message = Some("paste ignored: text goes only into a prompt or a note".into());
+            }
+        }
+    }
+
     fn type_char(&mut self, ch: char) {
         match &mut self.mode {
             Mode::Prompt { text, .. } => {
-                text.push(ch);
-                self.prompt_changed();
+                if text.len() < PROMPT_MAX {
+                    text.push(ch);
+                    self.prompt_changed();
+                }
             }
             // A note is one line of plain text.
-            Mode::Reasons { note, .. } if !ch.is_control() && note.chars().count() < 200 => {
+            Mode::Reasons { note, .. } if !ch.is_control() && note.chars().count() < NOTE_MAX => {
                 note.push(ch)
             }
             _ => {}

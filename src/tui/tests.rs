@@ -4,7 +4,7 @@
 use ratatui::Terminal;
 use ratatui::backend::TestBackend;
 
-use super::app::{Action, App, Input, Mode, Pane};
+use super::app::{Action, App, Input, Mode, PROMPT_MAX, Pane};
 use super::draw::{Look, draw};
 use super::keymap::Keymap;
 use crate::decision::Decision;
@@ -855,4 +855,28 @@ fn skipped_rows_are_said_as_the_browser_opens() {
         screen(&app, 120, 30).contains("2 rows skipped"),
         "the status line says it too"
     );
+}
+
+#[test]
+fn a_paste_is_text_in_a_prompt_and_never_keys() {
+    let mut app = demo_app();
+    let before = app.live.counts();
+    // Outside a prompt a paste of "xxxx" rejects nothing.
+    app.update(Input::Paste("xxxx".into()));
+    assert_eq!(app.live.counts(), before);
+    assert!(
+        app.message
+            .as_deref()
+            .unwrap_or("")
+            .contains("paste ignored")
+    );
+    // In the filter prompt it is typed, line breaks as spaces, capped.
+    app.update(Input::Action(Action::Filter));
+    app.update(Input::Paste("k=3\n".into()));
+    assert!(screen(&app, 100, 30).contains("k=3"));
+    app.update(Input::Paste("y".repeat(100_000)));
+    match &app.mode {
+        Mode::Prompt { text, .. } => assert_eq!(text.chars().count(), PROMPT_MAX),
+        other => panic!("{other:?}"),
+    }
 }
