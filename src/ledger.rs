@@ -735,32 +735,29 @@ fn check_ours(path: &Path) -> Result<(), LedgerError> {
     .map_err(access)?;
     // Another process may be creating or writing it: wait as a writer would.
     conn.busy_timeout(BUSY_TIMEOUT).map_err(access)?;
-    let app: i32 = conn
-        .query_row("PRAGMA application_id", [], |r| r.get(0))
+    // One statement, so one snapshot: another starsift may commit the new
+    // ledger's schema between two separate reads.
+    let (app, version, objects, ours): (i32, i32, i64, bool) = conn
+        .query_row(
+            "SELECT (SELECT application_id FROM pragma_application_id()), \
+                    (SELECT user_version FROM pragma_user_version()), \
+                    (SELECT COUNT(*) FROM sqlite_master), \
+                    (SELECT COUNT(*) = 2 FROM sqlite_master WHERE type = 'table' \
+                        AND name IN ('decision', 'catalogue'))",
+            [],
+            |r| Ok((r.get(0)?, r.get(1)?, r.get(2)?, r.get(3)?)),
+        )
         .map_err(access)?;
     if app == APPLICATION_ID {
         return Ok(());
     }
-    // No tables at all: a database another starsift is creating this very
+    // Nothing in it at all: a database another starsift is creating this very
     // moment (its first transaction not yet committed), or an empty one.
-    let tables: i64 = conn
-        .query_row("SELECT COUNT(*) FROM sqlite_master", [], |r| r.get(0))
-        .map_err(access)?;
-    if app == 0 && tables == 0 {
+    if app == 0 && objects == 0 {
         return Ok(());
     }
     // A version-1 ledger predates the application id: it has our tables.
-    let has_v1: bool = conn
-        .query_row(
-            "SELECT COUNT(*) = 2 FROM sqlite_master WHERE type = 'table' AND name IN ('decision', 'catalogue')",
-            [],
-            |r| r.get(0),
-        )
-        .unwrap_or(false);
-    let version: i32 = conn
-        .query_row("PRAGMA user_version", [], |r| r.get(0))
-        .unwrap_or(0);
-    if has_v1 && version == 1 {
+    if ours && version == 1 {
         return Ok(());
     }
     Err(foreign(format!(

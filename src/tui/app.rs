@@ -1419,11 +1419,9 @@ impl App {
 
     fn type_char(&mut self, ch: char) {
         match &mut self.mode {
-            Mode::Prompt { text, .. } => {
-                if text.len() < PROMPT_MAX {
-                    text.push(ch);
-                    self.prompt_changed();
-                }
+            Mode::Prompt { text, .. } if text.len() < PROMPT_MAX => {
+                text.push(ch);
+                self.prompt_changed();
             }
             // A note is one line of plain text.
             Mode::Reasons { note, .. } if !ch.is_control() && note.chars().count() < NOTE_MAX => {
