@@ -226,6 +226,16 @@ impl Ledger {
     /// anything is written to it.
     pub fn open(path: &Path) -> Result<Ledger, LedgerError> {
         let name = path.display().to_string();
+        if let Some(fs) = network_file_system(path) {
+            return Err(LedgerError::Unwritable {
+                path: name,
+                message: format!(
+                    "it is on a network file system ({fs}), where SQLite's write-ahead log cannot \
+                     be shared safely between machines; keep the ledger on a local disk of one \
+                     machine (--ledger /local/path) and let the team reach it there, over SSH"
+                ),
+            });
+        }
         if path.exists() {
             check_ours(path)?;
         }
@@ -618,6 +628,44 @@ fn entry_from(r: &rusqlite::Row, shared: &mut Interner) -> rusqlite::Result<Entr
         tool_version: text(8)?.map(|v| shared.get(v)),
         undoes: r.get(9)?,
     })
+}
+
+/// The network file system holding `path` (its folder when the file does
+/// not exist yet), by the file-system magic numbers of statfs(2) on Linux;
+/// `None` on a local disk or elsewhere.
+#[cfg(target_os = "linux")]
+pub fn network_file_system(path: &Path) -> Option<&'static str> {
+    use std::os::unix::ffi::OsStrExt;
+    let probe = if path.exists() {
+        path.to_path_buf()
+    } else {
+        path.parent()
+            .filter(|p| !p.as_os_str().is_empty())
+            .unwrap_or(Path::new("."))
+            .to_path_buf()
+    };
+    let c = std::ffi::CString::new(probe.as_os_str().as_bytes()).ok()?;
+    let mut st: libc::statfs = unsafe { std::mem::zeroed() };
+    // SAFETY: `c` is NUL-terminated and `st` is a valid statfs to fill.
+    if unsafe { libc::statfs(c.as_ptr(), &mut st) } != 0 {
+        return None;
+    }
+    // statfs(2) and linux/magic.h (from memory).
+    match st.f_type as u64 {
+        0x6969 => Some("NFS"),
+        0x517b => Some("SMB"),
+        0xff53_4d42 => Some("CIFS"),
+        0xfe53_4d42 => Some("SMB2"),
+        0x5346_414f => Some("AFS"),
+        0x00c3_6400 => Some("Ceph"),
+        0x0102_1997 => Some("9P"),
+        _ => None,
+    }
+}
+
+#[cfg(not(target_os = "linux"))]
+pub fn network_file_system(_path: &Path) -> Option<&'static str> {
+    None
 }
 
 /// Why preparing a ledger stopped: another process holds it (try again) or
