@@ -630,6 +630,22 @@ fn entry_from(r: &rusqlite::Row, shared: &mut Interner) -> rusqlite::Result<Entr
     })
 }
 
+/// A path for an SQLite `file:` URI: `%`, `?` and `#` percent-encoded
+/// (RFC 3986; SQLite's URI file names).
+fn uri_path(path: &Path) -> String {
+    let text = path.display().to_string();
+    let mut out = String::with_capacity(text.len());
+    for c in text.chars() {
+        match c {
+            '%' => out.push_str("%25"),
+            '?' => out.push_str("%3f"),
+            '#' => out.push_str("%23"),
+            c => out.push(c),
+        }
+    }
+    out
+}
+
 /// The network file system holding `path` (its folder when the file does
 /// not exist yet), by the file-system magic numbers of statfs(2) on Linux;
 /// `None` on a local disk or elsewhere.
@@ -747,7 +763,7 @@ fn check_ours(path: &Path) -> Result<(), LedgerError> {
         path: name.clone(),
         why,
     };
-    let mut head = [0u8; 16];
+    let mut head = [0u8; 100];
     let len = std::fs::metadata(path).map(|m| m.len()).unwrap_or(0);
     if len == 0 {
         return Ok(()); // an empty file becomes a new ledger
@@ -759,9 +775,21 @@ fn check_ours(path: &Path) -> Result<(), LedgerError> {
             path: name.clone(),
             message: e.to_string(),
         })?;
-    if read < 16 || &head != SQLITE_MAGIC {
+    if read < 16 || &head[..16] != SQLITE_MAGIC {
         return Err(foreign("it is not an SQLite database".into()));
     }
+    // The database header (sqlite.org/fileformat2.html §1.3): the
+    // application id at offset 68 and the write-ahead-log flag at 18. A
+    // foreign id is refused without opening the file through SQLite at all.
+    let header_app = i32::from_be_bytes([head[68], head[69], head[70], head[71]]);
+    if read == 100 && header_app != 0 && header_app != APPLICATION_ID {
+        return Err(foreign(format!(
+            "an SQLite database of another application (application_id {header_app:#x})"
+        )));
+    }
+    // A WAL database no one has open (no -wal beside it) is read as
+    // immutable, so that looking at it leaves no -wal or -shm behind.
+    let idle_wal = read == 100 && head[18] == 2 && !Path::new(&format!("{name}-wal")).exists();
     // An SQLite file we may not write (or whose WAL index we cannot make)
     // is a ledger problem, not a foreign file.
     // The file starts as an SQLite database: if SQLite cannot read it, it is
@@ -776,10 +804,20 @@ fn check_ours(path: &Path) -> Result<(), LedgerError> {
             _ => classify(path, e),
         }
     };
-    let conn = Connection::open_with_flags(
-        path,
-        OpenFlags::SQLITE_OPEN_READ_ONLY | OpenFlags::SQLITE_OPEN_NO_MUTEX,
-    )
+    let conn = if idle_wal {
+        let uri = format!("file:{}?immutable=1", uri_path(path));
+        Connection::open_with_flags(
+            uri,
+            OpenFlags::SQLITE_OPEN_READ_ONLY
+                | OpenFlags::SQLITE_OPEN_NO_MUTEX
+                | OpenFlags::SQLITE_OPEN_URI,
+        )
+    } else {
+        Connection::open_with_flags(
+            path,
+            OpenFlags::SQLITE_OPEN_READ_ONLY | OpenFlags::SQLITE_OPEN_NO_MUTEX,
+        )
+    }
     .map_err(access)?;
     // Another process may be creating or writing it: wait as a writer would.
     conn.busy_timeout(BUSY_TIMEOUT).map_err(access)?;

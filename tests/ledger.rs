@@ -603,3 +603,48 @@ fn a_damaged_ledger_is_named_damaged_with_the_way_to_recover() {
         );
     }
 }
+
+/// Another application's SQLite database in WAL mode, with or without an
+/// application id, is refused and gets no -wal or -shm beside it.
+#[test]
+fn a_foreign_wal_database_gets_no_side_files() {
+    let (dir, cat) = demo_copy("foreign-wal");
+    let id = &system_of(1)[0];
+    for (name, app) in [("plain.db", 0), ("tagged.db", 42)] {
+        let db = dir.join(name);
+        {
+            let c = rusqlite::Connection::open(&db).unwrap();
+            c.query_row("PRAGMA journal_mode=WAL", [], |_| Ok(()))
+                .unwrap();
+            c.execute_batch(&format!(
+                "PRAGMA application_id = {app}; CREATE TABLE notes (t TEXT); INSERT INTO notes VALUES ('mine');"
+            ))
+            .unwrap();
+        }
+        assert!(!dir.join(format!("{name}-wal")).exists());
+        let before = std::fs::read(&db).unwrap();
+        let o = starsift(&[
+            "decide",
+            s(&cat),
+            "--candidate",
+            id,
+            "--decision",
+            "kept",
+            "--ledger",
+            s(&db),
+        ]);
+        assert_eq!(o.status.code(), Some(2), "{name}: {}", stderr(&o));
+        assert!(
+            stderr(&o).contains("not a starsift ledger"),
+            "{}",
+            stderr(&o)
+        );
+        assert_eq!(std::fs::read(&db).unwrap(), before, "{name} changed");
+        for side in ["-wal", "-shm"] {
+            assert!(
+                !dir.join(format!("{name}{side}")).exists(),
+                "{name}{side} was created"
+            );
+        }
+    }
+}
