@@ -914,13 +914,38 @@ fn writable_dir(dir: &Path) -> bool {
     }
 }
 
-/// The login name: `$USER`, else `$LOGNAME`, else `unknown`.
+/// The login name: `$USER`, else `$LOGNAME`, else the system's name for
+/// this user (the password database, getpwuid_r(3)), else `unknown`.
 pub fn login_name() -> String {
     std::env::var("USER")
         .or_else(|_| std::env::var("LOGNAME"))
         .ok()
         .filter(|s| !s.trim().is_empty())
+        .or_else(system_login)
         .unwrap_or_else(|| "unknown".into())
+}
+
+#[cfg(unix)]
+fn system_login() -> Option<String> {
+    let mut pwd: libc::passwd = unsafe { std::mem::zeroed() };
+    let mut buf = vec![0 as libc::c_char; 4096];
+    let mut found: *mut libc::passwd = std::ptr::null_mut();
+    // SAFETY: every pointer is valid for the call; on success `found`
+    // points to `pwd`, whose strings live in `buf`.
+    let rc = unsafe {
+        libc::getpwuid_r(libc::getuid(), &mut pwd, buf.as_mut_ptr(), buf.len(), &mut found)
+    };
+    if rc != 0 || found.is_null() || pwd.pw_name.is_null() {
+        return None;
+    }
+    // SAFETY: pw_name is a NUL-terminated string inside `buf`.
+    let name = unsafe { std::ffi::CStr::from_ptr(pwd.pw_name) };
+    Some(name.to_string_lossy().into_owned()).filter(|s| !s.is_empty())
+}
+
+#[cfg(not(unix))]
+fn system_login() -> Option<String> {
+    None
 }
 
 #[cfg(test)]

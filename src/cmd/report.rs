@@ -171,30 +171,39 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         let _ = writeln!(r, "- {reason} ({}): {}", ids.len(), ids.join(", "));
     }
     let _ = writeln!(r, "\n## Decisions per vetter\n");
+    // An undo row and the row it reverted are not decisions: the undos are
+    // counted apart.
+    let undone: std::collections::HashSet<i64> =
+        v.history.iter().filter_map(|e| e.undoes).collect();
     let mut per: BTreeMap<&str, BTreeMap<&str, usize>> = BTreeMap::new();
     for e in &v.history {
-        *per.entry(&*e.vetter)
-            .or_default()
-            .entry(e.decision.name())
-            .or_default() += 1;
+        let kind = if e.undoes.is_some() {
+            "undo"
+        } else if undone.contains(&e.id) {
+            continue;
+        } else {
+            e.decision.name()
+        };
+        *per.entry(&*e.vetter).or_default().entry(kind).or_default() += 1;
     }
     if per.is_empty() {
         let _ = writeln!(r, "No decisions yet.");
     } else {
         let _ = writeln!(
             r,
-            "| vetter | open | kept | parked | rejected |\n|---|---|---|---|---|"
+            "| vetter | open | kept | parked | rejected | undone |\n|---|---|---|---|---|---|"
         );
         for (who, d) in &per {
             let g = |k: &str| d.get(k).copied().unwrap_or(0);
             let _ = writeln!(
                 r,
-                "| {} | {} | {} | {} | {} |",
+                "| {} | {} | {} | {} | {} | {} |",
                 md(who),
                 g("open"),
                 g("kept"),
                 g("parked"),
-                g("rejected")
+                g("rejected"),
+                g("undo")
             );
         }
     }

@@ -580,12 +580,14 @@ pub fn static_order(cat: &Catalogue, sort: SortKey, descending: bool) -> Option<
 }
 
 /// A decision as made and as undone.
-#[derive(Clone, Copy, Debug, PartialEq)]
+#[derive(Clone, Debug, PartialEq)]
 struct Step {
     candidate: CandidateId,
     before: Decision,
     after: Decision,
     ledger_id: Option<i64>,
+    /// The note written with the decision, written again by a redo.
+    note: Option<String>,
 }
 
 /// The whole browser state.
@@ -1890,6 +1892,7 @@ impl App {
                 before: self.live.decision(c),
                 after: d,
                 ledger_id: id,
+                note: note.map(str::to_string),
             })
             .collect();
         if let [one] = steps.as_slice() {
@@ -1960,7 +1963,8 @@ impl App {
             .iter()
             .map(|st| (st.candidate, st.after, None))
             .collect();
-        match self.write(&rows, None) {
+        let note = group[0].note.clone();
+        match self.write(&rows, note.as_deref()) {
             Some(steps) => {
                 if group.len() > 1 {
                     self.message = Some(format!(

@@ -337,6 +337,12 @@ fn a_note_typed_in_the_reason_picker_goes_to_the_ledger() {
     );
     let h = ledger_history(&app, c);
     assert_eq!(h.last().unwrap().note.as_deref(), Some("odd/even x"));
+    // Undo, then redo: the redone decision keeps its note.
+    act(&mut app, Action::Undo);
+    act(&mut app, Action::Redo);
+    let h = ledger_history(&app, c);
+    assert_eq!(h.len(), 3, "decision, undo, redo");
+    assert_eq!(h.last().unwrap().note.as_deref(), Some("odd/even x"));
     let _ = std::fs::remove_dir_all(&dir);
 }
 
