@@ -933,7 +933,13 @@ fn system_login() -> Option<String> {
     // SAFETY: every pointer is valid for the call; on success `found`
     // points to `pwd`, whose strings live in `buf`.
     let rc = unsafe {
-        libc::getpwuid_r(libc::getuid(), &mut pwd, buf.as_mut_ptr(), buf.len(), &mut found)
+        libc::getpwuid_r(
+            libc::getuid(),
+            &mut pwd,
+            buf.as_mut_ptr(),
+            buf.len(),
+            &mut found,
+        )
     };
     if rc != 0 || found.is_null() || pwd.pw_name.is_null() {
         return None;
