@@ -325,6 +325,21 @@ fn damaged_fits_tables_are_errors_not_crashes() {
     assert!(m.contains("lie.fits") && m.contains("NAXIS2"), "{m}");
     assert!(!m.contains("FitsError {"), "debug dump in {m}");
 
+    // A column type the FITS binding does not know (TFORM = '1C', complex,
+    // found by the fuzz target) is this file's error, not a panic.
+    let mut bytes = std::fs::read(&p).unwrap();
+    let at = bytes
+        .windows(20)
+        .position(|w| w.starts_with(b"TFORM1  = '1D"))
+        .expect("TFORM1 card");
+    bytes[at + 12] = b'C';
+    let complex = d.join("complex.fits");
+    std::fs::write(&complex, &bytes).unwrap();
+    let m = LightCurve::read(&complex, &LcColumns::default())
+        .unwrap_err()
+        .to_string();
+    assert!(m.contains("complex.fits"), "{m}");
+
     // A vector column (TFORM = '2D') is named, not indexed out of bounds.
     use fitsio::tables::{ColumnDataType, ColumnDescription};
     let vec_path = d.join("vector.fits");
@@ -394,4 +409,35 @@ fn epochs_and_light_curves_from_different_zeros_are_named_once() {
     assert!(on.status.success(), "{}", stderr(&on));
     assert!(!stdout(&on).contains("not-recovered"), "{}", stdout(&on));
     assert!(!stderr(&on).contains("--lc-time-offset"), "{}", stderr(&on));
+}
+
+/// A fuzz-found input: one byte of the data of a valid FITS light curve
+/// changed (offset 3929 to 'W') once panicked with an index out of bounds.
+#[test]
+fn fuzz_found_fits_byte_change_is_no_panic() {
+    let d = scratch("fits-fuzz");
+    let p = d.join("valid.fits");
+    let t: Vec<f64> = (0..300).map(|i| i as f64 * 0.02).collect();
+    let f: Vec<f64> = t.iter().map(|x| 1.0 + 1e-3 * (x * 7.0).sin()).collect();
+    write_fits(&p, &t, &f, &vec![1e-3; 300]).unwrap();
+    let mut bytes = std::fs::read(&p).unwrap();
+    bytes[3929] = 87;
+    let q = d.join("changed.fits");
+    std::fs::write(&q, &bytes).unwrap();
+    if let Ok(lc) = LightCurve::read(&q, &LcColumns::default()) {
+        use starsift::lightcurve::analysis::{Context, DetrendSettings, Ephemeris, diagnose};
+        let me = Ephemeris {
+            period_d: 2.5,
+            epoch: 1.0,
+            duration_h: 2.0,
+        };
+        let ctx = Context {
+            ror: 0.05,
+            a_rstar: Some(10.0),
+            teff_k: Some(5500.0),
+            catalogue_depth_ppm: Some(1000.0),
+            catalogue_snr: Some(20.0),
+        };
+        let _ = diagnose(&lc, &me, &[], &ctx, &DetrendSettings::default());
+    }
 }

@@ -321,8 +321,13 @@ fn write_table(
         write!(out, "{chart}")?;
         writeln!(out)?;
     }
+    // A box with no sample in it says so, instead of NaN ± NaN.
     let m = |x: crate::lightcurve::analysis::Measure| {
-        format!("{:.0} ± {:.0} ppm ({:.1}σ)", x.value, x.err, x.z())
+        if x.value.is_finite() && x.err.is_finite() {
+            format!("{:.0} ± {:.0} ppm ({:.1}σ)", x.value, x.err, x.z())
+        } else {
+            "not measured: no sample of the light curve falls there".to_string()
+        }
     };
     writeln!(out, "diagnostics")?;
     writeln!(

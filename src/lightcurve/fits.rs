@@ -12,6 +12,18 @@ use super::{LcColumns, LcError, resolve_columns};
 type Columns = (Vec<f64>, Vec<f64>, Option<Vec<f64>>);
 
 pub(super) fn read_table(path: &Path, cols: &LcColumns) -> Result<Columns, LcError> {
+    // The FITS binding panics on some damaged headers (an unknown TFORM
+    // type, for one): that is this file's error, never the process's.
+    let what = format!("reading {}", path.display());
+    crate::contain::contained(&what, || read_table_unguarded(path, cols)).unwrap_or_else(|why| {
+        Err(LcError::Fits {
+            path: path.display().to_string(),
+            message: why,
+        })
+    })
+}
+
+fn read_table_unguarded(path: &Path, cols: &LcColumns) -> Result<Columns, LcError> {
     let name = path.display().to_string();
     let err = |e: fitsio::errors::Error| LcError::Fits {
         path: name.clone(),

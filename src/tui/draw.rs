@@ -517,17 +517,21 @@ fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             source,
             ..
         }) => {
-            let note = format!(
-                "depth {:.0}±{:.0} · odd {:.0} even {:.0} (Z {:.1}) · sec {:.0}±{:.0} · flat {:.2}",
-                d.depth.value,
-                d.depth.err,
-                d.odd.value,
-                d.even.value,
-                d.odd_even_z,
-                d.secondary.value,
-                d.secondary.err,
-                d.flat_fraction
-            );
+            let note = if d.depth.value.is_finite() {
+                format!(
+                    "depth {:.0}±{:.0} · odd {:.0} even {:.0} (Z {:.1}) · sec {:.0}±{:.0} · flat {:.2}",
+                    d.depth.value,
+                    d.depth.err,
+                    d.odd.value,
+                    d.even.value,
+                    d.odd_even_z,
+                    d.secondary.value,
+                    d.secondary.err,
+                    d.flat_fraction
+                )
+            } else {
+                "no sample of the light curve falls in a transit of this ephemeris".to_string()
+            };
             let src = std::path::Path::new(source)
                 .file_name()
                 .map_or(source.clone(), |f| f.to_string_lossy().into_owned());
