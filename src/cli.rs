@@ -77,7 +77,7 @@ pub struct CatalogueArgs {
 #[derive(Debug, Clone, Default, clap::Args)]
 pub struct ModelArgs {
     /// N: number of target stars searched (overrides survey.toml).
-    #[arg(long, value_name = "N")]
+    #[arg(long, value_name = "N", value_parser = clap::value_parser!(u64).range(1..))]
     pub targets: Option<u64>,
     /// f: false-positive fraction of single-candidate stars, in (0, 1)
     /// [default: survey.toml, else 0.1]; or by planet radius in Earth radii,
@@ -147,21 +147,26 @@ impl LedgerArgs {
     /// must exist: a mistyped path is an error, not an empty ledger), else
     /// the default one if it exists; `None` when there is none. Nothing is
     /// created or written.
+    /// For a read-only command: a given `--ledger` must exist (checked
+    /// before any data is read).
+    pub fn check_exists(&self) -> Result<(), CliError> {
+        match &self.ledger {
+            Some(p) if !p.exists() => Err(CliError::Input(format!(
+                "--ledger {}: no such ledger (a read-only command never creates one)",
+                crate::sanitize::clean(&p.display().to_string())
+            ))),
+            _ => Ok(()),
+        }
+    }
+
     pub fn open_existing(
         &self,
         input: &CatalogueArgs,
         loaded: &Loaded,
     ) -> Result<Option<crate::ledger::Ledger>, CliError> {
+        self.check_exists()?;
         let path = match &self.ledger {
-            Some(p) => {
-                if !p.exists() {
-                    return Err(CliError::Input(format!(
-                        "--ledger {}: no such ledger (a read-only command never creates one)",
-                        crate::sanitize::clean(&p.display().to_string())
-                    )));
-                }
-                p.clone()
-            }
+            Some(p) => p.clone(),
             None => {
                 let p = default_ledger(input)?.0;
                 if !p.exists() {

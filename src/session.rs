@@ -55,6 +55,9 @@ impl Session {
             Ok(_) | Err(CliError::Model(ModelError::NoTargets(_))) => {}
             Err(e) => return Err(e),
         }
+        if ledger == LedgerUse::Read {
+            args.ledger.check_exists()?;
+        }
         let loaded = args.input.load()?;
         Session::with_loaded(args, loaded, ledger)
     }

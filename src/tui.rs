@@ -359,7 +359,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         res_tx,
     );
     // The checks (and, when asked, the light-curve checks) in the background.
-    app.checks_pending = true;
+    app.update(Input::ChecksStarted);
     let (checks_tx, checks_rx) = mpsc::channel();
     let (progress_tx, progress_rx) = mpsc::channel();
     {
@@ -412,7 +412,8 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     }
     let guard = Guard::enter(args.mouse)?;
     let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
-    let mut effects = app.update(Input::Resize);
+    let (w, h) = terminal::size().unwrap_or((80, 24));
+    let mut effects = app.update(Input::Resize(w, h));
     const FRAME: Duration = Duration::from_millis(16);
     let mut last_draw = std::time::Instant::now() - FRAME;
     loop {
@@ -449,7 +450,6 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             read_batch(&mut app, &mut effects, &worker)?;
             continue;
         }
-        app.page = term.size().map_or(10, |s| (s.height as usize / 3).max(1));
         term.draw(|f| draw::draw(&app, f, look))?;
         last_draw = std::time::Instant::now();
         if let Some((done, total)) = progress_rx.try_iter().last() {

@@ -190,7 +190,10 @@ pub enum Input {
     /// Orders of the sorts no decision moves (`static_order`), computed on
     /// a background thread at start-up: (sort, descending) and the stars.
     Orders(Vec<((SortKey, bool), Vec<StarId>)>),
-    Resize,
+    /// The terminal's size (columns, rows): a page is a third of the rows.
+    Resize(u16, u16),
+    /// The checks started on a background thread.
+    ChecksStarted,
     /// A line for the message bar, from a background thread.
     Notice(String),
     /// The background checks stopped without a result: why.
@@ -1286,7 +1289,14 @@ impl App {
                 self.signals.insert(c, *result);
                 Vec::new()
             }
-            Input::Resize => Vec::new(),
+            Input::Resize(_, rows) => {
+                self.page = (rows as usize / 3).max(1);
+                Vec::new()
+            }
+            Input::ChecksStarted => {
+                self.checks_pending = true;
+                Vec::new()
+            }
             Input::Orders(orders) => {
                 for (at, order) in orders {
                     // Cached as the least recently used, while there is room.

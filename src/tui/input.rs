@@ -39,7 +39,7 @@ pub fn translate(app: &App, event: Event) -> Translated {
             }
         }
         Event::Paste(text) => Some(Input::Paste(text)),
-        Event::Resize(..) => Some(Input::Resize),
+        Event::Resize(w, h) => Some(Input::Resize(w, h)),
         Event::Mouse(m) => match m.kind {
             MouseEventKind::Down(MouseButton::Left) => Some(Input::Click(m.column, m.row)),
             MouseEventKind::ScrollDown => Some(Input::Scroll(m.column, m.row, true)),
