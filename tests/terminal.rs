@@ -50,41 +50,76 @@ fn keys(session: &str, k: &[&str]) {
     sleep(Duration::from_millis(250));
 }
 
-#[test]
-fn browse_the_demo_reject_one_of_three_and_quit() {
-    if Command::new("tmux").arg("-V").output().is_err() {
-        assert!(
-            std::env::var_os("CI").is_none(),
-            "CI must install tmux (see .ci/run)"
-        );
-        eprintln!("tmux is not installed: skipping the terminal test");
-        return;
+/// True when tmux can run here; on CI it must (see .ci/run).
+fn have_tmux() -> bool {
+    if Command::new("tmux").arg("-V").output().is_ok() {
+        return true;
     }
-    let dir = common::scratch("tmux");
-    let session = format!("starsift-test-{}", std::process::id());
+    assert!(
+        std::env::var_os("CI").is_none(),
+        "CI must install tmux (see .ci/run)"
+    );
+    eprintln!("tmux is not installed: skipping the terminal test");
+    false
+}
+
+/// Starts the browser on the demo in a new tmux session of `cols` x `rows`,
+/// with its data and state in `dir`. The shell then records the exit status
+/// and the terminal's settings (`stty -a`, in `dir/stty.txt`) and writes
+/// `shell-ok` into the returned status file: proof the terminal was usable.
+fn start(session: &str, dir: &std::path::Path, cols: &str, rows: &str) -> std::path::PathBuf {
     let status = dir.join("status");
-    // The shell runs the browser, then records its exit status and whether a
-    // plain command still works afterwards (the terminal was restored).
     let script = format!(
         "cd {d} && XDG_DATA_HOME={d}/data XDG_STATE_HOME={d}/state {bin}; echo $? > {s}; stty -a > {d}/stty.txt; echo shell-ok >> {s}; sleep 30",
         d = dir.display(),
         bin = env!("CARGO_BIN_EXE_starsift"),
         s = status.display()
     );
-    tmux(&["kill-session", "-t", &session]);
+    tmux(&["kill-session", "-t", session]);
     tmux(&[
         "new-session",
         "-d",
         "-s",
-        &session,
+        session,
         "-x",
-        "80",
+        cols,
         "-y",
-        "24",
+        rows,
         "bash",
         "-c",
         &script,
     ]);
+    status
+}
+
+/// Waits until the browser has ended and the shell after it ran; returns
+/// the status file's text and the terminal settings it left.
+fn ended(dir: &std::path::Path, status: &std::path::Path, what: &str) -> (String, String) {
+    let start = Instant::now();
+    while !std::fs::read_to_string(status)
+        .unwrap_or_default()
+        .contains("shell-ok")
+    {
+        assert!(
+            start.elapsed() < Duration::from_secs(10),
+            "{what}: the browser did not end"
+        );
+        sleep(Duration::from_millis(100));
+    }
+    (
+        std::fs::read_to_string(status).unwrap(),
+        std::fs::read_to_string(dir.join("stty.txt")).unwrap(),
+    )
+}
+
+#[test]
+fn browse_the_demo_reject_one_of_three_and_quit() {
+    if !have_tmux() {
+        return;
+    }
+    let dir = common::scratch("tmux");
+    let session = format!("starsift-test-{}", std::process::id());
+    let status = start(&session, &dir, "80", "24");
     wait_for(&session, "Systems 321 of 321");
     // The checks (light curves included) run in the background and change
     // the odds when they arrive: wait for them.
@@ -123,20 +158,8 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
     );
     // The two-candidate odds: the same as every other 2-candidate star now.
     keys(&session, &["q"]);
-    let start = Instant::now();
-    while !std::fs::read_to_string(&status)
-        .unwrap_or_default()
-        .contains("shell-ok")
-    {
-        assert!(
-            start.elapsed() < Duration::from_secs(10),
-            "the browser did not quit"
-        );
-        sleep(Duration::from_millis(100));
-    }
-    let s = std::fs::read_to_string(&status).unwrap();
+    let (s, stty) = ended(&dir, &status, "q");
     assert!(s.starts_with("0\n"), "exit status: {s}");
-    let stty = std::fs::read_to_string(dir.join("stty.txt")).unwrap();
     assert!(
         stty.contains(" icanon") && stty.contains(" echo "),
         "the terminal was not restored: {stty}"
@@ -154,34 +177,13 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
 /// restored (echo and line editing back) and the place saved.
 #[test]
 fn signals_restore_the_terminal() {
-    if Command::new("tmux").arg("-V").output().is_err() {
-        assert!(std::env::var_os("CI").is_none(), "CI must install tmux");
+    if !have_tmux() {
         return;
     }
     for sig in ["TERM", "HUP", "INT"] {
         let dir = common::scratch(&format!("signal-{sig}"));
         let session = format!("starsift-sig-{sig}-{}", std::process::id());
-        let status = dir.join("status");
-        let script = format!(
-            "cd {d} && XDG_DATA_HOME={d}/data XDG_STATE_HOME={d}/state {bin}; echo $? > {s}; stty -a > {d}/stty.txt; echo shell-ok >> {s}; sleep 30",
-            d = dir.display(),
-            bin = env!("CARGO_BIN_EXE_starsift"),
-            s = status.display()
-        );
-        tmux(&["kill-session", "-t", &session]);
-        tmux(&[
-            "new-session",
-            "-d",
-            "-s",
-            &session,
-            "-x",
-            "80",
-            "-y",
-            "24",
-            "bash",
-            "-c",
-            &script,
-        ]);
+        let status = start(&session, &dir, "80", "24");
         wait_for(&session, "Systems 321 of 321");
         let shell = tmux(&["list-panes", "-t", &session, "-F", "#{pane_pid}"]);
         let child = Command::new("pgrep")
@@ -194,18 +196,7 @@ fn signals_restore_the_terminal() {
             .args([&format!("-{sig}"), &pid])
             .status()
             .unwrap();
-        let start = Instant::now();
-        while !std::fs::read_to_string(&status)
-            .unwrap_or_default()
-            .contains("shell-ok")
-        {
-            assert!(
-                start.elapsed() < Duration::from_secs(10),
-                "SIG{sig}: the browser did not stop"
-            );
-            sleep(Duration::from_millis(100));
-        }
-        let stty = std::fs::read_to_string(dir.join("stty.txt")).unwrap();
+        let (_, stty) = ended(&dir, &status, &format!("SIG{sig}"));
         assert!(
             stty.contains(" icanon") && stty.contains(" echo "),
             "SIG{sig}: the terminal was not restored: {stty}"
@@ -226,31 +217,12 @@ fn signals_restore_the_terminal() {
 /// frozen screen.
 #[test]
 fn a_burst_of_keys_is_drained() {
-    if Command::new("tmux").arg("-V").output().is_err() {
-        assert!(std::env::var_os("CI").is_none(), "CI must install tmux");
+    if !have_tmux() {
         return;
     }
     let dir = common::scratch("burst");
     let session = format!("starsift-burst-{}", std::process::id());
-    let script = format!(
-        "cd {d} && XDG_DATA_HOME={d}/data XDG_STATE_HOME={d}/state {bin}; sleep 30",
-        d = dir.display(),
-        bin = env!("CARGO_BIN_EXE_starsift"),
-    );
-    tmux(&["kill-session", "-t", &session]);
-    tmux(&[
-        "new-session",
-        "-d",
-        "-s",
-        &session,
-        "-x",
-        "100",
-        "-y",
-        "30",
-        "bash",
-        "-c",
-        &script,
-    ]);
+    start(&session, &dir, "100", "30");
     wait_for(&session, "Systems 321 of 321");
     keys(&session, &["-l", &"n".repeat(5000)]);
     keys(&session, &["?"]);
