@@ -385,7 +385,7 @@ pub fn run_lightcurves_counted(
                         epoch: cat.value(Field::Epoch, c).unwrap_or(f64::NAN),
                         first: span.0,
                         last: span.1,
-                        not_recovered: d.recovery != Recovery::Shown,
+                        not_recovered: !matches!(d.recovery, Recovery::Shown | Recovery::Hidden),
                     });
                 }
                 Err(e) => {

@@ -178,6 +178,9 @@ fn recovery_text(r: &crate::lightcurve::analysis::Recovery) -> String {
     use crate::lightcurve::analysis::Recovery;
     match r {
         Recovery::Shown => "shown (or the test cannot tell)".into(),
+        Recovery::Hidden => {
+            "not measured: every transit in the data falls on another signal's transit".into()
+        }
         Recovery::NoTransitInData { first, last } => {
             format!("no transit of the ephemeris in the light curve ({first:.4} to {last:.4})")
         }

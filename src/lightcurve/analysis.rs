@@ -586,7 +586,7 @@ pub fn diagnose_detrended(
     let in_transit_samples = core_samples.iter().filter(|&&i| !masked_others[i]).count();
     let recovered = recovery(
         depth,
-        in_transit_samples,
+        (core_samples.len(), in_transit_samples),
         (lc.time[0], lc.time[lc.time.len() - 1]),
         ctx.catalogue_depth_ppm,
         ctx.catalogue_snr,
@@ -768,7 +768,7 @@ fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
     // When the transit itself is missing, the deepest dip elsewhere is more
     // likely the transit at another epoch than a secondary eclipse: it is
     // named in the not-recovered finding instead.
-    let shown = d.recovery == Recovery::Shown;
+    let shown = matches!(d.recovery, Recovery::Shown | Recovery::Hidden);
     if let (Some(e), true) = (d.eclipse, shown) {
         if !out.iter().any(|(f, _)| *f == Flag::Secondary)
             && e.depth.z() >= e.threshold_z
@@ -788,7 +788,7 @@ fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
         _ => String::new(),
     };
     match &d.recovery {
-        Recovery::Shown => {}
+        Recovery::Shown | Recovery::Hidden => {}
         Recovery::NoTransitInData { first, last } => out.push((
             Flag::NotRecovered,
             format!(

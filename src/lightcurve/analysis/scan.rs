@@ -197,6 +197,10 @@ pub enum Recovery {
     /// No sample of the light curve falls within a transit of the
     /// ephemeris (first and last time of the light curve).
     NoTransitInData { first: f64, last: f64 },
+    /// Every transit in the data falls on another signal's transit, which
+    /// is masked: the depth cannot be measured, which says nothing against
+    /// the signal (not a flag).
+    Hidden,
     /// The measured depth is below half the catalogue's and inconsistent
     /// with it: Z = (δ_cat − δ)/√(σ² + σ_cat²).
     TooShallow { catalogue_ppm: f64, z: f64 },
@@ -206,11 +210,12 @@ pub enum Recovery {
 /// δ_cat/SNR when the catalogue gives an SNR (else the measurement's error
 /// alone). Not recovered when Z ≥ `z_min` and the measured depth is below
 /// half the catalogue's (a physical size as well as a significance: common
-/// practice, no source). `in_transit` is the number of unmasked samples in
-/// the central half of the transits.
+/// practice, no source). `in_transit` counts the samples in the central
+/// half of the transits, and how many of them are not masked by another
+/// signal.
 pub fn recovery(
     measured: Measure,
-    in_transit: usize,
+    (in_transit, unmasked): (usize, usize),
     span: (f64, f64),
     catalogue_ppm: Option<f64>,
     catalogue_snr: Option<f64>,
@@ -221,6 +226,9 @@ pub fn recovery(
             first: span.0,
             last: span.1,
         };
+    }
+    if unmasked == 0 {
+        return Recovery::Hidden;
     }
     let Some(cat) = catalogue_ppm.filter(|d| *d > 0.0) else {
         return Recovery::Shown;
@@ -258,23 +266,29 @@ mod tests {
     fn recovery_needs_both_a_significance_and_a_size() {
         let m = |v, e| Measure { value: v, err: e };
         // 13 ± 9 ppm against 54.5 ppm at SNR 11: Z = 41.5/√(81 + 24.5) = 4.04.
-        match recovery(m(13.0, 9.0), 100, (0.0, 1.0), Some(54.5), Some(11.0), 3.0) {
+        match recovery(m(13.0, 9.0), (100, 100), (0.0, 1.0), Some(54.5), Some(11.0), 3.0) {
             Recovery::TooShallow { z, .. } => assert!((z - 4.04).abs() < 0.01, "{z}"),
             other => panic!("{other:?}"),
         }
         // 40 ± 2 ppm against 54.5: significant but not below half.
         assert_eq!(
-            recovery(m(40.0, 2.0), 100, (0.0, 1.0), Some(54.5), Some(11.0), 3.0),
+            recovery(m(40.0, 2.0), (100, 100), (0.0, 1.0), Some(54.5), Some(11.0), 3.0),
             Recovery::Shown
         );
         // Below half but within the noise.
         assert_eq!(
-            recovery(m(20.0, 30.0), 100, (0.0, 1.0), Some(54.5), None, 3.0),
+            recovery(m(20.0, 30.0), (100, 100), (0.0, 1.0), Some(54.5), None, 3.0),
             Recovery::Shown
         );
         assert!(matches!(
-            recovery(m(f64::NAN, f64::NAN), 0, (1.0, 2.0), Some(54.5), None, 3.0),
+            recovery(m(f64::NAN, f64::NAN), (0, 0), (1.0, 2.0), Some(54.5), None, 3.0),
             Recovery::NoTransitInData { .. }
         ));
+        // Transits in the data, all under another signal's: not measured,
+        // not a flag.
+        assert_eq!(
+            recovery(m(f64::NAN, f64::NAN), (24, 0), (1.0, 2.0), Some(54.5), None, 3.0),
+            Recovery::Hidden
+        );
     }
 }
