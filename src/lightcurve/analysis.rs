@@ -10,8 +10,8 @@ use crate::flags::Flag;
 
 mod scan;
 pub use scan::{
-    Eclipse, Recovery, deepest_eclipse, null_scatter_factor, phase_boxes, phase_scatter_factor,
-    recovery, trials_threshold,
+    Eclipse, Recovery, deepest_eclipse, null_scatter_factor, phase_boxes, phase_boxes_local,
+    phase_scatter_factor, recovery, trials_threshold,
 };
 
 /// Period, epoch and total duration of one signal.
@@ -592,7 +592,18 @@ pub fn diagnose_detrended(
         ctx.catalogue_snr,
         FLAG_Z,
     );
-    let eclipse = deepest_eclipse(&boxes, noise_factor);
+    // The search over the whole orbit measures each box against its own
+    // neighbourhood in the flux as read (no trend takes up an eclipse), with
+    // errors from the larger of the noise factor and the boxes' own scatter.
+    let mut mine_and_others = apart.clone();
+    mine_and_others.push(*me);
+    let busy = in_transit(&lc.time, &mine_and_others, 1.2);
+    let local = phase_boxes_local(&lc.time, &lc.flux, &busy, me, scatter);
+    let eclipse = if local.is_empty() {
+        deepest_eclipse(&boxes, noise_factor)
+    } else {
+        deepest_eclipse(&local, noise_factor.max(phase_scatter_factor(&local)))
+    };
     let odd = box_depth(&|i| core(i) && me.cycle(lc.time[i]).rem_euclid(2) == 1);
     let even = box_depth(&|i| core(i) && me.cycle(lc.time[i]).rem_euclid(2) == 0);
     let sec_eph = Ephemeris {

@@ -83,6 +83,79 @@ pub fn phase_boxes(
         .collect()
 }
 
+/// The same boxes as [`phase_boxes`], each measured against its own
+/// neighbourhood instead of a fitted trend, so that no trend takes up part
+/// of an eclipse anywhere in the orbit (a trend fitted through an unmasked
+/// eclipse takes up to a third of it). The flux, not detrended, is binned
+/// in time in steps of a quarter of the duration; at every step a core of
+/// half the duration is compared with the ring 1.2–3 half-durations around
+/// it (as a single transit's depth is in `diagnose`): depth = ring mean −
+/// core mean, white variance σ²(1/n_core + 1/n_ring). Each such depth is
+/// added, by inverse variance, to the orbital-phase box its core falls in.
+/// `skip` marks samples of the candidate's own and the other signals'
+/// transits. Empty when the time grid would be too fine (falls back to
+/// [`phase_boxes`]).
+pub fn phase_boxes_local(
+    time: &[f64],
+    flux: &[f64],
+    skip: &[bool],
+    me: &Ephemeris,
+    sigma: f64,
+) -> Vec<(f64, Measure)> {
+    let (p, half) = (me.period_d, me.duration_h / 48.0);
+    if time.is_empty() || !(p > 0.0 && half > 0.0 && sigma > 0.0) {
+        return Vec::new();
+    }
+    let step = half / 2.0;
+    let phase_bins = (p / step).ceil();
+    let span = time[time.len() - 1] - time[0];
+    let time_bins = (span / step).ceil() + 1.0;
+    if !(8.0..=4.0e6).contains(&phase_bins) || !(16.0..=2.0e7).contains(&time_bins) {
+        return Vec::new();
+    }
+    let (phase_bins, time_bins) = (phase_bins as usize, time_bins as usize);
+    let (mut sum, mut count) = (vec![0.0; time_bins], vec![0u32; time_bins]);
+    for i in 0..time.len() {
+        if !skip[i] {
+            let b = (((time[i] - time[0]) / step) as usize).min(time_bins - 1);
+            sum[b] += flux[i];
+            count[b] += 1;
+        }
+    }
+    let (mut wsum, mut w) = (vec![0.0; phase_bins], vec![0.0; phase_bins]);
+    for j in 5..time_bins.saturating_sub(7) {
+        let (ci, ni) = (sum[j] + sum[j + 1], count[j] + count[j + 1]);
+        let ring = (j - 5..=j - 2).chain(j + 3..=j + 6);
+        let (co, no) = ring.fold((0.0, 0u32), |a, b| (a.0 + sum[b], a.1 + count[b]));
+        if ni < 2 || no < 4 {
+            continue;
+        }
+        let depth = co / no as f64 - ci / ni as f64;
+        let var = sigma * sigma * (1.0 / ni as f64 + 1.0 / no as f64);
+        let centre = time[0] + (j + 1) as f64 * step;
+        let x = me.offset_d(centre).rem_euclid(p);
+        // The phase box whose centre is nearest: box b spans bins b, b+1,
+        // centred at (b + 1)·step.
+        let b = (((x / step).round() as usize) + phase_bins - 1) % phase_bins;
+        wsum[b] += depth / var;
+        w[b] += 1.0 / var;
+    }
+    (0..phase_bins)
+        .filter_map(|b| {
+            let centre = (b + 1) as f64 * step;
+            (centre.min(p - centre) >= 1.7 * half && w[b] > 0.0).then(|| {
+                (
+                    (centre / p).rem_euclid(1.0),
+                    Measure {
+                        value: wsum[b] / w[b] * 1e6,
+                        err: 1e6 / w[b].sqrt(),
+                    },
+                )
+            })
+        })
+        .collect()
+}
+
 /// How much more the boxes of [`phase_boxes`] scatter than their white
 /// errors say: 1.4826 × the median absolute deviation of their pulls,
 /// at least 1 (a robust σ, untouched by a real eclipse at a few phases). An
