@@ -339,13 +339,27 @@ mod tests {
     fn recovery_needs_both_a_significance_and_a_size() {
         let m = |v, e| Measure { value: v, err: e };
         // 13 ± 9 ppm against 54.5 ppm at SNR 11: Z = 41.5/√(81 + 24.5) = 4.04.
-        match recovery(m(13.0, 9.0), (100, 100), (0.0, 1.0), Some(54.5), Some(11.0), 3.0) {
+        match recovery(
+            m(13.0, 9.0),
+            (100, 100),
+            (0.0, 1.0),
+            Some(54.5),
+            Some(11.0),
+            3.0,
+        ) {
             Recovery::TooShallow { z, .. } => assert!((z - 4.04).abs() < 0.01, "{z}"),
             other => panic!("{other:?}"),
         }
         // 40 ± 2 ppm against 54.5: significant but not below half.
         assert_eq!(
-            recovery(m(40.0, 2.0), (100, 100), (0.0, 1.0), Some(54.5), Some(11.0), 3.0),
+            recovery(
+                m(40.0, 2.0),
+                (100, 100),
+                (0.0, 1.0),
+                Some(54.5),
+                Some(11.0),
+                3.0
+            ),
             Recovery::Shown
         );
         // Below half but within the noise.
@@ -354,13 +368,27 @@ mod tests {
             Recovery::Shown
         );
         assert!(matches!(
-            recovery(m(f64::NAN, f64::NAN), (0, 0), (1.0, 2.0), Some(54.5), None, 3.0),
+            recovery(
+                m(f64::NAN, f64::NAN),
+                (0, 0),
+                (1.0, 2.0),
+                Some(54.5),
+                None,
+                3.0
+            ),
             Recovery::NoTransitInData { .. }
         ));
         // Transits in the data, all under another signal's: not measured,
         // not a flag.
         assert_eq!(
-            recovery(m(f64::NAN, f64::NAN), (24, 0), (1.0, 2.0), Some(54.5), None, 3.0),
+            recovery(
+                m(f64::NAN, f64::NAN),
+                (24, 0),
+                (1.0, 2.0),
+                Some(54.5),
+                None,
+                3.0
+            ),
             Recovery::Hidden
         );
     }

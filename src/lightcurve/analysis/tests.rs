@@ -309,7 +309,10 @@ fn an_eccentric_secondary_is_found_at_its_own_phase() {
     assert!((ecl.phase - 0.37).abs() < 0.01, "{ecl:?}");
     // Measured against its own neighbourhood, not a fitted trend: its full
     // depth, within 3σ.
-    assert!((ecl.depth.value - 3000.0).abs() < 3.0 * ecl.depth.err, "{ecl:?}");
+    assert!(
+        (ecl.depth.value - 3000.0).abs() < 3.0 * ecl.depth.err,
+        "{ecl:?}"
+    );
     // The same light curve without it: nothing found anywhere.
     let (lc, e) = synthetic(4.1, 6000.0, 6000.0, 0.0, 0.5, 5e-4, 21);
     let d = diagnose(&lc, &e, &[], &ctx(), &DetrendSettings::default());
