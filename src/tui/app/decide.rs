@@ -1,0 +1,189 @@
+//! Decisions from the browser: one candidate or every candidate of the
+//! filter, written to the ledger first (nothing is shown as decided that is
+//! not on disk), then to the live odds; undo and redo as ledger rows too.
+
+use super::*;
+
+/// A decision as made and as undone.
+#[derive(Clone, Debug, PartialEq)]
+pub(super) struct Step {
+    pub(super) candidate: CandidateId,
+    pub(super) before: Decision,
+    pub(super) after: Decision,
+    pub(super) ledger_id: Option<i64>,
+    /// The note written with the decision, written again by a redo.
+    pub(super) note: Option<String>,
+}
+
+impl App {
+    /// The candidates a bulk decision would change: those matching the
+    /// filter whose decision is not already `d`.
+    pub fn bulk_targets(&self, d: Decision) -> Vec<CandidateId> {
+        let shared = self.shared();
+        (0..self.cat.len() as CandidateId)
+            .filter(|&c| self.live.decision(c) != d && shared.selects(&self.filter, c))
+            .collect()
+    }
+
+    /// Applies one decision to every candidate matching the filter, in one
+    /// ledger transaction (all or nothing), then to the state; one undo
+    /// step takes it all back.
+    pub(super) fn apply_bulk(&mut self, d: Decision, note: &str) {
+        let targets = self.bulk_targets(d);
+        let note = match note.trim() {
+            "" => "applied to every candidate matching the filter".to_string(),
+            n => format!("applied to every candidate matching the filter: {n}"),
+        };
+        let rows: Vec<(CandidateId, Decision, Option<i64>)> =
+            targets.iter().map(|&c| (c, d, None)).collect();
+        let Some(group) = self.write(&rows, Some(&note)) else {
+            return;
+        };
+        self.undo.push(group);
+        self.redo.clear();
+        self.message = Some(format!(
+            "{d} applied to {} candidates matching [{}]",
+            targets.len(),
+            self.filter.text
+        ));
+    }
+
+    /// Records a decision: the ledger first, then the state, then the odds.
+    pub(super) fn decide(&mut self, d: Decision, note: Option<&str>) {
+        let Some(c) = self.candidate() else { return };
+        if let Some(group) = self.write(&[(c, d, None)], note) {
+            self.undo.push(group);
+            self.redo.clear();
+            if self.advance {
+                self.next_open(true);
+            }
+        }
+    }
+
+    /// Writes decisions (candidate, decision, the ledger entry it undoes) to
+    /// the ledger in one transaction, then to the state; returns the steps
+    /// as made, or `None` (with the reason on the status line) when the
+    /// ledger refused them and nothing changed.
+    pub(super) fn write(
+        &mut self,
+        rows: &[(CandidateId, Decision, Option<i64>)],
+        note: Option<&str>,
+    ) -> Option<Vec<Step>> {
+        let mut ids: Vec<Option<i64>> = vec![None; rows.len()];
+        if let Some(ledger) = self.ledger.as_mut() {
+            let cat = &self.cat;
+            let new: Vec<NewDecision> = rows
+                .iter()
+                .map(|&(c, d, undoes)| NewDecision {
+                    candidate: cat.candidate_id(c),
+                    star: cat.star_id(cat.star_of(c)),
+                    vetter: &self.vetter,
+                    decision: d,
+                    note,
+                    undoes,
+                })
+                .collect();
+            match ledger.record_all(&new) {
+                Ok(written) => ids = written.into_iter().map(Some).collect(),
+                Err(e) => {
+                    self.message = Some(format!("NOT SAVED: {e}"));
+                    return None;
+                }
+            }
+        }
+        let steps: Vec<Step> = rows
+            .iter()
+            .zip(ids)
+            .map(|(&(c, d, _), id)| Step {
+                candidate: c,
+                before: self.live.decision(c),
+                after: d,
+                ledger_id: id,
+                note: note.map(str::to_string),
+            })
+            .collect();
+        if let [one] = steps.as_slice() {
+            self.after_decision(one.candidate, one.after);
+        } else {
+            for st in &steps {
+                self.live.set_decision(st.candidate, st.after);
+            }
+            self.forget_orders(false);
+            self.refresh_view();
+            self.refresh_history(true);
+        }
+        Some(steps)
+    }
+
+    pub(super) fn after_decision(&mut self, c: CandidateId, d: Decision) {
+        let s = self.cat.star_of(c);
+        let ranks = self.odds_rank_by_size();
+        self.live.set_decision(c, d);
+        self.keep_orders(s, ranks);
+        self.pinned = Some(s);
+        self.message = Some(format!(
+            "{} {}",
+            crate::sanitize::clean(self.cat.candidate_id(c)),
+            d
+        ));
+        let row = self.cand_row;
+        self.reposition(s);
+        self.cand_row = row.min(self.members().len().saturating_sub(1));
+        self.refresh_history(true);
+    }
+
+    /// Takes back the last group of decisions (each recorded in the ledger
+    /// as a new entry naming the one it undoes).
+    pub(super) fn undo(&mut self) {
+        let Some(group) = self.undo.pop() else {
+            self.message = Some("nothing to undo".into());
+            return;
+        };
+        let rows: Vec<_> = group
+            .iter()
+            .rev()
+            .map(|st| (st.candidate, st.before, st.ledger_id))
+            .collect();
+        match self.write(&rows, None) {
+            Some(_) => {
+                let first = group[0].candidate;
+                self.message = Some(match group.len() {
+                    1 => format!(
+                        "undone: {}",
+                        crate::sanitize::clean(self.cat.candidate_id(first))
+                    ),
+                    n => format!("undone: {} for {n} candidates", group[0].after),
+                });
+                self.go_to(first);
+                self.redo.push(group);
+            }
+            None => self.undo.push(group),
+        }
+    }
+
+    pub(super) fn redo(&mut self) {
+        let Some(group) = self.redo.pop() else {
+            self.message = Some("nothing to redo".into());
+            return;
+        };
+        let rows: Vec<_> = group
+            .iter()
+            .map(|st| (st.candidate, st.after, None))
+            .collect();
+        let note = group[0].note.clone();
+        match self.write(&rows, note.as_deref()) {
+            Some(steps) => {
+                if group.len() > 1 {
+                    self.message = Some(format!(
+                        "redone: {} for {} candidates",
+                        group[0].after,
+                        group.len()
+                    ));
+                }
+                self.go_to(group[0].candidate);
+                self.undo.push(steps);
+            }
+            None => self.redo.push(group),
+        }
+    }
+}
