@@ -279,3 +279,91 @@ pub fn static_order(cat: &Catalogue, sort: SortKey, descending: bool) -> Option<
     );
     Some(stars)
 }
+
+#[cfg(test)]
+mod sort_tests {
+    use super::*;
+
+    /// The reference is std's `sort_by`, which is stable (documented).
+    fn check(
+        v: Vec<(u64, StarId)>,
+        low: u32,
+        tie: Option<&dyn Fn(StarId, StarId) -> std::cmp::Ordering>,
+    ) {
+        let mut want = v.clone();
+        want.sort_by(|a, b| {
+            a.0.cmp(&b.0)
+                .then_with(|| tie.map_or(std::cmp::Ordering::Equal, |t| t(a.1, b.1)))
+        });
+        let (mut k, mut s): (Vec<u64>, Vec<StarId>) = v.into_iter().unzip();
+        sort_keyed(&mut k, &mut s, &mut Scratch::default(), low, tie);
+        assert_eq!(k.into_iter().zip(s).collect::<Vec<_>>(), want, "low {low}");
+    }
+
+    #[test]
+    fn sort_keyed_is_a_stable_sort_by_key_then_tie() {
+        let mut rng = crate::demo::Rng::new(8);
+        let floats = [
+            -3.5,
+            -0.0,
+            0.0,
+            1.0,
+            1.0,
+            2.5,
+            f64::MAX,
+            -1e300,
+            7.25,
+            1.0 + 1e-12,
+        ];
+        for n in [0, 1, 2, 7, 300, 5000] {
+            for low in [0, 32] {
+                // Few distinct floats (long runs of equal keys) ...
+                let v = (0..n)
+                    .map(|i| {
+                        (
+                            sortable_bits(floats[rng.below(floats.len() as u64) as usize]),
+                            i,
+                        )
+                    })
+                    .collect();
+                check(v, low, None);
+                // ... and keys whose every digit varies.
+                let v = (0..n).map(|i| (rng.next_u64(), i)).collect();
+                check(v, low, None);
+            }
+            // Strings by their prefix, ties by the whole string.
+            let ids: Vec<String> = (0..n)
+                .map(|_| {
+                    format!(
+                        "STAR-{:04}{}",
+                        rng.below(50),
+                        ["", "a", "\u{0}", "b"][rng.below(4) as usize]
+                    )
+                })
+                .collect();
+            let tie = |a: StarId, b: StarId| ids[a as usize].cmp(&ids[b as usize]);
+            let v = (0..n)
+                .map(|i| (prefix_key(ids[i as usize].as_bytes()), i))
+                .collect();
+            check(v, 0, Some(&tie));
+            // The prefix keeps the string order.
+            let mut sorted = ids.clone();
+            sorted.sort();
+            assert!(
+                sorted
+                    .windows(2)
+                    .all(|w| prefix_key(w[0].as_bytes()) <= prefix_key(w[1].as_bytes()))
+            );
+            // Past a prefix every id shares, too.
+            assert!(sorted.windows(2).all(|w| prefix_key(&w[0].as_bytes()[5..])
+                <= prefix_key(&w[1].as_bytes()[5..])));
+        }
+        // The bits keep the float order.
+        let mut f = floats.to_vec();
+        f.sort_by(f64::total_cmp);
+        assert!(
+            f.windows(2)
+                .all(|w| sortable_bits(w[0]) <= sortable_bits(w[1]))
+        );
+    }
+}

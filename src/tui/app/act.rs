@@ -1,0 +1,269 @@
+//! What each action does in each mode: the one dispatcher `update` hands
+//! an [`Action`] to.
+
+use super::*;
+
+impl App {
+    pub(super) fn act(&mut self, a: Action) -> Vec<Effect> {
+        // Overlays and prompts take their keys first.
+        match (&self.mode, a) {
+            (Mode::Help, Action::Close | Action::Help | Action::Quit) => {
+                self.mode = Mode::Normal;
+                return Vec::new();
+            }
+            (Mode::Help, _) => {
+                // The overlay scrolls; the draw clamps the offset.
+                let h = &mut self.help_scroll;
+                match a {
+                    Action::Down => *h += 1,
+                    Action::PageDown => *h += self.page,
+                    Action::Up => *h = h.saturating_sub(1),
+                    Action::PageUp => *h = h.saturating_sub(self.page),
+                    Action::Top => *h = 0,
+                    _ => {}
+                }
+                return Vec::new();
+            }
+            (Mode::Prompt { .. }, Action::Close) => {
+                self.mode = Mode::Normal;
+                return Vec::new();
+            }
+            (Mode::Prompt { kind, text, .. }, Action::Select) => {
+                let (kind, text) = (*kind, text.clone());
+                match kind {
+                    PromptKind::Filter => match Filter::parse(&text) {
+                        Ok(f) => {
+                            self.filter = f;
+                            self.mode = Mode::Normal;
+                            self.refresh_view();
+                            self.message = Some(format!("{} systems match", self.stars.len()));
+                        }
+                        Err(e) => {
+                            self.mode = Mode::Prompt {
+                                kind,
+                                text,
+                                error: Some(e),
+                            };
+                        }
+                    },
+                    PromptKind::Find => {
+                        self.jump_fuzzy(&text, true);
+                        self.mode = Mode::Normal;
+                        self.focus = Pane::Candidates;
+                    }
+                }
+                return Vec::new();
+            }
+            (Mode::Prompt { .. }, _) => return Vec::new(),
+            (Mode::Bulk, _) => {
+                let d = match a {
+                    Action::Keep => Some(Decision::Kept),
+                    Action::Park => Some(Decision::Parked),
+                    Action::Reopen => Some(Decision::Open),
+                    Action::Reject => {
+                        self.mode = Mode::Reasons {
+                            selected: 0,
+                            bulk: true,
+                            note: String::new(),
+                        };
+                        None
+                    }
+                    Action::Close | Action::Quit => {
+                        self.mode = Mode::Normal;
+                        None
+                    }
+                    _ => None,
+                };
+                if let Some(d) = d {
+                    self.mode = Mode::Confirm {
+                        decision: d,
+                        count: self.bulk_targets(d).len(),
+                        note: String::new(),
+                    };
+                }
+                return Vec::new();
+            }
+            (Mode::Confirm { decision, note, .. }, _) => {
+                let (d, note) = (*decision, note.clone());
+                match a {
+                    Action::Select => {
+                        self.mode = Mode::Normal;
+                        self.apply_bulk(d, &note);
+                    }
+                    Action::Close | Action::Quit => self.mode = Mode::Normal,
+                    _ => {}
+                }
+                return Vec::new();
+            }
+            (
+                Mode::Reasons {
+                    selected,
+                    bulk,
+                    note,
+                },
+                _,
+            ) => {
+                let (sel, bulk, note) = (*selected, *bulk, note.clone());
+                let reasons = |selected| Mode::Reasons {
+                    selected,
+                    bulk,
+                    note: note.clone(),
+                };
+                match a {
+                    Action::Up => self.mode = reasons(sel.saturating_sub(1)),
+                    Action::Down => self.mode = reasons((sel + 1).min(ALL_REASONS.len() - 1)),
+                    Action::Select if bulk => {
+                        let d = Decision::Rejected(ALL_REASONS[sel]);
+                        self.mode = Mode::Confirm {
+                            decision: d,
+                            count: self.bulk_targets(d).len(),
+                            note,
+                        };
+                    }
+                    Action::Select => {
+                        self.mode = Mode::Normal;
+                        let note = note.trim();
+                        self.decide(
+                            Decision::Rejected(ALL_REASONS[sel]),
+                            (!note.is_empty()).then_some(note),
+                        );
+                    }
+                    Action::Close | Action::Quit => self.mode = Mode::Normal,
+                    _ => {}
+                }
+                return Vec::new();
+            }
+            (Mode::Normal, _) => {}
+        }
+        self.message = None;
+        let rows = match self.focus {
+            Pane::Systems => self.stars.len(),
+            Pane::Candidates => self.members().len(),
+        };
+        let moved = |app: &mut App, to: usize| match app.focus {
+            Pane::Systems => {
+                app.star_row = to.min(rows.saturating_sub(1));
+                app.cand_row = 0;
+            }
+            Pane::Candidates => app.cand_row = to.min(rows.saturating_sub(1)),
+        };
+        let cur = match self.focus {
+            Pane::Systems => self.star_row,
+            Pane::Candidates => self.cand_row,
+        };
+        match a {
+            Action::Quit => return vec![Effect::Quit],
+            Action::Help => {
+                self.mode = Mode::Help;
+                self.help_scroll = 0;
+            }
+            Action::Close => {}
+            Action::Find => {
+                self.mode = Mode::Prompt {
+                    kind: PromptKind::Find,
+                    text: String::new(),
+                    error: None,
+                }
+            }
+            Action::Filter => {
+                self.mode = Mode::Prompt {
+                    kind: PromptKind::Filter,
+                    text: self.filter.text.clone(),
+                    error: None,
+                }
+            }
+            // In the candidates pane the sort keys order the members.
+            Action::SortNext if self.focus == Pane::Candidates => {
+                let keep = self.candidate();
+                let all = CandidateSort::ALL;
+                let i = all.iter().position(|k| *k == self.cand_sort).unwrap_or(0);
+                self.cand_sort = all[(i + 1) % all.len()];
+                self.keep_candidate(keep);
+            }
+            Action::SortReverse if self.focus == Pane::Candidates => {
+                let keep = self.candidate();
+                self.cand_descending = !self.cand_descending;
+                self.keep_candidate(keep);
+            }
+            Action::SortNext => {
+                let i = SortKey::ALL
+                    .iter()
+                    .position(|k| *k == self.sort)
+                    .unwrap_or(0);
+                self.sort = SortKey::ALL[(i + 1) % SortKey::ALL.len()];
+                self.refresh_view();
+            }
+            Action::SortReverse => {
+                self.descending = !self.descending;
+                self.refresh_view();
+            }
+            Action::Up => moved(self, cur.saturating_sub(1)),
+            Action::Down => moved(self, cur + 1),
+            Action::PageUp => moved(self, cur.saturating_sub(self.page)),
+            Action::PageDown => moved(self, cur + self.page),
+            Action::Top => moved(self, 0),
+            Action::Bottom => moved(self, rows.saturating_sub(1)),
+            Action::NextPane | Action::PrevPane => {
+                self.focus = if self.focus == Pane::Systems {
+                    Pane::Candidates
+                } else {
+                    Pane::Systems
+                }
+            }
+            Action::Select => {
+                if self.focus == Pane::Systems {
+                    self.focus = Pane::Candidates;
+                }
+            }
+            Action::Keep => self.decide(Decision::Kept, None),
+            Action::Park => self.decide(Decision::Parked, None),
+            Action::Reopen => self.decide(Decision::Open, None),
+            Action::Reject => {
+                if self.candidate().is_some() {
+                    self.mode = Mode::Reasons {
+                        selected: 0,
+                        bulk: false,
+                        note: String::new(),
+                    };
+                }
+            }
+            Action::Undo => self.undo(),
+            Action::Redo => self.redo(),
+            Action::NextOpen => self.next_open(true),
+            Action::PrevOpen => self.next_open(false),
+            Action::NextFlagged => self.next_flagged(),
+            Action::ToggleAdvance => {
+                self.advance = !self.advance;
+                self.message = Some(format!(
+                    "advance after a decision: {}",
+                    if self.advance { "on" } else { "off" }
+                ));
+            }
+            Action::ShowLedger => self.show_ledger = !self.show_ledger,
+            Action::SignalView => self.signal_view = self.signal_view.next(),
+            Action::ApplyToFilter => {
+                if self.filter.is_empty() {
+                    self.message = Some(
+                        "set a filter first: a decision applies to every candidate it matches"
+                            .into(),
+                    );
+                } else {
+                    self.mode = Mode::Bulk;
+                }
+            }
+            Action::CopyId => {
+                let id = match self.focus {
+                    Pane::Systems => self.star().map(|s| self.cat.star_id(s).to_string()),
+                    Pane::Candidates => self
+                        .candidate()
+                        .map(|c| self.cat.candidate_id(c).to_string()),
+                };
+                if let Some(id) = id {
+                    self.message = Some(format!("copied {}", crate::sanitize::clean(&id)));
+                    return vec![Effect::Copy(id)];
+                }
+            }
+        }
+        Vec::new()
+    }
+}
