@@ -8,10 +8,14 @@ use statrs::distribution::{ChiSquared, ContinuousCDF};
 use super::{LightCurve, median_of};
 use crate::flags::Flag;
 
+mod noise;
 mod scan;
+use noise::cadence_d;
+pub use noise::{
+    null_scatter_factor, phase_scatter_factor, red_noise_beta, transit_scatter_factor,
+};
 pub use scan::{
-    Eclipse, Recovery, deepest_eclipse, null_scatter_factor, phase_boxes, phase_boxes_local,
-    phase_scatter_factor, recovery, trials_threshold,
+    Eclipse, Recovery, deepest_eclipse, phase_boxes, phase_boxes_local, recovery, trials_threshold,
 };
 
 /// Period, epoch and total duration of one signal.
@@ -659,86 +663,6 @@ pub fn shares_transits(me: &Ephemeris, other: &Ephemeris) -> bool {
     // Every transit of the longer period is one of the shorter's.
     let (short, long) = if a <= b { (me, other) } else { (other, me) };
     short.offset_d(long.epoch).abs() < me.half_d().max(other.half_d())
-}
-
-/// How much more the per-transit depths scatter than their white errors
-/// allow: √(χ²/(n − 2)) about the mean of the odd and the mean of the even
-/// transits separately (so that a binary's alternating depths do not count
-/// as noise), at least 1; 1 with fewer than four transits. This catches
-/// noise at the transit's own time scale that β, measured out of transit,
-/// misses: a trend interpolated across a long masked transit, spots
-/// (docs/science.md §4.1).
-pub fn transit_scatter_factor(depths: &[Measure], odd: &[bool]) -> f64 {
-    let n = depths.len();
-    if n < 4 {
-        return 1.0;
-    }
-    let mut chi2 = 0.0;
-    for parity in [false, true] {
-        let (mut sw, mut swx) = (0.0, 0.0);
-        for (d, _) in depths.iter().zip(odd).filter(|(_, o)| **o == parity) {
-            let w = 1.0 / (d.err * d.err);
-            sw += w;
-            swx += w * d.value;
-        }
-        if sw == 0.0 {
-            continue;
-        }
-        let mean = swx / sw;
-        chi2 += depths
-            .iter()
-            .zip(odd)
-            .filter(|(_, o)| **o == parity)
-            .map(|(d, _)| ((d.value - mean) / d.err).powi(2))
-            .sum::<f64>();
-    }
-    let f = (chi2 / (n - 2) as f64).sqrt();
-    if f.is_finite() { f.max(1.0) } else { 1.0 }
-}
-
-/// The time-averaging factor β of correlated noise (Pont, Zucker & Queloz
-/// 2006, MNRAS 373, 231; the binning form of Winn et al. 2008, ApJ 683,
-/// 1076; docs/science.md §4.1): the out-of-transit residuals (in time order)
-/// are averaged in M bins of n samples for bins of ½, 1 and 2 transit
-/// durations; β = σ_n / [σ₁/√n · √(M/(M−1))], averaged over the bin sizes,
-/// never below 1. σ₁ is the white scatter (point to point).
-pub fn red_noise_beta(residuals: &[f64], sigma1: f64, cadence_d: f64, t14_d: f64) -> f64 {
-    if !(sigma1 > 0.0 && cadence_d > 0.0 && t14_d > 0.0) {
-        return 1.0;
-    }
-    let mut betas = Vec::new();
-    for width in [0.5, 1.0, 2.0] {
-        let n = ((width * t14_d / cadence_d).round() as usize).max(2);
-        let m = residuals.len() / n;
-        if m < 8 {
-            continue;
-        }
-        let means: Vec<f64> = residuals
-            .chunks_exact(n)
-            .map(|c| c.iter().sum::<f64>() / n as f64)
-            .collect();
-        let mean = means.iter().sum::<f64>() / m as f64;
-        let var = means.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / (m - 1) as f64;
-        let expected = sigma1 / (n as f64).sqrt() * (m as f64 / (m - 1) as f64).sqrt();
-        betas.push(var.sqrt() / expected);
-    }
-    if betas.is_empty() {
-        return 1.0;
-    }
-    (betas.iter().sum::<f64>() / betas.len() as f64).max(1.0)
-}
-
-/// The median time step of a light curve, days.
-fn cadence_d(time: &[f64]) -> f64 {
-    let mut d: Vec<f64> = time
-        .windows(2)
-        .map(|w| w[1] - w[0])
-        .filter(|x| *x > 0.0)
-        .collect();
-    if d.is_empty() {
-        return f64::NAN;
-    }
-    median_of(&mut d)
 }
 
 /// The smallest odd/even difference that can fire the flag, as a fraction of
