@@ -273,16 +273,20 @@ fn errors_are_guarded_and_exports_are_byte_exact() {
         "see\tlog",
     ]);
     assert!(o.status.success(), "{}", stderr(&o));
-    let o = starsift(&[
-        "export",
-        cat.to_str().unwrap(),
-        "--no-lightcurves",
-        "--targets",
-        "1000",
-        "--format",
-        "csv",
-    ]);
-    assert!(o.status.success(), "{}", stderr(&o));
+    let export = |format: &str| {
+        let o = starsift(&[
+            "export",
+            cat.to_str().unwrap(),
+            "--no-lightcurves",
+            "--targets",
+            "1000",
+            "--format",
+            format,
+        ]);
+        assert!(o.status.success(), "{}", stderr(&o));
+        o
+    };
+    let o = export("csv");
     let body: String = stdout(&o)
         .lines()
         .filter(|l| !l.starts_with('#'))
@@ -295,15 +299,7 @@ fn errors_are_guarded_and_exports_are_byte_exact() {
     assert_eq!(col("candidate"), "A\\B-1");
     assert_eq!(col("star"), "A\\B");
     assert_eq!(col("note"), "see\tlog");
-    let o = starsift(&[
-        "export",
-        cat.to_str().unwrap(),
-        "--no-lightcurves",
-        "--targets",
-        "1000",
-        "--format",
-        "json",
-    ]);
+    let o = export("json");
     let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
     let rows = v["candidates"]
         .as_array()
