@@ -441,3 +441,73 @@ fn fuzz_found_fits_byte_change_is_no_panic() {
         let _ = diagnose(&lc, &me, &[], &ctx, &DetrendSettings::default());
     }
 }
+
+/// A binary hidden in a multi: two planets and an eclipsing binary (odd and
+/// even eclipses of different depths) listed on one star, in white plus red
+/// noise (invented). Through `odds --lightcurves DIR`, the binary is held
+/// back by `odd-even`, never validated, and the planets count as a system
+/// of two, not three.
+#[test]
+fn a_binary_hidden_in_a_multi_is_held_back_and_not_counted() {
+    let d = scratch("hidden-binary");
+    let cat = d.join("cat.csv");
+    std::fs::write(
+        &cat,
+        "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,star_radius_rsun,star_mass_msun\n\
+         M,M-1,3.1,1001.0,800,2.5,40,1,1\nM,M-2,7.4,1002.9,1200,3.4,40,1,1\nM,M-3,2.2,1000.4,5000,2.0,40,1,1\n",
+    )
+    .unwrap();
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    let mut rng = starsift::demo::Rng::new(2026);
+    let signals = [
+        (3.1, 1001.0, 800.0, 2.5, false),
+        (7.4, 1002.9, 1200.0, 3.4, false),
+        (2.2, 1000.4, 5000.0, 2.0, true),
+    ];
+    let phi = (-(2.0f64) / 120.0).exp();
+    let mut red = 0.0;
+    let mut text = String::from("time,flux,flux_err\n");
+    for i in 0..20_000 {
+        let t = 1000.0 + i as f64 * 2.0 / 1440.0;
+        let mut v = 1.0 + 0.001 * (t / 3.0).sin();
+        for &(p, e, depth, dur, binary) in &signals {
+            let x: f64 = (t - e) / p;
+            let cycle = x.round();
+            if ((x - cycle) * p * 24.0).abs() < dur / 2.0 {
+                let odd = binary && (cycle as i64).rem_euclid(2) == 1;
+                v -= if odd { 0.6 * depth } else { depth } * 1e-6;
+            }
+        }
+        red = phi * red + (1.0 - phi * phi).sqrt() * 3e-4 * rng.normal();
+        v += red + 3e-4 * rng.normal();
+        text.push_str(&format!("{t:.6},{v:.7},0.0003\n"));
+    }
+    std::fs::write(lcs.join("M.csv"), text).unwrap();
+    let o = starsift(&[
+        "odds",
+        cat.to_str().unwrap(),
+        "--lightcurves",
+        lcs.to_str().unwrap(),
+        "--targets",
+        "20000",
+        "--format",
+        "csv",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let out = stdout(&o);
+    let mut r = csv::Reader::from_reader(out.as_bytes());
+    let h = r.headers().unwrap().clone();
+    let col = |row: &csv::StringRecord, name: &str| {
+        row[h.iter().position(|x| x == name).unwrap()].to_string()
+    };
+    let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
+    let row = |id: &str| rows.iter().find(|x| &x[1] == id).unwrap();
+    assert!(col(row("M-3"), "flags").contains("odd-even"), "{out}");
+    assert_ne!(col(row("M-3"), "verdict"), "validated", "{out}");
+    assert_eq!(col(row("M-3"), "counted"), "no", "{out}");
+    for planet in ["M-1", "M-2"] {
+        assert_eq!(col(row(planet), "k"), "2", "{out}");
+        assert_eq!(col(row(planet), "flags"), "", "{out}");
+    }
+}
