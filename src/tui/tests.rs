@@ -886,3 +886,22 @@ fn a_paste_is_text_in_a_prompt_and_never_keys() {
         other => panic!("{other:?}"),
     }
 }
+
+#[test]
+fn after_a_decision_the_cursor_stays_in_the_system_while_it_has_open_candidates() {
+    let mut app = demo_app();
+    typed_filter(&mut app, "k=3");
+    act(&mut app, Action::NextPane);
+    act(&mut app, Action::Bottom);
+    let star = app.star().unwrap();
+    // The last candidate of a system of three: the first two are still open.
+    act(&mut app, Action::Keep);
+    assert_eq!(app.star(), Some(star), "moved to another system");
+    let c = app.candidate().unwrap();
+    assert_eq!(app.live.decision(c), Decision::Open);
+    act(&mut app, Action::Keep);
+    assert_eq!(app.star(), Some(star));
+    act(&mut app, Action::Keep);
+    // All three decided: now the next system.
+    assert_ne!(app.star(), Some(star));
+}

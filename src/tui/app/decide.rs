@@ -55,8 +55,27 @@ impl App {
             self.undo.push(group);
             self.redo.clear();
             if self.advance {
-                self.next_open(true);
+                self.advance_after_decision();
             }
+        }
+    }
+
+    /// After a decision: the next open candidate of the same system (after
+    /// the cursor, then before it), so the vetter sees the siblings' odds
+    /// change; only when the system has none left, the next system's.
+    fn advance_after_decision(&mut self) {
+        let members = self.members();
+        let m = members.len();
+        let row = self.cand_row.min(m);
+        let pick = (row + 1..m)
+            .chain(0..row)
+            .find(|&i| self.live.decision(members[i]) == Decision::Open);
+        match pick {
+            Some(i) => {
+                self.cand_row = i;
+                self.focus = Pane::Candidates;
+            }
+            None => self.next_open(true),
         }
     }
 
