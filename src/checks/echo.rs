@@ -144,38 +144,31 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, out: &mut Checks) {
     let mut crowded_window = vec![false; cat.len()];
     for i in 0..sigs.len() {
         let a = &sigs[i];
-        let limit = a.period * (1.0 + s.echo_max_rel);
-        let same = sigs[i + 1..]
-            .iter()
-            .take_while(|b| b.period <= limit)
-            .take(8 * ECHO_WINDOW)
-            .filter(|b| b.star != a.star);
-        let mut found = 0;
-        for (k, b) in same.enumerate() {
-            if k == ECHO_WINDOW || found == ECHO_MATCHES {
-                crowded_window[a.c as usize] = true;
-                break;
+        // The same period (the signals after this one in the sorted list),
+        // then twice it (a bounded window found by bisection).
+        let lo = 2.0 * a.period * (1.0 - s.echo_max_rel);
+        let windows = [
+            (i + 1, a.period * (1.0 + s.echo_max_rel), 1.0),
+            (
+                sigs.partition_point(|x| x.period < lo),
+                2.0 * a.period * (1.0 + s.echo_max_rel),
+                2.0,
+            ),
+        ];
+        for (start, hi, n) in windows {
+            let others = sigs[start..]
+                .iter()
+                .take_while(|b| b.period <= hi)
+                .take(8 * ECHO_WINDOW)
+                .filter(|b| b.star != a.star);
+            let mut found = 0;
+            for (k, b) in others.enumerate() {
+                if k == ECHO_WINDOW || found == ECHO_MATCHES {
+                    crowded_window[a.c as usize] = true;
+                    break;
+                }
+                found += usize::from(matched(a, b, n));
             }
-            found += usize::from(matched(a, b, 1.0));
-        }
-        // Twice the period: a bounded window of the sorted list.
-        let (lo, hi) = (
-            2.0 * a.period * (1.0 - s.echo_max_rel),
-            2.0 * a.period * (1.0 + s.echo_max_rel),
-        );
-        let start = sigs.partition_point(|x| x.period < lo);
-        let twice = sigs[start..]
-            .iter()
-            .take_while(|b| b.period <= hi)
-            .take(8 * ECHO_WINDOW)
-            .filter(|b| b.star != a.star);
-        let mut found = 0;
-        for (k, b) in twice.enumerate() {
-            if k == ECHO_WINDOW || found == ECHO_MATCHES {
-                crowded_window[a.c as usize] = true;
-                break;
-            }
-            found += usize::from(matched(a, b, 2.0));
         }
     }
     let star = |c: CandidateId| cat.star_id(cat.star_of(c)).to_string();

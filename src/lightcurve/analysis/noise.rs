@@ -97,10 +97,7 @@ pub fn phase_scatter_factor(boxes: &[(f64, Measure)]) -> f64 {
         return 1.0;
     }
     let mut pulls: Vec<f64> = boxes.iter().map(|(_, m)| m.value / m.err).collect();
-    let centre = crate::lightcurve::median_of(&mut pulls);
-    let mut dev: Vec<f64> = pulls.iter().map(|z| (z - centre).abs()).collect();
-    let f = 1.4826 * crate::lightcurve::median_of(&mut dev);
-    if f.is_finite() { f.max(1.0) } else { 1.0 }
+    robust_spread(&mut pulls)
 }
 
 /// The noise of a transit depth measured exactly as the transit's is, from
@@ -167,8 +164,15 @@ pub fn null_scatter_factor(
     if pulls.len() < 24 {
         return 1.0;
     }
-    let centre = crate::lightcurve::median_of(&mut pulls);
+    robust_spread(&mut pulls)
+}
+
+/// The spread of pulls that white noise would give as 1: 1.4826 × their
+/// median absolute deviation (the MAD of a Gaussian times 1.4826 is its σ),
+/// at least 1; 1 when it cannot be computed. Reorders `pulls`.
+fn robust_spread(pulls: &mut [f64]) -> f64 {
+    let centre = median_of(pulls);
     let mut dev: Vec<f64> = pulls.iter().map(|z| (z - centre).abs()).collect();
-    let f = 1.4826 * crate::lightcurve::median_of(&mut dev);
+    let f = 1.4826 * median_of(&mut dev);
     if f.is_finite() { f.max(1.0) } else { 1.0 }
 }
