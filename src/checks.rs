@@ -17,7 +17,7 @@ use crate::flags::{Flag, FlagSet};
 use crate::science;
 
 /// Thresholds of the checks. Defaults carry their source.
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug, PartialEq, serde::Serialize)]
 pub struct CheckSettings {
     /// `big-radius` above this, Earth radii: 2 R_J from nominal radii
     /// (docs/science.md §2, derived from Borucki 2011's largest planetary class).

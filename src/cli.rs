@@ -384,6 +384,8 @@ pub struct Loaded {
     pub dir: Option<PathBuf>,
     /// True for the built-in demo.
     pub demo: bool,
+    /// The catalogue file (`None` for the built-in demo).
+    pub path: Option<PathBuf>,
 }
 
 impl Loaded {
@@ -548,6 +550,7 @@ impl CatalogueArgs {
                 survey_source: Some("built-in demo survey.toml".into()),
                 dir: crate::demo::source_dir(),
                 demo: true,
+                path: None,
             }),
             Some(path) => {
                 let catalogue = Catalogue::load(Source::Path(path), &opts)?;
@@ -570,6 +573,7 @@ impl CatalogueArgs {
                         },
                     )),
                     demo: false,
+                    path: Some(path.clone()),
                 })
             }
         }

@@ -176,7 +176,7 @@ CREATE TABLE decision (id INTEGER PRIMARY KEY AUTOINCREMENT, candidate TEXT NOT 
 /// SQLite's file header (the first 16 bytes of every database file).
 const SQLITE_MAGIC: &[u8; 16] = b"SQLite format 3\0";
 
-fn now_rfc3339() -> String {
+pub fn now_rfc3339() -> String {
     let d = SystemTime::now()
         .duration_since(UNIX_EPOCH)
         .unwrap_or_default();

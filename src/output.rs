@@ -1,6 +1,8 @@
 //! Output for people (aligned tables) and for scripts (CSV, JSON). Every cell
 //! that came from an input file passes through [`crate::sanitize::clean`].
 
+pub mod votable;
+
 use std::io::{self, Write};
 
 use crate::sanitize::clean;
@@ -100,6 +102,14 @@ pub fn csv_writer(out: &mut dyn Write) -> csv::Writer<&mut dyn Write> {
 pub fn write_json(out: &mut dyn Write, value: &serde_json::Value) -> io::Result<()> {
     serde_json::to_writer_pretty(&mut *out, value)?;
     writeln!(out)
+}
+
+/// Writes `bytes` to `path` through a temporary file and a rename, so a
+/// reader never sees half a file.
+pub fn write_atomically(path: &std::path::Path, bytes: &[u8]) -> io::Result<()> {
+    let tmp = path.with_extension(format!("tmp-{}", std::process::id()));
+    std::fs::write(&tmp, bytes)?;
+    std::fs::rename(&tmp, path)
 }
 
 /// A number for people: up to `sig` significant digits, no exponent for

@@ -41,15 +41,11 @@ fn export_rows(cat: &Path, extra: &[&str]) -> Vec<csv::StringRecord> {
     args.extend_from_slice(extra);
     let o = starsift(&args);
     assert!(o.status.success(), "{}", stderr(&o));
+    // The header is the first line; the model statement goes to stderr.
     let text = stdout(&o);
-    assert!(text.starts_with("# starsift vetted catalogue"));
-    assert!(text.contains("Statistical validation is not confirmation"));
-    let body: String = text
-        .lines()
-        .filter(|l| !l.starts_with('#'))
-        .map(|l| format!("{l}\n"))
-        .collect();
-    let mut r = csv::Reader::from_reader(body.as_bytes());
+    assert!(text.starts_with("star,candidate,"), "{}", &text[..80]);
+    assert!(stderr(&o).contains("Statistical validation is not confirmation"));
+    let mut r = csv::Reader::from_reader(text.as_bytes());
     let h = r.headers().unwrap().clone();
     for col in [
         "k",
@@ -125,11 +121,24 @@ fn rejecting_one_of_three_gives_the_siblings_two_candidate_odds() {
         "{r}"
     );
     assert!(r.contains("Statistical validation is not confirmation"));
-    // JSON export carries the model and the decision.
-    let o = starsift(&["export", s(&cat), "--format", "json"]);
-    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
-    assert_eq!(v["model"]["targets_searched"], 52000);
-    let row = v["candidates"]
+    // The JSON export is an array of records with the decision; the model
+    // goes to the sidecar beside the file.
+    let out = cat.with_file_name("vetted.json");
+    let o = starsift(&["export", s(&cat), "--format", "json", "-o", s(&out)]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let meta: serde_json::Value = serde_json::from_slice(
+        &std::fs::read(cat.with_file_name("vetted.json.meta.json")).unwrap(),
+    )
+    .unwrap();
+    assert_eq!(meta["model"]["targets_searched"], 52000);
+    assert!(
+        meta["statement"]
+            .as_str()
+            .unwrap()
+            .contains("Statistical validation is not confirmation")
+    );
+    let v: serde_json::Value = serde_json::from_slice(&std::fs::read(&out).unwrap()).unwrap();
+    let row = v
         .as_array()
         .unwrap()
         .iter()
@@ -432,16 +441,24 @@ fn export_where_keeps_the_matching_rows_and_the_whole_catalogues_odds() {
         twos.iter().any(|r| &r[1] == three[1].as_str()),
         "a sibling of the rejected one"
     );
-    let o = starsift(&["export", s(&cat), "--where", "k=2", "--format", "json"]);
-    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
-    assert_eq!(v["filter"], "k=2");
-    assert!(
-        v["candidates"]
-            .as_array()
-            .unwrap()
-            .iter()
-            .all(|c| c["k"] == 2)
-    );
+    let out = cat.with_file_name("twos.json");
+    let o = starsift(&[
+        "export",
+        s(&cat),
+        "--where",
+        "k=2",
+        "--format",
+        "json",
+        "-o",
+        s(&out),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let meta: serde_json::Value =
+        serde_json::from_slice(&std::fs::read(cat.with_file_name("twos.json.meta.json")).unwrap())
+            .unwrap();
+    assert_eq!(meta["filter"], "k=2");
+    let v: serde_json::Value = serde_json::from_slice(&std::fs::read(&out).unwrap()).unwrap();
+    assert!(v.as_array().unwrap().iter().all(|c| c["k"] == 2));
     // A filter that does not parse stops with its position, exit 2.
     let o = starsift(&["export", s(&cat), "--where", "k=2 peroid<3"]);
     assert_eq!(o.status.code(), Some(2));

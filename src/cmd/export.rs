@@ -2,16 +2,24 @@
 //! then the system size, boost, odds, probability and verdict recomputed from
 //! the ledger's decisions (rejected candidates leave their systems), the
 //! decision with its reason, vetter and time, and the flags.
+//!
+//! The table opens in any reader with no options: CSV with the header on
+//! the first line, JSON as an array of records, or a VOTable. Where the
+//! numbers came from (tool, catalogue and its fingerprint, ledger, model,
+//! settings, the not-confirmation statement) goes to a sidecar
+//! `FILE.meta.json` beside `--output FILE`, into the VOTable's INFO
+//! elements, and into `#` lines above a CSV header only on request.
 
 use std::io::Write;
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 
 use serde_json::{Map, Value, json};
 
 use crate::catalogue::{CandidateId, Field, NUMERIC};
 use crate::cli::{CliError, VettingArgs};
 use crate::odds::{Live, model_statement};
-use crate::output::{csv_writer, exact_in, write_json};
+use crate::output::votable::{self, Column, Kind};
+use crate::output::{csv_writer, exact_in, write_atomically};
 use crate::query::Filter;
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
@@ -20,12 +28,18 @@ use crate::session::{LedgerUse, Session};
 pub struct Args {
     #[command(flatten)]
     pub vetting: VettingArgs,
-    /// Output format.
+    /// Output format: csv (header on the first line), json (an array of
+    /// records) or votable (VOTable 1.4, TABLEDATA).
     #[arg(long, value_enum, default_value = "csv")]
     pub format: ExportFormat,
-    /// Write to this file (atomically) instead of standard output.
+    /// Write to this file (atomically) instead of standard output; the
+    /// provenance goes beside it to FILE.meta.json.
     #[arg(short = 'o', long = "output", value_name = "FILE")]
     pub output: Option<PathBuf>,
+    /// CSV only: also write the provenance as `#` lines above the header
+    /// (readers then need their comment option, e.g. pandas' comment="#").
+    #[arg(long)]
+    pub comments: bool,
     /// Only the candidates this filter matches (the browser's syntax, e.g.
     /// "verdict:validated !flag:echo"); the odds are still those of the
     /// whole catalogue.
@@ -37,220 +51,426 @@ pub struct Args {
 pub enum ExportFormat {
     Csv,
     Json,
+    Votable,
 }
 
-/// Writes `text` to `path` through a temporary file and a rename, so a
-/// reader never sees half a file.
-pub fn write_atomically(path: &std::path::Path, bytes: &[u8]) -> Result<(), CliError> {
-    let tmp = path.with_extension(format!("tmp-{}", std::process::id()));
-    std::fs::write(&tmp, bytes)?;
-    std::fs::rename(&tmp, path)?;
-    Ok(())
+impl ExportFormat {
+    fn name(self) -> &'static str {
+        match self {
+            ExportFormat::Csv => "csv",
+            ExportFormat::Json => "json",
+            ExportFormat::Votable => "votable",
+        }
+    }
+}
+
+/// The sidecar that carries an export's provenance: `FILE.meta.json`.
+pub fn sidecar_path(output: &Path) -> PathBuf {
+    let mut s = output.as_os_str().to_owned();
+    s.push(".meta.json");
+    PathBuf::from(s)
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let filter = crate::cli::parse_where(args.filter.as_deref())?;
+    if args.comments && args.format != ExportFormat::Csv {
+        return Err(CliError::Input(format!(
+            "--comments applies to --format csv only (a {} export carries its provenance {})",
+            args.format.name(),
+            if args.format == ExportFormat::Votable {
+                "in INFO elements"
+            } else {
+                "in the sidecar FILE.meta.json"
+            }
+        )));
+    }
     if let Some(path) = &args.output {
         crate::cli::check_output_path(path, &args.vetting)?;
+        crate::cli::check_output_path(&sidecar_path(path), &args.vetting)?;
     }
     let v = Session::open(&args.vetting, LedgerUse::Read)?;
     v.warn();
     let live = v.live()?;
     let rows = v.selected(live, filter.as_ref());
+    let table = Export::new(&v, live);
+    let meta = table.provenance(&rows, filter.as_ref(), args.format);
     let mut buf: Vec<u8> = Vec::new();
     let sink: &mut dyn Write = if args.output.is_some() { &mut buf } else { out };
     match args.format {
-        ExportFormat::Csv => write_csv(&v, live, &rows, filter.as_ref(), sink)?,
-        ExportFormat::Json => write_json(sink, &to_json(&v, live, &rows, filter.as_ref()))?,
+        ExportFormat::Csv => table.write_csv(&rows, args.comments.then_some(&meta), sink)?,
+        ExportFormat::Json => table.write_json(&rows, sink)?,
+        ExportFormat::Votable => table.write_votable(&rows, &meta, sink)?,
     }
-    if let Some(path) = &args.output {
-        write_atomically(path, &buf)?;
-        eprintln!(
-            "starsift: wrote {} candidates to {}",
-            rows.len(),
-            clean(&path.display().to_string())
-        );
+    match &args.output {
+        Some(path) => {
+            write_atomically(path, &buf)?;
+            let side = sidecar_path(path);
+            let mut text = serde_json::to_vec_pretty(&meta).map_err(std::io::Error::from)?;
+            text.push(b'\n');
+            write_atomically(&side, &text)?;
+            eprintln!(
+                "starsift: wrote {} candidates to {} (provenance in {})",
+                rows.len(),
+                clean(&path.display().to_string()),
+                clean(&side.display().to_string())
+            );
+        }
+        None if !args.comments && args.format != ExportFormat::Votable => {
+            // Standard output carries only the table; the model goes to
+            // the terminal so a person piping it still reads it.
+            eprintln!("starsift: note: {}", model_statement(live.model()));
+        }
+        None => {}
     }
     Ok(())
 }
 
-const VETTING_COLUMNS: [&str; 15] = [
-    "k",
-    "boost",
-    "odds",
-    "probability",
-    "verdict",
-    "decision",
-    "reason",
-    "note",
-    "vetter",
-    "decided_at",
-    "flags",
-    "warnings",
-    "counted",
-    "held_back",
-    "holds_to_f",
+/// One cell of the export, typed so each format writes it its own way.
+enum Cell<'a> {
+    Text(&'a str),
+    /// Text that may be absent: empty in CSV, null in JSON.
+    Opt(Option<&'a str>),
+    Num(Option<f64>),
+    Int(u64),
+    Bool(bool),
+    List(Vec<&'static str>),
+}
+
+/// The vetting columns after the input columns: name, kind, unit, meaning.
+const VETTING_COLUMNS: [(&str, Kind, &str, &str); 15] = [
+    ("k", Kind::Long, "", "counted candidates in the system"),
+    (
+        "boost",
+        Kind::Double,
+        "",
+        "multiplicity boost of the system size",
+    ),
+    (
+        "odds",
+        Kind::Double,
+        "",
+        "planet : false positive odds under the stated model",
+    ),
+    ("probability", Kind::Double, "", "odds / (1 + odds)"),
+    (
+        "verdict",
+        Kind::Text,
+        "",
+        "validated, likely, held back, rejected...",
+    ),
+    ("decision", Kind::Text, "", "the vetter's latest decision"),
+    ("reason", Kind::Text, "", "why a candidate was rejected"),
+    ("note", Kind::Text, "", "the vetter's note"),
+    ("vetter", Kind::Text, "", "who decided"),
+    ("decided_at", Kind::Text, "", "when (UTC, RFC 3339)"),
+    ("flags", Kind::Text, "", "firm flags, separated by ;"),
+    ("warnings", Kind::Text, "", "soft flags, separated by ;"),
+    (
+        "counted",
+        Kind::Boolean,
+        "",
+        "counts toward its system's size",
+    ),
+    (
+        "held_back",
+        Kind::Text,
+        "",
+        "why it is held back from validation",
+    ),
+    (
+        "holds_to_f",
+        Kind::Double,
+        "",
+        "the false-positive fraction up to which the verdict holds",
+    ),
 ];
 
-fn input_numeric(v: &Session) -> Vec<Field> {
-    NUMERIC
-        .iter()
-        .copied()
-        .filter(|f| v.loaded.catalogue.has(*f))
-        .collect()
+/// The unit of an input field in VOUnits (IVOA VOUnits 1.0).
+fn vo_unit(f: Field) -> &'static str {
+    match f {
+        Field::PeriodD | Field::PeriodErrD | Field::EpochErrD | Field::Epoch => "d",
+        Field::DepthPpm => "ppm",
+        Field::DurationH => "h",
+        Field::StarRadiusRsun => "solRad",
+        Field::StarMassMsun => "solMass",
+        Field::StarTeffK => "K",
+        // log g has no VOUnits spelling; its unit is in the description.
+        Field::RaDeg | Field::DecDeg => "deg",
+        Field::Mag => "mag",
+        _ => "",
+    }
 }
 
-fn write_csv(
-    v: &Session,
-    live: &Live,
-    rows: &[CandidateId],
-    filter: Option<&Filter>,
-    out: &mut dyn Write,
-) -> Result<(), CliError> {
-    let cat = &v.loaded.catalogue;
-    let m = live.model();
-    writeln!(
-        out,
-        "# starsift vetted catalogue of {}; ledger {}",
-        clean(&cat.source),
-        clean(v.ledger_path.as_deref().unwrap_or("none"))
-    )?;
-    writeln!(
-        out,
-        "# model: N = {}, {}, boost {}",
-        m.targets.map_or("not given".into(), |n| n.to_string()),
-        m.describe_fp(),
-        m.mode.describe()
-    )?;
-    if let Some(line) = live.held_line() {
-        writeln!(out, "# {line}")?;
+/// The export of one session: its columns and, per candidate, its cells.
+struct Export<'a> {
+    v: &'a Session,
+    live: &'a Live,
+    numeric: Vec<Field>,
+    extras: Vec<String>,
+}
+
+impl<'a> Export<'a> {
+    fn new(v: &'a Session, live: &'a Live) -> Export<'a> {
+        let cat = &v.loaded.catalogue;
+        Export {
+            v,
+            live,
+            numeric: NUMERIC.iter().copied().filter(|f| cat.has(*f)).collect(),
+            extras: cat.extra_headers().map(str::to_string).collect(),
+        }
     }
-    writeln!(out, "# {}", model_statement(m))?;
-    if let Some(f) = filter {
-        writeln!(
-            out,
-            "# only the {} of {} candidates matching: {}",
-            rows.len(),
-            cat.len(),
-            clean(&f.text)
-        )?;
-    }
-    let numeric = input_numeric(v);
-    let extras: Vec<String> = cat.extra_headers().map(str::to_string).collect();
-    let mut w = csv_writer(out);
-    let mut header: Vec<String> = vec!["star".into(), "candidate".into()];
-    header.extend(numeric.iter().map(|f| f.name().to_string()));
-    if cat.has(Field::Lightcurve) {
-        header.push("lightcurve".into());
-    }
-    header.extend(extras.iter().cloned());
-    header.extend(VETTING_COLUMNS.iter().map(|s| s.to_string()));
-    w.write_record(&header)?;
-    let mut b = ryu::Buffer::new();
-    for &c in rows {
-        w.write_field(cat.star_id(cat.star_of(c)).as_bytes())?;
-        w.write_field(cat.candidate_id(c).as_bytes())?;
-        for f in &numeric {
-            w.write_field(exact_in(&mut b, cat.value(*f, c)))?;
+
+    fn columns(&self) -> Vec<Column> {
+        let cat = &self.v.loaded.catalogue;
+        let col = |name: &str, kind, unit, description: &str| Column {
+            name: name.to_string(),
+            kind,
+            unit,
+            description: description.to_string(),
+        };
+        let mut c = vec![
+            col("star", Kind::Text, "", "host star id"),
+            col("candidate", Kind::Text, "", "candidate id"),
+        ];
+        for f in &self.numeric {
+            let what = match f.unit() {
+                "" => String::new(),
+                u => format!("unit: {u}"),
+            };
+            c.push(col(f.name(), Kind::Double, vo_unit(*f), &what));
         }
         if cat.has(Field::Lightcurve) {
-            w.write_field(cat.lightcurve(c).unwrap_or("").as_bytes())?;
+            c.push(col("lightcurve", Kind::Text, "", "light-curve file(s)"));
         }
-        for i in 0..extras.len() {
-            w.write_field(cat.extra(i, c).as_bytes())?;
+        for h in &self.extras {
+            c.push(col(h, Kind::Text, "", "input column kept as it was"));
         }
-        let e = v.latest.get(cat.candidate_id(c));
-        w.write_field(live.k(c).to_string())?;
-        w.write_field(exact_in(&mut b, live.boost(c)))?;
-        w.write_field(exact_in(&mut b, live.odds(c)))?;
-        w.write_field(exact_in(&mut b, live.probability(c)))?;
-        w.write_field(live.verdict(c).name())?;
-        w.write_field(live.decision(c).name())?;
-        w.write_field(live.decision(c).reason().map_or("", |r| r.name()))?;
-        w.write_field(e.and_then(|e| e.note.as_deref()).unwrap_or("").as_bytes())?;
-        w.write_field(e.map_or("", |e| &*e.vetter).as_bytes())?;
-        w.write_field(e.map_or("", |e| e.decided_at.as_str()))?;
-        w.write_field(v.checks.flags(c).joined(";"))?;
-        w.write_field(v.checks.warnings(c).joined(";"))?;
-        w.write_field(if live.counted(c) { "yes" } else { "no" })?;
-        w.write_field(crate::odds::hold_text(cat, live, c))?;
-        w.write_field(exact_in(&mut b, live.holds_to(c)))?;
-        w.write_record(None::<&[u8]>)?;
+        for (name, kind, unit, what) in VETTING_COLUMNS {
+            c.push(col(name, kind, unit, what));
+        }
+        c
     }
-    w.flush()?;
-    Ok(())
+
+    fn cells(&self, c: CandidateId) -> Vec<Cell<'a>> {
+        let (v, live) = (self.v, self.live);
+        let cat = &v.loaded.catalogue;
+        let mut out = Vec::with_capacity(self.numeric.len() + self.extras.len() + 18);
+        out.push(Cell::Text(cat.star_id(cat.star_of(c))));
+        out.push(Cell::Text(cat.candidate_id(c)));
+        out.extend(self.numeric.iter().map(|f| Cell::Num(cat.value(*f, c))));
+        if cat.has(Field::Lightcurve) {
+            out.push(Cell::Text(cat.lightcurve(c).unwrap_or("")));
+        }
+        out.extend((0..self.extras.len()).map(|i| Cell::Text(cat.extra(i, c))));
+        let e = v.latest.get(cat.candidate_id(c));
+        let names = |s: crate::flags::FlagSet| s.iter().map(|f| f.name()).collect::<Vec<_>>();
+        out.extend([
+            Cell::Int(live.k(c) as u64),
+            Cell::Num(live.boost(c)),
+            Cell::Num(live.odds(c)),
+            Cell::Num(live.probability(c)),
+            Cell::Text(live.verdict(c).name()),
+            Cell::Text(live.decision(c).name()),
+            Cell::Opt(live.decision(c).reason().map(|r| r.name())),
+            Cell::Opt(e.and_then(|e| e.note.as_deref())),
+            Cell::Opt(e.map(|e| &*e.vetter)),
+            Cell::Opt(e.map(|e| e.decided_at.as_str())),
+            Cell::List(names(v.checks.flags(c))),
+            Cell::List(names(v.checks.warnings(c))),
+            Cell::Bool(live.counted(c)),
+            Cell::Opt(None),
+            Cell::Num(live.holds_to(c)),
+        ]);
+        out
+    }
+
+    /// The held-back text is owned; it replaces the placeholder in `cells`.
+    fn held(&self, c: CandidateId) -> String {
+        crate::odds::hold_text(&self.v.loaded.catalogue, self.live, c)
+    }
+
+    fn provenance(&self, rows: &[CandidateId], filter: Option<&Filter>, f: ExportFormat) -> Value {
+        let (v, live) = (self.v, self.live);
+        let cat = &v.loaded.catalogue;
+        let m = live.model();
+        let fingerprint = match &v.loaded.path {
+            Some(p) => std::fs::read(p)
+                .ok()
+                .map(|b| crate::ledger::fingerprint(&b)),
+            None => Some(crate::ledger::fingerprint(
+                crate::demo::CATALOGUE_CSV.as_bytes(),
+            )),
+        };
+        json!({
+            "tool": format!("starsift {}", env!("CARGO_PKG_VERSION")),
+            "written_at": crate::ledger::now_rfc3339(),
+            "format": f.name(),
+            "rows": rows.len(),
+            "catalogue": {
+                "path": clean(&cat.source),
+                "fingerprint": fingerprint,
+                "candidates": cat.len(),
+                "stars": cat.star_count(),
+            },
+            "ledger": v.ledger_path.as_deref().map(clean),
+            "filter": filter.map(|f| clean(&f.text).into_owned()),
+            "model": {
+                "targets_searched": m.targets,
+                "fp_fraction_singles": m.fp_fraction,
+                "fp_fraction": m.describe_fp(),
+                "boost_mode": m.mode.describe(),
+                "threshold": m.threshold,
+                "blocking_flags": m.blocking.iter().map(|f| f.name()).collect::<Vec<_>>(),
+            },
+            "check_settings": v.settings,
+            "lightcurves": {
+                "stars_read": v.lightcurve_stars,
+                "stars_failed": v.lightcurve_errors.len(),
+                "notice": v.lightcurve_notice,
+            },
+            "held_back": live.held_line(),
+            "statement": model_statement(m),
+            "columns": self.columns().iter().map(|c| json!({
+                "name": clean(&c.name), "unit": c.unit, "description": c.description,
+            })).collect::<Vec<_>>(),
+        })
+    }
+
+    fn write_csv(
+        &self,
+        rows: &[CandidateId],
+        comments: Option<&Value>,
+        out: &mut dyn Write,
+    ) -> Result<(), CliError> {
+        if let Some(meta) = comments {
+            for line in comment_lines(meta) {
+                writeln!(out, "# {line}")?;
+            }
+        }
+        let header: Vec<String> = self.columns().into_iter().map(|c| c.name).collect();
+        let held_at = header.len() - 2;
+        let mut w = csv_writer(out);
+        w.write_record(&header)?;
+        let mut b = ryu::Buffer::new();
+        for &c in rows {
+            for (i, cell) in self.cells(c).into_iter().enumerate() {
+                match cell {
+                    _ if i == held_at => w.write_field(self.held(c))?,
+                    Cell::Text(s) => w.write_field(s.as_bytes())?,
+                    Cell::Opt(s) => w.write_field(s.unwrap_or("").as_bytes())?,
+                    Cell::Num(x) => w.write_field(exact_in(&mut b, x))?,
+                    Cell::Int(n) => w.write_field(n.to_string())?,
+                    Cell::Bool(t) => w.write_field(if t { "yes" } else { "no" })?,
+                    Cell::List(l) => w.write_field(l.join(";"))?,
+                }
+            }
+            w.write_record(None::<&[u8]>)?;
+        }
+        w.flush()?;
+        Ok(())
+    }
+
+    fn write_json(&self, rows: &[CandidateId], out: &mut dyn Write) -> Result<(), CliError> {
+        let names: Vec<String> = self.columns().into_iter().map(|c| c.name).collect();
+        let held_at = names.len() - 2;
+        out.write_all(b"[")?;
+        for (n, &c) in rows.iter().enumerate() {
+            let mut o = Map::new();
+            for (i, cell) in self.cells(c).into_iter().enumerate() {
+                let value = match cell {
+                    _ if i == held_at => json!(self.held(c)),
+                    Cell::Text(s) => json!(s),
+                    Cell::Opt(s) => json!(s),
+                    Cell::Num(x) => x
+                        .filter(|x| x.is_finite())
+                        .map_or(Value::Null, |x| json!(x)),
+                    Cell::Int(k) => json!(k),
+                    Cell::Bool(t) => json!(t),
+                    Cell::List(l) => json!(l),
+                };
+                o.insert(names[i].clone(), value);
+            }
+            out.write_all(if n == 0 { b"\n" } else { b",\n" })?;
+            serde_json::to_writer(&mut *out, &Value::Object(o)).map_err(std::io::Error::from)?;
+        }
+        out.write_all(b"\n]\n")?;
+        Ok(())
+    }
+
+    fn write_votable(
+        &self,
+        rows: &[CandidateId],
+        meta: &Value,
+        out: &mut dyn Write,
+    ) -> Result<(), CliError> {
+        let columns = self.columns();
+        let held_at = columns.len() - 2;
+        let info: Vec<(String, String)> = comment_lines(meta)
+            .into_iter()
+            .filter_map(|l| {
+                l.split_once(": ")
+                    .map(|(k, v)| (k.to_string(), v.to_string()))
+            })
+            .collect();
+        let description = format!(
+            "starsift vetted catalogue of {}. {}",
+            clean(&self.v.loaded.catalogue.source),
+            model_statement(self.live.model())
+        );
+        votable::begin(out, &description, &info, &columns)?;
+        let (mut b, mut scratch) = (ryu::Buffer::new(), String::new());
+        let mut texts: Vec<String> = Vec::with_capacity(columns.len());
+        for &c in rows {
+            texts.clear();
+            for (i, cell) in self.cells(c).into_iter().enumerate() {
+                texts.push(match cell {
+                    _ if i == held_at => self.held(c),
+                    Cell::Text(s) => clean(s).into_owned(),
+                    Cell::Opt(s) => clean(s.unwrap_or("")).into_owned(),
+                    Cell::Num(x) => exact_in(&mut b, x).to_string(),
+                    Cell::Int(k) => k.to_string(),
+                    Cell::Bool(t) => (if t { "T" } else { "F" }).to_string(),
+                    Cell::List(l) => l.join(";"),
+                });
+            }
+            votable::row(out, &texts, &mut scratch)?;
+        }
+        votable::end(out)?;
+        Ok(())
+    }
 }
 
-fn to_json(v: &Session, live: &Live, selected: &[CandidateId], filter: Option<&Filter>) -> Value {
-    let cat = &v.loaded.catalogue;
-    let numeric = input_numeric(v);
-    let f = |x: Option<f64>| x.map_or(Value::Null, |y| json!(y));
-    let rows: Vec<Value> = selected
-        .iter()
-        .map(|&c| {
-            let mut o = Map::new();
-            o.insert("star".into(), json!(cat.star_id(cat.star_of(c))));
-            o.insert("candidate".into(), json!(cat.candidate_id(c)));
-            for fl in &numeric {
-                o.insert(fl.name().into(), f(cat.value(*fl, c)));
-            }
-            for (i, h) in cat.extra_headers().enumerate() {
-                o.insert(h.to_string(), json!(cat.extra(i, c)));
-            }
-            let e = v.latest.get(cat.candidate_id(c));
-            o.insert("k".into(), json!(live.k(c)));
-            o.insert("boost".into(), f(live.boost(c)));
-            o.insert("odds".into(), f(live.odds(c)));
-            o.insert("probability".into(), f(live.probability(c)));
-            o.insert("verdict".into(), json!(live.verdict(c).name()));
-            o.insert("decision".into(), json!(live.decision(c).name()));
-            o.insert(
-                "reason".into(),
-                json!(live.decision(c).reason().map(|r| r.name())),
-            );
-            o.insert("note".into(), json!(e.and_then(|e| e.note.as_deref())));
-            o.insert("vetter".into(), json!(e.map(|e| &*e.vetter)));
-            o.insert("decided_at".into(), json!(e.map(|e| e.decided_at.clone())));
-            o.insert(
-                "flags".into(),
-                json!(
-                    v.checks
-                        .flags(c)
-                        .iter()
-                        .map(|x| x.name())
-                        .collect::<Vec<_>>()
-                ),
-            );
-            o.insert(
-                "warnings".into(),
-                json!(
-                    v.checks
-                        .warnings(c)
-                        .iter()
-                        .map(|x| x.name())
-                        .collect::<Vec<_>>()
-                ),
-            );
-            o.insert("counted".into(), json!(live.counted(c)));
-            o.insert(
-                "held_back".into(),
-                json!(crate::odds::hold_text(cat, live, c)),
-            );
-            o.insert("holds_to_f".into(), f(live.holds_to(c)));
-            Value::Object(o)
-        })
-        .collect();
-    let m = live.model();
-    json!({
-        "catalogue": cat.source,
-        "ledger": v.ledger_path.as_deref().map(clean),
-        "held_back": live.held_line(),
-        "model": {
-            "targets_searched": m.targets, "fp_fraction_singles": m.fp_fraction,
-            "fp_fraction": m.describe_fp(),
-            "boost_mode": m.mode.describe(), "threshold": m.threshold, "statement": model_statement(m),
-        },
-        "filter": filter.map(|f| f.text.as_str()),
-        "candidates": rows,
-    })
+/// The provenance as `key: value` lines (for `#` comments and INFO elements).
+fn comment_lines(meta: &Value) -> Vec<String> {
+    let s = |v: &Value| match v {
+        Value::String(s) => s.clone(),
+        Value::Null => "none".into(),
+        other => other.to_string(),
+    };
+    let mut lines = vec![
+        format!("tool: {}", s(&meta["tool"])),
+        format!("written_at: {}", s(&meta["written_at"])),
+        format!("catalogue: {}", s(&meta["catalogue"]["path"])),
+        format!("fingerprint: {}", s(&meta["catalogue"]["fingerprint"])),
+        format!("ledger: {}", s(&meta["ledger"])),
+        format!(
+            "model: N = {}, {}, boost {}, validated at odds >= {}:1",
+            s(&meta["model"]["targets_searched"]),
+            s(&meta["model"]["fp_fraction"]),
+            s(&meta["model"]["boost_mode"]),
+            crate::output::num(meta["model"]["threshold"].as_f64(), 6)
+        ),
+    ];
+    if !meta["held_back"].is_null() {
+        lines.push(format!("held_back: {}", s(&meta["held_back"])));
+    }
+    if !meta["filter"].is_null() {
+        lines.push(format!(
+            "filter: only the {} candidates matching {}",
+            s(&meta["rows"]),
+            s(&meta["filter"])
+        ));
+    }
+    lines.push(format!("statement: {}", s(&meta["statement"])));
+    lines
 }

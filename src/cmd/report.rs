@@ -9,11 +9,11 @@ use std::path::PathBuf;
 
 use crate::catalogue::CandidateId;
 use crate::cli::{CliError, VettingArgs};
-use crate::cmd::export::write_atomically;
 use crate::odds::{
     ALL_VERDICTS, Verdict, format_odds, model_statement, posterior_odds, probability,
 };
 use crate::output::num;
+use crate::output::write_atomically;
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
 
