@@ -446,6 +446,27 @@ pub struct LightcurveArgs {
     /// lightcurve_time_offset, else 0].
     #[arg(long, value_name = "DAYS", allow_negative_numbers = true)]
     pub lc_time_offset: Option<f64>,
+    /// Days added to every catalogue epoch before it is compared with the
+    /// light curves (e.g. 2457000 when epochs are BJD − 2457000 and FITS
+    /// headers make light-curve times full BJD) [default: survey.toml's
+    /// epoch_offset; without either, a FITS header's zero is matched to the
+    /// epochs' count automatically].
+    #[arg(
+        long,
+        value_name = "DAYS",
+        allow_negative_numbers = true,
+        conflicts_with = "lc_time_offset"
+    )]
+    pub epoch_offset: Option<f64>,
+    /// Light-curve quality-flag column (default: quality|sap_quality|
+    /// pdc_quality|qual|quality_flag|dq|flags); samples with a flag set are
+    /// dropped.
+    #[arg(long, value_name = "NAME")]
+    pub quality_column: Option<String>,
+    /// The quality bits that drop a sample, as a number (decimal, or 0x...
+    /// hex); other bits are kept [default: every bit drops].
+    #[arg(long, value_name = "BITS", value_parser = parse_bits)]
+    pub quality_mask: Option<u64>,
     /// Do not remove slow variability before measuring.
     #[arg(long)]
     pub no_detrend: bool,
@@ -473,13 +494,31 @@ impl LightcurveArgs {
                 flux: self.flux_column.clone(),
                 flux_err: self.err_column.clone(),
                 hdu: self.hdu.clone(),
+                quality: self.quality_column.clone(),
+                quality_mask: self.quality_mask,
             },
             demo: loaded.demo,
-            time_offset: self
-                .lc_time_offset
-                .or(loaded.survey.lightcurve_time_offset)
-                .unwrap_or(0.0),
+            time_offset: self.time_offset(&loaded.survey),
+            offset_given: self.time_offset_given(&loaded.survey),
+            ..Default::default()
         }
+    }
+
+    /// Days added to light-curve times: `--lc-time-offset`, else minus
+    /// `--epoch-offset`, else survey.toml's (the same two), else 0.
+    fn time_offset(&self, survey: &crate::survey::SurveyFacts) -> f64 {
+        self.lc_time_offset
+            .or(self.epoch_offset.map(|e| -e))
+            .or(survey.lightcurve_time_offset)
+            .or(survey.epoch_offset.map(|e| -e))
+            .unwrap_or(0.0)
+    }
+
+    fn time_offset_given(&self, survey: &crate::survey::SurveyFacts) -> bool {
+        self.lc_time_offset.is_some()
+            || self.epoch_offset.is_some()
+            || survey.lightcurve_time_offset.is_some()
+            || survey.epoch_offset.is_some()
     }
 
     pub fn detrend(&self) -> crate::lightcurve::analysis::DetrendSettings {
@@ -493,6 +532,16 @@ impl LightcurveArgs {
             ..Default::default()
         }
     }
+}
+
+/// A bit mask: decimal or `0x` hexadecimal.
+fn parse_bits(text: &str) -> Result<u64, String> {
+    let t = text.trim();
+    let parsed = match t.strip_prefix("0x").or_else(|| t.strip_prefix("0X")) {
+        Some(hex) => u64::from_str_radix(hex, 16),
+        None => t.parse::<u64>(),
+    };
+    parsed.map_err(|_| format!("`{text}` is not a bit mask (a whole number, or 0x... hex)"))
 }
 
 /// `--where FILTER`, parsed; a filter that does not parse says where.

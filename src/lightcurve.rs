@@ -7,34 +7,70 @@
 pub mod analysis;
 mod candidate;
 mod fits;
+mod segments;
 pub mod timezero;
 
 pub use candidate::{Cache, Finder, ModelParams, context, model_params, signals, star_signals};
 
-pub use fits::write_table as write_fits;
+pub use fits::{ArchiveSegment, write_archive_segment, write_table as write_fits};
+pub use segments::{DirIndex, locate_all};
 
 use std::io::Read;
-use std::path::{Path, PathBuf};
+use std::path::Path;
 
 use flate2::read::MultiGzDecoder;
 
 use crate::catalogue::parse_number;
 
-/// One star's photometry, sorted by time, flux normalised to a median of 1.
+/// One star's photometry, sorted by time, each segment's flux normalised to
+/// its own median of 1.
 #[derive(Clone, Debug, PartialEq)]
 pub struct LightCurve {
     pub time: Vec<f64>,
     pub flux: Vec<f64>,
     pub flux_err: Vec<f64>,
-    /// Where it came from.
+    /// Where it came from (the file, or the first file and the count).
     pub source: String,
-    /// Samples dropped for a missing or non-finite value.
+    /// Samples dropped for a missing or non-finite value (all segments).
     pub dropped: usize,
-    /// The median the flux was divided by (1 if it was normalised already).
+    /// Samples dropped because their quality flag was set (all segments).
+    pub dropped_quality: usize,
+    /// The median the first segment's flux was divided by (1 if it was
+    /// normalised already); each segment's own is in `segments`.
     pub normalised_by: f64,
-    /// True when the file had no error column and errors were estimated from
+    /// True when a file had no error column and errors were estimated from
     /// the point-to-point scatter.
     pub err_estimated: bool,
+    /// The files read, in time order.
+    pub segments: Vec<Segment>,
+    /// Where each stretch that detrending treats on its own begins (sample
+    /// indices, the first 0): one per segment, or per group of segments that
+    /// overlap in time.
+    pub breaks: Vec<usize>,
+    /// Days the files' headers added to their time column (BJDREFI +
+    /// BJDREFF...), so times are absolute; 0 when no file stated a zero.
+    pub time_zero: f64,
+    /// Plain notes for people: segments left out, times shifted.
+    pub notes: Vec<String>,
+}
+
+/// One file of a light curve, after cleaning.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Segment {
+    pub source: String,
+    /// Samples kept.
+    pub samples: usize,
+    /// Dropped for a missing or non-finite time, flux or error.
+    pub dropped: usize,
+    /// Dropped for a set quality flag.
+    pub dropped_quality: usize,
+    /// The median flux this segment was divided by.
+    pub normalised_by: f64,
+    /// First and last time kept.
+    pub first: f64,
+    pub last: f64,
+    /// The columns read, for people ("TIME, PDCSAP_FLUX, ...").
+    pub columns: String,
 }
 
 #[derive(Debug, thiserror::Error)]
@@ -63,7 +99,8 @@ pub enum LcError {
     Fits { path: String, message: String },
 }
 
-/// Column names (and the FITS extension) to read, overriding the synonyms.
+/// Column names (and the FITS extension) to read, overriding the synonyms,
+/// and which quality bits drop a sample.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct LcColumns {
     pub time: Option<String>,
@@ -71,32 +108,81 @@ pub struct LcColumns {
     pub flux_err: Option<String>,
     /// FITS extension: a number (1 = the first extension) or a name.
     pub hdu: Option<String>,
+    /// The quality-flag column (default: the first of [`QUALITY_NAMES`]).
+    pub quality: Option<String>,
+    /// The quality bits that drop a sample; `None` drops on any set bit.
+    pub quality_mask: Option<u64>,
 }
 
-const TIME_NAMES: [&str; 3] = ["time", "t", "bjd"];
-const FLUX_NAMES: [&str; 3] = ["flux", "f", "norm_flux"];
-const ERR_NAMES: [&str; 3] = ["flux_err", "err", "sigma"];
+/// Time column names, most specific first.
+pub const TIME_NAMES: [&str; 8] = ["time", "t", "bjd", "btjd", "bjd_tdb", "jd", "mjd", "hjd"];
+/// Flux column names in order of preference: a pipeline's systematics-
+/// corrected flux before its simple aperture flux (archive light curves carry
+/// both; the corrected one has the spacecraft's trends removed).
+pub const FLUX_NAMES: [&str; 8] = [
+    "pdcsap_flux",
+    "kspsap_flux",
+    "det_flux",
+    "flux",
+    "f",
+    "norm_flux",
+    "rel_flux",
+    "sap_flux",
+];
+/// Error column names when the flux column has no error column of its own
+/// (`<flux>_err`, `<flux>_error`, `e_<flux>`).
+pub const ERR_NAMES: [&str; 5] = ["flux_err", "err", "sigma", "flux_error", "e_flux"];
+/// Quality-flag column names: a non-zero value marks a sample the pipeline
+/// found corrupt (cosmic ray, momentum dump, scattered light...).
+pub const QUALITY_NAMES: [&str; 7] = [
+    "quality",
+    "sap_quality",
+    "pdc_quality",
+    "qual",
+    "quality_flag",
+    "dq",
+    "flags",
+];
 
 /// The index of the wanted column: the override if given (exact, then any
-/// case), else the first header matching a synonym, case-insensitively.
+/// case), else the header matching the earliest synonym, case-insensitively.
 fn pick(header: &[String], wanted: Option<&str>, synonyms: &[&str]) -> Option<usize> {
     match wanted {
         Some(w) => header
             .iter()
             .position(|h| h == w)
             .or_else(|| header.iter().position(|h| h.eq_ignore_ascii_case(w))),
-        None => header
+        None => synonyms
             .iter()
-            .position(|h| synonyms.iter().any(|s| h.trim().eq_ignore_ascii_case(s))),
+            .find_map(|s| header.iter().position(|h| h.trim().eq_ignore_ascii_case(s))),
     }
 }
 
-/// The three columns of a table, or an error naming what is missing.
-fn resolve_columns(
-    path: &str,
-    header: &[String],
-    cols: &LcColumns,
-) -> Result<(usize, usize, Option<usize>), LcError> {
+/// The columns of a table a light curve is read from.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub(crate) struct Picked {
+    pub time: usize,
+    pub flux: usize,
+    pub err: Option<usize>,
+    pub quality: Option<usize>,
+}
+
+impl Picked {
+    /// The columns in use, for people.
+    fn describe(&self, header: &[String]) -> String {
+        [Some(self.time), Some(self.flux), self.err, self.quality]
+            .into_iter()
+            .flatten()
+            .map(|i| header[i].trim().to_string())
+            .collect::<Vec<_>>()
+            .join(", ")
+    }
+}
+
+/// The columns of a table, or an error naming what is missing. The error
+/// column goes with the flux column chosen (`PDCSAP_FLUX_ERR` with
+/// `PDCSAP_FLUX`), else the generic names.
+fn resolve_columns(path: &str, header: &[String], cols: &LcColumns) -> Result<Picked, LcError> {
     let missing = |what, names: &[&str], flag, wanted: Option<&String>| LcError::Column {
         path: path.to_string(),
         what,
@@ -108,31 +194,66 @@ fn resolve_columns(
         .ok_or_else(|| missing("time", &TIME_NAMES, "time-column", cols.time.as_ref()))?;
     let f = pick(header, cols.flux.as_deref(), &FLUX_NAMES)
         .ok_or_else(|| missing("flux", &FLUX_NAMES, "flux-column", cols.flux.as_ref()))?;
-    let e = pick(header, cols.flux_err.as_deref(), &ERR_NAMES);
-    if cols.flux_err.is_some() && e.is_none() {
-        return Err(missing(
-            "flux error",
-            &ERR_NAMES,
-            "err-column",
-            cols.flux_err.as_ref(),
-        ));
-    }
-    Ok((t, f, e))
+    let e = match cols.flux_err.as_deref() {
+        Some(w) => Some(pick(header, Some(w), &[]).ok_or_else(|| {
+            missing(
+                "flux error",
+                &ERR_NAMES,
+                "err-column",
+                cols.flux_err.as_ref(),
+            )
+        })?),
+        None => {
+            let base = header[f].trim().to_ascii_lowercase();
+            let own = [
+                format!("{base}_err"),
+                format!("{base}_error"),
+                format!("e_{base}"),
+            ];
+            let own: Vec<&str> = own.iter().map(String::as_str).collect();
+            pick(header, None, &own).or_else(|| pick(header, None, &ERR_NAMES))
+        }
+    };
+    let q = match cols.quality.as_deref() {
+        Some(w) => Some(pick(header, Some(w), &[]).ok_or_else(|| {
+            missing(
+                "quality",
+                &QUALITY_NAMES,
+                "quality-column",
+                cols.quality.as_ref(),
+            )
+        })?),
+        None => pick(header, None, &QUALITY_NAMES),
+    };
+    Ok(Picked {
+        time: t,
+        flux: f,
+        err: e,
+        quality: q,
+    })
+}
+
+/// One file's samples as read, before cleaning.
+#[derive(Clone, Debug, Default)]
+pub struct Raw {
+    pub time: Vec<f64>,
+    pub flux: Vec<f64>,
+    pub err: Option<Vec<f64>>,
+    /// Quality flags; a sample whose flags meet the mask is dropped. A flag
+    /// that is not a whole number reads as every bit set.
+    pub quality: Option<Vec<u64>>,
+    /// Days already added to `time` from the file's header (0 for none).
+    pub time_zero: f64,
+    pub columns: String,
+    pub notes: Vec<String>,
 }
 
 impl LightCurve {
     /// Reads a light curve by its extension: `.fits`, `.fit`, `.fts` (also
     /// gzipped, read by CFITSIO) or CSV/TSV (optionally `.gz`).
     pub fn read(path: &Path, cols: &LcColumns) -> Result<LightCurve, LcError> {
-        let name = path.display().to_string();
-        let lower = name.to_ascii_lowercase();
-        let stem = lower.strip_suffix(".gz").unwrap_or(&lower);
-        let (time, flux, err) = if [".fits", ".fit", ".fts"].iter().any(|e| stem.ends_with(e)) {
-            fits::read_table(path, cols)?
-        } else {
-            read_text(path, cols)?
-        };
-        LightCurve::from_samples(name, time, flux, err)
+        let raw = read_raw(path, cols)?;
+        LightCurve::from_segments(vec![(path.display().to_string(), raw)], cols.quality_mask)
     }
 
     /// Cleans raw samples: drops non-finite ones, sorts by time, normalises.
@@ -142,50 +263,31 @@ impl LightCurve {
         flux: Vec<f64>,
         err: Option<Vec<f64>>,
     ) -> Result<LightCurve, LcError> {
-        let n = time.len().min(flux.len());
-        let n = err.as_ref().map_or(n, |e| n.min(e.len()));
-        let mut rows: Vec<(f64, f64, f64)> = (0..n)
-            .map(|i| (time[i], flux[i], err.as_ref().map_or(0.0, |e| e[i])))
-            .filter(|(t, f, e)| t.is_finite() && f.is_finite() && e.is_finite() && *e >= 0.0)
-            .collect();
-        let dropped = n - rows.len();
-        if rows.len() < 10 {
-            return Err(LcError::Bad {
-                path: source,
-                message: format!("only {} usable samples ({dropped} dropped)", rows.len()),
-            });
-        }
-        if !rows.windows(2).all(|w| w[0].0 <= w[1].0) {
-            rows.sort_by(|a, b| a.0.total_cmp(&b.0));
-        }
-        check_span(&source, &time, &rows)?;
-        let mut f: Vec<f64> = rows.iter().map(|r| r.1).collect();
-        let median = median_of(&mut f.clone());
-        if median.is_nan() || median <= 0.0 {
-            return Err(LcError::Bad {
-                path: source,
-                message: format!("median flux {median} is not positive; cannot normalise"),
-            });
-        }
-        f.iter_mut().for_each(|v| *v /= median);
-        let time: Vec<f64> = rows.iter().map(|r| r.0).collect();
-        let (flux_err, err_estimated) = match err {
-            Some(_) => (rows.iter().map(|r| r.2 / median).collect(), false),
-            None => {
-                let s = point_to_point_sigma(&f);
-                (vec![s; f.len()], true)
-            }
-        };
-        Ok(LightCurve {
+        let raw = Raw {
             time,
-            flux: f,
-            flux_err,
-            source,
-            dropped,
-            normalised_by: median,
-            err_estimated,
-        })
+            flux,
+            err,
+            ..Raw::default()
+        };
+        LightCurve::from_segments(vec![(source, raw)], None)
     }
+}
+
+/// Reads one file's samples by its extension.
+pub fn read_raw(path: &Path, cols: &LcColumns) -> Result<Raw, LcError> {
+    let lower = path.display().to_string().to_ascii_lowercase();
+    let stem = lower.strip_suffix(".gz").unwrap_or(&lower);
+    if [".fits", ".fit", ".fts"].iter().any(|e| stem.ends_with(e)) {
+        fits::read_table(path, cols)
+    } else {
+        read_text(path, cols)
+    }
+}
+
+/// Per-point scatter of one segment's normalised flux, for files without
+/// an error column.
+fn estimated_errors(f: &[f64]) -> Vec<f64> {
+    vec![point_to_point_sigma(f); f.len()]
 }
 
 /// The longest time span a light curve may cover, in days (about 270
@@ -241,9 +343,7 @@ pub fn point_to_point_sigma(f: &[f64]) -> f64 {
     1.4826 * median_of(&mut d) / std::f64::consts::SQRT_2
 }
 
-type Samples = (Vec<f64>, Vec<f64>, Option<Vec<f64>>);
-
-fn read_text(path: &Path, cols: &LcColumns) -> Result<Samples, LcError> {
+fn read_text(path: &Path, cols: &LcColumns) -> Result<Raw, LcError> {
     let name = path.display().to_string();
     let mut raw = Vec::new();
     std::fs::File::open(path)
@@ -258,12 +358,32 @@ fn read_text(path: &Path, cols: &LcColumns) -> Result<Samples, LcError> {
 impl LightCurve {
     /// Reads a CSV/TSV light curve (optionally gzipped) from memory.
     pub fn from_text(name: &str, raw: Vec<u8>, cols: &LcColumns) -> Result<LightCurve, LcError> {
-        let (t, f, e) = parse_text(name, raw, cols)?;
-        LightCurve::from_samples(name.to_string(), t, f, e)
+        let raw = parse_text(name, raw, cols)?;
+        LightCurve::from_segments(vec![(name.to_string(), raw)], cols.quality_mask)
     }
 }
 
-fn parse_text(name: &str, mut raw: Vec<u8>, cols: &LcColumns) -> Result<Samples, LcError> {
+/// A quality cell as flag bits: empty is 0 (good), a whole number its bits,
+/// true/false as 1/0, anything else every bit (the sample is suspect).
+fn quality_bits(cell: &[u8]) -> u64 {
+    let t = std::str::from_utf8(cell).unwrap_or("").trim();
+    if t.is_empty() {
+        return 0;
+    }
+    if let Ok(v) = t.parse::<u64>() {
+        return v;
+    }
+    match t.to_ascii_lowercase().as_str() {
+        "false" | "f" => 0,
+        "true" | "t" => 1,
+        _ => match parse_number(cell) {
+            Some(v) if v >= 0.0 && v.fract() == 0.0 && v < 1.8e19 => v as u64,
+            _ => u64::MAX,
+        },
+    }
+}
+
+fn parse_text(name: &str, mut raw: Vec<u8>, cols: &LcColumns) -> Result<Raw, LcError> {
     let name = name.to_string();
     let io = |source| LcError::Io {
         path: name.clone(),
@@ -305,63 +425,29 @@ fn parse_text(name: &str, mut raw: Vec<u8>, cols: &LcColumns) -> Result<Samples,
                 .to_string()
         })
         .collect();
-    let (ti, fi, ei) = resolve_columns(&name, &header, cols)?;
+    let p = resolve_columns(&name, &header, cols)?;
     let mut rec = csv::ByteRecord::new();
-    let (mut t, mut f, mut e) = (Vec::new(), Vec::new(), Vec::new());
+    let mut out = Raw {
+        err: p.err.map(|_| Vec::new()),
+        quality: p.quality.map(|_| Vec::new()),
+        columns: p.describe(&header),
+        ..Raw::default()
+    };
     let num = |r: &csv::ByteRecord, i: usize| r.get(i).and_then(parse_number).unwrap_or(f64::NAN);
     while rdr.read_byte_record(&mut rec).map_err(|e| LcError::Bad {
         path: name.clone(),
         message: e.to_string(),
     })? {
-        t.push(num(&rec, ti));
-        f.push(num(&rec, fi));
-        if let Some(ei) = ei {
-            e.push(num(&rec, ei));
+        out.time.push(num(&rec, p.time));
+        out.flux.push(num(&rec, p.flux));
+        if let (Some(i), Some(e)) = (p.err, out.err.as_mut()) {
+            e.push(num(&rec, i));
+        }
+        if let (Some(i), Some(q)) = (p.quality, out.quality.as_mut()) {
+            q.push(quality_bits(rec.get(i).unwrap_or(b"")));
         }
     }
-    Ok((t, f, ei.map(|_| e)))
-}
-
-/// File extensions tried for `<star id>` in a light-curve folder.
-pub const EXTENSIONS: [&str; 6] = [".csv", ".csv.gz", ".tsv", ".tsv.gz", ".fits", ".fits.gz"];
-
-/// Where a star's light curve is: the catalogue's `lightcurve` path (relative
-/// to the catalogue's folder), else `<dir>/<star id><ext>`.
-pub fn locate(
-    star: &str,
-    from_catalogue: Option<&str>,
-    catalogue_dir: Option<&Path>,
-    dir: Option<&Path>,
-) -> Result<PathBuf, LcError> {
-    let mut tried = Vec::new();
-    if let Some(rel) = from_catalogue {
-        let p = match catalogue_dir {
-            Some(d) if Path::new(rel).is_relative() => d.join(rel),
-            _ => PathBuf::from(rel),
-        };
-        if p.is_file() {
-            return Ok(p);
-        }
-        tried.push(p.display().to_string());
-    }
-    // A star id is used as a file name only when it cannot leave the folder.
-    let safe = !star.contains(['/', '\\']) && star != ".." && star != ".";
-    if let (Some(d), true) = (dir, safe) {
-        for ext in EXTENSIONS {
-            let p = d.join(format!("{star}{ext}"));
-            if p.is_file() {
-                return Ok(p);
-            }
-            tried.push(p.display().to_string());
-        }
-    }
-    if tried.is_empty() {
-        tried.push("nothing: no lightcurve column and no --lightcurves folder".into());
-    }
-    Err(LcError::NotFound {
-        star: star.to_string(),
-        tried: tried.join(", "),
-    })
+    Ok(out)
 }
 
 #[cfg(test)]
@@ -409,7 +495,15 @@ mod tests {
 
     #[test]
     fn locating_never_leaves_the_folder() {
-        let e = locate("../etc/passwd", None, None, Some(Path::new("/tmp"))).unwrap_err();
+        let index = DirIndex::build(Path::new("/tmp"));
+        let e = locate_all(
+            "../etc/passwd",
+            None,
+            None,
+            Some((Path::new("/tmp"), &index)),
+            &|_| false,
+        )
+        .unwrap_err();
         assert!(e.to_string().contains("no light curve"), "{e}");
     }
 }

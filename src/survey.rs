@@ -27,6 +27,11 @@ pub struct SurveyFacts {
     /// zero as the catalogue's epochs (e.g. 2457000 when the epochs are BJD
     /// and the light curves BJD − 2457000). `--lc-time-offset` wins.
     pub lightcurve_time_offset: Option<f64>,
+    /// Days added to every catalogue epoch before it is compared with
+    /// light-curve times (e.g. 2457000 when the epochs are BJD − 2457000 and
+    /// the light curves' headers make their times full BJD). `--epoch-offset`
+    /// wins; give this or `lightcurve_time_offset`, not both.
+    pub epoch_offset: Option<f64>,
 }
 
 #[derive(Debug, thiserror::Error)]

@@ -297,7 +297,7 @@ fn spawn_worker(
                                 Ok(d) => SignalResult::Data {
                                     views: Box::new(views),
                                     diagnostics: Box::new(d.clone()),
-                                    source: lc.source.clone(),
+                                    source: lc.label(),
                                 },
                                 Err(e) => SignalResult::Model(e.clone()),
                             }

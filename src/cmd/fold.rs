@@ -156,8 +156,21 @@ fn light_curve_json(lc: &LightCurve) -> Value {
         "source": clean(&lc.source),
         "samples": lc.time.len(),
         "dropped": lc.dropped,
+        "dropped_quality": lc.dropped_quality,
         "normalised_by": lc.normalised_by,
         "errors_estimated": lc.err_estimated,
+        "time_zero": lc.time_zero,
+        "segments": lc.segments.iter().map(|s| json!({
+            "source": clean(&s.source),
+            "columns": clean(&s.columns),
+            "samples": s.samples,
+            "dropped": s.dropped,
+            "dropped_quality": s.dropped_quality,
+            "normalised_by": s.normalised_by,
+            "first": s.first,
+            "last": s.last,
+        })).collect::<Vec<_>>(),
+        "notes": lc.notes.iter().map(|n| clean(n).into_owned()).collect::<Vec<_>>(),
     })
 }
 
@@ -241,10 +254,9 @@ fn write_table(
     )?;
     writeln!(
         out,
-        "data       {} ({} samples, {} dropped{}{})",
+        "data       {} ({}{}{})",
         clean(&lc.source),
-        lc.time.len(),
-        lc.dropped,
+        lc.describe_use(),
         if lc.err_estimated {
             ", errors estimated from the scatter"
         } else {
@@ -256,6 +268,22 @@ fn write_table(
             ", running-median detrended"
         }
     )?;
+    if lc.segments.len() > 1 {
+        for seg in &lc.segments {
+            writeln!(
+                out,
+                "segment    {} ({} samples, {} dropped, {} flagged; median flux {})",
+                clean(&seg.source),
+                seg.samples,
+                seg.dropped,
+                seg.dropped_quality,
+                num(Some(seg.normalised_by), 6)
+            )?;
+        }
+    }
+    for n in &lc.notes {
+        writeln!(out, "note       {}", clean(n))?;
+    }
     writeln!(out)?;
     // x in hours from mid-transit for the zoomed windows, phase for the full orbit.
     let hours = args.window != Window::Full;

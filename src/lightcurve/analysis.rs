@@ -184,7 +184,7 @@ fn robust_line_at_zero(pts: &mut Vec<(f64, f64)>) -> Option<f64> {
 /// star masked while the trend is estimated, and the window half an orbit
 /// later too: a trend fitted through a secondary eclipse takes up part of
 /// its depth (a third of it, for a 3 h eclipse under a 9 h window), and the
-/// secondary check measures there.
+/// secondary check measures there. Segments are detrended each on its own.
 pub fn detrend(lc: &LightCurve, signals: &[Ephemeris], s: &DetrendSettings) -> Vec<f64> {
     if !s.enabled {
         return lc.flux.clone();
@@ -202,8 +202,15 @@ pub fn detrend(lc: &LightCurve, signals: &[Ephemeris], s: &DetrendSettings) -> V
     for (m, h) in mask.iter_mut().zip(in_transit(&lc.time, &halves, 1.2)) {
         *m |= h;
     }
-    let trend = running_median_trend(&lc.time, &lc.flux, &mask, window_d);
-    lc.flux.iter().zip(&trend).map(|(f, t)| f / t).collect()
+    // Each stretch (a segment, or segments that overlap in time) on its
+    // own: a trend never bridges the gap between two segments.
+    let mut out = Vec::with_capacity(lc.flux.len());
+    for r in lc.stretches() {
+        let (t, f) = (&lc.time[r.clone()], &lc.flux[r.clone()]);
+        let trend = running_median_trend(t, f, &mask[r], window_d);
+        out.extend(f.iter().zip(&trend).map(|(f, t)| f / t));
+    }
+    out
 }
 
 /// A folded, binned light curve: per bin its centre (phase, cycles), mean,

@@ -4,10 +4,10 @@
 
 use std::collections::HashMap;
 use std::path::PathBuf;
-use std::sync::{Arc, Mutex};
+use std::sync::{Arc, Mutex, OnceLock};
 
 use super::analysis::{Context, DetrendSettings, Diagnostics, Ephemeris, diagnose_detrended};
-use super::{LcColumns, LcError, LightCurve, locate};
+use super::{DirIndex, LcColumns, LcError, LightCurve, locate_all};
 use crate::catalogue::{CandidateId, Catalogue, Field, StarId};
 use crate::checks::{CheckSettings, derive};
 use crate::science;
@@ -18,37 +18,64 @@ use crate::transit_model::DEFAULT_LD;
 pub struct Finder {
     /// The catalogue's folder, against which `lightcurve` paths are relative.
     pub catalogue_dir: Option<PathBuf>,
-    /// `--lightcurves DIR`: files named `<star id>.<ext>`.
+    /// `--lightcurves DIR`: files named `<star id>.<ext>`,
+    /// `<star id>_<part>.<ext>` or in `<star id>/`.
     pub dir: Option<PathBuf>,
     pub columns: LcColumns,
     /// The built-in demo: regenerate a light curve from the seed when the
     /// file is not on disk.
     pub demo: bool,
-    /// Days added to every light-curve time (`--lc-time-offset`).
+    /// Days added to every light-curve time (`--lc-time-offset`, or minus
+    /// `--epoch-offset`).
     pub time_offset: f64,
+    /// True when the offset was given (flag or survey.toml): times are then
+    /// never re-counted automatically.
+    pub offset_given: bool,
+    /// The listing of `dir`, made on first use.
+    pub index: Arc<OnceLock<DirIndex>>,
 }
 
+/// Epochs and light-curve times further apart than this, days, are counted
+/// from different zeros (see `timezero`).
+const OTHER_ZERO_D: f64 = 10_000.0;
+
 impl Finder {
-    /// True when the star has a light curve to read (a file that exists, or
-    /// one the demo can regenerate); a file that exists may still be unreadable.
-    pub fn has(&self, cat: &Catalogue, star: StarId) -> bool {
+    fn files(&self, cat: &Catalogue, star: StarId) -> Result<Vec<PathBuf>, LcError> {
         let named = cat.members(star).iter().find_map(|&c| cat.lightcurve(c));
-        locate(
+        let dir = self
+            .dir
+            .as_deref()
+            .map(|d| (d, self.index.get_or_init(|| DirIndex::build(d))));
+        let is_star = |id: &str| cat.find_star(id).is_some();
+        locate_all(
             cat.star_id(star),
             named,
             self.catalogue_dir.as_deref(),
-            self.dir.as_deref(),
+            dir,
+            &is_star,
         )
-        .is_ok()
-            || (self.demo && named.is_some())
     }
 
-    /// The light curve of a star, from the first of its candidates that names
-    /// a file, or from the folder.
+    /// True when the star has a light curve to read (a file that exists, or
+    /// one the demo can regenerate); a file that exists may still be unreadable.
+    pub fn has(&self, cat: &Catalogue, star: StarId) -> bool {
+        let named = cat
+            .members(star)
+            .iter()
+            .any(|&c| cat.lightcurve(c).is_some());
+        self.files(cat, star).is_ok() || (self.demo && named)
+    }
+
+    /// The light curve of a star: every segment of it, stitched, with its
+    /// times counted as the catalogue's epochs are.
     pub fn load(&self, cat: &Catalogue, star: StarId) -> Result<LightCurve, LcError> {
         let mut lc = self.load_as_stored(cat, star)?;
-        if self.time_offset != 0.0 {
-            lc.time.iter_mut().for_each(|t| *t += self.time_offset);
+        if self.offset_given {
+            if self.time_offset != 0.0 {
+                lc.time.iter_mut().for_each(|t| *t += self.time_offset);
+            }
+        } else if lc.time_zero != 0.0 {
+            recount_like_epochs(&mut lc, cat, star);
         }
         Ok(lc)
     }
@@ -56,13 +83,15 @@ impl Finder {
     fn load_as_stored(&self, cat: &Catalogue, star: StarId) -> Result<LightCurve, LcError> {
         let id = cat.star_id(star);
         let named = cat.members(star).iter().find_map(|&c| cat.lightcurve(c));
-        match locate(
-            id,
-            named,
-            self.catalogue_dir.as_deref(),
-            self.dir.as_deref(),
-        ) {
-            Ok(path) => LightCurve::read(&path, &self.columns),
+        match self.files(cat, star) {
+            Ok(paths) => {
+                let mut parts = Vec::with_capacity(paths.len());
+                for p in paths {
+                    let raw = super::read_raw(&p, &self.columns)?;
+                    parts.push((p.display().to_string(), raw));
+                }
+                LightCurve::from_segments(parts, self.columns.quality_mask)
+            }
             Err(e) if self.demo && named.is_some() => match crate::demo::demo_lightcurve_csv(id) {
                 Some(text) => LightCurve::from_text(
                     &format!("built-in demo light curve of {id}"),
@@ -73,6 +102,37 @@ impl Finder {
             },
             Err(e) => Err(e),
         }
+    }
+}
+
+/// When the files' headers made the times absolute (BJDREFI + BJDREFF...) but
+/// the star's epochs count from that same zero (a catalogue in BJD − 2457000
+/// beside archive files), the times go back to the files' own count: the
+/// epochs sit thousands of days from the absolute times and within the
+/// light curve's reach of the relative ones, so there is no other reading.
+fn recount_like_epochs(lc: &mut LightCurve, cat: &Catalogue, star: StarId) {
+    let mut epochs: Vec<f64> = cat
+        .members(star)
+        .iter()
+        .filter_map(|&c| cat.value(Field::Epoch, c))
+        .filter(|e| e.is_finite())
+        .collect();
+    let epoch = super::median_of(&mut epochs);
+    let mid = super::median_of(&mut lc.time.clone());
+    if epoch.is_nan() || mid.is_nan() {
+        return;
+    }
+    let zero = lc.time_zero;
+    if (epoch - mid).abs() > OTHER_ZERO_D && (epoch - (mid - zero)).abs() < OTHER_ZERO_D {
+        lc.time.iter_mut().for_each(|t| *t -= zero);
+        for s in &mut lc.segments {
+            s.first -= zero;
+            s.last -= zero;
+        }
+        lc.notes.push(format!(
+            "the catalogue's epochs count from {zero} as the files' time column does, so times \
+             are compared in that count (--epoch-offset or --lc-time-offset sets it by hand)"
+        ));
     }
 }
 

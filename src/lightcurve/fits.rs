@@ -7,11 +7,9 @@ use fitsio::FitsFile;
 use fitsio::hdu::HduInfo;
 use fitsio::tables::ColumnDataType;
 
-use super::{LcColumns, LcError, resolve_columns};
+use super::{LcColumns, LcError, Raw, resolve_columns};
 
-type Columns = (Vec<f64>, Vec<f64>, Option<Vec<f64>>);
-
-pub(super) fn read_table(path: &Path, cols: &LcColumns) -> Result<Columns, LcError> {
+pub(super) fn read_table(path: &Path, cols: &LcColumns) -> Result<Raw, LcError> {
     // The FITS binding panics on some damaged headers (an unknown TFORM
     // type, for one): that is this file's error, never the process's.
     let what = format!("reading {}", path.display());
@@ -23,52 +21,226 @@ pub(super) fn read_table(path: &Path, cols: &LcColumns) -> Result<Columns, LcErr
     })
 }
 
-fn read_table_unguarded(path: &Path, cols: &LcColumns) -> Result<Columns, LcError> {
+/// A binary-table extension: its number, column names, per-column (repeat,
+/// bytes per value) and row count.
+struct TableHdu {
+    hdu: fitsio::hdu::FitsHdu,
+    number: usize,
+    header: Vec<String>,
+    shapes: Vec<(usize, usize)>,
+    rows: usize,
+}
+
+fn as_table(hdu: fitsio::hdu::FitsHdu, number: usize) -> Option<TableHdu> {
+    let HduInfo::TableInfo {
+        column_descriptions,
+        num_rows,
+    } = &hdu.info
+    else {
+        return None;
+    };
+    let header = column_descriptions.iter().map(|c| c.name.clone()).collect();
+    let shapes = column_descriptions
+        .iter()
+        .map(|c| (c.data_type.repeat, bytes_per_value(&c.data_type.typ)))
+        .collect();
+    let rows = *num_rows;
+    Some(TableHdu {
+        hdu,
+        number,
+        header,
+        shapes,
+        rows,
+    })
+}
+
+/// The table to read: `--hdu` if given, else the first table extension that
+/// has a time and a flux column (archive files put the light curve in the
+/// first extension and images after it, but not every writer does).
+fn find_table(
+    f: &mut FitsFile,
+    name: &str,
+    cols: &LcColumns,
+) -> Result<(TableHdu, super::Picked), LcError> {
+    let err = |e: fitsio::errors::Error| LcError::Fits {
+        path: name.to_string(),
+        message: describe(&e),
+    };
+    if let Some(h) = cols.hdu.as_deref() {
+        let (hdu, number) = match h.parse::<usize>() {
+            Ok(i) => (f.hdu(i).map_err(err)?, i),
+            Err(_) => (f.hdu(h).map_err(err)?, 0),
+        };
+        let t = as_table(hdu, number).ok_or_else(|| LcError::Fits {
+            path: name.to_string(),
+            message: format!("HDU {h} is not a table; choose a table extension with --hdu"),
+        })?;
+        let picked = resolve_columns(&format!("{name} (HDU {h})"), &t.header, cols)?;
+        return Ok((t, picked));
+    }
+    let count = f.num_hdus().map_err(err)?;
+    let mut first_error = None;
+    for i in 1..count {
+        let Some(t) = as_table(f.hdu(i).map_err(err)?, i) else {
+            continue;
+        };
+        match resolve_columns(&format!("{name} (HDU {i})"), &t.header, cols) {
+            Ok(p) => return Ok((t, p)),
+            Err(e) => {
+                first_error.get_or_insert(e);
+            }
+        }
+    }
+    Err(first_error.unwrap_or_else(|| LcError::Fits {
+        path: name.to_string(),
+        message: format!(
+            "no table extension among its {count} HDUs; a light curve is a binary table"
+        ),
+    }))
+}
+
+fn read_table_unguarded(path: &Path, cols: &LcColumns) -> Result<Raw, LcError> {
     let name = path.display().to_string();
     let err = |e: fitsio::errors::Error| LcError::Fits {
         path: name.clone(),
         message: describe(&e),
     };
     let mut f = open_plain(path).map_err(err)?;
-    let hdu = match cols.hdu.as_deref() {
-        None => f.hdu(1).map_err(err)?,
-        Some(h) => match h.parse::<usize>() {
-            Ok(i) => f.hdu(i).map_err(err)?,
-            Err(_) => f.hdu(h).map_err(err)?,
-        },
-    };
-    let (header, shapes, rows) = match &hdu.info {
-        HduInfo::TableInfo {
-            column_descriptions,
-            num_rows,
-        } => (
-            column_descriptions
-                .iter()
-                .map(|c| c.name.clone())
-                .collect::<Vec<String>>(),
-            column_descriptions
-                .iter()
-                .map(|c| (c.data_type.repeat, bytes_per_value(&c.data_type.typ)))
-                .collect::<Vec<_>>(),
-            *num_rows,
-        ),
-        _ => {
-            return Err(LcError::Fits {
-                path: name,
-                message: "the extension is not a table; choose one with --hdu".into(),
-            });
-        }
-    };
-    let (t, fl, e) = resolve_columns(&name, &header, cols)?;
-    let used: Vec<usize> = [Some(t), Some(fl), e].into_iter().flatten().collect();
-    check_shape(&name, path, &header, &shapes, rows, &used)?;
-    let time: Vec<f64> = hdu.read_col(&mut f, &header[t]).map_err(err)?;
-    let flux: Vec<f64> = hdu.read_col(&mut f, &header[fl]).map_err(err)?;
-    let flux_err = match e {
-        Some(e) => Some(hdu.read_col::<f64>(&mut f, &header[e]).map_err(err)?),
+    let (t, p) = find_table(&mut f, &name, cols)?;
+    let used: Vec<usize> = [Some(p.time), Some(p.flux), p.err, p.quality]
+        .into_iter()
+        .flatten()
+        .collect();
+    check_shape(&name, path, &t.header, &t.shapes, t.rows, &used)?;
+    let hdu = &t.hdu;
+    let mut time: Vec<f64> = hdu.read_col(&mut f, &t.header[p.time]).map_err(err)?;
+    let flux: Vec<f64> = hdu.read_col(&mut f, &t.header[p.flux]).map_err(err)?;
+    let err_col = match p.err {
+        Some(e) => Some(hdu.read_col::<f64>(&mut f, &t.header[e]).map_err(err)?),
         None => None,
     };
-    Ok((time, flux, flux_err))
+    let quality = match p.quality {
+        Some(q) => Some(
+            hdu.read_col::<i64>(&mut f, &t.header[q])
+                .map_err(err)?
+                .into_iter()
+                .map(|v| u64::try_from(v).unwrap_or(u64::MAX))
+                .collect(),
+        ),
+        None => None,
+    };
+    let clock = time_reference(&mut f, hdu, p.time + 1);
+    if clock.scale != 1.0 || clock.zero != 0.0 {
+        time.iter_mut()
+            .for_each(|v| *v = *v * clock.scale + clock.zero);
+    }
+    let mut notes = Vec::new();
+    if let Some(n) = clock.note {
+        notes.push(n);
+    }
+    Ok(Raw {
+        time,
+        flux,
+        err: err_col,
+        quality,
+        time_zero: clock.zero,
+        columns: format!("HDU {}: {}", t.number, p.describe(&t.header)),
+        notes,
+    })
+}
+
+/// How a table's time column becomes days on an absolute scale.
+#[derive(Debug, PartialEq)]
+struct Clock {
+    /// Days per unit of the column.
+    scale: f64,
+    /// Days added after scaling (the reference date).
+    zero: f64,
+    note: Option<String>,
+}
+
+/// A keyword of the table's header, else of the primary header (both
+/// places are used by archives).
+fn key<T: fitsio::headers::ReadsKey>(
+    f: &mut FitsFile,
+    hdu: &fitsio::hdu::FitsHdu,
+    name: &str,
+) -> Option<T> {
+    if let Ok(v) = hdu.read_key::<T>(f, name) {
+        return Some(v);
+    }
+    let primary = f.primary_hdu().ok()?;
+    primary.read_key::<T>(f, name).ok()
+}
+
+/// The time reference of a table (FITS 4.0 §9.2; the time-keyword paper,
+/// Rots et al. 2015, A&A 574, A36): the reference date from `BJDREFI` +
+/// `BJDREFF` or `BJDREF` (also `JDREF*`, and `MJDREF*` + 2400000.5), else an
+/// offset written in the column's unit (`BJD - 2457000, days`); the unit
+/// from `TUNITn`, else `TIMEUNIT` (days when neither says).
+fn time_reference(f: &mut FitsFile, hdu: &fitsio::hdu::FitsHdu, column: usize) -> Clock {
+    let tunit: Option<String> = key(f, hdu, &format!("TUNIT{column}"));
+    let timeunit: Option<String> = key(f, hdu, "TIMEUNIT");
+    let timesys: Option<String> = key(f, hdu, "TIMESYS");
+    let pair = |f: &mut FitsFile, i: &str, fr: &str, whole: &str| -> Option<f64> {
+        match (key::<f64>(f, hdu, i), key::<f64>(f, hdu, fr)) {
+            (Some(a), b) => Some(a + b.unwrap_or(0.0)),
+            (None, _) => key::<f64>(f, hdu, whole),
+        }
+    };
+    let zero = pair(f, "BJDREFI", "BJDREFF", "BJDREF")
+        .or_else(|| pair(f, "JDREFI", "JDREFF", "JDREF"))
+        .or_else(|| pair(f, "MJDREFI", "MJDREFF", "MJDREF").map(|m| m + 2_400_000.5));
+    clock_from(
+        tunit.as_deref(),
+        timeunit.as_deref(),
+        timesys.as_deref(),
+        zero,
+    )
+}
+
+/// [`time_reference`] from the keyword values (pure, for tests).
+fn clock_from(
+    tunit: Option<&str>,
+    timeunit: Option<&str>,
+    timesys: Option<&str>,
+    zero: Option<f64>,
+) -> Clock {
+    let unit_text = tunit
+        .or(timeunit)
+        .unwrap_or("d")
+        .trim()
+        .to_ascii_lowercase();
+    let scale = if unit_text.starts_with("day") || unit_text == "d" || unit_text.contains("day") {
+        1.0
+    } else if unit_text == "s" || unit_text.starts_with("sec") {
+        1.0 / 86_400.0
+    } else if unit_text == "h" || unit_text.starts_with("hour") {
+        1.0 / 24.0
+    } else if unit_text == "min" || unit_text.starts_with("minute") {
+        1.0 / 1_440.0
+    } else {
+        1.0
+    };
+    // "BJD - 2457000", "BJD-2454833, days": a zero written in the unit.
+    let in_unit = tunit.and_then(|u| {
+        let (_, after) = u.split_once('-')?;
+        let digits: String = after
+            .trim_start()
+            .chars()
+            .take_while(|c| c.is_ascii_digit() || *c == '.')
+            .collect();
+        digits.parse::<f64>().ok().filter(|z| *z > 1000.0)
+    });
+    let zero = zero.filter(|z| z.is_finite()).or(in_unit).unwrap_or(0.0);
+    let note = match timesys.map(|s| s.trim().to_ascii_uppercase()) {
+        Some(s) if !s.is_empty() && s != "TDB" && zero != 0.0 => Some(format!(
+            "times are in {s}, not TDB; they differ from barycentric dynamical time by up to \
+             about a minute, which matters only for ephemerides at that precision"
+        )),
+        _ => None,
+    };
+    Clock { scale, zero, note }
 }
 
 /// A FITS error in words: CFITSIO's own message and status code, never a
@@ -201,4 +373,104 @@ pub fn write_table(path: &Path, time: &[f64], flux: &[f64], err: &[f64]) -> Resu
     hdu.write_col(&mut f, "FLUX", flux).map_err(e)?;
     hdu.write_col(&mut f, "FLUX_ERR", err).map_err(e)?;
     Ok(())
+}
+
+/// An archive-style light-curve segment, for tests and the demo tools: the
+/// layout archives deliver (a primary header, a `LIGHTCURVE` binary table
+/// with TIME counted from BJDREFI + BJDREFF in days, float32 fluxes — the
+/// systematics-corrected `PDCSAP_FLUX` and the aperture `SAP_FLUX` — with
+/// their errors and a 32-bit `QUALITY` column, then an aperture image).
+#[derive(Clone, Debug, Default)]
+pub struct ArchiveSegment {
+    /// TIME column values, days from the reference.
+    pub time: Vec<f64>,
+    pub pdcsap_flux: Vec<f32>,
+    pub pdcsap_flux_err: Vec<f32>,
+    pub sap_flux: Vec<f32>,
+    pub quality: Vec<i32>,
+    /// BJDREFI and BJDREFF.
+    pub bjdref: (i64, f64),
+}
+
+/// Writes an [`ArchiveSegment`] (see there for the layout).
+pub fn write_archive_segment(path: &Path, seg: &ArchiveSegment) -> Result<(), LcError> {
+    use fitsio::images::{ImageDescription, ImageType};
+    use fitsio::tables::{ColumnDescription, ConcreteColumnDescription};
+    let name = path.display().to_string();
+    let e = |e: fitsio::errors::Error| LcError::Fits {
+        path: name.clone(),
+        message: e.to_string(),
+    };
+    let _ = std::fs::remove_file(path);
+    let mut f = FitsFile::create(path).open().map_err(e)?;
+    let columns = [
+        ("TIME", ColumnDataType::Double),
+        ("PDCSAP_FLUX", ColumnDataType::Float),
+        ("PDCSAP_FLUX_ERR", ColumnDataType::Float),
+        ("SAP_FLUX", ColumnDataType::Float),
+        ("QUALITY", ColumnDataType::Int),
+    ];
+    let desc: Vec<ConcreteColumnDescription> = columns
+        .iter()
+        .map(|(n, t)| ColumnDescription::new(*n).with_type(*t).create())
+        .collect::<Result<_, _>>()
+        .map_err(e)?;
+    let hdu = f.create_table("LIGHTCURVE", &desc).map_err(e)?;
+    hdu.write_col(&mut f, "TIME", &seg.time).map_err(e)?;
+    hdu.write_col(&mut f, "PDCSAP_FLUX", &seg.pdcsap_flux)
+        .map_err(e)?;
+    hdu.write_col(&mut f, "PDCSAP_FLUX_ERR", &seg.pdcsap_flux_err)
+        .map_err(e)?;
+    hdu.write_col(&mut f, "SAP_FLUX", &seg.sap_flux)
+        .map_err(e)?;
+    hdu.write_col(&mut f, "QUALITY", &seg.quality).map_err(e)?;
+    let unit = format!("BJD - {}, days", seg.bjdref.0);
+    hdu.write_key(&mut f, "TUNIT1", unit).map_err(e)?;
+    hdu.write_key(&mut f, "BJDREFI", seg.bjdref.0).map_err(e)?;
+    hdu.write_key(&mut f, "BJDREFF", seg.bjdref.1).map_err(e)?;
+    hdu.write_key(&mut f, "TIMEUNIT", "d".to_string())
+        .map_err(e)?;
+    hdu.write_key(&mut f, "TIMESYS", "TDB".to_string())
+        .map_err(e)?;
+    let image = ImageDescription {
+        data_type: ImageType::Long,
+        dimensions: &[11, 11],
+    };
+    f.create_image("APERTURE", &image).map_err(e)?;
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn time_reference_from_keywords_or_the_unit() {
+        // FITS time keywords (Rots et al. 2015, A&A 574, A36, §4): the
+        // reference in BJDREFI + BJDREFF; the unit in TUNITn or TIMEUNIT.
+        let c = clock_from(
+            Some("BJD - 2457000, days"),
+            Some("d"),
+            Some("TDB"),
+            Some(2457000.0),
+        );
+        assert_eq!((c.scale, c.zero, c.note), (1.0, 2457000.0, None));
+        // The zero written only in the unit.
+        assert_eq!(
+            clock_from(Some("BJD-2454833"), None, None, None).zero,
+            2454833.0
+        );
+        // Seconds.
+        assert_eq!(
+            clock_from(Some("s"), None, None, None).scale,
+            1.0 / 86_400.0
+        );
+        // No reference: times as they are.
+        assert_eq!(clock_from(None, None, None, None).zero, 0.0);
+        assert!(
+            clock_from(None, Some("d"), Some("UTC"), Some(2.4e6))
+                .note
+                .is_some()
+        );
+    }
 }

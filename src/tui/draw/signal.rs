@@ -53,10 +53,7 @@ pub(super) fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) 
             } else {
                 "no sample of the light curve falls in a transit of this ephemeris".to_string()
             };
-            let src = std::path::Path::new(source)
-                .file_name()
-                .map_or(source.clone(), |f| f.to_string_lossy().into_owned());
-            (format!(" Signal · data {} ", clean(&src)), note)
+            (format!(" Signal · data {} ", clean(source)), note)
         }
         Some(SignalResult::Model(why)) => (
             " Signal · model (no light curve) ".to_string(),
