@@ -2,8 +2,10 @@
 //! host star. Loading lives in `load`, the header mapping in `columns`.
 
 mod columns;
+pub mod formats;
 mod load;
 mod pool;
+pub mod units;
 
 use std::hash::BuildHasher;
 use std::sync::Arc;
@@ -71,6 +73,8 @@ pub enum LoadError {
         header: String,
         median: f64,
     },
+    #[error("{path}: {message}")]
+    Format { path: String, message: String },
     #[error("{path}: line {line}: the header has {count} columns; at most 65535 are supported")]
     TooManyColumns {
         path: String,
@@ -140,6 +144,8 @@ pub struct Catalogue {
     pub skipped: Vec<Skip>,
     /// Data rows seen (loaded plus skipped).
     pub rows_seen: u64,
+    /// The table format read ("CSV/TSV", "IPAC table", "VOTable"...).
+    pub format: &'static str,
 }
 
 impl Catalogue {

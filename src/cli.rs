@@ -60,7 +60,9 @@ pub enum Command {
 /// Arguments that say which catalogue to read and how.
 #[derive(Debug, Clone, clap::Args)]
 pub struct CatalogueArgs {
-    /// Catalogue file (CSV or TSV, optionally .gz). Omit it for the built-in demo.
+    /// Catalogue file: CSV, TSV, IPAC table (.tbl), VOTable (.vot, .xml),
+    /// FITS binary table (.fits) or ECSV (.ecsv), optionally .gz. Omit it
+    /// for the built-in demo.
     pub catalogue: Option<PathBuf>,
     /// Column-map file (TOML: canonical_field = "their header").
     #[arg(long, value_name = "FILE")]
@@ -71,6 +73,10 @@ pub struct CatalogueArgs {
     /// Field delimiter, overriding detection by extension and sniffing.
     #[arg(long, value_name = "DELIM", value_parser = ["comma", "tab"])]
     pub delimiter: Option<String>,
+    /// FITS catalogue: the extension holding the table, a number (1 = first
+    /// extension) or a name [default: the first table extension].
+    #[arg(long, value_name = "HDU")]
+    pub table_hdu: Option<String>,
 }
 
 /// Arguments of the odds model. Flags win over `survey.toml`.
@@ -567,6 +573,8 @@ impl CatalogueArgs {
                 .as_deref()
                 .map(|d| if d == "tab" { b'\t' } else { b',' }),
             index_only: false,
+            header_units: Vec::new(),
+            hdu: self.table_hdu.clone(),
         })
     }
 

@@ -13,7 +13,9 @@ use csv::ByteRecord;
 use flate2::read::MultiGzDecoder;
 
 use super::columns::{ColumnMap, ColumnUse, DepthUnit, Field, Mapping, NUMERIC, REQUIRED};
+use super::formats::{self, TableFormat};
 use super::pool::StrPool;
+use super::units;
 use super::{CandidateId, Catalogue, LoadError, Skip, StarId};
 
 /// How to read a catalogue. The default reads any supported file unaided.
@@ -31,6 +33,11 @@ pub struct LoadOptions {
     /// the same rows load and the same rows are skipped; the columns not
     /// kept read as absent (`Catalogue::column` is `None`).
     pub index_only: bool,
+    /// Per header column, the unit the table's own header states (IPAC,
+    /// VOTable, FITS, ECSV); set by the format readers, empty for CSV.
+    pub header_units: Vec<String>,
+    /// The FITS extension holding the catalogue (default: the first table).
+    pub hdu: Option<String>,
 }
 
 /// Where catalogue bytes come from.
@@ -51,8 +58,103 @@ const BOM: [u8; 3] = [0xef, 0xbb, 0xbf];
 /// not a transit. Documented in the README (Inputs).
 const PPM_MEDIAN_FLOOR: f64 = 50.0;
 
+/// The first bytes of a file, decompressed when it is gzipped: enough to
+/// tell its format.
+fn peek(p: &Path) -> Result<Vec<u8>, LoadError> {
+    let io = |source| LoadError::Io {
+        path: p.display().to_string(),
+        source,
+    };
+    let mut head = Vec::with_capacity(8192);
+    File::open(p)
+        .map_err(io)?
+        .take(8192)
+        .read_to_end(&mut head)
+        .map_err(io)?;
+    if head.starts_with(&GZIP_MAGIC) {
+        let mut plain = Vec::with_capacity(8192);
+        // A gzip stream cut at 8 kB ends early; what came out is enough.
+        let _ = MultiGzDecoder::new(File::open(p).map_err(io)?)
+            .take(8192)
+            .read_to_end(&mut plain);
+        return Ok(plain);
+    }
+    Ok(head)
+}
+
+/// Loads an IPAC, VOTable, FITS or ECSV catalogue through its conversion
+/// to delimited text (see `formats`).
+fn load_converted(
+    p: &Path,
+    format: TableFormat,
+    opts: &LoadOptions,
+) -> Result<Catalogue, LoadError> {
+    let name = p.display().to_string();
+    let io = |source| LoadError::Io {
+        path: name.clone(),
+        source,
+    };
+    let bytes = if format == TableFormat::Fits {
+        Vec::new()
+    } else {
+        let mut raw = Vec::new();
+        File::open(p)
+            .and_then(|mut f| f.read_to_end(&mut raw))
+            .map_err(io)?;
+        if raw.starts_with(&GZIP_MAGIC) {
+            let mut plain = Vec::with_capacity(raw.len() * 4);
+            MultiGzDecoder::new(&raw[..])
+                .read_to_end(&mut plain)
+                .map_err(io)?;
+            raw = plain;
+        }
+        raw
+    };
+    let converted = formats::convert(format, p, bytes, opts.hdu.as_deref())?;
+    let o = LoadOptions {
+        delimiter: Some(converted.delimiter),
+        header_units: converted.units,
+        ..opts.clone()
+    };
+    let size = converted.text.len() as u64;
+    let text = std::io::Cursor::new(converted.text);
+    let mut cat = read_catalogue(name.clone(), text, converted.delimiter, &o, Some(size)).map_err(
+        |e| match e {
+            LoadError::MissingColumn {
+                path,
+                field,
+                synonyms,
+                header,
+            } if format != TableFormat::Ipac && format != TableFormat::Ecsv => LoadError::Format {
+                path,
+                message: format!(
+                    "{}: no column for required field `{field}` (looked for: {synonyms}); \
+                     columns are: {header}. Name the column with --columns FILE (field = \"name\")",
+                    format.name()
+                ),
+            },
+            other => other,
+        },
+    )?;
+    cat.format = format.name();
+    if format.counts_rows() {
+        for s in &mut cat.skipped {
+            s.line = s.line.saturating_sub(1);
+        }
+    }
+    Ok(cat)
+}
+
 impl Catalogue {
+    /// Loads a catalogue: CSV or TSV (optionally gzipped), or an IPAC,
+    /// VOTable, FITS or ECSV table, known by its name or its first bytes.
     pub fn load(source: Source<'_>, opts: &LoadOptions) -> Result<Catalogue, LoadError> {
+        if let Source::Path(p) = source {
+            let format = formats::detect(&p.display().to_string(), &peek(p)?)?;
+            if format != TableFormat::Delimited {
+                return load_converted(p, format, opts);
+            }
+        }
         let (name, mut size_hint, raw): (String, Option<u64>, Box<dyn Read + Send + '_>) =
             match source {
                 Source::Path(p) => {
@@ -191,7 +293,13 @@ fn read_catalogue(
     let mapping = Mapping::resolve(&name, &header_fields, &opts.columns)?;
     let first_line = header_line + count_newlines(&buf[header_end.0..header_end.1]);
     buf.drain(..header_end.1);
-    let layout = Layout::new(header_fields, mapping, delimiter, opts.index_only);
+    let conversions = unit_conversions(&name, &header_fields, &mapping, opts)?;
+    let mut layout = Layout::new(header_fields, mapping, delimiter, opts.index_only);
+    layout.convert = conversions
+        .iter()
+        .map(|(f, c)| (f.num_slot().unwrap_or(0), c.scale, c.offset))
+        .collect();
+    layout.convert_text = conversions.into_iter().map(|(f, c)| (f, c.text)).collect();
     let mut merger = Merger::new(name, &layout, first_line);
     if eof {
         // Everything is in memory already: no threads for a small file.
@@ -791,6 +899,11 @@ struct Layout {
     extra_cols: Vec<usize>,
     /// What `quick_row` does with each column, by column index.
     roles: Vec<Role>,
+    /// Unit conversions a table's header asks for: (slot, scale, offset);
+    /// stored = raw × scale + offset, applied before the row rules.
+    convert: Vec<(usize, f64, f64)>,
+    /// The same conversions in words, by field, for the summary.
+    convert_text: Vec<(Field, String)>,
 }
 
 /// A column as `Layout::quick_row` reads it.
@@ -866,6 +979,8 @@ impl Layout {
             .collect();
         Layout {
             roles,
+            convert: Vec::new(),
+            convert_text: Vec::new(),
             checked,
             kept,
             num_cols,
@@ -948,7 +1063,9 @@ impl Layout {
                     Some(end) => {
                         let ids = (id(rec.bounds[self.star_col]), id(rec.bounds[self.cand_col]));
                         if let (Some(star), Some(cand)) = ids {
-                            let row = self.validate(&rec, line, &scratch).map(|()| (star, cand));
+                            let row = self
+                                .validate(&rec, line, &mut scratch)
+                                .map(|()| (star, cand));
                             self.push_row(&mut part, &rec, line, &scratch, hasher, row);
                         } else {
                             // Not UTF-8: the general rules say so.
@@ -1215,7 +1332,11 @@ impl Layout {
     /// The per-row rules: required fields present and numeric, period finite
     /// and positive, duration positive and shorter than the period, depth
     /// positive.
-    fn validate(&self, rec: &impl Record, line: u64, scratch: &[f64]) -> Result<(), Skip> {
+    fn validate(&self, rec: &impl Record, line: u64, scratch: &mut [f64]) -> Result<(), Skip> {
+        for &(slot, scale, offset) in &self.convert {
+            scratch[slot] = scratch[slot] * scale + offset;
+        }
+        let scratch = &*scratch;
         let get = |f: Field| scratch[f.num_slot().unwrap_or(0)];
         let col = |f: Field| self.mapping.by_field.get(&f).copied();
         let raw = |f: Field| {
@@ -1489,16 +1610,50 @@ impl Merger {
             let forced = opts.columns.fields.contains_key(field);
             let mut unit = field.unit().to_string();
             let mut how = if forced { "column map" } else { "synonym" }.to_string();
+            let stated = opts
+                .header_units
+                .get(index)
+                .map(|u| u.trim())
+                .filter(|u| !u.is_empty());
             if *field == Field::DepthPpm {
                 let slot = Field::DepthPpm.num_slot().unwrap_or(0);
                 let depths = num[slot].as_deref_mut().unwrap_or(&mut []);
-                let (du, why) = depth_unit(&name, &header[index], depths, opts.depth_unit)?;
-                let factor = du.to_ppm();
+                let (du, why, extra) = match (opts.depth_unit, stated.map(units::depth_unit)) {
+                    (None, Some(Some((du, extra)))) => (
+                        du,
+                        format!("from the table's unit `{}`", stated.unwrap_or("")),
+                        extra,
+                    ),
+                    (None, Some(None)) => {
+                        return Err(LoadError::Format {
+                            path: name,
+                            message: format!(
+                                "column `{}`: the table gives depth in `{}`, which starsift does \
+                                 not convert (ppm, %, ppt, fraction); say which with --depth-unit",
+                                header[index],
+                                stated.unwrap_or("")
+                            ),
+                        });
+                    }
+                    _ => {
+                        let (du, why) = depth_unit(&name, &header[index], depths, opts.depth_unit)?;
+                        (du, why, 1.0)
+                    }
+                };
+                let factor = du.to_ppm() * extra;
                 if factor != 1.0 {
                     depths.iter_mut().for_each(|d| *d *= factor);
                 }
                 unit = format!("{} (stored as ppm)", du.name());
+                if extra != 1.0 {
+                    unit = format!("{} (stored as ppm)", stated.unwrap_or(""));
+                }
                 how = format!("{how}; unit {why}");
+            } else if let Some(u) = stated {
+                how = match layout.convert_text.iter().find(|(f, _)| f == field) {
+                    Some((_, text)) => format!("{how}; {text}"),
+                    None => format!("{how}; table unit {u}"),
+                };
             }
             columns.push(ColumnUse {
                 field: field.name(),
@@ -1547,6 +1702,7 @@ impl Merger {
             columns,
             skipped,
             rows_seen,
+            format: TableFormat::Delimited.name(),
         })
     }
 }
@@ -1851,6 +2007,31 @@ fn nearly_sorted(v: &mut [u64]) {
             return;
         }
     }
+}
+
+/// The conversions the units in a table's header imply for the fields
+/// stored in days or hours and for the epoch (depth has its own rule, see
+/// [`depth_unit`]); a unit that cannot be converted stops the load.
+fn unit_conversions(
+    name: &str,
+    header: &[String],
+    mapping: &Mapping,
+    opts: &LoadOptions,
+) -> Result<Vec<(Field, units::Conversion)>, LoadError> {
+    let mut out = Vec::new();
+    for (field, &index) in &mapping.by_field {
+        let Some(u) = opts.header_units.get(index).map(|u| u.trim()) else {
+            continue;
+        };
+        let c = units::conversion(*field, u).map_err(|m| LoadError::Format {
+            path: name.to_string(),
+            message: format!("column `{}` ({field}): {m}", header[index]),
+        })?;
+        if let Some(c) = c {
+            out.push((*field, c));
+        }
+    }
+    Ok(out)
 }
 
 /// The depth unit: the flag, else the header's own suffix, else ppm when the

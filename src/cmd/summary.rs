@@ -43,7 +43,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             }
         }
         Format::Table => {
-            writeln!(out, "catalogue   {}", clean(&cat.source))?;
+            writeln!(out, "catalogue   {} ({})", clean(&cat.source), cat.format)?;
             match (&loaded.survey.name, &loaded.survey_source) {
                 (Some(name), Some(src)) => {
                     writeln!(out, "survey      {} ({})", clean(name), clean(src))?
@@ -106,7 +106,14 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     }
                 )?;
                 let mut t = Table::new(&[
-                    ("line", Align::Right),
+                    (
+                        if cat.format == "VOTable" || cat.format == "FITS table" {
+                            "row"
+                        } else {
+                            "line"
+                        },
+                        Align::Right,
+                    ),
                     ("column", Align::Left),
                     ("reason", Align::Left),
                 ]);
@@ -163,6 +170,7 @@ pub fn to_json(cat: &Catalogue) -> Value {
     let extras: Vec<String> = cat.extra_headers().map(|h| clean(h).into_owned()).collect();
     json!({
         "catalogue": clean(&cat.source),
+        "format": cat.format,
         "stars": cat.star_count(),
         "candidates": cat.len(),
         "rows_seen": cat.rows_seen,

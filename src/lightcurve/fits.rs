@@ -245,8 +245,14 @@ fn clock_from(
 
 /// A FITS error in words: CFITSIO's own message and status code, never a
 /// debug dump of the error structure.
-fn describe(e: &fitsio::errors::Error) -> String {
+pub(crate) fn describe(e: &fitsio::errors::Error) -> String {
     match e {
+        // 107 and 108: CFITSIO's END_OF_FILE and READ_ERROR (fitsio.h).
+        fitsio::errors::Error::Fits(f) if f.status == 107 || f.status == 108 => format!(
+            "{} (CFITSIO status {}): the file ends before its header says it does; it is \
+             truncated",
+            f.message, f.status
+        ),
         fitsio::errors::Error::Fits(f) => format!("{} (CFITSIO status {})", f.message, f.status),
         fitsio::errors::Error::Index(i) => i.message.clone(),
         other => other.to_string(),
@@ -259,7 +265,7 @@ fn describe(e: &fitsio::errors::Error) -> String {
 /// `fits_open_diskfile`, which takes the name literally (CFITSIO User's
 /// Guide, section 10.2, from memory). Paths without those characters use the
 /// usual open, which also reads gzipped files.
-fn open_plain(path: &Path) -> Result<FitsFile, fitsio::errors::Error> {
+pub(crate) fn open_plain(path: &Path) -> Result<FitsFile, fitsio::errors::Error> {
     let Some(text) = path.to_str() else {
         return Err(fitsio::errors::Error::Message(
             "the path is not valid UTF-8".into(),

@@ -1,0 +1,137 @@
+//! Units a table's own header states (IPAC's unit line, a VOTable FIELD's
+//! `unit`, a FITS `TUNITn`, an ECSV column's `unit`), turned into the
+//! conversion to the unit a field is stored in (its name says which:
+//! `period_d`, `duration_h`, `depth_ppm`).
+
+use super::{DepthUnit, Field};
+
+/// stored = raw × `scale` + `offset`, and the words for the summary.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Conversion {
+    pub scale: f64,
+    pub offset: f64,
+    pub text: String,
+}
+
+/// Days in one unit of time, for the spellings tables use (IAU style
+/// guide and VOUnits 1.0: d, h, min, s, yr; the long forms too). The Julian
+/// year is 365.25 d (IAU 2012 units, from memory).
+pub fn days_per(unit: &str) -> Option<f64> {
+    Some(match unit.trim().to_ascii_lowercase().as_str() {
+        "d" | "day" | "days" | "jd" | "bjd" | "bjd_tdb" | "hjd" | "btjd" | "bkjd" => 1.0,
+        "h" | "hr" | "hrs" | "hour" | "hours" => 1.0 / 24.0,
+        "min" | "mins" | "minute" | "minutes" => 1.0 / 1440.0,
+        "s" | "sec" | "second" | "seconds" => 1.0 / 86_400.0,
+        "yr" | "a" | "year" | "years" => 365.25,
+        _ => return None,
+    })
+}
+
+/// The depth unit a table states: ppm, percent, parts per thousand or a
+/// plain fraction (an empty unit says nothing).
+pub fn depth_unit(unit: &str) -> Option<(DepthUnit, f64)> {
+    let u = unit.trim().to_ascii_lowercase();
+    Some(match u.as_str() {
+        "ppm" | "1e-6" | "10**-6" | "10**(-6)" => (DepthUnit::Ppm, 1.0),
+        "%" | "percent" | "pct" | "10**-2" | "10**(-2)" | "1e-2" => (DepthUnit::Percent, 1.0),
+        "ppt" | "1e-3" | "10**-3" | "10**(-3)" => (DepthUnit::Ppm, 1e3),
+        "frac" | "fraction" | "dimensionless" | "1" | "relative flux" => (DepthUnit::Fraction, 1.0),
+        _ => return None,
+    })
+}
+
+/// A zero written in a time unit: `BJD - 2457000`, `BJD-2454833, days`,
+/// `MJD` (JD − 2400000.5): days to add to reach a full Julian date.
+pub fn epoch_zero(unit: &str) -> Option<f64> {
+    let u = unit.trim().to_ascii_lowercase();
+    if u == "mjd" || u.starts_with("mjd ") || u.starts_with("mjd,") {
+        return Some(2_400_000.5);
+    }
+    let (_, after) = u.split_once('-')?;
+    let digits: String = after
+        .trim_start()
+        .chars()
+        .take_while(|c| c.is_ascii_digit() || *c == '.')
+        .collect();
+    digits.parse::<f64>().ok().filter(|z| *z >= 1000.0)
+}
+
+/// The conversion a stated unit implies for a field stored in days or
+/// hours (period, its error, the epoch's error, the duration) or for the
+/// epoch (a zero in the unit is added). `Ok(None)` when the field keeps its
+/// values as they are; `Err` names a unit that cannot be converted.
+pub fn conversion(field: Field, unit: &str) -> Result<Option<Conversion>, String> {
+    let u = unit.trim();
+    if u.is_empty() {
+        return Ok(None);
+    }
+    let time_field = |per_stored: f64, stored: &str| -> Result<Option<Conversion>, String> {
+        // The head of "d, days" or "BJD - 2457000, days" names the unit.
+        let head = u.split(',').next().unwrap_or(u);
+        let days = days_per(head)
+            .or_else(|| u.split(',').nth(1).and_then(days_per))
+            .ok_or_else(|| {
+                format!("unit `{u}` is not a time unit starsift converts (d, h, min, s, yr)")
+            })?;
+        let scale = days / per_stored;
+        Ok((scale != 1.0).then(|| Conversion {
+            scale,
+            offset: 0.0,
+            text: format!("table unit {u}, × {} to {stored}", trim_float(scale)),
+        }))
+    };
+    match field {
+        Field::PeriodD | Field::PeriodErrD | Field::EpochErrD => time_field(1.0, "days"),
+        Field::DurationH => time_field(1.0 / 24.0, "hours"),
+        Field::Epoch => Ok(epoch_zero(u).map(|zero| Conversion {
+            scale: 1.0,
+            offset: zero,
+            text: format!("table unit {u}, + {} to a full date", trim_float(zero)),
+        })),
+        _ => Ok(None),
+    }
+}
+
+fn trim_float(v: f64) -> String {
+    let s = format!("{v:.10}");
+    s.trim_end_matches('0').trim_end_matches('.').to_string()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn time_units_convert_to_the_stored_unit() {
+        // 1 d = 24 h = 1440 min = 86400 s (SI brochure, 9th ed., Table 8).
+        let c = conversion(Field::DurationH, "d").unwrap().unwrap();
+        assert_eq!(c.scale, 24.0);
+        let c = conversion(Field::DurationH, "min").unwrap().unwrap();
+        assert!((c.scale - 1.0 / 60.0).abs() < 1e-15);
+        assert_eq!(conversion(Field::DurationH, "hours").unwrap(), None);
+        let c = conversion(Field::PeriodD, "h").unwrap().unwrap();
+        assert!((c.scale - 1.0 / 24.0).abs() < 1e-15);
+        assert_eq!(conversion(Field::PeriodD, "days").unwrap(), None);
+        assert!(conversion(Field::PeriodD, "furlong").is_err());
+        assert_eq!(conversion(Field::Snr, "furlong").unwrap(), None);
+    }
+
+    #[test]
+    fn epochs_take_the_zero_their_unit_names() {
+        // MJD = JD − 2400000.5 (IAU 1997 resolution B1, from memory).
+        let c = conversion(Field::Epoch, "BJD - 2457000, days")
+            .unwrap()
+            .unwrap();
+        assert_eq!((c.scale, c.offset), (1.0, 2_457_000.0));
+        assert_eq!(epoch_zero("MJD"), Some(2_400_000.5));
+        assert_eq!(conversion(Field::Epoch, "d").unwrap(), None);
+    }
+
+    #[test]
+    fn depth_units() {
+        assert_eq!(depth_unit("%"), Some((DepthUnit::Percent, 1.0)));
+        assert_eq!(depth_unit("ppm"), Some((DepthUnit::Ppm, 1.0)));
+        assert_eq!(depth_unit("ppt"), Some((DepthUnit::Ppm, 1e3)));
+        assert_eq!(depth_unit(""), None);
+    }
+}
