@@ -137,12 +137,20 @@ pub fn convert(
 /// Appends one tab-separated cell, quoted when it holds a tab, a line
 /// end or a quote (RFC 4180 quoting, with a tab as the separator).
 pub(super) fn push_cell(out: &mut Vec<u8>, cell: &str, first: bool) {
+    push_cell_bytes(out, cell.as_bytes(), first);
+}
+
+/// [`push_cell`] for bytes as they are in the file.
+fn push_cell_bytes(out: &mut Vec<u8>, cell: &[u8], first: bool) {
     if !first {
         out.push(b'\t');
     }
-    if cell.contains(['\t', '\n', '\r', '"']) {
+    if cell
+        .iter()
+        .any(|&b| matches!(b, b'\t' | b'\n' | b'\r' | b'"'))
+    {
         out.push(b'"');
-        for b in cell.bytes() {
+        for &b in cell {
             if b == b'"' {
                 out.push(b'"');
             }
@@ -150,7 +158,7 @@ pub(super) fn push_cell(out: &mut Vec<u8>, cell: &str, first: bool) {
         }
         out.push(b'"');
     } else {
-        out.extend_from_slice(cell.as_bytes());
+        out.extend_from_slice(cell);
     }
 }
 
@@ -173,17 +181,45 @@ fn ipac(path: &str, bytes: &[u8]) -> Result<Converted, LoadError> {
     let mut header_lines = 0;
     let mut units: Vec<String> = Vec::new();
     let mut nulls: Vec<String> = Vec::new();
-    let mut data_started = false;
-    for (i, raw_line) in bytes.split(|&b| b == b'\n').enumerate() {
-        let line_no = i + 1;
+    let mut pos = 0usize;
+    let mut line_no = 0usize;
+    while pos <= bytes.len() {
+        line_no += 1;
+        let end = memchr::memchr(b'\n', &bytes[pos..]).map_or(bytes.len(), |i| pos + i);
+        let raw_line = &bytes[pos..end];
+        let line_start = pos;
+        pos = end + 1;
         let raw_line = raw_line.strip_suffix(b"\r").unwrap_or(raw_line);
-        let line = String::from_utf8_lossy(raw_line);
-        let line = line.strip_prefix('\u{feff}').unwrap_or(&line);
-        if line.starts_with('\\') {
+        let raw_line = raw_line.strip_prefix(b"\xef\xbb\xbf").unwrap_or(raw_line);
+        if raw_line.starts_with(b"\\") {
             out.extend_from_slice(b"#\n");
             continue;
         }
-        if !data_started && line.trim_start().starts_with('|') {
+        if !trim_start(raw_line).starts_with(b"|") {
+            if raw_line.iter().all(u8::is_ascii_whitespace) {
+                out.push(b'\n');
+                continue;
+            }
+            if bars.is_empty() {
+                return Err(bad(
+                    path,
+                    line_no,
+                    "data before the header line of | marks and column names".into(),
+                ));
+            }
+            // The header is done: the data lines, on every core.
+            let table = Fixed {
+                path,
+                bars: &bars,
+                names: &names,
+                nulls: &nulls,
+            };
+            table.data(&bytes[line_start..], line_no, &mut out)?;
+            break;
+        }
+        let line = String::from_utf8_lossy(raw_line);
+        let line: &str = &line;
+        {
             header_lines += 1;
             let cells = |line: &str| -> Vec<String> {
                 line.trim_end()
@@ -236,21 +272,7 @@ fn ipac(path: &str, bytes: &[u8]) -> Result<Converted, LoadError> {
                 ));
             }
             out.push(b'\n');
-            continue;
         }
-        if line.trim().is_empty() {
-            out.push(b'\n');
-            continue;
-        }
-        if bars.is_empty() {
-            return Err(bad(
-                path,
-                line_no,
-                "data before the header line of | marks and column names".into(),
-            ));
-        }
-        data_started = true;
-        data_row(path, line_no, line, &bars, &names, &nulls, &mut out)?;
     }
     units.resize(names.len(), String::new());
     Ok(Converted {
@@ -260,19 +282,81 @@ fn ipac(path: &str, bytes: &[u8]) -> Result<Converted, LoadError> {
     })
 }
 
+/// The layout of an IPAC table's data lines.
+struct Fixed<'a> {
+    path: &'a str,
+    bars: &'a [usize],
+    names: &'a [String],
+    nulls: &'a [String],
+}
+
+impl Fixed<'_> {
+    /// Converts the data lines (from line `first_line` of the file), in
+    /// line-aligned chunks on worker threads, appended in file order.
+    fn data(&self, bytes: &[u8], first_line: usize, out: &mut Vec<u8>) -> Result<(), LoadError> {
+        let workers = std::thread::available_parallelism()
+            .map_or(1, |n| n.get())
+            .min(8);
+        let want = bytes.len() / workers + 1;
+        let mut chunks = Vec::new();
+        let (mut start, mut line) = (0usize, first_line);
+        while start < bytes.len() {
+            let cut = (start + want).min(bytes.len());
+            let end = memchr::memchr(b'\n', &bytes[cut..]).map_or(bytes.len(), |i| cut + i + 1);
+            chunks.push((&bytes[start..end], line));
+            line += memchr::memchr_iter(b'\n', &bytes[start..end]).count();
+            start = end;
+        }
+        let parts: Vec<Result<Vec<u8>, LoadError>> = std::thread::scope(|s| {
+            let handles: Vec<_> = chunks
+                .iter()
+                .map(|&(chunk, line)| s.spawn(move || self.lines(chunk, line)))
+                .collect();
+            handles
+                .into_iter()
+                .map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
+                .collect()
+        });
+        for p in parts {
+            out.extend_from_slice(&p?);
+        }
+        Ok(())
+    }
+
+    fn lines(&self, bytes: &[u8], first_line: usize) -> Result<Vec<u8>, LoadError> {
+        let mut out = Vec::with_capacity(bytes.len());
+        let mut line_no = first_line;
+        let mut rest = bytes;
+        while !rest.is_empty() {
+            let end = memchr::memchr(b'\n', rest).unwrap_or(rest.len());
+            let l = &rest[..end];
+            rest = rest.get(end + 1..).unwrap_or(&[]);
+            let l = l.strip_suffix(b"\r").unwrap_or(l);
+            if l.iter().all(u8::is_ascii_whitespace) || l.starts_with(b"\\") {
+                out.push(b'\n');
+            } else {
+                data_row(
+                    self.path, line_no, l, self.bars, self.names, self.nulls, &mut out,
+                )?;
+            }
+            line_no += 1;
+        }
+        Ok(out)
+    }
+}
+
 /// One fixed-width data line: the value of column k lies strictly between
 /// bars k and k+1; a character under a bar, or past the last one, means the
 /// columns are misaligned.
 fn data_row(
     path: &str,
     line_no: usize,
-    line: &str,
+    b: &[u8],
     bars: &[usize],
     names: &[String],
     nulls: &[String],
     out: &mut Vec<u8>,
 ) -> Result<(), LoadError> {
-    let b = line.as_bytes();
     let last = bars[bars.len() - 1];
     for (k, &p) in bars.iter().enumerate() {
         if b.get(p).is_some_and(|c| !c.is_ascii_whitespace()) {
@@ -302,23 +386,11 @@ fn data_row(
     }
     for k in 0..names.len() {
         let (a, z) = (bars[k] + 1, bars[k + 1].min(b.len()));
-        let cell = if a < z {
-            line.get(a..z).ok_or_else(|| {
-                bad(
-                    path,
-                    line_no,
-                    format!(
-                        "column `{}`: a character straddles the column boundary",
-                        names[k]
-                    ),
-                )
-            })?
-        } else {
-            ""
-        };
-        let cell = cell.trim();
-        let null = nulls.get(k).is_some_and(|n| !n.is_empty() && n == cell);
-        push_cell(out, if null { "" } else { cell }, k == 0);
+        let cell = if a < z { b[a..z].trim_ascii() } else { &[] };
+        let null = nulls
+            .get(k)
+            .is_some_and(|n| !n.is_empty() && n.as_bytes() == cell);
+        push_cell_bytes(out, if null { &[] } else { cell }, k == 0);
     }
     out.push(b'\n');
     Ok(())
@@ -408,7 +480,7 @@ mod tests {
         let text = String::from_utf8(c.text).unwrap();
         assert_eq!(
             text,
-            "#\nstar\tcand\tdepth\n#\n#\n#\nS1\tS1.01\t1500\nS2\t\t\n\n"
+            "#\nstar\tcand\tdepth\n#\n#\n#\nS1\tS1.01\t1500\nS2\t\t\n"
         );
         assert_eq!(c.units, ["", "", "ppm"]);
         let misaligned = "|star |cand  |\n S1    S1.01 x\n S2  S2.011  \n";

@@ -36,18 +36,19 @@ pub fn convert(path: &str, bytes: &[u8]) -> Result<Converted, LoadError> {
         message: format!("VOTable: line {line}: {message}"),
     };
     let mut r = Reader::from_reader(bytes);
-    let mut buf = Vec::new();
     let mut columns: Vec<Column> = Vec::new();
     let mut out: Vec<u8> = Vec::with_capacity(bytes.len() / 2);
     let (mut in_table, mut in_field, mut in_td, mut header_done) = (false, false, false, false);
     let mut tables = 0;
-    let mut row: Vec<String> = Vec::new();
-    let mut cell = String::new();
+    // The cells of the row being read: their text end to end, and where
+    // each ends (no allocation per cell).
+    let mut row = String::new();
+    let mut ends: Vec<usize> = Vec::new();
     let mut rows = 0usize;
     loop {
         let at = r.buffer_position() as usize;
         let event = r
-            .read_event_into(&mut buf)
+            .read_event()
             .map_err(|e| bad(line_at(bytes, at), format!("not well-formed XML: {e}")))?;
         let empty = matches!(event, Event::Empty(_));
         let empty_td = matches!(&event, Event::Empty(e) if e.local_name().as_ref() == b"TD");
@@ -88,40 +89,43 @@ pub fn convert(path: &str, bytes: &[u8]) -> Result<Converted, LoadError> {
                         header_done = true;
                     }
                     row.clear();
+                    ends.clear();
                 }
-                b"TD" if in_table => {
-                    cell.clear();
-                    in_td = true;
-                }
+                b"TD" if in_table => in_td = true,
                 _ => {}
             },
             Event::Text(t) if in_td => {
                 let text = t
                     .unescape()
                     .map_err(|e| bad(line_at(bytes, at), format!("a cell's text: {e}")))?;
-                cell.push_str(&text);
+                row.push_str(&text);
             }
-            Event::CData(t) if in_td => cell.push_str(&String::from_utf8_lossy(&t)),
+            Event::CData(t) if in_td => row.push_str(&String::from_utf8_lossy(&t)),
             Event::End(e) => match e.local_name().as_ref() {
                 b"TD" if in_td => {
                     in_td = false;
-                    row.push(std::mem::take(&mut cell));
+                    ends.push(row.len());
                 }
                 b"FIELD" => in_field = false,
                 b"TR" if in_table => {
                     rows += 1;
-                    if row.len() > columns.len() {
+                    if ends.len() > columns.len() {
                         return Err(bad(
                             line_at(bytes, at),
                             format!(
                                 "row {rows} has {} cells but the table has {} FIELDs",
-                                row.len(),
+                                ends.len(),
                                 columns.len()
                             ),
                         ));
                     }
                     for (k, c) in columns.iter().enumerate() {
-                        let v = row.get(k).map_or("", |v| v.trim());
+                        let start = if k == 0 {
+                            0
+                        } else {
+                            ends.get(k - 1).copied().unwrap_or(row.len())
+                        };
+                        let v = ends.get(k).map_or("", |&e| row[start..e].trim());
                         let null = c.null.as_deref().is_some_and(|n| n == v);
                         push_cell(&mut out, if null { "" } else { v }, k == 0);
                     }
@@ -136,9 +140,8 @@ pub fn convert(path: &str, bytes: &[u8]) -> Result<Converted, LoadError> {
         // An empty `<TD/>` is a cell with no text.
         if empty_td && in_td {
             in_td = false;
-            row.push(String::new());
+            ends.push(row.len());
         }
-        buf.clear();
     }
     if columns.is_empty() {
         return Err(LoadError::Format {
