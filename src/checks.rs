@@ -338,6 +338,34 @@ pub struct LightcurveRun {
     /// One plain notice when most candidates are not recovered and the
     /// epochs sit a common zero away from the light-curve times.
     pub notice: Option<String>,
+    /// What the light curves read held, summed over stars.
+    pub totals: LightcurveTotals,
+}
+
+/// Segments and samples of the light curves read, and the samples dropped.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, serde::Serialize)]
+pub struct LightcurveTotals {
+    pub segments: usize,
+    pub samples: usize,
+    /// Dropped for a missing or non-finite value.
+    pub dropped_missing: usize,
+    /// Dropped for a set quality flag.
+    pub dropped_quality: usize,
+}
+
+impl LightcurveTotals {
+    /// "12 segments, 51200 samples used; 830 dropped (40 missing values,
+    /// 790 flagged by quality)".
+    pub fn describe(&self) -> String {
+        format!(
+            "{} segments, {} samples used; {} dropped ({} missing values, {} flagged by quality)",
+            self.segments,
+            self.samples,
+            self.dropped_missing + self.dropped_quality,
+            self.dropped_missing,
+            self.dropped_quality
+        )
+    }
 }
 
 /// Runs the light-curve diagnostics of every candidate whose star has a
@@ -367,6 +395,7 @@ pub fn run_lightcurves_counted(
     let cache = crate::lightcurve::Cache::default();
     let mut errors = Vec::new();
     let mut spans = Vec::new();
+    let mut totals = LightcurveTotals::default();
     let stars: Vec<u32> = (0..cat.star_count() as u32)
         .filter(|&s| finder.has(cat, s))
         .collect();
@@ -374,7 +403,13 @@ pub fn run_lightcurves_counted(
     let mut last = std::time::Instant::now();
     for (done, &star) in stars.iter().enumerate() {
         let span = match cache.curve(finder, cat, star).as_ref() {
-            Ok(lc) => (lc.time[0], lc.time[lc.time.len() - 1]),
+            Ok(lc) => {
+                totals.segments += lc.segments.len();
+                totals.samples += lc.time.len();
+                totals.dropped_missing += lc.dropped;
+                totals.dropped_quality += lc.dropped_quality;
+                (lc.time[0], lc.time[lc.time.len() - 1])
+            }
             Err(_) => (f64::NAN, f64::NAN),
         };
         for &c in cat.members(star) {
@@ -404,6 +439,7 @@ pub fn run_lightcurves_counted(
         stars: total,
         errors,
         notice: offset_notice(&spans),
+        totals,
     }
 }
 

@@ -44,6 +44,8 @@ pub struct Session {
     /// A plain notice about the light curves as a whole (epochs and
     /// light-curve times counted from different zeros).
     pub lightcurve_notice: Option<String>,
+    /// Segments and samples of the light curves read.
+    pub lightcurve_totals: crate::checks::LightcurveTotals,
 }
 
 impl Session {
@@ -81,6 +83,7 @@ impl Session {
         let mut checks = crate::checks::run(cat, &settings);
         let (mut lightcurve_stars, mut lightcurve_errors) = (0, Vec::new());
         let mut lightcurve_notice = None;
+        let mut lightcurve_totals = Default::default();
         if lc.wanted() {
             let finder = lc.finder(&loaded);
             let progress = std::io::stderr().is_terminal();
@@ -101,6 +104,7 @@ impl Session {
             lightcurve_stars = run.stars;
             lightcurve_errors = run.errors;
             lightcurve_notice = run.notice;
+            lightcurve_totals = run.totals;
         }
         let opened = match ledger {
             LedgerUse::Read => ledger_args.open_existing(input, &loaded)?,
@@ -143,6 +147,7 @@ impl Session {
             lightcurve_stars,
             lightcurve_errors,
             lightcurve_notice,
+            lightcurve_totals,
         })
     }
 

@@ -185,6 +185,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     "temperature_assumption": format!("Bond albedo {}, redistribution factor {}", settings.albedo, settings.redistribution),
                     "flag_counts": flag_counts(ch, cat.len()),
                     "lightcurve_stars": session.lightcurve_stars,
+                    "lightcurve_samples": session.lightcurve_totals,
                 "lightcurve_errors": lc_errors.iter().map(|(s, e)| json!({"star": clean(s), "error": clean(e)})).collect::<Vec<_>>(),
                 "lightcurve_notice": session.lightcurve_notice,
                     "candidates": list,
@@ -257,9 +258,10 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             } else {
                 writeln!(
                     out,
-                    "light curves found for {} stars, {} not readable",
+                    "light curves found for {} stars, {} not readable: {}",
                     session.lightcurve_stars,
-                    lc_errors.len()
+                    lc_errors.len(),
+                    session.lightcurve_totals.describe()
                 )?;
             }
             if let Some(line) = live.and_then(|l| l.held_line()) {

@@ -326,6 +326,7 @@ impl<'a> Export<'a> {
             "lightcurves": {
                 "stars_read": v.lightcurve_stars,
                 "stars_failed": v.lightcurve_errors.len(),
+                "samples": v.lightcurve_totals,
                 "notice": v.lightcurve_notice,
             },
             "held_back": live.held_line(),
