@@ -52,13 +52,27 @@ pub enum SurveyError {
 
 impl SurveyFacts {
     pub fn from_toml(text: &str, path: &str) -> Result<SurveyFacts, SurveyError> {
-        toml::from_str(text).map_err(|e| SurveyError::Parse {
+        let facts: SurveyFacts = toml::from_str(text).map_err(|e| SurveyError::Parse {
             path: path.to_string(),
             line: e.span().map_or(0, |s| {
                 text[..s.start.min(text.len())].matches('\n').count() + 1
             }),
             message: e.message().to_string(),
-        })
+        })?;
+        if facts.lightcurve_time_offset.is_some() && facts.epoch_offset.is_some() {
+            let line = text
+                .lines()
+                .position(|l| l.trim_start().starts_with("epoch_offset"))
+                .map_or(0, |i| i + 1);
+            return Err(SurveyError::Parse {
+                path: path.to_string(),
+                line,
+                message: "give epoch_offset or lightcurve_time_offset, not both (one shifts \
+                          the epochs, the other the light-curve times)"
+                    .into(),
+            });
+        }
+        Ok(facts)
     }
 
     pub fn from_file(path: &Path) -> Result<SurveyFacts, SurveyError> {

@@ -190,6 +190,19 @@ fn segmented_fits_fold_with_every_good_sample_and_recover_the_depth() {
         "the corrected flux is preferred: {}",
         lc["segments"][0]
     );
+    // summary counts the same segments and samples.
+    let o = starsift(&[
+        "summary",
+        cat.to_str().unwrap(),
+        "--lightcurves",
+        dir.to_str().unwrap(),
+        "--format",
+        "json",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let s: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(s["lightcurves"]["totals"]["segments"], 3);
+    assert_eq!(s["lightcurves"]["totals"]["samples"], good);
     // The diagnostics' own depth agrees.
     let dd = &v["diagnostics"]["depth_ppm"];
     let (m, e) = (dd["value"].as_f64().unwrap(), dd["err"].as_f64().unwrap());

@@ -6,7 +6,8 @@ use std::io::Write;
 use serde_json::{Value, json};
 
 use crate::catalogue::Catalogue;
-use crate::cli::{CatalogueArgs, CliError};
+use crate::checks::LightcurveTotals;
+use crate::cli::{CatalogueArgs, CliError, LightcurveArgs, Loaded};
 use crate::output::{Align, Format, Table, csv_writer, write_json};
 use crate::sanitize::clean;
 
@@ -14,6 +15,10 @@ use crate::sanitize::clean;
 pub struct Args {
     #[command(flatten)]
     pub input: CatalogueArgs,
+    /// With `--lightcurves [DIR]`, also read every star's light curve and
+    /// say how many segments and samples were used and dropped.
+    #[command(flatten)]
+    pub lc: LightcurveArgs,
     /// Output format: a table for people, CSV (the histogram) or JSON for scripts.
     #[arg(long, value_enum, default_value = "table")]
     pub format: Format,
@@ -23,11 +28,24 @@ pub struct Args {
 const SKIPPED_SHOWN: usize = 20;
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    // Every cell is validated; only the values summary reports are kept.
-    let loaded = args.input.load_index()?;
+    // Every cell is validated; only the values summary reports are kept
+    // (all of them when light curves are to be read: they need the epochs).
+    let census = args.lc.lightcurves.is_some();
+    let loaded = if census {
+        args.input.load()?
+    } else {
+        args.input.load_index()?
+    };
     let cat = &loaded.catalogue;
+    let lcs = census.then(|| light_curves(&args.lc, &loaded));
     match args.format {
-        Format::Json => write_json(out, &to_json(cat))?,
+        Format::Json => {
+            let mut v = to_json(cat);
+            if let Some(l) = &lcs {
+                v["lightcurves"] = l.json();
+            }
+            write_json(out, &v)?
+        }
         Format::Csv => {
             let mut w = csv_writer(out);
             w.write_record(["multiplicity", "stars", "candidates"])?;
@@ -52,6 +70,9 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 _ => writeln!(out, "survey      no survey.toml beside the catalogue")?,
             }
             writeln!(out, "stars       {}", cat.star_count())?;
+            if let Some(l) = &lcs {
+                writeln!(out, "lightcurves {}", l.describe())?;
+            }
             writeln!(out, "candidates  {}", cat.len())?;
             writeln!(
                 out,
@@ -180,4 +201,63 @@ pub fn to_json(cat: &Catalogue) -> Value {
         "columns": columns,
         "extra_columns": extras,
     })
+}
+
+/// What the light curves of a catalogue hold, read without diagnostics.
+struct Census {
+    stars: usize,
+    unreadable: Vec<(String, String)>,
+    totals: LightcurveTotals,
+}
+
+impl Census {
+    fn describe(&self) -> String {
+        format!(
+            "{} stars, {} unreadable: {}",
+            self.stars,
+            self.unreadable.len(),
+            self.totals.describe()
+        )
+    }
+
+    fn json(&self) -> Value {
+        json!({
+            "stars": self.stars,
+            "totals": self.totals,
+            "unreadable": self.unreadable.iter().map(|(s, e)| json!({"star": clean(s), "error": clean(e)})).collect::<Vec<_>>(),
+        })
+    }
+}
+
+fn light_curves(lc: &LightcurveArgs, loaded: &Loaded) -> Census {
+    let cat = &loaded.catalogue;
+    let finder = lc.finder(loaded);
+    let mut c = Census {
+        stars: 0,
+        unreadable: Vec::new(),
+        totals: LightcurveTotals::default(),
+    };
+    for star in (0..cat.star_count() as u32).filter(|&s| finder.has(cat, s)) {
+        c.stars += 1;
+        let what = format!("reading the light curve of star {}", cat.star_id(star));
+        match crate::contain::contained(&what, || finder.load(cat, star).map_err(|e| e.to_string()))
+            .and_then(|r| r)
+        {
+            Ok(l) => {
+                c.totals.segments += l.segments.len();
+                c.totals.samples += l.time.len();
+                c.totals.dropped_missing += l.dropped;
+                c.totals.dropped_quality += l.dropped_quality;
+            }
+            Err(e) => {
+                eprintln!(
+                    "starsift: warning: star {}: {}",
+                    clean(cat.star_id(star)),
+                    clean(&e)
+                );
+                c.unreadable.push((cat.star_id(star).to_string(), e));
+            }
+        }
+    }
+    c
 }
