@@ -22,11 +22,16 @@ use crate::survey::{SurveyError, SurveyFacts};
     long_about = "Triage transiting-exoplanet candidate catalogues, star by star, with live multiplicity odds.\n\n\
                   With no command, opens the built-in demo catalogue (an invented survey).\n\
                   Odds are reported under a stated model; statistical validation is not confirmation.",
-    after_help = "Exit codes: 0 success, 1 internal error, 2 bad input or usage, 3 ledger not writable."
+    after_help = "Exit codes: 0 success, 1 internal error, 2 bad input or usage, 3 ledger not writable.",
+    args_conflicts_with_subcommands = true
 )]
 pub struct Cli {
     #[command(subcommand)]
     pub command: Option<Command>,
+    /// With no command: the browser's options (`starsift --ascii`,
+    /// `starsift CATALOGUE --where ...`), as `starsift browse` takes them.
+    #[command(flatten)]
+    pub browse: crate::tui::Args,
 }
 
 #[derive(Debug, Subcommand)]
@@ -670,7 +675,7 @@ pub fn main() -> i32 {
 
 pub fn run(cli: Cli, out: &mut dyn Write) -> Result<(), CliError> {
     match cli.command {
-        None => crate::tui::run(&crate::tui::Args::demo()),
+        None => crate::tui::run(&cli.browse),
         Some(Command::Browse(a)) => crate::tui::run(&a),
         Some(Command::Summary(a)) => cmd::summary::run(&a, out),
         Some(Command::Odds(a)) => cmd::odds::run(&a, out),

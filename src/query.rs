@@ -41,7 +41,7 @@ pub enum NumField {
 const NUM_FIELDS: [(&str, NumField); 14] = [
     ("odds", NumField::Odds),
     ("probability", NumField::Probability),
-    ("p", NumField::Probability),
+    ("prob", NumField::Probability),
     ("period", NumField::Period),
     ("depth", NumField::Depth),
     ("duration", NumField::Duration),

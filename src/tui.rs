@@ -7,6 +7,7 @@ pub mod app;
 pub mod draw;
 mod input;
 pub mod keymap;
+pub mod lineedit;
 
 use std::io::{IsTerminal, Write};
 use std::path::PathBuf;

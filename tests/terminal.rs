@@ -68,9 +68,21 @@ fn have_tmux() -> bool {
 /// and the terminal's settings (`stty -a`, in `dir/stty.txt`) and writes
 /// `shell-ok` into the returned status file: proof the terminal was usable.
 fn start(session: &str, dir: &std::path::Path, cols: &str, rows: &str) -> std::path::PathBuf {
+    start_with(session, dir, cols, rows, "")
+}
+
+/// [`start`] with the browser's options (given to `starsift` itself, with
+/// no subcommand).
+fn start_with(
+    session: &str,
+    dir: &std::path::Path,
+    cols: &str,
+    rows: &str,
+    options: &str,
+) -> std::path::PathBuf {
     let status = dir.join("status");
     let script = format!(
-        "cd {d} && XDG_DATA_HOME={d}/data XDG_STATE_HOME={d}/state {bin}; echo $? > {s}; stty -a > {d}/stty.txt; echo shell-ok >> {s}; sleep 30",
+        "cd {d} && XDG_DATA_HOME={d}/data XDG_STATE_HOME={d}/state {bin} {options}; echo $? > {s}; stty -a > {d}/stty.txt; echo shell-ok >> {s}; sleep 30",
         d = dir.display(),
         bin = env!("CARGO_BIN_EXE_starsift"),
         s = status.display()
@@ -120,7 +132,7 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
     let dir = common::scratch("tmux");
     let session = format!("starsift-test-{}", std::process::id());
     let status = start(&session, &dir, "80", "24");
-    wait_for(&session, "Systems 321 of 321");
+    wait_for(&session, "Systems 321/321");
     // The checks (light curves included) run in the background and change
     // the odds when they arrive: wait for them.
     wait_gone(&session, "checks running");
@@ -131,7 +143,7 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
     keys(&session, &["f"]);
     keys(&session, &["k=3"]);
     keys(&session, &["Enter"]);
-    wait_for(&session, "Systems 17 of 321");
+    wait_for(&session, "Systems 17/321");
     keys(&session, &["Enter"]);
     let before = wait_for(&session, "if rejected:");
     // The what-if line names the siblings and the odds they would have.
@@ -149,7 +161,7 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
         .unwrap()
         .to_string();
     keys(&session, &["x"]);
-    wait_for(&session, "Reject: why?");
+    wait_for(&session, ": why?");
     keys(&session, &["Enter"]);
     let after = wait_for(&session, "rejected (eclipsing-binary)");
     assert!(
@@ -184,7 +196,7 @@ fn signals_restore_the_terminal() {
         let dir = common::scratch(&format!("signal-{sig}"));
         let session = format!("starsift-sig-{sig}-{}", std::process::id());
         let status = start(&session, &dir, "80", "24");
-        wait_for(&session, "Systems 321 of 321");
+        wait_for(&session, "Systems 321/321");
         let shell = tmux(&["list-panes", "-t", &session, "-F", "#{pane_pid}"]);
         let child = Command::new("pgrep")
             .args(["-P", shell.trim()])
@@ -223,7 +235,7 @@ fn a_burst_of_keys_is_drained() {
     let dir = common::scratch("burst");
     let session = format!("starsift-burst-{}", std::process::id());
     start(&session, &dir, "100", "30");
-    wait_for(&session, "Systems 321 of 321");
+    wait_for(&session, "Systems 321/321");
     keys(&session, &["-l", &"n".repeat(5000)]);
     keys(&session, &["?"]);
     wait_for(&session, "Keys (Esc closes)");
@@ -233,5 +245,69 @@ fn a_burst_of_keys_is_drained() {
     keys(&session, &["Escape"]);
     keys(&session, &["?"]);
     wait_for(&session, "Keys (Esc closes)");
+    tmux(&["kill-session", "-t", &session]);
+}
+
+/// At 60x16 with `--ascii` (given to `starsift` with no subcommand): only
+/// ASCII on the screen, the decision column kept; the filter prompt edits
+/// as a shell does and recalls earlier filters; after a rejection the
+/// cursor stays in the system while it has open candidates.
+#[test]
+fn ascii_small_screen_prompt_keys_and_staying_in_the_system() {
+    if !have_tmux() {
+        return;
+    }
+    let dir = common::scratch("ascii");
+    let session = format!("starsift-ascii-{}", std::process::id());
+    start_with(&session, &dir, "60", "16", "--ascii");
+    wait_for(&session, "Systems 321/321");
+    wait_gone(&session, "checks running");
+    let s = pane(&session);
+    assert!(s.is_ascii(), "{s}");
+    assert!(s.lines().nth(1).unwrap().contains("decision"), "{s}");
+    // A filter; then the prompt opens with it selected: typing replaces it.
+    keys(&session, &["f"]);
+    keys(&session, &["-l", "k=3"]);
+    keys(&session, &["Enter"]);
+    wait_for(&session, "Systems 17/321");
+    keys(&session, &["f"]);
+    keys(&session, &["-l", "k=2"]);
+    keys(&session, &["Enter"]);
+    wait_for(&session, "filter k=2: ");
+    // Up recalls k=3 (Up again would go further back); C-a then typing
+    // inserts at the start; C-e and C-w remove the last word.
+    keys(&session, &["f"]);
+    keys(&session, &["C-u"]);
+    keys(&session, &["Up"]);
+    keys(&session, &["Up"]);
+    wait_for(&session, "filter: k=3");
+    keys(&session, &["End"]);
+    keys(&session, &["-l", " odds>1"]);
+    keys(&session, &["C-a"]);
+    keys(&session, &["-l", "decision:open "]);
+    wait_for(&session, "filter: decision:open |k=3 odds>1");
+    keys(&session, &["C-e"]);
+    keys(&session, &["C-w"]);
+    wait_for(&session, "filter: decision:open k=3 |");
+    keys(&session, &["Enter"]);
+    wait_for(&session, "Systems 17/321");
+    // Into the first system; reject its first candidate: the cursor stays.
+    keys(&session, &["Enter"]);
+    let before = wait_for(&session, "Candidates of");
+    let star = before
+        .lines()
+        .find_map(|l| l.split("Candidates of ").nth(1))
+        .and_then(|t| t.split_whitespace().next())
+        .unwrap()
+        .to_string();
+    keys(&session, &["x"]);
+    wait_for(&session, ": why?");
+    keys(&session, &["Enter"]);
+    let after = wait_for(&session, "rejected");
+    assert!(
+        after.contains(&format!("Candidates of {star}")),
+        "still in {star}:\n{after}"
+    );
+    assert!(after.is_ascii(), "{after}");
     tmux(&["kill-session", "-t", &session]);
 }

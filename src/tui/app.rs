@@ -16,6 +16,7 @@ use crate::lightcurve::analysis::Diagnostics;
 use crate::odds::Live;
 use crate::query::{Clause, Filter, NumField, ParseError};
 use crate::selection::{Selection, column_field};
+pub use crate::tui::lineedit::{Edit, LineEdit};
 
 mod act;
 mod action;
@@ -45,6 +46,10 @@ pub enum Input {
     /// or a note, ignored elsewhere.
     Paste(String),
     Backspace,
+    /// A line-editing key in a prompt (or the end of a note).
+    Edit(Edit),
+    /// Up (true) or Down in a prompt: an earlier filter or find.
+    Recall(bool),
     /// A light-curve result from the background worker.
     Signal(CandidateId, Box<SignalResult>),
     /// The checks, run on a background thread at start-up.
@@ -116,8 +121,10 @@ pub enum Mode {
     Normal,
     Prompt {
         kind: PromptKind,
-        text: String,
+        line: LineEdit,
         error: Option<ParseError>,
+        /// Which earlier entry Up/Down has recalled (0 = the latest).
+        recall: Option<usize>,
     },
     /// Choosing a rejection reason (index into ALL_REASONS) and typing an
     /// optional note; for every candidate matching the filter when `bulk`.
@@ -171,6 +178,11 @@ pub struct Position {
     pub candidate_sort: String,
     #[serde(default)]
     pub candidate_descending: bool,
+    /// Filters and finds entered, newest last.
+    #[serde(default)]
+    pub filters: Vec<String>,
+    #[serde(default)]
+    pub finds: Vec<String>,
 }
 
 /// The whole browser state.
@@ -234,6 +246,9 @@ pub struct App {
     buffers: SortBuffers,
     /// From this many stars on, the filter runs on two threads.
     pub(crate) parallel_from: usize,
+    /// Filters and finds entered, newest last (kept per catalogue).
+    pub filter_history: Vec<String>,
+    pub find_history: Vec<String>,
 }
 
 /// Memory the sorts of the view reuse.
@@ -310,6 +325,8 @@ impl App {
             orders: Vec::new(),
             buffers: SortBuffers::default(),
             parallel_from: 100_000,
+            filter_history: Vec::new(),
+            find_history: Vec::new(),
         };
         app.refresh_view();
         app
@@ -332,6 +349,8 @@ impl App {
             candidates_pane: self.focus == Pane::Candidates,
             candidate_sort: self.cand_sort.name().to_string(),
             candidate_descending: self.cand_descending,
+            filters: self.filter_history.clone(),
+            finds: self.find_history.clone(),
         }
     }
 
@@ -349,6 +368,8 @@ impl App {
             self.cand_sort = k;
         }
         self.cand_descending = p.candidate_descending;
+        self.filter_history = p.filters.clone();
+        self.find_history = p.finds.clone();
         if let Ok(f) = Filter::parse(&p.filter) {
             self.filter = f;
         }
@@ -531,16 +552,15 @@ impl App {
                 Vec::new()
             }
             Input::Backspace => {
-                match &mut self.mode {
-                    Mode::Prompt { text, .. } => {
-                        text.pop();
-                    }
-                    Mode::Reasons { note, .. } => {
-                        note.pop();
-                    }
-                    _ => {}
-                }
-                self.prompt_changed();
+                self.edit(Edit::Backspace);
+                Vec::new()
+            }
+            Input::Edit(e) => {
+                self.edit(e);
+                Vec::new()
+            }
+            Input::Recall(up) => {
+                self.recall(up);
                 Vec::new()
             }
             Input::Action(a) => self.act(a),
@@ -609,9 +629,9 @@ impl App {
     fn paste(&mut self, pasted: &str) {
         let clean = |c: char| if c.is_control() { ' ' } else { c };
         match &mut self.mode {
-            Mode::Prompt { text, .. } => {
-                let room = PROMPT_MAX.saturating_sub(text.chars().count());
-                text.extend(pasted.chars().map(clean).take(room));
+            Mode::Prompt { line, .. } => {
+                let text: String = pasted.chars().map(clean).collect();
+                line.insert(&text, PROMPT_MAX);
                 self.prompt_changed();
             }
             Mode::Reasons { note, .. } => {
@@ -626,8 +646,8 @@ impl App {
 
     fn type_char(&mut self, ch: char) {
         match &mut self.mode {
-            Mode::Prompt { text, .. } if text.len() < PROMPT_MAX => {
-                text.push(ch);
+            Mode::Prompt { line, .. } => {
+                line.insert(ch.encode_utf8(&mut [0; 4]), PROMPT_MAX);
                 self.prompt_changed();
             }
             // A note is one line of plain text.
@@ -638,10 +658,64 @@ impl App {
         }
     }
 
+    /// A line-editing key: in a prompt anywhere in the line; in a note at
+    /// its end (the note has no cursor).
+    fn edit(&mut self, e: Edit) {
+        match &mut self.mode {
+            Mode::Prompt { line, .. } => {
+                line.apply(e);
+                self.prompt_changed();
+            }
+            Mode::Reasons { note, .. } => {
+                let mut l = LineEdit::new(note);
+                l.apply(e);
+                if l.cursor == l.text.chars().count() {
+                    *note = l.text;
+                }
+            }
+            _ => {}
+        }
+    }
+
+    /// Up/Down in a prompt: the previous (or next) filter or find entered,
+    /// selected so typing replaces it; past the newest, an empty line.
+    fn recall(&mut self, up: bool) {
+        let Mode::Prompt {
+            kind, line, recall, ..
+        } = &mut self.mode
+        else {
+            return;
+        };
+        let list = match kind {
+            PromptKind::Filter => &self.filter_history,
+            PromptKind::Find => &self.find_history,
+        };
+        if list.is_empty() {
+            return;
+        }
+        let next = match (*recall, up) {
+            (None, true) => Some(0),
+            (None, false) => None,
+            (Some(i), true) => Some((i + 1).min(list.len() - 1)),
+            (Some(0), false) => None,
+            (Some(i), false) => Some(i - 1),
+        };
+        *recall = next;
+        *line = match next {
+            Some(i) => LineEdit::selected(&list[list.len() - 1 - i]),
+            None => LineEdit::default(),
+        };
+        self.prompt_changed();
+    }
+
     /// Live feedback while typing: filter errors at their position, fuzzy
     /// jumps as the text grows.
     fn prompt_changed(&mut self) {
-        if let Mode::Prompt { kind, text, error } = &mut self.mode {
+        if let Mode::Prompt {
+            kind, line, error, ..
+        } = &mut self.mode
+        {
+            let text = &line.text;
             match kind {
                 PromptKind::Filter => *error = Filter::parse(text).err(),
                 PromptKind::Find => {

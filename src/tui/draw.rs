@@ -18,6 +18,7 @@ use crate::odds::{Verdict, format_odds};
 use crate::output::num;
 use crate::sanitize::clean;
 
+mod ascii;
 mod overlays;
 mod signal;
 use overlays::{draw_box, draw_help, draw_prompt, draw_reasons};
@@ -153,7 +154,25 @@ pub fn sparkline(app: &App, c: CandidateId, look: Look) -> String {
         .collect()
 }
 
+/// Draws the browser; with `look.ascii` nothing above byte 127 is left in
+/// the frame (see `ascii`).
 pub fn draw(app: &App, frame: &mut Frame, look: Look) {
+    draw_screen(app, frame, look);
+    if look.ascii {
+        ascii::asciify(frame.buffer_mut());
+    }
+}
+
+/// Text in the look's alphabet: symbols spelled in ASCII when it is ASCII.
+fn spelled(look: Look, text: String) -> String {
+    if look.ascii {
+        ascii::spell(&text).into_owned()
+    } else {
+        text
+    }
+}
+
+fn draw_screen(app: &App, frame: &mut Frame, look: Look) {
     let area = frame.area();
     // Nothing to click until the lists are drawn again.
     app.hits.systems.set((Rect::default(), 0));
@@ -173,13 +192,10 @@ pub fn draw(app: &App, frame: &mut Frame, look: Look) {
         Constraint::Length(1),
     ])
     .areas(area);
-    let wide = area.width >= 120;
-    let [left, right] = Layout::horizontal(if wide {
-        [Constraint::Percentage(40), Constraint::Percentage(60)]
-    } else {
-        [Constraint::Percentage(45), Constraint::Percentage(55)]
-    })
-    .areas(main);
+    // The candidates pane gets the wider half: its first four columns (id,
+    // odds, verdict, decision) must fit at the smallest size.
+    let [left, right] =
+        Layout::horizontal([Constraint::Percentage(40), Constraint::Percentage(60)]).areas(main);
     let [systems, facts] =
         Layout::vertical([Constraint::Percentage(65), Constraint::Percentage(35)]).areas(left);
     let [candidates, signal] =
@@ -193,20 +209,26 @@ pub fn draw(app: &App, frame: &mut Frame, look: Look) {
     draw_prompt(app, frame, prompt, look);
     match &app.mode {
         Mode::Help => draw_help(app, frame, area),
-        Mode::Reasons { selected, note, .. } => draw_reasons(frame, area, *selected, note, look),
+        Mode::Reasons {
+            selected,
+            bulk,
+            note,
+        } => draw_reasons(app, frame, area, (*selected, *bulk, note), look),
         Mode::Bulk => {
             let k = |a| app.keymap.keys_of(a);
             use super::app::Action as A;
-            let text = format!(
-                "Decide every candidate matching [{}]:\n{} keep · {} reject · {} park · {} reopen · {} cancel",
-                clean(&app.filter.text),
-                k(A::Keep),
-                k(A::Reject),
-                k(A::Park),
-                k(A::Reopen),
-                k(A::Close)
+            let message = format!(
+                "Decide every candidate matching [{}]:",
+                clean(&app.filter.text)
             );
-            draw_box(frame, area, " Apply to the filter ", text);
+            let hints = [
+                format!("{} keep", k(A::Keep)),
+                format!("{} reject", k(A::Reject)),
+                format!("{} park", k(A::Park)),
+                format!("{} reopen", k(A::Reopen)),
+                format!("{} cancel", k(A::Close)),
+            ];
+            draw_box(frame, area, " Apply to the filter ", &message, &hints, look);
         }
         Mode::Confirm {
             decision,
@@ -217,20 +239,27 @@ pub fn draw(app: &App, frame: &mut Frame, look: Look) {
                 "" => String::new(),
                 n => format!(" with the note \"{}\"", clean(n)),
             };
-            let text = format!(
-                "Record {decision} for {count} candidates matching [{}]{note}?\n{} confirms · {} cancels",
+            let message = format!(
+                "Record {decision} for {count} candidates matching [{}]{note}?",
                 clean(&app.filter.text),
-                app.keymap.keys_of(super::app::Action::Select),
-                app.keymap.keys_of(super::app::Action::Close)
             );
-            draw_box(frame, area, " Confirm ", text);
+            let hints = [
+                format!(
+                    "{} confirms",
+                    app.keymap.keys_of(super::app::Action::Select)
+                ),
+                format!("{} cancels", app.keymap.keys_of(super::app::Action::Close)),
+            ];
+            draw_box(frame, area, " Confirm ", &message, &hints, look);
         }
         _ => {}
     }
 }
 
 fn block(title: String, focused: bool, look: Look) -> Block<'static> {
-    let b = Block::default().borders(Borders::ALL).title(title);
+    let b = Block::default()
+        .borders(Borders::ALL)
+        .title(spelled(look, title));
     if focused {
         b.border_style(style(look, Color::Yellow).add_modifier(Modifier::BOLD))
     } else {
@@ -269,13 +298,7 @@ fn direction(look: Look, descending: bool) -> &'static str {
 }
 
 fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
-    let title = format!(
-        " Systems {} of {} · sort {}{} ",
-        app.stars.len(),
-        app.cat.star_count(),
-        app.sort.name(),
-        direction(look, app.descending)
-    );
+    let title = systems_title(app, area.width.saturating_sub(4) as usize, look);
     let b = block(title, app.focus == Pane::Systems, look);
     let inner = b.inner(area);
     frame.render_widget(b, area);
@@ -364,6 +387,33 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     frame.render_widget(table, inner);
 }
 
+/// The Systems title in `room` columns: the count, then the filter in
+/// effect (always, cut at its end if it must be), then the sort if it fits.
+fn systems_title(app: &App, room: usize, look: Look) -> String {
+    let dot = if look.ascii { " - " } else { " · " };
+    let mut t = format!("Systems {}/{}", app.stars.len(), app.cat.star_count());
+    if !app.filter.text.is_empty() {
+        let f = format!("{dot}filter {}", clean(&app.filter.text));
+        let left = room.saturating_sub(t.chars().count());
+        if f.chars().count() <= left {
+            t.push_str(&f);
+        } else {
+            let cut: String = f.chars().take(left.saturating_sub(1)).collect();
+            t.push_str(&cut);
+            t.push_str(if look.ascii { "~" } else { "…" });
+        }
+    }
+    let sort = format!(
+        "{dot}sort {}{}",
+        app.sort.name(),
+        direction(look, app.descending)
+    );
+    if t.chars().count() + sort.chars().count() <= room {
+        t.push_str(&sort);
+    }
+    format!(" {t} ")
+}
+
 /// An id in at most `width` columns: whole when it fits, else its end after
 /// an ellipsis (ids of one survey share their beginnings).
 fn fit_id(id: &str, width: u16, look: Look) -> String {
@@ -393,19 +443,21 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let (a, z) = window(app.cand_row, members.len(), height);
     app.hits.candidates.set((rows_area(inner), a));
     let v = |f, c| app.cat.value(f, c);
-    // Columns by priority; as many as fit are shown, left to right.
-    const COLS: [(&str, u16, u8); 12] = [
+    // Columns by priority (0 always: id, odds, verdict, decision); as many
+    // as fit are shown, in this order. Headers name the filter field and
+    // the unit.
+    let cols: [(&str, u16, u8); 12] = [
         ("id", 12, 0),
         ("odds", 8, 0),
         ("verdict", 9, 0),
         ("period d", 9, 1),
-        ("decision", 8, 1),
+        ("decision", 8, 0),
         ("flags", 10, 1),
-        ("ppm", 7, 2),
-        ("P", 6, 2),
+        ("depth ppm", 9, 2),
+        ("prob", 6, 2),
         ("dur h", 5, 3),
-        ("R⊕", 5, 3),
-        ("SNR", 5, 3),
+        (if look.ascii { "R Re" } else { "R R⊕" }, 5, 3),
+        ("snr", 5, 3),
         ("boost", 6, 3),
     ];
     // The id column as wide as the members' ids (6 to 24), keeping their
@@ -416,13 +468,13 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
         .max()
         .unwrap_or(6)
         .clamp(6, 24)
-        .min(inner.width.saturating_sub(8 + 1 + 9 + 1).max(6));
-    let width = |i: usize| if i == 0 { id_w } else { COLS[i].1 };
+        .min(inner.width.saturating_sub(8 + 1 + 9 + 1 + 8 + 1).max(6));
+    let width = |i: usize| if i == 0 { id_w } else { cols[i].1 };
     let mut used = 0u16;
     let mut shown: Vec<usize> = Vec::new();
     for level in 0..4u8 {
-        for (i, col) in COLS.iter().enumerate() {
-            if col.2 == level && used + width(i) < inner.width {
+        for (i, col) in cols.iter().enumerate() {
+            if col.2 == level && used + width(i) <= inner.width {
                 used += width(i) + 1;
                 shown.push(i);
             }
@@ -479,7 +531,7 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
         .iter()
         .map(|&k| Constraint::Length(width(k)))
         .collect();
-    let header: Vec<&str> = shown.iter().map(|&k| COLS[k].0).collect();
+    let header: Vec<&str> = shown.iter().map(|&k| cols[k].0).collect();
     frame.render_widget(
         Table::new(rows, widths)
             .column_spacing(1)
@@ -561,25 +613,31 @@ fn draw_facts(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let Some(c) = app.candidate() else { return };
     let d = crate::checks::derive(&app.cat, c, &Default::default());
     let mut lines = vec![
-        Line::from(format!(
-            "R {} R⊕ · a {} au (a/R★ {}) · Teq {} K · S {} S⊕",
-            num(d.radius_rearth, 3),
-            num(d.a_au, 3),
-            num(d.a_rstar, 3),
-            num(d.teq_k.map(f64::round), 4),
-            num(d.insolation_earth, 3)
+        Line::from(spelled(
+            look,
+            format!(
+                "R {} R⊕ · a {} au (a/R★ {}) · Teq {} K · S {} S⊕",
+                num(d.radius_rearth, 3),
+                num(d.a_au, 3),
+                num(d.a_rstar, 3),
+                num(d.teq_k.map(f64::round), 4),
+                num(d.insolation_earth, 3)
+            ),
         )),
-        Line::from(format!(
-            "ρ★ transit {} / star {} kg/m³ (ratio {}){} · central T14 {} h",
-            num(d.density_transit, 3),
-            num(d.density_star, 3),
-            num(d.density_ratio, 2),
-            if d.assumed_central {
-                ", b = 0 assumed"
-            } else {
-                ""
-            },
-            num(d.t14_central_h, 3)
+        Line::from(spelled(
+            look,
+            format!(
+                "ρ★ transit {} / star {} kg/m³ (ratio {}){} · central T14 {} h",
+                num(d.density_transit, 3),
+                num(d.density_star, 3),
+                num(d.density_ratio, 2),
+                if d.assumed_central {
+                    ", b = 0 assumed"
+                } else {
+                    ""
+                },
+                num(d.t14_central_h, 3)
+            ),
         )),
     ];
     let standing = match app.live.status(c) {
@@ -596,19 +654,22 @@ fn draw_facts(app: &App, frame: &mut Frame, area: Rect, look: Look) {
         ),
         crate::odds::Status::Rejected => "rejected: out of every system".into(),
     };
-    lines.push(Line::from(Span::styled(standing, style(look, Color::Cyan))));
+    lines.push(Line::from(Span::styled(
+        spelled(look, standing),
+        style(look, Color::Cyan),
+    )));
     for f in app.checks.findings(c) {
         let head = format!("{}{}: ", if f.soft { "warning " } else { "" }, f.flag);
         lines.push(Line::from(vec![
             Span::styled(head, style(look, Color::Yellow)),
-            Span::raw(clean(&f.why).into_owned()),
+            Span::raw(spelled(look, clean(&f.why).into_owned())),
         ]));
     }
     if let Some(SignalResult::Data { diagnostics, .. }) = app.signals.get(&c) {
         for (f, why) in &diagnostics.findings {
             lines.push(Line::from(vec![
                 Span::styled(format!("{f}: "), style(look, Color::Yellow)),
-                Span::raw(clean(why).into_owned()),
+                Span::raw(spelled(look, clean(why).into_owned())),
             ]));
         }
     }
@@ -630,7 +691,7 @@ fn draw_what_if(app: &App, frame: &mut Frame, area: Rect, look: Look) {
                 )
             })
             .collect();
-        format!("if rejected: {}", each.join(", "))
+        spelled(look, format!("if rejected: {}", each.join(", ")))
     };
     frame.render_widget(Paragraph::new(text).style(style(look, Color::Cyan)), area);
 }
@@ -654,7 +715,12 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let text = match &app.message {
         Some(msg) => clean(msg).into_owned(),
         None => format!(
-            "{}{} validated {} likely {} unlikely {} rejected · {} held back{} · N={} f={} · filter [{}] · {} · disagree {} · {}",
+            "{}{}{} validated {} likely {} unlikely {} rejected · {} held back{} · N={} f={} · {} · disagree {} · {}",
+            // The filter in effect first: it must show at every width.
+            match app.filter.text.trim() {
+                "" => String::new(),
+                f => format!("filter [{}] · ", clean(f)),
+            },
             match (app.checks_pending, app.lc_progress) {
                 (false, _) => String::new(),
                 (true, None) => "checks running… · ".into(),
@@ -675,7 +741,6 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             },
             m.targets.map_or("?".into(), |n| n.to_string()),
             m.fp_fraction,
-            clean(&app.filter.text),
             clean(&app.vetter),
             app.disagree.len(),
             clean(&app.cat.source),
@@ -690,7 +755,7 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     } else {
         Style::default().add_modifier(Modifier::REVERSED)
     };
-    frame.render_widget(Paragraph::new(text).style(st), area);
+    frame.render_widget(Paragraph::new(spelled(look, text)).style(st), area);
 }
 
 #[cfg(test)]

@@ -187,7 +187,7 @@ fn keep_advances_to_the_next_open_candidate_and_find_jumps() {
 fn renders_at_80x24_and_says_so_when_too_small() {
     let mut app = demo_app();
     let s = screen(&app, 80, 24);
-    assert!(s.contains("Systems 321 of 321"), "{s}");
+    assert!(s.contains("Systems 321/321"), "{s}");
     assert!(s.contains("Candidates of"), "{s}");
     assert!(s.contains("Facts"), "{s}");
     assert!(s.contains("validated"), "{s}");
@@ -238,7 +238,7 @@ fn decisions_go_to_the_ledger_first_and_show_in_its_pane() {
     act(&mut app, Action::ShowLedger);
     let s = screen(&app, 100, 30);
     assert!(
-        s.contains("Ledger · 2 entries") && s.contains("tester"),
+        s.contains("Ledger - 2 entries") && s.contains("tester"),
         "{s}"
     );
     let _ = std::fs::remove_dir_all(&dir);
@@ -501,7 +501,7 @@ fn the_signal_pane_shows_odd_beside_even_and_the_secondary() {
     act(&mut app, Action::SignalView);
     let s = screen(&app, 80, 24);
     assert!(
-        s.contains("odd · model") && s.contains("even · model"),
+        s.contains("odd - model") && s.contains("even - model"),
         "{s}"
     );
     act(&mut app, Action::SignalView);
@@ -789,7 +789,7 @@ fn long_ledger_entries_wrap_and_the_newest_stays_in_view() {
     act(&mut app, Action::Select);
     act(&mut app, Action::ShowLedger);
     let s = screen(&app, 80, 24);
-    assert!(s.contains("Ledger · 21 entries"), "{s}");
+    assert!(s.contains("Ledger - 21 entries"), "{s}");
     assert!(s.contains("END") && s.contains("secondary"), "{s}");
     let _ = std::fs::remove_dir_all(&dir);
 }
@@ -882,7 +882,7 @@ fn a_paste_is_text_in_a_prompt_and_never_keys() {
     assert!(screen(&app, 100, 30).contains("k=3"));
     app.update(Input::Paste("y".repeat(100_000)));
     match &app.mode {
-        Mode::Prompt { text, .. } => assert_eq!(text.chars().count(), PROMPT_MAX),
+        Mode::Prompt { line, .. } => assert_eq!(line.text.chars().count(), PROMPT_MAX),
         other => panic!("{other:?}"),
     }
 }
@@ -904,4 +904,116 @@ fn after_a_decision_the_cursor_stays_in_the_system_while_it_has_open_candidates(
     act(&mut app, Action::Keep);
     // All three decided: now the next system.
     assert_ne!(app.star(), Some(star));
+}
+
+#[test]
+fn ascii_means_no_byte_above_127_anywhere() {
+    let mut app = demo_app();
+    // A candidate with data in the signal pane, facts with symbols, and
+    // every overlay.
+    let c = app.candidate().unwrap();
+    let mut screens = vec![
+        screen(&app, 80, 24),
+        screen(&app, 60, 16),
+        screen(&app, 200, 50),
+    ];
+    act(&mut app, Action::Reject);
+    screens.push(screen(&app, 80, 24));
+    act(&mut app, Action::Close);
+    act(&mut app, Action::Help);
+    screens.push(screen(&app, 80, 24));
+    act(&mut app, Action::Close);
+    act(&mut app, Action::Filter);
+    typed(&mut app, "k>=2 ★");
+    screens.push(screen(&app, 80, 24));
+    for s in &screens {
+        assert!(
+            s.is_ascii(),
+            "{}",
+            s.chars().filter(|c| !c.is_ascii()).collect::<String>()
+        );
+        assert!(s.contains('+') && s.contains('|'), "{s}");
+    }
+    assert!(screens[0].contains("R_earth"), "{}", screens[0]);
+    let _ = c;
+}
+
+#[test]
+fn small_screens_keep_id_odds_verdict_and_decision() {
+    let app = demo_app();
+    for (w, h) in [(80, 24), (60, 16)] {
+        let s = screen(&app, w, h);
+        let header = s.lines().nth(1).unwrap();
+        for col in ["id", "odds", "verdict", "decision"] {
+            assert!(header.contains(col), "{w}x{h}: {header}");
+        }
+    }
+    let wide = screen(&app, 200, 50);
+    for col in ["depth ppm", "prob", "period d", "snr"] {
+        assert!(wide.contains(col), "{wide}");
+    }
+    assert!(!wide.lines().nth(1).unwrap().contains(" P "), "no bare P");
+}
+
+#[test]
+fn the_reject_dialog_names_the_candidate_and_boxes_keep_their_keys() {
+    let mut app = demo_app();
+    let id = app.cat.candidate_id(app.candidate().unwrap()).to_string();
+    act(&mut app, Action::Reject);
+    let s = screen(&app, 80, 24);
+    assert!(s.contains(&format!("Reject {id}: why?")), "{s}");
+    assert!(s.contains("Esc cancels"), "{s}");
+    act(&mut app, Action::Close);
+    // A filter long enough to wrap in the box: the key line stays whole.
+    act(&mut app, Action::Filter);
+    typed(
+        &mut app,
+        "period>0 period<1000 depth>1 depth<1000000 odds>=0 snr>0 duration>0 k>=1",
+    );
+    act(&mut app, Action::Select);
+    act(&mut app, Action::ApplyToFilter);
+    let s = screen(&app, 80, 24);
+    assert!(s.contains("Esc cancel"), "{s}");
+    assert!(
+        s.lines()
+            .any(|l| l.contains("a keep") && l.contains("x reject")),
+        "{s}"
+    );
+}
+
+#[test]
+fn prompts_edit_as_a_shell_and_recall_earlier_filters() {
+    let mut app = demo_app();
+    act(&mut app, Action::Filter);
+    typed(&mut app, "k>=2");
+    act(&mut app, Action::Select);
+    // The old filter comes back selected: typing replaces it.
+    act(&mut app, Action::Filter);
+    typed(&mut app, "k>=3");
+    let text = |app: &App| match &app.mode {
+        Mode::Prompt { line, .. } => line.text.clone(),
+        _ => String::from("(no prompt)"),
+    };
+    assert_eq!(text(&app), "k>=3");
+    app.update(Input::Edit(super::app::Edit::KillToStart));
+    assert_eq!(text(&app), "");
+    app.update(Input::Recall(true));
+    assert_eq!(text(&app), "k>=2");
+    // End keeps the recalled text for editing.
+    app.update(Input::Edit(super::app::Edit::End));
+    typed(&mut app, " odds>10");
+    assert_eq!(text(&app), "k>=2 odds>10");
+    app.update(Input::Edit(super::app::Edit::KillWord));
+    app.update(Input::Edit(super::app::Edit::Home));
+    typed(&mut app, "!flag:echo ");
+    assert_eq!(text(&app), "!flag:echo k>=2 ");
+    // Esc leaves the filter in effect as it was.
+    act(&mut app, Action::Close);
+    assert_eq!(app.filter.text, "k>=2");
+    // An empty find leaves it too.
+    act(&mut app, Action::Find);
+    act(&mut app, Action::Select);
+    assert_eq!(app.filter.text, "k>=2");
+    // The history is remembered with the position.
+    assert_eq!(app.position().filters, vec!["k>=2".to_string()]);
 }

@@ -28,28 +28,39 @@ impl App {
                 self.mode = Mode::Normal;
                 return Vec::new();
             }
-            (Mode::Prompt { kind, text, .. }, Action::Select) => {
-                let (kind, text) = (*kind, text.clone());
+            (Mode::Prompt { kind, line, .. }, Action::Select) => {
+                let (kind, text) = (*kind, line.text.clone());
                 match kind {
                     PromptKind::Filter => match Filter::parse(&text) {
                         Ok(f) => {
                             self.filter = f;
                             self.mode = Mode::Normal;
+                            remember(&mut self.filter_history, &text);
                             self.refresh_view();
-                            self.message = Some(format!("{} systems match", self.stars.len()));
+                            self.message = Some(if text.trim().is_empty() {
+                                format!("no filter: all {} systems", self.stars.len())
+                            } else {
+                                format!(
+                                    "filter {}: {} systems match",
+                                    text.trim(),
+                                    self.stars.len()
+                                )
+                            });
                         }
                         Err(e) => {
-                            self.mode = Mode::Prompt {
-                                kind,
-                                text,
-                                error: Some(e),
-                            };
+                            if let Mode::Prompt { error, .. } = &mut self.mode {
+                                *error = Some(e);
+                            }
                         }
                     },
+                    // An empty find changes nothing (the filter stays).
                     PromptKind::Find => {
-                        self.jump_fuzzy(&text, true);
                         self.mode = Mode::Normal;
-                        self.focus = Pane::Candidates;
+                        if !text.trim().is_empty() {
+                            remember(&mut self.find_history, &text);
+                            self.jump_fuzzy(&text, true);
+                            self.focus = Pane::Candidates;
+                        }
                     }
                 }
                 return Vec::new();
@@ -161,15 +172,19 @@ impl App {
             Action::Find => {
                 self.mode = Mode::Prompt {
                     kind: PromptKind::Find,
-                    text: String::new(),
+                    line: LineEdit::default(),
                     error: None,
+                    recall: None,
                 }
             }
             Action::Filter => {
+                // The filter in effect, selected: typing replaces it,
+                // Right or End keeps it for editing.
                 self.mode = Mode::Prompt {
                     kind: PromptKind::Filter,
-                    text: self.filter.text.clone(),
+                    line: LineEdit::selected(&self.filter.text),
                     error: None,
+                    recall: None,
                 }
             }
             // In the candidates pane the sort keys order the members.
@@ -265,5 +280,21 @@ impl App {
             }
         }
         Vec::new()
+    }
+}
+
+/// How many filters and finds are remembered per catalogue.
+const HISTORY_KEPT: usize = 50;
+
+/// Adds an entry to a prompt's history (newest last, no repeats, bounded).
+fn remember(history: &mut Vec<String>, text: &str) {
+    let t = text.trim();
+    if t.is_empty() {
+        return;
+    }
+    history.retain(|h| h != t);
+    history.push(t.to_string());
+    if history.len() > HISTORY_KEPT {
+        history.remove(0);
     }
 }

@@ -5,31 +5,44 @@ use super::*;
 
 pub(super) fn draw_prompt(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let line = match &app.mode {
-        Mode::Prompt { kind, text, error } => {
+        Mode::Prompt {
+            kind, line, error, ..
+        } => {
             let head = match kind {
                 PromptKind::Filter => "filter: ",
                 PromptKind::Find => "find: ",
             };
-            let mut spans = vec![
-                Span::raw(head),
-                Span::raw(clean(text).into_owned()),
-                Span::raw("▏"),
-            ];
+            let (before, after) = line.split();
+            let mut spans = vec![Span::raw(head)];
+            if line.selected {
+                // Selected: typing replaces it (shown reversed).
+                spans.push(Span::styled(
+                    clean(&line.text).into_owned(),
+                    Style::default().add_modifier(Modifier::REVERSED),
+                ));
+            } else {
+                spans.push(Span::raw(clean(before).into_owned()));
+                spans.push(Span::raw(if look.ascii { "|" } else { "▏" }));
+                spans.push(Span::raw(clean(after).into_owned()));
+            }
             if let Some(e) = error {
                 spans.push(Span::styled(format!("  {e}"), style(look, Color::Red)));
             }
             Line::from(spans)
         }
-        _ => Line::from(format!(
-            "odds under the multiplicity model, not confirmation ({} explains) · {} keep · {} reject · {} park · {} undo · {} filter · {} find · ledger {}",
-            app.keymap.keys_of(crate::tui::app::Action::Help),
-            app.keymap.keys_of(crate::tui::app::Action::Keep),
-            app.keymap.keys_of(crate::tui::app::Action::Reject),
-            app.keymap.keys_of(crate::tui::app::Action::Park),
-            app.keymap.keys_of(crate::tui::app::Action::Undo),
-            app.keymap.keys_of(crate::tui::app::Action::Filter),
-            app.keymap.keys_of(crate::tui::app::Action::Find),
-            clean(&app.ledger_path),
+        _ => Line::from(spelled(
+            look,
+            format!(
+                "odds under the multiplicity model, not confirmation ({} explains) · {} keep · {} reject · {} park · {} undo · {} filter · {} find · ledger {}",
+                app.keymap.keys_of(crate::tui::app::Action::Help),
+                app.keymap.keys_of(crate::tui::app::Action::Keep),
+                app.keymap.keys_of(crate::tui::app::Action::Reject),
+                app.keymap.keys_of(crate::tui::app::Action::Park),
+                app.keymap.keys_of(crate::tui::app::Action::Undo),
+                app.keymap.keys_of(crate::tui::app::Action::Filter),
+                app.keymap.keys_of(crate::tui::app::Action::Find),
+                clean(&app.ledger_path),
+            ),
         )),
     };
     frame.render_widget(Paragraph::new(line), area);
@@ -93,11 +106,83 @@ pub(super) fn draw_help(app: &App, frame: &mut Frame, area: Rect) {
     );
 }
 
-pub(super) fn draw_box(frame: &mut Frame, area: Rect, title: &str, text: String) {
-    let r = centred(area, 70, 4);
+/// Words of `text` in lines of at most `width` columns (a longer word is
+/// cut into pieces).
+pub(super) fn wrap_words(text: &str, width: usize) -> Vec<String> {
+    let width = width.max(1);
+    let mut lines = Vec::new();
+    let mut line = String::new();
+    for word in text.split_whitespace() {
+        let mut word: Vec<char> = word.chars().collect();
+        while word.len() > width {
+            if !line.is_empty() {
+                lines.push(std::mem::take(&mut line));
+            }
+            lines.push(word.drain(..width).collect());
+        }
+        let word: String = word.into_iter().collect();
+        let need = line.chars().count() + usize::from(!line.is_empty()) + word.chars().count();
+        if need > width && !line.is_empty() {
+            lines.push(std::mem::take(&mut line));
+        }
+        if !line.is_empty() {
+            line.push(' ');
+        }
+        line.push_str(&word);
+    }
+    if !line.is_empty() {
+        lines.push(line);
+    }
+    lines
+}
+
+/// Key hints joined by " · " in lines of at most `width` columns, never
+/// breaking a hint: a dialog's key line stays whole.
+pub(super) fn key_lines(hints: &[String], width: usize, look: Look) -> Vec<String> {
+    let dot = if look.ascii { " - " } else { " · " };
+    let mut lines: Vec<String> = Vec::new();
+    let mut line = String::new();
+    for h in hints {
+        let need = line.chars().count() + if line.is_empty() { 0 } else { 3 } + h.chars().count();
+        if need > width && !line.is_empty() {
+            lines.push(std::mem::take(&mut line));
+        }
+        if !line.is_empty() {
+            line.push_str(dot);
+        }
+        line.push_str(h);
+    }
+    if !line.is_empty() {
+        lines.push(line);
+    }
+    lines
+}
+
+/// A centred box: the message wrapped to the box, then the key hints on
+/// lines of their own, so the keys are never cut or pushed out.
+pub(super) fn draw_box(
+    frame: &mut Frame,
+    area: Rect,
+    title: &str,
+    message: &str,
+    hints: &[String],
+    look: Look,
+) {
+    let width = 70.min(area.width);
+    let inner = width.saturating_sub(2) as usize;
+    let mut lines: Vec<Line> = wrap_words(message, inner)
+        .into_iter()
+        .map(Line::from)
+        .collect();
+    lines.extend(
+        key_lines(hints, inner, look)
+            .into_iter()
+            .map(|l| Line::from(l).style(style(look, Color::DarkGray))),
+    );
+    let r = centred(area, width, lines.len() as u16 + 2);
     frame.render_widget(Clear, r);
     frame.render_widget(
-        Paragraph::new(text).wrap(Wrap { trim: true }).block(
+        Paragraph::new(lines).block(
             Block::default()
                 .borders(Borders::ALL)
                 .title(title.to_string()),
@@ -106,7 +191,16 @@ pub(super) fn draw_box(frame: &mut Frame, area: Rect, title: &str, text: String)
     );
 }
 
-pub(super) fn draw_reasons(frame: &mut Frame, area: Rect, selected: usize, note: &str, look: Look) {
+/// The reason picker: the reasons, the note being typed, the keys; titled
+/// with the candidate (or the count, for the filter's candidates).
+pub(super) fn draw_reasons(
+    app: &App,
+    frame: &mut Frame,
+    area: Rect,
+    (selected, bulk, note): (usize, bool, &str),
+    look: Look,
+) {
+    use crate::tui::app::Action as A;
     let mut lines: Vec<Line> = ALL_REASONS
         .iter()
         .enumerate()
@@ -119,9 +213,19 @@ pub(super) fn draw_reasons(frame: &mut Frame, area: Rect, selected: usize, note:
             }
         })
         .collect();
-    let width = 40.min(area.width);
+    let title = match (bulk, app.candidate()) {
+        (false, Some(c)) => format!(" Reject {}: why? ", clean(app.cat.candidate_id(c))),
+        _ => format!(
+            " Reject every candidate matching [{}]: why? ",
+            clean(&app.filter.text)
+        ),
+    };
+    let width = (title.chars().count() as u16 + 2)
+        .clamp(44, 70)
+        .min(area.width);
+    let inner = width.saturating_sub(2) as usize;
     // The note's tail, so the cursor end stays in sight.
-    let room = (width as usize).saturating_sub(10);
+    let room = inner.saturating_sub(8);
     let shown: String = {
         let chars: Vec<char> = note.chars().collect();
         chars[chars.len().saturating_sub(room)..].iter().collect()
@@ -129,18 +233,21 @@ pub(super) fn draw_reasons(frame: &mut Frame, area: Rect, selected: usize, note:
     lines.push(Line::from(""));
     lines.push(Line::from(format!(" note: {}_", clean(&shown))));
     let arrows = if look.ascii { "up/down" } else { "↑↓" };
-    lines.push(
-        Line::from(format!(" {arrows} reason · type a note · Enter"))
-            .style(style(look, Color::DarkGray)),
+    let hints = [
+        format!("{arrows} reason"),
+        "type a note".to_string(),
+        format!("{} records", app.keymap.keys_of(A::Select)),
+        format!("{} cancels", app.keymap.keys_of(A::Close)),
+    ];
+    lines.extend(
+        key_lines(&hints, inner.saturating_sub(1), look)
+            .into_iter()
+            .map(|l| Line::from(format!(" {l}")).style(style(look, Color::DarkGray))),
     );
     let r = centred(area, width, lines.len() as u16 + 2);
     frame.render_widget(Clear, r);
     frame.render_widget(
-        Paragraph::new(lines).block(
-            Block::default()
-                .borders(Borders::ALL)
-                .title(" Reject: why? "),
-        ),
+        Paragraph::new(lines).block(Block::default().borders(Borders::ALL).title(title)),
         r,
     );
 }

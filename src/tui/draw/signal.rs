@@ -147,11 +147,14 @@ pub(super) fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) 
         Marker::Braille
     };
     for (i, ((label, points, curve), r)) in panels.iter().zip(areas).enumerate() {
-        let label = if views.is_none() {
-            format!("{label} · model")
-        } else {
-            label.clone()
-        };
+        let label = spelled(
+            look,
+            if views.is_none() {
+                format!("{label} · model")
+            } else {
+                label.clone()
+            },
+        );
         let mut sets = vec![
             Dataset::default()
                 .marker(marker)
@@ -203,5 +206,5 @@ pub(super) fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) 
             );
         frame.render_widget(chart, r);
     }
-    frame.render_widget(Paragraph::new(note), note_area);
+    frame.render_widget(Paragraph::new(spelled(look, note)), note_area);
 }
