@@ -190,6 +190,9 @@ pub struct Checks {
     findings: Vec<(CandidateId, Finding)>,
     /// Candidates that are one signal, best first.
     groups: SignalGroups,
+    /// The measured fold of each candidate whose light curve was read (see
+    /// `Diagnostics::shape`).
+    shapes: std::collections::HashMap<CandidateId, [f32; crate::lightcurve::analysis::SHAPE_CELLS]>,
 }
 
 impl Checks {
@@ -200,7 +203,16 @@ impl Checks {
             soft: vec![FlagSet::EMPTY; n],
             findings: Vec::new(),
             groups: SignalGroups::none(n),
+            shapes: Default::default(),
         }
+    }
+
+    /// The measured fold of a candidate, once its light curve was read.
+    pub fn shape(
+        &self,
+        c: CandidateId,
+    ) -> Option<&[f32; crate::lightcurve::analysis::SHAPE_CELLS]> {
+        self.shapes.get(&c)
     }
 
     /// The signal groups: candidates of one star that are one signal.
@@ -416,6 +428,7 @@ pub fn run_lightcurves_counted(
             match cache.diagnostics(finder, cat, c, detrend).as_ref() {
                 Ok(d) => {
                     checks.add_lightcurve(c, &d.findings);
+                    checks.shapes.insert(c, d.shape);
                     spans.push(EpochAndSpan {
                         epoch: cat.value(Field::Epoch, c).unwrap_or(f64::NAN),
                         first: span.0,

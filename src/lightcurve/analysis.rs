@@ -482,6 +482,41 @@ pub struct Diagnostics {
     pub scatter: f64,
     /// Flags raised, with the numbers behind them.
     pub findings: Vec<(Flag, String)>,
+    /// The measured fold in [`SHAPE_CELLS`] cells across ± 2 durations of
+    /// mid-transit: the mean relative drop (1 − flux) of each, NaN where no
+    /// sample falls (for the browser's sparkline).
+    pub shape: [f32; SHAPE_CELLS],
+}
+
+/// Cells of [`Diagnostics::shape`].
+pub const SHAPE_CELLS: usize = 8;
+
+/// The mean drop (1 − flux) of the detrended flux in [`SHAPE_CELLS`] equal
+/// cells spanning ± 2 transit durations of mid-transit; `skip` marks
+/// samples to leave out (the other signals' transits).
+pub fn shape_cells(dt: &[f64], flux: &[f64], skip: &[bool], duration_d: f64) -> [f32; SHAPE_CELLS] {
+    let span = 2.0 * duration_d;
+    let width = 2.0 * span / SHAPE_CELLS as f64;
+    let mut sum = [0.0f64; SHAPE_CELLS];
+    let mut n = [0u32; SHAPE_CELLS];
+    for i in 0..dt.len().min(flux.len()) {
+        if skip.get(i).copied().unwrap_or(false) || !flux[i].is_finite() {
+            continue;
+        }
+        let x = (dt[i] + span) / width;
+        if x >= 0.0 && x < SHAPE_CELLS as f64 {
+            let k = x as usize;
+            sum[k] += 1.0 - flux[i];
+            n[k] += 1;
+        }
+    }
+    std::array::from_fn(|k| {
+        if n[k] > 0 {
+            (sum[k] / n[k] as f64) as f32
+        } else {
+            f32::NAN
+        }
+    })
 }
 
 /// Z of the odd/even and secondary tests at which a flag fires (docs/science.md §4).
@@ -647,6 +682,7 @@ pub fn diagnose_detrended(
         v_shape_dchi2,
         scatter,
         findings: Vec::new(),
+        shape: shape_cells(&dt, flux, &masked_others, me.duration_h / 24.0),
     };
     d.findings = findings(&d);
     d

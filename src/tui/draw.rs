@@ -100,11 +100,13 @@ fn verdict_style(look: Look, v: Verdict) -> Style {
 }
 
 /// A tiny fold of a candidate: 8 cells from −2 to +2 durations, from its
-/// binned light curve once loaded, else from the model. The dip's floor
-/// says the depth class on a shared scale (below 300 ppm one level, to
-/// 3000 two, to 30000 three, deeper four), so shallow planets and deep
-/// eclipses look different at a glance.
-pub fn sparkline(app: &App, c: CandidateId, look: Look) -> String {
+/// measured light curve once read (the signal pane's fold, else the one the
+/// background checks measured), else from the model; true when measured.
+/// The dip's floor says the depth class on a shared scale (below 300 ppm
+/// one level, to 3000 two, to 30000 three, deeper four; the measured depth
+/// when measured), so shallow planets and deep eclipses look different at
+/// a glance.
+pub fn sparkline(app: &App, c: CandidateId, look: Look) -> (String, bool) {
     let m = crate::lightcurve::model_params(&app.cat, c);
     let (period, dur) = (
         app.cat.value(Field::PeriodD, c).unwrap_or(1.0),
@@ -119,10 +121,10 @@ pub fn sparkline(app: &App, c: CandidateId, look: Look) -> String {
     let cell = |i: usize| (i as f64 - 3.5) / 3.5 * 2.0 * dur / 24.0 / period;
     let half_cell = 2.0 * dur / 24.0 / period / 7.0;
     // Relative flux drop in each cell.
-    let drops: Vec<f64> = match app.signals.get(&c) {
-        Some(SignalResult::Data { views, .. }) => {
+    let (drops, measured): (Vec<f64>, bool) = match (app.signals.get(&c), app.checks.shape(c)) {
+        (Some(SignalResult::Data { views, .. }), _) => {
             let b = &views.transit;
-            (0..8)
+            let d = (0..8)
                 .map(|i| {
                     let x = cell(i);
                     let (sum, n) = (0..b.centre.len())
@@ -130,18 +132,27 @@ pub fn sparkline(app: &App, c: CandidateId, look: Look) -> String {
                         .fold((0.0, 0), |(s, n), j| (s + 1.0 - b.mean[j], n + 1));
                     if n > 0 { sum / n as f64 } else { 0.0 }
                 })
-                .collect()
+                .collect();
+            (d, true)
         }
-        _ => (0..8).map(|i| 1.0 - m.flux(cell(i))).collect(),
+        (_, Some(shape)) => (
+            shape
+                .iter()
+                .map(|&v| if v.is_finite() { v as f64 } else { 0.0 })
+                .collect(),
+            true,
+        ),
+        _ => ((0..8).map(|i| 1.0 - m.flux(cell(i))).collect(), false),
     };
     let deepest = drops.iter().copied().fold(0.0, f64::max);
-    let depth_ppm = app
-        .cat
-        .value(Field::DepthPpm, c)
-        .unwrap_or(deepest * 1e6)
-        .max(1.0);
+    let depth_ppm = if measured {
+        deepest * 1e6
+    } else {
+        app.cat.value(Field::DepthPpm, c).unwrap_or(deepest * 1e6)
+    }
+    .max(1.0);
     let levels = (1.0 + (depth_ppm / 30.0).log10().floor()).clamp(1.0, top as f64);
-    drops
+    let line = drops
         .iter()
         .map(|&d| {
             let f = if deepest > 0.0 {
@@ -151,7 +162,8 @@ pub fn sparkline(app: &App, c: CandidateId, look: Look) -> String {
             };
             glyphs[top - (f * levels).round() as usize]
         })
-        .collect()
+        .collect();
+    (line, measured)
 }
 
 /// Draws the browser; with `look.ascii` nothing above byte 127 is left in
@@ -346,9 +358,15 @@ fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
                 Cell::from(app.best_odds(s).map_or("-".into(), format_odds)),
             ];
             if with_fold {
-                cells.push(Cell::from(
-                    best.map_or(String::new(), |c| sparkline(app, c, look)),
-                ));
+                // The model's shape is dimmed: only a measured fold is data.
+                cells.push(match best.map(|c| sparkline(app, c, look)) {
+                    Some((line, true)) => Cell::from(line),
+                    Some((line, false)) => Cell::from(Span::styled(
+                        line,
+                        Style::default().add_modifier(Modifier::DIM),
+                    )),
+                    None => Cell::from(""),
+                });
             }
             cells.push(Cell::from(app.star_flags(s).joined(",")));
             let r = Row::new(cells);
@@ -612,7 +630,43 @@ fn draw_facts(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     frame.render_widget(b, area);
     let Some(c) = app.candidate() else { return };
     let d = crate::checks::derive(&app.cat, c, &Default::default());
-    let mut lines = vec![
+    // Why each flag fired first: on a small screen the flags are what a
+    // vetter must see; the derived quantities follow.
+    let mut lines: Vec<Line> = Vec::new();
+    for f in app.checks.findings(c) {
+        let head = format!("{}{}: ", if f.soft { "warning " } else { "" }, f.flag);
+        lines.push(Line::from(vec![
+            Span::styled(head, style(look, Color::Yellow)),
+            Span::raw(spelled(look, clean(&f.why).into_owned())),
+        ]));
+    }
+    if let Some(SignalResult::Data { diagnostics, .. }) = app.signals.get(&c) {
+        for (f, why) in &diagnostics.findings {
+            lines.push(Line::from(vec![
+                Span::styled(format!("{f}: "), style(look, Color::Yellow)),
+                Span::raw(spelled(look, clean(why).into_owned())),
+            ]));
+        }
+    }
+    let standing = match app.live.status(c) {
+        crate::odds::Status::Counted => format!(
+            "counted in a {}-system{}",
+            app.live.k(c),
+            app.live
+                .holds_to(c)
+                .map_or(String::new(), |f| format!(" · holds to f = {f:.3}"))
+        ),
+        crate::odds::Status::Held => format!(
+            "held back, never validated: {}",
+            crate::odds::hold_text(&app.cat, &app.live, c)
+        ),
+        crate::odds::Status::Rejected => "rejected: out of every system".into(),
+    };
+    lines.push(Line::from(Span::styled(
+        spelled(look, standing),
+        style(look, Color::Cyan),
+    )));
+    lines.extend([
         Line::from(spelled(
             look,
             format!(
@@ -639,40 +693,7 @@ fn draw_facts(app: &App, frame: &mut Frame, area: Rect, look: Look) {
                 num(d.t14_central_h, 3)
             ),
         )),
-    ];
-    let standing = match app.live.status(c) {
-        crate::odds::Status::Counted => format!(
-            "counted in a {}-system{}",
-            app.live.k(c),
-            app.live
-                .holds_to(c)
-                .map_or(String::new(), |f| format!(" · holds to f = {f:.3}"))
-        ),
-        crate::odds::Status::Held => format!(
-            "held back, never validated: {}",
-            crate::odds::hold_text(&app.cat, &app.live, c)
-        ),
-        crate::odds::Status::Rejected => "rejected: out of every system".into(),
-    };
-    lines.push(Line::from(Span::styled(
-        spelled(look, standing),
-        style(look, Color::Cyan),
-    )));
-    for f in app.checks.findings(c) {
-        let head = format!("{}{}: ", if f.soft { "warning " } else { "" }, f.flag);
-        lines.push(Line::from(vec![
-            Span::styled(head, style(look, Color::Yellow)),
-            Span::raw(spelled(look, clean(&f.why).into_owned())),
-        ]));
-    }
-    if let Some(SignalResult::Data { diagnostics, .. }) = app.signals.get(&c) {
-        for (f, why) in &diagnostics.findings {
-            lines.push(Line::from(vec![
-                Span::styled(format!("{f}: "), style(look, Color::Yellow)),
-                Span::raw(spelled(look, clean(why).into_owned())),
-            ]));
-        }
-    }
+    ]);
     frame.render_widget(Paragraph::new(lines).wrap(Wrap { trim: true }), inner);
 }
 

@@ -459,3 +459,22 @@ fn red_noise_false_flag_rate_on_genuine_planets() {
     let d = diagnose(&lc, &e, &[], &claimed, &DetrendSettings::default());
     assert!(flags_of(&d).contains(&Flag::OddEven), "{:?}", d.findings);
 }
+
+#[test]
+fn the_shape_cells_show_a_box_transit_in_the_middle() {
+    // A box of depth 1e-3 lasting one duration (0.1 d), sampled every
+    // 0.001 d over ± 0.3 d: cells of 0.05 d across ± 0.2 d; the middle two
+    // lie wholly inside (drop 1e-3), the outer ones wholly outside (0).
+    let dt: Vec<f64> = (-300..=300).map(|i| i as f64 * 1e-3).collect();
+    let flux: Vec<f64> = dt
+        .iter()
+        .map(|&t| if t.abs() < 0.05 { 1.0 - 1e-3 } else { 1.0 })
+        .collect();
+    let s = shape_cells(&dt, &flux, &vec![false; dt.len()], 0.1);
+    // (the sample at the edge, t = −0.05, lies outside the box)
+    assert!(
+        (s[3] - 1e-3).abs() < 3e-5 && (s[4] - 1e-3).abs() < 3e-5,
+        "{s:?}"
+    );
+    assert!(s[0].abs() < 1e-9 && s[7].abs() < 1e-9, "{s:?}");
+}

@@ -61,31 +61,39 @@ pub(super) fn centred(area: Rect, w: u16, h: u16) -> Rect {
 
 pub(super) fn draw_help(app: &App, frame: &mut Frame, area: Rect) {
     let width = 100.min(area.width);
-    let mut lines: Vec<Line> = crate::tui::app::Action::ALL
-        .iter()
-        .map(|a| {
-            Line::from(format!(
-                "{:<16} {:<18} {}",
-                a.name(),
-                app.keymap.keys_of(*a),
-                a.describe()
-            ))
-        })
-        .collect();
+    let inner = width.saturating_sub(2) as usize;
+    // Name and keys, then the description wrapped beside them (or below
+    // them, indented, when the box is narrow): never cut mid-word.
+    let mut lines: Vec<Line> = Vec::new();
+    for a in crate::tui::app::Action::ALL {
+        let head = format!("{:<16} {:<18} ", a.name(), app.keymap.keys_of(a));
+        let (indent, first_room) = if inner >= 60 {
+            (
+                head.chars().count(),
+                inner.saturating_sub(head.chars().count()),
+            )
+        } else {
+            (2, 0)
+        };
+        let body = wrap_words(a.describe(), inner.saturating_sub(indent).max(10));
+        if first_room == 0 {
+            lines.push(Line::from(head.trim_end().to_string()));
+            lines.extend(body.into_iter().map(|l| Line::from(format!("  {l}"))));
+        } else {
+            for (i, l) in body.into_iter().enumerate() {
+                let lead = if i == 0 {
+                    head.clone()
+                } else {
+                    " ".repeat(indent)
+                };
+                lines.push(Line::from(format!("{lead}{l}")));
+            }
+        }
+    }
     // What the odds mean, wrapped to the box.
     lines.push(Line::from(""));
     let statement = crate::odds::model_statement(app.live.model());
-    let mut row = String::new();
-    for word in statement.split_whitespace() {
-        if !row.is_empty() && row.len() + 1 + word.len() > width.saturating_sub(2) as usize {
-            lines.push(Line::from(std::mem::take(&mut row)));
-        }
-        if !row.is_empty() {
-            row.push(' ');
-        }
-        row.push_str(word);
-    }
-    lines.push(Line::from(row));
+    lines.extend(wrap_words(&statement, inner).into_iter().map(Line::from));
     let height = (lines.len() as u16 + 2).min(area.height);
     let visible = height.saturating_sub(2) as usize;
     let skip = app.help_scroll.min(lines.len().saturating_sub(visible));
