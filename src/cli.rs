@@ -5,7 +5,7 @@
 //! usage (unreadable or invalid catalogue, survey or column-map file, bad
 //! flag values, impossible model inputs); 3 a ledger that cannot be written.
 
-use std::io::{self, Write};
+use std::io::{self, IsTerminal, Write};
 use std::path::{Path, PathBuf};
 
 use clap::{Parser, Subcommand};
@@ -545,6 +545,45 @@ impl LightcurveArgs {
     }
 }
 
+/// A thread that, after half a second, shows how much of the catalogue was
+/// read (`\r`-rewritten on stderr) until `done`; it clears its line.
+fn progress_on_stderr(
+    path: &Path,
+    total: u64,
+    read: &std::sync::Arc<std::sync::atomic::AtomicU64>,
+    done: &std::sync::Arc<std::sync::atomic::AtomicBool>,
+) -> std::thread::JoinHandle<()> {
+    use std::sync::atomic::Ordering::Relaxed;
+    let (read, done) = (std::sync::Arc::clone(read), std::sync::Arc::clone(done));
+    let name = crate::sanitize::for_terminal(&path.display().to_string()).into_owned();
+    std::thread::spawn(move || {
+        let start = std::time::Instant::now();
+        let mut shown = false;
+        while !done.load(Relaxed) {
+            std::thread::sleep(std::time::Duration::from_millis(100));
+            if start.elapsed() < std::time::Duration::from_millis(500) {
+                continue;
+            }
+            shown = true;
+            let r = read.load(Relaxed);
+            let pct = if total > 0 {
+                (100 * r / total).min(100)
+            } else {
+                0
+            };
+            let bar = "#".repeat((pct / 5) as usize) + &".".repeat(20 - (pct / 5) as usize);
+            eprint!(
+                "\rstarsift: reading {name} [{bar}] {pct:>3}% ({:.0} of {:.0} MB)",
+                r as f64 / 1e6,
+                total as f64 / 1e6
+            );
+        }
+        if shown {
+            eprint!("\r\x1b[2K");
+        }
+    })
+}
+
 /// A bit mask: decimal or `0x` hexadecimal.
 fn parse_bits(text: &str) -> Result<u64, String> {
     let t = text.trim();
@@ -580,12 +619,45 @@ impl CatalogueArgs {
             index_only: false,
             header_units: Vec::new(),
             hdu: self.table_hdu.clone(),
+            progress: None,
         })
     }
 
     /// Loads the catalogue (or the demo) and its `survey.toml`, if any.
+    /// On a terminal, a load that takes more than half a second shows its
+    /// progress on stderr (nothing when stderr is piped).
     pub fn load(&self) -> Result<Loaded, CliError> {
-        self.load_with(self.options()?)
+        let opts = self.options()?;
+        match &self.catalogue {
+            Some(path) if io::stderr().is_terminal() => {
+                let total = std::fs::metadata(path).map_or(0, |m| m.len());
+                let read = std::sync::Arc::new(std::sync::atomic::AtomicU64::new(0));
+                let opts = LoadOptions {
+                    progress: Some(std::sync::Arc::clone(&read)),
+                    ..opts
+                };
+                let done = std::sync::Arc::new(std::sync::atomic::AtomicBool::new(false));
+                let shown = progress_on_stderr(path, total, &read, &done);
+                let result = self.load_with(opts);
+                done.store(true, std::sync::atomic::Ordering::Relaxed);
+                let _ = shown.join();
+                result
+            }
+            _ => self.load_with(opts),
+        }
+    }
+
+    /// `load` counting the bytes read into `read`, for the browser's
+    /// loading screen.
+    pub fn load_counting(
+        &self,
+        read: std::sync::Arc<std::sync::atomic::AtomicU64>,
+    ) -> Result<Loaded, CliError> {
+        let opts = LoadOptions {
+            progress: Some(read),
+            ..self.options()?
+        };
+        self.load_with(opts)
     }
 
     /// `load` keeping only the ids, the star index, depth and the skips

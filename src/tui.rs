@@ -110,6 +110,14 @@ impl Args {
 
 /// Builds the browser state for a catalogue (everything but the terminal).
 pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliError> {
+    build_app_counting(args, None)
+}
+
+/// [`build_app`], counting the catalogue's bytes read into `read`.
+fn build_app_counting(
+    args: &Args,
+    read: Option<Arc<std::sync::atomic::AtomicU64>>,
+) -> Result<(App, crate::lightcurve::Finder), CliError> {
     let keymap = args.keymap()?;
     let VettingArgs {
         input,
@@ -118,7 +126,10 @@ pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliErr
         lc,
         ..
     } = &args.vetting;
-    let loaded = input.load()?;
+    let loaded = match read {
+        Some(r) => input.load_counting(r)?,
+        None => input.load()?,
+    };
     // The checks run on a background thread once the browser is up (see `run`).
     let checks = crate::checks::Checks::none(loaded.catalogue.len());
     let finder = lc.finder(&loaded);
@@ -315,6 +326,72 @@ fn spawn_worker(
     tx
 }
 
+/// Builds the browser on a thread while the screen shows how much of the
+/// catalogue was read; `None` when the vetter quit (q or Ctrl-C) first.
+fn load_showing_progress(
+    args: &Args,
+    term: &mut Terminal<CrosstermBackend<std::io::Stdout>>,
+    look: Look,
+) -> Result<Option<(App, crate::lightcurve::Finder)>, CliError> {
+    use std::sync::atomic::{AtomicU64, Ordering::Relaxed};
+    let path = args.vetting.input.catalogue.clone();
+    let total = path
+        .as_ref()
+        .and_then(|p| std::fs::metadata(p).ok())
+        .map_or(0, |m| m.len());
+    let name = path.as_ref().map_or("the built-in demo".to_string(), |p| {
+        crate::sanitize::clean(&p.display().to_string()).into_owned()
+    });
+    let read = Arc::new(AtomicU64::new(0));
+    let (tx, rx) = mpsc::channel();
+    {
+        let (args, read) = (args.clone(), Arc::clone(&read));
+        std::thread::spawn(move || {
+            let _ = tx.send(build_app_counting(&args, Some(read)));
+        });
+    }
+    let start = std::time::Instant::now();
+    loop {
+        match rx.recv_timeout(Duration::from_millis(100)) {
+            Ok(built) => return built.map(Some),
+            Err(mpsc::RecvTimeoutError::Disconnected) => {
+                return Err(CliError::Input("the catalogue could not be loaded".into()));
+            }
+            Err(mpsc::RecvTimeoutError::Timeout) => {}
+        }
+        let r = read.load(Relaxed);
+        let text = if total > 0 {
+            format!(
+                "starsift: loading {name}: {:.0} of {:.0} MB read ({}%) · {:.1} s · q quits",
+                r as f64 / 1e6,
+                total as f64 / 1e6,
+                (100 * r / total).min(100),
+                start.elapsed().as_secs_f64()
+            )
+        } else {
+            format!("starsift: loading {name} · q quits")
+        };
+        term.draw(|f| {
+            let text = if look.ascii {
+                text.replace('·', "-")
+            } else {
+                text.clone()
+            };
+            f.render_widget(ratatui::widgets::Paragraph::new(text), f.area());
+        })?;
+        while ratatui::crossterm::event::poll(Duration::ZERO)? {
+            if let ratatui::crossterm::event::Event::Key(k) = ratatui::crossterm::event::read()? {
+                let ctrl_c = k.code == ratatui::crossterm::event::KeyCode::Char('c')
+                    && k.modifiers
+                        .contains(ratatui::crossterm::event::KeyModifiers::CONTROL);
+                if ctrl_c || k.code == ratatui::crossterm::event::KeyCode::Char('q') {
+                    return Ok(None);
+                }
+            }
+        }
+    }
+}
+
 /// OSC 52: ask the terminal to put text on the clipboard (works over SSH
 /// and through tmux with `set-clipboard on`).
 fn osc52(text: &str) -> String {
@@ -346,7 +423,21 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         ));
     }
     let look = args.look();
-    let (mut app, finder) = build_app(args)?;
+    // Flags first (a bad key map or value costs nothing), then the terminal
+    // opens at once with a progress line while the catalogue loads.
+    args.keymap()?;
+    let guard = Guard::enter(args.mouse)?;
+    let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
+    let built = load_showing_progress(args, &mut term, look);
+    let (mut app, finder) = match built {
+        Ok(Some(b)) => b,
+        Ok(None) => return Ok(()),
+        Err(e) => {
+            drop(term);
+            drop(guard);
+            return Err(e);
+        }
+    };
     if args.filter.is_none() {
         if let Some(p) = load_positions().get(&app.cat.source) {
             app.restore(p);
@@ -411,8 +502,6 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     ] {
         signal_hook::flag::register(sig, Arc::clone(&stop))?;
     }
-    let guard = Guard::enter(args.mouse)?;
-    let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
     let (w, h) = terminal::size().unwrap_or((80, 24));
     let mut effects = app.update(Input::Resize(w, h));
     const FRAME: Duration = Duration::from_millis(16);

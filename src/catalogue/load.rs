@@ -38,6 +38,23 @@ pub struct LoadOptions {
     pub header_units: Vec<String>,
     /// The FITS extension holding the catalogue (default: the first table).
     pub hdu: Option<String>,
+    /// Bytes of the file read so far, for a progress display.
+    pub progress: Option<std::sync::Arc<std::sync::atomic::AtomicU64>>,
+}
+
+/// A reader that adds the bytes it reads to a shared counter.
+struct Counted<R> {
+    inner: R,
+    read: std::sync::Arc<std::sync::atomic::AtomicU64>,
+}
+
+impl<R: Read> Read for Counted<R> {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        let n = self.inner.read(buf)?;
+        self.read
+            .fetch_add(n as u64, std::sync::atomic::Ordering::Relaxed);
+        Ok(n)
+    }
 }
 
 /// Where catalogue bytes come from.
@@ -111,6 +128,9 @@ fn load_converted(
         raw
     };
     let converted = formats::convert(format, p, bytes, opts.hdu.as_deref())?;
+    if let (Some(read), Ok(m)) = (&opts.progress, std::fs::metadata(p)) {
+        read.store(m.len(), std::sync::atomic::Ordering::Relaxed);
+    }
     let o = LoadOptions {
         delimiter: Some(converted.delimiter),
         header_units: converted.units,
@@ -164,7 +184,14 @@ impl Catalogue {
                         source,
                     })?;
                     let size = file.metadata().ok().map(|m| m.len());
-                    (name, size, Box::new(file))
+                    let reader: Box<dyn Read + Send> = match &opts.progress {
+                        Some(read) => Box::new(Counted {
+                            inner: file,
+                            read: std::sync::Arc::clone(read),
+                        }),
+                        None => Box::new(file),
+                    };
+                    (name, size, reader)
                 }
                 Source::Bytes { name, data } => (
                     name.to_string(),
