@@ -566,11 +566,7 @@ fn progress_on_stderr(
             }
             shown = true;
             let r = read.load(Relaxed);
-            let pct = if total > 0 {
-                (100 * r / total).min(100)
-            } else {
-                0
-            };
+            let pct = (100 * r).checked_div(total).unwrap_or(0).min(100);
             let bar = "#".repeat((pct / 5) as usize) + &".".repeat(20 - (pct / 5) as usize);
             eprint!(
                 "\rstarsift: reading {name} [{bar}] {pct:>3}% ({:.0} of {:.0} MB)",
