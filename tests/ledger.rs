@@ -665,3 +665,77 @@ fn a_foreign_wal_database_gets_no_side_files() {
         }
     }
 }
+
+#[test]
+fn decide_from_a_file_checks_every_row_then_writes_them_together() {
+    let (d, cat) = demo_copy("batch");
+    let three = system_of(3);
+    let two = system_of(2);
+    let ledger = d.join("batch.sqlite");
+    // One bad row (an unknown id, a rejection without a reason): nothing
+    // is written, and each bad row is named by line and column.
+    let bad = d.join("bad.csv");
+    std::fs::write(
+        &bad,
+        format!(
+            "candidate,decision,reason,note\n{},rejected,eclipsing-binary,secondary seen\nNOPE-1,kept,,\n{},rejected,,\n",
+            three[0], two[0]
+        ),
+    )
+    .unwrap();
+    let o = starsift(&[
+        "decide",
+        s(&cat),
+        "--from",
+        s(&bad),
+        "--ledger",
+        s(&ledger),
+        "--vetter",
+        "ann",
+    ]);
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    let e = stderr(&o);
+    assert!(
+        e.contains("bad.csv: line 3: column `candidate`") && e.contains("NOPE-1"),
+        "{e}"
+    );
+    assert!(e.contains("bad.csv: line 4: column `decision`"), "{e}");
+    assert!(e.contains("nothing was recorded"), "{e}");
+    if ledger.exists() {
+        let l = starsift::ledger::Ledger::open(&ledger).unwrap();
+        assert_eq!(l.len().unwrap(), 0);
+    }
+    // A good file: every row recorded, and the verdicts follow.
+    let good = d.join("good.csv");
+    std::fs::write(
+        &good,
+        format!(
+            "candidate,decision,reason,note\n{},rejected,eclipsing-binary,\"secondary, deep\"\n{},kept,,\n",
+            three[0], two[0]
+        ),
+    )
+    .unwrap();
+    let o = starsift(&[
+        "decide",
+        s(&cat),
+        "--from",
+        s(&good),
+        "--ledger",
+        s(&ledger),
+        "--vetter",
+        "ann",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    assert!(
+        stdout(&o).contains("recorded 2 decisions"),
+        "{}",
+        stdout(&o)
+    );
+    let l = starsift::ledger::Ledger::open(&ledger).unwrap();
+    assert_eq!(l.len().unwrap(), 2);
+    let h = l.history(Some(&three[0])).unwrap();
+    assert_eq!(h[0].note.as_deref(), Some("secondary, deep"));
+    let rows = export_rows(&cat, &["--ledger", s(&ledger)]);
+    assert_eq!(column(&rows, &three[0], "verdict"), "rejected");
+    assert_eq!(column(&rows, &three[1], "k"), "2");
+}

@@ -16,11 +16,15 @@ pub struct Args {
     #[command(flatten)]
     pub ledger: LedgerArgs,
     /// The candidate decided on.
-    #[arg(long, value_name = "ID")]
-    pub candidate: String,
+    #[arg(long, value_name = "ID", required_unless_present = "from")]
+    pub candidate: Option<String>,
     /// The decision.
-    #[arg(long, value_parser = ["kept", "rejected", "parked", "open"])]
-    pub decision: String,
+    #[arg(
+        long,
+        value_parser = ["kept", "rejected", "parked", "open"],
+        required_unless_present = "from"
+    )]
+    pub decision: Option<String>,
     /// Why it was rejected (required with `rejected`): eclipsing-binary, blend,
     /// artefact, duplicate, alias, too-large, unstable, other.
     #[arg(long, value_name = "REASON")]
@@ -28,6 +32,13 @@ pub struct Args {
     /// A note for the team.
     #[arg(long, value_name = "TEXT")]
     pub note: Option<String>,
+    /// Many decisions from a CSV file with a header naming `candidate`,
+    /// `decision` and optionally `reason` and `note` (`-` reads standard
+    /// input). Every row is checked against the catalogue first; one bad
+    /// row refuses the whole file, with its line; then all are written in
+    /// one transaction.
+    #[arg(long, value_name = "FILE", conflicts_with_all = ["candidate", "decision", "reason", "note"])]
+    pub from: Option<PathBuf>,
     #[command(flatten)]
     pub model: crate::cli::ModelArgs,
     #[command(flatten)]
@@ -66,7 +77,15 @@ pub fn parse_decision(decision: &str, reason: Option<&str>) -> Result<Decision, 
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    let decision = parse_decision(&args.decision, args.reason.as_deref())?;
+    if let Some(file) = &args.from {
+        return run_batch(args, file, out);
+    }
+    let (Some(candidate), Some(decision)) = (&args.candidate, &args.decision) else {
+        return Err(CliError::Input(
+            "give --candidate ID and --decision D, or --from FILE".into(),
+        ));
+    };
+    let decision = parse_decision(decision, args.reason.as_deref())?;
     let vetting = crate::cli::VettingArgs {
         input: args.input.clone(),
         ledger: args.ledger.clone(),
@@ -76,7 +95,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     };
     let loaded = args.input.load()?;
     let cat = &loaded.catalogue;
-    let c = loaded.candidate(&args.candidate)?;
+    let c = loaded.candidate(candidate)?;
     let vetter = args.ledger.vetter();
     let mut ledger = args.ledger.open(&args.input, &loaded)?;
     let id = ledger.record(&NewDecision {
@@ -130,6 +149,151 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         }
         Err(e) => writeln!(out, "  no verdicts: {e}")?,
     }
+    Ok(())
+}
+
+/// One row of a `--from` file, checked.
+struct BatchRow {
+    candidate: crate::catalogue::CandidateId,
+    decision: Decision,
+    note: Option<String>,
+}
+
+/// The most bad rows listed before the rest are counted.
+const ERRORS_SHOWN: usize = 20;
+
+/// Reads and checks every row of a `--from` file: the whole file or the
+/// list of its bad rows (file, line, column, why).
+fn read_batch(
+    file: &std::path::Path,
+    loaded: &crate::cli::Loaded,
+) -> Result<Vec<BatchRow>, CliError> {
+    let name = clean(&file.display().to_string()).into_owned();
+    let bytes = if file.as_os_str() == "-" {
+        let mut b = Vec::new();
+        std::io::Read::read_to_end(&mut std::io::stdin(), &mut b)?;
+        b
+    } else {
+        std::fs::read(file).map_err(|e| CliError::Input(format!("{name}: cannot read: {e}")))?
+    };
+    let mut r = csv::ReaderBuilder::new()
+        .comment(Some(b'#'))
+        .flexible(true)
+        .from_reader(&bytes[..]);
+    let header: Vec<String> = r
+        .headers()
+        .map_err(|e| CliError::Input(format!("{name}: line 1: {e}")))?
+        .iter()
+        .map(|h| h.trim().to_ascii_lowercase())
+        .collect();
+    let col = |n: &str| header.iter().position(|h| h == n);
+    let (Some(ci), Some(di)) = (col("candidate"), col("decision")) else {
+        return Err(CliError::Input(format!(
+            "{name}: line 1: the header needs `candidate` and `decision` columns \
+             (and may have `reason` and `note`); it is: {}",
+            clean(&header.join(","))
+        )));
+    };
+    let (ri, ni) = (col("reason"), col("note"));
+    let cat = &loaded.catalogue;
+    let mut rows = Vec::new();
+    let mut errors: Vec<String> = Vec::new();
+    let mut seen: std::collections::HashMap<crate::catalogue::CandidateId, u64> =
+        Default::default();
+    for rec in r.records() {
+        let rec = match rec {
+            Ok(rec) => rec,
+            Err(e) => {
+                let line = e.position().map_or(0, |p| p.line());
+                errors.push(format!("{name}: line {line}: {e}"));
+                continue;
+            }
+        };
+        let line = rec.position().map_or(0, |p| p.line());
+        let cell = |i: Option<usize>| i.and_then(|i| rec.get(i)).map(str::trim).unwrap_or("");
+        let id = cell(Some(ci));
+        let Some(c) = cat.find_candidate(id) else {
+            errors.push(format!(
+                "{name}: line {line}: column `candidate`: `{}` is not in {}",
+                clean(id),
+                clean(&cat.source)
+            ));
+            continue;
+        };
+        if let Some(first) = seen.insert(c, line) {
+            errors.push(format!(
+                "{name}: line {line}: column `candidate`: `{}` is decided twice (also line {first})",
+                clean(id)
+            ));
+            continue;
+        }
+        let reason = Some(cell(ri)).filter(|r| !r.is_empty());
+        match parse_decision(cell(Some(di)), reason) {
+            Ok(decision) => rows.push(BatchRow {
+                candidate: c,
+                decision,
+                note: Some(cell(ni).to_string()).filter(|n| !n.is_empty()),
+            }),
+            Err(e) => errors.push(format!(
+                "{name}: line {line}: column `{}`: {}",
+                if reason.is_some() && cell(Some(di)) == "rejected" {
+                    "reason"
+                } else {
+                    "decision"
+                },
+                e.to_string()
+                    .replace("--reason ", "")
+                    .replace("--decision ", "")
+            )),
+        }
+    }
+    if !errors.is_empty() {
+        let more = errors.len().saturating_sub(ERRORS_SHOWN);
+        let mut text = errors
+            .into_iter()
+            .take(ERRORS_SHOWN)
+            .collect::<Vec<_>>()
+            .join("\n");
+        if more > 0 {
+            text.push_str(&format!("\n... and {more} more bad rows"));
+        }
+        text.push_str("\nnothing was recorded: mend the file and run it again");
+        return Err(CliError::Input(text));
+    }
+    if rows.is_empty() {
+        return Err(CliError::Input(format!("{name}: no decisions in the file")));
+    }
+    Ok(rows)
+}
+
+/// `decide --from FILE`: every row checked, then all in one transaction.
+fn run_batch(args: &Args, file: &std::path::Path, out: &mut dyn Write) -> Result<(), CliError> {
+    let loaded = args.input.load()?;
+    let rows = read_batch(file, &loaded)?;
+    let cat = &loaded.catalogue;
+    let vetter = args.ledger.vetter();
+    let mut ledger = args.ledger.open(&args.input, &loaded)?;
+    let new: Vec<NewDecision> = rows
+        .iter()
+        .map(|r| NewDecision {
+            candidate: cat.candidate_id(r.candidate),
+            star: cat.star_id(cat.star_of(r.candidate)),
+            vetter: &vetter,
+            decision: r.decision,
+            note: r.note.as_deref(),
+            undoes: None,
+        })
+        .collect();
+    let ids = ledger.record_all(&new)?;
+    writeln!(
+        out,
+        "recorded {} decisions (#{}-#{}) by {} in {}",
+        ids.len(),
+        ids.first().copied().unwrap_or(0),
+        ids.last().copied().unwrap_or(0),
+        clean(&vetter),
+        clean(&ledger.path().display().to_string())
+    )?;
     Ok(())
 }
 
