@@ -506,6 +506,9 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     let mut effects = app.update(Input::Resize(w, h));
     const FRAME: Duration = Duration::from_millis(16);
     let mut last_draw = std::time::Instant::now() - FRAME;
+    // A frame is drawn only when something changed: a key, a resize, a
+    // result from a background thread.
+    let mut dirty = true;
     loop {
         if stop.load(std::sync::atomic::Ordering::Relaxed) {
             drop(term);
@@ -538,15 +541,21 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         let since = last_draw.elapsed();
         if since < FRAME && event::poll(FRAME - since)? {
             read_batch(&mut app, &mut effects, &worker)?;
+            dirty = true;
             continue;
         }
-        term.draw(|f| draw::draw(&app, f, look))?;
-        last_draw = std::time::Instant::now();
+        if dirty {
+            term.draw(|f| draw::draw(&app, f, look))?;
+            last_draw = std::time::Instant::now();
+            dirty = false;
+        }
         if let Some((done, total)) = progress_rx.try_iter().last() {
             effects.extend(app.update(Input::Progress(done, total)));
+            dirty = true;
         }
         match checks_rx.try_recv() {
             Ok((checks, run)) => {
+                dirty = true;
                 effects.extend(app.update(Input::Checks(Box::new(checks))));
                 if let Some(n) = run.notice {
                     effects.extend(app.update(Input::Notice(n)));
@@ -558,6 +567,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                 }
             }
             Err(mpsc::TryRecvError::Disconnected) if app.checks_pending => {
+                dirty = true;
                 effects.extend(app.update(Input::ChecksFailed(
                     "the checks stopped on an internal error: flags and verdicts are not shown; \
                      run `starsift checks` on this catalogue to see the error"
@@ -568,17 +578,30 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         }
         if let Ok(orders) = orders_rx.try_recv() {
             effects.extend(app.update(Input::Orders(orders)));
+            dirty = true;
         }
         while let Ok((c, r)) = res_rx.try_recv() {
             effects.extend(app.update(Input::Signal(c, Box::new(r))));
+            dirty = true;
         }
-        if !effects.is_empty() {
+        if !effects.is_empty() || dirty {
             continue;
         }
-        if !event::poll(Duration::from_millis(100))? {
+        // While a light curve is being read, look for its result every few
+        // milliseconds (it then shows in the next frame); otherwise sleep
+        // until a key, waking now and then for the background checks.
+        let wait = if app.waiting() {
+            Duration::from_millis(4)
+        } else if app.checks_pending {
+            Duration::from_millis(50)
+        } else {
+            Duration::from_millis(250)
+        };
+        if !event::poll(wait)? {
             continue;
         }
         read_batch(&mut app, &mut effects, &worker)?;
+        dirty = true;
     }
 }
 

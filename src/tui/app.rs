@@ -501,7 +501,9 @@ impl App {
         let before = self.candidate();
         let mut effects = match input {
             Input::Signal(c, result) => {
-                self.pending.remove(&c);
+                // The worker answers only the latest request: the others
+                // are dropped, and asked again if the vetter comes back.
+                self.pending.clear();
                 self.signals.insert(c, *result);
                 Vec::new()
             }
@@ -611,6 +613,11 @@ impl App {
             }
             _ => Vec::new(),
         };
+    }
+
+    /// True while any light-curve result is being computed.
+    pub fn waiting(&self) -> bool {
+        !self.pending.is_empty()
     }
 
     /// True while the light-curve result of `c` is being computed.
