@@ -52,8 +52,11 @@ pub enum Command {
     History(cmd::history::Args),
     /// The vetted catalogue: every input column plus odds, verdicts and decisions.
     Export(cmd::export::Args),
-    /// A Markdown report of the vetting.
+    /// A Markdown (or self-contained HTML) report of the vetting.
     Report(cmd::report::Args),
+    /// A candidate's one-page figure (SVG or PNG): light curve, folds,
+    /// odd/even, secondary search, per-transit depths and the facts.
+    Plot(cmd::plot::Args),
     /// Write a stream of decisions, acknowledging each commit (for crash tests).
     #[command(hide = true)]
     StressLedger(cmd::decide::StressArgs),
@@ -753,6 +756,7 @@ pub fn run(cli: Cli, out: &mut dyn Write) -> Result<(), CliError> {
         Some(Command::History(a)) => cmd::history::run(&a, out),
         Some(Command::Export(a)) => cmd::export::run(&a, out),
         Some(Command::Report(a)) => cmd::report::run(&a, out),
+        Some(Command::Plot(a)) => cmd::plot::run(&a, out),
         Some(Command::StressLedger(a)) => cmd::decide::stress(&a, out),
         Some(Command::Generate(a)) => cmd::generate::run(&a, out),
     }

@@ -7,5 +7,6 @@ pub mod fold;
 pub mod generate;
 pub mod history;
 pub mod odds;
+pub mod plot;
 pub mod report;
 pub mod summary;

@@ -29,6 +29,7 @@ pub mod constants;
 pub mod contain;
 pub mod decision;
 pub mod demo;
+pub mod figure;
 pub mod flags;
 pub mod ledger;
 pub mod lightcurve;

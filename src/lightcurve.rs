@@ -10,7 +10,10 @@ mod fits;
 mod segments;
 pub mod timezero;
 
-pub use candidate::{Cache, Finder, ModelParams, context, model_params, signals, star_signals};
+pub use candidate::{
+    Cache, Finder, MASK_WIDEN, ModelParams, Shown, ZOOM_DURATIONS, context, model_params, show,
+    signals, star_signals,
+};
 
 pub use fits::{ArchiveSegment, write_archive_segment, write_table as write_fits};
 pub(crate) use fits::{describe as describe_fits_error, open_plain as open_fits};

@@ -278,43 +278,18 @@ fn spawn_worker(
             while let Ok(newer) = rx.try_recv() {
                 c = newer;
             }
-            let star = cat.star_of(c);
             let what = format!("showing {}", cat.candidate_id(c));
             let out = crate::contain::contained(&what, || {
-                if !finder.has(&cat, star) {
-                    SignalResult::Model(
-                        "no light curve for this star: the model transit is shown".into(),
-                    )
-                } else {
-                    let curve = cache.curve(&finder, &cat, star);
-                    match curve.as_ref() {
-                        Err(e) => SignalResult::Model(format!("light curve not read: {e}")),
-                        Ok(lc) => {
-                            let (me, others) = crate::lightcurve::signals(&cat, c);
-                            let flux = cache.detrended(&cat, star, lc, &detrend);
-                            let skip =
-                                crate::lightcurve::analysis::in_transit(&lc.time, &others, 1.2);
-                            let z = (3.0 * me.duration_h / 24.0 / me.period_d).min(0.5);
-                            let views = crate::lightcurve::analysis::views(
-                                &lc.time,
-                                &flux,
-                                &lc.flux_err,
-                                &skip,
-                                &me,
-                                z,
-                                60,
-                            );
-                            let diagnostics = cache.diagnostics(&finder, &cat, c, &detrend);
-                            match diagnostics.as_ref() {
-                                Ok(d) => SignalResult::Data {
-                                    views: Box::new(views),
-                                    diagnostics: Box::new(d.clone()),
-                                    source: lc.label(),
-                                },
-                                Err(e) => SignalResult::Model(e.clone()),
-                            }
-                        }
-                    }
+                match crate::lightcurve::show(&cache, &finder, &cat, c, &detrend, 60) {
+                    Ok(shown) => match shown.diagnostics.as_ref() {
+                        Ok(d) => SignalResult::Data {
+                            source: shown.lc().label(),
+                            diagnostics: Box::new(d.clone()),
+                            views: Box::new(shown.views.clone()),
+                        },
+                        Err(e) => SignalResult::Model(e.clone()),
+                    },
+                    Err(why) => SignalResult::Model(why),
                 }
             })
             .unwrap_or_else(SignalResult::Model);

@@ -482,6 +482,9 @@ pub struct Diagnostics {
     pub scatter: f64,
     /// Flags raised, with the numbers behind them.
     pub findings: Vec<(Flag, String)>,
+    /// Each transit's depth (ppm, white-noise error) with its mid-time:
+    /// the per-transit depths the consistency test and the noise factor use.
+    pub per_transit: Vec<(f64, Measure)>,
     /// The measured fold in [`SHAPE_CELLS`] cells across ± 2 durations of
     /// mid-transit: the mean relative drop (1 − flux) of each, NaN where no
     /// sample falls (for the browser's sparkline).
@@ -589,7 +592,7 @@ pub fn diagnose_detrended(
         e[k].0 += flux[i];
         e[k].1 += 1;
     }
-    let (depths, odd_cycle): (Vec<Measure>, Vec<bool>) = per
+    let measured: Vec<(i64, Measure)> = per
         .iter()
         .filter(|(_, [inner, outer])| inner.1 >= 3 && outer.1 >= 3)
         .map(|(cycle, [(si, ni), (so, no)])| {
@@ -597,8 +600,12 @@ pub fn diagnose_detrended(
                 value: (so / *no as f64 - si / *ni as f64) * 1e6,
                 err: scatter * (1.0 / *ni as f64 + 1.0 / *no as f64).sqrt() * 1e6,
             };
-            (m, cycle.rem_euclid(2) == 1)
+            (*cycle, m)
         })
+        .collect();
+    let (depths, odd_cycle): (Vec<Measure>, Vec<bool>) = measured
+        .iter()
+        .map(|(cycle, m)| (*m, cycle.rem_euclid(2) == 1))
         .unzip();
     // Noise as it is: every box error is the white error times the larger
     // of β and the excess scatter of the per-transit depths.
@@ -683,6 +690,10 @@ pub fn diagnose_detrended(
         scatter,
         findings: Vec::new(),
         shape: shape_cells(&dt, flux, &masked_others, me.duration_h / 24.0),
+        per_transit: measured
+            .iter()
+            .map(|(cycle, m)| (me.epoch + *cycle as f64 * me.period_d, *m))
+            .collect(),
     };
     d.findings = findings(&d);
     d

@@ -234,6 +234,75 @@ pub fn context(cat: &Catalogue, c: CandidateId) -> Context {
     }
 }
 
+/// Transit durations shown on each side of mid-transit in the zoomed folds
+/// (the browser's signal pane, `fold --window transit`, the figures).
+pub const ZOOM_DURATIONS: f64 = 3.0;
+/// Other signals' transits are masked this many half-durations wide.
+pub const MASK_WIDEN: f64 = 1.2;
+
+/// One candidate's light curve as every view shows it: the star's curve
+/// and detrended flux, the four binned folds and the diagnostics, all from
+/// the code the checks use.
+pub struct Shown {
+    pub curve: LoadedCurve,
+    pub flux: Arc<Vec<f64>>,
+    pub views: super::analysis::Views,
+    pub diagnostics: CachedDiagnostics,
+    pub me: Ephemeris,
+    pub others: Vec<Ephemeris>,
+    /// Half-width of the zoomed folds, cycles.
+    pub zoom: f64,
+}
+
+impl Shown {
+    /// The light curve (present whenever a `Shown` exists).
+    pub fn lc(&self) -> &LightCurve {
+        match self.curve.as_ref() {
+            Ok(lc) => lc,
+            Err(_) => unreachable!("a Shown is only built from a light curve that was read"),
+        }
+    }
+}
+
+/// The folds and diagnostics of a candidate in `bins` bins per zoomed
+/// fold, or why there are none (no light curve, or it could not be read).
+pub fn show(
+    cache: &Cache,
+    finder: &Finder,
+    cat: &Catalogue,
+    c: CandidateId,
+    detrend: &DetrendSettings,
+    bins: usize,
+) -> Result<Shown, String> {
+    let star = cat.star_of(c);
+    if !finder.has(cat, star) {
+        return Err("no light curve for this star: the model transit is shown".into());
+    }
+    let curve = cache.curve(finder, cat, star);
+    let lc = match curve.as_ref() {
+        Ok(lc) => lc,
+        Err(e) => return Err(format!("light curve not read: {e}")),
+    };
+    let (me, others) = signals(cat, c);
+    let flux = cache.detrended(cat, star, lc, detrend);
+    let skip = super::analysis::in_transit(&lc.time, &others, MASK_WIDEN);
+    let zoom = (ZOOM_DURATIONS * me.duration_h / 24.0 / me.period_d).min(0.5);
+    let views = super::analysis::views(&lc.time, &flux, &lc.flux_err, &skip, &me, zoom, bins);
+    let diagnostics = cache.diagnostics(finder, cat, c, detrend);
+    if let Err(e) = diagnostics.as_ref() {
+        return Err(e.clone());
+    }
+    Ok(Shown {
+        curve: Arc::clone(&curve),
+        flux,
+        views,
+        diagnostics,
+        me,
+        others,
+        zoom,
+    })
+}
+
 /// A light curve or why there is none.
 pub type LoadedCurve = Arc<Result<LightCurve, String>>;
 /// Diagnostics or why there are none.
