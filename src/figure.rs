@@ -189,7 +189,7 @@ fn unfolded<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, s: &Shown) -> Res
         .draw_series(pts.iter().map(|&p| Circle::new(p, 1, INK.filled())))
         .map_err(err)?;
     let marks = |e: &crate::lightcurve::analysis::Ephemeris| -> Vec<f64> {
-        if !(e.period_d > 0.0) {
+        if e.period_d.is_nan() || e.period_d <= 0.0 {
             return Vec::new();
         }
         let first = ((t0 - e.epoch) / e.period_d).ceil() as i64;
