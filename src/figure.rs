@@ -8,6 +8,8 @@
 //! Design"), which stays distinct for colour-blind readers, and every
 //! series also differs by mark shape, so a greyscale print reads too.
 
+use std::path::Path;
+
 use plotters::coord::Shift;
 use plotters::prelude::*;
 
@@ -580,4 +582,195 @@ pub fn thumbnail_svg(shown: Option<&Shown>, model: &ModelParams) -> Result<Strin
         root.present().map_err(err)?;
     }
     Ok(out)
+}
+
+/// The boost per system size k as bars on a log scale (the model's table),
+/// as an SVG document.
+pub fn boost_chart_svg(rows: &[(u32, f64)]) -> Result<String, String> {
+    register_font();
+    let mut out = String::new();
+    {
+        let root = SVGBackend::with_string(&mut out, (640, 260)).into_drawing_area();
+        root.fill(&WHITE).map_err(err)?;
+        let finite: Vec<(u32, f64)> = rows
+            .iter()
+            .copied()
+            .filter(|r| r.1.is_finite() && r.1 > 0.0)
+            .collect();
+        let kmax = finite.iter().map(|r| r.0).max().unwrap_or(1);
+        let top = finite
+            .iter()
+            .map(|r| r.1.log10())
+            .fold(1.0_f64, f64::max)
+            .ceil()
+            + 0.5;
+        let mut chart = ChartBuilder::on(&root)
+            .caption("boost by system size k (log10)", ("sans-serif", 15))
+            .margin(10)
+            .x_label_area_size(34)
+            .y_label_area_size(50)
+            .build_cartesian_2d(0.5..kmax as f64 + 0.5, 0.0..top)
+            .map_err(err)?;
+        chart
+            .configure_mesh()
+            .x_desc("k (counted candidates on the star)")
+            .y_desc("log10 boost")
+            .light_line_style(WHITE)
+            .draw()
+            .map_err(err)?;
+        chart
+            .draw_series(finite.iter().map(|&(k, b)| {
+                Rectangle::new(
+                    [
+                        (k as f64 - 0.35, 0.0),
+                        (k as f64 + 0.35, b.log10().max(0.0)),
+                    ],
+                    BLUE.filled(),
+                )
+            }))
+            .map_err(err)?;
+        chart
+            .draw_series(finite.iter().map(|&(k, b)| {
+                Text::new(
+                    crate::output::num(Some(b), 3),
+                    (k as f64 - 0.3, b.log10().max(0.0) + 0.25),
+                    ("sans-serif", 13).into_font(),
+                )
+            }))
+            .map_err(err)?;
+        root.present().map_err(err)?;
+    }
+    Ok(out)
+}
+
+/// The image format of a file name, if it is one we write.
+pub fn format_of(path: &Path) -> Option<&'static str> {
+    match path.extension()?.to_str()?.to_ascii_lowercase().as_str() {
+        "svg" => Some("svg"),
+        "png" => Some("png"),
+        _ => None,
+    }
+}
+
+/// An id as a file name: anything but letters, digits, `.`, `-` and `_`
+/// becomes `_`.
+pub fn file_name(id: &str) -> String {
+    id.chars()
+        .map(|c| {
+            if c.is_ascii_alphanumeric() || matches!(c, '.' | '-' | '_') {
+                c
+            } else {
+                '_'
+            }
+        })
+        .collect()
+}
+
+/// What the facts box reads: the session's pieces (the browser has the
+/// same ones).
+pub struct FactsOf<'a> {
+    pub cat: &'a crate::catalogue::Catalogue,
+    pub settings: &'a crate::checks::CheckSettings,
+    pub live: Option<&'a crate::odds::Live>,
+    pub checks: &'a crate::checks::Checks,
+    /// Who decided and when, if anyone did.
+    pub decided: Option<(String, String)>,
+}
+
+/// The facts box of a candidate: the ephemeris and size, the system and
+/// odds, the decision, every flag with its reason, and the statement under
+/// which the odds hold.
+pub fn facts_of(f: &FactsOf, c: crate::catalogue::CandidateId) -> Vec<String> {
+    let cat = f.cat;
+    let d = crate::checks::derive(cat, c, f.settings);
+    let val = |x| cat.value(x, c);
+    let mut lines = vec![format!(
+        "period {} d · epoch {} · depth {} ppm · duration {} h · radius {} R⊕ · a/R★ {} · Teq {} K",
+        crate::output::num(val(crate::catalogue::Field::PeriodD), 8),
+        crate::output::num(val(crate::catalogue::Field::Epoch), 9),
+        crate::output::num(val(crate::catalogue::Field::DepthPpm), 4),
+        crate::output::num(val(crate::catalogue::Field::DurationH), 4),
+        crate::output::num(d.radius_rearth, 3),
+        crate::output::num(d.a_rstar, 3),
+        crate::output::num(d.teq_k.map(f64::round), 4)
+    )];
+    match f.live {
+        Some(live) => {
+            lines.push(format!(
+                "system of k = {} counted · odds {} · probability {} · holds to f = {} · verdict {}",
+                live.k(c),
+                live.odds(c).map_or("-".into(), crate::odds::format_odds),
+                crate::output::num(live.probability(c), 4),
+                crate::output::num(live.holds_to(c), 3),
+                live.verdict(c).name()
+            ));
+            let held = crate::odds::hold_text(cat, live, c);
+            if !held.is_empty() {
+                lines.push(format!("held back: {held}"));
+            }
+            let decision = live.decision(c);
+            let who = f
+                .decided
+                .as_ref()
+                .map(|(v, at)| format!(" by {} at {at}", crate::sanitize::clean(v)))
+                .unwrap_or_default();
+            lines.push(format!(
+                "decision: {}{}{who}",
+                decision.name(),
+                decision
+                    .reason()
+                    .map_or(String::new(), |r| format!(" ({})", r.name()))
+            ));
+        }
+        None => lines.push("no odds: the model needs N (--targets)".into()),
+    }
+    let findings: Vec<String> = f
+        .checks
+        .findings(c)
+        .map(|x| {
+            format!(
+                "{}{}: {}",
+                if x.soft { "warning " } else { "flag " },
+                x.flag,
+                crate::sanitize::clean(&x.why)
+            )
+        })
+        .collect();
+    if findings.is_empty() {
+        lines.push("flags: none".into());
+    }
+    lines.extend(findings);
+    if let Some(live) = f.live {
+        lines.push(crate::odds::model_statement(live.model()));
+    }
+    lines
+}
+
+/// Draws a candidate's figure from its facts into `path` (SVG or PNG by
+/// the extension), computing the folds with the one pipeline.
+pub fn draw_to(
+    cat: &crate::catalogue::Catalogue,
+    shown: Result<&crate::lightcurve::Shown, &str>,
+    facts: &[String],
+    verdict: &str,
+    c: crate::catalogue::CandidateId,
+    path: &Path,
+) -> Result<(), String> {
+    let page = Page {
+        title: format!(
+            "{} on {} · {verdict}",
+            crate::sanitize::clean(cat.candidate_id(c)),
+            crate::sanitize::clean(cat.star_id(cat.star_of(c)))
+        ),
+        facts,
+        model: crate::lightcurve::model_params(cat, c),
+        shown,
+    };
+    match format_of(path) {
+        Some("png") => crate::figure::png(path, &page),
+        _ => {
+            let svg = crate::figure::svg(&page)?;
+            crate::output::write_atomically(path, svg.as_bytes()).map_err(|e| e.to_string())
+        }
+    }
 }

@@ -367,6 +367,60 @@ fn load_showing_progress(
     }
 }
 
+/// Writes a candidate's figure into `starsift-figures/` (in the current
+/// folder) from the browser's own state, and says where or why not.
+fn write_figure(
+    app: &App,
+    finder: &crate::lightcurve::Finder,
+    args: &Args,
+    c: crate::catalogue::CandidateId,
+) -> String {
+    let cat = &app.cat;
+    let id = cat.candidate_id(c);
+    let dir = std::path::PathBuf::from("starsift-figures");
+    let path = dir.join(format!("{}.svg", crate::figure::file_name(id)));
+    let settings = args.vetting.checks.settings();
+    let decided = app
+        .history
+        .iter()
+        .rev()
+        .find(|e| &*e.candidate == id && e.undoes.is_none())
+        .map(|e| (e.vetter.to_string(), e.decided_at.clone()));
+    let facts = crate::figure::facts_of(
+        &crate::figure::FactsOf {
+            cat,
+            settings: &settings,
+            live: Some(&app.live),
+            checks: &app.checks,
+            decided,
+        },
+        c,
+    );
+    let cache = crate::lightcurve::Cache::default();
+    let shown = crate::lightcurve::show(&cache, finder, cat, c, &args.vetting.lc.detrend(), 80);
+    let result = std::fs::create_dir_all(&dir)
+        .map_err(|e| e.to_string())
+        .and_then(|()| {
+            crate::figure::draw_to(
+                cat,
+                shown.as_ref().map_err(String::as_str),
+                &facts,
+                app.live.verdict(c).name(),
+                c,
+                &path,
+            )
+        });
+    let shown_path = std::fs::canonicalize(&path).unwrap_or(path);
+    match result {
+        Ok(()) => format!(
+            "figure of {} written to {}",
+            crate::sanitize::clean(id),
+            crate::sanitize::clean(&shown_path.display().to_string())
+        ),
+        Err(e) => format!("figure of {} not written: {e}", crate::sanitize::clean(id)),
+    }
+}
+
 /// OSC 52: ask the terminal to put text on the clipboard (works over SSH
 /// and through tmux with `set-clipboard on`).
 fn osc52(text: &str) -> String {
@@ -493,6 +547,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                 "stopped by a signal; the terminal is restored and the place saved".into(),
             ));
         }
+        let mut follow = Vec::new();
         for e in effects.drain(..) {
             match e {
                 Effect::Quit => {
@@ -509,8 +564,14 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                 Effect::LoadSignal(c) => {
                     let _ = worker.send(c);
                 }
+                Effect::WriteFigure(c) => {
+                    let said = write_figure(&app, &finder, args, c);
+                    follow.extend(app.update(Input::Notice(said)));
+                    dirty = true;
+                }
             }
         }
+        effects.extend(follow);
         // Keys that trickle in (a paste through a slow link) are read on
         // for the rest of a 16 ms frame before the screen is drawn again.
         let since = last_draw.elapsed();

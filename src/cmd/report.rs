@@ -17,6 +17,8 @@ use crate::output::write_atomically;
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
 
+mod html;
+
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
     #[command(flatten)]
@@ -24,6 +26,10 @@ pub struct Args {
     /// Write to this file (atomically) instead of standard output.
     #[arg(short = 'o', long = "output", value_name = "FILE")]
     pub output: Option<PathBuf>,
+    /// markdown, or html: one self-contained file (inline SVG figures and
+    /// CSS, no scripts, no external reference) that opens offline.
+    #[arg(long, value_parser = ["markdown", "html"], default_value = "markdown")]
+    pub format: String,
 }
 
 /// Markdown-safe text: sanitised, with table pipes escaped.
@@ -37,6 +43,28 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     }
     let v = Session::open(&args.vetting, LedgerUse::Read)?;
     v.warn();
+    let r = markdown(&v)?;
+    let r = if args.format == "html" {
+        html::page(&v, &args.vetting, &r)?
+    } else {
+        r
+    };
+    match &args.output {
+        Some(path) => {
+            write_atomically(path, r.as_bytes())?;
+            eprintln!(
+                "starsift: wrote the report to {}",
+                clean(&path.display().to_string())
+            );
+        }
+        None => out.write_all(r.as_bytes())?,
+    }
+    Ok(())
+}
+
+/// The report as Markdown: the one source of its content (the HTML report
+/// is this text with figures added).
+pub fn markdown(v: &Session) -> Result<String, CliError> {
     let cat = &v.loaded.catalogue;
     let live = v.live()?;
     let m = live.model();
@@ -218,19 +246,29 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             .collect();
         let _ = writeln!(r, "- {}: {}", md(cand), each.join("; "));
     }
+    let _ = writeln!(r, "\n## Provenance\n");
+    let fingerprint = match &v.loaded.path {
+        Some(p) => std::fs::read(p)
+            .map(|b| crate::ledger::fingerprint(&b))
+            .unwrap_or_else(|_| "unreadable".into()),
+        None => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
+    };
+    let _ = writeln!(
+        r,
+        "- tool: starsift {}\n- written: {}\n- catalogue: {} ({}, {} candidates, fingerprint {fingerprint})\n- ledger: {}\n- light curves read for {} stars ({}); {} could not be read",
+        env!("CARGO_PKG_VERSION"),
+        crate::ledger::now_rfc3339(),
+        md(&cat.source),
+        cat.format,
+        cat.len(),
+        md(v.ledger_path.as_deref().unwrap_or("none")),
+        v.lightcurve_stars,
+        v.lightcurve_totals.describe(),
+        v.lightcurve_errors.len()
+    );
     let _ = writeln!(
         r,
         "\n---\nStatistical validation is not confirmation: these odds hold under the stated model and its assumptions; the team's own publication standards decide."
     );
-    match &args.output {
-        Some(path) => {
-            write_atomically(path, r.as_bytes())?;
-            eprintln!(
-                "starsift: wrote the report to {}",
-                clean(&path.display().to_string())
-            );
-        }
-        None => out.write_all(r.as_bytes())?,
-    }
-    Ok(())
+    Ok(r)
 }

@@ -102,6 +102,8 @@ pub enum Effect {
     Copy(String),
     /// Compute the light-curve result of this candidate.
     LoadSignal(CandidateId),
+    /// Write this candidate's figure and say where.
+    WriteFigure(CandidateId),
 }
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]

@@ -266,6 +266,15 @@ impl App {
                     self.mode = Mode::Bulk;
                 }
             }
+            Action::WriteFigure => {
+                if let Some(c) = self.candidate() {
+                    self.message = Some(format!(
+                        "drawing the figure of {}…",
+                        crate::sanitize::clean(self.cat.candidate_id(c))
+                    ));
+                    return vec![Effect::WriteFigure(c)];
+                }
+            }
             Action::CopyId => {
                 let id = match self.focus {
                     Pane::Systems => self.star().map(|s| self.cat.star_id(s).to_string()),

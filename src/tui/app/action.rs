@@ -30,6 +30,7 @@ pub enum Action {
     NextFlagged,
     ToggleAdvance,
     CopyId,
+    WriteFigure,
     ShowLedger,
     SignalView,
     ApplyToFilter,
@@ -37,7 +38,7 @@ pub enum Action {
 }
 
 impl Action {
-    pub const ALL: [Action; 30] = [
+    pub const ALL: [Action; 31] = [
         Action::Quit,
         Action::Help,
         Action::Find,
@@ -64,6 +65,7 @@ impl Action {
         Action::NextFlagged,
         Action::ToggleAdvance,
         Action::CopyId,
+        Action::WriteFigure,
         Action::ShowLedger,
         Action::SignalView,
         Action::ApplyToFilter,
@@ -98,6 +100,7 @@ impl Action {
             Action::NextFlagged => "next-flagged",
             Action::ToggleAdvance => "toggle-advance",
             Action::CopyId => "copy-id",
+            Action::WriteFigure => "write-figure",
             Action::ShowLedger => "show-ledger",
             Action::SignalView => "signal-view",
             Action::ApplyToFilter => "apply-to-filter",
@@ -133,6 +136,9 @@ impl Action {
             Action::NextFlagged => "next star with a flag",
             Action::ToggleAdvance => "advance to the next open candidate after a decision (on/off)",
             Action::CopyId => "copy the selected id to the clipboard (OSC 52)",
+            Action::WriteFigure => {
+                "write the selected candidate's one-page figure (SVG) into starsift-figures/"
+            }
             Action::ShowLedger => {
                 "show the ledger history of the selected system instead of its facts (and back)"
             }
