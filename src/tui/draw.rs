@@ -561,8 +561,14 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
 fn draw_ledger(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let b = block(
         match app.history.len() {
-            1 => " Ledger · 1 entry · L for facts ".to_string(),
-            n => format!(" Ledger · {n} entries · L for facts "),
+            1 => format!(
+                " Ledger · 1 entry · {} for facts ",
+                app.keymap.keys_of(super::app::Action::ShowLedger)
+            ),
+            n => format!(
+                " Ledger · {n} entries · {} for facts ",
+                app.keymap.keys_of(super::app::Action::ShowLedger)
+            ),
         },
         false,
         look,

@@ -1017,3 +1017,31 @@ fn prompts_edit_as_a_shell_and_recall_earlier_filters() {
     // The history is remembered with the position.
     assert_eq!(app.position().filters, vec!["k>=2".to_string()]);
 }
+
+#[test]
+fn a_rebound_key_shows_in_every_hint_that_names_it() {
+    let mut app = demo_app();
+    app.keymap = super::keymap::Keymap::load(&[(
+        "mine.toml",
+        "show-ledger = [\"g\"]\nsignal-view = [\"z\"]\nhelp = [\"h\"]\nkeep = [\"K\"]\nclose = [\"ctrl-g\"]\n",
+    )])
+    .unwrap();
+    let s = screen(&app, 100, 30);
+    assert!(s.contains("z: odd/even"), "{s}");
+    assert!(s.contains("(h explains)") && s.contains("K keep"), "{s}");
+    assert!(!s.contains("v: odd/even") && !s.contains("a keep"), "{s}");
+    act(&mut app, Action::ShowLedger);
+    let s = screen(&app, 120, 40);
+    assert!(s.contains("g for facts"), "{s}");
+    act(&mut app, Action::ShowLedger);
+    act(&mut app, Action::Help);
+    let s = screen(&app, 120, 40);
+    assert!(
+        s.contains("Keys (Ctrl-g closes)") || s.contains("Keys (ctrl-g closes)"),
+        "{s}"
+    );
+    act(&mut app, Action::Close);
+    act(&mut app, Action::Reject);
+    let s = screen(&app, 120, 40);
+    assert!(s.to_lowercase().contains("ctrl-g cancels"), "{s}");
+}

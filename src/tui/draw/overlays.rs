@@ -105,11 +105,12 @@ pub(super) fn draw_help(app: &App, frame: &mut Frame, area: Rect) {
     let r = centred(area, width, height);
     frame.render_widget(Clear, r);
     frame.render_widget(
-        Paragraph::new(lines.split_off(skip)).block(
-            Block::default()
-                .borders(Borders::ALL)
-                .title(format!(" Keys (Esc closes){more} ")),
-        ),
+        Paragraph::new(lines.split_off(skip)).block(Block::default().borders(Borders::ALL).title(
+            format!(
+                " Keys ({} closes){more} ",
+                app.keymap.keys_of(crate::tui::app::Action::Close)
+            ),
+        )),
         r,
     );
 }

@@ -109,7 +109,10 @@ pub(super) fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) 
         match app.signal_view {
             SignalView::Transit => {
                 panels.push((
-                    "all transits · v: odd/even".to_string(),
+                    format!(
+                        "all transits · {}: odd/even",
+                        app.keymap.keys_of(crate::tui::app::Action::SignalView)
+                    ),
                     points(|v| &v.transit),
                     &model[..],
                 ));
@@ -126,7 +129,10 @@ pub(super) fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) 
             }
             SignalView::Secondary => {
                 panels.push((
-                    "secondary (phase 0.5) · v: all".to_string(),
+                    format!(
+                        "secondary (phase 0.5) · {}: all",
+                        app.keymap.keys_of(crate::tui::app::Action::SignalView)
+                    ),
                     points(|v| &v.secondary),
                     &flat[..],
                 ));
