@@ -182,7 +182,7 @@ impl LedgerArgs {
         let path = match &self.ledger {
             Some(p) => p.clone(),
             None => {
-                let p = default_ledger(input)?.0;
+                let p = default_ledger_path(input);
                 if !p.exists() {
                     return Ok(None);
                 }
@@ -223,6 +223,18 @@ impl LedgerArgs {
         note_gone(&ledger, cat)?;
         Ok(ledger)
     }
+}
+
+/// The default ledger of a catalogue (beside it, or in the data folder),
+/// reading the catalogue for its fingerprint only if the place depends on it.
+fn default_ledger_path(input: &CatalogueArgs) -> PathBuf {
+    let fp = || match &input.catalogue {
+        Some(p) => {
+            std::fs::read(p).map_or_else(|_| String::new(), |b| crate::ledger::fingerprint(&b))
+        }
+        None => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
+    };
+    crate::ledger::default_path_with(input.catalogue.as_deref(), &fp)
 }
 
 /// The default ledger of a catalogue (beside it, or in the data folder) and

@@ -14,7 +14,9 @@ use crate::decision::{Decision, Reason};
 
 mod file;
 use file::check_ours;
-pub use file::{classify, data_dir, default_path, login_name, network_file_system};
+pub use file::{
+    classify, data_dir, default_path, default_path_with, login_name, network_file_system,
+};
 
 /// `PRAGMA application_id` of a starsift ledger: "STSF".
 pub const APPLICATION_ID: i32 = 0x5354_5346;

@@ -208,6 +208,13 @@ pub(super) fn check_ours(path: &Path) -> Result<(), LedgerError> {
 /// the built-in demo). `fp` is the catalogue's content fingerprint: only to
 /// find a ledger an earlier version named by content.
 pub fn default_path(catalogue: Option<&Path>, fp: &str) -> PathBuf {
+    default_path_with(catalogue, &|| fp.to_string())
+}
+
+/// [`default_path`] with the fingerprint computed only when the path
+/// depends on it (a catalogue in a folder that cannot take a ledger), so
+/// the usual case does not read the catalogue a second time.
+pub fn default_path_with(catalogue: Option<&Path>, fp: &dyn Fn() -> String) -> PathBuf {
     let data = data_dir().join("starsift");
     match catalogue {
         None => data.join("demo.ledger.sqlite"),
@@ -234,7 +241,7 @@ pub fn default_path(catalogue: Option<&Path>, fp: &str) -> PathBuf {
                     .to_string()
             };
             let by_path = data.join(format!("{stem}-{}.ledger.sqlite", short(&by_place)));
-            let by_content = data.join(format!("{stem}-{}.ledger.sqlite", short(fp)));
+            let by_content = data.join(format!("{stem}-{}.ledger.sqlite", short(&fp())));
             if !by_path.exists() && by_content.exists() {
                 by_content
             } else {
