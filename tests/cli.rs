@@ -301,3 +301,43 @@ fn errors_are_guarded_and_exports_are_byte_exact() {
     assert_eq!(rows[0]["candidate"], "A\\B-1");
     assert_eq!(rows[0]["note"], "see\tlog");
 }
+
+#[test]
+fn bad_flags_are_named_before_any_catalogue_is_read() {
+    // The catalogue does not exist: a flag error that names the flag (and
+    // not the missing file) proves the flags were checked first.
+    let missing = "/nonexistent/catalogue.csv";
+    for (args, flag) in [
+        (
+            vec!["fold", missing, "--candidate", "X", "--bins", "0"],
+            "--bins",
+        ),
+        (vec!["odds", missing, "--boost", "bogus"], "bogus"),
+        (vec!["odds", missing, "--fp-fraction", "7"], "--fp-fraction"),
+        (vec!["export", missing, "--where", "k>>2"], "--where"),
+        (vec!["checks", missing, "--only", "nonsense"], "--only"),
+        (
+            vec!["plot", missing, "--candidate", "X", "-o", "x.jpg"],
+            ".svg or .png",
+        ),
+        (
+            vec![
+                "decide",
+                missing,
+                "--candidate",
+                "X",
+                "--decision",
+                "rejected",
+            ],
+            "reason",
+        ),
+    ] {
+        let o = starsift(&args);
+        assert_eq!(o.status.code(), Some(2), "{args:?}");
+        let e = stderr(&o);
+        assert!(
+            e.contains(flag) && !e.contains("nonexistent"),
+            "{args:?}: {e}"
+        );
+    }
+}

@@ -58,15 +58,16 @@ pub enum Parity {
 const ZOOM_DURATIONS: f64 = 3.0;
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    let loaded = args.input.load()?;
-    let cat = &loaded.catalogue;
-    let c = loaded.candidate(&args.candidate)?;
+    // Flags first: a bad value costs no load.
     if args.bins == 0 || args.bins > 100_000 {
         return Err(CliError::Input(format!(
             "--bins {}: use 1 to 100000",
             args.bins
         )));
     }
+    let loaded = args.input.load()?;
+    let cat = &loaded.catalogue;
+    let c = loaded.candidate(&args.candidate)?;
     let star = cat.star_of(c);
     let finder = args.lc.finder(&loaded);
     let lc = finder
