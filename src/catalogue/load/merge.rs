@@ -1,0 +1,349 @@
+//! Merging the parsed chunks in file order: duplicate candidate ids, the
+//! star index, the columns, the unit of depth, the catalogue itself.
+
+use super::*;
+
+/// Takes parts in file order and appends them; duplicates and star ids are
+/// resolved once at the end, by sorting hashes, which is far cheaper than a
+/// hash-table probe per row.
+pub(super) struct Merger {
+    pub(super) name: String,
+    pub(super) candidates: StrPool,
+    pub(super) candidate_hash: Vec<u64>,
+    /// The star id of every row, before interning.
+    pub(super) row_stars: StrPool,
+    pub(super) star_hash: Vec<u64>,
+    pub(super) lines: Vec<u32>,
+    /// One column per `Layout::num_cols` entry.
+    pub(super) num: Vec<Vec<f64>>,
+    pub(super) lightcurve: Option<StrPool>,
+    pub(super) extras: Vec<StrPool>,
+    pub(super) hasher: hashbrown::DefaultHashBuilder,
+    pub(super) cand_header: String,
+    pub(super) skipped: Vec<Skip>,
+    pub(super) rows_seen: u64,
+    pub(super) reserved: bool,
+    /// The file's line at the start of the next part (parts number their
+    /// lines from their own start).
+    pub(super) next_line: u64,
+}
+
+impl Merger {
+    pub(super) fn new(name: String, layout: &Layout, first_line: u64) -> Merger {
+        Merger {
+            name,
+            candidates: StrPool::default(),
+            candidate_hash: Vec::new(),
+            row_stars: StrPool::default(),
+            star_hash: Vec::new(),
+            lines: Vec::new(),
+            num: vec![Vec::new(); layout.num_cols.len()],
+            lightcurve: layout.lc_col.map(|_| StrPool::default()),
+            extras: vec![StrPool::default(); layout.extra_cols.len()],
+            hasher: hashbrown::DefaultHashBuilder::default(),
+            cand_header: layout.header[layout.cand_col].clone(),
+            skipped: Vec::new(),
+            rows_seen: 0,
+            reserved: false,
+            next_line: first_line,
+        }
+    }
+
+    /// Sizes the columns once from the first part's rows per byte.
+    pub(super) fn reserve(&mut self, part: &Part, size_hint: Option<u64>) {
+        self.reserved = true;
+        let (Some(size), true) = (size_hint, part.bytes > 0) else {
+            return;
+        };
+        let rows = part.lines.len() as f64 / part.bytes as f64;
+        let est = (size as f64 * rows * 1.02) as usize + 16;
+        let per_row = |p: &StrPool| p.byte_len() as f64 / part.lines.len().max(1) as f64;
+        self.candidates =
+            StrPool::with_capacity(est, (est as f64 * per_row(&part.candidates)) as usize);
+        self.row_stars = StrPool::with_capacity(est, (est as f64 * per_row(&part.stars)) as usize);
+        self.candidate_hash.reserve(est);
+        self.star_hash.reserve(est);
+        self.lines.reserve(est);
+        // Columns not kept (`index_only`) stay empty.
+        for (c, p) in self.num.iter_mut().zip(&part.num) {
+            if !p.is_empty() {
+                c.reserve(est);
+            }
+        }
+    }
+
+    /// Appends a part's rows; returns the part, emptied of its skips, for
+    /// its memory to be used again.
+    pub(super) fn absorb(&mut self, mut part: Part, size_hint: Option<u64>) -> Part {
+        if !self.reserved {
+            self.reserve(&part, size_hint);
+        }
+        self.rows_seen += part.rows_seen;
+        let base = self.next_line;
+        self.next_line += part.newlines;
+        for skip in &mut part.skipped {
+            skip.line += base;
+        }
+        self.skipped.append(&mut part.skipped);
+        self.candidates.append(&part.candidates);
+        self.candidate_hash.extend_from_slice(&part.candidate_hash);
+        self.row_stars.append(&part.stars);
+        self.star_hash.extend_from_slice(&part.star_hash);
+        let line = |l: &u32| u32::try_from(base + *l as u64).unwrap_or(u32::MAX);
+        self.lines.extend(part.lines.iter().map(line));
+        for (dst, src) in self.num.iter_mut().zip(&part.num) {
+            dst.extend_from_slice(src);
+        }
+        if let (Some(dst), Some(src)) = (self.lightcurve.as_mut(), part.lightcurve.as_ref()) {
+            dst.append(src);
+        }
+        for (dst, src) in self.extras.iter_mut().zip(&part.extras) {
+            dst.append(src);
+        }
+        part
+    }
+
+    /// Removes duplicate rows (row, first row with the same id), with a skip
+    /// naming the first line.
+    pub(super) fn remove_rows(&mut self, dups: &[(u32, u32)]) {
+        let mut keep = vec![true; self.lines.len()];
+        for &(row, first) in dups {
+            keep[row as usize] = false;
+            self.skipped.push(Skip {
+                line: self.lines[row as usize] as u64,
+                column: Some(self.cand_header.clone()),
+                reason: format!(
+                    "candidate: duplicate id `{}` (first on line {})",
+                    self.candidates.get(row as usize),
+                    self.lines[first as usize]
+                ),
+            });
+        }
+        fn retain<T>(v: &mut Vec<T>, keep: &[bool]) {
+            let mut i = 0;
+            v.retain(|_| {
+                i += 1;
+                keep[i - 1]
+            });
+        }
+        self.candidates = self.candidates.filter(&keep);
+        self.row_stars = self.row_stars.filter(&keep);
+        retain(&mut self.candidate_hash, &keep);
+        retain(&mut self.star_hash, &keep);
+        retain(&mut self.lines, &keep);
+        for col in &mut self.num {
+            retain(col, &keep);
+        }
+        if let Some(p) = self.lightcurve.as_mut() {
+            *p = p.filter(&keep);
+        }
+        for p in &mut self.extras {
+            *p = p.filter(&keep);
+        }
+    }
+
+    pub(super) fn finish(
+        mut self,
+        layout: &Layout,
+        opts: &LoadOptions,
+    ) -> Result<Catalogue, LoadError> {
+        if self.lines.is_empty() && self.skipped.is_empty() {
+            return Err(LoadError::NoRows { path: self.name });
+        }
+        // Candidate ids and star ids are grouped by hash on two threads at
+        // once, then checked by text on both (star ids repeat: most of the
+        // work). Duplicate ids are rare; when there are some, their rows go
+        // and the stars are grouped again without them.
+        let (cands, stars) = std::thread::scope(|s| {
+            let stars = s.spawn(|| Grouped::new(&self.star_hash));
+            let cands = Grouped::new(&self.candidate_hash);
+            let stars = stars
+                .join()
+                .unwrap_or_else(|e| std::panic::resume_unwind(e));
+            (cands, stars)
+        });
+        let (cand_ids, star_ids) = (&self.candidates, &self.row_stars);
+        let same_cand = |a: u32, b: u32| cand_ids.get(a as usize) == cand_ids.get(b as usize);
+        let same_star = |a: u32, b: u32| star_ids.get(a as usize) == star_ids.get(b as usize);
+        let cands_agree = all_blocks(self.candidate_hash.len(), |r| cands.agrees(r, &same_cand));
+        let stars_agree = all_blocks(self.star_hash.len(), |r| stars.agrees(r, &same_star));
+        let (candidate_lookup, first_of) =
+            cands.settle(cands_agree, &self.candidate_hash, same_cand);
+        let grouping = StarGrouping::number(stars.settle(stars_agree, &self.star_hash, same_star));
+        let dups: Vec<(u32, u32)> = (first_of.iter().enumerate())
+            .filter(|&(r, &f)| f as usize != r)
+            .map(|(r, &f)| (r as u32, f))
+            .collect();
+        drop(first_of);
+        let (candidate_lookup, grouping) = if dups.is_empty() {
+            (candidate_lookup, grouping)
+        } else {
+            self.remove_rows(&dups);
+            let cands = &self.candidates;
+            let (ids, _) = IdIndex::build(&self.candidate_hash, |a, b| {
+                cands.get(a as usize) == cands.get(b as usize)
+            });
+            (ids, StarGrouping::build(&self.row_stars, &self.star_hash))
+        };
+        let Merger {
+            name,
+            mut candidates,
+            row_stars,
+            num: parsed,
+            mut lightcurve,
+            extras,
+            hasher,
+            mut skipped,
+            rows_seen,
+            ..
+        } = self;
+        let StarGrouping {
+            star_of,
+            first_rows,
+            lookup: star_lookup,
+        } = grouping;
+        // The stars' ids and the star → members rows, on two threads.
+        let (stars, (member_start, members)) = std::thread::scope(|s| {
+            let ids = s.spawn(|| {
+                let mut stars = StrPool::with_capacity(first_rows.len(), row_stars.byte_len() / 2);
+                for &r in &first_rows {
+                    stars.push(row_stars.get(r as usize));
+                }
+                stars
+            });
+            let members = star_members(&star_of, first_rows.len());
+            let stars = ids.join().unwrap_or_else(|e| std::panic::resume_unwind(e));
+            (stars, members)
+        });
+        drop(row_stars);
+        // Duplicates were found after their chunk's own skips: restore file order.
+        skipped.sort_by_key(|s| s.line);
+        let mut num: Vec<Option<Vec<f64>>> = vec![None; NUMERIC.len()];
+        for ((&(slot, _), col), &kept) in layout.num_cols.iter().zip(parsed).zip(&layout.kept) {
+            if kept {
+                num[slot] = Some(col);
+            }
+        }
+        let header = &layout.header;
+        let mapping = &layout.mapping;
+        let mut columns = Vec::new();
+        for (field, &index) in &mapping.by_field {
+            let forced = opts.columns.fields.contains_key(field);
+            let mut unit = field.unit().to_string();
+            let mut how = if forced { "column map" } else { "synonym" }.to_string();
+            let stated = opts
+                .header_units
+                .get(index)
+                .map(|u| u.trim())
+                .filter(|u| !u.is_empty());
+            if *field == Field::DepthPpm {
+                let slot = Field::DepthPpm.num_slot().unwrap_or(0);
+                let depths = num[slot].as_deref_mut().unwrap_or(&mut []);
+                let (du, why, extra) = match (opts.depth_unit, stated.map(units::depth_unit)) {
+                    (None, Some(Some((du, extra)))) => (
+                        du,
+                        format!("from the table's unit `{}`", stated.unwrap_or("")),
+                        extra,
+                    ),
+                    (None, Some(None)) => {
+                        return Err(LoadError::Format {
+                            path: name,
+                            message: format!(
+                                "column `{}`: the table gives depth in `{}`, which starsift does \
+                                 not convert (ppm, %, ppt, fraction); say which with --depth-unit",
+                                header[index],
+                                stated.unwrap_or("")
+                            ),
+                        });
+                    }
+                    _ => {
+                        let (du, why) = depth_unit(&name, &header[index], depths, opts.depth_unit)?;
+                        (du, why, 1.0)
+                    }
+                };
+                let factor = du.to_ppm() * extra;
+                if factor != 1.0 {
+                    depths.iter_mut().for_each(|d| *d *= factor);
+                }
+                unit = format!("{} (stored as ppm)", du.name());
+                if extra != 1.0 {
+                    unit = format!("{} (stored as ppm)", stated.unwrap_or(""));
+                }
+                how = format!("{how}; unit {why}");
+            } else if let Some(u) = stated {
+                how = match layout.convert_text.iter().find(|(f, _)| f == field) {
+                    Some((_, text)) => format!("{how}; {text}"),
+                    None => format!("{how}; table unit {u}"),
+                };
+            }
+            columns.push(ColumnUse {
+                field: field.name(),
+                header: header[index].clone(),
+                index,
+                unit,
+                how,
+            });
+        }
+        for (index, h, f) in &mapping.shadowed {
+            columns.push(ColumnUse {
+                field: "",
+                header: h.clone(),
+                index: *index,
+                unit: String::new(),
+                how: format!(
+                    "also names {f}, which an earlier column feeds; kept as an extra column"
+                ),
+            });
+        }
+        candidates.shrink_to_fit();
+        for v in num.iter_mut().flatten() {
+            if v.capacity() > v.len() + v.len() / 8 {
+                v.shrink_to_fit();
+            }
+        }
+        if let Some(p) = lightcurve.as_mut() {
+            p.shrink_to_fit();
+        }
+        let extra_names = mapping.extras.iter().map(|(_, h)| h.clone());
+        Ok(Catalogue {
+            source: name,
+            candidates,
+            stars,
+            index: std::sync::Arc::new(crate::catalogue::StarIndex {
+                star_of,
+                member_start,
+                members,
+            }),
+            num,
+            lightcurve,
+            extras: extra_names.zip(extras).collect(),
+            candidate_lookup,
+            star_lookup,
+            hasher,
+            columns,
+            skipped,
+            rows_seen,
+            format: TableFormat::Delimited.name(),
+        })
+    }
+}
+
+/// Star → members as compressed rows: where each star's members start in
+/// the list of members (one more entry at the end), and the list, in file
+/// order within a star (a counting sort by star).
+pub(super) fn star_members(star_of: &[StarId], stars: usize) -> (Vec<u32>, Vec<CandidateId>) {
+    let mut member_start = vec![0u32; stars + 1];
+    for &s in star_of {
+        member_start[s as usize + 1] += 1;
+    }
+    for i in 1..member_start.len() {
+        member_start[i] += member_start[i - 1];
+    }
+    let mut fill = member_start.clone();
+    let mut members = vec![0; star_of.len()];
+    for (c, &s) in star_of.iter().enumerate() {
+        members[fill[s as usize] as usize] = c as CandidateId;
+        fill[s as usize] += 1;
+    }
+    (member_start, members)
+}
