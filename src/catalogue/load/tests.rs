@@ -1,0 +1,354 @@
+//! The loader's unit tests.
+
+use super::*;
+
+#[test]
+fn delimiter_by_extension_and_sniff() {
+    assert_eq!(delimiter_for("a/b.TSV"), Some(b'\t'));
+    assert_eq!(delimiter_for("b.tsv.gz"), Some(b'\t'));
+    assert_eq!(delimiter_for("b.csv.gz"), Some(b','));
+    assert_eq!(delimiter_for("b.txt"), None);
+    assert_eq!(sniff(b"# a,b,c\nstar\tcandidate\tperiod\n"), b'\t');
+    assert_eq!(sniff(b"star,candidate\tx,y\n"), b',');
+}
+
+#[test]
+fn record_ends_respect_quotes_and_comments() {
+    let b = b"a,\"x\ny\",c\n# \"odd\nd,e\"f,g\n\"h\"\"\n\",i\npartial";
+    let mut ends = Vec::new();
+    scan_record_ends(b, b',', |e| {
+        ends.push(e);
+        true
+    });
+    // Records end after `c`, after the comment, after `g` (a quote inside
+    // an unquoted field is literal), and after the escaped-quote field.
+    assert_eq!(ends, [10, 17, 25, 34]);
+    assert_eq!(last_record_end(b, b','), Some(34));
+    assert_eq!(last_record_end(b"a,b\nc,d\ne", b','), Some(8));
+    assert_eq!(first_record_end(b"\"a\nb\",c\nd"), Some(8));
+}
+
+#[test]
+fn text_end_finds_what_a_byte_loop_finds() {
+    let mut rng = crate::demo::Rng::new(3);
+    let alphabet = b",\n0a.\x80\xff\t\x00\x7f";
+    for len in [0, 1, 7, 8, 9, 15, 16, 17, 100, 1000] {
+        let bytes: Vec<u8> = (0..len)
+            .map(|_| alphabet[rng.below(alphabet.len() as u64) as usize])
+            .collect();
+        for delimiter in [b',', b'\t'] {
+            for p in 0..=len {
+                let want = (p..len)
+                    .find(|&i| bytes[i] == delimiter || bytes[i] == b'\n')
+                    .unwrap_or(len);
+                assert_eq!(text_end(&bytes, p, delimiter), want, "{bytes:?} from {p}");
+            }
+        }
+    }
+}
+
+/// Parses `text` (rows after a header of `header`) as one chunk, as the
+/// loader does: by the one-pass reader when `plain`, else by the
+/// general (csv-core) reader, which a quote in a trailing comment forces.
+/// The delimiter is a tab when the header has one, else a comma.
+fn parse_rows(header: &str, text: &[u8], plain: bool, index_only: bool) -> Part {
+    let delimiter = if header.contains('\t') { b'\t' } else { b',' };
+    let header: Vec<String> = (header.split(delimiter as char))
+        .map(str::to_string)
+        .collect();
+    let mapping = Mapping::resolve("t.csv", &header, &ColumnMap::default()).expect("header");
+    let layout = Layout::new(header, mapping, delimiter, index_only);
+    let mut bytes = text.to_vec();
+    if !plain {
+        bytes.extend_from_slice(b"\n#\"\n");
+    }
+    let chunk = Chunk {
+        seq: 0,
+        bytes,
+        plain: false,
+    };
+    layout.parse(&chunk, &hashbrown::DefaultHashBuilder::default(), None)
+}
+
+/// A part as comparable text: every kept row and every skip.
+fn part_text(p: &Part) -> Vec<String> {
+    let mut out: Vec<String> = (0..p.lines.len())
+        .map(|r| {
+            let nums: Vec<String> = p
+                .num
+                .iter()
+                .filter_map(|c| c.get(r))
+                .map(|v| format!("{:?}", v.to_bits()))
+                .collect();
+            format!(
+                "{} {} {} {}",
+                p.lines[r],
+                p.stars.get(r),
+                p.candidates.get(r),
+                nums.join(" ")
+            )
+        })
+        .collect();
+    out.extend(p.skipped.iter().map(|s| format!("{s:?}")));
+    out.push(format!("rows {}", p.rows_seen));
+    out
+}
+
+#[test]
+fn one_pass_rows_read_as_the_general_reader_reads_them() {
+    // Every kind of cell the one-pass reader takes or hands on.
+    let header = "star,candidate,period,epoch,depth_ppm,duration_h,snr,note";
+    let text = "S1,S1-a,10.5,100.25,500,3.5,12,x\n\
+                S1,S1-b,2e1,1.5E+2,2.5e-3,1,,\n\
+                S2, S2-a,10,100,500,3,nan,y z\n\
+                S2,S2-b ,10,100,500,3,NaN,\r\n\
+                S3,S3-a,10 ,100,500,3,1,\n\
+                S3,S3-b,12345678901234567890,100,500,3,1,q\n\
+                S4,S4-a,10,100,500,300,1,q\n\
+                S4,S4-b,10,100,-5,3,1,q\n\
+                S5,S5-a,10,100,500,3,1\n\
+                S5,S5-b,10,100,500,3,1,q,extra\n\
+                \n\
+                # a comment\n\
+                \u{e9}toile,\u{e9}-1,1,2,3,4,5,6\r\n\
+                S6,S6-a,10,100,abc,3,1,q\n\
+                S6,S6-b,1e999,100,500,3,1e-999,q\n\
+                S7,,10,100,500,3,1,q\n\
+                S7,S7-a,.5,-.5,+500,3.,1,q\n\
+                S7,S7-b,10,100,500,3,1e1234567,q\n\
+                S8,S8-a,1,2,3,4,5,last";
+    for text in [
+        text.as_bytes(),
+        &[text.as_bytes(), b"\nS9,S9-\xff,1,2,3,4,5,6"].concat(),
+    ] {
+        for index_only in [false, true] {
+            let plain = parse_rows(header, text, true, index_only);
+            let general = parse_rows(header, text, false, index_only);
+            assert_eq!(part_text(&plain), part_text(&general));
+        }
+    }
+    let plain = parse_rows(header, text.as_bytes(), true, false);
+    assert!(
+        plain.lines.len() >= 8 && plain.skipped.len() >= 6,
+        "{:?}",
+        part_text(&plain)
+    );
+}
+
+proptest::proptest! {
+    #[test]
+    fn one_pass_reader_agrees_on_random_rows(
+        rows in proptest::collection::vec(
+            (0usize..8, proptest::collection::vec(0usize..24, 8), 0usize..10, proptest::bool::ANY),
+            1..30,
+        )
+    ) {
+        const IDS: [&str; 8] = ["S1", "S2", " S3", "S4 ", "", "\u{e9}", "a b", "S1"];
+        const NUMS: [&str; 24] = [
+            "1", "-2.5", "1e3", "1e999", "", "nan", "NA", "abc", " 4", "5 ",
+            "12345678901234567890", ".5", "1.", "+3", "0", "2.5E-2",
+            ".", "-", "1.2.3", "-.5", "5-", "123456789012345", "1234567890123456", "inf",
+        ];
+        let header = "star,candidate,period,epoch,depth_ppm,duration_h,snr,impact";
+        let mut text = String::new();
+        for (i, (id, cells, shape, crlf)) in rows.iter().enumerate() {
+            let mut fields = vec![IDS[*id].to_string(), format!("c{i}")];
+            fields.extend(cells[..6].iter().map(|&c| NUMS[c].to_string()));
+            match shape {
+                0 => { fields.pop(); }
+                1 => fields.push("x".into()),
+                2 => fields = vec!["# note".into()],
+                3 => fields = vec![String::new()],
+                _ => {}
+            }
+            text.push_str(&fields.join(","));
+            text.push_str(if *crlf { "\r\n" } else { "\n" });
+        }
+        for index_only in [false, true] {
+            let plain = parse_rows(header, text.as_bytes(), true, index_only);
+            let general = parse_rows(header, text.as_bytes(), false, index_only);
+            proptest::prop_assert_eq!(part_text(&plain), part_text(&general));
+            // The same rows as TSV.
+            let (header, text) = (header.replace(',', "\t"), text.replace(',', "\t"));
+            let plain = parse_rows(&header, text.as_bytes(), true, index_only);
+            let general = parse_rows(&header, text.as_bytes(), false, index_only);
+            proptest::prop_assert_eq!(part_text(&plain), part_text(&general));
+        }
+    }
+}
+
+#[test]
+fn a_checked_decimal_is_a_number() {
+    // What the quick check takes (its value unread) must never be a bad cell.
+    let take = [
+        "0",
+        "5038",
+        "0.043",
+        "-45.64639",
+        ".5",
+        "5.",
+        "-.5",
+        "+3",
+        "1e3",
+        "2.5E-2",
+        "1e999",
+        "123456789012345678901234567890",
+        "1.40e-4",
+    ];
+    let leave = ["", ".", "-", "e5", "1e", "1e+", "1e1234567", "nan", "--1"];
+    for cell in take {
+        let row = format!("{cell},rest");
+        assert_eq!(
+            number_scan(row.as_bytes(), 0).map(|(_, q)| q),
+            Some(cell.len()),
+            "{cell}"
+        );
+        assert!(!matches!(parse_cell(cell.as_bytes()), Cell::Bad), "{cell}");
+    }
+    for cell in leave {
+        let row = format!("{cell},rest");
+        assert!(
+            number_scan(row.as_bytes(), 0).is_none_or(|(_, q)| q != cell.len()),
+            "{cell}"
+        );
+    }
+}
+
+#[test]
+fn keys_sort_as_a_plain_sort_does() {
+    let mut rng = crate::demo::Rng::new(5);
+    for n in [0usize, 1, 100, 5000, 70_000] {
+        // Few distinct hashes too, so that rows must order equal ones.
+        let mut hashes: Vec<u64> = (0..n)
+            .map(|i| {
+                if i % 3 == 0 {
+                    rng.next_u64()
+                } else {
+                    (rng.next_u64() % 7) << 60
+                }
+            })
+            .collect();
+        if n == 5000 {
+            // One prefix for all, in falling order: the insertion pass gives up.
+            hashes = (0..n as u64).map(|i| (n as u64 - i) << 20).collect();
+        }
+        let bits = 17;
+        let mut want: Vec<u64> = (hashes.iter().enumerate())
+            .map(|(i, &h)| (h >> bits << bits) | i as u64)
+            .collect();
+        want.sort();
+        assert_eq!(sorted_keys(&hashes, bits), want, "{n}");
+    }
+}
+
+#[test]
+fn ids_group_by_text_even_when_hashes_collide() {
+    // Texts by row, and hashes that collide on purpose: one hash for
+    // different texts, and the same text under one hash.
+    let texts = ["a", "b", "a", "c", "b", "a", "d"];
+    let hashers: [fn(&str) -> u64; 3] = [
+        |_| 1 << 40,
+        |t| (t.len() as u64) << 40,
+        |t| (t.as_bytes()[0] as u64) << 40,
+    ];
+    for hash in hashers {
+        let hashes: Vec<u64> = texts.iter().map(|t| hash(t)).collect();
+        let (index, first_of) =
+            IdIndex::build(&hashes, |a, b| texts[a as usize] == texts[b as usize]);
+        assert_eq!(first_of, [0, 1, 0, 3, 1, 0, 6]);
+        for (row, t) in texts.iter().enumerate() {
+            let found = index.find(hash(t), |r| texts[r as usize] == *t);
+            assert_eq!(found, Some(first_of[row]), "{t}");
+        }
+        assert_eq!(index.keys.len(), 4);
+    }
+}
+
+#[test]
+fn fast_path_agrees_with_std() {
+    for s in [
+        "0",
+        "-0",
+        "1",
+        "3.5",
+        "-12.25",
+        "+7",
+        "0.000123",
+        "1e3",
+        "2.5E-4",
+        "123456789.123456",
+        "9007199254740993",
+        "1e22",
+        "1e-22",
+        "4.35",
+        "0.1",
+        "1234.56789",
+    ] {
+        let std: f64 = s.parse().unwrap();
+        match fast_f64(s.as_bytes()) {
+            Some(v) => assert_eq!(v.to_bits(), std.to_bits(), "{s}"),
+            None => assert!(s == "9007199254740993", "{s} should take the fast path"),
+        }
+    }
+    for s in ["", ".", "-", "1e", "1.2.3", "e5", "1e400", "abc", "1,5"] {
+        assert!(fast_f64(s.as_bytes()).is_none(), "{s}");
+    }
+}
+
+proptest::proptest! {
+    #[test]
+    fn fast_path_is_exact(m in 0u64..(1 << 53), frac in 0usize..12, e in -10i32..10, neg: bool) {
+        let digits = m.to_string();
+        let s = if frac > 0 && frac < digits.len() {
+            format!("{}{}.{}e{}", if neg { "-" } else { "" }, &digits[..digits.len() - frac], &digits[digits.len() - frac..], e)
+        } else {
+            format!("{}{}e{}", if neg { "-" } else { "" }, digits, e)
+        };
+        let std: f64 = s.parse().unwrap();
+        if let Some(v) = fast_f64(s.as_bytes()) {
+            proptest::prop_assert_eq!(v.to_bits(), std.to_bits(), "{}", s);
+        }
+    }
+}
+
+proptest::proptest! {
+    /// What `is_number` accepts, `parse_cell` reads as a value or as a
+    /// non-finite one (missing), never as text that is not a number.
+    #[test]
+    fn a_checked_number_is_one(cell in "[ ]?[-+]?[0-9]{0,4}[.]?[0-9]{0,3}([eE][-+]?[0-9]{0,6})?[ ]?|[ -~]{0,8}") {
+        if is_number(cell.as_bytes()) {
+            proptest::prop_assert!(!matches!(parse_cell(cell.as_bytes()), Cell::Bad), "{}", cell);
+        }
+    }
+}
+
+#[test]
+fn numbers_are_told_from_text() {
+    for yes in ["1", "-2.5", " +3.25e-4 ", "1e400", "0.000123", "5038"] {
+        assert!(is_number(yes.as_bytes()), "{yes}");
+    }
+    for no in [
+        "", "nan", "1.", ".5", "1e", "1e123456", "3.5d", "--", "1,5", "0x10",
+    ] {
+        assert!(!is_number(no.as_bytes()), "{no}");
+    }
+}
+
+#[test]
+fn plain_text_has_no_quote_and_no_bare_cr() {
+    assert!(plain_text(b"a,b\r\nc,d\n"));
+    assert!(plain_text(b""));
+    assert!(!plain_text(b"a,\"b\"\n"));
+    assert!(!plain_text(b"a\rb\n"));
+    assert!(!plain_text(b"a,b\r"));
+}
+
+#[test]
+fn cells() {
+    assert!(matches!(parse_cell(b" 3.5 "), Cell::Value(v) if v == 3.5));
+    assert!(matches!(parse_cell(b"+1e3"), Cell::Value(v) if v == 1000.0));
+    assert!(matches!(parse_cell(b"NaN"), Cell::Missing));
+    assert!(matches!(parse_cell(b""), Cell::Missing));
+    assert!(matches!(parse_cell(b"inf"), Cell::Missing));
+    assert!(matches!(parse_cell(b"3.5d"), Cell::Bad));
+}
