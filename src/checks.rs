@@ -16,6 +16,15 @@ use crate::constants::{AU_M, G, R_SUN_M};
 use crate::flags::{Flag, FlagSet};
 use crate::science;
 
+/// Every candidate's planet radius (Earth radii; NaN where it cannot be
+/// derived), as the checks derive it.
+pub fn planet_radii(cat: &Catalogue) -> Vec<f64> {
+    let settings = CheckSettings::default();
+    (0..cat.len() as CandidateId)
+        .map(|c| derive(cat, c, &settings).radius_rearth.unwrap_or(f64::NAN))
+        .collect()
+}
+
 /// Thresholds of the checks. Defaults carry their source.
 #[derive(Clone, Debug, PartialEq, serde::Serialize)]
 pub struct CheckSettings {

@@ -16,7 +16,6 @@ pub use candidate::{
 };
 
 pub use fits::{ArchiveSegment, write_archive_segment, write_table as write_fits};
-pub(crate) use fits::{describe as describe_fits_error, open_plain as open_fits};
 pub use segments::{DirIndex, locate_all};
 
 use std::io::Read;

@@ -90,7 +90,7 @@ pub fn selected(
         return all.collect();
     };
     let radii = if needs_radii(filter) {
-        planet_radii(cat)
+        crate::checks::planet_radii(cat)
     } else {
         Vec::new()
     };
@@ -110,19 +110,6 @@ pub fn needs_radii(filter: &Filter) -> bool {
         .clauses
         .iter()
         .any(|c| matches!(c, Clause::Compare(NumField::Radius, ..)))
-}
-
-/// Every candidate's planet radius (Earth radii; NaN where it cannot be
-/// derived), as the checks derive it.
-pub fn planet_radii(cat: &Catalogue) -> Vec<f64> {
-    let settings = crate::checks::CheckSettings::default();
-    (0..cat.len() as CandidateId)
-        .map(|c| {
-            crate::checks::derive(cat, c, &settings)
-                .radius_rearth
-                .unwrap_or(f64::NAN)
-        })
-        .collect()
 }
 
 /// The catalogue column a numeric filter field reads, if it is one.

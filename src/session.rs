@@ -9,7 +9,8 @@ use std::collections::BTreeMap;
 use std::io::IsTerminal;
 
 use crate::checks::{CheckSettings, Checks};
-use crate::cli::{CliError, Loaded, VettingArgs};
+use crate::cli::args::{Loaded, VettingArgs};
+use crate::cli::error::CliError;
 use crate::decision::Decision;
 use crate::ledger::{Entry, Latest};
 use crate::odds::{Live, ModelError};

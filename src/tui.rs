@@ -19,7 +19,8 @@ use ratatui::backend::CrosstermBackend;
 use ratatui::crossterm::event;
 use ratatui::crossterm::{cursor, execute, terminal};
 
-use crate::cli::{CliError, VettingArgs};
+use crate::cli::args::VettingArgs;
+use crate::cli::error::CliError;
 use app::{App, Effect, Input, SignalResult};
 use draw::Look;
 use keymap::Keymap;
@@ -162,7 +163,7 @@ fn build_app_counting(
         keymap,
     );
     app.message = skipped_message(&app.cat);
-    if let Some(f) = crate::cli::parse_where(args.filter.as_deref())? {
+    if let Some(f) = crate::cli::args::parse_where(args.filter.as_deref())? {
         app.filter = f;
         app.refresh_view();
     }

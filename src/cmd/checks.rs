@@ -6,46 +6,17 @@ use std::io::Write;
 use serde_json::{Value, json};
 
 use crate::catalogue::CandidateId;
-use crate::checks::{self, CheckSettings, Checks};
-use crate::cli::CliError;
+use crate::checks::{self, Checks};
+use crate::cli::error::CliError;
 use crate::flags::{ALL_FLAGS, Flag};
 use crate::output::{Align, Format, Table, csv_writer, exact_in, num, write_json};
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
 
-/// Thresholds of the checks (defaults in `CheckSettings`, with sources).
-#[derive(Debug, Clone, clap::Args)]
-pub struct CheckArgs {
-    /// `low-snr` below this signal-to-noise ratio.
-    #[arg(long, value_name = "SNR", default_value_t = CheckSettings::default().low_snr)]
-    pub low_snr: f64,
-    /// `big-radius` above this many Earth radii (a warning above 15).
-    #[arg(long, value_name = "R_EARTH", default_value_t = CheckSettings::default().big_radius_rearth)]
-    pub big_radius: f64,
-    /// `density-mismatch` beyond this factor between densities.
-    #[arg(long, value_name = "FACTOR", default_value_t = CheckSettings::default().density_factor)]
-    pub density_factor: f64,
-    /// `echo` only within this many arcsec when positions exist.
-    #[arg(long, value_name = "ARCSEC", default_value_t = CheckSettings::default().echo_radius_arcsec)]
-    pub echo_radius: f64,
-}
-
-impl CheckArgs {
-    pub fn settings(&self) -> CheckSettings {
-        CheckSettings {
-            low_snr: self.low_snr,
-            big_radius_rearth: self.big_radius,
-            density_factor: self.density_factor,
-            echo_radius_arcsec: self.echo_radius,
-            ..CheckSettings::default()
-        }
-    }
-}
-
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
     #[command(flatten)]
-    pub vetting: crate::cli::VettingArgs,
+    pub vetting: crate::cli::args::VettingArgs,
     /// Only candidates on which this flag fired (firmly or as a warning).
     #[arg(long, value_name = "FLAG")]
     pub only: Option<String>,

@@ -4,7 +4,8 @@
 use std::io::Write;
 use std::path::PathBuf;
 
-use crate::cli::{CatalogueArgs, CliError, LedgerArgs};
+use crate::cli::args::{CatalogueArgs, LedgerArgs};
+use crate::cli::error::CliError;
 use crate::decision::{ALL_REASONS, Decision, Reason};
 use crate::ledger::{Ledger, NewDecision};
 use crate::sanitize::clean;
@@ -40,11 +41,11 @@ pub struct Args {
     #[arg(long, value_name = "FILE", conflicts_with_all = ["candidate", "decision", "reason", "note"])]
     pub from: Option<PathBuf>,
     #[command(flatten)]
-    pub model: crate::cli::ModelArgs,
+    pub model: crate::cli::args::ModelArgs,
     #[command(flatten)]
-    pub checks: crate::cmd::checks::CheckArgs,
+    pub checks: crate::cli::args::CheckArgs,
     #[command(flatten)]
-    pub lc: crate::cli::LightcurveArgs,
+    pub lc: crate::cli::args::LightcurveArgs,
 }
 
 /// Parses a decision and its reason as a person typed them.
@@ -86,7 +87,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         ));
     };
     let decision = parse_decision(decision, args.reason.as_deref())?;
-    let vetting = crate::cli::VettingArgs {
+    let vetting = crate::cli::args::VettingArgs {
         input: args.input.clone(),
         ledger: args.ledger.clone(),
         model: args.model.clone(),
@@ -166,7 +167,7 @@ const ERRORS_SHOWN: usize = 20;
 /// list of its bad rows (file, line, column, why).
 fn read_batch(
     file: &std::path::Path,
-    loaded: &crate::cli::Loaded,
+    loaded: &crate::cli::args::Loaded,
 ) -> Result<Vec<BatchRow>, CliError> {
     let name = clean(&file.display().to_string()).into_owned();
     let bytes = if file.as_os_str() == "-" {

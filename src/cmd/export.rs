@@ -16,7 +16,8 @@ use std::path::{Path, PathBuf};
 use serde_json::{Map, Value, json};
 
 use crate::catalogue::{CandidateId, Field, NUMERIC};
-use crate::cli::{CliError, VettingArgs};
+use crate::cli::args::VettingArgs;
+use crate::cli::error::CliError;
 use crate::odds::{Live, model_statement};
 use crate::output::votable::{self, Column, Kind};
 use crate::output::{csv_writer, exact_in, write_atomically};
@@ -72,7 +73,7 @@ pub fn sidecar_path(output: &Path) -> PathBuf {
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    let filter = crate::cli::parse_where(args.filter.as_deref())?;
+    let filter = crate::cli::args::parse_where(args.filter.as_deref())?;
     if args.comments && args.format != ExportFormat::Csv {
         return Err(CliError::Input(format!(
             "--comments applies to --format csv only (a {} export carries its provenance {})",
@@ -85,8 +86,8 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         )));
     }
     if let Some(path) = &args.output {
-        crate::cli::check_output_path(path, &args.vetting)?;
-        crate::cli::check_output_path(&sidecar_path(path), &args.vetting)?;
+        crate::cli::args::check_output_path(path, &args.vetting)?;
+        crate::cli::args::check_output_path(&sidecar_path(path), &args.vetting)?;
     }
     let v = Session::open(&args.vetting, LedgerUse::Read)?;
     v.warn();

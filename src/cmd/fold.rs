@@ -6,7 +6,8 @@ use std::io::Write;
 use serde_json::{Value, json};
 
 use crate::catalogue::Catalogue;
-use crate::cli::{CatalogueArgs, CliError, LightcurveArgs};
+use crate::cli::args::{CatalogueArgs, LightcurveArgs};
+use crate::cli::error::CliError;
 use crate::lightcurve::analysis::{Binned, Diagnostics, detrend, diagnose_detrended, fold_bin};
 use crate::lightcurve::{LightCurve, ModelParams, context, model_params, signals, star_signals};
 use crate::output::{Format, csv_writer, exact_in, num, write_json};

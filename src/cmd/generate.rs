@@ -4,7 +4,7 @@
 use std::io::Write;
 use std::path::PathBuf;
 
-use crate::cli::CliError;
+use crate::cli::error::CliError;
 use crate::demo;
 
 #[derive(Debug, clap::Args)]

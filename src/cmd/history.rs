@@ -5,7 +5,8 @@ use std::io::Write;
 
 use serde_json::json;
 
-use crate::cli::{CatalogueArgs, CliError, LedgerArgs};
+use crate::cli::args::{CatalogueArgs, LedgerArgs};
+use crate::cli::error::CliError;
 use crate::output::{Align, Format, Table, csv_writer, write_json};
 use crate::sanitize::clean;
 

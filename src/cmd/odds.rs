@@ -6,7 +6,8 @@ use std::io::Write;
 use serde_json::{Value, json};
 
 use crate::catalogue::{CandidateId, Catalogue};
-use crate::cli::{CliError, VettingArgs};
+use crate::cli::args::VettingArgs;
+use crate::cli::error::CliError;
 use crate::odds::{
     ALL_VERDICTS, Live, Table, format_odds, format_pool, hold_text, model_statement,
 };
@@ -29,7 +30,7 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    let filter = crate::cli::parse_where(args.filter.as_deref())?;
+    let filter = crate::cli::args::parse_where(args.filter.as_deref())?;
     let session = Session::open(&args.vetting, LedgerUse::Read)?;
     let cat = &session.loaded.catalogue;
     let live = session.live()?;

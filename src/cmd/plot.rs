@@ -7,7 +7,8 @@ use std::io::Write;
 use std::path::{Path, PathBuf};
 
 use crate::catalogue::CandidateId;
-use crate::cli::{CliError, VettingArgs};
+use crate::cli::args::VettingArgs;
+use crate::cli::error::CliError;
 use crate::lightcurve::Cache;
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
@@ -33,7 +34,7 @@ pub struct Args {
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     // Flags first: nothing is read before they are known to make sense.
-    let filter = crate::cli::parse_where(args.filter.as_deref())?;
+    let filter = crate::cli::args::parse_where(args.filter.as_deref())?;
     if args.candidate.is_empty() && filter.is_none() {
         return Err(CliError::Input(
             "say what to draw: --candidate ID (repeatable) or --where FILTER".into(),
@@ -46,7 +47,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             clean(&args.output.display().to_string())
         )));
     }
-    crate::cli::check_output_path(&args.output, &args.vetting)?;
+    crate::cli::args::check_output_path(&args.output, &args.vetting)?;
     let v = Session::open(&args.vetting, LedgerUse::Read)?;
     v.warn();
     let live = v.live()?;

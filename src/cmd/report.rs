@@ -8,7 +8,8 @@ use std::io::Write;
 use std::path::PathBuf;
 
 use crate::catalogue::CandidateId;
-use crate::cli::{CliError, VettingArgs};
+use crate::cli::args::VettingArgs;
+use crate::cli::error::CliError;
 use crate::odds::{
     ALL_VERDICTS, Verdict, format_odds, model_statement, posterior_odds, probability,
 };
@@ -39,7 +40,7 @@ fn md(s: &str) -> String {
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     if let Some(path) = &args.output {
-        crate::cli::check_output_path(path, &args.vetting)?;
+        crate::cli::args::check_output_path(path, &args.vetting)?;
     }
     let v = Session::open(&args.vetting, LedgerUse::Read)?;
     v.warn();

@@ -7,7 +7,8 @@ use serde_json::{Value, json};
 
 use crate::catalogue::Catalogue;
 use crate::checks::LightcurveTotals;
-use crate::cli::{CatalogueArgs, CliError, LightcurveArgs, Loaded};
+use crate::cli::args::{CatalogueArgs, LightcurveArgs, Loaded};
+use crate::cli::error::CliError;
 use crate::output::{Align, Format, Table, csv_writer, write_json};
 use crate::sanitize::clean;
 

@@ -136,7 +136,7 @@ impl Live {
         let f_of: Vec<f64> = if model.fp_by_radius.is_empty() {
             vec![model.fp_fraction; n]
         } else {
-            crate::selection::planet_radii(cat)
+            crate::checks::planet_radii(cat)
                 .into_iter()
                 .map(|r| model.fp_for_radius(r))
                 .collect()

@@ -19,7 +19,7 @@ use crate::selection::{Selection, column_field};
 pub use crate::tui::lineedit::{Edit, LineEdit};
 
 mod act;
-mod action;
+pub(crate) mod action;
 mod decide;
 mod order;
 mod prompt;
@@ -337,7 +337,7 @@ impl App {
 
     fn radii(&self) -> &[f64] {
         self.radius
-            .get_or_init(|| crate::selection::planet_radii(&self.cat))
+            .get_or_init(|| crate::checks::planet_radii(&self.cat))
     }
 
     /// Where the vetter is now.

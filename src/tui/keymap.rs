@@ -6,7 +6,7 @@ use std::collections::BTreeMap;
 
 use ratatui::crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
 
-use super::app::Action;
+use super::app::action::Action;
 
 pub const DEFAULT: &str = include_str!("../../keymaps/default.toml");
 pub const HOME_ROW: &str = include_str!("../../keymaps/home-row.toml");

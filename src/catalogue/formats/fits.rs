@@ -9,7 +9,7 @@ use fitsio::tables::ColumnDataType;
 
 use super::{Converted, push_cell};
 use crate::catalogue::LoadError;
-use crate::lightcurve::{describe_fits_error, open_fits};
+use crate::fitsfile::{describe as describe_fits_error, open_plain as open_fits};
 
 pub fn convert(path: &Path, hdu: Option<&str>) -> Result<Converted, LoadError> {
     let what = format!("reading {}", path.display());

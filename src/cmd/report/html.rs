@@ -7,7 +7,8 @@ use std::collections::HashMap;
 use std::io::IsTerminal;
 
 use crate::catalogue::CandidateId;
-use crate::cli::{CliError, VettingArgs};
+use crate::cli::args::VettingArgs;
+use crate::cli::error::CliError;
 use crate::odds::Verdict;
 use crate::session::Session;
 

@@ -1,0 +1,657 @@
+//! The arguments every command shares (catalogue, ledger, model, checks,
+//! light curves) and their resolution into what the core takes: loaded
+//! catalogues, ledgers, models, finders. No command lives here.
+
+use std::io::{self, IsTerminal};
+use std::path::{Path, PathBuf};
+
+use super::error::CliError;
+use crate::catalogue::{Catalogue, ColumnMap, DepthUnit, LoadOptions, Source};
+use crate::checks::CheckSettings;
+use crate::survey::SurveyFacts;
+
+/// Arguments that say which catalogue to read and how.
+#[derive(Debug, Clone, clap::Args)]
+pub struct CatalogueArgs {
+    /// Catalogue file: CSV, TSV, IPAC table (.tbl), VOTable (.vot, .xml),
+    /// FITS binary table (.fits) or ECSV (.ecsv), optionally .gz. Omit it
+    /// for the built-in demo.
+    pub catalogue: Option<PathBuf>,
+    /// Column-map file (TOML: canonical_field = "their header").
+    #[arg(long, value_name = "FILE")]
+    pub columns: Option<PathBuf>,
+    /// Unit of the depth column, overriding detection.
+    #[arg(long, value_name = "UNIT", value_parser = ["ppm", "fraction", "percent"])]
+    pub depth_unit: Option<String>,
+    /// Field delimiter, overriding detection by extension and sniffing.
+    #[arg(long, value_name = "DELIM", value_parser = ["comma", "tab"])]
+    pub delimiter: Option<String>,
+    /// FITS catalogue: the extension holding the table, a number (1 = first
+    /// extension) or a name [default: the first table extension].
+    #[arg(long, value_name = "HDU")]
+    pub table_hdu: Option<String>,
+}
+
+/// Arguments of the odds model. Flags win over `survey.toml`.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct ModelArgs {
+    /// N: number of target stars searched (overrides survey.toml).
+    #[arg(long, value_name = "N", value_parser = clap::value_parser!(u64).range(1..))]
+    pub targets: Option<u64>,
+    /// f: false-positive fraction of single-candidate stars, in (0, 1)
+    /// [default: survey.toml, else 0.1]; or by planet radius in Earth radii,
+    /// e.g. 0-2:0.07,2-6:0.09,6-22:0.18 (radii outside every bin, or unknown,
+    /// take survey.toml's f, else 0.1).
+    #[arg(long, value_name = "F")]
+    pub fp_fraction: Option<String>,
+    /// Boost definition: catalogue, system, or fixed:2=25,3=100.
+    #[arg(long, value_name = "MODE", default_value = "catalogue")]
+    pub boost: String,
+    /// Posterior odds needed for `validated`.
+    #[arg(long, value_name = "T", default_value_t = crate::odds::DEFAULT_THRESHOLD)]
+    pub threshold: f64,
+    /// Flags that hold a candidate back from the count and from `validated`
+    /// (comma-separated) [default: big-radius, odd-even, secondary,
+    /// density-mismatch, near-twin, harmonic, crowded, echo, low-snr,
+    /// half-phase, not-recovered].
+    #[arg(long, value_name = "FLAGS")]
+    pub blocking: Option<String>,
+}
+
+impl ModelArgs {
+    /// The model, from these flags and the survey facts.
+    pub fn model(&self, survey: &SurveyFacts) -> Result<crate::odds::Model, CliError> {
+        let (single, bins) = match &self.fp_fraction {
+            Some(text) => crate::odds::parse_fp_fraction(text).map_err(CliError::Input)?,
+            None => (None, Vec::new()),
+        };
+        let model = crate::odds::Model {
+            targets: self.targets.or(survey.targets_searched),
+            fp_fraction: single
+                .or(survey.fp_fraction_singles)
+                .unwrap_or(crate::odds::DEFAULT_FP_FRACTION),
+            fp_by_radius: bins,
+            mode: crate::odds::BoostMode::parse(&self.boost).map_err(CliError::Input)?,
+            threshold: self.threshold,
+            blocking: match &self.blocking {
+                Some(list) => crate::flags::FlagSet::parse_list(list).map_err(CliError::Input)?,
+                None => crate::flags::FlagSet::default_blocking(),
+            },
+        };
+        crate::odds::check_inputs(&model, 0)?;
+        Ok(model)
+    }
+}
+
+/// Which ledger to use and who is deciding.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct LedgerArgs {
+    /// The ledger file [default: <catalogue>.ledger.sqlite beside the catalogue,
+    /// or in the XDG data folder when that folder is not writable or for the demo].
+    #[arg(long, value_name = "PATH")]
+    pub ledger: Option<PathBuf>,
+    /// Who is deciding [default: the login name].
+    #[arg(long, value_name = "NAME")]
+    pub vetter: Option<String>,
+}
+
+impl LedgerArgs {
+    pub fn vetter(&self) -> String {
+        self.vetter
+            .clone()
+            .unwrap_or_else(crate::ledger::login_name)
+    }
+
+    /// The ledger a read-only command reads: the one `--ledger` names (which
+    /// must exist: a mistyped path is an error, not an empty ledger), else
+    /// the default one if it exists; `None` when there is none. Nothing is
+    /// created or written.
+    /// For a read-only command: a given `--ledger` must exist (checked
+    /// before any data is read).
+    pub fn check_exists(&self) -> Result<(), CliError> {
+        match &self.ledger {
+            Some(p) if !p.exists() => Err(CliError::Input(format!(
+                "--ledger {}: no such ledger (a read-only command never creates one)",
+                crate::sanitize::clean(&p.display().to_string())
+            ))),
+            _ => Ok(()),
+        }
+    }
+
+    pub fn open_existing(
+        &self,
+        input: &CatalogueArgs,
+        loaded: &Loaded,
+    ) -> Result<Option<crate::ledger::Ledger>, CliError> {
+        self.check_exists()?;
+        let path = match &self.ledger {
+            Some(p) => p.clone(),
+            None => {
+                let p = default_ledger_path(input);
+                if !p.exists() {
+                    return Ok(None);
+                }
+                p
+            }
+        };
+        let ledger = crate::ledger::Ledger::open(&path)?;
+        note_gone(&ledger, &loaded.catalogue)?;
+        Ok(Some(ledger))
+    }
+
+    /// Opens the ledger for a loaded catalogue, records the catalogue's
+    /// fingerprint and warns (on stderr) when the catalogue changed or
+    /// decisions name candidates it no longer has.
+    pub fn open(
+        &self,
+        input: &CatalogueArgs,
+        loaded: &Loaded,
+    ) -> Result<crate::ledger::Ledger, CliError> {
+        let (default, fp) = default_ledger(input)?;
+        let path = self.ledger.clone().unwrap_or(default);
+        if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
+            std::fs::create_dir_all(dir).map_err(|e| {
+                CliError::Ledger(crate::ledger::LedgerError::Unwritable {
+                    path: path.display().to_string(),
+                    message: e.to_string(),
+                })
+            })?;
+        }
+        let mut ledger = crate::ledger::Ledger::open(&path)?;
+        let cat = &loaded.catalogue;
+        if let Some(previous) = ledger.note_catalogue(&cat.source, &fp, cat.len())? {
+            eprintln!(
+                "starsift: note: {} changed since this ledger last saw it ({previous} → {fp}); decisions are matched by candidate id",
+                crate::sanitize::clean(&cat.source)
+            );
+        }
+        note_gone(&ledger, cat)?;
+        Ok(ledger)
+    }
+}
+
+/// The default ledger of a catalogue (beside it, or in the data folder),
+/// reading the catalogue for its fingerprint only if the place depends on it.
+fn default_ledger_path(input: &CatalogueArgs) -> PathBuf {
+    let fp = || match &input.catalogue {
+        Some(p) => {
+            std::fs::read(p).map_or_else(|_| String::new(), |b| crate::ledger::fingerprint(&b))
+        }
+        None => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
+    };
+    crate::ledger::default_path_with(input.catalogue.as_deref(), &fp)
+}
+
+/// The default ledger of a catalogue (beside it, or in the data folder) and
+/// the catalogue's fingerprint.
+fn default_ledger(input: &CatalogueArgs) -> Result<(PathBuf, String), CliError> {
+    let bytes = match &input.catalogue {
+        Some(p) => std::fs::read(p)?,
+        None => crate::demo::CATALOGUE_CSV.as_bytes().to_vec(),
+    };
+    let fp = crate::ledger::fingerprint(&bytes);
+    Ok((
+        crate::ledger::default_path(input.catalogue.as_deref(), &fp),
+        fp,
+    ))
+}
+
+/// A path made absolute with its folder resolved (the file itself need not
+/// exist yet), for comparing where two paths lead.
+fn resolved(p: &Path) -> PathBuf {
+    if let Ok(real) = std::fs::canonicalize(p) {
+        return real;
+    }
+    // `a/missing/../b` is `a/b` even when `missing` does not exist.
+    let mut lexical = PathBuf::new();
+    for part in p.components() {
+        match part {
+            std::path::Component::ParentDir => {
+                lexical.pop();
+            }
+            std::path::Component::CurDir => {}
+            other => lexical.push(other),
+        }
+    }
+    let p = lexical.as_path();
+    if let Ok(real) = std::fs::canonicalize(p) {
+        return real;
+    }
+    let parent = p
+        .parent()
+        .filter(|d| !d.as_os_str().is_empty())
+        .unwrap_or(Path::new("."));
+    let dir = std::fs::canonicalize(parent).unwrap_or_else(|_| parent.to_path_buf());
+    p.file_name().map_or(dir.clone(), |f| dir.join(f))
+}
+
+/// Refuses an output path that names an input of this run or a ledger: the
+/// catalogue, its `survey.toml`, the ledger in use (given or default) and
+/// its SQLite side files, anything inside the light-curve folder, or any
+/// existing SQLite file. Checked before any data is read, so a refused
+/// command creates and changes nothing.
+pub fn check_output_path(output: &Path, vetting: &VettingArgs) -> Result<(), CliError> {
+    let out = resolved(output);
+    let shown = crate::sanitize::clean(&output.display().to_string()).into_owned();
+    let refuse = |what: &str| {
+        Err(CliError::Input(format!(
+            "--output {shown}: that is {what}; choose another file (nothing was written)"
+        )))
+    };
+    let mut ledgers: Vec<PathBuf> = vetting.ledger.ledger.iter().cloned().collect();
+    if let Some(cat) = &vetting.input.catalogue {
+        if resolved(cat) == out {
+            return refuse("the input catalogue");
+        }
+        if let Some(survey) = crate::survey::SurveyFacts::beside(cat) {
+            if resolved(&survey) == out {
+                return refuse("the catalogue's survey.toml");
+            }
+        }
+    }
+    ledgers.push(crate::ledger::default_path(
+        vetting.input.catalogue.as_deref(),
+        "",
+    ));
+    for l in &ledgers {
+        let base = resolved(l);
+        let side = ["", "-wal", "-shm", "-journal"]
+            .iter()
+            .map(|s| PathBuf::from(format!("{}{s}", base.display())));
+        if side.into_iter().any(|p| p == out) {
+            return refuse("the ledger (or one of its side files)");
+        }
+    }
+    if let Some(dir) = vetting.lc.lightcurves.as_deref().filter(|d| !d.is_empty()) {
+        if out.starts_with(resolved(Path::new(dir))) {
+            return refuse("inside the light-curve folder");
+        }
+    }
+    let mut head = [0u8; 16];
+    if std::fs::File::open(&out)
+        .and_then(|mut f| std::io::Read::read_exact(&mut f, &mut head))
+        .is_ok()
+        && &head == b"SQLite format 3\0"
+    {
+        return refuse("an SQLite database (perhaps a ledger)");
+    }
+    Ok(())
+}
+
+/// Says (on stderr) which decided candidates the catalogue no longer has.
+fn note_gone(ledger: &crate::ledger::Ledger, cat: &Catalogue) -> Result<(), CliError> {
+    let mut gone: Vec<String> = ledger
+        .latest(None)?
+        .iter()
+        .filter(|e| cat.find_candidate(&e.candidate).is_none())
+        .map(|e| e.candidate.clone())
+        .collect();
+    if !gone.is_empty() {
+        gone.sort();
+        eprintln!(
+            "starsift: note: {} decided candidates are not in the catalogue: {}{}",
+            gone.len(),
+            gone.iter()
+                .take(20)
+                .map(|g| crate::sanitize::clean(g).into_owned())
+                .collect::<Vec<_>>()
+                .join(", "),
+            if gone.len() > 20 { ", ..." } else { "" }
+        );
+    }
+    Ok(())
+}
+
+/// A loaded catalogue with the survey facts found beside it.
+pub struct Loaded {
+    pub catalogue: Catalogue,
+    pub survey: SurveyFacts,
+    /// Where the survey facts came from, for people.
+    pub survey_source: Option<String>,
+    /// The catalogue's folder (light-curve paths are relative to it).
+    pub dir: Option<PathBuf>,
+    /// True for the built-in demo.
+    pub demo: bool,
+    /// The catalogue file (`None` for the built-in demo).
+    pub path: Option<PathBuf>,
+}
+
+impl Loaded {
+    /// A candidate by id, or an error naming the catalogue.
+    pub fn candidate(&self, id: &str) -> Result<crate::catalogue::CandidateId, CliError> {
+        self.catalogue.find_candidate(id).ok_or_else(|| {
+            CliError::Input(format!(
+                "{}: no candidate `{}`",
+                crate::sanitize::clean(&self.catalogue.source),
+                crate::sanitize::clean(id)
+            ))
+        })
+    }
+}
+
+/// Everything a vetted view needs: the catalogue, the ledger, the model, the
+/// checks and the light curves.
+#[derive(Debug, Clone, clap::Args)]
+pub struct VettingArgs {
+    #[command(flatten)]
+    pub input: CatalogueArgs,
+    #[command(flatten)]
+    pub ledger: LedgerArgs,
+    #[command(flatten)]
+    pub model: ModelArgs,
+    #[command(flatten)]
+    pub checks: CheckArgs,
+    #[command(flatten)]
+    pub lc: LightcurveArgs,
+}
+
+/// Where light curves are and how to read them.
+#[derive(Debug, Clone, Default, clap::Args)]
+pub struct LightcurveArgs {
+    /// Light curves: a folder of `<star id>.csv|.csv.gz|.tsv|.fits[.gz]`
+    /// [default: the paths in the catalogue's `lightcurve` column, and the
+    /// demo's own]. Every light curve found is used.
+    #[arg(long, value_name = "DIR", num_args = 0..=1, default_missing_value = "")]
+    pub lightcurves: Option<String>,
+    /// Do not read light curves: the light-curve flags stay unset.
+    #[arg(long, conflicts_with = "lightcurves")]
+    pub no_lightcurves: bool,
+    /// Light-curve time column (default: time|t|bjd).
+    #[arg(long, value_name = "NAME")]
+    pub time_column: Option<String>,
+    /// Light-curve flux column (default: flux|f|norm_flux).
+    #[arg(long, value_name = "NAME")]
+    pub flux_column: Option<String>,
+    /// Light-curve flux error column (default: flux_err|err|sigma).
+    #[arg(long, value_name = "NAME")]
+    pub err_column: Option<String>,
+    /// FITS extension to read: a number (1 = first extension) or a name.
+    #[arg(long, value_name = "HDU")]
+    pub hdu: Option<String>,
+    /// Days added to every light-curve time, so that it counts from the
+    /// catalogue epochs' zero (e.g. 2457000 when epochs are BJD and light
+    /// curves BJD − 2457000) [default: survey.toml's
+    /// lightcurve_time_offset, else 0].
+    #[arg(long, value_name = "DAYS", allow_negative_numbers = true)]
+    pub lc_time_offset: Option<f64>,
+    /// Days added to every catalogue epoch before it is compared with the
+    /// light curves (e.g. 2457000 when epochs are BJD − 2457000 and FITS
+    /// headers make light-curve times full BJD) [default: survey.toml's
+    /// epoch_offset; without either, a FITS header's zero is matched to the
+    /// epochs' count automatically].
+    #[arg(
+        long,
+        value_name = "DAYS",
+        allow_negative_numbers = true,
+        conflicts_with = "lc_time_offset"
+    )]
+    pub epoch_offset: Option<f64>,
+    /// Light-curve quality-flag column (default: quality|sap_quality|
+    /// pdc_quality|qual|quality_flag|dq|flags); samples with a flag set are
+    /// dropped.
+    #[arg(long, value_name = "NAME")]
+    pub quality_column: Option<String>,
+    /// The quality bits that drop a sample, as a number (decimal, or 0x...
+    /// hex); other bits are kept [default: every bit drops].
+    #[arg(long, value_name = "BITS", value_parser = parse_bits)]
+    pub quality_mask: Option<u64>,
+    /// Do not remove slow variability before measuring.
+    #[arg(long)]
+    pub no_detrend: bool,
+    /// Detrending window, as a multiple of the star's longest transit duration.
+    #[arg(long, value_name = "FACTOR", default_value_t = 3.0)]
+    pub detrend_window: f64,
+}
+
+impl LightcurveArgs {
+    /// True unless `--no-lightcurves`: every light curve found is used.
+    pub fn wanted(&self) -> bool {
+        !self.no_lightcurves
+    }
+
+    pub fn finder(&self, loaded: &Loaded) -> crate::lightcurve::Finder {
+        crate::lightcurve::Finder {
+            catalogue_dir: loaded.dir.clone(),
+            dir: self
+                .lightcurves
+                .as_deref()
+                .filter(|d| !d.is_empty())
+                .map(PathBuf::from),
+            columns: crate::lightcurve::LcColumns {
+                time: self.time_column.clone(),
+                flux: self.flux_column.clone(),
+                flux_err: self.err_column.clone(),
+                hdu: self.hdu.clone(),
+                quality: self.quality_column.clone(),
+                quality_mask: self.quality_mask,
+            },
+            demo: loaded.demo,
+            time_offset: self.time_offset(&loaded.survey),
+            offset_given: self.time_offset_given(&loaded.survey),
+            ..Default::default()
+        }
+    }
+
+    /// Days added to light-curve times: `--lc-time-offset`, else minus
+    /// `--epoch-offset`, else survey.toml's (the same two), else 0.
+    fn time_offset(&self, survey: &crate::survey::SurveyFacts) -> f64 {
+        self.lc_time_offset
+            .or(self.epoch_offset.map(|e| -e))
+            .or(survey.lightcurve_time_offset)
+            .or(survey.epoch_offset.map(|e| -e))
+            .unwrap_or(0.0)
+    }
+
+    fn time_offset_given(&self, survey: &crate::survey::SurveyFacts) -> bool {
+        self.lc_time_offset.is_some()
+            || self.epoch_offset.is_some()
+            || survey.lightcurve_time_offset.is_some()
+            || survey.epoch_offset.is_some()
+    }
+
+    pub fn detrend(&self) -> crate::lightcurve::analysis::DetrendSettings {
+        crate::lightcurve::analysis::DetrendSettings {
+            enabled: !self.no_detrend,
+            window_factor: if self.detrend_window > 0.0 {
+                self.detrend_window
+            } else {
+                3.0
+            },
+            ..Default::default()
+        }
+    }
+}
+
+/// A thread that, after half a second, shows how much of the catalogue was
+/// read (`\r`-rewritten on stderr) until `done`; it clears its line.
+fn progress_on_stderr(
+    path: &Path,
+    total: u64,
+    read: &std::sync::Arc<std::sync::atomic::AtomicU64>,
+    done: &std::sync::Arc<std::sync::atomic::AtomicBool>,
+) -> std::thread::JoinHandle<()> {
+    use std::sync::atomic::Ordering::Relaxed;
+    let (read, done) = (std::sync::Arc::clone(read), std::sync::Arc::clone(done));
+    let name = crate::sanitize::for_terminal(&path.display().to_string()).into_owned();
+    std::thread::spawn(move || {
+        let start = std::time::Instant::now();
+        let mut shown = false;
+        while !done.load(Relaxed) {
+            std::thread::sleep(std::time::Duration::from_millis(100));
+            if start.elapsed() < std::time::Duration::from_millis(500) {
+                continue;
+            }
+            shown = true;
+            let r = read.load(Relaxed);
+            let pct = (100 * r).checked_div(total).unwrap_or(0).min(100);
+            let bar = "#".repeat((pct / 5) as usize) + &".".repeat(20 - (pct / 5) as usize);
+            eprint!(
+                "\rstarsift: reading {name} [{bar}] {pct:>3}% ({:.0} of {:.0} MB)",
+                r as f64 / 1e6,
+                total as f64 / 1e6
+            );
+        }
+        if shown {
+            eprint!("\r\x1b[2K");
+        }
+    })
+}
+
+/// A bit mask: decimal or `0x` hexadecimal.
+fn parse_bits(text: &str) -> Result<u64, String> {
+    let t = text.trim();
+    let parsed = match t.strip_prefix("0x").or_else(|| t.strip_prefix("0X")) {
+        Some(hex) => u64::from_str_radix(hex, 16),
+        None => t.parse::<u64>(),
+    };
+    parsed.map_err(|_| format!("`{text}` is not a bit mask (a whole number, or 0x... hex)"))
+}
+
+/// `--where FILTER`, parsed; a filter that does not parse says where.
+pub fn parse_where(text: Option<&str>) -> Result<Option<crate::query::Filter>, CliError> {
+    text.map(|t| {
+        crate::query::Filter::parse(t)
+            .map_err(|e| CliError::Input(format!("--where {}: {e}", crate::sanitize::clean(t))))
+    })
+    .transpose()
+}
+
+impl CatalogueArgs {
+    pub fn options(&self) -> Result<LoadOptions, CliError> {
+        let columns = match &self.columns {
+            Some(p) => ColumnMap::from_file(p)?,
+            None => ColumnMap::default(),
+        };
+        Ok(LoadOptions {
+            columns,
+            depth_unit: self.depth_unit.as_deref().and_then(DepthUnit::parse),
+            delimiter: self
+                .delimiter
+                .as_deref()
+                .map(|d| if d == "tab" { b'\t' } else { b',' }),
+            index_only: false,
+            header_units: Vec::new(),
+            hdu: self.table_hdu.clone(),
+            progress: None,
+        })
+    }
+
+    /// Loads the catalogue (or the demo) and its `survey.toml`, if any.
+    /// On a terminal, a load that takes more than half a second shows its
+    /// progress on stderr (nothing when stderr is piped).
+    pub fn load(&self) -> Result<Loaded, CliError> {
+        let opts = self.options()?;
+        match &self.catalogue {
+            Some(path) if io::stderr().is_terminal() => {
+                let total = std::fs::metadata(path).map_or(0, |m| m.len());
+                let read = std::sync::Arc::new(std::sync::atomic::AtomicU64::new(0));
+                let opts = LoadOptions {
+                    progress: Some(std::sync::Arc::clone(&read)),
+                    ..opts
+                };
+                let done = std::sync::Arc::new(std::sync::atomic::AtomicBool::new(false));
+                let shown = progress_on_stderr(path, total, &read, &done);
+                let result = self.load_with(opts);
+                done.store(true, std::sync::atomic::Ordering::Relaxed);
+                let _ = shown.join();
+                result
+            }
+            _ => self.load_with(opts),
+        }
+    }
+
+    /// `load` counting the bytes read into `read`, for the browser's
+    /// loading screen.
+    pub fn load_counting(
+        &self,
+        read: std::sync::Arc<std::sync::atomic::AtomicU64>,
+    ) -> Result<Loaded, CliError> {
+        let opts = LoadOptions {
+            progress: Some(read),
+            ..self.options()?
+        };
+        self.load_with(opts)
+    }
+
+    /// `load` keeping only the ids, the star index, depth and the skips
+    /// (`LoadOptions::index_only`), for `summary`.
+    pub fn load_index(&self) -> Result<Loaded, CliError> {
+        let opts = LoadOptions {
+            index_only: true,
+            ..self.options()?
+        };
+        self.load_with(opts)
+    }
+
+    fn load_with(&self, opts: LoadOptions) -> Result<Loaded, CliError> {
+        match &self.catalogue {
+            None => Ok(Loaded {
+                catalogue: Catalogue::load(
+                    Source::Bytes {
+                        name: crate::demo::NAME,
+                        data: crate::demo::CATALOGUE_CSV.as_bytes(),
+                    },
+                    &opts,
+                )?,
+                survey: crate::demo::survey(),
+                survey_source: Some("built-in demo survey.toml".into()),
+                dir: crate::demo::source_dir(),
+                demo: true,
+                path: None,
+            }),
+            Some(path) => {
+                let catalogue = Catalogue::load(Source::Path(path), &opts)?;
+                let (survey, survey_source) = match SurveyFacts::beside(path) {
+                    Some(p) => (SurveyFacts::from_file(&p)?, Some(p.display().to_string())),
+                    None => (SurveyFacts::default(), None),
+                };
+                Ok(Loaded {
+                    catalogue,
+                    survey,
+                    survey_source,
+                    dir: Some(path.parent().map_or_else(
+                        || PathBuf::from("."),
+                        |p| {
+                            if p.as_os_str().is_empty() {
+                                PathBuf::from(".")
+                            } else {
+                                p.to_path_buf()
+                            }
+                        },
+                    )),
+                    demo: false,
+                    path: Some(path.clone()),
+                })
+            }
+        }
+    }
+}
+
+/// Thresholds of the checks (defaults in `CheckSettings`, with sources).
+#[derive(Debug, Clone, clap::Args)]
+pub struct CheckArgs {
+    /// `low-snr` below this signal-to-noise ratio.
+    #[arg(long, value_name = "SNR", default_value_t = CheckSettings::default().low_snr)]
+    pub low_snr: f64,
+    /// `big-radius` above this many Earth radii (a warning above 15).
+    #[arg(long, value_name = "R_EARTH", default_value_t = CheckSettings::default().big_radius_rearth)]
+    pub big_radius: f64,
+    /// `density-mismatch` beyond this factor between densities.
+    #[arg(long, value_name = "FACTOR", default_value_t = CheckSettings::default().density_factor)]
+    pub density_factor: f64,
+    /// `echo` only within this many arcsec when positions exist.
+    #[arg(long, value_name = "ARCSEC", default_value_t = CheckSettings::default().echo_radius_arcsec)]
+    pub echo_radius: f64,
+}
+
+impl CheckArgs {
+    pub fn settings(&self) -> CheckSettings {
+        CheckSettings {
+            low_snr: self.low_snr,
+            big_radius_rearth: self.big_radius,
+            density_factor: self.density_factor,
+            echo_radius_arcsec: self.echo_radius,
+            ..CheckSettings::default()
+        }
+    }
+}
