@@ -25,28 +25,26 @@ pub enum Align {
 /// A plain text table: a header row, aligned columns, two spaces between.
 #[derive(Debug, Default)]
 pub struct Table {
-    header: Vec<String>,
-    align: Vec<Align>,
+    columns: Columns,
     rows: Vec<Vec<String>>,
 }
 
 impl Table {
     pub fn new(columns: &[(&str, Align)]) -> Table {
         Table {
-            header: columns.iter().map(|(h, _)| h.to_string()).collect(),
-            align: columns.iter().map(|(_, a)| *a).collect(),
+            columns: Columns::new(columns),
             rows: Vec::new(),
         }
     }
 
     /// Adds a row; cells are sanitised here.
     pub fn row<S: AsRef<str>>(&mut self, cells: &[S]) {
-        self.rows.push(
-            cells
-                .iter()
-                .map(|c| clean(c.as_ref()).into_owned())
-                .collect(),
-        );
+        let cells: Vec<String> = cells
+            .iter()
+            .map(|c| clean(c.as_ref()).into_owned())
+            .collect();
+        self.columns.measure_clean(&cells);
+        self.rows.push(cells);
     }
 
     pub fn is_empty(&self) -> bool {
@@ -54,41 +52,92 @@ impl Table {
     }
 
     pub fn write(&self, out: &mut dyn Write, indent: &str) -> io::Result<()> {
-        let n = self.header.len();
-        let mut width: Vec<usize> = self.header.iter().map(|h| h.chars().count()).collect();
+        self.columns.write_header(out, indent)?;
         for r in &self.rows {
-            for (i, c) in r.iter().enumerate().take(n) {
-                width[i] = width[i].max(c.chars().count());
-            }
-        }
-        let line = |out: &mut dyn Write, cells: &[String]| -> io::Result<()> {
-            let mut s = String::from(indent);
-            for (i, c) in cells.iter().enumerate().take(n) {
-                let pad = width[i].saturating_sub(c.chars().count());
-                let last = i + 1 == n;
-                match self.align[i] {
-                    Align::Right => {
-                        s.extend(std::iter::repeat_n(' ', pad));
-                        s.push_str(c);
-                    }
-                    Align::Left => {
-                        s.push_str(c);
-                        if !last {
-                            s.extend(std::iter::repeat_n(' ', pad));
-                        }
-                    }
-                }
-                if !last {
-                    s.push_str("  ");
-                }
-            }
-            writeln!(out, "{}", s.trim_end())
-        };
-        line(out, &self.header)?;
-        for r in &self.rows {
-            line(out, r)?;
+            self.columns.write_clean(out, indent, r)?;
         }
         Ok(())
+    }
+}
+
+/// The columns of a table written in two passes over its rows, holding no
+/// row: every row is measured (`measure`), then the header and every row
+/// written (`write_row`); the result is the same as [`Table`]'s, with
+/// memory bounded by one row.
+#[derive(Debug, Default)]
+pub struct Columns {
+    header: Vec<String>,
+    align: Vec<Align>,
+    width: Vec<usize>,
+}
+
+impl Columns {
+    pub fn new(columns: &[(&str, Align)]) -> Columns {
+        Columns {
+            header: columns.iter().map(|(h, _)| h.to_string()).collect(),
+            align: columns.iter().map(|(_, a)| *a).collect(),
+            width: columns.iter().map(|(h, _)| h.chars().count()).collect(),
+        }
+    }
+
+    /// Widens the columns to hold a row (cells sanitised as written).
+    pub fn measure<S: AsRef<str>>(&mut self, cells: &[S]) {
+        for (i, c) in cells.iter().enumerate().take(self.width.len()) {
+            let n = clean(c.as_ref()).chars().count();
+            self.width[i] = self.width[i].max(n);
+        }
+    }
+
+    fn measure_clean(&mut self, cells: &[String]) {
+        for (i, c) in cells.iter().enumerate().take(self.width.len()) {
+            self.width[i] = self.width[i].max(c.chars().count());
+        }
+    }
+
+    pub fn write_header(&self, out: &mut dyn Write, indent: &str) -> io::Result<()> {
+        self.write_clean(out, indent, &self.header)
+    }
+
+    /// Writes one row (cells sanitised here).
+    pub fn write_row<S: AsRef<str>>(
+        &self,
+        out: &mut dyn Write,
+        indent: &str,
+        cells: &[S],
+    ) -> io::Result<()> {
+        let cells: Vec<std::borrow::Cow<str>> = cells.iter().map(|c| clean(c.as_ref())).collect();
+        self.write_clean(out, indent, &cells)
+    }
+
+    fn write_clean<S: AsRef<str>>(
+        &self,
+        out: &mut dyn Write,
+        indent: &str,
+        cells: &[S],
+    ) -> io::Result<()> {
+        let n = self.header.len();
+        let mut s = String::from(indent);
+        for (i, c) in cells.iter().enumerate().take(n) {
+            let c = c.as_ref();
+            let pad = self.width[i].saturating_sub(c.chars().count());
+            let last = i + 1 == n;
+            match self.align[i] {
+                Align::Right => {
+                    s.extend(std::iter::repeat_n(' ', pad));
+                    s.push_str(c);
+                }
+                Align::Left => {
+                    s.push_str(c);
+                    if !last {
+                        s.extend(std::iter::repeat_n(' ', pad));
+                    }
+                }
+            }
+            if !last {
+                s.push_str("  ");
+            }
+        }
+        writeln!(out, "{}", s.trim_end())
     }
 }
 

@@ -11,7 +11,9 @@ use crate::cli::error::CliError;
 use crate::odds::{
     ALL_VERDICTS, Live, Table, format_odds, format_pool, hold_text, model_statement,
 };
-use crate::output::{Align, Format, Table as TextTable, csv_writer, exact, num, write_json};
+use crate::output::{
+    Align, Columns, Format, Table as TextTable, csv_writer, exact, num, write_json,
+};
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
 
@@ -190,7 +192,8 @@ fn write_table(
             cat.len()
         )?;
     }
-    let mut t = TextTable::new(&[
+    // Two passes over the rows, holding none: measure, then write.
+    let mut cols = Columns::new(&[
         ("star", Align::Left),
         ("candidate", Align::Left),
         ("k", Align::Right),
@@ -202,8 +205,8 @@ fn write_table(
         ("holds to f", Align::Right),
         ("held back", Align::Left),
     ]);
-    for &c in shown.rows {
-        t.row(&[
+    let cells = |c: CandidateId| -> [String; 10] {
+        [
             cat.star_id(cat.star_of(c)).to_string(),
             cat.candidate_id(c).to_string(),
             live.k(c).to_string(),
@@ -215,9 +218,15 @@ fn write_table(
             live.verdict(c).name().to_string(),
             live.holds_to(c).map_or("-".into(), |f| format!("{f:.3}")),
             hold_text(cat, live, c),
-        ]);
+        ]
+    };
+    for &c in shown.rows {
+        cols.measure(&cells(c));
     }
-    t.write(out, "")?;
+    cols.write_header(out, "")?;
+    for &c in shown.rows {
+        cols.write_row(out, "", &cells(c))?;
+    }
     write_model_footer(live, out)
 }
 
