@@ -165,10 +165,9 @@ const ERRORS_SHOWN: usize = 20;
 
 /// Reads and checks every row of a `--from` file: the whole file or the
 /// list of its bad rows (file, line, column, why).
-fn read_batch(
-    file: &std::path::Path,
-    loaded: &crate::cli::args::Loaded,
-) -> Result<Vec<BatchRow>, CliError> {
+/// The bytes of a `--from` file (`-` is standard input), with its header
+/// checked: read before the catalogue, so a wrong file costs no load.
+fn batch_file(file: &std::path::Path) -> Result<Vec<u8>, CliError> {
     let name = clean(&file.display().to_string()).into_owned();
     let bytes = if file.as_os_str() == "-" {
         let mut b = Vec::new();
@@ -181,6 +180,32 @@ fn read_batch(
         .comment(Some(b'#'))
         .flexible(true)
         .from_reader(&bytes[..]);
+    let header: Vec<String> = r
+        .headers()
+        .map_err(|e| CliError::Input(format!("{name}: line 1: {e}")))?
+        .iter()
+        .map(|h| h.trim().to_ascii_lowercase())
+        .collect();
+    if !header.iter().any(|h| h == "candidate") || !header.iter().any(|h| h == "decision") {
+        return Err(CliError::Input(format!(
+            "{name}: line 1: the header needs `candidate` and `decision` columns \
+             (and may have `reason` and `note`); it is: {}",
+            clean(&header.join(","))
+        )));
+    }
+    Ok(bytes)
+}
+
+fn read_batch(
+    file: &std::path::Path,
+    bytes: &[u8],
+    loaded: &crate::cli::args::Loaded,
+) -> Result<Vec<BatchRow>, CliError> {
+    let name = clean(&file.display().to_string()).into_owned();
+    let mut r = csv::ReaderBuilder::new()
+        .comment(Some(b'#'))
+        .flexible(true)
+        .from_reader(bytes);
     let header: Vec<String> = r
         .headers()
         .map_err(|e| CliError::Input(format!("{name}: line 1: {e}")))?
@@ -269,8 +294,9 @@ fn read_batch(
 
 /// `decide --from FILE`: every row checked, then all in one transaction.
 fn run_batch(args: &Args, file: &std::path::Path, out: &mut dyn Write) -> Result<(), CliError> {
+    let bytes = batch_file(file)?;
     let loaded = args.input.load()?;
-    let rows = read_batch(file, &loaded)?;
+    let rows = read_batch(file, &bytes, &loaded)?;
     let cat = &loaded.catalogue;
     let vetter = args.ledger.vetter();
     let mut ledger = args.ledger.open(&args.input, &loaded)?;
