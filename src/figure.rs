@@ -11,6 +11,7 @@
 use std::path::Path;
 
 use plotters::coord::Shift;
+use plotters::coord::types::RangedCoordf64;
 use plotters::prelude::*;
 
 use crate::lightcurve::analysis::{Binned, fold_bin};
@@ -232,16 +233,14 @@ fn unfolded<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, s: &Shown) -> Res
         .map_err(err)
 }
 
-/// Binned points with error bars, and an optional model line.
-fn binned_panel<DB: DrawingBackend>(
-    area: &DrawingArea<DB, Shift>,
+/// Axes with a caption and both axes named, in the figure's one style.
+fn axes<'a, DB: DrawingBackend>(
+    area: &'a DrawingArea<DB, Shift>,
     caption: String,
-    pts: &[(f64, f64, f64)],
-    model: Option<&[(f64, f64)]>,
     (x0, x1): (f64, f64),
     (y0, y1): (f64, f64),
-    x_desc: &str,
-) -> Result<(), String> {
+    (x_desc, y_desc): (&str, &str),
+) -> Result<ChartContext<'a, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>, String> {
     let mut chart = ChartBuilder::on(area)
         .caption(caption, ("sans-serif", 15))
         .margin(10)
@@ -252,10 +251,24 @@ fn binned_panel<DB: DrawingBackend>(
     chart
         .configure_mesh()
         .x_desc(x_desc)
-        .y_desc("flux (ppm)")
+        .y_desc(y_desc)
         .light_line_style(WHITE)
         .draw()
         .map_err(err)?;
+    Ok(chart)
+}
+
+/// Binned points with error bars, and an optional model line.
+fn binned_panel<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    caption: String,
+    pts: &[(f64, f64, f64)],
+    model: Option<&[(f64, f64)]>,
+    (x0, x1): (f64, f64),
+    (y0, y1): (f64, f64),
+    x_desc: &str,
+) -> Result<(), String> {
+    let mut chart = axes(area, caption, (x0, x1), (y0, y1), (x_desc, "flux (ppm)"))?;
     chart
         .draw_series(
             pts.iter()
@@ -385,20 +398,7 @@ fn whole_orbit<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, s: &Shown) -> 
         }
         Err(_) => "whole orbit".into(),
     };
-    let mut chart = ChartBuilder::on(area)
-        .caption(caption, ("sans-serif", 15))
-        .margin(10)
-        .x_label_area_size(34)
-        .y_label_area_size(64)
-        .build_cartesian_2d(-0.25..0.75, y.0..y.1)
-        .map_err(err)?;
-    chart
-        .configure_mesh()
-        .x_desc("phase")
-        .y_desc("flux (ppm)")
-        .light_line_style(WHITE)
-        .draw()
-        .map_err(err)?;
+    let mut chart = axes(area, caption, (-0.25, 0.75), y, ("phase", "flux (ppm)"))?;
     chart
         .draw_series(
             pts.iter()
@@ -445,23 +445,13 @@ fn per_transit<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, s: &Shown) -> 
             .flat_map(|p| [p.1 - p.2, p.1 + p.2])
             .chain([0.0, d.depth.value]),
     );
-    let mut chart = ChartBuilder::on(area)
-        .caption(
-            format!("per-transit depths ({} transits)", pts.len()),
-            ("sans-serif", 15),
-        )
-        .margin(10)
-        .x_label_area_size(34)
-        .y_label_area_size(64)
-        .build_cartesian_2d(x.0..x.1, y.0..y.1)
-        .map_err(err)?;
-    chart
-        .configure_mesh()
-        .x_desc("mid-transit time (d)")
-        .y_desc("depth (ppm)")
-        .light_line_style(WHITE)
-        .draw()
-        .map_err(err)?;
+    let mut chart = axes(
+        area,
+        format!("per-transit depths ({} transits)", pts.len()),
+        x,
+        y,
+        ("mid-transit time (d)", "depth (ppm)"),
+    )?;
     chart
         .draw_series(LineSeries::new(
             [(x.0, d.depth.value), (x.1, d.depth.value)],

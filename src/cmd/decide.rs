@@ -176,10 +176,20 @@ fn batch_file(file: &std::path::Path) -> Result<Vec<u8>, CliError> {
     } else {
         std::fs::read(file).map_err(|e| CliError::Input(format!("{name}: cannot read: {e}")))?
     };
+    batch_reader(&name, &bytes)?;
+    Ok(bytes)
+}
+
+/// A reader over a `--from` file and its header (lower case), or the error
+/// naming what the header lacks.
+fn batch_reader<'a>(
+    name: &str,
+    bytes: &'a [u8],
+) -> Result<(csv::Reader<&'a [u8]>, Vec<String>), CliError> {
     let mut r = csv::ReaderBuilder::new()
         .comment(Some(b'#'))
         .flexible(true)
-        .from_reader(&bytes[..]);
+        .from_reader(bytes);
     let header: Vec<String> = r
         .headers()
         .map_err(|e| CliError::Input(format!("{name}: line 1: {e}")))?
@@ -193,7 +203,7 @@ fn batch_file(file: &std::path::Path) -> Result<Vec<u8>, CliError> {
             clean(&header.join(","))
         )));
     }
-    Ok(bytes)
+    Ok((r, header))
 }
 
 fn read_batch(
@@ -202,23 +212,10 @@ fn read_batch(
     loaded: &crate::cli::args::Loaded,
 ) -> Result<Vec<BatchRow>, CliError> {
     let name = clean(&file.display().to_string()).into_owned();
-    let mut r = csv::ReaderBuilder::new()
-        .comment(Some(b'#'))
-        .flexible(true)
-        .from_reader(bytes);
-    let header: Vec<String> = r
-        .headers()
-        .map_err(|e| CliError::Input(format!("{name}: line 1: {e}")))?
-        .iter()
-        .map(|h| h.trim().to_ascii_lowercase())
-        .collect();
+    let (mut r, header) = batch_reader(&name, bytes)?;
     let col = |n: &str| header.iter().position(|h| h == n);
     let (Some(ci), Some(di)) = (col("candidate"), col("decision")) else {
-        return Err(CliError::Input(format!(
-            "{name}: line 1: the header needs `candidate` and `decision` columns \
-             (and may have `reason` and `note`); it is: {}",
-            clean(&header.join(","))
-        )));
+        unreachable!("batch_reader checked the header");
     };
     let (ri, ni) = (col("reason"), col("note"));
     let cat = &loaded.catalogue;

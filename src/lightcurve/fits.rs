@@ -8,6 +8,7 @@ use fitsio::hdu::HduInfo;
 use fitsio::tables::ColumnDataType;
 
 use super::{LcColumns, LcError, Raw, resolve_columns};
+use crate::catalogue::units::{days_per, epoch_zero};
 use crate::fitsfile::{describe, open_plain};
 
 pub(super) fn read_table(path: &Path, cols: &LcColumns) -> Result<Raw, LcError> {
@@ -207,32 +208,16 @@ fn clock_from(
     timesys: Option<&str>,
     zero: Option<f64>,
 ) -> Clock {
-    let unit_text = tunit
-        .or(timeunit)
-        .unwrap_or("d")
-        .trim()
-        .to_ascii_lowercase();
-    let scale = if unit_text.starts_with("day") || unit_text == "d" || unit_text.contains("day") {
-        1.0
-    } else if unit_text == "s" || unit_text.starts_with("sec") {
-        1.0 / 86_400.0
-    } else if unit_text == "h" || unit_text.starts_with("hour") {
-        1.0 / 24.0
-    } else if unit_text == "min" || unit_text.starts_with("minute") {
-        1.0 / 1_440.0
-    } else {
-        1.0
-    };
+    // The unit's words ("d", "BJD - 2457000, days", "s"): the first that
+    // names a time unit, else the first word; days when none does.
+    let unit_text = tunit.or(timeunit).unwrap_or("d");
+    let scale = unit_text
+        .split(',')
+        .find_map(days_per)
+        .or_else(|| unit_text.split_whitespace().next().and_then(days_per))
+        .unwrap_or(1.0);
     // "BJD - 2457000", "BJD-2454833, days": a zero written in the unit.
-    let in_unit = tunit.and_then(|u| {
-        let (_, after) = u.split_once('-')?;
-        let digits: String = after
-            .trim_start()
-            .chars()
-            .take_while(|c| c.is_ascii_digit() || *c == '.')
-            .collect();
-        digits.parse::<f64>().ok().filter(|z| *z > 1000.0)
-    });
+    let in_unit = tunit.and_then(epoch_zero);
     let zero = zero.filter(|z| z.is_finite()).or(in_unit).unwrap_or(0.0);
     let note = match timesys.map(|s| s.trim().to_ascii_uppercase()) {
         Some(s) if !s.is_empty() && s != "TDB" && zero != 0.0 => Some(format!(
@@ -310,30 +295,42 @@ fn check_shape(
     Ok(())
 }
 
+/// A new FITS file at `path` (replacing one there) with a `LIGHTCURVE`
+/// binary table of these columns, and the error mapping for its writes.
+fn new_table(
+    path: &Path,
+    columns: &[(&str, ColumnDataType)],
+) -> Result<(FitsFile, fitsio::hdu::FitsHdu), LcError> {
+    use fitsio::tables::{ColumnDescription, ConcreteColumnDescription};
+    let e = write_error(path);
+    let _ = std::fs::remove_file(path);
+    let mut f = FitsFile::create(path).open().map_err(&e)?;
+    let desc: Vec<ConcreteColumnDescription> = columns
+        .iter()
+        .map(|(n, t)| ColumnDescription::new(*n).with_type(*t).create())
+        .collect::<Result<_, _>>()
+        .map_err(&e)?;
+    let hdu = f.create_table("LIGHTCURVE", &desc).map_err(&e)?;
+    Ok((f, hdu))
+}
+
+fn write_error(path: &Path) -> impl Fn(fitsio::errors::Error) -> LcError {
+    let name = path.display().to_string();
+    move |e| LcError::Fits {
+        path: name.clone(),
+        message: e.to_string(),
+    }
+}
+
 /// Writes a light curve as a FITS binary table (used by tests and the demo
 /// tools): columns TIME, FLUX, FLUX_ERR in the first extension.
 pub fn write_table(path: &Path, time: &[f64], flux: &[f64], err: &[f64]) -> Result<(), LcError> {
-    use fitsio::tables::{ColumnDescription, ConcreteColumnDescription};
-    let name = path.display().to_string();
-    let e = |e: fitsio::errors::Error| LcError::Fits {
-        path: name.clone(),
-        message: e.to_string(),
-    };
-    let _ = std::fs::remove_file(path);
-    let mut f = FitsFile::create(path).open().map_err(e)?;
-    let desc: Vec<ConcreteColumnDescription> = ["TIME", "FLUX", "FLUX_ERR"]
-        .iter()
-        .map(|n| {
-            ColumnDescription::new(*n)
-                .with_type(ColumnDataType::Double)
-                .create()
-        })
-        .collect::<Result<_, _>>()
-        .map_err(e)?;
-    let hdu = f.create_table("LIGHTCURVE", &desc).map_err(e)?;
-    hdu.write_col(&mut f, "TIME", time).map_err(e)?;
-    hdu.write_col(&mut f, "FLUX", flux).map_err(e)?;
-    hdu.write_col(&mut f, "FLUX_ERR", err).map_err(e)?;
+    let e = write_error(path);
+    let columns = ["TIME", "FLUX", "FLUX_ERR"].map(|n| (n, ColumnDataType::Double));
+    let (mut f, hdu) = new_table(path, &columns)?;
+    hdu.write_col(&mut f, "TIME", time).map_err(&e)?;
+    hdu.write_col(&mut f, "FLUX", flux).map_err(&e)?;
+    hdu.write_col(&mut f, "FLUX_ERR", err).map_err(&e)?;
     Ok(())
 }
 
@@ -357,14 +354,7 @@ pub struct ArchiveSegment {
 /// Writes an [`ArchiveSegment`] (see there for the layout).
 pub fn write_archive_segment(path: &Path, seg: &ArchiveSegment) -> Result<(), LcError> {
     use fitsio::images::{ImageDescription, ImageType};
-    use fitsio::tables::{ColumnDescription, ConcreteColumnDescription};
-    let name = path.display().to_string();
-    let e = |e: fitsio::errors::Error| LcError::Fits {
-        path: name.clone(),
-        message: e.to_string(),
-    };
-    let _ = std::fs::remove_file(path);
-    let mut f = FitsFile::create(path).open().map_err(e)?;
+    let e = write_error(path);
     let columns = [
         ("TIME", ColumnDataType::Double),
         ("PDCSAP_FLUX", ColumnDataType::Float),
@@ -372,12 +362,8 @@ pub fn write_archive_segment(path: &Path, seg: &ArchiveSegment) -> Result<(), Lc
         ("SAP_FLUX", ColumnDataType::Float),
         ("QUALITY", ColumnDataType::Int),
     ];
-    let desc: Vec<ConcreteColumnDescription> = columns
-        .iter()
-        .map(|(n, t)| ColumnDescription::new(*n).with_type(*t).create())
-        .collect::<Result<_, _>>()
-        .map_err(e)?;
-    let hdu = f.create_table("LIGHTCURVE", &desc).map_err(e)?;
+    let (mut f, hdu) = new_table(path, &columns)?;
+    let e = &e;
     hdu.write_col(&mut f, "TIME", &seg.time).map_err(e)?;
     hdu.write_col(&mut f, "PDCSAP_FLUX", &seg.pdcsap_flux)
         .map_err(e)?;

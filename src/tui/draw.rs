@@ -360,17 +360,13 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
 }
 
 fn draw_ledger(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+    let n = app.history.len();
     let b = block(
-        match app.history.len() {
-            1 => format!(
-                " Ledger · 1 entry · {} for facts ",
-                app.keymap.keys_of(super::app::Action::ShowLedger)
-            ),
-            n => format!(
-                " Ledger · {n} entries · {} for facts ",
-                app.keymap.keys_of(super::app::Action::ShowLedger)
-            ),
-        },
+        format!(
+            " Ledger · {n} {} · {} for facts ",
+            if n == 1 { "entry" } else { "entries" },
+            app.keymap.keys_of(super::app::Action::ShowLedger)
+        ),
         false,
         look,
     );
