@@ -110,7 +110,8 @@ fn catalogue(d: &Path, epoch: f64) -> PathBuf {
     p
 }
 
-fn fold_csv(cat: &Path, dir: &Path, extra: &[&str]) -> Vec<(f64, f64, f64, u64)> {
+/// `fold` of ARC-1.01 with its light curves in `dir`, and `extra` options.
+fn fold(cat: &Path, dir: &Path, extra: &[&str]) -> std::process::Output {
     let mut args = vec![
         "fold",
         cat.to_str().unwrap(),
@@ -118,11 +119,15 @@ fn fold_csv(cat: &Path, dir: &Path, extra: &[&str]) -> Vec<(f64, f64, f64, u64)>
         dir.to_str().unwrap(),
         "--candidate",
         "ARC-1.01",
-        "--format",
-        "csv",
     ];
     args.extend_from_slice(extra);
-    let o = starsift(&args);
+    starsift(&args)
+}
+
+fn fold_csv(cat: &Path, dir: &Path, extra: &[&str]) -> Vec<(f64, f64, f64, u64)> {
+    let mut args = vec!["--format", "csv"];
+    args.extend_from_slice(extra);
+    let o = fold(cat, dir, &args);
     assert!(o.status.success(), "{}", stderr(&o));
     let mut r = csv::Reader::from_reader(o.stdout.as_slice());
     let h = r.headers().unwrap().clone();
@@ -165,16 +170,7 @@ fn segmented_fits_fold_with_every_good_sample_and_recover_the_depth() {
         "depth {depth} ± {err}, injected {DEPTH}"
     );
     // The table says how many segments and samples, and what was dropped.
-    let o = starsift(&[
-        "fold",
-        cat.to_str().unwrap(),
-        "--lightcurves",
-        dir.to_str().unwrap(),
-        "--candidate",
-        "ARC-1.01",
-        "--format",
-        "json",
-    ]);
+    let o = fold(&cat, &dir, &["--format", "json"]);
     assert!(o.status.success(), "{}", stderr(&o));
     let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
     let lc = &v["lightcurve"];
@@ -243,16 +239,7 @@ fn damaged_fits_and_wrong_hdus_name_the_file() {
     let (dir, _) = archive(&d);
     let cat = catalogue(&d, EPOCH_BJD);
     // --hdu 2 is the aperture image.
-    let o = starsift(&[
-        "fold",
-        cat.to_str().unwrap(),
-        "--lightcurves",
-        dir.to_str().unwrap(),
-        "--candidate",
-        "ARC-1.01",
-        "--hdu",
-        "2",
-    ]);
+    let o = fold(&cat, &dir, &["--hdu", "2"]);
     assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
     let e = stderr(&o);
     assert!(e.contains("ARC-1_s01.fits") && e.contains("HDU 2"), "{e}");
@@ -260,14 +247,7 @@ fn damaged_fits_and_wrong_hdus_name_the_file() {
     let p = dir.join("ARC-1_s02.fits");
     let bytes = std::fs::read(&p).unwrap();
     std::fs::write(&p, &bytes[..bytes.len() / 3]).unwrap();
-    let o = starsift(&[
-        "fold",
-        cat.to_str().unwrap(),
-        "--lightcurves",
-        dir.to_str().unwrap(),
-        "--candidate",
-        "ARC-1.01",
-    ]);
+    let o = fold(&cat, &dir, &[]);
     assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
     assert!(stderr(&o).contains("ARC-1_s02.fits"), "{}", stderr(&o));
     assert!(stdout(&o).is_empty());
