@@ -1045,3 +1045,14 @@ fn a_rebound_key_shows_in_every_hint_that_names_it() {
     let s = screen(&app, 120, 40);
     assert!(s.to_lowercase().contains("ctrl-g cancels"), "{s}");
 }
+
+#[test]
+fn a_long_prompt_scrolls_to_keep_the_cursor_in_sight() {
+    let mut app = demo_app();
+    act(&mut app, Action::Filter);
+    let long = "period>0 ".repeat(20) + "depth>42";
+    typed(&mut app, &long);
+    let s = screen(&app, 80, 24);
+    let last = s.lines().last().unwrap();
+    assert!(last.contains("<") && last.contains("depth>42|"), "{last}");
+}

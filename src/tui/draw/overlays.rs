@@ -21,7 +21,18 @@ pub(super) fn draw_prompt(app: &App, frame: &mut Frame, area: Rect, look: Look) 
                     Style::default().add_modifier(Modifier::REVERSED),
                 ));
             } else {
-                spans.push(Span::raw(clean(before).into_owned()));
+                // A line wider than the screen scrolls so the cursor stays
+                // in sight: what is left of it shows after a `<` mark.
+                let room = (area.width as usize).saturating_sub(head.len() + 2).max(8);
+                let before = clean(before).into_owned();
+                let n = before.chars().count();
+                let before = if n > room {
+                    let tail: String = before.chars().skip(n - (room - 1)).collect();
+                    format!("<{tail}")
+                } else {
+                    before
+                };
+                spans.push(Span::raw(before));
                 spans.push(Span::raw(if look.ascii { "|" } else { "▏" }));
                 spans.push(Span::raw(clean(after).into_owned()));
             }
