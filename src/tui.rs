@@ -134,10 +134,13 @@ fn build_app_counting(
     // The checks run on a background thread once the browser is up (see `run`).
     let checks = crate::checks::Checks::none(loaded.catalogue.len());
     let finder = lc.finder(&loaded);
-    let ledger = if args.no_ledger {
-        None
+    // The ledger's notes (catalogue changed, decided candidates gone) go to
+    // the message line: stderr is behind the browser's screen.
+    let (ledger, notes) = if args.no_ledger {
+        (None, Vec::new())
     } else {
-        Some(ledger_args.open(input, &loaded)?)
+        let (l, notes) = ledger_args.open_noting(input, &loaded)?;
+        (Some(l), notes)
     };
     let cat = &loaded.catalogue;
     let decisions: Vec<crate::decision::Decision> = match &ledger {
@@ -162,7 +165,10 @@ fn build_app_counting(
         ledger_args.vetter(),
         keymap,
     );
-    app.message = skipped_message(&app.cat);
+    app.message = skipped_message(&app.cat)
+        .into_iter()
+        .chain(notes)
+        .reduce(|a, b| format!("{a} · {b}"));
     if let Some(f) = crate::cli::args::parse_where(args.filter.as_deref())? {
         app.filter = f;
         app.refresh_view();

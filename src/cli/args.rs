@@ -135,7 +135,9 @@ impl LedgerArgs {
             }
         };
         let ledger = crate::ledger::Ledger::open(&path)?;
-        note_gone(&ledger, &loaded.catalogue)?;
+        if let Some(n) = gone_note(&ledger, &loaded.catalogue)? {
+            eprintln!("starsift: note: {n}");
+        }
         Ok(Some(ledger))
     }
 
@@ -147,6 +149,20 @@ impl LedgerArgs {
         input: &CatalogueArgs,
         loaded: &Loaded,
     ) -> Result<crate::ledger::Ledger, CliError> {
+        let (ledger, notes) = self.open_noting(input, loaded)?;
+        for n in notes {
+            eprintln!("starsift: note: {n}");
+        }
+        Ok(ledger)
+    }
+
+    /// [`LedgerArgs::open`] returning its notes instead of printing them
+    /// (the browser shows them on its message line).
+    pub fn open_noting(
+        &self,
+        input: &CatalogueArgs,
+        loaded: &Loaded,
+    ) -> Result<(crate::ledger::Ledger, Vec<String>), CliError> {
         let (default, fp) = default_ledger(input)?;
         let path = self.ledger.clone().unwrap_or(default);
         if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
@@ -159,14 +175,15 @@ impl LedgerArgs {
         }
         let mut ledger = crate::ledger::Ledger::open(&path)?;
         let cat = &loaded.catalogue;
+        let mut notes = Vec::new();
         if let Some(previous) = ledger.note_catalogue(&cat.source, &fp, cat.len())? {
-            eprintln!(
-                "starsift: note: {} changed since this ledger last saw it ({previous} → {fp}); decisions are matched by candidate id",
+            notes.push(format!(
+                "{} changed since this ledger last saw it ({previous} → {fp}); decisions are matched by candidate id",
                 crate::sanitize::clean(&cat.source)
-            );
+            ));
         }
-        note_gone(&ledger, cat)?;
-        Ok(ledger)
+        notes.extend(gone_note(&ledger, cat)?);
+        Ok((ledger, notes))
     }
 }
 
@@ -278,28 +295,28 @@ pub fn check_output_path(output: &Path, vetting: &VettingArgs) -> Result<(), Cli
     Ok(())
 }
 
-/// Says (on stderr) which decided candidates the catalogue no longer has.
-fn note_gone(ledger: &crate::ledger::Ledger, cat: &Catalogue) -> Result<(), CliError> {
+/// Which decided candidates the catalogue no longer has, in words.
+fn gone_note(ledger: &crate::ledger::Ledger, cat: &Catalogue) -> Result<Option<String>, CliError> {
     let mut gone: Vec<String> = ledger
         .latest(None)?
         .iter()
         .filter(|e| cat.find_candidate(&e.candidate).is_none())
         .map(|e| e.candidate.clone())
         .collect();
-    if !gone.is_empty() {
-        gone.sort();
-        eprintln!(
-            "starsift: note: {} decided candidates are not in the catalogue: {}{}",
-            gone.len(),
-            gone.iter()
-                .take(20)
-                .map(|g| crate::sanitize::clean(g).into_owned())
-                .collect::<Vec<_>>()
-                .join(", "),
-            if gone.len() > 20 { ", ..." } else { "" }
-        );
+    if gone.is_empty() {
+        return Ok(None);
     }
-    Ok(())
+    gone.sort();
+    Ok(Some(format!(
+        "{} decided candidates are not in the catalogue: {}{}",
+        gone.len(),
+        gone.iter()
+            .take(20)
+            .map(|g| crate::sanitize::clean(g).into_owned())
+            .collect::<Vec<_>>()
+            .join(", "),
+        if gone.len() > 20 { ", ..." } else { "" }
+    )))
 }
 
 /// A loaded catalogue with the survey facts found beside it.
