@@ -94,7 +94,14 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let live = v.live()?;
     let rows = v.selected(live, filter.as_ref());
     let table = Export::new(&v, live);
-    let meta = table.provenance(&rows, filter.as_ref(), args.format);
+    // The provenance (which reads the catalogue for its fingerprint) only
+    // where it goes somewhere: the sidecar, `#` lines, a VOTable's INFO.
+    let wanted = args.output.is_some() || args.comments || args.format == ExportFormat::Votable;
+    let meta = if wanted {
+        table.provenance(&rows, filter.as_ref(), args.format)
+    } else {
+        Value::Null
+    };
     let mut buf: Vec<u8> = Vec::new();
     let sink: &mut dyn Write = if args.output.is_some() { &mut buf } else { out };
     match args.format {
