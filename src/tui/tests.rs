@@ -621,15 +621,17 @@ fn palettes_paint_16_256_and_true_colour_and_none() {
 /// first system at 80x24 with the reason picker open, the odd/even view,
 /// and the too-small message at 20x6.
 #[test]
-fn snapshots_at_80x24_and_20x6() {
+fn snapshots_at_80x24_60x16_and_20x6() {
     let mut app = demo_app();
     insta::assert_snapshot!("start_80x24", screen(&app, 80, 24));
+    insta::assert_snapshot!("start_60x16", screen(&app, 60, 16));
     act(&mut app, Action::NextPane);
     act(&mut app, Action::SignalView);
     insta::assert_snapshot!("odd_even_80x24", screen(&app, 80, 24));
     act(&mut app, Action::Reject);
     typed(&mut app, "secondary at 0.5");
     insta::assert_snapshot!("reject_picker_80x24", screen(&app, 80, 24));
+    insta::assert_snapshot!("reject_picker_60x16", screen(&app, 60, 16));
     insta::assert_snapshot!("too_small_20x6", screen(&app, 20, 6));
 }
 
