@@ -209,11 +209,25 @@ pub fn rfc3339(secs: i64, millis: u32) -> String {
 
 /// FNV-1a, 64 bit (Fowler, Noll & Vo): a stable fingerprint of catalogue bytes.
 pub fn fingerprint(bytes: &[u8]) -> String {
-    let mut h: u64 = 0xcbf2_9ce4_8422_2325;
+    fingerprint_text(fnv1a(FNV_OFFSET, bytes))
+}
+
+/// The FNV-1a 64-bit offset basis (Fowler, Noll & Vo; IETF draft
+/// "The FNV Non-Cryptographic Hash Algorithm", from memory).
+pub const FNV_OFFSET: u64 = 0xcbf2_9ce4_8422_2325;
+
+/// FNV-1a over `bytes`, continuing from `h` (so a file read in pieces
+/// hashes as a whole).
+pub fn fnv1a(mut h: u64, bytes: &[u8]) -> u64 {
     for &b in bytes {
         h ^= b as u64;
         h = h.wrapping_mul(0x0000_0100_0000_01b3);
     }
+    h
+}
+
+/// A fingerprint as the ledger records it.
+pub fn fingerprint_text(h: u64) -> String {
     format!("fnv1a64:{h:016x}")
 }
 

@@ -428,3 +428,35 @@ fn lines_ended_by_a_cr_alone_load_with_their_line_numbers() {
         assert_eq!(lines, [4], "{name}: {:?}", c.skipped);
     }
 }
+
+#[test]
+fn the_fingerprint_comes_from_the_loads_own_read() {
+    // The ledger records the catalogue's fingerprint (FNV-1a of its bytes):
+    // computed while loading, it equals a second read's, plain or gzipped.
+    use std::sync::Arc;
+    use std::sync::atomic::{AtomicU64, Ordering};
+    let d = common::scratch("fingerprint");
+    let text = "star,candidate,period_d,epoch,depth_ppm,duration_h\nS1,S1-1,3.5,10.0,500,2.0\nS2,S2-1,4.5,11.0,600,2.5\n";
+    let plain = d.join("cat.csv");
+    std::fs::write(&plain, text).unwrap();
+    let gz = d.join("cat.csv.gz");
+    let mut enc = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::default());
+    std::io::Write::write_all(&mut enc, text.as_bytes()).unwrap();
+    std::fs::write(&gz, enc.finish().unwrap()).unwrap();
+    for p in [&plain, &gz] {
+        let out = Arc::new(AtomicU64::new(0));
+        let opts = starsift::catalogue::LoadOptions {
+            fingerprint: Some(Arc::clone(&out)),
+            ..Default::default()
+        };
+        let cat = starsift::catalogue::Catalogue::load(starsift::catalogue::Source::Path(p), &opts)
+            .unwrap();
+        assert_eq!(cat.len(), 2);
+        assert_eq!(
+            starsift::ledger::fingerprint_text(out.load(Ordering::Relaxed)),
+            starsift::ledger::fingerprint(&std::fs::read(p).unwrap()),
+            "{}",
+            p.display()
+        );
+    }
+}

@@ -56,6 +56,27 @@ pub struct LoadOptions {
     pub hdu: Option<String>,
     /// Bytes of the file read so far, for a progress display.
     pub progress: Option<std::sync::Arc<std::sync::atomic::AtomicU64>>,
+    /// Where to leave the FNV-1a hash of the file's bytes as they are read
+    /// (the ledger's fingerprint, from the same read as the load).
+    pub fingerprint: Option<std::sync::Arc<std::sync::atomic::AtomicU64>>,
+}
+
+/// A reader that hashes the bytes it reads (FNV-1a, the ledger's
+/// fingerprint) and leaves the running hash in `out`.
+struct Hashed<R> {
+    inner: R,
+    state: u64,
+    out: std::sync::Arc<std::sync::atomic::AtomicU64>,
+}
+
+impl<R: Read> Read for Hashed<R> {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        let n = self.inner.read(buf)?;
+        self.state = crate::ledger::fnv1a(self.state, &buf[..n]);
+        self.out
+            .store(self.state, std::sync::atomic::Ordering::Relaxed);
+        Ok(n)
+    }
 }
 
 /// A reader that adds the bytes it reads to a shared counter.
@@ -134,6 +155,12 @@ fn load_converted(
         File::open(p)
             .and_then(|mut f| f.read_to_end(&mut raw))
             .map_err(io)?;
+        if let Some(out) = &opts.fingerprint {
+            out.store(
+                crate::ledger::fnv1a(crate::ledger::FNV_OFFSET, &raw),
+                std::sync::atomic::Ordering::Relaxed,
+            );
+        }
         if raw.starts_with(&GZIP_MAGIC) {
             let mut plain = Vec::with_capacity(raw.len() * 4);
             MultiGzDecoder::new(&raw[..])
@@ -200,12 +227,26 @@ impl Catalogue {
                         source,
                     })?;
                     let size = file.metadata().ok().map(|m| m.len());
+                    let file: Box<dyn Read + Send> = match &opts.fingerprint {
+                        Some(out) => {
+                            out.store(
+                                crate::ledger::FNV_OFFSET,
+                                std::sync::atomic::Ordering::Relaxed,
+                            );
+                            Box::new(Hashed {
+                                inner: file,
+                                state: crate::ledger::FNV_OFFSET,
+                                out: std::sync::Arc::clone(out),
+                            })
+                        }
+                        None => Box::new(file),
+                    };
                     let reader: Box<dyn Read + Send> = match &opts.progress {
                         Some(read) => Box::new(Counted {
                             inner: file,
                             read: std::sync::Arc::clone(read),
                         }),
-                        None => Box::new(file),
+                        None => file,
                     };
                     (name, size, reader)
                 }

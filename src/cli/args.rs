@@ -163,7 +163,7 @@ impl LedgerArgs {
         input: &CatalogueArgs,
         loaded: &Loaded,
     ) -> Result<(crate::ledger::Ledger, Vec<String>), CliError> {
-        let (default, fp) = default_ledger(input)?;
+        let (default, fp) = default_ledger(input, loaded.fingerprint.as_deref())?;
         let path = self.ledger.clone().unwrap_or(default);
         if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
             std::fs::create_dir_all(dir).map_err(|e| {
@@ -201,12 +201,15 @@ fn default_ledger_path(input: &CatalogueArgs) -> PathBuf {
 
 /// The default ledger of a catalogue (beside it, or in the data folder) and
 /// the catalogue's fingerprint.
-fn default_ledger(input: &CatalogueArgs) -> Result<(PathBuf, String), CliError> {
-    let bytes = match &input.catalogue {
-        Some(p) => std::fs::read(p)?,
-        None => crate::demo::CATALOGUE_CSV.as_bytes().to_vec(),
+fn default_ledger(
+    input: &CatalogueArgs,
+    known: Option<&str>,
+) -> Result<(PathBuf, String), CliError> {
+    let fp = match (known, &input.catalogue) {
+        (Some(fp), _) => fp.to_string(),
+        (None, Some(p)) => crate::ledger::fingerprint(&std::fs::read(p)?),
+        (None, None) => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
     };
-    let fp = crate::ledger::fingerprint(&bytes);
     Ok((
         crate::ledger::default_path(input.catalogue.as_deref(), &fp),
         fp,
@@ -331,6 +334,9 @@ pub struct Loaded {
     pub demo: bool,
     /// The catalogue file (`None` for the built-in demo).
     pub path: Option<PathBuf>,
+    /// The file's fingerprint, when the load computed it from its own read
+    /// (`CatalogueArgs::load_for_ledger`).
+    pub fingerprint: Option<String>,
 }
 
 impl Loaded {
@@ -550,6 +556,7 @@ impl CatalogueArgs {
             header_units: Vec::new(),
             hdu: self.table_hdu.clone(),
             progress: None,
+            fingerprint: None,
         })
     }
 
@@ -578,13 +585,25 @@ impl CatalogueArgs {
     }
 
     /// `load` counting the bytes read into `read`, for the browser's
-    /// loading screen.
+    /// loading screen; the fingerprint for the ledger from the same read.
     pub fn load_counting(
         &self,
         read: std::sync::Arc<std::sync::atomic::AtomicU64>,
     ) -> Result<Loaded, CliError> {
         let opts = LoadOptions {
             progress: Some(read),
+            fingerprint: Some(Default::default()),
+            ..self.options()?
+        };
+        self.load_with(opts)
+    }
+
+    /// `load` for a command that writes to the ledger: the catalogue's
+    /// fingerprint (which the ledger records) comes from the same read as
+    /// the load, not from a second one.
+    pub fn load_for_ledger(&self) -> Result<Loaded, CliError> {
+        let opts = LoadOptions {
+            fingerprint: Some(Default::default()),
             ..self.options()?
         };
         self.load_with(opts)
@@ -615,9 +634,18 @@ impl CatalogueArgs {
                 dir: crate::demo::source_dir(),
                 demo: true,
                 path: None,
+                fingerprint: Some(crate::ledger::fingerprint(
+                    crate::demo::CATALOGUE_CSV.as_bytes(),
+                )),
             }),
             Some(path) => {
                 let catalogue = Catalogue::load(Source::Path(path), &opts)?;
+                let fingerprint = opts
+                    .fingerprint
+                    .as_ref()
+                    .map(|h| h.load(std::sync::atomic::Ordering::Relaxed))
+                    .filter(|&h| h != 0)
+                    .map(crate::ledger::fingerprint_text);
                 let (survey, survey_source) = match SurveyFacts::beside(path) {
                     Some(p) => (SurveyFacts::from_file(&p)?, Some(p.display().to_string())),
                     None => (SurveyFacts::default(), None),
@@ -638,6 +666,7 @@ impl CatalogueArgs {
                     )),
                     demo: false,
                     path: Some(path.clone()),
+                    fingerprint,
                 })
             }
         }

@@ -94,7 +94,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         checks: args.checks.clone(),
         lc: args.lc.clone(),
     };
-    let loaded = args.input.load()?;
+    let loaded = args.input.load_for_ledger()?;
     let cat = &loaded.catalogue;
     let c = loaded.candidate(candidate)?;
     let vetter = args.ledger.vetter();
@@ -292,7 +292,7 @@ fn read_batch(
 /// `decide --from FILE`: every row checked, then all in one transaction.
 fn run_batch(args: &Args, file: &std::path::Path, out: &mut dyn Write) -> Result<(), CliError> {
     let bytes = batch_file(file)?;
-    let loaded = args.input.load()?;
+    let loaded = args.input.load_for_ledger()?;
     let rows = read_batch(file, &bytes, &loaded)?;
     let cat = &loaded.catalogue;
     let vetter = args.ledger.vetter();
