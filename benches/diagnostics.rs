@@ -157,7 +157,10 @@ fn keystrokes_while_light_curves_run() {
     while !done.load(std::sync::atomic::Ordering::Relaxed) {
         let t = Instant::now();
         app.update(Input::Action(keys[i % keys.len()]));
-        term.draw(|f| draw(&app, f, look)).expect("draw");
+        term.draw(|f| {
+            draw(&app, f, look);
+        })
+        .expect("draw");
         times.push(t.elapsed().as_secs_f64() * 1e3);
         i += 1;
         std::thread::sleep(std::time::Duration::from_millis(5));

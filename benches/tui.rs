@@ -86,7 +86,10 @@ fn main() {
         Keymap::load(&[]).expect("keys"),
     );
     let mut term = Terminal::new(TestBackend::new(200, 50)).expect("term");
-    term.draw(|f| draw(&app, f, look)).expect("draw");
+    term.draw(|f| {
+        draw(&app, f, look);
+    })
+    .expect("draw");
     println!(
         "start-up to the first frame: {:.3} s (of which loading {t_load:.3} s; checks still running)",
         t.elapsed().as_secs_f64()
@@ -97,7 +100,10 @@ fn main() {
     let checks = background.join().expect("checks");
     let ready = t.elapsed().as_secs_f64();
     app.update(Input::Checks(Box::new(checks)));
-    term.draw(|f| draw(&app, f, look)).expect("draw");
+    term.draw(|f| {
+        draw(&app, f, look);
+    })
+    .expect("draw");
     println!(
         "checks arrived and applied after {:.3} s (applying and redrawing {:.3} s)",
         t.elapsed().as_secs_f64(),
@@ -109,7 +115,10 @@ fn main() {
     for _ in 0..5 {
         let t = Instant::now();
         app.update(Input::Action(Action::SortNext));
-        term.draw(|f| draw(&app, f, look)).expect("draw");
+        term.draw(|f| {
+            draw(&app, f, look);
+        })
+        .expect("draw");
         println!(
             "first sort by {:<16} {:.2} ms",
             app.sort.name(),
@@ -156,7 +165,10 @@ fn main() {
                 }
                 let t = Instant::now();
                 app.update(input.clone());
-                term.draw(|f| draw(&app, f, look)).expect("draw");
+                term.draw(|f| {
+                    draw(&app, f, look);
+                })
+                .expect("draw");
                 times.push(t.elapsed().as_secs_f64() * 1e3);
             }
             if *name == "filter edit" {
@@ -181,7 +193,10 @@ fn main() {
     for ch in "SYN05517".chars() {
         let t = Instant::now();
         app.update(Input::Char(ch));
-        term.draw(|f| draw(&app, f, look)).expect("draw");
+        term.draw(|f| {
+            draw(&app, f, look);
+        })
+        .expect("draw");
         times.push(t.elapsed().as_secs_f64() * 1e3);
     }
     app.update(Input::Action(Action::Close));
@@ -208,7 +223,10 @@ fn main() {
                 let t = Instant::now();
                 app.update(Input::Action(Action::Select));
                 let t1 = t.elapsed().as_secs_f64() * 1e3;
-                term.draw(|f| draw(&app, f, look)).expect("draw");
+                term.draw(|f| {
+                    draw(&app, f, look);
+                })
+                .expect("draw");
                 if !text.is_empty() {
                     up.push(t1);
                     dr.push(t.elapsed().as_secs_f64() * 1e3 - t1);
@@ -231,14 +249,20 @@ fn main() {
         Terminal::new(CrosstermBackend::new(Counting(Arc::clone(&count)))).expect("term");
     term.resize(ratatui::layout::Rect::new(0, 0, 100, 30))
         .expect("resize");
-    term.draw(|f| draw(&app, f, look)).expect("draw");
+    term.draw(|f| {
+        draw(&app, f, look);
+    })
+    .expect("draw");
     for (pane, name) in [
         (Pane::Systems, "system to system"),
         (Pane::Candidates, "candidate to candidate"),
     ] {
         app.focus = pane;
         app.update(Input::Action(Action::Top));
-        term.draw(|f| draw(&app, f, look)).expect("draw");
+        term.draw(|f| {
+            draw(&app, f, look);
+        })
+        .expect("draw");
         let base = count.load(std::sync::atomic::Ordering::Relaxed);
         let mut n = 0;
         for _ in 0..50 {
@@ -249,7 +273,10 @@ fn main() {
                 Action::Down
             };
             app.update(Input::Action(a));
-            term.draw(|f| draw(&app, f, look)).expect("draw");
+            term.draw(|f| {
+                draw(&app, f, look);
+            })
+            .expect("draw");
             n += 1;
         }
         println!(

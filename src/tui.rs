@@ -545,6 +545,8 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     // A frame is drawn only when something changed: a key, a resize, a
     // result from a background thread.
     let mut dirty = true;
+    // Where the last frame drew the lists (for the mouse).
+    let mut hits = app::Hits::default();
     loop {
         if stop.load(std::sync::atomic::Ordering::Relaxed) {
             drop(term);
@@ -583,12 +585,12 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         // for the rest of a 16 ms frame before the screen is drawn again.
         let since = last_draw.elapsed();
         if since < FRAME && event::poll(FRAME - since)? {
-            read_batch(&mut app, &mut effects, &worker)?;
+            read_batch(&mut app, &hits, &mut effects, &worker)?;
             dirty = true;
             continue;
         }
         if dirty {
-            term.draw(|f| draw::draw(&app, f, look))?;
+            term.draw(|f| hits = draw::draw(&app, f, look))?;
             last_draw = std::time::Instant::now();
             dirty = false;
         }
@@ -643,7 +645,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         if !event::poll(wait)? {
             continue;
         }
-        read_batch(&mut app, &mut effects, &worker)?;
+        read_batch(&mut app, &hits, &mut effects, &worker)?;
         dirty = true;
     }
 }
@@ -654,11 +656,12 @@ pub fn run(args: &Args) -> Result<(), CliError> {
 /// other effect ends the batch.
 fn read_batch(
     app: &mut App,
+    hits: &app::Hits,
     effects: &mut Vec<Effect>,
     worker: &mpsc::Sender<u32>,
 ) -> std::io::Result<()> {
     for _ in 0..4096 {
-        match input::translate(app, event::read()?) {
+        match input::translate(app, hits, event::read()?) {
             input::Translated::Quit => effects.push(Effect::Quit),
             input::Translated::Input(i) => effects.extend(app.update(i)),
             input::Translated::Nothing => {}

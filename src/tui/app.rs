@@ -68,19 +68,33 @@ pub enum Input {
     ChecksFailed(String),
     /// Light curves checked so far, of how many.
     Progress(usize, usize),
-    /// A left click at a terminal cell (column, row), with `--mouse`.
-    Click(u16, u16),
-    /// The wheel turned over a cell: down when true.
-    Scroll(u16, u16, bool),
+    /// A left click on a list row (with `--mouse`): the pane and the row,
+    /// found by the event loop from where the last frame drew the lists.
+    Pick(Pane, usize),
+    /// The wheel turned over a list: down when true.
+    Wheel(Pane, bool),
 }
 
-/// Where the last frame drew the two lists: the rows' area (below the
-/// header) and the index of the first row shown. Set by `draw`, read when a
-/// click or the wheel arrives.
-#[derive(Debug, Default)]
+/// Where a frame drew the two lists: the rows' area (below the header) and
+/// the index of the first row shown. `draw` returns it; the event loop keeps
+/// the last one to turn a click or the wheel into a row.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
 pub struct Hits {
-    pub systems: std::cell::Cell<(ratatui::layout::Rect, usize)>,
-    pub candidates: std::cell::Cell<(ratatui::layout::Rect, usize)>,
+    pub systems: (ratatui::layout::Rect, usize),
+    pub candidates: (ratatui::layout::Rect, usize),
+}
+
+impl Hits {
+    /// The pane and list row under a cell, if it is a row of a list.
+    pub fn at(&self, x: u16, y: u16) -> Option<(Pane, usize)> {
+        let inside = |(r, first): (ratatui::layout::Rect, usize)| {
+            (x >= r.x && x < r.x + r.width && y >= r.y && y < r.y + r.height)
+                .then(|| first + (y - r.y) as usize)
+        };
+        inside(self.systems)
+            .map(|i| (Pane::Systems, i))
+            .or_else(|| inside(self.candidates).map(|i| (Pane::Candidates, i)))
+    }
 }
 
 /// What the background worker found for a candidate.
@@ -230,8 +244,6 @@ pub struct App {
     pub show_ledger: bool,
     /// What the signal pane shows.
     pub signal_view: SignalView,
-    /// Where the lists were drawn, for the mouse.
-    pub hits: Hits,
     /// The first line of the help overlay shown (it scrolls when taller
     /// than the terminal).
     pub help_scroll: usize,
@@ -319,7 +331,6 @@ impl App {
             pinned: None,
             show_ledger: false,
             signal_view: SignalView::Transit,
-            hits: Hits::default(),
             help_scroll: 0,
             checks_pending: false,
             lc_progress: None,
@@ -406,32 +417,21 @@ impl App {
         self.members().get(self.cand_row).copied()
     }
 
-    /// The pane and list row under a cell, if it is a row of a list.
-    fn hit(&self, x: u16, y: u16) -> Option<(Pane, usize)> {
-        let inside = |(r, first): (ratatui::layout::Rect, usize)| {
-            (x >= r.x && x < r.x + r.width && y >= r.y && y < r.y + r.height)
-                .then(|| first + (y - r.y) as usize)
-        };
-        inside(self.hits.systems.get())
-            .map(|i| (Pane::Systems, i))
-            .or_else(|| inside(self.hits.candidates.get()).map(|i| (Pane::Candidates, i)))
-    }
-
     /// A click selects the row under it (only in the normal mode: an open
     /// overlay or prompt is left alone).
-    fn click(&mut self, x: u16, y: u16) {
+    fn click(&mut self, pane: Pane, row: usize) {
         if self.mode != Mode::Normal {
             return;
         }
-        match self.hit(x, y) {
-            Some((Pane::Systems, i)) if i < self.stars.len() => {
+        match (pane, row) {
+            (Pane::Systems, i) if i < self.stars.len() => {
                 self.focus = Pane::Systems;
                 if self.star_row != i {
                     self.star_row = i;
                     self.cand_row = 0;
                 }
             }
-            Some((Pane::Candidates, i)) if i < self.members().len() => {
+            (Pane::Candidates, i) if i < self.members().len() => {
                 self.focus = Pane::Candidates;
                 self.cand_row = i;
             }
@@ -440,7 +440,7 @@ impl App {
     }
 
     /// The wheel moves the selection of the list under the pointer by three rows.
-    fn scroll(&mut self, x: u16, y: u16, down: bool) {
+    fn scroll(&mut self, pane: Pane, down: bool) {
         if self.mode != Mode::Normal {
             return;
         }
@@ -451,16 +451,15 @@ impl App {
                 row.saturating_sub(3)
             }
         };
-        match self.hit(x, y).map(|h| h.0) {
-            Some(Pane::Systems) => {
+        match pane {
+            Pane::Systems => {
                 let to = step(self.star_row, self.stars.len());
                 if to != self.star_row {
                     self.star_row = to;
                     self.cand_row = 0;
                 }
             }
-            Some(Pane::Candidates) => self.cand_row = step(self.cand_row, self.members().len()),
-            None => {}
+            Pane::Candidates => self.cand_row = step(self.cand_row, self.members().len()),
         }
     }
 
@@ -569,12 +568,12 @@ impl App {
                 Vec::new()
             }
             Input::Action(a) => self.act(a),
-            Input::Click(x, y) => {
-                self.click(x, y);
+            Input::Pick(pane, row) => {
+                self.click(pane, row);
                 Vec::new()
             }
-            Input::Scroll(x, y, down) => {
-                self.scroll(x, y, down);
+            Input::Wheel(pane, down) => {
+                self.scroll(pane, down);
                 Vec::new()
             }
         };

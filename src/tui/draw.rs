@@ -10,7 +10,7 @@ use ratatui::widgets::{
     Axis, Block, Borders, Cell, Chart, Clear, Dataset, GraphType, Paragraph, Row, Table, Wrap,
 };
 
-use super::app::{App, Mode, Pane, PromptKind, SignalResult};
+use super::app::{App, Hits, Mode, Pane, PromptKind, SignalResult};
 use crate::catalogue::{CandidateId, Field};
 use crate::decision::ALL_REASONS;
 use crate::lightcurve::analysis::{Binned, Views};
@@ -104,11 +104,13 @@ fn verdict_style(look: Look, v: Verdict) -> Style {
 
 /// Draws the browser; with `look.ascii` nothing above byte 127 is left in
 /// the frame (see `ascii`).
-pub fn draw(app: &App, frame: &mut Frame, look: Look) {
-    draw_screen(app, frame, look);
+pub fn draw(app: &App, frame: &mut Frame, look: Look) -> Hits {
+    let mut hits = Hits::default();
+    draw_screen(app, frame, look, &mut hits);
     if look.ascii {
         ascii::asciify(frame.buffer_mut());
     }
+    hits
 }
 
 /// Text in the look's alphabet: symbols spelled in ASCII when it is ASCII.
@@ -120,11 +122,8 @@ fn spelled(look: Look, text: String) -> String {
     }
 }
 
-fn draw_screen(app: &App, frame: &mut Frame, look: Look) {
+fn draw_screen(app: &App, frame: &mut Frame, look: Look, hits: &mut Hits) {
     let area = frame.area();
-    // Nothing to click until the lists are drawn again.
-    app.hits.systems.set((Rect::default(), 0));
-    app.hits.candidates.set((Rect::default(), 0));
     if area.width < MIN_SIZE.0 || area.height < MIN_SIZE.1 {
         let msg = format!(
             "starsift needs at least {}x{}; this terminal is {}x{}",
@@ -148,8 +147,8 @@ fn draw_screen(app: &App, frame: &mut Frame, look: Look) {
         Layout::vertical([Constraint::Percentage(65), Constraint::Percentage(35)]).areas(left);
     let [candidates, signal] =
         Layout::vertical([Constraint::Percentage(45), Constraint::Percentage(55)]).areas(right);
-    draw_systems(app, frame, systems, look);
-    draw_candidates(app, frame, candidates, look);
+    hits.systems = draw_systems(app, frame, systems, look);
+    hits.candidates = draw_candidates(app, frame, candidates, look);
     draw_signal(app, frame, signal, look);
     draw_facts(app, frame, facts, look);
     draw_what_if(app, frame, whatif, look);
@@ -245,7 +244,8 @@ fn direction(look: Look, descending: bool) -> &'static str {
     }
 }
 
-fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+/// Draws the candidates pane; returns where its rows are (for the mouse).
+fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) -> (Rect, usize) {
     let order = match (app.cand_sort, app.cand_descending) {
         (super::app::CandidateSort::File, false) => String::new(),
         (k, d) => format!("· by {}{} ", k.name(), direction(look, d)),
@@ -260,7 +260,7 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let members = app.members();
     let height = inner.height.saturating_sub(1) as usize;
     let (a, z) = window(app.cand_row, members.len(), height);
-    app.hits.candidates.set((rows_area(inner), a));
+    let placed = (rows_area(inner), a);
     let v = |f, c| app.cat.value(f, c);
     // Columns by priority (0 always: id, odds, verdict, decision); as many
     // as fit are shown, in this order. Headers name the filter field and
@@ -357,6 +357,7 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             .header(Row::new(header).style(Style::default().add_modifier(Modifier::BOLD))),
         inner,
     );
+    placed
 }
 
 fn draw_ledger(app: &App, frame: &mut Frame, area: Rect, look: Look) {

@@ -7,7 +7,7 @@ use ratatui::crossterm::event::{
     Event, KeyCode, KeyEvent, KeyEventKind, KeyModifiers, MouseButton, MouseEventKind,
 };
 
-use super::app::{Action, App, Edit, Input, Mode};
+use super::app::{Action, App, Edit, Hits, Input, Mode};
 use super::keymap::{ALWAYS_QUITS, Key, KeyName};
 
 /// What one terminal event asks of the browser.
@@ -17,7 +17,9 @@ pub enum Translated {
     Nothing,
 }
 
-pub fn translate(app: &App, event: Event) -> Translated {
+/// `hits`: where the last frame drew the lists, to find the row a click or
+/// the wheel is over.
+pub fn translate(app: &App, hits: &Hits, event: Event) -> Translated {
     let input = match event {
         Event::Key(k) if k.kind == KeyEventKind::Press => {
             let Some(key) = Key::from_event(&k) else {
@@ -46,9 +48,15 @@ pub fn translate(app: &App, event: Event) -> Translated {
         Event::Paste(text) => Some(Input::Paste(text)),
         Event::Resize(w, h) => Some(Input::Resize(w, h)),
         Event::Mouse(m) => match m.kind {
-            MouseEventKind::Down(MouseButton::Left) => Some(Input::Click(m.column, m.row)),
-            MouseEventKind::ScrollDown => Some(Input::Scroll(m.column, m.row, true)),
-            MouseEventKind::ScrollUp => Some(Input::Scroll(m.column, m.row, false)),
+            MouseEventKind::Down(MouseButton::Left) => hits
+                .at(m.column, m.row)
+                .map(|(pane, row)| Input::Pick(pane, row)),
+            MouseEventKind::ScrollDown => hits
+                .at(m.column, m.row)
+                .map(|(pane, _)| Input::Wheel(pane, true)),
+            MouseEventKind::ScrollUp => hits
+                .at(m.column, m.row)
+                .map(|(pane, _)| Input::Wheel(pane, false)),
             _ => None,
         },
         _ => None,

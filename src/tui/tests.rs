@@ -1,6 +1,7 @@
 //! The browser without a terminal: actions → state, and rendering on
 //! ratatui's TestBackend at 80x24 and at a tiny size.
 
+use crate::tui::app::Hits;
 use ratatui::Terminal;
 use ratatui::backend::TestBackend;
 
@@ -75,6 +76,24 @@ fn typed(app: &mut App, text: &str) {
     }
 }
 
+/// Where a frame of `w` x `h` draws the lists.
+fn frame_hits(app: &App, w: u16, h: u16) -> Hits {
+    let mut t = Terminal::new(TestBackend::new(w, h)).unwrap();
+    let mut hits = Hits::default();
+    t.draw(|f| {
+        hits = draw(
+            app,
+            f,
+            Look {
+                palette: super::draw::Palette::None,
+                ascii: true,
+            },
+        )
+    })
+    .unwrap();
+    hits
+}
+
 fn screen(app: &App, w: u16, h: u16) -> String {
     let mut t = Terminal::new(TestBackend::new(w, h)).unwrap();
     t.draw(|f| {
@@ -85,7 +104,7 @@ fn screen(app: &App, w: u16, h: u16) -> String {
                 palette: super::draw::Palette::None,
                 ascii: true,
             },
-        )
+        );
     })
     .unwrap();
     let buf = t.backend().buffer().clone();
@@ -557,28 +576,30 @@ fn the_candidates_pane_sorts_its_members() {
 #[test]
 fn clicks_select_rows_and_the_wheel_scrolls() {
     let mut app = demo_app();
-    let _ = screen(&app, 100, 30); // the lists' places come from a frame
-    let (rows, first) = app.hits.systems.get();
+    // The lists' places come from a frame; the event loop keeps the last.
+    let hits = frame_hits(&app, 100, 30);
+    let (rows, first) = hits.systems;
     assert!(rows.height > 5 && first == 0);
+    let pick = |app: &mut App, hits: &Hits, x: u16, y: u16| {
+        if let Some((pane, row)) = hits.at(x, y) {
+            app.update(Input::Pick(pane, row));
+        }
+    };
     // The fourth system's row.
-    app.update(Input::Click(rows.x + 2, rows.y + 3));
+    pick(&mut app, &hits, rows.x + 2, rows.y + 3);
     assert_eq!((app.focus, app.star_row), (Pane::Systems, 3));
-    app.update(Input::Scroll(rows.x + 2, rows.y, true));
+    app.update(Input::Wheel(Pane::Systems, true));
     assert_eq!(app.star_row, 6);
-    app.update(Input::Scroll(rows.x + 2, rows.y, false));
+    app.update(Input::Wheel(Pane::Systems, false));
     assert_eq!(app.star_row, 3);
-    let _ = screen(&app, 100, 30);
-    let (cands, _) = app.hits.candidates.get();
-    app.update(Input::Click(cands.x + 1, cands.y + 1));
+    let hits = frame_hits(&app, 100, 30);
+    let (cands, _) = hits.candidates;
+    pick(&mut app, &hits, cands.x + 1, cands.y + 1);
     assert_eq!((app.focus, app.cand_row), (Pane::Candidates, 1));
     // Outside the lists, or under an overlay, nothing happens.
-    app.update(Input::Click(0, 29));
-    assert_eq!(
-        (app.focus, app.star_row, app.cand_row),
-        (Pane::Candidates, 3, 1)
-    );
+    assert_eq!(hits.at(0, 29), None);
     act(&mut app, Action::Help);
-    app.update(Input::Click(rows.x + 2, rows.y));
+    pick(&mut app, &hits, rows.x + 2, rows.y);
     assert_eq!(app.star_row, 3);
 }
 
@@ -597,7 +618,7 @@ fn palettes_paint_16_256_and_true_colour_and_none() {
                     palette,
                     ascii: false,
                 },
-            )
+            );
         })
         .unwrap();
         let buf = t.backend().buffer().clone();

@@ -70,14 +70,15 @@ pub fn sparkline(app: &App, c: CandidateId, look: Look) -> (String, bool) {
     (line, measured)
 }
 
-pub(super) fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) {
+/// Draws the systems pane; returns where its rows are (for the mouse).
+pub(super) fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look) -> (Rect, usize) {
     let title = systems_title(app, area.width.saturating_sub(4) as usize, look);
     let b = block(title, app.focus == Pane::Systems, look);
     let inner = b.inner(area);
     frame.render_widget(b, area);
     let height = inner.height.saturating_sub(1) as usize;
     let (a, z) = window(app.star_row, app.stars.len(), height);
-    app.hits.systems.set((rows_area(inner), a));
+    let placed = (rows_area(inner), a);
     // The fold sparkline only where the id, k, odds and some flags still fit.
     let with_fold = inner.width >= 40;
     // The id column as wide as the ids shown (what is left beside k, odds,
@@ -164,6 +165,7 @@ pub(super) fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look)
         .column_spacing(1)
         .header(Row::new(header).style(Style::default().add_modifier(Modifier::BOLD)));
     frame.render_widget(table, inner);
+    placed
 }
 
 /// The Systems title in `room` columns: the count, then the filter in
