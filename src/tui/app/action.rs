@@ -37,122 +37,120 @@ pub enum Action {
     Close,
 }
 
-impl Action {
-    pub const ALL: [Action; 31] = [
-        Action::Quit,
-        Action::Help,
-        Action::Find,
+/// Every action once: its name in key maps and the line the help shows, in
+/// the enum's order (a test holds the two together). Default keys live in
+/// `keymaps/default.toml`; every hint on screen asks the key map in effect.
+const TABLE: [(Action, &str, &str); 31] = [
+    (Action::Quit, "quit", "leave the browser"),
+    (Action::Help, "help", "show these keys"),
+    (Action::Find, "find", "fuzzy-find a star or candidate by id"),
+    (
         Action::Filter,
+        "filter",
+        "filter the systems (e.g. odds>=100 flag:echo decision:open)",
+    ),
+    (
         Action::SortNext,
+        "sort-next",
+        "sort by the next column (systems, or the candidates of a system)",
+    ),
+    (
         Action::SortReverse,
-        Action::Keep,
+        "sort-reverse",
+        "reverse the sort of the pane",
+    ),
+    (Action::Keep, "keep", "keep the candidate"),
+    (
         Action::Reject,
-        Action::Park,
-        Action::Reopen,
-        Action::Undo,
-        Action::Redo,
-        Action::Up,
-        Action::Down,
-        Action::PageUp,
-        Action::PageDown,
-        Action::Top,
-        Action::Bottom,
-        Action::NextPane,
-        Action::PrevPane,
+        "reject",
+        "reject the candidate (pick a reason)",
+    ),
+    (Action::Park, "park", "park the candidate (needs more data)"),
+    (Action::Reopen, "reopen", "reopen the candidate"),
+    (Action::Undo, "undo", "undo the last decision"),
+    (Action::Redo, "redo", "redo an undone decision"),
+    (Action::Up, "up", "move up"),
+    (Action::Down, "down", "move down"),
+    (Action::PageUp, "page-up", "move a page up"),
+    (Action::PageDown, "page-down", "move a page down"),
+    (Action::Top, "top", "go to the first row"),
+    (Action::Bottom, "bottom", "go to the last row"),
+    (Action::NextPane, "next-pane", "next pane"),
+    (Action::PrevPane, "prev-pane", "previous pane"),
+    (
         Action::Select,
-        Action::NextOpen,
-        Action::PrevOpen,
-        Action::NextFlagged,
+        "select",
+        "open the selected system / accept the prompt",
+    ),
+    (Action::NextOpen, "next-open", "next open candidate"),
+    (Action::PrevOpen, "prev-open", "previous open candidate"),
+    (Action::NextFlagged, "next-flagged", "next star with a flag"),
+    (
         Action::ToggleAdvance,
+        "toggle-advance",
+        "advance to the next open candidate after a decision (on/off)",
+    ),
+    (
         Action::CopyId,
+        "copy-id",
+        "copy the selected id to the clipboard (OSC 52)",
+    ),
+    (
         Action::WriteFigure,
+        "write-figure",
+        "write the selected candidate's one-page figure (SVG) into starsift-figures/",
+    ),
+    (
         Action::ShowLedger,
+        "show-ledger",
+        "show the ledger history of the selected system instead of its facts (and back)",
+    ),
+    (
         Action::SignalView,
+        "signal-view",
+        "signal pane: all transits, odd beside even, or the secondary window (cycles)",
+    ),
+    (
         Action::ApplyToFilter,
-        Action::Close,
-    ];
+        "apply-to-filter",
+        "apply one decision to every candidate matching the filter (asks first)",
+    ),
+    (Action::Close, "close", "close a prompt or overlay"),
+];
+
+impl Action {
+    pub const ALL: [Action; 31] = {
+        let mut all = [Action::Quit; 31];
+        let mut i = 0;
+        while i < TABLE.len() {
+            all[i] = TABLE[i].0;
+            i += 1;
+        }
+        all
+    };
 
     pub fn name(self) -> &'static str {
-        match self {
-            Action::Quit => "quit",
-            Action::Help => "help",
-            Action::Find => "find",
-            Action::Filter => "filter",
-            Action::SortNext => "sort-next",
-            Action::SortReverse => "sort-reverse",
-            Action::Keep => "keep",
-            Action::Reject => "reject",
-            Action::Park => "park",
-            Action::Reopen => "reopen",
-            Action::Undo => "undo",
-            Action::Redo => "redo",
-            Action::Up => "up",
-            Action::Down => "down",
-            Action::PageUp => "page-up",
-            Action::PageDown => "page-down",
-            Action::Top => "top",
-            Action::Bottom => "bottom",
-            Action::NextPane => "next-pane",
-            Action::PrevPane => "prev-pane",
-            Action::Select => "select",
-            Action::NextOpen => "next-open",
-            Action::PrevOpen => "prev-open",
-            Action::NextFlagged => "next-flagged",
-            Action::ToggleAdvance => "toggle-advance",
-            Action::CopyId => "copy-id",
-            Action::WriteFigure => "write-figure",
-            Action::ShowLedger => "show-ledger",
-            Action::SignalView => "signal-view",
-            Action::ApplyToFilter => "apply-to-filter",
-            Action::Close => "close",
-        }
+        TABLE[self as usize].1
     }
 
     pub fn describe(self) -> &'static str {
-        match self {
-            Action::Quit => "leave the browser",
-            Action::Help => "show these keys",
-            Action::Find => "fuzzy-find a star or candidate by id",
-            Action::Filter => "filter the systems (e.g. odds>=100 flag:echo decision:open)",
-            Action::SortNext => "sort by the next column (systems, or the candidates of a system)",
-            Action::SortReverse => "reverse the sort of the pane",
-            Action::Keep => "keep the candidate",
-            Action::Reject => "reject the candidate (pick a reason)",
-            Action::Park => "park the candidate (needs more data)",
-            Action::Reopen => "reopen the candidate",
-            Action::Undo => "undo the last decision",
-            Action::Redo => "redo an undone decision",
-            Action::Up => "move up",
-            Action::Down => "move down",
-            Action::PageUp => "move a page up",
-            Action::PageDown => "move a page down",
-            Action::Top => "go to the first row",
-            Action::Bottom => "go to the last row",
-            Action::NextPane => "next pane",
-            Action::PrevPane => "previous pane",
-            Action::Select => "open the selected system / accept the prompt",
-            Action::NextOpen => "next open candidate",
-            Action::PrevOpen => "previous open candidate",
-            Action::NextFlagged => "next star with a flag",
-            Action::ToggleAdvance => "advance to the next open candidate after a decision (on/off)",
-            Action::CopyId => "copy the selected id to the clipboard (OSC 52)",
-            Action::WriteFigure => {
-                "write the selected candidate's one-page figure (SVG) into starsift-figures/"
-            }
-            Action::ShowLedger => {
-                "show the ledger history of the selected system instead of its facts (and back)"
-            }
-            Action::SignalView => {
-                "signal pane: all transits, odd beside even, or the secondary window (cycles)"
-            }
-            Action::ApplyToFilter => {
-                "apply one decision to every candidate matching the filter (asks first)"
-            }
-            Action::Close => "close a prompt or overlay",
-        }
+        TABLE[self as usize].2
     }
 
     pub fn from_name(s: &str) -> Option<Action> {
         Action::ALL.into_iter().find(|a| a.name() == s)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_table_follows_the_enum() {
+        for (i, (a, name, _)) in TABLE.iter().enumerate() {
+            assert_eq!(*a as usize, i, "{name}");
+            assert_eq!(Action::from_name(name), Some(*a));
+        }
     }
 }
