@@ -49,6 +49,28 @@ pub struct Session {
     pub lightcurve_totals: crate::checks::LightcurveTotals,
 }
 
+/// The odds of a catalogue from its checks and the ledger's latest
+/// decisions (every candidate open without a ledger): the one place a
+/// `Live` is built, for every command (through [`Session`]) and the browser.
+pub fn odds_of(
+    cat: &crate::catalogue::Catalogue,
+    model: crate::odds::Model,
+    checks: &Checks,
+    latest: Option<&Latest>,
+) -> Result<Live, ModelError> {
+    let decisions = match latest {
+        Some(l) => l.decisions(cat),
+        None => vec![Decision::Open; cat.len()],
+    };
+    Live::with_state(
+        cat,
+        model,
+        checks.all_flags().to_vec(),
+        checks.groups().clone(),
+        decisions,
+    )
+}
+
 impl Session {
     /// Loads the catalogue, runs every check (light curves included unless
     /// `--no-lightcurves`), reads the ledger and builds the odds.
@@ -120,19 +142,8 @@ impl Session {
             ),
             None => (Latest::default(), BTreeMap::new(), Vec::new(), None),
         };
-        let decisions = if opened.is_some() {
-            latest.decisions(cat)
-        } else {
-            vec![Decision::Open; cat.len()]
-        };
         let live = match model {
-            Ok(m) => Live::with_state(
-                cat,
-                m,
-                checks.all_flags().to_vec(),
-                checks.groups().clone(),
-                decisions,
-            ),
+            Ok(m) => odds_of(cat, m, &checks, opened.as_ref().map(|_| &latest)),
             Err(CliError::Model(e)) => Err(e),
             Err(e) => return Err(e),
         };

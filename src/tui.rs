@@ -143,20 +143,13 @@ fn build_app_counting(
         (Some(l), notes)
     };
     let cat = &loaded.catalogue;
-    let decisions: Vec<crate::decision::Decision> = match &ledger {
-        Some(l) => {
-            let latest = l.latest(ledger_args.vetter.as_deref())?;
-            latest.decisions(cat)
-        }
-        None => vec![crate::decision::Decision::Open; cat.len()],
+    let latest = match &ledger {
+        Some(l) => Some(l.latest(ledger_args.vetter.as_deref())?),
+        None => None,
     };
-    let live = crate::odds::Live::with_state(
-        cat,
-        model.model(&loaded.survey)?,
-        checks.all_flags().to_vec(),
-        checks.groups().clone(),
-        decisions,
-    )?;
+    // The same odds as every command's session; the checks arrive later.
+    let live =
+        crate::session::odds_of(cat, model.model(&loaded.survey)?, &checks, latest.as_ref())?;
     let mut app = App::new(
         Arc::new(loaded.catalogue),
         live,
