@@ -308,6 +308,13 @@ impl Ledger {
                     last = Some(e);
                     std::thread::sleep(backoff(attempt));
                 }
+                // A ledger being created this very moment by another
+                // process can read as damaged for an instant: look again.
+                Err(Prepare::Fatal(LedgerError::Damaged { .. }))
+                    if attempt < 6 && file::just_written(&self.path) =>
+                {
+                    std::thread::sleep(backoff(attempt));
+                }
                 Err(Prepare::Fatal(e)) => return Err(e),
             }
         }

@@ -108,6 +108,41 @@ pub fn classify(path: &Path, e: rusqlite::Error) -> LedgerError {
 
 /// Refuses a file that is not a starsift ledger without writing to it.
 pub(super) fn check_ours(path: &Path) -> Result<(), LedgerError> {
+    // A ledger another starsift is creating this very moment can read as
+    // damaged for an instant (its header written, its first pages not yet):
+    // a file modified in the last few seconds is looked at again, briefly,
+    // before it is called damaged. An old damaged file is reported at once.
+    let mut attempt = 0;
+    loop {
+        match check_ours_once(path) {
+            Err(LedgerError::Damaged { .. }) if attempt < FRESH_RETRIES && just_written(path) => {
+                std::thread::sleep(super::backoff(attempt));
+                attempt += 1;
+            }
+            other => return other,
+        }
+    }
+}
+
+/// Looks at a damaged-looking ledger again this many times when it was
+/// written in the last [`FRESH_SECONDS`] (about 1 s in all).
+const FRESH_RETRIES: u32 = 6;
+const FRESH_SECONDS: u64 = 5;
+
+/// True when the file (or its write-ahead log) changed in the last
+/// [`FRESH_SECONDS`].
+pub(super) fn just_written(path: &Path) -> bool {
+    let recent = |p: &Path| {
+        std::fs::metadata(p)
+            .and_then(|m| m.modified())
+            .ok()
+            .and_then(|t| t.elapsed().ok())
+            .is_some_and(|age| age.as_secs() < FRESH_SECONDS)
+    };
+    recent(path) || recent(Path::new(&format!("{}-wal", path.display())))
+}
+
+fn check_ours_once(path: &Path) -> Result<(), LedgerError> {
     let name = path.display().to_string();
     let foreign = |why: String| LedgerError::Foreign {
         path: name.clone(),
