@@ -1,6 +1,7 @@
 //! Catalogues in astronomy's table formats: IPAC ASCII tables, VOTables
-//! (TABLEDATA), FITS binary tables and ECSV, besides CSV/TSV. Each is known
-//! by its extension or its first bytes and turned into tab-separated text
+//! (TABLEDATA, BINARY, BINARY2), FITS binary tables and ECSV, besides
+//! CSV/TSV. Each is known by its extension or its first bytes and turned
+//! into tab-separated text
 //! with the units its header states, which the loader then reads like any
 //! other file (one loader, one set of row checks).
 
@@ -41,7 +42,7 @@ impl TableFormat {
 
 /// The formats read, for error messages.
 pub const FORMATS_READ: &str = "CSV or TSV (.csv, .tsv, .txt), IPAC ASCII (.tbl, .ipac), \
-     VOTable with TABLEDATA (.vot, .votable, .xml), FITS binary table (.fits, .fit, .fts) and \
+     VOTable (TABLEDATA, BINARY or BINARY2; .vot, .votable, .xml), FITS binary table (.fits, .fit, .fts) and \
      ECSV (.ecsv), each also gzipped";
 
 /// The format of a file, from its name and its first bytes (decompressed).
