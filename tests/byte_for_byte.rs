@@ -1,0 +1,239 @@
+//! What the commands print, held byte for byte: the demo (light curves
+//! read), a generated catalogue of 20,000 candidates, the same with a copy
+//! of every tenth signal on an invented neighbour 4″ away (2,000 echoes),
+//! and the generated catalogue with three decisions in a ledger.
+//!
+//! Each output (stdout, then stderr) is reduced to an FNV-1a 64-bit hash and
+//! its length; the expected values were taken from the build before the
+//! survey-scale work on output and checks (commit c215411), so any change
+//! in a byte fails here. When an output changes on purpose, run with
+//! `STARSIFT_PRINT_HASHES=1` and paste the printed table.
+
+mod common;
+
+use std::path::Path;
+use std::process::Command;
+
+/// FNV-1a, 64 bits (Fowler, Noll, Vo; the published offset basis and
+/// prime).
+fn fnv1a(bytes: &[u8]) -> u64 {
+    let mut h: u64 = 0xcbf2_9ce4_8422_2325;
+    for &b in bytes {
+        h ^= u64::from(b);
+        h = h.wrapping_mul(0x0000_0100_0000_01b3);
+    }
+    h
+}
+
+/// The clock left out: the report's `written:` line, and each ISO 8601
+/// time (`2026-12-02T22:02:19.913Z`, a decision's) becomes `<time>`.
+fn without_clock(text: &[u8]) -> Vec<u8> {
+    let shape = b"dddd-dd-ddTdd:dd:dd";
+    let is_time = |at: &[u8]| {
+        at.len() >= shape.len()
+            && shape.iter().zip(at).all(|(&s, &b)| {
+                if s == b'd' {
+                    b.is_ascii_digit()
+                } else {
+                    s == b
+                }
+            })
+    };
+    let mut out = Vec::with_capacity(text.len());
+    for line in text.split_inclusive(|&b| b == b'\n') {
+        if line.starts_with(b"- written: ") {
+            continue;
+        }
+        let mut i = 0;
+        while i < line.len() {
+            if is_time(&line[i..]) {
+                out.extend_from_slice(b"<time>");
+                i += shape.len();
+                while i < line.len() && (line[i] == b'.' || line[i].is_ascii_digit()) {
+                    i += 1;
+                }
+                if line.get(i) == Some(&b'Z') {
+                    i += 1;
+                }
+            } else {
+                out.push(line[i]);
+                i += 1;
+            }
+        }
+    }
+    out
+}
+
+fn run(dir: &Path, args: &[&str]) -> (u64, usize) {
+    let o = Command::new(env!("CARGO_BIN_EXE_starsift"))
+        .args(args)
+        .current_dir(dir)
+        .env("NO_COLOR", "1")
+        .env("USER", "tester")
+        .env("HOME", dir)
+        .env("XDG_DATA_HOME", dir.join("data"))
+        .output()
+        .expect("run starsift");
+    let mut all = without_clock(&o.stdout);
+    all.extend_from_slice(b"\n--- stderr ---\n");
+    all.extend_from_slice(&without_clock(&o.stderr));
+    all.extend_from_slice(format!("\n--- status {:?} ---\n", o.status.code()).as_bytes());
+    (fnv1a(&all), all.len())
+}
+
+/// `gen.csv` with a copy of every tenth row on a new star `CPY…`: the same
+/// period and epoch, 0.4 of the depth, 0.0012° north (4.3″).
+fn with_echoes(gen_csv: &str) -> String {
+    let mut out = String::with_capacity(gen_csv.len() * 11 / 10);
+    for (i, line) in gen_csv.lines().enumerate() {
+        out.push_str(line);
+        out.push('\n');
+        if i >= 1 && (i - 1) % 10 == 0 {
+            let mut cells: Vec<String> = line.split(',').map(str::to_string).collect();
+            cells[0] = format!("CPY{}", &cells[0][3..]);
+            cells[1] = format!("CPY{}", &cells[1][3..]);
+            let depth: f64 = cells[6].parse().unwrap();
+            cells[6] = format!("{:.1}", depth * 0.4);
+            let dec: f64 = cells[15].parse().unwrap();
+            cells[15] = format!("{:.5}", dec + 0.0012);
+            out.push_str(&cells.join(","));
+            out.push('\n');
+        }
+    }
+    out
+}
+
+const COMMANDS: [&[&str]; 7] = [
+    &["odds", "--format", "csv"],
+    &["odds"],
+    &["odds", "--format", "json"],
+    &["checks", "--format", "csv"],
+    &["checks"],
+    &["export"],
+    &["report"],
+];
+
+/// (case, command, FNV-1a of stdout + stderr + status, length).
+const EXPECTED: &[(&str, &str, u64, usize)] = &[
+    ("gen", "generate", 0x2d940c46437c816c, 74),
+    ("demo", "odds --format csv", 0x3eeb14922058332e, 42426),
+    ("gen", "odds --format csv", 0x3d9d5e21c89b1853, 1982069),
+    ("echo", "odds --format csv", 0x1ddcf3906cd4f645, 2134069),
+    ("demo", "odds", 0xe5cb306f179fbaad, 39255),
+    ("gen", "odds", 0x1a16f6f3c57bd232, 1681628),
+    ("echo", "odds", 0x531c79fa5beb7b85, 1883729),
+    ("demo", "odds --format json", 0xd785c480a9066c66, 160662),
+    ("gen", "odds --format json", 0xd72094f136e2c454, 7090497),
+    ("echo", "odds --format json", 0xfceee73da0006b2b, 7804566),
+    ("demo", "checks --format csv", 0x1ccf02ac59b5fa19, 99800),
+    ("gen", "checks --format csv", 0xa01c747cf1c3eb70, 4322154),
+    ("echo", "checks --format csv", 0x821be20af612662a, 5325711),
+    ("demo", "checks", 0x8f733b765809421d, 39921),
+    ("gen", "checks", 0x850e9e48bb8fa8ef, 1587009),
+    ("echo", "checks", 0x60ca35489296ec9c, 2381043),
+    ("demo", "export", 0x6b8778ae61421a40, 102102),
+    ("gen", "export", 0xd7d1c4bc59072dce, 4051614),
+    ("echo", "export", 0x67bd60be554328ee, 4417481),
+    ("demo", "report", 0xde8cff5ff4a92af6, 16532),
+    ("gen", "report", 0xd16791ca7ec9fda4, 2495),
+    ("echo", "report", 0x2d09016d09fe34f0, 114596),
+    ("demo", "summary", 0x25448f7676f8f115, 1991),
+    ("gen", "summary", 0x55408ce93e313e46, 1654),
+    ("ledger", "decide --from", 0xab0575173d17932f, 90),
+    ("ledger", "odds --format csv", 0x4197f027f7cd38a6, 1989076),
+    ("ledger", "export", 0xdfddc07ba813728f, 4058707),
+];
+
+#[test]
+fn every_command_prints_what_it_printed_before() {
+    let dir = common::scratch("byte-for-byte");
+    let gen_out = run(
+        &dir,
+        &[
+            "generate",
+            "big",
+            "--candidates",
+            "20000",
+            "--seed",
+            "7",
+            "--out",
+            "gen.csv",
+        ],
+    );
+    let gen_csv = std::fs::read_to_string(dir.join("gen.csv")).expect("gen.csv written");
+    std::fs::write(dir.join("echo.csv"), with_echoes(&gen_csv)).unwrap();
+    std::fs::write(
+        dir.join("decisions.csv"),
+        "candidate,decision,reason,note\n\
+         SYN0000003-s1,rejected,eclipsing-binary,secondary seen\n\
+         SYN0000010-s1,rejected,artefact,\n\
+         SYN0000012-s1,kept,,\"looks fine, for now\"\n",
+    )
+    .unwrap();
+    let mut got: Vec<(String, String, u64, usize)> = Vec::new();
+    let key = |args: &[&str]| args.join(" ");
+    got.push(("gen".into(), "generate".into(), gen_out.0, gen_out.1));
+    let model = ["--no-lightcurves", "--targets", "40000"];
+    for command in COMMANDS {
+        let (h, n) = run(&dir, command);
+        got.push(("demo".into(), key(command), h, n));
+        for case in ["gen", "echo"] {
+            let file = format!("{case}.csv");
+            let mut args: Vec<&str> = command.to_vec();
+            args.push(&file);
+            args.extend(model);
+            let (h, n) = run(&dir, &args);
+            got.push((case.into(), key(command), h, n));
+        }
+    }
+    for (case, args) in [("demo", &["summary"][..]), ("gen", &["summary", "gen.csv"])] {
+        let (h, n) = run(&dir, args);
+        got.push((case.into(), "summary".into(), h, n));
+    }
+    // Decisions: a batch, then the commands that read them.
+    let ledger = ["--ledger", "gen.sqlite"];
+    let mut decide = vec![
+        "decide",
+        "gen.csv",
+        "--from",
+        "decisions.csv",
+        "--vetter",
+        "ann",
+    ];
+    decide.extend(model);
+    decide.extend(ledger);
+    let (h, n) = run(&dir, &decide);
+    got.push(("ledger".into(), "decide --from".into(), h, n));
+    for command in [&["odds", "--format", "csv"][..], &["export"]] {
+        let mut args: Vec<&str> = command.to_vec();
+        args.push("gen.csv");
+        args.extend(model);
+        args.extend(ledger);
+        let (h, n) = run(&dir, &args);
+        got.push(("ledger".into(), key(command), h, n));
+    }
+    if std::env::var_os("STARSIFT_PRINT_HASHES").is_some() {
+        for (case, command, h, n) in &got {
+            println!("    ({case:?}, {command:?}, {h:#018x}, {n}),");
+        }
+    }
+    let mut wrong = Vec::new();
+    for (case, command, h, n) in &got {
+        match EXPECTED.iter().find(|e| e.0 == case && e.1 == command) {
+            Some(e) if e.2 == *h && e.3 == *n => {}
+            Some(e) => wrong.push(format!(
+                "{case} `{command}`: {h:#018x} ({n} bytes), expected {:#018x} ({} bytes)",
+                e.2, e.3
+            )),
+            None => wrong.push(format!("{case} `{command}`: no expected value")),
+        }
+    }
+    assert!(
+        EXPECTED.len() == got.len(),
+        "{} expected, {} run",
+        EXPECTED.len(),
+        got.len()
+    );
+    assert!(wrong.is_empty(), "outputs changed:\n{}", wrong.join("\n"));
+    let _ = std::fs::remove_dir_all(&dir);
+}
