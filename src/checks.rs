@@ -266,19 +266,6 @@ impl Checks {
             .join("; ")
     }
 
-    /// Adds everything `other` found.
-    fn merge(&mut self, other: Checks) {
-        for (mine, theirs) in self.flags.iter_mut().zip(&other.flags) {
-            theirs.iter().for_each(|f| mine.insert(f));
-        }
-        for (mine, theirs) in self.soft.iter_mut().zip(&other.soft) {
-            theirs.iter().for_each(|f| mine.insert(f));
-        }
-        self.findings.extend(other.findings);
-        // Stable: per candidate, findings keep the order they were found in.
-        self.findings.sort_by_key(|(c, _)| *c);
-    }
-
     /// Adds the flags of the light-curve diagnostics (they fire firmly).
     pub fn add_lightcurve(&mut self, c: CandidateId, findings: &[(Flag, String)]) {
         for (flag, why) in findings {
@@ -304,11 +291,7 @@ pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
     // The cross-star echo sweep is independent of the per-star checks: it
     // runs on a thread of its own and the two results are merged.
     let (mut checks, echoes) = std::thread::scope(|scope| {
-        let echo = scope.spawn(|| {
-            let mut e = empty();
-            echo::check(cat, s, &mut e);
-            e
-        });
+        let echo = scope.spawn(|| echo::check(cat, s));
         let mut checks = empty();
         // Transit densities are needed by the sibling comparison.
         let mut density_transit = vec![f64::NAN; n];
@@ -345,7 +328,11 @@ pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
             echo.join().unwrap_or_else(|e| std::panic::resume_unwind(e)),
         )
     });
-    checks.merge(echoes);
+    for (c, soft, why) in echoes {
+        checks.add(c, Flag::Echo, soft, why);
+    }
+    // Stable: per candidate, findings keep the order they were found in.
+    checks.findings.sort_by_key(|(c, _)| *c);
     checks
 }
 

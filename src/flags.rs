@@ -146,6 +146,16 @@ impl FlagSet {
     }
 
     /// `a;b;c`, as in CSV exports.
+    /// [`FlagSet::joined`] appended to a byte buffer (no allocation).
+    pub fn write_joined(self, sep: &str, out: &mut Vec<u8>) {
+        for (i, f) in self.iter().enumerate() {
+            if i > 0 {
+                out.extend_from_slice(sep.as_bytes());
+            }
+            out.extend_from_slice(f.name().as_bytes());
+        }
+    }
+
     pub fn joined(self, sep: &str) -> String {
         self.iter().map(Flag::name).collect::<Vec<_>>().join(sep)
     }

@@ -3,9 +3,10 @@
 //! 147, 119), and within an angular radius when positions exist. One sort by
 //! period, then a sweep over a bounded window: O(n log n).
 
-use super::{CheckSettings, Checks};
+use std::collections::HashMap;
+
+use super::CheckSettings;
 use crate::catalogue::{CandidateId, Catalogue, Field};
-use crate::flags::Flag;
 
 /// Angular distance, arcsec, by the haversine formula.
 pub fn separation_arcsec(ra1: f64, dec1: f64, ra2: f64, dec2: f64) -> f64 {
@@ -15,6 +16,7 @@ pub fn separation_arcsec(ra1: f64, dec1: f64, ra2: f64, dec2: f64) -> f64 {
     2.0 * h.sqrt().min(1.0).asin().to_degrees() * 3600.0
 }
 
+#[derive(Clone, Copy)]
 struct Sig {
     c: CandidateId,
     star: u32,
@@ -25,14 +27,19 @@ struct Sig {
     t14_d: f64,
 }
 
-pub(super) fn check(cat: &Catalogue, s: &CheckSettings, out: &mut Checks) {
+/// One echo finding: (candidate, soft, why), in the order they are added.
+pub(super) type Finding = (CandidateId, bool, String);
+
+/// The echo findings of the catalogue: each copy, each source it feeds,
+/// and the runs of signals whose window filled up.
+pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
     let col = |f: Field| cat.column(f);
     let (Some(periods), Some(epochs), Some(durations)) = (
         col(Field::PeriodD),
         col(Field::Epoch),
         col(Field::DurationH),
     ) else {
-        return;
+        return Vec::new();
     };
     let per_err = col(Field::PeriodErrD);
     let ep_err = col(Field::EpochErrD);
@@ -57,120 +64,61 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, out: &mut Checks) {
             .total_cmp(&b.period)
             .then(shuffle(a.c).cmp(&shuffle(b.c)))
     });
-    let ra = col(Field::RaDeg);
-    let dec = col(Field::DecDeg);
-    let mag = col(Field::Mag);
-    let depth = col(Field::DepthPpm);
-    // What each candidate is, gathered over all its matches and written out
-    // once at the end: the deepest source it copies, and the copies it
-    // feeds. Memory stays linear in the catalogue whatever the matches.
-    let mut copy_of: Vec<Option<Match>> = vec![None; cat.len()];
-    let mut feeds: Vec<(u32, Option<Match>)> = vec![(0, None); cat.len()];
-    let depth_of = |c: CandidateId| depth.map_or(f64::NAN, |d| d[c as usize]);
-    // One match: b's transits fall on a's (b's period n·P_a, n = 1 or 2,
-    // or a's is twice b's: swap). `a` has the shorter period.
-    let mut matched = |a: &Sig, b: &Sig, n: f64| -> bool {
-        if a.star == b.star {
-            return false;
-        }
-        let dp = (b.period - n * a.period).abs();
-        let sigma_p = (b.period_err.powi(2) + (n * a.period_err).powi(2)).sqrt();
-        let p_tol = if sigma_p > 0.0 {
-            3.0 * sigma_p
-        } else {
-            0.5 * s.echo_max_rel * b.period
-        };
-        if dp > p_tol.min(s.echo_max_rel * b.period) {
-            return false;
-        }
-        // b's transit nearest a's epoch, against a's transits.
-        let nb = ((a.epoch - b.epoch) / b.period).round();
-        let diff = b.epoch + nb * b.period - a.epoch;
-        let na = (diff / a.period).round();
-        let off = diff - na * a.period;
-        let sigma_t = (a.epoch_err.powi(2) + b.epoch_err.powi(2) + (nb * sigma_p).powi(2)).sqrt();
-        let t_tol = (3.0 * sigma_t).max(0.25 * a.t14_d.min(b.t14_d));
-        if off.abs() > t_tol {
-            return false;
-        }
-        let sep = match (ra, dec) {
-            (Some(ra), Some(dec)) => {
-                let (i1, i2) = (a.c as usize, b.c as usize);
-                let v = separation_arcsec(ra[i1], dec[i1], ra[i2], dec[i2]);
-                if v.is_finite() && v > s.echo_radius_arcsec {
-                    return false;
-                }
-                v.is_finite().then_some(v)
-            }
-            _ => None,
-        };
-        // Dilution only makes a copy shallower: the deeper eclipse is the
-        // source (docs/science.md §3.3); magnitudes decide only without depths.
-        let (da, db) = (depth_of(a.c), depth_of(b.c));
-        let (copy, source, fainter) = if da.is_finite() && db.is_finite() && da != db {
-            if da < db {
-                (a.c, b.c, false)
-            } else {
-                (b.c, a.c, false)
-            }
-        } else {
-            let (ma, mb) = mag.map_or((f64::NAN, f64::NAN), |m| (m[a.c as usize], m[b.c as usize]));
-            if ma.is_finite() && mb.is_finite() && ma > mb {
-                (a.c, b.c, true)
-            } else {
-                (b.c, a.c, true)
-            }
-        };
-        let m = Match {
-            other: source,
-            dp,
-            off_h: off.abs() * 24.0,
-            n,
-            sep,
-            fainter,
-        };
-        let slot = &mut copy_of[copy as usize];
-        if slot.is_none_or(|old| depth_of(source) > depth_of(old.other)) {
-            *slot = Some(m);
-        }
-        let fed = &mut feeds[source as usize];
-        fed.0 += 1;
-        fed.1.get_or_insert(Match { other: copy, ..m });
-        true
+    let pair = Pair {
+        s,
+        ra: col(Field::RaDeg),
+        dec: col(Field::DecDeg),
+        mag: col(Field::Mag),
+        depth: col(Field::DepthPpm),
     };
-    // Each signal is compared with at most ECHO_WINDOW neighbours in period
-    // on either side of each window: a catalogue with thousands of copies
-    // of one ephemeris stays O(n log n) (each still meets a copy).
+    // The sweep is pure: each part of the period order finds its matches
+    // on a thread of its own, and they are applied below in that order, so
+    // the result is the one a single pass gives.
+    let workers = std::thread::available_parallelism()
+        .map_or(1, |n| n.get())
+        .clamp(1, 8);
+    let part = sigs.len().div_ceil(workers).max(1);
+    let swept: Vec<Swept> = std::thread::scope(|scope| {
+        let handles: Vec<_> = (0..sigs.len())
+            .step_by(part)
+            .map(|from| {
+                let (sigs, pair) = (&sigs, &pair);
+                scope.spawn(move || sweep(sigs, from..(from + part).min(sigs.len()), pair))
+            })
+            .collect();
+        handles
+            .into_iter()
+            .map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
+            .collect()
+    });
+    // What each candidate is, gathered over all its matches: the deepest
+    // source it copies, and the copies it feeds (the first one found and
+    // how many). Kept only for candidates with a match.
+    let mut copy_of: HashMap<CandidateId, Match> = HashMap::new();
+    let mut feeds: HashMap<CandidateId, (u32, Match)> = HashMap::new();
     let mut crowded_window = vec![false; cat.len()];
-    for i in 0..sigs.len() {
-        let a = &sigs[i];
-        // The same period (the signals after this one in the sorted list),
-        // then twice it (a bounded window found by bisection).
-        let lo = 2.0 * a.period * (1.0 - s.echo_max_rel);
-        let windows = [
-            (i + 1, a.period * (1.0 + s.echo_max_rel), 1.0),
-            (
-                sigs.partition_point(|x| x.period < lo),
-                2.0 * a.period * (1.0 + s.echo_max_rel),
-                2.0,
-            ),
-        ];
-        for (start, hi, n) in windows {
-            let others = sigs[start..]
-                .iter()
-                .take_while(|b| b.period <= hi)
-                .take(8 * ECHO_WINDOW)
-                .filter(|b| b.star != a.star);
-            let mut found = 0;
-            for (k, b) in others.enumerate() {
-                if k == ECHO_WINDOW || found == ECHO_MATCHES {
-                    crowded_window[a.c as usize] = true;
-                    break;
-                }
-                found += usize::from(matched(a, b, n));
+    for part in &swept {
+        for &(copy, m) in &part.matches {
+            let source = m.other;
+            let keep = copy_of
+                .get(&copy)
+                .is_none_or(|old| pair.depth_of(source) > pair.depth_of(old.other));
+            if keep {
+                copy_of.insert(copy, m);
             }
+            feeds
+                .entry(source)
+                .or_insert((0, Match { other: copy, ..m }))
+                .0 += 1;
+        }
+        for &c in &part.crowded {
+            crowded_window[c as usize] = true;
         }
     }
+    drop(swept);
+    let mut found: Vec<CandidateId> = copy_of.keys().chain(feeds.keys()).copied().collect();
+    found.sort_unstable();
+    found.dedup();
     let star = |c: CandidateId| cat.star_id(cat.star_of(c)).to_string();
     let ratio = |n: f64| {
         if n == 1.0 {
@@ -184,30 +132,27 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, out: &mut Checks) {
             format!(", {v:.1}″ apart")
         })
     };
-    for c in 0..cat.len() as CandidateId {
-        if let Some(m) = copy_of[c as usize] {
+    let mut out = Vec::new();
+    for c in found {
+        let copy = copy_of.get(&c);
+        if let Some(m) = copy {
             // Without positions a match is only a hint (chance coincidences
             // in a large catalogue): a warning, never blocking.
-            out.add(c, Flag::Echo, m.sep.is_none(), format!(
+            out.push((c, m.sep.is_none(), format!(
                 "same ephemeris as {} on {} (ΔP = {:.2e} d, Δt = {:.2} h{}{}); this is the {} copy: likely light from {}",
                 cat.candidate_id(m.other), star(m.other), m.dp, m.off_h, ratio(m.n), place(m.sep),
                 if m.fainter { "fainter" } else { "shallower" }, star(m.other)
-            ));
+            )));
         }
         // A copy that also feeds others is said once, as a copy.
-        if let (count, Some(m), None) = (
-            feeds[c as usize].0,
-            feeds[c as usize].1,
-            copy_of[c as usize],
-        ) {
+        if let (Some(&(count, m)), None) = (feeds.get(&c), copy) {
             let more = if count > 1 {
                 format!(" and {} more", count - 1)
             } else {
                 String::new()
             };
-            out.add(
+            out.push((
                 c,
-                Flag::Echo,
                 true,
                 format!(
                     "its signal also appears as {} on {}{more}{}{}: likely leaking into that star",
@@ -216,7 +161,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, out: &mut Checks) {
                     ratio(m.n),
                     place(m.sep)
                 ),
-            );
+            ));
         }
     }
     // The bound is said once per run of crowded signals (in period order),
@@ -225,12 +170,180 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, out: &mut Checks) {
     for sig in &sigs {
         let crowded = crowded_window[sig.c as usize];
         if crowded && !previous {
-            out.add(sig.c, Flag::Echo, true, format!(
+            out.push((sig.c, true, format!(
                 "more than {ECHO_MATCHES} signals on other stars share this ephemeris: each of them was compared with its nearest in period only (at most {ECHO_WINDOW}, stopping at {ECHO_MATCHES} matches)"
-            ));
+            )));
         }
         previous = crowded;
     }
+    out
+}
+
+/// What the sweep over one part of the period order found: each match as
+/// (copy, match with its source), in the order found, and the signals whose
+/// window filled up.
+struct Swept {
+    matches: Vec<(CandidateId, Match)>,
+    crowded: Vec<CandidateId>,
+}
+
+/// The sweep over `range` of the period-sorted signals: each is compared
+/// with the signals after it up to the same period (window n = 1) and with
+/// those near twice its period (n = 2), at most [`ECHO_WINDOW`] of other
+/// stars in each, stopping at [`ECHO_MATCHES`] matches (a catalogue with
+/// thousands of copies of one ephemeris stays O(n log n), and each still
+/// meets a copy).
+fn sweep(sigs: &[Sig], range: std::ops::Range<usize>, pair: &Pair) -> Swept {
+    let rel = pair.s.echo_max_rel;
+    let mut out = Swept {
+        matches: Vec::new(),
+        crowded: Vec::new(),
+    };
+    // The periods rise along the list, so the start of each signal's
+    // twice-the-period window only moves forward.
+    let mut twice = range.clone().next().map_or(0, |i| {
+        sigs.partition_point(|x| x.period < 2.0 * sigs[i].period * (1.0 - rel))
+    });
+    for i in range {
+        let a = &sigs[i];
+        let lo = 2.0 * a.period * (1.0 - rel);
+        while twice < sigs.len() && sigs[twice].period < lo {
+            twice += 1;
+        }
+        let windows = [
+            (i + 1, a.period * (1.0 + rel), 1.0),
+            (twice, 2.0 * a.period * (1.0 + rel), 2.0),
+        ];
+        let mut crowded = false;
+        for (start, hi, n) in windows {
+            let others = sigs[start..]
+                .iter()
+                .take_while(|b| b.period <= hi)
+                .take(8 * ECHO_WINDOW)
+                .filter(|b| b.star != a.star);
+            let mut found = 0;
+            for (k, b) in others.enumerate() {
+                if k == ECHO_WINDOW || found == ECHO_MATCHES {
+                    crowded = true;
+                    break;
+                }
+                if let Some(m) = pair.compare(a, b, n) {
+                    out.matches.push(m);
+                    found += 1;
+                }
+            }
+        }
+        if crowded {
+            out.crowded.push(a.c);
+        }
+    }
+    out
+}
+
+/// What comparing two signals needs besides them.
+struct Pair<'a> {
+    s: &'a CheckSettings,
+    ra: Option<&'a [f64]>,
+    dec: Option<&'a [f64]>,
+    mag: Option<&'a [f64]>,
+    depth: Option<&'a [f64]>,
+}
+
+impl Pair<'_> {
+    fn depth_of(&self, c: CandidateId) -> f64 {
+        self.depth.map_or(f64::NAN, |d| d[c as usize])
+    }
+
+    /// One match: b's transits fall on a's (b's period n·P_a, n = 1 or 2).
+    /// `a` has the shorter period. Returns the copy and the match with its
+    /// source.
+    fn compare(&self, a: &Sig, b: &Sig, n: f64) -> Option<(CandidateId, Match)> {
+        let s = self.s;
+        if a.star == b.star {
+            return None;
+        }
+        let dp = (b.period - n * a.period).abs();
+        // The wider bound first: it needs no square root.
+        if dp > s.echo_max_rel * b.period {
+            return None;
+        }
+        let sigma_p = (b.period_err.powi(2) + (n * a.period_err).powi(2)).sqrt();
+        let p_tol = if sigma_p > 0.0 {
+            3.0 * sigma_p
+        } else {
+            0.5 * s.echo_max_rel * b.period
+        };
+        if dp > p_tol {
+            return None;
+        }
+        // b's transit nearest a's epoch, against a's transits.
+        let nb = round_half_away((a.epoch - b.epoch) / b.period);
+        let diff = b.epoch + nb * b.period - a.epoch;
+        let na = round_half_away(diff / a.period);
+        let off = diff - na * a.period;
+        let sigma_t = (a.epoch_err.powi(2) + b.epoch_err.powi(2) + (nb * sigma_p).powi(2)).sqrt();
+        let t_tol = (3.0 * sigma_t).max(0.25 * a.t14_d.min(b.t14_d));
+        if off.abs() > t_tol {
+            return None;
+        }
+        let sep = match (self.ra, self.dec) {
+            (Some(ra), Some(dec)) => {
+                let (i1, i2) = (a.c as usize, b.c as usize);
+                let v = separation_arcsec(ra[i1], dec[i1], ra[i2], dec[i2]);
+                if v.is_finite() && v > s.echo_radius_arcsec {
+                    return None;
+                }
+                v.is_finite().then_some(v)
+            }
+            _ => None,
+        };
+        // Dilution only makes a copy shallower: the deeper eclipse is the
+        // source (docs/science.md §3.3); magnitudes decide only without depths.
+        let (da, db) = (self.depth_of(a.c), self.depth_of(b.c));
+        let (copy, source, fainter) = if da.is_finite() && db.is_finite() && da != db {
+            if da < db {
+                (a.c, b.c, false)
+            } else {
+                (b.c, a.c, false)
+            }
+        } else {
+            let (ma, mb) = self
+                .mag
+                .map_or((f64::NAN, f64::NAN), |m| (m[a.c as usize], m[b.c as usize]));
+            if ma.is_finite() && mb.is_finite() && ma > mb {
+                (a.c, b.c, true)
+            } else {
+                (b.c, a.c, true)
+            }
+        };
+        Some((
+            copy,
+            Match {
+                other: source,
+                dp,
+                off_h: off.abs() * 24.0,
+                n,
+                sep,
+                fainter,
+            },
+        ))
+    }
+}
+
+/// `x.round()` (half away from zero) through an integer conversion: the
+/// baseline x86-64 target has no rounding instruction, and `f64::round` is
+/// a library call that dominated the sweep. Equal to `f64::round` for every
+/// input but the sign of a zero result (tested).
+fn round_half_away(x: f64) -> f64 {
+    // At 2^52 and beyond every f64 is an integer (and NaN, infinities too
+    // are returned as they are).
+    if x.is_nan() || x.abs() >= 4_503_599_627_370_496.0 {
+        return x;
+    }
+    let t = x as i64 as f64; // toward zero, exact here
+    let f = x - t; // exact: t holds x's integer part
+    // Without branches: random halves would be mispredicted half the time.
+    t + f64::from(u8::from(f >= 0.5)) - f64::from(u8::from(f <= -0.5))
 }
 
 /// The most neighbours in period each signal is compared with, and the
@@ -260,5 +373,43 @@ mod tests {
         // one degree of right ascension spans cos 60° = 0.5 degree.
         assert!((separation_arcsec(10.0, 20.0, 10.0, 20.0 + 1.0 / 60.0) - 60.0).abs() < 1e-6);
         assert!((separation_arcsec(10.0, 60.0, 11.0, 60.0) - 1800.0).abs() < 1.0);
+    }
+
+    #[test]
+    fn round_half_away_is_f64_round() {
+        // The halves, the edges of the integer range, tiny and huge values,
+        // non-finite ones, and a sweep of ordinary values.
+        let mut xs = vec![
+            0.5,
+            -0.5,
+            1.5,
+            -1.5,
+            2.5,
+            -2.5,
+            0.49999999999999994,
+            -0.49999999999999994,
+            4503599627370495.5,
+            -4503599627370495.5,
+            4503599627370496.0,
+            9.1e18,
+            -9.3e18,
+            1e300,
+            1e-300,
+            f64::MIN_POSITIVE,
+            f64::INFINITY,
+            f64::NEG_INFINITY,
+            0.0,
+            2.0,
+        ];
+        let mut x = -1000.0_f64;
+        while x < 1000.0 {
+            xs.push(x);
+            x += 0.123_456_789;
+        }
+        for x in xs {
+            let (got, want) = (round_half_away(x), x.round());
+            assert!(got == want, "{x}: {got} against {want}");
+        }
+        assert!(round_half_away(f64::NAN).is_nan());
     }
 }

@@ -11,9 +11,7 @@ use crate::cli::error::CliError;
 use crate::odds::{
     ALL_VERDICTS, Live, Table, format_odds, format_pool, hold_text, model_statement,
 };
-use crate::output::{
-    Align, Columns, Format, Table as TextTable, csv_writer, exact, num, write_json,
-};
+use crate::output::{Align, Columns, CsvOut, Format, Table as TextTable, num, write_json};
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
 
@@ -65,8 +63,8 @@ fn write_csv(
     shown: &Shown,
     out: &mut dyn Write,
 ) -> Result<(), CliError> {
-    let mut w = csv_writer(out);
-    w.write_record([
+    let mut w = CsvOut::new(out);
+    w.row([
         "star",
         "candidate",
         "k",
@@ -82,23 +80,22 @@ fn write_csv(
         "holds_to_f",
     ])?;
     for &c in shown.rows {
-        w.write_record([
-            clean(cat.star_id(cat.star_of(c))).as_ref(),
-            clean(cat.candidate_id(c)).as_ref(),
-            &live.k(c).to_string(),
-            &exact(Some(live.prior(c))),
-            &exact(live.boost(c)),
-            &exact(live.odds(c)),
-            &exact(live.probability(c)),
-            live.verdict(c).name(),
-            live.decision(c).name(),
-            &live.flags(c).joined(";"),
-            if live.counted(c) { "yes" } else { "no" },
-            &hold_text(cat, live, c),
-            &exact(live.holds_to(c)),
-        ])?;
+        w.text(clean(cat.star_id(cat.star_of(c))).as_bytes());
+        w.text(clean(cat.candidate_id(c)).as_bytes());
+        w.int(live.k(c));
+        w.exact(Some(live.prior(c)));
+        w.exact(live.boost(c));
+        w.exact(live.odds(c));
+        w.exact(live.probability(c));
+        w.text(live.verdict(c).name());
+        w.text(live.decision(c).name());
+        w.text_with(|b| live.flags(c).write_joined(";", b));
+        w.text(if live.counted(c) { "yes" } else { "no" });
+        w.text(hold_text(cat, live, c));
+        w.exact(live.holds_to(c));
+        w.end_row()?;
     }
-    w.flush()?;
+    w.finish()?;
     Ok(())
 }
 
