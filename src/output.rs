@@ -1,7 +1,10 @@
 //! Output for people (aligned tables) and for scripts (CSV, JSON). Every cell
 //! that came from an input file passes through [`crate::sanitize::clean`].
 
+mod stream;
 pub mod votable;
+
+pub use stream::{CsvOut, write_json_rows};
 
 use std::io::{self, Write};
 
@@ -146,111 +149,6 @@ pub fn csv_writer(out: &mut dyn Write) -> csv::Writer<&mut dyn Write> {
     csv::WriterBuilder::new().from_writer(out)
 }
 
-/// CSV written row by row into one reused buffer, for the long outputs:
-/// numbers straight from `ryu`/`itoa`, no allocation per cell. The bytes
-/// are those of [`csv_writer`] (RFC 4180 as the `csv` crate writes it by
-/// default: a field is quoted only when it holds a comma, a quote, CR or
-/// LF, a quote inside doubled; `\n` ends a row). Rows of one empty field,
-/// which that writer spells `""`, are never written here.
-pub struct CsvOut<'a> {
-    out: &'a mut dyn Write,
-    buf: Vec<u8>,
-    ryu: ryu::Buffer,
-    /// Whether the next field is the first of its row.
-    first: bool,
-}
-
-impl<'a> CsvOut<'a> {
-    pub fn new(out: &'a mut dyn Write) -> CsvOut<'a> {
-        CsvOut {
-            out,
-            buf: Vec::with_capacity(1 << 17),
-            ryu: ryu::Buffer::new(),
-            first: true,
-        }
-    }
-
-    fn separate(&mut self) {
-        if !self.first {
-            self.buf.push(b',');
-        }
-        self.first = false;
-    }
-
-    /// A text field, quoted when it must be.
-    pub fn text(&mut self, s: impl AsRef<[u8]>) {
-        self.separate();
-        let s = s.as_ref();
-        if s.iter().any(|&b| matches!(b, b',' | b'"' | b'\r' | b'\n')) {
-            self.buf.push(b'"');
-            for &b in s {
-                if b == b'"' {
-                    self.buf.push(b'"');
-                }
-                self.buf.push(b);
-            }
-            self.buf.push(b'"');
-        } else {
-            self.buf.extend_from_slice(s);
-        }
-    }
-
-    /// A text field built in place by `write` (a list, a sentence).
-    pub fn text_with(&mut self, write: impl FnOnce(&mut Vec<u8>)) {
-        self.separate();
-        let start = self.buf.len();
-        write(&mut self.buf);
-        let needs = self.buf[start..]
-            .iter()
-            .any(|&b| matches!(b, b',' | b'"' | b'\r' | b'\n'));
-        if needs {
-            let raw = self.buf.split_off(start);
-            self.first = true;
-            self.text(raw);
-        }
-    }
-
-    /// A number as [`exact`] writes it (empty when missing or not finite).
-    pub fn exact(&mut self, v: Option<f64>) {
-        self.separate();
-        let s = exact_in(&mut self.ryu, v);
-        self.buf.extend_from_slice(s.as_bytes());
-    }
-
-    /// A whole number.
-    pub fn int(&mut self, n: impl itoa::Integer) {
-        self.separate();
-        self.buf
-            .extend_from_slice(itoa::Buffer::new().format(n).as_bytes());
-    }
-
-    /// Ends the row; the buffer goes out once it holds 64 KiB.
-    pub fn end_row(&mut self) -> io::Result<()> {
-        self.buf.push(b'\n');
-        self.first = true;
-        if self.buf.len() >= 1 << 16 {
-            self.out.write_all(&self.buf)?;
-            self.buf.clear();
-        }
-        Ok(())
-    }
-
-    /// A whole row of text fields (a header).
-    pub fn row<S: AsRef<[u8]>>(&mut self, cells: impl IntoIterator<Item = S>) -> io::Result<()> {
-        for c in cells {
-            self.text(c);
-        }
-        self.end_row()
-    }
-
-    /// Writes what is left and flushes.
-    pub fn finish(mut self) -> io::Result<()> {
-        self.out.write_all(&self.buf)?;
-        self.buf.clear();
-        self.out.flush()
-    }
-}
-
 /// Writes a JSON value, pretty, with a final newline. serde_json escapes C0
 /// controls; text cells are sanitised by the callers for DEL and C1.
 pub fn write_json(out: &mut dyn Write, value: &serde_json::Value) -> io::Result<()> {
@@ -324,47 +222,6 @@ mod tests {
         assert_eq!(exact(Some(-2.5e-7)).parse::<f64>().unwrap(), -2.5e-7);
         assert_eq!(exact(Some(0.9988901220865705)), "0.9988901220865705");
         assert_eq!(exact(None), "");
-    }
-
-    #[test]
-    fn csv_out_writes_what_the_csv_crate_writes() {
-        // The csv crate is the reference: the same rows through both.
-        let rows: Vec<Vec<&str>> = vec![
-            vec!["star", "candidate", "note"],
-            vec!["S1", "S1-1", "plain"],
-            vec!["S2", "", "a, b"],
-            vec!["S\"3", "x\ny", "cr\rhere"],
-            vec!["", "", ""],
-            vec!["ünï", "tab\there", "\"\""],
-        ];
-        let mut want = Vec::new();
-        {
-            let mut w = csv_writer(&mut want);
-            for r in &rows {
-                w.write_record(r).unwrap();
-            }
-            w.write_record([exact(Some(0.1)), exact(None), 42.to_string()])
-                .unwrap();
-            w.flush().unwrap();
-        }
-        let mut got = Vec::new();
-        {
-            let mut w = CsvOut::new(&mut got);
-            for r in &rows {
-                w.row(r).unwrap();
-            }
-            w.exact(Some(0.1));
-            w.exact(None);
-            w.int(42u32);
-            w.end_row().unwrap();
-            w.text_with(|b| b.extend_from_slice(b"one;two"));
-            w.text_with(|b| b.extend_from_slice(b"needs, quotes"));
-            w.end_row().unwrap();
-            w.finish().unwrap();
-        }
-        let extra = b"one;two,\"needs, quotes\"\n";
-        assert_eq!(got[..got.len() - extra.len()], want[..]);
-        assert_eq!(&got[got.len() - extra.len()..], extra);
     }
 
     #[test]

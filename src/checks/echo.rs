@@ -21,6 +21,8 @@ struct Sig {
     c: CandidateId,
     star: u32,
     period: f64,
+    /// 1 / period: the sweep multiplies where it would divide.
+    inv_period: f64,
     period_err: f64,
     epoch: f64,
     epoch_err: f64,
@@ -49,6 +51,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
             c: i as CandidateId,
             star: cat.star_of(i as CandidateId),
             period: periods[i],
+            inv_period: 1.0 / periods[i],
             period_err: per_err.map_or(0.0, |e| nan_to_zero(e[i])),
             epoch: epochs[i],
             epoch_err: ep_err.map_or(0.0, |e| nan_to_zero(e[i])),
@@ -267,23 +270,26 @@ impl Pair<'_> {
         if dp > s.echo_max_rel * b.period {
             return None;
         }
-        let sigma_p = (b.period_err.powi(2) + (n * a.period_err).powi(2)).sqrt();
-        let p_tol = if sigma_p > 0.0 {
-            3.0 * sigma_p
+        // Within 3σ of the combined period error, or half the relative
+        // bound when no errors are given; squared, so no root is taken.
+        let var_p = b.period_err.powi(2) + (n * a.period_err).powi(2);
+        let p_ok = if var_p > 0.0 {
+            dp * dp <= 9.0 * var_p
         } else {
-            0.5 * s.echo_max_rel * b.period
+            dp <= 0.5 * s.echo_max_rel * b.period
         };
-        if dp > p_tol {
+        if !p_ok {
             return None;
         }
         // b's transit nearest a's epoch, against a's transits.
-        let nb = round_half_away((a.epoch - b.epoch) / b.period);
+        let nb = nearest((a.epoch - b.epoch) * b.inv_period);
         let diff = b.epoch + nb * b.period - a.epoch;
-        let na = round_half_away(diff / a.period);
-        let off = diff - na * a.period;
-        let sigma_t = (a.epoch_err.powi(2) + b.epoch_err.powi(2) + (nb * sigma_p).powi(2)).sqrt();
-        let t_tol = (3.0 * sigma_t).max(0.25 * a.t14_d.min(b.t14_d));
-        if off.abs() > t_tol {
+        let off = (diff - nearest(diff * a.inv_period) * a.period).abs();
+        // Within a quarter of the shorter duration, or 3σ of the combined
+        // timing error (squared again).
+        let t_ok = off <= 0.25 * a.t14_d.min(b.t14_d)
+            || off * off <= 9.0 * (a.epoch_err.powi(2) + b.epoch_err.powi(2) + nb * nb * var_p);
+        if !t_ok {
             return None;
         }
         let sep = match (self.ra, self.dec) {
@@ -321,7 +327,7 @@ impl Pair<'_> {
             Match {
                 other: source,
                 dp,
-                off_h: off.abs() * 24.0,
+                off_h: off * 24.0,
                 n,
                 sep,
                 fainter,
@@ -330,20 +336,19 @@ impl Pair<'_> {
     }
 }
 
-/// `x.round()` (half away from zero) through an integer conversion: the
-/// baseline x86-64 target has no rounding instruction, and `f64::round` is
-/// a library call that dominated the sweep. Equal to `f64::round` for every
-/// input but the sign of a zero result (tested).
-fn round_half_away(x: f64) -> f64 {
-    // At 2^52 and beyond every f64 is an integer (and NaN, infinities too
-    // are returned as they are).
-    if x.is_nan() || x.abs() >= 4_503_599_627_370_496.0 {
+/// The whole number nearest `x`, halves to even (`f64::round_ties_even`):
+/// adding 2^52 leaves no room for a fraction, and taking it away again gives
+/// the rounded value. On the baseline x86-64 target this is two additions,
+/// where `round` is a library call. Which way a half goes does not matter
+/// here: the offset from a transit is then half a period either way.
+fn nearest(x: f64) -> f64 {
+    const TWO_52: f64 = 4_503_599_627_370_496.0;
+    let a = x.abs();
+    // At 2^52 and beyond every f64 is whole (NaN and infinities stay).
+    if x.is_nan() || a >= TWO_52 {
         return x;
     }
-    let t = x as i64 as f64; // toward zero, exact here
-    let f = x - t; // exact: t holds x's integer part
-    // Without branches: random halves would be mispredicted half the time.
-    t + f64::from(u8::from(f >= 0.5)) - f64::from(u8::from(f <= -0.5))
+    ((a + TWO_52) - TWO_52).copysign(x)
 }
 
 /// The most neighbours in period each signal is compared with, and the
@@ -376,7 +381,7 @@ mod tests {
     }
 
     #[test]
-    fn round_half_away_is_f64_round() {
+    fn nearest_is_round_ties_even() {
         // The halves, the edges of the integer range, tiny and huge values,
         // non-finite ones, and a sweep of ordinary values.
         let mut xs = vec![
@@ -407,9 +412,10 @@ mod tests {
             x += 0.123_456_789;
         }
         for x in xs {
-            let (got, want) = (round_half_away(x), x.round());
-            assert!(got == want, "{x}: {got} against {want}");
+            let (got, want) = (nearest(x), x.round_ties_even());
+            // Bitwise: the sign of a zero result too.
+            assert!(got.to_bits() == want.to_bits(), "{x}: {got} against {want}");
         }
-        assert!(round_half_away(f64::NAN).is_nan());
+        assert!(nearest(f64::NAN).is_nan());
     }
 }

@@ -1,6 +1,7 @@
 //! `starsift checks CATALOGUE`: what each candidate's transit implies
 //! physically, and which warning signs fired, with the numbers behind them.
 
+use std::borrow::Cow;
 use std::io::Write;
 
 use serde_json::{Value, json};
@@ -9,7 +10,7 @@ use crate::catalogue::CandidateId;
 use crate::checks::{self, Checks};
 use crate::cli::error::CliError;
 use crate::flags::{ALL_FLAGS, Flag};
-use crate::output::{Align, Format, Table, csv_writer, exact_in, num, write_json};
+use crate::output::{Align, CsvOut, Format, Table, num, write_json_rows};
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
 
@@ -78,13 +79,12 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         .collect();
     match args.format {
         Format::Csv => {
-            let mut w = csv_writer(out);
-            w.write_record(COLUMNS)?;
-            let mut b = ryu::Buffer::new();
+            let mut w = CsvOut::new(out);
+            w.row(COLUMNS)?;
             for &c in &rows {
                 let d = checks::derive(cat, c, settings);
-                w.write_field(clean(cat.star_id(cat.star_of(c))).as_bytes())?;
-                w.write_field(clean(cat.candidate_id(c)).as_bytes())?;
+                w.text(clean(cat.star_id(cat.star_of(c))).as_bytes());
+                w.text(clean(cat.candidate_id(c)).as_bytes());
                 for v in [
                     d.radius_rearth,
                     d.a_au,
@@ -96,72 +96,82 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     d.density_star,
                     d.density_ratio,
                 ] {
-                    w.write_field(exact_in(&mut b, v))?;
+                    w.exact(v);
                 }
-                w.write_field(ch.flags(c).joined(";"))?;
-                w.write_field(ch.warnings(c).joined(";"))?;
-                w.write_field(clean(&ch.why(c)).as_bytes())?;
+                w.text_with(|b| ch.flags(c).write_joined(";", b));
+                w.text_with(|b| ch.warnings(c).write_joined(";", b));
+                w.text(clean(&ch.why(c)).as_bytes());
                 match live {
                     Some(l) => {
-                        w.write_field(l.k(c).to_string())?;
-                        w.write_field(exact_in(&mut b, l.odds(c)))?;
-                        w.write_field(l.verdict(c).name())?;
-                        w.write_field(crate::odds::hold_text(cat, l, c))?;
+                        w.int(l.k(c));
+                        w.exact(l.odds(c));
+                        w.text(l.verdict(c).name());
+                        w.text(crate::odds::hold_text(cat, l, c));
                     }
                     None => {
                         for _ in 0..4 {
-                            w.write_field("")?;
+                            w.text("");
                         }
                     }
                 }
-                w.write_record(None::<&[u8]>)?;
+                w.end_row()?;
             }
-            w.flush()?;
+            w.finish()?;
         }
         Format::Json => {
-            let list: Vec<Value> = rows
-                .iter()
-                .map(|&c| {
-                    let d = checks::derive(cat, c, settings);
-                    let f = |v: Option<f64>| v.map_or(Value::Null, |x| json!(x));
-                    json!({
-                        "star": clean(cat.star_id(cat.star_of(c))),
-                        "candidate": clean(cat.candidate_id(c)),
-                        "radius_rearth": f(d.radius_rearth),
-                        "a_au": f(d.a_au),
-                        "a_rstar": f(d.a_rstar),
-                        "teq_k": f(d.teq_k),
-                        "insolation_earth": f(d.insolation_earth),
-                        "t14_central_h": f(d.t14_central_h),
-                        "density_transit_kg_m3": f(d.density_transit),
-                        "density_star_kg_m3": f(d.density_star),
-                        "density_ratio": f(d.density_ratio),
-                        "impact_assumed_zero": d.assumed_central,
-                        "flags": ch.flags(c).iter().map(Flag::name).collect::<Vec<_>>(),
-                        "warnings": ch.warnings(c).iter().map(Flag::name).collect::<Vec<_>>(),
-                        "findings": ch.findings(c).map(|x| json!({
-                            "flag": x.flag.name(), "soft": x.soft, "why": clean(&x.why),
-                        })).collect::<Vec<_>>(),
-                        "k": live.map(|l| l.k(c)),
-                        "odds": live.and_then(|l| l.odds(c)),
-                        "verdict": live.map(|l| l.verdict(c).name()),
-                        "held_back": live.map(|l| crate::odds::hold_text(cat, l, c)),
-                    })
-                })
-                .collect();
-            write_json(
-                out,
-                &json!({
-                    "catalogue": clean(&cat.source),
-                    "temperature_assumption": format!("Bond albedo {}, redistribution factor {}", settings.albedo, settings.redistribution),
-                    "flag_counts": flag_counts(ch, cat.len()),
-                    "lightcurve_stars": session.lightcurve_stars,
-                    "lightcurve_samples": session.lightcurve_totals,
-                "lightcurve_errors": lc_errors.iter().map(|(s, e)| json!({"star": clean(s), "error": clean(e)})).collect::<Vec<_>>(),
-                "lightcurve_notice": session.lightcurve_notice,
-                    "candidates": list,
-                }),
-            )?;
+            let head = vec![
+                ("catalogue", json!(clean(&cat.source))),
+                (
+                    "temperature_assumption",
+                    json!(format!(
+                        "Bond albedo {}, redistribution factor {}",
+                        settings.albedo, settings.redistribution
+                    )),
+                ),
+                ("flag_counts", flag_counts(ch, cat.len())),
+                ("lightcurve_stars", json!(session.lightcurve_stars)),
+                ("lightcurve_samples", json!(session.lightcurve_totals)),
+                (
+                    "lightcurve_errors",
+                    lc_errors
+                        .iter()
+                        .map(|(s, e)| json!({"star": clean(s), "error": clean(e)}))
+                        .collect(),
+                ),
+                ("lightcurve_notice", json!(session.lightcurve_notice)),
+            ];
+            let list = rows.iter().map(|&c| {
+                let d = checks::derive(cat, c, settings);
+                JsonRow {
+                    star: clean(cat.star_id(cat.star_of(c))),
+                    candidate: clean(cat.candidate_id(c)),
+                    radius_rearth: d.radius_rearth,
+                    a_au: d.a_au,
+                    a_rstar: d.a_rstar,
+                    teq_k: d.teq_k,
+                    insolation_earth: d.insolation_earth,
+                    t14_central_h: d.t14_central_h,
+                    density_transit_kg_m3: d.density_transit,
+                    density_star_kg_m3: d.density_star,
+                    density_ratio: d.density_ratio,
+                    impact_assumed_zero: d.assumed_central,
+                    flags: ch.flags(c).iter().map(Flag::name).collect(),
+                    warnings: ch.warnings(c).iter().map(Flag::name).collect(),
+                    findings: ch
+                        .findings(c)
+                        .map(|x| JsonFinding {
+                            flag: x.flag.name(),
+                            soft: x.soft,
+                            why: clean(&x.why),
+                        })
+                        .collect(),
+                    k: live.map(|l| l.k(c)),
+                    odds: live.and_then(|l| l.odds(c)),
+                    verdict: live.map(|l| l.verdict(c).name()),
+                    held_back: live.map(|l| crate::odds::hold_text(cat, l, c)),
+                }
+            });
+            write_json_rows(out, head, "candidates", list)?;
         }
         Format::Table => {
             writeln!(out, "catalogue  {}", clean(&cat.source))?;
@@ -263,4 +273,36 @@ fn flag_counts(ch: &Checks, n: usize) -> Value {
         }
     }
     Value::Object(m)
+}
+
+/// One candidate of the JSON output.
+#[derive(serde::Serialize)]
+struct JsonRow<'a> {
+    star: Cow<'a, str>,
+    candidate: Cow<'a, str>,
+    radius_rearth: Option<f64>,
+    a_au: Option<f64>,
+    a_rstar: Option<f64>,
+    teq_k: Option<f64>,
+    insolation_earth: Option<f64>,
+    t14_central_h: Option<f64>,
+    density_transit_kg_m3: Option<f64>,
+    density_star_kg_m3: Option<f64>,
+    density_ratio: Option<f64>,
+    impact_assumed_zero: bool,
+    flags: Vec<&'static str>,
+    warnings: Vec<&'static str>,
+    findings: Vec<JsonFinding<'a>>,
+    k: Option<usize>,
+    odds: Option<f64>,
+    verdict: Option<&'static str>,
+    held_back: Option<String>,
+}
+
+/// Why a flag fired, in the JSON output.
+#[derive(serde::Serialize)]
+struct JsonFinding<'a> {
+    flag: &'static str,
+    soft: bool,
+    why: Cow<'a, str>,
 }

@@ -20,7 +20,7 @@ use crate::cli::args::VettingArgs;
 use crate::cli::error::CliError;
 use crate::odds::{Live, model_statement};
 use crate::output::votable::{self, Column, Kind};
-use crate::output::{csv_writer, exact_in, write_atomically};
+use crate::output::{CsvOut, exact_in, write_atomically};
 use crate::query::Filter;
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
@@ -358,24 +358,30 @@ impl<'a> Export<'a> {
         }
         let header: Vec<String> = self.columns().into_iter().map(|c| c.name).collect();
         let held_at = header.len() - 2;
-        let mut w = csv_writer(out);
-        w.write_record(&header)?;
-        let mut b = ryu::Buffer::new();
+        let mut w = CsvOut::new(out);
+        w.row(&header)?;
         for &c in rows {
             for (i, cell) in self.cells(c).into_iter().enumerate() {
                 match cell {
-                    _ if i == held_at => w.write_field(self.held(c))?,
-                    Cell::Text(s) => w.write_field(s.as_bytes())?,
-                    Cell::Opt(s) => w.write_field(s.unwrap_or("").as_bytes())?,
-                    Cell::Num(x) => w.write_field(exact_in(&mut b, x))?,
-                    Cell::Int(n) => w.write_field(n.to_string())?,
-                    Cell::Bool(t) => w.write_field(if t { "yes" } else { "no" })?,
-                    Cell::List(l) => w.write_field(l.join(";"))?,
+                    _ if i == held_at => w.text(self.held(c)),
+                    Cell::Text(s) => w.text(s),
+                    Cell::Opt(s) => w.text(s.unwrap_or("")),
+                    Cell::Num(x) => w.exact(x),
+                    Cell::Int(n) => w.int(n),
+                    Cell::Bool(t) => w.text(if t { "yes" } else { "no" }),
+                    Cell::List(l) => w.text_with(|b| {
+                        for (j, name) in l.iter().enumerate() {
+                            if j > 0 {
+                                b.push(b';');
+                            }
+                            b.extend_from_slice(name.as_bytes());
+                        }
+                    }),
                 }
             }
-            w.write_record(None::<&[u8]>)?;
+            w.end_row()?;
         }
-        w.flush()?;
+        w.finish()?;
         Ok(())
     }
 

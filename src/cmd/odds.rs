@@ -11,7 +11,7 @@ use crate::cli::error::CliError;
 use crate::odds::{
     ALL_VERDICTS, Live, Table, format_odds, format_pool, hold_text, model_statement,
 };
-use crate::output::{Align, Columns, CsvOut, Format, Table as TextTable, num, write_json};
+use crate::output::{Align, Columns, CsvOut, Format, Table as TextTable, num, write_json_rows};
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
 
@@ -44,9 +44,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     }
     match args.format {
         Format::Csv => write_csv(cat, live, &shown, out),
-        Format::Json => {
-            write_json(out, &to_json(cat, live, &session, &shown)).map_err(CliError::from)
-        }
+        Format::Json => write_json_out(cat, live, &session, &shown, out).map_err(CliError::from),
         Format::Table => write_table(cat, live, &shown, out),
     }
 }
@@ -128,27 +126,32 @@ fn model_json(live: &Live) -> Value {
     })
 }
 
-fn to_json(cat: &Catalogue, live: &Live, session: &Session, shown: &Shown) -> Value {
-    let f = |v: Option<f64>| v.map_or(Value::Null, |x| json!(x));
-    let candidates: Vec<Value> = (shown.rows.iter())
-        .map(|&c| {
-            json!({
-                "star": clean(cat.star_id(cat.star_of(c))),
-                "candidate": clean(cat.candidate_id(c)),
-                "k": live.k(c),
-                "prior": live.prior(c),
-                "boost": f(live.boost(c)),
-                "odds": f(live.odds(c)),
-                "probability": f(live.probability(c)),
-                "verdict": live.verdict(c).name(),
-                "decision": live.decision(c).name(),
-                "flags": live.flags(c).iter().map(|f| f.name()).collect::<Vec<_>>(),
-                "counted": live.counted(c),
-                "held_back": hold_text(cat, live, c),
-                "holds_to_f": f(live.holds_to(c)),
-            })
-        })
-        .collect();
+/// One candidate of the JSON output.
+#[derive(serde::Serialize)]
+struct JsonRow<'a> {
+    star: std::borrow::Cow<'a, str>,
+    candidate: std::borrow::Cow<'a, str>,
+    k: usize,
+    prior: f64,
+    boost: Option<f64>,
+    odds: Option<f64>,
+    probability: Option<f64>,
+    verdict: &'static str,
+    decision: &'static str,
+    flags: Vec<&'static str>,
+    counted: bool,
+    held_back: String,
+    holds_to_f: Option<f64>,
+}
+
+/// The JSON output, its candidates streamed.
+fn write_json_out(
+    cat: &Catalogue,
+    live: &Live,
+    session: &Session,
+    shown: &Shown,
+    out: &mut dyn Write,
+) -> std::io::Result<()> {
     let counts: serde_json::Map<String, Value> = ALL_VERDICTS
         .iter()
         .map(|v| (v.name().to_string(), json!(live.counts().get(*v))))
@@ -158,19 +161,40 @@ fn to_json(cat: &Catalogue, live: &Live, session: &Session, shown: &Shown) -> Va
         .iter()
         .chain(&live.table().warnings)
         .collect();
-    json!({
-        "catalogue": clean(&cat.source),
-        "model": model_json(live),
-        "table": table_json(live.table()),
-        "counts": counts,
-        "warnings": warnings,
-        "held_back": live.held_summary().into_iter().map(|(what, n)| json!({"cause": what, "candidates": n})).collect::<Vec<_>>(),
-        "ledger": session.ledger_path.as_deref().map(clean),
-        "lightcurve_stars": session.lightcurve_stars,
-        "lightcurve_notice": session.lightcurve_notice,
-        "filter": shown.filter.map(|t| clean(t).into_owned()),
-        "candidates": candidates,
-    })
+    let head = vec![
+        ("catalogue", json!(clean(&cat.source))),
+        ("model", model_json(live)),
+        ("table", Value::Array(table_json(live.table()))),
+        ("counts", Value::Object(counts)),
+        ("warnings", json!(warnings)),
+        (
+            "held_back",
+            live.held_summary()
+                .into_iter()
+                .map(|(what, n)| json!({"cause": what, "candidates": n}))
+                .collect(),
+        ),
+        ("ledger", json!(session.ledger_path.as_deref().map(clean))),
+        ("lightcurve_stars", json!(session.lightcurve_stars)),
+        ("lightcurve_notice", json!(session.lightcurve_notice)),
+        ("filter", json!(shown.filter.map(|t| clean(t).into_owned()))),
+    ];
+    let rows = shown.rows.iter().map(|&c| JsonRow {
+        star: clean(cat.star_id(cat.star_of(c))),
+        candidate: clean(cat.candidate_id(c)),
+        k: live.k(c),
+        prior: live.prior(c),
+        boost: live.boost(c),
+        odds: live.odds(c),
+        probability: live.probability(c),
+        verdict: live.verdict(c).name(),
+        decision: live.decision(c).name(),
+        flags: live.flags(c).iter().map(|f| f.name()).collect(),
+        counted: live.counted(c),
+        held_back: hold_text(cat, live, c),
+        holds_to_f: live.holds_to(c),
+    });
+    write_json_rows(out, head, "candidates", rows)
 }
 
 fn write_table(

@@ -1,0 +1,65 @@
+#!/usr/bin/env bash
+# The headless commands at survey scale, as a user runs them: wall time and
+# peak memory (GNU time) of each command on one generated catalogue, and its
+# ratio to `summary` measured in the same run.
+#
+#   cargo build --release && benches/commands.sh [CANDIDATES] [ROUNDS]
+#
+# CANDIDATES defaults to 1000000 (bench-data/big-1000000.csv, written on
+# first use, git-ignored); ROUNDS to 3, of which the fastest time and the
+# largest memory are reported. Output goes to /dev/null. The reading
+# commands use the catalogue's default ledger (none, unless you made one);
+# `decide` records into a fresh ledger in a temporary folder.
+set -euo pipefail
+root="$(cd "$(dirname "$0")/.." && pwd)"
+bin="$root/target/release/starsift"
+n="${1:-1000000}"
+rounds="${2:-3}"
+cat="$root/bench-data/big-$n.csv"
+[ -x "$bin" ] || { echo "build first: cargo build --release" >&2; exit 1; }
+[ -x /usr/bin/time ] || { echo "needs GNU time (/usr/bin/time)" >&2; exit 1; }
+if [ ! -f "$cat" ]; then
+  mkdir -p "$root/bench-data"
+  "$bin" generate big --candidates "$n" --out "$cat" >&2
+fi
+tmpd="$(mktemp -d)"
+trap 'rm -rf "$tmpd"' EXIT
+ledger="$tmpd/bench.ledger.sqlite"
+model=(--no-lightcurves --targets $((2 * n)))
+first="$(sed -n 2p "$cat" | cut -d, -f2)"
+
+declare -A best_s best_kb
+names=()
+run() {
+  local name="$1"; shift
+  names+=("$name")
+  local s kb
+  for _ in $(seq "$rounds"); do
+    /usr/bin/time -o "$tmpd/t" -f "%e %M" "$@" >/dev/null 2>"$tmpd/err" \
+      || { echo "$name failed:" >&2; cat "$tmpd/err" >&2; exit 1; }
+    read -r s kb <"$tmpd/t"
+    if [ -z "${best_s[$name]:-}" ] || awk "BEGIN{exit !($s < ${best_s[$name]})}"; then
+      best_s[$name]=$s
+    fi
+    if [ -z "${best_kb[$name]:-}" ] || [ "$kb" -gt "${best_kb[$name]}" ]; then
+      best_kb[$name]=$kb
+    fi
+  done
+}
+
+run "summary" "$bin" summary "$cat"
+run "odds --format csv" "$bin" odds "$cat" "${model[@]}" --format csv
+run "odds (table)" "$bin" odds "$cat" "${model[@]}"
+run "odds --format json" "$bin" odds "$cat" "${model[@]}" --format json
+run "checks --format csv" "$bin" checks "$cat" "${model[@]}" --format csv
+run "export (csv)" "$bin" export "$cat" "${model[@]}"
+run "decide (one)" "$bin" decide "$cat" "${model[@]}" --ledger "$ledger" --candidate "$first" \
+  --decision kept --vetter bench
+
+printf '%s candidates, best of %s (time) and largest of %s (memory)\n' "$n" "$rounds" "$rounds"
+printf '%-22s %9s %8s %10s %8s\n' command seconds "x summ." "peak MB" "x summ."
+for name in "${names[@]}"; do
+  awk -v n="$name" -v s="${best_s[$name]}" -v kb="${best_kb[$name]}" \
+      -v s0="${best_s[summary]}" -v kb0="${best_kb[summary]}" \
+      'BEGIN{printf "%-22s %9.2f %8.2f %10.0f %8.2f\n", n, s, s/s0, kb/1024, kb/kb0}'
+done
