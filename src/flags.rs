@@ -145,7 +145,6 @@ impl FlagSet {
         ALL_FLAGS.into_iter().filter(move |f| self.contains(*f))
     }
 
-    /// `a;b;c`, as in CSV exports.
     /// [`FlagSet::joined`] appended to a byte buffer (no allocation).
     pub fn write_joined(self, sep: &str, out: &mut Vec<u8>) {
         for (i, f) in self.iter().enumerate() {
@@ -156,6 +155,17 @@ impl FlagSet {
         }
     }
 
+    /// [`FlagSet::joined`] appended to a string.
+    pub fn push_joined(self, sep: &str, out: &mut String) {
+        for (i, f) in self.iter().enumerate() {
+            if i > 0 {
+                out.push_str(sep);
+            }
+            out.push_str(f.name());
+        }
+    }
+
+    /// `a;b;c`, as in CSV exports.
     pub fn joined(self, sep: &str) -> String {
         self.iter().map(Flag::name).collect::<Vec<_>>().join(sep)
     }

@@ -633,22 +633,33 @@ pub fn format_pool(pool: (usize, usize)) -> String {
 
 /// Odds for people: `340:1`, `1:25` below even.
 pub fn format_odds(o: f64) -> String {
+    let mut s = String::new();
+    push_odds(&mut s, o);
+    s
+}
+
+/// [`format_odds`] appended to `s` (no allocation of its own).
+pub fn push_odds(s: &mut String, o: f64) {
+    use std::fmt::Write;
     if !o.is_finite() || o <= 0.0 {
-        return "-".into();
+        s.push('-');
+        return;
     }
-    let big = |x: f64| -> String {
+    let big = |s: &mut String, x: f64| {
         if x >= 1e6 {
-            format!("{x:.1e}")
+            let _ = write!(s, "{x:.1e}");
         } else if x >= 10.0 {
-            format!("{x:.0}")
+            crate::output::push_fixed(s, x, 0);
         } else {
-            format!("{x:.1}")
+            crate::output::push_fixed(s, x, 1);
         }
     };
     if o >= 1.0 {
-        format!("{}:1", big(o))
+        big(s, o);
+        s.push_str(":1");
     } else {
-        format!("1:{}", big(1.0 / o))
+        s.push_str("1:");
+        big(s, 1.0 / o);
     }
 }
 

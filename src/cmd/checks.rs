@@ -10,7 +10,7 @@ use crate::catalogue::CandidateId;
 use crate::checks::{self, Checks};
 use crate::cli::error::CliError;
 use crate::flags::{ALL_FLAGS, Flag};
-use crate::output::{Align, CsvOut, Format, Table, num, write_json_rows};
+use crate::output::{Align, Format, push_num, write_csv_rows, write_json_rows, write_table_rows};
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
 
@@ -79,9 +79,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         .collect();
     match args.format {
         Format::Csv => {
-            let mut w = CsvOut::new(out);
-            w.row(COLUMNS)?;
-            for &c in &rows {
+            write_csv_rows(out, COLUMNS, &rows, |w, &c| {
                 let d = checks::derive(cat, c, settings);
                 w.text(clean(cat.star_id(cat.star_of(c))).as_bytes());
                 w.text(clean(cat.candidate_id(c)).as_bytes());
@@ -114,9 +112,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                         }
                     }
                 }
-                w.end_row()?;
-            }
-            w.finish()?;
+            })?;
         }
         Format::Json => {
             let head = vec![
@@ -140,7 +136,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 ),
                 ("lightcurve_notice", json!(session.lightcurve_notice)),
             ];
-            let list = rows.iter().map(|&c| {
+            let row = |&c: &CandidateId| {
                 let d = checks::derive(cat, c, settings);
                 JsonRow {
                     star: clean(cat.star_id(cat.star_of(c))),
@@ -170,12 +166,12 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     verdict: live.map(|l| l.verdict(c).name()),
                     held_back: live.map(|l| crate::odds::hold_text(cat, l, c)),
                 }
-            });
-            write_json_rows(out, head, "candidates", list)?;
+            };
+            write_json_rows(out, head, "candidates", &rows, row)?;
         }
         Format::Table => {
             writeln!(out, "catalogue  {}", clean(&cat.source))?;
-            let mut t = Table::new(&[
+            let columns = [
                 ("star", Align::Left),
                 ("candidate", Align::Left),
                 ("R_earth", Align::Right),
@@ -185,31 +181,30 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 ("rho_ratio", Align::Right),
                 ("verdict", Align::Left),
                 ("flags", Align::Left),
-            ]);
-            for &c in &rows {
+            ];
+            write_table_rows(out, &columns, &rows, |&c, cells| {
+                let [star, cand, r, a, teq, s, rho, verdict, flags] = cells;
                 let d = checks::derive(cat, c, settings);
-                let mut flags = ch.flags(c).joined(",");
-                let soft = ch.warnings(c).joined(",");
+                star.push_str(cat.star_id(cat.star_of(c)));
+                cand.push_str(cat.candidate_id(c));
+                push_num(r, d.radius_rearth, 3);
+                push_num(a, d.a_au, 3);
+                push_num(teq, d.teq_k.map(f64::round), 4);
+                push_num(s, d.insolation_earth, 3);
+                push_num(rho, d.density_ratio, 2);
+                verdict.push_str(live.map_or("-", |l| l.verdict(c).name()));
+                // Firm flags, then the warnings in brackets.
+                let (firm, soft) = (ch.flags(c), ch.warnings(c));
+                firm.push_joined(",", flags);
                 if !soft.is_empty() {
-                    flags = if flags.is_empty() {
-                        format!("({soft})")
-                    } else {
-                        format!("{flags} ({soft})")
-                    };
+                    if !firm.is_empty() {
+                        flags.push(' ');
+                    }
+                    flags.push('(');
+                    soft.push_joined(",", flags);
+                    flags.push(')');
                 }
-                t.row(&[
-                    cat.star_id(cat.star_of(c)).to_string(),
-                    cat.candidate_id(c).to_string(),
-                    num(d.radius_rearth, 3),
-                    num(d.a_au, 3),
-                    num(d.teq_k.map(f64::round), 4),
-                    num(d.insolation_earth, 3),
-                    num(d.density_ratio, 2),
-                    live.map_or("-".into(), |l| l.verdict(c).name().to_string()),
-                    flags,
-                ]);
-            }
-            t.write(out, "")?;
+            })?;
             writeln!(out)?;
             writeln!(out, "why (flags firm, warnings in brackets above)")?;
             for &c in &rows {

@@ -20,7 +20,7 @@ use crate::cli::args::VettingArgs;
 use crate::cli::error::CliError;
 use crate::odds::{Live, model_statement};
 use crate::output::votable::{self, Column, Kind};
-use crate::output::{CsvOut, exact_in, write_atomically};
+use crate::output::{exact_in, write_atomically, write_csv_rows};
 use crate::query::Filter;
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
@@ -358,9 +358,7 @@ impl<'a> Export<'a> {
         }
         let header: Vec<String> = self.columns().into_iter().map(|c| c.name).collect();
         let held_at = header.len() - 2;
-        let mut w = CsvOut::new(out);
-        w.row(&header)?;
-        for &c in rows {
+        write_csv_rows(out, &header, rows, |w, &c| {
             for (i, cell) in self.cells(c).into_iter().enumerate() {
                 match cell {
                     _ if i == held_at => w.text(self.held(c)),
@@ -379,9 +377,7 @@ impl<'a> Export<'a> {
                     }),
                 }
             }
-            w.end_row()?;
-        }
-        w.finish()?;
+        })?;
         Ok(())
     }
 

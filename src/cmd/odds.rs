@@ -9,9 +9,12 @@ use crate::catalogue::{CandidateId, Catalogue};
 use crate::cli::args::VettingArgs;
 use crate::cli::error::CliError;
 use crate::odds::{
-    ALL_VERDICTS, Live, Table, format_odds, format_pool, hold_text, model_statement,
+    ALL_VERDICTS, Live, Table, format_odds, format_pool, hold_text, model_statement, push_odds,
 };
-use crate::output::{Align, Columns, CsvOut, Format, Table as TextTable, num, write_json_rows};
+use crate::output::{
+    Align, Format, Table as TextTable, num, push_fixed, push_num, write_csv_rows, write_json_rows,
+    write_table_rows,
+};
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
 
@@ -61,8 +64,7 @@ fn write_csv(
     shown: &Shown,
     out: &mut dyn Write,
 ) -> Result<(), CliError> {
-    let mut w = CsvOut::new(out);
-    w.row([
+    let header = [
         "star",
         "candidate",
         "k",
@@ -76,8 +78,8 @@ fn write_csv(
         "counted",
         "held_back",
         "holds_to_f",
-    ])?;
-    for &c in shown.rows {
+    ];
+    write_csv_rows(out, header, shown.rows, |w, &c| {
         w.text(clean(cat.star_id(cat.star_of(c))).as_bytes());
         w.text(clean(cat.candidate_id(c)).as_bytes());
         w.int(live.k(c));
@@ -91,9 +93,7 @@ fn write_csv(
         w.text(if live.counted(c) { "yes" } else { "no" });
         w.text(hold_text(cat, live, c));
         w.exact(live.holds_to(c));
-        w.end_row()?;
-    }
-    w.finish()?;
+    })?;
     Ok(())
 }
 
@@ -179,7 +179,7 @@ fn write_json_out(
         ("lightcurve_notice", json!(session.lightcurve_notice)),
         ("filter", json!(shown.filter.map(|t| clean(t).into_owned()))),
     ];
-    let rows = shown.rows.iter().map(|&c| JsonRow {
+    let row = |&c: &CandidateId| JsonRow {
         star: clean(cat.star_id(cat.star_of(c))),
         candidate: clean(cat.candidate_id(c)),
         k: live.k(c),
@@ -193,8 +193,8 @@ fn write_json_out(
         counted: live.counted(c),
         held_back: hold_text(cat, live, c),
         holds_to_f: live.holds_to(c),
-    });
-    write_json_rows(out, head, "candidates", rows)
+    };
+    write_json_rows(out, head, "candidates", shown.rows, row)
 }
 
 fn write_table(
@@ -214,7 +214,7 @@ fn write_table(
         )?;
     }
     // Two passes over the rows, holding none: measure, then write.
-    let mut cols = Columns::new(&[
+    let columns = [
         ("star", Align::Left),
         ("candidate", Align::Left),
         ("k", Align::Right),
@@ -225,29 +225,37 @@ fn write_table(
         ("verdict", Align::Left),
         ("holds to f", Align::Right),
         ("held back", Align::Left),
-    ]);
-    let cells = |c: CandidateId| -> [String; 10] {
-        [
-            cat.star_id(cat.star_of(c)).to_string(),
-            cat.candidate_id(c).to_string(),
-            live.k(c).to_string(),
-            num(Some(live.prior(c)), 3),
-            num(live.boost(c), 4),
-            live.odds(c).map_or("-".into(), format_odds),
-            live.probability(c)
-                .map_or("-".into(), |p| format!("{p:.5}")),
-            live.verdict(c).name().to_string(),
-            live.holds_to(c).map_or("-".into(), |f| format!("{f:.3}")),
-            hold_text(cat, live, c),
-        ]
-    };
-    for &c in shown.rows {
-        cols.measure(&cells(c));
-    }
-    cols.write_header(out, "")?;
-    for &c in shown.rows {
-        cols.write_row(out, "", &cells(c))?;
-    }
+    ];
+    write_table_rows(out, &columns, shown.rows, |&c, cells| {
+        let [
+            star,
+            cand,
+            k,
+            prior,
+            boost,
+            odds,
+            prob,
+            verdict,
+            holds,
+            held,
+        ] = cells;
+        star.push_str(cat.star_id(cat.star_of(c)));
+        cand.push_str(cat.candidate_id(c));
+        k.push_str(itoa::Buffer::new().format(live.k(c)));
+        push_num(prior, Some(live.prior(c)), 3);
+        push_num(boost, live.boost(c), 4);
+        push_odds(odds, live.odds(c).unwrap_or(f64::NAN));
+        match live.probability(c) {
+            Some(p) => push_fixed(prob, p, 5),
+            None => prob.push('-'),
+        }
+        verdict.push_str(live.verdict(c).name());
+        match live.holds_to(c) {
+            Some(f) => push_fixed(holds, f, 3),
+            None => holds.push('-'),
+        }
+        held.push_str(&hold_text(cat, live, c));
+    })?;
     write_model_footer(live, out)
 }
 

@@ -3,10 +3,9 @@
 //! bytes are those of the general writers (the `csv` crate's, serde_json's
 //! pretty printer), which the tests hold them to.
 
-use std::cell::RefCell;
 use std::io::{self, Write};
 
-use serde::ser::{Serialize, SerializeMap, Serializer};
+use serde::Serialize;
 use serde_json::Value;
 
 use super::exact_in;
@@ -18,7 +17,8 @@ use super::exact_in;
 /// LF, a quote inside doubled; `\n` ends a row). Rows of one empty field,
 /// which that writer spells `""`, are never written here.
 pub struct CsvOut<'a> {
-    out: &'a mut dyn Write,
+    /// Where full buffers go; none when the rows are kept in `buf`.
+    out: Option<&'a mut dyn Write>,
     buf: Vec<u8>,
     ryu: ryu::Buffer,
     /// Whether the next field is the first of its row.
@@ -28,11 +28,25 @@ pub struct CsvOut<'a> {
 impl<'a> CsvOut<'a> {
     pub fn new(out: &'a mut dyn Write) -> CsvOut<'a> {
         CsvOut {
-            out,
+            out: Some(out),
             buf: Vec::with_capacity(1 << 17),
             ryu: ryu::Buffer::new(),
             first: true,
         }
+    }
+
+    /// Rows appended to `buf` and kept there ([`CsvOut::into_bytes`]).
+    fn keeping(buf: Vec<u8>) -> CsvOut<'static> {
+        CsvOut {
+            out: None,
+            buf,
+            ryu: ryu::Buffer::new(),
+            first: true,
+        }
+    }
+
+    fn into_bytes(self) -> Vec<u8> {
+        self.buf
     }
 
     fn separate(&mut self) {
@@ -93,8 +107,8 @@ impl<'a> CsvOut<'a> {
     pub fn end_row(&mut self) -> io::Result<()> {
         self.buf.push(b'\n');
         self.first = true;
-        if self.buf.len() >= 1 << 16 {
-            self.out.write_all(&self.buf)?;
+        if let Some(out) = self.out.as_mut().filter(|_| self.buf.len() >= 1 << 16) {
+            out.write_all(&self.buf)?;
             self.buf.clear();
         }
         Ok(())
@@ -110,59 +124,172 @@ impl<'a> CsvOut<'a> {
 
     /// Writes what is left and flushes.
     pub fn finish(mut self) -> io::Result<()> {
-        self.out.write_all(&self.buf)?;
-        self.buf.clear();
+        if let Some(out) = self.out.as_mut() {
+            out.write_all(&self.buf)?;
+            self.buf.clear();
+            out.flush()?;
+        }
+        Ok(())
+    }
+}
+
+/// A CSV file of a header and a row per item: `row` writes an item's
+/// fields, on every core a chunk of items at a time ([`in_order`]); the
+/// rows come out in order, as one [`CsvOut`] would write them.
+pub fn write_csv_rows<T: Sync, H: AsRef<[u8]>>(
+    out: &mut dyn Write,
+    header: impl IntoIterator<Item = H>,
+    items: &[T],
+    row: impl Fn(&mut CsvOut, &T) + Sync,
+) -> io::Result<()> {
+    let mut w = CsvOut::new(out);
+    w.row(header)?;
+    w.finish()?;
+    in_order(items, out, |part, buf| {
+        let mut w = CsvOut::keeping(std::mem::take(buf));
+        for item in part {
+            row(&mut w, item);
+            // Kept in memory: ending a row cannot fail.
+            let _ = w.end_row();
+        }
+        *buf = w.into_bytes();
+    })
+}
+
+/// Writes, pretty and with a final newline, the JSON object of `head`'s
+/// members in order and then `key`: the list of `row` of each item. The
+/// bytes are those of [`super::write_json`] given the whole object, which
+/// is never held: the rows are serialised a chunk at a time on every core
+/// ([`in_order`]), each pretty on its own and indented to its place (JSON
+/// text holds no raw line break, so every line break is the printer's).
+pub fn write_json_rows<T: Sync, R: Serialize>(
+    out: &mut dyn Write,
+    head: Vec<(&str, Value)>,
+    key: &str,
+    items: &[T],
+    row: impl Fn(&T) -> R + Sync,
+) -> io::Result<()> {
+    let mut object: serde_json::Map<String, Value> =
+        head.into_iter().map(|(k, v)| (k.to_string(), v)).collect();
+    object.insert(key.to_string(), Value::Array(Vec::new()));
+    let mut text = serde_json::to_vec_pretty(&Value::Object(object))?;
+    if items.is_empty() {
+        text.push(b'\n');
+        return out.write_all(&text);
+    }
+    // The list is last: cut its `[]` and the closing brace, write the rows.
+    text.truncate(text.len() - b"[]\n}".len());
+    text.push(b'[');
+    out.write_all(&text)?;
+    let mut rows = SkipFirst { out, skip: 1 };
+    in_order(items, &mut rows, |part, buf| {
+        let mut one = Vec::new();
+        for item in part {
+            one.clear();
+            // Serialising into memory fails only for a map with non-string
+            // keys, which no row has.
+            let _ = serde_json::to_writer_pretty(&mut one, &row(item));
+            buf.extend_from_slice(b",\n    ");
+            for &b in &one {
+                buf.push(b);
+                if b == b'\n' {
+                    buf.extend_from_slice(b"    ");
+                }
+            }
+        }
+    })?;
+    out.write_all(b"\n  ]\n}\n")?;
+    out.flush()
+}
+
+/// A writer that drops the first `skip` bytes written through it (the
+/// comma before the first row).
+struct SkipFirst<'a> {
+    out: &'a mut dyn Write,
+    skip: usize,
+}
+
+impl Write for SkipFirst<'_> {
+    fn write(&mut self, b: &[u8]) -> io::Result<usize> {
+        let cut = self.skip.min(b.len());
+        self.skip -= cut;
+        self.out.write_all(&b[cut..])?;
+        Ok(b.len())
+    }
+
+    fn flush(&mut self) -> io::Result<()> {
         self.out.flush()
     }
 }
 
-/// Writes, pretty and with a final newline, the JSON object of `head`'s
-/// members in order and then `key`: the list of `rows`, each serialised as
-/// it comes. The bytes are those of [`super::write_json`] given the whole
-/// object, without holding it.
-pub fn write_json_rows<R: Serialize>(
+/// How many threads share a long output: the machine's cores, at most 8.
+fn workers() -> usize {
+    std::thread::available_parallelism()
+        .map_or(1, |n| n.get())
+        .clamp(1, 8)
+}
+
+/// `f` of `items` cut into one contiguous part per core, each part on a
+/// thread of its own (the first on this one); the results in order.
+pub fn in_parts<T: Sync, R: Send>(items: &[T], f: impl Fn(&[T]) -> R + Sync) -> Vec<R> {
+    let size = items.len().div_ceil(workers()).max(1);
+    let f = &f;
+    std::thread::scope(|scope| {
+        let mut parts = items.chunks(size);
+        let first = parts.next().unwrap_or(&[]);
+        let handles: Vec<_> = parts.map(|p| scope.spawn(move || f(p))).collect();
+        let mut out = vec![f(first)];
+        for h in handles {
+            out.push(h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)));
+        }
+        out
+    })
+}
+
+/// Rows made into bytes on every core and written in their order: in
+/// rounds of one chunk of [`CHUNK`] items per core, each formatted by
+/// `format` into a buffer of its own (cleared, reused), then the buffers
+/// written one after the other. Memory is a round's output, whatever the
+/// number of rows.
+pub fn in_order<T: Sync>(
+    items: &[T],
     out: &mut dyn Write,
-    head: Vec<(&str, Value)>,
-    key: &str,
-    rows: impl Iterator<Item = R>,
+    format: impl Fn(&[T], &mut Vec<u8>) + Sync,
 ) -> io::Result<()> {
-    let mut out = io::BufWriter::with_capacity(1 << 17, out);
-    let object = Object {
-        head,
-        key,
-        rows: RefCell::new(Some(rows)),
-    };
-    serde_json::to_writer_pretty(&mut out, &object)?;
-    writeln!(out)?;
+    let n = workers();
+    let mut bufs: Vec<Vec<u8>> = vec![Vec::new(); n];
+    let format = &format;
+    for round in items.chunks(CHUNK * n) {
+        std::thread::scope(|scope| {
+            let mut parts = round.chunks(CHUNK).zip(bufs.iter_mut());
+            let first = parts.next();
+            let handles: Vec<_> = parts
+                .map(|(p, b)| {
+                    scope.spawn(move || {
+                        b.clear();
+                        format(p, b);
+                    })
+                })
+                .collect();
+            if let Some((p, b)) = first {
+                b.clear();
+                format(p, b);
+            }
+            for h in handles {
+                h.join().unwrap_or_else(|e| std::panic::resume_unwind(e));
+            }
+        });
+        for b in &bufs[..round.len().div_ceil(CHUNK)] {
+            out.write_all(b)?;
+        }
+    }
     out.flush()
 }
 
-struct Object<'a, I> {
-    head: Vec<(&'a str, Value)>,
-    key: &'a str,
-    /// Taken once, when the list is written.
-    rows: RefCell<Option<I>>,
-}
-
-impl<I: Iterator<Item = R>, R: Serialize> Serialize for Object<'_, I> {
-    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        let mut map = s.serialize_map(Some(self.head.len() + 1))?;
-        for (k, v) in &self.head {
-            map.serialize_entry(k, v)?;
-        }
-        map.serialize_entry(self.key, &Rows(&self.rows))?;
-        map.end()
-    }
-}
-
-struct Rows<'a, I>(&'a RefCell<Option<I>>);
-
-impl<I: Iterator<Item = R>, R: Serialize> Serialize for Rows<'_, I> {
-    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        let rows = self.0.borrow_mut().take();
-        s.collect_seq(rows.into_iter().flatten())
-    }
-}
+/// Items per chunk of [`in_order`]: large enough that starting threads
+/// costs nothing measurable, small enough that a round's output stays in
+/// the low megabytes.
+const CHUNK: usize = 8192;
 
 #[cfg(test)]
 mod tests {
@@ -223,18 +350,16 @@ mod tests {
             k: Option<u32>,
             found: Vec<Value>,
         }
-        let rows = |n: usize| {
-            (0..n).map(|i| Row {
-                id: ["a", "b\"q\"", "ü\n"][i % 3],
-                odds: [Some(0.1), None, Some(f64::NAN), Some(1e300)][i % 4],
-                flags: vec!["echo", "odd-even"][..i % 3].to_vec(),
-                k: (i % 2 == 0).then_some(i as u32),
-                found: (0..i % 2)
-                    .map(|j| serde_json::json!({"flag": "x", "n": j}))
-                    .collect(),
-            })
+        let row = |&i: &usize| Row {
+            id: ["a", "b\"q\"", "ü\n"][i % 3],
+            odds: [Some(0.1), None, Some(f64::NAN), Some(1e300)][i % 4],
+            flags: ["echo", "odd-even"][..i % 3].to_vec(),
+            k: (i % 2 == 0).then_some(i as u32),
+            found: (0..i % 2)
+                .map(|j| serde_json::json!({"flag": "x", "n": j}))
+                .collect(),
         };
-        for n in [0, 1, 7] {
+        for n in [0, 1, 7, 20_000] {
             let head = vec![
                 ("catalogue", Value::from("c.csv")),
                 ("table", serde_json::json!([{"k": 1, "x": [1.5, null]}])),
@@ -244,12 +369,16 @@ mod tests {
             for (k, v) in head.clone() {
                 whole.insert(k.to_string(), v);
             }
-            let list: Vec<Value> = rows(n).map(|r| serde_json::to_value(r).unwrap()).collect();
+            let items: Vec<usize> = (0..n).collect();
+            let list: Vec<Value> = items
+                .iter()
+                .map(|i| serde_json::to_value(row(i)).unwrap())
+                .collect();
             whole.insert("candidates".into(), Value::Array(list));
             let mut want = Vec::new();
             write_json(&mut want, &Value::Object(whole)).unwrap();
             let mut got = Vec::new();
-            write_json_rows(&mut got, head, "candidates", rows(n)).unwrap();
+            write_json_rows(&mut got, head, "candidates", &items, row).unwrap();
             assert_eq!(
                 String::from_utf8(got).unwrap(),
                 String::from_utf8(want).unwrap()
