@@ -97,6 +97,11 @@ fn rejecting_one_of_three_gives_the_siblings_two_candidate_odds() {
     let o = reject_as_binary(&cat, &three[0], &["--vetter", "ann"]);
     assert!(o.status.success(), "{}", stderr(&o));
     assert!(stdout(&o).contains("recorded #1"), "{}", stdout(&o));
+    // Only the ids were read: the star's members are named, not judged.
+    for m in &three {
+        assert!(stdout(&o).contains(m.as_str()), "{}", stdout(&o));
+    }
+    assert!(stdout(&o).contains("--verdicts") && !stdout(&o).contains("(k="));
     let after = export_rows(&cat, &[]);
     assert_eq!(column(&after, &three[0], "verdict"), "rejected");
     assert_eq!(column(&after, &three[0], "reason"), "eclipsing-binary");
@@ -146,6 +151,21 @@ fn rejecting_one_of_three_gives_the_siblings_two_candidate_odds() {
         .unwrap();
     assert_eq!(row["decision"], "rejected");
     assert_eq!(row["k"], 0);
+}
+
+#[test]
+fn decide_with_verdicts_prints_the_star_after_the_decision() {
+    let (_, cat) = demo_copy("verdicts");
+    let two = system_of(2);
+    let o = reject_as_binary(&cat, &two[0], &["--verdicts"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let out = stdout(&o);
+    // The rejected one, then its sibling now alone on its star (k = 1).
+    assert!(out.contains(&format!("  {} rejected", two[0])), "{out}");
+    assert!(
+        out.contains(&format!("  {} ", two[1])) && out.contains("(k=1)"),
+        "{out}"
+    );
 }
 
 #[test]

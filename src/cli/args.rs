@@ -598,12 +598,15 @@ impl CatalogueArgs {
         self.load_with(opts)
     }
 
-    /// `load` for a command that writes to the ledger: the catalogue's
-    /// fingerprint (which the ledger records) comes from the same read as
-    /// the load, not from a second one.
-    pub fn load_for_ledger(&self) -> Result<Loaded, CliError> {
+    /// `load` for a command that reads or writes the ledger: the
+    /// catalogue's fingerprint (which the ledger records) comes from the
+    /// same read as the load, not from a second one. With `ids_only`, only
+    /// what naming candidates needs is kept (`LoadOptions::index_only`: the
+    /// same rows load and are skipped).
+    pub fn load_for_ledger(&self, ids_only: bool) -> Result<Loaded, CliError> {
         let opts = LoadOptions {
             fingerprint: Some(Default::default()),
+            index_only: ids_only,
             ..self.options()?
         };
         self.load_with(opts)

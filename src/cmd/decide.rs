@@ -38,8 +38,13 @@ pub struct Args {
     /// input). Every row is checked against the catalogue first; one bad
     /// row refuses the whole file, with its line; then all are written in
     /// one transaction.
-    #[arg(long, value_name = "FILE", conflicts_with_all = ["candidate", "decision", "reason", "note"])]
+    #[arg(long, value_name = "FILE", conflicts_with_all = ["candidate", "decision", "reason", "note", "verdicts"])]
     pub from: Option<PathBuf>,
+    /// After the decision, print the verdict of every candidate of its star
+    /// (this runs the checks and the odds over the whole catalogue; without
+    /// it only the ids are read).
+    #[arg(long)]
+    pub verdicts: bool,
     #[command(flatten)]
     pub model: crate::cli::args::ModelArgs,
     #[command(flatten)]
@@ -94,7 +99,8 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         checks: args.checks.clone(),
         lc: args.lc.clone(),
     };
-    let loaded = args.input.load_for_ledger()?;
+    // Only the ids are needed, unless the verdicts are to be printed.
+    let loaded = args.input.load_for_ledger(!args.verdicts)?;
     let cat = &loaded.catalogue;
     let c = loaded.candidate(candidate)?;
     let vetter = args.ledger.vetter();
@@ -115,14 +121,27 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         clean(&ledger.path().display().to_string())
     )?;
     drop(ledger);
-    // What the decision did, from the same session every command opens:
-    // the verdict of each member of the star.
     let star = cat.star_of(c);
     let members: Vec<String> = cat
         .members(star)
         .iter()
         .map(|&m| cat.candidate_id(m).to_string())
         .collect();
+    if !args.verdicts {
+        writeln!(
+            out,
+            "  star {}: {} (--verdicts prints their verdicts after this decision)",
+            clean(cat.star_id(star)),
+            members
+                .iter()
+                .map(|m| clean(m))
+                .collect::<Vec<_>>()
+                .join(", ")
+        )?;
+        return Ok(());
+    }
+    // What the decision did, from the same session every command opens:
+    // the verdict of each member of the star.
     let session =
         crate::session::Session::with_loaded(&vetting, loaded, crate::session::LedgerUse::Read)?;
     match &session.live {
@@ -292,7 +311,7 @@ fn read_batch(
 /// `decide --from FILE`: every row checked, then all in one transaction.
 fn run_batch(args: &Args, file: &std::path::Path, out: &mut dyn Write) -> Result<(), CliError> {
     let bytes = batch_file(file)?;
-    let loaded = args.input.load_for_ledger()?;
+    let loaded = args.input.load_for_ledger(true)?;
     let rows = read_batch(file, &bytes, &loaded)?;
     let cat = &loaded.catalogue;
     let vetter = args.ledger.vetter();
