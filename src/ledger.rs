@@ -212,6 +212,22 @@ pub fn fingerprint(bytes: &[u8]) -> String {
     fingerprint_text(fnv1a(FNV_OFFSET, bytes))
 }
 
+/// [`fingerprint`] of a file, read a block at a time (a catalogue of
+/// gigabytes is never held for it).
+pub fn fingerprint_file(path: &std::path::Path) -> std::io::Result<String> {
+    use std::io::Read;
+    let mut f = std::fs::File::open(path)?;
+    let (mut h, mut block) = (FNV_OFFSET, vec![0u8; 1 << 20]);
+    loop {
+        match f.read(&mut block) {
+            Ok(0) => return Ok(fingerprint_text(h)),
+            Ok(n) => h = fnv1a(h, &block[..n]),
+            Err(e) if e.kind() == std::io::ErrorKind::Interrupted => {}
+            Err(e) => return Err(e),
+        }
+    }
+}
+
 /// The FNV-1a 64-bit offset basis (Fowler, Noll & Vo; IETF draft
 /// "The FNV Non-Cryptographic Hash Algorithm", from memory).
 pub const FNV_OFFSET: u64 = 0xcbf2_9ce4_8422_2325;

@@ -7,7 +7,7 @@ mod table;
 pub mod votable;
 
 pub use number::{push_fixed, push_num};
-pub use stream::{CsvOut, write_csv_rows, write_json_rows};
+pub use stream::{CsvOut, write_csv_rows, write_joined_rows, write_json_rows};
 pub use table::{Table, write_table_rows};
 
 use std::io::{self, Write};

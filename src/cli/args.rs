@@ -191,9 +191,7 @@ impl LedgerArgs {
 /// reading the catalogue for its fingerprint only if the place depends on it.
 fn default_ledger_path(input: &CatalogueArgs) -> PathBuf {
     let fp = || match &input.catalogue {
-        Some(p) => {
-            std::fs::read(p).map_or_else(|_| String::new(), |b| crate::ledger::fingerprint(&b))
-        }
+        Some(p) => crate::ledger::fingerprint_file(p).unwrap_or_default(),
         None => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
     };
     crate::ledger::default_path_with(input.catalogue.as_deref(), &fp)
@@ -207,7 +205,7 @@ fn default_ledger(
 ) -> Result<(PathBuf, String), CliError> {
     let fp = match (known, &input.catalogue) {
         (Some(fp), _) => fp.to_string(),
-        (None, Some(p)) => crate::ledger::fingerprint(&std::fs::read(p)?),
+        (None, Some(p)) => crate::ledger::fingerprint_file(p)?,
         (None, None) => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
     };
     Ok((

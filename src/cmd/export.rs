@@ -13,14 +13,14 @@
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
-use serde_json::{Map, Value, json};
+use serde_json::{Value, json};
 
 use crate::catalogue::{CandidateId, Field, NUMERIC};
 use crate::cli::args::VettingArgs;
 use crate::cli::error::CliError;
 use crate::odds::{Live, model_statement};
 use crate::output::votable::{self, Column, Kind};
-use crate::output::{exact_in, write_atomically, write_csv_rows};
+use crate::output::{exact_in, write_atomically, write_csv_rows, write_joined_rows};
 use crate::query::Filter;
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
@@ -302,9 +302,7 @@ impl<'a> Export<'a> {
         let cat = &v.loaded.catalogue;
         let m = live.model();
         let fingerprint = match &v.loaded.path {
-            Some(p) => std::fs::read(p)
-                .ok()
-                .map(|b| crate::ledger::fingerprint(&b)),
+            Some(p) => crate::ledger::fingerprint_file(p).ok(),
             None => Some(crate::ledger::fingerprint(
                 crate::demo::CATALOGUE_CSV.as_bytes(),
             )),
@@ -384,26 +382,49 @@ impl<'a> Export<'a> {
     fn write_json(&self, rows: &[CandidateId], out: &mut dyn Write) -> Result<(), CliError> {
         let names: Vec<String> = self.columns().into_iter().map(|c| c.name).collect();
         let held_at = names.len() - 2;
-        out.write_all(b"[")?;
-        for (n, &c) in rows.iter().enumerate() {
-            let mut o = Map::new();
-            for (i, cell) in self.cells(c).into_iter().enumerate() {
-                let value = match cell {
-                    _ if i == held_at => json!(self.held(c)),
-                    Cell::Text(s) => json!(s),
-                    Cell::Opt(s) => json!(s),
-                    Cell::Num(x) => x
-                        .filter(|x| x.is_finite())
-                        .map_or(Value::Null, |x| json!(x)),
-                    Cell::Int(k) => json!(k),
-                    Cell::Bool(t) => json!(t),
-                    Cell::List(l) => json!(l),
-                };
-                o.insert(names[i].clone(), value);
-            }
-            out.write_all(if n == 0 { b"\n" } else { b",\n" })?;
-            serde_json::to_writer(&mut *out, &Value::Object(o)).map_err(std::io::Error::from)?;
+        out.write_all(if rows.is_empty() { b"[" } else { b"[\n" })?;
+        // One compact object per row, keys in column order. A name given
+        // twice (an input column named like a vetting one) is one member,
+        // where the name first came, with the last value: as a JSON map.
+        let mut place: Vec<usize> = Vec::with_capacity(names.len());
+        for (i, n) in names.iter().enumerate() {
+            place.push(names[..i].iter().position(|m| m == n).unwrap_or(i));
         }
+        let last: Vec<usize> = (0..names.len())
+            .map(|i| (0..names.len()).rev().find(|&j| place[j] == i).unwrap_or(i))
+            .collect();
+        let keys: Vec<String> = names
+            .iter()
+            .map(|n| serde_json::to_string(n).unwrap_or_default())
+            .collect();
+        write_joined_rows(out, rows, b",\n", |&c, buf| {
+            let cells = self.cells(c);
+            buf.push(b'{');
+            let mut first = true;
+            for (i, &p) in place.iter().enumerate() {
+                if p != i {
+                    continue;
+                }
+                if !first {
+                    buf.push(b',');
+                }
+                first = false;
+                buf.extend_from_slice(keys[i].as_bytes());
+                buf.push(b':');
+                let j = last[i];
+                // Writing JSON into memory cannot fail.
+                let _ = match &cells[j] {
+                    _ if j == held_at => serde_json::to_writer(&mut *buf, &self.held(c)),
+                    Cell::Text(s) => serde_json::to_writer(&mut *buf, s),
+                    Cell::Opt(s) => serde_json::to_writer(&mut *buf, s),
+                    Cell::Num(x) => serde_json::to_writer(&mut *buf, &x.filter(|x| x.is_finite())),
+                    Cell::Int(k) => serde_json::to_writer(&mut *buf, k),
+                    Cell::Bool(t) => serde_json::to_writer(&mut *buf, t),
+                    Cell::List(l) => serde_json::to_writer(&mut *buf, l),
+                };
+            }
+            buf.push(b'}');
+        })?;
         out.write_all(b"\n]\n")?;
         Ok(())
     }
@@ -429,12 +450,10 @@ impl<'a> Export<'a> {
             model_statement(self.live.model())
         );
         votable::begin(out, &description, &info, &columns)?;
-        let (mut b, mut scratch) = (ryu::Buffer::new(), String::new());
-        let mut texts: Vec<String> = Vec::with_capacity(columns.len());
-        for &c in rows {
-            texts.clear();
-            for (i, cell) in self.cells(c).into_iter().enumerate() {
-                texts.push(match cell {
+        write_joined_rows(out, rows, b"", |&c, buf| {
+            let (mut b, mut scratch) = (ryu::Buffer::new(), String::new());
+            let texts: Vec<String> = (self.cells(c).into_iter().enumerate())
+                .map(|(i, cell)| match cell {
                     _ if i == held_at => self.held(c),
                     Cell::Text(s) => clean(s).into_owned(),
                     Cell::Opt(s) => clean(s.unwrap_or("")).into_owned(),
@@ -442,10 +461,11 @@ impl<'a> Export<'a> {
                     Cell::Int(k) => k.to_string(),
                     Cell::Bool(t) => (if t { "T" } else { "F" }).to_string(),
                     Cell::List(l) => l.join(";"),
-                });
-            }
-            votable::row(out, &texts, &mut scratch)?;
-        }
+                })
+                .collect();
+            // Writing into memory cannot fail.
+            let _ = votable::row(buf, &texts, &mut scratch);
+        })?;
         votable::end(out)?;
         Ok(())
     }

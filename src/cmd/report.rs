@@ -249,9 +249,7 @@ pub fn markdown(v: &Session) -> Result<String, CliError> {
     }
     let _ = writeln!(r, "\n## Provenance\n");
     let fingerprint = match &v.loaded.path {
-        Some(p) => std::fs::read(p)
-            .map(|b| crate::ledger::fingerprint(&b))
-            .unwrap_or_else(|_| "unreadable".into()),
+        Some(p) => crate::ledger::fingerprint_file(p).unwrap_or_else(|_| "unreadable".into()),
         None => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
     };
     let _ = writeln!(

@@ -179,27 +179,42 @@ pub fn write_json_rows<T: Sync, R: Serialize>(
     }
     // The list is last: cut its `[]` and the closing brace, write the rows.
     text.truncate(text.len() - b"[]\n}".len());
-    text.push(b'[');
+    text.extend_from_slice(b"[\n    ");
     out.write_all(&text)?;
-    let mut rows = SkipFirst { out, skip: 1 };
-    in_order(items, &mut rows, |part, buf| {
-        let mut one = Vec::new();
-        for item in part {
-            one.clear();
-            // Serialising into memory fails only for a map with non-string
-            // keys, which no row has.
-            let _ = serde_json::to_writer_pretty(&mut one, &row(item));
-            buf.extend_from_slice(b",\n    ");
-            for &b in &one {
-                buf.push(b);
-                if b == b'\n' {
-                    buf.extend_from_slice(b"    ");
-                }
+    write_joined_rows(out, items, b",\n    ", |item, buf| {
+        let mut one = Vec::with_capacity(1024);
+        // Serialising into memory fails only for a map with non-string
+        // keys, which no row has.
+        let _ = serde_json::to_writer_pretty(&mut one, &row(item));
+        for &b in &one {
+            buf.push(b);
+            if b == b'\n' {
+                buf.extend_from_slice(b"    ");
             }
         }
     })?;
     out.write_all(b"\n  ]\n}\n")?;
     out.flush()
+}
+
+/// Every item made into bytes by `one`, with `sep` between them, on every
+/// core a chunk at a time ([`in_order`]), written in order.
+pub fn write_joined_rows<T: Sync>(
+    out: &mut dyn Write,
+    items: &[T],
+    sep: &[u8],
+    one: impl Fn(&T, &mut Vec<u8>) + Sync,
+) -> io::Result<()> {
+    let mut rows = SkipFirst {
+        out,
+        skip: sep.len(),
+    };
+    in_order(items, &mut rows, |part, buf| {
+        for item in part {
+            buf.extend_from_slice(sep);
+            one(item, buf);
+        }
+    })
 }
 
 /// A writer that drops the first `skip` bytes written through it (the
