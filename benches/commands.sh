@@ -12,7 +12,8 @@
 # `decide` records into a fresh ledger in a temporary folder.
 set -euo pipefail
 root="$(cd "$(dirname "$0")/.." && pwd)"
-bin="$root/target/release/starsift"
+# STARSIFT_BIN runs another build (e.g. an older commit's) on the same file.
+bin="${STARSIFT_BIN:-$root/target/release/starsift}"
 n="${1:-1000000}"
 rounds="${2:-3}"
 cat="$root/bench-data/big-$n.csv"
