@@ -267,10 +267,18 @@ impl Checks {
     }
 
     /// Adds the flags of the light-curve diagnostics (they fire firmly).
-    pub fn add_lightcurve(&mut self, c: CandidateId, findings: &[(Flag, String)]) {
+    /// The findings stay unsorted until [`Checks::sort_findings`], which a
+    /// pass calls once at its end (a sort per candidate would make a pass
+    /// over many light curves quadratic in the catalogue's findings).
+    fn add_lightcurve(&mut self, c: CandidateId, findings: &[(Flag, String)]) {
         for (flag, why) in findings {
             self.add(c, *flag, false, why.clone());
         }
+    }
+
+    /// Sorts the findings by candidate, stably: per candidate, they keep
+    /// the order they were found in.
+    fn sort_findings(&mut self) {
         self.findings.sort_by_key(|(c, _)| *c);
     }
 
@@ -331,8 +339,7 @@ pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
     for (c, soft, why) in echoes {
         checks.add(c, Flag::Echo, soft, why);
     }
-    // Stable: per candidate, findings keep the order they were found in.
-    checks.findings.sort_by_key(|(c, _)| *c);
+    checks.sort_findings();
     checks
 }
 
@@ -444,6 +451,7 @@ pub fn run_lightcurves_counted(
             last = std::time::Instant::now();
         }
     }
+    checks.sort_findings();
     LightcurveRun {
         stars: total,
         errors,
