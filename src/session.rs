@@ -87,6 +87,14 @@ impl Session {
         Session::with_loaded(args, loaded, ledger)
     }
 
+    /// [`Session::open`] for a command whose output needs the verdicts:
+    /// the model is built from the flags and survey.toml before the
+    /// catalogue is read, so a missing N or a bad survey.toml costs no load.
+    pub fn open_for_verdicts(args: &VettingArgs, ledger: LedgerUse) -> Result<Session, CliError> {
+        args.model.model(&args.input.survey()?.0)?;
+        Session::open(args, ledger)
+    }
+
     /// [`Session::open`] for a catalogue already loaded.
     pub fn with_loaded(
         args: &VettingArgs,

@@ -615,6 +615,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     // Flags first (a bad key map or value costs nothing), then the terminal
     // opens at once with a progress line while the catalogue loads.
     args.keymap()?;
+    args.vetting.model.model(&args.vetting.input.survey()?.0)?;
     let guard = Guard::enter(args.mouse)?;
     let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
     let built = load_showing_progress(args, &mut term, look);

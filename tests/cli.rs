@@ -314,6 +314,11 @@ fn bad_flags_are_named_before_any_catalogue_is_read() {
         ),
         (vec!["odds", missing, "--boost", "bogus"], "bogus"),
         (vec!["odds", missing, "--fp-fraction", "7"], "--fp-fraction"),
+        // No N anywhere (no survey.toml beside a missing file): said before
+        // the catalogue is looked for, by every command that gives verdicts.
+        (vec!["odds", missing], "--targets N"),
+        (vec!["export", missing], "--targets N"),
+        (vec!["report", missing], "--targets N"),
         (vec!["export", missing, "--where", "k>>2"], "--where"),
         (vec!["checks", missing, "--only", "nonsense"], "--only"),
         (

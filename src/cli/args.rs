@@ -620,6 +620,23 @@ impl CatalogueArgs {
         self.load_with(opts)
     }
 
+    /// The survey facts beside the catalogue (the demo's for the demo) and
+    /// where they came from. Cheap: commands read them before the
+    /// catalogue, so a bad survey.toml, or a model it cannot complete, is
+    /// said before any wait.
+    pub fn survey(&self) -> Result<(SurveyFacts, Option<String>), CliError> {
+        Ok(match &self.catalogue {
+            None => (
+                crate::demo::survey(),
+                Some("built-in demo survey.toml".into()),
+            ),
+            Some(path) => match SurveyFacts::beside(path) {
+                Some(p) => (SurveyFacts::from_file(&p)?, Some(p.display().to_string())),
+                None => (SurveyFacts::default(), None),
+            },
+        })
+    }
+
     fn load_with(&self, opts: LoadOptions) -> Result<Loaded, CliError> {
         match &self.catalogue {
             None => Ok(Loaded {
@@ -647,10 +664,7 @@ impl CatalogueArgs {
                     .map(|h| h.load(std::sync::atomic::Ordering::Relaxed))
                     .filter(|&h| h != 0)
                     .map(crate::ledger::fingerprint_text);
-                let (survey, survey_source) = match SurveyFacts::beside(path) {
-                    Some(p) => (SurveyFacts::from_file(&p)?, Some(p.display().to_string())),
-                    None => (SurveyFacts::default(), None),
-                };
+                let (survey, survey_source) = self.survey()?;
                 Ok(Loaded {
                     catalogue,
                     survey,

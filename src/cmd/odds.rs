@@ -34,7 +34,7 @@ pub struct Args {
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let filter = crate::cli::args::parse_where(args.filter.as_deref())?;
-    let session = Session::open(&args.vetting, LedgerUse::Read)?;
+    let session = Session::open_for_verdicts(&args.vetting, LedgerUse::Read)?;
     let cat = &session.loaded.catalogue;
     let live = session.live()?;
     let rows = session.selected(live, filter.as_ref());
