@@ -30,6 +30,7 @@ pub mod contain;
 pub mod decision;
 pub mod demo;
 pub mod figure;
+pub mod fingerprint;
 pub mod fitsfile;
 pub mod flags;
 pub mod ledger;

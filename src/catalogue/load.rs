@@ -72,7 +72,7 @@ struct Hashed<R> {
 impl<R: Read> Read for Hashed<R> {
     fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
         let n = self.inner.read(buf)?;
-        self.state = crate::ledger::fnv1a(self.state, &buf[..n]);
+        self.state = crate::fingerprint::fnv1a(self.state, &buf[..n]);
         self.out
             .store(self.state, std::sync::atomic::Ordering::Relaxed);
         Ok(n)
@@ -157,7 +157,7 @@ fn load_converted(
             .map_err(io)?;
         if let Some(out) = &opts.fingerprint {
             out.store(
-                crate::ledger::fnv1a(crate::ledger::FNV_OFFSET, &raw),
+                crate::fingerprint::fnv1a(crate::fingerprint::FNV_OFFSET, &raw),
                 std::sync::atomic::Ordering::Relaxed,
             );
         }
@@ -230,12 +230,12 @@ impl Catalogue {
                     let file: Box<dyn Read + Send> = match &opts.fingerprint {
                         Some(out) => {
                             out.store(
-                                crate::ledger::FNV_OFFSET,
+                                crate::fingerprint::FNV_OFFSET,
                                 std::sync::atomic::Ordering::Relaxed,
                             );
                             Box::new(Hashed {
                                 inner: file,
-                                state: crate::ledger::FNV_OFFSET,
+                                state: crate::fingerprint::FNV_OFFSET,
                                 out: std::sync::Arc::clone(out),
                             })
                         }
