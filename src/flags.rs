@@ -145,16 +145,6 @@ impl FlagSet {
         ALL_FLAGS.into_iter().filter(move |f| self.contains(*f))
     }
 
-    /// [`FlagSet::joined`] appended to a byte buffer (no allocation).
-    pub fn write_joined(self, sep: &str, out: &mut Vec<u8>) {
-        for (i, f) in self.iter().enumerate() {
-            if i > 0 {
-                out.extend_from_slice(sep.as_bytes());
-            }
-            out.extend_from_slice(f.name().as_bytes());
-        }
-    }
-
     /// [`FlagSet::joined`] appended to a string.
     pub fn push_joined(self, sep: &str, out: &mut String) {
         for (i, f) in self.iter().enumerate() {
@@ -167,7 +157,9 @@ impl FlagSet {
 
     /// `a;b;c`, as in CSV exports.
     pub fn joined(self, sep: &str) -> String {
-        self.iter().map(Flag::name).collect::<Vec<_>>().join(sep)
+        let mut s = String::new();
+        self.push_joined(sep, &mut s);
+        s
     }
 
     /// Parses a comma-separated list of flag names.

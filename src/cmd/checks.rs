@@ -96,8 +96,8 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 ] {
                     w.exact(v);
                 }
-                w.text_with(|b| ch.flags(c).write_joined(";", b));
-                w.text_with(|b| ch.warnings(c).write_joined(";", b));
+                w.list(ch.flags(c).iter().map(Flag::name), ";");
+                w.list(ch.warnings(c).iter().map(Flag::name), ";");
                 w.text(clean(&ch.why(c)).as_bytes());
                 match live {
                     Some(l) => {

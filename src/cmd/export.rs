@@ -365,14 +365,7 @@ impl<'a> Export<'a> {
                     Cell::Num(x) => w.exact(x),
                     Cell::Int(n) => w.int(n),
                     Cell::Bool(t) => w.text(if t { "yes" } else { "no" }),
-                    Cell::List(l) => w.text_with(|b| {
-                        for (j, name) in l.iter().enumerate() {
-                            if j > 0 {
-                                b.push(b';');
-                            }
-                            b.extend_from_slice(name.as_bytes());
-                        }
-                    }),
+                    Cell::List(l) => w.list(l, ";"),
                 }
             }
         })?;

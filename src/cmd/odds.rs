@@ -89,7 +89,7 @@ fn write_csv(
         w.exact(live.probability(c));
         w.text(live.verdict(c).name());
         w.text(live.decision(c).name());
-        w.text_with(|b| live.flags(c).write_joined(";", b));
+        w.list(live.flags(c).iter().map(|f| f.name()), ";");
         w.text(if live.counted(c) { "yes" } else { "no" });
         w.text(hold_text(cat, live, c));
         w.exact(live.holds_to(c));

@@ -74,8 +74,21 @@ impl<'a> CsvOut<'a> {
         }
     }
 
-    /// A text field built in place by `write` (a list, a sentence).
-    pub fn text_with(&mut self, write: impl FnOnce(&mut Vec<u8>)) {
+    /// A field of `items` joined by `sep` (a list of flag names), quoted
+    /// when it must be.
+    pub fn list<'s>(&mut self, items: impl IntoIterator<Item = &'s str>, sep: &str) {
+        self.text_with(|b| {
+            for (i, item) in items.into_iter().enumerate() {
+                if i > 0 {
+                    b.extend_from_slice(sep.as_bytes());
+                }
+                b.extend_from_slice(item.as_bytes());
+            }
+        });
+    }
+
+    /// A text field built in place by `write`, quoted when it must be.
+    fn text_with(&mut self, write: impl FnOnce(&mut Vec<u8>)) {
         self.separate();
         let start = self.buf.len();
         write(&mut self.buf);
@@ -342,8 +355,8 @@ mod tests {
             w.exact(None);
             w.int(42u32);
             w.end_row().unwrap();
-            w.text_with(|b| b.extend_from_slice(b"one;two"));
-            w.text_with(|b| b.extend_from_slice(b"needs, quotes"));
+            w.list(["one", "two"], ";");
+            w.list(["needs", " quotes"], ",");
             w.end_row().unwrap();
             w.finish().unwrap();
         }
