@@ -37,6 +37,7 @@ pub mod ledger;
 pub mod lightcurve;
 pub mod odds;
 pub mod output;
+pub mod parallel;
 pub mod query;
 pub mod sanitize;
 pub mod science;

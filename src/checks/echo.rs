@@ -77,23 +77,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
     // The sweep is pure: each part of the period order finds its matches
     // on a thread of its own, and they are applied below in that order, so
     // the result is the one a single pass gives.
-    let workers = std::thread::available_parallelism()
-        .map_or(1, |n| n.get())
-        .clamp(1, 8);
-    let part = sigs.len().div_ceil(workers).max(1);
-    let swept: Vec<Swept> = std::thread::scope(|scope| {
-        let handles: Vec<_> = (0..sigs.len())
-            .step_by(part)
-            .map(|from| {
-                let (sigs, pair) = (&sigs, &pair);
-                scope.spawn(move || sweep(sigs, from..(from + part).min(sigs.len()), pair))
-            })
-            .collect();
-        handles
-            .into_iter()
-            .map(|h| h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
-            .collect()
-    });
+    let swept = crate::parallel::in_parts(sigs.len(), |range| sweep(&sigs, range, &pair));
     // What each candidate is, gathered over all its matches: the deepest
     // source it copies, and the copies it feeds (the first one found and
     // how many). Kept only for candidates with a match.

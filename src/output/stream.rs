@@ -250,30 +250,6 @@ impl Write for SkipFirst<'_> {
     }
 }
 
-/// How many threads share a long output: the machine's cores, at most 8.
-fn workers() -> usize {
-    std::thread::available_parallelism()
-        .map_or(1, |n| n.get())
-        .clamp(1, 8)
-}
-
-/// `f` of `items` cut into one contiguous part per core, each part on a
-/// thread of its own (the first on this one); the results in order.
-pub fn in_parts<T: Sync, R: Send>(items: &[T], f: impl Fn(&[T]) -> R + Sync) -> Vec<R> {
-    let size = items.len().div_ceil(workers()).max(1);
-    let f = &f;
-    std::thread::scope(|scope| {
-        let mut parts = items.chunks(size);
-        let first = parts.next().unwrap_or(&[]);
-        let handles: Vec<_> = parts.map(|p| scope.spawn(move || f(p))).collect();
-        let mut out = vec![f(first)];
-        for h in handles {
-            out.push(h.join().unwrap_or_else(|e| std::panic::resume_unwind(e)));
-        }
-        out
-    })
-}
-
 /// Rows made into bytes on every core and written in their order: in
 /// rounds of one chunk of [`CHUNK`] items per core, each formatted by
 /// `format` into a buffer of its own (cleared, reused), then the buffers
@@ -284,7 +260,7 @@ pub fn in_order<T: Sync>(
     out: &mut dyn Write,
     format: impl Fn(&[T], &mut Vec<u8>) + Sync,
 ) -> io::Result<()> {
-    let n = workers();
+    let n = crate::parallel::workers();
     let mut bufs: Vec<Vec<u8>> = vec![Vec::new(); n];
     let format = &format;
     for round in items.chunks(CHUNK * n) {

@@ -6,7 +6,8 @@ use std::borrow::Cow;
 use std::io::{self, Write};
 
 use super::Align;
-use super::stream::{in_order, in_parts};
+use super::stream::in_order;
+use crate::parallel::in_parts;
 use crate::sanitize::clean;
 
 /// A table that holds its rows until written.
@@ -65,9 +66,9 @@ pub fn write_table_rows<T: Sync, const N: usize>(
         cells.iter_mut().for_each(String::clear);
         fill(r, cells);
     };
-    for widths in in_parts(rows, |part| {
+    for widths in in_parts(rows.len(), |part| {
         let (mut cells, mut widths) = (blank(), [0; N]);
-        for r in part {
+        for r in &rows[part] {
             filled(r, &mut cells);
             for (w, c) in widths.iter_mut().zip(&cells) {
                 *w = (*w).max(width(&clean(c)));
