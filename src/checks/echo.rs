@@ -3,6 +3,8 @@
 //! 147, 119), and within an angular radius when positions exist. One sort by
 //! period, then a sweep over a bounded window: O(n log n).
 
+mod sweep;
+
 use std::collections::HashMap;
 
 use super::CheckSettings;
@@ -20,6 +22,8 @@ pub fn separation_arcsec(ra1: f64, dec1: f64, ra2: f64, dec2: f64) -> f64 {
 struct Sig {
     c: CandidateId,
     star: u32,
+    /// Place in the period order (see `check`).
+    rank: u32,
     period: f64,
     /// 1 / period: the sweep multiplies where it would divide.
     inv_period: f64,
@@ -27,6 +31,10 @@ struct Sig {
     epoch: f64,
     epoch_err: f64,
     t14_d: f64,
+    /// Position, degrees (NaN without positions): kept here so the sweep
+    /// reads neighbours in period order, not the columns at random.
+    ra: f64,
+    dec: f64,
 }
 
 /// One echo finding: (candidate, soft, why), in the order they are added.
@@ -46,63 +54,91 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
     let per_err = col(Field::PeriodErrD);
     let ep_err = col(Field::EpochErrD);
     let nan_to_zero = |v: f64| if v.is_finite() { v } else { 0.0 };
-    let mut sigs: Vec<Sig> = (0..cat.len())
+    let (ra, dec) = match (col(Field::RaDeg), col(Field::DecDeg)) {
+        (Some(ra), Some(dec)) => (Some(ra), Some(dec)),
+        _ => (None, None),
+    };
+    // The period order, with ties broken by a hash of the candidate so that
+    // copies of one ephemeris on many stars interleave and each signal's
+    // nearest neighbours are mostly on other stars (deterministic). Sorted
+    // as one integer per signal: the order of `f64::total_cmp`, then the
+    // hash, then the candidate.
+    let shuffle = |c: CandidateId| c.wrapping_mul(2_654_435_761);
+    let mut order: Vec<u128> = (0..cat.len())
+        .map(|i| {
+            let c = i as CandidateId;
+            (u128::from(total_order_bits(periods[i])) << 64)
+                | (u128::from(shuffle(c)) << 32)
+                | u128::from(c)
+        })
+        .collect();
+    order.sort_unstable();
+    let period_order: Vec<CandidateId> = order.into_iter().map(|k| k as CandidateId).collect();
+    let mut rank = vec![0u32; cat.len()];
+    for (r, &c) in period_order.iter().enumerate() {
+        rank[c as usize] = r as u32;
+    }
+    // Built in file order (each column read straight through); the index
+    // lays them out in the order its search reads them.
+    let by_file: Vec<Sig> = (0..cat.len())
         .map(|i| Sig {
             c: i as CandidateId,
             star: cat.star_of(i as CandidateId),
+            rank: rank[i],
             period: periods[i],
             inv_period: 1.0 / periods[i],
             period_err: per_err.map_or(0.0, |e| nan_to_zero(e[i])),
             epoch: epochs[i],
             epoch_err: ep_err.map_or(0.0, |e| nan_to_zero(e[i])),
             t14_d: durations[i] / 24.0,
+            ra: ra.map_or(f64::NAN, |r| r[i]),
+            dec: dec.map_or(f64::NAN, |d| d[i]),
         })
         .collect();
-    // Ties in period are broken by a hash of the candidate, so that copies
-    // of one ephemeris on many stars interleave and each signal's nearest
-    // neighbours are mostly on other stars (deterministic).
-    let shuffle = |c: CandidateId| c.wrapping_mul(2_654_435_761);
-    sigs.sort_unstable_by(|a, b| {
-        a.period
-            .total_cmp(&b.period)
-            .then(shuffle(a.c).cmp(&shuffle(b.c)))
-    });
+    drop(rank);
     let pair = Pair {
         s,
-        ra: col(Field::RaDeg),
-        dec: col(Field::DecDeg),
+        positions: ra.is_some(),
         mag: col(Field::Mag),
         depth: col(Field::DepthPpm),
     };
-    // The sweep is pure: each part of the period order finds its matches
-    // on a thread of its own, and they are applied below in that order, so
-    // the result is the one a single pass gives.
-    let swept = crate::parallel::in_parts(sigs.len(), |range| sweep(&sigs, range, &pair));
+    // The search is pure: each part finds its matches on a thread of its
+    // own, and they are applied below in the order of a search of one
+    // signal after another in period order, so the result is the same
+    // whichever thread found what.
+    let index = sweep::Index::new(by_file, &period_order, s.echo_radius_arcsec);
+    let mut swept = crate::parallel::in_parts(index.bands_len(), |r| index.sweep_bands(r, &pair));
+    swept.extend(crate::parallel::in_parts(index.unplaced_len(), |r| {
+        index.sweep_unplaced(r, &pair)
+    }));
+    let mut matches: Vec<sweep::Found> = Vec::new();
+    let mut crowded_window = vec![false; cat.len()];
+    for part in swept {
+        matches.extend(part.matches);
+        for c in part.crowded {
+            crowded_window[c as usize] = true;
+        }
+    }
+    matches.sort_unstable_by_key(|m| m.0);
     // What each candidate is, gathered over all its matches: the deepest
     // source it copies, and the copies it feeds (the first one found and
     // how many). Kept only for candidates with a match.
     let mut copy_of: HashMap<CandidateId, Match> = HashMap::new();
     let mut feeds: HashMap<CandidateId, (u32, Match)> = HashMap::new();
-    let mut crowded_window = vec![false; cat.len()];
-    for part in &swept {
-        for &(copy, m) in &part.matches {
-            let source = m.other;
-            let keep = copy_of
-                .get(&copy)
-                .is_none_or(|old| pair.depth_of(source) > pair.depth_of(old.other));
-            if keep {
-                copy_of.insert(copy, m);
-            }
-            feeds
-                .entry(source)
-                .or_insert((0, Match { other: copy, ..m }))
-                .0 += 1;
+    for &(_, (copy, m)) in &matches {
+        let source = m.other;
+        let keep = copy_of
+            .get(&copy)
+            .is_none_or(|old| pair.depth_of(source) > pair.depth_of(old.other));
+        if keep {
+            copy_of.insert(copy, m);
         }
-        for &c in &part.crowded {
-            crowded_window[c as usize] = true;
-        }
+        feeds
+            .entry(source)
+            .or_insert((0, Match { other: copy, ..m }))
+            .0 += 1;
     }
-    drop(swept);
+    drop(matches);
     let mut found: Vec<CandidateId> = copy_of.keys().chain(feeds.keys()).copied().collect();
     found.sort_unstable();
     found.dedup();
@@ -154,10 +190,10 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
     // The bound is said once per run of crowded signals (in period order),
     // on the first of them.
     let mut previous = false;
-    for sig in &sigs {
-        let crowded = crowded_window[sig.c as usize];
+    for &c in &period_order {
+        let crowded = crowded_window[c as usize];
         if crowded && !previous {
-            out.push((sig.c, true, format!(
+            out.push((c, true, format!(
                 "more than {ECHO_MATCHES} signals on other stars share this ephemeris: each of them was compared with its nearest in period only (at most {ECHO_WINDOW}, stopping at {ECHO_MATCHES} matches)"
             )));
         }
@@ -166,72 +202,11 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
     out
 }
 
-/// What the sweep over one part of the period order found: each match as
-/// (copy, match with its source), in the order found, and the signals whose
-/// window filled up.
-struct Swept {
-    matches: Vec<(CandidateId, Match)>,
-    crowded: Vec<CandidateId>,
-}
-
-/// The sweep over `range` of the period-sorted signals: each is compared
-/// with the signals after it up to the same period (window n = 1) and with
-/// those near twice its period (n = 2), at most [`ECHO_WINDOW`] of other
-/// stars in each, stopping at [`ECHO_MATCHES`] matches (a catalogue with
-/// thousands of copies of one ephemeris stays O(n log n), and each still
-/// meets a copy).
-fn sweep(sigs: &[Sig], range: std::ops::Range<usize>, pair: &Pair) -> Swept {
-    let rel = pair.s.echo_max_rel;
-    let mut out = Swept {
-        matches: Vec::new(),
-        crowded: Vec::new(),
-    };
-    // The periods rise along the list, so the start of each signal's
-    // twice-the-period window only moves forward.
-    let mut twice = range.clone().next().map_or(0, |i| {
-        sigs.partition_point(|x| x.period < 2.0 * sigs[i].period * (1.0 - rel))
-    });
-    for i in range {
-        let a = &sigs[i];
-        let lo = 2.0 * a.period * (1.0 - rel);
-        while twice < sigs.len() && sigs[twice].period < lo {
-            twice += 1;
-        }
-        let windows = [
-            (i + 1, a.period * (1.0 + rel), 1.0),
-            (twice, 2.0 * a.period * (1.0 + rel), 2.0),
-        ];
-        let mut crowded = false;
-        for (start, hi, n) in windows {
-            let others = sigs[start..]
-                .iter()
-                .take_while(|b| b.period <= hi)
-                .take(8 * ECHO_WINDOW)
-                .filter(|b| b.star != a.star);
-            let mut found = 0;
-            for (k, b) in others.enumerate() {
-                if k == ECHO_WINDOW || found == ECHO_MATCHES {
-                    crowded = true;
-                    break;
-                }
-                if let Some(m) = pair.compare(a, b, n) {
-                    out.matches.push(m);
-                    found += 1;
-                }
-            }
-        }
-        if crowded {
-            out.crowded.push(a.c);
-        }
-    }
-    out
-}
-
 /// What comparing two signals needs besides them.
 struct Pair<'a> {
     s: &'a CheckSettings,
-    ra: Option<&'a [f64]>,
-    dec: Option<&'a [f64]>,
+    /// Whether the catalogue gives positions (each Sig carries its own).
+    positions: bool,
     mag: Option<&'a [f64]>,
     depth: Option<&'a [f64]>,
 }
@@ -265,6 +240,18 @@ impl Pair<'_> {
         if !p_ok {
             return None;
         }
+        // Two stars farther apart in declination alone than the radius are
+        // farther apart on the sky (the arc is at least the difference in
+        // latitude): no trigonometry and no timing needed. Only for real
+        // positions, where the haversine below would say the same.
+        let real = |r: f64, d: f64| r.is_finite() && d.abs() <= 90.0;
+        if self.positions
+            && real(a.ra, a.dec)
+            && real(b.ra, b.dec)
+            && (a.dec - b.dec).abs() * 3600.0 > s.echo_radius_arcsec * (1.0 + 1e-9)
+        {
+            return None;
+        }
         // b's transit nearest a's epoch, against a's transits.
         let nb = nearest((a.epoch - b.epoch) * b.inv_period);
         let diff = b.epoch + nb * b.period - a.epoch;
@@ -276,16 +263,14 @@ impl Pair<'_> {
         if !t_ok {
             return None;
         }
-        let sep = match (self.ra, self.dec) {
-            (Some(ra), Some(dec)) => {
-                let (i1, i2) = (a.c as usize, b.c as usize);
-                let v = separation_arcsec(ra[i1], dec[i1], ra[i2], dec[i2]);
-                if v.is_finite() && v > s.echo_radius_arcsec {
-                    return None;
-                }
-                v.is_finite().then_some(v)
+        let sep = if self.positions {
+            let v = separation_arcsec(a.ra, a.dec, b.ra, b.dec);
+            if v.is_finite() && v > s.echo_radius_arcsec {
+                return None;
             }
-            _ => None,
+            v.is_finite().then_some(v)
+        } else {
+            None
         };
         // Dilution only makes a copy shallower: the deeper eclipse is the
         // source (docs/science.md §3.3); magnitudes decide only without depths.
@@ -317,6 +302,17 @@ impl Pair<'_> {
                 fainter,
             },
         ))
+    }
+}
+
+/// An integer whose order is that of [`f64::total_cmp`]: the sign bit
+/// flipped for positive numbers, every bit for negative ones.
+fn total_order_bits(x: f64) -> u64 {
+    let bits = x.to_bits();
+    if bits >> 63 == 1 {
+        !bits
+    } else {
+        bits | 1 << 63
     }
 }
 
@@ -362,6 +358,35 @@ mod tests {
         // one degree of right ascension spans cos 60° = 0.5 degree.
         assert!((separation_arcsec(10.0, 20.0, 10.0, 20.0 + 1.0 / 60.0) - 60.0).abs() < 1e-6);
         assert!((separation_arcsec(10.0, 60.0, 11.0, 60.0) - 1800.0).abs() < 1.0);
+    }
+
+    #[test]
+    fn total_order_bits_orders_as_total_cmp() {
+        let xs = [
+            f64::NEG_INFINITY,
+            -1e300,
+            -2.5,
+            -f64::MIN_POSITIVE,
+            -0.0,
+            0.0,
+            f64::MIN_POSITIVE,
+            1.0,
+            1.0 + f64::EPSILON,
+            3.5,
+            f64::MAX,
+            f64::INFINITY,
+            f64::NAN,
+            -f64::NAN,
+        ];
+        for a in xs {
+            for b in xs {
+                assert_eq!(
+                    total_order_bits(a).cmp(&total_order_bits(b)),
+                    a.total_cmp(&b),
+                    "{a} against {b}"
+                );
+            }
+        }
     }
 
     #[test]

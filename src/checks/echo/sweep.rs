@@ -1,0 +1,411 @@
+//! Where the echo search looks. Every signal is compared with the signals
+//! after it in period order whose period is the same or twice its own
+//! (within the widest relative difference ever matched). A signal with a
+//! position is compared only with signals whose declination is within the
+//! echo radius of its own, found in bands of declination as wide as the
+//! radius (its own band and the two beside it: any other is farther than
+//! the radius in declination alone, so farther on the sky), and with every
+//! signal that has no position. A signal without a position is compared
+//! with all. The pairs left out are pairs the comparison would refuse, so
+//! the matches are those of a search of every pair in the period windows,
+//! and windows stay small in a catalogue of millions.
+
+use super::{ECHO_MATCHES, ECHO_WINDOW, Match, Pair, Sig};
+use crate::catalogue::CandidateId;
+
+/// The signals, laid out in the order the search reads them.
+pub(super) struct Index {
+    /// Every signal in period order; kept only when some signal has no
+    /// position (their search reads all signals).
+    all: Vec<Sig>,
+    /// The signals with a position, band by band (by band number), each
+    /// band in period order.
+    placed: Vec<Sig>,
+    /// (band number, start, end) of each band that has signals, in `placed`.
+    bands: Vec<(i64, usize, usize)>,
+    /// The ranks of the signals without a position.
+    unplaced: Vec<u32>,
+    /// Those signals themselves, in period order, when some signals have a
+    /// position (their search reads them); empty otherwise.
+    unplaced_sigs: Vec<Sig>,
+}
+
+/// One match as found, with where it stands in the order of a search of
+/// one signal after another: (position of the earlier signal, window n,
+/// position of the later one).
+pub(super) type Found = ((u32, u8, u32), (CandidateId, Match));
+
+/// What a part of the search found: its matches, and the signals whose
+/// window filled up.
+#[derive(Default)]
+pub(super) struct Swept {
+    pub matches: Vec<Found>,
+    pub crowded: Vec<CandidateId>,
+}
+
+/// Whether a signal has a position the bands can hold (the same test as
+/// the comparison's own declination test).
+pub(super) fn placed(s: &Sig) -> bool {
+    s.ra.is_finite() && s.dec.abs() <= 90.0
+}
+
+impl Index {
+    /// The index of the signals given in file order (`period_order` lists
+    /// their candidates in period order), for an echo radius in arcsec.
+    pub fn new(mut sigs: Vec<Sig>, period_order: &[CandidateId], radius_arcsec: f64) -> Index {
+        // A little wider than the radius, so rounding in the band number
+        // never parts two signals within it by more than one band.
+        let width = (radius_arcsec * (1.0 + 1e-6) / 3600.0).max(1e-9);
+        let band = |dec: f64| {
+            if width.is_finite() && width < 180.0 {
+                ((dec + 90.0) / width).floor() as i64
+            } else {
+                0
+            }
+        };
+        // (band, rank, candidate) of each signal with a position, in band
+        // order then period order.
+        let mut in_bands: Vec<(i64, u32, CandidateId)> = sigs
+            .iter()
+            .filter(|s| placed(s))
+            .map(|s| (band(s.dec), s.rank, s.c))
+            .collect();
+        in_bands.sort_unstable();
+        let mut bands: Vec<(i64, usize, usize)> = Vec::new();
+        for (at, &(b, _, _)) in in_bands.iter().enumerate() {
+            match bands.last_mut() {
+                Some(last) if last.0 == b => last.2 = at + 1,
+                _ => bands.push((b, at, at + 1)),
+            }
+        }
+        let mut unplaced: Vec<u32> = sigs.iter().filter(|s| !placed(s)).map(|s| s.rank).collect();
+        unplaced.sort_unstable();
+        if unplaced.is_empty() {
+            // Every signal has a position: the bands are all there is.
+            let mut dest = vec![0u32; sigs.len()];
+            for (at, &(_, _, c)) in in_bands.iter().enumerate() {
+                dest[c as usize] = at as u32;
+            }
+            permute(&mut sigs, dest);
+            return Index {
+                all: Vec::new(),
+                placed: sigs,
+                bands,
+                unplaced,
+                unplaced_sigs: Vec::new(),
+            };
+        }
+        let dest: Vec<u32> = sigs.iter().map(|s| s.rank).collect();
+        permute(&mut sigs, dest);
+        let placed: Vec<Sig> = in_bands.iter().map(|&(_, r, _)| sigs[r as usize]).collect();
+        let unplaced_sigs = if placed.is_empty() {
+            Vec::new()
+        } else {
+            unplaced.iter().map(|&r| sigs[r as usize]).collect()
+        };
+        debug_assert!(period_order.iter().zip(&sigs).all(|(&c, s)| c == s.c));
+        Index {
+            all: sigs,
+            placed,
+            bands,
+            unplaced,
+            unplaced_sigs,
+        }
+    }
+
+    /// The search from the signals without a position, those of
+    /// `range` in `unplaced`: each against every later signal.
+    pub fn sweep_unplaced(&self, range: std::ops::Range<usize>, pair: &Pair) -> Swept {
+        let sigs = &self.all;
+        let rel = pair.s.echo_max_rel;
+        let mut out = Swept::default();
+        // The periods rise, so the start of each twice-the-period window
+        // only moves forward.
+        let mut twice = range.clone().next().map_or(0, |u| {
+            let p = sigs[self.unplaced[u] as usize].period;
+            sigs.partition_point(|x| x.period < 2.0 * p * (1.0 - rel))
+        });
+        for &ai in &self.unplaced[range] {
+            let i = ai as usize;
+            let a = &sigs[i];
+            let lo = 2.0 * a.period * (1.0 - rel);
+            while twice < sigs.len() && sigs[twice].period < lo {
+                twice += 1;
+            }
+            let windows = [
+                (i + 1, a.period * (1.0 + rel), 1u8),
+                (twice, 2.0 * a.period * (1.0 + rel), 2u8),
+            ];
+            let mut crowded = false;
+            for (start, hi, n) in windows {
+                let others = sigs[start..]
+                    .iter()
+                    .take_while(|b| b.period <= hi)
+                    .take(8 * ECHO_WINDOW);
+                crowded |= scan(a, n, others, pair, &mut out.matches);
+            }
+            if crowded {
+                out.crowded.push(a.c);
+            }
+        }
+        out
+    }
+
+    /// The search from the signals with a position, those of the bands of
+    /// `range` in `bands`: each against the later signals of its band and
+    /// the two beside it, and the later signals without a position.
+    pub fn sweep_bands(&self, range: std::ops::Range<usize>, pair: &Pair) -> Swept {
+        let rel = pair.s.echo_max_rel;
+        let mut out = Swept::default();
+        let mut near: Vec<&Sig> = Vec::new();
+        for bi in range {
+            let (number, start, end) = self.bands[bi];
+            let own = &self.placed[start..end];
+            let beside = |other: Option<&(i64, usize, usize)>, want: i64| {
+                other
+                    .filter(|b| b.0 == want)
+                    .map_or(&[][..], |b| &self.placed[b.1..b.2])
+            };
+            let lists: [&[Sig]; 4] = [
+                beside(
+                    bi.checked_sub(1).and_then(|b| self.bands.get(b)),
+                    number - 1,
+                ),
+                own,
+                beside(self.bands.get(bi + 1), number + 1),
+                &self.unplaced_sigs,
+            ];
+            // Where each list's windows start; the signals of the band come
+            // in period order, so these only move forward.
+            let first = &own[0];
+            let mut after = lists.map(|l| l.partition_point(|b| b.rank <= first.rank));
+            let mut twice =
+                lists.map(|l| l.partition_point(|b| b.period < 2.0 * first.period * (1.0 - rel)));
+            for a in own {
+                let lo = 2.0 * a.period * (1.0 - rel);
+                let mut crowded = false;
+                for n in [1u8, 2] {
+                    let hi = f64::from(n) * a.period * (1.0 + rel);
+                    near.clear();
+                    for (l, list) in lists.iter().enumerate() {
+                        let from = if n == 1 {
+                            while after[l] < list.len() && list[after[l]].rank <= a.rank {
+                                after[l] += 1;
+                            }
+                            after[l]
+                        } else {
+                            while twice[l] < list.len() && list[twice[l]].period < lo {
+                                twice[l] += 1;
+                            }
+                            twice[l]
+                        };
+                        near.extend(
+                            list[from..]
+                                .iter()
+                                .take_while(|b| b.period <= hi)
+                                .take(8 * ECHO_WINDOW),
+                        );
+                    }
+                    // The four lists merged into period order.
+                    near.sort_unstable_by_key(|b| b.rank);
+                    near.truncate(8 * ECHO_WINDOW);
+                    crowded |= scan(a, n, near.iter().copied(), pair, &mut out.matches);
+                }
+                if crowded {
+                    out.crowded.push(a.c);
+                }
+            }
+        }
+        out
+    }
+
+    pub fn unplaced_len(&self) -> usize {
+        self.unplaced.len()
+    }
+
+    pub fn bands_len(&self) -> usize {
+        self.bands.len()
+    }
+}
+
+/// Compares signal `a` with `others` (later signals, in period order) in
+/// window `n`: at most [`ECHO_WINDOW`] of them on other stars, stopping at
+/// [`ECHO_MATCHES`] matches (a catalogue with thousands of copies of one
+/// ephemeris stays O(n log n), and each still meets a copy). Returns whether
+/// the window filled up.
+fn scan<'s>(
+    a: &Sig,
+    n: u8,
+    others: impl Iterator<Item = &'s Sig>,
+    pair: &Pair,
+    out: &mut Vec<Found>,
+) -> bool {
+    let others = others.filter(|b| b.star != a.star);
+    let mut found = 0;
+    for (k, b) in others.enumerate() {
+        if k == ECHO_WINDOW || found == ECHO_MATCHES {
+            return true;
+        }
+        if let Some(m) = pair.compare(a, b, f64::from(n)) {
+            out.push(((a.rank, n, b.rank), m));
+            found += 1;
+        }
+    }
+    false
+}
+
+/// Puts `v[i]` at `dest[i]` for every i, in place (`dest` a permutation):
+/// each swap puts one element where it belongs.
+fn permute<T>(v: &mut [T], mut dest: Vec<u32>) {
+    for i in 0..v.len() {
+        loop {
+            let j = dest[i] as usize;
+            if j == i {
+                break;
+            }
+            v.swap(i, j);
+            dest.swap(i, j);
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::checks::CheckSettings;
+
+    /// Invented signals (a fixed pseudo-random sequence): periods in a few
+    /// tight clusters and at twice them, positions in a few small patches
+    /// (some missing, some impossible), so that many pairs fall in one
+    /// period window and many near each other on the sky.
+    fn signals(n: usize, seed: u64) -> Vec<Sig> {
+        let mut x = seed;
+        let mut next = move || {
+            x = x
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            (x >> 11) as f64 / (1u64 << 53) as f64
+        };
+        (0..n)
+            .map(|i| {
+                let base = [3.0, 7.5, 15.0, 40.0][(next() * 4.0) as usize];
+                let period = base * if next() < 0.3 { 2.0 } else { 1.0 } * (1.0 + 5e-3 * next());
+                let (ra, dec) = match (next() * 10.0) as u32 {
+                    0 => (f64::NAN, f64::NAN),
+                    1 => (10.0, 95.0),
+                    2 => (f64::NAN, 10.0),
+                    k => (
+                        10.0 * f64::from(k % 3) + 0.05 * next(),
+                        -30.0 + 0.1 * f64::from(k % 2) + 0.05 * next(),
+                    ),
+                };
+                Sig {
+                    c: i as CandidateId,
+                    star: (next() * n as f64 / 2.0) as u32,
+                    rank: 0,
+                    period,
+                    inv_period: 1.0 / period,
+                    period_err: if next() < 0.5 { 1e-4 } else { 0.0 },
+                    epoch: 100.0
+                        + period * (next() * 5.0).floor()
+                        + if next() < 0.2 { 0.3 } else { 0.0 },
+                    epoch_err: 1e-3,
+                    t14_d: 0.1,
+                    ra,
+                    dec,
+                }
+            })
+            .collect()
+    }
+
+    /// Every pair of every period window, compared one by one.
+    fn every_pair(by_rank: &[Sig], pair: &Pair) -> Vec<(u32, u8, u32)> {
+        let rel = pair.s.echo_max_rel;
+        let mut out = Vec::new();
+        for a in by_rank {
+            for n in [1u8, 2] {
+                let nf = f64::from(n);
+                for b in by_rank {
+                    let inside = if n == 1 {
+                        b.rank > a.rank && b.period <= a.period * (1.0 + rel)
+                    } else {
+                        b.period >= 2.0 * a.period * (1.0 - rel)
+                            && b.period <= 2.0 * a.period * (1.0 + rel)
+                    };
+                    if inside && pair.compare(a, b, nf).is_some() {
+                        out.push((a.rank, n, b.rank));
+                    }
+                }
+            }
+        }
+        out
+    }
+
+    #[test]
+    fn the_bands_find_what_comparing_every_pair_finds() {
+        // Radii from far below the patches' size to wider than the sky.
+        for (seed, radius) in [(1, 120.0), (2, 30.0), (3, 1000.0), (4, 1e7), (5, 0.0)] {
+            let settings = CheckSettings {
+                echo_radius_arcsec: radius,
+                ..CheckSettings::default()
+            };
+            let pair = Pair {
+                s: &settings,
+                positions: true,
+                mag: None,
+                depth: None,
+            };
+            let mut sigs = signals(1500, seed);
+            let mut order: Vec<CandidateId> = (0..sigs.len() as CandidateId).collect();
+            order.sort_by(|&a, &b| {
+                sigs[a as usize]
+                    .period
+                    .total_cmp(&sigs[b as usize].period)
+                    .then(a.cmp(&b))
+            });
+            for (r, &c) in order.iter().enumerate() {
+                sigs[c as usize].rank = r as u32;
+            }
+            let mut by_rank = sigs.clone();
+            by_rank.sort_by_key(|s| s.rank);
+            let want = every_pair(&by_rank, &pair);
+            let index = Index::new(sigs, &order, radius);
+            let (bands, unplaced) = (
+                index.sweep_bands(0..index.bands_len(), &pair),
+                index.sweep_unplaced(0..index.unplaced_len(), &pair),
+            );
+            // No window filled up: the search was not cut short.
+            assert!(
+                bands.crowded.is_empty() && unplaced.crowded.is_empty(),
+                "seed {seed}: {} {}",
+                bands.crowded.len(),
+                unplaced.crowded.len()
+            );
+            let mut got: Vec<(u32, u8, u32)> = bands
+                .matches
+                .into_iter()
+                .chain(unplaced.matches)
+                .map(|m| m.0)
+                .collect();
+            got.sort_unstable();
+            assert!(want.len() > 20, "seed {seed}: only {} matches", want.len());
+            let first_difference = got.iter().zip(&want).position(|(g, w)| g != w);
+            assert!(
+                got == want,
+                "seed {seed}, radius {radius}: {} matches against {}, first difference at {first_difference:?}",
+                got.len(),
+                want.len()
+            );
+        }
+    }
+
+    #[test]
+    fn permute_puts_each_where_it_goes() {
+        let dest = vec![3u32, 0, 4, 1, 2];
+        let mut v = vec!['a', 'b', 'c', 'd', 'e'];
+        permute(&mut v, dest.clone());
+        for (i, &d) in dest.iter().enumerate() {
+            assert_eq!(v[d as usize], ['a', 'b', 'c', 'd', 'e'][i]);
+        }
+    }
+}
