@@ -25,8 +25,6 @@ struct Sig {
     /// Place in the period order (see `check`).
     rank: u32,
     period: f64,
-    /// 1 / period: the sweep multiplies where it would divide.
-    inv_period: f64,
     period_err: f64,
     epoch: f64,
     epoch_err: f64,
@@ -86,7 +84,6 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
             star: cat.star_of(i as CandidateId),
             rank: rank[i],
             period: periods[i],
-            inv_period: 1.0 / periods[i],
             period_err: per_err.map_or(0.0, |e| nan_to_zero(e[i])),
             epoch: epochs[i],
             epoch_err: ep_err.map_or(0.0, |e| nan_to_zero(e[i])),
@@ -253,9 +250,10 @@ impl Pair<'_> {
             return None;
         }
         // b's transit nearest a's epoch, against a's transits.
-        let nb = nearest((a.epoch - b.epoch) * b.inv_period);
+        // Multiplied by the reciprocal periods (as the results always were).
+        let nb = nearest((a.epoch - b.epoch) * (1.0 / b.period));
         let diff = b.epoch + nb * b.period - a.epoch;
-        let off = (diff - nearest(diff * a.inv_period) * a.period).abs();
+        let off = (diff - nearest(diff * (1.0 / a.period)) * a.period).abs();
         // Within a quarter of the shorter duration, or 3σ of the combined
         // timing error (squared again).
         let t_ok = off <= 0.25 * a.t14_d.min(b.t14_d)

@@ -69,9 +69,27 @@ pub(super) struct PerCandidate<'a> {
     pub radius_rearth: &'a [f64],
 }
 
+/// What the checks of a star read of one member, gathered once (the
+/// catalogue's columns are read at random, a star at a time; NaN = missing).
+#[derive(Clone, Copy)]
+struct Member {
+    c: CandidateId,
+    period: f64,
+    period_err: f64,
+    duration_h: f64,
+    epoch: f64,
+    epoch_err: f64,
+}
+
+/// A value, `None` where missing (NaN), as `Catalogue::value` gives it.
+fn given(v: f64) -> Option<f64> {
+    (!v.is_nan()).then_some(v)
+}
+
 /// Buffers reused from star to star.
 #[derive(Default)]
 pub(super) struct Scratch {
+    members: Vec<Member>,
     by_period: Vec<CandidateId>,
     deltas: Vec<Option<f64>>,
     others: Vec<f64>,
@@ -88,15 +106,35 @@ pub(super) fn check(
 ) {
     let v = |f: Field, c: CandidateId| cat.value(f, c);
     let id = |c: CandidateId| cat.candidate_id(c).to_string();
-    let period = |c: CandidateId| v(Field::PeriodD, c).unwrap_or(f64::NAN);
     let Scratch {
+        members: m,
         by_period,
         deltas,
         others,
     } = scratch;
+    let col = |f: Field| cat.column(f);
+    let (periods, period_errs, durations, epochs, epoch_errs) = (
+        col(Field::PeriodD),
+        col(Field::PeriodErrD),
+        col(Field::DurationH),
+        col(Field::Epoch),
+        col(Field::EpochErrD),
+    );
+    let at = |column: Option<&[f64]>, c: CandidateId| column.map_or(f64::NAN, |x| x[c as usize]);
+    m.clear();
+    m.extend(members.iter().map(|&c| Member {
+        c,
+        period: at(periods, c),
+        period_err: at(period_errs, c),
+        duration_h: at(durations, c),
+        epoch: at(epochs, c),
+        epoch_err: at(epoch_errs, c),
+    }));
+    // Stable: members of equal period keep their catalogue order.
+    m.sort_by(|a, b| a.period.total_cmp(&b.period));
+    let m: &[Member] = m;
     by_period.clear();
-    by_period.extend_from_slice(members);
-    by_period.sort_by(|&a, &b| period(a).total_cmp(&period(b)));
+    by_period.extend(m.iter().map(|x| x.c));
     deltas.clear();
     let by_period: &[CandidateId] = by_period;
 
@@ -112,33 +150,35 @@ pub(super) fn check(
     // star cost linear memory.
     let mut joined = Joined::new(by_period.len());
     let widest = (s.harmonic_max as f64) * (1.0 + 10.0 * s.period_rel_tol).max(1.01);
-    for (i, &a) in by_period.iter().enumerate() {
-        let partners = by_period[i + 1..]
+    for (i, ma) in m.iter().enumerate() {
+        let a = ma.c;
+        let partners = m[i + 1..]
             .iter()
             .enumerate()
-            .take_while(|&(_, &b)| period(b) <= widest * period(a))
+            .take_while(|&(_, mb)| mb.period <= widest * ma.period)
             .take(PAIR_WINDOW);
-        for (j, &b) in partners {
+        for (j, mb) in partners {
+            let b = mb.c;
             let j = i + 1 + j;
             if joined.same(i, j) {
                 continue;
             }
             let before = links.len();
-            let (pa, pb) = (period(a), period(b));
+            let (pa, pb) = (ma.period, mb.period);
             let r = pb / pa;
-            let sigma = ratio_sigma(r, pa, v(Field::PeriodErrD, a), pb, v(Field::PeriodErrD, b));
+            let sigma = ratio_sigma(r, pa, given(ma.period_err), pb, given(mb.period_err));
             let tol = |n: f64| (3.0 * sigma.unwrap_or(0.0)).max(s.period_rel_tol * n);
-            let t14_d = v(Field::DurationH, a)
+            let t14_d = given(ma.duration_h)
                 .unwrap_or(0.0)
-                .max(v(Field::DurationH, b).unwrap_or(0.0))
+                .max(given(mb.duration_h).unwrap_or(0.0))
                 / 24.0;
-            let epoch_sigma = match (v(Field::EpochErrD, a), v(Field::EpochErrD, b)) {
+            let epoch_sigma = match (given(ma.epoch_err), given(mb.epoch_err)) {
                 (Some(x), Some(y)) => 3.0 * x.hypot(y),
                 _ => 0.0,
             };
             let (ea, eb) = (
-                v(Field::Epoch, a).unwrap_or(0.0),
-                v(Field::Epoch, b).unwrap_or(0.0),
+                given(ma.epoch).unwrap_or(0.0),
+                given(mb.epoch).unwrap_or(0.0),
             );
             // b's transit nearest a's epoch, then its offset from a's
             // transits (modulo the shorter period).
@@ -204,13 +244,14 @@ pub(super) fn check(
     };
     for i in 0..by_period.len().saturating_sub(1) {
         let (a, b) = (by_period[i], by_period[i + 1]);
+        let (period_a, period_b) = (m[i].period, m[i + 1].period);
         let delta = match (radius(a), radius(b)) {
             (Some(ra), Some(rb)) => {
                 let (ma, mb) = (
                     science::mass_from_radius_mearth(ra),
                     science::mass_from_radius_mearth(rb),
                 );
-                let d = science::hill_separation(period(a), period(b), ma, mb, mass_star);
+                let d = science::hill_separation(period_a, period_b, ma, mb, mass_star);
                 // Two candidates of one signal group are one signal, not two
                 // orbits.
                 if d < science::HILL_CRITICAL && !joined.same(i, i + 1) {
@@ -283,8 +324,8 @@ pub(super) fn check(
     // The normalised duration ratio of adjacent pairs, a soft signal.
     for i in 0..by_period.len().saturating_sub(1) {
         let (a, b) = (by_period[i], by_period[i + 1]);
-        if let (Some(ta), Some(tb)) = (v(Field::DurationH, a), v(Field::DurationH, b)) {
-            let xi = science::duration_ratio_xi(ta, period(a), tb, period(b));
+        if let (Some(ta), Some(tb)) = (given(m[i].duration_h), given(m[i + 1].duration_h)) {
+            let xi = science::duration_ratio_xi(ta, m[i].period, tb, m[i + 1].period);
             if xi.log10().abs() > s.xi_log10 {
                 for (x, y) in [(a, b), (b, a)] {
                     out.add(

@@ -54,38 +54,43 @@ impl Index {
     /// their candidates in period order), for an echo radius in arcsec.
     pub fn new(mut sigs: Vec<Sig>, period_order: &[CandidateId], radius_arcsec: f64) -> Index {
         // A little wider than the radius, so rounding in the band number
-        // never parts two signals within it by more than one band.
-        let width = (radius_arcsec * (1.0 + 1e-6) / 3600.0).max(1e-9);
+        // never parts two signals within it by more than one band; and at
+        // least 1e-7 degree, so every band number fits in 32 bits (wider
+        // bands only compare more pairs).
+        let width = (radius_arcsec * (1.0 + 1e-6) / 3600.0).max(1e-7);
         let band = |dec: f64| {
             if width.is_finite() && width < 180.0 {
-                ((dec + 90.0) / width).floor() as i64
+                ((dec + 90.0) / width).floor() as u64
             } else {
                 0
             }
         };
-        // (band, rank, candidate) of each signal with a position, in band
-        // order then period order.
-        let mut in_bands: Vec<(i64, u32, CandidateId)> = sigs
+        // Band number and rank of each signal with a position, as one
+        // integer, in band order then period order.
+        let mut in_bands: Vec<u64> = sigs
             .iter()
             .filter(|s| placed(s))
-            .map(|s| (band(s.dec), s.rank, s.c))
+            .map(|s| band(s.dec) << 32 | u64::from(s.rank))
             .collect();
         in_bands.sort_unstable();
         let mut bands: Vec<(i64, usize, usize)> = Vec::new();
-        for (at, &(b, _, _)) in in_bands.iter().enumerate() {
+        for (at, &key) in in_bands.iter().enumerate() {
+            let b = (key >> 32) as i64;
             match bands.last_mut() {
                 Some(last) if last.0 == b => last.2 = at + 1,
                 _ => bands.push((b, at, at + 1)),
             }
         }
+        let rank_of = |key: u64| key as u32;
         let mut unplaced: Vec<u32> = sigs.iter().filter(|s| !placed(s)).map(|s| s.rank).collect();
         unplaced.sort_unstable();
         if unplaced.is_empty() {
             // Every signal has a position: the bands are all there is.
             let mut dest = vec![0u32; sigs.len()];
-            for (at, &(_, _, c)) in in_bands.iter().enumerate() {
-                dest[c as usize] = at as u32;
+            for (at, &key) in in_bands.iter().enumerate() {
+                dest[period_order[rank_of(key) as usize] as usize] = at as u32;
             }
+            drop(in_bands);
             permute(&mut sigs, dest);
             return Index {
                 all: Vec::new(),
@@ -97,7 +102,10 @@ impl Index {
         }
         let dest: Vec<u32> = sigs.iter().map(|s| s.rank).collect();
         permute(&mut sigs, dest);
-        let placed: Vec<Sig> = in_bands.iter().map(|&(_, r, _)| sigs[r as usize]).collect();
+        let placed: Vec<Sig> = in_bands
+            .iter()
+            .map(|&k| sigs[rank_of(k) as usize])
+            .collect();
         let unplaced_sigs = if placed.is_empty() {
             Vec::new()
         } else {
@@ -304,7 +312,6 @@ mod tests {
                     star: (next() * n as f64 / 2.0) as u32,
                     rank: 0,
                     period,
-                    inv_period: 1.0 / period,
                     period_err: if next() < 0.5 { 1e-4 } else { 0.0 },
                     epoch: 100.0
                         + period * (next() * 5.0).floor()
