@@ -22,7 +22,7 @@ pub fn separation_arcsec(ra1: f64, dec1: f64, ra2: f64, dec2: f64) -> f64 {
 struct Sig {
     c: CandidateId,
     star: u32,
-    /// Place in the period order (see `check`).
+    /// Place in the period order (see [`order_key`]).
     rank: u32,
     period: f64,
     period_err: f64,
@@ -61,14 +61,8 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
     // nearest neighbours are mostly on other stars (deterministic). Sorted
     // as one integer per signal: the order of `f64::total_cmp`, then the
     // hash, then the candidate.
-    let shuffle = |c: CandidateId| c.wrapping_mul(2_654_435_761);
     let mut order: Vec<u128> = (0..cat.len())
-        .map(|i| {
-            let c = i as CandidateId;
-            (u128::from(total_order_bits(periods[i])) << 64)
-                | (u128::from(shuffle(c)) << 32)
-                | u128::from(c)
-        })
+        .map(|i| order_key(periods[i], i as CandidateId))
         .collect();
     order.sort_unstable();
     let period_order: Vec<CandidateId> = order.into_iter().map(|k| k as CandidateId).collect();
@@ -92,7 +86,6 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
             dec: dec.map_or(f64::NAN, |d| d[i]),
         })
         .collect();
-    drop(rank);
     let pair = Pair {
         s,
         positions: ra.is_some(),
@@ -103,7 +96,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
     // own, and they are applied below in the order of a search of one
     // signal after another in period order, so the result is the same
     // whichever thread found what.
-    let index = sweep::Index::new(by_file, &period_order, s.echo_radius_arcsec);
+    let index = sweep::Index::new(by_file, s.echo_radius_arcsec);
     let mut swept = crate::parallel::in_parts(index.bands_len(), |r| index.sweep_bands(r, &pair));
     swept.extend(crate::parallel::in_parts(index.unplaced_len(), |r| {
         index.sweep_unplaced(r, &pair)
@@ -301,6 +294,15 @@ impl Pair<'_> {
             },
         ))
     }
+}
+
+/// The period order as one integer: the order of `f64::total_cmp` on the
+/// period, then a hash of the candidate (so that copies of one ephemeris on
+/// many stars interleave), then the candidate.
+fn order_key(period: f64, c: CandidateId) -> u128 {
+    (u128::from(total_order_bits(period)) << 64)
+        | (u128::from(c.wrapping_mul(2_654_435_761)) << 32)
+        | u128::from(c)
 }
 
 /// An integer whose order is that of [`f64::total_cmp`]: the sign bit

@@ -23,7 +23,7 @@ pub(super) struct Index {
     placed: Vec<Sig>,
     /// (band number, start, end) of each band that has signals, in `placed`.
     bands: Vec<(i64, usize, usize)>,
-    /// The ranks of the signals without a position.
+    /// The places in `all` of the signals without a position.
     unplaced: Vec<u32>,
     /// Those signals themselves, in period order, when some signals have a
     /// position (their search reads them); empty otherwise.
@@ -52,69 +52,59 @@ pub(super) fn placed(s: &Sig) -> bool {
 impl Index {
     /// The index of the signals given in file order (`period_order` lists
     /// their candidates in period order), for an echo radius in arcsec.
-    pub fn new(mut sigs: Vec<Sig>, period_order: &[CandidateId], radius_arcsec: f64) -> Index {
+    pub fn new(mut sigs: Vec<Sig>, radius_arcsec: f64) -> Index {
         // A little wider than the radius, so rounding in the band number
         // never parts two signals within it by more than one band; and at
         // least 1e-7 degree, so every band number fits in 32 bits (wider
         // bands only compare more pairs).
         let width = (radius_arcsec * (1.0 + 1e-6) / 3600.0).max(1e-7);
-        let band = |dec: f64| {
+        let band = |s: &Sig| {
             if width.is_finite() && width < 180.0 {
-                ((dec + 90.0) / width).floor() as u64
+                ((s.dec + 90.0) / width).floor() as u64
             } else {
                 0
             }
         };
-        // Band number and rank of each signal with a position, as one
-        // integer, in band order then period order.
-        let mut in_bands: Vec<u64> = sigs
-            .iter()
-            .filter(|s| placed(s))
-            .map(|s| band(s.dec) << 32 | u64::from(s.rank))
-            .collect();
-        in_bands.sort_unstable();
+        // Sorted in place (no second copy of the signals): those with a
+        // position by band, then period; those without after them.
+        let key = |s: &Sig| {
+            let b = if placed(s) { band(s) } else { u64::MAX };
+            b << 32 | u64::from(s.rank)
+        };
+        sigs.sort_unstable_by_key(key);
+        let split = sigs.partition_point(placed);
         let mut bands: Vec<(i64, usize, usize)> = Vec::new();
-        for (at, &key) in in_bands.iter().enumerate() {
-            let b = (key >> 32) as i64;
+        for (at, s) in sigs[..split].iter().enumerate() {
+            let b = band(s) as i64;
             match bands.last_mut() {
                 Some(last) if last.0 == b => last.2 = at + 1,
                 _ => bands.push((b, at, at + 1)),
             }
         }
-        let rank_of = |key: u64| key as u32;
-        let mut unplaced: Vec<u32> = sigs.iter().filter(|s| !placed(s)).map(|s| s.rank).collect();
-        unplaced.sort_unstable();
-        if unplaced.is_empty() {
+        if split == sigs.len() {
             // Every signal has a position: the bands are all there is.
-            let mut dest = vec![0u32; sigs.len()];
-            for (at, &key) in in_bands.iter().enumerate() {
-                dest[period_order[rank_of(key) as usize] as usize] = at as u32;
-            }
-            drop(in_bands);
-            permute(&mut sigs, dest);
             return Index {
                 all: Vec::new(),
                 placed: sigs,
                 bands,
-                unplaced,
+                unplaced: Vec::new(),
                 unplaced_sigs: Vec::new(),
             };
         }
-        let dest: Vec<u32> = sigs.iter().map(|s| s.rank).collect();
-        permute(&mut sigs, dest);
-        let placed: Vec<Sig> = in_bands
-            .iter()
-            .map(|&k| sigs[rank_of(k) as usize])
-            .collect();
-        let unplaced_sigs = if placed.is_empty() {
-            Vec::new()
+        // Some have no position: their search reads every signal, in
+        // period order.
+        let (in_bands, unplaced_sigs) = if split == 0 {
+            (Vec::new(), Vec::new())
         } else {
-            unplaced.iter().map(|&r| sigs[r as usize]).collect()
+            (sigs[..split].to_vec(), sigs[split..].to_vec())
         };
-        debug_assert!(period_order.iter().zip(&sigs).all(|(&c, s)| c == s.c));
+        sigs.sort_unstable_by_key(|s| s.rank);
+        let unplaced = (0..sigs.len() as u32)
+            .filter(|&i| !placed(&sigs[i as usize]))
+            .collect();
         Index {
             all: sigs,
-            placed,
+            placed: in_bands,
             bands,
             unplaced,
             unplaced_sigs,
@@ -262,21 +252,6 @@ fn scan<'s>(
     false
 }
 
-/// Puts `v[i]` at `dest[i]` for every i, in place (`dest` a permutation):
-/// each swap puts one element where it belongs.
-fn permute<T>(v: &mut [T], mut dest: Vec<u32>) {
-    for i in 0..v.len() {
-        loop {
-            let j = dest[i] as usize;
-            if j == i {
-                break;
-            }
-            v.swap(i, j);
-            dest.swap(i, j);
-        }
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -309,8 +284,8 @@ mod tests {
                 };
                 Sig {
                     c: i as CandidateId,
-                    star: (next() * n as f64 / 2.0) as u32,
                     rank: 0,
+                    star: (next() * n as f64 / 2.0) as u32,
                     period,
                     period_err: if next() < 0.5 { 1e-4 } else { 0.0 },
                     epoch: 100.0
@@ -363,20 +338,19 @@ mod tests {
                 depth: None,
             };
             let mut sigs = signals(1500, seed);
-            let mut order: Vec<CandidateId> = (0..sigs.len() as CandidateId).collect();
-            order.sort_by(|&a, &b| {
-                sigs[a as usize]
-                    .period
-                    .total_cmp(&sigs[b as usize].period)
-                    .then(a.cmp(&b))
-            });
-            for (r, &c) in order.iter().enumerate() {
-                sigs[c as usize].rank = r as u32;
+            let mut order: Vec<u128> = sigs
+                .iter()
+                .map(|s| super::super::order_key(s.period, s.c))
+                .collect();
+            order.sort_unstable();
+            for (r, &k) in order.iter().enumerate() {
+                sigs[k as u32 as usize].rank = r as u32;
             }
             let mut by_rank = sigs.clone();
             by_rank.sort_by_key(|s| s.rank);
-            let want = every_pair(&by_rank, &pair);
-            let index = Index::new(sigs, &order, radius);
+            let mut want = every_pair(&by_rank, &pair);
+            want.sort_unstable();
+            let index = Index::new(sigs, radius);
             let (bands, unplaced) = (
                 index.sweep_bands(0..index.bands_len(), &pair),
                 index.sweep_unplaced(0..index.unplaced_len(), &pair),
@@ -403,16 +377,6 @@ mod tests {
                 got.len(),
                 want.len()
             );
-        }
-    }
-
-    #[test]
-    fn permute_puts_each_where_it_goes() {
-        let dest = vec![3u32, 0, 4, 1, 2];
-        let mut v = vec!['a', 'b', 'c', 'd', 'e'];
-        permute(&mut v, dest.clone());
-        for (i, &d) in dest.iter().enumerate() {
-            assert_eq!(v[d as usize], ['a', 'b', 'c', 'd', 'e'][i]);
         }
     }
 }
