@@ -1,7 +1,8 @@
 //! Signals that repeat on another star: the same period and epoch within
 //! their uncertainties (the ephemeris matching of Coughlin et al. 2014, AJ
 //! 147, 119), and within an angular radius when positions exist. One sort by
-//! period, then a sweep over a bounded window: O(n log n).
+//! period, then a search of bounded windows in period and, where positions
+//! exist, in declination (`sweep`): O(n log n).
 
 mod sweep;
 
@@ -234,10 +235,9 @@ impl Pair<'_> {
         // farther apart on the sky (the arc is at least the difference in
         // latitude): no trigonometry and no timing needed. Only for real
         // positions, where the haversine below would say the same.
-        let real = |r: f64, d: f64| r.is_finite() && d.abs() <= 90.0;
         if self.positions
-            && real(a.ra, a.dec)
-            && real(b.ra, b.dec)
+            && sweep::placed(a)
+            && sweep::placed(b)
             && (a.dec - b.dec).abs() * 3600.0 > s.echo_radius_arcsec * (1.0 + 1e-9)
         {
             return None;

@@ -43,8 +43,8 @@ pub(super) struct Swept {
     pub crowded: Vec<CandidateId>,
 }
 
-/// Whether a signal has a position the bands can hold (the same test as
-/// the comparison's own declination test).
+/// Whether a signal has a real position: the bands hold these, and the
+/// comparison's declination test applies only to them.
 pub(super) fn placed(s: &Sig) -> bool {
     s.ra.is_finite() && s.dec.abs() <= 90.0
 }
