@@ -90,7 +90,6 @@ fn given(v: f64) -> Option<f64> {
 #[derive(Default)]
 pub(super) struct Scratch {
     members: Vec<Member>,
-    by_period: Vec<CandidateId>,
     deltas: Vec<Option<f64>>,
     others: Vec<f64>,
 }
@@ -108,7 +107,6 @@ pub(super) fn check(
     let id = |c: CandidateId| cat.candidate_id(c).to_string();
     let Scratch {
         members: m,
-        by_period,
         deltas,
         others,
     } = scratch;
@@ -133,10 +131,7 @@ pub(super) fn check(
     // Stable: members of equal period keep their catalogue order.
     m.sort_by(|a, b| a.period.total_cmp(&b.period));
     let m: &[Member] = m;
-    by_period.clear();
-    by_period.extend(m.iter().map(|x| x.c));
     deltas.clear();
-    let by_period: &[CandidateId] = by_period;
 
     // Every pair: one signal twice (same period, transits together), an
     // alias (period ratio n or 1/n, transits together) or an eclipse pair
@@ -148,7 +143,7 @@ pub(super) fn check(
     // link is kept only between candidates not already joined (a spanning
     // forest of each group), so thousands of copies of one signal on one
     // star cost linear memory.
-    let mut joined = Joined::new(by_period.len());
+    let mut joined = Joined::new(m.len());
     let widest = (s.harmonic_max as f64) * (1.0 + 10.0 * s.period_rel_tol).max(1.01);
     for (i, ma) in m.iter().enumerate() {
         let a = ma.c;
@@ -231,7 +226,7 @@ pub(super) fn check(
         }
     }
     // Adjacent pairs and trios: Hill spacing with masses from radii.
-    let star_mass = v(Field::StarMassMsun, by_period[0]);
+    let star_mass = v(Field::StarMassMsun, m[0].c);
     let radius = |c: CandidateId| {
         let r = derived.radius_rearth[c as usize];
         r.is_finite().then_some(r)
@@ -242,8 +237,8 @@ pub(super) fn check(
     } else {
         ""
     };
-    for i in 0..by_period.len().saturating_sub(1) {
-        let (a, b) = (by_period[i], by_period[i + 1]);
+    for i in 0..m.len().saturating_sub(1) {
+        let (a, b) = (m[i].c, m[i + 1].c);
         let (period_a, period_b) = (m[i].period, m[i + 1].period);
         let delta = match (radius(a), radius(b)) {
             (Some(ra), Some(rb)) => {
@@ -274,7 +269,7 @@ pub(super) fn check(
                 && d1 >= science::HILL_CRITICAL
                 && d2 >= science::HILL_CRITICAL
             {
-                let trio = [by_period[i], by_period[i + 1], by_period[i + 2]];
+                let trio = [m[i].c, m[i + 1].c, m[i + 2].c];
                 for &x in &trio {
                     out.add(
                         x,
@@ -298,9 +293,9 @@ pub(super) fn check(
     // with the candidate's own value taken out (O(m log m) per star).
     let dens = |c: CandidateId| derived.density_transit[c as usize];
     others.clear();
-    others.extend(by_period.iter().map(|&o| dens(o)).filter(|d| d.is_finite()));
+    others.extend(m.iter().map(|o| dens(o.c)).filter(|d| d.is_finite()));
     others.sort_by(f64::total_cmp);
-    for &c in by_period {
+    for c in m.iter().map(|x| x.c) {
         let own = dens(c);
         if !own.is_finite() || others.len() < 2 {
             continue;
@@ -322,8 +317,8 @@ pub(super) fn check(
         }
     }
     // The normalised duration ratio of adjacent pairs, a soft signal.
-    for i in 0..by_period.len().saturating_sub(1) {
-        let (a, b) = (by_period[i], by_period[i + 1]);
+    for i in 0..m.len().saturating_sub(1) {
+        let (a, b) = (m[i].c, m[i + 1].c);
         if let (Some(ta), Some(tb)) = (given(m[i].duration_h), given(m[i + 1].duration_h)) {
             let xi = science::duration_ratio_xi(ta, m[i].period, tb, m[i + 1].period);
             if xi.log10().abs() > s.xi_log10 {

@@ -50,8 +50,8 @@ pub(super) fn placed(s: &Sig) -> bool {
 }
 
 impl Index {
-    /// The index of the signals given in file order (`period_order` lists
-    /// their candidates in period order), for an echo radius in arcsec.
+    /// The index of the signals (in any order; each knows its rank in the
+    /// period order), for an echo radius in arcsec.
     pub fn new(mut sigs: Vec<Sig>, radius_arcsec: f64) -> Index {
         // A little wider than the radius, so rounding in the band number
         // never parts two signals within it by more than one band; and at
@@ -93,15 +93,15 @@ impl Index {
         }
         // Some have no position: their search reads every signal, in
         // period order.
+        // Their ranks (in order: the sort put them last, by rank) are their
+        // places in `all`.
+        let unplaced = sigs[split..].iter().map(|s| s.rank).collect();
         let (in_bands, unplaced_sigs) = if split == 0 {
             (Vec::new(), Vec::new())
         } else {
             (sigs[..split].to_vec(), sigs[split..].to_vec())
         };
         sigs.sort_unstable_by_key(|s| s.rank);
-        let unplaced = (0..sigs.len() as u32)
-            .filter(|&i| !placed(&sigs[i as usize]))
-            .collect();
         Index {
             all: sigs,
             placed: in_bands,
