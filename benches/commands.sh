@@ -8,8 +8,11 @@
 # CANDIDATES defaults to 1000000 (bench-data/big-1000000.csv, written on
 # first use, git-ignored); ROUNDS to 3, of which the fastest time and the
 # largest memory are reported. Output goes to /dev/null. The reading
-# commands use the catalogue's default ledger (none, unless you made one);
-# `decide` records into a fresh ledger in a temporary folder.
+# commands use the catalogue's default ledger (none, unless you made one).
+# `decide` records one decision twice over: into a new ledger each round
+# (which reads the whole file for its fingerprint), and into a ledger that
+# has seen the catalogue already, as a vetter's every decision after the
+# first does (the fingerprint known from the file's stamp).
 set -euo pipefail
 root="$(cd "$(dirname "$0")/.." && pwd)"
 # STARSIFT_BIN runs another build (e.g. an older commit's) on the same file.
@@ -54,8 +57,11 @@ run "odds (table)" "$bin" odds "$cat" "${model[@]}"
 run "odds --format json" "$bin" odds "$cat" "${model[@]}" --format json
 run "checks --format csv" "$bin" checks "$cat" "${model[@]}" --format csv
 run "export (csv)" "$bin" export "$cat" "${model[@]}"
-run "decide (one)" "$bin" decide "$cat" "${model[@]}" --ledger "$ledger" --candidate "$first" \
-  --decision kept --vetter bench
+decide=(decide "$cat" "${model[@]}" --candidate "$first" --decision kept --vetter bench)
+run "decide (new ledger)" sh -c 'rm -f "$1"*; shift; exec "$@"' - "$tmpd/new.sqlite" \
+  "$bin" "${decide[@]}" --ledger "$tmpd/new.sqlite"
+"$bin" "${decide[@]}" --ledger "$ledger" >/dev/null 2>&1
+run "decide (seen ledger)" "$bin" "${decide[@]}" --ledger "$ledger"
 
 printf '%s candidates, best of %s (time) and largest of %s (memory)\n' "$n" "$rounds" "$rounds"
 printf '%-22s %9s %8s %10s %8s\n' command seconds "x summ." "peak MB" "x summ."

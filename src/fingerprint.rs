@@ -1,5 +1,7 @@
 //! The catalogue's fingerprint that a ledger records: FNV-1a, 64 bit
-//! (Fowler, Noll & Vo), of the file's bytes.
+//! (Fowler, Noll & Vo), of the file's bytes; and the file's stamp (size,
+//! times, inode), by which a ledger that has seen a file knows its
+//! fingerprint again without reading it.
 
 /// FNV-1a, 64 bit (Fowler, Noll & Vo): a stable fingerprint of catalogue bytes.
 pub fn fingerprint(bytes: &[u8]) -> String {
@@ -41,9 +43,89 @@ pub fn fingerprint_text(h: u64) -> String {
     format!("fnv1a64:{h:016x}")
 }
 
+/// A file's stamp: what the file system says of it (size, modification
+/// and change times in nanoseconds, device and inode), as text. The same
+/// stamp means the same file, untouched, as build tools and file
+/// synchronisers assume (common practice, no source): any write moves the
+/// change time, which no program can set back. `None` when the stamp cannot
+/// be trusted: a file touched so recently that a second write could still
+/// land in the same tick of the file system's clock (within 2 s where the
+/// times have whole seconds only, some file systems' granularity; within
+/// 0.1 s where they have fractions, coarser than any clock tick of a local
+/// file system, from memory), or a system without these facts.
+pub fn file_stamp(path: &std::path::Path) -> Option<String> {
+    let meta = std::fs::metadata(path).ok()?;
+    stamp_at(&meta, std::time::SystemTime::now())
+}
+
+/// [`file_stamp`] of `meta` as seen at time `now`.
+#[cfg(unix)]
+pub fn stamp_at(meta: &std::fs::Metadata, now: std::time::SystemTime) -> Option<String> {
+    use std::os::unix::fs::MetadataExt;
+    if !meta.is_file() {
+        return None;
+    }
+    let ns = |s: i64, n: i64| s.checked_mul(1_000_000_000)?.checked_add(n);
+    let (modified, changed) = (
+        ns(meta.mtime(), meta.mtime_nsec())?,
+        ns(meta.ctime(), meta.ctime_nsec())?,
+    );
+    let now = now.duration_since(std::time::UNIX_EPOCH).ok()?;
+    let now = i64::try_from(now.as_nanos()).ok()?;
+    let fractions = meta.mtime_nsec() != 0 && meta.ctime_nsec() != 0;
+    let settle = if fractions {
+        100_000_000
+    } else {
+        2_000_000_000
+    };
+    if now - modified.max(changed) < settle {
+        return None;
+    }
+    Some(format!(
+        "size {} modified {modified} changed {changed} device {} inode {}",
+        meta.len(),
+        meta.dev(),
+        meta.ino()
+    ))
+}
+
+/// [`file_stamp`] of `meta` as seen at time `now`: never, where the file
+/// system's change time and inode are not known.
+#[cfg(not(unix))]
+pub fn stamp_at(_meta: &std::fs::Metadata, _now: std::time::SystemTime) -> Option<String> {
+    None
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[cfg(unix)]
+    #[test]
+    fn a_stamp_names_the_file_as_it_is_and_waits_for_it_to_settle() {
+        use std::time::{Duration, SystemTime};
+        let path = std::env::temp_dir().join(format!("starsift-stamp-{}", std::process::id()));
+        std::fs::write(&path, b"0123456789").unwrap();
+        let meta = std::fs::metadata(&path).unwrap();
+        let later = SystemTime::now() + Duration::from_secs(3);
+        // Just written: not yet to be trusted; seconds later, it is.
+        assert_eq!(stamp_at(&meta, SystemTime::now()), None);
+        let first = stamp_at(&meta, later).expect("a settled file has a stamp");
+        assert!(first.starts_with("size 10 "), "{first}");
+        // Rewritten with other bytes of the same length: another stamp,
+        // because the change time moved.
+        std::thread::sleep(Duration::from_millis(20));
+        std::fs::write(&path, b"9876543210").unwrap();
+        let again = stamp_at(&std::fs::metadata(&path).unwrap(), later).unwrap();
+        assert_ne!(first, again);
+        // Only what the file system says: reading changes nothing.
+        let _ = std::fs::read(&path).unwrap();
+        assert_eq!(
+            stamp_at(&std::fs::metadata(&path).unwrap(), later).unwrap(),
+            again
+        );
+        let _ = std::fs::remove_file(&path);
+    }
 
     #[test]
     fn reference_values_and_files() {

@@ -8,16 +8,18 @@ use std::path::{Path, PathBuf};
 use std::sync::Arc;
 use std::time::{Duration, SystemTime, UNIX_EPOCH};
 
-use rusqlite::{Connection, OptionalExtension, params};
+use rusqlite::{Connection, params};
 
 use crate::decision::{Decision, Reason};
 
 mod file;
+mod seen;
 pub use crate::fingerprint::{fingerprint, fingerprint_file, fingerprint_text};
 use file::check_ours;
 pub use file::{
     classify, data_dir, default_path, default_path_with, login_name, network_file_system,
 };
+pub use seen::recorded_fingerprint;
 
 /// `PRAGMA application_id` of a starsift ledger: "STSF".
 pub const APPLICATION_ID: i32 = 0x5354_5346;
@@ -436,35 +438,6 @@ impl Ledger {
             }
             Ok(ids)
         })
-    }
-
-    /// Notes which catalogue the ledger is used with. Returns the fingerprint
-    /// recorded last time for this path, when it differs.
-    pub fn note_catalogue(
-        &mut self,
-        path: &str,
-        fp: &str,
-        candidates: usize,
-    ) -> Result<Option<String>, LedgerError> {
-        let previous: Option<String> = self
-            .conn
-            .query_row(
-                "SELECT fingerprint FROM catalogue WHERE path = ?1 ORDER BY id DESC LIMIT 1",
-                [path],
-                |r| r.get(0),
-            )
-            .optional()
-            .map_err(|e| self.classify(e))?;
-        if previous.as_deref() != Some(fp) {
-            let at = now_rfc3339();
-            self.write(|tx| {
-                tx.execute(
-                    "INSERT INTO catalogue (path, fingerprint, candidates, seen_at) VALUES (?1, ?2, ?3, ?4)",
-                    params![path, fp, candidates as i64, at],
-                )
-            })?;
-        }
-        Ok(previous.filter(|p| p != fp))
     }
 
     fn entries(&self, sql: &str, args: &[&dyn rusqlite::ToSql]) -> Result<Vec<Entry>, LedgerError> {

@@ -130,7 +130,7 @@ fn build_app_counting(
         ..
     } = &args.vetting;
     let loaded = match read {
-        Some(r) => input.load_counting(r)?,
+        Some(r) => input.load_counting(r, (!args.no_ledger).then_some(ledger_args))?,
         None => input.load()?,
     };
     // The checks run on a background thread once the browser is up (see `run`).

@@ -441,6 +441,62 @@ fn a_changed_catalogue_is_noticed_and_gone_candidates_listed() {
 }
 
 #[test]
+fn a_catalogue_the_ledger_has_seen_is_known_by_its_stamp_and_an_edit_still_noticed() {
+    let (d, cat) = demo_copy("stamp");
+    let ledger = d.join("l.sqlite");
+    let fnv = |p: &Path| starsift::ledger::fingerprint(&std::fs::read(p).unwrap());
+    // A stamp is trusted once the file has settled (2 s on a file system
+    // with whole-second times; 0.1 s otherwise).
+    std::thread::sleep(std::time::Duration::from_millis(2100));
+    let gone = &system_of(1)[0];
+    let decide = |decision: &str| {
+        let o = starsift(&[
+            "decide",
+            s(&cat),
+            "--ledger",
+            s(&ledger),
+            "--candidate",
+            gone,
+            "--decision",
+            decision,
+            "--vetter",
+            "ann",
+        ]);
+        assert!(o.status.success(), "{}", stderr(&o));
+        stderr(&o)
+    };
+    decide("parked");
+    // The ledger recorded the file's fingerprint with its stamp, and knows
+    // it again from the stamp alone.
+    let stamp = starsift::fingerprint::file_stamp(&cat).expect("a settled file has a stamp");
+    assert_eq!(
+        starsift::ledger::recorded_fingerprint(&ledger, s(&cat), &stamp),
+        Some(fnv(&cat))
+    );
+    // Read from the ledger, not the file: still no note of a change.
+    assert!(!decide("kept").contains("changed since"));
+    // One digit edited, the length the same: the next command notices, and
+    // records the new fingerprint.
+    let before = fnv(&cat);
+    let text = std::fs::read_to_string(&cat).unwrap();
+    let at = text.find(gone.as_str()).unwrap() + gone.len() + 1;
+    let mut bytes = text.into_bytes();
+    let digit = (at..bytes.len())
+        .find(|&i| bytes[i].is_ascii_digit())
+        .unwrap();
+    bytes[digit] = if bytes[digit] == b'7' { b'8' } else { b'7' };
+    std::fs::write(&cat, &bytes).unwrap();
+    let e = decide("parked");
+    assert!(
+        e.contains(&format!(
+            "changed since this ledger last saw it ({before} → {})",
+            fnv(&cat)
+        )),
+        "{e}"
+    );
+}
+
+#[test]
 fn export_where_keeps_the_matching_rows_and_the_whole_catalogues_odds() {
     let (_, cat) = demo_copy("where");
     let three = system_of(3);

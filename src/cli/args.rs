@@ -102,6 +102,21 @@ impl LedgerArgs {
             .unwrap_or_else(crate::ledger::login_name)
     }
 
+    /// The fingerprint this command's ledger recorded for the catalogue at
+    /// `catalogue` when the file had this very `stamp`
+    /// (`crate::ledger::recorded_fingerprint`): a catalogue the ledger has
+    /// seen, untouched since, need not be read whole for its fingerprint.
+    /// Any ledger that recorded this path and stamp knows the right
+    /// fingerprint, so the default ledger is found without the content
+    /// fingerprint that only names a ledger of an earlier version.
+    pub fn recorded_fingerprint(&self, catalogue: &Path, stamp: &str) -> Option<String> {
+        let ledger = match &self.ledger {
+            Some(p) => p.clone(),
+            None => crate::ledger::default_path_with(Some(catalogue), &String::new),
+        };
+        crate::ledger::recorded_fingerprint(&ledger, &catalogue.display().to_string(), stamp)
+    }
+
     /// The ledger a read-only command reads: the one `--ledger` names (which
     /// must exist: a mistyped path is an error, not an empty ledger), else
     /// the default one if it exists; `None` when there is none. Nothing is
@@ -176,7 +191,9 @@ impl LedgerArgs {
         let mut ledger = crate::ledger::Ledger::open(&path)?;
         let cat = &loaded.catalogue;
         let mut notes = Vec::new();
-        if let Some(previous) = ledger.note_catalogue(&cat.source, &fp, cat.len())? {
+        if let Some(previous) =
+            ledger.note_catalogue(&cat.source, &fp, cat.len(), loaded.stamp.as_deref())?
+        {
             notes.push(format!(
                 "{} changed since this ledger last saw it ({previous} → {fp}); decisions are matched by candidate id",
                 crate::sanitize::clean(&cat.source)
@@ -333,8 +350,12 @@ pub struct Loaded {
     /// The catalogue file (`None` for the built-in demo).
     pub path: Option<PathBuf>,
     /// The file's fingerprint, when the load computed it from its own read
+    /// or the ledger knew it from the file's stamp
     /// (`CatalogueArgs::load_for_ledger`).
     pub fingerprint: Option<String>,
+    /// The file's stamp (`crate::fingerprint::file_stamp`) when it was the
+    /// same before and after the read, for the ledger to record.
+    pub stamp: Option<String>,
 }
 
 impl Loaded {
@@ -583,31 +604,68 @@ impl CatalogueArgs {
     }
 
     /// `load` counting the bytes read into `read`, for the browser's
-    /// loading screen; the fingerprint for the ledger from the same read.
+    /// loading screen; the fingerprint for the ledger from the same read,
+    /// or from the ledger (`load_for_ledger`).
     pub fn load_counting(
         &self,
         read: std::sync::Arc<std::sync::atomic::AtomicU64>,
+        ledger: Option<&LedgerArgs>,
     ) -> Result<Loaded, CliError> {
         let opts = LoadOptions {
             progress: Some(read),
-            fingerprint: Some(Default::default()),
             ..self.options()?
         };
-        self.load_with(opts)
+        self.load_noting(opts, ledger)
     }
 
     /// `load` for a command that reads or writes the ledger: the
     /// catalogue's fingerprint (which the ledger records) comes from the
-    /// same read as the load, not from a second one. With `ids_only`, only
-    /// what naming candidates needs is kept (`LoadOptions::index_only`: the
-    /// same rows load and are skipped).
-    pub fn load_for_ledger(&self, ids_only: bool) -> Result<Loaded, CliError> {
+    /// ledger when the file's stamp is the one it recorded with it, else
+    /// from the same read as the load, never from a second one. With
+    /// `ids_only`, only what naming candidates needs is kept
+    /// (`LoadOptions::index_only`: the same rows load and are skipped).
+    pub fn load_for_ledger(&self, ids_only: bool, ledger: &LedgerArgs) -> Result<Loaded, CliError> {
         let opts = LoadOptions {
-            fingerprint: Some(Default::default()),
             index_only: ids_only,
             ..self.options()?
         };
-        self.load_with(opts)
+        self.load_noting(opts, Some(ledger))
+    }
+
+    /// `load_with` for a ledger: the file's stamp taken before the read and
+    /// kept when it is the same after it; the fingerprint the ledger
+    /// recorded for that stamp, else the one the read computes.
+    fn load_noting(
+        &self,
+        opts: LoadOptions,
+        ledger: Option<&LedgerArgs>,
+    ) -> Result<Loaded, CliError> {
+        let stamp_now = || {
+            self.catalogue
+                .as_deref()
+                .and_then(crate::fingerprint::file_stamp)
+        };
+        let stamp = stamp_now();
+        let known = match (&self.catalogue, &stamp, ledger) {
+            (Some(path), Some(stamp), Some(ledger)) => ledger.recorded_fingerprint(path, stamp),
+            _ => None,
+        };
+        let opts = LoadOptions {
+            fingerprint: known.is_none().then(Default::default),
+            ..opts
+        };
+        let mut loaded = self.load_with(opts)?;
+        if stamp.is_some() && stamp_now() == stamp {
+            if known.is_some() {
+                loaded.fingerprint = known;
+            }
+            loaded.stamp = stamp;
+        } else if known.is_some() {
+            // Changed while it was read: the recorded fingerprint is of the
+            // file before; the ledger reads the file again for its own.
+            loaded.fingerprint = None;
+        }
+        Ok(loaded)
     }
 
     /// `load` keeping only the ids, the star index, depth and the skips
@@ -655,6 +713,7 @@ impl CatalogueArgs {
                 fingerprint: Some(crate::ledger::fingerprint(
                     crate::demo::CATALOGUE_CSV.as_bytes(),
                 )),
+                stamp: None,
             }),
             Some(path) => {
                 let catalogue = Catalogue::load(Source::Path(path), &opts)?;
@@ -682,6 +741,7 @@ impl CatalogueArgs {
                     demo: false,
                     path: Some(path.clone()),
                     fingerprint,
+                    stamp: None,
                 })
             }
         }

@@ -100,7 +100,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         lc: args.lc.clone(),
     };
     // Only the ids are needed, unless the verdicts are to be printed.
-    let loaded = args.input.load_for_ledger(!args.verdicts)?;
+    let loaded = args.input.load_for_ledger(!args.verdicts, &args.ledger)?;
     let cat = &loaded.catalogue;
     let c = loaded.candidate(candidate)?;
     let vetter = args.ledger.vetter();
@@ -311,7 +311,7 @@ fn read_batch(
 /// `decide --from FILE`: every row checked, then all in one transaction.
 fn run_batch(args: &Args, file: &std::path::Path, out: &mut dyn Write) -> Result<(), CliError> {
     let bytes = batch_file(file)?;
-    let loaded = args.input.load_for_ledger(true)?;
+    let loaded = args.input.load_for_ledger(true, &args.ledger)?;
     let rows = read_batch(file, &bytes, &loaded)?;
     let cat = &loaded.catalogue;
     let vetter = args.ledger.vetter();

@@ -301,12 +301,7 @@ impl<'a> Export<'a> {
         let (v, live) = (self.v, self.live);
         let cat = &v.loaded.catalogue;
         let m = live.model();
-        let fingerprint = match &v.loaded.path {
-            Some(p) => crate::ledger::fingerprint_file(p).ok(),
-            None => Some(crate::ledger::fingerprint(
-                crate::demo::CATALOGUE_CSV.as_bytes(),
-            )),
-        };
+        let fingerprint = v.catalogue_fingerprint().ok();
         json!({
             "tool": format!("starsift {}", env!("CARGO_PKG_VERSION")),
             "written_at": crate::ledger::now_rfc3339(),

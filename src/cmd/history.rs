@@ -25,7 +25,7 @@ pub struct Args {
 }
 
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
-    let loaded = args.input.load_for_ledger(true)?;
+    let loaded = args.input.load_for_ledger(true, &args.ledger)?;
     let ledger = args.ledger.open(&args.input, &loaded)?;
     let mut rows = ledger.history(args.candidate.as_deref())?;
     if let Some(v) = &args.ledger.vetter {

@@ -248,10 +248,9 @@ pub fn markdown(v: &Session) -> Result<String, CliError> {
         let _ = writeln!(r, "- {}: {}", md(cand), each.join("; "));
     }
     let _ = writeln!(r, "\n## Provenance\n");
-    let fingerprint = match &v.loaded.path {
-        Some(p) => crate::ledger::fingerprint_file(p).unwrap_or_else(|_| "unreadable".into()),
-        None => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
-    };
+    let fingerprint = v
+        .catalogue_fingerprint()
+        .unwrap_or_else(|_| "unreadable".into());
     let _ = writeln!(
         r,
         "- tool: starsift {}\n- written: {}\n- catalogue: {} ({}, {} candidates, fingerprint {fingerprint})\n- ledger: {}\n- light curves read for {} stars ({}); {} could not be read",

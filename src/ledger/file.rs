@@ -143,6 +143,13 @@ pub(super) fn just_written(path: &Path) -> bool {
 }
 
 fn check_ours_once(path: &Path) -> Result<(), LedgerError> {
+    open_checked(path).map(|_| ())
+}
+
+/// A connection that only reads the ledger at `path`, once it is known to
+/// be one of ours (`None` for an empty file, which becomes a new ledger).
+/// An idle WAL ledger is read as immutable: looking leaves nothing behind.
+pub(super) fn open_checked(path: &Path) -> Result<Option<Connection>, LedgerError> {
     let name = path.display().to_string();
     let foreign = |why: String| LedgerError::Foreign {
         path: name.clone(),
@@ -151,7 +158,7 @@ fn check_ours_once(path: &Path) -> Result<(), LedgerError> {
     let mut head = [0u8; 100];
     let len = std::fs::metadata(path).map(|m| m.len()).unwrap_or(0);
     if len == 0 {
-        return Ok(()); // an empty file becomes a new ledger
+        return Ok(None); // an empty file becomes a new ledger
     }
     use std::io::Read;
     let read = std::fs::File::open(path)
@@ -220,16 +227,16 @@ fn check_ours_once(path: &Path) -> Result<(), LedgerError> {
         )
         .map_err(access)?;
     if app == APPLICATION_ID {
-        return Ok(());
+        return Ok(Some(conn));
     }
     // Nothing in it at all: a database another starsift is creating this very
     // moment (its first transaction not yet committed), or an empty one.
     if app == 0 && objects == 0 {
-        return Ok(());
+        return Ok(Some(conn));
     }
     // A version-1 ledger predates the application id: it has our tables.
     if ours && version == 1 {
-        return Ok(());
+        return Ok(Some(conn));
     }
     Err(foreign(format!(
         "an SQLite database of another application (application_id {app:#x})"
