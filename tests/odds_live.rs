@@ -92,6 +92,111 @@ proptest! {
     }
 }
 
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(64))]
+
+    /// The state built at once (candidates read in file order, the stars
+    /// with a member in a signal group one by one) equals the state reached
+    /// one decision and one flag at a time (star by star), with signal
+    /// groups that join candidates of different stars.
+    #[test]
+    fn built_at_once_equals_built_one_change_at_a_time(
+        sizes in proptest::collection::vec(1usize..6, 1..40),
+        links in proptest::collection::vec((0usize..1000, 0usize..1000, 0u8..3), 0..25),
+        changes in proptest::collection::vec((0u8..5, proptest::option::of(0u16..1024)), 1..200),
+        f in 0.02f64..0.6,
+    ) {
+        use starsift::checks::SignalGroups;
+        use starsift::flags::Flag;
+        let cat = catalogue(&sizes, None);
+        let n = cat.len();
+        let kinds = [Flag::NearTwin, Flag::Harmonic, Flag::HalfPhase];
+        let links: Vec<(CandidateId, CandidateId, Flag)> = links
+            .iter()
+            .map(|&(a, b, k)| ((a % n) as CandidateId, (b % n) as CandidateId, kinds[k as usize]))
+            .filter(|l| l.0 != l.1)
+            .collect();
+        let groups = SignalGroups::from_links(&cat, &links);
+        let model = Model {
+            targets: Some(cat.star_count() as u64 + 500),
+            fp_fraction: f,
+            ..Model::default()
+        };
+        let flag_set = |bits: Option<u16>| -> FlagSet {
+            ALL_FLAGS.iter().enumerate().filter(|(i, _)| bits.is_some_and(|b| b & (1 << i) != 0)).map(|(_, f)| *f).collect()
+        };
+        let decisions: Vec<Decision> = (0..n).map(|c| decision(changes[c % changes.len()].0)).collect();
+        let flags: Vec<FlagSet> = (0..n).map(|c| flag_set(changes[c % changes.len()].1)).collect();
+        let at_once = Live::with_state(&cat, model.clone(), flags.clone(), groups.clone(), decisions.clone()).unwrap();
+        let mut stepwise = Live::with_state(&cat, model, vec![FlagSet::default(); n], groups, vec![Decision::Open; n]).unwrap();
+        for c in 0..n {
+            stepwise.set_flags(c as CandidateId, flags[c]);
+            stepwise.set_decision(c as CandidateId, decisions[c]);
+        }
+        prop_assert!(at_once.same_odds_state(&stepwise));
+        for c in 0..n as CandidateId {
+            prop_assert_eq!(at_once.verdict(c), stepwise.verdict(c));
+            prop_assert_eq!(at_once.odds(c), stepwise.odds(c));
+            prop_assert_eq!(at_once.status(c), stepwise.status(c));
+        }
+    }
+}
+
+#[test]
+fn a_copy_on_another_star_follows_every_decision_on_its_signal() {
+    // Two stars of three candidates; one signal seen on both (a near twin,
+    // one group), so only one of the two may ever be counted.
+    use starsift::checks::SignalGroups;
+    use starsift::flags::Flag;
+    use starsift::odds::Status;
+    let cat = catalogue(&[3, 3], None);
+    let n = cat.len();
+    let id = |s: &str| cat.find_candidate(s).unwrap();
+    let pair = [id("ZS0-0"), id("ZS1-0")];
+    let groups = SignalGroups::from_links(&cat, &[(pair[0], pair[1], Flag::NearTwin)]);
+    let model = Model {
+        targets: Some(1000),
+        ..Model::default()
+    };
+    let mut live = Live::with_state(
+        &cat,
+        model,
+        vec![FlagSet::default(); n],
+        groups,
+        vec![Decision::Open; n],
+    )
+    .unwrap();
+    let counted = |live: &Live| {
+        pair.iter()
+            .filter(|&&c| live.status(c) == Status::Counted)
+            .count()
+    };
+    assert_eq!(counted(&live), 1);
+    let rep = *pair
+        .iter()
+        .find(|&&c| live.status(c) == Status::Counted)
+        .unwrap();
+    let copy = pair.into_iter().find(|&c| c != rep).unwrap();
+    // The representative rejected as a copy: the other stands for the
+    // signal at once, counted on its own star.
+    live.set_decision(rep, Decision::Rejected(Reason::Duplicate));
+    assert_eq!(live.status(copy), Status::Counted);
+    assert!(live.same_odds_state(&live.rebuilt(&cat).unwrap()));
+    // A decision elsewhere on the copy's star, then the representative
+    // reopened: the signal is counted once, never twice.
+    let sibling = cat
+        .members(cat.star_of(copy))
+        .iter()
+        .copied()
+        .find(|&m| m != copy)
+        .unwrap();
+    live.set_decision(sibling, Decision::Kept);
+    live.set_decision(rep, Decision::Open);
+    assert_eq!(counted(&live), 1);
+    assert_eq!(live.status(copy), Status::Held);
+    assert!(live.same_odds_state(&live.rebuilt(&cat).unwrap()));
+}
+
 #[test]
 fn rejecting_one_of_three_gives_siblings_the_two_candidate_odds() {
     let cat = starsift::demo::catalogue().unwrap();

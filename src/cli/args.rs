@@ -604,8 +604,8 @@ impl CatalogueArgs {
     }
 
     /// `load` counting the bytes read into `read`, for the browser's
-    /// loading screen; the fingerprint for the ledger from the same read,
-    /// or from the ledger (`load_for_ledger`).
+    /// loading screen; the fingerprint for the ledger (none without one)
+    /// from the same read, or from the ledger (`load_for_ledger`).
     pub fn load_counting(
         &self,
         read: std::sync::Arc<std::sync::atomic::AtomicU64>,
@@ -650,8 +650,9 @@ impl CatalogueArgs {
             (Some(path), Some(stamp), Some(ledger)) => ledger.recorded_fingerprint(path, stamp),
             _ => None,
         };
+        // Hashed only for a ledger that does not know it yet.
         let opts = LoadOptions {
-            fingerprint: known.is_none().then(Default::default),
+            fingerprint: (ledger.is_some() && known.is_none()).then(Default::default),
             ..opts
         };
         let mut loaded = self.load_with(opts)?;

@@ -162,16 +162,13 @@ impl Live {
                 ));
             }
         }
-        let mut classes = prior.clone();
-        classes.sort_by(f64::total_cmp);
-        classes.dedup();
+        let classes = distinct_sorted(&prior);
         let class_of = prior
             .iter()
             .map(|p| classes.partition_point(|c| c < p) as u32)
             .collect();
-        let mut singles_by_f: Vec<(f64, i64)> = f_of.iter().map(|&f| (f, 0)).collect();
-        singles_by_f.sort_by(|a, b| a.0.total_cmp(&b.0));
-        singles_by_f.dedup_by(|a, b| a.0 == b.0);
+        let singles_by_f: Vec<(f64, i64)> =
+            distinct_sorted(&f_of).into_iter().map(|f| (f, 0)).collect();
         let nclasses = classes.len();
         let ngroups = groups.len();
         let mut live = Live {
@@ -204,9 +201,7 @@ impl Live {
             standings: vec![GroupStanding::default(); ngroups],
             input_warnings,
         };
-        for s in 0..live.index.star_count() {
-            live.place_star(s as StarId);
-        }
+        live.place_all();
         live.refresh();
         Ok(live)
     }
@@ -366,15 +361,24 @@ impl Live {
         Some(Hold::Copy { rep, kind })
     }
 
-    /// Records a decision and updates everything it changes: the star's
-    /// statuses (O(members × group size)), the table (O(k_max²)), the
-    /// counts (O(k_max log n)).
+    /// Records a decision and updates everything it changes: the statuses
+    /// of its star and, when it is in an active signal group, of every star
+    /// with a member of the group, whose standing (its representative, or a
+    /// rejection that holds it back) the decision may move
+    /// (O(members × group size) each); the table (O(k_max²)); the counts
+    /// (O(k_max log n)).
     pub fn set_decision(&mut self, c: CandidateId, d: Decision) {
         let old = std::mem::replace(&mut self.decision[c as usize], d);
         if old == d {
             return;
         }
-        self.replace_star(self.star_of(c));
+        let mut stars = vec![self.star_of(c)];
+        if let Some(g) = self.active_group(c) {
+            stars.extend(self.groups.members(g).iter().map(|&m| self.star_of(m)));
+            stars.sort_unstable();
+            stars.dedup();
+        }
+        self.replace_stars(&stars);
     }
 
     /// Sets a candidate's flags (from the checks).
@@ -383,7 +387,9 @@ impl Live {
             return;
         }
         self.flags[c as usize] = flags;
-        self.replace_star(self.star_of(c));
+        // Flags move only the candidate's own status: a group's standing
+        // depends on the decisions alone.
+        self.replace_stars(&[self.star_of(c)]);
     }
 
     /// The odds each counted sibling would have if `c` were rejected:
@@ -589,12 +595,65 @@ impl Live {
         self.singles_by_f.iter().map(|&(f, n)| f * n as f64).sum()
     }
 
-    /// Removes a star's contribution, recomputes its statuses, adds it back.
-    fn replace_star(&mut self, s: StarId) {
-        self.unplace_star(s);
-        self.place_star(s);
+    /// Removes the stars' contributions, recomputes their statuses, adds
+    /// them back.
+    fn replace_stars(&mut self, stars: &[StarId]) {
+        for &s in stars {
+            self.unplace_star(s);
+            self.place_star(s);
+        }
         self.margins = OnceLock::new();
         self.refresh();
+    }
+
+    /// Places every star, as [`Live::place_star`] on each in turn would,
+    /// but candidate by candidate in file order. A candidate's status
+    /// depends on itself alone unless it is in an active signal group, so
+    /// only the stars with such a member go through `place_star`; for the
+    /// others, the same statuses, system sizes and integer counts are found
+    /// in two passes that read the candidates in sequence, not star by star
+    /// across a shuffled file (sums of integers: the order is free).
+    fn place_all(&mut self) {
+        let index = Arc::clone(&self.index);
+        let own_blocking = self.own_blocking();
+        let mut k_of = vec![0u32; index.star_count()];
+        let mut grouped = vec![false; index.star_count()];
+        for (c, &s) in index.star_of.iter().enumerate() {
+            if self.active_group(c as CandidateId).is_some() {
+                grouped[s as usize] = true;
+                continue;
+            }
+            // As `statuses` says of a candidate outside any active group.
+            let status = if self.decision[c].is_rejected() {
+                Status::Rejected
+            } else if self.flags[c].intersects(own_blocking) {
+                Status::Held
+            } else {
+                Status::Counted
+            };
+            self.status[c] = status;
+            k_of[s as usize] += u32::from(status == Status::Counted);
+        }
+        for (s, &k) in k_of.iter().enumerate() {
+            if !grouped[s] {
+                self.k_of_star[s] = k as u16;
+                self.bump_hist(k as usize, 1);
+            }
+        }
+        for (c, &s) in index.star_of.iter().enumerate() {
+            if grouped[s as usize] {
+                continue;
+            }
+            let k = k_of[s as usize] as usize;
+            self.contribute(c as CandidateId, k, 1);
+            // A star of one counted candidate: its f among the singles.
+            if k == 1 && self.status[c] == Status::Counted {
+                self.bump_single(self.f_of[c], 1);
+            }
+        }
+        for (s, _) in grouped.iter().enumerate().filter(|g| *g.1) {
+            self.place_star(s as StarId);
+        }
     }
 
     fn place_star(&mut self, s: StarId) {
@@ -709,4 +768,29 @@ fn is_copy(r: Reason) -> bool {
 fn trimmed(hist: &[usize]) -> &[usize] {
     let end = hist.iter().rposition(|&n| n > 0).map_or(1, |i| i + 1);
     &hist[..end.max(1)]
+}
+
+/// The values in total order, equal ones once: what sorting them all and
+/// dropping repeats gives, found from their distinct bit patterns instead
+/// (a catalogue has a handful of distinct f among millions of candidates,
+/// so nothing of the catalogue's size is sorted). With a NaN among them,
+/// which equals nothing, by sorting them all.
+pub(super) fn distinct_sorted(values: &[f64]) -> Vec<f64> {
+    let mut out: Vec<f64> = if values.iter().any(|v| v.is_nan()) {
+        values.to_vec()
+    } else {
+        let mut seen = hashbrown::HashSet::new();
+        let mut last = None;
+        for v in values {
+            let bits = v.to_bits();
+            if last != Some(bits) {
+                seen.insert(bits);
+                last = Some(bits);
+            }
+        }
+        seen.into_iter().map(f64::from_bits).collect()
+    };
+    out.sort_by(f64::total_cmp);
+    out.dedup();
+    out
 }

@@ -283,3 +283,24 @@ proptest! {
         }
     }
 }
+
+proptest! {
+    /// The classes of prior and the list of f are the distinct values in
+    /// total order, as sorting every candidate's value and dropping repeats
+    /// gave (the same values, so the same odds and the same bytes).
+    #[test]
+    fn distinct_values_are_those_of_sorting_them_all(
+        picks in proptest::collection::vec(0usize..7, 0..300)
+    ) {
+        let pool = [0.1, 0.25, -0.0, 0.0, f64::NAN, 1e-300, 0.1 + 1e-17];
+        let values: Vec<f64> = picks.iter().map(|&i| pool[i]).collect();
+        let mut all = values.clone();
+        all.sort_by(f64::total_cmp);
+        all.dedup();
+        let got = live::distinct_sorted(&values);
+        prop_assert_eq!(
+            got.iter().map(|v| v.to_bits()).collect::<Vec<_>>(),
+            all.iter().map(|v| v.to_bits()).collect::<Vec<_>>()
+        );
+    }
+}

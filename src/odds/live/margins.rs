@@ -94,9 +94,7 @@ impl Live {
             boost.push(boosts_at(s));
         }
         let t = self.model.threshold;
-        let mut fs: Vec<f64> = self.f_of.clone();
-        fs.sort_by(f64::total_cmp);
-        fs.dedup();
+        let fs = distinct_sorted(&self.f_of);
         let mut refined = Vec::new();
         for k in 1..=k_max {
             for &f_c in &fs {
