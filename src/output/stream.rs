@@ -194,20 +194,37 @@ pub fn write_json_rows<T: Sync, R: Serialize>(
     text.truncate(text.len() - b"[]\n}".len());
     text.extend_from_slice(b"[\n    ");
     out.write_all(&text)?;
-    write_joined_rows(out, items, b",\n    ", |item, buf| {
+    let sep = b",\n    ";
+    let mut rows = SkipFirst {
+        out,
+        skip: sep.len(),
+    };
+    in_order(items, &mut rows, |part, buf| {
+        // One row's JSON at a time, in a buffer kept for the chunk.
         let mut one = Vec::with_capacity(1024);
-        // Serialising into memory fails only for a map with non-string
-        // keys, which no row has.
-        let _ = serde_json::to_writer_pretty(&mut one, &row(item));
-        for &b in &one {
-            buf.push(b);
-            if b == b'\n' {
-                buf.extend_from_slice(b"    ");
-            }
+        for item in part {
+            buf.extend_from_slice(sep);
+            one.clear();
+            // Serialising into memory fails only for a map with non-string
+            // keys, which no row has.
+            let _ = serde_json::to_writer_pretty(&mut one, &row(item));
+            indented(buf, &one, b"    ");
         }
     })?;
     out.write_all(b"\n  ]\n}\n")?;
     out.flush()
+}
+
+/// `text` appended to `buf` with `indent` after each of its line breaks
+/// (rows nested in the document), a line at a time.
+fn indented(buf: &mut Vec<u8>, text: &[u8], indent: &[u8]) {
+    let mut from = 0;
+    for at in memchr::memchr_iter(b'\n', text) {
+        buf.extend_from_slice(&text[from..=at]);
+        buf.extend_from_slice(indent);
+        from = at + 1;
+    }
+    buf.extend_from_slice(&text[from..]);
 }
 
 /// Every item made into bytes by `one`, with `sep` between them, on every
