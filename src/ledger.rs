@@ -142,6 +142,8 @@ pub struct Ledger {
     path: PathBuf,
 }
 
+/// Version 2. The catalogue table may also have a `stamp` column, added by
+/// the first sighting with a file stamp (`seen.rs`) without a new version.
 const SCHEMA_V2: &str = "
 CREATE TABLE IF NOT EXISTS catalogue (
     id INTEGER PRIMARY KEY,
