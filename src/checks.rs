@@ -7,9 +7,11 @@
 
 mod echo;
 mod groups;
+mod progress;
 mod system;
 
 pub use groups::SignalGroups;
+pub use progress::CheckProgress;
 
 use crate::catalogue::{CandidateId, Catalogue, Field};
 use crate::constants::{AU_M, G, R_SUN_M};
@@ -294,12 +296,17 @@ impl Checks {
 
 /// Runs every check on the catalogue.
 pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
+    run_counted(cat, s, &CheckProgress::default())
+}
+
+/// [`run`], counting the work done into `progress` as it goes.
+pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress) -> Checks {
     let n = cat.len();
     let empty = || Checks::none(n);
     // The cross-star echo sweep is independent of the per-star checks: it
     // runs on a thread of its own and the two results are merged.
     let (mut checks, echoes) = std::thread::scope(|scope| {
-        let echo = scope.spawn(|| echo::check(cat, s));
+        let echo = scope.spawn(|| echo::check(cat, s, progress));
         let mut checks = empty();
         // Transit densities are needed by the sibling comparison.
         let mut density_transit = vec![f64::NAN; n];
@@ -309,13 +316,18 @@ pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
             density_transit[c as usize] = d.density_transit.unwrap_or(f64::NAN);
             radius[c as usize] = d.radius_rearth.unwrap_or(f64::NAN);
             candidate_flags(cat, c, &d, s, &mut checks);
+            if (c as usize + 1) % progress::STEP == 0 {
+                progress.add(progress::STEP);
+            }
         }
+        progress.add(n % progress::STEP);
         let derived = system::PerCandidate {
             density_transit: &density_transit,
             radius_rearth: &radius,
         };
         let mut scratch = system::Scratch::default();
         let mut links = Vec::new();
+        let mut unsaid = 0;
         for star in 0..cat.star_count() as u32 {
             let members = cat.members(star);
             if members.len() >= 2 {
@@ -329,7 +341,12 @@ pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
                     &mut checks,
                 );
             }
+            unsaid += members.len();
+            if unsaid >= progress::STEP {
+                progress.add(std::mem::take(&mut unsaid));
+            }
         }
+        progress.add(unsaid);
         group_flags(cat, &links, &mut checks);
         (
             checks,

@@ -446,14 +446,16 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     // The checks (and, when asked, the light-curve checks) in the background.
     app.update(Input::ChecksStarted);
     let (checks_tx, checks_rx) = mpsc::channel();
+    let check_progress = Arc::new(crate::checks::CheckProgress::default());
     let (progress_tx, progress_rx) = mpsc::channel();
     {
         let cat = Arc::clone(&app.cat);
         let settings = args.vetting.checks.settings();
         let lc = args.vetting.lc.clone();
         let finder = finder.clone();
+        let counted = Arc::clone(&check_progress);
         std::thread::spawn(move || {
-            let mut checks = crate::checks::run(&cat, &settings);
+            let mut checks = crate::checks::run_counted(&cat, &settings, &counted);
             let run = if lc.wanted() {
                 crate::checks::run_lightcurves_counted(
                     &cat,
@@ -550,6 +552,11 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             term.draw(|f| hits = draw::draw(&app, f, look))?;
             last_draw = std::time::Instant::now();
             dirty = false;
+        }
+        let percent = check_progress.percent(app.cat.len());
+        if app.checks_pending && app.lc_progress.is_none() && percent != app.checks_percent {
+            effects.extend(app.update(Input::ChecksDone(percent)));
+            dirty = true;
         }
         if let Some((done, total)) = progress_rx.try_iter().last() {
             effects.extend(app.update(Input::Progress(done, total)));

@@ -41,13 +41,28 @@ pub(super) type Finding = (CandidateId, bool, String);
 
 /// The echo findings of the catalogue: each copy, each source it feeds,
 /// and the runs of signals whose window filled up.
-pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
+/// Its work is counted into `progress` in four stages of a quarter of the
+/// candidates each: the period order, the signals, the index, the search.
+pub(super) fn check(
+    cat: &Catalogue,
+    s: &CheckSettings,
+    progress: &super::CheckProgress,
+) -> Vec<Finding> {
+    let quarter = cat.len() / 4;
+    let stage = |last: bool| {
+        progress.add(if last {
+            cat.len() - 3 * quarter
+        } else {
+            quarter
+        })
+    };
     let col = |f: Field| cat.column(f);
     let (Some(periods), Some(epochs), Some(durations)) = (
         col(Field::PeriodD),
         col(Field::Epoch),
         col(Field::DurationH),
     ) else {
+        progress.add(cat.len());
         return Vec::new();
     };
     let per_err = col(Field::PeriodErrD);
@@ -67,6 +82,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
         .collect();
     order.sort_unstable();
     let period_order: Vec<CandidateId> = order.into_iter().map(|k| k as CandidateId).collect();
+    stage(false);
     let mut rank = vec![0u32; cat.len()];
     for (r, &c) in period_order.iter().enumerate() {
         rank[c as usize] = r as u32;
@@ -87,6 +103,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
             dec: dec.map_or(f64::NAN, |d| d[i]),
         })
         .collect();
+    stage(false);
     let pair = Pair {
         s,
         positions: ra.is_some(),
@@ -98,10 +115,12 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings) -> Vec<Finding> {
     // signal after another in period order, so the result is the same
     // whichever thread found what.
     let index = sweep::Index::new(by_file, s.echo_radius_arcsec);
+    stage(false);
     let mut swept = crate::parallel::in_parts(index.bands_len(), |r| index.sweep_bands(r, &pair));
     swept.extend(crate::parallel::in_parts(index.unplaced_len(), |r| {
         index.sweep_unplaced(r, &pair)
     }));
+    stage(true);
     let mut matches: Vec<sweep::Found> = Vec::new();
     let mut crowded_window = vec![false; cat.len()];
     for part in swept {

@@ -376,3 +376,25 @@ fn thousands_of_copies_of_one_signal_stay_linear() {
         c.len()
     );
 }
+
+#[test]
+fn a_run_counts_its_work_to_the_whole() {
+    // Every candidate's work is counted once per part, whatever the
+    // catalogue holds: the status line ends at 100 %, never short of it.
+    let demo = crate::demo::catalogue().unwrap();
+    let bare = load(
+        "star,candidate,period_d,epoch,depth_ppm,duration_h\n\
+         S1,S1-a,3.5,10.0,500,2.0\nS1,S1-b,7.0,10.5,600,2.5\nS2,S2-a,3.5,10.0,700,2.0\n",
+    );
+    for cat in [&demo, &bare] {
+        let progress = CheckProgress::default();
+        assert_eq!(progress.percent(cat.len()), 0);
+        let counted = run_counted(cat, &CheckSettings::default(), &progress);
+        assert_eq!(progress.percent(cat.len()), 100);
+        // Counting changes nothing found.
+        let plain = run(cat, &CheckSettings::default());
+        for c in 0..cat.len() as CandidateId {
+            assert_eq!(counted.flags(c), plain.flags(c));
+        }
+    }
+}

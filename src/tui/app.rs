@@ -68,6 +68,8 @@ pub enum Input {
     ChecksFailed(String),
     /// Light curves checked so far, of how many.
     Progress(usize, usize),
+    /// Whole percent of the catalogue checks done so far.
+    ChecksDone(u8),
     /// A left click on a list row (with `--mouse`): the pane and the row,
     /// found by the event loop from where the last frame drew the lists.
     Pick(Pane, usize),
@@ -251,6 +253,8 @@ pub struct App {
     pub checks_pending: bool,
     /// Light curves checked so far, of how many, while the checks run.
     pub lc_progress: Option<(usize, usize)>,
+    /// Whole percent of the catalogue checks done, while they run.
+    pub checks_percent: u8,
     /// The ledger history of the selected star (all vetters), oldest first.
     pub history: Vec<crate::ledger::Entry>,
     history_of: Option<StarId>,
@@ -334,6 +338,7 @@ impl App {
             help_scroll: 0,
             checks_pending: false,
             lc_progress: None,
+            checks_percent: 0,
             history: Vec::new(),
             history_of: None,
             orders: Vec::new(),
@@ -536,6 +541,10 @@ impl App {
             }
             Input::Notice(text) => {
                 self.message = Some(text);
+                Vec::new()
+            }
+            Input::ChecksDone(percent) => {
+                self.checks_percent = percent;
                 Vec::new()
             }
             Input::Progress(done, total) => {

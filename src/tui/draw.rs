@@ -548,7 +548,7 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             },
             match (app.checks_pending, app.lc_progress) {
                 (false, _) => String::new(),
-                (true, None) => "checks running… · ".into(),
+                (true, None) => format!("checks running: {} % · ", app.checks_percent),
                 (true, Some((done, total))) => format!(
                     "checks running: light curves {} / {} · ",
                     thousands(done),

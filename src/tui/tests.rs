@@ -385,7 +385,9 @@ fn checks_arriving_later_feed_the_verdicts() {
         Keymap::load(&[]).unwrap(),
     );
     app.checks_pending = true;
-    assert!(screen(&app, 120, 30).contains("checks running"));
+    assert!(screen(&app, 120, 30).contains("checks running: 0 %"));
+    app.update(Input::ChecksDone(45));
+    assert!(screen(&app, 120, 30).contains("checks running: 45 %"));
     app.update(Input::Progress(1240, 8000));
     assert!(screen(&app, 160, 30).contains("light curves 1,240 / 8,000"));
     // The planted unstable pair is validated until its `crowded` flag arrives.
