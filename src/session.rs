@@ -62,6 +62,17 @@ pub fn odds_of(
         Some(l) => l.decisions(cat),
         None => vec![Decision::Open; cat.len()],
     };
+    odds_with(cat, model, checks, decisions)
+}
+
+/// The odds under `model` with the checks' flags and signal groups and
+/// these decisions: the one way every command and the browser build them.
+pub fn odds_with(
+    cat: &crate::catalogue::Catalogue,
+    model: crate::odds::Model,
+    checks: &Checks,
+    decisions: Vec<Decision>,
+) -> Result<Live, ModelError> {
     Live::with_state(
         cat,
         model,

@@ -454,6 +454,12 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         let lc = args.vetting.lc.clone();
         let finder = finder.clone();
         let counted = Arc::clone(&check_progress);
+        // The odds with the checks are built there too, from the decisions
+        // of now; those made meanwhile are applied when they arrive.
+        let (model, decisions) = (
+            app.live.model().clone(),
+            app::decisions_of(&app.cat, &app.live),
+        );
         std::thread::spawn(move || {
             let mut checks = crate::checks::run_counted(&cat, &settings, &counted);
             let run = if lc.wanted() {
@@ -469,7 +475,8 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             } else {
                 Default::default()
             };
-            let _ = checks_tx.send((checks, run));
+            let live = crate::session::odds_with(&cat, model, &checks, decisions);
+            let _ = checks_tx.send((checks, live, run));
         });
     }
     // The orders no decision moves (by star id, by shortest period), sorted
@@ -563,9 +570,9 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             dirty = true;
         }
         match checks_rx.try_recv() {
-            Ok((checks, run)) => {
+            Ok((checks, live, run)) => {
                 dirty = true;
-                effects.extend(app.update(Input::Checks(Box::new(checks))));
+                effects.extend(app.update(Input::ChecksBuilt(Box::new((checks, live)))));
                 if let Some(n) = run.notice {
                     effects.extend(app.update(Input::Notice(n)));
                 } else if let Some((_, first)) = run.errors.first() {

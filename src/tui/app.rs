@@ -55,6 +55,9 @@ pub enum Input {
     Signal(CandidateId, Box<SignalResult>),
     /// The checks, run on a background thread at start-up.
     Checks(Box<Checks>),
+    /// The checks and the odds built with them on the background thread,
+    /// from the decisions of when the checks started (`App::apply_built`).
+    ChecksBuilt(Box<(Checks, Result<Live, crate::odds::ModelError>)>),
     /// Orders of the sorts no decision moves (`static_order`), computed on
     /// a background thread at start-up: (sort, descending) and the stars.
     Orders(Vec<((SortKey, bool), Vec<StarId>)>),
@@ -539,6 +542,11 @@ impl App {
                 self.apply_checks(*checks);
                 Vec::new()
             }
+            Input::ChecksBuilt(built) => {
+                let (checks, live) = *built;
+                self.apply_built(checks, live);
+                Vec::new()
+            }
             Input::Notice(text) => {
                 self.message = Some(text);
                 Vec::new()
@@ -651,17 +659,29 @@ impl App {
 
     /// Takes the checks' results: flags feed the verdicts from now on.
     pub fn apply_checks(&mut self, checks: Checks) {
-        let decisions: Vec<Decision> = (0..self.cat.len() as CandidateId)
-            .map(|c| self.live.decision(c))
-            .collect();
-        match Live::with_state(
-            &self.cat,
-            self.live.model().clone(),
-            checks.all_flags().to_vec(),
-            checks.groups().clone(),
-            decisions,
-        ) {
-            Ok(live) => self.live = live,
+        let decisions = decisions_of(&self.cat, &self.live);
+        let live =
+            crate::session::odds_with(&self.cat, self.live.model().clone(), &checks, decisions);
+        self.apply_built(checks, live);
+    }
+
+    /// Takes the checks with the odds built with them
+    /// (`crate::session::odds_with`, on
+    /// another thread) from the decisions of some moment before: each
+    /// decision recorded since is applied to them as the vetter's decisions
+    /// always are, so the odds are those of the checks and every decision
+    /// now (the incremental path equals the path from nothing: tested).
+    pub fn apply_built(&mut self, checks: Checks, live: Result<Live, crate::odds::ModelError>) {
+        match live {
+            Ok(mut live) => {
+                for c in 0..self.cat.len() as CandidateId {
+                    let now = self.live.decision(c);
+                    if live.decision(c) != now {
+                        live.set_decision(c, now);
+                    }
+                }
+                self.live = live;
+            }
             Err(e) => self.message = Some(format!("checks not applied: {e}")),
         }
         self.checks = checks;
@@ -722,4 +742,11 @@ impl App {
         self.candidate()
             .map_or_else(Vec::new, |c| self.live.what_if_rejected(c))
     }
+}
+
+/// Every candidate's decision in `live`.
+pub fn decisions_of(cat: &Catalogue, live: &Live) -> Vec<Decision> {
+    (0..cat.len() as CandidateId)
+        .map(|c| live.decision(c))
+        .collect()
 }

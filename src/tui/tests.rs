@@ -365,19 +365,19 @@ fn a_note_typed_in_the_reason_picker_goes_to_the_ledger() {
     let _ = std::fs::remove_dir_all(&dir);
 }
 
-#[test]
-fn checks_arriving_later_feed_the_verdicts() {
+/// The demo in the browser before its checks arrive (they run on a
+/// background thread), and those checks.
+fn checks_pending() -> (App, crate::checks::Checks) {
     let cat = crate::demo::catalogue().unwrap();
-    let n = cat.len();
     let model = Model {
         targets: Some(crate::demo::DEMO_TARGETS),
         ..Model::default()
     };
     let live = Live::new(&cat, model).unwrap();
     let checks = crate::checks::run(&cat, &Default::default());
-    let cat = std::sync::Arc::new(cat);
+    let n = cat.len();
     let mut app = App::new(
-        std::sync::Arc::clone(&cat),
+        std::sync::Arc::new(cat),
         live,
         crate::checks::Checks::none(n),
         None,
@@ -385,6 +385,45 @@ fn checks_arriving_later_feed_the_verdicts() {
         Keymap::load(&[]).unwrap(),
     );
     app.checks_pending = true;
+    (app, checks)
+}
+
+#[test]
+fn checks_built_in_the_background_keep_the_decisions_made_meanwhile() {
+    // The checks thread builds the odds with the decisions of when it
+    // started; the vetter rejects a candidate while it runs.
+    let (mut app, checks) = checks_pending();
+    let (cat, n) = (std::sync::Arc::clone(&app.cat), app.cat.len());
+    let (model, at_start) = (
+        app.live.model().clone(),
+        super::app::decisions_of(&cat, &app.live),
+    );
+    act(&mut app, Action::Select);
+    let c = app.candidate().unwrap();
+    act(&mut app, Action::Reject);
+    act(&mut app, Action::Down);
+    act(&mut app, Action::Select);
+    let rejected = app.live.decision(c);
+    assert!(rejected.is_rejected());
+    let built = crate::session::odds_with(&cat, model, &checks, at_start);
+    app.update(Input::ChecksBuilt(Box::new((checks.clone(), built))));
+    assert!(!app.checks_pending);
+    assert_eq!(app.live.decision(c), rejected);
+    // The odds of the checks and of every decision now, as if built then.
+    let now = super::app::decisions_of(&cat, &app.live);
+    let fresh = crate::session::odds_with(&cat, app.live.model().clone(), &checks, now).unwrap();
+    assert!(app.live.same_odds_state(&fresh));
+    for m in 0..n as crate::catalogue::CandidateId {
+        assert_eq!(app.live.odds(m), fresh.odds(m));
+        assert_eq!(app.live.verdict(m), fresh.verdict(m));
+        assert_eq!(app.live.flags(m), checks.flags(m));
+    }
+}
+
+#[test]
+fn checks_arriving_later_feed_the_verdicts() {
+    let (mut app, checks) = checks_pending();
+    let cat = std::sync::Arc::clone(&app.cat);
     assert!(screen(&app, 120, 30).contains("checks running: 0 %"));
     app.update(Input::ChecksDone(45));
     assert!(screen(&app, 120, 30).contains("checks running: 45 %"));
