@@ -8,6 +8,7 @@ pub mod analysis;
 mod candidate;
 mod fits;
 mod segments;
+mod stop;
 pub mod timezero;
 
 pub use candidate::{
@@ -17,6 +18,7 @@ pub use candidate::{
 
 pub use fits::{ArchiveSegment, write_archive_segment, write_table as write_fits};
 pub use segments::{DirIndex, locate_all};
+pub use stop::stoppable;
 
 use std::io::Read;
 use std::path::Path;
@@ -100,6 +102,9 @@ pub enum LcError {
     Bad { path: String, message: String },
     #[error("{path}: FITS: {message}")]
     Fits { path: String, message: String },
+    /// Stopped part way: nobody waits for it any more (`stoppable`).
+    #[error("the read stopped: nobody waits for this light curve any more")]
+    Stopped,
 }
 
 /// Column names (and the FITS extension) to read, overriding the synonyms,
@@ -441,6 +446,9 @@ fn parse_text(name: &str, mut raw: Vec<u8>, cols: &LcColumns) -> Result<Raw, LcE
         path: name.clone(),
         message: e.to_string(),
     })? {
+        if out.time.len() % stop::ASK_EVERY == stop::ASK_EVERY - 1 {
+            stop::check()?;
+        }
         out.time.push(num(&rec, p.time));
         out.flux.push(num(&rec, p.flux));
         if let (Some(i), Some(e)) = (p.err, out.err.as_mut()) {

@@ -320,18 +320,32 @@ pub struct Cache {
 
 impl Cache {
     pub fn curve(&self, finder: &Finder, cat: &Catalogue, star: StarId) -> LoadedCurve {
+        self.read_curve(finder, cat, star)
+            .unwrap_or_else(|| Arc::new(Err(LcError::Stopped.to_string())))
+    }
+
+    /// [`Cache::curve`], or `None` when the read was stopped
+    /// ([`crate::lightcurve::stoppable`]): nothing is kept of it, and the
+    /// next caller reads the file again.
+    pub fn read_curve(
+        &self,
+        finder: &Finder,
+        cat: &Catalogue,
+        star: StarId,
+    ) -> Option<LoadedCurve> {
         if let Some(hit) = self.curves.lock().ok().and_then(|m| m.get(&star).cloned()) {
-            return hit;
+            return Some(hit);
         }
         let what = format!("reading the light curve of star {}", cat.star_id(star));
-        let loaded = Arc::new(
-            crate::contain::contained(&what, || finder.load(cat, star).map_err(|e| e.to_string()))
-                .and_then(|r| r),
-        );
+        let read = crate::contain::contained(&what, || finder.load(cat, star));
+        if let Ok(Err(LcError::Stopped)) = read {
+            return None;
+        }
+        let loaded = Arc::new(read.and_then(|r| r.map_err(|e| e.to_string())));
         if let Ok(mut m) = self.curves.lock() {
             m.insert(star, Arc::clone(&loaded));
         }
-        loaded
+        Some(loaded)
     }
 
     /// A star's light curve divided by its trend, with all its signals

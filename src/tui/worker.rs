@@ -45,21 +45,31 @@ impl Readers {
     /// The signal of `c`, or `None` when the vetter moved to another star
     /// meanwhile: the work is done in stages (read, trend, diagnostics,
     /// then the folds), each kept in the cache, and it stops between them
-    /// once nobody waits for it.
-    fn show(&self, c: u32) -> Option<SignalResult> {
+    /// once nobody waits for it; a text light curve's read stops part way
+    /// (`crate::lightcurve::stoppable`), so that the read of the star the
+    /// vetter stopped at has the machine to itself.
+    fn show(self: &Arc<Self>, c: u32) -> Option<SignalResult> {
         let (cat, star) = (&*self.cat, self.cat.star_of(c));
         let what = format!("showing {}", cat.candidate_id(c));
         if self.finder.has(cat, star) {
+            let asked = Arc::clone(self);
             let staged = crate::contain::contained(&what, || {
-                let curve = self.cache.curve(&self.finder, cat, star);
+                let read = crate::lightcurve::stoppable(
+                    move || asked.stale(c),
+                    || self.cache.read_curve(&self.finder, cat, star),
+                );
+                let Some(curve) = read else {
+                    return false;
+                };
                 if let (Ok(lc), false) = (curve.as_ref(), self.stale(c)) {
                     self.cache.detrended(cat, star, lc, &self.detrend);
                     if !self.stale(c) {
                         self.cache.diagnostics(&self.finder, cat, c, &self.detrend);
                     }
                 }
+                true
             });
-            if staged.is_ok() && self.stale(c) {
+            if staged == Ok(false) || (staged.is_ok() && self.stale(c)) {
                 return None;
             }
         }
