@@ -65,11 +65,10 @@ impl Live {
     }
 
     fn margins_table(&self) -> Margins {
-        let f_max = self
-            .f_of
-            .iter()
-            .copied()
-            .fold(self.model.fp_fraction, f64::max);
+        // The distinct f of the candidates, in order: those the singles
+        // are counted by (`singles_by_f`), so no pass over the catalogue.
+        let fs: Vec<f64> = self.singles_by_f.iter().map(|e| e.0).collect();
+        let f_max = fs.iter().copied().fold(self.model.fp_fraction, f64::max);
         let k_max = self.hist.len().saturating_sub(1).max(1);
         let (lo, hi) = (1e-4_f64.ln(), 0.9999_f64.ln());
         let mut scale = Vec::with_capacity(MARGIN_STEPS);
@@ -94,7 +93,6 @@ impl Live {
             boost.push(boosts_at(s));
         }
         let t = self.model.threshold;
-        let fs = distinct_sorted(&self.f_of);
         let mut refined = Vec::new();
         for k in 1..=k_max {
             for &f_c in &fs {
