@@ -22,7 +22,9 @@ use crate::flags::{Flag, FlagSet};
 
 use super::fenwick::Fenwick;
 
+mod held;
 mod margins;
+pub use held::Hold;
 use margins::Margins;
 
 /// Candidates per verdict.
@@ -54,19 +56,6 @@ pub enum Status {
     /// its group's representative stands for. No boost; never validated.
     Held,
     Rejected,
-}
-
-/// Why a candidate is held back.
-#[derive(Clone, Debug, PartialEq)]
-pub enum Hold {
-    /// Blocking flags of its own.
-    Flags(FlagSet),
-    /// One signal with `rep`, which stands for the group.
-    Copy { rep: CandidateId, kind: Flag },
-    /// One signal with `by`, which a vetter rejected for what it is.
-    GroupRejected { by: CandidateId, reason: Reason },
-    /// One signal with `rep`, which blocking flags hold back.
-    GroupHeld { rep: CandidateId },
 }
 
 /// Live odds for one catalogue under one model.
@@ -331,36 +320,6 @@ impl Live {
         }
     }
 
-    /// Why a candidate is held back; `None` when counted or rejected.
-    pub fn hold(&self, c: CandidateId) -> Option<Hold> {
-        if self.status[c as usize] != Status::Held {
-            return None;
-        }
-        let own = self.flags[c as usize].intersection(self.own_blocking());
-        if !own.is_empty() {
-            return Some(Hold::Flags(own));
-        }
-        let g = self.active_group(c)?;
-        let standing = self.standings[g as usize];
-        if let Some((by, reason)) = standing.rejected_by {
-            return Some(Hold::GroupRejected { by, reason });
-        }
-        let rep = standing.rep?;
-        if rep == c {
-            return None;
-        }
-        if self.status[rep as usize] == Status::Held {
-            return Some(Hold::GroupHeld { rep });
-        }
-        let kind = self.flags[c as usize]
-            .intersection(FlagSet::group_flags())
-            .iter()
-            .next()
-            .or_else(|| self.groups.kinds(g).iter().next())
-            .unwrap_or(Flag::NearTwin);
-        Some(Hold::Copy { rep, kind })
-    }
-
     /// Records a decision and updates everything it changes: the statuses
     /// of its star and, when it is in an active signal group, of every star
     /// with a member of the group, whose standing (its representative, or a
@@ -462,58 +421,6 @@ impl Live {
             && self.table == other.table
             && self.counts == other.counts
             && self.rejected == other.rejected
-    }
-
-    /// Counts of held-back candidates by cause, for "the cleaning held back
-    /// N": one pass over the catalogue. A candidate with several blocking
-    /// flags counts under each.
-    pub fn held_summary(&self) -> Vec<(String, usize)> {
-        let mut copies = 0;
-        let mut group_out = 0;
-        let mut by_flag: std::collections::BTreeMap<&'static str, usize> = Default::default();
-        for c in 0..self.status.len() as CandidateId {
-            match self.hold(c) {
-                Some(Hold::Flags(f)) => f
-                    .iter()
-                    .for_each(|f| *by_flag.entry(f.name()).or_default() += 1),
-                Some(Hold::Copy { .. }) => copies += 1,
-                Some(Hold::GroupRejected { .. } | Hold::GroupHeld { .. }) => group_out += 1,
-                None => {}
-            }
-        }
-        let mut out = Vec::new();
-        if copies > 0 {
-            out.push((
-                "copies of another signal (near-twin, harmonic, half-phase)".to_string(),
-                copies,
-            ));
-        }
-        if group_out > 0 {
-            out.push((
-                "one signal with a rejected or held-back candidate".to_string(),
-                group_out,
-            ));
-        }
-        out.extend(by_flag.into_iter().map(|(f, n)| (format!("flag {f}"), n)));
-        out
-    }
-
-    /// One line: "N held back: a (cause), b (cause)…", or `None`.
-    pub fn held_line(&self) -> Option<String> {
-        let n = self.held_count();
-        if n == 0 {
-            return None;
-        }
-        let parts: Vec<String> = self
-            .held_summary()
-            .into_iter()
-            .map(|(what, k)| format!("{k} {what}"))
-            .collect();
-        Some(format!(
-            "{n} candidate{} held back from the count (not rejected, never validated): {}",
-            if n == 1 { "" } else { "s" },
-            parts.join("; ")
-        ))
     }
 
     /// Blocking flags that hold a candidate back on their own (the group
