@@ -18,9 +18,10 @@ pub enum Flag {
     LowSnr,
     HalfPhase,
     NotRecovered,
+    MixedHost,
 }
 
-pub const ALL_FLAGS: [Flag; 12] = [
+pub const ALL_FLAGS: [Flag; 13] = [
     Flag::BigRadius,
     Flag::OddEven,
     Flag::Secondary,
@@ -33,6 +34,7 @@ pub const ALL_FLAGS: [Flag; 12] = [
     Flag::LowSnr,
     Flag::HalfPhase,
     Flag::NotRecovered,
+    Flag::MixedHost,
 ];
 
 impl Flag {
@@ -50,6 +52,7 @@ impl Flag {
             Flag::LowSnr => "low-snr",
             Flag::HalfPhase => "half-phase",
             Flag::NotRecovered => "not-recovered",
+            Flag::MixedHost => "mixed-host",
         }
     }
 
@@ -92,6 +95,7 @@ impl FlagSet {
             Flag::HalfPhase,
             Flag::DensityMismatch,
             Flag::NotRecovered,
+            Flag::MixedHost,
         ]
         .into_iter()
         .collect()
@@ -202,7 +206,7 @@ mod tests {
         assert!(!b.contains(Flag::VShape));
         assert_eq!(
             b.joined(";"),
-            "big-radius;odd-even;secondary;density-mismatch;near-twin;harmonic;crowded;echo;low-snr;half-phase;not-recovered"
+            "big-radius;odd-even;secondary;density-mismatch;near-twin;harmonic;crowded;echo;low-snr;half-phase;not-recovered;mixed-host"
         );
         assert_eq!(
             FlagSet::parse_list("echo, low-snr").unwrap().joined(","),

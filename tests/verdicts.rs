@@ -407,3 +407,69 @@ BR,BR-2,11.3,0.00001,101.0,0.001,90000,3.6,300,0.3,1,1,5772\n",
     assert!(r.contains("Held back by the cleaning"), "{r}");
     assert!(r.contains("| EB | EB-2 |"), "{r}");
 }
+
+#[test]
+fn a_host_id_shared_by_stars_all_over_the_sky_validates_none_of_them() {
+    // An archive that writes one placeholder (`0`) for every unknown host:
+    // 300 signals of stars all over the sky under one id, beside 2,000
+    // ordinary stars. Counted as one star they would make a system of
+    // hundreds and be validated by its boost; their positions say they are
+    // not one star, and none may be validated (docs/science.md §3.4).
+    let d = scratch("placeholder-host");
+    let mut text =
+        String::from("star,candidate,period_d,epoch,depth_ppm,duration_h,ra_deg,dec_deg\n");
+    // A small deterministic generator (Knuth's MMIX LCG constants, from memory).
+    let mut x: u64 = 7;
+    let mut next = move || {
+        x = x
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
+        (x >> 11) as f64 / (1u64 << 53) as f64
+    };
+    for s in 0..2000 {
+        let (ra, dec) = (next() * 360.0, next() * 120.0 - 60.0);
+        let k = if s % 5 == 0 { 2 } else { 1 };
+        for j in 0..k {
+            let p = 1.0 + next() * 49.0;
+            text.push_str(&format!(
+                "S{s},S{s}-{j},{p:.5},{:.4},{:.1},3.0,{ra:.5},{dec:.5}\n",
+                next() * 10.0,
+                200.0 + next() * 1500.0
+            ));
+        }
+    }
+    for j in 0..300 {
+        let p = 1.0 + next() * 49.0;
+        let (ra, dec) = (next() * 360.0, next() * 120.0 - 60.0);
+        text.push_str(&format!(
+            "0,X{j},{p:.5},{:.4},{:.1},3.0,{ra:.5},{dec:.5}\n",
+            next() * 10.0,
+            200.0 + next() * 1500.0
+        ));
+    }
+    let file = d.join("placeholder.csv");
+    std::fs::write(&file, text).unwrap();
+    let o = starsift(&[
+        "odds",
+        file.to_str().unwrap(),
+        "--no-lightcurves",
+        "--targets",
+        "100000",
+        "--format",
+        "csv",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let out = stdout(&o);
+    let rows: Vec<Vec<&str>> = out
+        .lines()
+        .skip(1)
+        .map(|l| l.split(',').collect())
+        .collect();
+    let placeholder: Vec<&Vec<&str>> = rows.iter().filter(|r| r[0] == "0").collect();
+    assert_eq!(placeholder.len(), 300);
+    for r in &placeholder {
+        assert_ne!(r[7], "validated", "{r:?}");
+        assert!(r[9].contains("mixed-host"), "{r:?}");
+        assert_eq!(r[10], "no", "held back, not counted: {r:?}");
+    }
+}

@@ -11,6 +11,12 @@ use std::collections::HashMap;
 use super::CheckSettings;
 use crate::catalogue::{CandidateId, Catalogue, Field};
 
+/// Whether (ra, dec) in degrees is a real position: finite, and a
+/// declination within ±90°.
+pub(super) fn real_position(ra: f64, dec: f64) -> bool {
+    ra.is_finite() && dec.abs() <= 90.0
+}
+
 /// Angular distance, arcsec, by the haversine formula.
 pub fn separation_arcsec(ra1: f64, dec1: f64, ra2: f64, dec2: f64) -> f64 {
     let (d1, d2) = (dec1.to_radians(), dec2.to_radians());

@@ -225,6 +225,8 @@ pub(super) fn check(
             }
         }
     }
+    one_place(cat, members, s, out);
+
     // Adjacent pairs and trios: Hill spacing with masses from radii.
     let star_mass = v(Field::StarMassMsun, m[0].c);
     let radius = |c: CandidateId| {
@@ -337,5 +339,43 @@ pub(super) fn check(
                 }
             }
         }
+    }
+}
+
+/// One star, one place (docs/science.md §3.4). The rows of a star give its
+/// position; rows farther apart than the echo radius (the distance at which
+/// the checks take a signal to be on another star) are not one star, but
+/// several under one host id, such as a placeholder for unknown hosts.
+/// Which rows are the star is unknown, so every member is flagged
+/// `mixed-host`: signals of several stars must not make one system.
+fn one_place(cat: &Catalogue, members: &[CandidateId], s: &CheckSettings, out: &mut Checks) {
+    let (Some(ra), Some(dec)) = (cat.column(Field::RaDeg), cat.column(Field::DecDeg)) else {
+        return;
+    };
+    let mut placed = members.iter().filter_map(|&c| {
+        let (r, d) = (ra[c as usize], dec[c as usize]);
+        super::echo::real_position(r, d).then_some((c, r, d))
+    });
+    let Some((first, ra0, dec0)) = placed.next() else {
+        return;
+    };
+    let farthest = placed
+        .map(|(c, r, d)| (c, super::echo::separation_arcsec(ra0, dec0, r, d)))
+        .max_by(|a, b| a.1.total_cmp(&b.1));
+    let Some((other, apart)) = farthest.filter(|f| f.1 > s.echo_radius_arcsec) else {
+        return;
+    };
+    let why = format!(
+        "the rows of star {} lie {apart:.0}″ apart ({} and {}), farther than the echo radius \
+         ({}″) at which the checks take a signal to be on another star: not one star but \
+         several under one id (a placeholder for unknown hosts?), so none of them counts \
+         towards a system",
+        cat.star_id(cat.star_of(first)),
+        cat.candidate_id(first),
+        cat.candidate_id(other),
+        s.echo_radius_arcsec
+    );
+    for &c in members {
+        out.add(c, Flag::MixedHost, false, why.clone());
     }
 }

@@ -398,3 +398,62 @@ fn a_run_counts_its_work_to_the_whole() {
         }
     }
 }
+
+#[test]
+fn rows_of_one_star_far_apart_are_not_one_star() {
+    // Two planets of one host share its position; rows of one id 1° apart
+    // (a placeholder for unknown hosts, say) are several stars. Periods far
+    // apart, so no other check of the pair fires.
+    let row = |star: &str, n: u32, p: f64, ra: f64, dec: f64| {
+        format!("{star},{star}-{n},{p},0.00001,100.0,0.001,500,2.5,30,0.3,1,1,5772,{ra},{dec},11\n")
+    };
+    let text = [
+        HEAD.to_string(),
+        row("ONE", 1, 3.1, 50.0, -15.0),
+        row("ONE", 2, 11.7, 50.0, -15.0),
+        row("NEAR", 1, 3.1, 80.0, 10.0),
+        // 100″ north: within the echo radius (120″), still one place.
+        row("NEAR", 2, 11.7, 80.0, 10.0 + 100.0 / 3600.0),
+        row("APART", 1, 3.1, 120.0, 30.0),
+        row("APART", 2, 11.7, 121.0, 30.0),
+        row("APART", 3, 25.3, f64::NAN, f64::NAN),
+        // Only one row with a position: nothing to compare.
+        row("HALF", 1, 3.1, 200.0, 5.0),
+        row("HALF", 2, 11.7, f64::NAN, f64::NAN),
+    ]
+    .concat();
+    let c = load(&text);
+    let ch = run(&c, &CheckSettings::default());
+    let mixed = |id: &str| {
+        ch.flags(c.find_candidate(id).unwrap())
+            .contains(Flag::MixedHost)
+    };
+    for id in ["ONE-1", "ONE-2", "NEAR-1", "NEAR-2", "HALF-1", "HALF-2"] {
+        assert!(
+            !mixed(id),
+            "{id}: {}",
+            ch.why(c.find_candidate(id).unwrap())
+        );
+    }
+    // 1° of right ascension at dec 30° is cos 30° × 3600″ = 3118″ (from
+    // the haversine formula); every member is held, the one without a
+    // position too.
+    for id in ["APART-1", "APART-2", "APART-3"] {
+        assert!(mixed(id), "{id}");
+    }
+    let why = ch.why(c.find_candidate("APART-3").unwrap());
+    assert!(
+        why.contains("lie 3118″ apart (APART-1 and APART-2)"),
+        "{why}"
+    );
+    // A smaller echo radius narrows "one place" with it.
+    let tight = CheckSettings {
+        echo_radius_arcsec: 60.0,
+        ..CheckSettings::default()
+    };
+    let ch = run(&c, &tight);
+    assert!(
+        ch.flags(c.find_candidate("NEAR-2").unwrap())
+            .contains(Flag::MixedHost)
+    );
+}

@@ -46,7 +46,7 @@ pub(super) struct Swept {
 /// Whether a signal has a real position: the bands hold these, and the
 /// comparison's declination test applies only to them.
 pub(super) fn placed(s: &Sig) -> bool {
-    s.ra.is_finite() && s.dec.abs() <= 90.0
+    super::real_position(s.ra, s.dec)
 }
 
 impl Index {
