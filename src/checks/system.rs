@@ -5,6 +5,18 @@ use super::{CheckSettings, Checks};
 use crate::catalogue::{CandidateId, Catalogue, Field};
 use crate::flags::Flag;
 use crate::science;
+use crate::transit_model::DEFAULT_LD;
+
+/// The smallest main-sequence star, for the Hill test of candidates whose
+/// star's radius is unknown (docs/science.md §3.2): about the
+/// hydrogen-burning limit, near 0.08 M☉ with a radius near 0.1 R☉ (from
+/// memory); 0.1 R☉ and 0.1 M☉ are taken. Down the main sequence of small
+/// stars radius and mass fall together (R ≈ M in solar units, from memory)
+/// while the mass of a rocky planet of given depth falls as R★³, so the
+/// smallest star gives the smallest planet-to-star mass ratio, the
+/// smallest Hill spheres, and the fewest unstable pairs.
+pub const SMALLEST_STAR_RSUN: f64 = 0.1;
+pub const SMALLEST_STAR_MSUN: f64 = 0.1;
 
 /// Relative uncertainty of a period ratio r = P₂/P₁:
 /// σ_r = r √((σ₁/P₁)² + (σ₂/P₂)²) (docs/science.md §3); `None` without errors.
@@ -227,23 +239,44 @@ pub(super) fn check(
     }
     one_place(cat, members, s, out);
 
-    // Adjacent pairs and trios: Hill spacing with masses from radii.
+    // Adjacent pairs and trios: Hill spacing with masses from radii. A
+    // candidate without a radius (its star's is unknown) is given the one
+    // its depth implies around the smallest main-sequence star (§3.2): the
+    // smallest planet it can be, so that a pair is flagged only if no host
+    // could keep both.
     let star_mass = v(Field::StarMassMsun, m[0].c);
+    let depths = col(Field::DepthPpm);
     let radius = |c: CandidateId| {
         let r = derived.radius_rearth[c as usize];
-        r.is_finite().then_some(r)
-    };
-    let mass_star = star_mass.unwrap_or(1.0);
-    let assumed = if star_mass.is_none() {
-        " (1 M☉ assumed)"
-    } else {
-        ""
+        if r.is_finite() {
+            return Some((r, false));
+        }
+        let k = science::ror_from_depth(at(depths, c), 0.0, 0.0, DEFAULT_LD);
+        let smallest = science::radius_rearth(k, SMALLEST_STAR_RSUN);
+        (smallest.is_finite() && smallest > 0.0).then_some((smallest, true))
     };
     for i in 0..m.len().saturating_sub(1) {
         let (a, b) = (m[i].c, m[i + 1].c);
         let (period_a, period_b) = (m[i].period, m[i + 1].period);
         let delta = match (radius(a), radius(b)) {
-            (Some(ra), Some(rb)) => {
+            (Some((ra, least_a)), Some((rb, least_b))) => {
+                let least = least_a || least_b;
+                let (mass_star, assumed) = match (star_mass, least) {
+                    (Some(mass), false) => (mass, String::new()),
+                    (None, false) => (1.0, " (1 M☉ assumed)".to_string()),
+                    (given, true) => (
+                        given.unwrap_or(SMALLEST_STAR_MSUN),
+                        format!(
+                            "; the star's radius unknown, the smallest main-sequence star assumed \
+                             ({SMALLEST_STAR_RSUN} R☉{}), which makes the planets smallest",
+                            if given.is_none() {
+                                format!(", {SMALLEST_STAR_MSUN} M☉")
+                            } else {
+                                String::new()
+                            }
+                        ),
+                    ),
+                };
                 let (ma, mb) = (
                     science::mass_from_radius_mearth(ra),
                     science::mass_from_radius_mearth(rb),

@@ -457,3 +457,37 @@ fn rows_of_one_star_far_apart_are_not_one_star() {
             .contains(Flag::MixedHost)
     );
 }
+
+#[test]
+fn pairs_no_host_could_keep_are_crowded_even_where_the_star_is_unknown() {
+    // No stellar radius or mass: each planet is taken as small as its depth
+    // allows, around the smallest main-sequence star (0.1 R☉, 0.1 M☉). Two
+    // 1000 ppm planets there are about 0.34 R⊕ and 0.027 M⊕ (Weiss &
+    // Marcy 2014), Hill-unstable (2√3 mutual Hill radii, Gladman 1993) below
+    // a period ratio of about 1.04 (computed offline in Python from those
+    // two formulas, uniform disc).
+    let text = "star,candidate,period_d,epoch,depth_ppm,duration_h\n\
+                TIGHT,TIGHT-1,10.0,100.0,1000,2.5\nTIGHT,TIGHT-2,10.2,100.3,1000,2.5\n\
+                WIDE,WIDE-1,10.0,100.0,1000,2.5\nWIDE,WIDE-2,10.6,100.3,1000,2.5\n";
+    let c = load(text);
+    let ch = run(&c, &CheckSettings::default());
+    let crowded = |id: &str| {
+        ch.flags(c.find_candidate(id).unwrap())
+            .contains(Flag::Crowded)
+    };
+    for id in ["TIGHT-1", "TIGHT-2"] {
+        assert!(crowded(id), "{id}");
+    }
+    let why = ch.why(c.find_candidate("TIGHT-1").unwrap());
+    assert!(
+        why.contains("the smallest main-sequence star assumed (0.1 R☉, 0.1 M☉)"),
+        "{why}"
+    );
+    for id in ["WIDE-1", "WIDE-2"] {
+        assert!(
+            !crowded(id),
+            "{id}: {}",
+            ch.why(c.find_candidate(id).unwrap())
+        );
+    }
+}
