@@ -83,27 +83,11 @@ pub fn odds_with(
 }
 
 impl Session {
-    /// The catalogue's fingerprint as it is now, for provenance: the load's
-    /// own, else the one the ledger this session read recorded for the
-    /// file's stamp, else read from the file.
+    /// The catalogue's fingerprint as it is now, for provenance
+    /// (`Loaded::fingerprint_now`, with the ledger this session read).
     pub fn catalogue_fingerprint(&self) -> std::io::Result<String> {
-        if let Some(fp) = &self.loaded.fingerprint {
-            return Ok(fp.clone());
-        }
-        let Some(path) = &self.loaded.path else {
-            return Ok(crate::ledger::fingerprint(
-                crate::demo::CATALOGUE_CSV.as_bytes(),
-            ));
-        };
-        let recorded = |ledger: &String| {
-            let stamp = crate::fingerprint::file_stamp(path)?;
-            let source = path.display().to_string();
-            crate::ledger::recorded_fingerprint(std::path::Path::new(ledger), &source, &stamp)
-        };
-        match self.ledger_path.as_ref().and_then(recorded) {
-            Some(fp) => Ok(fp),
-            None => crate::ledger::fingerprint_file(path),
-        }
+        let ledger = self.ledger_path.as_deref().map(std::path::Path::new);
+        self.loaded.fingerprint_now(ledger)
     }
 
     /// Loads the catalogue, runs every check (light curves included unless

@@ -178,7 +178,7 @@ impl LedgerArgs {
         input: &CatalogueArgs,
         loaded: &Loaded,
     ) -> Result<(crate::ledger::Ledger, Vec<String>), CliError> {
-        let (default, fp) = default_ledger(input, loaded.fingerprint.as_deref())?;
+        let (default, fp) = default_ledger(input, loaded)?;
         let path = self.ledger.clone().unwrap_or(default);
         if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
             std::fs::create_dir_all(dir).map_err(|e| {
@@ -216,15 +216,8 @@ fn default_ledger_path(input: &CatalogueArgs) -> PathBuf {
 
 /// The default ledger of a catalogue (beside it, or in the data folder) and
 /// the catalogue's fingerprint.
-fn default_ledger(
-    input: &CatalogueArgs,
-    known: Option<&str>,
-) -> Result<(PathBuf, String), CliError> {
-    let fp = match (known, &input.catalogue) {
-        (Some(fp), _) => fp.to_string(),
-        (None, Some(p)) => crate::ledger::fingerprint_file(p)?,
-        (None, None) => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
-    };
+fn default_ledger(input: &CatalogueArgs, loaded: &Loaded) -> Result<(PathBuf, String), CliError> {
+    let fp = loaded.fingerprint_now(None)?;
     Ok((
         crate::ledger::default_path(input.catalogue.as_deref(), &fp),
         fp,
@@ -359,6 +352,28 @@ pub struct Loaded {
 }
 
 impl Loaded {
+    /// The catalogue's fingerprint as it is now: the load's own (the demo's
+    /// always), else the one `ledger` recorded for the file's stamp
+    /// (`crate::ledger::recorded_fingerprint`), else read from the file.
+    pub fn fingerprint_now(&self, ledger: Option<&Path>) -> std::io::Result<String> {
+        if let Some(fp) = &self.fingerprint {
+            return Ok(fp.clone());
+        }
+        let Some(path) = &self.path else {
+            return Ok(crate::ledger::fingerprint(
+                crate::demo::CATALOGUE_CSV.as_bytes(),
+            ));
+        };
+        let recorded = |ledger: &Path| {
+            let stamp = crate::fingerprint::file_stamp(path)?;
+            crate::ledger::recorded_fingerprint(ledger, &path.display().to_string(), &stamp)
+        };
+        match ledger.and_then(recorded) {
+            Some(fp) => Ok(fp),
+            None => crate::ledger::fingerprint_file(path),
+        }
+    }
+
     /// A candidate by id, or an error naming the catalogue.
     pub fn candidate(&self, id: &str) -> Result<crate::catalogue::CandidateId, CliError> {
         self.catalogue.find_candidate(id).ok_or_else(|| {
@@ -656,15 +671,13 @@ impl CatalogueArgs {
             ..opts
         };
         let mut loaded = self.load_with(opts)?;
+        // Changed while it was read: the recorded fingerprint is of the file
+        // before, and is left out (the ledger reads the file for its own).
         if stamp.is_some() && stamp_now() == stamp {
             if known.is_some() {
                 loaded.fingerprint = known;
             }
             loaded.stamp = stamp;
-        } else if known.is_some() {
-            // Changed while it was read: the recorded fingerprint is of the
-            // file before; the ledger reads the file again for its own.
-            loaded.fingerprint = None;
         }
         Ok(loaded)
     }
