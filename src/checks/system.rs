@@ -261,21 +261,10 @@ pub(super) fn check(
         let delta = match (radius(a), radius(b)) {
             (Some((ra, least_a)), Some((rb, least_b))) => {
                 let least = least_a || least_b;
-                let (mass_star, assumed) = match (star_mass, least) {
-                    (Some(mass), false) => (mass, String::new()),
-                    (None, false) => (1.0, " (1 M☉ assumed)".to_string()),
-                    (given, true) => (
-                        given.unwrap_or(SMALLEST_STAR_MSUN),
-                        format!(
-                            "; the star's radius unknown, the smallest main-sequence star assumed \
-                             ({SMALLEST_STAR_RSUN} R☉{}), which makes the planets smallest",
-                            if given.is_none() {
-                                format!(", {SMALLEST_STAR_MSUN} M☉")
-                            } else {
-                                String::new()
-                            }
-                        ),
-                    ),
+                let mass_star = match (star_mass, least) {
+                    (Some(mass), _) => mass,
+                    (None, false) => 1.0,
+                    (None, true) => SMALLEST_STAR_MSUN,
                 };
                 let (ma, mb) = (
                     science::mass_from_radius_mearth(ra),
@@ -285,9 +274,27 @@ pub(super) fn check(
                 // Two candidates of one signal group are one signal, not two
                 // orbits.
                 if d < science::HILL_CRITICAL && !joined.same(i, i + 1) {
+                    // What was assumed, said only where a pair is flagged.
+                    let (digits, assumed) = match (star_mass, least) {
+                        (Some(_), false) => (1, String::new()),
+                        (None, false) => (1, " (1 M☉ assumed)".to_string()),
+                        (given, true) => (
+                            3,
+                            format!(
+                                "; the star's radius unknown, the smallest main-sequence star \
+                                 assumed ({SMALLEST_STAR_RSUN} R☉{}), which makes the planets \
+                                 smallest",
+                                if given.is_none() {
+                                    format!(", {SMALLEST_STAR_MSUN} M☉")
+                                } else {
+                                    String::new()
+                                }
+                            ),
+                        ),
+                    };
                     for (x, y) in [(a, b), (b, a)] {
                         out.add(x, Flag::Crowded, false, format!(
-                            "{d:.2} mutual Hill radii from {} (< 2√3 = 3.46; masses {ma:.1} and {mb:.1} M⊕ from Weiss & Marcy 2014{assumed}): both cannot orbit this star stably",
+                            "{d:.2} mutual Hill radii from {} (< 2√3 = 3.46; masses {ma:.digits$} and {mb:.digits$} M⊕ from Weiss & Marcy 2014{assumed}): both cannot orbit this star stably",
                             id(y)
                         ));
                     }
