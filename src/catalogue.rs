@@ -203,6 +203,7 @@ impl Catalogue {
     pub fn has(&self, field: Field) -> bool {
         match field {
             Field::Lightcurve => self.lightcurve.is_some(),
+            Field::Disposition => !self.disposition_columns().is_empty(),
             Field::Star | Field::Candidate => true,
             f => self.column(f).is_some(),
         }
@@ -220,6 +221,26 @@ impl Catalogue {
 
     pub fn extra(&self, i: usize, c: CandidateId) -> &str {
         self.extras[i].1.get(c as usize)
+    }
+
+    /// The extra columns that give a disposition, as indices for
+    /// [`Catalogue::extra`]: the one mapped to `disposition` and any other
+    /// whose header is one of its synonyms (an archive table may carry two,
+    /// its own and its pipeline's).
+    pub fn disposition_columns(&self) -> Vec<usize> {
+        let mapped = self
+            .columns
+            .iter()
+            .find(|u| u.field == Field::Disposition.name())
+            .map(|u| u.header.as_str());
+        self.extras
+            .iter()
+            .enumerate()
+            .filter(|(_, (h, _))| {
+                Some(h.as_str()) == mapped || Field::from_header(h) == Some(Field::Disposition)
+            })
+            .map(|(i, _)| i)
+            .collect()
     }
 
     pub fn find_candidate(&self, id: &str) -> Option<CandidateId> {

@@ -7,6 +7,7 @@
 
 mod echo;
 mod groups;
+pub mod known;
 mod progress;
 mod system;
 
@@ -321,6 +322,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
             }
         }
         progress.add(n % progress::STEP);
+        known::flag(cat, &mut checks);
         let derived = system::PerCandidate {
             density_transit: &density_transit,
             radius_rearth: &radius,

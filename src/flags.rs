@@ -19,9 +19,10 @@ pub enum Flag {
     HalfPhase,
     NotRecovered,
     MixedHost,
+    KnownFp,
 }
 
-pub const ALL_FLAGS: [Flag; 13] = [
+pub const ALL_FLAGS: [Flag; 14] = [
     Flag::BigRadius,
     Flag::OddEven,
     Flag::Secondary,
@@ -35,6 +36,7 @@ pub const ALL_FLAGS: [Flag; 13] = [
     Flag::HalfPhase,
     Flag::NotRecovered,
     Flag::MixedHost,
+    Flag::KnownFp,
 ];
 
 impl Flag {
@@ -53,6 +55,7 @@ impl Flag {
             Flag::HalfPhase => "half-phase",
             Flag::NotRecovered => "not-recovered",
             Flag::MixedHost => "mixed-host",
+            Flag::KnownFp => "known-fp",
         }
     }
 
@@ -96,9 +99,24 @@ impl FlagSet {
             Flag::DensityMismatch,
             Flag::NotRecovered,
             Flag::MixedHost,
+            Flag::KnownFp,
         ]
         .into_iter()
         .collect()
+    }
+
+    /// The flags that name a candidate a false positive of its own star
+    /// beyond doubt, not a copy, not noise and not a test's chance
+    /// excursion (docs/science.md §1.1): known from the catalogue, an
+    /// eclipse deeper than any planet's occultation, a body larger than any
+    /// planet. A star with one is a star known to host a false positive,
+    /// and its other candidates are held back. `odd-even` (a depth
+    /// difference at 3σ, which real planets reach by chance) and `echo`
+    /// (another star's light) hold back only the candidate itself.
+    pub fn false_positive_signs() -> FlagSet {
+        [Flag::KnownFp, Flag::Secondary, Flag::BigRadius]
+            .into_iter()
+            .collect()
     }
 
     /// The flags that mark a candidate as a copy of another signal of its
@@ -206,7 +224,7 @@ mod tests {
         assert!(!b.contains(Flag::VShape));
         assert_eq!(
             b.joined(";"),
-            "big-radius;odd-even;secondary;density-mismatch;near-twin;harmonic;crowded;echo;low-snr;half-phase;not-recovered;mixed-host"
+            "big-radius;odd-even;secondary;density-mismatch;near-twin;harmonic;crowded;echo;low-snr;half-phase;not-recovered;mixed-host;known-fp"
         );
         assert_eq!(
             FlagSet::parse_list("echo, low-snr").unwrap().joined(","),

@@ -619,6 +619,13 @@ pub fn hold_text(
         Some(Hold::GroupHeld { rep }) => {
             format!("one signal with {}, which is held back", id(rep))
         }
+        Some(Hold::Sibling { fp, reason, flags }) => {
+            let why = match reason {
+                Some(r) => format!("rejected as {}", r.name()),
+                None => format!("flagged {}", flags.joined(", ")),
+            };
+            format!("its star hosts a known false positive: {}, {why}", id(fp))
+        }
     }
 }
 

@@ -68,6 +68,11 @@ fn export_rows(cat: &Path, extra: &[&str]) -> Vec<csv::StringRecord> {
 
 /// `starsift decide`: candidate `id` rejected as an eclipsing binary.
 fn reject_as_binary(cat: &Path, id: &str, extra: &[&str]) -> std::process::Output {
+    reject_as(cat, id, "eclipsing-binary", extra)
+}
+
+/// `starsift decide`: candidate `id` rejected for `reason`.
+fn reject_as(cat: &Path, id: &str, reason: &str, extra: &[&str]) -> std::process::Output {
     let mut args = vec![
         "decide",
         s(cat),
@@ -76,7 +81,7 @@ fn reject_as_binary(cat: &Path, id: &str, extra: &[&str]) -> std::process::Outpu
         "--decision",
         "rejected",
         "--reason",
-        "eclipsing-binary",
+        reason,
     ];
     args.extend_from_slice(extra);
     starsift(&args)
@@ -94,7 +99,9 @@ fn rejecting_one_of_three_gives_the_siblings_two_candidate_odds() {
     let two = system_of(2);
     let before = export_rows(&cat, &[]);
     let odds3 = column(&before, &three[1], "odds");
-    let o = reject_as_binary(&cat, &three[0], &["--vetter", "ann"]);
+    // Rejected as an artefact (instrumental: nothing of the star), the
+    // siblings count on, one k lower.
+    let o = reject_as(&cat, &three[0], "artefact", &["--vetter", "ann"]);
     assert!(o.status.success(), "{}", stderr(&o));
     assert!(stdout(&o).contains("recorded #1"), "{}", stdout(&o));
     // Only the ids were read: the star's members are named, not judged.
@@ -104,7 +111,7 @@ fn rejecting_one_of_three_gives_the_siblings_two_candidate_odds() {
     assert!(stdout(&o).contains("--verdicts") && !stdout(&o).contains("(k="));
     let after = export_rows(&cat, &[]);
     assert_eq!(column(&after, &three[0], "verdict"), "rejected");
-    assert_eq!(column(&after, &three[0], "reason"), "eclipsing-binary");
+    assert_eq!(column(&after, &three[0], "reason"), "artefact");
     assert_eq!(column(&after, &three[0], "vetter"), "ann");
     for sib in &three[1..] {
         assert_eq!(column(&after, sib, "k"), "2");
@@ -121,8 +128,7 @@ fn rejecting_one_of_three_gives_the_siblings_two_candidate_odds() {
     let o = starsift(&["report", s(&cat)]);
     let r = stdout(&o);
     assert!(
-        r.contains("## Rejections by reason")
-            && r.contains(&format!("eclipsing-binary (1): {}", three[0])),
+        r.contains("## Rejections by reason") && r.contains(&format!("artefact (1): {}", three[0])),
         "{r}"
     );
     assert!(r.contains("Statistical validation is not confirmation"));
@@ -151,13 +157,24 @@ fn rejecting_one_of_three_gives_the_siblings_two_candidate_odds() {
         .unwrap();
     assert_eq!(row["decision"], "rejected");
     assert_eq!(row["k"], 0);
+    // Rejected as an eclipsing binary instead (the later decision stands),
+    // it makes its star one known to host a false positive: the siblings
+    // are held back, never validated (docs/science.md §1.1).
+    let o = reject_as_binary(&cat, &three[0], &["--vetter", "ann"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let after = export_rows(&cat, &[]);
+    for sib in &three[1..] {
+        assert_eq!(column(&after, sib, "k"), "0");
+        assert_eq!(column(&after, sib, "counted"), "no");
+        assert_ne!(column(&after, sib, "verdict"), "validated");
+    }
 }
 
 #[test]
 fn decide_with_verdicts_prints_the_star_after_the_decision() {
     let (_, cat) = demo_copy("verdicts");
     let two = system_of(2);
-    let o = reject_as_binary(&cat, &two[0], &["--verdicts"]);
+    let o = reject_as(&cat, &two[0], "artefact", &["--verdicts"]);
     assert!(o.status.success(), "{}", stderr(&o));
     let out = stdout(&o);
     // The rejected one, then its sibling now alone on its star (k = 1).
@@ -500,7 +517,7 @@ fn a_catalogue_the_ledger_has_seen_is_known_by_its_stamp_and_an_edit_still_notic
 fn export_where_keeps_the_matching_rows_and_the_whole_catalogues_odds() {
     let (_, cat) = demo_copy("where");
     let three = system_of(3);
-    let o = reject_as_binary(&cat, &three[0], &[]);
+    let o = reject_as(&cat, &three[0], "artefact", &[]);
     assert!(o.status.success(), "{}", stderr(&o));
     let all = export_rows(&cat, &[]);
     let rejected = export_rows(&cat, &["--where", "decision:rejected"]);
@@ -813,5 +830,7 @@ fn decide_from_a_file_checks_every_row_then_writes_them_together() {
     assert_eq!(h[0].note.as_deref(), Some("secondary, deep"));
     let rows = export_rows(&cat, &["--ledger", s(&ledger)]);
     assert_eq!(column(&rows, &three[0], "verdict"), "rejected");
-    assert_eq!(column(&rows, &three[1], "k"), "2");
+    // A star known to host an eclipsing binary: the siblings held back.
+    assert_eq!(column(&rows, &three[1], "k"), "0");
+    assert_eq!(column(&rows, &three[1], "verdict"), "likely");
 }

@@ -9,7 +9,7 @@ use proptest::prelude::*;
 use starsift::catalogue::{CandidateId, Catalogue};
 use starsift::decision::{Decision, Reason};
 use starsift::flags::{ALL_FLAGS, FlagSet};
-use starsift::odds::{ALL_VERDICTS, BoostMode, Live, Model, Verdict, VerdictCounts};
+use starsift::odds::{ALL_VERDICTS, BoostMode, Live, Model, Status, Verdict, VerdictCounts};
 
 /// An invented catalogue: `sizes[i]` candidates on star i, optional fpp.
 fn catalogue(sizes: &[usize], fpp: Option<&[f64]>) -> Catalogue {
@@ -210,9 +210,11 @@ fn rejecting_one_of_three_gives_siblings_the_two_candidate_odds() {
         .unwrap();
     let m = cat.members(star).to_vec();
     let before = live.odds(m[1]).unwrap();
-    let what_if = live.what_if_rejected(m[0]);
+    // Rejected as an artefact (not a false positive of the star: the
+    // siblings count on, one k lower).
+    let what_if = live.what_if_rejected(m[0], Reason::Artefact);
     assert_eq!(what_if.len(), 2);
-    live.set_decision(m[0], Decision::Rejected(Reason::EclipsingBinary));
+    live.set_decision(m[0], Decision::Rejected(Reason::Artefact));
     assert_eq!(live.k(m[1]), 2);
     let after = live.odds(m[1]).unwrap();
     assert!(after < before, "{after} < {before}");
@@ -231,6 +233,26 @@ fn rejecting_one_of_three_gives_siblings_the_two_candidate_odds() {
     assert_eq!(live.verdict(m[0]), Verdict::Rejected);
     assert_eq!(live.odds(m[0]), None);
     // Reopening restores everything.
+    live.set_decision(m[0], Decision::Open);
+    assert_eq!(live.odds(m[1]), Some(before));
+    // Rejected as an eclipsing binary, it makes its star one known to host
+    // a false positive: the siblings are held back at their prior odds
+    // (9:1 with f = 0.1), and the what-if says no sibling stays counted.
+    assert!(
+        live.what_if_rejected(m[0], Reason::EclipsingBinary)
+            .is_empty()
+    );
+    live.set_decision(m[0], Decision::Rejected(Reason::EclipsingBinary));
+    for &s in &m[1..] {
+        assert_eq!(live.status(s), Status::Held);
+        assert!((live.odds(s).unwrap() - 9.0).abs() < 1e-9);
+        assert_eq!(live.verdict(s), Verdict::Likely);
+        assert!(matches!(
+            live.hold(s),
+            Some(starsift::odds::Hold::Sibling { fp, reason: Some(Reason::EclipsingBinary), .. }) if fp == m[0]
+        ));
+    }
+    assert!(live.same_odds_state(&live.rebuilt(&cat).unwrap()));
     live.set_decision(m[0], Decision::Open);
     assert_eq!(live.odds(m[1]), Some(before));
 }

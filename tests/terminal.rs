@@ -160,10 +160,12 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
         .next()
         .unwrap()
         .to_string();
+    // Rejected as an artefact (the third reason: nothing of the star), the
+    // siblings count on; as a binary they would be held back.
     keys(&session, &["x"]);
     wait_for(&session, ": why?");
-    keys(&session, &["Enter"]);
-    let after = wait_for(&session, "rejected (eclipsing-binary)");
+    keys(&session, &["Down", "Down", "Enter"]);
+    let after = wait_for(&session, "rejected (artefact)");
     assert!(
         after.contains(&predicted),
         "the siblings now show {predicted}:\n{after}"

@@ -6,46 +6,13 @@
 
 mod common;
 
-use common::{load_text as load, scratch, starsift, stderr, stdout};
+use common::{HEAD, background, load_text as load, scratch, starsift, stderr, stdout};
 use proptest::prelude::*;
 use starsift::catalogue::{CandidateId, Catalogue};
 use starsift::checks::{CheckSettings, SignalGroups};
 use starsift::decision::{Decision, Reason};
 use starsift::flags::{Flag, FlagSet};
 use starsift::odds::{Live, Model, Status, Verdict, parse_fp_fraction, table};
-
-const HEAD: &str = "star,candidate,period_d,period_err_d,epoch,epoch_err_d,depth_ppm,duration_h,snr,impact,star_radius_rsun,star_mass_msun,star_teff_k\n";
-
-/// Invented clean systems that give the model a histogram: 400 singles,
-/// 60 doubles, 20 triples (periods spread so no pair is an alias or
-/// unstable).
-fn background() -> String {
-    let mut t = String::new();
-    // Every star its own periods (no two stars share an ephemeris).
-    let mut n = 0;
-    let mut row = |s: &str, j: usize, p: f64| {
-        n += 1;
-        let p = p * (1.0 + 0.0007 * n as f64);
-        t.push_str(&format!(
-            "{s},{s}-{j},{p:.6},0.00001,100.{j},0.001,600,3.0,25,0.3,1,1,5772\n"
-        ));
-    };
-    for i in 0..400 {
-        row(&format!("BG1x{i}"), 1, 3.3);
-    }
-    for i in 0..60 {
-        let s = format!("BG2x{i}");
-        row(&s, 1, 3.3);
-        row(&s, 2, 7.9);
-    }
-    for i in 0..20 {
-        let s = format!("BG3x{i}");
-        row(&s, 1, 3.3);
-        row(&s, 2, 7.9);
-        row(&s, 3, 17.7);
-    }
-    t
-}
 
 fn model() -> Model {
     Model {
@@ -114,10 +81,13 @@ LS,LS-2,11.9,0.00001,101.3,0.001,90,3.6,5,0.3,1,1,5772\n",
     assert_eq!(live.status(id(&cat, "AL-1")), Status::Held);
     // The binary's primary and secondary are both held (`secondary`).
     assert_eq!(live.status(id(&cat, "EB-1")), Status::Held);
-    // A sibling of a stellar-size companion (90,000 ppm on a Sun: 33 R⊕)
-    // or of a noise detection (SNR 5) counts alone: odds of a single.
+    // A sibling of a noise detection (SNR 5) counts alone: odds of a
+    // single. A sibling of a stellar-size companion (90,000 ppm on a Sun:
+    // 33 R⊕) is on a star known to host a false positive: held back, at
+    // the same prior odds (docs/science.md §1.1).
+    assert_eq!(live.k(id(&cat, "LS-1")), 1);
+    assert_eq!(live.status(id(&cat, "BR-1")), Status::Held);
     for s in ["BR-1", "LS-1"] {
-        assert_eq!(live.k(id(&cat, s)), 1, "{s}");
         assert_eq!(v(s), Verdict::Likely, "{s}");
         assert!((live.odds(id(&cat, s)).unwrap() - 9.0).abs() < 1e-9);
     }
@@ -152,14 +122,19 @@ DU,DU-3,11.7,0.00001,101.0,0.001,520,3.8,22,0.3,1,1,5772\n",
     assert_eq!(live.status(d2), Status::Counted);
     assert_eq!(live.k(d3), 2);
     // Rejecting it for what it is (a binary): the signal is a false
-    // positive, so its copy is held too and DU-3 is a single.
+    // positive, so its copy is held too, and DU-3, on a star known to host
+    // a false positive, is held back at its prior odds (§1.1).
     live.set_decision(d1, Decision::Rejected(Reason::EclipsingBinary));
     assert_eq!(live.status(d2), Status::Held);
     assert!(matches!(
         live.hold(d2),
         Some(starsift::odds::Hold::GroupRejected { .. })
     ));
-    assert_eq!(live.k(d3), 1);
+    assert_eq!(live.status(d3), Status::Held);
+    assert!(matches!(
+        live.hold(d3),
+        Some(starsift::odds::Hold::Sibling { fp, reason: Some(Reason::EclipsingBinary), .. }) if fp == d1
+    ));
     assert_eq!(live.verdict(d3), Verdict::Likely);
     assert!(live.same_odds_state(&live.rebuilt(&cat).unwrap()));
 }
@@ -365,26 +340,7 @@ BR,BR-2,11.3,0.00001,101.0,0.001,90000,3.6,300,0.3,1,1,5772\n",
         "t",
     ]);
     assert!(o.status.success(), "{}", stderr(&o));
-    let verdicts = |args: &[&str]| -> std::collections::BTreeMap<String, (String, String)> {
-        let o = starsift(args);
-        assert!(o.status.success(), "{}", stderr(&o));
-        let text = stdout(&o);
-        let mut r = csv::ReaderBuilder::new()
-            .comment(Some(b'#'))
-            .from_reader(text.as_bytes());
-        let h = r.headers().unwrap().clone();
-        let col = |n: &str| h.iter().position(|x| x == n).unwrap();
-        let (ci, ki, vi) = (col("candidate"), col("k"), col("verdict"));
-        r.records()
-            .map(|rec| {
-                let rec = rec.unwrap();
-                (
-                    rec[ci].to_string(),
-                    (rec[ki].to_string(), rec[vi].to_string()),
-                )
-            })
-            .collect()
-    };
+    let verdicts = common::k_and_verdict;
     let odds = verdicts(&["odds", c, "--format", "csv"]);
     let export = verdicts(&["export", c, "--format", "csv"]);
     let checks = verdicts(&["checks", c, "--format", "csv"]);
@@ -397,9 +353,9 @@ BR,BR-2,11.3,0.00001,101.0,0.001,90000,3.6,300,0.3,1,1,5772\n",
         assert_eq!(odds[s].0, "0", "{s}");
         assert_ne!(odds[s].1, "validated", "{s}");
     }
-    for s in ["DU-1", "BR-1"] {
-        assert_eq!(odds[s], ("1".into(), "likely".into()), "{s}");
-    }
+    assert_eq!(odds["DU-1"], ("1".into(), "likely".into()));
+    // BR-1's star hosts a stellar-size companion: held back (§1.1).
+    assert_eq!(odds["BR-1"], ("0".into(), "likely".into()));
     // The report lists the held-back candidates and the browser's build
     // agrees (same Live from the same pieces: tested in the tui tests).
     let o = starsift(&["report", c]);

@@ -33,10 +33,13 @@ pub enum Field {
     PeriodErrD,
     EpochErrD,
     Contamination,
+    /// A disposition the catalogue already gives (text: `FALSE POSITIVE`,
+    /// `PC`...): kept as it is among the extra columns, read by the checks.
+    Disposition,
 }
 
 /// Every field, in the order summaries list them.
-pub const FIELDS: [Field; 21] = [
+pub const FIELDS: [Field; 22] = [
     Field::Star,
     Field::Candidate,
     Field::PeriodD,
@@ -58,6 +61,7 @@ pub const FIELDS: [Field; 21] = [
     Field::PeriodErrD,
     Field::EpochErrD,
     Field::Contamination,
+    Field::Disposition,
 ];
 
 /// The fields a row cannot do without.
@@ -117,6 +121,7 @@ impl Field {
             Field::PeriodErrD => "period_err_d",
             Field::EpochErrD => "epoch_err_d",
             Field::Contamination => "contamination",
+            Field::Disposition => "disposition",
         }
     }
 
@@ -226,6 +231,13 @@ impl Field {
                 "koi_time0bk_err1",
             ],
             Field::Contamination => &["contamination", "dilution"],
+            Field::Disposition => &[
+                "disposition",
+                "disp",
+                "koi_disposition",
+                "koi_pdisposition",
+                "tfopwg_disp",
+            ],
         }
     }
 
@@ -270,7 +282,7 @@ impl Field {
             Field::PeriodErrD => 15,
             Field::EpochErrD => 16,
             Field::Contamination => 17,
-            Field::Star | Field::Candidate | Field::Lightcurve => return None,
+            Field::Star | Field::Candidate | Field::Lightcurve | Field::Disposition => return None,
         })
     }
 
@@ -278,7 +290,7 @@ impl Field {
         FIELDS.iter().copied().find(|f| f.name() == name)
     }
 
-    fn from_header(header: &str) -> Option<Field> {
+    pub fn from_header(header: &str) -> Option<Field> {
         let h = header.trim().to_ascii_lowercase();
         FIELDS
             .iter()
@@ -461,6 +473,14 @@ impl Mapping {
                     extras.push((index, h.clone()));
                 }
                 None => extras.push((index, h.clone())),
+            }
+        }
+        // The disposition is read as text from the extra columns, where it
+        // stays as the file gave it.
+        if let Some(&index) = by_field.get(&Field::Disposition) {
+            if !extras.iter().any(|(i, _)| *i == index) {
+                extras.push((index, header[index].clone()));
+                extras.sort_unstable_by_key(|(i, _)| *i);
             }
         }
         for field in REQUIRED {

@@ -53,7 +53,8 @@ pub struct ModelArgs {
     /// Flags that hold a candidate back from the count and from `validated`
     /// (comma-separated) [default: big-radius, odd-even, secondary,
     /// density-mismatch, near-twin, harmonic, crowded, echo, low-snr,
-    /// half-phase, not-recovered, mixed-host].
+    /// half-phase, not-recovered, mixed-host,
+    /// known-fp].
     #[arg(long, value_name = "FLAGS")]
     pub blocking: Option<String>,
 }

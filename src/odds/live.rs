@@ -351,16 +351,22 @@ impl Live {
         self.replace_stars(&[self.star_of(c)]);
     }
 
-    /// The odds each counted sibling would have if `c` were rejected:
-    /// (sibling, its new k, its new odds). Empty if `c` is already rejected.
-    pub fn what_if_rejected(&self, c: CandidateId) -> Vec<(CandidateId, usize, f64)> {
+    /// The odds each counted sibling would have if `c` were rejected for
+    /// `reason`: (sibling, its new k, its new odds). Empty if `c` is already
+    /// rejected, or if the rejection would leave no sibling counted (one as
+    /// a false positive holds them back, §1.1).
+    pub fn what_if_rejected(
+        &self,
+        c: CandidateId,
+        reason: Reason,
+    ) -> Vec<(CandidateId, usize, f64)> {
         if self.status[c as usize] == Status::Rejected {
             return Vec::new();
         }
         let s = self.star_of(c);
         let after = self.statuses(s, |m| {
             if m == c {
-                Decision::Rejected(Reason::Duplicate)
+                Decision::Rejected(reason)
             } else {
                 self.decision[m as usize]
             }
@@ -429,6 +435,46 @@ impl Live {
         self.model.blocking.difference(FlagSet::group_flags())
     }
 
+    /// The flags that name a candidate an astrophysical false positive on
+    /// its star, among the blocking ones (docs/science.md §1.1): its
+    /// siblings are held back with it.
+    fn fp_signs(&self) -> FlagSet {
+        FlagSet::false_positive_signs().intersection(self.model.blocking)
+    }
+
+    /// Whether candidate c, under decision d, may be a known false positive
+    /// of its star: rejected as one, or flagged as one. A superset of
+    /// [`Live::known_fp_among`]'s answer (which also asks the group).
+    fn may_mark_fp(&self, c: CandidateId, d: Decision) -> bool {
+        d.reason().is_some_and(names_false_positive)
+            || self.flags[c as usize].intersects(self.fp_signs())
+    }
+
+    /// The first of `members` (one star's) that is a known false positive
+    /// under `decision`: rejected as one, or flagged as one while standing
+    /// for its signal. A copy's flags are not its own: an alias folded at
+    /// twice the period shows its own transit at phase 0.5, a `secondary`
+    /// that says nothing of the star.
+    fn known_fp_among(
+        &self,
+        members: &[CandidateId],
+        decision: impl Fn(CandidateId) -> Decision,
+    ) -> Option<CandidateId> {
+        members.iter().copied().find(|&m| {
+            let d = decision(m);
+            if d.reason().is_some_and(names_false_positive) {
+                return true;
+            }
+            if !self.flags[m as usize].intersects(self.fp_signs()) {
+                return false;
+            }
+            match self.active_group(m) {
+                Some(g) => self.group_standing(g, &decision).rep == Some(m),
+                None => true,
+            }
+        })
+    }
+
     /// The candidate's group, when its links are among the blocking flags.
     fn active_group(&self, c: CandidateId) -> Option<u32> {
         let g = self.groups.group_of(c)?;
@@ -446,13 +492,17 @@ impl Live {
     ) -> Vec<(CandidateId, Status)> {
         let own_blocking = self.own_blocking();
         let mut memo: HashMap<u32, GroupStanding> = HashMap::new();
-        self.index
-            .members(s)
+        let members = self.index.members(s);
+        let fp = self.known_fp_among(members, &decision);
+        members
             .iter()
             .map(|&c| {
                 let st = if decision(c).is_rejected() {
                     Status::Rejected
                 } else if self.flags[c as usize].intersects(own_blocking) {
+                    Status::Held
+                } else if fp.is_some_and(|m| m != c) {
+                    // A sibling of a known false positive (§1.1).
                     Status::Held
                 } else if let Some(g) = self.active_group(c) {
                     let standing = *memo
@@ -526,7 +576,11 @@ impl Live {
         let mut k_of = vec![0u32; index.star_count()];
         let mut grouped = vec![false; index.star_count()];
         for (c, &s) in index.star_of.iter().enumerate() {
-            if self.active_group(c as CandidateId).is_some() {
+            // A star with a member in an active group, or with a known false
+            // positive (whose siblings are held), is placed whole.
+            if self.active_group(c as CandidateId).is_some()
+                || self.may_mark_fp(c as CandidateId, self.decision[c])
+            {
                 grouped[s as usize] = true;
                 continue;
             }
@@ -663,6 +717,16 @@ impl Live {
 struct GroupStanding {
     rejected_by: Option<(CandidateId, Reason)>,
     rep: Option<CandidateId>,
+}
+
+/// A rejection that says what the signal is: a false positive of its star
+/// (an eclipsing binary, a blend, a stellar-size companion), whose siblings
+/// are held back with it (docs/science.md §1.1).
+fn names_false_positive(r: Reason) -> bool {
+    matches!(
+        r,
+        Reason::EclipsingBinary | Reason::Blend | Reason::TooLarge
+    )
 }
 
 /// A rejection that says "this entry is a copy" (the signal lives on in

@@ -737,10 +737,16 @@ impl App {
         self.message = Some("no flagged star in view".into());
     }
 
-    /// The siblings' odds if the selected candidate were rejected.
+    /// The siblings' odds if the selected candidate were rejected for what
+    /// is not a false positive of its star (`duplicate`, `alias`,
+    /// `artefact`...). Rejected as one (`eclipsing-binary`, `blend`,
+    /// `too-large`), it would hold them back instead, as the what-if line
+    /// says.
     pub fn what_if(&self) -> Vec<(CandidateId, usize, f64)> {
-        self.candidate()
-            .map_or_else(Vec::new, |c| self.live.what_if_rejected(c))
+        self.candidate().map_or_else(Vec::new, |c| {
+            self.live
+                .what_if_rejected(c, crate::decision::Reason::Duplicate)
+        })
     }
 }
 

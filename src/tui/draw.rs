@@ -516,7 +516,13 @@ fn draw_what_if(app: &App, frame: &mut Frame, area: Rect, look: Look) {
                 )
             })
             .collect();
-        spelled(look, format!("if rejected: {}", each.join(", ")))
+        // Rejected as a false positive of the star, it would hold them all
+        // back instead: said where the line has room (the reason picker
+        // says it for each reason).
+        let line = format!("if rejected: {}", each.join(", "));
+        let tail = " · as a binary or blend: all held back";
+        let fits = line.chars().count() + tail.chars().count() <= area.width as usize;
+        spelled(look, if fits { line + tail } else { line })
     };
     frame.render_widget(Paragraph::new(text).style(style(look, Color::Cyan)), area);
 }

@@ -130,13 +130,28 @@ fn rejecting_one_of_three_drops_the_siblings_to_two_candidate_odds() {
     let members = app.members().to_vec();
     let before = app.live.odds(members[1]).unwrap();
     let what_if = app.what_if();
+    // The what-if line says both outcomes where it has room, and the
+    // reason picker says what each reason does.
+    let s = screen(&app, 120, 24);
+    assert!(
+        s.contains("if rejected:") && s.contains("as a binary or blend: all held back"),
+        "{s}"
+    );
+    // Rejected as an artefact (the third reason): the siblings count on.
     act(&mut app, Action::Reject);
     assert!(matches!(app.mode, Mode::Reasons { .. }));
+    let s = screen(&app, 80, 24);
+    assert!(
+        s.contains("eclipsing-binary siblings held back")
+            && s.contains("artefact         siblings at k=2"),
+        "{s}"
+    );
+    act(&mut app, Action::Down);
     act(&mut app, Action::Down);
     act(&mut app, Action::Select);
     assert_eq!(
         app.live.decision(members[0]),
-        Decision::Rejected(crate::decision::Reason::Blend)
+        Decision::Rejected(crate::decision::Reason::Artefact)
     );
     let after = app.live.odds(members[1]).unwrap();
     assert!(after < before);
@@ -148,6 +163,20 @@ fn rejecting_one_of_three_drops_the_siblings_to_two_candidate_odds() {
     assert_eq!(app.live.odds(members[1]), Some(before));
     act(&mut app, Action::Redo);
     assert!(app.live.decision(members[0]).is_rejected());
+    act(&mut app, Action::Undo);
+    // Rejected as a blend (the second reason): a star known to host a false
+    // positive, whose siblings are held back at their prior odds.
+    act(&mut app, Action::Reject);
+    act(&mut app, Action::Down);
+    act(&mut app, Action::Select);
+    assert_eq!(
+        app.live.decision(members[0]),
+        Decision::Rejected(crate::decision::Reason::Blend)
+    );
+    for &m in &members[1..] {
+        assert_eq!(app.live.status(m), crate::odds::Status::Held);
+        assert_ne!(app.live.verdict(m), crate::odds::Verdict::Validated);
+    }
 }
 
 /// Replaces the filter through its prompt (which opens holding the current one).

@@ -34,6 +34,29 @@ pub fn stderr(o: &Output) -> String {
     String::from_utf8_lossy(&o.stderr).into_owned()
 }
 
+/// Runs starsift (which must succeed) and reads its CSV output: for each
+/// candidate, its `k` and `verdict`.
+pub fn k_and_verdict(args: &[&str]) -> std::collections::BTreeMap<String, (String, String)> {
+    let o = starsift(args);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = stdout(&o);
+    let mut r = csv::ReaderBuilder::new()
+        .comment(Some(b'#'))
+        .from_reader(text.as_bytes());
+    let h = r.headers().unwrap().clone();
+    let col = |n: &str| h.iter().position(|x| x == n).unwrap();
+    let (ci, ki, vi) = (col("candidate"), col("k"), col("verdict"));
+    r.records()
+        .map(|rec| {
+            let rec = rec.unwrap();
+            (
+                rec[ci].to_string(),
+                (rec[ki].to_string(), rec[vi].to_string()),
+            )
+        })
+        .collect()
+}
+
 /// An invented catalogue from its text, loaded with the default options.
 pub fn load_text(text: &str) -> starsift::catalogue::Catalogue {
     starsift::catalogue::Catalogue::load(
@@ -44,4 +67,38 @@ pub fn load_text(text: &str) -> starsift::catalogue::Catalogue {
         &starsift::catalogue::LoadOptions::default(),
     )
     .unwrap()
+}
+
+/// The header of the invented catalogues of the verdict tests.
+pub const HEAD: &str = "star,candidate,period_d,period_err_d,epoch,epoch_err_d,depth_ppm,duration_h,snr,impact,star_radius_rsun,star_mass_msun,star_teff_k\n";
+
+/// Invented clean systems that give the model a histogram: 400 singles,
+/// 60 doubles, 20 triples (periods spread so no pair is an alias or
+/// unstable).
+pub fn background() -> String {
+    let mut t = String::new();
+    // Every star its own periods (no two stars share an ephemeris).
+    let mut n = 0;
+    let mut row = |s: &str, j: usize, p: f64| {
+        n += 1;
+        let p = p * (1.0 + 0.0007 * n as f64);
+        t.push_str(&format!(
+            "{s},{s}-{j},{p:.6},0.00001,100.{j},0.001,600,3.0,25,0.3,1,1,5772\n"
+        ));
+    };
+    for i in 0..400 {
+        row(&format!("BG1x{i}"), 1, 3.3);
+    }
+    for i in 0..60 {
+        let s = format!("BG2x{i}");
+        row(&s, 1, 3.3);
+        row(&s, 2, 7.9);
+    }
+    for i in 0..20 {
+        let s = format!("BG3x{i}");
+        row(&s, 1, 3.3);
+        row(&s, 2, 7.9);
+        row(&s, 3, 17.7);
+    }
+    t
 }

@@ -15,6 +15,13 @@ pub enum Hold {
     GroupRejected { by: CandidateId, reason: Reason },
     /// One signal with `rep`, which blocking flags hold back.
     GroupHeld { rep: CandidateId },
+    /// A sibling of `fp`, a known false positive of the same star: rejected
+    /// as one (`reason`), or flagged as one (`flags`, the signs it carries).
+    Sibling {
+        fp: CandidateId,
+        reason: Option<Reason>,
+        flags: FlagSet,
+    },
 }
 
 impl Live {
@@ -27,6 +34,20 @@ impl Live {
         if !own.is_empty() {
             return Some(Hold::Flags(own));
         }
+        if let Some(h) = self.group_hold(c) {
+            return Some(h);
+        }
+        let members = self.index.members(self.star_of(c));
+        let fp = self.known_fp_among(members, |m| self.decision[m as usize])?;
+        let reason = self.decision[fp as usize]
+            .reason()
+            .filter(|&r| names_false_positive(r));
+        let flags = self.flags[fp as usize].intersection(self.fp_signs());
+        Some(Hold::Sibling { fp, reason, flags })
+    }
+
+    /// Why a held candidate is held by its signal group, if it is.
+    fn group_hold(&self, c: CandidateId) -> Option<Hold> {
         let g = self.active_group(c)?;
         let standing = self.standings[g as usize];
         if let Some((by, reason)) = standing.rejected_by {
@@ -54,6 +75,7 @@ impl Live {
     pub fn held_summary(&self) -> Vec<(String, usize)> {
         let mut copies = 0;
         let mut group_out = 0;
+        let mut siblings = 0;
         let mut by_flag: std::collections::BTreeMap<&'static str, usize> = Default::default();
         for c in 0..self.status.len() as CandidateId {
             match self.hold(c) {
@@ -62,6 +84,7 @@ impl Live {
                     .for_each(|f| *by_flag.entry(f.name()).or_default() += 1),
                 Some(Hold::Copy { .. }) => copies += 1,
                 Some(Hold::GroupRejected { .. } | Hold::GroupHeld { .. }) => group_out += 1,
+                Some(Hold::Sibling { .. }) => siblings += 1,
                 None => {}
             }
         }
@@ -76,6 +99,12 @@ impl Live {
             out.push((
                 "one signal with a rejected or held-back candidate".to_string(),
                 group_out,
+            ));
+        }
+        if siblings > 0 {
+            out.push((
+                "on a star with a known false positive".to_string(),
+                siblings,
             ));
         }
         out.extend(by_flag.into_iter().map(|(f, n)| (format!("flag {f}"), n)));

@@ -221,11 +221,30 @@ pub(super) fn draw_reasons(
     look: Look,
 ) {
     use crate::tui::app::Action as A;
+    // What each reason does to the siblings (one candidate, with siblings
+    // counted now): a false positive of the star holds them back.
+    let counted_siblings = app.candidate().filter(|_| !bulk).map(|c| {
+        let star = app.cat.star_of(c);
+        let n = app
+            .cat
+            .members(star)
+            .iter()
+            .filter(|&&m| m != c && app.live.counted(m))
+            .count();
+        (c, n)
+    });
+    let effect = |r: crate::decision::Reason| match counted_siblings {
+        Some((c, n)) if n > 0 => match app.live.what_if_rejected(c, r).first() {
+            None => "siblings held back".to_string(),
+            Some(&(_, k, _)) => format!("siblings at k={k}"),
+        },
+        _ => String::new(),
+    };
     let mut lines: Vec<Line> = ALL_REASONS
         .iter()
         .enumerate()
         .map(|(i, r)| {
-            let l = Line::from(format!(" {} ", r.name()));
+            let l = Line::from(format!(" {:<17}{} ", r.name(), effect(*r)));
             if i == selected {
                 l.style(style(look, Color::Yellow).add_modifier(Modifier::REVERSED))
             } else {

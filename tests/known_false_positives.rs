@@ -1,0 +1,247 @@
+//! A star known to host a false positive lends its other candidates no
+//! multiplicity (docs/science.md §1.1 and §3.5): known from the catalogue
+//! (a disposition column, or an fpp of at least 0.5), from a vetter's
+//! rejection as an eclipsing binary, a blend or a stellar-size companion, or
+//! from a flag beyond doubt (`secondary`, `big-radius`) on the candidate
+//! that stands for its signal. Invented catalogues; every command and the
+//! browser build the same `Live`.
+
+mod common;
+
+use common::{HEAD, background, load_text, scratch, starsift, stderr, stdout};
+use starsift::catalogue::{CandidateId, Catalogue};
+use starsift::checks::{CheckSettings, SignalGroups};
+use starsift::decision::Decision;
+use starsift::flags::{Flag, FlagSet};
+use starsift::odds::{Hold, Live, Model, Status, Verdict};
+
+/// Clean systems of two and three (periods far from any alias or unstable
+/// ratio), each with a disposition and an fpp cell.
+const ROWS: &str = "\
+OK,OK-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,CANDIDATE,\n\
+OK,OK-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,CONFIRMED,\n\
+SIB,SIB-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,CANDIDATE,\n\
+SIB,SIB-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,FALSE POSITIVE,\n\
+TRI,TRI-1,4.5,0.00001,100.5,0.001,700,3.0,30,0.3,1,1,5772,PC,\n\
+TRI,TRI-2,10.6,0.00001,101.5,0.001,650,3.6,28,0.3,1,1,5772,PC,\n\
+TRI,TRI-3,23.9,0.00001,102.5,0.001,640,4.7,26,0.3,1,1,5772,fp,\n\
+FPP,FPP-1,4.7,0.00001,100.7,0.001,700,3.0,30,0.3,1,1,5772,,0.02\n\
+FPP,FPP-2,11.2,0.00001,101.7,0.001,650,3.6,28,0.3,1,1,5772,,0.97\n\
+T3,T3-1,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772,,\n\
+T3,T3-2,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,,\n\
+T3,T3-3,25.1,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,,\n";
+
+/// The background (its new cells empty) and `rows`, under `header_extra`.
+fn catalogue(header_extra: &str, rows: &str) -> String {
+    let head = format!("{},{header_extra}\n", HEAD.trim_end());
+    let blanks = ",".repeat(header_extra.split(',').count());
+    let bg: String = background()
+        .lines()
+        .map(|l| format!("{l}{blanks}\n"))
+        .collect();
+    format!("{head}{bg}{rows}")
+}
+
+fn live_of(cat: &Catalogue) -> Live {
+    let checks = starsift::checks::run(cat, &CheckSettings::default());
+    Live::with_state(
+        cat,
+        Model {
+            targets: Some(50_000),
+            ..Model::default()
+        },
+        checks.all_flags().to_vec(),
+        checks.groups().clone(),
+        vec![Decision::Open; cat.len()],
+    )
+    .unwrap()
+}
+
+fn id(cat: &Catalogue, s: &str) -> CandidateId {
+    cat.find_candidate(s).unwrap()
+}
+
+#[test]
+fn the_catalogues_own_false_positives_lend_no_multiplicity() {
+    let cat = load_text(&catalogue("disposition,fpp", ROWS));
+    let live = live_of(&cat);
+    let c = |s| id(&cat, s);
+    // A confirmed planet counts: the clean pair and the clean trio are
+    // validated.
+    for s in ["OK-1", "OK-2", "T3-1", "T3-2", "T3-3"] {
+        assert_eq!(live.verdict(c(s)), Verdict::Validated, "{s}");
+    }
+    // Marked by the disposition (`FALSE POSITIVE`, `fp`) or by fpp 0.97:
+    // flagged, and held back.
+    for s in ["SIB-2", "TRI-3", "FPP-2"] {
+        assert!(live.flags(c(s)).contains(Flag::KnownFp), "{s}");
+        assert_eq!(live.status(c(s)), Status::Held, "{s}");
+    }
+    // Their siblings are held back with them, at their prior odds: f = 0.1
+    // gives 9:1; FPP-1's own fpp 0.02 gives 49:1 (odds = (1 − p)/p), below
+    // the 100:1 of `validated`.
+    for (s, fp, odds) in [
+        ("SIB-1", "SIB-2", 9.0),
+        ("TRI-1", "TRI-3", 9.0),
+        ("TRI-2", "TRI-3", 9.0),
+        ("FPP-1", "FPP-2", 49.0),
+    ] {
+        assert_eq!(live.status(c(s)), Status::Held, "{s}");
+        assert_eq!(live.verdict(c(s)), Verdict::Likely, "{s}");
+        assert!((live.odds(c(s)).unwrap() - odds).abs() < 1e-6, "{s}");
+        match live.hold(c(s)) {
+            Some(Hold::Sibling {
+                fp: f,
+                reason,
+                flags,
+            }) => {
+                assert_eq!(f, c(fp), "{s}");
+                assert_eq!(reason, None);
+                assert_eq!(flags, FlagSet::from_iter([Flag::KnownFp]));
+            }
+            h => panic!("{s}: {h:?}"),
+        }
+    }
+    let line = live.held_line().unwrap();
+    assert!(
+        line.contains("4 on a star with a known false positive"),
+        "{line}"
+    );
+    // The same rows without the two columns: the false positives count, and
+    // their siblings were validated (what this rule is for).
+    let bare: String = ROWS
+        .lines()
+        .map(|l| {
+            let cells: Vec<&str> = l.split(',').collect();
+            format!("{}\n", cells[..cells.len() - 2].join(","))
+        })
+        .collect();
+    let cat = load_text(&format!("{HEAD}{}{bare}", background()));
+    let live = live_of(&cat);
+    for s in ["SIB-1", "SIB-2", "TRI-1", "TRI-2", "TRI-3"] {
+        assert_eq!(live.verdict(id(&cat, s)), Verdict::Validated, "{s}");
+    }
+}
+
+#[test]
+fn an_archive_with_two_disposition_columns_is_read_in_both() {
+    // The archive's own column says candidate, its pipeline's says false
+    // positive: the candidate is a known false positive.
+    let rows = "\
+D2,D2-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,CANDIDATE,CANDIDATE\n\
+D2,D2-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,CANDIDATE,FALSE POSITIVE\n";
+    let cat = load_text(&catalogue("koi_disposition,koi_pdisposition", rows));
+    assert_eq!(cat.disposition_columns().len(), 2);
+    let live = live_of(&cat);
+    assert!(live.flags(id(&cat, "D2-2")).contains(Flag::KnownFp));
+    assert_eq!(live.status(id(&cat, "D2-1")), Status::Held);
+    assert_ne!(live.verdict(id(&cat, "D2-1")), Verdict::Validated);
+}
+
+#[test]
+fn a_copys_flags_do_not_mark_its_star_but_its_representatives_do() {
+    // A, B, C on one star; B is A at twice its period (one signal, A
+    // stands for it). An alias folded at twice its period shows its own
+    // transit at phase 0.5: a `secondary` on B says nothing of the star.
+    let rows = "\
+AB,AB-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772\n\
+AB,AB-2,8.2,0.00002,100.0,0.001,700,3.0,20,0.3,1,1,5772\n\
+AB,AB-3,21.3,0.00001,102.0,0.001,640,4.6,26,0.3,1,1,5772\n";
+    let cat = load_text(&format!("{HEAD}{}{rows}", background()));
+    let (a, b, c) = (id(&cat, "AB-1"), id(&cat, "AB-2"), id(&cat, "AB-3"));
+    let groups = SignalGroups::from_links(&cat, &[(a, b, Flag::Harmonic)]);
+    let model = Model {
+        targets: Some(50_000),
+        ..Model::default()
+    };
+    let with_flags = |on: &[(CandidateId, Flag)]| {
+        let mut flags = vec![FlagSet::EMPTY; cat.len()];
+        flags[b as usize].insert(Flag::Harmonic);
+        for &(x, f) in on {
+            flags[x as usize].insert(f);
+        }
+        Live::with_state(
+            &cat,
+            model.clone(),
+            flags,
+            groups.clone(),
+            vec![Decision::Open; cat.len()],
+        )
+        .unwrap()
+    };
+    let live = with_flags(&[(b, Flag::Secondary)]);
+    assert_eq!(live.k(a), 2);
+    assert_eq!(live.verdict(a), Verdict::Validated);
+    assert_eq!(live.verdict(c), Verdict::Validated);
+    // On the candidate that stands for the signal, it is the star's: C is
+    // held back.
+    let live = with_flags(&[(a, Flag::Secondary)]);
+    assert_eq!(live.status(c), Status::Held);
+    assert!(matches!(live.hold(c), Some(Hold::Sibling { fp, .. }) if fp == a));
+    // `odd-even` (3σ, which planets reach by chance) holds only its own.
+    let live = with_flags(&[(c, Flag::OddEven)]);
+    assert_eq!(live.status(c), Status::Held);
+    assert_eq!(live.verdict(a), Verdict::Likely);
+    assert_eq!(live.status(a), Status::Counted);
+}
+
+#[test]
+fn every_command_holds_the_siblings_of_a_known_false_positive() {
+    let dir = scratch("known_fp_commands");
+    let cat = dir.join("cat.csv");
+    std::fs::write(&cat, catalogue("disposition,fpp", ROWS)).unwrap();
+    std::fs::write(dir.join("survey.toml"), "targets_searched = 50000\n").unwrap();
+    let c = cat.to_str().unwrap();
+    // Each candidate's verdict (its k left aside: held candidates show 0).
+    let verdicts = |args: &[&str]| -> std::collections::BTreeMap<String, String> {
+        common::k_and_verdict(args)
+            .into_iter()
+            .map(|(c, (_, v))| (c, v))
+            .collect()
+    };
+    let odds = verdicts(&["odds", c, "--format", "csv"]);
+    assert_eq!(odds, verdicts(&["export", c, "--format", "csv"]));
+    assert_eq!(odds, verdicts(&["checks", c, "--format", "csv"]));
+    for s in [
+        "SIB-1", "SIB-2", "TRI-1", "TRI-2", "TRI-3", "FPP-1", "FPP-2",
+    ] {
+        assert_ne!(odds[s], "validated", "{s}");
+    }
+    assert_eq!(odds["T3-1"], "validated");
+    // The summary says where the dispositions come from.
+    let s = stdout(&starsift(&["summary", c]));
+    assert!(s.contains("disposition"), "{s}");
+    // A vetter's rejection of T3-3 as a blend holds T3-1 and T3-2 back; a
+    // later rejection as an artefact (instrumental: nothing of the star)
+    // lets them count again, as a pair.
+    let decide = |reason: &str| {
+        let o = starsift(&[
+            "decide",
+            c,
+            "--candidate",
+            "T3-3",
+            "--decision",
+            "rejected",
+            "--reason",
+            reason,
+            "--vetter",
+            "t",
+        ]);
+        assert!(o.status.success(), "{}", stderr(&o));
+    };
+    decide("blend");
+    let odds = verdicts(&["odds", c, "--format", "csv"]);
+    assert_eq!(odds["T3-1"], "likely");
+    assert_eq!(odds["T3-2"], "likely");
+    assert_eq!(odds, verdicts(&["export", c, "--format", "csv"]));
+    let o = starsift(&["odds", c, "--format", "csv"]);
+    assert!(
+        stdout(&o).contains("its star hosts a known false positive: T3-3, rejected as blend"),
+        "{}",
+        stdout(&o)
+    );
+    decide("artefact");
+    let odds = verdicts(&["odds", c, "--format", "csv"]);
+    assert_eq!(odds["T3-1"], "validated");
+    assert_eq!(odds["T3-2"], "validated");
+}
