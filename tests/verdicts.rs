@@ -369,8 +369,14 @@ BR,BR-2,11.3,0.00001,101.0,0.001,90000,3.6,300,0.3,1,1,5772\n",
 /// without each row's position. Periods 1-50 d, depths 200-1700 ppm, no
 /// stellar parameters.
 fn placeholder_catalogue(positions: bool) -> String {
+    placeholder_catalogue_with(positions, false)
+}
+
+/// [`placeholder_catalogue`], with each star's magnitude (9-16) on its
+/// rows when `mags`.
+fn placeholder_catalogue_with(positions: bool, mags: bool) -> String {
     let mut text =
-        String::from("star,candidate,period_d,epoch,depth_ppm,duration_h,ra_deg,dec_deg\n");
+        String::from("star,candidate,period_d,epoch,depth_ppm,duration_h,ra_deg,dec_deg,mag\n");
     // A small deterministic generator (Knuth's MMIX LCG constants, from memory).
     let mut x: u64 = 7;
     let mut next = move || {
@@ -387,8 +393,13 @@ fn placeholder_catalogue(positions: bool) -> String {
         } else {
             ",".into()
         };
+        let mag = if mags {
+            format!("{:.2}", 9.0 + 7.0 * (ra / 360.0))
+        } else {
+            String::new()
+        };
         text.push_str(&format!(
-            "{star},{id},{p:.5},{epoch:.4},{depth:.1},3.0,{place}\n"
+            "{star},{id},{p:.5},{epoch:.4},{depth:.1},3.0,{place},{mag}\n"
         ));
     };
     let mut sky = {
@@ -419,8 +430,13 @@ fn placeholder_catalogue(positions: bool) -> String {
 
 /// The placeholder's rows of `odds --format csv` on [`placeholder_catalogue`].
 fn placeholder_rows(test: &str, positions: bool) -> Vec<Vec<String>> {
+    placeholder_rows_of(test, &placeholder_catalogue(positions))
+}
+
+/// The placeholder's rows of `odds --format csv` on a catalogue's `text`.
+fn placeholder_rows_of(test: &str, text: &str) -> Vec<Vec<String>> {
     let file = scratch(test).join("placeholder.csv");
-    std::fs::write(&file, placeholder_catalogue(positions)).unwrap();
+    std::fs::write(&file, text).unwrap();
     let o = starsift(&[
         "odds",
         file.to_str().unwrap(),
@@ -490,5 +506,19 @@ fn a_placeholder_without_positions_is_broken_up_by_orbital_stability() {
             w[0],
             w[1]
         );
+    }
+}
+
+#[test]
+fn a_placeholder_without_positions_is_told_apart_by_its_stars_brightness() {
+    // The same pile without positions, but each row with its own star's
+    // magnitude (as archives copy the host's): magnitudes 9 to 16 under
+    // one id are not one star (docs/science.md §3.4), and none of the
+    // pile is counted or validated.
+    let rows = placeholder_rows_of("placeholder-mags", &placeholder_catalogue_with(false, true));
+    for r in rows {
+        assert_ne!(r[7], "validated", "{r:?}");
+        assert!(r[9].contains("mixed-host"), "{r:?}");
+        assert_eq!(r[10], "no", "{r:?}");
     }
 }

@@ -237,7 +237,9 @@ pub(super) fn check(
             }
         }
     }
-    one_place(cat, members, s, out);
+    if !one_place(cat, members, s, out) {
+        one_star_values(cat, members, out);
+    }
 
     // Adjacent pairs and trios: Hill spacing with masses from radii. A
     // candidate without a radius (its star's is unknown) is given the one
@@ -388,22 +390,28 @@ pub(super) fn check(
 /// several under one host id, such as a placeholder for unknown hosts.
 /// Which rows are the star is unknown, so every member is flagged
 /// `mixed-host`: signals of several stars must not make one system.
-fn one_place(cat: &Catalogue, members: &[CandidateId], s: &CheckSettings, out: &mut Checks) {
+/// True when it flagged the members.
+fn one_place(
+    cat: &Catalogue,
+    members: &[CandidateId],
+    s: &CheckSettings,
+    out: &mut Checks,
+) -> bool {
     let (Some(ra), Some(dec)) = (cat.column(Field::RaDeg), cat.column(Field::DecDeg)) else {
-        return;
+        return false;
     };
     let mut placed = members.iter().filter_map(|&c| {
         let (r, d) = (ra[c as usize], dec[c as usize]);
         super::echo::real_position(r, d).then_some((c, r, d))
     });
     let Some((first, ra0, dec0)) = placed.next() else {
-        return;
+        return false;
     };
     let farthest = placed
         .map(|(c, r, d)| (c, super::echo::separation_arcsec(ra0, dec0, r, d)))
         .max_by(|a, b| a.1.total_cmp(&b.1));
     let Some((other, apart)) = farthest.filter(|f| f.1 > s.echo_radius_arcsec) else {
-        return;
+        return false;
     };
     let why = format!(
         "the rows of star {} lie {apart:.0}″ apart ({} and {}), farther than the echo radius \
@@ -417,5 +425,81 @@ fn one_place(cat: &Catalogue, members: &[CandidateId], s: &CheckSettings, out: &
     );
     for &c in members {
         out.add(c, Flag::MixedHost, false, why.clone());
+    }
+    true
+}
+
+/// How far apart the rows of one star may give its brightness and its
+/// parameters (docs/science.md §3.4). A star's magnitude in one band agrees
+/// between catalogue rows within its photometric error, a few hundredths of
+/// a magnitude for survey targets, and archives repeat the host's values on
+/// every row of it; tables that fit the star anew for each candidate move
+/// its radius and temperature by tens of per cent, not by a factor *(the
+/// limits: common practice, no source; set wide, so that only rows of
+/// different stars exceed them)*.
+pub const ONE_STAR_MAG_SPREAD: f64 = 1.0;
+pub const ONE_STAR_RADIUS_RATIO: f64 = 2.0;
+pub const ONE_STAR_TEFF_RATIO: f64 = 1.5;
+
+/// One star, one light: rows of one id whose magnitudes differ by more than
+/// [`ONE_STAR_MAG_SPREAD`], or whose stellar radii or temperatures differ by
+/// more than a factor [`ONE_STAR_RADIUS_RATIO`] or [`ONE_STAR_TEFF_RATIO`],
+/// are several stars under one id (a placeholder for unknown hosts, in a
+/// catalogue without positions): every member is flagged `mixed-host`.
+fn one_star_values(cat: &Catalogue, members: &[CandidateId], out: &mut Checks) {
+    let extremes = |f: Field| {
+        let col = cat.column(f)?;
+        let mut vals = members
+            .iter()
+            .map(|&c| (c, col[c as usize]))
+            .filter(|v| v.1.is_finite());
+        let first = vals.next()?;
+        let (lo, hi) = vals.fold((first, first), |(lo, hi), v| {
+            (
+                if v.1 < lo.1 { v } else { lo },
+                if v.1 > hi.1 { v } else { hi },
+            )
+        });
+        Some((lo, hi))
+    };
+    let tests = [
+        (Field::Mag, "magnitudes", ONE_STAR_MAG_SPREAD, false),
+        (
+            Field::StarRadiusRsun,
+            "stellar radii",
+            ONE_STAR_RADIUS_RATIO,
+            true,
+        ),
+        (Field::StarTeffK, "temperatures", ONE_STAR_TEFF_RATIO, true),
+    ];
+    for (field, what, limit, ratio) in tests {
+        let Some(((c_lo, lo), (c_hi, hi))) = extremes(field) else {
+            continue;
+        };
+        let apart = if ratio {
+            lo > 0.0 && hi / lo > limit
+        } else {
+            hi - lo > limit
+        };
+        if !apart {
+            continue;
+        }
+        let bound = if ratio {
+            format!("a factor {limit}")
+        } else {
+            format!("{limit} mag")
+        };
+        let why = format!(
+            "the rows of star {} give {what} {lo} ({}) and {hi} ({}), farther apart than one \
+             star's can be ({bound}): not one star but several under one id (a placeholder for \
+             unknown hosts?), so none of them counts towards a system",
+            cat.star_id(cat.star_of(c_lo)),
+            cat.candidate_id(c_lo),
+            cat.candidate_id(c_hi),
+        );
+        for &c in members {
+            out.add(c, Flag::MixedHost, false, why.clone());
+        }
+        return;
     }
 }

@@ -399,6 +399,18 @@ fn a_run_counts_its_work_to_the_whole() {
     }
 }
 
+/// A catalogue from its text, and its checks under the default settings.
+fn loaded_and_checked(text: &str) -> (Catalogue, Checks) {
+    let c = load(text);
+    let ch = run(&c, &CheckSettings::default());
+    (c, ch)
+}
+
+/// Whether candidate `id` carries the blocking `flag`.
+fn flagged(c: &Catalogue, ch: &Checks, id: &str, flag: Flag) -> bool {
+    ch.flags(c.find_candidate(id).unwrap()).contains(flag)
+}
+
 #[test]
 fn rows_of_one_star_far_apart_are_not_one_star() {
     // Two planets of one host share its position; rows of one id 1° apart
@@ -422,12 +434,8 @@ fn rows_of_one_star_far_apart_are_not_one_star() {
         row("HALF", 2, 11.7, f64::NAN, f64::NAN),
     ]
     .concat();
-    let c = load(&text);
-    let ch = run(&c, &CheckSettings::default());
-    let mixed = |id: &str| {
-        ch.flags(c.find_candidate(id).unwrap())
-            .contains(Flag::MixedHost)
-    };
+    let (c, ch) = loaded_and_checked(&text);
+    let mixed = |id: &str| flagged(&c, &ch, id, Flag::MixedHost);
     for id in ["ONE-1", "ONE-2", "NEAR-1", "NEAR-2", "HALF-1", "HALF-2"] {
         assert!(
             !mixed(id),
@@ -455,6 +463,49 @@ fn rows_of_one_star_far_apart_are_not_one_star() {
     assert!(
         ch.flags(c.find_candidate("NEAR-2").unwrap())
             .contains(Flag::MixedHost)
+    );
+}
+
+#[test]
+fn rows_of_one_star_that_disagree_on_the_star_are_not_one_star() {
+    // No positions: the rows' brightness and stellar parameters tell
+    // stars apart (docs/science.md §3.4). Within the limits (1 mag, a
+    // factor 2 in radius, 1.5 in temperature) a star's rows agree; beyond
+    // them they are several stars.
+    let row = |star: &str, n: u32, p: f64, r: f64, teff: f64, mag: f64| {
+        format!("{star},{star}-{n},{p},0.00001,100.0,0.001,500,2.5,30,0.3,{r},1,{teff},,,{mag}\n")
+    };
+    let text = [
+        HEAD.to_string(),
+        row("SAME", 1, 3.1, 1.0, 5772.0, 12.0),
+        row("SAME", 2, 11.7, 1.0, 5772.0, 12.0),
+        // Fitted anew per candidate: 0.4 mag, 60 % in radius, 800 K apart.
+        row("FIT", 1, 3.1, 1.0, 5400.0, 12.0),
+        row("FIT", 2, 11.7, 1.6, 6200.0, 12.4),
+        row("MAG", 1, 3.1, 1.0, 5772.0, 11.0),
+        row("MAG", 2, 11.7, 1.0, 5772.0, 12.2),
+        row("RAD", 1, 3.1, 0.5, 5772.0, f64::NAN),
+        row("RAD", 2, 11.7, 1.2, 5772.0, f64::NAN),
+        row("TEFF", 1, 3.1, 1.0, 4000.0, f64::NAN),
+        row("TEFF", 2, 11.7, 1.0, 6500.0, f64::NAN),
+    ]
+    .concat();
+    let (c, ch) = loaded_and_checked(&text);
+    let mixed = |id: &str| flagged(&c, &ch, id, Flag::MixedHost);
+    for id in ["SAME-1", "SAME-2", "FIT-1", "FIT-2"] {
+        assert!(
+            !mixed(id),
+            "{id}: {}",
+            ch.why(c.find_candidate(id).unwrap())
+        );
+    }
+    for id in ["MAG-1", "MAG-2", "RAD-1", "RAD-2", "TEFF-1", "TEFF-2"] {
+        assert!(mixed(id), "{id}");
+    }
+    let why = ch.why(c.find_candidate("MAG-2").unwrap());
+    assert!(
+        why.contains("give magnitudes 11 (MAG-1) and 12.2 (MAG-2)"),
+        "{why}"
     );
 }
 
