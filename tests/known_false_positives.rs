@@ -1,6 +1,7 @@
 //! A star known to host a false positive lends its other candidates no
 //! multiplicity (docs/science.md §1.1 and §3.5): known from the catalogue
-//! (a disposition column, or an fpp of at least 0.5), from a vetter's
+//! (a disposition column, a false-positive flag column, or an fpp of at
+//! least 0.5), from a vetter's
 //! rejection as an eclipsing binary, a blend or a stellar-size companion, or
 //! from a flag beyond doubt (`secondary`, `big-radius`) on the candidate
 //! that stands for its signal. Invented catalogues; every command and the
@@ -136,6 +137,23 @@ D2,D2-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,CANDIDATE,FALSE POSITIVE
     assert!(live.flags(id(&cat, "D2-2")).contains(Flag::KnownFp));
     assert_eq!(live.status(id(&cat, "D2-1")), Status::Held);
     assert_ne!(live.verdict(id(&cat, "D2-1")), Verdict::Validated);
+}
+
+#[test]
+fn an_archives_false_positive_flag_columns_are_read() {
+    // A table with the archive's 0/1 false-positive flags and no
+    // disposition: a set flag is a known false positive.
+    let rows = "\
+F0,F0-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,0,0\n\
+F0,F0-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,0,0\n\
+F1,F1-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,0,0\n\
+F1,F1-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,1,0\n";
+    let cat = load_text(&catalogue("koi_fpflag_ss,koi_fpflag_co", rows));
+    let live = live_of(&cat);
+    assert_eq!(live.verdict(id(&cat, "F0-1")), Verdict::Validated);
+    assert!(live.flags(id(&cat, "F1-2")).contains(Flag::KnownFp));
+    assert_eq!(live.status(id(&cat, "F1-1")), Status::Held);
+    assert_ne!(live.verdict(id(&cat, "F1-1")), Verdict::Validated);
 }
 
 #[test]

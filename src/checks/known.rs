@@ -1,6 +1,7 @@
 //! What the catalogue already knows: a disposition column that names a
-//! candidate a false positive, or the candidate's own `fpp` saying it is
-//! more likely a false positive than a planet (docs/science.md §3.5). Such a
+//! candidate a false positive, an archive's false-positive flag column set
+//! for it, or the candidate's own `fpp` saying it is more likely a false
+//! positive than a planet (docs/science.md §3.5). Such a
 //! candidate is flagged `known-fp` (blocking): it counts towards no system,
 //! and its star is one known to host a false positive, whose other
 //! candidates the odds hold back too (`odds::live`).
@@ -48,6 +49,24 @@ pub fn says_false_positive(cell: &str) -> bool {
     })
 }
 
+/// Whether an extra column is a false-positive flag of an archive table
+/// (`koi_fpflag_ss`, `koi_fpflag_co`... from memory of the archive's
+/// column list; `fp_flag`): a header holding `fpflag` or `fp_flag`.
+fn is_fp_flag_column(header: &str) -> bool {
+    let h = header.trim().to_ascii_lowercase();
+    h.contains("fpflag") || h.contains("fp_flag")
+}
+
+/// Whether a false-positive flag's cell is set: a number other than 0, or
+/// `true`/`yes`/`y`. Empty and unreadable cells are not.
+fn flag_is_set(cell: &str) -> bool {
+    let c = cell.trim();
+    match c.parse::<f64>() {
+        Ok(v) => v != 0.0 && !v.is_nan(),
+        Err(_) => matches!(c.to_ascii_lowercase().as_str(), "true" | "yes" | "y"),
+    }
+}
+
 /// The `fpp` at and above which a candidate is more likely a false positive
 /// than a planet (odds 1:1): a definition, not a tuning.
 pub const FPP_EVEN: f64 = 0.5;
@@ -56,8 +75,11 @@ pub const FPP_EVEN: f64 = 0.5;
 pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     let columns = cat.disposition_columns();
     let headers: Vec<&str> = cat.extra_headers().collect();
+    let flag_columns: Vec<usize> = (0..headers.len())
+        .filter(|&i| is_fp_flag_column(headers[i]))
+        .collect();
     let fpp = cat.column(Field::Fpp);
-    if columns.is_empty() && fpp.is_none() {
+    if columns.is_empty() && flag_columns.is_empty() && fpp.is_none() {
         return;
     }
     for c in 0..cat.len() as CandidateId {
@@ -70,6 +92,21 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
                     false,
                     format!(
                         "the catalogue's {} says `{}`: a known false positive",
+                        headers[i],
+                        crate::sanitize::clean(cell.trim())
+                    ),
+                );
+            }
+        }
+        for &i in &flag_columns {
+            let cell = cat.extra(i, c);
+            if flag_is_set(cell) {
+                out.add(
+                    c,
+                    Flag::KnownFp,
+                    false,
+                    format!(
+                        "the catalogue's {} is {}: flagged a false positive",
                         headers[i],
                         crate::sanitize::clean(cell.trim())
                     ),
@@ -94,6 +131,22 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn false_positive_flag_columns() {
+        for h in ["koi_fpflag_ss", "KOI_FPFLAG_CO", "fp_flag", "my_fpflag"] {
+            assert!(is_fp_flag_column(h), "{h}");
+        }
+        for h in ["fpp", "flag", "quality_flag", "disposition"] {
+            assert!(!is_fp_flag_column(h), "{h}");
+        }
+        for set in ["1", " 1 ", "1.0", "2", "true", "Y"] {
+            assert!(flag_is_set(set), "{set}");
+        }
+        for unset in ["0", "0.0", "", "nan", "no", "false", "-"] {
+            assert!(!flag_is_set(unset), "{unset}");
+        }
+    }
 
     #[test]
     fn dispositions_that_name_a_false_positive() {
