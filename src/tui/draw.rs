@@ -304,6 +304,14 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) -> (Rec
         .map(|i| {
             let c = members[i];
             let verdict = app.live.verdict(c);
+            // Before the checks, no candidate is called validated: the
+            // verdict waits for its evidence.
+            let (verdict_text, verdict_look) =
+                if app.checks_pending && verdict == Verdict::Validated {
+                    ("checking", style(look, Color::DarkGray))
+                } else {
+                    (verdict.name(), verdict_style(look, verdict))
+                };
             let mut flags = app.checks.flags(c).joined(",");
             if let Some(SignalResult::Data { diagnostics, .. }) = app.signals.get(&c) {
                 for (f, _) in &diagnostics.findings {
@@ -319,7 +327,7 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) -> (Rec
                 match k {
                     0 => Cell::from(fit_id(&clean(app.cat.candidate_id(c)), id_w, look)),
                     1 => Cell::from(app.live.odds(c).map_or("-".into(), format_odds)),
-                    2 => Cell::from(Span::styled(verdict.name(), verdict_style(look, verdict))),
+                    2 => Cell::from(Span::styled(verdict_text, verdict_look)),
                     3 => Cell::from(num(v(Field::PeriodD, c), 5)),
                     4 => Cell::from(app.live.decision(c).name()),
                     5 => Cell::from(flags.clone()),
@@ -561,7 +569,12 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
                     thousands(total)
                 ),
             },
-            c.validated,
+            // No count of validated candidates before the checks.
+            if app.checks_pending {
+                "?".to_string()
+            } else {
+                c.validated.to_string()
+            },
             c.likely,
             c.unlikely,
             c.rejected,

@@ -458,9 +458,31 @@ fn checks_arriving_later_feed_the_verdicts() {
     assert!(screen(&app, 120, 30).contains("checks running: 45 %"));
     app.update(Input::Progress(1240, 8000));
     assert!(screen(&app, 160, 30).contains("light curves 1,240 / 8,000"));
-    // The planted unstable pair is validated until its `crowded` flag arrives.
+    // The planted unstable pair would be validated without its `crowded`
+    // flag: until the checks arrive, nothing is called validated on screen
+    // (the verdict waits for its evidence), nor drawn into a figure.
     let pair = cat.find_candidate("HWT74304-s1").unwrap();
     assert_eq!(app.live.verdict(pair), crate::odds::Verdict::Validated);
+    typed_filter(&mut app, "id:HWT74304");
+    act(&mut app, Action::Select);
+    let s = screen(&app, 120, 30);
+    let rows = s
+        .lines()
+        .filter(|l| l.contains("HWT74304-s") && l.contains(" open "));
+    assert!(
+        rows.clone().count() == 2 && rows.clone().all(|l| l.contains("checking")),
+        "{s}"
+    );
+    assert!(!rows.clone().any(|l| l.contains("validated")), "{s}");
+    assert!(s.contains("? validated"), "{s}");
+    act(&mut app, Action::WriteFigure);
+    assert!(
+        app.message
+            .as_deref()
+            .unwrap_or("")
+            .contains("checks are still running")
+    );
+    app.message = None;
     app.update(Input::Checks(Box::new(checks)));
     assert!(app.checks.flags(pair).contains(crate::flags::Flag::Crowded));
     assert_eq!(app.live.verdict(pair), crate::odds::Verdict::Likely);

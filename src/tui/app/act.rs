@@ -267,7 +267,13 @@ impl App {
                 }
             }
             Action::WriteFigure => {
-                if let Some(c) = self.candidate() {
+                if self.checks_pending {
+                    // A figure states the verdict: not before its evidence.
+                    self.message = Some(
+                        "the checks are still running: the figure waits for the verdict they give"
+                            .into(),
+                    );
+                } else if let Some(c) = self.candidate() {
                     self.message = Some(format!(
                         "drawing the figure of {}…",
                         crate::sanitize::clean(self.cat.candidate_id(c))
