@@ -82,10 +82,15 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     if columns.is_empty() && flag_columns.is_empty() && fpp.is_none() {
         return;
     }
+    // A table holds a handful of distinct dispositions: each is read once.
+    let mut said: hashbrown::HashMap<&str, bool> = hashbrown::HashMap::new();
     for c in 0..cat.len() as CandidateId {
         for &i in &columns {
             let cell = cat.extra(i, c);
-            if says_false_positive(cell) {
+            let fp = *said
+                .entry(cell)
+                .or_insert_with(|| says_false_positive(cell));
+            if fp {
                 out.add(
                     c,
                     Flag::KnownFp,
