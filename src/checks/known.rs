@@ -13,8 +13,8 @@ use crate::flags::Flag;
 /// Dispositions that name a false positive, after [`normalise`]: the
 /// archives' words and their two-letter codes (from memory of the exoplanet
 /// archives' candidate tables), and the kinds of false positive themselves.
-/// A cell that begins with one of the long forms counts too (`false
-/// positive (centroid offset)`).
+/// A cell that begins with one of them and goes on after a space or a
+/// mark counts too (`false positive (centroid offset)`, `FP - EB`, `EB?`).
 const FALSE_POSITIVE: [&str; 8] = [
     "false positive",
     "fp",
@@ -43,9 +43,8 @@ pub fn says_false_positive(cell: &str) -> bool {
     let n = normalise(cell);
     FALSE_POSITIVE.iter().any(|fp| {
         n == *fp
-            || (fp.len() > 2
-                && n.strip_prefix(fp)
-                    .is_some_and(|rest| rest.starts_with([' ', '(', ':', ',', ';'])))
+            || n.strip_prefix(fp)
+                .is_some_and(|rest| rest.starts_with([' ', '(', ':', ',', ';', '/', '?']))
     })
 }
 
@@ -168,6 +167,9 @@ mod tests {
             "Blend",
             "false positive (centroid offset)",
             "FALSE POSITIVE: secondary eclipse",
+            "FP - EB",
+            "fp/eb",
+            "EB?",
         ] {
             assert!(says_false_positive(yes), "{yes}");
         }
