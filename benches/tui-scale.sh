@@ -6,8 +6,9 @@
 #
 # CANDIDATES defaults to 1000000 (bench-data/big-N.csv, written on first
 # use). Prints the seconds from the start to the first frame showing the
-# load's progress, to the table of systems (usable: keys move), and to the
-# end of the background checks (flags all filled in), with the peak memory
+# load's progress, to the table of systems (usable: keys move), to the
+# first flags shown (a stage of the background checks finished: "N flagged
+# so far"), and to the end of the checks (flags all filled in), with the peak memory
 # of the browser, and the time and memory of `summary`.
 set -euo pipefail
 root="$(cd "$(dirname "$0")/.." && pwd)"
@@ -35,7 +36,11 @@ until tmux capture-pane -p -t "$s" | grep -q "Systems"; do sleep 0.02; done
 table=$(ms)
 pid=$(pgrep -n -f "$bin $cat" || true)
 peak=0
-while tmux capture-pane -p -t "$s" | grep -q "checks running"; do
+some=""
+while screen=$(tmux capture-pane -p -t "$s") && grep -q "checks running" <<<"$screen"; do
+  if [ -z "$some" ] && grep -q "flagged so far" <<<"$screen"; then
+    some=$(ms)
+  fi
   if [ -n "$pid" ]; then
     kb=$(awk '/VmHWM/ {print $2}' "/proc/$pid/status" 2>/dev/null || echo 0)
     [ "${kb:-0}" -gt "$peak" ] && peak=$kb
@@ -48,10 +53,11 @@ if [ -n "$pid" ]; then
   [ "${kb:-0}" -gt "$peak" ] && peak=$kb
 fi
 read -r ss skb <"$tmpd/summary"
-awk -v n="$n" -v f="$first" -v t="$table" -v g="$flags" -v p="$peak" -v ss="$ss" -v skb="$skb" 'BEGIN {
+awk -v n="$n" -v f="$first" -v t="$table" -v g="$flags" -v p="$peak" -v ss="$ss" -v skb="$skb" -v so="${some:--1}" 'BEGIN {
   printf "%d candidates\n", n
   printf "summary                       %6.2f s  %6.0f MB\n", ss, skb / 1024
   printf "browser: progress line shown  %6.2f s\n", f / 1000
   printf "browser: table of systems     %6.2f s  (%.2fx summary)\n", t / 1000, t / 1000 / ss
+  if (so >= 0) printf "browser: first flags shown    %6.2f s\n", so / 1000
   printf "browser: every flag filled in %6.2f s  %6.0f MB peak (%.2fx summary)\n", g / 1000, p / 1024, p / skb
 }'

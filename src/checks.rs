@@ -323,6 +323,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         }
         progress.add(n % progress::STEP);
         known::flag(cat, &mut checks);
+        progress.publish(checks.all_flags());
         let derived = system::PerCandidate {
             density_transit: &density_transit,
             radius_rearth: &radius,
@@ -350,6 +351,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         }
         progress.add(unsaid);
         group_flags(cat, &links, &mut checks);
+        progress.publish(checks.all_flags());
         (
             checks,
             echo.join().unwrap_or_else(|e| std::panic::resume_unwind(e)),
@@ -359,6 +361,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         checks.add(c, Flag::Echo, soft, why);
     }
     checks.sort_findings();
+    progress.publish(checks.all_flags());
     checks
 }
 

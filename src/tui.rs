@@ -446,7 +446,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     // The checks (and, when asked, the light-curve checks) in the background.
     app.update(Input::ChecksStarted);
     let (checks_tx, checks_rx) = mpsc::channel();
-    let check_progress = Arc::new(crate::checks::CheckProgress::default());
+    let check_progress = Arc::new(crate::checks::CheckProgress::sharing_flags());
     let (progress_tx, progress_rx) = mpsc::channel();
     {
         let cat = Arc::clone(&app.cat);
@@ -563,6 +563,10 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         let percent = check_progress.percent(app.cat.len());
         if app.checks_pending && app.lc_progress.is_none() && percent != app.checks_percent {
             effects.extend(app.update(Input::ChecksDone(percent)));
+            dirty = true;
+        }
+        if let Some(flags) = check_progress.take_flags() {
+            effects.extend(app.update(Input::FlagsSoFar(flags)));
             dirty = true;
         }
         if let Some((done, total)) = progress_rx.try_iter().last() {

@@ -378,6 +378,20 @@ fn thousands_of_copies_of_one_signal_stay_linear() {
 }
 
 #[test]
+fn a_run_shares_its_flags_stage_by_stage_when_asked() {
+    let cat = crate::demo::catalogue().unwrap();
+    // Asked: the last stage's flags are the run's own.
+    let progress = CheckProgress::sharing_flags();
+    let ch = run_counted(&cat, &CheckSettings::default(), &progress);
+    assert_eq!(progress.take_flags().as_deref(), Some(ch.all_flags()));
+    assert_eq!(progress.take_flags(), None, "taken once");
+    // Not asked: nothing is kept.
+    let progress = CheckProgress::default();
+    run_counted(&cat, &CheckSettings::default(), &progress);
+    assert_eq!(progress.take_flags(), None);
+}
+
+#[test]
 fn a_run_counts_its_work_to_the_whole() {
     // Every candidate's work is counted once per part, whatever the
     // catalogue holds: the status line ends at 100 %, never short of it.

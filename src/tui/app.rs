@@ -73,6 +73,9 @@ pub enum Input {
     Progress(usize, usize),
     /// Whole percent of the catalogue checks done so far.
     ChecksDone(u8),
+    /// The flags the background checks found so far (a stage finished),
+    /// shown until the checks themselves arrive.
+    FlagsSoFar(Vec<FlagSet>),
     /// A left click on a list row (with `--mouse`): the pane and the row,
     /// found by the event loop from where the last frame drew the lists.
     Pick(Pane, usize),
@@ -254,6 +257,10 @@ pub struct App {
     pub help_scroll: usize,
     /// True until the background checks have arrived.
     pub checks_pending: bool,
+    /// The flags the background checks found so far, while they run, and
+    /// how many candidates they flag.
+    pub flags_so_far: Option<Vec<FlagSet>>,
+    pub flagged_so_far: usize,
     /// Light curves checked so far, of how many, while the checks run.
     pub lc_progress: Option<(usize, usize)>,
     /// Whole percent of the catalogue checks done, while they run.
@@ -340,6 +347,8 @@ impl App {
             signal_view: SignalView::Transit,
             help_scroll: 0,
             checks_pending: false,
+            flags_so_far: None,
+            flagged_so_far: 0,
             lc_progress: None,
             checks_percent: 0,
             history: Vec::new(),
@@ -503,7 +512,16 @@ impl App {
         self.cat
             .members(s)
             .iter()
-            .fold(FlagSet::EMPTY, |a, &c| a.union(self.checks.flags(c)))
+            .fold(FlagSet::EMPTY, |a, &c| a.union(self.flags(c)))
+    }
+
+    /// A candidate's flags: those the background checks found so far while
+    /// they run, then the checks' own.
+    pub fn flags(&self, c: CandidateId) -> FlagSet {
+        match &self.flags_so_far {
+            Some(f) => f[c as usize],
+            None => self.checks.flags(c),
+        }
     }
 
     /// Applies one input; returns what the shell must do.
@@ -555,12 +573,26 @@ impl App {
                 self.checks_percent = percent;
                 Vec::new()
             }
+            Input::FlagsSoFar(flags) => {
+                if self.checks_pending && flags.len() == self.cat.len() {
+                    self.flagged_so_far = flags.iter().filter(|f| !f.is_empty()).count();
+                    self.flags_so_far = Some(flags);
+                    // A sort by flags follows them; no other order moves.
+                    self.forget_flag_orders();
+                    if self.sort == SortKey::Flags {
+                        self.refresh_view();
+                    }
+                }
+                Vec::new()
+            }
             Input::Progress(done, total) => {
                 self.lc_progress = Some((done, total));
                 Vec::new()
             }
             Input::ChecksFailed(text) => {
                 self.checks_pending = false;
+                // No flag is shown that the verdicts have not seen.
+                self.flags_so_far = None;
                 self.message = Some(text);
                 Vec::new()
             }
@@ -686,6 +718,7 @@ impl App {
         }
         self.checks = checks;
         self.checks_pending = false;
+        self.flags_so_far = None;
         self.forget_orders(true);
         self.refresh_view();
     }

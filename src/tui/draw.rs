@@ -312,7 +312,7 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) -> (Rec
                 } else {
                     (verdict.name(), verdict_style(look, verdict))
                 };
-            let mut flags = app.checks.flags(c).joined(",");
+            let mut flags = app.flags(c).joined(",");
             if let Some(SignalResult::Data { diagnostics, .. }) = app.signals.get(&c) {
                 for (f, _) in &diagnostics.findings {
                     if !flags.contains(f.name()) {
@@ -562,7 +562,14 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             },
             match (app.checks_pending, app.lc_progress) {
                 (false, _) => String::new(),
-                (true, None) => format!("checks running: {} % · ", app.checks_percent),
+                (true, None) => match app.flags_so_far {
+                    Some(_) => format!(
+                        "checks running: {} %, {} flagged so far · ",
+                        app.checks_percent,
+                        thousands(app.flagged_so_far)
+                    ),
+                    None => format!("checks running: {} % · ", app.checks_percent),
+                },
                 (true, Some((done, total))) => format!(
                     "checks running: light curves {} / {} · ",
                     thousands(done),

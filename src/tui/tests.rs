@@ -483,7 +483,28 @@ fn checks_arriving_later_feed_the_verdicts() {
             .contains("checks are still running")
     );
     app.message = None;
+    // The flags found so far show at once (the verdicts still wait).
+    let mut so_far = vec![crate::flags::FlagSet::EMPTY; cat.len()];
+    so_far[pair as usize].insert(crate::flags::Flag::Crowded);
+    app.update(Input::FlagsSoFar(so_far));
+    let s = screen(&app, 120, 30);
+    let row = s
+        .lines()
+        .find(|l| l.contains("HWT74304-s1") && l.contains(" open "))
+        .unwrap();
+    assert!(row.contains("crowded") && row.contains("checking"), "{s}");
+    app.lc_progress = None;
+    assert!(
+        screen(&app, 160, 30).contains("checks running: 45 %, 1 flagged so far"),
+        "{}",
+        screen(&app, 160, 30)
+    );
+    assert!(
+        app.star_flags(cat.star_of(pair))
+            .contains(crate::flags::Flag::Crowded)
+    );
     app.update(Input::Checks(Box::new(checks)));
+    assert!(app.flags_so_far.is_none());
     assert!(app.checks.flags(pair).contains(crate::flags::Flag::Crowded));
     assert_eq!(app.live.verdict(pair), crate::odds::Verdict::Likely);
     assert!(!screen(&app, 120, 30).contains("checks running"));

@@ -191,6 +191,16 @@ impl App {
         stars
     }
 
+    /// Forgets the cached orders by flags: the flags shown changed, the
+    /// odds did not.
+    pub(super) fn forget_flag_orders(&mut self) {
+        let (keep, gone) = std::mem::take(&mut self.orders)
+            .into_iter()
+            .partition(|((k, _), _)| *k != SortKey::Flags);
+        self.orders = keep;
+        self.recycle(gone);
+    }
+
     /// Forgets the cached orders whose keys a change of decisions (or, with
     /// `checks`, of flags) can move.
     pub(super) fn forget_orders(&mut self, checks: bool) {
