@@ -225,8 +225,9 @@ impl Catalogue {
 
     /// The extra columns that give a disposition, as indices for
     /// [`Catalogue::extra`]: the one mapped to `disposition` and any other
-    /// whose header is one of its synonyms (an archive table may carry two,
-    /// its own and its pipeline's).
+    /// whose header names one (an archive table may carry two, its own and
+    /// its pipeline's, and spell them its own way: `TFOPWG Disposition`,
+    /// `koi_pdisposition`, `tfopwg_disp`).
     pub fn disposition_columns(&self) -> Vec<usize> {
         let mapped = self
             .columns
@@ -236,9 +237,7 @@ impl Catalogue {
         self.extras
             .iter()
             .enumerate()
-            .filter(|(_, (h, _))| {
-                Some(h.as_str()) == mapped || Field::from_header(h) == Some(Field::Disposition)
-            })
+            .filter(|(_, (h, _))| Some(h.as_str()) == mapped || names_a_disposition(h))
             .map(|(i, _)| i)
             .collect()
     }
@@ -290,4 +289,20 @@ impl Catalogue {
         });
         keyed.into_iter().map(|(_, i)| i).collect()
     }
+}
+
+/// Whether a header names a disposition column: one of the field's
+/// synonyms, or, in lower case with spaces and `-` as `_`, a name holding
+/// `disposition` or ending in `_disp`.
+fn names_a_disposition(header: &str) -> bool {
+    if Field::from_header(header) == Some(Field::Disposition) {
+        return true;
+    }
+    let h: String = header
+        .trim()
+        .to_ascii_lowercase()
+        .chars()
+        .map(|c| if c == ' ' || c == '-' { '_' } else { c })
+        .collect();
+    h.contains("disposition") || h.ends_with("_disp")
 }

@@ -131,12 +131,22 @@ fn an_archive_with_two_disposition_columns_is_read_in_both() {
     let rows = "\
 D2,D2-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,CANDIDATE,CANDIDATE\n\
 D2,D2-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,CANDIDATE,FALSE POSITIVE\n";
-    let cat = load_text(&catalogue("koi_disposition,koi_pdisposition", rows));
-    assert_eq!(cat.disposition_columns().len(), 2);
-    let live = live_of(&cat);
-    assert!(live.flags(id(&cat, "D2-2")).contains(Flag::KnownFp));
-    assert_eq!(live.status(id(&cat, "D2-1")), Status::Held);
-    assert_ne!(live.verdict(id(&cat, "D2-1")), Verdict::Validated);
+    for headers in [
+        "koi_disposition,koi_pdisposition",
+        // Spelled as a table exported for people might: not a synonym, but
+        // a header naming a disposition.
+        "TFOPWG Disposition,Pipeline-Disp",
+    ] {
+        let cat = load_text(&catalogue(headers, rows));
+        assert_eq!(cat.disposition_columns().len(), 2, "{headers}");
+        let live = live_of(&cat);
+        assert!(
+            live.flags(id(&cat, "D2-2")).contains(Flag::KnownFp),
+            "{headers}"
+        );
+        assert_eq!(live.status(id(&cat, "D2-1")), Status::Held, "{headers}");
+        assert_ne!(live.verdict(id(&cat, "D2-1")), Verdict::Validated);
+    }
 }
 
 #[test]

@@ -15,7 +15,7 @@ use crate::flags::Flag;
 /// archives' candidate tables), and the kinds of false positive themselves.
 /// A cell that begins with one of them and goes on after a space or a
 /// mark counts too (`false positive (centroid offset)`, `FP - EB`, `EB?`).
-const FALSE_POSITIVE: [&str; 8] = [
+const FALSE_POSITIVE: [&str; 9] = [
     "false positive",
     "fp",
     "false alarm",
@@ -24,6 +24,7 @@ const FALSE_POSITIVE: [&str; 8] = [
     "eb",
     "blend",
     "not a planet",
+    "refuted",
 ];
 
 /// A disposition cell in one spelling: lower case, `_` and `-` as spaces,
@@ -170,6 +171,7 @@ mod tests {
             "FP - EB",
             "fp/eb",
             "EB?",
+            "REFUTED",
         ] {
             assert!(says_false_positive(yes), "{yes}");
         }
