@@ -205,6 +205,9 @@ pub struct Checks {
     /// The measured fold of each candidate whose light curve was read (see
     /// `Diagnostics::shape`).
     shapes: std::collections::HashMap<CandidateId, [f32; crate::lightcurve::analysis::SHAPE_CELLS]>,
+    /// What the checks say of the catalogue as a whole (an input they could
+    /// not read as meant), for the warnings of every output.
+    notes: Vec<String>,
 }
 
 impl Checks {
@@ -216,7 +219,13 @@ impl Checks {
             findings: Vec::new(),
             groups: SignalGroups::none(n),
             shapes: Default::default(),
+            notes: Vec::new(),
         }
+    }
+
+    /// What the checks say of the catalogue as a whole.
+    pub fn notes(&self) -> &[String] {
+        &self.notes
     }
 
     /// The measured fold of a candidate, once its light curve was read.

@@ -73,13 +73,16 @@ pub fn odds_with(
     checks: &Checks,
     decisions: Vec<Decision>,
 ) -> Result<Live, ModelError> {
-    Live::with_state(
+    let mut live = Live::with_state(
         cat,
         model,
         checks.all_flags().to_vec(),
         checks.groups().clone(),
         decisions,
-    )
+    )?;
+    // What the checks say of the inputs, among the other input warnings.
+    live.input_warnings.extend(checks.notes().iter().cloned());
+    Ok(live)
 }
 
 impl Session {

@@ -576,6 +576,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         match checks_rx.try_recv() {
             Ok((checks, live, run)) => {
                 dirty = true;
+                let note = checks.notes().first().cloned();
                 effects.extend(app.update(Input::ChecksBuilt(Box::new((checks, live)))));
                 if let Some(n) = run.notice {
                     effects.extend(app.update(Input::Notice(n)));
@@ -584,6 +585,8 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                         "{} light curves could not be read (first: {first})",
                         run.errors.len(),
                     ))));
+                } else if let Some(n) = note {
+                    effects.extend(app.update(Input::Notice(n)));
                 }
             }
             Err(mpsc::TryRecvError::Disconnected) if app.checks_pending => {

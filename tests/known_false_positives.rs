@@ -236,6 +236,9 @@ fn every_command_holds_the_siblings_of_a_known_false_positive() {
         assert_ne!(odds[s], "validated", "{s}");
     }
     assert_eq!(odds["T3-1"], "validated");
+    // No word of the test rows is unknown: no warning.
+    let o = starsift(&["odds", c, "--format", "csv"]);
+    assert!(!stderr(&o).contains("read as neither"), "{}", stderr(&o));
     // The summary says where the dispositions come from.
     let s = stdout(&starsift(&["summary", c]));
     assert!(s.contains("disposition"), "{s}");
@@ -272,4 +275,36 @@ fn every_command_holds_the_siblings_of_a_known_false_positive() {
     let odds = verdicts(&["odds", c, "--format", "csv"]);
     assert_eq!(odds["T3-1"], "validated");
     assert_eq!(odds["T3-2"], "validated");
+}
+
+#[test]
+fn dispositions_read_as_neither_are_said_in_every_output() {
+    // A survey's own words: a warning names them and their rows, on stderr
+    // and in the JSON's warnings; the rows are vetted as candidates.
+    let rows = "\
+W,W-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,RETRACTED\n\
+W,W-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,retracted\n\
+X,X-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,under review\n";
+    let dir = scratch("known_fp_unknown_words");
+    let cat = dir.join("cat.csv");
+    std::fs::write(&cat, catalogue("disposition", rows)).unwrap();
+    let c = cat.to_str().unwrap();
+    let o = starsift(&["odds", c, "--targets", "50000", "--format", "csv"]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let e = stderr(&o);
+    assert!(
+        e.contains("the catalogue's disposition holds 3 values read as neither")
+            && e.contains("(3 rows: `RETRACTED` (1), `retracted` (1), `under review` (1))"),
+        "{e}"
+    );
+    let o = starsift(&["odds", c, "--targets", "50000", "--format", "json"]);
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert!(
+        v["warnings"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .any(|w| w.as_str().unwrap().contains("read as neither")),
+        "{v}"
+    );
 }

@@ -27,6 +27,45 @@ const FALSE_POSITIVE: [&str; 9] = [
     "refuted",
 ];
 
+/// Dispositions, after [`normalise`], that leave a candidate to the checks
+/// without a word of warning: planets and candidates as the archives write
+/// them (from memory), and an empty cell.
+const PLANET_OR_CANDIDATE: [&str; 14] = [
+    "",
+    "candidate",
+    "planet candidate",
+    "pc",
+    "apc",
+    "ambiguous planet candidate",
+    "cp",
+    "kp",
+    "confirmed",
+    "confirmed planet",
+    "known planet",
+    "planet",
+    "validated",
+    "not dispositioned",
+];
+
+/// What a disposition cell says.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+enum Said {
+    FalsePositive,
+    PlanetOrCandidate,
+    /// A word this module does not know: vetted as a candidate, and said.
+    Unknown,
+}
+
+fn said(cell: &str) -> Said {
+    if says_false_positive(cell) {
+        Said::FalsePositive
+    } else if PLANET_OR_CANDIDATE.contains(&normalise(cell).as_str()) {
+        Said::PlanetOrCandidate
+    } else {
+        Said::Unknown
+    }
+}
+
 /// A disposition cell in one spelling: lower case, `_` and `-` as spaces,
 /// runs of spaces as one, trimmed.
 fn normalise(cell: &str) -> String {
@@ -82,15 +121,15 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     if columns.is_empty() && flag_columns.is_empty() && fpp.is_none() {
         return;
     }
-    // A table holds a handful of distinct dispositions: each is read once.
-    let mut said: hashbrown::HashMap<&str, bool> = hashbrown::HashMap::new();
+    // A table holds a handful of distinct dispositions: each is read once,
+    // and counted (column, cell) → (what it says, rows).
+    let mut seen: hashbrown::HashMap<(usize, &str), (Said, usize)> = hashbrown::HashMap::new();
     for c in 0..cat.len() as CandidateId {
         for &i in &columns {
             let cell = cat.extra(i, c);
-            let fp = *said
-                .entry(cell)
-                .or_insert_with(|| says_false_positive(cell));
-            if fp {
+            let entry = seen.entry((i, cell)).or_insert_with(|| (said(cell), 0));
+            entry.1 += 1;
+            if entry.0 == Said::FalsePositive {
                 out.add(
                     c,
                     Flag::KnownFp,
@@ -130,6 +169,32 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
                 );
             }
         }
+    }
+    // Words read as neither: said once per column, most rows first.
+    for &i in &columns {
+        let mut unknown: Vec<(&str, usize)> = seen
+            .iter()
+            .filter(|((col, _), (what, _))| *col == i && *what == Said::Unknown)
+            .map(|((_, cell), (_, n))| (*cell, *n))
+            .collect();
+        if unknown.is_empty() {
+            continue;
+        }
+        unknown.sort_unstable_by(|a, b| b.1.cmp(&a.1).then(a.0.cmp(b.0)));
+        let rows: usize = unknown.iter().map(|u| u.1).sum();
+        let listed: Vec<String> = unknown
+            .iter()
+            .take(5)
+            .map(|(cell, n)| format!("`{}` ({n})", crate::sanitize::clean(cell.trim())))
+            .collect();
+        out.notes.push(format!(
+            "the catalogue's {} holds {} value{} read as neither a false positive nor a planet or candidate ({rows} rows: {}{}): those rows are vetted as candidates (docs/science.md §3.5)",
+            headers[i],
+            unknown.len(),
+            if unknown.len() == 1 { "" } else { "s" },
+            listed.join(", "),
+            if unknown.len() > 5 { ", …" } else { "" }
+        ));
     }
 }
 
