@@ -297,6 +297,13 @@ X,X-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,under review\n";
             && e.contains("(3 rows: `RETRACTED` (1), `retracted` (1), `under review` (1))"),
         "{e}"
     );
+    // `checks` says it too, with or without the model's N.
+    for extra in [&["--targets", "50000"][..], &[][..]] {
+        let mut args = vec!["checks", c, "--format", "csv"];
+        args.extend_from_slice(extra);
+        let o = starsift(&args);
+        assert!(stderr(&o).contains("read as neither"), "{}", stderr(&o));
+    }
     let o = starsift(&["odds", c, "--targets", "50000", "--format", "json"]);
     let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
     assert!(

@@ -73,6 +73,10 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         if let Err(e) = &session.live {
             eprintln!("starsift: note: no verdicts: {e}");
         }
+        // What the checks say of the inputs (without verdicts too).
+        for n in ch.notes() {
+            eprintln!("starsift: warning: {}", clean(n));
+        }
     }
     let rows: Vec<CandidateId> = (0..cat.len() as CandidateId)
         .filter(|&c| only.is_none_or(|f| ch.flags(c).contains(f) || ch.warnings(c).contains(f)))
