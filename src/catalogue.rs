@@ -11,7 +11,7 @@ use std::hash::BuildHasher;
 use std::sync::Arc;
 
 pub use columns::{ColumnMap, ColumnUse, DepthUnit, FIELDS, Field, Mapping, NUMERIC, REQUIRED};
-pub use load::{LoadOptions, Source, parse_number};
+pub use load::{LoadOptions, Source, is_missing, parse_number};
 use pool::StrPool;
 use serde::Serialize;
 

@@ -59,7 +59,10 @@ enum Said {
 fn said(cell: &str) -> Said {
     if says_false_positive(cell) {
         Said::FalsePositive
-    } else if PLANET_OR_CANDIDATE.contains(&normalise(cell).as_str()) {
+    } else if crate::catalogue::is_missing(cell.as_bytes())
+        || PLANET_OR_CANDIDATE.contains(&normalise(cell).as_str())
+    {
+        // Missing (`NA`, `null`...) says nothing, as an empty cell.
         Said::PlanetOrCandidate
     } else {
         Said::Unknown
@@ -216,6 +219,27 @@ mod tests {
         for unset in ["0", "0.0", "", "nan", "no", "false", "-"] {
             assert!(!flag_is_set(unset), "{unset}");
         }
+    }
+
+    #[test]
+    fn missing_and_known_words_say_nothing_others_are_unknown() {
+        for quiet in [
+            "",
+            " ",
+            "NA",
+            "null",
+            "N/A",
+            "CANDIDATE",
+            "Confirmed",
+            "PC",
+            "not-dispositioned",
+        ] {
+            assert_eq!(said(quiet), Said::PlanetOrCandidate, "{quiet}");
+        }
+        for unknown in ["RETRACTED", "under review", "?"] {
+            assert_eq!(said(unknown), Said::Unknown, "{unknown}");
+        }
+        assert_eq!(said("FALSE POSITIVE"), Said::FalsePositive);
     }
 
     #[test]

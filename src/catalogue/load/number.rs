@@ -15,6 +15,12 @@ pub(super) const MISSING_TOKENS: [&[u8]; 9] = [
     b"", b"nan", b"NaN", b"NAN", b"null", b"NULL", b"NA", b"N/A", b"--",
 ];
 
+/// Whether a cell means "no value" (one of [`MISSING_TOKENS`], spaces
+/// aside): for text fields read elsewhere, the same tokens as for numbers.
+pub fn is_missing(raw: &[u8]) -> bool {
+    MISSING_TOKENS.contains(&raw.trim_ascii())
+}
+
 pub(super) fn parse_cell(raw: &[u8]) -> Cell {
     let b = raw.trim_ascii();
     if let Some(v) = fast_f64(b) {
