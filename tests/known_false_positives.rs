@@ -12,7 +12,7 @@ mod common;
 use common::{HEAD, background, load_text, scratch, starsift, stderr, stdout};
 use starsift::catalogue::{CandidateId, Catalogue};
 use starsift::checks::{CheckSettings, SignalGroups};
-use starsift::decision::Decision;
+use starsift::decision::{Decision, Reason};
 use starsift::flags::{Flag, FlagSet};
 use starsift::odds::{Hold, Live, Model, Status, Verdict};
 
@@ -108,6 +108,17 @@ fn the_catalogues_own_false_positives_lend_no_multiplicity() {
         line.contains("4 on a star with a known false positive"),
         "{line}"
     );
+    // A vetter's rejection says what the member is, over the catalogue:
+    // TRI-3 rejected as an artefact marks nothing, and TRI-1 and TRI-2 are
+    // a pair again; rejected as a blend, it holds them back once more.
+    let mut live = live;
+    live.set_decision(c("TRI-3"), Decision::Rejected(Reason::Artefact));
+    assert_eq!(live.k(c("TRI-1")), 2);
+    assert_eq!(live.verdict(c("TRI-2")), Verdict::Validated);
+    assert!(live.same_odds_state(&live.rebuilt(&cat).unwrap()));
+    live.set_decision(c("TRI-3"), Decision::Rejected(Reason::Blend));
+    assert_eq!(live.status(c("TRI-1")), Status::Held);
+    assert!(live.same_odds_state(&live.rebuilt(&cat).unwrap()));
     // The same rows without the two columns: the false positives count, and
     // their siblings were validated (what this rule is for).
     let bare: String = ROWS

@@ -451,8 +451,8 @@ impl Live {
     }
 
     /// The first of `members` (one star's) that is a known false positive
-    /// under `decision`: rejected as one, or flagged as one while standing
-    /// for its signal. A copy's flags are not its own: an alias folded at
+    /// under `decision`: rejected as one, or, not rejected, flagged as one
+    /// while standing for its signal. A copy's flags are not its own: an alias folded at
     /// twice the period shows its own transit at phase 0.5, a `secondary`
     /// that says nothing of the star.
     fn known_fp_among(
@@ -461,9 +461,10 @@ impl Live {
         decision: impl Fn(CandidateId) -> Decision,
     ) -> Option<CandidateId> {
         members.iter().copied().find(|&m| {
-            let d = decision(m);
-            if d.reason().is_some_and(names_false_positive) {
-                return true;
+            // A vetter's rejection says what the member is, over its flags:
+            // rejected as an artefact, say, it marks nothing.
+            if let Some(r) = decision(m).reason() {
+                return names_false_positive(r);
             }
             if !self.flags[m as usize].intersects(self.fp_signs()) {
                 return false;
