@@ -39,9 +39,9 @@ impl Live {
         }
         let members = self.index.members(self.star_of(c));
         let fp = self.known_fp_among(members, |m| self.decision[m as usize])?;
-        let reason = self.decision[fp as usize]
-            .reason()
-            .filter(|&r| names_false_positive(r));
+        // A rejected member marks its star only when rejected as a false
+        // positive (`known_fp_among`): its reason is that one.
+        let reason = self.decision[fp as usize].reason();
         let flags = self.flags[fp as usize].intersection(self.fp_signs());
         Some(Hold::Sibling { fp, reason, flags })
     }
