@@ -103,6 +103,30 @@ LS,LS-2,11.9,0.00001,101.3,0.001,90,3.6,5,0.3,1,1,5772\n",
 }
 
 #[test]
+fn one_binary_found_by_two_searches_years_apart_is_not_a_system() {
+    // Invented: one eclipsing binary found by a mission-long search at its
+    // period (precise, late epoch) and by an early sector's search at twice
+    // it (loose, 220 of its cycles earlier), with and without period errors.
+    // Carried across the years, each ephemeris lands on the other's
+    // transits within its own propagated error (docs/science.md §3.1): one
+    // signal, so no star here is a system and nothing is validated.
+    let text = format!(
+        "{HEAD}{}\
+EA,EA-1,2.50001,0.00002,1200.0,0.001,8000,2.4,60,0.3,1,1,5772\n\
+EA,EA-2,5.0016,0.0008,100.0,0.002,8000,2.4,40,0.3,1,1,5772\n\
+EB,EB-1,2.50001,,1200.0,,8000,2.4,60,0.3,1,1,5772\n\
+EB,EB-2,5.0016,,100.0,,8000,2.4,40,0.3,1,1,5772\n",
+        background()
+    );
+    let (cat, live) = vet(&text);
+    for s in ["EA-1", "EA-2", "EB-1", "EB-2"] {
+        assert_ne!(live.verdict(id(&cat, s)), Verdict::Validated, "{s}");
+        assert!(live.k(id(&cat, s)) <= 1, "{s}");
+    }
+    assert_eq!(live.status(id(&cat, "EA-2")), Status::Held);
+}
+
+#[test]
 fn rejecting_a_copy_or_the_signal_itself() {
     let text = format!(
         "{HEAD}{}\

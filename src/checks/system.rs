@@ -98,6 +98,113 @@ fn given(v: f64) -> Option<f64> {
     (!v.is_nan()).then_some(v)
 }
 
+/// Whether b's transits fall on a's, and how far they were carried to be
+/// compared.
+struct Together {
+    yes: bool,
+    /// b's transit nearest a's epoch, from a's transits, days.
+    off_d: f64,
+    /// What made the transits together beyond the durations and the epochs'
+    /// own errors: the cycles an ephemeris was carried, or a missing epoch.
+    carried: Option<Carried>,
+}
+
+struct Carried {
+    cycles: f64,
+    allow_d: f64,
+    by_error: bool,
+}
+
+impl Together {
+    /// The words added to a link's detail where carrying was needed.
+    fn carried(&self) -> String {
+        self.carried.as_ref().map_or(String::new(), |c| {
+            format!(
+                ", within the {:.2} h that {:.0} cycles of the {} allow",
+                c.allow_d * 24.0,
+                c.cycles,
+                if c.by_error {
+                    "period's error"
+                } else {
+                    "periods' disagreement"
+                }
+            )
+        })
+    }
+}
+
+/// Whether b's transits fall on a's, b's period being about n·P_a
+/// (docs/science.md §3.1). An ephemeris is surest near its own epoch, and
+/// two searches of one signal (a sector's and a mission's, say) can give
+/// epochs years apart, so the test is made at both epochs: b's ephemeris
+/// carried to a's epoch, and a's carried to b's. A carried transit time is
+/// uncertain by σ² = σ_Ea² + σ_Eb² + N²σ_P² for N cycles of the carried
+/// period (a missing epoch error counts 0). A period given without an error
+/// is given the pair's own disagreement instead, |P_b − n·P_a| at b's
+/// period (a n-th of it at a's): one of the two is off by about that much.
+/// Together when the offset at either epoch is within the longer duration
+/// plus 3σ. (The loader keeps no row without an epoch; were one missing,
+/// nothing would tell the transits apart: together.)
+fn together(a: &Member, b: &Member, n: f64, t14_d: f64) -> Together {
+    let (ea, eb) = (a.epoch, b.epoch);
+    if ea.is_nan() || eb.is_nan() {
+        return Together {
+            yes: true,
+            off_d: 0.0,
+            carried: None,
+        };
+    }
+    let (pa, pb) = (a.period, b.period);
+    let var_e =
+        given(a.epoch_err).unwrap_or(0.0).powi(2) + given(b.epoch_err).unwrap_or(0.0).powi(2);
+    let disagreement = (pb - n * pa).abs();
+    let (err_a, err_b) = (given(a.period_err), given(b.period_err));
+    // At a's epoch: b's transit nearest it, carried nb cycles of P_b.
+    let nb = ((ea - eb) / pb).round();
+    let off_a = phase_offset_d(ea, pa, eb + nb * pb);
+    let sigma_pb = err_b.unwrap_or(disagreement);
+    let allow_a = t14_d + 3.0 * (var_e + (nb * sigma_pb).powi(2)).sqrt();
+    // At b's epoch: a's transit nearest it, carried na cycles of P_a.
+    let na = ((eb - ea) / pa).round();
+    let off_b = phase_offset_d(ea, pa, eb);
+    let sigma_pa = err_a.unwrap_or(disagreement / n);
+    let allow_b = t14_d + 3.0 * (var_e + (na * sigma_pa).powi(2)).sqrt();
+    let plain = t14_d + 3.0 * var_e.sqrt();
+    let carried = |n: f64, allow_d: f64, off: f64, by_error: bool| {
+        (off.abs() > plain).then_some(Carried {
+            cycles: n.abs(),
+            allow_d,
+            by_error,
+        })
+    };
+    // Of the tests that pass, the one that finds the transits closer.
+    let at_a = (off_a.abs() <= allow_a).then(|| Together {
+        yes: true,
+        off_d: off_a,
+        carried: carried(nb, allow_a, off_a, err_b.is_some()),
+    });
+    let at_b = (off_b.abs() <= allow_b).then(|| Together {
+        yes: true,
+        off_d: off_b,
+        carried: carried(na, allow_b, off_b, err_a.is_some()),
+    });
+    match (at_a, at_b) {
+        (Some(x), Some(y)) => {
+            if y.off_d.abs() < x.off_d.abs() {
+                y
+            } else {
+                x
+            }
+        }
+        (Some(x), None) | (None, Some(x)) => x,
+        (None, None) => Together {
+            yes: false,
+            off_d: off_a,
+            carried: None,
+        },
+    }
+}
+
 /// Buffers reused from star to star.
 #[derive(Default)]
 pub(super) struct Scratch {
@@ -179,33 +286,22 @@ pub(super) fn check(
                 .unwrap_or(0.0)
                 .max(given(mb.duration_h).unwrap_or(0.0))
                 / 24.0;
-            let epoch_sigma = match (given(ma.epoch_err), given(mb.epoch_err)) {
-                (Some(x), Some(y)) => 3.0 * x.hypot(y),
-                _ => 0.0,
-            };
-            let (ea, eb) = (
-                given(ma.epoch).unwrap_or(0.0),
-                given(mb.epoch).unwrap_or(0.0),
-            );
-            // b's transit nearest a's epoch, then its offset from a's
-            // transits (modulo the shorter period).
-            let eb_near = eb + ((ea - eb) / pb).round() * pb;
-            let off = phase_offset_d(ea, pa, eb_near);
-            let together = off.abs() <= t14_d + epoch_sigma;
             if (r - 1.0).abs() <= tol(1.0) {
-                if together {
+                let t = together(ma, mb, 1.0, t14_d);
+                if t.yes {
                     links.push(Link {
                         a,
                         b,
                         flag: Flag::NearTwin,
                         detail: format!(
-                            "period ratio {r:.6} (within {:.1e} of 1) and transits {:.2} h apart: one signal found twice",
+                            "period ratio {r:.6} (within {:.1e} of 1) and transits {:.2} h apart{}: one signal found twice",
                             tol(1.0),
-                            off.abs() * 24.0
+                            t.off_d.abs() * 24.0,
+                            t.carried()
                         ),
                     });
                 } else {
-                    let phase = (off / pa).rem_euclid(1.0);
+                    let phase = (t.off_d / pa).rem_euclid(1.0);
                     links.push(Link {
                         a,
                         b,
@@ -220,14 +316,19 @@ pub(super) fn check(
             }
             for n in 2..=s.harmonic_max {
                 let nf = n as f64;
-                if (r - nf).abs() <= tol(nf) && together {
+                if (r - nf).abs() > tol(nf) {
+                    continue;
+                }
+                let t = together(ma, mb, nf, t14_d);
+                if t.yes {
                     links.push(Link {
                         a,
                         b,
                         flag: Flag::Harmonic,
                         detail: format!(
-                            "period ratio {r:.6} ≈ {n} and every transit of the longer falls on one of the shorter (offset {:.2} h): one signal at two periods",
-                            off.abs() * 24.0
+                            "period ratio {r:.6} ≈ {n} and every transit of the longer falls on one of the shorter (offset {:.2} h{}): one signal at two periods",
+                            t.off_d.abs() * 24.0,
+                            t.carried()
                         ),
                     });
                 }

@@ -237,6 +237,61 @@ R,R-2,10.0,0.00002,102.5,0.001,450,3.8,18,0.3,1,1,5772,,,\n"
 }
 
 #[test]
+fn one_signal_found_by_two_searches_years_apart_is_one_signal() {
+    // Invented: one eclipsing binary (true period 2.5 d) found twice, at P
+    // by a mission-long search (period ±0.00002 d, epoch 1200.0) and at 2P
+    // by one early sector's search (period ±0.0008 d, epoch 100.0, 1,100
+    // days and 220 of its cycles before). Carried those 220 cycles, the
+    // sector's ephemeris lands 8.4 h from the mission's transit, more than
+    // T14 + 3σ of the epochs (2.6 h), but well within its own propagated
+    // error, 3 × 220 × 0.0008 d = 12.7 h; carried the other way, the
+    // mission's ephemeris (440 cycles × 0.00002 d) lands 0.11 h from the
+    // sector's transit (docs/science.md §3.1). Without period errors, the
+    // pair's own disagreement (|5.0016 − 2 × 2.50001| d) stands for them.
+    // A resonant pair of precise periods stays two planets however far
+    // apart its epochs (carried 150 cycles: 0.003 d, against an offset of
+    // 2.5 d).
+    let text = format!(
+        "{HEAD}\
+A,A-1,2.50001,0.00002,1200.0,0.001,8000,2.4,60,0.3,1,1,5772,,,\n\
+A,A-2,5.0016,0.0008,100.0,0.002,8000,2.4,40,0.3,1,1,5772,,,\n\
+B,B-1,2.50001,,1200.0,,8000,2.4,60,0.3,1,1,5772,,,\n\
+B,B-2,5.0016,,100.0,,8000,2.4,40,0.3,1,1,5772,,,\n\
+R,R-1,5.0,0.00001,100.0,0.001,500,3,20,0.3,1,1,5772,,,\n\
+R,R-2,10.0,0.00002,1602.5,0.001,450,3.8,18,0.3,1,1,5772,,,\n"
+    );
+    let (c, ch) = loaded_and_checked(&text);
+    for copy in ["A-2", "B-2"] {
+        assert!(
+            flagged(&c, &ch, copy, Flag::Harmonic),
+            "{copy}: {}",
+            ch.why(c.find_candidate(copy).unwrap())
+        );
+    }
+    let why = |s: &str| ch.why(c.find_candidate(s).unwrap());
+    assert!(why("A-2").contains("offset 0.11 h"), "{}", why("A-2"));
+    assert!(
+        ch.groups()
+            .group_of(c.find_candidate("R-1").unwrap())
+            .is_none()
+    );
+    assert!(!flagged(&c, &ch, "R-2", Flag::Harmonic), "{}", why("R-2"));
+
+    // Only one way carried and only by the error: the mission's period is
+    // given loosely too, so the test at its epoch fails (carried 440
+    // cycles of ±0.0004 d its ephemeris lands anywhere in the orbit; the
+    // sector's, carried to 1200.0, passes as above).
+    let loose = text.replace("A,A-1,2.50001,0.00002", "A,A-1,2.5012,0.0004");
+    let (c, ch) = loaded_and_checked(&loose);
+    let why = ch.why(c.find_candidate("A-2").unwrap());
+    assert!(flagged(&c, &ch, "A-2", Flag::Harmonic), "{why}");
+    assert!(
+        why.contains("within the") && why.contains("220 cycles of the period's error"),
+        "{why}"
+    );
+}
+
+#[test]
 fn echo_flags_the_fainter_copy() {
     let text = format!(
         "{HEAD}\
