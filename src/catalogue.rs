@@ -91,6 +91,21 @@ pub struct Skip {
     /// The file's own header for the offending column, if one is to blame.
     pub column: Option<String>,
     pub reason: String,
+    /// What the row said of its star, where it said anything a verdict
+    /// needs (docs/science.md §3.5): a skipped row may be the one that
+    /// calls a candidate of a loaded star a false positive.
+    #[serde(skip)]
+    pub row: Option<Box<SkippedRow>>,
+}
+
+/// What a skipped row said of its star, as the file gave it: the star id
+/// and the non-empty cells of the columns that carry earlier verdicts (a
+/// disposition, a false-positive flag, `fpp`; [`names_earlier_verdicts`]),
+/// by header.
+#[derive(Clone, Debug, PartialEq)]
+pub struct SkippedRow {
+    pub star: String,
+    pub cells: Vec<(String, String)>,
 }
 
 /// Index of a candidate (a row that loaded), in file order.
@@ -242,6 +257,19 @@ impl Catalogue {
             .collect()
     }
 
+    /// Rows that did not load, in one line for every output: how many, and
+    /// the first with its line and reason; `None` when every row loaded.
+    pub fn skipped_line(&self) -> Option<String> {
+        let first = self.skipped.first()?;
+        let n = self.skipped.len();
+        Some(format!(
+            "{n} row{} skipped; first: line {} ({}); `starsift summary` lists them all",
+            if n == 1 { "" } else { "s" },
+            first.line,
+            first.reason
+        ))
+    }
+
     pub fn find_candidate(&self, id: &str) -> Option<CandidateId> {
         let h = self.hasher.hash_one(id.as_bytes());
         self.candidate_lookup
@@ -291,10 +319,25 @@ impl Catalogue {
     }
 }
 
+/// Whether a column carries an earlier verdict on its rows: a disposition
+/// (by its header, or mapped to `disposition` by the caller), a
+/// false-positive flag, or the mapped `fpp` (docs/science.md §3.5).
+pub fn names_earlier_verdicts(header: &str) -> bool {
+    names_a_disposition(header) || names_an_fp_flag(header)
+}
+
+/// Whether an extra column is a false-positive flag of an archive table
+/// (`koi_fpflag_ss`, `koi_fpflag_co`... from memory of the archive's
+/// column list; `fp_flag`): a header holding `fpflag` or `fp_flag`.
+pub fn names_an_fp_flag(header: &str) -> bool {
+    let h = header.trim().to_ascii_lowercase();
+    h.contains("fpflag") || h.contains("fp_flag")
+}
+
 /// Whether a header names a disposition column: one of the field's
 /// synonyms, or, in lower case with spaces and `-` as `_`, a name holding
 /// `disposition` or ending in `_disp`.
-fn names_a_disposition(header: &str) -> bool {
+pub fn names_a_disposition(header: &str) -> bool {
     if Field::from_header(header) == Some(Field::Disposition) {
         return true;
     }

@@ -12,6 +12,7 @@ mod progress;
 mod system;
 
 pub use groups::SignalGroups;
+pub use known::UnreadFp;
 pub use progress::CheckProgress;
 
 use crate::catalogue::{CandidateId, Catalogue, Field};
@@ -208,6 +209,9 @@ pub struct Checks {
     /// What the checks say of the catalogue as a whole (an input they could
     /// not read as meant), for the warnings of every output.
     notes: Vec<String>,
+    /// Stars that a skipped row calls the host of a false positive
+    /// (`known::flag`), by star.
+    unread_fp: Vec<UnreadFp>,
 }
 
 impl Checks {
@@ -220,7 +224,14 @@ impl Checks {
             groups: SignalGroups::none(n),
             shapes: Default::default(),
             notes: Vec::new(),
+            unread_fp: Vec::new(),
         }
+    }
+
+    /// The stars a skipped row calls the host of a false positive, by star
+    /// (docs/science.md §3.5).
+    pub fn unread_fp(&self) -> &[UnreadFp] {
+        &self.unread_fp
     }
 
     /// What the checks say of the catalogue as a whole.

@@ -626,6 +626,9 @@ pub fn hold_text(
             };
             format!("its star hosts a known false positive: {}, {why}", id(fp))
         }
+        Some(Hold::UnreadSibling { why, .. }) => {
+            format!("its star hosts a known false positive: {why}")
+        }
     }
 }
 

@@ -73,12 +73,13 @@ pub fn odds_with(
     checks: &Checks,
     decisions: Vec<Decision>,
 ) -> Result<Live, ModelError> {
-    let mut live = Live::with_state(
+    let mut live = Live::with_evidence(
         cat,
         model,
         checks.all_flags().to_vec(),
         checks.groups().clone(),
         decisions,
+        checks.unread_fp().to_vec(),
     )?;
     // What the checks say of the inputs, among the other input warnings.
     live.input_warnings.extend(checks.notes().iter().cloned());
@@ -199,6 +200,9 @@ impl Session {
 
     /// Prints the light-curve errors and the held-back line on stderr.
     pub fn warn(&self) {
+        if let Some(s) = self.loaded.catalogue.skipped_line() {
+            eprintln!("starsift: warning: {}", clean(&s));
+        }
         for (star, e) in &self.lightcurve_errors {
             eprintln!("starsift: warning: star {}: {}", clean(star), clean(e));
         }

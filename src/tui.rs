@@ -171,17 +171,10 @@ fn build_app_counting(
     Ok((app, finder))
 }
 
-/// Rows that did not load, said as the browser opens: how many, and the
-/// first with its line and reason.
+/// Rows that did not load, said as the browser opens
+/// (`Catalogue::skipped_line`).
 fn skipped_message(cat: &crate::catalogue::Catalogue) -> Option<String> {
-    let first = cat.skipped.first()?;
-    let n = cat.skipped.len();
-    Some(format!(
-        "{n} row{} skipped; first: line {} ({}); `starsift summary` lists them all",
-        if n == 1 { "" } else { "s" },
-        first.line,
-        first.reason
-    ))
+    cat.skipped_line()
 }
 
 /// `$XDG_STATE_HOME/starsift/positions.json` (else `~/.local/state/...`):

@@ -224,23 +224,38 @@ AB,AB-3,21.3,0.00001,102.0,0.001,640,4.6,26,0.3,1,1,5772\n";
     assert_eq!(live.status(a), Status::Counted);
 }
 
-#[test]
-fn every_command_holds_the_siblings_of_a_known_false_positive() {
-    let dir = scratch("known_fp_commands");
+/// The catalogue `text` written for test `test`, with a survey.toml giving
+/// N beside it.
+fn written(test: &str, text: &str) -> std::path::PathBuf {
+    let dir = scratch(test);
     let cat = dir.join("cat.csv");
-    std::fs::write(&cat, catalogue("disposition,fpp", ROWS)).unwrap();
+    std::fs::write(&cat, text).unwrap();
     std::fs::write(dir.join("survey.toml"), "targets_searched = 50000\n").unwrap();
-    let c = cat.to_str().unwrap();
-    // Each candidate's verdict (its k left aside: held candidates show 0).
-    let verdicts = |args: &[&str]| -> std::collections::BTreeMap<String, String> {
-        common::k_and_verdict(args)
-            .into_iter()
-            .map(|(c, (_, v))| (c, v))
-            .collect()
-    };
+    cat
+}
+
+/// Each candidate's verdict from a command's CSV (its k left aside: held
+/// candidates show 0).
+fn verdicts(args: &[&str]) -> std::collections::BTreeMap<String, String> {
+    common::k_and_verdict(args)
+        .into_iter()
+        .map(|(c, (_, v))| (c, v))
+        .collect()
+}
+
+/// The verdicts of `odds`, checked to be those of `export` and `checks`.
+fn agreed(c: &str) -> std::collections::BTreeMap<String, String> {
     let odds = verdicts(&["odds", c, "--format", "csv"]);
     assert_eq!(odds, verdicts(&["export", c, "--format", "csv"]));
     assert_eq!(odds, verdicts(&["checks", c, "--format", "csv"]));
+    odds
+}
+
+#[test]
+fn every_command_holds_the_siblings_of_a_known_false_positive() {
+    let cat = written("known_fp_commands", &catalogue("disposition,fpp", ROWS));
+    let c = cat.to_str().unwrap();
+    let odds = agreed(c);
     for s in [
         "SIB-1", "SIB-2", "TRI-1", "TRI-2", "TRI-3", "FPP-1", "FPP-2",
     ] {
@@ -324,5 +339,83 @@ X,X-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,under review\n";
             .iter()
             .any(|w| w.as_str().unwrap().contains("read as neither")),
         "{v}"
+    );
+}
+
+#[test]
+fn a_false_positive_only_a_skipped_row_names_still_holds_its_star() {
+    // Invented rows as archive tables give them. SK-3's fitted values are
+    // blank (the row cannot load: no period) but its disposition says
+    // FALSE POSITIVE; KD-1 is listed twice, one row per reference, the
+    // second calling it a false positive (the loader keeps the first row
+    // of an id); KP-2's second row gives fpp 0.93. Each star hosts a known
+    // false positive that no loaded row shows: its candidates are held back
+    // (docs/science.md §3.5), in every command, with a warning that names
+    // the line. UN-3, skipped for the same reason but a candidate, holds
+    // nothing.
+    let rows = "\
+SK,SK-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,CANDIDATE,\n\
+SK,SK-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,CANDIDATE,\n\
+SK,SK-3,,,,,,,,,1,1,5772,FALSE POSITIVE,\n\
+KD,KD-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,CANDIDATE,\n\
+KD,KD-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,CANDIDATE,\n\
+KD,KD-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,FALSE POSITIVE,\n\
+KP,KP-1,4.5,0.00001,100.5,0.001,700,3.0,30,0.3,1,1,5772,PC,\n\
+KP,KP-2,10.6,0.00001,101.5,0.001,650,3.6,28,0.3,1,1,5772,PC,\n\
+KP,KP-2,10.6,0.00001,101.5,0.001,650,3.6,28,0.3,1,1,5772,PC,0.93\n\
+UN,UN-1,4.7,0.00001,100.7,0.001,700,3.0,30,0.3,1,1,5772,PC,\n\
+UN,UN-2,11.2,0.00001,101.7,0.001,650,3.6,28,0.3,1,1,5772,PC,\n\
+UN,UN-3,,,,,,,,,1,1,5772,PC,\n";
+    let text = catalogue("disposition,fpp", rows);
+    let cat = load_text(&text);
+    assert_eq!(cat.skipped.len(), 4);
+    let checks = starsift::checks::run(&cat, &CheckSettings::default());
+    let live = starsift::session::odds_with(
+        &cat,
+        Model {
+            targets: Some(50_000),
+            ..Model::default()
+        },
+        &checks,
+        vec![Decision::Open; cat.len()],
+    )
+    .unwrap();
+    for s in ["SK-1", "SK-2", "KD-1", "KD-2", "KP-1", "KP-2"] {
+        let c = id(&cat, s);
+        assert_eq!(live.status(c), Status::Held, "{s}");
+        assert_ne!(live.verdict(c), Verdict::Validated, "{s}");
+        assert!(
+            matches!(live.hold(c), Some(Hold::UnreadSibling { .. })),
+            "{s}: {:?}",
+            live.hold(c)
+        );
+    }
+    for s in ["UN-1", "UN-2"] {
+        assert_eq!(live.verdict(id(&cat, s)), Verdict::Validated, "{s}");
+    }
+    // Rebuilt from nothing, the same.
+    let again = live.rebuilt(&cat).unwrap();
+    for c in 0..cat.len() as CandidateId {
+        assert_eq!(again.status(c), live.status(c));
+    }
+    // Every command: the same verdicts, and the warning naming the lines.
+    let file = written("known_fp_skipped_rows", &text);
+    let c = file.to_str().unwrap();
+    let odds = agreed(c);
+    assert_eq!(odds["SK-1"], "likely");
+    assert_eq!(odds["UN-1"], "validated");
+    let o = starsift(&["odds", c, "--format", "csv"]);
+    let e = stderr(&o);
+    assert!(
+        e.contains("3 stars host a false positive only a skipped row names")
+            && e.contains("line ")
+            && e.contains("says disposition `FALSE POSITIVE` and was skipped (period_d: missing)")
+            && e.contains("says fpp 0.93"),
+        "{e}"
+    );
+    assert!(
+        stdout(&o).contains("its star hosts a known false positive: line "),
+        "{}",
+        stdout(&o)
     );
 }

@@ -16,7 +16,7 @@ use super::columns::{ColumnMap, ColumnUse, DepthUnit, Field, Mapping, NUMERIC, R
 use super::formats::{self, TableFormat};
 use super::pool::StrPool;
 use super::units;
-use super::{CandidateId, Catalogue, LoadError, Skip, StarId};
+use super::{CandidateId, Catalogue, LoadError, Skip, SkippedRow, StarId};
 
 mod ids;
 mod merge;

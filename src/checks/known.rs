@@ -7,7 +7,7 @@
 //! candidates the odds hold back too (`odds::live`).
 
 use super::Checks;
-use crate::catalogue::{CandidateId, Catalogue, Field};
+use crate::catalogue::{CandidateId, Catalogue, Field, SkippedRow, StarId};
 use crate::flags::Flag;
 
 /// Dispositions that name a false positive, after [`normalise`]: the
@@ -91,14 +91,6 @@ pub fn says_false_positive(cell: &str) -> bool {
     })
 }
 
-/// Whether an extra column is a false-positive flag of an archive table
-/// (`koi_fpflag_ss`, `koi_fpflag_co`... from memory of the archive's
-/// column list; `fp_flag`): a header holding `fpflag` or `fp_flag`.
-fn is_fp_flag_column(header: &str) -> bool {
-    let h = header.trim().to_ascii_lowercase();
-    h.contains("fpflag") || h.contains("fp_flag")
-}
-
 /// Whether a false-positive flag's cell is set: a number other than 0, or
 /// `true`/`yes`/`y`. Empty and unreadable cells are not.
 fn flag_is_set(cell: &str) -> bool {
@@ -113,12 +105,108 @@ fn flag_is_set(cell: &str) -> bool {
 /// than a planet (odds 1:1): a definition, not a tuning.
 pub const FPP_EVEN: f64 = 0.5;
 
+/// A star that a row the loader skipped calls the host of a false
+/// positive: the row's candidate is not in the catalogue, but what it says
+/// of the star holds (docs/science.md §3.5).
+#[derive(Clone, Debug, PartialEq)]
+pub struct UnreadFp {
+    pub star: StarId,
+    /// The skipped row's line in the file.
+    pub line: u64,
+    /// What it says and why it was skipped, for people.
+    pub why: String,
+}
+
+/// What a skipped row's cells say of a false positive, read as a loaded
+/// row's are: a disposition that names one, a set false-positive flag, or
+/// an fpp of at least [`FPP_EVEN`]. `disposition` and `fpp` are the
+/// headers mapped to those fields.
+fn skipped_row_says(
+    row: &SkippedRow,
+    disposition: Option<&str>,
+    fpp: Option<&str>,
+) -> Option<String> {
+    row.cells.iter().find_map(|(h, v)| {
+        let clean = || crate::sanitize::clean(v.trim()).into_owned();
+        let h_clean = crate::sanitize::clean(h);
+        if Some(h.as_str()) == fpp {
+            let p: f64 = v.trim().parse().ok()?;
+            (FPP_EVEN..=1.0)
+                .contains(&p)
+                .then(|| format!("fpp {}", clean()))
+        } else if Some(h.as_str()) == disposition || crate::catalogue::names_a_disposition(h) {
+            says_false_positive(v).then(|| format!("{h_clean} `{}`", clean()))
+        } else if crate::catalogue::names_an_fp_flag(h) {
+            flag_is_set(v).then(|| format!("{h_clean} {}", clean()))
+        } else {
+            None
+        }
+    })
+}
+
+/// The stars that skipped rows call the host of a false positive, by star
+/// (the first such row of each), and a note naming them.
+fn unread(cat: &Catalogue, out: &mut Checks) {
+    let mapped = |f: Field| {
+        cat.columns
+            .iter()
+            .find(|u| u.field == f.name())
+            .map(|u| u.header.as_str())
+    };
+    let (disposition, fpp) = (mapped(Field::Disposition), mapped(Field::Fpp));
+    let mut found: Vec<UnreadFp> = cat
+        .skipped
+        .iter()
+        .filter_map(|skip| {
+            let row = skip.row.as_deref()?;
+            let star = cat.find_star(&row.star)?;
+            let said = skipped_row_says(row, disposition, fpp)?;
+            Some(UnreadFp {
+                star,
+                line: skip.line,
+                why: format!(
+                    "line {} says {said} and was skipped ({})",
+                    skip.line,
+                    crate::sanitize::clean(&skip.reason)
+                ),
+            })
+        })
+        .collect();
+    found.sort_by_key(|u| u.star);
+    found.dedup_by_key(|u| u.star);
+    if found.is_empty() {
+        return;
+    }
+    let listed: Vec<String> = found
+        .iter()
+        .take(3)
+        .map(|u| {
+            format!(
+                "star {}: {}",
+                crate::sanitize::clean(cat.star_id(u.star)),
+                u.why
+            )
+        })
+        .collect();
+    out.notes.push(format!(
+        "{} star{} host{} a false positive only a skipped row names ({}{}): {} candidates are held back; fix those rows, or see `starsift summary` (docs/science.md §3.5)",
+        found.len(),
+        if found.len() == 1 { "" } else { "s" },
+        if found.len() == 1 { "s" } else { "" },
+        listed.join("; "),
+        if found.len() > 3 { "; …" } else { "" },
+        if found.len() == 1 { "its" } else { "their" },
+    ));
+    out.unread_fp = found;
+}
+
 /// Flags every candidate the catalogue itself calls a false positive.
 pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
+    unread(cat, out);
     let columns = cat.disposition_columns();
     let headers: Vec<&str> = cat.extra_headers().collect();
     let flag_columns: Vec<usize> = (0..headers.len())
-        .filter(|&i| is_fp_flag_column(headers[i]))
+        .filter(|&i| crate::catalogue::names_an_fp_flag(headers[i]))
         .collect();
     let fpp = cat.column(Field::Fpp);
     if columns.is_empty() && flag_columns.is_empty() && fpp.is_none() {
@@ -208,10 +296,10 @@ mod tests {
     #[test]
     fn false_positive_flag_columns() {
         for h in ["koi_fpflag_ss", "KOI_FPFLAG_CO", "fp_flag", "my_fpflag"] {
-            assert!(is_fp_flag_column(h), "{h}");
+            assert!(crate::catalogue::names_an_fp_flag(h), "{h}");
         }
         for h in ["fpp", "flag", "quality_flag", "disposition"] {
-            assert!(!is_fp_flag_column(h), "{h}");
+            assert!(!crate::catalogue::names_an_fp_flag(h), "{h}");
         }
         for set in ["1", " 1 ", "1.0", "2", "true", "Y"] {
             assert!(flag_is_set(set), "{set}");

@@ -16,7 +16,7 @@ use super::{
     verdict,
 };
 use crate::catalogue::{CandidateId, Catalogue, Field, StarId, StarIndex};
-use crate::checks::SignalGroups;
+use crate::checks::{SignalGroups, UnreadFp};
 use crate::decision::{Decision, Reason};
 use crate::flags::{Flag, FlagSet};
 
@@ -94,6 +94,10 @@ pub struct Live {
     /// Each signal group's standing under the decisions, kept per group so
     /// that a group of thousands costs one pass, not one per member.
     standings: Vec<GroupStanding>,
+    /// Stars that a skipped row calls the host of a false positive, by
+    /// star (docs/science.md §3.5): known false positives the catalogue
+    /// could not load, whose siblings are held back as any others'.
+    unread_fp: Arc<[UnreadFp]>,
     /// Cautions about the inputs (bad fpp values, clamps in the table).
     pub input_warnings: Vec<String>,
 }
@@ -119,6 +123,23 @@ impl Live {
         groups: SignalGroups,
         decision: Vec<Decision>,
     ) -> Result<Live, ModelError> {
+        Live::with_evidence(cat, model, flags, groups, decision, Vec::new())
+    }
+
+    /// [`Live::with_state`], with the stars that skipped rows call the
+    /// host of a false positive (`Checks::unread_fp`): everything the
+    /// checks found, as every command and the browser build it
+    /// (`session::odds_with`).
+    pub fn with_evidence(
+        cat: &Catalogue,
+        model: Model,
+        flags: Vec<FlagSet>,
+        groups: SignalGroups,
+        decision: Vec<Decision>,
+        mut unread_fp: Vec<UnreadFp>,
+    ) -> Result<Live, ModelError> {
+        unread_fp.sort_by_key(|u| u.star);
+        unread_fp.dedup_by_key(|u| u.star);
         check_inputs(&model, cat.star_count())?;
         let n = cat.len();
         let mut input_warnings = Vec::new();
@@ -188,6 +209,7 @@ impl Live {
             rejected: 0,
             margins: OnceLock::new(),
             standings: vec![GroupStanding::default(); ngroups],
+            unread_fp: unread_fp.into(),
             input_warnings,
         };
         live.place_all();
@@ -410,13 +432,21 @@ impl Live {
 
     /// The same state computed from nothing, for checks of the incremental path.
     pub fn rebuilt(&self, cat: &Catalogue) -> Result<Live, ModelError> {
-        Live::with_state(
+        Live::with_evidence(
             cat,
             self.model.clone(),
             self.flags.clone(),
             self.groups.clone(),
             self.decision.clone(),
+            self.unread_fp.to_vec(),
         )
+    }
+
+    /// What a skipped row says of star s, when it calls it the host of a
+    /// false positive.
+    pub fn unread_fp(&self, s: StarId) -> Option<&UnreadFp> {
+        let i = self.unread_fp.binary_search_by_key(&s, |u| u.star).ok()?;
+        Some(&self.unread_fp[i])
     }
 
     /// True when two states agree on everything the odds depend on.
@@ -495,6 +525,8 @@ impl Live {
         let mut memo: HashMap<u32, GroupStanding> = HashMap::new();
         let members = self.index.members(s);
         let fp = self.known_fp_among(members, &decision);
+        // A false positive only a skipped row names holds every member.
+        let unread = self.unread_fp(s).is_some();
         members
             .iter()
             .map(|&c| {
@@ -502,7 +534,7 @@ impl Live {
                     Status::Rejected
                 } else if self.flags[c as usize].intersects(own_blocking) {
                     Status::Held
-                } else if fp.is_some_and(|m| m != c) {
+                } else if fp.is_some_and(|m| m != c) || unread {
                     // A sibling of a known false positive (§1.1).
                     Status::Held
                 } else if let Some(g) = self.active_group(c) {
@@ -576,6 +608,11 @@ impl Live {
         let own_blocking = self.own_blocking();
         let mut k_of = vec![0u32; index.star_count()];
         let mut grouped = vec![false; index.star_count()];
+        // Stars a skipped row calls the host of a false positive are placed
+        // whole, as those with one among their members.
+        for u in self.unread_fp.iter() {
+            grouped[u.star as usize] = true;
+        }
         for (c, &s) in index.star_of.iter().enumerate() {
             // A star with a member in an active group, or with a known false
             // positive (whose siblings are held), is placed whole.

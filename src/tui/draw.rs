@@ -588,6 +588,7 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
             app.live.held_count(),
             match app.cat.skipped.len() {
                 0 => String::new(),
+                1 => " · 1 row skipped".to_string(),
                 n => format!(" · {n} rows skipped"),
             },
             m.targets.map_or("?".into(), |n| n.to_string()),

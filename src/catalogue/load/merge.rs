@@ -20,6 +20,10 @@ pub(super) struct Merger {
     pub(super) extras: Vec<StrPool>,
     pub(super) hasher: hashbrown::DefaultHashBuilder,
     pub(super) cand_header: String,
+    /// The columns of earlier verdicts among the kept ones, with their
+    /// headers: (index in `extras`, header) and (index in `num`, header).
+    evidence_extras: Vec<(usize, String)>,
+    evidence_num: Vec<(usize, String)>,
     pub(super) skipped: Vec<Skip>,
     pub(super) rows_seen: u64,
     pub(super) reserved: bool,
@@ -42,6 +46,14 @@ impl Merger {
             extras: vec![StrPool::default(); layout.extra_cols.len()],
             hasher: hashbrown::DefaultHashBuilder::default(),
             cand_header: layout.header[layout.cand_col].clone(),
+            evidence_extras: (layout.extra_cols.iter().enumerate())
+                .filter(|(_, c)| layout.evidence_cols.contains(c))
+                .map(|(j, &c)| (j, layout.header[c].clone()))
+                .collect(),
+            evidence_num: (layout.num_cols.iter().enumerate())
+                .filter(|&(j, (_, c))| layout.kept[j] && layout.evidence_cols.contains(c))
+                .map(|(j, &(_, c))| (j, layout.header[c].clone()))
+                .collect(),
             skipped: Vec::new(),
             rows_seen: 0,
             reserved: false,
@@ -103,6 +115,34 @@ impl Merger {
         part
     }
 
+    /// What a loaded row says in the columns of earlier verdicts, for its
+    /// skip when it is removed as a duplicate (`Skip::row`): a second row
+    /// of one candidate (an archive's row per reference, say) may be the
+    /// one that calls it a false positive.
+    fn row_said(&self, row: usize) -> Option<Box<SkippedRow>> {
+        let text = self.evidence_extras.iter().map(|(j, h)| {
+            let v = self.extras[*j].get(row).trim();
+            (
+                h,
+                (!v.is_empty() && !is_missing(v.as_bytes())).then(|| v.to_string()),
+            )
+        });
+        let numbers = self.evidence_num.iter().map(|(j, h)| {
+            let v = self.num[*j][row];
+            (h, (!v.is_nan()).then(|| v.to_string()))
+        });
+        let cells: Vec<(String, String)> = text
+            .chain(numbers)
+            .filter_map(|(h, v)| Some((h.clone(), v?)))
+            .collect();
+        (!cells.is_empty()).then(|| {
+            Box::new(SkippedRow {
+                star: self.row_stars.get(row).to_string(),
+                cells,
+            })
+        })
+    }
+
     /// Removes duplicate rows (row, first row with the same id), with a skip
     /// naming the first line.
     pub(super) fn remove_rows(&mut self, dups: &[(u32, u32)]) {
@@ -117,6 +157,7 @@ impl Merger {
                     self.candidates.get(row as usize),
                     self.lines[first as usize]
                 ),
+                row: self.row_said(row as usize),
             });
         }
         fn retain<T>(v: &mut Vec<T>, keep: &[bool]) {

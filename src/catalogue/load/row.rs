@@ -20,6 +20,10 @@ pub(super) struct Layout {
     pub(super) checked: Vec<bool>,
     pub(super) lc_col: Option<usize>,
     pub(super) extra_cols: Vec<usize>,
+    /// Columns that carry earlier verdicts (a disposition, a false-positive
+    /// flag, `fpp`): what a skipped row says in them is kept
+    /// (`Skip::row`).
+    pub(super) evidence_cols: Vec<usize>,
     /// What `quick_row` does with each column, by column index.
     pub(super) roles: Vec<Role>,
     /// Unit conversions a table's header asks for: (slot, scale, offset);
@@ -116,6 +120,17 @@ impl Layout {
             cand_col: col(Field::Candidate).unwrap_or(0),
             lc_col: col(Field::Lightcurve),
             extra_cols: mapping.extras.iter().map(|(i, _)| *i).collect(),
+            evidence_cols: (0..header.len())
+                .filter(|&c| {
+                    [Some(Field::Disposition), Some(Field::Fpp)].contains(
+                        &mapping
+                            .by_field
+                            .iter()
+                            .find(|(_, i)| **i == c)
+                            .map(|(f, _)| *f),
+                    ) || crate::catalogue::names_earlier_verdicts(&header[c])
+                })
+                .collect(),
             header,
             mapping,
             delimiter,
@@ -379,8 +394,43 @@ impl Layout {
                     pool.push(&String::from_utf8_lossy(rec.field(col)));
                 }
             }
-            Err(skip) => part.skipped.push(skip),
+            Err(mut skip) => {
+                skip.row = self.skipped_row(rec);
+                part.skipped.push(skip);
+            }
         }
+    }
+
+    /// What a skipped row said of its star in the columns of earlier
+    /// verdicts (`Skip::row`), if it said anything: read only from a row
+    /// whose cells line up with the header.
+    fn skipped_row(&self, rec: &impl Record) -> Option<Box<SkippedRow>> {
+        if self.evidence_cols.is_empty() || rec.len() != self.header.len() {
+            return None;
+        }
+        let star = std::str::from_utf8(rec.field(self.star_col).trim_ascii()).ok()?;
+        if star.is_empty() {
+            return None;
+        }
+        let cells: Vec<(String, String)> = self
+            .evidence_cols
+            .iter()
+            .filter_map(|&c| {
+                let v = rec.field(c).trim_ascii();
+                (!v.is_empty() && !is_missing(v)).then(|| {
+                    (
+                        self.header[c].clone(),
+                        String::from_utf8_lossy(v).into_owned(),
+                    )
+                })
+            })
+            .collect();
+        (!cells.is_empty()).then(|| {
+            Box::new(SkippedRow {
+                star: star.to_string(),
+                cells,
+            })
+        })
     }
 
     pub(super) fn skip(&self, line: u64, col: Option<usize>, reason: String) -> Skip {
@@ -393,6 +443,7 @@ impl Layout {
                     .unwrap_or_else(|| format!("#{}", c + 1))
             }),
             reason,
+            row: None,
         }
     }
 
