@@ -192,7 +192,7 @@ impl Field {
                 "pl_trandurh",
                 "koi_duration",
             ],
-            Field::Snr => &["snr", "koi_model_snr"],
+            Field::Snr => &["snr", "koi_model_snr", "planet_snr"],
             Field::Impact => &["impact", "b", "pl_imppar", "koi_impact"],
             Field::Ror => &["ror", "rp_rs", "pl_ratror", "koi_ror"],
             Field::StarRadiusRsun => &[
@@ -201,6 +201,7 @@ impl Field {
                 "rstar",
                 "st_rad",
                 "koi_srad",
+                "stellar_radius",
             ],
             Field::StarMassMsun => &[
                 "star_mass",
@@ -208,12 +209,28 @@ impl Field {
                 "mstar",
                 "st_mass",
                 "koi_smass",
+                "stellar_mass",
             ],
-            Field::StarTeffK => &["teff", "star_teff", "star_teff_k", "st_teff", "koi_steff"],
+            Field::StarTeffK => &[
+                "teff",
+                "star_teff",
+                "star_teff_k",
+                "st_teff",
+                "koi_steff",
+                "stellar_eff_temp",
+            ],
             Field::StarLogg => &["logg", "star_logg", "st_logg", "koi_slogg"],
             Field::RaDeg => &["ra", "ra_deg"],
             Field::DecDeg => &["dec", "dec_deg"],
-            Field::Mag => &["mag"],
+            Field::Mag => &[
+                "mag",
+                "kepmag",
+                "koi_kepmag",
+                "tmag",
+                "tess_mag",
+                "st_tmag",
+                "sy_tmag",
+            ],
             Field::Fpp => &["fpp"],
             Field::Lightcurve => &["lightcurve", "lc"],
             Field::PeriodErrD => &[
@@ -291,12 +308,48 @@ impl Field {
     }
 
     pub fn from_header(header: &str) -> Option<Field> {
-        let h = header.trim().to_ascii_lowercase();
-        FIELDS
-            .iter()
-            .copied()
-            .find(|f| f.synonyms().contains(&h.as_str()))
+        let find = |h: &str| FIELDS.iter().copied().find(|f| f.synonyms().contains(&h));
+        find(&header.trim().to_ascii_lowercase()).or_else(|| find(&loose(header)))
     }
+}
+
+/// A header's name and the unit it states in brackets, as archive exports
+/// write them: `Period (days)`, `Epoch (BJD) err`, `Depth [ppm]`. The first
+/// bracketed part is the unit; the name is the rest.
+pub fn header_unit(header: &str) -> (String, Option<String>) {
+    let open = header.find(['(', '[']);
+    let close = open.and_then(|o| {
+        let want = if header.as_bytes()[o] == b'(' {
+            ')'
+        } else {
+            ']'
+        };
+        header[o..].find(want).map(|c| o + c)
+    });
+    match (open, close) {
+        (Some(o), Some(c)) => (
+            format!("{} {}", &header[..o], &header[c + 1..]),
+            Some(header[o + 1..c].trim().to_string()).filter(|u| !u.is_empty()),
+        ),
+        _ => (header.to_string(), None),
+    }
+}
+
+/// A header in one spelling, for matching the synonyms when it is not one
+/// as written: its bracketed unit left out, lower case, every run of
+/// characters other than letters and digits one `_` (`TIC ID` → `tic_id`,
+/// `Period (days) err` → `period_err`).
+fn loose(header: &str) -> String {
+    let (name, _) = header_unit(header);
+    let mut out = String::with_capacity(name.len());
+    for c in name.trim().chars() {
+        if c.is_ascii_alphanumeric() {
+            out.push(c.to_ascii_lowercase());
+        } else if !out.is_empty() && !out.ends_with('_') {
+            out.push('_');
+        }
+    }
+    out.trim_end_matches('_').to_string()
 }
 
 impl fmt::Display for Field {

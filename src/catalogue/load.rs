@@ -12,7 +12,9 @@ use std::sync::{Mutex, mpsc};
 use csv::ByteRecord;
 use flate2::read::MultiGzDecoder;
 
-use super::columns::{ColumnMap, ColumnUse, DepthUnit, Field, Mapping, NUMERIC, REQUIRED};
+use super::columns::{
+    ColumnMap, ColumnUse, DepthUnit, Field, Mapping, NUMERIC, REQUIRED, header_unit,
+};
 use super::formats::{self, TableFormat};
 use super::pool::StrPool;
 use super::units;
@@ -375,6 +377,22 @@ fn read_catalogue(
         });
     }
     let mapping = Mapping::resolve(&name, &header_fields, &opts.columns)?;
+    // A delimited table states its units, if at all, in its header's
+    // brackets (`Period (days)`); the other formats have their own.
+    let stated;
+    let opts = if opts.header_units.is_empty()
+        && header_fields.iter().any(|h| header_unit(h).1.is_some())
+    {
+        stated = LoadOptions {
+            header_units: (header_fields.iter())
+                .map(|h| header_unit(h).1.unwrap_or_default())
+                .collect(),
+            ..opts.clone()
+        };
+        &stated
+    } else {
+        opts
+    };
     let first_line = header_line + count_newlines(&buf[header_end.0..header_end.1]);
     buf.drain(..header_end.1);
     let conversions = unit_conversions(&name, &header_fields, &mapping, opts)?;

@@ -39,6 +39,39 @@ pub(super) fn parse_cell(raw: &[u8]) -> Cell {
     }
 }
 
+/// An angle written in sexagesimal, as archive tables often give positions:
+/// `07:29:25.85`, `-05 06 07.1`, `07h29m25.85s`, `-05d06m07.1s`; in hours
+/// of right ascension (× 15 to degrees) when `hours`, else in degrees. The
+/// sign of the whole angle is the text's, so `-00:30:00` is −0.5°. `None`
+/// for anything else (minutes of 60 or more, seconds above 60).
+pub(super) fn sexagesimal(raw: &[u8], hours: bool) -> Option<f64> {
+    let s = std::str::from_utf8(raw.trim_ascii()).ok()?;
+    let (sign, rest) = match s.as_bytes().first()? {
+        b'-' => (-1.0, &s[1..]),
+        b'+' => (1.0, &s[1..]),
+        _ => (1.0, s),
+    };
+    let parts: Vec<&str> = rest
+        .split([':', ' ', 'h', 'm', 's', 'd', '°', '\'', '"'])
+        .filter(|p| !p.is_empty())
+        .collect();
+    if parts.len() != 3 || !rest.contains(|c: char| !(c.is_ascii_digit() || c == '.')) {
+        return None;
+    }
+    let num = |p: &str| {
+        (p.bytes().all(|b| b.is_ascii_digit() || b == b'.'))
+            .then(|| p.parse::<f64>().ok())
+            .flatten()
+    };
+    let (d, m, sec) = (num(parts[0])?, num(parts[1])?, num(parts[2])?);
+    // 60.00 seconds is a rounding of 59.995 and up, which some tables write.
+    if m >= 60.0 || sec > 60.0 || d.fract() != 0.0 || m.fract() != 0.0 {
+        return None;
+    }
+    let v = sign * (d + m / 60.0 + sec / 3600.0);
+    Some(if hours { v * 15.0 } else { v })
+}
+
 /// True when `parse_cell` would read a value (finite or not) from the
 /// cell: `[+-]digits[.digits][e[+-]digits]`, spaces around, at most five
 /// exponent digits. A cheap test for cells whose value is not kept; `false`

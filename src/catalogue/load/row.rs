@@ -488,9 +488,17 @@ impl Layout {
             if self.checked[j] && is_number(raw) {
                 continue; // its value is not kept
             }
+            let angle = |hours| sexagesimal(raw, hours);
             scratch[slot] = match parse_cell(raw) {
                 Cell::Value(v) => v,
                 Cell::Missing => f64::NAN,
+                // Positions in sexagesimal (RA in hours): read as degrees.
+                Cell::Bad if NUMERIC[slot] == Field::RaDeg && angle(true).is_some() => {
+                    angle(true).unwrap_or(f64::NAN)
+                }
+                Cell::Bad if NUMERIC[slot] == Field::DecDeg && angle(false).is_some() => {
+                    angle(false).unwrap_or(f64::NAN)
+                }
                 Cell::Bad => {
                     return Err(self.skip(
                         line,

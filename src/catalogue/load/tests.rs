@@ -352,3 +352,87 @@ fn cells() {
     assert!(matches!(parse_cell(b"inf"), Cell::Missing));
     assert!(matches!(parse_cell(b"3.5d"), Cell::Bad));
 }
+
+#[test]
+fn positions_in_sexagesimal_read_as_degrees() {
+    // 1 h of right ascension = 15° (the definition of the hour angle), so
+    // 07h29m25.85s = (7 + 29/60 + 25.85/3600) × 15 = 112.3577083…°.
+    let close = |a: Option<f64>, b: f64| a.is_some_and(|a| (a - b).abs() < 1e-9);
+    assert!(close(
+        sexagesimal(b"07:29:25.85", true),
+        112.357_708_333_333_33
+    ));
+    assert!(close(
+        sexagesimal(b"07h29m25.85s", true),
+        112.357_708_333_333_33
+    ));
+    assert!(close(sexagesimal(b"12 30 00", true), 187.5));
+    // The sign belongs to the whole angle: −00:30:00 is −0.5°.
+    assert!(close(sexagesimal(b"-00:30:00", false), -0.5));
+    assert!(close(sexagesimal(b"+45:06:07.2", false), 45.102));
+    assert!(close(
+        sexagesimal(b"-05d06m07.1s", false),
+        -5.101_972_222_222_222
+    ));
+    // 60.00 s, a rounding some tables write.
+    assert!(close(sexagesimal(b"10:59:60.00", true), 165.0));
+    for bad in [
+        &b"1.5"[..],
+        b"10:61:00",
+        b"10:30:61",
+        b"10:30",
+        b"1.5:30:00",
+        b"a:b:c",
+        b"",
+    ] {
+        assert_eq!(
+            sexagesimal(bad, true),
+            None,
+            "{}",
+            String::from_utf8_lossy(bad)
+        );
+    }
+}
+
+#[test]
+fn an_archive_exports_headers_and_bracketed_units_are_read() {
+    // Headers as archive exports spell them (invented rows): spaces, the
+    // unit in brackets, `err` after it; positions in sexagesimal; a
+    // duration in days, converted to hours (1 d = 24 h, SI).
+    let text = "TIC ID,TOI,RA,Dec,Period (days),Period (days) err,Epoch (BJD - 2457000),\
+                Duration [d],Depth (ppm),TFOPWG Disposition\n\
+                100,100.01,07:29:25.85,-05:06:07.1,3.5,0.0001,1400.25,0.125,800,PC\n";
+    let cat = Catalogue::load(
+        Source::Bytes {
+            name: "export.csv",
+            data: text.as_bytes(),
+        },
+        &LoadOptions::default(),
+    )
+    .unwrap();
+    assert_eq!(cat.len(), 1, "{:?}", cat.skipped);
+    assert_eq!(cat.star_id(0), "100");
+    assert_eq!(cat.value(Field::PeriodD, 0), Some(3.5));
+    assert_eq!(cat.value(Field::PeriodErrD, 0), Some(0.0001));
+    assert_eq!(cat.value(Field::Epoch, 0), Some(2_458_400.25));
+    assert_eq!(cat.value(Field::DurationH, 0), Some(3.0));
+    assert_eq!(cat.value(Field::DepthPpm, 0), Some(800.0));
+    assert!((cat.value(Field::RaDeg, 0).unwrap() - 112.357_708_333_333_33).abs() < 1e-9);
+    assert!((cat.value(Field::DecDeg, 0).unwrap() + 5.101_972_222_222_222).abs() < 1e-9);
+    assert_eq!(cat.disposition_columns().len(), 1);
+    // A unit no rule converts stops the load and names the column.
+    let bad = text.replace("Duration [d]", "Duration [fortnights]");
+    let e = Catalogue::load(
+        Source::Bytes {
+            name: "export.csv",
+            data: bad.as_bytes(),
+        },
+        &LoadOptions::default(),
+    )
+    .unwrap_err()
+    .to_string();
+    assert!(
+        e.contains("Duration [fortnights]") && e.contains("fortnights"),
+        "{e}"
+    );
+}
