@@ -68,6 +68,7 @@ fn main() {
         teff_k: Some(5600.0),
         catalogue_depth_ppm: Some(800.0),
         catalogue_snr: Some(30.0),
+        star_mass_msun: Some(1.0),
     };
     let settings = DetrendSettings::default();
     let (me, others) = (signals[1], [signals[0], signals[2]]);

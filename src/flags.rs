@@ -20,9 +20,10 @@ pub enum Flag {
     NotRecovered,
     MixedHost,
     KnownFp,
+    Ellipsoidal,
 }
 
-pub const ALL_FLAGS: [Flag; 14] = [
+pub const ALL_FLAGS: [Flag; 15] = [
     Flag::BigRadius,
     Flag::OddEven,
     Flag::Secondary,
@@ -37,6 +38,7 @@ pub const ALL_FLAGS: [Flag; 14] = [
     Flag::NotRecovered,
     Flag::MixedHost,
     Flag::KnownFp,
+    Flag::Ellipsoidal,
 ];
 
 impl Flag {
@@ -56,6 +58,7 @@ impl Flag {
             Flag::NotRecovered => "not-recovered",
             Flag::MixedHost => "mixed-host",
             Flag::KnownFp => "known-fp",
+            Flag::Ellipsoidal => "ellipsoidal",
         }
     }
 
@@ -100,6 +103,7 @@ impl FlagSet {
             Flag::NotRecovered,
             Flag::MixedHost,
             Flag::KnownFp,
+            Flag::Ellipsoidal,
         ]
         .into_iter()
         .collect()
@@ -109,14 +113,20 @@ impl FlagSet {
     /// beyond doubt, not a copy, not noise and not a test's chance
     /// excursion (docs/science.md §1.1): known from the catalogue, an
     /// eclipse deeper than any planet's occultation, a body larger than any
-    /// planet. A star with one is a star known to host a false positive,
+    /// planet, light varying with the orbit more than any planet can make
+    /// it. A star with one is a star known to host a false positive,
     /// and its other candidates are held back. `odd-even` (a depth
     /// difference at 3σ, which real planets reach by chance) and `echo`
     /// (another star's light) hold back only the candidate itself.
     pub fn false_positive_signs() -> FlagSet {
-        [Flag::KnownFp, Flag::Secondary, Flag::BigRadius]
-            .into_iter()
-            .collect()
+        [
+            Flag::KnownFp,
+            Flag::Secondary,
+            Flag::BigRadius,
+            Flag::Ellipsoidal,
+        ]
+        .into_iter()
+        .collect()
     }
 
     /// The flags that mark a candidate as a copy of another signal of its
@@ -224,7 +234,7 @@ mod tests {
         assert!(!b.contains(Flag::VShape));
         assert_eq!(
             b.joined(";"),
-            "big-radius;odd-even;secondary;density-mismatch;near-twin;harmonic;crowded;echo;low-snr;half-phase;not-recovered;mixed-host;known-fp"
+            "big-radius;odd-even;secondary;density-mismatch;near-twin;harmonic;crowded;echo;low-snr;half-phase;not-recovered;mixed-host;known-fp;ellipsoidal"
         );
         assert_eq!(
             FlagSet::parse_list("echo, low-snr").unwrap().joined(","),

@@ -223,6 +223,18 @@ pub fn period_ratio_for_hill(
     0.5 * (lo + hi)
 }
 
+/// The smallest main-sequence star, for the Hill test of candidates whose
+/// star's radius is unknown (docs/science.md §3.2) and the ellipsoidal
+/// ceiling where the star's mass is (§4.6): about the
+/// hydrogen-burning limit, near 0.08 M☉ with a radius near 0.1 R☉ (from
+/// memory); 0.1 R☉ and 0.1 M☉ are taken. Down the main sequence of small
+/// stars radius and mass fall together (R ≈ M in solar units, from memory)
+/// while the mass of a rocky planet of given depth falls as R★³, so the
+/// smallest star gives the smallest planet-to-star mass ratio, the
+/// smallest Hill spheres, and the fewest unstable pairs.
+pub const SMALLEST_STAR_RSUN: f64 = 0.1;
+pub const SMALLEST_STAR_MSUN: f64 = 0.1;
+
 #[cfg(test)]
 mod tests {
     use super::*;

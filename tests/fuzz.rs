@@ -66,6 +66,7 @@ fn context() -> Context {
         teff_k: Some(5500.0),
         catalogue_depth_ppm: Some(1000.0),
         catalogue_snr: Some(20.0),
+        star_mass_msun: Some(1.0),
     }
 }
 

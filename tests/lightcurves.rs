@@ -437,6 +437,7 @@ fn fuzz_found_fits_byte_change_is_no_panic() {
             teff_k: Some(5500.0),
             catalogue_depth_ppm: Some(1000.0),
             catalogue_snr: Some(20.0),
+            star_mass_msun: Some(1.0),
         };
         let _ = diagnose(&lc, &me, &[], &ctx, &DetrendSettings::default());
     }

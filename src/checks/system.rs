@@ -7,16 +7,7 @@ use crate::flags::Flag;
 use crate::science;
 use crate::transit_model::DEFAULT_LD;
 
-/// The smallest main-sequence star, for the Hill test of candidates whose
-/// star's radius is unknown (docs/science.md §3.2): about the
-/// hydrogen-burning limit, near 0.08 M☉ with a radius near 0.1 R☉ (from
-/// memory); 0.1 R☉ and 0.1 M☉ are taken. Down the main sequence of small
-/// stars radius and mass fall together (R ≈ M in solar units, from memory)
-/// while the mass of a rocky planet of given depth falls as R★³, so the
-/// smallest star gives the smallest planet-to-star mass ratio, the
-/// smallest Hill spheres, and the fewest unstable pairs.
-pub const SMALLEST_STAR_RSUN: f64 = 0.1;
-pub const SMALLEST_STAR_MSUN: f64 = 0.1;
+use crate::science::{SMALLEST_STAR_MSUN, SMALLEST_STAR_RSUN};
 
 /// Relative uncertainty of a period ratio r = P₂/P₁:
 /// σ_r = r √((σ₁/P₁)² + (σ₂/P₂)²) (docs/science.md §3); `None` without errors.

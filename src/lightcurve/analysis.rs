@@ -10,12 +10,14 @@ use crate::flags::Flag;
 
 mod fold;
 mod noise;
+mod phase;
 mod scan;
 pub use fold::{Binned, SHAPE_CELLS, Views, fold_bin, keep_parity, shape_cells, views};
 use noise::cadence_d;
 pub use noise::{
     null_scatter_factor, phase_scatter_factor, red_noise_beta, transit_scatter_factor,
 };
+pub use phase::{PhaseVariation, ellipsoidal_ceiling_ppm};
 pub use scan::{
     Eclipse, Recovery, deepest_eclipse, phase_boxes, phase_boxes_local, recovery, trials_threshold,
 };
@@ -282,6 +284,9 @@ pub struct Context {
     /// reproduce.
     pub catalogue_depth_ppm: Option<f64>,
     pub catalogue_snr: Option<f64>,
+    /// M★ in solar masses, if known (else its radius stands for it, as on
+    /// the main sequence), for the ellipsoidal ceiling.
+    pub star_mass_msun: Option<f64>,
 }
 
 /// The light-curve diagnostics of one candidate.
@@ -301,6 +306,10 @@ pub struct Diagnostics {
     pub recovery: Recovery,
     pub reflected_ceiling_ppm: Option<f64>,
     pub thermal_ppm: Option<f64>,
+    /// The light out of transit that varies with the orbit (§4.6), and the
+    /// most ellipsoidal variation a planet could raise, ppm.
+    pub phase: Option<PhaseVariation>,
+    pub ellipsoidal_ceiling_ppm: Option<f64>,
     /// (χ², degrees of freedom, p) of the per-transit depths.
     pub consistency: Option<(f64, usize, f64)>,
     pub transits_seen: usize,
@@ -483,6 +492,16 @@ pub fn diagnose_detrended(
         recovery: recovered,
         reflected_ceiling_ppm: reflected,
         thermal_ppm: thermal,
+        phase: phase::measure(lc, &busy, me),
+        // The smallest main-sequence star where the mass is unknown: the
+        // highest ceiling.
+        ellipsoidal_ceiling_ppm: ctx.a_rstar.map(|a| {
+            ellipsoidal_ceiling_ppm(
+                a,
+                ctx.star_mass_msun
+                    .unwrap_or(crate::science::SMALLEST_STAR_MSUN),
+            )
+        }),
         consistency,
         transits_seen: depths.len(),
         flat_fraction,
@@ -594,6 +613,9 @@ fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
             ),
         )),
     }
+    if let Some(text) = orbit_variation(d, ceiling) {
+        out.push((Flag::Ellipsoidal, text));
+    }
     if d.v_shape_dchi2 >= 9.0 && d.flat_fraction <= 0.15 {
         out.push((Flag::VShape, format!(
             "a V-shaped trapezoid (flat fraction {:.2}) fits better than any flat-bottomed one by Δχ² = {:.0}",
@@ -601,6 +623,34 @@ fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
         )));
     }
     out
+}
+
+/// The finding of light varying with the orbit more than a planet can make
+/// it (docs/science.md §4.6), or `None`: at half the period above the
+/// ellipsoidal ceiling, or at the period above twice the ceiling of a
+/// planet's own light (reflected and thermal, `ceiling`; an ellipsoidal
+/// binary whose two eclipses the catalogue folds as one), each with t
+/// beyond the one-sided 3σ threshold for the orbits fitted.
+fn orbit_variation(d: &Diagnostics, ceiling: f64) -> Option<String> {
+    let p = d.phase?;
+    let strong = |m: Measure, above: f64| m.z() >= p.threshold_t && m.value > above;
+    if let Some(ell) = d.ellipsoidal_ceiling_ppm.filter(|&c| strong(p.at_half, c)) {
+        return Some(format!(
+            "light out of transit varies at half the period, faintest at the transit and half an orbit later:              {:.0} ± {:.0} ppm over {} orbits (t = {:.1} ≥ {:.1}), above the {:.0} ppm a planet of 13 M_J could raise              (ellipsoidal variation: a stellar companion)",
+            p.at_half.value,
+            p.at_half.err,
+            p.orbits,
+            p.at_half.z(),
+            p.threshold_t,
+            ell
+        ));
+    }
+    strong(p.at_period, 2.0 * ceiling).then(|| {
+        format!(
+            "light out of transit varies with the period, faintest at the transit: {:.0} ± {:.0} ppm over {} orbits              (t = {:.1} ≥ {:.1}), above twice the {:.0} ppm a planet's own light could vary              (a binary at twice this period, or a companion as bright as a star)",
+            p.at_period.value, p.at_period.err, p.orbits, p.at_period.z(), p.threshold_t, ceiling
+        )
+    })
 }
 
 /// Fits trapezoids of total duration T₁₄ and flat fraction f = T₂₃/T₁₄

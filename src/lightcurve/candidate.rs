@@ -231,6 +231,9 @@ pub fn context(cat: &Catalogue, c: CandidateId) -> Context {
         teff_k: m.teff_k,
         catalogue_depth_ppm: cat.value(Field::DepthPpm, c),
         catalogue_snr: cat.value(Field::Snr, c),
+        star_mass_msun: cat
+            .value(Field::StarMassMsun, c)
+            .or_else(|| cat.value(Field::StarRadiusRsun, c)),
     }
 }
 

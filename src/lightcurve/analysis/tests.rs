@@ -103,6 +103,7 @@ fn ctx() -> Context {
         teff_k: Some(5700.0),
         catalogue_depth_ppm: None,
         catalogue_snr: None,
+        star_mass_msun: Some(1.0),
     }
 }
 
@@ -418,6 +419,7 @@ fn red_noise_false_flag_rate_on_genuine_planets() {
     };
     let (mut flagged, runs) = (0, 600u64);
     let (mut secondary_pulls, mut odd_even_pulls) = (Vec::new(), Vec::new());
+    let mut phase_pulls = Vec::new();
     for seed in 0..runs {
         let (mut lc, e) = synthetic(
             4.1 + 0.001 * seed as f64,
@@ -433,10 +435,15 @@ fn red_noise_false_flag_rate_on_genuine_planets() {
         secondary_pulls.push(d.secondary.z());
         odd_even_pulls
             .push((d.odd.value - d.even.value) / (d.odd.err.powi(2) + d.even.err.powi(2)).sqrt());
-        if d.findings
-            .iter()
-            .any(|(f, _)| matches!(f, Flag::OddEven | Flag::Secondary | Flag::NotRecovered))
-        {
+        if let Some(p) = d.phase {
+            phase_pulls.extend([p.at_period.z(), p.at_half.z()]);
+        }
+        if d.findings.iter().any(|(f, _)| {
+            matches!(
+                f,
+                Flag::OddEven | Flag::Secondary | Flag::NotRecovered | Flag::Ellipsoidal
+            )
+        }) {
             flagged += 1;
         }
     }
@@ -444,13 +451,18 @@ fn red_noise_false_flag_rate_on_genuine_planets() {
         let m = v.iter().sum::<f64>() / v.len() as f64;
         (v.iter().map(|x| (x - m).powi(2)).sum::<f64>() / v.len() as f64).sqrt()
     };
-    let (s_sec, s_oe) = (sd(&secondary_pulls), sd(&odd_even_pulls));
+    let (s_sec, s_oe, s_ph) = (sd(&secondary_pulls), sd(&odd_even_pulls), sd(&phase_pulls));
     eprintln!(
-        "red noise: {flagged} of {runs} flagged; pull sd secondary {s_sec:.2}, odd-even {s_oe:.2}"
+        "red noise: {flagged} of {runs} flagged; pull sd secondary {s_sec:.2}, odd-even {s_oe:.2}, \
+         orbit-locked variation {s_ph:.2} (t of {} means)",
+        phase_pulls.len()
     );
+    // The variation's t has Student's spread: for 48 orbits, sd = √(47/45) ≈ 1.02.
     assert!(
-        (0.85..1.15).contains(&s_sec) && (0.85..1.15).contains(&s_oe),
-        "{s_sec} {s_oe}"
+        (0.85..1.15).contains(&s_sec)
+            && (0.85..1.15).contains(&s_oe)
+            && (0.85..1.15).contains(&s_ph),
+        "{s_sec} {s_oe} {s_ph}"
     );
     assert!(flagged * 100 <= runs, "{flagged} of {runs} flagged");
     // A binary in the same noise is still caught: 6000 against 4500 ppm.
@@ -477,4 +489,68 @@ fn the_shape_cells_show_a_box_transit_in_the_middle() {
         "{s:?}"
     );
     assert!(s[0].abs() < 1e-9 && s[7].abs() < 1e-9, "{s:?}");
+}
+
+#[test]
+fn ellipsoidal_ceiling_check_value() {
+    // A = α (M_p/M★)(R★/a)³ (Faigler & Mazeh 2011, eq. 2, from memory) with
+    // α = 2, M_p = 13 M_J, M★ = 1 M☉, a/R★ = 5: GM_J/GM☉ = 9.54594e-4 (IAU
+    // 2015 B3 nominal values), so 2 × 13 × 9.54594e-4 / 125 = 198.56 ppm.
+    assert!((ellipsoidal_ceiling_ppm(5.0, 1.0) - 198.56).abs() < 0.01);
+    // A tenth of the mass, ten times the ceiling; twice a/R★, an eighth.
+    assert!(
+        (ellipsoidal_ceiling_ppm(5.0, 0.1) / ellipsoidal_ceiling_ppm(5.0, 1.0) - 10.0).abs() < 1e-9
+    );
+    assert!(
+        (ellipsoidal_ceiling_ppm(5.0, 1.0) / ellipsoidal_ceiling_ppm(10.0, 1.0) - 8.0).abs() < 1e-9
+    );
+}
+
+/// `synthetic` with light varying with the orbit, faintest at the transit:
+/// semi-amplitudes `at_period` and `at_half` (ppm, −cos 2πφ and −cos 4πφ).
+fn varying(at_period: f64, at_half: f64, seed: u64) -> (LightCurve, Ephemeris) {
+    let (mut lc, e) = synthetic(2.3, 6000.0, 6000.0, 0.0, 0.5, 3e-4, seed);
+    let tau = std::f64::consts::TAU;
+    for (t, f) in lc.time.iter().zip(lc.flux.iter_mut()) {
+        let x = phase(*t, e.period_d, e.epoch);
+        *f *= 1.0 - 1e-6 * (at_period * (tau * x).cos() + at_half * (2.0 * tau * x).cos());
+    }
+    reddened(&mut lc, 3e-4, seed + 1);
+    (lc, e)
+}
+
+#[test]
+fn light_varying_with_the_orbit_beyond_a_planet_is_a_binary() {
+    // Invented: a 6000 ppm eclipse every 2.3 d at a/R★ = 5 around 1 M☉
+    // (ellipsoidal ceiling 198.6 ppm, reflected ceiling for k = 0.03: 36 ppm)
+    // in white and red noise of 300 ppm each.
+    let close = Context {
+        a_rstar: Some(5.0),
+        ..ctx()
+    };
+    let flagged = |at_period: f64, at_half: f64, seed: u64| {
+        let (lc, e) = varying(at_period, at_half, seed);
+        let d = diagnose(&lc, &e, &[], &close, &DetrendSettings::default());
+        (flags_of(&d).contains(&Flag::Ellipsoidal), d)
+    };
+    // A stellar companion's tides: 1000 ppm at half the period.
+    let (yes, d) = flagged(0.0, 1000.0, 5);
+    let p = d.phase.unwrap();
+    assert!(yes, "{p:?} {:?}", d.findings);
+    assert!(
+        (p.at_half.value - 1000.0).abs() < 4.0 * p.at_half.err,
+        "{p:?}"
+    );
+    // An ellipsoidal binary folded at half its period: 800 ppm at the period.
+    let (yes, d) = flagged(800.0, 0.0, 7);
+    assert!(yes, "{:?} {:?}", d.phase, d.findings);
+    // What a planet could do (100 ppm of tides, below the 198.6 ppm
+    // ceiling, and none at the period): measured, not flagged.
+    let (yes, d) = flagged(0.0, 100.0, 9);
+    let p = d.phase.unwrap();
+    assert!(!yes, "{p:?} {:?}", d.findings);
+    assert!(
+        (p.at_half.value - 100.0).abs() < 4.0 * p.at_half.err,
+        "{p:?}"
+    );
 }
