@@ -12,7 +12,7 @@ mod progress;
 mod system;
 
 pub use groups::SignalGroups;
-pub use known::UnreadFp;
+pub use known::UnseenFp;
 pub use progress::CheckProgress;
 
 use crate::catalogue::{CandidateId, Catalogue, Field};
@@ -211,7 +211,7 @@ pub struct Checks {
     notes: Vec<String>,
     /// Stars that a skipped row calls the host of a false positive
     /// (`known::flag`), by star.
-    unread_fp: Vec<UnreadFp>,
+    unseen_fp: Vec<UnseenFp>,
 }
 
 impl Checks {
@@ -224,14 +224,14 @@ impl Checks {
             groups: SignalGroups::none(n),
             shapes: Default::default(),
             notes: Vec::new(),
-            unread_fp: Vec::new(),
+            unseen_fp: Vec::new(),
         }
     }
 
     /// The stars a skipped row calls the host of a false positive, by star
     /// (docs/science.md §3.5).
-    pub fn unread_fp(&self) -> &[UnreadFp] {
-        &self.unread_fp
+    pub fn unseen_fp(&self) -> &[UnseenFp] {
+        &self.unseen_fp
     }
 
     /// What the checks say of the catalogue as a whole.

@@ -15,7 +15,7 @@ use statrs::function::factorial::ln_factorial;
 
 use crate::flags::FlagSet;
 
-pub use live::{Hold, Live, Status, VerdictCounts};
+pub use live::{Hold, Live, Status, VerdictCounts, names_false_positive};
 
 /// How the boost on prior odds is defined (docs/science.md §1).
 #[derive(Clone, Debug, PartialEq)]
@@ -626,7 +626,7 @@ pub fn hold_text(
             };
             format!("its star hosts a known false positive: {}, {why}", id(fp))
         }
-        Some(Hold::UnreadSibling { why, .. }) => {
+        Some(Hold::UnseenSibling { why, .. }) => {
             format!("its star hosts a known false positive: {why}")
         }
     }

@@ -62,16 +62,53 @@ pub fn odds_of(
         Some(l) => l.decisions(cat),
         None => vec![Decision::Open; cat.len()],
     };
-    odds_with(cat, model, checks, decisions)
+    let gone = latest.map_or_else(Vec::new, |l| gone_false_positives(cat, l));
+    odds_with(cat, model, checks, decisions, &gone)
+}
+
+/// The stars a vetter's latest decision calls the host of a false positive
+/// through a candidate the catalogue no longer has (rejected as an
+/// eclipsing binary, a blend or a stellar-size companion; docs/science.md
+/// §1.1): a new release that dropped the binary still has its star.
+pub fn gone_false_positives(
+    cat: &crate::catalogue::Catalogue,
+    latest: &Latest,
+) -> Vec<crate::checks::UnseenFp> {
+    latest
+        .iter()
+        .filter(|e| cat.find_candidate(&e.candidate).is_none())
+        .filter_map(|e| {
+            let reason = e
+                .decision
+                .reason()
+                .filter(|&r| crate::odds::names_false_positive(r))?;
+            let star = cat.find_star(&e.star)?;
+            Some(crate::checks::UnseenFp {
+                star,
+                why: format!(
+                    "{}, no longer in the catalogue, rejected as {} by {} on {} (the ledger)",
+                    clean(&e.candidate),
+                    reason.name(),
+                    clean(&e.vetter),
+                    clean(e.decided_at.get(..10).unwrap_or(&e.decided_at)),
+                ),
+            })
+        })
+        .collect()
 }
 
 /// The odds under `model` with the checks' flags and signal groups and
 /// these decisions: the one way every command and the browser build them.
+///
+/// `gone` are the stars the ledger knows to host a false positive the
+/// catalogue no longer has ([`gone_false_positives`]; a rebuild passes
+/// `Live::unseen_fps` of the odds it replaces).
 pub fn odds_with(
     cat: &crate::catalogue::Catalogue,
     model: crate::odds::Model,
     checks: &Checks,
     decisions: Vec<Decision>,
+    gone: &[crate::checks::UnseenFp],
 ) -> Result<Live, ModelError> {
     let mut live = Live::with_evidence(
         cat,
@@ -79,7 +116,7 @@ pub fn odds_with(
         checks.all_flags().to_vec(),
         checks.groups().clone(),
         decisions,
-        checks.unread_fp().to_vec(),
+        checks.unseen_fp().iter().chain(gone).cloned().collect(),
     )?;
     // What the checks say of the inputs, among the other input warnings.
     live.input_warnings.extend(checks.notes().iter().cloned());

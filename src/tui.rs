@@ -449,9 +449,10 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         let counted = Arc::clone(&check_progress);
         // The odds with the checks are built there too, from the decisions
         // of now; those made meanwhile are applied when they arrive.
-        let (model, decisions) = (
+        let (model, decisions, gone) = (
             app.live.model().clone(),
             app::decisions_of(&app.cat, &app.live),
+            app.live.unseen_fps().to_vec(),
         );
         std::thread::spawn(move || {
             let mut checks = crate::checks::run_counted(&cat, &settings, &counted);
@@ -468,7 +469,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             } else {
                 Default::default()
             };
-            let live = crate::session::odds_with(&cat, model, &checks, decisions);
+            let live = crate::session::odds_with(&cat, model, &checks, decisions, &gone);
             let _ = checks_tx.send((checks, live, run));
         });
     }

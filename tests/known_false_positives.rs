@@ -243,6 +243,24 @@ fn verdicts(args: &[&str]) -> std::collections::BTreeMap<String, String> {
         .collect()
 }
 
+/// Records in the ledger beside catalogue `c` that `vetter` rejected
+/// `candidate` for `reason`.
+fn reject(c: &str, candidate: &str, reason: &str, vetter: &str) {
+    let o = starsift(&[
+        "decide",
+        c,
+        "--candidate",
+        candidate,
+        "--decision",
+        "rejected",
+        "--reason",
+        reason,
+        "--vetter",
+        vetter,
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+}
+
 /// The verdicts of `odds`, checked to be those of `export` and `checks`.
 fn agreed(c: &str) -> std::collections::BTreeMap<String, String> {
     let odds = verdicts(&["odds", c, "--format", "csv"]);
@@ -271,21 +289,7 @@ fn every_command_holds_the_siblings_of_a_known_false_positive() {
     // A vetter's rejection of T3-3 as a blend holds T3-1 and T3-2 back; a
     // later rejection as an artefact (instrumental: nothing of the star)
     // lets them count again, as a pair.
-    let decide = |reason: &str| {
-        let o = starsift(&[
-            "decide",
-            c,
-            "--candidate",
-            "T3-3",
-            "--decision",
-            "rejected",
-            "--reason",
-            reason,
-            "--vetter",
-            "t",
-        ]);
-        assert!(o.status.success(), "{}", stderr(&o));
-    };
+    let decide = |reason: &str| reject(c, "T3-3", reason, "t");
     decide("blend");
     let odds = verdicts(&["odds", c, "--format", "csv"]);
     assert_eq!(odds["T3-1"], "likely");
@@ -378,6 +382,7 @@ UN,UN-3,,,,,,,,,1,1,5772,PC,\n";
         },
         &checks,
         vec![Decision::Open; cat.len()],
+        &[],
     )
     .unwrap();
     for s in ["SK-1", "SK-2", "KD-1", "KD-2", "KP-1", "KP-2"] {
@@ -385,7 +390,7 @@ UN,UN-3,,,,,,,,,1,1,5772,PC,\n";
         assert_eq!(live.status(c), Status::Held, "{s}");
         assert_ne!(live.verdict(c), Verdict::Validated, "{s}");
         assert!(
-            matches!(live.hold(c), Some(Hold::UnreadSibling { .. })),
+            matches!(live.hold(c), Some(Hold::UnseenSibling { .. })),
             "{s}: {:?}",
             live.hold(c)
         );
@@ -418,4 +423,42 @@ UN,UN-3,,,,,,,,,1,1,5772,PC,\n";
         "{}",
         stdout(&o)
     );
+}
+
+#[test]
+fn a_binary_the_ledger_knows_still_holds_its_star_when_a_release_drops_it() {
+    // Invented: a vetter rejects GN-3 as an eclipsing binary; the next
+    // release of the catalogue (same file) no longer lists GN-3. The
+    // ledger still says its star GN hosts a false positive (docs/science.md
+    // §1.1): GN-1 and GN-2 stay held back in every command, and say why.
+    // Rejected as an artefact instead, GN-3 says nothing of its star.
+    let three = "\
+GN,GN-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772\n\
+GN,GN-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772\n\
+GN,GN-3,23.9,0.00001,102.5,0.001,9000,4.7,90,0.3,1,1,5772\n";
+    let two: String = three.lines().take(2).map(|l| format!("{l}\n")).collect();
+    let with = |rows: &str| format!("{HEAD}{}{rows}", background());
+    let cat = written("known_fp_gone", &with(three));
+    let c = cat.to_str().unwrap();
+    let decide = |reason: &str| reject(c, "GN-3", reason, "ann");
+    decide("eclipsing-binary");
+    std::fs::write(&cat, with(&two)).unwrap();
+    let odds = agreed(c);
+    assert_eq!(odds["GN-1"], "likely");
+    assert_eq!(odds["GN-2"], "likely");
+    let o = starsift(&["odds", c, "--format", "csv"]);
+    assert!(
+        stdout(&o).contains(
+            "its star hosts a known false positive: GN-3, no longer in the catalogue, rejected as eclipsing-binary by ann on "
+        ),
+        "{}",
+        stdout(&o)
+    );
+    // The vetter's later word on GN-3 (an artefact, decided on the old
+    // release) frees the pair.
+    std::fs::write(&cat, with(three)).unwrap();
+    decide("artefact");
+    std::fs::write(&cat, with(&two)).unwrap();
+    let odds = agreed(c);
+    assert_eq!(odds["GN-1"], "validated");
 }

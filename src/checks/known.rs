@@ -105,15 +105,14 @@ fn flag_is_set(cell: &str) -> bool {
 /// than a planet (odds 1:1): a definition, not a tuning.
 pub const FPP_EVEN: f64 = 0.5;
 
-/// A star that a row the loader skipped calls the host of a false
-/// positive: the row's candidate is not in the catalogue, but what it says
-/// of the star holds (docs/science.md §3.5).
+/// A star known to host a false positive that no loaded row shows: a row
+/// the loader skipped says so (docs/science.md §3.5), or a vetter rejected
+/// as a false positive a candidate of it that the catalogue no longer has
+/// (§1.1). What it says holds all the same.
 #[derive(Clone, Debug, PartialEq)]
-pub struct UnreadFp {
+pub struct UnseenFp {
     pub star: StarId,
-    /// The skipped row's line in the file.
-    pub line: u64,
-    /// What it says and why it was skipped, for people.
+    /// What says so, where, for people.
     pub why: String,
 }
 
@@ -154,16 +153,15 @@ fn unread(cat: &Catalogue, out: &mut Checks) {
             .map(|u| u.header.as_str())
     };
     let (disposition, fpp) = (mapped(Field::Disposition), mapped(Field::Fpp));
-    let mut found: Vec<UnreadFp> = cat
+    let mut found: Vec<UnseenFp> = cat
         .skipped
         .iter()
         .filter_map(|skip| {
             let row = skip.row.as_deref()?;
             let star = cat.find_star(&row.star)?;
             let said = skipped_row_says(row, disposition, fpp)?;
-            Some(UnreadFp {
+            Some(UnseenFp {
                 star,
-                line: skip.line,
                 why: format!(
                     "line {} says {said} and was skipped ({})",
                     skip.line,
@@ -197,7 +195,7 @@ fn unread(cat: &Catalogue, out: &mut Checks) {
         if found.len() > 3 { "; …" } else { "" },
         if found.len() == 1 { "its" } else { "their" },
     ));
-    out.unread_fp = found;
+    out.unseen_fp = found;
 }
 
 /// Flags every candidate the catalogue itself calls a false positive.

@@ -16,7 +16,7 @@ use super::{
     verdict,
 };
 use crate::catalogue::{CandidateId, Catalogue, Field, StarId, StarIndex};
-use crate::checks::{SignalGroups, UnreadFp};
+use crate::checks::{SignalGroups, UnseenFp};
 use crate::decision::{Decision, Reason};
 use crate::flags::{Flag, FlagSet};
 
@@ -97,7 +97,7 @@ pub struct Live {
     /// Stars that a skipped row calls the host of a false positive, by
     /// star (docs/science.md §3.5): known false positives the catalogue
     /// could not load, whose siblings are held back as any others'.
-    unread_fp: Arc<[UnreadFp]>,
+    unseen_fp: Arc<[UnseenFp]>,
     /// Cautions about the inputs (bad fpp values, clamps in the table).
     pub input_warnings: Vec<String>,
 }
@@ -127,7 +127,7 @@ impl Live {
     }
 
     /// [`Live::with_state`], with the stars that skipped rows call the
-    /// host of a false positive (`Checks::unread_fp`): everything the
+    /// host of a false positive (`Checks::unseen_fp`): everything the
     /// checks found, as every command and the browser build it
     /// (`session::odds_with`).
     pub fn with_evidence(
@@ -136,10 +136,10 @@ impl Live {
         flags: Vec<FlagSet>,
         groups: SignalGroups,
         decision: Vec<Decision>,
-        mut unread_fp: Vec<UnreadFp>,
+        mut unseen_fp: Vec<UnseenFp>,
     ) -> Result<Live, ModelError> {
-        unread_fp.sort_by_key(|u| u.star);
-        unread_fp.dedup_by_key(|u| u.star);
+        unseen_fp.sort_by_key(|u| u.star);
+        unseen_fp.dedup_by_key(|u| u.star);
         check_inputs(&model, cat.star_count())?;
         let n = cat.len();
         let mut input_warnings = Vec::new();
@@ -209,7 +209,7 @@ impl Live {
             rejected: 0,
             margins: OnceLock::new(),
             standings: vec![GroupStanding::default(); ngroups],
-            unread_fp: unread_fp.into(),
+            unseen_fp: unseen_fp.into(),
             input_warnings,
         };
         live.place_all();
@@ -438,15 +438,21 @@ impl Live {
             self.flags.clone(),
             self.groups.clone(),
             self.decision.clone(),
-            self.unread_fp.to_vec(),
+            self.unseen_fp.to_vec(),
         )
     }
 
-    /// What a skipped row says of star s, when it calls it the host of a
-    /// false positive.
-    pub fn unread_fp(&self, s: StarId) -> Option<&UnreadFp> {
-        let i = self.unread_fp.binary_search_by_key(&s, |u| u.star).ok()?;
-        Some(&self.unread_fp[i])
+    /// What says star s hosts a false positive no loaded row shows (a
+    /// skipped row, a decision on a candidate the catalogue no longer has).
+    pub fn unseen_fp(&self, s: StarId) -> Option<&UnseenFp> {
+        let i = self.unseen_fp.binary_search_by_key(&s, |u| u.star).ok()?;
+        Some(&self.unseen_fp[i])
+    }
+
+    /// Every star known to host a false positive no loaded row shows, by
+    /// star: what a rebuild of these odds takes again.
+    pub fn unseen_fps(&self) -> &[UnseenFp] {
+        &self.unseen_fp
     }
 
     /// True when two states agree on everything the odds depend on.
@@ -526,7 +532,7 @@ impl Live {
         let members = self.index.members(s);
         let fp = self.known_fp_among(members, &decision);
         // A false positive only a skipped row names holds every member.
-        let unread = self.unread_fp(s).is_some();
+        let unread = self.unseen_fp(s).is_some();
         members
             .iter()
             .map(|&c| {
@@ -610,7 +616,7 @@ impl Live {
         let mut grouped = vec![false; index.star_count()];
         // Stars a skipped row calls the host of a false positive are placed
         // whole, as those with one among their members.
-        for u in self.unread_fp.iter() {
+        for u in self.unseen_fp.iter() {
             grouped[u.star as usize] = true;
         }
         for (c, &s) in index.star_of.iter().enumerate() {
@@ -760,7 +766,7 @@ struct GroupStanding {
 /// A rejection that says what the signal is: a false positive of its star
 /// (an eclipsing binary, a blend, a stellar-size companion), whose siblings
 /// are held back with it (docs/science.md §1.1).
-fn names_false_positive(r: Reason) -> bool {
+pub fn names_false_positive(r: Reason) -> bool {
     matches!(
         r,
         Reason::EclipsingBinary | Reason::Blend | Reason::TooLarge

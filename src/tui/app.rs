@@ -692,8 +692,13 @@ impl App {
     /// Takes the checks' results: flags feed the verdicts from now on.
     pub fn apply_checks(&mut self, checks: Checks) {
         let decisions = decisions_of(&self.cat, &self.live);
-        let live =
-            crate::session::odds_with(&self.cat, self.live.model().clone(), &checks, decisions);
+        let live = crate::session::odds_with(
+            &self.cat,
+            self.live.model().clone(),
+            &checks,
+            decisions,
+            self.live.unseen_fps(),
+        );
         self.apply_built(checks, live);
     }
 

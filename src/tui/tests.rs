@@ -434,13 +434,14 @@ fn checks_built_in_the_background_keep_the_decisions_made_meanwhile() {
     act(&mut app, Action::Select);
     let rejected = app.live.decision(c);
     assert!(rejected.is_rejected());
-    let built = crate::session::odds_with(&cat, model, &checks, at_start);
+    let built = crate::session::odds_with(&cat, model, &checks, at_start, &[]);
     app.update(Input::ChecksBuilt(Box::new((checks.clone(), built))));
     assert!(!app.checks_pending);
     assert_eq!(app.live.decision(c), rejected);
     // The odds of the checks and of every decision now, as if built then.
     let now = super::app::decisions_of(&cat, &app.live);
-    let fresh = crate::session::odds_with(&cat, app.live.model().clone(), &checks, now).unwrap();
+    let fresh =
+        crate::session::odds_with(&cat, app.live.model().clone(), &checks, now, &[]).unwrap();
     assert!(app.live.same_odds_state(&fresh));
     for m in 0..n as crate::catalogue::CandidateId {
         assert_eq!(app.live.odds(m), fresh.odds(m));

@@ -22,9 +22,10 @@ pub enum Hold {
         reason: Option<Reason>,
         flags: FlagSet,
     },
-    /// On a star that a skipped row calls the host of a false positive
-    /// (docs/science.md §3.5): `line` of the file, `why` for people.
-    UnreadSibling { line: u64, why: String },
+    /// On a star known to host a false positive that no loaded row shows
+    /// (`UnseenFp`: a skipped row, or a ledger decision on a candidate the
+    /// catalogue no longer has), `why` for people.
+    UnseenSibling { why: String },
 }
 
 impl Live {
@@ -42,11 +43,8 @@ impl Live {
         }
         let members = self.index.members(self.star_of(c));
         let Some(fp) = self.known_fp_among(members, |m| self.decision[m as usize]) else {
-            let u = self.unread_fp(self.star_of(c))?;
-            return Some(Hold::UnreadSibling {
-                line: u.line,
-                why: u.why.clone(),
-            });
+            let u = self.unseen_fp(self.star_of(c))?;
+            return Some(Hold::UnseenSibling { why: u.why.clone() });
         };
         // A rejected member marks its star only when rejected as a false
         // positive (`known_fp_among`): its reason is that one.
@@ -93,7 +91,7 @@ impl Live {
                     .for_each(|f| *by_flag.entry(f.name()).or_default() += 1),
                 Some(Hold::Copy { .. }) => copies += 1,
                 Some(Hold::GroupRejected { .. } | Hold::GroupHeld { .. }) => group_out += 1,
-                Some(Hold::Sibling { .. } | Hold::UnreadSibling { .. }) => siblings += 1,
+                Some(Hold::Sibling { .. } | Hold::UnseenSibling { .. }) => siblings += 1,
                 None => {}
             }
         }
