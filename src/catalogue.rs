@@ -10,7 +10,9 @@ pub mod units;
 use std::hash::BuildHasher;
 use std::sync::Arc;
 
-pub use columns::{ColumnMap, ColumnUse, DepthUnit, FIELDS, Field, Mapping, NUMERIC, REQUIRED};
+pub use columns::{
+    ColumnMap, ColumnUse, DepthUnit, FIELDS, FPP_PERCENT, Field, Mapping, NUMERIC, REQUIRED,
+};
 pub use load::{LoadOptions, Source, is_missing, parse_number};
 use pool::StrPool;
 use serde::Serialize;

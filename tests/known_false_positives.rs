@@ -462,3 +462,25 @@ GN,GN-3,23.9,0.00001,102.5,0.001,9000,4.7,90,0.3,1,1,5772\n";
     let odds = agreed(c);
     assert_eq!(odds["GN-1"], "validated");
 }
+
+#[test]
+fn an_fpp_in_percent_is_read_as_one() {
+    // Invented: an archive gives fpp in percent (2 and 75). Read as
+    // fractions, 75 would be no probability at all and PCT-2 a candidate
+    // like any other; in percent it is more likely a false positive than a
+    // planet (docs/science.md §3.5), and PCT-1 is held with it.
+    let rows = "\
+PCT,PCT-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,2\n\
+PCT,PCT-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,75\n";
+    let cat = load_text(&catalogue("fpp", rows));
+    let live = live_of(&cat);
+    let (one, two) = (id(&cat, "PCT-1"), id(&cat, "PCT-2"));
+    assert!(
+        live.flags(two).contains(Flag::KnownFp),
+        "{:?}",
+        live.flags(two)
+    );
+    assert_eq!(live.status(one), Status::Held);
+    assert_ne!(live.verdict(one), Verdict::Validated);
+    assert!(live.input_warnings.is_empty(), "{:?}", live.input_warnings);
+}

@@ -358,6 +358,10 @@ impl fmt::Display for Field {
     }
 }
 
+/// The unit of an `fpp` column given in percent (`ColumnUse::unit`): its
+/// values are stored as fractions.
+pub const FPP_PERCENT: &str = "percent (stored as a fraction)";
+
 /// The unit transit depths arrive in. Stored depths are always ppm.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "lowercase")]

@@ -13,7 +13,7 @@ use csv::ByteRecord;
 use flate2::read::MultiGzDecoder;
 
 use super::columns::{
-    ColumnMap, ColumnUse, DepthUnit, Field, Mapping, NUMERIC, REQUIRED, header_unit,
+    ColumnMap, ColumnUse, DepthUnit, FPP_PERCENT, Field, Mapping, NUMERIC, REQUIRED, header_unit,
 };
 use super::formats::{self, TableFormat};
 use super::pool::StrPool;

@@ -119,17 +119,19 @@ pub struct UnseenFp {
 /// What a skipped row's cells say of a false positive, read as a loaded
 /// row's are: a disposition that names one, a set false-positive flag, or
 /// an fpp of at least [`FPP_EVEN`]. `disposition` and `fpp` are the
-/// headers mapped to those fields.
+/// headers mapped to those fields; `fpp_scale` divides the fpp (100 for a
+/// column in percent).
 fn skipped_row_says(
     row: &SkippedRow,
     disposition: Option<&str>,
     fpp: Option<&str>,
+    fpp_scale: f64,
 ) -> Option<String> {
     row.cells.iter().find_map(|(h, v)| {
         let clean = || crate::sanitize::clean(v.trim()).into_owned();
         let h_clean = crate::sanitize::clean(h);
         if Some(h.as_str()) == fpp {
-            let p: f64 = v.trim().parse().ok()?;
+            let p: f64 = v.trim().parse::<f64>().ok()? / fpp_scale;
             (FPP_EVEN..=1.0)
                 .contains(&p)
                 .then(|| format!("fpp {}", clean()))
@@ -153,13 +155,19 @@ fn unread(cat: &Catalogue, out: &mut Checks) {
             .map(|u| u.header.as_str())
     };
     let (disposition, fpp) = (mapped(Field::Disposition), mapped(Field::Fpp));
+    // A skipped row's fpp as the file gave it: in percent where the column is.
+    let in_percent = cat
+        .columns
+        .iter()
+        .any(|u| u.field == Field::Fpp.name() && u.unit == crate::catalogue::FPP_PERCENT);
+    let fpp_scale = if in_percent { 100.0 } else { 1.0 };
     let mut found: Vec<UnseenFp> = cat
         .skipped
         .iter()
         .filter_map(|skip| {
             let row = skip.row.as_deref()?;
             let star = cat.find_star(&row.star)?;
-            let said = skipped_row_says(row, disposition, fpp)?;
+            let said = skipped_row_says(row, disposition, fpp, fpp_scale)?;
             Some(UnseenFp {
                 star,
                 why: format!(

@@ -311,6 +311,31 @@ impl Merger {
                     unit = format!("{} (stored as ppm)", stated.unwrap_or(""));
                 }
                 how = format!("{how}; unit {why}");
+            } else if *field == Field::Fpp {
+                // A probability in percent: stated so (`FPP (%)`), or seen
+                // (values above 1, none above 100), stored as a fraction.
+                let slot = Field::Fpp.num_slot().unwrap_or(0);
+                if let Some(fpp) = num[slot].as_deref_mut() {
+                    let said = stated.is_some_and(|u| {
+                        matches!(u.to_ascii_lowercase().as_str(), "%" | "percent" | "pct")
+                    });
+                    let (lo, hi) = fpp
+                        .iter()
+                        .filter(|v| v.is_finite())
+                        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &v| {
+                            (lo.min(v), hi.max(v))
+                        });
+                    let seen = hi > 1.0 && hi <= 100.0 && lo >= 0.0;
+                    if said || seen {
+                        fpp.iter_mut().for_each(|v| *v /= 100.0);
+                        unit = FPP_PERCENT.to_string();
+                        how = if said {
+                            format!("{how}; table unit {}", stated.unwrap_or(""))
+                        } else {
+                            format!("{how}; percent, detected: values up to {hi}, none above 100")
+                        };
+                    }
+                }
             } else if let Some(u) = stated {
                 how = match layout.convert_text.iter().find(|(f, _)| f == field) {
                     Some((_, text)) => format!("{how}; {text}"),

@@ -436,3 +436,32 @@ fn an_archive_exports_headers_and_bracketed_units_are_read() {
         "{e}"
     );
 }
+
+#[test]
+fn a_false_positive_probability_in_percent_is_stored_as_a_fraction() {
+    // A probability cannot exceed 1: values above 1 and none above 100 are
+    // percent; so is a column whose header states `%`. (Invented rows.)
+    let load = |text: &str| {
+        Catalogue::load(
+            Source::Bytes {
+                name: "fpp.csv",
+                data: text.as_bytes(),
+            },
+            &LoadOptions::default(),
+        )
+        .unwrap()
+    };
+    let rows = "S,S-1,3.5,100.0,800,3.0,75\nS,S-2,7.5,100.5,800,3.0,2\n";
+    let seen = load(&format!(
+        "star,candidate,period,epoch,depth,duration,fpp\n{rows}"
+    ));
+    assert_eq!(seen.value(Field::Fpp, 0), Some(0.75));
+    assert_eq!(seen.value(Field::Fpp, 1), Some(0.02));
+    let stated =
+        load("star,candidate,period,epoch,depth,duration,FPP (%)\nS,S-1,3.5,100.0,800,3.0,0.5\n");
+    assert_eq!(stated.value(Field::Fpp, 0), Some(0.005));
+    // Fractions stay as they are.
+    let plain =
+        load("star,candidate,period,epoch,depth,duration,fpp\nS,S-1,3.5,100.0,800,3.0,0.5\n");
+    assert_eq!(plain.value(Field::Fpp, 0), Some(0.5));
+}
