@@ -159,6 +159,9 @@ pub struct Catalogue {
     pub columns: Vec<ColumnUse>,
     /// Rows that were not loaded, in file order.
     pub skipped: Vec<Skip>,
+    /// What the loader read otherwise than as written (candidate ids
+    /// numbered per star), for every output's warnings.
+    pub notes: Vec<String>,
     /// Data rows seen (loaded plus skipped).
     pub rows_seen: u64,
     /// The table format read ("CSV/TSV", "IPAC table", "VOTable"...).
@@ -256,6 +259,15 @@ impl Catalogue {
             .enumerate()
             .filter(|(_, (h, _))| Some(h.as_str()) == mapped || names_a_disposition(h))
             .map(|(i, _)| i)
+            .collect()
+    }
+
+    /// What every output says of the load: [`Catalogue::skipped_line`] and
+    /// the loader's notes.
+    pub fn load_warnings(&self) -> Vec<String> {
+        self.skipped_line()
+            .into_iter()
+            .chain(self.notes.iter().cloned())
             .collect()
     }
 

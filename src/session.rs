@@ -237,8 +237,8 @@ impl Session {
 
     /// Prints the light-curve errors and the held-back line on stderr.
     pub fn warn(&self) {
-        if let Some(s) = self.loaded.catalogue.skipped_line() {
-            eprintln!("starsift: warning: {}", clean(&s));
+        for w in self.loaded.catalogue.load_warnings() {
+            eprintln!("starsift: warning: {}", clean(&w));
         }
         for (star, e) in &self.lightcurve_errors {
             eprintln!("starsift: warning: star {}: {}", clean(star), clean(e));

@@ -174,7 +174,8 @@ fn build_app_counting(
 /// Rows that did not load, said as the browser opens
 /// (`Catalogue::skipped_line`).
 fn skipped_message(cat: &crate::catalogue::Catalogue) -> Option<String> {
-    cat.skipped_line()
+    let w = cat.load_warnings();
+    (!w.is_empty()).then(|| w.join("; "))
 }
 
 /// `$XDG_STATE_HOME/starsift/positions.json` (else `~/.local/state/...`):

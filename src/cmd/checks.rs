@@ -64,8 +64,8 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     // Verdicts come with the checks when the model can be built (it needs N).
     let live = session.live.as_ref().ok();
     if args.format != Format::Json {
-        if let Some(s) = cat.skipped_line() {
-            eprintln!("starsift: warning: {}", clean(&s));
+        for w in cat.load_warnings() {
+            eprintln!("starsift: warning: {}", clean(&w));
         }
         for (star, e) in lc_errors {
             eprintln!("starsift: warning: star {}: {}", clean(star), clean(e));

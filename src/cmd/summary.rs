@@ -60,6 +60,9 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     cat.skipped.len()
                 );
             }
+            for n in &cat.notes {
+                eprintln!("starsift: warning: {}", clean(n));
+            }
         }
         Format::Table => {
             writeln!(out, "catalogue   {} ({})", clean(&cat.source), cat.format)?;
@@ -81,6 +84,9 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 cat.rows_seen,
                 cat.skipped.len()
             )?;
+            for n in &cat.notes {
+                writeln!(out, "note        {}", clean(n))?;
+            }
             writeln!(out)?;
             let mut t = Table::new(&[
                 ("multiplicity", Align::Right),
@@ -190,7 +196,7 @@ pub fn to_json(cat: &Catalogue) -> Value {
         })
         .collect();
     let extras: Vec<String> = cat.extra_headers().map(|h| clean(h).into_owned()).collect();
-    json!({
+    let mut v = json!({
         "catalogue": clean(&cat.source),
         "format": cat.format,
         "stars": cat.star_count(),
@@ -201,7 +207,13 @@ pub fn to_json(cat: &Catalogue) -> Value {
         "skipped": skipped,
         "columns": columns,
         "extra_columns": extras,
-    })
+    });
+    // The loader's notes, where it has some (the key is absent otherwise,
+    // as before there were any).
+    if !cat.notes.is_empty() {
+        v["notes"] = cat.notes.iter().map(|n| clean(n).into_owned()).collect();
+    }
+    v
 }
 
 /// What the light curves of a catalogue hold, read without diagnostics.

@@ -115,6 +115,19 @@ impl Merger {
         part
     }
 
+    /// Whether the candidate ids number each star's candidates (`1`, `2`...
+    /// or `b`, `c`...) rather than name them: at least one row in ten
+    /// repeats an id of another star. A few repeats across stars are
+    /// duplicates (one candidate put on two stars), and go; so does a
+    /// repeat within one star, either way.
+    fn numbered_per_star(&self, dups: &[(u32, u32)]) -> bool {
+        let across = dups
+            .iter()
+            .filter(|&&(r, f)| self.row_stars.get(r as usize) != self.row_stars.get(f as usize))
+            .count();
+        across > 0 && across * 10 >= self.candidates.len()
+    }
+
     /// What a loaded row says in the columns of earlier verdicts, for its
     /// skip when it is removed as a duplicate (`Skip::row`): a second row
     /// of one candidate (an archive's row per reference, say) may be the
@@ -211,11 +224,47 @@ impl Merger {
         let (candidate_lookup, first_of) =
             cands.settle(cands_agree, &self.candidate_hash, same_cand);
         let grouping = StarGrouping::number(stars.settle(stars_agree, &self.star_hash, same_star));
-        let dups: Vec<(u32, u32)> = (first_of.iter().enumerate())
+        let mut dups: Vec<(u32, u32)> = (first_of.iter().enumerate())
             .filter(|&(r, &f)| f as usize != r)
             .map(|(r, &f)| (r as u32, f))
             .collect();
         drop(first_of);
+        let mut candidate_lookup = candidate_lookup;
+        let mut id_note = None;
+        if self.numbered_per_star(&dups) {
+            // Ids that number the candidates of each star (`1`, `2`, or
+            // `b`, `c`): the star's id and its own make one.
+            let n = self.candidates.len();
+            let mut ids = StrPool::with_capacity(
+                n,
+                self.candidates.byte_len() + self.row_stars.byte_len() + n,
+            );
+            let mut id = String::new();
+            for r in 0..n {
+                id.clear();
+                id.push_str(self.row_stars.get(r));
+                id.push('/');
+                id.push_str(self.candidates.get(r));
+                ids.push(&id);
+            }
+            self.candidate_hash = (0..n)
+                .map(|r| self.hasher.hash_one(ids.get(r).as_bytes()))
+                .collect();
+            self.candidates = ids;
+            let cands = &self.candidates;
+            let (lookup, first_of) = IdIndex::build(&self.candidate_hash, |a, b| {
+                cands.get(a as usize) == cands.get(b as usize)
+            });
+            candidate_lookup = lookup;
+            id_note = Some(format!(
+                "candidate ids repeat across stars ({} rows): read as numbered per star, each candidate named `star/id`",
+                dups.len()
+            ));
+            dups = (first_of.iter().enumerate())
+                .filter(|&(r, &f)| f as usize != r)
+                .map(|(r, &f)| (r as u32, f))
+                .collect();
+        }
         let (candidate_lookup, grouping) = if dups.is_empty() {
             (candidate_lookup, grouping)
         } else {
@@ -388,6 +437,7 @@ impl Merger {
             hasher,
             columns,
             skipped,
+            notes: id_note.into_iter().collect(),
             rows_seen,
             format: TableFormat::Delimited.name(),
         })

@@ -465,3 +465,51 @@ fn a_false_positive_probability_in_percent_is_stored_as_a_fraction() {
         load("star,candidate,period,epoch,depth,duration,fpp\nS,S-1,3.5,100.0,800,3.0,0.5\n");
     assert_eq!(plain.value(Field::Fpp, 0), Some(0.5));
 }
+
+#[test]
+fn ids_that_number_each_stars_candidates_are_named_by_star() {
+    // Invented: candidates numbered 1, 2 within each star, as pipelines
+    // write them; many repeats across stars, so each is `star/id`, and a
+    // repeat within one star is still a duplicate.
+    let load = |text: &str| {
+        Catalogue::load(
+            Source::Bytes {
+                name: "numbered.csv",
+                data: text.as_bytes(),
+            },
+            &LoadOptions::default(),
+        )
+        .unwrap()
+    };
+    let head = "star,candidate,period,epoch,depth,duration\n";
+    let numbered = format!(
+        "{head}A,1,3.5,100.0,800,3.0\nA,2,7.9,100.5,800,3.0\nB,1,4.5,100.0,800,3.0\n\
+         C,1,5.5,100.0,800,3.0\nC,1,5.5,100.0,800,3.0\n"
+    );
+    let cat = load(&numbered);
+    assert_eq!(cat.len(), 4);
+    assert_eq!(cat.candidate_id(1), "A/2");
+    assert_eq!(cat.members(cat.find_star("A").unwrap()).len(), 2);
+    assert!(cat.find_candidate("B/1").is_some());
+    assert_eq!(cat.skipped.len(), 1);
+    assert!(
+        cat.skipped[0].reason.contains("duplicate id `C/1`"),
+        "{:?}",
+        cat.skipped
+    );
+    assert!(
+        cat.notes[0].contains("numbered per star"),
+        "{:?}",
+        cat.notes
+    );
+    // One candidate put on two stars in a catalogue of named candidates is
+    // a duplicate, as before.
+    let mut named = String::from(head);
+    for i in 0..30 {
+        named.push_str(&format!("S{i},S{i}.01,3.5,100.0,800,3.0\n"));
+    }
+    named.push_str("S99,S3.01,3.5,100.0,800,3.0\n");
+    let cat = load(&named);
+    assert_eq!((cat.len(), cat.skipped.len()), (30, 1));
+    assert!(cat.notes.is_empty());
+}
