@@ -315,6 +315,30 @@ impl Checks {
     }
 }
 
+/// A note when the epoch column counts from different zeros: some rows near
+/// a full Julian date (above 2,000,000) and some far below it (under
+/// 100,000, as BJD − 2457000 and the like are). The checks that compare
+/// epochs (signal groups, echoes) and the light curves need one zero.
+fn epoch_zeros(cat: &Catalogue, out: &mut Checks) {
+    let Some(epochs) = cat.column(Field::Epoch) else {
+        return;
+    };
+    let full = epochs.iter().position(|&e| e > 2.0e6);
+    let offset = epochs.iter().position(|&e| e < 1.0e5);
+    if let (Some(f), Some(o)) = (full, offset) {
+        let count = |p: fn(f64) -> bool| epochs.iter().filter(|&&e| p(e)).count();
+        out.notes.push(format!(
+            "the epochs count from different zeros: {} rows near a full Julian date (such as {}, {}) and {} far below one (such as {}, {}; BJD − 2457000 and the like): signal groups, echoes and light curves compare epochs, so give the table one zero",
+            count(|e| e > 2.0e6),
+            crate::sanitize::clean(cat.candidate_id(f as CandidateId)),
+            epochs[f],
+            count(|e| e < 1.0e5),
+            crate::sanitize::clean(cat.candidate_id(o as CandidateId)),
+            epochs[o],
+        ));
+    }
+}
+
 /// Runs every check on the catalogue.
 pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
     run_counted(cat, s, &CheckProgress::default())
@@ -343,6 +367,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         }
         progress.add(n % progress::STEP);
         known::flag(cat, &mut checks);
+        epoch_zeros(cat, &mut checks);
         progress.publish(checks.all_flags());
         let derived = system::PerCandidate {
             density_transit: &density_transit,

@@ -611,3 +611,23 @@ fn pairs_no_host_could_keep_are_crowded_even_where_the_star_is_unknown() {
         );
     }
 }
+
+#[test]
+fn epochs_from_two_zeros_are_said() {
+    // Invented: one row's epoch in BJD, another's in BJD − 2457000.
+    let mixed = format!(
+        "{HEAD}\
+M,M-1,4.1,0.00001,2458400.1,0.001,700,3.0,30,0.3,1,1,5772,,,\n\
+N,N-1,5.3,0.00001,1400.6,0.001,700,3.0,30,0.3,1,1,5772,,,\n"
+    );
+    let (_, ch) = loaded_and_checked(&mixed);
+    assert!(
+        ch.notes().iter().any(|n| n.contains("different zeros")
+            && n.contains("M-1, 2458400.1")
+            && n.contains("N-1, 1400.6")),
+        "{:?}",
+        ch.notes()
+    );
+    let one = mixed.replace("1400.6", "2458401.6");
+    assert!(loaded_and_checked(&one).1.notes().is_empty());
+}
