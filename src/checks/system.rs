@@ -134,11 +134,14 @@ impl Together {
 /// is given the pair's own disagreement instead, |P_b − n·P_a| at b's
 /// period (a n-th of it at a's): one of the two is off by about that much.
 /// Together when the offset at either epoch is within the longer duration
-/// plus 3σ. (The loader keeps no row without an epoch; were one missing,
-/// nothing would tell the transits apart: together.)
+/// plus 3σ. Epochs from different zeros (100,000 days apart) cannot be
+/// compared: together. (The loader keeps no row without an epoch; were one
+/// missing, the same.)
 fn together(a: &Member, b: &Member, n: f64, t14_d: f64) -> Together {
     let (ea, eb) = (a.epoch, b.epoch);
-    if ea.is_nan() || eb.is_nan() {
+    // Epochs 100,000 days apart count from different zeros (docs/science.md
+    // §3.1): nothing tells the transits apart either.
+    if ea.is_nan() || eb.is_nan() || (ea - eb).abs() > 1.0e5 {
         return Together {
             yes: true,
             off_d: 0.0,

@@ -630,4 +630,13 @@ N,N-1,5.3,0.00001,1400.6,0.001,700,3.0,30,0.3,1,1,5772,,,\n"
     );
     let one = mixed.replace("1400.6", "2458401.6");
     assert!(loaded_and_checked(&one).1.notes().is_empty());
+    // One binary at P and 2P on one star, its epochs from the two zeros
+    // and its periods without errors: it cannot be told from one signal.
+    let twice = format!(
+        "{HEAD}\
+E,E-1,2.5,,2458400.1,,8000,2.4,60,0.3,1,1,5772,,,\n\
+E,E-2,5.0,,1401.35,,8000,2.4,40,0.3,1,1,5772,,,\n"
+    );
+    let (c, ch) = loaded_and_checked(&twice);
+    assert!(flagged(&c, &ch, "E-2", Flag::Harmonic), "{}", ch.why(1));
 }
