@@ -136,3 +136,70 @@ impl Live {
         ))
     }
 }
+
+/// Which stars are known to host a false positive (docs/science.md §1.1).
+impl Live {
+    /// What says star s hosts a false positive no loaded row shows (a
+    /// skipped row, a decision on a candidate the catalogue no longer has).
+    pub fn unseen_fp(&self, s: StarId) -> Option<&UnseenFp> {
+        let i = self.unseen_fp.binary_search_by_key(&s, |u| u.star).ok()?;
+        Some(&self.unseen_fp[i])
+    }
+
+    /// Every star known to host a false positive no loaded row shows, by
+    /// star: what a rebuild of these odds takes again.
+    pub fn unseen_fps(&self) -> &[UnseenFp] {
+        &self.unseen_fp
+    }
+
+    /// The flags that name a candidate an astrophysical false positive on
+    /// its star, among the blocking ones (docs/science.md §1.1): its
+    /// siblings are held back with it.
+    pub(super) fn fp_signs(&self) -> FlagSet {
+        FlagSet::false_positive_signs().intersection(self.model.blocking)
+    }
+
+    /// Whether candidate c, under decision d, may be a known false positive
+    /// of its star: rejected as one, or flagged as one. A superset of
+    /// [`Live::known_fp_among`]'s answer (which also asks the group).
+    pub(super) fn may_mark_fp(&self, c: CandidateId, d: Decision) -> bool {
+        d.reason().is_some_and(names_false_positive)
+            || self.flags[c as usize].intersects(self.fp_signs())
+    }
+
+    /// The first of `members` (one star's) that is a known false positive
+    /// under `decision`: rejected as one, or, not rejected, flagged as one
+    /// while standing for its signal. A copy's flags are not its own: an alias folded at
+    /// twice the period shows its own transit at phase 0.5, a `secondary`
+    /// that says nothing of the star.
+    pub(super) fn known_fp_among(
+        &self,
+        members: &[CandidateId],
+        decision: impl Fn(CandidateId) -> Decision,
+    ) -> Option<CandidateId> {
+        members.iter().copied().find(|&m| {
+            // A vetter's rejection says what the member is, over its flags:
+            // rejected as an artefact, say, it marks nothing.
+            if let Some(r) = decision(m).reason() {
+                return names_false_positive(r);
+            }
+            if !self.flags[m as usize].intersects(self.fp_signs()) {
+                return false;
+            }
+            match self.active_group(m) {
+                Some(g) => self.group_standing(g, &decision).rep == Some(m),
+                None => true,
+            }
+        })
+    }
+}
+
+/// A rejection that says what the signal is: a false positive of its star
+/// (an eclipsing binary, a blend, a stellar-size companion), whose siblings
+/// are held back with it (docs/science.md §1.1).
+pub fn names_false_positive(r: Reason) -> bool {
+    matches!(
+        r,
+        Reason::EclipsingBinary | Reason::Blend | Reason::TooLarge
+    )
+}
