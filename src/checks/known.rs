@@ -147,7 +147,7 @@ fn skipped_row_says(
 
 /// The stars that skipped rows call the host of a false positive, by star
 /// (the first such row of each), and a note naming them.
-fn unread(cat: &Catalogue, out: &mut Checks) {
+fn skipped_rows(cat: &Catalogue, out: &mut Checks) {
     let mapped = |f: Field| {
         cat.columns
             .iter()
@@ -208,7 +208,7 @@ fn unread(cat: &Catalogue, out: &mut Checks) {
 
 /// Flags every candidate the catalogue itself calls a false positive.
 pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
-    unread(cat, out);
+    skipped_rows(cat, out);
     let columns = cat.disposition_columns();
     let headers: Vec<&str> = cat.extra_headers().collect();
     let flag_columns: Vec<usize> = (0..headers.len())

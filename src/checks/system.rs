@@ -93,10 +93,11 @@ fn given(v: f64) -> Option<f64> {
 /// compared.
 struct Together {
     yes: bool,
-    /// b's transit nearest a's epoch, from a's transits, days.
-    off_d: f64,
-    /// What made the transits together beyond the durations and the epochs'
-    /// own errors: the cycles an ephemeris was carried, or a missing epoch.
+    /// b's transit nearest a's epoch, from a's transits, days; `None` when
+    /// the epochs count from different zeros and cannot be compared.
+    off_d: Option<f64>,
+    /// The cycles an ephemeris was carried, where that, beyond the
+    /// durations and the epochs' own errors, made the transits together.
     carried: Option<Carried>,
 }
 
@@ -107,8 +108,8 @@ struct Carried {
 }
 
 impl Together {
-    /// The words added to a link's detail where carrying was needed.
-    fn carried(&self) -> String {
+    /// What carrying the ephemeris allowed, where it was needed.
+    fn carried_words(&self) -> String {
         self.carried.as_ref().map_or(String::new(), |c| {
             format!(
                 ", within the {:.2} h that {:.0} cycles of the {} allow",
@@ -121,6 +122,26 @@ impl Together {
                 }
             )
         })
+    }
+
+    /// `transits 0.11 h apart`, for a near-twin's detail.
+    fn apart_words(&self) -> String {
+        match self.off_d {
+            Some(off) => format!(
+                "transits {:.2} h apart{}",
+                off.abs() * 24.0,
+                self.carried_words()
+            ),
+            None => "transits the epochs cannot place (they count from different zeros)".into(),
+        }
+    }
+
+    /// `offset 0.11 h`, for a harmonic's detail.
+    fn offset_words(&self) -> String {
+        match self.off_d {
+            Some(off) => format!("offset {:.2} h{}", off.abs() * 24.0, self.carried_words()),
+            None => "offset unknown: the epochs count from different zeros".into(),
+        }
     }
 }
 
@@ -144,7 +165,7 @@ fn together(a: &Member, b: &Member, n: f64, t14_d: f64) -> Together {
     if ea.is_nan() || eb.is_nan() || (ea - eb).abs() > 1.0e5 {
         return Together {
             yes: true,
-            off_d: 0.0,
+            off_d: None,
             carried: None,
         };
     }
@@ -174,17 +195,17 @@ fn together(a: &Member, b: &Member, n: f64, t14_d: f64) -> Together {
     // Of the tests that pass, the one that finds the transits closer.
     let at_a = (off_a.abs() <= allow_a).then(|| Together {
         yes: true,
-        off_d: off_a,
+        off_d: Some(off_a),
         carried: carried(nb, allow_a, off_a, err_b.is_some()),
     });
     let at_b = (off_b.abs() <= allow_b).then(|| Together {
         yes: true,
-        off_d: off_b,
+        off_d: Some(off_b),
         carried: carried(na, allow_b, off_b, err_a.is_some()),
     });
     match (at_a, at_b) {
         (Some(x), Some(y)) => {
-            if y.off_d.abs() < x.off_d.abs() {
+            if off_b.abs() < off_a.abs() {
                 y
             } else {
                 x
@@ -193,7 +214,7 @@ fn together(a: &Member, b: &Member, n: f64, t14_d: f64) -> Together {
         (Some(x), None) | (None, Some(x)) => x,
         (None, None) => Together {
             yes: false,
-            off_d: off_a,
+            off_d: Some(off_a),
             carried: None,
         },
     }
@@ -288,14 +309,13 @@ pub(super) fn check(
                         b,
                         flag: Flag::NearTwin,
                         detail: format!(
-                            "period ratio {r:.6} (within {:.1e} of 1) and transits {:.2} h apart{}: one signal found twice",
+                            "period ratio {r:.6} (within {:.1e} of 1) and {}: one signal found twice",
                             tol(1.0),
-                            t.off_d.abs() * 24.0,
-                            t.carried()
+                            t.apart_words()
                         ),
                     });
                 } else {
-                    let phase = (t.off_d / pa).rem_euclid(1.0);
+                    let phase = (t.off_d.unwrap_or(0.0) / pa).rem_euclid(1.0);
                     links.push(Link {
                         a,
                         b,
@@ -320,9 +340,8 @@ pub(super) fn check(
                         b,
                         flag: Flag::Harmonic,
                         detail: format!(
-                            "period ratio {r:.6} ≈ {n} and every transit of the longer falls on one of the shorter (offset {:.2} h{}): one signal at two periods",
-                            t.off_d.abs() * 24.0,
-                            t.carried()
+                            "period ratio {r:.6} ≈ {n} and every transit of the longer falls on one of the shorter ({}): one signal at two periods",
+                            t.offset_words()
                         ),
                     });
                 }

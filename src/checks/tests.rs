@@ -639,4 +639,5 @@ E,E-2,5.0,,1401.35,,8000,2.4,40,0.3,1,1,5772,,,\n"
     );
     let (c, ch) = loaded_and_checked(&twice);
     assert!(flagged(&c, &ch, "E-2", Flag::Harmonic), "{}", ch.why(1));
+    assert!(ch.why(1).contains("offset unknown"), "{}", ch.why(1));
 }

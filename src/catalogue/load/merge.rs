@@ -224,10 +224,7 @@ impl Merger {
         let (candidate_lookup, first_of) =
             cands.settle(cands_agree, &self.candidate_hash, same_cand);
         let grouping = StarGrouping::number(stars.settle(stars_agree, &self.star_hash, same_star));
-        let mut dups: Vec<(u32, u32)> = (first_of.iter().enumerate())
-            .filter(|&(r, &f)| f as usize != r)
-            .map(|(r, &f)| (r as u32, f))
-            .collect();
+        let mut dups = repeats(&first_of);
         drop(first_of);
         let mut candidate_lookup = candidate_lookup;
         let mut id_note = None;
@@ -260,10 +257,7 @@ impl Merger {
                 "candidate ids repeat across stars ({} rows): read as numbered per star, each candidate named `star/id`",
                 dups.len()
             ));
-            dups = (first_of.iter().enumerate())
-                .filter(|&(r, &f)| f as usize != r)
-                .map(|(r, &f)| (r as u32, f))
-                .collect();
+            dups = repeats(&first_of);
         }
         let (candidate_lookup, grouping) = if dups.is_empty() {
             (candidate_lookup, grouping)
@@ -442,6 +436,14 @@ impl Merger {
             format: TableFormat::Delimited.name(),
         })
     }
+}
+
+/// The rows whose id an earlier row has: (row, that first row).
+fn repeats(first_of: &[u32]) -> Vec<(u32, u32)> {
+    (first_of.iter().enumerate())
+        .filter(|&(r, &f)| f as usize != r)
+        .map(|(r, &f)| (r as u32, f))
+        .collect()
 }
 
 /// Star → members as compressed rows: where each star's members start in

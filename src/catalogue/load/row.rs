@@ -488,17 +488,17 @@ impl Layout {
             if self.checked[j] && is_number(raw) {
                 continue; // its value is not kept
             }
-            let angle = |hours| sexagesimal(raw, hours);
+            // Positions may be in sexagesimal (RA in hours): read as degrees.
+            let in_hours = match NUMERIC[slot] {
+                Field::RaDeg => Some(true),
+                Field::DecDeg => Some(false),
+                _ => None,
+            };
+            let angle = || in_hours.and_then(|hours| sexagesimal(raw, hours));
             scratch[slot] = match parse_cell(raw) {
                 Cell::Value(v) => v,
                 Cell::Missing => f64::NAN,
-                // Positions in sexagesimal (RA in hours): read as degrees.
-                Cell::Bad if NUMERIC[slot] == Field::RaDeg && angle(true).is_some() => {
-                    angle(true).unwrap_or(f64::NAN)
-                }
-                Cell::Bad if NUMERIC[slot] == Field::DecDeg && angle(false).is_some() => {
-                    angle(false).unwrap_or(f64::NAN)
-                }
+                Cell::Bad if let Some(v) = angle() => v,
                 Cell::Bad => {
                     return Err(self.skip(
                         line,
