@@ -210,7 +210,7 @@ pub struct Checks {
     /// not read as meant), for the warnings of every output.
     notes: Vec<String>,
     /// Stars that a skipped row calls the host of a false positive
-    /// (`known::flag`), by star.
+    /// (`known::flag`), in star order.
     unseen_fp: Vec<UnseenFp>,
 }
 

@@ -636,7 +636,7 @@ fn orbit_variation(d: &Diagnostics, ceiling: f64) -> Option<String> {
     let strong = |m: Measure, above: f64| m.z() >= p.threshold_t && m.value > above;
     if let Some(ell) = d.ellipsoidal_ceiling_ppm.filter(|&c| strong(p.at_half, c)) {
         return Some(format!(
-            "light out of transit varies at half the period, faintest at the transit and half an orbit later:              {:.0} ± {:.0} ppm over {} orbits (t = {:.1} ≥ {:.1}), above the {:.0} ppm a planet of 13 M_J could raise              (ellipsoidal variation: a stellar companion)",
+            "light out of transit varies at half the period, faintest at the transit and half an orbit later: {:.0} ± {:.0} ppm over {} orbits (t = {:.1} ≥ {:.1}), above the {:.0} ppm a planet of 13 M_J could raise (ellipsoidal variation: a stellar companion)",
             p.at_half.value,
             p.at_half.err,
             p.orbits,
@@ -647,7 +647,7 @@ fn orbit_variation(d: &Diagnostics, ceiling: f64) -> Option<String> {
     }
     strong(p.at_period, 2.0 * ceiling).then(|| {
         format!(
-            "light out of transit varies with the period, faintest at the transit: {:.0} ± {:.0} ppm over {} orbits              (t = {:.1} ≥ {:.1}), above twice the {:.0} ppm a planet's own light could vary              (a binary at twice this period, or a companion as bright as a star)",
+            "light out of transit varies with the period, faintest at the transit: {:.0} ± {:.0} ppm over {} orbits (t = {:.1} ≥ {:.1}), above twice the {:.0} ppm a planet's own light could vary (a binary at twice this period, or a companion as bright as a star)",
             p.at_period.value, p.at_period.err, p.orbits, p.at_period.z(), p.threshold_t, ceiling
         )
     })

@@ -94,9 +94,10 @@ pub struct Live {
     /// Each signal group's standing under the decisions, kept per group so
     /// that a group of thousands costs one pass, not one per member.
     standings: Vec<GroupStanding>,
-    /// Stars that a skipped row calls the host of a false positive, by
-    /// star (docs/science.md §3.5): known false positives the catalogue
-    /// could not load, whose siblings are held back as any others'.
+    /// Stars known to host a false positive that no loaded row shows, by
+    /// star (docs/science.md §1.1, §3.5): a skipped row's, or a ledger
+    /// rejection's of a candidate the catalogue no longer lists; their
+    /// candidates are held back as any known false positive's siblings.
     unseen_fp: Arc<[UnseenFp]>,
     /// Cautions about the inputs (bad fpp values, clamps in the table).
     pub input_warnings: Vec<String>,
@@ -126,10 +127,10 @@ impl Live {
         Live::with_evidence(cat, model, flags, groups, decision, Vec::new())
     }
 
-    /// [`Live::with_state`], with the stars that skipped rows call the
-    /// host of a false positive (`Checks::unseen_fp`): everything the
-    /// checks found, as every command and the browser build it
-    /// (`session::odds_with`).
+    /// [`Live::with_state`], with the stars known to host a false positive
+    /// that no loaded row shows (`Checks::unseen_fp`, and the ledger's
+    /// `session::gone_false_positives`): all the evidence, as every command
+    /// and the browser build it (`session::odds_with`).
     pub fn with_evidence(
         cat: &Catalogue,
         model: Model,
@@ -477,8 +478,8 @@ impl Live {
         let mut memo: HashMap<u32, GroupStanding> = HashMap::new();
         let members = self.index.members(s);
         let fp = self.known_fp_among(members, &decision);
-        // A false positive only a skipped row names holds every member.
-        let unread = self.unseen_fp(s).is_some();
+        // A false positive no loaded row shows holds every member.
+        let unseen = self.unseen_fp(s).is_some();
         members
             .iter()
             .map(|&c| {
@@ -486,7 +487,7 @@ impl Live {
                     Status::Rejected
                 } else if self.flags[c as usize].intersects(own_blocking) {
                     Status::Held
-                } else if fp.is_some_and(|m| m != c) || unread {
+                } else if fp.is_some_and(|m| m != c) || unseen {
                     // A sibling of a known false positive (§1.1).
                     Status::Held
                 } else if let Some(g) = self.active_group(c) {
@@ -560,8 +561,8 @@ impl Live {
         let own_blocking = self.own_blocking();
         let mut k_of = vec![0u32; index.star_count()];
         let mut grouped = vec![false; index.star_count()];
-        // Stars a skipped row calls the host of a false positive are placed
-        // whole, as those with one among their members.
+        // Stars known to host a false positive no loaded row shows are
+        // placed whole, as those with one among their members.
         for u in self.unseen_fp.iter() {
             grouped[u.star as usize] = true;
         }
