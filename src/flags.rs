@@ -21,9 +21,10 @@ pub enum Flag {
     MixedHost,
     KnownFp,
     Ellipsoidal,
+    KnownArtefact,
 }
 
-pub const ALL_FLAGS: [Flag; 15] = [
+pub const ALL_FLAGS: [Flag; 16] = [
     Flag::BigRadius,
     Flag::OddEven,
     Flag::Secondary,
@@ -39,6 +40,7 @@ pub const ALL_FLAGS: [Flag; 15] = [
     Flag::MixedHost,
     Flag::KnownFp,
     Flag::Ellipsoidal,
+    Flag::KnownArtefact,
 ];
 
 impl Flag {
@@ -59,6 +61,7 @@ impl Flag {
             Flag::MixedHost => "mixed-host",
             Flag::KnownFp => "known-fp",
             Flag::Ellipsoidal => "ellipsoidal",
+            Flag::KnownArtefact => "known-artefact",
         }
     }
 
@@ -104,6 +107,7 @@ impl FlagSet {
             Flag::MixedHost,
             Flag::KnownFp,
             Flag::Ellipsoidal,
+            Flag::KnownArtefact,
         ]
         .into_iter()
         .collect()
@@ -234,7 +238,7 @@ mod tests {
         assert!(!b.contains(Flag::VShape));
         assert_eq!(
             b.joined(";"),
-            "big-radius;odd-even;secondary;density-mismatch;near-twin;harmonic;crowded;echo;low-snr;half-phase;not-recovered;mixed-host;known-fp;ellipsoidal"
+            "big-radius;odd-even;secondary;density-mismatch;near-twin;harmonic;crowded;echo;low-snr;half-phase;not-recovered;mixed-host;known-fp;ellipsoidal;known-artefact"
         );
         assert_eq!(
             FlagSet::parse_list("echo, low-snr").unwrap().joined(","),

@@ -567,7 +567,7 @@ mod tests {
         assert!(Filter::parse("!k>2").is_err());
         assert_eq!(
             e.to_string(),
-            "at column 6: `wobble` is not a flag; flags: big-radius, odd-even, secondary, v-shape, density-mismatch, near-twin, harmonic, crowded, echo, low-snr, half-phase, not-recovered, mixed-host, known-fp, ellipsoidal"
+            "at column 6: `wobble` is not a flag; flags: big-radius, odd-even, secondary, v-shape, density-mismatch, near-twin, harmonic, crowded, echo, low-snr, half-phase, not-recovered, mixed-host, known-fp, ellipsoidal, known-artefact"
         );
     }
 }

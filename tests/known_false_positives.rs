@@ -484,3 +484,39 @@ PCT,PCT-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,75\n";
     assert_ne!(live.verdict(one), Verdict::Validated);
     assert!(live.input_warnings.is_empty(), "{:?}", live.input_warnings);
 }
+
+#[test]
+fn a_signal_the_catalogue_calls_no_transit_counts_for_nothing_and_names_nothing() {
+    // Invented: TOI-style codes. IS-3 is instrumental (`IS`): before, an
+    // unknown word, it counted and made IS a system of three, itself
+    // validated. Now it counts for nothing, and says nothing of its star:
+    // IS-1 and IS-2 are a pair, as after a vetter's rejection as an
+    // artefact (docs/science.md §3.5). The same for a false alarm (`FA`).
+    let rows = "\
+IS,IS-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+IS,IS-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+IS,IS-3,23.9,0.00001,102.5,0.001,640,4.7,26,0.3,1,1,5772,IS\n\
+FA,FA-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+FA,FA-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+FA,FA-3,24.7,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,FA\n";
+    let cat = load_text(&catalogue("disposition", rows));
+    let live = live_of(&cat);
+    for (artefact, pair) in [("IS-3", ["IS-1", "IS-2"]), ("FA-3", ["FA-1", "FA-2"])] {
+        let a = id(&cat, artefact);
+        assert!(live.flags(a).contains(Flag::KnownArtefact), "{artefact}");
+        assert!(!live.flags(a).contains(Flag::KnownFp), "{artefact}");
+        assert_ne!(live.verdict(a), Verdict::Validated, "{artefact}");
+        for s in pair {
+            assert_eq!(live.k(id(&cat, s)), 2, "{s}");
+            assert_eq!(live.verdict(id(&cat, s)), Verdict::Validated, "{s}");
+        }
+    }
+    // The archive's "not transit-like" flag says the same.
+    let rows = rows.replace(",IS\n", ",PC,1\n").replace(",FA\n", ",PC,0\n");
+    let rows = rows.replace(",PC\n", ",PC,\n");
+    let cat = load_text(&catalogue("disposition,koi_fpflag_nt", &rows));
+    let live = live_of(&cat);
+    assert!(live.flags(id(&cat, "IS-3")).contains(Flag::KnownArtefact));
+    assert_eq!(live.verdict(id(&cat, "IS-1")), Verdict::Validated);
+    assert!(live.flags(id(&cat, "FA-3")).is_empty());
+}

@@ -10,21 +10,41 @@ use super::Checks;
 use crate::catalogue::{CandidateId, Catalogue, Field, SkippedRow, StarId};
 use crate::flags::Flag;
 
-/// Dispositions that name a false positive, after [`normalise`]: the
-/// archives' words and their two-letter codes (from memory of the exoplanet
-/// archives' candidate tables), and the kinds of false positive themselves.
-/// A cell that begins with one of them and goes on after a space or a
-/// mark counts too (`false positive (centroid offset)`, `FP - EB`, `EB?`).
-const FALSE_POSITIVE: [&str; 9] = [
+/// Dispositions that name an astrophysical false positive, after
+/// [`normalise`]: the archives' words and their two-letter codes (from
+/// memory of the exoplanet archives' candidate tables), and the kinds of
+/// false positive themselves. A cell that begins with one of them and goes
+/// on after a space or a mark counts too (`false positive (centroid
+/// offset)`, `FP - EB`, `EB?`). Its star is one known to host a false
+/// positive (docs/science.md §1.1).
+const FALSE_POSITIVE: [&str; 7] = [
     "false positive",
     "fp",
-    "false alarm",
-    "fa",
     "eclipsing binary",
     "eb",
     "blend",
     "not a planet",
     "refuted",
+];
+
+/// Dispositions that name a signal that is no transit at all: a false
+/// alarm, the instrument, noise, the star's own variability (`FA`, `IS`,
+/// `V`: from memory of the TOI tables' codes). The candidate counts for
+/// nothing, but says nothing of its star, as a vetter's rejection as
+/// `artefact` (docs/science.md §3.5).
+const NOT_A_TRANSIT: [&str; 12] = [
+    "false alarm",
+    "fa",
+    "instrumental",
+    "is",
+    "systematics",
+    "noise",
+    "artefact",
+    "artifact",
+    "stellar variability",
+    "variable star",
+    "v",
+    "not transit like",
 ];
 
 /// Dispositions, after [`normalise`], that leave a candidate to the checks
@@ -51,6 +71,7 @@ const PLANET_OR_CANDIDATE: [&str; 14] = [
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 enum Said {
     FalsePositive,
+    NotATransit,
     PlanetOrCandidate,
     /// A word this module does not know: vetted as a candidate, and said.
     Unknown,
@@ -59,6 +80,8 @@ enum Said {
 fn said(cell: &str) -> Said {
     if says_false_positive(cell) {
         Said::FalsePositive
+    } else if begins_with_one(&normalise(cell), &NOT_A_TRANSIT) {
+        Said::NotATransit
     } else if crate::catalogue::is_missing(cell.as_bytes())
         || PLANET_OR_CANDIDATE.contains(&normalise(cell).as_str())
     {
@@ -83,10 +106,15 @@ fn normalise(cell: &str) -> String {
 /// dispositions (`CONFIRMED`, `CANDIDATE`, `PC`, `KP`...), empty cells and
 /// anything else unknown do not: the candidate is then vetted as any other.
 pub fn says_false_positive(cell: &str) -> bool {
-    let n = normalise(cell);
-    FALSE_POSITIVE.iter().any(|fp| {
-        n == *fp
-            || n.strip_prefix(fp)
+    begins_with_one(&normalise(cell), &FALSE_POSITIVE)
+}
+
+/// Whether a normalised cell is one of `words`, or begins with one and goes
+/// on after a space or a mark.
+fn begins_with_one(n: &str, words: &[&str]) -> bool {
+    words.iter().any(|w| {
+        n == *w
+            || n.strip_prefix(w)
                 .is_some_and(|rest| rest.starts_with([' ', '(', ':', ',', ';', '/', '?']))
     })
 }
@@ -226,25 +254,35 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
             let cell = cat.extra(i, c);
             let entry = seen.entry((i, cell)).or_insert_with(|| (said(cell), 0));
             entry.1 += 1;
-            if entry.0 == Said::FalsePositive {
-                out.add(
-                    c,
-                    Flag::KnownFp,
-                    false,
-                    format!(
-                        "the catalogue's {} says `{}`: a known false positive",
-                        headers[i],
-                        crate::sanitize::clean(cell.trim())
-                    ),
-                );
-            }
+            let (flag, what) = match entry.0 {
+                Said::FalsePositive => (Flag::KnownFp, "a known false positive"),
+                Said::NotATransit => (Flag::KnownArtefact, "no transit at all"),
+                _ => continue,
+            };
+            out.add(
+                c,
+                flag,
+                false,
+                format!(
+                    "the catalogue's {} says `{}`: {what}",
+                    headers[i],
+                    crate::sanitize::clean(cell.trim())
+                ),
+            );
         }
         for &i in &flag_columns {
             let cell = cat.extra(i, c);
             if flag_is_set(cell) {
+                // The "not transit-like" flag (`koi_fpflag_nt`, from memory
+                // of the archive's columns) names no false positive of the star.
+                let not_transit = headers[i].to_ascii_lowercase().contains("flag_nt");
                 out.add(
                     c,
-                    Flag::KnownFp,
+                    if not_transit {
+                        Flag::KnownArtefact
+                    } else {
+                        Flag::KnownFp
+                    },
                     false,
                     format!(
                         "the catalogue's {} is {}: flagged a false positive",
@@ -334,6 +372,20 @@ mod tests {
             assert_eq!(said(unknown), Said::Unknown, "{unknown}");
         }
         assert_eq!(said("FALSE POSITIVE"), Said::FalsePositive);
+        // No transit at all: counts for nothing, names nothing of the star.
+        for artefact in [
+            "FA",
+            "False Alarm",
+            "IS",
+            "V",
+            "instrumental systematics",
+            "not-transit-like",
+        ] {
+            assert_eq!(said(artefact), Said::NotATransit, "{artefact}");
+        }
+        for neither in ["VALIDATED", "isolated", "var"] {
+            assert_ne!(said(neither), Said::NotATransit, "{neither}");
+        }
     }
 
     #[test]
@@ -344,8 +396,6 @@ mod tests {
             "  False-Positive ",
             "FP",
             "fp",
-            "FA",
-            "False Alarm",
             "EB",
             "eclipsing binary",
             "Blend",

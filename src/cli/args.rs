@@ -54,7 +54,7 @@ pub struct ModelArgs {
     /// (comma-separated) [default: big-radius, odd-even, secondary,
     /// density-mismatch, near-twin, harmonic, crowded, echo, low-snr,
     /// half-phase, not-recovered, mixed-host,
-    /// known-fp, ellipsoidal].
+    /// known-fp, ellipsoidal, known-artefact].
     #[arg(long, value_name = "FLAGS")]
     pub blocking: Option<String>,
 }
