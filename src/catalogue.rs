@@ -262,26 +262,36 @@ impl Catalogue {
             .collect()
     }
 
-    /// What every output says of the load: [`Catalogue::skipped_line`] and
-    /// the loader's notes.
+    /// What every output says of the load: how many rows did not load (the
+    /// first with its line and reason), and the loader's notes.
     pub fn load_warnings(&self) -> Vec<String> {
-        self.skipped_line()
+        let skipped = self.skipped.first().map(|first| {
+            let n = self.skipped.len();
+            format!(
+                "{n} row{} skipped; first: line {} ({}); `starsift summary` lists them all",
+                if n == 1 { "" } else { "s" },
+                first.line,
+                first.reason
+            )
+        });
+        skipped
             .into_iter()
             .chain(self.notes.iter().cloned())
             .collect()
     }
 
-    /// Rows that did not load, in one line for every output: how many, and
-    /// the first with its line and reason; `None` when every row loaded.
-    pub fn skipped_line(&self) -> Option<String> {
-        let first = self.skipped.first()?;
-        let n = self.skipped.len();
-        Some(format!(
-            "{n} row{} skipped; first: line {} ({}); `starsift summary` lists them all",
-            if n == 1 { "" } else { "s" },
-            first.line,
-            first.reason
-        ))
+    /// An invented catalogue from its text, loaded with the default
+    /// options: the unit tests' one way to make one.
+    #[cfg(test)]
+    pub(crate) fn from_text(name: &str, text: &str) -> Catalogue {
+        Catalogue::load(
+            Source::Bytes {
+                name,
+                data: text.as_bytes(),
+            },
+            &LoadOptions::default(),
+        )
+        .unwrap()
     }
 
     pub fn find_candidate(&self, id: &str) -> Option<CandidateId> {

@@ -104,6 +104,15 @@ impl Latest {
         self.entries.iter()
     }
 
+    /// Entries of candidates the catalogue no longer lists.
+    pub fn not_in<'a>(
+        &'a self,
+        cat: &'a crate::catalogue::Catalogue,
+    ) -> impl Iterator<Item = &'a Entry> {
+        self.iter()
+            .filter(|e| cat.find_candidate(&e.candidate).is_none())
+    }
+
     /// The decision in force for every candidate of a catalogue (open where
     /// the ledger has none).
     pub fn decisions(&self, cat: &crate::catalogue::Catalogue) -> Vec<Decision> {

@@ -75,8 +75,7 @@ pub fn gone_false_positives(
     latest: &Latest,
 ) -> Vec<crate::checks::UnseenFp> {
     latest
-        .iter()
-        .filter(|e| cat.find_candidate(&e.candidate).is_none())
+        .not_in(cat)
         .filter_map(|e| {
             let reason = e
                 .decision

@@ -171,8 +171,8 @@ fn build_app_counting(
     Ok((app, finder))
 }
 
-/// Rows that did not load, said as the browser opens
-/// (`Catalogue::skipped_line`).
+/// Rows that did not load, and the loader's notes, said as the browser opens
+/// (`Catalogue::load_warnings`).
 fn skipped_message(cat: &crate::catalogue::Catalogue) -> Option<String> {
     let w = cat.load_warnings();
     (!w.is_empty()).then(|| w.join("; "))

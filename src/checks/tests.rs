@@ -1,17 +1,9 @@
 //! The checks on invented catalogues and on the demo's planted cases.
 
 use super::*;
-use crate::catalogue::{LoadOptions, Source};
 
 fn load(text: &str) -> Catalogue {
-    Catalogue::load(
-        Source::Bytes {
-            name: "t.csv",
-            data: text.as_bytes(),
-        },
-        &LoadOptions::default(),
-    )
-    .unwrap()
+    Catalogue::from_text("t.csv", text)
 }
 
 const HEAD: &str = "star,candidate,period_d,period_err_d,epoch,epoch_err_d,depth_ppm,duration_h,snr,impact,star_radius_rsun,star_mass_msun,star_teff_k,ra_deg,dec_deg,mag\n";

@@ -311,8 +311,7 @@ pub fn check_output_path(output: &Path, vetting: &VettingArgs) -> Result<(), Cli
 fn gone_note(ledger: &crate::ledger::Ledger, cat: &Catalogue) -> Result<Option<String>, CliError> {
     let mut gone: Vec<String> = ledger
         .latest(None)?
-        .iter()
-        .filter(|e| cat.find_candidate(&e.candidate).is_none())
+        .not_in(cat)
         .map(|e| e.candidate.clone())
         .collect();
     if gone.is_empty() {

@@ -257,14 +257,7 @@ fn renders_at_80x24_and_says_so_when_too_small() {
 #[test]
 fn escape_sequences_in_ids_never_reach_the_screen() {
     let text = "star,candidate,period_d,epoch,depth_ppm,duration_h\nE\u{1b}[2J,E-\u{1b}]0;x\u{7}1,3,10,500,2\n";
-    let cat = crate::catalogue::Catalogue::load(
-        crate::catalogue::Source::Bytes {
-            name: "esc.csv",
-            data: text.as_bytes(),
-        },
-        &Default::default(),
-    )
-    .unwrap();
+    let cat = crate::catalogue::Catalogue::from_text("esc.csv", text);
     let app = app_of(cat, 100, None);
     let s = screen(&app, 100, 30);
     assert!(!s.contains('\u{1b}') && !s.contains('\u{7}'));
@@ -518,7 +511,7 @@ fn checks_arriving_later_feed_the_verdicts() {
 #[test]
 fn every_sort_orders_the_systems_exactly() {
     use super::app::SortKey;
-    use crate::catalogue::{Field, LoadOptions, Source};
+    use crate::catalogue::Field;
     // An invented catalogue: sizes 1 to 4, ids out of order, equal periods,
     // and (in the second pass) per-candidate priors.
     let mut rng = crate::demo::Rng::new(11);
@@ -544,14 +537,7 @@ fn every_sort_orders_the_systems_exactly() {
                 "\n".into()
             };
         }
-        let cat = crate::catalogue::Catalogue::load(
-            Source::Bytes {
-                name: "sorts.csv",
-                data: text.as_bytes(),
-            },
-            &LoadOptions::default(),
-        )
-        .unwrap();
+        let cat = crate::catalogue::Catalogue::from_text("sorts.csv", &text);
         assert_eq!(cat.has(Field::Fpp), with_fpp);
         let mut app = app_of(cat, 20_000, None);
         // Every order checked at the start and after each rejection (the

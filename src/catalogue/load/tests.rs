@@ -402,7 +402,7 @@ fn an_archive_exports_headers_and_bracketed_units_are_read() {
     let text = "TIC ID,TOI,RA,Dec,Period (days),Period (days) err,Epoch (BJD - 2457000),\
                 Duration [d],Depth (ppm),TFOPWG Disposition\n\
                 100,100.01,07:29:25.85,-05:06:07.1,3.5,0.0001,1400.25,0.125,800,PC\n";
-    let cat = text_loaded(text);
+    let cat = Catalogue::from_text("invented.csv", text);
     assert_eq!(cat.len(), 1, "{:?}", cat.skipped);
     assert_eq!(cat.star_id(0), "100");
     assert_eq!(cat.value(Field::PeriodD, 0), Some(3.5));
@@ -435,17 +435,20 @@ fn a_false_positive_probability_in_percent_is_stored_as_a_fraction() {
     // A probability cannot exceed 1: values above 1 and none above 100 are
     // percent; so is a column whose header states `%`. (Invented rows.)
     let rows = "S,S-1,3.5,100.0,800,3.0,75\nS,S-2,7.5,100.5,800,3.0,2\n";
-    let seen = text_loaded(&format!(
-        "star,candidate,period,epoch,depth,duration,fpp\n{rows}"
-    ));
+    let seen = Catalogue::from_text(
+        "invented.csv",
+        &format!("star,candidate,period,epoch,depth,duration,fpp\n{rows}"),
+    );
     assert_eq!(seen.value(Field::Fpp, 0), Some(0.75));
     assert_eq!(seen.value(Field::Fpp, 1), Some(0.02));
-    let stated = text_loaded(
+    let stated = Catalogue::from_text(
+        "invented.csv",
         "star,candidate,period,epoch,depth,duration,FPP (%)\nS,S-1,3.5,100.0,800,3.0,0.5\n",
     );
     assert_eq!(stated.value(Field::Fpp, 0), Some(0.005));
     // Fractions stay as they are.
-    let plain = text_loaded(
+    let plain = Catalogue::from_text(
+        "invented.csv",
         "star,candidate,period,epoch,depth,duration,fpp\nS,S-1,3.5,100.0,800,3.0,0.5\n",
     );
     assert_eq!(plain.value(Field::Fpp, 0), Some(0.5));
@@ -461,7 +464,7 @@ fn ids_that_number_each_stars_candidates_are_named_by_star() {
         "{head}A,1,3.5,100.0,800,3.0\nA,2,7.9,100.5,800,3.0\nB,1,4.5,100.0,800,3.0\n\
          C,1,5.5,100.0,800,3.0\nC,1,5.5,100.0,800,3.0\n"
     );
-    let cat = text_loaded(&numbered);
+    let cat = Catalogue::from_text("invented.csv", &numbered);
     assert_eq!(cat.len(), 4);
     assert_eq!(cat.candidate_id(1), "A/2");
     assert_eq!(cat.members(cat.find_star("A").unwrap()).len(), 2);
@@ -484,19 +487,7 @@ fn ids_that_number_each_stars_candidates_are_named_by_star() {
         named.push_str(&format!("S{i},S{i}.01,3.5,100.0,800,3.0\n"));
     }
     named.push_str("S99,S3.01,3.5,100.0,800,3.0\n");
-    let cat = text_loaded(&named);
+    let cat = Catalogue::from_text("invented.csv", &named);
     assert_eq!((cat.len(), cat.skipped.len()), (30, 1));
     assert!(cat.notes.is_empty());
-}
-
-/// An invented catalogue from its text, loaded with the default options.
-fn text_loaded(text: &str) -> Catalogue {
-    Catalogue::load(
-        Source::Bytes {
-            name: "invented.csv",
-            data: text.as_bytes(),
-        },
-        &LoadOptions::default(),
-    )
-    .unwrap()
 }
