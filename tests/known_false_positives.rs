@@ -520,3 +520,50 @@ FA,FA-3,24.7,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,FA\n";
     assert_eq!(live.verdict(id(&cat, "IS-1")), Verdict::Validated);
     assert!(live.flags(id(&cat, "FA-3")).is_empty());
 }
+
+#[test]
+fn follow_up_codes_and_hedged_words_name_a_false_positive() {
+    // Invented stars of three, the third dispositioned as follow-up teams
+    // and vetters write it: a nearby or background eclipsing binary (`NEB`,
+    // `BEB`, codes from memory), a spectroscopic binary (`SB2`), or a
+    // doubt (`likely EB`, `PC; possible FP`). Before, each was an unknown
+    // word: the binary counted, and all three were validated. Now each is
+    // `known-fp` and holds its star (docs/science.md §3.5); a clause that
+    // negates the word (`PC (EB ruled out)`) does not.
+    let words = [
+        "NEB",
+        "BEB",
+        "SB2",
+        "likely EB",
+        "PC; possible FP",
+        "PC (EB ruled out)",
+    ];
+    let mut rows = String::new();
+    for (i, w) in words.iter().enumerate() {
+        let p = 1.0 + 0.01 * i as f64;
+        rows.push_str(&format!(
+            "W{i},W{i}-1,{:.4},0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+             W{i},W{i}-2,{:.4},0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+             W{i},W{i}-3,{:.4},0.00001,102.5,0.001,640,4.7,26,0.3,1,1,5772,{w}\n",
+            4.1 * p,
+            9.7 * p,
+            23.9 * p
+        ));
+    }
+    let cat = load_text(&catalogue("disposition", &rows));
+    let live = live_of(&cat);
+    for (i, w) in words.iter().enumerate() {
+        let c = |j: usize| id(&cat, &format!("W{i}-{j}"));
+        if w.contains("ruled out") {
+            for j in 1..=3 {
+                assert_eq!(live.verdict(c(j)), Verdict::Validated, "{w}");
+            }
+            continue;
+        }
+        assert!(live.flags(c(3)).contains(Flag::KnownFp), "{w}");
+        for j in 1..=2 {
+            assert_eq!(live.status(c(j)), Status::Held, "{w}");
+            assert_ne!(live.verdict(c(j)), Verdict::Validated, "{w}");
+        }
+    }
+}

@@ -11,20 +11,45 @@ use crate::catalogue::{CandidateId, Catalogue, Field, SkippedRow, StarId};
 use crate::flags::Flag;
 
 /// Dispositions that name an astrophysical false positive, after
-/// [`normalise`]: the archives' words and their two-letter codes (from
-/// memory of the exoplanet archives' candidate tables), and the kinds of
-/// false positive themselves. A cell that begins with one of them and goes
-/// on after a space or a mark counts too (`false positive (centroid
-/// offset)`, `FP - EB`, `EB?`). Its star is one known to host a false
-/// positive (docs/science.md §1.1).
-const FALSE_POSITIVE: [&str; 7] = [
+/// [`normalise`]: the archives' words and their codes (from memory of the
+/// exoplanet archives' candidate tables and of the follow-up working
+/// groups' codes: `NEB` nearby, `BEB` background, `HEB` hierarchical
+/// eclipsing binary, `SB1`/`SB2` spectroscopic binary, `NPC`/`NFP` a
+/// signal on a nearby star), and the kinds of false positive themselves.
+/// Read anywhere in the cell as whole words (`likely EB`, `PC; BEB?`,
+/// `false positive (centroid offset)`, `FP - EB`), unless the same clause
+/// negates them ([`NEGATIONS`]: `no EB`, `EB ruled out`). Its star is one
+/// known to host a false positive (docs/science.md §1.1).
+const FALSE_POSITIVE: [&str; 21] = [
     "false positive",
     "fp",
     "eclipsing binary",
     "eb",
+    "neb",
+    "beb",
+    "heb",
     "blend",
+    "blended binary",
+    "spectroscopic binary",
+    "sb",
+    "sb1",
+    "sb2",
+    "stellar eclipse",
+    "centroid offset",
+    "ephemeris match",
+    "npc",
+    "nfp",
+    "brown dwarf",
     "not a planet",
     "refuted",
+];
+
+/// Words that, in the clause of a false-positive word, say the opposite
+/// (`no EB`, `non-EB`, `EB ruled out`, `EB unlikely`, `blend excluded`):
+/// that clause names none. `not a planet` is itself a false positive's
+/// phrase, read before this.
+const NEGATIONS: [&str; 7] = [
+    "no", "not", "non", "ruled", "excluded", "unlikely", "without",
 ];
 
 /// Dispositions that name a signal that is no transit at all: a false
@@ -50,12 +75,16 @@ const NOT_A_TRANSIT: [&str; 12] = [
 /// Dispositions, after [`normalise`], that leave a candidate to the checks
 /// without a word of warning: planets and candidates as the archives write
 /// them (from memory), and an empty cell.
-const PLANET_OR_CANDIDATE: [&str; 14] = [
+const PLANET_OR_CANDIDATE: [&str; 18] = [
     "",
     "candidate",
     "planet candidate",
     "pc",
     "apc",
+    "vpc",
+    "vpc+",
+    "cpc",
+    "ppc",
     "ambiguous planet candidate",
     "cp",
     "kp",
@@ -102,11 +131,29 @@ fn normalise(cell: &str) -> String {
         .join(" ")
 }
 
-/// Whether a disposition cell names a false positive. Planet and candidate
-/// dispositions (`CONFIRMED`, `CANDIDATE`, `PC`, `KP`...), empty cells and
-/// anything else unknown do not: the candidate is then vetted as any other.
+/// Whether a disposition cell names a false positive: one of
+/// [`FALSE_POSITIVE`] as whole words in a clause of the cell (clauses are
+/// parted by `;`, `,`, `/`, `|`, `+` and brackets) that no word of
+/// [`NEGATIONS`] turns around (`not a planet` is read first, as itself).
+/// Planet and candidate dispositions
+/// (`CONFIRMED`, `CANDIDATE`, `PC`, `KP`...), empty cells and anything else
+/// unknown do not: the candidate is then vetted as any other.
 pub fn says_false_positive(cell: &str) -> bool {
-    begins_with_one(&normalise(cell), &FALSE_POSITIVE)
+    normalise(cell)
+        .split([';', ',', '/', '|', '+', '(', ')', '[', ']', ':'])
+        .any(|clause| {
+            let words: Vec<&str> = clause
+                .split(|c: char| !(c.is_ascii_alphanumeric()))
+                .filter(|w| !w.is_empty())
+                .collect();
+            let has = |phrase: &str| {
+                let p: Vec<&str> = phrase.split(' ').collect();
+                words.windows(p.len()).any(|w| w == p.as_slice())
+            };
+            has("not a planet")
+                || (FALSE_POSITIVE.iter().any(|p| has(p))
+                    && !words.iter().any(|w| NEGATIONS.contains(w)))
+        })
 }
 
 /// Whether a normalised cell is one of `words`, or begins with one and goes
@@ -365,6 +412,11 @@ mod tests {
             "Confirmed",
             "PC",
             "not-dispositioned",
+            "VPC",
+            "VPC-",
+            "VPC+",
+            "CPC",
+            "PPC",
         ] {
             assert_eq!(said(quiet), Said::PlanetOrCandidate, "{quiet}");
         }
@@ -405,6 +457,24 @@ mod tests {
             "fp/eb",
             "EB?",
             "REFUTED",
+            // Follow-up codes (from memory): nearby, background and
+            // hierarchical EBs, spectroscopic binaries, a nearby star's signal.
+            "NEB",
+            "BEB?",
+            "HEB",
+            "SB1",
+            "SB2",
+            "NPC",
+            // Hedged, or after a planet's word: the doubt is enough.
+            "likely EB",
+            "possible FP",
+            "probable eclipsing binary",
+            "PC; EB?",
+            "PC (possible BEB)",
+            "APC / NEB",
+            "KP, but not a planet",
+            "brown dwarf",
+            "Stellar Eclipse",
         ] {
             assert!(says_false_positive(yes), "{yes}");
         }
@@ -421,6 +491,13 @@ mod tests {
             "blended light considered",
             "ebb",
             "false positives ruled out",
+            // Negated in its clause.
+            "no EB",
+            "non-EB",
+            "PC (EB ruled out)",
+            "PC; blend unlikely",
+            "VPC+",
+            "debris",
         ] {
             assert!(!says_false_positive(no), "{no}");
         }
