@@ -347,7 +347,34 @@ impl Catalogue {
 /// (by its header, or mapped to `disposition` by the caller), a
 /// false-positive flag, or the mapped `fpp` (docs/science.md §3.5).
 pub fn names_earlier_verdicts(header: &str) -> bool {
-    names_a_disposition(header) || names_an_fp_flag(header)
+    names_a_disposition(header) || names_an_fp_flag(header) || names_an_fp_probability(header)
+}
+
+/// Whether a column is a false-positive probability by its header: a word
+/// `fpp` or `nfpp` (a nearby star's, from memory of the validation tools'
+/// outputs), or `false positive prob…`, `fp prob…` (words parted by
+/// anything but letters and digits: `FPP`, `fpp_vespa`, `FPP (%)`,
+/// `false_positive_probability`). Its errors and limits (`fpp_err`,
+/// `e_fpp`, `fpp_upper`) are not. The mapped `fpp` is one; read beside it,
+/// the others name false positives too (docs/science.md §3.5).
+pub fn names_an_fp_probability(header: &str) -> bool {
+    let h = header.to_ascii_lowercase();
+    let words: Vec<&str> = h
+        .split(|c: char| !c.is_ascii_alphanumeric())
+        .filter(|w| !w.is_empty())
+        .collect();
+    const NOT_THE_VALUE: [&str; 11] = [
+        "err", "err1", "err2", "error", "unc", "sigma", "e", "lower", "upper", "lim", "limit",
+    ];
+    if words.iter().any(|w| NOT_THE_VALUE.contains(w)) {
+        return false;
+    }
+    let prob = |w: &&str| w.starts_with("prob");
+    words.iter().any(|w| *w == "fpp" || *w == "nfpp")
+        || words
+            .windows(3)
+            .any(|w| w[0] == "false" && w[1] == "positive" && prob(&w[2]))
+        || words.windows(2).any(|w| w[0] == "fp" && prob(&w[1]))
 }
 
 /// Whether an extra column is a false-positive flag of an archive table

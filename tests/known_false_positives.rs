@@ -567,3 +567,37 @@ fn follow_up_codes_and_hedged_words_name_a_false_positive() {
         }
     }
 }
+
+#[test]
+fn a_false_positive_probability_under_another_name_is_read() {
+    // Invented: a validation tool's output merged into the table, its
+    // probability under the tool's own header (`fpp_vespa`), and a nearby
+    // star's (`nfpp`). Before, neither header was read: VP-3 (0.97) and
+    // NF-3 (0.8 that the signal is a neighbour's) counted, and both
+    // triples were validated. An error column (`fpp_err`) is not a
+    // probability of its own (docs/science.md §3.5).
+    let rows = "\
+VP,VP-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,0.01,,0.9\n\
+VP,VP-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,0.02,,0.9\n\
+VP,VP-3,23.9,0.00001,102.5,0.001,640,4.7,26,0.3,1,1,5772,0.97,,0.9\n\
+NF,NF-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,0.01,0.001,0.9\n\
+NF,NF-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,0.01,0.001,0.9\n\
+NF,NF-3,24.7,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,0.01,0.8,0.9\n";
+    let cat = load_text(&catalogue("fpp_vespa,nfpp,fpp_err", rows));
+    let live = live_of(&cat);
+    for star in ["VP", "NF"] {
+        let c = |j: usize| id(&cat, &format!("{star}-{j}"));
+        assert!(live.flags(c(3)).contains(Flag::KnownFp), "{star}");
+        for j in 1..=2 {
+            assert_eq!(live.status(c(j)), Status::Held, "{star}-{j}");
+            assert_ne!(live.verdict(c(j)), Verdict::Validated, "{star}-{j}");
+        }
+    }
+    // Below one half everywhere, and an error column of 0.9: validated.
+    let calm = rows.replace(",0.97,", ",0.03,").replace(",0.8,", ",0.001,");
+    let cat = load_text(&catalogue("fpp_vespa,nfpp,fpp_err", &calm));
+    let live = live_of(&cat);
+    for s in ["VP-1", "VP-3", "NF-1", "NF-3"] {
+        assert_eq!(live.verdict(id(&cat, s)), Verdict::Validated, "{s}");
+    }
+}

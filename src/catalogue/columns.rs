@@ -231,7 +231,7 @@ impl Field {
                 "st_tmag",
                 "sy_tmag",
             ],
-            Field::Fpp => &["fpp"],
+            Field::Fpp => &["fpp", "fpp_prob", "false_positive_probability"],
             Field::Lightcurve => &["lightcurve", "lc"],
             Field::PeriodErrD => &[
                 "period_err",

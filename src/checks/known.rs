@@ -214,6 +214,16 @@ fn skipped_row_says(
             says_false_positive(v).then(|| format!("{h_clean} `{}`", clean()))
         } else if crate::catalogue::names_an_fp_flag(h) {
             flag_is_set(v).then(|| format!("{h_clean} {}", clean()))
+        } else if crate::catalogue::names_an_fp_probability(h) {
+            let p = v.trim().parse::<f64>().ok()?;
+            let p = if p > 1.0 || header_says_percent(h) {
+                p / 100.0
+            } else {
+                p
+            };
+            (FPP_EVEN..=1.0)
+                .contains(&p)
+                .then(|| format!("{h_clean} {}", clean()))
         } else {
             None
         }
@@ -281,6 +291,35 @@ fn skipped_rows(cat: &Catalogue, out: &mut Checks) {
     out.unseen_fp = found;
 }
 
+/// Whether a header states percent: `%`, `percent` or `pct`.
+fn header_says_percent(h: &str) -> bool {
+    let h = h.to_ascii_lowercase();
+    h.contains('%') || h.contains("percent") || h.contains("pct")
+}
+
+/// The columns beside the mapped `fpp` that are false-positive
+/// probabilities too (`crate::catalogue::names_an_fp_probability`: a
+/// nearby star's `nfpp`, a second tool's `fpp_vespa`...), each with the
+/// divisor of its values: 100 where the header states percent, or where
+/// some value exceeds 1 and none exceeds 100 (as the mapped column's,
+/// docs/science.md §3.5), else 1.
+fn probability_columns(cat: &Catalogue, headers: &[&str]) -> Vec<(usize, f64)> {
+    (0..headers.len())
+        .filter(|&i| crate::catalogue::names_an_fp_probability(headers[i]))
+        .map(|i| {
+            let (mut above_one, mut above_hundred) = (false, false);
+            for c in 0..cat.len() as CandidateId {
+                if let Ok(v) = cat.extra(i, c).trim().parse::<f64>() {
+                    above_one |= v > 1.0;
+                    above_hundred |= v > 100.0;
+                }
+            }
+            let percent = header_says_percent(headers[i]) || (above_one && !above_hundred);
+            (i, if percent { 100.0 } else { 1.0 })
+        })
+        .collect()
+}
+
 /// Flags every candidate the catalogue itself calls a false positive.
 pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     skipped_rows(cat, out);
@@ -289,8 +328,9 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     let flag_columns: Vec<usize> = (0..headers.len())
         .filter(|&i| crate::catalogue::names_an_fp_flag(headers[i]))
         .collect();
+    let probabilities = probability_columns(cat, &headers);
     let fpp = cat.column(Field::Fpp);
-    if columns.is_empty() && flag_columns.is_empty() && fpp.is_none() {
+    if columns.is_empty() && flag_columns.is_empty() && probabilities.is_empty() && fpp.is_none() {
         return;
     }
     // A table holds a handful of distinct dispositions: each is read once,
@@ -335,6 +375,25 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
                         "the catalogue's {} is {}: flagged a false positive",
                         headers[i],
                         crate::sanitize::clean(cell.trim())
+                    ),
+                );
+            }
+        }
+        for &(i, scale) in &probabilities {
+            let cell = cat.extra(i, c).trim();
+            let Ok(p) = cell.parse::<f64>() else {
+                continue;
+            };
+            if (FPP_EVEN..=1.0).contains(&(p / scale)) {
+                out.add(
+                    c,
+                    Flag::KnownFp,
+                    false,
+                    format!(
+                        "the catalogue's {} is {}{}: more likely a false positive than a planet",
+                        crate::sanitize::clean(headers[i]),
+                        crate::sanitize::clean(cell),
+                        if scale == 100.0 { " %" } else { "" }
                     ),
                 );
             }
@@ -397,6 +456,29 @@ mod tests {
         }
         for unset in ["0", "0.0", "", "nan", "no", "false", "-"] {
             assert!(!flag_is_set(unset), "{unset}");
+        }
+    }
+
+    #[test]
+    fn false_positive_probability_columns() {
+        use crate::catalogue::names_an_fp_probability as named;
+        for h in [
+            "fpp",
+            "FPP",
+            "FPP (%)",
+            "fpp_vespa",
+            "vespa_fpp",
+            "NFPP",
+            "false_positive_probability",
+            "False Positive Prob.",
+            "fp_prob",
+        ] {
+            assert!(named(h), "{h}");
+        }
+        // Errors and limits are not the value; other probabilities are not
+        // a false positive's.
+        for h in ["fpp_err", "e_fpp", "FPP upper", "fppx", "prob", "koi_score"] {
+            assert!(!named(h), "{h}");
         }
     }
 
