@@ -452,7 +452,8 @@ impl LightcurveTotals {
 
 /// Runs the light-curve diagnostics of every candidate whose star has a
 /// light curve and adds their flags. Stars without one are passed over; a
-/// star whose light curve cannot be read is reported and skipped.
+/// star whose light curve cannot be read is reported, and its candidates
+/// are flagged `not-recovered` (the data were there, unseen).
 pub fn run_lightcurves(
     cat: &Catalogue,
     finder: &crate::lightcurve::Finder,
@@ -506,9 +507,24 @@ pub fn run_lightcurves_counted(
                         not_recovered: !matches!(d.recovery, Recovery::Shown | Recovery::Hidden),
                     });
                 }
+                // A light curve that is there but cannot be read is evidence
+                // unseen: the transit is not shown in the data, and the
+                // candidate is held (`not-recovered`, docs/science.md §4).
                 Err(e) => {
-                    errors.push((cat.star_id(star).to_string(), e.clone()));
-                    break;
+                    checks.add(
+                        c,
+                        Flag::NotRecovered,
+                        false,
+                        format!(
+                            "its star's light curve could not be read ({}): the transit is not \
+                             seen in the data; mend or remove the file, or pass --no-lightcurves \
+                             to vet from the catalogue alone",
+                            crate::sanitize::clean(e)
+                        ),
+                    );
+                    if errors.last().is_none_or(|(s, _)| s != cat.star_id(star)) {
+                        errors.push((cat.star_id(star).to_string(), e.clone()));
+                    }
                 }
             }
         }

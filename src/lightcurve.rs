@@ -137,6 +137,19 @@ pub const FLUX_NAMES: [&str; 8] = [
     "rel_flux",
     "sap_flux",
 ];
+/// Magnitude column names, read when no flux column is found: ground-based
+/// surveys give light curves in (differential) magnitudes, turned into flux
+/// by [`flux_from_magnitudes`].
+pub const MAG_NAMES: [&str; 7] = [
+    "mag",
+    "magnitude",
+    "dmag",
+    "diff_mag",
+    "delta_mag",
+    "rel_mag",
+    "relmag",
+];
+
 /// Error column names when the flux column has no error column of its own
 /// (`<flux>_err`, `<flux>_error`, `e_<flux>`).
 pub const ERR_NAMES: [&str; 5] = ["flux_err", "err", "sigma", "flux_error", "e_flux"];
@@ -171,6 +184,8 @@ fn pick(header: &[String], wanted: Option<&str>, synonyms: &[&str]) -> Option<us
 pub(crate) struct Picked {
     pub time: usize,
     pub flux: usize,
+    /// The flux column holds magnitudes (one of [`MAG_NAMES`]).
+    pub magnitude: bool,
     pub err: Option<usize>,
     pub quality: Option<usize>,
 }
@@ -200,8 +215,20 @@ fn resolve_columns(path: &str, header: &[String], cols: &LcColumns) -> Result<Pi
     };
     let t = pick(header, cols.time.as_deref(), &TIME_NAMES)
         .ok_or_else(|| missing("time", &TIME_NAMES, "time-column", cols.time.as_ref()))?;
-    let f = pick(header, cols.flux.as_deref(), &FLUX_NAMES)
-        .ok_or_else(|| missing("flux", &FLUX_NAMES, "flux-column", cols.flux.as_ref()))?;
+    let (f, magnitude) = match pick(header, cols.flux.as_deref(), &FLUX_NAMES) {
+        Some(f) => (f, false),
+        None if cols.flux.is_none() => pick(header, None, &MAG_NAMES)
+            .map(|m| (m, true))
+            .ok_or_else(|| missing("flux", &FLUX_NAMES, "flux-column", None))?,
+        None => {
+            return Err(missing(
+                "flux",
+                &FLUX_NAMES,
+                "flux-column",
+                cols.flux.as_ref(),
+            ));
+        }
+    };
     let e = match cols.flux_err.as_deref() {
         Some(w) => Some(pick(header, Some(w), &[]).ok_or_else(|| {
             missing(
@@ -219,7 +246,12 @@ fn resolve_columns(path: &str, header: &[String], cols: &LcColumns) -> Result<Pi
                 format!("e_{base}"),
             ];
             let own: Vec<&str> = own.iter().map(String::as_str).collect();
-            pick(header, None, &own).or_else(|| pick(header, None, &ERR_NAMES))
+            let generic: &[&str] = if magnitude {
+                &["magerr", "mag_err", "e_mag", "err", "sigma"]
+            } else {
+                &ERR_NAMES
+            };
+            pick(header, None, &own).or_else(|| pick(header, None, generic))
         }
     };
     let q = match cols.quality.as_deref() {
@@ -236,6 +268,7 @@ fn resolve_columns(path: &str, header: &[String], cols: &LcColumns) -> Result<Pi
     Ok(Picked {
         time: t,
         flux: f,
+        magnitude,
         err: e,
         quality: q,
     })
@@ -278,6 +311,36 @@ impl LightCurve {
             ..Raw::default()
         };
         LightCurve::from_segments(vec![(source, raw)], None)
+    }
+}
+
+/// Magnitudes as relative flux, in place (Pogson's ratio, m₁ − m₂ =
+/// −2.5 log₁₀(F₁/F₂): a dimming is a rise in magnitude): F = 10^(−0.4 (m −
+/// m₀)) with m₀ the first finite magnitude (the segment is normalised by
+/// its median later), and the error σ_F = 0.4 ln 10 · F · σ_m (first-order
+/// propagation; 1 mmag ≈ 921 ppm).
+pub fn flux_from_magnitudes(mag: &mut [f64], err: Option<&mut [f64]>) {
+    let m0 = mag.iter().copied().find(|m| m.is_finite()).unwrap_or(0.0);
+    for m in mag.iter_mut() {
+        *m = 10f64.powf(-0.4 * (*m - m0));
+    }
+    if let Some(err) = err {
+        for (e, f) in err.iter_mut().zip(mag.iter()) {
+            *e *= 0.4 * std::f64::consts::LN_10 * f;
+        }
+    }
+}
+
+impl Raw {
+    /// Reads the flux column as magnitudes where it is one
+    /// ([`flux_from_magnitudes`]), and says so.
+    pub(crate) fn read_magnitudes(&mut self, picked: &Picked) {
+        if picked.magnitude {
+            flux_from_magnitudes(&mut self.flux, self.err.as_deref_mut());
+            self.notes.push(
+                "the light curve is in magnitudes: read as flux, F = 10^(−0.4 (m − m₀))".into(),
+            );
+        }
     }
 }
 
@@ -458,6 +521,7 @@ fn parse_text(name: &str, mut raw: Vec<u8>, cols: &LcColumns) -> Result<Raw, LcE
             q.push(quality_bits(rec.get(i).unwrap_or(b"")));
         }
     }
+    out.read_magnitudes(&p);
     Ok(out)
 }
 
@@ -477,6 +541,21 @@ mod tests {
         assert!(lc.flux.iter().all(|&v| v == 1.0));
         assert!(lc.flux_err.iter().all(|&v| (v - 0.01).abs() < 1e-15));
         assert!(!lc.err_estimated);
+    }
+
+    #[test]
+    fn magnitudes_become_flux_by_pogsons_ratio() {
+        // Pogson's ratio (a definition): 5 mag is a factor 100 in flux, a
+        // dimming is a rise in magnitude; 1 mmag of error is 0.4 ln 10 ×
+        // 10⁻³ = 9.21 × 10⁻⁴ in relative flux.
+        let mut m = vec![12.0, 17.0, 12.001, f64::NAN];
+        let mut e = vec![0.001; 4];
+        flux_from_magnitudes(&mut m, Some(&mut e));
+        assert_eq!(m[0], 1.0);
+        assert!((m[1] - 0.01).abs() < 1e-15, "{}", m[1]);
+        assert!((1.0 - m[2] - 9.206e-4).abs() < 1e-6, "{}", m[2]);
+        assert!(m[3].is_nan());
+        assert!((e[0] - 9.2103e-4).abs() < 1e-7, "{}", e[0]);
     }
 
     #[test]

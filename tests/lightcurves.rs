@@ -448,9 +448,10 @@ fn fuzz_found_fits_byte_change_is_no_panic() {
 /// noise (invented). Through `odds --lightcurves DIR`, the binary is held
 /// back by `odd-even`, never validated, and the planets count as a system
 /// of two, not three.
-#[test]
-fn a_binary_hidden_in_a_multi_is_held_back_and_not_counted() {
-    let d = scratch("hidden-binary");
+/// The catalogue of star M: two planets and a binary (M-3, its odd
+/// eclipses 0.6 of its even ones), and its light curve as (time, flux):
+/// invented.
+fn hidden_binary(d: &std::path::Path) -> (std::path::PathBuf, Vec<(f64, f64)>) {
     let cat = d.join("cat.csv");
     std::fs::write(
         &cat,
@@ -458,8 +459,6 @@ fn a_binary_hidden_in_a_multi_is_held_back_and_not_counted() {
          M,M-1,3.1,1001.0,800,2.5,40,1,1\nM,M-2,7.4,1002.9,1200,3.4,40,1,1\nM,M-3,2.2,1000.4,5000,2.0,40,1,1\n",
     )
     .unwrap();
-    let lcs = d.join("lcs");
-    std::fs::create_dir_all(&lcs).unwrap();
     let mut rng = starsift::demo::Rng::new(2026);
     let signals = [
         (3.1, 1001.0, 800.0, 2.5, false),
@@ -468,7 +467,7 @@ fn a_binary_hidden_in_a_multi_is_held_back_and_not_counted() {
     ];
     let phi = (-(2.0f64) / 120.0).exp();
     let mut red = 0.0;
-    let mut text = String::from("time,flux,flux_err\n");
+    let mut curve = Vec::new();
     for i in 0..20_000 {
         let t = 1000.0 + i as f64 * 2.0 / 1440.0;
         let mut v = 1.0 + 0.001 * (t / 3.0).sin();
@@ -482,9 +481,17 @@ fn a_binary_hidden_in_a_multi_is_held_back_and_not_counted() {
         }
         red = phi * red + (1.0 - phi * phi).sqrt() * 3e-4 * rng.normal();
         v += red + 3e-4 * rng.normal();
-        text.push_str(&format!("{t:.6},{v:.7},0.0003\n"));
+        curve.push((t, v));
     }
-    std::fs::write(lcs.join("M.csv"), text).unwrap();
+    (cat, curve)
+}
+
+/// `odds --format csv` of a catalogue with light curves in `lcs`: each
+/// candidate's (flags, verdict, counted, k).
+fn odds_rows(
+    cat: &std::path::Path,
+    lcs: &std::path::Path,
+) -> std::collections::BTreeMap<String, [String; 4]> {
     let o = starsift(&[
         "odds",
         cat.to_str().unwrap(),
@@ -499,16 +506,93 @@ fn a_binary_hidden_in_a_multi_is_held_back_and_not_counted() {
     let out = stdout(&o);
     let mut r = csv::Reader::from_reader(out.as_bytes());
     let h = r.headers().unwrap().clone();
-    let col = |row: &csv::StringRecord, name: &str| {
-        row[h.iter().position(|x| x == name).unwrap()].to_string()
-    };
-    let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
-    let row = |id: &str| rows.iter().find(|x| &x[1] == id).unwrap();
-    assert!(col(row("M-3"), "flags").contains("odd-even"), "{out}");
-    assert_ne!(col(row("M-3"), "verdict"), "validated", "{out}");
-    assert_eq!(col(row("M-3"), "counted"), "no", "{out}");
-    for planet in ["M-1", "M-2"] {
-        assert_eq!(col(row(planet), "k"), "2", "{out}");
-        assert_eq!(col(row(planet), "flags"), "", "{out}");
+    let at = |name: &str| h.iter().position(|x| x == name).unwrap();
+    r.records()
+        .map(|x| {
+            let x = x.unwrap();
+            (
+                x[at("candidate")].to_string(),
+                ["flags", "verdict", "counted", "k"].map(|n| x[at(n)].to_string()),
+            )
+        })
+        .collect()
+}
+
+#[test]
+fn a_binary_hidden_in_a_multi_is_held_back_and_not_counted() {
+    let d = scratch("hidden-binary");
+    let (cat, curve) = hidden_binary(&d);
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    let mut text = String::from("time,flux,flux_err\n");
+    for (t, v) in &curve {
+        text.push_str(&format!("{t:.6},{v:.7},0.0003\n"));
     }
+    std::fs::write(lcs.join("M.csv"), text).unwrap();
+    let rows = odds_rows(&cat, &lcs);
+    let [flags, verdict, counted, _] = &rows["M-3"];
+    assert!(flags.contains("odd-even"), "{rows:?}");
+    assert_ne!(verdict, "validated", "{rows:?}");
+    assert_eq!(counted, "no", "{rows:?}");
+    for planet in ["M-1", "M-2"] {
+        assert_eq!(rows[planet][3], "2", "{rows:?}");
+        assert_eq!(rows[planet][0], "", "{rows:?}");
+    }
+}
+
+#[test]
+fn a_light_curve_in_magnitudes_is_read_as_flux() {
+    // The same star, its light curve in magnitudes as ground surveys write
+    // it (m = 12 − 2.5 log₁₀ F; an error of 0.000326 mag is 3 × 10⁻⁴ in
+    // flux). Before, the file had no flux column: a warning, and the
+    // binary was validated with its planets.
+    let d = scratch("magnitudes");
+    let (cat, curve) = hidden_binary(&d);
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    let mut text = String::from("time,mag,mag_err\n");
+    for (t, v) in &curve {
+        text.push_str(&format!("{t:.6},{:.7},0.000326\n", 12.0 - 2.5 * v.log10()));
+    }
+    std::fs::write(lcs.join("M.csv"), text).unwrap();
+    let rows = odds_rows(&cat, &lcs);
+    assert!(rows["M-3"][0].contains("odd-even"), "{rows:?}");
+    assert_ne!(rows["M-3"][1], "validated", "{rows:?}");
+    for planet in ["M-1", "M-2"] {
+        assert_eq!(rows[planet][3], "2", "{rows:?}");
+        assert_eq!(rows[planet][0], "", "{rows:?}");
+    }
+}
+
+#[test]
+fn a_light_curve_that_cannot_be_read_validates_nothing() {
+    // The star's light curve is there but unreadable (no flux column): the
+    // evidence is unseen, so no candidate of it is validated; each is
+    // `not-recovered`, saying why. Before, a warning, and all three
+    // (the binary too) were validated from the catalogue alone.
+    let d = scratch("unread-lc");
+    let (cat, curve) = hidden_binary(&d);
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    let mut text = String::from("time,counts\n");
+    for (t, v) in &curve {
+        text.push_str(&format!("{t:.6},{:.1}\n", 1e5 * v));
+    }
+    std::fs::write(lcs.join("M.csv"), text).unwrap();
+    let rows = odds_rows(&cat, &lcs);
+    for c in ["M-1", "M-2", "M-3"] {
+        assert_eq!(rows[c][0], "not-recovered", "{rows:?}");
+        assert_ne!(rows[c][1], "validated", "{rows:?}");
+    }
+    let o = starsift(&[
+        "checks",
+        cat.to_str().unwrap(),
+        "--lightcurves",
+        lcs.to_str().unwrap(),
+    ]);
+    let out = stdout(&o);
+    assert!(
+        out.contains("could not be read") && out.contains("no flux column"),
+        "{out}"
+    );
 }

@@ -140,7 +140,7 @@ fn read_table_unguarded(path: &Path, cols: &LcColumns) -> Result<Raw, LcError> {
     if let Some(n) = clock.note {
         notes.push(n);
     }
-    Ok(Raw {
+    let mut raw = Raw {
         time,
         flux,
         err: err_col,
@@ -148,7 +148,9 @@ fn read_table_unguarded(path: &Path, cols: &LcColumns) -> Result<Raw, LcError> {
         time_zero: clock.zero,
         columns: format!("HDU {}: {}", t.number, p.describe(&t.header)),
         notes,
-    })
+    };
+    raw.read_magnitudes(&p);
+    Ok(raw)
 }
 
 /// How a table's time column becomes days on an absolute scale.
