@@ -164,6 +164,9 @@ pub struct Catalogue {
     pub notes: Vec<String>,
     /// Data rows seen (loaded plus skipped).
     pub rows_seen: u64,
+    /// Each star by its id's key (`load::star_key`), built on the first
+    /// id [`Catalogue::find_star`] does not find as written.
+    star_keys: std::sync::OnceLock<hashbrown::HashMap<Vec<u8>, StarId>>,
     /// The table format read ("CSV/TSV", "IPAC table", "VOTable"...).
     pub format: &'static str,
 }
@@ -304,6 +307,22 @@ impl Catalogue {
         let h = self.hasher.hash_one(id.as_bytes());
         self.star_lookup
             .find(h, |s| self.stars.get(s as usize) == id)
+            .or_else(|| {
+                // Another spelling of a star's id (`TIC100` for `TIC 100`):
+                // the ledger's or a skipped row's.
+                let keys = self.star_keys.get_or_init(|| {
+                    let mut key = Vec::new();
+                    (0..self.stars.len() as StarId)
+                        .map(|s| {
+                            load::star_key(self.stars.get(s as usize), &mut key);
+                            (key.clone(), s)
+                        })
+                        .collect()
+                });
+                let mut key = Vec::new();
+                load::star_key(id, &mut key);
+                keys.get(&key).copied()
+            })
     }
 
     /// Number of stars with exactly k candidates, indexed by k (index 0 is 0).

@@ -601,3 +601,45 @@ NF,NF-3,24.7,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,0.01,0.8,0.9\n";
         assert_eq!(live.verdict(id(&cat, s)), Verdict::Validated, "{s}");
     }
 }
+
+#[test]
+fn one_star_written_two_ways_is_one_star() {
+    // Invented: a table merged from two sources that write one host id
+    // differently (`TIC 9100` and `TIC9100`; `9200` through a float column
+    // as `9200.0`; `TIC 0009300` zero-padded, and `9300` bare in a table of
+    // TIC ids). Before, each spelling was its own star: the binary called
+    // a false positive under one spelling held nothing, and the two
+    // planets under the other were validated.
+    let rows = "\
+TIC 9100,A-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+TIC 9100,A-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+TIC9100,A-3,23.9,0.00001,102.5,0.001,640,4.7,26,0.3,1,1,5772,FP\n\
+9200,B-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+9200,B-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+9200.0,B-3,24.7,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,EB\n\
+TIC 0009300,C-1,4.5,0.00001,100.5,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+TIC 0009300,C-2,10.6,0.00001,101.5,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+9300,C-3,25.3,0.00001,102.7,0.001,640,4.7,26,0.3,1,1,5772,FALSE POSITIVE\n";
+    let cat = load_text(&catalogue("disposition", rows));
+    let live = live_of(&cat);
+    for star in ["A", "B", "C"] {
+        let c = |j: usize| id(&cat, &format!("{star}-{j}"));
+        assert_eq!(cat.star_of(c(1)), cat.star_of(c(3)), "{star}");
+        for j in 1..=2 {
+            assert_eq!(live.status(c(j)), Status::Held, "{star}-{j}");
+            assert_ne!(live.verdict(c(j)), Verdict::Validated, "{star}-{j}");
+        }
+    }
+    // Under its first spelling, and said.
+    assert_eq!(cat.star_id(cat.star_of(id(&cat, "A-3"))), "TIC 9100");
+    assert!(
+        cat.notes
+            .iter()
+            .any(|n| n.contains("`TIC9100` as `TIC 9100`")),
+        "{:?}",
+        cat.notes
+    );
+    // Found by any spelling (a ledger's, a skipped row's).
+    assert_eq!(cat.find_star("tic-9100"), cat.find_star("TIC 9100"));
+    assert!(cat.find_star("TIC 9100").is_some());
+}

@@ -25,6 +25,7 @@ mod merge;
 mod number;
 mod records;
 mod row;
+mod spelling;
 mod unit_rules;
 
 pub(super) use ids::IdIndex;
@@ -34,6 +35,7 @@ use number::*;
 pub use number::{is_missing, parse_number};
 use records::*;
 use row::*;
+pub use spelling::star_key;
 use unit_rules::*;
 
 /// How to read a catalogue. The default reads any supported file unaided.

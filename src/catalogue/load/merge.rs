@@ -269,6 +269,15 @@ impl Merger {
             });
             (ids, StarGrouping::build(&self.row_stars, &self.star_hash))
         };
+        // One star written several ways is one star (`TIC 100`, `TIC100`).
+        let mut notes: Vec<String> = id_note.into_iter().collect();
+        let grouping = match self.join_spellings(&grouping.first_rows, &grouping.star_of) {
+            Some(note) => {
+                notes.push(note);
+                StarGrouping::build(&self.row_stars, &self.star_hash)
+            }
+            None => grouping,
+        };
         let Merger {
             name,
             mut candidates,
@@ -431,7 +440,8 @@ impl Merger {
             hasher,
             columns,
             skipped,
-            notes: id_note.into_iter().collect(),
+            notes,
+            star_keys: std::sync::OnceLock::new(),
             rows_seen,
             format: TableFormat::Delimited.name(),
         })

@@ -1,0 +1,281 @@
+//! One star written several ways: `TIC 100`, `TIC100`, `tic-100`, `100`,
+//! `100.0` (tables merged from several archives, a number written by a
+//! float column). Rows of one star under two spellings would be two
+//! stars: neither system whole, and a false positive under one spelling
+//! would not hold the candidates under the other. The loader reads every
+//! spelling of one key as one star, under its first spelling, and says so.
+
+use std::hash::BuildHasher;
+
+use super::merge::Merger;
+use crate::catalogue::pool::StrPool;
+
+/// A star id in one spelling (docs/science.md §3.4): ASCII lower case;
+/// spaces, `_` and `-` (but a leading sign) left out; a whole number written as a float
+/// (`100.0`) as the number; and the leading zeros of the number that ends
+/// the id left out (`KIC 005706966` → `kic5706966`). Ids that differ only
+/// so are one star in every catalogue convention we know of (common
+/// practice, no source).
+pub fn star_key(id: &str, out: &mut Vec<u8>) {
+    out.clear();
+    let id = id.as_bytes().trim_ascii();
+    // `100.0`, `100.00`: a whole number through a float column.
+    let id = match id.iter().position(|&b| b == b'.') {
+        Some(dot)
+            if id.last() == Some(&b'0')
+                && dot > 0
+                && id[..dot].iter().all(u8::is_ascii_digit)
+                && id[dot + 1..].iter().all(|&b| b == b'0') =>
+        {
+            &id[..dot]
+        }
+        _ => id,
+    };
+    // Only ASCII bytes are left out or changed: the key stays UTF-8. A
+    // leading `-` is a sign (`-1`, a placeholder), kept.
+    for &b in id {
+        match b {
+            b' ' | b'\t' | b'_' => {}
+            b'-' if !out.is_empty() => {}
+            _ => out.push(b.to_ascii_lowercase()),
+        }
+    }
+    // The ending number without its leading zeros (one digit kept).
+    let digits = out.iter().rev().take_while(|b| b.is_ascii_digit()).count();
+    let start = out.len() - digits;
+    let zeros = out[start..].iter().take_while(|&&b| b == b'0').count();
+    let zeros = zeros.min(digits.saturating_sub(1));
+    if zeros > 0 {
+        out.drain(start..start + zeros);
+    }
+}
+
+/// The letters before the number of a key that is letters then a number
+/// (`tic100` → `tic`), `Some("")` for a bare number, `None` otherwise.
+fn prefix(key: &[u8]) -> Option<&[u8]> {
+    let digits = key.iter().rev().take_while(|b| b.is_ascii_digit()).count();
+    if digits == 0 {
+        return None;
+    }
+    let head = &key[..key.len() - digits];
+    head.iter().all(u8::is_ascii_lowercase).then_some(head)
+}
+
+/// The fewest digits of a bare number read with the table's one prefix:
+/// catalogue numbers of survey targets run to 6–10 digits; placeholders for
+/// unknown hosts (`0`, `99`, `-1`) are short (common practice, no source).
+const BARE_DIGITS: usize = 4;
+
+/// Which stars (by first row, in star order) are another's spelling: for
+/// each star, the star it joins (itself when none); `None` when no two
+/// stars share a key (the common case, found from the keys' hashes alone).
+/// A bare number of [`BARE_DIGITS`] or more joins the prefixed ids when
+/// every prefixed id of the table has the same letters (`9100` with `TIC
+/// 9100`, in a table of TIC ids); with two catalogues' prefixes it stays
+/// apart.
+pub(super) fn joins(
+    row_stars: &StrPool,
+    first_rows: &[u32],
+    hasher: &hashbrown::DefaultHashBuilder,
+) -> Option<Vec<u32>> {
+    let spelt = |s: usize| row_stars.get(first_rows[s] as usize);
+    // The keys' hashes, and which keys are bare numbers or letters and a
+    // number, on two threads (each half of the stars).
+    let half = first_rows.len() / 2;
+    let keyed = |range: std::ops::Range<usize>| {
+        let mut key = Vec::new();
+        let mut hashes = Vec::with_capacity(range.len());
+        let mut bare: Vec<u32> = Vec::new();
+        let (mut letters, mut one_prefix): (Option<Vec<u8>>, bool) = (None, true);
+        for s in range {
+            star_key(spelt(s), &mut key);
+            match prefix(&key) {
+                // A bare number long enough to be a catalogue's (not a
+                // placeholder's `0` or `99`).
+                Some([]) if key.len() >= BARE_DIGITS => bare.push(s as u32),
+                Some([]) => {}
+                Some(p) => match &letters {
+                    None => letters = Some(p.to_vec()),
+                    Some(l) => one_prefix &= l == p,
+                },
+                None => {}
+            }
+            hashes.push(hasher.hash_one(&key));
+        }
+        (hashes, bare, letters, one_prefix)
+    };
+    let (low, high) = std::thread::scope(|t| {
+        let high = t.spawn(|| keyed(half..first_rows.len()));
+        let low = keyed(0..half);
+        (
+            low,
+            high.join().unwrap_or_else(|e| std::panic::resume_unwind(e)),
+        )
+    });
+    let (mut hashes, mut bare, letters, mut one_prefix) = low;
+    hashes.extend(high.0);
+    bare.extend(high.1);
+    let letters = match (letters, high.2) {
+        (Some(a), Some(b)) => {
+            one_prefix &= a == b;
+            Some(a)
+        }
+        (a, b) => a.or(b),
+    };
+    one_prefix &= high.3;
+    let mut key = Vec::new();
+    // A bare number read with the table's one prefix.
+    let lead = letters.filter(|_| one_prefix && !bare.is_empty());
+    let full_key = |s: usize, key: &mut Vec<u8>| {
+        star_key(spelt(s), key);
+        if let Some(l) = &lead {
+            if prefix(key) == Some(&[]) && key.len() >= BARE_DIGITS {
+                key.splice(0..0, l.iter().copied());
+            }
+        }
+    };
+    if lead.is_some() {
+        for &s in &bare {
+            full_key(s as usize, &mut key);
+            hashes[s as usize] = hasher.hash_one(&key);
+        }
+    }
+    // Two stars of one hash, on two threads (each the hashes of one half
+    // of the hash space): almost always none.
+    let repeated = |upper: bool| {
+        let mut first: hashbrown::HashMap<u64, u32> =
+            hashbrown::HashMap::with_capacity(hashes.len() / 2 + 1);
+        let mut pairs: Vec<(u32, u32)> = Vec::new();
+        for (s, &h) in hashes.iter().enumerate() {
+            if (h >> 63 == 1) == upper {
+                let f = *first.entry(h).or_insert(s as u32);
+                if f != s as u32 {
+                    pairs.push((s as u32, f));
+                }
+            }
+        }
+        pairs
+    };
+    let mut pairs = std::thread::scope(|t| {
+        let upper = t.spawn(|| repeated(true));
+        let mut pairs = repeated(false);
+        pairs.extend(
+            upper
+                .join()
+                .unwrap_or_else(|e| std::panic::resume_unwind(e)),
+        );
+        pairs
+    });
+    pairs.sort_unstable();
+    let mut to: Option<Vec<u32>> = None;
+    let mut other = Vec::new();
+    for (s, f) in pairs {
+        // One hash: the same key, unless two keys collide (checked).
+        full_key(s as usize, &mut key);
+        full_key(f as usize, &mut other);
+        if key == other {
+            let to = to.get_or_insert_with(|| (0..hashes.len() as u32).collect());
+            to[s as usize] = f;
+        }
+    }
+    to
+}
+
+impl Merger {
+    /// Rewrites the rows of every star that is another's spelling to that
+    /// star's first spelling ([`joins`]), and returns the note that says so,
+    /// or `None` when every star has one spelling (nothing changes).
+    pub(super) fn join_spellings(&mut self, first_rows: &[u32], star_of: &[u32]) -> Option<String> {
+        let to = joins(&self.row_stars, first_rows, &self.hasher)?;
+        let mut examples: Vec<String> = Vec::new();
+        let mut count = 0;
+        for (s, &t) in to.iter().enumerate() {
+            if t as usize != s {
+                count += 1;
+                if examples.len() < 3 {
+                    examples.push(format!(
+                        "`{}` as `{}`",
+                        crate::sanitize::clean(self.row_stars.get(first_rows[s] as usize)),
+                        crate::sanitize::clean(self.row_stars.get(first_rows[t as usize] as usize))
+                    ));
+                }
+            }
+        }
+        let n = self.row_stars.len();
+        let mut pool = StrPool::with_capacity(n, self.row_stars.byte_len());
+        for (r, &s) in star_of.iter().enumerate() {
+            let s = s as usize;
+            let spelt = to[s] as usize;
+            let text = self.row_stars.get(first_rows[spelt] as usize);
+            if spelt != s {
+                self.star_hash[r] = self.hasher.hash_one(text.as_bytes());
+            }
+            pool.push(text);
+        }
+        self.row_stars = pool;
+        Some(format!(
+            "star ids written more than one way were read as one star ({count} spelling{} joined: {}{}); a spelling is the same star when the ids differ only in case, spaces, `-` or `_`, leading zeros, a float's `.0`, or a missing catalogue prefix",
+            if count == 1 { "" } else { "s" },
+            examples.join(", "),
+            if count > 3 { ", …" } else { "" }
+        ))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn key(id: &str) -> Vec<u8> {
+        let mut k = Vec::new();
+        star_key(id, &mut k);
+        k
+    }
+
+    #[test]
+    fn spellings_of_one_star_share_a_key() {
+        for (a, b) in [
+            ("TIC 100", "TIC100"),
+            ("TIC 100", "tic-100"),
+            ("TIC 100", " TIC_100 "),
+            ("KIC 005706966", "KIC 5706966"),
+            ("100", "100.0"),
+            ("0", "000"),
+            ("WASP-12", "wasp 12"),
+        ] {
+            assert_eq!(key(a), key(b), "{a} / {b}");
+        }
+        for (a, b) in [
+            ("TIC 100", "KIC 100"),
+            ("TIC 100", "TIC 1000"),
+            ("-1", "1"),
+            ("100", "100.5"),
+            ("TIC 10 0", "TIC 1"),
+        ] {
+            assert_ne!(key(a), key(b), "{a} / {b}");
+        }
+    }
+
+    #[test]
+    fn a_bare_number_joins_the_one_catalogue_of_the_table() {
+        let pool = |ids: &[&str]| {
+            let mut p = StrPool::default();
+            for i in ids {
+                p.push(i);
+            }
+            p
+        };
+        let h = hashbrown::DefaultHashBuilder::default();
+        let rows = pool(&["TIC 1000", "TIC 7", "1000", "TIC1000", "7"]);
+        let to = joins(&rows, &[0, 1, 2, 3, 4], &h).unwrap();
+        assert_eq!(to, vec![0, 1, 0, 0, 4]);
+        // A short number (a placeholder's `0`) stays apart.
+        let rows = pool(&["S0", "S1", "0"]);
+        assert!(joins(&rows, &[0, 1, 2], &h).is_none());
+        // Two catalogues' prefixes: a bare number is neither.
+        let rows = pool(&["TIC 1000", "KIC 1000", "1000"]);
+        assert!(joins(&rows, &[0, 1, 2], &h).is_none());
+        let rows = pool(&["A", "B"]);
+        assert!(joins(&rows, &[0, 1], &h).is_none());
+    }
+}
