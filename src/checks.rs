@@ -629,7 +629,8 @@ fn group_flags(cat: &Catalogue, links: &[system::Link], out: &mut Checks) {
     out.groups = groups;
 }
 
-/// Whether the shallower of two same-period signals is deeper than a
+/// Whether the shallower of two eclipses of one binary (same period, or
+/// one at a multiple of the other's) is deeper than a
 /// planet's occultation could be behind the deeper: reflected light with
 /// geometric albedo 1 plus dayside thermal emission (bolometric, no
 /// redistribution), together (5/3)·k²·(R★/a)² with k² the deeper depth
@@ -646,6 +647,10 @@ fn eclipse_pair_too_deep(cat: &Catalogue, a: CandidateId, b: CandidateId) -> Opt
     }
     let k = (d1 * 1e-6).sqrt();
     let period = cat.value(Field::PeriodD, deep)?;
+    // The binary's orbit is the shorter period where one eclipse was found
+    // at a multiple of it: a/R★ ∝ P^(2/3) (Kepler's third law).
+    let other = cat.value(Field::PeriodD, shallow).unwrap_or(period);
+    let orbit = other.min(period);
     let a_rstar = derive(cat, deep, &CheckSettings::default())
         .a_rstar
         .or_else(|| {
@@ -655,7 +660,8 @@ fn eclipse_pair_too_deep(cat: &Catalogue, a: CandidateId, b: CandidateId) -> Opt
                 k,
                 cat.value(Field::Impact, deep).unwrap_or(0.0).min(1.0 + k),
             )
-        })?;
+        })?
+        * (orbit / period).powf(2.0 / 3.0);
     let ceiling = OCCULTATION_CEILING_FACTOR * d1 / (a_rstar * a_rstar);
     let sigma2 = cat
         .value(Field::Snr, shallow)
@@ -663,7 +669,12 @@ fn eclipse_pair_too_deep(cat: &Catalogue, a: CandidateId, b: CandidateId) -> Opt
         .map_or(0.0, |s| d2 / s);
     (d2 - 3.0 * sigma2 > ceiling).then(|| {
         format!(
-            "same-period signals {} ({d1:.0} ppm) and {} ({d2:.0} ppm): the shallower is above the {ceiling:.0} ppm a planet's occultation can reach at a/R★ = {a_rstar:.1} (albedo 1 plus dayside heat): an eclipsing binary",
+            "{} {} ({d1:.0} ppm) and {} ({d2:.0} ppm): the shallower is above the {ceiling:.0} ppm a planet's occultation can reach at a/R★ = {a_rstar:.1} (albedo 1 plus dayside heat): an eclipsing binary",
+            if (other / period - 1.0).abs() < 0.01 {
+                "same-period signals"
+            } else {
+                "eclipses"
+            },
             cat.candidate_id(deep),
             cat.candidate_id(shallow)
         )

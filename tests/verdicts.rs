@@ -127,6 +127,36 @@ EB,EB-2,5.0016,,100.0,,8000,2.4,40,0.3,1,1,5772\n",
 }
 
 #[test]
+fn a_binarys_other_eclipse_found_at_twice_its_period_is_not_a_planet() {
+    // Invented: a circular eclipsing binary whose primary was found at its
+    // period (5 d) and whose secondary was found at twice it, every one of
+    // its eclipses halfway between two primaries; a third signal beside
+    // them. Before, the three were a system and all validated. Now the
+    // pair is one binary's two eclipses (`half-phase`, docs/science.md
+    // §3.1), its secondary deeper than any planet's occultation, and the
+    // star is held. A pair of planets near the same 2:1 ratio whose
+    // transits do not fall halfway (R) stays a system.
+    let text = format!(
+        "{HEAD}{}E,E-1,5.0,0.00001,100.0,0.001,600,3.4,25,0.3,1,1,5772
+E,E-2,10.0,0.00001,172.5,0.001,600,4.3,25,0.3,1,1,5772
+E,E-3,23.1,0.00001,101.3,0.001,600,5.6,25,0.3,1,1,5772
+R,R-1,5.0,0.00001,100.0,0.001,600,3.4,25,0.3,1,1,5772
+R,R-2,10.003,0.00001,100.9,0.001,600,4.3,25,0.3,1,1,5772
+R,R-3,23.1,0.00001,101.3,0.001,600,5.6,25,0.3,1,1,5772
+",
+        background()
+    );
+    let (cat, live) = vet(&text);
+    assert!(live.flags(id(&cat, "E-2")).contains(Flag::HalfPhase));
+    for s in ["E-1", "E-2", "E-3"] {
+        assert_ne!(live.verdict(id(&cat, s)), Verdict::Validated, "{s}");
+    }
+    for s in ["R-1", "R-2", "R-3"] {
+        assert_eq!(live.verdict(id(&cat, s)), Verdict::Validated, "{s}");
+    }
+}
+
+#[test]
 fn rejecting_a_copy_or_the_signal_itself() {
     let text = format!(
         "{HEAD}{}\

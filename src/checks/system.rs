@@ -344,6 +344,31 @@ pub(super) fn check(
                             t.offset_words()
                         ),
                     });
+                    continue;
+                }
+                // The longer's transits halfway between the shorter's: a
+                // circular binary's other eclipse, found at n times its
+                // period (docs/science.md §3.1). One binary's two eclipses
+                // give periods n:1 within their errors, so where errors are
+                // given they alone bound the ratio.
+                if sigma.is_some_and(|sg| (r - nf).abs() > 3.0 * sg) {
+                    continue;
+                }
+                let halfway = Member {
+                    epoch: mb.epoch + 0.5 * pa,
+                    ..*mb
+                };
+                let t = together(ma, &halfway, nf, t14_d);
+                if t.yes && t.off_d.is_some() {
+                    links.push(Link {
+                        a,
+                        b,
+                        flag: Flag::HalfPhase,
+                        detail: format!(
+                            "period ratio {r:.6} ≈ {n} and every transit of the longer falls halfway between two of the shorter ({}): the two eclipses of one binary, one found at {n} times the period (planets cannot share an orbit)",
+                            t.offset_words().replacen("offset", "offset from phase 0.5", 1)
+                        ),
+                    });
                 }
             }
             if links.len() > before {

@@ -210,12 +210,13 @@ X,X-2,9.0,0.00001,103.1,0.001,850,3.2,19,0.2,1,1,5772,,,\n"
 #[test]
 fn a_true_resonance_with_offset_transits_stays_two_planets() {
     // Invented: periods 2:1 within the errors but the longer period's
-    // transits fall half-way between the shorter's (offset 2.5 d ≫ T14):
-    // two planets in resonance, not an alias (docs/science.md §3.1).
+    // transits fall at phase 0.34 of the shorter's (offset 1.7 d ≫ T14):
+    // two planets in resonance, not an alias, nor a binary's other eclipse
+    // (that would fall at phase 0.5; docs/science.md §3.1).
     let text = format!(
         "{HEAD}\
 R,R-1,5.0,0.00001,100.0,0.001,500,3,20,0.3,1,1,5772,,,\n\
-R,R-2,10.0,0.00002,102.5,0.001,450,3.8,18,0.3,1,1,5772,,,\n"
+R,R-2,10.0,0.00002,101.7,0.001,450,3.8,18,0.3,1,1,5772,,,\n"
     );
     let c = load(&text);
     let ch = run(&c, &CheckSettings::default());
@@ -242,7 +243,7 @@ fn one_signal_found_by_two_searches_years_apart_is_one_signal() {
     // pair's own disagreement (|5.0016 − 2 × 2.50001| d) stands for them.
     // A resonant pair of precise periods stays two planets however far
     // apart its epochs (carried 150 cycles: 0.003 d, against an offset of
-    // 2.5 d).
+    // 1.7 d).
     let text = format!(
         "{HEAD}\
 A,A-1,2.50001,0.00002,1200.0,0.001,8000,2.4,60,0.3,1,1,5772,,,\n\
@@ -250,7 +251,7 @@ A,A-2,5.0016,0.0008,100.0,0.002,8000,2.4,40,0.3,1,1,5772,,,\n\
 B,B-1,2.50001,,1200.0,,8000,2.4,60,0.3,1,1,5772,,,\n\
 B,B-2,5.0016,,100.0,,8000,2.4,40,0.3,1,1,5772,,,\n\
 R,R-1,5.0,0.00001,100.0,0.001,500,3,20,0.3,1,1,5772,,,\n\
-R,R-2,10.0,0.00002,1602.5,0.001,450,3.8,18,0.3,1,1,5772,,,\n"
+R,R-2,10.0,0.00002,1601.7,0.001,450,3.8,18,0.3,1,1,5772,,,\n"
     );
     let (c, ch) = loaded_and_checked(&text);
     for copy in ["A-2", "B-2"] {
