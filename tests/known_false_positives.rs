@@ -643,3 +643,36 @@ TIC 0009300,C-2,10.6,0.00001,101.5,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
     assert_eq!(cat.find_star("tic-9100"), cat.find_star("TIC 9100"));
     assert!(cat.find_star("TIC 9100").is_some());
 }
+
+#[test]
+fn a_binary_listed_twice_and_called_a_false_positive_once_holds_its_star() {
+    // Invented: one eclipsing binary listed twice on star D (D-1 and D-2,
+    // one ephemeris; D-1, of higher SNR, stands for the signal), the
+    // catalogue calling only the copy D-2 a false positive, beside a third
+    // signal D-3. Before, the copy's `known-fp` held the copy alone: D-1
+    // and D-3 made a pair and were validated. The catalogue's word is on
+    // the signal, whichever entry carries it (docs/science.md §3.5). An
+    // entry called a false positive *as a duplicate* (U-2) says nothing of
+    // the signal: U-1 and U-3 stay a validated pair.
+    let rows = "\
+D,D-1,4.1,0.00001,100.0,0.001,700,3.0,40,0.3,1,1,5772,PC\n\
+D,D-2,4.1,0.00001,100.0,0.001,700,3.0,20,0.3,1,1,5772,FP\n\
+D,D-3,23.9,0.00001,102.5,0.001,640,4.7,26,0.3,1,1,5772,PC\n\
+U,U-1,4.3,0.00001,100.4,0.001,700,3.0,40,0.3,1,1,5772,PC\n\
+U,U-2,4.3,0.00001,100.4,0.001,700,3.0,20,0.3,1,1,5772,FP - duplicate\n\
+U,U-3,24.7,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,PC\n";
+    let cat = load_text(&catalogue("disposition", rows));
+    let live = live_of(&cat);
+    let c = |s: &str| id(&cat, s);
+    assert!(live.flags(c("D-2")).contains(Flag::NearTwin));
+    for s in ["D-1", "D-2", "D-3"] {
+        assert_eq!(live.status(c(s)), Status::Held, "{s}");
+        assert_ne!(live.verdict(c(s)), Verdict::Validated, "{s}");
+    }
+    assert!(matches!(live.hold(c("D-3")), Some(Hold::Sibling { fp, .. }) if fp == c("D-2")));
+    assert!(live.flags(c("U-2")).contains(Flag::KnownArtefact));
+    for s in ["U-1", "U-3"] {
+        assert_eq!(live.k(c(s)), 2, "{s}");
+        assert_eq!(live.verdict(c(s)), Verdict::Validated, "{s}");
+    }
+}

@@ -104,10 +104,35 @@ enum Said {
     PlanetOrCandidate,
     /// A word this module does not know: vetted as a candidate, and said.
     Unknown,
+    /// A repeated entry of another signal (`FP - duplicate`): counts for
+    /// nothing, as the copy it is, and names nothing of its star.
+    Duplicate,
+}
+
+/// Words that call an entry a repeat of another (`FP (duplicate)`, `dup
+/// of 101.01`): the archive retires the copy, and says nothing of the
+/// signal itself (docs/science.md §3.5).
+const DUPLICATE: [&str; 6] = [
+    "duplicate",
+    "duplicated",
+    "dup",
+    "dupe",
+    "repeat",
+    "repeated",
+];
+
+/// Whether a disposition cell calls its entry a repeat of another, by a
+/// whole word of [`DUPLICATE`].
+fn names_a_duplicate(cell: &str) -> bool {
+    normalise(cell)
+        .split(|c: char| !c.is_ascii_alphanumeric())
+        .any(|w| DUPLICATE.contains(&w))
 }
 
 fn said(cell: &str) -> Said {
-    if says_false_positive(cell) {
+    if names_a_duplicate(cell) {
+        Said::Duplicate
+    } else if says_false_positive(cell) {
         Said::FalsePositive
     } else if begins_with_one(&normalise(cell), &NOT_A_TRANSIT) {
         Said::NotATransit
@@ -137,8 +162,12 @@ fn normalise(cell: &str) -> String {
 /// [`NEGATIONS`] turns around (`not a planet` is read first, as itself).
 /// Planet and candidate dispositions
 /// (`CONFIRMED`, `CANDIDATE`, `PC`, `KP`...), empty cells and anything else
-/// unknown do not: the candidate is then vetted as any other.
+/// unknown do not: the candidate is then vetted as any other; nor does a
+/// cell that calls its entry a duplicate ([`names_a_duplicate`]).
 pub fn says_false_positive(cell: &str) -> bool {
+    if names_a_duplicate(cell) {
+        return false;
+    }
     normalise(cell)
         .split([';', ',', '/', '|', '+', '(', ')', '[', ']', ':'])
         .any(|clause| {
@@ -344,6 +373,10 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
             let (flag, what) = match entry.0 {
                 Said::FalsePositive => (Flag::KnownFp, "a known false positive"),
                 Said::NotATransit => (Flag::KnownArtefact, "no transit at all"),
+                Said::Duplicate => (
+                    Flag::KnownArtefact,
+                    "a repeated entry of another signal, which counts once",
+                ),
                 _ => continue,
             };
             out.add(
@@ -580,6 +613,9 @@ mod tests {
             "PC; blend unlikely",
             "VPC+",
             "debris",
+            // A retired copy says nothing of the signal.
+            "FP - duplicate",
+            "FALSE POSITIVE (dup of 101.01)",
         ] {
             assert!(!says_false_positive(no), "{no}");
         }

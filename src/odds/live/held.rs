@@ -169,9 +169,12 @@ impl Live {
 
     /// The first of `members` (one star's) that is a known false positive
     /// under `decision`: rejected as one, or, not rejected, flagged as one
-    /// while standing for its signal. A copy's flags are not its own: an alias folded at
-    /// twice the period shows its own transit at phase 0.5, a `secondary`
-    /// that says nothing of the star.
+    /// while standing for its signal. A copy's light-curve flags are not its
+    /// own: an alias folded at twice the period shows its own transit at
+    /// phase 0.5, a `secondary` that says nothing of the star. The
+    /// catalogue's word (`known-fp`) is on the signal, whichever of its
+    /// entries carries it: a binary listed twice, once called a false
+    /// positive, is a false positive (docs/science.md §3.5).
     pub(super) fn known_fp_among(
         &self,
         members: &[CandidateId],
@@ -183,8 +186,12 @@ impl Live {
             if let Some(r) = decision(m).reason() {
                 return names_false_positive(r);
             }
-            if !self.flags[m as usize].intersects(self.fp_signs()) {
+            let signs = self.flags[m as usize].intersection(self.fp_signs());
+            if signs.is_empty() {
                 return false;
+            }
+            if signs.contains(Flag::KnownFp) {
+                return true;
             }
             match self.active_group(m) {
                 Some(g) => self.group_standing(g, &decision).rep == Some(m),
