@@ -228,6 +228,24 @@ struct Pair<'a> {
 }
 
 impl Pair<'_> {
+    /// The widest relative difference in period ever matched between a and
+    /// b: `echo_max_rel`, or [`ECHO_PLACED_REL`] when both have positions
+    /// and the echo radius is at most [`ECHO_PLACED_RADIUS`] (their
+    /// neighbours on the sky are then few, so a wide window costs little;
+    /// the periods' own errors still decide).
+    fn widest_rel(&self, a: &Sig, b: &Sig) -> f64 {
+        if self.wide_for_placed() && sweep::placed(a) && sweep::placed(b) {
+            self.s.echo_max_rel.max(ECHO_PLACED_REL)
+        } else {
+            self.s.echo_max_rel
+        }
+    }
+
+    /// Whether placed signals are matched within [`ECHO_PLACED_REL`].
+    fn wide_for_placed(&self) -> bool {
+        self.positions && self.s.echo_radius_arcsec <= ECHO_PLACED_RADIUS
+    }
+
     fn depth_of(&self, c: CandidateId) -> f64 {
         self.depth.map_or(f64::NAN, |d| d[c as usize])
     }
@@ -242,7 +260,7 @@ impl Pair<'_> {
         }
         let dp = (b.period - n * a.period).abs();
         // The wider bound first: it needs no square root.
-        if dp > s.echo_max_rel * b.period {
+        if dp > self.widest_rel(a, b) * b.period {
             return None;
         }
         // Within 3σ of the combined period error, or half the relative
@@ -361,6 +379,17 @@ fn nearest(x: f64) -> f64 {
 /// stars is an echo whichever of them it is compared with).
 const ECHO_WINDOW: usize = 256;
 const ECHO_MATCHES: usize = 16;
+
+/// The widest relative difference in period matched between two signals
+/// with positions, within 3σ of their errors: one sector's search gives
+/// periods to 10⁻⁴–10⁻³ of themselves (from memory), and a neighbour's
+/// light in the same pixels is found with the same uncertainty. Without
+/// positions every signal is a neighbour, and `echo_max_rel` bounds the
+/// search instead.
+const ECHO_PLACED_REL: f64 = 5e-3;
+/// The widest echo radius, arcsec, at which [`ECHO_PLACED_REL`] applies
+/// (one degree: bands of the sky that narrow hold few signals).
+const ECHO_PLACED_RADIUS: f64 = 3600.0;
 
 /// One echo match as the candidate sees it.
 #[derive(Clone, Copy, Debug)]

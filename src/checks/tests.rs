@@ -391,6 +391,25 @@ A,A-1,3.2,100.0,20000,2.5\nB,B-1,3.2000001,100.0003,150,2.5\n";
 }
 
 #[test]
+fn a_neighbours_echo_found_by_one_sector_is_matched_within_its_errors() {
+    // Invented: a binary on a faint star and its light in a neighbour 8″
+    // away, each found by one short search: periods 3.0000 ± 0.0006 d and
+    // 3.0012 ± 0.0008 d, 4 × 10⁻⁴ apart, within 3σ of their combined error
+    // (0.003 d) but beyond the 5 × 10⁻⁵ bound of catalogues without
+    // positions. Before, the copy counted towards its star's system.
+    let text = format!(
+        "{HEAD}\
+NA,NA-1,3.0000,0.0006,1500.10,0.002,9000,2.8,60,0.3,1,1,5772,120.0,-30.0,14.0\n\
+NB,NB-1,3.0012,0.0008,1500.11,0.003,700,2.8,20,0.3,1,1,5772,120.002,-30.001,10.0\n\
+NC,NC-1,3.0060,0.0008,1500.11,0.003,700,2.8,20,0.3,1,1,5772,120.004,-30.001,10.0\n"
+    );
+    let (c, ch) = loaded_and_checked(&text);
+    assert!(flagged(&c, &ch, "NB-1", Flag::Echo), "{}", ch.why(1));
+    // 2 × 10⁻³ apart, 6σ: not the same signal.
+    assert!(!flagged(&c, &ch, "NC-1", Flag::Echo), "{}", ch.why(2));
+}
+
+#[test]
 fn thousands_of_copies_of_one_signal_stay_linear() {
     // A hostile catalogue: one ephemeris and one position copied 400 times on
     // each of 5 stars. Every copy is caught (near-twin on its star, echo

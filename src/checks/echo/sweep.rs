@@ -10,7 +10,7 @@
 //! the matches are those of a search of every pair in the period windows,
 //! and windows stay small in a catalogue of millions.
 
-use super::{ECHO_MATCHES, ECHO_WINDOW, Match, Pair, Sig};
+use super::{ECHO_MATCHES, ECHO_PLACED_REL, ECHO_WINDOW, Match, Pair, Sig};
 use crate::catalogue::CandidateId;
 
 /// The signals, laid out in the order the search reads them.
@@ -153,7 +153,16 @@ impl Index {
     /// `range` in `bands`: each against the later signals of its band and
     /// the two beside it, and the later signals without a position.
     pub fn sweep_bands(&self, range: std::ops::Range<usize>, pair: &Pair) -> Swept {
-        let rel = pair.s.echo_max_rel;
+        // Placed signals match within a wider relative difference
+        // (`Pair::widest_rel`); the unplaced list (the last) within the
+        // narrow one.
+        let narrow = pair.s.echo_max_rel;
+        let wide = if pair.wide_for_placed() {
+            narrow.max(ECHO_PLACED_REL)
+        } else {
+            narrow
+        };
+        let rels = [wide, wide, wide, narrow];
         let mut out = Swept::default();
         let mut near: Vec<&Sig> = Vec::new();
         for bi in range {
@@ -177,15 +186,20 @@ impl Index {
             // in period order, so these only move forward.
             let first = &own[0];
             let mut after = lists.map(|l| l.partition_point(|b| b.rank <= first.rank));
-            let mut twice =
-                lists.map(|l| l.partition_point(|b| b.period < 2.0 * first.period * (1.0 - rel)));
+            let mut l = 0;
+            let mut twice = lists.map(|list| {
+                let rel = rels[l];
+                l += 1;
+                list.partition_point(|b| b.period < 2.0 * first.period * (1.0 - rel))
+            });
             for a in own {
-                let lo = 2.0 * a.period * (1.0 - rel);
                 let mut crowded = false;
                 for n in [1u8, 2] {
-                    let hi = f64::from(n) * a.period * (1.0 + rel);
                     near.clear();
                     for (l, list) in lists.iter().enumerate() {
+                        let rel = rels[l];
+                        let lo = 2.0 * a.period * (1.0 - rel);
+                        let hi = f64::from(n) * a.period * (1.0 + rel);
                         let from = if n == 1 {
                             while after[l] < list.len() && list[after[l]].rank <= a.rank {
                                 after[l] += 1;
@@ -302,12 +316,12 @@ mod tests {
 
     /// Every pair of every period window, compared one by one.
     fn every_pair(by_rank: &[Sig], pair: &Pair) -> Vec<(u32, u8, u32)> {
-        let rel = pair.s.echo_max_rel;
         let mut out = Vec::new();
         for a in by_rank {
             for n in [1u8, 2] {
                 let nf = f64::from(n);
                 for b in by_rank {
+                    let rel = pair.widest_rel(a, b);
                     let inside = if n == 1 {
                         b.rank > a.rank && b.period <= a.period * (1.0 + rel)
                     } else {
