@@ -8,11 +8,13 @@
 mod echo;
 mod groups;
 pub mod known;
+mod lightcurves;
 mod progress;
 mod system;
 
 pub use groups::SignalGroups;
 pub use known::UnseenFp;
+pub use lightcurves::{LightcurveRun, LightcurveTotals, run_lightcurves, run_lightcurves_counted};
 pub use progress::CheckProgress;
 
 use crate::catalogue::{CandidateId, Catalogue, Field};
@@ -212,6 +214,9 @@ pub struct Checks {
     /// Stars that a skipped row calls the host of a false positive
     /// (`known::flag`), in star order.
     unseen_fp: Vec<UnseenFp>,
+    /// The `big-radius` limit the checks ran with, R⊕, for the light
+    /// curves' own depths (`lightcurves`).
+    big_radius_rearth: f64,
 }
 
 impl Checks {
@@ -225,6 +230,7 @@ impl Checks {
             shapes: Default::default(),
             notes: Vec::new(),
             unseen_fp: Vec::new(),
+            big_radius_rearth: CheckSettings::default().big_radius_rearth,
         }
     }
 
@@ -353,6 +359,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
     let (mut checks, echoes) = std::thread::scope(|scope| {
         let echo = scope.spawn(|| echo::check(cat, s, progress));
         let mut checks = empty();
+        checks.big_radius_rearth = s.big_radius_rearth;
         // Transit densities are needed by the sibling comparison.
         let mut density_transit = vec![f64::NAN; n];
         let mut radius = vec![f64::NAN; n];
@@ -408,139 +415,6 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
     checks.sort_findings();
     progress.publish(checks.all_flags());
     checks
-}
-
-/// What a pass over the light curves found besides the flags.
-#[derive(Clone, Debug, Default)]
-pub struct LightcurveRun {
-    /// Stars with a light curve.
-    pub stars: usize,
-    /// (star id, error) for each light curve that could not be read.
-    pub errors: Vec<(String, String)>,
-    /// One plain notice when most candidates are not recovered and the
-    /// epochs sit a common zero away from the light-curve times.
-    pub notice: Option<String>,
-    /// What the light curves read held, summed over stars.
-    pub totals: LightcurveTotals,
-}
-
-/// Segments and samples of the light curves read, and the samples dropped.
-#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, serde::Serialize)]
-pub struct LightcurveTotals {
-    pub segments: usize,
-    pub samples: usize,
-    /// Dropped for a missing or non-finite value.
-    pub dropped_missing: usize,
-    /// Dropped for a set quality flag.
-    pub dropped_quality: usize,
-}
-
-impl LightcurveTotals {
-    /// "12 segments, 51200 samples used; 830 dropped (40 missing values,
-    /// 790 flagged by quality)".
-    pub fn describe(&self) -> String {
-        format!(
-            "{} segments, {} samples used; {} dropped ({} missing values, {} flagged by quality)",
-            self.segments,
-            self.samples,
-            self.dropped_missing + self.dropped_quality,
-            self.dropped_missing,
-            self.dropped_quality
-        )
-    }
-}
-
-/// Runs the light-curve diagnostics of every candidate whose star has a
-/// light curve and adds their flags. Stars without one are passed over; a
-/// star whose light curve cannot be read is reported, and its candidates
-/// are flagged `not-recovered` (the data were there, unseen).
-pub fn run_lightcurves(
-    cat: &Catalogue,
-    finder: &crate::lightcurve::Finder,
-    detrend: &crate::lightcurve::analysis::DetrendSettings,
-    checks: &mut Checks,
-) -> LightcurveRun {
-    run_lightcurves_counted(cat, finder, detrend, checks, |_, _| {})
-}
-
-/// [`run_lightcurves`], star by star (each star's curve is dropped when
-/// done), calling `progress(done, total)` over the stars that have a light
-/// curve.
-pub fn run_lightcurves_counted(
-    cat: &Catalogue,
-    finder: &crate::lightcurve::Finder,
-    detrend: &crate::lightcurve::analysis::DetrendSettings,
-    checks: &mut Checks,
-    mut progress: impl FnMut(usize, usize),
-) -> LightcurveRun {
-    use crate::lightcurve::analysis::Recovery;
-    use crate::lightcurve::timezero::{EpochAndSpan, offset_notice};
-    let cache = crate::lightcurve::Cache::default();
-    let mut errors = Vec::new();
-    let mut spans = Vec::new();
-    let mut totals = LightcurveTotals::default();
-    let stars: Vec<u32> = (0..cat.star_count() as u32)
-        .filter(|&s| finder.has(cat, s))
-        .collect();
-    let total = stars.len();
-    let mut last = std::time::Instant::now();
-    for (done, &star) in stars.iter().enumerate() {
-        let span = match cache.curve(finder, cat, star).as_ref() {
-            Ok(lc) => {
-                totals.segments += lc.segments.len();
-                totals.samples += lc.time.len();
-                totals.dropped_missing += lc.dropped;
-                totals.dropped_quality += lc.dropped_quality;
-                (lc.time[0], lc.time[lc.time.len() - 1])
-            }
-            Err(_) => (f64::NAN, f64::NAN),
-        };
-        for &c in cat.members(star) {
-            match cache.diagnostics(finder, cat, c, detrend).as_ref() {
-                Ok(d) => {
-                    checks.add_lightcurve(c, &d.findings);
-                    checks.shapes.insert(c, d.shape);
-                    spans.push(EpochAndSpan {
-                        epoch: cat.value(Field::Epoch, c).unwrap_or(f64::NAN),
-                        first: span.0,
-                        last: span.1,
-                        not_recovered: !matches!(d.recovery, Recovery::Shown | Recovery::Hidden),
-                    });
-                }
-                // A light curve that is there but cannot be read is evidence
-                // unseen: the transit is not shown in the data, and the
-                // candidate is held (`not-recovered`, docs/science.md §4).
-                Err(e) => {
-                    checks.add(
-                        c,
-                        Flag::NotRecovered,
-                        false,
-                        format!(
-                            "its star's light curve could not be read ({}): the transit is not \
-                             seen in the data; mend or remove the file, or pass --no-lightcurves \
-                             to vet from the catalogue alone",
-                            crate::sanitize::clean(e)
-                        ),
-                    );
-                    if errors.last().is_none_or(|(s, _)| s != cat.star_id(star)) {
-                        errors.push((cat.star_id(star).to_string(), e.clone()));
-                    }
-                }
-            }
-        }
-        cache.forget(star);
-        if last.elapsed().as_millis() >= 200 || done + 1 == total {
-            progress(done + 1, total);
-            last = std::time::Instant::now();
-        }
-    }
-    checks.sort_findings();
-    LightcurveRun {
-        stars: total,
-        errors,
-        notice: offset_notice(&spans),
-        totals,
-    }
 }
 
 /// Signal groups from the links between candidates, and their flags: each

@@ -596,3 +596,46 @@ fn a_light_curve_that_cannot_be_read_validates_nothing() {
         "{out}"
     );
 }
+
+#[test]
+fn a_star_sized_eclipse_in_the_light_curve_is_big_radius_whatever_the_catalogue_says() {
+    // Invented: three signals of a Sun-like star, the catalogue giving each
+    // 800-1200 ppm, but the light curve shows S-2's eclipses 10 % deep
+    // (R ≥ 31 R⊕ around 1 R☉: a star). Before, only the catalogue's depth
+    // gave the radius: the three were validated. Now S-2 is `big-radius`
+    // from its light curve (docs/science.md §4.7), and holds its star.
+    let d = scratch("lc-big-radius");
+    let cat = d.join("cat.csv");
+    std::fs::write(
+        &cat,
+        "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,star_radius_rsun,star_mass_msun\n\
+         S,S-1,3.1,1001.0,800,2.5,40,1,1\nS,S-2,7.4,1002.9,1200,3.4,40,1,1\nS,S-3,17.9,1004.4,1000,4.5,40,1,1\n",
+    )
+    .unwrap();
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    let mut rng = starsift::demo::Rng::new(7);
+    let signals = [
+        (3.1, 1001.0, 800.0, 2.5),
+        (7.4, 1002.9, 100_000.0, 3.4),
+        (17.9, 1004.4, 1000.0, 4.5),
+    ];
+    let mut text = String::from("time,flux,flux_err\n");
+    for i in 0..30_000 {
+        let t = 1000.0 + i as f64 * 2.0 / 1440.0;
+        let mut v = 1.0 + 3e-4 * rng.normal();
+        for &(p, e, depth, dur) in &signals {
+            let x: f64 = (t - e) / p;
+            if ((x - x.round()) * p * 24.0).abs() < dur / 2.0 {
+                v -= depth * 1e-6;
+            }
+        }
+        text.push_str(&format!("{t:.6},{v:.7},0.0003\n"));
+    }
+    std::fs::write(lcs.join("S.csv"), text).unwrap();
+    let rows = odds_rows(&cat, &lcs);
+    assert!(rows["S-2"][0].contains("big-radius"), "{rows:?}");
+    for c in ["S-1", "S-2", "S-3"] {
+        assert_ne!(rows[c][1], "validated", "{rows:?}");
+    }
+}
