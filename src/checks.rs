@@ -14,7 +14,10 @@ mod system;
 
 pub use groups::SignalGroups;
 pub use known::UnseenFp;
-pub use lightcurves::{LightcurveRun, LightcurveTotals, run_lightcurves, run_lightcurves_counted};
+pub use lightcurves::{
+    LightcurveRun, LightcurveTotals, measured_radius_too_big, run_lightcurves,
+    run_lightcurves_counted,
+};
 pub use progress::CheckProgress;
 
 use crate::catalogue::{CandidateId, Catalogue, Field};

@@ -156,7 +156,7 @@ pub fn run_lightcurves_counted(
 /// around the catalogue's R★ (docs/science.md §4.7). A catalogue whose
 /// depth is wrong (units, another signal's) no longer hides a star-sized
 /// eclipse in the data.
-fn measured_radius_too_big(
+pub fn measured_radius_too_big(
     cat: &Catalogue,
     c: CandidateId,
     depth: &Measure,

@@ -105,7 +105,16 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     );
     // The CSV holds the bins only: the diagnostics are computed when shown,
     // on the flux already detrended for the fold.
-    let diag = || diagnose_detrended(&lc, &flux, &me, &others, &context(cat, c), &settings);
+    // With the flag the checks add from the light curve's own depth, at the
+    // default limit (`fold` takes no check settings).
+    let diag = || {
+        let mut d = diagnose_detrended(&lc, &flux, &me, &others, &context(cat, c), &settings);
+        let limit = crate::checks::CheckSettings::default().big_radius_rearth;
+        if let Some(why) = crate::checks::measured_radius_too_big(cat, c, &d.depth, limit) {
+            d.findings.push((crate::flags::Flag::BigRadius, why));
+        }
+        d
+    };
     let model = model_params(cat, c);
     match args.format {
         Format::Csv => {
