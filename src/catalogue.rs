@@ -13,7 +13,7 @@ use std::sync::Arc;
 pub use columns::{
     ColumnMap, ColumnUse, DepthUnit, FIELDS, FPP_PERCENT, Field, Mapping, NUMERIC, REQUIRED,
 };
-pub use load::{LoadOptions, Source, is_missing, parse_number};
+pub use load::{LoadOptions, Source, bounded_number, is_missing, parse_number};
 use pool::StrPool;
 use serde::Serialize;
 

@@ -676,3 +676,30 @@ U,U-3,24.7,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,PC\n";
         assert_eq!(live.verdict(c(s)), Verdict::Validated, "{s}");
     }
 }
+
+#[test]
+fn an_fpp_given_as_a_limit_is_read() {
+    // Invented: a validation table gives its probabilities as limits
+    // (`>0.99`, `<0.001`) or with errors (`0.97±0.01`). Before, such a
+    // cell was not a number: the row was skipped, what it said was lost,
+    // and its siblings were validated as a pair.
+    let rows = "\
+LA,LA-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,<0.001\n\
+LA,LA-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,<0.001\n\
+LA,LA-3,23.9,0.00001,102.5,0.001,640,4.7,26,0.3,1,1,5772,>0.99\n\
+LB,LB-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,0.002\n\
+LB,LB-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,0.002\n\
+LB,LB-3,24.7,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,0.97±0.01\n";
+    let cat = load_text(&catalogue("fpp", rows));
+    assert!(cat.skipped.is_empty(), "{:?}", cat.skipped);
+    let live = live_of(&cat);
+    for star in ["LA", "LB"] {
+        let c = |j: usize| id(&cat, &format!("{star}-{j}"));
+        assert!(live.flags(c(3)).contains(Flag::KnownFp), "{star}");
+        for j in 1..=2 {
+            assert_eq!(live.status(c(j)), Status::Held, "{star}-{j}");
+        }
+    }
+    // An upper limit is its bound: the prior of LA-1 is 0.001.
+    assert!((live.prior(id(&cat, "LA-1")) - 0.001).abs() < 1e-12);
+}

@@ -32,7 +32,7 @@ pub(super) use ids::IdIndex;
 use ids::*;
 use merge::*;
 use number::*;
-pub use number::{is_missing, parse_number};
+pub use number::{bounded_number, is_missing, parse_number};
 use records::*;
 use row::*;
 pub use spelling::star_key;

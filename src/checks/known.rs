@@ -235,7 +235,7 @@ fn skipped_row_says(
         let clean = || crate::sanitize::clean(v.trim()).into_owned();
         let h_clean = crate::sanitize::clean(h);
         if Some(h.as_str()) == fpp {
-            let p: f64 = v.trim().parse::<f64>().ok()? / fpp_scale;
+            let p: f64 = crate::catalogue::bounded_number(v.as_bytes())? / fpp_scale;
             (FPP_EVEN..=1.0)
                 .contains(&p)
                 .then(|| format!("fpp {}", clean()))
@@ -244,7 +244,7 @@ fn skipped_row_says(
         } else if crate::catalogue::names_an_fp_flag(h) {
             flag_is_set(v).then(|| format!("{h_clean} {}", clean()))
         } else if crate::catalogue::names_an_fp_probability(h) {
-            let p = v.trim().parse::<f64>().ok()?;
+            let p = crate::catalogue::bounded_number(v.as_bytes())?;
             let p = if p > 1.0 || header_says_percent(h) {
                 p / 100.0
             } else {
@@ -338,7 +338,7 @@ fn probability_columns(cat: &Catalogue, headers: &[&str]) -> Vec<(usize, f64)> {
         .map(|i| {
             let (mut above_one, mut above_hundred) = (false, false);
             for c in 0..cat.len() as CandidateId {
-                if let Ok(v) = cat.extra(i, c).trim().parse::<f64>() {
+                if let Some(v) = crate::catalogue::bounded_number(cat.extra(i, c).as_bytes()) {
                     above_one |= v > 1.0;
                     above_hundred |= v > 100.0;
                 }
@@ -414,7 +414,7 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
         }
         for &(i, scale) in &probabilities {
             let cell = cat.extra(i, c).trim();
-            let Ok(p) = cell.parse::<f64>() else {
+            let Some(p) = crate::catalogue::bounded_number(cell.as_bytes()) else {
                 continue;
             };
             if (FPP_EVEN..=1.0).contains(&(p / scale)) {

@@ -39,6 +39,30 @@ pub(super) fn parse_cell(raw: &[u8]) -> Cell {
     }
 }
 
+/// A probability written as a limit or with its error, as validation
+/// tables give them: `<0.001`, `>0.99`, `≤ 1e-3`, `~0.2`, `0.97±0.01`,
+/// `0.97 +/- 0.01`, `>= 99 %`: the number itself (a limit is read as its
+/// bound, which for an upper limit on a false-positive probability is the
+/// cautious side; a `%` divides by 100). `None` when what is left is not a
+/// number.
+pub fn bounded_number(raw: &[u8]) -> Option<f64> {
+    let s = std::str::from_utf8(raw.trim_ascii()).ok()?;
+    let s = ["<=", ">=", "<", ">", "≤", "≥", "~", "≈"]
+        .iter()
+        .find_map(|m| s.strip_prefix(m))
+        .unwrap_or(s)
+        .trim_start();
+    let s = ["±", "+/-", "+-"]
+        .iter()
+        .find_map(|m| s.split_once(m).map(|(v, _)| v))
+        .unwrap_or(s)
+        .trim_end();
+    match s.strip_suffix('%') {
+        Some(pct) => parse_number(pct.trim_end().as_bytes()).map(|v| v / 100.0),
+        None => parse_number(s.as_bytes()),
+    }
+}
+
 /// An angle written in sexagesimal, as archive tables often give positions:
 /// `07:29:25.85`, `-05 06 07.1`, `07h29m25.85s`, `-05d06m07.1s`; in hours
 /// of right ascension (× 15 to degrees) when `hours`, else in degrees. The

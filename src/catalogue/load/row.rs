@@ -495,10 +495,17 @@ impl Layout {
                 _ => None,
             };
             let angle = || in_hours.and_then(|hours| sexagesimal(raw, hours));
+            // An fpp may be a limit (`<0.001`, `>0.99`) or carry its error.
+            let bound = || {
+                (NUMERIC[slot] == Field::Fpp)
+                    .then(|| bounded_number(raw))
+                    .flatten()
+            };
             scratch[slot] = match parse_cell(raw) {
                 Cell::Value(v) => v,
                 Cell::Missing => f64::NAN,
                 Cell::Bad if let Some(v) = angle() => v,
+                Cell::Bad if let Some(v) = bound() => v,
                 Cell::Bad => {
                     return Err(self.skip(
                         line,

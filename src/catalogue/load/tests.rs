@@ -491,3 +491,23 @@ fn ids_that_number_each_stars_candidates_are_named_by_star() {
     assert_eq!((cat.len(), cat.skipped.len()), (30, 1));
     assert!(cat.notes.is_empty());
 }
+
+#[test]
+fn probabilities_as_limits_or_with_errors_are_their_numbers() {
+    for (cell, want) in [
+        ("<0.001", 0.001),
+        ("> 0.99", 0.99),
+        ("<=1e-3", 0.001),
+        ("≥0.5", 0.5),
+        ("~0.2", 0.2),
+        ("0.97±0.01", 0.97),
+        ("0.97 +/- 0.01", 0.97),
+        (">=99%", 0.99),
+        ("0.3", 0.3),
+    ] {
+        assert_eq!(bounded_number(cell.as_bytes()), Some(want), "{cell}");
+    }
+    for bad in ["high", "<", "FP", ""] {
+        assert_eq!(bounded_number(bad.as_bytes()), None, "{bad}");
+    }
+}
