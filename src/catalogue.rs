@@ -303,6 +303,14 @@ impl Catalogue {
             .find(h, |c| self.candidates.get(c as usize) == id)
     }
 
+    /// Whether `id` is a star's id exactly as the catalogue spells it.
+    pub fn has_star_id(&self, id: &str) -> bool {
+        let h = self.hasher.hash_one(id.as_bytes());
+        self.star_lookup
+            .find(h, |s| self.stars.get(s as usize) == id)
+            .is_some()
+    }
+
     pub fn find_star(&self, id: &str) -> Option<StarId> {
         let h = self.hasher.hash_one(id.as_bytes());
         self.star_lookup

@@ -141,6 +141,7 @@ impl Session {
         if ledger == LedgerUse::Read {
             args.ledger.check_exists()?;
         }
+        args.lc.check_folder()?;
         let loaded = args.input.load()?;
         Session::with_loaded(args, loaded, ledger)
     }

@@ -129,6 +129,7 @@ fn build_app_counting(
         lc,
         ..
     } = &args.vetting;
+    lc.check_folder()?;
     let loaded = match read {
         Some(r) => input.load_counting(r, (!args.no_ledger).then_some(ledger_args))?,
         None => input.load()?,

@@ -639,3 +639,36 @@ fn a_star_sized_eclipse_in_the_light_curve_is_big_radius_whatever_the_catalogue_
         assert_ne!(rows[c][1], "validated", "{rows:?}");
     }
 }
+
+#[test]
+fn a_light_curve_folder_that_gives_no_star_its_curve_is_said() {
+    // Invented: the folder's files are named otherwise than by the
+    // catalogue's star ids. Before, nothing was said: every verdict was
+    // made without light curves, as if none had been given. A folder that
+    // does not exist is an error before anything is read.
+    let d = scratch("lc-folder-unmatched");
+    let cat = catalogue(&d);
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    std::fs::write(lcs.join("target-LCA-lc.csv"), "time,flux\n1,1\n").unwrap();
+    let o = starsift(&[
+        "checks",
+        cat.to_str().unwrap(),
+        "--lightcurves",
+        lcs.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let e = stderr(&o);
+    assert!(
+        e.contains("no light curve in") && e.contains("target-LCA-lc.csv"),
+        "{e}"
+    );
+    let o = starsift(&[
+        "checks",
+        cat.to_str().unwrap(),
+        "--lightcurves",
+        d.join("no-such-folder").to_str().unwrap(),
+    ]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("no such folder"), "{}", stderr(&o));
+}

@@ -140,12 +140,56 @@ pub fn run_lightcurves_counted(
         }
     }
     checks.sort_findings();
+    let notice = match (offset_notice(&spans), folder_notice(cat, finder, total)) {
+        (Some(a), Some(b)) => Some(format!("{a}; {b}")),
+        (a, b) => a.or(b),
+    };
     LightcurveRun {
         stars: total,
         errors,
-        notice: offset_notice(&spans),
+        notice,
         totals,
     }
+}
+
+/// What `--lightcurves DIR` held that no star claimed: a folder whose files
+/// are named otherwise than by the catalogue's star ids gives the verdicts
+/// no light curve, and that must not pass unsaid. `stars`: the stars that
+/// had a light curve.
+fn folder_notice(
+    cat: &Catalogue,
+    finder: &crate::lightcurve::Finder,
+    stars: usize,
+) -> Option<String> {
+    let dir = finder.dir.as_deref()?;
+    let index = finder
+        .index
+        .get_or_init(|| crate::lightcurve::DirIndex::build(dir));
+    let unclaimed = index.unclaimed(&|name| cat.has_star_id(name));
+    let shown = crate::sanitize::clean(&dir.display().to_string()).into_owned();
+    let Some(first) = unclaimed.first() else {
+        return (stars == 0).then(|| {
+            format!(
+                "{shown} holds no light curve of a star of the catalogue (.csv, .tsv, .fits, each also .gz): the verdicts use no light curve"
+            )
+        });
+    };
+    let first = first.file_name()?.to_string_lossy().into_owned();
+    let first = crate::sanitize::clean(&first).into_owned();
+    let named = "a star's files are `<star>.<ext>`, `<star>_<part>.<ext>` or in `<star>/`";
+    let files = |n: usize| format!("{n} light-curve file{}", if n == 1 { "" } else { "s" });
+    Some(if stars == 0 {
+        format!(
+            "no light curve in {shown} is a star's of the catalogue ({named}; the folder holds {}, e.g. `{first}`): the verdicts use no light curve",
+            files(unclaimed.len())
+        )
+    } else {
+        format!(
+            "{} in {shown} belong{} to no star of the catalogue (e.g. `{first}`; {named}): not used",
+            files(unclaimed.len()),
+            if unclaimed.len() == 1 { "s" } else { "" },
+        )
+    })
 }
 
 /// The smallest radius the light curve's own depth allows, where it is

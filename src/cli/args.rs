@@ -461,6 +461,19 @@ pub struct LightcurveArgs {
 }
 
 impl LightcurveArgs {
+    /// A given `--lightcurves DIR` must be a folder (checked before any
+    /// data is read): a mistyped path would give every verdict without its
+    /// light curves.
+    pub fn check_folder(&self) -> Result<(), CliError> {
+        match self.lightcurves.as_deref().filter(|d| !d.is_empty()) {
+            Some(d) if !Path::new(d).is_dir() => Err(CliError::Input(format!(
+                "--lightcurves {}: no such folder",
+                crate::sanitize::clean(d)
+            ))),
+            _ => Ok(()),
+        }
+    }
+
     /// True unless `--no-lightcurves`: every light curve found is used.
     pub fn wanted(&self) -> bool {
         !self.no_lightcurves

@@ -66,6 +66,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             args.bins
         )));
     }
+    args.lc.check_folder()?;
     let loaded = args.input.load()?;
     let cat = &loaded.catalogue;
     let c = loaded.candidate(&args.candidate)?;

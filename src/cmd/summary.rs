@@ -31,6 +31,7 @@ const SKIPPED_SHOWN: usize = 20;
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     // Every cell is validated; only the values summary reports are kept
     // (all of them when light curves are to be read: they need the epochs).
+    args.lc.check_folder()?;
     let census = args.lc.lightcurves.is_some();
     let loaded = if census {
         args.input.load()?

@@ -64,6 +64,28 @@ impl DirIndex {
         DirIndex { by_name }
     }
 
+    /// The light-curve files of the folder that are no star's: neither
+    /// their stem nor any `_` prefix of it is a star id (`is_star`), in
+    /// name order.
+    pub fn unclaimed(&self, is_star: &dyn Fn(&str) -> bool) -> Vec<PathBuf> {
+        let mut files: Vec<&PathBuf> = self.by_name.values().flatten().collect();
+        files.sort();
+        files.dedup();
+        files
+            .into_iter()
+            .filter(|p| {
+                let name = p.file_name().and_then(|n| n.to_str()).unwrap_or("");
+                let stem = stem_of(name).unwrap_or(name);
+                !stem
+                    .match_indices('_')
+                    .map(|(i, _)| &stem[..i])
+                    .chain(std::iter::once(stem))
+                    .any(is_star)
+            })
+            .cloned()
+            .collect()
+    }
+
     /// The files of star `id`: `<id>.<ext>` and `<id>_<part>.<ext>`, except
     /// those whose name (or a longer `_` prefix of it) is another star's id.
     fn files(&self, id: &str, is_star: &dyn Fn(&str) -> bool) -> Vec<PathBuf> {
