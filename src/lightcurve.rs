@@ -17,7 +17,7 @@ pub use candidate::{
 };
 
 pub use fits::{ArchiveSegment, write_archive_segment, write_table as write_fits};
-pub use segments::{DirIndex, locate_all};
+pub use segments::{DirIndex, locate_all, star_number};
 pub use stop::stoppable;
 
 use std::io::Read;

@@ -672,3 +672,27 @@ fn a_light_curve_folder_that_gives_no_star_its_curve_is_said() {
     assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("no such folder"), "{}", stderr(&o));
 }
+
+#[test]
+fn archive_named_light_curves_are_found_by_the_stars_number() {
+    // Invented: star `KIC 42` (the binary's system of `hidden_binary`), its
+    // light curve named as an archive names them, the number zero-padded
+    // (`kplr000000042-…_llc.csv`). Before, no file was the star's and its
+    // binary was validated with its planets.
+    let d = scratch("lc-archive-names");
+    let (cat, curve) = hidden_binary(&d);
+    let text = std::fs::read_to_string(&cat)
+        .unwrap()
+        .replace("\nM,", "\nKIC 42,");
+    std::fs::write(&cat, text).unwrap();
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    let mut text = String::from("time,flux,flux_err\n");
+    for (t, v) in &curve {
+        text.push_str(&format!("{t:.6},{v:.7},0.0003\n"));
+    }
+    std::fs::write(lcs.join("kplr000000042-2009131105131_llc.csv"), text).unwrap();
+    let rows = odds_rows(&cat, &lcs);
+    assert!(rows["M-3"][0].contains("odd-even"), "{rows:?}");
+    assert_ne!(rows["M-3"][1], "validated", "{rows:?}");
+}

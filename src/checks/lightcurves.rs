@@ -165,7 +165,10 @@ fn folder_notice(
     let index = finder
         .index
         .get_or_init(|| crate::lightcurve::DirIndex::build(dir));
-    let unclaimed = index.unclaimed(&|name| cat.has_star_id(name));
+    let numbers: std::collections::HashSet<&str> = (0..cat.star_count() as u32)
+        .filter_map(|s| crate::lightcurve::star_number(cat.star_id(s)))
+        .collect();
+    let unclaimed = index.unclaimed(&|name| cat.has_star_id(name), &|n| numbers.contains(n));
     let shown = crate::sanitize::clean(&dir.display().to_string()).into_owned();
     let Some(first) = unclaimed.first() else {
         return (stars == 0).then(|| {
@@ -176,7 +179,7 @@ fn folder_notice(
     };
     let first = first.file_name()?.to_string_lossy().into_owned();
     let first = crate::sanitize::clean(&first).into_owned();
-    let named = "a star's files are `<star>.<ext>`, `<star>_<part>.<ext>` or in `<star>/`";
+    let named = "a star's files are `<star>.<ext>`, `<star>_<part>.<ext>`, in `<star>/`, or hold its number zero-padded to 9 digits or more";
     let files = |n: usize| format!("{n} light-curve file{}", if n == 1 { "" } else { "s" });
     Some(if stars == 0 {
         format!(

@@ -35,11 +35,42 @@ fn stem_of(name: &str) -> Option<&str> {
 #[derive(Debug, Default)]
 pub struct DirIndex {
     by_name: HashMap<String, Vec<PathBuf>>,
+    /// The files by the zero-padded numbers in their names (see
+    /// [`file_numbers`]), as the archives name light curves by the star's
+    /// catalogue number.
+    by_number: HashMap<String, Vec<PathBuf>>,
+}
+
+/// The fewest digits of a zero-padded catalogue number in a file name: the
+/// archives pad the star's number to 9 digits or more
+/// (`kplr005706966-…_llc.fits`, `ktwo201367065-c01_llc.fits`,
+/// `tess…-0000000025155310-…_lc.fits`; from memory of the archives'
+/// naming).
+const PADDED_DIGITS: usize = 9;
+
+/// The numbers a file's stem carries as runs of [`PADDED_DIGITS`] digits or
+/// more, each without its leading zeros.
+fn file_numbers(stem: &str) -> impl Iterator<Item = &str> {
+    stem.split(|c: char| !c.is_ascii_digit())
+        .filter(|run| run.len() >= PADDED_DIGITS)
+        .map(|run| run.trim_start_matches('0'))
+        .filter(|n| !n.is_empty())
+}
+
+/// The catalogue number that ends a star id (`KIC 5706966` → `5706966`,
+/// `25155310` → itself), without leading zeros; `None` when the id does not
+/// end in one.
+pub fn star_number(id: &str) -> Option<&str> {
+    let id = id.trim_end();
+    let digits = id.bytes().rev().take_while(u8::is_ascii_digit).count();
+    let n = id[id.len() - digits..].trim_start_matches('0');
+    (!n.is_empty()).then_some(n)
 }
 
 impl DirIndex {
     pub fn build(dir: &Path) -> DirIndex {
         let mut by_name: HashMap<String, Vec<PathBuf>> = HashMap::new();
+        let mut by_number: HashMap<String, Vec<PathBuf>> = HashMap::new();
         let Ok(entries) = std::fs::read_dir(dir) else {
             return DirIndex::default();
         };
@@ -57,17 +88,31 @@ impl DirIndex {
                     .push(e.path());
             }
             by_name.entry(stem.to_string()).or_default().push(e.path());
+            for n in file_numbers(stem) {
+                by_number.entry(n.to_string()).or_default().push(e.path());
+            }
         }
-        for v in by_name.values_mut() {
+        for v in by_name.values_mut().chain(by_number.values_mut()) {
             v.sort();
+            v.dedup();
         }
-        DirIndex { by_name }
+        DirIndex { by_name, by_number }
+    }
+
+    /// The files whose names carry the number `n` zero-padded, as the
+    /// archives name a star's light curves.
+    pub fn numbered(&self, n: &str) -> &[PathBuf] {
+        self.by_number.get(n).map_or(&[], Vec::as_slice)
     }
 
     /// The light-curve files of the folder that are no star's: neither
-    /// their stem nor any `_` prefix of it is a star id (`is_star`), in
-    /// name order.
-    pub fn unclaimed(&self, is_star: &dyn Fn(&str) -> bool) -> Vec<PathBuf> {
+    /// their stem nor any `_` prefix of it is a star id (`is_star`), and no
+    /// number in their name a star's (`is_number`), in name order.
+    pub fn unclaimed(
+        &self,
+        is_star: &dyn Fn(&str) -> bool,
+        is_number: &dyn Fn(&str) -> bool,
+    ) -> Vec<PathBuf> {
         let mut files: Vec<&PathBuf> = self.by_name.values().flatten().collect();
         files.sort();
         files.dedup();
@@ -76,11 +121,12 @@ impl DirIndex {
             .filter(|p| {
                 let name = p.file_name().and_then(|n| n.to_str()).unwrap_or("");
                 let stem = stem_of(name).unwrap_or(name);
-                !stem
+                let named = stem
                     .match_indices('_')
                     .map(|(i, _)| &stem[..i])
                     .chain(std::iter::once(stem))
-                    .any(is_star)
+                    .any(is_star);
+                !named && !file_numbers(stem).any(is_number)
             })
             .cloned()
             .collect()
@@ -160,11 +206,17 @@ pub fn locate_all(
         if sub.is_dir() {
             found.extend(folder_files(&sub));
         }
+        // Else the archives' names: the star's number, zero-padded.
+        if found.is_empty() {
+            if let Some(n) = star_number(star) {
+                found.extend(index.numbered(n).iter().cloned());
+            }
+        }
         if !found.is_empty() {
             return Ok(found);
         }
         tried.push(format!(
-            "{0}/{star}.<ext>, {0}/{star}_<part>.<ext>, {0}/{star}/ (ext: {1})",
+            "{0}/{star}.<ext>, {0}/{star}_<part>.<ext>, {0}/{star}/, names holding the star's number zero-padded to 9 digits or more (ext: {1})",
             d.display(),
             EXTENSIONS.join(" ")
         ));
@@ -488,6 +540,26 @@ mod tests {
         .unwrap();
         assert_eq!(lc.breaks, vec![0]);
         assert!(lc.time.windows(2).all(|w| w[0] <= w[1]));
+    }
+
+    #[test]
+    fn archive_names_give_a_star_its_files_by_number() {
+        // Invented numbers, in the archives' naming (from memory).
+        for (stem, n) in [
+            ("kplr005706966-2009131105131_llc", "5706966"),
+            (
+                "tess2018206045859-s0001-0000000025155310-0120-s_lc",
+                "25155310",
+            ),
+            ("ktwo201367065-c01_llc", "201367065"),
+        ] {
+            assert!(file_numbers(stem).any(|x| x == n), "{stem}");
+        }
+        assert_eq!(star_number("KIC 5706966"), Some("5706966"));
+        assert_eq!(star_number("TIC 0025155310"), Some("25155310"));
+        assert_eq!(star_number("SYN-A"), None);
+        // A short run (a sector, a camera) is no star's number.
+        assert_eq!(file_numbers("s0001-0120").count(), 0);
     }
 
     #[test]
