@@ -414,7 +414,8 @@ pub fn names_an_fp_flag(header: &str) -> bool {
 
 /// Whether a header names a disposition column: one of the field's
 /// synonyms, or, in lower case with spaces and `-` as `_`, a name holding
-/// `disposition` or ending in `_disp`.
+/// `disposition` or `classification`, ending in `_disp`, or with the word
+/// `vetting` (`vetting_status`): a survey's own verdict column.
 pub fn names_a_disposition(header: &str) -> bool {
     if Field::from_header(header) == Some(Field::Disposition) {
         return true;
@@ -425,5 +426,8 @@ pub fn names_a_disposition(header: &str) -> bool {
         .chars()
         .map(|c| if c == ' ' || c == '-' { '_' } else { c })
         .collect();
-    h.contains("disposition") || h.ends_with("_disp")
+    h.contains("disposition")
+        || h.ends_with("_disp")
+        || h.contains("classification")
+        || h.split('_').any(|w| w == "vetting")
 }

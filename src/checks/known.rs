@@ -493,6 +493,32 @@ mod tests {
     }
 
     #[test]
+    fn disposition_columns_by_header() {
+        use crate::catalogue::names_a_disposition as named;
+        for h in [
+            "disposition",
+            "koi_pdisposition",
+            "TFOPWG Disposition",
+            "tfopwg_disp",
+            "classification",
+            "Vetting Status",
+            "vetting",
+        ] {
+            assert!(named(h), "{h}");
+        }
+        for h in [
+            "class",
+            "lum_class",
+            "status",
+            "comments",
+            "pet",
+            "dispersion",
+        ] {
+            assert!(!named(h), "{h}");
+        }
+    }
+
+    #[test]
     fn false_positive_probability_columns() {
         use crate::catalogue::names_an_fp_probability as named;
         for h in [

@@ -11,9 +11,9 @@ use super::merge::Merger;
 use crate::catalogue::pool::StrPool;
 
 /// A star id in one spelling (docs/science.md §3.4): ASCII lower case;
-/// spaces, `_` and `-` (but a leading sign) left out; a whole number written as a float
-/// (`100.0`) as the number; and the leading zeros of the number that ends
-/// the id left out (`KIC 005706966` → `kic5706966`). Ids that differ only
+/// spaces, `_` and `-` (but a leading sign) left out; a whole number
+/// written as a float (`100.0`) as the number; and the leading zeros of
+/// the number that ends the id left out (`KIC 005706966` → `kic5706966`). Ids that differ only
 /// so are one star in every catalogue convention we know of (common
 /// practice, no source).
 pub fn star_key(id: &str, out: &mut Vec<u8>) {
@@ -214,7 +214,7 @@ impl Merger {
         }
         self.row_stars = pool;
         Some(format!(
-            "star ids written more than one way were read as one star ({count} spelling{} joined: {}{}); a spelling is the same star when the ids differ only in case, spaces, `-` or `_`, leading zeros, a float's `.0`, or a missing catalogue prefix",
+            "star ids written more than one way were read as one star ({count} spelling{} joined: {}{}); a spelling is the same star when the ids differ only in case, spaces, `-` or `_`, leading zeros, a float's `.0`, or a missing catalogue prefix (before 4 digits or more)",
             if count == 1 { "" } else { "s" },
             examples.join(", "),
             if count > 3 { ", …" } else { "" }
