@@ -703,3 +703,33 @@ LB,LB-3,24.7,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,0.97±0.01\n";
     // An upper limit is its bound: the prior of LA-1 is 0.001.
     assert!((live.prior(id(&cat, "LA-1")) - 0.001).abs() < 1e-12);
 }
+
+#[test]
+fn a_false_positive_in_a_row_whose_fields_do_not_line_up_still_holds_its_star() {
+    // Invented: an export whose comment column holds an unquoted comma on
+    // the binary's row, so that row has one field too many and is skipped.
+    // Which cell is which cannot be known; its text cells are read as a
+    // disposition would be. Before, its `FALSE POSITIVE` was lost with the
+    // row, and MA-1 and MA-2 were validated as a pair.
+    let rows = "\
+MA,MA-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,PC,fine\n\
+MA,MA-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,PC,fine\n\
+MA,MA-3,23.9,0.00001,102.5,0.001,640,4.7,26,0.3,1,1,5772,FALSE POSITIVE,secondary, odd-even\n\
+OK,OK-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,PC,fine\n\
+OK,OK-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,PC,see notes, page 2\n";
+    let cat = load_text(&catalogue("disposition,comment", rows));
+    assert_eq!(cat.skipped.len(), 2, "{:?}", cat.skipped);
+    let file = written("misaligned", &catalogue("disposition,comment", rows));
+    let v = agreed(file.to_str().unwrap());
+    for s in ["MA-1", "MA-2"] {
+        assert_ne!(v[s], "validated", "{s}: {v:?}");
+    }
+    // A misaligned row that names no false positive (OK-2's) holds
+    // nothing: only star MA is said to host one.
+    let o = starsift(&["odds", file.to_str().unwrap(), "--format", "csv"]);
+    let e = stderr(&o);
+    assert!(
+        e.contains("1 star hosts a false positive only a skipped row names (star MA:"),
+        "{e}"
+    );
+}

@@ -137,6 +137,10 @@ impl Layout {
         }
     }
 
+    /// The header a misaligned skipped row's text cells are kept under: read
+    /// as a disposition by the checks (the header names one).
+    pub const MISALIGNED_CELL: &str = "disposition (a cell of a row whose fields do not line up)";
+
     /// Parses one chunk, into the memory of an absorbed part when one is
     /// given back (fresh memory costs a page fault every 4 KB).
     pub(super) fn parse(
@@ -402,29 +406,45 @@ impl Layout {
     }
 
     /// What a skipped row said of its star in the columns of earlier
-    /// verdicts (`Skip::row`), if it said anything: read only from a row
-    /// whose cells line up with the header.
+    /// verdicts (`Skip::row`), if it said anything. A row whose cells do not
+    /// line up with the header (an unquoted comma in a comment, say) cannot
+    /// say which cell is which: where the table has a disposition column,
+    /// every text cell of it but the ids is offered as one
+    /// ([`Self::MISALIGNED_CELL`]), so that a false positive's word is not lost
+    /// with its row (docs/science.md §3.5).
     fn skipped_row(&self, rec: &impl Record) -> Option<Box<SkippedRow>> {
-        if self.evidence_cols.is_empty() || rec.len() != self.header.len() {
+        if self.evidence_cols.is_empty() || self.star_col >= rec.len() {
             return None;
         }
         let star = std::str::from_utf8(rec.field(self.star_col).trim_ascii()).ok()?;
         if star.is_empty() {
             return None;
         }
-        let cells: Vec<(String, String)> = self
+        let text = |v: &[u8]| String::from_utf8_lossy(v).into_owned();
+        let cells: Vec<(String, String)> = if rec.len() == self.header.len() {
+            self.evidence_cols
+                .iter()
+                .filter_map(|&c| {
+                    let v = rec.field(c).trim_ascii();
+                    (!v.is_empty() && !is_missing(v)).then(|| (self.header[c].clone(), text(v)))
+                })
+                .collect()
+        } else if self
             .evidence_cols
             .iter()
-            .filter_map(|&c| {
-                let v = rec.field(c).trim_ascii();
-                (!v.is_empty() && !is_missing(v)).then(|| {
-                    (
-                        self.header[c].clone(),
-                        String::from_utf8_lossy(v).into_owned(),
-                    )
+            .any(|&c| crate::catalogue::names_a_disposition(&self.header[c]))
+        {
+            (0..rec.len())
+                .filter(|&i| i != self.star_col && i != self.cand_col)
+                .filter_map(|i| {
+                    let v = rec.field(i).trim_ascii();
+                    (!v.is_empty() && !is_missing(v) && parse_number(v).is_none())
+                        .then(|| (Self::MISALIGNED_CELL.to_string(), text(v)))
                 })
-            })
-            .collect();
+                .collect()
+        } else {
+            Vec::new()
+        };
         (!cells.is_empty()).then(|| {
             Box::new(SkippedRow {
                 star: star.to_string(),
