@@ -13,6 +13,7 @@ use crate::cmd;
 
 pub mod args;
 pub mod error;
+mod lightcurve_args;
 
 pub use args::*;
 pub use error::CliError;
