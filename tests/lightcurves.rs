@@ -486,6 +486,16 @@ fn hidden_binary(d: &std::path::Path) -> (std::path::PathBuf, Vec<(f64, f64)>) {
     (cat, curve)
 }
 
+/// Writes a light curve of (time, flux) samples as CSV with a flux error of
+/// 3 × 10⁻⁴ (invented).
+fn write_flux(path: &std::path::Path, curve: &[(f64, f64)]) {
+    let mut text = String::from("time,flux,flux_err\n");
+    for (t, v) in curve {
+        text.push_str(&format!("{t:.6},{v:.7},0.0003\n"));
+    }
+    std::fs::write(path, text).unwrap();
+}
+
 /// `odds --format csv` of a catalogue with light curves in `lcs`: each
 /// candidate's (flags, verdict, counted, k).
 fn odds_rows(
@@ -524,11 +534,7 @@ fn a_binary_hidden_in_a_multi_is_held_back_and_not_counted() {
     let (cat, curve) = hidden_binary(&d);
     let lcs = d.join("lcs");
     std::fs::create_dir_all(&lcs).unwrap();
-    let mut text = String::from("time,flux,flux_err\n");
-    for (t, v) in &curve {
-        text.push_str(&format!("{t:.6},{v:.7},0.0003\n"));
-    }
-    std::fs::write(lcs.join("M.csv"), text).unwrap();
+    write_flux(&lcs.join("M.csv"), &curve);
     let rows = odds_rows(&cat, &lcs);
     let [flags, verdict, counted, _] = &rows["M-3"];
     assert!(flags.contains("odd-even"), "{rows:?}");
@@ -620,19 +626,20 @@ fn a_star_sized_eclipse_in_the_light_curve_is_big_radius_whatever_the_catalogue_
         (7.4, 1002.9, 100_000.0, 3.4),
         (17.9, 1004.4, 1000.0, 4.5),
     ];
-    let mut text = String::from("time,flux,flux_err\n");
-    for i in 0..30_000 {
-        let t = 1000.0 + i as f64 * 2.0 / 1440.0;
-        let mut v = 1.0 + 3e-4 * rng.normal();
-        for &(p, e, depth, dur) in &signals {
-            let x: f64 = (t - e) / p;
-            if ((x - x.round()) * p * 24.0).abs() < dur / 2.0 {
-                v -= depth * 1e-6;
+    let curve: Vec<(f64, f64)> = (0..30_000)
+        .map(|i| {
+            let t = 1000.0 + i as f64 * 2.0 / 1440.0;
+            let mut v = 1.0 + 3e-4 * rng.normal();
+            for &(p, e, depth, dur) in &signals {
+                let x: f64 = (t - e) / p;
+                if ((x - x.round()) * p * 24.0).abs() < dur / 2.0 {
+                    v -= depth * 1e-6;
+                }
             }
-        }
-        text.push_str(&format!("{t:.6},{v:.7},0.0003\n"));
-    }
-    std::fs::write(lcs.join("S.csv"), text).unwrap();
+            (t, v)
+        })
+        .collect();
+    write_flux(&lcs.join("S.csv"), &curve);
     let rows = odds_rows(&cat, &lcs);
     assert!(rows["S-2"][0].contains("big-radius"), "{rows:?}");
     for c in ["S-1", "S-2", "S-3"] {
@@ -687,11 +694,7 @@ fn archive_named_light_curves_are_found_by_the_stars_number() {
     std::fs::write(&cat, text).unwrap();
     let lcs = d.join("lcs");
     std::fs::create_dir_all(&lcs).unwrap();
-    let mut text = String::from("time,flux,flux_err\n");
-    for (t, v) in &curve {
-        text.push_str(&format!("{t:.6},{v:.7},0.0003\n"));
-    }
-    std::fs::write(lcs.join("kplr000000042-2009131105131_llc.csv"), text).unwrap();
+    write_flux(&lcs.join("kplr000000042-2009131105131_llc.csv"), &curve);
     let rows = odds_rows(&cat, &lcs);
     assert!(rows["M-3"][0].contains("odd-even"), "{rows:?}");
     assert_ne!(rows["M-3"][1], "validated", "{rows:?}");

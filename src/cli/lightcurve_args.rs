@@ -146,4 +146,3 @@ fn parse_bits(text: &str) -> Result<u64, String> {
     };
     parsed.map_err(|_| format!("`{text}` is not a bit mask (a whole number, or 0x... hex)"))
 }
-
