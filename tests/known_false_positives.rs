@@ -593,6 +593,19 @@ NF,NF-3,24.7,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,0.01,0.8,0.9\n";
             assert_ne!(live.verdict(c(j)), Verdict::Validated, "{star}-{j}");
         }
     }
+    // `summary` says which columns are read so, and as what.
+    let file = written(
+        "fpp_other_names",
+        &catalogue("fpp_vespa,nfpp,fpp_err", rows),
+    );
+    let o = starsift(&["summary", file.to_str().unwrap()]);
+    let out = stdout(&o);
+    assert!(
+        out.contains(
+            "read for earlier verdicts: fpp_vespa (false-positive probability), nfpp (false-positive probability)"
+        ),
+        "{out}"
+    );
     // Below one half everywhere, and an error column of 0.9: validated.
     let calm = rows.replace(",0.97,", ",0.03,").replace(",0.8,", ",0.001,");
     let cat = load_text(&catalogue("fpp_vespa,nfpp,fpp_err", &calm));

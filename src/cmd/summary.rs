@@ -121,6 +121,16 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             if !extras.is_empty() {
                 writeln!(out, "  kept as extra columns: {}", extras.join(", "))?;
             }
+            let verdicts = verdict_columns(cat);
+            if !verdicts.is_empty() {
+                let said: Vec<String> =
+                    verdicts.iter().map(|(h, w)| format!("{h} ({w})")).collect();
+                writeln!(
+                    out,
+                    "  read for earlier verdicts: {} (docs/science.md §3.5)",
+                    said.join(", ")
+                )?;
+            }
             if !cat.skipped.is_empty() {
                 writeln!(out)?;
                 writeln!(
@@ -209,12 +219,42 @@ pub fn to_json(cat: &Catalogue) -> Value {
         "columns": columns,
         "extra_columns": extras,
     });
+    // The columns read for earlier verdicts, where there are some.
+    let verdicts = verdict_columns(cat);
+    if !verdicts.is_empty() {
+        v["verdict_columns"] = verdicts
+            .iter()
+            .map(|(h, w)| json!({"header": h, "read_as": w}))
+            .collect();
+    }
     // The loader's notes, where it has some (the key is absent otherwise,
     // as before there were any).
     if !cat.notes.is_empty() {
         v["notes"] = cat.notes.iter().map(|n| clean(n).into_owned()).collect();
     }
     v
+}
+
+/// The extra columns the checks read for earlier verdicts, each with what
+/// it is read as: a disposition, a false-positive flag, or a false-positive
+/// probability beside the mapped `fpp` (docs/science.md §3.5).
+fn verdict_columns(cat: &Catalogue) -> Vec<(String, &'static str)> {
+    let dispositions = cat.disposition_columns();
+    cat.extra_headers()
+        .enumerate()
+        .filter_map(|(i, h)| {
+            let what = if dispositions.contains(&i) {
+                "disposition"
+            } else if crate::catalogue::names_an_fp_flag(h) {
+                "false-positive flag"
+            } else if crate::catalogue::names_an_fp_probability(h) {
+                "false-positive probability"
+            } else {
+                return None;
+            };
+            Some((clean(h).into_owned(), what))
+        })
+        .collect()
 }
 
 /// What the light curves of a catalogue hold, read without diagnostics.
