@@ -412,6 +412,13 @@ pub fn names_an_fp_flag(header: &str) -> bool {
     h.contains("fpflag") || h.contains("fp_flag")
 }
 
+/// Whether a false-positive flag column is the "not transit-like" one
+/// (`koi_fpflag_nt`, from memory of the archive's columns): it names no
+/// false positive of the star, only a signal that is no transit.
+pub fn names_a_not_transit_flag(header: &str) -> bool {
+    names_an_fp_flag(header) && header.to_ascii_lowercase().contains("flag_nt")
+}
+
 /// Whether a header names a disposition column: one of the field's
 /// synonyms, or, in lower case with spaces and `-` as `_`, a name holding
 /// `disposition` or `classification`, ending in `_disp`, or with the word

@@ -393,9 +393,8 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
         for &i in &flag_columns {
             let cell = cat.extra(i, c);
             if flag_is_set(cell) {
-                // The "not transit-like" flag (`koi_fpflag_nt`, from memory
-                // of the archive's columns) names no false positive of the star.
-                let not_transit = headers[i].to_ascii_lowercase().contains("flag_nt");
+                // The "not transit-like" flag names no false positive of the star.
+                let not_transit = crate::catalogue::names_a_not_transit_flag(headers[i]);
                 out.add(
                     c,
                     if not_transit {

@@ -246,7 +246,11 @@ fn verdict_columns(cat: &Catalogue) -> Vec<(String, &'static str)> {
             let what = if dispositions.contains(&i) {
                 "disposition"
             } else if crate::catalogue::names_an_fp_flag(h) {
-                "false-positive flag"
+                if crate::catalogue::names_a_not_transit_flag(h) {
+                    "not-transit-like flag"
+                } else {
+                    "false-positive flag"
+                }
             } else if crate::catalogue::names_an_fp_probability(h) {
                 "false-positive probability"
             } else {
