@@ -267,115 +267,7 @@ pub(super) fn check(
     let m: &[Member] = m;
     deltas.clear();
 
-    // Every pair: one signal twice (same period, transits together), an
-    // alias (period ratio n or 1/n, transits together) or an eclipse pair
-    // (same period, transits apart: two planets cannot share an orbit —
-    // zero Hill separation). Each is a link of a signal group.
-    //
-    // Bounded for any input: each candidate meets at most PAIR_WINDOW
-    // partners, only those within the largest harmonic of its period, and a
-    // link is kept only between candidates not already joined (a spanning
-    // forest of each group), so thousands of copies of one signal on one
-    // star cost linear memory.
-    let mut joined = Joined::new(m.len());
-    let widest = (s.harmonic_max as f64) * (1.0 + 10.0 * s.period_rel_tol).max(1.01);
-    for (i, ma) in m.iter().enumerate() {
-        let a = ma.c;
-        let partners = m[i + 1..]
-            .iter()
-            .enumerate()
-            .take_while(|&(_, mb)| mb.period <= widest * ma.period)
-            .take(PAIR_WINDOW);
-        for (j, mb) in partners {
-            let b = mb.c;
-            let j = i + 1 + j;
-            if joined.same(i, j) {
-                continue;
-            }
-            let before = links.len();
-            let (pa, pb) = (ma.period, mb.period);
-            let r = pb / pa;
-            let sigma = ratio_sigma(r, pa, given(ma.period_err), pb, given(mb.period_err));
-            let tol = |n: f64| (3.0 * sigma.unwrap_or(0.0)).max(s.period_rel_tol * n);
-            let t14_d = given(ma.duration_h)
-                .unwrap_or(0.0)
-                .max(given(mb.duration_h).unwrap_or(0.0))
-                / 24.0;
-            if (r - 1.0).abs() <= tol(1.0) {
-                let t = together(ma, mb, 1.0, t14_d);
-                if t.yes {
-                    links.push(Link {
-                        a,
-                        b,
-                        flag: Flag::NearTwin,
-                        detail: format!(
-                            "period ratio {r:.6} (within {:.1e} of 1) and {}: one signal found twice",
-                            tol(1.0),
-                            t.apart_words()
-                        ),
-                    });
-                } else {
-                    let phase = (t.off_d.unwrap_or(0.0) / pa).rem_euclid(1.0);
-                    links.push(Link {
-                        a,
-                        b,
-                        flag: Flag::HalfPhase,
-                        detail: format!(
-                            "same period (ratio {r:.6}) with transits at phase {phase:.3} of each other: two eclipses of one binary (two planets cannot share an orbit)"
-                        ),
-                    });
-                }
-                joined.join(i, j);
-                continue;
-            }
-            for n in 2..=s.harmonic_max {
-                let nf = n as f64;
-                if (r - nf).abs() > tol(nf) {
-                    continue;
-                }
-                let t = together(ma, mb, nf, t14_d);
-                if t.yes {
-                    links.push(Link {
-                        a,
-                        b,
-                        flag: Flag::Harmonic,
-                        detail: format!(
-                            "period ratio {r:.6} ≈ {n} and every transit of the longer falls on one of the shorter ({}): one signal at two periods",
-                            t.offset_words()
-                        ),
-                    });
-                    continue;
-                }
-                // The longer's transits halfway between the shorter's: a
-                // circular binary's other eclipse, found at n times its
-                // period (docs/science.md §3.1). One binary's two eclipses
-                // give periods n:1 within their errors, so where errors are
-                // given they alone bound the ratio.
-                if sigma.is_some_and(|sg| (r - nf).abs() > 3.0 * sg) {
-                    continue;
-                }
-                let halfway = Member {
-                    epoch: mb.epoch + 0.5 * pa,
-                    ..*mb
-                };
-                let t = together(ma, &halfway, nf, t14_d);
-                if t.yes && t.off_d.is_some() {
-                    links.push(Link {
-                        a,
-                        b,
-                        flag: Flag::HalfPhase,
-                        detail: format!(
-                            "period ratio {r:.6} ≈ {n} and every transit of the longer falls halfway between two of the shorter ({}): the two eclipses of one binary, one found at {n} times the period (planets cannot share an orbit)",
-                            t.offset_words().replacen("offset", "offset from phase 0.5", 1)
-                        ),
-                    });
-                }
-            }
-            if links.len() > before {
-                joined.join(i, j);
-            }
-        }
-    }
+    let mut joined = link_pairs(m, s, links);
     if !one_place(cat, members, s, out) {
         one_star_values(cat, members, out);
     }
@@ -521,6 +413,121 @@ pub(super) fn check(
             }
         }
     }
+}
+
+/// The links of one star's members (`m`, in period order): every pair that
+/// is one signal twice (same period, transits together), an alias (period
+/// ratio n or 1/n, transits together) or an eclipse pair (same period,
+/// transits apart, or the longer's transits halfway between the shorter's:
+/// two planets cannot share an orbit — zero Hill separation). Each is a
+/// link of a signal group; the returned union-find says which members the
+/// links joined.
+fn link_pairs(m: &[Member], s: &CheckSettings, links: &mut Vec<Link>) -> Joined {
+    // Bounded for any input: each candidate meets at most PAIR_WINDOW
+    // partners, only those within the largest harmonic of its period, and a
+    // link is kept only between candidates not already joined (a spanning
+    // forest of each group), so thousands of copies of one signal on one
+    // star cost linear memory.
+    let mut joined = Joined::new(m.len());
+    let widest = (s.harmonic_max as f64) * (1.0 + 10.0 * s.period_rel_tol).max(1.01);
+    for (i, ma) in m.iter().enumerate() {
+        let a = ma.c;
+        let partners = m[i + 1..]
+            .iter()
+            .enumerate()
+            .take_while(|&(_, mb)| mb.period <= widest * ma.period)
+            .take(PAIR_WINDOW);
+        for (j, mb) in partners {
+            let b = mb.c;
+            let j = i + 1 + j;
+            if joined.same(i, j) {
+                continue;
+            }
+            let before = links.len();
+            let (pa, pb) = (ma.period, mb.period);
+            let r = pb / pa;
+            let sigma = ratio_sigma(r, pa, given(ma.period_err), pb, given(mb.period_err));
+            let tol = |n: f64| (3.0 * sigma.unwrap_or(0.0)).max(s.period_rel_tol * n);
+            let t14_d = given(ma.duration_h)
+                .unwrap_or(0.0)
+                .max(given(mb.duration_h).unwrap_or(0.0))
+                / 24.0;
+            if (r - 1.0).abs() <= tol(1.0) {
+                let t = together(ma, mb, 1.0, t14_d);
+                if t.yes {
+                    links.push(Link {
+                        a,
+                        b,
+                        flag: Flag::NearTwin,
+                        detail: format!(
+                            "period ratio {r:.6} (within {:.1e} of 1) and {}: one signal found twice",
+                            tol(1.0),
+                            t.apart_words()
+                        ),
+                    });
+                } else {
+                    let phase = (t.off_d.unwrap_or(0.0) / pa).rem_euclid(1.0);
+                    links.push(Link {
+                        a,
+                        b,
+                        flag: Flag::HalfPhase,
+                        detail: format!(
+                            "same period (ratio {r:.6}) with transits at phase {phase:.3} of each other: two eclipses of one binary (two planets cannot share an orbit)"
+                        ),
+                    });
+                }
+                joined.join(i, j);
+                continue;
+            }
+            for n in 2..=s.harmonic_max {
+                let nf = n as f64;
+                if (r - nf).abs() > tol(nf) {
+                    continue;
+                }
+                let t = together(ma, mb, nf, t14_d);
+                if t.yes {
+                    links.push(Link {
+                        a,
+                        b,
+                        flag: Flag::Harmonic,
+                        detail: format!(
+                            "period ratio {r:.6} ≈ {n} and every transit of the longer falls on one of the shorter ({}): one signal at two periods",
+                            t.offset_words()
+                        ),
+                    });
+                    continue;
+                }
+                // The longer's transits halfway between the shorter's: a
+                // circular binary's other eclipse, found at n times its
+                // period (docs/science.md §3.1). One binary's two eclipses
+                // give periods n:1 within their errors, so where errors are
+                // given they alone bound the ratio.
+                if sigma.is_some_and(|sg| (r - nf).abs() > 3.0 * sg) {
+                    continue;
+                }
+                let halfway = Member {
+                    epoch: mb.epoch + 0.5 * pa,
+                    ..*mb
+                };
+                let t = together(ma, &halfway, nf, t14_d);
+                if t.yes && t.off_d.is_some() {
+                    links.push(Link {
+                        a,
+                        b,
+                        flag: Flag::HalfPhase,
+                        detail: format!(
+                            "period ratio {r:.6} ≈ {n} and every transit of the longer falls halfway between two of the shorter ({}): the two eclipses of one binary, one found at {n} times the period (planets cannot share an orbit)",
+                            t.offset_words().replacen("offset", "offset from phase 0.5", 1)
+                        ),
+                    });
+                }
+            }
+            if links.len() > before {
+                joined.join(i, j);
+            }
+        }
+    }
+    joined
 }
 
 /// One star, one place (docs/science.md §3.4). The rows of a star give its
