@@ -165,10 +165,18 @@ fn folder_notice(
     let index = finder
         .index
         .get_or_init(|| crate::lightcurve::DirIndex::build(dir));
-    let numbers: std::collections::HashSet<&str> = (0..cat.star_count() as u32)
-        .filter_map(|s| crate::lightcurve::star_number(cat.star_id(s)))
-        .collect();
-    let unclaimed = index.unclaimed(&|name| cat.has_star_id(name), &|n| numbers.contains(n));
+    // The stars' numbers, gathered only if some file is no star's by name.
+    let numbers: std::cell::OnceCell<std::collections::HashSet<&str>> = Default::default();
+    let is_number = |n: &str| {
+        numbers
+            .get_or_init(|| {
+                (0..cat.star_count() as u32)
+                    .filter_map(|s| crate::lightcurve::star_number(cat.star_id(s)))
+                    .collect()
+            })
+            .contains(n)
+    };
+    let unclaimed = index.unclaimed(&|name| cat.has_star_id(name), &is_number);
     let shown = crate::sanitize::clean(&dir.display().to_string()).into_owned();
     let Some(first) = unclaimed.first() else {
         return (stars == 0).then(|| {

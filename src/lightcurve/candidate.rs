@@ -46,7 +46,8 @@ impl Finder {
             .dir
             .as_deref()
             .map(|d| (d, self.index.get_or_init(|| DirIndex::build(d))));
-        let is_star = |id: &str| cat.find_star(id).is_some();
+        // As written: a file name is a star's id exactly, or not at all.
+        let is_star = |id: &str| cat.has_star_id(id);
         locate_all(
             cat.star_id(star),
             named,
