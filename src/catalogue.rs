@@ -12,6 +12,7 @@ use std::sync::Arc;
 
 pub use columns::{
     ColumnMap, ColumnUse, DepthUnit, FIELDS, FPP_PERCENT, Field, Mapping, NUMERIC, REQUIRED,
+    percent_by_range,
 };
 pub use load::{LoadOptions, Source, bounded_number, is_missing, parse_number};
 use pool::StrPool;

@@ -362,6 +362,13 @@ impl fmt::Display for Field {
 /// values are stored as fractions.
 pub const FPP_PERCENT: &str = "percent (stored as a fraction)";
 
+/// Whether a column of probabilities whose values span `lo`..=`hi` is in
+/// percent by its values alone: some above 1 (a probability cannot exceed
+/// 1), none above 100 or below 0 (docs/science.md §3.5).
+pub fn percent_by_range(lo: f64, hi: f64) -> bool {
+    hi > 1.0 && hi <= 100.0 && lo >= 0.0
+}
+
 /// The unit transit depths arrive in. Stored depths are always ppm.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "lowercase")]

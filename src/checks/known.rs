@@ -330,20 +330,19 @@ fn header_says_percent(h: &str) -> bool {
 /// probabilities too (`crate::catalogue::names_an_fp_probability`: a
 /// nearby star's `nfpp`, a second tool's `fpp_vespa`...), each with the
 /// divisor of its values: 100 where the header states percent, or where
-/// some value exceeds 1 and none exceeds 100 (as the mapped column's,
-/// docs/science.md §3.5), else 1.
+/// its values are by their range (`crate::catalogue::percent_by_range`, the
+/// mapped column's rule), else 1.
 fn probability_columns(cat: &Catalogue, headers: &[&str]) -> Vec<(usize, f64)> {
     (0..headers.len())
         .filter(|&i| crate::catalogue::names_an_fp_probability(headers[i]))
         .map(|i| {
-            let (mut above_one, mut above_hundred) = (false, false);
-            for c in 0..cat.len() as CandidateId {
-                if let Some(v) = crate::catalogue::bounded_number(cat.extra(i, c).as_bytes()) {
-                    above_one |= v > 1.0;
-                    above_hundred |= v > 100.0;
-                }
-            }
-            let percent = header_says_percent(headers[i]) || (above_one && !above_hundred);
+            let (lo, hi) = (0..cat.len() as CandidateId)
+                .filter_map(|c| crate::catalogue::bounded_number(cat.extra(i, c).as_bytes()))
+                .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
+                    (lo.min(v), hi.max(v))
+                });
+            let percent =
+                header_says_percent(headers[i]) || crate::catalogue::percent_by_range(lo, hi);
             (i, if percent { 100.0 } else { 1.0 })
         })
         .collect()

@@ -377,7 +377,7 @@ impl Merger {
                         .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &v| {
                             (lo.min(v), hi.max(v))
                         });
-                    let seen = hi > 1.0 && hi <= 100.0 && lo >= 0.0;
+                    let seen = crate::catalogue::percent_by_range(lo, hi);
                     if said || seen {
                         fpp.iter_mut().for_each(|v| *v /= 100.0);
                         unit = FPP_PERCENT.to_string();
