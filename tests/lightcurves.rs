@@ -486,14 +486,26 @@ fn hidden_binary(d: &std::path::Path) -> (std::path::PathBuf, Vec<(f64, f64)>) {
     (cat, curve)
 }
 
-/// Writes a light curve of (time, flux) samples as CSV with a flux error of
-/// 3 × 10⁻⁴ (invented).
-fn write_flux(path: &std::path::Path, curve: &[(f64, f64)]) {
-    let mut text = String::from("time,flux,flux_err\n");
-    for (t, v) in curve {
-        text.push_str(&format!("{t:.6},{v:.7},0.0003\n"));
+/// Writes a light curve of (time, flux) samples as CSV under `header`, each
+/// row the time and what `cells` makes of the flux (invented).
+fn write_curve(
+    path: &std::path::Path,
+    header: &str,
+    curve: &[(f64, f64)],
+    cells: impl Fn(f64) -> String,
+) {
+    let mut text = format!("{header}\n");
+    for &(t, v) in curve {
+        text.push_str(&format!("{t:.6},{}\n", cells(v)));
     }
     std::fs::write(path, text).unwrap();
+}
+
+/// [`write_curve`] as flux with an error of 3 × 10⁻⁴.
+fn write_flux(path: &std::path::Path, curve: &[(f64, f64)]) {
+    write_curve(path, "time,flux,flux_err", curve, |v| {
+        format!("{v:.7},0.0003")
+    });
 }
 
 /// `odds --format csv` of a catalogue with light curves in `lcs`: each
@@ -556,11 +568,9 @@ fn a_light_curve_in_magnitudes_is_read_as_flux() {
     let (cat, curve) = hidden_binary(&d);
     let lcs = d.join("lcs");
     std::fs::create_dir_all(&lcs).unwrap();
-    let mut text = String::from("time,mag,mag_err\n");
-    for (t, v) in &curve {
-        text.push_str(&format!("{t:.6},{:.7},0.000326\n", 12.0 - 2.5 * v.log10()));
-    }
-    std::fs::write(lcs.join("M.csv"), text).unwrap();
+    write_curve(&lcs.join("M.csv"), "time,mag,mag_err", &curve, |v| {
+        format!("{:.7},0.000326", 12.0 - 2.5 * v.log10())
+    });
     let rows = odds_rows(&cat, &lcs);
     assert!(rows["M-3"][0].contains("odd-even"), "{rows:?}");
     assert_ne!(rows["M-3"][1], "validated", "{rows:?}");
@@ -580,11 +590,9 @@ fn a_light_curve_that_cannot_be_read_validates_nothing() {
     let (cat, curve) = hidden_binary(&d);
     let lcs = d.join("lcs");
     std::fs::create_dir_all(&lcs).unwrap();
-    let mut text = String::from("time,counts\n");
-    for (t, v) in &curve {
-        text.push_str(&format!("{t:.6},{:.1}\n", 1e5 * v));
-    }
-    std::fs::write(lcs.join("M.csv"), text).unwrap();
+    write_curve(&lcs.join("M.csv"), "time,counts", &curve, |v| {
+        format!("{:.1}", 1e5 * v)
+    });
     let rows = odds_rows(&cat, &lcs);
     for c in ["M-1", "M-2", "M-3"] {
         assert_eq!(rows[c][0], "not-recovered", "{rows:?}");
