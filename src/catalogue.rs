@@ -304,34 +304,35 @@ impl Catalogue {
             .find(h, |c| self.candidates.get(c as usize) == id)
     }
 
-    /// Whether `id` is a star's id exactly as the catalogue spells it.
-    pub fn has_star_id(&self, id: &str) -> bool {
+    /// The star whose id is `id` exactly as the catalogue spells it.
+    fn star_as_written(&self, id: &str) -> Option<StarId> {
         let h = self.hasher.hash_one(id.as_bytes());
         self.star_lookup
             .find(h, |s| self.stars.get(s as usize) == id)
-            .is_some()
+    }
+
+    /// Whether `id` is a star's id exactly as the catalogue spells it.
+    pub fn has_star_id(&self, id: &str) -> bool {
+        self.star_as_written(id).is_some()
     }
 
     pub fn find_star(&self, id: &str) -> Option<StarId> {
-        let h = self.hasher.hash_one(id.as_bytes());
-        self.star_lookup
-            .find(h, |s| self.stars.get(s as usize) == id)
-            .or_else(|| {
-                // Another spelling of a star's id (`TIC100` for `TIC 100`):
-                // the ledger's or a skipped row's.
-                let keys = self.star_keys.get_or_init(|| {
-                    let mut key = Vec::new();
-                    (0..self.stars.len() as StarId)
-                        .map(|s| {
-                            load::star_key(self.stars.get(s as usize), &mut key);
-                            (key.clone(), s)
-                        })
-                        .collect()
-                });
+        self.star_as_written(id).or_else(|| {
+            // Another spelling of a star's id (`TIC100` for `TIC 100`):
+            // the ledger's or a skipped row's.
+            let keys = self.star_keys.get_or_init(|| {
                 let mut key = Vec::new();
-                load::star_key(id, &mut key);
-                keys.get(&key).copied()
-            })
+                (0..self.stars.len() as StarId)
+                    .map(|s| {
+                        load::star_key(self.stars.get(s as usize), &mut key);
+                        (key.clone(), s)
+                    })
+                    .collect()
+            });
+            let mut key = Vec::new();
+            load::star_key(id, &mut key);
+            keys.get(&key).copied()
+        })
     }
 
     /// Number of stars with exactly k candidates, indexed by k (index 0 is 0).
