@@ -232,3 +232,34 @@ pub fn measured_radius_too_big(
         )
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_ten_per_cent_eclipse_around_the_sun_is_at_least_31_earth_radii() {
+        // By hand from Mandel & Agol 2002's small-planet depth at b = 0,
+        // δ = k²/(1 − u₁/3 − u₂/6) with u = (0.4, 0.26): δ = 100,020 − 3 × 35
+        // = 99,915 ppm gives k = 0.28682, and with the IAU 2015 nominal R☉
+        // and R⊕ (6.957e8 m, 6.3781e6 m) R = 31.28 R⊕ (docs/science.md §4.7).
+        let cat = Catalogue::from_text(
+            "invented.csv",
+            "star,candidate,period_d,epoch,depth_ppm,duration_h,star_radius_rsun\n\
+             S,S-1,7.4,1002.9,1200,3.4,1.0\n",
+        );
+        let depth = Measure {
+            value: 100_020.0,
+            err: 35.0,
+        };
+        let why = measured_radius_too_big(&cat, 0, &depth, 22.4).unwrap();
+        assert!(why.contains("R ≥ 31.3 R⊕"), "{why}");
+        // Below the limit, or without the star's radius: nothing said.
+        assert!(measured_radius_too_big(&cat, 0, &depth, 31.5).is_none());
+        let bare = Catalogue::from_text(
+            "invented.csv",
+            "star,candidate,period_d,epoch,depth_ppm,duration_h\nS,S-1,7.4,1002.9,1200,3.4\n",
+        );
+        assert!(measured_radius_too_big(&bare, 0, &depth, 22.4).is_none());
+    }
+}
