@@ -14,7 +14,10 @@ pub use columns::{
     ColumnMap, ColumnUse, DepthUnit, FIELDS, FPP_PERCENT, Field, Mapping, NUMERIC, REQUIRED,
     percent_by_range,
 };
-pub use load::{LoadOptions, Source, bounded_number, is_missing, parse_number};
+pub use load::{
+    LoadOptions, Source, bounded_number, family_key, family_stars, is_missing, names_no_star,
+    parse_number,
+};
 use pool::StrPool;
 use serde::Serialize;
 
@@ -102,12 +105,14 @@ pub struct Skip {
 }
 
 /// What a skipped row said of its star, as the file gave it: the star id
+/// (empty, or a placeholder, when the row had none), the candidate's id,
 /// and the non-empty cells of the columns that carry earlier verdicts (a
 /// disposition, a false-positive flag, `fpp`; [`names_earlier_verdicts`]),
 /// by header.
 #[derive(Clone, Debug, PartialEq)]
 pub struct SkippedRow {
     pub star: String,
+    pub candidate: String,
     pub cells: Vec<(String, String)>,
 }
 
@@ -168,6 +173,9 @@ pub struct Catalogue {
     /// Each star by its id's key (`load::star_key`), built on the first
     /// id [`Catalogue::find_star`] does not find as written.
     star_keys: std::sync::OnceLock<hashbrown::HashMap<Vec<u8>, StarId>>,
+    /// Each candidate family's one star (`load::family_stars`), built on
+    /// the first call of [`Catalogue::star_of_family`].
+    families: std::sync::OnceLock<hashbrown::HashMap<Vec<u8>, Option<StarId>>>,
     /// The table format read ("CSV/TSV", "IPAC table", "VOTable"...).
     pub format: &'static str,
 }
@@ -309,6 +317,25 @@ impl Catalogue {
         let h = self.hasher.hash_one(id.as_bytes());
         self.star_lookup
             .find(h, |s| self.stars.get(s as usize) == id)
+    }
+
+    /// The one star of the loaded candidates of `candidate`'s family
+    /// (`TOI-901.01` and `TOI-901.02` for `TOI-901.03`; `load::family_key`):
+    /// where a row that names no star belongs. `None` without a family,
+    /// or when the family's candidates sit on several stars.
+    pub fn star_of_family(&self, candidate: &str) -> Option<StarId> {
+        let families = self.families.get_or_init(|| {
+            load::family_stars((0..self.len() as CandidateId).filter_map(|c| {
+                let star = self.star_of(c);
+                // A star of its own says nothing of a family.
+                let own = self.star_id(star).strip_prefix("host of ") == Some(self.candidate_id(c));
+                (!own).then(|| (self.candidate_id(c), star))
+            }))
+        });
+        let mut key = Vec::new();
+        load::family_key(candidate, &mut key)
+            .then(|| families.get(key.as_slice()).copied().flatten())
+            .flatten()
     }
 
     /// Whether `id` is a star's id exactly as the catalogue spells it.

@@ -746,3 +746,58 @@ OK,OK-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,PC,see notes, page 2\n"
         "{e}"
     );
 }
+
+#[test]
+fn rows_that_name_no_star_are_never_one_star_and_join_their_candidate_family() {
+    // Invented: a merged table whose unknown hosts are written `0`, `-1`,
+    // `NaN` or left empty, as archives write them. Read as ids, the three
+    // unrelated signals under `0` made one system of three, validated by
+    // its boost. And an empty star cell on `TOI-901.03`, a binary, lost it
+    // from its star: `TOI-901.01` and `.02` (TIC 777) were validated. The
+    // family's row with no period (skipped) still calls `TOI-902.03` a
+    // binary, which holds TIC 778 (docs/science.md §3.4).
+    let rows = "\
+0,U-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+0,U-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+0,U-3,23.9,0.00001,102.5,0.001,640,4.7,26,0.3,1,1,5772,PC\n\
+-1,V-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+-1,V-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+NaN,W-1,4.5,0.00001,100.5,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+NaN,W-2,10.6,0.00001,101.5,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+TIC 777,TOI-901.01,4.7,0.00001,100.7,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+TIC 777,TOI-901.02,11.2,0.00001,101.7,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+,TOI-901.03,2.7,0.00001,101.3,0.001,9000,2.0,55,0.3,1,1,5772,EB\n\
+TIC 778,TOI-902.01,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+TIC 778,TOI-902.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+-999,TOI-902.03,,0.00001,101.3,0.001,9000,2.0,55,0.3,1,1,5772,EB\n";
+    let cat = written("no_host", &catalogue("disposition", rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for lone in ["U-1", "U-2", "U-3", "V-1", "V-2", "W-1", "W-2"] {
+        assert_ne!(v[lone], "validated", "{lone}");
+    }
+    for planet in ["TOI-901.01", "TOI-901.02", "TOI-902.01", "TOI-902.02"] {
+        assert_ne!(v[planet], "validated", "{planet}");
+    }
+    let loaded = load_text(&catalogue("disposition", rows));
+    let star = |cand: &str| loaded.star_id(loaded.star_of(id(&loaded, cand)));
+    assert_eq!(star("U-1"), "host of U-1");
+    assert_ne!(
+        loaded.star_of(id(&loaded, "U-1")),
+        loaded.star_of(id(&loaded, "U-2"))
+    );
+    assert_eq!(star("TOI-901.03"), "TIC 777");
+    // Said: the cells read as no star, and where each row went.
+    let note = loaded.notes.join("\n");
+    assert!(
+        note.contains("8 rows gave no star id (`0`, `-1`, `NaN`)")
+            && note.contains(
+                "1 joined the star of its candidate family by id (`TOI-901.03` with star `TIC 777`)"
+            )
+            && note.contains("7 are read as a star of their own"),
+        "{note}"
+    );
+    let o = starsift(&["odds", c, "--format", "csv"]);
+    let e = stderr(&o);
+    assert!(e.contains("TOI-902.03") && e.contains("TIC 778"), "{e}");
+}

@@ -95,14 +95,24 @@ fn gzip_is_detected_by_content() {
 fn every_skip_reason_names_line_and_column() {
     let c = load("bad_rows.csv").unwrap();
     let loaded: Vec<&str> = (0..c.len() as u32).map(|i| c.candidate_id(i)).collect();
-    assert_eq!(loaded, ["BR01-1", "BR14-1"]);
+    // Line 11 names no star: read with a star of its own, not skipped
+    // (docs/science.md §3.4).
+    assert_eq!(loaded, ["BR01-1", "BR10-1", "BR14-1"]);
+    assert_eq!(c.star_id(c.star_of(1)), "host of BR10-1");
+    assert!(
+        c.notes
+            .iter()
+            .any(|n| n.contains("1 row gave no star id (empty)")),
+        "{:?}",
+        c.notes
+    );
     assert_eq!(c.rows_seen, 14);
     let got: Vec<(u64, Option<&str>, &str)> = c
         .skipped
         .iter()
         .map(|s| (s.line, s.column.as_deref(), s.reason.as_str()))
         .collect();
-    let expect: [(u64, Option<&str>, &str); 12] = [
+    let expect: [(u64, Option<&str>, &str); 11] = [
         (3, Some("period_d"), "period_d: missing"),
         (4, Some("period_d"), "period_d: `abc` is not a number"),
         (5, Some("period_d"), "period_d: must be > 0, got -3"),
@@ -119,7 +129,6 @@ fn every_skip_reason_names_line_and_column() {
             Some("candidate"),
             "candidate: duplicate id `BR01-1` (first on line 2)",
         ),
-        (11, Some("star"), "star: empty"),
         (12, None, "has 5 fields, the header has 7"),
         (
             13,

@@ -20,6 +20,7 @@ use super::pool::StrPool;
 use super::units;
 use super::{CandidateId, Catalogue, LoadError, Skip, SkippedRow, StarId};
 
+mod hosts;
 mod ids;
 mod merge;
 mod number;
@@ -28,6 +29,7 @@ mod row;
 mod spelling;
 mod unit_rules;
 
+pub use hosts::{family_key, family_stars, names_no_star};
 pub(super) use ids::IdIndex;
 use ids::*;
 use merge::*;

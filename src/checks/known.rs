@@ -280,14 +280,26 @@ fn skipped_rows(cat: &Catalogue, out: &mut Checks) {
         .iter()
         .filter_map(|skip| {
             let row = skip.row.as_deref()?;
-            let star = cat.find_star(&row.star)?;
+            // A row that names no star belongs to its candidate family's.
+            let (star, by_family) = match cat.find_star(&row.star) {
+                Some(s) if !crate::catalogue::names_no_star(&row.star) => (s, false),
+                _ => (cat.star_of_family(&row.candidate)?, true),
+            };
             let said = skipped_row_says(row, disposition, fpp, fpp_scale)?;
             Some(UnseenFp {
                 star,
                 why: format!(
-                    "line {} says {said} and was skipped ({})",
+                    "line {} says {said} and was skipped ({}){}",
                     skip.line,
-                    crate::sanitize::clean(&skip.reason)
+                    crate::sanitize::clean(&skip.reason),
+                    if by_family {
+                        format!(
+                            "; it names no star, and its candidate `{}` is of this star's family",
+                            crate::sanitize::clean(&row.candidate)
+                        )
+                    } else {
+                        String::new()
+                    }
                 ),
             })
         })

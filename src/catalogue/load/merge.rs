@@ -25,6 +25,10 @@ pub(super) struct Merger {
     evidence_extras: Vec<(usize, String)>,
     evidence_num: Vec<(usize, String)>,
     pub(super) skipped: Vec<Skip>,
+    /// Rows whose star cell named no star, and the first few cells that
+    /// said so (`hosts`).
+    hostless: usize,
+    hostless_written: Vec<String>,
     pub(super) rows_seen: u64,
     pub(super) reserved: bool,
     /// The file's line at the start of the next part (parts number their
@@ -55,6 +59,8 @@ impl Merger {
                 .map(|(j, &(_, c))| (j, layout.header[c].clone()))
                 .collect(),
             skipped: Vec::new(),
+            hostless: 0,
+            hostless_written: Vec::new(),
             rows_seen: 0,
             reserved: false,
             next_line: first_line,
@@ -97,6 +103,12 @@ impl Merger {
             skip.line += base;
         }
         self.skipped.append(&mut part.skipped);
+        self.hostless += part.hostless;
+        for w in part.hostless_written.drain(..) {
+            if self.hostless_written.len() < 3 && !self.hostless_written.contains(&w) {
+                self.hostless_written.push(w);
+            }
+        }
         self.candidates.append(&part.candidates);
         self.candidate_hash.extend_from_slice(&part.candidate_hash);
         self.row_stars.append(&part.stars);
@@ -151,6 +163,7 @@ impl Merger {
         (!cells.is_empty()).then(|| {
             Box::new(SkippedRow {
                 star: self.row_stars.get(row).to_string(),
+                candidate: self.candidates.get(row).to_string(),
                 cells,
             })
         })
@@ -204,6 +217,9 @@ impl Merger {
         if self.lines.is_empty() && self.skipped.is_empty() {
             return Err(LoadError::NoRows { path: self.name });
         }
+        // Rows that name no star: their family's star, else their own.
+        let written = std::mem::take(&mut self.hostless_written);
+        let hostless_note = self.place_hostless(&written, self.hostless);
         // Candidate ids and star ids are grouped by hash on two threads at
         // once, then checked by text on both (star ids repeat: most of the
         // work). Duplicate ids are rare; when there are some, their rows go
@@ -270,7 +286,7 @@ impl Merger {
             (ids, StarGrouping::build(&self.row_stars, &self.star_hash))
         };
         // One star written several ways is one star (`TIC 100`, `TIC100`).
-        let mut notes: Vec<String> = id_note.into_iter().collect();
+        let mut notes: Vec<String> = hostless_note.into_iter().chain(id_note).collect();
         let grouping = match self.join_spellings(&grouping.first_rows, &grouping.star_of) {
             Some(note) => {
                 notes.push(note);
@@ -442,6 +458,7 @@ impl Merger {
             skipped,
             notes,
             star_keys: std::sync::OnceLock::new(),
+            families: std::sync::OnceLock::new(),
             rows_seen,
             format: TableFormat::Delimited.name(),
         })

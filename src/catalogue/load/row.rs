@@ -66,6 +66,10 @@ pub(super) struct Part {
     pub(super) lightcurve: Option<StrPool>,
     pub(super) extras: Vec<StrPool>,
     pub(super) skipped: Vec<Skip>,
+    /// Rows whose star cell named no star (`hosts::names_no_star`), and
+    /// the first few different cells that said so.
+    pub(super) hostless: usize,
+    pub(super) hostless_written: Vec<String>,
     pub(super) rows_seen: u64,
     pub(super) bytes: usize,
     /// Line ends in the chunk: lines here count from 0 at its start.
@@ -162,6 +166,8 @@ impl Layout {
                 }
                 p.extras.iter_mut().for_each(StrPool::clear);
                 p.skipped.clear();
+                p.hostless = 0;
+                p.hostless_written.clear();
                 p.rows_seen = 0;
                 p.bytes = chunk.bytes.len();
                 p.newlines = 0;
@@ -179,6 +185,8 @@ impl Layout {
                 lightcurve: self.lc_col.map(|_| StrPool::default()),
                 extras: vec![StrPool::default(); self.extra_cols.len()],
                 skipped: Vec::new(),
+                hostless: 0,
+                hostless_written: Vec::new(),
                 rows_seen: 0,
                 bytes: chunk.bytes.len(),
                 newlines: 0,
@@ -383,8 +391,22 @@ impl Layout {
             Ok((star, cand)) => {
                 part.candidate_hash.push(hasher.hash_one(cand.as_bytes()));
                 part.candidates.push(cand);
-                part.star_hash.push(hasher.hash_one(star.as_bytes()));
-                part.stars.push(star);
+                if hosts::names_no_star(star) {
+                    // Never one star with another row of the same cell.
+                    part.hostless += 1;
+                    let written = star.trim();
+                    if part.hostless_written.len() < 3
+                        && !part.hostless_written.iter().any(|w| w == written)
+                    {
+                        part.hostless_written.push(written.to_string());
+                    }
+                    let own = hosts::own_star(cand);
+                    part.star_hash.push(hasher.hash_one(own.as_bytes()));
+                    part.stars.push(&own);
+                } else {
+                    part.star_hash.push(hasher.hash_one(star.as_bytes()));
+                    part.stars.push(star);
+                }
                 part.lines.push(u32::try_from(line).unwrap_or(u32::MAX));
                 for (j, &(slot, _)) in self.num_cols.iter().enumerate() {
                     if self.kept[j] {
@@ -417,7 +439,13 @@ impl Layout {
             return None;
         }
         let star = std::str::from_utf8(rec.field(self.star_col).trim_ascii()).ok()?;
-        if star.is_empty() {
+        // A row that names no star may still name its candidate, whose
+        // family can name the star (`hosts`).
+        let candidate = (self.cand_col < rec.len())
+            .then(|| std::str::from_utf8(rec.field(self.cand_col).trim_ascii()).ok())
+            .flatten()
+            .unwrap_or("");
+        if star.is_empty() && candidate.is_empty() {
             return None;
         }
         let text = |v: &[u8]| String::from_utf8_lossy(v).into_owned();
@@ -448,6 +476,7 @@ impl Layout {
         (!cells.is_empty()).then(|| {
             Box::new(SkippedRow {
                 star: star.to_string(),
+                candidate: candidate.to_string(),
                 cells,
             })
         })
@@ -477,7 +506,9 @@ impl Layout {
         let raw = rec.field(col).trim_ascii();
         let s = std::str::from_utf8(raw)
             .map_err(|_| self.skip(line, Some(col), format!("{field}: not valid UTF-8")))?;
-        if s.is_empty() {
+        // An empty star cell names no star, as `0` or `NaN` do: the row is
+        // read with a star of its own (`hosts`).
+        if s.is_empty() && field != Field::Star {
             return Err(self.skip(line, Some(col), format!("{field}: empty")));
         }
         Ok(s)

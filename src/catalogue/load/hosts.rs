@@ -1,0 +1,224 @@
+//! Rows that give no host: an empty star cell, a missing-value token
+//! (`NaN`, `null`), or a number of zero or below (`0`, `-1`, `-999`), as
+//! archives write for a host they do not know. Read as an id, such a cell
+//! would make one star of every row that shares it: unrelated signals
+//! counted as one system, and validated by its boost. Each such row is
+//! instead the star of its candidate family when the catalogue has one
+//! (`TOI-901.03` with the star of `TOI-901.01`: archives number the
+//! candidates of one star `<star's number>.<n>`), else a star of its own,
+//! `host of <candidate>`, never counted with another (docs/science.md
+//! §3.4).
+
+use std::hash::BuildHasher;
+
+use super::merge::Merger;
+use crate::catalogue::pool::StrPool;
+
+/// Whether a star cell names no star: empty, a missing-value token (any
+/// case: `nan`, `null`, `na`, `n/a`, `none`, `unknown`, `-`, `--`, `?`),
+/// or a number of zero or below (`0`, `-1`, `-999`, `0.0`): what tables
+/// write for an unknown host (common practice, no source). Archive ids of
+/// stars are positive numbers or names.
+pub fn names_no_star(id: &str) -> bool {
+    let id = id.trim();
+    let Some(&first) = id.as_bytes().first() else {
+        return true;
+    };
+    // Nearly every id starts otherwise: one byte decides.
+    if !matches!(
+        first,
+        b'0' | b'-' | b'+' | b'.' | b'?' | b'n' | b'N' | b'u' | b'U'
+    ) {
+        return false;
+    }
+    const TOKENS: [&str; 9] = [
+        "nan", "null", "na", "n/a", "none", "unknown", "-", "--", "?",
+    ];
+    TOKENS.iter().any(|t| id.eq_ignore_ascii_case(t)) || id.parse::<f64>().is_ok_and(|v| v <= 0.0)
+}
+
+/// The star id given to a row of `candidate` that names no star.
+pub fn own_star(candidate: &str) -> String {
+    format!("host of {candidate}")
+}
+
+/// The family key of a candidate id (`TOI-901.01` → `toi901`, `K00123.01`
+/// → `k123`, `901.01` → `901`): the id before a final `.` and one to
+/// three digits, in the spelling of a star id's key (`super::star_key`).
+/// `false` for an id with no such ending.
+pub fn family_key(candidate: &str, out: &mut Vec<u8>) -> bool {
+    let Some((head, n)) = candidate.trim().rsplit_once('.') else {
+        return false;
+    };
+    if head.is_empty() || n.is_empty() || n.len() > 3 || !n.bytes().all(|b| b.is_ascii_digit()) {
+        return false;
+    }
+    super::star_key(head, out);
+    !out.is_empty()
+}
+
+/// For each family key, its one star, or `None` when its candidates sit
+/// on more than one star (the family then says nothing).
+pub fn family_stars<'a, S: PartialEq + Copy>(
+    rows: impl Iterator<Item = (&'a str, S)>,
+) -> hashbrown::HashMap<Vec<u8>, Option<S>> {
+    let mut map: hashbrown::HashMap<Vec<u8>, Option<S>> = hashbrown::HashMap::new();
+    let mut key = Vec::new();
+    for (cand, star) in rows {
+        if family_key(cand, &mut key) {
+            map.entry_ref(key.as_slice())
+                .and_modify(|s| {
+                    if *s != Some(star) {
+                        *s = None;
+                    }
+                })
+                .or_insert(Some(star));
+        }
+    }
+    map
+}
+
+impl Merger {
+    /// Rows that named no star (their star already `own_star`) join the
+    /// star of their candidate family where it has one; returns the note
+    /// that says what was read, or `None` when every row named its star.
+    pub(super) fn place_hostless(&mut self, written: &[String], count: usize) -> Option<String> {
+        if count == 0 {
+            return None;
+        }
+        let n = self.row_stars.len();
+        let hostless: Vec<bool> = (0..n)
+            .map(|r| {
+                let star = self.row_stars.get(r);
+                star.strip_prefix("host of ") == Some(self.candidates.get(r))
+            })
+            .collect();
+        let families = family_stars(
+            (0..n)
+                .filter(|&r| !hostless[r])
+                .map(|r| (self.candidates.get(r), self.row_stars.get(r))),
+        );
+        let mut key = Vec::new();
+        let mut joined: Vec<(usize, String)> = Vec::new();
+        for r in (0..n).filter(|&r| hostless[r]) {
+            if family_key(self.candidates.get(r), &mut key) {
+                if let Some(Some(star)) = families.get(key.as_slice()) {
+                    joined.push((r, star.to_string()));
+                }
+            }
+        }
+        drop(families);
+        let examples: Vec<String> = joined
+            .iter()
+            .take(2)
+            .map(|(r, star)| {
+                format!(
+                    "`{}` with star `{}`",
+                    crate::sanitize::clean(self.candidates.get(*r)),
+                    crate::sanitize::clean(star)
+                )
+            })
+            .collect();
+        let tokens: Vec<String> = written
+            .iter()
+            .map(|w| match w.as_str() {
+                "" => "empty".to_string(),
+                w => format!("`{}`", crate::sanitize::clean(w)),
+            })
+            .collect();
+        let alone = count - joined.len();
+        let mut note = format!(
+            "{count} row{} gave no star id ({}): ",
+            if count == 1 { "" } else { "s" },
+            tokens.join(", ")
+        );
+        if !joined.is_empty() {
+            note.push_str(&format!(
+                "{} joined the star of {} candidate family by id ({}{}){}",
+                joined.len(),
+                if joined.len() == 1 { "its" } else { "their" },
+                examples.join(", "),
+                if joined.len() > 2 { ", …" } else { "" },
+                if alone > 0 { "; " } else { "" }
+            ));
+        }
+        if alone > 0 {
+            note.push_str(&format!(
+                "{alone} {} read as a star of {} own, `host of <candidate>`, never counted with another",
+                if alone == 1 { "is" } else { "are" },
+                if alone == 1 { "its" } else { "their" },
+            ));
+        }
+        note.push_str(" (docs/science.md §3.4)");
+        if !joined.is_empty() {
+            let to: hashbrown::HashMap<usize, String> = joined.into_iter().collect();
+            let mut pool = StrPool::with_capacity(n, self.row_stars.byte_len());
+            for r in 0..n {
+                match to.get(&r) {
+                    Some(star) => {
+                        self.star_hash[r] = self.hasher.hash_one(star.as_bytes());
+                        pool.push(star);
+                    }
+                    None => {
+                        pool.push(self.row_stars.get(r));
+                    }
+                }
+            }
+            self.row_stars = pool;
+        }
+        Some(note)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn placeholders_name_no_star() {
+        for id in [
+            "", " ", "0", "-1", "-999", "0.0", "-9999.0", "NaN", "null", "N/A", "-", "?",
+            "unknown", "None",
+        ] {
+            assert!(names_no_star(id), "{id:?}");
+        }
+        for id in [
+            "1",
+            "TIC 100",
+            "005706966",
+            "NGC 188",
+            "Nova",
+            "u1",
+            "-TIC",
+            "KIC 0",
+        ] {
+            assert!(!names_no_star(id), "{id:?}");
+        }
+    }
+
+    #[test]
+    fn candidate_families() {
+        let key = |c: &str| {
+            let mut k = Vec::new();
+            family_key(c, &mut k).then_some(k)
+        };
+        assert_eq!(key("TOI-901.01"), Some(b"toi901".to_vec()));
+        assert_eq!(key("TOI 901.02"), key("TOI-901.01"));
+        assert_eq!(key("K00123.01"), Some(b"k123".to_vec()));
+        assert_eq!(key("901.1"), Some(b"901".to_vec()));
+        for none in ["X17", "TOI-901", ".01", "A.1234", "A.b1", "A."] {
+            assert_eq!(key(none), None, "{none}");
+        }
+        let stars = family_stars(
+            [
+                ("TOI-1.01", 7),
+                ("TOI-1.02", 7),
+                ("TOI-2.01", 8),
+                ("TOI-2.02", 9),
+            ]
+            .into_iter(),
+        );
+        assert_eq!(stars[b"toi1".as_slice()], Some(7));
+        assert_eq!(stars[b"toi2".as_slice()], None, "two stars: no family");
+    }
+}
