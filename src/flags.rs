@@ -120,7 +120,8 @@ impl FlagSet {
     /// planet, light varying with the orbit more than any planet can make
     /// it. A star with one is a star known to host a false positive,
     /// and its other candidates are held back. `odd-even` (a depth
-    /// difference at 3σ, which real planets reach by chance) and `echo`
+    /// difference at 3σ, which real planets reach by chance; at 5σ with
+    /// both eclipses present the diagnostics add `secondary`) and `echo`
     /// (another star's light) hold back only the candidate itself.
     pub fn false_positive_signs() -> FlagSet {
         [

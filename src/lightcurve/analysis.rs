@@ -544,6 +544,13 @@ pub fn shares_transits(me: &Ephemeris, other: &Ephemeris) -> bool {
 /// (common practice, no source: a physical size as well as a significance).
 pub const ODD_EVEN_MIN_FRACTION: f64 = 0.05;
 
+/// Z of an odd/even difference beyond any chance excursion of a planet's
+/// identical transits: 5σ, where the 3σ of [`FLAG_Z`] is reached by real
+/// planets now and then (common practice, no source: the usual threshold
+/// for a firm detection). With both eclipses present, the candidate is an
+/// eclipsing binary at twice its period (docs/science.md §4.2).
+pub const ODD_EVEN_BINARY_Z: f64 = 5.0;
+
 /// The flags the diagnostics raise.
 fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
     let mut out = Vec::new();
@@ -587,6 +594,27 @@ fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
                 e.phase, e.depth.value, e.depth.err, e.depth.z(), e.threshold_z, ceiling,
             )));
         }
+    }
+    // Two different eclipses, both there, beyond chance: at twice the
+    // period, a binary's primary and secondary. The shallower is far above
+    // a planet's occultation (the ceiling at this period, higher than at
+    // twice it). A planet at twice the period has no second eclipse at all.
+    let shallower = if d.odd.value <= d.even.value {
+        d.odd
+    } else {
+        d.even
+    };
+    if shown
+        && !out.iter().any(|(f, _)| *f == Flag::Secondary)
+        && d.odd_even_z >= ODD_EVEN_BINARY_Z
+        && odd_even_size
+        && shallower.z() >= FLAG_Z
+        && shallower.value > 2.0 * ceiling
+    {
+        out.push((Flag::Secondary, format!(
+            "odd and even eclipses differ at Z = {:.1} ≥ {ODD_EVEN_BINARY_Z}, both present ({:.0} ± {:.0} and {:.0} ± {:.0} ppm): at twice the period, a binary's two eclipses; the shallower is above twice the planetary ceiling {:.0} ppm",
+            d.odd_even_z, d.odd.value, d.odd.err, d.even.value, d.even.err, ceiling,
+        )));
     }
     let elsewhere = match d.eclipse {
         Some(e) if e.depth.z() >= e.threshold_z => format!(
