@@ -15,8 +15,8 @@ pub use columns::{
     percent_by_range,
 };
 pub use load::{
-    LoadOptions, Source, bounded_number, family_key, family_stars, is_missing, names_no_star,
-    parse_number,
+    LoadOptions, Source, bounded_number, candidate_family, family_key, family_stars, is_missing,
+    names_no_star, parse_number,
 };
 use pool::StrPool;
 use serde::Serialize;

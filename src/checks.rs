@@ -6,6 +6,7 @@
 //! thresholds: docs/science.md §2–§3.
 
 mod echo;
+mod families;
 mod groups;
 pub mod known;
 mod lightcurves;
@@ -377,6 +378,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         }
         progress.add(n % progress::STEP);
         known::flag(cat, &mut checks);
+        families::flag(cat, &mut checks);
         epoch_zeros(cat, &mut checks);
         progress.publish(checks.all_flags());
         let derived = system::PerCandidate {

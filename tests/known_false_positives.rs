@@ -801,3 +801,34 @@ TIC 778,TOI-902.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
     let e = stderr(&o);
     assert!(e.contains("TOI-902.03") && e.contains("TIC 778"), "{e}");
 }
+
+#[test]
+fn a_candidate_family_split_over_two_star_ids_is_held_by_its_false_positive() {
+    // Invented: a table merged from two lists, one host under two
+    // catalogues' ids (`TIC 778`, and `Gaia 4411` for the binary of the
+    // same family `TOI-902`). Before, the binary held only its own id and
+    // TOI-902.01 and .02 were validated. A family split with no false
+    // positive in it (TOI-903) holds nothing (docs/science.md §3.4).
+    let rows = "\
+TIC 778,TOI-902.01,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+TIC 778,TOI-902.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+Gaia 4411,TOI-902.03,2.7,0.00001,101.3,0.001,9000,2.0,55,0.3,1,1,5772,EB\n\
+TIC 779,TOI-903.01,5.3,0.00001,100.2,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+TIC 779,TOI-903.02,12.9,0.00001,101.2,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+Gaia 4412,TOI-903.03,3.1,0.00001,101.6,0.001,700,2.0,30,0.3,1,1,5772,PC\n";
+    let cat = written("split_family", &catalogue("disposition", rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for planet in ["TOI-902.01", "TOI-902.02"] {
+        assert_ne!(v[planet], "validated", "{planet}");
+    }
+    for planet in ["TOI-903.01", "TOI-903.02"] {
+        assert_eq!(v[planet], "validated", "{planet}");
+    }
+    let o = starsift(&["odds", c, "--format", "csv"]);
+    let e = stderr(&o);
+    assert!(
+        e.contains("1 star shares a candidate family with a known false positive on another star id (star TIC 778)"),
+        "{e}"
+    );
+}

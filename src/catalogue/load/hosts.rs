@@ -42,17 +42,22 @@ pub fn own_star(candidate: &str) -> String {
     format!("host of {candidate}")
 }
 
+/// The family of a candidate id, as written (`TOI-901.01` → `TOI-901`,
+/// `K00123.01` → `K00123`, `901.01` → `901`): the id before a final `.`
+/// and one to three digits, or `None` for an id with no such ending.
+pub fn candidate_family(candidate: &str) -> Option<&str> {
+    let (head, n) = candidate.trim().rsplit_once('.')?;
+    (!head.is_empty() && (1..=3).contains(&n.len()) && n.bytes().all(|b| b.is_ascii_digit()))
+        .then_some(head)
+}
+
 /// The family key of a candidate id (`TOI-901.01` → `toi901`, `K00123.01`
-/// → `k123`, `901.01` → `901`): the id before a final `.` and one to
-/// three digits, in the spelling of a star id's key (`super::star_key`).
-/// `false` for an id with no such ending.
+/// → `k123`): its [`candidate_family`] in the spelling of a star id's key
+/// (`super::star_key`). `false` for an id with no family.
 pub fn family_key(candidate: &str, out: &mut Vec<u8>) -> bool {
-    let Some((head, n)) = candidate.trim().rsplit_once('.') else {
+    let Some(head) = candidate_family(candidate) else {
         return false;
     };
-    if head.is_empty() || n.is_empty() || n.len() > 3 || !n.bytes().all(|b| b.is_ascii_digit()) {
-        return false;
-    }
     super::star_key(head, out);
     !out.is_empty()
 }
@@ -202,6 +207,8 @@ mod tests {
             let mut k = Vec::new();
             family_key(c, &mut k).then_some(k)
         };
+        assert_eq!(candidate_family("TOI-902.03"), Some("TOI-902"));
+        assert_eq!(candidate_family("1234.1"), Some("1234"));
         assert_eq!(key("TOI-901.01"), Some(b"toi901".to_vec()));
         assert_eq!(key("TOI 901.02"), key("TOI-901.01"));
         assert_eq!(key("K00123.01"), Some(b"k123".to_vec()));

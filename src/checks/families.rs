@@ -1,0 +1,73 @@
+//! A candidate family split over several stars. Archives number the
+//! candidates of one host `<host's number>.<n>` (`TOI-902.01`, `.02`,
+//! `.03`), so a family whose rows name two star ids names one star twice:
+//! a typing slip, or one host under two catalogues' ids in a merged table.
+//! Which id is right cannot be known, so a false positive the catalogue
+//! names in the family holds every star the family sits on, as a skipped
+//! row's does (docs/science.md §3.4, §3.5). Stars are not joined: that
+//! would add multiplicity from a naming convention alone.
+
+use super::{Checks, UnseenFp};
+use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family as family};
+use crate::flags::Flag;
+
+/// Holds each star a split family shares with a candidate the catalogue
+/// calls a false positive (`known-fp` on a loaded row), and says so.
+pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
+    // The families of the catalogue's false positives: few, usually none.
+    let mut fp_of: hashbrown::HashMap<&str, Vec<CandidateId>> = hashbrown::HashMap::new();
+    for c in 0..cat.len() as CandidateId {
+        if out.flags(c).contains(Flag::KnownFp) || out.warnings(c).contains(Flag::KnownFp) {
+            if let Some(f) = family(cat.candidate_id(c)) {
+                fp_of.entry(f).or_default().push(c);
+            }
+        }
+    }
+    if fp_of.is_empty() {
+        return;
+    }
+    // Every other star of those families.
+    let mut held: Vec<UnseenFp> = Vec::new();
+    for c in 0..cat.len() as CandidateId {
+        let Some((f, fps)) = family(cat.candidate_id(c)).and_then(|f| fp_of.get_key_value(f))
+        else {
+            continue;
+        };
+        let star: StarId = cat.star_of(c);
+        if let Some(&fp) = fps.iter().find(|&&fp| cat.star_of(fp) != star) {
+            held.push(UnseenFp {
+                star,
+                why: format!(
+                    "{}, on star {}, is of this star's candidate family ({}) and a known false positive (the catalogue); archives number one star's candidates <star>.<n>, so both star ids name one star",
+                    crate::sanitize::clean(cat.candidate_id(fp)),
+                    crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
+                    crate::sanitize::clean(f),
+                ),
+            });
+        }
+    }
+    held.sort_by_key(|u| u.star);
+    held.dedup_by_key(|u| u.star);
+    if held.is_empty() {
+        return;
+    }
+    let listed: Vec<String> = held
+        .iter()
+        .take(3)
+        .map(|u| format!("star {}", crate::sanitize::clean(cat.star_id(u.star))))
+        .collect();
+    out.notes.push(format!(
+        "{} star{} share{} a candidate family with a known false positive on another star id ({}{}): held back, as one star with it; check the star ids (docs/science.md §3.4)",
+        held.len(),
+        if held.len() == 1 { "" } else { "s" },
+        if held.len() == 1 { "s" } else { "" },
+        listed.join(", "),
+        if held.len() > 3 { ", …" } else { "" },
+    ));
+    // One entry per star: a skipped row's, when there is one, stays.
+    let mut all = std::mem::take(&mut out.unseen_fp);
+    all.extend(held);
+    all.sort_by_key(|u| u.star);
+    all.dedup_by_key(|u| u.star);
+    out.unseen_fp = all;
+}
