@@ -469,3 +469,23 @@ fn the_fingerprint_comes_from_the_loads_own_read() {
         );
     }
 }
+
+#[test]
+fn a_depth_in_mmag_beside_one_in_ppm_reads_the_ppm() {
+    // Invented rows under a follow-up list's header, which gives the depth
+    // twice, `Depth (mmag)` first: before, the mmag column was taken and
+    // the whole table refused (starsift does not convert magnitudes).
+    let text = "TIC ID,TOI,Period (days),Epoch (BJD),Duration (hours),Depth (mmag),Depth (mmag) err,Depth (ppm),Depth (ppm) err\n\
+                100,100.01,3.5,2458700.5,2.5,0.76,0.05,700.0,40\n\
+                101,101.01,5.5,2458701.5,3.0,1.09,0.05,1000.0,40\n";
+    let c = common::load_text(text);
+    let depth = c.columns.iter().find(|u| u.field == "depth_ppm").unwrap();
+    assert_eq!(depth.header, "Depth (ppm)");
+    assert_eq!(c.value(Field::DepthPpm, 1), Some(1000.0));
+    // Only mmag: refused, naming the column.
+    let only = "star,candidate,period_d,epoch,duration_h,Depth (mmag)\nA,A-1,3.5,100.5,2.5,0.76\n";
+    let e = load_bytes("mmag.csv", only.as_bytes())
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("Depth (mmag)") && e.contains("mmag"), "{e}");
+}

@@ -491,6 +491,14 @@ pub struct ColumnUse {
     pub how: String,
 }
 
+/// Whether a depth column's header states no unit or one the loader
+/// reads (ppm, %, ppt, fraction; not `mmag`).
+fn depth_unit_read(header: &str) -> bool {
+    header_unit(header)
+        .1
+        .is_none_or(|u| crate::catalogue::units::depth_unit(&u).is_some())
+}
+
 /// The header of one catalogue resolved onto fields.
 #[derive(Clone, Debug)]
 pub struct Mapping {
@@ -531,6 +539,18 @@ impl Mapping {
             match Field::from_header(h) {
                 Some(field) if !by_field.contains_key(&field) => {
                     by_field.insert(field, index);
+                }
+                // Two depths, the first in a unit not read (ExoFOP's
+                // `Depth (mmag)` before `Depth (ppm)`): the readable one.
+                Some(Field::DepthPpm)
+                    if !map.fields.contains_key(&Field::DepthPpm)
+                        && !depth_unit_read(&header[by_field[&Field::DepthPpm]])
+                        && depth_unit_read(h) =>
+                {
+                    let first = by_field.insert(Field::DepthPpm, index).unwrap_or(index);
+                    shadowed.push((first, header[first].clone(), Field::DepthPpm));
+                    extras.push((first, header[first].clone()));
+                    extras.sort_unstable_by_key(|(i, _)| *i);
                 }
                 Some(field) => {
                     shadowed.push((index, h.clone(), field));

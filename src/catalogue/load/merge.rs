@@ -424,9 +424,7 @@ impl Merger {
                 header: h.clone(),
                 index: *index,
                 unit: String::new(),
-                how: format!(
-                    "also names {f}, which an earlier column feeds; kept as an extra column"
-                ),
+                how: format!("also names {f}, which another column feeds; kept as an extra column"),
             });
         }
         candidates.shrink_to_fit();
