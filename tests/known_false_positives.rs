@@ -832,3 +832,30 @@ Gaia 4412,TOI-903.03,3.1,0.00001,101.6,0.001,700,2.0,30,0.3,1,1,5772,PC\n";
         "{e}"
     );
 }
+
+#[test]
+fn an_fpp_of_exactly_zero_validates_nothing() {
+    // Invented: an fpp column whose gaps were filled with 0 (all 580
+    // background rows here, and Z1, Z2). Read as probabilities, each zero
+    // made infinite prior odds and every single candidate of the table
+    // `validated`. A 0 is read as no fpp; a real small value still counts
+    // (docs/science.md §3.5).
+    let rows = "\
+Z1,Z1-1,5.0,0.00001,100.0,0.001,600,3.0,40,0.3,1,1,5772,0\n\
+Z2,Z2-1,5.3,0.00001,100.0,0.001,600,3.0,40,0.3,1,1,5772,0.000\n\
+Z3,Z3-1,5.7,0.00001,100.0,0.001,600,3.0,40,0.3,1,1,5772,0.001\n";
+    let text = catalogue("fpp", rows).replace(",\n", ",0\n");
+    let cat = written("fpp_zero", &text);
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for single in ["Z1-1", "Z2-1", "BG1x0-1", "BG1x399-1"] {
+        assert_eq!(v[single], "likely", "{single}");
+    }
+    // fpp 0.001: prior odds 999 (docs/science.md §1.2 with B_1 = 1).
+    assert_eq!(v["Z3-1"], "validated");
+    let e = stderr(&starsift(&["odds", c, "--format", "csv"]));
+    assert!(
+        e.contains("582 fpp values of exactly 0 were read as no fpp"),
+        "{e}"
+    );
+}

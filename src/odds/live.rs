@@ -155,12 +155,18 @@ impl Live {
         let mut has_fpp = vec![false; n];
         let mut prior = f_of.clone();
         if let Some(col) = cat.column(Field::Fpp) {
-            let mut bad = 0;
+            let (mut bad, mut zero) = (0, 0);
             for (c, &v) in col.iter().enumerate() {
                 if v.is_nan() {
                     continue;
                 }
-                if (0.0..=1.0).contains(&v) {
+                // No validation gives a false-positive probability of
+                // exactly 0: a zero is a gap filled with 0 or a number
+                // rounded away, and would validate any single candidate
+                // (docs/science.md §3.5). It is read as no fpp.
+                if v == 0.0 {
+                    zero += 1;
+                } else if (0.0..=1.0).contains(&v) {
                     prior[c] = v;
                     has_fpp[c] = true;
                 } else {
@@ -170,6 +176,13 @@ impl Live {
             if bad > 0 {
                 input_warnings.push(format!(
                     "{bad} fpp values outside [0, 1] were replaced by the candidate's f"
+                ));
+            }
+            if zero > 0 {
+                input_warnings.push(format!(
+                    "{zero} fpp value{} of exactly 0 {} read as no fpp (the candidate's f): no validation gives a probability of 0, so a 0 is a gap filled with 0 or a value rounded away (docs/science.md §3.5)",
+                    if zero == 1 { "" } else { "s" },
+                    if zero == 1 { "was" } else { "were" },
                 ));
             }
         }
