@@ -418,6 +418,32 @@ impl Merger {
                 how,
             });
         }
+        // A star's radius, mass or temperature, or a radius ratio, of zero
+        // or below is a placeholder for an unknown value (`0`, `-1`), not a
+        // star's: read as missing, as an empty cell (common practice, no
+        // source). Read as a value it made every orbit unstable.
+        for field in [
+            Field::StarRadiusRsun,
+            Field::StarMassMsun,
+            Field::StarTeffK,
+            Field::Ror,
+        ] {
+            let Some(col) = field.num_slot().and_then(|s| num[s].as_deref_mut()) else {
+                continue;
+            };
+            let mut unknown = 0;
+            for v in col.iter_mut().filter(|v| **v <= 0.0) {
+                *v = f64::NAN;
+                unknown += 1;
+            }
+            if unknown > 0 {
+                notes.push(format!(
+                    "{unknown} {field} value{} of zero or below (`{}`) read as unknown: a placeholder, not a value",
+                    if unknown == 1 { "" } else { "s" },
+                    crate::sanitize::clean(&header[mapping.by_field[&field]]),
+                ));
+            }
+        }
         for (index, h, f) in &mapping.shadowed {
             columns.push(ColumnUse {
                 field: "",
