@@ -790,7 +790,7 @@ TIC 778,TOI-902.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
     // Said: the cells read as no star, and where each row went.
     let note = loaded.notes.join("\n");
     assert!(
-        note.contains("8 rows gave no star id (`0`, `-1`, `NaN`)")
+        note.contains("8 rows gave no star id (`-1`, `NaN`, empty)")
             && note.contains(
                 "1 joined the star of its candidate family by id (`TOI-901.03` with star `TIC 777`)"
             )

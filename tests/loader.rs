@@ -520,3 +520,32 @@ fn a_stars_parameters_of_zero_or_below_are_unknown() {
     let checks = starsift::checks::run(&c, &starsift::checks::CheckSettings::default());
     assert!(!checks.flags(0).contains(starsift::flags::Flag::Crowded));
 }
+
+#[test]
+fn star_zero_is_a_star_where_the_table_numbers_its_stars_from_zero() {
+    // Invented: stars numbered 0, 1, 2 (a simulation's indices): `0` is a
+    // star like the others, its two candidates one system. In a table
+    // without a star `1` beside it, `0` is a placeholder for an unknown
+    // host, and each of its rows a star of its own (docs/science.md §3.4).
+    let rows = "A-1,4.1,100.0,700,3.0\nA-2,9.7,101.0,650,3.6\nB-1,5.1,100.0,700,3.0\n";
+    let numbered = format!(
+        "star,candidate,period_d,epoch,depth_ppm,duration_h\n{}",
+        rows.lines()
+            .zip(["0", "0", "1"])
+            .map(|(r, s)| format!("{s},{r}\n"))
+            .collect::<String>()
+    );
+    let c = common::load_text(&numbered);
+    assert_eq!(c.star_of(0), c.star_of(1));
+    assert_eq!(c.star_id(c.star_of(0)), "0");
+    let placeholder = numbered.replace("\n1,", "\n7000001,");
+    let c = common::load_text(&placeholder);
+    assert_ne!(c.star_of(0), c.star_of(1));
+    assert_eq!(c.star_id(c.star_of(0)), "host of A-1");
+    // Prefixed the same way: `TIC 0` beside `TIC 1` is a star.
+    let prefixed = numbered
+        .replace("\n0,", "\nTIC 0,")
+        .replace("\n1,", "\nTIC 1,");
+    let c = common::load_text(&prefixed);
+    assert_eq!(c.star_id(c.star_of(0)), "TIC 0");
+}

@@ -1,13 +1,13 @@
 //! Rows that give no host: an empty star cell, a missing-value token
-//! (`NaN`, `null`), or a number of zero or below (`0`, `-1`, `-999`), as
-//! archives write for a host they do not know. Read as an id, such a cell
-//! would make one star of every row that shares it: unrelated signals
-//! counted as one system, and validated by its boost. Each such row is
-//! instead the star of its candidate family when the catalogue has one
-//! (`TOI-901.03` with the star of `TOI-901.01`: archives number the
-//! candidates of one star `<star's number>.<n>`), else a star of its own,
-//! `host of <candidate>`, never counted with another (docs/science.md
-//! §3.4).
+//! (`NaN`, `null`), a negative number (`-1`, `-999`), or `0` in a table
+//! that does not number its stars from 0, as archives write for a host
+//! they do not know. Read as an id, such a cell would make one star of
+//! every row that shares it: unrelated signals counted as one system, and
+//! validated by its boost. Each such row is instead the star of its
+//! candidate family when the catalogue has one (`TOI-901.03` with the star
+//! of `TOI-901.01`: archives number the candidates of one star `<star's
+//! number>.<n>`), else a star of its own, `host of <candidate>`, never
+//! counted with another (docs/science.md §3.4).
 
 use std::hash::BuildHasher;
 
@@ -16,25 +16,52 @@ use crate::catalogue::pool::StrPool;
 
 /// Whether a star cell names no star: empty, a missing-value token (any
 /// case: `nan`, `null`, `na`, `n/a`, `none`, `unknown`, `-`, `--`, `?`),
-/// or a number of zero or below (`0`, `-1`, `-999`, `0.0`): what tables
-/// write for an unknown host (common practice, no source). Archive ids of
-/// stars are positive numbers or names.
+/// or a negative number (`-1`, `-999`), alone or as the last word after a
+/// catalogue's name (`TIC nan`, `Gaia DR3 -1`: a script that prefixed every
+/// id): what tables write for an unknown host (common practice, no source).
+/// Archive ids of stars are positive numbers or names. A `0` is one too,
+/// unless the table numbers its stars from 0 ([`zero_id`]).
 pub fn names_no_star(id: &str) -> bool {
     let id = id.trim();
-    let Some(&first) = id.as_bytes().first() else {
-        return true;
+    match id.rfind([' ', '_']) {
+        Some(at) => placeholder(&id[at + 1..]),
+        None => id.is_empty() || placeholder(id),
+    }
+}
+
+/// Whether one word is a missing-value token or a negative number.
+fn placeholder(word: &str) -> bool {
+    let Some(&first) = word.as_bytes().first() else {
+        return false;
     };
     // Nearly every id starts otherwise: one byte decides.
-    if !matches!(
-        first,
-        b'0' | b'-' | b'+' | b'.' | b'?' | b'n' | b'N' | b'u' | b'U'
-    ) {
+    if !matches!(first, b'-' | b'?' | b'n' | b'N' | b'u' | b'U') {
         return false;
     }
     const TOKENS: [&str; 9] = [
         "nan", "null", "na", "n/a", "none", "unknown", "-", "--", "?",
     ];
-    TOKENS.iter().any(|t| id.eq_ignore_ascii_case(t)) || id.parse::<f64>().is_ok_and(|v| v <= 0.0)
+    TOKENS.iter().any(|t| word.eq_ignore_ascii_case(t))
+        || word.parse::<f64>().is_ok_and(|v| v < 0.0)
+}
+
+/// For a star id that is `0` (`0`, `0.0`, `00`), alone or as the last word
+/// after a catalogue's name (`TIC 0`), the same id with `1` for the zero:
+/// where it is in the table, the table numbers its stars from 0 and `0`
+/// is a star; else `0` is a placeholder for an unknown host.
+pub fn zero_id(id: &str) -> Option<String> {
+    let id = id.trim();
+    zero_at(id).map(|at| format!("{}1", &id[..at]))
+}
+
+/// Where the zero of a trimmed [`zero_id`] starts, if it is one.
+pub(super) fn zero_at(id: &str) -> Option<usize> {
+    let at = id.rfind([' ', '_']).map_or(0, |a| a + 1);
+    let word = &id.as_bytes()[at..];
+    (word.first().is_some_and(|b| matches!(b, b'0' | b'.'))
+        && word.iter().all(|&b| b == b'0' || b == b'.')
+        && word.contains(&b'0'))
+    .then_some(at)
 }
 
 /// The star id given to a row of `candidate` that names no star.
@@ -87,17 +114,55 @@ impl Merger {
     /// Rows that named no star (their star already `own_star`) join the
     /// star of their candidate family where it has one; returns the note
     /// that says what was read, or `None` when every row named its star.
-    pub(super) fn place_hostless(&mut self, written: &[String], count: usize) -> Option<String> {
-        if count == 0 {
+    pub(super) fn place_hostless(
+        &mut self,
+        written: &[String],
+        count: usize,
+        zeros: usize,
+    ) -> Option<String> {
+        if count == 0 && zeros == 0 {
             return None;
         }
         let n = self.row_stars.len();
-        let hostless: Vec<bool> = (0..n)
+        let mut hostless: Vec<bool> = (0..n)
             .map(|r| {
                 let star = self.row_stars.get(r);
                 star.strip_prefix("host of ") == Some(self.candidates.get(r))
             })
             .collect();
+        let (mut written, mut count) = (written.to_vec(), count);
+        // Rows whose star is `0` (or `TIC 0`) and whose own star id still
+        // reads so: where the table has no `1` (`TIC 1`) beside it, the
+        // zero is a placeholder too.
+        let mut renamed: hashbrown::HashMap<usize, String> = hashbrown::HashMap::new();
+        if zeros > 0 {
+            let zero_rows: Vec<(usize, String)> = (0..n)
+                .filter_map(|r| zero_id(self.row_stars.get(r)).map(|one| (r, one)))
+                .collect();
+            let mut present: hashbrown::HashMap<&str, bool> = zero_rows
+                .iter()
+                .map(|(_, one)| (one.as_str(), false))
+                .collect();
+            for r in 0..n {
+                if let Some(p) = present.get_mut(self.row_stars.get(r)) {
+                    *p = true;
+                }
+            }
+            for (r, one) in &zero_rows {
+                if !present[one.as_str()] {
+                    hostless[*r] = true;
+                    count += 1;
+                    let w = self.row_stars.get(*r).trim();
+                    if written.len() < 3 && !written.iter().any(|x| x == w) {
+                        written.push(w.to_string());
+                    }
+                    renamed.insert(*r, own_star(self.candidates.get(*r)));
+                }
+            }
+        }
+        if count == 0 {
+            return None;
+        }
         let families = family_stars(
             (0..n)
                 .filter(|&r| !hostless[r])
@@ -155,8 +220,10 @@ impl Merger {
             ));
         }
         note.push_str(" (docs/science.md §3.4)");
-        if !joined.is_empty() {
-            let to: hashbrown::HashMap<usize, String> = joined.into_iter().collect();
+        // The family's star where there is one, else a star of its own.
+        renamed.extend(joined);
+        if !renamed.is_empty() {
+            let to = renamed;
             let mut pool = StrPool::with_capacity(n, self.row_stars.byte_len());
             for r in 0..n {
                 match to.get(&r) {
@@ -182,22 +249,45 @@ mod tests {
     #[test]
     fn placeholders_name_no_star() {
         for id in [
-            "", " ", "0", "-1", "-999", "0.0", "-9999.0", "NaN", "null", "N/A", "-", "?",
-            "unknown", "None",
+            "",
+            " ",
+            "-1",
+            "-999",
+            "-9999.0",
+            "NaN",
+            "null",
+            "N/A",
+            "-",
+            "?",
+            "unknown",
+            "None",
+            "TIC nan",
+            "TIC_-1",
+            "Gaia DR3 NaN",
         ] {
             assert!(names_no_star(id), "{id:?}");
         }
         for id in [
             "1",
+            "0",
+            "TIC 0",
             "TIC 100",
             "005706966",
             "NGC 188",
             "Nova",
             "u1",
             "-TIC",
-            "KIC 0",
+            "TIC ",
+            "2MASS J0000-0000",
         ] {
             assert!(!names_no_star(id), "{id:?}");
+        }
+        assert_eq!(zero_id("0").as_deref(), Some("1"));
+        assert_eq!(zero_id("0.0").as_deref(), Some("1"));
+        assert_eq!(zero_id("TIC 0").as_deref(), Some("TIC 1"));
+        assert_eq!(zero_id("star_0").as_deref(), Some("star_1"));
+        for id in ["10", "TIC 100", "S0", ".", "0x", "TIC"] {
+            assert_eq!(zero_id(id), None, "{id:?}");
         }
     }
 

@@ -29,6 +29,7 @@ pub(super) struct Merger {
     /// said so (`hosts`).
     hostless: usize,
     hostless_written: Vec<String>,
+    zeros: usize,
     pub(super) rows_seen: u64,
     pub(super) reserved: bool,
     /// The file's line at the start of the next part (parts number their
@@ -61,6 +62,7 @@ impl Merger {
             skipped: Vec::new(),
             hostless: 0,
             hostless_written: Vec::new(),
+            zeros: 0,
             rows_seen: 0,
             reserved: false,
             next_line: first_line,
@@ -104,6 +106,7 @@ impl Merger {
         }
         self.skipped.append(&mut part.skipped);
         self.hostless += part.hostless;
+        self.zeros += part.zeros;
         for w in part.hostless_written.drain(..) {
             if self.hostless_written.len() < 3 && !self.hostless_written.contains(&w) {
                 self.hostless_written.push(w);
@@ -219,7 +222,7 @@ impl Merger {
         }
         // Rows that name no star: their family's star, else their own.
         let written = std::mem::take(&mut self.hostless_written);
-        let hostless_note = self.place_hostless(&written, self.hostless);
+        let hostless_note = self.place_hostless(&written, self.hostless, self.zeros);
         // Candidate ids and star ids are grouped by hash on two threads at
         // once, then checked by text on both (star ids repeat: most of the
         // work). Duplicate ids are rare; when there are some, their rows go

@@ -70,6 +70,9 @@ pub(super) struct Part {
     /// the first few different cells that said so.
     pub(super) hostless: usize,
     pub(super) hostless_written: Vec<String>,
+    /// Rows whose star is `0` (`hosts::zero_id`): a placeholder unless the
+    /// table numbers its stars from 0, which the merge decides.
+    pub(super) zeros: usize,
     pub(super) rows_seen: u64,
     pub(super) bytes: usize,
     /// Line ends in the chunk: lines here count from 0 at its start.
@@ -168,6 +171,7 @@ impl Layout {
                 p.skipped.clear();
                 p.hostless = 0;
                 p.hostless_written.clear();
+                p.zeros = 0;
                 p.rows_seen = 0;
                 p.bytes = chunk.bytes.len();
                 p.newlines = 0;
@@ -187,6 +191,7 @@ impl Layout {
                 skipped: Vec::new(),
                 hostless: 0,
                 hostless_written: Vec::new(),
+                zeros: 0,
                 rows_seen: 0,
                 bytes: chunk.bytes.len(),
                 newlines: 0,
@@ -404,6 +409,9 @@ impl Layout {
                     part.star_hash.push(hasher.hash_one(own.as_bytes()));
                     part.stars.push(&own);
                 } else {
+                    if hosts::zero_at(star.trim()).is_some() {
+                        part.zeros += 1;
+                    }
                     part.star_hash.push(hasher.hash_one(star.as_bytes()));
                     part.stars.push(star);
                 }
