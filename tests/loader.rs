@@ -492,19 +492,22 @@ fn a_depth_in_mmag_beside_one_in_ppm_reads_the_ppm() {
 
 #[test]
 fn a_stars_parameters_of_zero_or_below_are_unknown() {
-    // Invented rows whose unknown stellar values were written 0 or -1:
-    // read as values they made the star massless and every orbit
-    // `crowded`. They are read as missing, and said.
-    let text = "star,candidate,period_d,epoch,depth_ppm,duration_h,star_radius_rsun,star_mass_msun,star_teff_k,ror\n\
-                A,A-1,4.1,100.0,700,3.0,0,0,0,0\n\
-                A,A-2,9.7,101.0,650,3.6,-1,-1,-1,-1\n\
-                B,B-1,5.1,100.0,700,3.0,1.1,1.05,5800,0.03\n";
+    // Invented rows whose unknown stellar values and ephemeris errors were
+    // written 0 or -1: read as values they made the star massless and
+    // every orbit `crowded`, and errors of a day joined unrelated periods.
+    // They are read as missing, and said.
+    let text = "star,candidate,period_d,epoch,depth_ppm,duration_h,star_radius_rsun,star_mass_msun,star_teff_k,ror,period_err_d,epoch_err_d\n\
+                A,A-1,4.1,100.0,700,3.0,0,0,0,0,0,0\n\
+                A,A-2,9.7,101.0,650,3.6,-1,-1,-1,-1,-1,-1\n\
+                B,B-1,5.1,100.0,700,3.0,1.1,1.05,5800,0.03,0.0001,0.001\n";
     let c = common::load_text(text);
     for f in [
         Field::StarRadiusRsun,
         Field::StarMassMsun,
         Field::StarTeffK,
         Field::Ror,
+        Field::PeriodErrD,
+        Field::EpochErrD,
     ] {
         assert_eq!(c.value(f, 0), None, "{f}");
         assert_eq!(c.value(f, 1), None, "{f}");

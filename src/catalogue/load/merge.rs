@@ -421,15 +421,18 @@ impl Merger {
                 how,
             });
         }
-        // A star's radius, mass or temperature, or a radius ratio, of zero
-        // or below is a placeholder for an unknown value (`0`, `-1`), not a
-        // star's: read as missing, as an empty cell (common practice, no
-        // source). Read as a value it made every orbit unstable.
+        // A star's radius, mass or temperature, a radius ratio, or an
+        // ephemeris error, of zero or below is a placeholder for an unknown
+        // value (`0`, `-1`), not a value: read as missing, as an empty cell
+        // (common practice, no source). Read as values, a mass of 0 made
+        // every orbit unstable, and errors of -1 d joined unrelated periods.
         for field in [
             Field::StarRadiusRsun,
             Field::StarMassMsun,
             Field::StarTeffK,
             Field::Ror,
+            Field::PeriodErrD,
+            Field::EpochErrD,
         ] {
             let Some(col) = field.num_slot().and_then(|s| num[s].as_deref_mut()) else {
                 continue;
