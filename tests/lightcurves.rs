@@ -566,6 +566,33 @@ fn a_binary_hidden_in_a_multi_is_held_back_and_not_counted() {
 }
 
 #[test]
+fn a_binary_listed_at_its_period_and_half_of_it_holds_its_star() {
+    // The same star, its binary listed twice, as pipelines list it: M-3 at
+    // half its period (odd and even eclipses alternate) and M-4 at its
+    // period (the shallower eclipse at phase 0.5). M-4 is M-3's copy
+    // (`harmonic`), so its `secondary` says nothing of the star (an alias
+    // folded at twice its period shows its own transit there). Before,
+    // M-3, which stands for the signal, carried `odd-even` alone, and the
+    // two planets stayed a system; its two eclipses are now read as a
+    // binary's (docs/science.md §4.2) and the star is held.
+    let d = scratch("binary-twice");
+    let (cat, curve) = hidden_binary(&d);
+    let mut text = std::fs::read_to_string(&cat).unwrap();
+    text.push_str("M,M-4,4.4,1000.4,5000,2.0,30,1,1\n");
+    std::fs::write(&cat, text).unwrap();
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    write_flux(&lcs.join("M.csv"), &curve);
+    let rows = odds_rows(&cat, &lcs);
+    assert!(rows["M-4"][0].contains("harmonic"), "{rows:?}");
+    assert!(rows["M-3"][0].contains("secondary"), "{rows:?}");
+    for planet in ["M-1", "M-2"] {
+        assert_ne!(rows[planet][1], "validated", "{rows:?}");
+        assert_eq!(rows[planet][2], "no", "{rows:?}");
+    }
+}
+
+#[test]
 fn a_light_curve_in_magnitudes_is_read_as_flux() {
     // The same star, its light curve in magnitudes as ground surveys write
     // it (m = 12 − 2.5 log₁₀ F; an error of 0.000326 mag is 3 × 10⁻⁴ in
