@@ -22,11 +22,47 @@ use crate::catalogue::pool::StrPool;
 /// Archive ids of stars are positive numbers or names. A `0` is one too,
 /// unless the table numbers its stars from 0 ([`zero_id`]).
 pub fn names_no_star(id: &str) -> bool {
+    host_cell(id) == HostCell::NoStar
+}
+
+/// What a star cell says of its star (the loader asks this of every row).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub(super) enum HostCell {
+    /// An id.
+    Star,
+    /// No star ([`names_no_star`]).
+    NoStar,
+    /// `0`: a star, or a placeholder, as the table decides ([`zero_id`]).
+    Zero,
+}
+
+/// [`names_no_star`] and [`zero_id`] at once, with one search of the cell.
+pub(super) fn host_cell(id: &str) -> HostCell {
     let id = id.trim();
-    match id.rfind([' ', '_']) {
-        Some(at) => placeholder(&id[at + 1..]),
-        None => id.is_empty() || placeholder(id),
+    if id.is_empty() {
+        return HostCell::NoStar;
     }
+    let word = &id[last_word(id)..];
+    if placeholder(word) {
+        HostCell::NoStar
+    } else if is_zero(word) {
+        HostCell::Zero
+    } else {
+        HostCell::Star
+    }
+}
+
+/// Where the last word of an id starts: after its last space or `_`.
+fn last_word(id: &str) -> usize {
+    memchr::memrchr2(b' ', b'_', id.as_bytes()).map_or(0, |a| a + 1)
+}
+
+/// Whether a word is a zero: `0`, `00`, `0.0`.
+fn is_zero(word: &str) -> bool {
+    let w = word.as_bytes();
+    w.first().is_some_and(|b| matches!(b, b'0' | b'.'))
+        && w.iter().all(|&b| b == b'0' || b == b'.')
+        && w.contains(&b'0')
 }
 
 /// Whether one word is a missing-value token or a negative number.
@@ -51,17 +87,8 @@ fn placeholder(word: &str) -> bool {
 /// is a star; else `0` is a placeholder for an unknown host.
 pub fn zero_id(id: &str) -> Option<String> {
     let id = id.trim();
-    zero_at(id).map(|at| format!("{}1", &id[..at]))
-}
-
-/// Where the zero of a trimmed [`zero_id`] starts, if it is one.
-pub(super) fn zero_at(id: &str) -> Option<usize> {
-    let at = id.rfind([' ', '_']).map_or(0, |a| a + 1);
-    let word = &id.as_bytes()[at..];
-    (word.first().is_some_and(|b| matches!(b, b'0' | b'.'))
-        && word.iter().all(|&b| b == b'0' || b == b'.')
-        && word.contains(&b'0'))
-    .then_some(at)
+    let at = last_word(id);
+    is_zero(&id[at..]).then(|| format!("{}1", &id[..at]))
 }
 
 /// The star id given to a row of `candidate` that names no star.

@@ -54,6 +54,22 @@ pub(super) fn zero_bytes(x: u64) -> u64 {
     !(((x & LOW7) + LOW7) | x | LOW7)
 }
 
+/// The star of a row whose star cell names no star (`hosts`): a star of
+/// its own, never one with another row of the same cell; the cell is
+/// counted and the first few kept for the note.
+#[cold]
+#[inline(never)]
+fn push_hostless(part: &mut Part, star: &str, cand: &str, hasher: &hashbrown::DefaultHashBuilder) {
+    part.hostless += 1;
+    let written = star.trim();
+    if part.hostless_written.len() < 3 && !part.hostless_written.iter().any(|w| w == written) {
+        part.hostless_written.push(written.to_string());
+    }
+    let own = hosts::own_star(cand);
+    part.star_hash.push(hasher.hash_one(own.as_bytes()));
+    part.stars.push(&own);
+}
+
 /// The rows of one chunk, parsed and validated, not yet deduplicated.
 pub(super) struct Part {
     pub(super) candidates: StrPool,
@@ -396,24 +412,13 @@ impl Layout {
             Ok((star, cand)) => {
                 part.candidate_hash.push(hasher.hash_one(cand.as_bytes()));
                 part.candidates.push(cand);
-                if hosts::names_no_star(star) {
-                    // Never one star with another row of the same cell.
-                    part.hostless += 1;
-                    let written = star.trim();
-                    if part.hostless_written.len() < 3
-                        && !part.hostless_written.iter().any(|w| w == written)
-                    {
-                        part.hostless_written.push(written.to_string());
+                match hosts::host_cell(star) {
+                    hosts::HostCell::NoStar => push_hostless(part, star, cand, hasher),
+                    cell => {
+                        part.zeros += usize::from(cell == hosts::HostCell::Zero);
+                        part.star_hash.push(hasher.hash_one(star.as_bytes()));
+                        part.stars.push(star);
                     }
-                    let own = hosts::own_star(cand);
-                    part.star_hash.push(hasher.hash_one(own.as_bytes()));
-                    part.stars.push(&own);
-                } else {
-                    if hosts::zero_at(star.trim()).is_some() {
-                        part.zeros += 1;
-                    }
-                    part.star_hash.push(hasher.hash_one(star.as_bytes()));
-                    part.stars.push(star);
                 }
                 part.lines.push(u32::try_from(line).unwrap_or(u32::MAX));
                 for (j, &(slot, _)) in self.num_cols.iter().enumerate() {
