@@ -138,9 +138,12 @@ pub fn family_stars<'a, S: PartialEq + Copy>(
 }
 
 impl Merger {
-    /// Rows that named no star (their star already `own_star`) join the
-    /// star of their candidate family where it has one; returns the note
-    /// that says what was read, or `None` when every row named its star.
+    /// Places the rows that name no star: those the parse found (`count`,
+    /// their star already [`own_star`]), and those whose star is `0` where
+    /// the table has no `1` (of `zeros` rows of a `0`). Each joins the star
+    /// of its candidate family where it has one, else keeps a star of its
+    /// own. Returns the note that says what was read, or `None` when every
+    /// row named its star.
     pub(super) fn place_hostless(
         &mut self,
         written: &[String],
@@ -250,10 +253,9 @@ impl Merger {
         // The family's star where there is one, else a star of its own.
         renamed.extend(joined);
         if !renamed.is_empty() {
-            let to = renamed;
             let mut pool = StrPool::with_capacity(n, self.row_stars.byte_len());
             for r in 0..n {
-                match to.get(&r) {
+                match renamed.get(&r) {
                     Some(star) => {
                         self.star_hash[r] = self.hasher.hash_one(star.as_bytes());
                         pool.push(star);
