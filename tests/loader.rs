@@ -474,7 +474,7 @@ fn the_fingerprint_comes_from_the_loads_own_read() {
 fn a_depth_in_mmag_beside_one_in_ppm_reads_the_ppm() {
     // Invented rows under a follow-up list's header, which gives the depth
     // twice, `Depth (mmag)` first: before, the mmag column was taken and
-    // the whole table refused (starsift does not convert magnitudes).
+    // the whole table refused. The flux depth is read as given.
     let text = "TIC ID,TOI,Period (days),Epoch (BJD),Duration (hours),Depth (mmag),Depth (mmag) err,Depth (ppm),Depth (ppm) err\n\
                 100,100.01,3.5,2458700.5,2.5,0.76,0.05,700.0,40\n\
                 101,101.01,5.5,2458701.5,3.0,1.09,0.05,1000.0,40\n";
@@ -482,12 +482,14 @@ fn a_depth_in_mmag_beside_one_in_ppm_reads_the_ppm() {
     let depth = c.columns.iter().find(|u| u.field == "depth_ppm").unwrap();
     assert_eq!(depth.header, "Depth (ppm)");
     assert_eq!(c.value(Field::DepthPpm, 1), Some(1000.0));
-    // Only mmag: refused, naming the column.
+    // Only mmag: read as a flux drop by Pogson's ratio (a definition):
+    // 1 − 10^(−0.4 × 0.00076) = 699.74 ppm (computed offline in Python).
     let only = "star,candidate,period_d,epoch,duration_h,Depth (mmag)\nA,A-1,3.5,100.5,2.5,0.76\n";
-    let e = load_bytes("mmag.csv", only.as_bytes())
-        .unwrap_err()
-        .to_string();
-    assert!(e.contains("Depth (mmag)") && e.contains("mmag"), "{e}");
+    let c = load_bytes("mmag.csv", only.as_bytes()).unwrap();
+    let d = c.value(Field::DepthPpm, 0).unwrap();
+    assert!((d - 699.74).abs() < 0.01, "{d}");
+    let depth = c.columns.iter().find(|u| u.field == "depth_ppm").unwrap();
+    assert_eq!(depth.unit, "mmag (stored as ppm)");
 }
 
 #[test]

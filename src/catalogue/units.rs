@@ -40,6 +40,23 @@ pub fn depth_unit(unit: &str) -> Option<(DepthUnit, f64)> {
     })
 }
 
+/// Magnitudes per unit of a depth stated in magnitudes (`mmag` → 0.001,
+/// `mag` → 1), or `None` for any other unit.
+pub fn magnitude_scale(unit: &str) -> Option<f64> {
+    match unit.trim().to_ascii_lowercase().as_str() {
+        "mmag" | "millimag" | "millimagnitude" | "millimagnitudes" => Some(1e-3),
+        "mag" | "magnitude" | "magnitudes" => Some(1.0),
+        _ => None,
+    }
+}
+
+/// A transit depth of `dm` magnitudes as a flux drop in ppm, by Pogson's
+/// ratio (m₁ − m₂ = −2.5 log₁₀(F₁/F₂), a definition): δ = 1 − 10^(−0.4 Δm).
+/// 1 mmag is 920.6 ppm.
+pub fn depth_ppm_of_magnitudes(dm: f64) -> f64 {
+    (1.0 - 10f64.powf(-0.4 * dm)) * 1e6
+}
+
 /// A zero written in a time unit: `BJD - 2457000`, `BJD-2454833, days`,
 /// `MJD` (JD − 2400000.5): days to add to reach a full Julian date.
 pub fn epoch_zero(unit: &str) -> Option<f64> {
@@ -133,5 +150,17 @@ mod tests {
         assert_eq!(depth_unit("ppm"), Some((DepthUnit::Ppm, 1.0)));
         assert_eq!(depth_unit("ppt"), Some((DepthUnit::Ppm, 1e3)));
         assert_eq!(depth_unit(""), None);
+        assert_eq!(depth_unit("mmag"), None);
+    }
+
+    #[test]
+    fn depths_in_magnitudes_by_pogsons_ratio() {
+        // Pogson's ratio (a definition): 5 mag is a factor 100 in flux, so
+        // a 5 mag eclipse leaves 1 % of the light: 990,000 ppm. 1 mmag:
+        // 1 − 10^(−0.0004) = 920.61 ppm (computed offline in Python).
+        assert!((depth_ppm_of_magnitudes(5.0) - 990_000.0).abs() < 1e-6);
+        let one = depth_ppm_of_magnitudes(magnitude_scale("mmag").unwrap());
+        assert!((one - 920.61).abs() < 0.01, "{one}");
+        assert_eq!(magnitude_scale("ppm"), None);
     }
 }

@@ -357,6 +357,22 @@ impl Merger {
                         format!("from the table's unit `{}`", stated.unwrap_or("")),
                         extra,
                     ),
+                    // A depth in magnitudes (`Depth (mmag)`): the flux
+                    // drop by Pogson's ratio (docs/science.md §2).
+                    (None, Some(None)) if stated.and_then(units::magnitude_scale).is_some() => {
+                        let per_mag = stated.and_then(units::magnitude_scale).unwrap_or(1.0);
+                        depths
+                            .iter_mut()
+                            .for_each(|d| *d = units::depth_ppm_of_magnitudes(*d * per_mag));
+                        (
+                            DepthUnit::Ppm,
+                            format!(
+                                "from the table's unit `{}`, as a flux drop by Pogson's ratio",
+                                stated.unwrap_or("")
+                            ),
+                            1.0,
+                        )
+                    }
                     (None, Some(None)) => {
                         return Err(LoadError::Format {
                             path: name,
@@ -378,7 +394,7 @@ impl Merger {
                     depths.iter_mut().for_each(|d| *d *= factor);
                 }
                 unit = format!("{} (stored as ppm)", du.name());
-                if extra != 1.0 {
+                if extra != 1.0 || stated.and_then(units::magnitude_scale).is_some() {
                     unit = format!("{} (stored as ppm)", stated.unwrap_or(""));
                 }
                 how = format!("{how}; unit {why}");
