@@ -11,6 +11,7 @@ mod groups;
 pub mod known;
 mod lightcurves;
 mod progress;
+mod same_place;
 mod system;
 
 pub use groups::SignalGroups;
@@ -244,6 +245,17 @@ impl Checks {
         &self.unseen_fp
     }
 
+    /// Adds stars known to host a false positive no row of theirs shows
+    /// (another id's, `families` and `same_place`): one entry per star, in
+    /// star order; an entry already there stays.
+    fn add_unseen_fp(&mut self, held: Vec<UnseenFp>) {
+        let mut all = std::mem::take(&mut self.unseen_fp);
+        all.extend(held);
+        all.sort_by_key(|u| u.star);
+        all.dedup_by_key(|u| u.star);
+        self.unseen_fp = all;
+    }
+
     /// What the checks say of the catalogue as a whole.
     pub fn notes(&self) -> &[String] {
         &self.notes
@@ -379,6 +391,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         progress.add(n % progress::STEP);
         known::flag(cat, &mut checks);
         families::flag(cat, &mut checks);
+        same_place::flag(cat, &mut checks);
         epoch_zeros(cat, &mut checks);
         progress.publish(checks.all_flags());
         let derived = system::PerCandidate {

@@ -859,3 +859,36 @@ Z3,Z3-1,5.7,0.00001,100.0,0.001,600,3.0,40,0.3,1,1,5772,0.001\n";
         "{e}"
     );
 }
+
+#[test]
+fn a_false_positive_at_the_same_place_under_another_star_id_holds_the_star() {
+    // Invented: a table merged from two lists, one star under a survey's id
+    // (`TIC 501`, two planets) and, 0.8″ away, under another catalogue's
+    // (`Gaia 88`, the eclipsing binary). Before, the binary held only its
+    // own id and both planets were validated. A binary 34″ away (`Gaia 89`
+    // beside `TIC 502`: another star in a wide field) holds nothing here
+    // (docs/science.md §3.4).
+    let rows = "\
+TIC 501,TOI-501.01,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,150.00000,20.00000,PC\n\
+TIC 501,TOI-501.02,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,150.00000,20.00000,PC\n\
+Gaia 88,G88-a,2.7,0.00001,101.3,0.001,9000,2.0,55,0.3,1,1,5772,150.00020,20.00010,EB\n\
+TIC 502,TOI-502.01,4.3,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,151.00000,20.00000,PC\n\
+TIC 502,TOI-502.02,9.9,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,151.00000,20.00000,PC\n\
+Gaia 89,G89-a,2.9,0.00001,101.3,0.001,9000,2.0,55,0.3,1,1,5772,151.01000,20.00000,EB\n";
+    let cat = written("same_place", &catalogue("ra,dec,disposition", rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for planet in ["TOI-501.01", "TOI-501.02"] {
+        assert_ne!(v[planet], "validated", "{planet}");
+    }
+    for planet in ["TOI-502.01", "TOI-502.02"] {
+        assert_eq!(v[planet], "validated", "{planet}");
+    }
+    let e = stderr(&starsift(&["odds", c, "--format", "csv"]));
+    assert!(
+        e.contains(
+            "1 star within 2″ of a known false positive under another star id (star TIC 501)"
+        ),
+        "{e}"
+    );
+}

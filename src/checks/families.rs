@@ -64,10 +64,5 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
         listed.join(", "),
         if held.len() > 3 { ", …" } else { "" },
     ));
-    // One entry per star: a skipped row's, when there is one, stays.
-    let mut all = std::mem::take(&mut out.unseen_fp);
-    all.extend(held);
-    all.sort_by_key(|u| u.star);
-    all.dedup_by_key(|u| u.star);
-    out.unseen_fp = all;
+    out.add_unseen_fp(held);
 }

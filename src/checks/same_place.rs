@@ -1,0 +1,82 @@
+//! One place, two star ids. Rows of two star ids at the same position
+//! (within [`SAME_PLACE_ARCSEC`]) are one star under two catalogues' ids,
+//! or two stars no survey aperture tells apart: either way one light. A
+//! false positive the catalogue names at one id means that light holds an
+//! eclipsing binary's, and the candidates of the other id are held as its
+//! siblings (docs/science.md §1.1, §3.4). Stars are not joined: that would
+//! add multiplicity from a position match alone.
+
+use super::echo::{real_position, separation_arcsec};
+use super::{Checks, UnseenFp};
+use crate::catalogue::{CandidateId, Catalogue, Field, StarId};
+use crate::flags::Flag;
+
+/// Two catalogue positions this close are one star, or stars no survey
+/// aperture parts (common practice, no source: the usual radius of a
+/// cross-match between catalogues; survey pixels are 4–21″).
+pub const SAME_PLACE_ARCSEC: f64 = 2.0;
+
+/// Holds each star whose rows sit within [`SAME_PLACE_ARCSEC`] of a
+/// candidate of another star id that the catalogue calls a false positive
+/// (`known-fp`), and says so.
+pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
+    let (Some(ra), Some(dec)) = (cat.column(Field::RaDeg), cat.column(Field::DecDeg)) else {
+        return;
+    };
+    // The catalogue's false positives with a position, by declination:
+    // few, usually none.
+    let mut fps: Vec<(f64, f64, CandidateId)> = (0..cat.len() as CandidateId)
+        .filter(|&c| out.flags(c).contains(Flag::KnownFp))
+        .map(|c| (dec[c as usize], ra[c as usize], c))
+        .filter(|&(d, r, _)| real_position(r, d))
+        .collect();
+    if fps.is_empty() {
+        return;
+    }
+    fps.sort_by(|a, b| a.0.total_cmp(&b.0));
+    let reach = SAME_PLACE_ARCSEC / 3600.0;
+    let mut held: Vec<UnseenFp> = Vec::new();
+    for c in 0..cat.len() as CandidateId {
+        let (r, d) = (ra[c as usize], dec[c as usize]);
+        if !real_position(r, d) {
+            continue;
+        }
+        let star: StarId = cat.star_of(c);
+        let from = fps.partition_point(|f| f.0 < d - reach);
+        let near = fps[from..]
+            .iter()
+            .take_while(|f| f.0 <= d + reach)
+            .filter(|f| cat.star_of(f.2) != star)
+            .map(|f| (f.2, separation_arcsec(f.1, f.0, r, d)))
+            .find(|&(_, apart)| apart <= SAME_PLACE_ARCSEC);
+        if let Some((fp, apart)) = near {
+            held.push(UnseenFp {
+                star,
+                why: format!(
+                    "{}, on star {} {apart:.1}″ from this star's {}, is a known false positive (the catalogue): one place, one light (one star under two ids, or stars no aperture parts)",
+                    crate::sanitize::clean(cat.candidate_id(fp)),
+                    crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
+                    crate::sanitize::clean(cat.candidate_id(c)),
+                ),
+            });
+        }
+    }
+    held.sort_by_key(|u| u.star);
+    held.dedup_by_key(|u| u.star);
+    if held.is_empty() {
+        return;
+    }
+    let listed: Vec<String> = held
+        .iter()
+        .take(3)
+        .map(|u| format!("star {}", crate::sanitize::clean(cat.star_id(u.star))))
+        .collect();
+    out.notes.push(format!(
+        "{} star{} within {SAME_PLACE_ARCSEC}″ of a known false positive under another star id ({}{}): held back, as one light with it; check the star ids (docs/science.md §3.4)",
+        held.len(),
+        if held.len() == 1 { "" } else { "s" },
+        listed.join(", "),
+        if held.len() > 3 { ", …" } else { "" },
+    ));
+    out.add_unseen_fp(held);
+}
