@@ -245,10 +245,29 @@ impl Checks {
         &self.unseen_fp
     }
 
-    /// Adds stars known to host a false positive no row of theirs shows
-    /// (another id's, `families` and `same_place`): one entry per star, in
-    /// star order; an entry already there stays.
-    fn add_unseen_fp(&mut self, held: Vec<UnseenFp>) {
+    /// Holds stars known to host a false positive that another star id's
+    /// row shows (`families`, `same_place`): one entry per star, in star
+    /// order (an entry already there stays), and a note, `say(n, listed)`
+    /// with the number of stars and the first few named.
+    fn hold_for_another_id(
+        &mut self,
+        cat: &Catalogue,
+        mut held: Vec<UnseenFp>,
+        say: impl Fn(usize, &str) -> String,
+    ) {
+        held.sort_by_key(|u| u.star);
+        held.dedup_by_key(|u| u.star);
+        if held.is_empty() {
+            return;
+        }
+        let listed: Vec<String> = held
+            .iter()
+            .take(3)
+            .map(|u| format!("star {}", crate::sanitize::clean(cat.star_id(u.star))))
+            .collect();
+        let more = if held.len() > 3 { ", …" } else { "" };
+        self.notes
+            .push(say(held.len(), &format!("{}{more}", listed.join(", "))));
         let mut all = std::mem::take(&mut self.unseen_fp);
         all.extend(held);
         all.sort_by_key(|u| u.star);

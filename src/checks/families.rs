@@ -46,23 +46,11 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
             });
         }
     }
-    held.sort_by_key(|u| u.star);
-    held.dedup_by_key(|u| u.star);
-    if held.is_empty() {
-        return;
-    }
-    let listed: Vec<String> = held
-        .iter()
-        .take(3)
-        .map(|u| format!("star {}", crate::sanitize::clean(cat.star_id(u.star))))
-        .collect();
-    out.notes.push(format!(
-        "{} star{} share{} a candidate family with a known false positive on another star id ({}{}): held back, as one star with it; check the star ids (docs/science.md §3.4)",
-        held.len(),
-        if held.len() == 1 { "" } else { "s" },
-        if held.len() == 1 { "s" } else { "" },
-        listed.join(", "),
-        if held.len() > 3 { ", …" } else { "" },
-    ));
-    out.add_unseen_fp(held);
+    out.hold_for_another_id(cat, held, |n, listed| {
+        format!(
+            "{n} star{} share{} a candidate family with a known false positive on another star id ({listed}): held back, as one star with it; check the star ids (docs/science.md §3.4)",
+            if n == 1 { "" } else { "s" },
+            if n == 1 { "s" } else { "" },
+        )
+    });
 }

@@ -61,22 +61,10 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
             });
         }
     }
-    held.sort_by_key(|u| u.star);
-    held.dedup_by_key(|u| u.star);
-    if held.is_empty() {
-        return;
-    }
-    let listed: Vec<String> = held
-        .iter()
-        .take(3)
-        .map(|u| format!("star {}", crate::sanitize::clean(cat.star_id(u.star))))
-        .collect();
-    out.notes.push(format!(
-        "{} star{} within {SAME_PLACE_ARCSEC}″ of a known false positive under another star id ({}{}): held back, as one light with it; check the star ids (docs/science.md §3.4)",
-        held.len(),
-        if held.len() == 1 { "" } else { "s" },
-        listed.join(", "),
-        if held.len() > 3 { ", …" } else { "" },
-    ));
-    out.add_unseen_fp(held);
+    out.hold_for_another_id(cat, held, |n, listed| {
+        format!(
+            "{n} star{} within {SAME_PLACE_ARCSEC}″ of a known false positive under another star id ({listed}): held back, as one light with it; check the star ids (docs/science.md §3.4)",
+            if n == 1 { "" } else { "s" },
+        )
+    });
 }
