@@ -554,3 +554,28 @@ fn star_zero_is_a_star_where_the_table_numbers_its_stars_from_zero() {
     let c = common::load_text(&prefixed);
     assert_eq!(c.star_id(c.star_of(0)), "TIC 0");
 }
+
+#[test]
+fn a_time_columns_name_may_state_its_unit() {
+    // Invented: a pipeline's table whose names carry the unit
+    // (`duration_days`, `period_hours`, `t14_min`). Before, those columns
+    // matched no field and the table was refused; a duration in days read
+    // as hours would make every transit 24 times too short.
+    let c = common::load_text(
+        "star,candidate,period_hours,epoch,depth_ppm,duration_days\nA,A-1,84,100.5,700,0.125\n",
+    );
+    let close = |v: Option<f64>, want: f64| (v.unwrap() - want).abs() < 1e-12;
+    assert!(close(c.value(Field::PeriodD, 0), 3.5));
+    assert!(close(c.value(Field::DurationH, 0), 3.0));
+    let c = common::load_text(
+        "star,candidate,period,epoch,depth_ppm,t14_min\nA,A-1,3.5,100.5,700,180\n",
+    );
+    assert!(close(c.value(Field::DurationH, 0), 3.0));
+    // The canonical names keep their own units, with nothing to convert.
+    let c = common::load_text(
+        "star,candidate,period_d,epoch,depth_ppm,duration_h\nA,A-1,3.5,100.5,700,3\n",
+    );
+    assert_eq!(c.value(Field::DurationH, 0), Some(3.0));
+    let duration = c.columns.iter().find(|u| u.field == "duration_h").unwrap();
+    assert_eq!(duration.how, "synonym");
+}

@@ -309,8 +309,42 @@ impl Field {
 
     pub fn from_header(header: &str) -> Option<Field> {
         let find = |h: &str| FIELDS.iter().copied().find(|f| f.synonyms().contains(&h));
-        find(&header.trim().to_ascii_lowercase()).or_else(|| find(&loose(header)))
+        find(&header.trim().to_ascii_lowercase())
+            .or_else(|| find(&loose(header)))
+            .or_else(|| name_time_unit(header).map(|(f, _)| f))
     }
+}
+
+/// A time field whose header names its unit as a last word
+/// (`duration_days`, `duration_min`, `period_hours`, `t14_d`) and is not a
+/// synonym as written: the field and the unit, for the unit rules to
+/// convert (`units::conversion`). Only the fields stored in days or hours.
+pub fn name_time_unit(header: &str) -> Option<(Field, &'static str)> {
+    const UNITS: [(&str, &str); 11] = [
+        ("days", "days"),
+        ("day", "days"),
+        ("d", "days"),
+        ("hours", "hours"),
+        ("hour", "hours"),
+        ("hrs", "hours"),
+        ("hr", "hours"),
+        ("h", "hours"),
+        ("minutes", "min"),
+        ("mins", "min"),
+        ("min", "min"),
+    ];
+    let name = loose(header);
+    let (stem, last) = name.rsplit_once('_')?;
+    let unit = UNITS.iter().find(|(w, _)| *w == last)?.1;
+    let field = FIELDS
+        .iter()
+        .copied()
+        .find(|f| f.synonyms().contains(&stem))?;
+    matches!(
+        field,
+        Field::PeriodD | Field::PeriodErrD | Field::EpochErrD | Field::DurationH
+    )
+    .then_some((field, unit))
 }
 
 /// A header's name and the unit it states in brackets, as archive exports

@@ -383,13 +383,23 @@ fn read_catalogue(
     let mapping = Mapping::resolve(&name, &header_fields, &opts.columns)?;
     // A delimited table states its units, if at all, in its header's
     // brackets (`Period (days)`); the other formats have their own.
+    // A time field's name may say it instead (`duration_days`): only where
+    // the name is not a synonym as written (`period_d` is one).
+    let unit_of = |h: &String| {
+        header_unit(h).1.or_else(|| {
+            let as_written = h.trim().to_ascii_lowercase();
+            super::columns::name_time_unit(h)
+                .filter(|(f, _)| !f.synonyms().contains(&as_written.as_str()))
+                .map(|(_, u)| u.to_string())
+        })
+    };
     let stated;
-    let opts = if opts.header_units.is_empty()
-        && header_fields.iter().any(|h| header_unit(h).1.is_some())
+    let opts = if opts.header_units.is_empty() && header_fields.iter().any(|h| unit_of(h).is_some())
     {
         stated = LoadOptions {
-            header_units: (header_fields.iter())
-                .map(|h| header_unit(h).1.unwrap_or_default())
+            header_units: header_fields
+                .iter()
+                .map(|h| unit_of(h).unwrap_or_default())
                 .collect(),
             ..opts.clone()
         };
