@@ -579,3 +579,27 @@ fn a_time_columns_name_may_state_its_unit() {
     let duration = c.columns.iter().find(|u| u.field == "duration_h").unwrap();
     assert_eq!(duration.how, "synonym");
 }
+
+#[test]
+fn durations_in_days_under_a_plain_name_are_said() {
+    // Invented rows: 3 h transits at 3.1 and 7.4 d, written in days
+    // (0.125 d) under a plain `duration`, which is read as hours. Their
+    // median is 0.04 of a central transit across the Sun at those periods
+    // (Winn 2010's T14), so every output says they look like days. The
+    // same rows in hours say nothing.
+    let days = "star,candidate,period,epoch,depth_ppm,duration\nM,M-1,3.1,1001.0,800,0.125\nM,M-2,7.4,1002.9,1200,0.125\n";
+    let c = common::load_text(days);
+    assert!(
+        c.notes
+            .iter()
+            .any(|n| n.contains("look like days read as hours")),
+        "{:?}",
+        c.notes
+    );
+    let c = common::load_text(&days.replace("0.125", "3.0"));
+    assert!(c.notes.is_empty(), "{:?}", c.notes);
+    // Stated in the header, the unit is read and nothing is said.
+    let c = common::load_text(&days.replace(",duration\n", ",duration (days)\n"));
+    assert!(c.notes.is_empty(), "{:?}", c.notes);
+    assert!((c.value(Field::DurationH, 0).unwrap() - 3.0).abs() < 1e-12);
+}

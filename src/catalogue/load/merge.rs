@@ -466,6 +466,25 @@ impl Merger {
                 ));
             }
         }
+        // Durations in days read as hours: said, with what to do.
+        if let (Some(p), Some(t), Some(&index)) = (
+            Field::PeriodD.num_slot().and_then(|s| num[s].as_deref()),
+            Field::DurationH.num_slot().and_then(|s| num[s].as_deref()),
+            mapping.by_field.get(&Field::DurationH),
+        ) {
+            let stated = opts
+                .header_units
+                .get(index)
+                .is_some_and(|u| !u.trim().is_empty());
+            match duration_ratio(p, t) {
+                Some(ratio) if !stated && ratio < DAYS_AS_HOURS_RATIO => notes.push(format!(
+                    "the durations (`{}`) look like days read as hours: their median is {ratio:.3} of a central transit across a Sun-like star at each period (a day-valued column read as hours is 1/24 of it); if they are days, state it in the header (`{} (days)`) and load again",
+                    crate::sanitize::clean(&header[index]),
+                    crate::sanitize::clean(header[index].trim()),
+                )),
+                _ => {}
+            }
+        }
         for (index, h, f) in &mapping.shadowed {
             columns.push(ColumnUse {
                 field: "",

@@ -62,3 +62,32 @@ pub(super) fn depth_unit(
         })
     }
 }
+
+/// Below this median ratio of the durations to a central transit's across
+/// a Sun-like star, a duration column read as hours was written in days (a
+/// day-valued column read as hours is 1/24 of the truth; real transits sit
+/// near 0.3–1.5 of it, by impact and the star's density: common practice,
+/// no source).
+pub(super) const DAYS_AS_HOURS_RATIO: f64 = 0.125;
+
+/// The median ratio of `durations_h` to the central transit duration of a
+/// small planet across a Sun-like star at each period (Winn 2010 via
+/// `science::durations_h`), over up to 10,000 rows spread through the
+/// table; `None` without rows to compare.
+pub(super) fn duration_ratio(periods: &[f64], durations_h: &[f64]) -> Option<f64> {
+    let step = (periods.len() / 10_000).max(1);
+    let mut ratios: Vec<f64> = (0..periods.len())
+        .step_by(step)
+        .filter_map(|r| {
+            let (p, t) = (periods[r], durations_h[r]);
+            let a = crate::science::a_over_rstar(p, 1.0, 1.0);
+            let (central, _) = crate::science::durations_h(p, a, 0.0, 0.0)?;
+            (t.is_finite() && central > 0.0).then(|| t / central)
+        })
+        .collect();
+    if ratios.is_empty() {
+        return None;
+    }
+    let mid = ratios.len() / 2;
+    Some(*ratios.select_nth_unstable_by(mid, f64::total_cmp).1)
+}
