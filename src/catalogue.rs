@@ -328,7 +328,7 @@ impl Catalogue {
             load::family_stars((0..self.len() as CandidateId).filter_map(|c| {
                 let star = self.star_of(c);
                 // A star of its own says nothing of a family.
-                let own = self.star_id(star).strip_prefix("host of ") == Some(self.candidate_id(c));
+                let own = load::is_own_star(self.star_id(star), self.candidate_id(c));
                 (!own).then(|| (self.candidate_id(c), star))
             }))
         });

@@ -29,7 +29,7 @@ mod row;
 mod spelling;
 mod unit_rules;
 
-pub use hosts::{candidate_family, family_key, family_stars, names_no_star};
+pub use hosts::{candidate_family, family_key, family_stars, is_own_star, names_no_star};
 pub(super) use ids::IdIndex;
 use ids::*;
 use merge::*;

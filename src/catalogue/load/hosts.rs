@@ -96,6 +96,11 @@ pub fn own_star(candidate: &str) -> String {
     format!("host of {candidate}")
 }
 
+/// Whether `star` is the [`own_star`] of `candidate`.
+pub fn is_own_star(star: &str, candidate: &str) -> bool {
+    star.strip_prefix("host of ") == Some(candidate)
+}
+
 /// The family of a candidate id, as written (`TOI-901.01` → `TOI-901`,
 /// `K00123.01` → `K00123`, `901.01` → `901`): the id before a final `.`
 /// and one to three digits, or `None` for an id with no such ending.
@@ -155,10 +160,7 @@ impl Merger {
         }
         let n = self.row_stars.len();
         let mut hostless: Vec<bool> = (0..n)
-            .map(|r| {
-                let star = self.row_stars.get(r);
-                star.strip_prefix("host of ") == Some(self.candidates.get(r))
-            })
+            .map(|r| is_own_star(self.row_stars.get(r), self.candidates.get(r)))
             .collect();
         let (mut written, mut count) = (written.to_vec(), count);
         // Rows whose star is `0` (or `TIC 0`) and whose own star id still

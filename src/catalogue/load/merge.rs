@@ -351,6 +351,7 @@ impl Merger {
             if *field == Field::DepthPpm {
                 let slot = Field::DepthPpm.num_slot().unwrap_or(0);
                 let depths = num[slot].as_deref_mut().unwrap_or(&mut []);
+                let per_mag = stated.and_then(units::magnitude_scale);
                 let (du, why, extra) = match (opts.depth_unit, stated.map(units::depth_unit)) {
                     (None, Some(Some((du, extra)))) => (
                         du,
@@ -359,8 +360,7 @@ impl Merger {
                     ),
                     // A depth in magnitudes (`Depth (mmag)`): the flux
                     // drop by Pogson's ratio (docs/science.md §2).
-                    (None, Some(None)) if stated.and_then(units::magnitude_scale).is_some() => {
-                        let per_mag = stated.and_then(units::magnitude_scale).unwrap_or(1.0);
+                    (None, Some(None)) if let Some(per_mag) = per_mag => {
                         depths
                             .iter_mut()
                             .for_each(|d| *d = units::depth_ppm_of_magnitudes(*d * per_mag));
@@ -394,7 +394,7 @@ impl Merger {
                     depths.iter_mut().for_each(|d| *d *= factor);
                 }
                 unit = format!("{} (stored as ppm)", du.name());
-                if extra != 1.0 || stated.and_then(units::magnitude_scale).is_some() {
+                if extra != 1.0 || per_mag.is_some() {
                     unit = format!("{} (stored as ppm)", stated.unwrap_or(""));
                 }
                 how = format!("{how}; unit {why}");
@@ -476,13 +476,16 @@ impl Merger {
                 .header_units
                 .get(index)
                 .is_some_and(|u| !u.trim().is_empty());
-            match duration_ratio(p, t) {
-                Some(ratio) if !stated && ratio < DAYS_AS_HOURS_RATIO => notes.push(format!(
+            let ratio = (!stated)
+                .then(|| duration_ratio(p, t))
+                .flatten()
+                .filter(|&r| r < DAYS_AS_HOURS_RATIO);
+            if let Some(ratio) = ratio {
+                notes.push(format!(
                     "the durations (`{}`) look like days read as hours: their median is {ratio:.3} of a central transit across a Sun-like star at each period (a day-valued column read as hours is 1/24 of it); if they are days, state it in the header (`{} (days)`) and load again",
                     crate::sanitize::clean(&header[index]),
                     crate::sanitize::clean(header[index].trim()),
-                )),
-                _ => {}
+                ));
             }
         }
         for (index, h, f) in &mapping.shadowed {

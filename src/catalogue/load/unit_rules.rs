@@ -43,12 +43,9 @@ pub(super) fn depth_unit(
         return Ok((u, "from the header name".into()));
     }
     let mut v: Vec<f64> = depths.iter().copied().filter(|d| d.is_finite()).collect();
-    if v.is_empty() {
+    let Some(median) = median(&mut v) else {
         return Ok((DepthUnit::Ppm, "assumed ppm (no rows)".into()));
-    }
-    let mid = v.len() / 2;
-    let (_, median, _) = v.select_nth_unstable_by(mid, f64::total_cmp);
-    let median = *median;
+    };
     if median >= PPM_MEDIAN_FLOOR {
         Ok((
             DepthUnit::Ppm,
@@ -85,9 +82,15 @@ pub(super) fn duration_ratio(periods: &[f64], durations_h: &[f64]) -> Option<f64
             (t.is_finite() && central > 0.0).then(|| t / central)
         })
         .collect();
-    if ratios.is_empty() {
+    median(&mut ratios)
+}
+
+/// The middle value of `v` (the upper of the two middle ones for an even
+/// count), reordering it; `None` when empty.
+fn median(v: &mut [f64]) -> Option<f64> {
+    if v.is_empty() {
         return None;
     }
-    let mid = ratios.len() / 2;
-    Some(*ratios.select_nth_unstable_by(mid, f64::total_cmp).1)
+    let mid = v.len() / 2;
+    Some(*v.select_nth_unstable_by(mid, f64::total_cmp).1)
 }
