@@ -420,7 +420,18 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         let mut scratch = system::Scratch::default();
         let mut links = Vec::new();
         let mut unsaid = 0;
-        for star in 0..cat.star_count() as u32 {
+        // A star's rows lie anywhere in the file: the memory is asked for
+        // them some stars ahead, so that it serves many at once.
+        let columns = system::read_columns(cat, &derived);
+        const AHEAD: u32 = 8;
+        let stars = cat.star_count() as u32;
+        for star in 0..stars {
+            if star + AHEAD < stars {
+                let ahead = cat.members(star + AHEAD);
+                if ahead.len() >= 2 {
+                    system::prefetch(&columns, ahead);
+                }
+            }
             let members = cat.members(star);
             if members.len() >= 2 {
                 system::check(

@@ -18,6 +18,8 @@
 //! - [`session`]: one catalogue with all its evidence (checks, light curves,
 //!   ledger) and the live odds; every command's verdicts come from it.
 //! - [`cli`] and [`cmd`]: the command line; one file per command.
+//! - [`parallel`] and [`prefetch`]: work split over threads; rows asked of
+//!   memory ahead of loops that read them out of file order.
 //!
 //! The core (`catalogue`, `survey`, `odds`) knows nothing of terminals.
 
@@ -38,6 +40,7 @@ pub mod lightcurve;
 pub mod odds;
 pub mod output;
 pub mod parallel;
+pub mod prefetch;
 pub mod query;
 pub mod sanitize;
 pub mod science;

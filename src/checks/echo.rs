@@ -93,23 +93,6 @@ pub(super) fn check(
     for (r, &c) in period_order.iter().enumerate() {
         rank[c as usize] = r as u32;
     }
-    // Built in file order (each column read straight through); the index
-    // lays them out in the order its search reads them.
-    let by_file: Vec<Sig> = (0..cat.len())
-        .map(|i| Sig {
-            c: i as CandidateId,
-            star: cat.star_of(i as CandidateId),
-            rank: rank[i],
-            period: periods[i],
-            period_err: per_err.map_or(0.0, |e| nan_to_zero(e[i])),
-            epoch: epochs[i],
-            epoch_err: ep_err.map_or(0.0, |e| nan_to_zero(e[i])),
-            t14_d: durations[i] / 24.0,
-            ra: ra.map_or(f64::NAN, |r| r[i]),
-            dec: dec.map_or(f64::NAN, |d| d[i]),
-        })
-        .collect();
-    stage(false);
     let pair = Pair {
         s,
         positions: ra.is_some(),
@@ -120,7 +103,21 @@ pub(super) fn check(
     // own, and they are applied below in the order of a search of one
     // signal after another in period order, so the result is the same
     // whichever thread found what.
-    let index = sweep::Index::new(by_file, s.echo_radius_arcsec);
+    // Each signal is read from the columns where the index wants it.
+    let sig = |i: usize| Sig {
+        c: i as CandidateId,
+        star: cat.star_of(i as CandidateId),
+        rank: rank[i],
+        period: periods[i],
+        period_err: per_err.map_or(0.0, |e| nan_to_zero(e[i])),
+        epoch: epochs[i],
+        epoch_err: ep_err.map_or(0.0, |e| nan_to_zero(e[i])),
+        t14_d: durations[i] / 24.0,
+        ra: ra.map_or(f64::NAN, |r| r[i]),
+        dec: dec.map_or(f64::NAN, |d| d[i]),
+    };
+    let index = sweep::Index::new(&period_order, s.echo_radius_arcsec, sig);
+    stage(false);
     stage(false);
     let mut swept = crate::parallel::in_parts(index.bands_len(), |r| index.sweep_bands(r, &pair));
     swept.extend(crate::parallel::in_parts(index.unplaced_len(), |r| {

@@ -220,6 +220,36 @@ fn together(a: &Member, b: &Member, n: f64, t14_d: f64) -> Together {
     }
 }
 
+/// The columns [`check`] reads of each member, catalogue's and derived.
+pub(super) fn read_columns<'a>(cat: &'a Catalogue, derived: &PerCandidate<'a>) -> Vec<&'a [f64]> {
+    [
+        Field::PeriodD,
+        Field::PeriodErrD,
+        Field::DurationH,
+        Field::Epoch,
+        Field::EpochErrD,
+        Field::RaDeg,
+        Field::DecDeg,
+        Field::Mag,
+        Field::StarRadiusRsun,
+        Field::StarTeffK,
+        Field::DepthPpm,
+    ]
+    .into_iter()
+    .filter_map(|f| cat.column(f))
+    .chain([derived.density_transit, derived.radius_rearth])
+    .collect()
+}
+
+/// Asks the memory for what [`check`] will read of `members`' rows
+/// (`columns` from [`read_columns`]), some stars before it reads them: a
+/// star's rows lie anywhere in the file.
+pub(super) fn prefetch(columns: &[&[f64]], members: &[CandidateId]) {
+    for &c in members {
+        crate::prefetch::row(columns, c as usize);
+    }
+}
+
 /// Buffers reused from star to star.
 #[derive(Default)]
 pub(super) struct Scratch {

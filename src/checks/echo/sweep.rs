@@ -49,62 +49,110 @@ pub(super) fn placed(s: &Sig) -> bool {
     super::real_position(s.ra, s.dec)
 }
 
+/// The band of a signal without a position.
+const UNPLACED: u32 = u32::MAX;
+
+/// The signals (by place in file order) ordered by band, then by rank, those
+/// without a position ([`UNPLACED`]) last: a counting sort of the period
+/// order by band where the bands are few beside the signals (any radius of
+/// arcseconds or more), else a sort of (band, rank) keys.
+fn band_order(band_of: &[u32], by_rank: &[u32]) -> Vec<u32> {
+    let n = band_of.len();
+    let top = band_of.iter().filter(|&&b| b != UNPLACED).max().copied();
+    let slots = top.map_or(0, |t| t as usize + 1) + 1;
+    if slots > 4 * n + 4096 {
+        let mut keys: Vec<u64> = by_rank
+            .iter()
+            .enumerate()
+            .map(|(r, &i)| u64::from(band_of[i as usize]) << 32 | r as u64)
+            .collect();
+        keys.sort_unstable();
+        return keys
+            .into_iter()
+            .map(|k| by_rank[k as u32 as usize])
+            .collect();
+    }
+    let slot = |b: u32| if b == UNPLACED { slots - 1 } else { b as usize };
+    let mut next = vec![0usize; slots + 1];
+    for &b in band_of {
+        next[slot(b) + 1] += 1;
+    }
+    for k in 1..next.len() {
+        next[k] += next[k - 1];
+    }
+    let mut order = vec![0u32; n];
+    for &i in by_rank {
+        let s = slot(band_of[i as usize]);
+        order[next[s]] = i;
+        next[s] += 1;
+    }
+    order
+}
+
 impl Index {
-    /// The index of the signals (in any order; each knows its rank in the
-    /// period order), for an echo radius in arcsec.
-    pub fn new(mut sigs: Vec<Sig>, radius_arcsec: f64) -> Index {
+    /// The index of the signals, for an echo radius in arcsec: `sig(i)` is
+    /// the i-th in file order, and `by_rank` the places in file order of
+    /// the signals in period order (so `sig(by_rank[r]).rank` is r). Each
+    /// signal is built twice, once in file order for its band and once
+    /// where the index keeps it, so no copy of them all is ever sorted.
+    pub fn new(by_rank: &[u32], radius_arcsec: f64, sig: impl Fn(usize) -> Sig) -> Index {
+        let n = by_rank.len();
         // A little wider than the radius, so rounding in the band number
         // never parts two signals within it by more than one band; and at
         // least 1e-7 degree, so every band number fits in 32 bits (wider
         // bands only compare more pairs).
         let width = (radius_arcsec * (1.0 + 1e-6) / 3600.0).max(1e-7);
-        let band = |s: &Sig| {
-            if width.is_finite() && width < 180.0 {
-                ((s.dec + 90.0) / width).floor() as u64
-            } else {
-                0
-            }
-        };
-        // Sorted in place (no second copy of the signals): those with a
-        // position by band, then period; those without after them.
-        let key = |s: &Sig| {
-            let b = if placed(s) { band(s) } else { u64::MAX };
-            b << 32 | u64::from(s.rank)
-        };
-        sigs.sort_unstable_by_key(key);
-        let split = sigs.partition_point(placed);
+        let band_of: Vec<u32> = (0..n)
+            .map(|i| {
+                let s = sig(i);
+                if !placed(&s) {
+                    UNPLACED
+                } else if width.is_finite() && width < 180.0 {
+                    ((s.dec + 90.0) / width).floor() as u32
+                } else {
+                    0
+                }
+            })
+            .collect();
+        // Those with a position by band, then period; those without after
+        // them, in period order.
+        let order = band_order(&band_of, by_rank);
+        let split = order.partition_point(|&i| band_of[i as usize] != UNPLACED);
         let mut bands: Vec<(i64, usize, usize)> = Vec::new();
-        for (at, s) in sigs[..split].iter().enumerate() {
-            let b = band(s) as i64;
+        for (at, &i) in order[..split].iter().enumerate() {
+            let b = i64::from(band_of[i as usize]);
             match bands.last_mut() {
                 Some(last) if last.0 == b => last.2 = at + 1,
                 _ => bands.push((b, at, at + 1)),
             }
         }
-        if split == sigs.len() {
+        drop(band_of);
+        let placed: Vec<Sig> = order[..split].iter().map(|&i| sig(i as usize)).collect();
+        if split == n {
             // Every signal has a position: the bands are all there is.
             return Index {
                 all: Vec::new(),
-                placed: sigs,
+                placed,
                 bands,
                 unplaced: Vec::new(),
                 unplaced_sigs: Vec::new(),
             };
         }
         // Some have no position: their search reads every signal, in
-        // period order.
-        // Their ranks (in order: the sort put them last, by rank) are their
-        // places in `all`.
-        let unplaced = sigs[split..].iter().map(|s| s.rank).collect();
-        let (in_bands, unplaced_sigs) = if split == 0 {
-            (Vec::new(), Vec::new())
+        // period order. Their ranks are their places in `all`.
+        let unplaced: Vec<u32> = order[split..]
+            .iter()
+            .map(|&i| sig(i as usize).rank)
+            .collect();
+        let all: Vec<Sig> = by_rank.iter().map(|&i| sig(i as usize)).collect();
+        let unplaced_sigs = if split == 0 {
+            Vec::new()
         } else {
-            (sigs[..split].to_vec(), sigs[split..].to_vec())
+            unplaced.iter().map(|&r| all[r as usize]).collect()
         };
-        sigs.sort_unstable_by_key(|s| s.rank);
         Index {
-            all: sigs,
-            placed: in_bands,
+            all,
+            placed,
             bands,
             unplaced,
             unplaced_sigs,
@@ -364,7 +412,8 @@ mod tests {
             by_rank.sort_by_key(|s| s.rank);
             let mut want = every_pair(&by_rank, &pair);
             want.sort_unstable();
-            let index = Index::new(sigs, radius);
+            let period_order: Vec<u32> = by_rank.iter().map(|s| s.c).collect();
+            let index = Index::new(&period_order, radius, |i| sigs[i]);
             let (bands, unplaced) = (
                 index.sweep_bands(0..index.bands_len(), &pair),
                 index.sweep_unplaced(0..index.unplaced_len(), &pair),
