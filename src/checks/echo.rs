@@ -116,7 +116,7 @@ pub(super) fn check(
         ra: ra.map_or(f64::NAN, |r| r[i]),
         dec: dec.map_or(f64::NAN, |d| d[i]),
     };
-    let index = sweep::Index::new(&period_order, s.echo_radius_arcsec, sig);
+    let index = sweep::Index::new(cat.len(), s.echo_radius_arcsec, sig);
     stage(false);
     stage(false);
     let mut swept = crate::parallel::in_parts(index.bands_len(), |r| index.sweep_bands(r, &pair));

@@ -52,51 +52,51 @@ pub(super) fn placed(s: &Sig) -> bool {
 /// The band of a signal without a position.
 const UNPLACED: u32 = u32::MAX;
 
-/// The signals (by place in file order) ordered by band, then by rank, those
-/// without a position ([`UNPLACED`]) last: a counting sort of the period
-/// order by band where the bands are few beside the signals (any radius of
-/// arcseconds or more), else a sort of (band, rank) keys.
-fn band_order(band_of: &[u32], by_rank: &[u32]) -> Vec<u32> {
-    let n = band_of.len();
-    let top = band_of.iter().filter(|&&b| b != UNPLACED).max().copied();
-    let slots = top.map_or(0, |t| t as usize + 1) + 1;
-    if slots > 4 * n + 4096 {
-        let mut keys: Vec<u64> = by_rank
-            .iter()
-            .enumerate()
-            .map(|(r, &i)| u64::from(band_of[i as usize]) << 32 | r as u64)
-            .collect();
-        keys.sort_unstable();
-        return keys
-            .into_iter()
-            .map(|k| by_rank[k as u32 as usize])
-            .collect();
+/// The band of declination of a signal with a position, for bands `width`
+/// degrees wide.
+fn band_number(s: &Sig, width: f64) -> u32 {
+    if width.is_finite() && width < 180.0 {
+        ((s.dec + 90.0) / width).floor() as u32
+    } else {
+        0
     }
-    let slot = |b: u32| if b == UNPLACED { slots - 1 } else { b as usize };
-    let mut next = vec![0usize; slots + 1];
-    for &b in band_of {
-        next[slot(b) + 1] += 1;
-    }
-    for k in 1..next.len() {
-        next[k] += next[k - 1];
-    }
-    let mut order = vec![0u32; n];
-    for &i in by_rank {
-        let s = slot(band_of[i as usize]);
-        order[next[s]] = i;
-        next[s] += 1;
-    }
-    order
+}
+
+/// How many groups of neighbouring bands the index is first laid out in.
+const GROUPS: usize = 64;
+
+/// The group of each band (`start`: where each band starts, and at the end
+/// where the last ends), numbered from 0 with no number skipped:
+/// neighbouring bands, about `groups` groups of equal signal counts, a
+/// band never split.
+fn groups_of_bands(start: &[usize], groups: usize) -> Vec<u32> {
+    let total = start.last().copied().unwrap_or(0);
+    let per = total.div_ceil(groups).max(1);
+    let mut id = 0;
+    let mut last = None;
+    (0..start.len().saturating_sub(1))
+        .map(|k| {
+            let g = start[k] / per;
+            if last.is_some_and(|l| l != g) {
+                id += 1;
+            }
+            last = Some(g);
+            id
+        })
+        .collect()
 }
 
 impl Index {
     /// The index of the signals, for an echo radius in arcsec: `sig(i)` is
-    /// the i-th in file order, and `by_rank` the places in file order of
-    /// the signals in period order (so `sig(by_rank[r]).rank` is r). Each
-    /// signal is built twice, once in file order for its band and once
-    /// where the index keeps it, so no copy of them all is ever sorted.
-    pub fn new(by_rank: &[u32], radius_arcsec: f64, sig: impl Fn(usize) -> Sig) -> Index {
-        let n = by_rank.len();
+    /// the i-th in file order, with its place in the period order (`rank`,
+    /// a permutation of 0..n).
+    ///
+    /// Laid out without reading anything out of file order: each signal is
+    /// built from the columns in file order and written to its band (in two
+    /// steps, below), and then each band, a few hundred signals, is sorted
+    /// by period. A layout that read the signals in the index's order
+    /// waited on memory at every signal.
+    pub fn new(n: usize, radius_arcsec: f64, sig: impl Fn(usize) -> Sig) -> Index {
         // A little wider than the radius, so rounding in the band number
         // never parts two signals within it by more than one band; and at
         // least 1e-7 degree, so every band number fits in 32 bits (wider
@@ -105,34 +105,122 @@ impl Index {
         let band_of: Vec<u32> = (0..n)
             .map(|i| {
                 let s = sig(i);
-                if !placed(&s) {
-                    UNPLACED
-                } else if width.is_finite() && width < 180.0 {
-                    ((s.dec + 90.0) / width).floor() as u32
+                if placed(&s) {
+                    band_number(&s, width)
                 } else {
-                    0
+                    UNPLACED
                 }
             })
             .collect();
-        // Those with a position by band, then period; those without after
-        // them, in period order.
-        let order = band_order(&band_of, by_rank);
-        let split = order.partition_point(|&i| band_of[i as usize] != UNPLACED);
-        let mut bands: Vec<(i64, usize, usize)> = Vec::new();
-        for (at, &i) in order[..split].iter().enumerate() {
-            let b = i64::from(band_of[i as usize]);
-            match bands.last_mut() {
-                Some(last) if last.0 == b => last.2 = at + 1,
-                _ => bands.push((b, at, at + 1)),
+        // The bands that hold signals, in order: every band number up to
+        // the largest where they are few beside the signals (a radius of
+        // arcseconds or more), else the distinct ones.
+        let top = band_of.iter().filter(|&&b| b != UNPLACED).max().copied();
+        let dense = top.is_some_and(|t| (t as usize) < 4 * n + 4096);
+        let numbers: Vec<u32> = match top {
+            None => Vec::new(),
+            Some(t) if dense => (0..=t).collect(),
+            Some(_) => {
+                let mut v: Vec<u32> = band_of.iter().copied().filter(|&b| b != UNPLACED).collect();
+                v.sort_unstable();
+                v.dedup();
+                v
+            }
+        };
+        let slot = |b: u32| {
+            if dense {
+                b as usize
+            } else {
+                numbers.partition_point(|&x| x < b)
+            }
+        };
+        let mut start = vec![0usize; numbers.len() + 1];
+        for &b in &band_of {
+            if b != UNPLACED {
+                start[slot(b) + 1] += 1;
+            }
+        }
+        for k in 1..start.len() {
+            start[k] += start[k - 1];
+        }
+        let split = start[numbers.len()];
+        let bands: Vec<(i64, usize, usize)> = numbers
+            .iter()
+            .enumerate()
+            .filter(|&(k, _)| start[k + 1] > start[k])
+            .map(|(k, &b)| (i64::from(b), start[k], start[k + 1]))
+            .collect();
+        // Signals with a position to the end of their band; where some
+        // signal has none, every signal to its place in period order too.
+        // Written in two steps, so that the ends being written are always
+        // few (in cache and in the address cache): first to the end of a
+        // group of neighbouring bands, then, a group at a time, from a copy
+        // of the group to the end of each band.
+        let group_of = groups_of_bands(&start, GROUPS);
+        let group_start: Vec<usize> = {
+            let mut g: Vec<usize> = (0..start.len() - 1)
+                .filter(|&k| k == 0 || group_of[k] != group_of[k - 1])
+                .map(|k| start[k])
+                .collect();
+            g.push(split);
+            g
+        };
+        let mut in_bands: Vec<Sig> = Vec::new();
+        let mut all: Vec<Sig> = Vec::new();
+        if n > 0 {
+            let filler = sig(0);
+            in_bands.resize(split, filler);
+            if split < n {
+                all.resize(n, filler);
+            }
+            let mut end = group_start.clone();
+            for (i, &b) in band_of.iter().enumerate() {
+                let s = sig(i);
+                if split < n {
+                    all[s.rank as usize] = s;
+                }
+                if b != UNPLACED {
+                    let e = &mut end[group_of[slot(b)] as usize];
+                    in_bands[*e] = s;
+                    *e += 1;
+                }
             }
         }
         drop(band_of);
-        let placed: Vec<Sig> = order[..split].iter().map(|&i| sig(i as usize)).collect();
+        let mut copy: Vec<Sig> = Vec::new();
+        let mut end = start.clone();
+        for g in 0..group_start.len() - 1 {
+            let (a, b) = (group_start[g], group_start[g + 1]);
+            copy.clear();
+            copy.extend_from_slice(&in_bands[a..b]);
+            for s in &copy {
+                let e = &mut end[slot(band_number(s, width))];
+                in_bands[*e] = *s;
+                *e += 1;
+            }
+        }
+        // Each band by period: its ranks sorted as integers (with the
+        // signal's place in their low bits), the signals then put in that
+        // order, which moves each signal once.
+        let mut keys: Vec<u64> = Vec::new();
+        for &(_, a, b) in &bands {
+            let band = &mut in_bands[a..b];
+            keys.clear();
+            keys.extend(
+                band.iter()
+                    .enumerate()
+                    .map(|(k, s)| u64::from(s.rank) << 32 | k as u64),
+            );
+            keys.sort_unstable();
+            copy.clear();
+            copy.extend(keys.iter().map(|&k| band[k as u32 as usize]));
+            band.copy_from_slice(&copy);
+        }
         if split == n {
             // Every signal has a position: the bands are all there is.
             return Index {
-                all: Vec::new(),
-                placed,
+                all,
+                placed: in_bands,
                 bands,
                 unplaced: Vec::new(),
                 unplaced_sigs: Vec::new(),
@@ -140,19 +228,17 @@ impl Index {
         }
         // Some have no position: their search reads every signal, in
         // period order. Their ranks are their places in `all`.
-        let unplaced: Vec<u32> = order[split..]
-            .iter()
-            .map(|&i| sig(i as usize).rank)
-            .collect();
-        let all: Vec<Sig> = by_rank.iter().map(|&i| sig(i as usize)).collect();
+        let unplaced_sigs: Vec<Sig> = all.iter().filter(|s| !placed(s)).copied().collect();
+        let unplaced = unplaced_sigs.iter().map(|s| s.rank).collect();
+        // With no position anywhere, the bands and their search are empty.
         let unplaced_sigs = if split == 0 {
             Vec::new()
         } else {
-            unplaced.iter().map(|&r| all[r as usize]).collect()
+            unplaced_sigs
         };
         Index {
             all,
-            placed,
+            placed: in_bands,
             bands,
             unplaced,
             unplaced_sigs,
@@ -386,6 +472,16 @@ mod tests {
     }
 
     #[test]
+    fn groups_of_bands_are_numbered_without_gaps() {
+        // Bands of 0, 10, 0, 90 and 1 signals in groups of about 26: the
+        // band of 90 fills more than one group's share, and the band after
+        // it is in group 1, the next group, not group 3.
+        let start = [0, 0, 10, 10, 100, 101];
+        assert_eq!(groups_of_bands(&start, 4), vec![0, 0, 0, 0, 1]);
+        assert_eq!(groups_of_bands(&[0], 4), Vec::<u32>::new());
+    }
+
+    #[test]
     fn the_bands_find_what_comparing_every_pair_finds() {
         // Radii from far below the patches' size to wider than the sky.
         for (seed, radius) in [(1, 120.0), (2, 30.0), (3, 1000.0), (4, 1e7), (5, 0.0)] {
@@ -412,8 +508,7 @@ mod tests {
             by_rank.sort_by_key(|s| s.rank);
             let mut want = every_pair(&by_rank, &pair);
             want.sort_unstable();
-            let period_order: Vec<u32> = by_rank.iter().map(|s| s.c).collect();
-            let index = Index::new(&period_order, radius, |i| sigs[i]);
+            let index = Index::new(sigs.len(), radius, |i| sigs[i]);
             let (bands, unplaced) = (
                 index.sweep_bands(0..index.bands_len(), &pair),
                 index.sweep_unplaced(0..index.unplaced_len(), &pair),
