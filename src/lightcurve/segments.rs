@@ -14,6 +14,10 @@ use super::{
 /// Fewest usable samples a segment needs to be normalised and kept.
 const MIN_SAMPLES: usize = 10;
 
+/// A segment whose median flux is less than this many point-to-point
+/// scatters above zero is refused as centred on zero.
+const ZERO_CENTRED_SIGMAS: f64 = 3.0;
+
 /// File extensions a light-curve file may have.
 pub const EXTENSIONS: [&str; 10] = [
     ".csv", ".csv.gz", ".tsv", ".tsv.gz", ".fits", ".fits.gz", ".fit", ".fit.gz", ".fts", ".fts.gz",
@@ -298,6 +302,23 @@ fn clean(
     check_span(&source, &raw.time, &rows)?;
     let mut flux: Vec<f64> = rows.iter().map(|r| r.1).collect();
     let median = median_of(&mut flux.clone());
+    // A flux centred on zero (a relative flux f/f₀ − 1, a difference image's
+    // flux) has a median within its own noise of 0, of either sign:
+    // dividing by it would scale every depth by chance. Real photometry's
+    // median stands hundreds of its point-to-point scatters above zero; 3
+    // is common practice, no source (docs/science.md §4.5).
+    let scatter = super::point_to_point_sigma(&flux);
+    if median.abs() < ZERO_CENTRED_SIGMAS * scatter {
+        return Err(LcError::Bad {
+            path: source,
+            message: format!(
+                "the flux is centred on zero (median {median:.3e}, within \
+                 {ZERO_CENTRED_SIGMAS} point-to-point scatters of {scatter:.3e} of 0): it looks \
+                 like a relative flux (f/f₀ − 1) or a difference, which cannot be normalised; \
+                 give the flux itself (--flux-column)"
+            ),
+        });
+    }
     if median.is_nan() || median <= 0.0 {
         return Err(LcError::Bad {
             path: source,
@@ -526,6 +547,26 @@ mod tests {
         let kept =
             LightCurve::from_segments(vec![("a".into(), raw(0.0, 100, 5.0))], Some(1)).unwrap();
         assert_eq!(kept.time.len(), 100);
+    }
+
+    #[test]
+    fn a_flux_centred_on_zero_is_refused_not_divided_by_its_median() {
+        // A relative flux (f/f₀ − 1) with 1e-3 noise and a 1 % transit: its
+        // median is a chance value near zero.
+        let mut r = raw(0.0, 400, 1.0);
+        let mut x = 7u64;
+        for (i, f) in r.flux.iter_mut().enumerate() {
+            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            let u = (x >> 11) as f64 / (1u64 << 53) as f64 - 0.5;
+            *f = 2e-5 + 3.5e-3 * u - if i % 100 < 4 { 0.01 } else { 0.0 };
+        }
+        let err = LightCurve::from_segments(vec![("rel.csv".into(), r.clone())], None)
+            .unwrap_err()
+            .to_string();
+        assert!(err.contains("rel.csv") && err.contains("centred on zero"), "{err}");
+        // The same light curve as a flux (1 added) is read.
+        r.flux.iter_mut().for_each(|f| *f += 1.0);
+        assert!(LightCurve::from_segments(vec![("flux.csv".into(), r)], None).is_ok());
     }
 
     #[test]
