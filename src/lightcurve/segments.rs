@@ -556,14 +556,19 @@ mod tests {
         let mut r = raw(0.0, 400, 1.0);
         let mut x = 7u64;
         for (i, f) in r.flux.iter_mut().enumerate() {
-            x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            x = x
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
             let u = (x >> 11) as f64 / (1u64 << 53) as f64 - 0.5;
             *f = 2e-5 + 3.5e-3 * u - if i % 100 < 4 { 0.01 } else { 0.0 };
         }
         let err = LightCurve::from_segments(vec![("rel.csv".into(), r.clone())], None)
             .unwrap_err()
             .to_string();
-        assert!(err.contains("rel.csv") && err.contains("centred on zero"), "{err}");
+        assert!(
+            err.contains("rel.csv") && err.contains("centred on zero"),
+            "{err}"
+        );
         // The same light curve as a flux (1 added) is read.
         r.flux.iter_mut().for_each(|f| *f += 1.0);
         assert!(LightCurve::from_segments(vec![("flux.csv".into(), r)], None).is_ok());
