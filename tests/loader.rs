@@ -603,3 +603,43 @@ fn durations_in_days_under_a_plain_name_are_said() {
     assert!(c.notes.is_empty(), "{:?}", c.notes);
     assert!((c.value(Field::DurationH, 0).unwrap() - 3.0).abs() < 1e-12);
 }
+
+#[test]
+fn a_table_that_numbers_each_stars_signals_names_them_star_dot_number() {
+    // Invented rows in the layout of the archives' threshold-crossing event
+    // tables (`ticid`, `tce_plnt_num`, `tce_*`; from memory of their column
+    // lists): no candidate column. Before, the table was refused for a
+    // missing candidate. Each signal is now `<star>.<nn>`, the rows keep
+    // their line numbers (a comment line first), and the table says how the
+    // candidates were named.
+    let text = "# invented events\n\
+        ticid,tce_plnt_num,tce_period,tce_time0bt,tce_depth,tce_duration,tce_model_snr\n\
+        901,1,3.5,1325.1,500,2.5,12\n\
+        901,2,7.9,1326.3,400,3.0,11\n\
+        902,1,5.5,1325.1,500,2.5,12\n\
+        902,1,5.5,1325.1,500,2.5,12\n";
+    let c = load_bytes("events.csv", text.as_bytes()).unwrap();
+    let ids: Vec<&str> = (0..c.len() as u32).map(|i| c.candidate_id(i)).collect();
+    assert_eq!(ids, ["901.01", "901.02", "902.01"]);
+    assert_eq!(c.star_id(c.star_of(1)), "901");
+    assert_eq!(c.value(Field::PeriodD, 1), Some(7.9));
+    assert_eq!(c.value(Field::DepthPpm, 2), Some(500.0));
+    // The copy of 902's signal is refused on its own line, 6.
+    assert_eq!(c.skipped.len(), 1);
+    assert_eq!(c.skipped[0].line, 6);
+    assert!(
+        c.skipped[0].reason.contains("902.01"),
+        "{}",
+        c.skipped[0].reason
+    );
+    assert!(
+        c.notes.iter().any(|n| n.contains("tce_plnt_num")),
+        "{:?}",
+        c.notes
+    );
+    // A table that names its candidates keeps its names.
+    let named = "kepid,kepoi_name,tce_plnt_num,period,epoch,depth_ppm,duration_h\n\
+        5,K00005.01,1,3.5,100.1,500,2.5\n";
+    let c = load_bytes("named.csv", named.as_bytes()).unwrap();
+    assert_eq!(c.candidate_id(0), "K00005.01");
+}

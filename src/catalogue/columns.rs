@@ -133,7 +133,8 @@ impl Field {
         match self {
             // Archive spellings last (the exoplanet archives' candidate
             // tables: `tid`/`toi`, `kepid`/`kepoi_name`, `pl_*`, `koi_*`,
-            // `st_*`, from memory of their column lists).
+            // `st_*`; their threshold-crossing event tables: `ticid`,
+            // `tce_*`; from memory of their column lists).
             Field::Star => &[
                 "star",
                 "star_id",
@@ -144,6 +145,7 @@ impl Field {
                 "tid",
                 "tic_id",
                 "kepid",
+                "ticid",
             ],
             Field::Candidate => &[
                 "candidate",
@@ -162,6 +164,7 @@ impl Field {
                 "per",
                 "pl_orbper",
                 "koi_period",
+                "tce_period",
             ],
             Field::Epoch => &[
                 "epoch",
@@ -171,6 +174,9 @@ impl Field {
                 "pl_tranmid",
                 "koi_time0",
                 "koi_time0bk",
+                "tce_time0",
+                "tce_time0bk",
+                "tce_time0bt",
             ],
             // The unit-suffixed depth names fix the unit; see `DepthUnit`.
             Field::DepthPpm => &[
@@ -182,6 +188,7 @@ impl Field {
                 "depth_percent",
                 "pl_trandep",
                 "koi_depth",
+                "tce_depth",
             ],
             Field::DurationH => &[
                 "duration",
@@ -191,10 +198,11 @@ impl Field {
                 "t14",
                 "pl_trandurh",
                 "koi_duration",
+                "tce_duration",
             ],
-            Field::Snr => &["snr", "koi_model_snr", "planet_snr"],
-            Field::Impact => &["impact", "b", "pl_imppar", "koi_impact"],
-            Field::Ror => &["ror", "rp_rs", "pl_ratror", "koi_ror"],
+            Field::Snr => &["snr", "koi_model_snr", "planet_snr", "tce_model_snr"],
+            Field::Impact => &["impact", "b", "pl_imppar", "koi_impact", "tce_impact"],
+            Field::Ror => &["ror", "rp_rs", "pl_ratror", "koi_ror", "tce_ror"],
             Field::StarRadiusRsun => &[
                 "star_radius",
                 "star_radius_rsun",
@@ -202,6 +210,7 @@ impl Field {
                 "st_rad",
                 "koi_srad",
                 "stellar_radius",
+                "tce_sradius",
             ],
             Field::StarMassMsun => &[
                 "star_mass",
@@ -210,6 +219,7 @@ impl Field {
                 "st_mass",
                 "koi_smass",
                 "stellar_mass",
+                "tce_smass",
             ],
             Field::StarTeffK => &[
                 "teff",
@@ -218,8 +228,9 @@ impl Field {
                 "st_teff",
                 "koi_steff",
                 "stellar_eff_temp",
+                "tce_steff",
             ],
-            Field::StarLogg => &["logg", "star_logg", "st_logg", "koi_slogg"],
+            Field::StarLogg => &["logg", "star_logg", "st_logg", "koi_slogg", "tce_slogg"],
             Field::RaDeg => &["ra", "ra_deg"],
             Field::DecDeg => &["dec", "dec_deg"],
             Field::Mag => &[
@@ -239,6 +250,7 @@ impl Field {
                 "period_unc",
                 "pl_orbpererr1",
                 "koi_period_err1",
+                "tce_period_err",
             ],
             Field::EpochErrD => &[
                 "epoch_err",
@@ -246,6 +258,9 @@ impl Field {
                 "t0_err",
                 "pl_tranmiderr1",
                 "koi_time0bk_err1",
+                "tce_time0_err",
+                "tce_time0bk_err",
+                "tce_time0bt_err",
             ],
             Field::Contamination => &["contamination", "dilution"],
             Field::Disposition => &[

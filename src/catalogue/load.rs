@@ -24,6 +24,7 @@ mod hosts;
 mod ids;
 mod merge;
 mod number;
+pub mod numbered;
 mod records;
 mod row;
 mod spelling;
@@ -379,6 +380,20 @@ fn read_catalogue(
             line: header_line,
             count: header_fields.len(),
         });
+    }
+    // A table that numbers each star's signals and names none: read again
+    // with a candidate column made from the star and the number.
+    if let Some(cols) = numbered::columns(&header_fields, &opts.columns) {
+        text.read_to_end(&mut buf).map_err(io_err)?;
+        let with = numbered::with_candidates(&name, &buf, delimiter, cols)?;
+        drop(buf);
+        let mut cat = read_catalogue(name, std::io::Cursor::new(with), delimiter, opts, None)?;
+        cat.notes.push(format!(
+            "no candidate column: each row's candidate is named <star>.<nn> from its star \
+             and `{}`, the number of its signal on that star",
+            crate::sanitize::clean(&header_fields[cols.1])
+        ));
+        return Ok(cat);
     }
     let mapping = Mapping::resolve(&name, &header_fields, &opts.columns)?;
     // A delimited table states its units, if at all, in its header's
