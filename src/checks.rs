@@ -257,6 +257,13 @@ impl Checks {
     ) {
         held.sort_by_key(|u| u.star);
         held.dedup_by_key(|u| u.star);
+        // A star held already (by an earlier pass, or a skipped row) stays
+        // as it was, and is not said again.
+        held.retain(|u| {
+            self.unseen_fp
+                .binary_search_by_key(&u.star, |o| o.star)
+                .is_err()
+        });
         if held.is_empty() {
             return;
         }
@@ -381,6 +388,29 @@ fn epoch_zeros(cat: &Catalogue, out: &mut Checks) {
 }
 
 /// Runs every check on the catalogue.
+/// Whether candidate `c` is a false positive by the checks so far: the
+/// catalogue calls it one, or it carries a sign that holds its own star
+/// (`FlagSet::false_positive_signs`, firm).
+pub(crate) fn shows_false_positive(checks: &Checks, c: CandidateId) -> bool {
+    checks.flags(c).intersects(FlagSet::false_positive_signs())
+}
+
+/// How a false positive is known, for the notes of the stars it holds
+/// under another id: `a known false positive (the catalogue)`, else the
+/// signs its checks show.
+pub(crate) fn false_positive_words(checks: &Checks, c: CandidateId) -> String {
+    if checks.flags(c).contains(Flag::KnownFp) || checks.warnings(c).contains(Flag::KnownFp) {
+        return "a known false positive (the catalogue)".into();
+    }
+    let signs: Vec<&str> = checks
+        .flags(c)
+        .intersection(FlagSet::false_positive_signs())
+        .iter()
+        .map(|f| f.name())
+        .collect();
+    format!("a false positive by its checks ({})", signs.join(", "))
+}
+
 pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
     run_counted(cat, s, &CheckProgress::default())
 }
@@ -409,8 +439,6 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         }
         progress.add(n % progress::STEP);
         known::flag(cat, &mut checks);
-        families::flag(cat, &mut checks);
-        same_place::flag(cat, &mut checks);
         epoch_zeros(cat, &mut checks);
         progress.publish(checks.all_flags());
         let derived = system::PerCandidate {
@@ -451,6 +479,10 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         }
         progress.add(unsaid);
         group_flags(cat, &links, &mut checks);
+        // A false positive's signs (the catalogue's word, an eclipse pair,
+        // a radius no planet has) hold the star under its other ids too.
+        families::flag(cat, &mut checks);
+        same_place::flag(cat, &mut checks);
         progress.publish(checks.all_flags());
         (
             checks,

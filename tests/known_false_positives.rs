@@ -828,7 +828,7 @@ Gaia 4412,TOI-903.03,3.1,0.00001,101.6,0.001,700,2.0,30,0.3,1,1,5772,PC\n";
     let o = starsift(&["odds", c, "--format", "csv"]);
     let e = stderr(&o);
     assert!(
-        e.contains("1 star shares a candidate family with a known false positive on another star id (star TIC 778)"),
+        e.contains("1 star shares a candidate family with a false positive on another star id (star TIC 778)"),
         "{e}"
     );
 }
@@ -886,9 +886,44 @@ Gaia 89,G89-a,2.9,0.00001,101.3,0.001,9000,2.0,55,0.3,1,1,5772,151.01000,20.0000
     }
     let e = stderr(&starsift(&["odds", c, "--format", "csv"]));
     assert!(
-        e.contains(
-            "1 star within 2″ of a known false positive under another star id (star TIC 501)"
-        ),
+        e.contains("1 star within 2″ of a false positive under another star id (star TIC 501)"),
         "{e}"
+    );
+}
+
+#[test]
+fn a_radius_no_planet_has_in_a_split_family_holds_the_other_star_id() {
+    // Invented: the family of the split-family test with no word from the
+    // catalogue (every row `PC`), its third member an eclipse of 9 % on a
+    // Sun-like star, 33 R⊕ (`big-radius`, docs/science.md §2), under the
+    // other id. Before, only the catalogue's word held the other id, and
+    // TOI-904.01 and .02 were validated; now a false positive's signs do
+    // too (§3.4). TOI-905's third member is a planet, and its family stays
+    // a system.
+    let rows = "\
+TIC 780,TOI-904.01,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+TIC 780,TOI-904.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+Gaia 4413,TOI-904.03,2.7,0.00001,101.3,0.001,90000,2.0,55,0.3,1,1,5772,PC\n\
+TIC 781,TOI-905.01,5.3,0.00001,100.2,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
+TIC 781,TOI-905.02,12.9,0.00001,101.2,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
+Gaia 4414,TOI-905.03,3.1,0.00001,101.6,0.001,700,2.0,30,0.3,1,1,5772,PC\n";
+    let cat = written("split_family_radius", &catalogue("disposition", rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for planet in ["TOI-904.01", "TOI-904.02"] {
+        assert_ne!(v[planet], "validated", "{planet}");
+    }
+    for planet in ["TOI-905.01", "TOI-905.02"] {
+        assert_eq!(v[planet], "validated", "{planet}");
+    }
+    let e = stderr(&starsift(&["odds", c, "--format", "csv"]));
+    assert!(
+        e.contains("1 star shares a candidate family with a false positive on another star id (star TIC 780)"),
+        "{e}"
+    );
+    let table = stdout(&starsift(&["odds", c]));
+    assert!(
+        table.contains("a false positive by its checks (big-radius)"),
+        "{table}"
     );
 }

@@ -741,3 +741,63 @@ fn archive_named_light_curves_are_found_by_the_stars_number() {
     assert!(rows["M-3"][0].contains("odd-even"), "{rows:?}");
     assert_ne!(rows["M-3"][1], "validated", "{rows:?}");
 }
+
+#[test]
+fn a_binary_seen_in_the_light_curve_under_another_star_id_at_the_same_place_holds_the_star() {
+    // Invented: one star under two ids in a merged table, `T601` with its
+    // two planets and, 0.8″ away, `G99` with the binary, whose light curve
+    // shows its two eclipses (`secondary`, docs/science.md §4.2). Before,
+    // only the catalogue's word (`known-fp`) at one id held the other; a
+    // light curve's signs held only their own id, and T601's planets were
+    // validated. A binary 34″ away holds nothing (§3.4).
+    let d = scratch("binary-other-id");
+    let (_, curve) = hidden_binary(&d);
+    let lcs = d.join("lcs");
+    std::fs::create_dir_all(&lcs).unwrap();
+    // Only the binaries' ids have a light curve: the planets' ids are held,
+    // or not, by the place alone.
+    for star in ["G99", "G98"] {
+        write_flux(&lcs.join(format!("{star}.csv")), &curve);
+    }
+    let cat = d.join("merged.csv");
+    std::fs::write(
+        &cat,
+        "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,star_radius_rsun,star_mass_msun,ra,dec\n\
+         T601,T601-1,3.1,1001.0,800,2.5,40,1,1,150.00000,20.00000\n\
+         T601,T601-2,7.4,1002.9,1200,3.4,40,1,1,150.00000,20.00000\n\
+         G99,G99-3,2.2,1000.4,5000,2.0,40,1,1,150.00020,20.00010\n\
+         T602,T602-1,3.1,1001.0,800,2.5,40,1,1,151.00000,20.00000\n\
+         T602,T602-2,7.4,1002.9,1200,3.4,40,1,1,151.00000,20.00000\n\
+         G98,G98-3,2.2,1000.4,5000,2.0,40,1,1,151.01000,20.00000\n",
+    )
+    .unwrap();
+    let rows = odds_rows(&cat, &lcs);
+    for binary in ["G99-3", "G98-3"] {
+        assert!(rows[binary][0].contains("secondary"), "{rows:?}");
+    }
+    for planet in ["T601-1", "T601-2"] {
+        assert_ne!(rows[planet][1], "validated", "{rows:?}");
+        assert_eq!(rows[planet][2], "no", "{rows:?}");
+    }
+    for planet in ["T602-1", "T602-2"] {
+        assert_eq!(rows[planet][1], "validated", "{rows:?}");
+    }
+    let o = starsift(&[
+        "odds",
+        cat.to_str().unwrap(),
+        "--lightcurves",
+        lcs.to_str().unwrap(),
+        "--targets",
+        "20000",
+    ]);
+    let e = stderr(&o);
+    assert!(
+        e.contains("1 star within 2″ of a false positive under another star id (star T601)"),
+        "{e}"
+    );
+    let out = stdout(&o);
+    assert!(
+        out.contains("a false positive by its checks (secondary"),
+        "{out}"
+    );
+}

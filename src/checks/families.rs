@@ -11,13 +11,16 @@ use super::{Checks, UnseenFp};
 use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family as family};
 use crate::flags::Flag;
 
-/// Holds each star a split family shares with a candidate the catalogue
-/// calls a false positive (`known-fp` on a loaded row), and says so.
+/// Holds each star a split family shares with a false positive: a
+/// candidate the catalogue calls one (`known-fp` on a loaded row) or whose
+/// checks show one's signs (`secondary`, `big-radius`, `ellipsoidal`: the
+/// signs that hold its own star), and says so. Run again after the light
+/// curves, whose findings add signs; a star already held stays as it was.
 pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
-    // The families of the catalogue's false positives: few, usually none.
+    // The families of the false positives: few, usually none.
     let mut fp_of: hashbrown::HashMap<&str, Vec<CandidateId>> = hashbrown::HashMap::new();
     for c in 0..cat.len() as CandidateId {
-        if out.flags(c).contains(Flag::KnownFp) || out.warnings(c).contains(Flag::KnownFp) {
+        if super::shows_false_positive(out, c) || out.warnings(c).contains(Flag::KnownFp) {
             if let Some(f) = family(cat.candidate_id(c)) {
                 fp_of.entry(f).or_default().push(c);
             }
@@ -38,17 +41,18 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
             held.push(UnseenFp {
                 star,
                 why: format!(
-                    "{}, on star {}, is of this star's candidate family ({}) and a known false positive (the catalogue); archives number one star's candidates <star>.<n>, so both star ids name one star",
+                    "{}, on star {}, is of this star's candidate family ({}) and {}; archives number one star's candidates <star>.<n>, so both star ids name one star",
                     crate::sanitize::clean(cat.candidate_id(fp)),
                     crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
                     crate::sanitize::clean(f),
+                    super::false_positive_words(out, fp),
                 ),
             });
         }
     }
     out.hold_for_another_id(cat, held, |n, listed| {
         format!(
-            "{n} star{} share{} a candidate family with a known false positive on another star id ({listed}): held back, as one star with it; check the star ids (docs/science.md §3.4)",
+            "{n} star{} share{} a candidate family with a false positive on another star id ({listed}): held back, as one star with it; check the star ids (docs/science.md §3.4)",
             if n == 1 { "" } else { "s" },
             if n == 1 { "s" } else { "" },
         )

@@ -139,6 +139,10 @@ pub fn run_lightcurves_counted(
             last = std::time::Instant::now();
         }
     }
+    // The light curves' signs of a false positive hold its star under its
+    // other ids too.
+    super::families::flag(cat, checks);
+    super::same_place::flag(cat, checks);
     checks.sort_findings();
     let notice = match (offset_notice(&spans), folder_notice(cat, finder, total)) {
         (Some(a), Some(b)) => Some(format!("{a}; {b}")),

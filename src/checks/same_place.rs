@@ -9,7 +9,6 @@
 use super::echo::{real_position, separation_arcsec};
 use super::{Checks, UnseenFp};
 use crate::catalogue::{CandidateId, Catalogue, Field, StarId};
-use crate::flags::Flag;
 
 /// Two catalogue positions this close are one star, or stars no survey
 /// aperture parts (common practice, no source: the usual radius of a
@@ -17,8 +16,10 @@ use crate::flags::Flag;
 pub const SAME_PLACE_ARCSEC: f64 = 2.0;
 
 /// Holds each star whose rows sit within [`SAME_PLACE_ARCSEC`] of a
-/// candidate of another star id that the catalogue calls a false positive
-/// (`known-fp`), and says so.
+/// candidate of another star id that is a false positive (the catalogue
+/// calls it one, or its checks show one's signs: `Checks::
+/// shows_false_positive`), and says so. Run again after the light curves;
+/// a star already held stays as it was.
 pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     let (Some(ra), Some(dec)) = (cat.column(Field::RaDeg), cat.column(Field::DecDeg)) else {
         return;
@@ -26,7 +27,7 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     // The catalogue's false positives with a position, by declination:
     // few, usually none.
     let mut fps: Vec<(f64, f64, CandidateId)> = (0..cat.len() as CandidateId)
-        .filter(|&c| out.flags(c).contains(Flag::KnownFp))
+        .filter(|&c| super::shows_false_positive(out, c))
         .map(|c| (dec[c as usize], ra[c as usize], c))
         .filter(|&(d, r, _)| real_position(r, d))
         .collect();
@@ -53,17 +54,18 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
             held.push(UnseenFp {
                 star,
                 why: format!(
-                    "{}, on star {} {apart:.1}″ from this star's {}, is a known false positive (the catalogue): one place, one light (one star under two ids, or stars no aperture parts)",
+                    "{}, on star {} {apart:.1}″ from this star's {}, is {}: one place, one light (one star under two ids, or stars no aperture parts)",
                     crate::sanitize::clean(cat.candidate_id(fp)),
                     crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
                     crate::sanitize::clean(cat.candidate_id(c)),
+                    super::false_positive_words(out, fp),
                 ),
             });
         }
     }
     out.hold_for_another_id(cat, held, |n, listed| {
         format!(
-            "{n} star{} within {SAME_PLACE_ARCSEC}″ of a known false positive under another star id ({listed}): held back, as one light with it; check the star ids (docs/science.md §3.4)",
+            "{n} star{} within {SAME_PLACE_ARCSEC}″ of a false positive under another star id ({listed}): held back, as one light with it; check the star ids (docs/science.md §3.4)",
             if n == 1 { "" } else { "s" },
         )
     });
