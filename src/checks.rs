@@ -387,12 +387,16 @@ fn epoch_zeros(cat: &Catalogue, out: &mut Checks) {
     }
 }
 
-/// Runs every check on the catalogue.
-/// Whether candidate `c` is a false positive by the checks so far: the
-/// catalogue calls it one, or it carries a sign that holds its own star
-/// (`FlagSet::false_positive_signs`, firm).
+/// Whether candidate `c` is a false positive by the checks so far, as the
+/// odds read its own star (`Live::known_fp_among`): the catalogue calls it
+/// one, or it carries a firm sign that holds its own star
+/// (`FlagSet::false_positive_signs`) and is no copy of another signal of
+/// its star (a firm group flag): a copy's `secondary` is its own transit
+/// folded at twice its period, and says nothing of the star.
 pub(crate) fn shows_false_positive(checks: &Checks, c: CandidateId) -> bool {
-    checks.flags(c).intersects(FlagSet::false_positive_signs())
+    let f = checks.flags(c);
+    f.contains(Flag::KnownFp)
+        || (f.intersects(FlagSet::false_positive_signs()) && !f.intersects(FlagSet::group_flags()))
 }
 
 /// How a false positive is known, for the notes of the stars it holds
@@ -411,6 +415,7 @@ pub(crate) fn false_positive_words(checks: &Checks, c: CandidateId) -> String {
     format!("a false positive by its checks ({})", signs.join(", "))
 }
 
+/// Runs every check on the catalogue.
 pub fn run(cat: &Catalogue, s: &CheckSettings) -> Checks {
     run_counted(cat, s, &CheckProgress::default())
 }

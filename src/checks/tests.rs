@@ -653,3 +653,23 @@ E,E-2,5.0,,1401.35,,8000,2.4,40,0.3,1,1,5772,,,\n"
     assert!(flagged(&c, &ch, "E-2", Flag::Harmonic), "{}", ch.why(1));
     assert!(ch.why(1).contains("offset unknown"), "{}", ch.why(1));
 }
+
+#[test]
+fn a_copys_signs_are_no_false_positives_to_another_star_id() {
+    // As the odds read a star (a copy's flags do not mark it): a
+    // representative's `secondary` (its group flag a warning) is a false
+    // positive's sign, a copy's (its group flag firm) is not, and the
+    // catalogue's word always is.
+    let mut ch = Checks::none(3);
+    ch.add(0, Flag::Secondary, false, "eclipse".into());
+    ch.add(0, Flag::Harmonic, true, "stands for 1".into());
+    ch.add(1, Flag::Secondary, false, "its own transit".into());
+    ch.add(1, Flag::Harmonic, false, "copy of 0".into());
+    ch.add(2, Flag::KnownFp, false, "EB".into());
+    ch.add(2, Flag::NearTwin, false, "copy".into());
+    assert!(shows_false_positive(&ch, 0));
+    assert!(!shows_false_positive(&ch, 1));
+    assert!(shows_false_positive(&ch, 2));
+    assert!(false_positive_words(&ch, 0).contains("(secondary)"));
+    assert!(false_positive_words(&ch, 2).contains("the catalogue"));
+}
