@@ -102,26 +102,26 @@ impl Index {
         // least 1e-7 degree, so every band number fits in 32 bits (wider
         // bands only compare more pairs).
         let width = (radius_arcsec * (1.0 + 1e-6) / 3600.0).max(1e-7);
-        let band_of: Vec<u32> = (0..n)
-            .map(|i| {
-                let s = sig(i);
-                if placed(&s) {
-                    band_number(&s, width)
-                } else {
-                    UNPLACED
-                }
-            })
-            .collect();
+        // Each signal's band, worked out again where needed rather than
+        // kept (4 bytes a signal at the peak of the checks' memory).
+        let band = |s: &Sig| {
+            if placed(s) {
+                band_number(s, width)
+            } else {
+                UNPLACED
+            }
+        };
+        let band_of = |i: usize| band(&sig(i));
         // The bands that hold signals, in order: every band number up to
         // the largest where they are few beside the signals (a radius of
         // arcseconds or more), else the distinct ones.
-        let top = band_of.iter().filter(|&&b| b != UNPLACED).max().copied();
+        let top = (0..n).map(band_of).filter(|&b| b != UNPLACED).max();
         let dense = top.is_some_and(|t| (t as usize) < 4 * n + 4096);
         let numbers: Vec<u32> = match top {
             None => Vec::new(),
             Some(t) if dense => (0..=t).collect(),
             Some(_) => {
-                let mut v: Vec<u32> = band_of.iter().copied().filter(|&b| b != UNPLACED).collect();
+                let mut v: Vec<u32> = (0..n).map(band_of).filter(|&b| b != UNPLACED).collect();
                 v.sort_unstable();
                 v.dedup();
                 v
@@ -135,7 +135,7 @@ impl Index {
             }
         };
         let mut start = vec![0usize; numbers.len() + 1];
-        for &b in &band_of {
+        for b in (0..n).map(band_of) {
             if b != UNPLACED {
                 start[slot(b) + 1] += 1;
             }
@@ -174,8 +174,9 @@ impl Index {
                 all.resize(n, filler);
             }
             let mut end = group_start.clone();
-            for (i, &b) in band_of.iter().enumerate() {
+            for i in 0..n {
                 let s = sig(i);
+                let b = band(&s);
                 if split < n {
                     all[s.rank as usize] = s;
                 }
@@ -186,7 +187,6 @@ impl Index {
                 }
             }
         }
-        drop(band_of);
         let mut copy: Vec<Sig> = Vec::new();
         let mut end = start.clone();
         for g in 0..group_start.len() - 1 {
