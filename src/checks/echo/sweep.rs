@@ -114,9 +114,22 @@ impl Index {
         let band_of = |i: usize| band(&sig(i));
         // The bands that hold signals, in order: every band number up to
         // the largest where they are few beside the signals (a radius of
-        // arcseconds or more), else the distinct ones.
-        let top = (0..n).map(band_of).filter(|&b| b != UNPLACED).max();
-        let dense = top.is_some_and(|t| (t as usize) < 4 * n + 4096);
+        // arcseconds or more: counted in the same pass), else the distinct
+        // ones (counted in a second).
+        let most = 4 * n + 4096;
+        let (mut top, mut dense, mut counts) = (None, true, vec![0usize; 1]);
+        for b in (0..n).map(band_of).filter(|&b| b != UNPLACED) {
+            top = top.max(Some(b));
+            if dense && b as usize >= most {
+                dense = false;
+            }
+            if dense {
+                if counts.len() < b as usize + 2 {
+                    counts.resize(b as usize + 2, 0);
+                }
+                counts[b as usize + 1] += 1;
+            }
+        }
         let numbers: Vec<u32> = match top {
             None => Vec::new(),
             Some(t) if dense => (0..=t).collect(),
@@ -134,12 +147,16 @@ impl Index {
                 numbers.partition_point(|&x| x < b)
             }
         };
-        let mut start = vec![0usize; numbers.len() + 1];
-        for b in (0..n).map(band_of) {
-            if b != UNPLACED {
-                start[slot(b) + 1] += 1;
+        let mut start = if dense {
+            counts.resize(numbers.len() + 1, 0);
+            counts
+        } else {
+            let mut c = vec![0usize; numbers.len() + 1];
+            for b in (0..n).map(band_of).filter(|&b| b != UNPLACED) {
+                c[slot(b) + 1] += 1;
             }
-        }
+            c
+        };
         for k in 1..start.len() {
             start[k] += start[k - 1];
         }
