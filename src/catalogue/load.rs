@@ -390,7 +390,10 @@ fn read_catalogue(
         let mut cat = read_catalogue(name, std::io::Cursor::new(with), delimiter, opts, None)?;
         cat.notes.push(format!(
             "no candidate column: each row's candidate is named <star>.<nn> from its star \
-             and `{}`, the number of its signal on that star",
+             and `{}`, the number of its signal on that star. Threshold-crossing events are \
+             not yet candidates: a noisy star's false alarms come several to a star, which \
+             the multiplicity model (false positives at random) does not expect; vet them \
+             (light curves) before reading the odds",
             crate::sanitize::clean(&header_fields[cols.1])
         ));
         return Ok(cat);
