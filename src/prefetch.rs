@@ -1,7 +1,7 @@
-//! Asking the memory for values a loop will read a little later. Loops
-//! that read a catalogue's columns in an order other than the file's (a
-//! star's rows, signals in period order) wait on memory at every row; told
-//! some rows ahead, the memory serves many rows at once.
+//! Asking the memory for values a loop will read a little later. A loop
+//! that reads a catalogue's columns in an order other than the file's (a
+//! star's rows, star by star) waits on memory at every row; told some rows
+//! ahead, the memory serves many rows at once.
 
 /// Asks for `values[at]`, if there is one: a hint that never changes what
 /// the program computes.

@@ -103,7 +103,8 @@ pub(super) fn check(
     // own, and they are applied below in the order of a search of one
     // signal after another in period order, so the result is the same
     // whichever thread found what.
-    // Each signal is read from the columns where the index wants it.
+    // The i-th signal in file order, from the columns (the index builds
+    // each in file order, and keeps no copy of them all in another).
     let sig = |i: usize| Sig {
         c: i as CandidateId,
         star: cat.star_of(i as CandidateId),
@@ -117,6 +118,7 @@ pub(super) fn check(
         dec: dec.map_or(f64::NAN, |d| d[i]),
     };
     let index = sweep::Index::new(cat.len(), s.echo_radius_arcsec, sig);
+    // The signals and the index: two of the four stages.
     stage(false);
     stage(false);
     let mut swept = crate::parallel::in_parts(index.bands_len(), |r| index.sweep_bands(r, &pair));
