@@ -24,7 +24,7 @@ mod hosts;
 mod ids;
 mod merge;
 mod number;
-pub mod numbered;
+mod numbered;
 mod records;
 mod row;
 mod spelling;
