@@ -637,6 +637,21 @@ fn a_table_that_numbers_each_stars_signals_names_them_star_dot_number() {
         "{:?}",
         c.notes
     );
+    // The same as an IPAC table, as the archives serve these tables, its
+    // units in the header (`BJD-2454833`: the epochs become full dates).
+    let ipac = concat!(
+        "\\fixlen = T\n",
+        "|  kepid|tce_plnt_num|tce_period|tce_time0bk|tce_depth|tce_duration|\n",
+        "|   long|         int|    double|     double|   double|      double|\n",
+        "|       |            |      days|BJD-2454833|      ppm|       hours|\n",
+        "     901            1        3.5       170.5       500          2.5 \n",
+        "     901            2        7.9       162.5       400          3.0 \n",
+    );
+    let path = scratch("numbered-ipac").join("events.tbl");
+    std::fs::write(&path, ipac).unwrap();
+    let c = Catalogue::load(Source::Path(&path), &LoadOptions::default()).unwrap();
+    assert_eq!(c.candidate_id(1), "901.02");
+    assert_eq!(c.value(Field::Epoch, 0), Some(2454833.0 + 170.5));
     // A table that names its candidates keeps its names.
     let named = "kepid,kepoi_name,tce_plnt_num,period,epoch,depth_ppm,duration_h\n\
         5,K00005.01,1,3.5,100.1,500,2.5\n";
