@@ -7,6 +7,7 @@
 //! is its star.
 
 use super::LoadError;
+use super::records::first_record_end;
 use crate::catalogue::{ColumnMap, Field};
 
 /// Header names (lower case) of a column that numbers each star's signals.
@@ -68,8 +69,8 @@ pub fn candidate_of(star: &str, number: &str) -> String {
 /// [`WRITTEN_HEADER`]: the header gains its name and every row its
 /// candidate ([`candidate_of`]). Every record stays on the line it was on,
 /// so the loader's line numbers are those of the file; comment and blank
-/// lines become blank lines. A record is its lines up to the one where its
-/// quotes pair up, so a quoted line break stays inside its field.
+/// lines become blank lines, and a quoted line break stays inside its
+/// field.
 pub(super) fn with_candidates(
     path: &str,
     text: &[u8],
@@ -83,25 +84,18 @@ pub(super) fn with_candidates(
     let mut out: Vec<u8> = Vec::with_capacity(text.len() + text.len() / 8);
     let (mut pos, mut first) = (0, true);
     while pos < text.len() {
-        // One record: lines until its quotes pair up (a quoted field may
-        // hold line breaks; a quote inside one is doubled).
-        let (mut end, mut quotes) = (pos, 0);
-        loop {
-            let next = memchr::memchr(b'\n', &text[end..]).map_or(text.len(), |i| end + i + 1);
-            quotes += memchr::memchr_iter(b'"', &text[end..next]).count();
-            end = next;
-            if quotes % 2 == 0 || end == text.len() {
-                break;
-            }
-        }
-        let record = &text[pos..end];
-        pos = end;
-        let lines = memchr::memchr_iter(b'\n', record).count().max(1);
-        let body = record.trim_ascii();
-        if body.is_empty() || body.starts_with(b"#") {
-            out.extend(std::iter::repeat_n(b'\n', lines));
+        let line_end = memchr::memchr(b'\n', &text[pos..]).map_or(text.len(), |i| pos + i + 1);
+        let line = text[pos..line_end].trim_ascii();
+        if line.is_empty() || line.starts_with(b"#") {
+            out.push(b'\n');
+            pos = line_end;
             continue;
         }
+        // One record, where the loader's reader would end it (a quoted
+        // field may hold line breaks).
+        let end = first_record_end(&text[pos..]).map_or(text.len(), |e| pos + e);
+        let record = &text[pos..end];
+        pos = end;
         let mut rec = csv::ByteRecord::new();
         csv::ReaderBuilder::new()
             .delimiter(delimiter)

@@ -205,7 +205,7 @@ impl Index {
             }
         }
         let mut copy: Vec<Sig> = Vec::new();
-        let mut end = start.clone();
+        let mut end = start;
         for g in 0..group_start.len() - 1 {
             let (a, b) = (group_start[g], group_start[g + 1]);
             copy.clear();
