@@ -10,6 +10,7 @@ mod families;
 mod groups;
 pub mod known;
 mod lightcurves;
+mod other_ids;
 mod progress;
 mod same_place;
 mod system;
@@ -20,6 +21,7 @@ pub use lightcurves::{
     LightcurveRun, LightcurveTotals, measured_radius_too_big, run_lightcurves,
     run_lightcurves_counted,
 };
+pub use other_ids::{StarLink, Tie, links_of};
 pub use progress::CheckProgress;
 
 use crate::catalogue::{CandidateId, Catalogue, Field};

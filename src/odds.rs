@@ -629,6 +629,18 @@ pub fn hold_text(
         Some(Hold::UnseenSibling { why, .. }) => {
             format!("its star hosts a known false positive: {why}")
         }
+        Some(Hold::OtherId {
+            fp,
+            reason,
+            other,
+            tie,
+        }) => format!(
+            "its star is also star {} ({}), which hosts a known false positive: {}, rejected as {}",
+            crate::sanitize::clean(cat.star_id(other)),
+            tie.describe(),
+            id(fp),
+            reason.name()
+        ),
     }
 }
 

@@ -109,6 +109,7 @@ pub fn odds_with(
     decisions: Vec<Decision>,
     gone: &[crate::checks::UnseenFp],
 ) -> Result<Live, ModelError> {
+    let rejected_fp = rejected_fp_stars(cat, &decisions);
     let mut live = Live::with_evidence(
         cat,
         model,
@@ -117,9 +118,31 @@ pub fn odds_with(
         decisions,
         checks.unseen_fp().iter().chain(gone).cloned().collect(),
     )?;
+    // A vetter's rejection as a false positive holds the star's other ids
+    // (docs/science.md §3.4): one pass over the catalogue finds them.
+    if !rejected_fp.is_empty() {
+        live.add_links(&rejected_fp, crate::checks::links_of(cat, &rejected_fp));
+    }
     // What the checks say of the inputs, among the other input warnings.
     live.input_warnings.extend(checks.notes().iter().cloned());
     Ok(live)
+}
+
+/// The stars with a candidate rejected as a false positive under
+/// `decisions` (`odds::names_false_positive`), each once.
+fn rejected_fp_stars(
+    cat: &crate::catalogue::Catalogue,
+    decisions: &[Decision],
+) -> Vec<crate::catalogue::StarId> {
+    let mut stars: Vec<_> = decisions
+        .iter()
+        .enumerate()
+        .filter(|(_, d)| d.reason().is_some_and(crate::odds::names_false_positive))
+        .map(|(c, _)| cat.star_of(c as crate::catalogue::CandidateId))
+        .collect();
+    stars.sort_unstable();
+    stars.dedup();
+    stars
 }
 
 impl Session {

@@ -9,7 +9,10 @@
 
 mod common;
 
-use common::{HEAD, background, load_text, scratch, starsift, stderr, stdout};
+use common::{
+    HEAD, agreed, background, catalogue, load_text, reject, scratch, starsift, stderr, stdout,
+    verdicts, written,
+};
 use starsift::catalogue::{CandidateId, Catalogue};
 use starsift::checks::{CheckSettings, SignalGroups};
 use starsift::decision::{Decision, Reason};
@@ -31,17 +34,6 @@ FPP,FPP-2,11.2,0.00001,101.7,0.001,650,3.6,28,0.3,1,1,5772,,0.97\n\
 T3,T3-1,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772,,\n\
 T3,T3-2,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,,\n\
 T3,T3-3,25.1,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,,\n";
-
-/// The background (its new cells empty) and `rows`, under `header_extra`.
-fn catalogue(header_extra: &str, rows: &str) -> String {
-    let head = format!("{},{header_extra}\n", HEAD.trim_end());
-    let blanks = ",".repeat(header_extra.split(',').count());
-    let bg: String = background()
-        .lines()
-        .map(|l| format!("{l}{blanks}\n"))
-        .collect();
-    format!("{head}{bg}{rows}")
-}
 
 fn live_of(cat: &Catalogue) -> Live {
     let checks = starsift::checks::run(cat, &CheckSettings::default());
@@ -222,51 +214,6 @@ AB,AB-3,21.3,0.00001,102.0,0.001,640,4.6,26,0.3,1,1,5772\n";
     assert_eq!(live.status(c), Status::Held);
     assert_eq!(live.verdict(a), Verdict::Likely);
     assert_eq!(live.status(a), Status::Counted);
-}
-
-/// The catalogue `text` written for test `test`, with a survey.toml giving
-/// N beside it.
-fn written(test: &str, text: &str) -> std::path::PathBuf {
-    let dir = scratch(test);
-    let cat = dir.join("cat.csv");
-    std::fs::write(&cat, text).unwrap();
-    std::fs::write(dir.join("survey.toml"), "targets_searched = 50000\n").unwrap();
-    cat
-}
-
-/// Each candidate's verdict from a command's CSV (its k left aside: held
-/// candidates show 0).
-fn verdicts(args: &[&str]) -> std::collections::BTreeMap<String, String> {
-    common::k_and_verdict(args)
-        .into_iter()
-        .map(|(c, (_, v))| (c, v))
-        .collect()
-}
-
-/// Records in the ledger beside catalogue `c` that `vetter` rejected
-/// `candidate` for `reason`.
-fn reject(c: &str, candidate: &str, reason: &str, vetter: &str) {
-    let o = starsift(&[
-        "decide",
-        c,
-        "--candidate",
-        candidate,
-        "--decision",
-        "rejected",
-        "--reason",
-        reason,
-        "--vetter",
-        vetter,
-    ]);
-    assert!(o.status.success(), "{}", stderr(&o));
-}
-
-/// The verdicts of `odds`, checked to be those of `export` and `checks`.
-fn agreed(c: &str) -> std::collections::BTreeMap<String, String> {
-    let odds = verdicts(&["odds", c, "--format", "csv"]);
-    assert_eq!(odds, verdicts(&["export", c, "--format", "csv"]));
-    assert_eq!(odds, verdicts(&["checks", c, "--format", "csv"]));
-    odds
 }
 
 #[test]
@@ -803,37 +750,6 @@ TIC 778,TOI-902.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
 }
 
 #[test]
-fn a_candidate_family_split_over_two_star_ids_is_held_by_its_false_positive() {
-    // Invented: a table merged from two lists, one host under two
-    // catalogues' ids (`TIC 778`, and `Gaia 4411` for the binary of the
-    // same family `TOI-902`). Before, the binary held only its own id and
-    // TOI-902.01 and .02 were validated. A family split with no false
-    // positive in it (TOI-903) holds nothing (docs/science.md §3.4).
-    let rows = "\
-TIC 778,TOI-902.01,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
-TIC 778,TOI-902.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
-Gaia 4411,TOI-902.03,2.7,0.00001,101.3,0.001,9000,2.0,55,0.3,1,1,5772,EB\n\
-TIC 779,TOI-903.01,5.3,0.00001,100.2,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
-TIC 779,TOI-903.02,12.9,0.00001,101.2,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
-Gaia 4412,TOI-903.03,3.1,0.00001,101.6,0.001,700,2.0,30,0.3,1,1,5772,PC\n";
-    let cat = written("split_family", &catalogue("disposition", rows));
-    let c = cat.to_str().unwrap();
-    let v = agreed(c);
-    for planet in ["TOI-902.01", "TOI-902.02"] {
-        assert_ne!(v[planet], "validated", "{planet}");
-    }
-    for planet in ["TOI-903.01", "TOI-903.02"] {
-        assert_eq!(v[planet], "validated", "{planet}");
-    }
-    let o = starsift(&["odds", c, "--format", "csv"]);
-    let e = stderr(&o);
-    assert!(
-        e.contains("1 star shares a candidate family with a false positive on another star id (star TIC 778)"),
-        "{e}"
-    );
-}
-
-#[test]
 fn an_fpp_of_exactly_zero_validates_nothing() {
     // Invented: an fpp column whose gaps were filled with 0 (all 580
     // background rows here, and Z1, Z2). Read as probabilities, each zero
@@ -857,73 +773,5 @@ Z3,Z3-1,5.7,0.00001,100.0,0.001,600,3.0,40,0.3,1,1,5772,0.001\n";
     assert!(
         e.contains("582 fpp values of exactly 0 were read as no fpp"),
         "{e}"
-    );
-}
-
-#[test]
-fn a_false_positive_at_the_same_place_under_another_star_id_holds_the_star() {
-    // Invented: a table merged from two lists, one star under a survey's id
-    // (`TIC 501`, two planets) and, 0.8″ away, under another catalogue's
-    // (`Gaia 88`, the eclipsing binary). Before, the binary held only its
-    // own id and both planets were validated. A binary 34″ away (`Gaia 89`
-    // beside `TIC 502`: another star in a wide field) holds nothing here
-    // (docs/science.md §3.4).
-    let rows = "\
-TIC 501,TOI-501.01,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,150.00000,20.00000,PC\n\
-TIC 501,TOI-501.02,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,150.00000,20.00000,PC\n\
-Gaia 88,G88-a,2.7,0.00001,101.3,0.001,9000,2.0,55,0.3,1,1,5772,150.00020,20.00010,EB\n\
-TIC 502,TOI-502.01,4.3,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,151.00000,20.00000,PC\n\
-TIC 502,TOI-502.02,9.9,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,151.00000,20.00000,PC\n\
-Gaia 89,G89-a,2.9,0.00001,101.3,0.001,9000,2.0,55,0.3,1,1,5772,151.01000,20.00000,EB\n";
-    let cat = written("same_place", &catalogue("ra,dec,disposition", rows));
-    let c = cat.to_str().unwrap();
-    let v = agreed(c);
-    for planet in ["TOI-501.01", "TOI-501.02"] {
-        assert_ne!(v[planet], "validated", "{planet}");
-    }
-    for planet in ["TOI-502.01", "TOI-502.02"] {
-        assert_eq!(v[planet], "validated", "{planet}");
-    }
-    let e = stderr(&starsift(&["odds", c, "--format", "csv"]));
-    assert!(
-        e.contains("1 star within 2″ of a false positive under another star id (star TIC 501)"),
-        "{e}"
-    );
-}
-
-#[test]
-fn a_radius_no_planet_has_in_a_split_family_holds_the_other_star_id() {
-    // Invented: the family of the split-family test with no word from the
-    // catalogue (every row `PC`), its third member an eclipse of 9 % on a
-    // Sun-like star, 33 R⊕ (`big-radius`, docs/science.md §2), under the
-    // other id. Before, only the catalogue's word held the other id, and
-    // TOI-904.01 and .02 were validated; now a false positive's signs do
-    // too (§3.4). TOI-905's third member is a planet, and its family stays
-    // a system.
-    let rows = "\
-TIC 780,TOI-904.01,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
-TIC 780,TOI-904.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
-Gaia 4413,TOI-904.03,2.7,0.00001,101.3,0.001,90000,2.0,55,0.3,1,1,5772,PC\n\
-TIC 781,TOI-905.01,5.3,0.00001,100.2,0.001,700,3.0,30,0.3,1,1,5772,PC\n\
-TIC 781,TOI-905.02,12.9,0.00001,101.2,0.001,650,3.6,28,0.3,1,1,5772,PC\n\
-Gaia 4414,TOI-905.03,3.1,0.00001,101.6,0.001,700,2.0,30,0.3,1,1,5772,PC\n";
-    let cat = written("split_family_radius", &catalogue("disposition", rows));
-    let c = cat.to_str().unwrap();
-    let v = agreed(c);
-    for planet in ["TOI-904.01", "TOI-904.02"] {
-        assert_ne!(v[planet], "validated", "{planet}");
-    }
-    for planet in ["TOI-905.01", "TOI-905.02"] {
-        assert_eq!(v[planet], "validated", "{planet}");
-    }
-    let e = stderr(&starsift(&["odds", c, "--format", "csv"]));
-    assert!(
-        e.contains("1 star shares a candidate family with a false positive on another star id (star TIC 780)"),
-        "{e}"
-    );
-    let table = stdout(&starsift(&["odds", c]));
-    assert!(
-        table.contains("a false positive by its checks (big-radius)"),
-        "{table}"
     );
 }

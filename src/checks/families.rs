@@ -11,45 +11,55 @@ use super::{Checks, UnseenFp};
 use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family as family};
 use crate::flags::Flag;
 
+/// Every row of another star id that shares a candidate family with one of
+/// `targets`: (the first such target, the row). One pass over the
+/// catalogue; `targets` are few.
+pub(super) fn ties(cat: &Catalogue, targets: &[CandidateId]) -> Vec<(CandidateId, CandidateId)> {
+    let mut of: hashbrown::HashMap<&str, Vec<CandidateId>> = hashbrown::HashMap::new();
+    for &t in targets {
+        if let Some(f) = family(cat.candidate_id(t)) {
+            of.entry(f).or_default().push(t);
+        }
+    }
+    if of.is_empty() {
+        return Vec::new();
+    }
+    (0..cat.len() as CandidateId)
+        .filter_map(|c| {
+            let ts = of.get(family(cat.candidate_id(c))?)?;
+            let star: StarId = cat.star_of(c);
+            let t = ts.iter().copied().find(|&t| cat.star_of(t) != star)?;
+            Some((t, c))
+        })
+        .collect()
+}
+
 /// Holds each star a split family shares with a false positive: a
 /// candidate the catalogue calls one (`known-fp` on a loaded row) or whose
 /// checks show one's signs (`secondary`, `big-radius`, `ellipsoidal`: the
 /// signs that hold its own star), and says so. Run again after the light
 /// curves, whose findings add signs; a star already held stays as it was.
 pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
-    // The families of the false positives: few, usually none.
-    let mut fp_of: hashbrown::HashMap<&str, Vec<CandidateId>> = hashbrown::HashMap::new();
-    for c in 0..cat.len() as CandidateId {
-        if super::shows_false_positive(out, c) || out.warnings(c).contains(Flag::KnownFp) {
-            if let Some(f) = family(cat.candidate_id(c)) {
-                fp_of.entry(f).or_default().push(c);
-            }
-        }
-    }
-    if fp_of.is_empty() {
+    // The false positives: few, usually none.
+    let fps: Vec<CandidateId> = (0..cat.len() as CandidateId)
+        .filter(|&c| super::shows_false_positive(out, c) || out.warnings(c).contains(Flag::KnownFp))
+        .collect();
+    if fps.is_empty() {
         return;
     }
-    // Every other star of those families.
-    let mut held: Vec<UnseenFp> = Vec::new();
-    for c in 0..cat.len() as CandidateId {
-        let Some((f, fps)) = family(cat.candidate_id(c)).and_then(|f| fp_of.get_key_value(f))
-        else {
-            continue;
-        };
-        let star: StarId = cat.star_of(c);
-        if let Some(&fp) = fps.iter().find(|&&fp| cat.star_of(fp) != star) {
-            held.push(UnseenFp {
-                star,
-                why: format!(
-                    "{}, on star {}, is of this star's candidate family ({}) and {}; archives number one star's candidates <star>.<n>, so both star ids name one star",
-                    crate::sanitize::clean(cat.candidate_id(fp)),
-                    crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
-                    crate::sanitize::clean(f),
-                    super::false_positive_words(out, fp),
-                ),
-            });
-        }
-    }
+    let held: Vec<UnseenFp> = ties(cat, &fps)
+        .into_iter()
+        .map(|(fp, c)| UnseenFp {
+            star: cat.star_of(c),
+            why: format!(
+                "{}, on star {}, is of this star's candidate family ({}) and {}; archives number one star's candidates <star>.<n>, so both star ids name one star",
+                crate::sanitize::clean(cat.candidate_id(fp)),
+                crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
+                crate::sanitize::clean(family(cat.candidate_id(fp)).unwrap_or_default()),
+                super::false_positive_words(out, fp),
+            ),
+        })
+        .collect();
     out.hold_for_another_id(cat, held, |n, listed| {
         format!(
             "{n} star{} share{} a candidate family with a false positive on another star id ({listed}): held back, as one star with it; check the star ids (docs/science.md §3.4)",

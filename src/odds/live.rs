@@ -16,13 +16,14 @@ use super::{
     verdict,
 };
 use crate::catalogue::{CandidateId, Catalogue, Field, StarId, StarIndex};
-use crate::checks::{SignalGroups, UnseenFp};
+use crate::checks::{SignalGroups, StarLink, UnseenFp};
 use crate::decision::{Decision, Reason};
 use crate::flags::{Flag, FlagSet};
 
 use super::fenwick::Fenwick;
 
 mod held;
+mod links;
 mod margins;
 pub use held::{Hold, names_false_positive};
 use margins::Margins;
@@ -99,6 +100,12 @@ pub struct Live {
     /// rejection's of a candidate the catalogue no longer lists; their
     /// candidates are held back as any known false positive's siblings.
     unseen_fp: Arc<[UnseenFp]>,
+    /// Other star ids of the same star (docs/science.md §3.4), both ways
+    /// round, by `star`: a vetter's rejection of a candidate as a false
+    /// positive holds the candidates of every id of its star.
+    links: Vec<StarLink>,
+    /// The stars whose other ids were looked for (`links` has theirs).
+    links_asked: Vec<StarId>,
     /// Cautions about the inputs (bad fpp values, clamps in the table).
     pub input_warnings: Vec<String>,
 }
@@ -224,6 +231,8 @@ impl Live {
             margins: OnceLock::new(),
             standings: vec![GroupStanding::default(); ngroups],
             unseen_fp: unseen_fp.into(),
+            links: Vec::new(),
+            links_asked: Vec::new(),
             input_warnings,
         };
         live.place_all();
@@ -370,9 +379,11 @@ impl Live {
         let mut stars = vec![self.star_of(c)];
         if let Some(g) = self.active_group(c) {
             stars.extend(self.groups.members(g).iter().map(|&m| self.star_of(m)));
-            stars.sort_unstable();
-            stars.dedup();
         }
+        // A rejection as a false positive holds the star's other ids too.
+        stars.extend(self.links_of(self.star_of(c)).iter().map(|l| l.other));
+        stars.sort_unstable();
+        stars.dedup();
         self.replace_stars(&stars);
     }
 
@@ -446,14 +457,16 @@ impl Live {
 
     /// The same state computed from nothing, for checks of the incremental path.
     pub fn rebuilt(&self, cat: &Catalogue) -> Result<Live, ModelError> {
-        Live::with_evidence(
+        let mut live = Live::with_evidence(
             cat,
             self.model.clone(),
             self.flags.clone(),
             self.groups.clone(),
             self.decision.clone(),
             self.unseen_fp.to_vec(),
-        )
+        )?;
+        live.add_links(&self.links_asked, self.links.clone());
+        Ok(live)
     }
 
     /// True when two states agree on everything the odds depend on.
@@ -491,8 +504,9 @@ impl Live {
         let mut memo: HashMap<u32, GroupStanding> = HashMap::new();
         let members = self.index.members(s);
         let fp = self.known_fp_among(members, &decision);
-        // A false positive no loaded row shows holds every member.
-        let unseen = self.unseen_fp(s).is_some();
+        // A false positive no loaded row shows holds every member, as one
+        // a vetter rejected under another id of the star does.
+        let unseen = self.unseen_fp(s).is_some() || self.linked_fp(s, &decision).is_some();
         members
             .iter()
             .map(|&c| {

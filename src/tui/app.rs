@@ -711,10 +711,12 @@ impl App {
     pub fn apply_built(&mut self, checks: Checks, live: Result<Live, crate::odds::ModelError>) {
         match live {
             Ok(mut live) => {
+                let (asked, links) = self.live.links();
+                live.add_links(asked, links.to_vec());
                 for c in 0..self.cat.len() as CandidateId {
                     let now = self.live.decision(c);
                     if live.decision(c) != now {
-                        live.set_decision(c, now);
+                        decide::set_decision(&mut live, &self.cat, c, now);
                     }
                 }
                 self.live = live;
@@ -726,6 +728,11 @@ impl App {
         self.flags_so_far = None;
         self.forget_orders(true);
         self.refresh_view();
+    }
+
+    /// Sets a decision in the odds ([`decide::set_decision`]).
+    pub(super) fn set_live_decision(&mut self, c: CandidateId, d: crate::decision::Decision) {
+        decide::set_decision(&mut self.live, &self.cat, c, d);
     }
 
     /// Moves to the next (or previous) open candidate in view order,

@@ -11,6 +11,8 @@ use super::keymap::Keymap;
 use crate::decision::Decision;
 use crate::odds::{Live, Model};
 
+mod other_ids;
+
 fn demo_app() -> App {
     demo_app_with(None)
 }

@@ -102,3 +102,59 @@ pub fn background() -> String {
     }
     t
 }
+
+/// The background (its new cells empty) and `rows`, under `header_extra`.
+pub fn catalogue(header_extra: &str, rows: &str) -> String {
+    let head = format!("{},{header_extra}\n", HEAD.trim_end());
+    let blanks = ",".repeat(header_extra.split(',').count());
+    let bg: String = background()
+        .lines()
+        .map(|l| format!("{l}{blanks}\n"))
+        .collect();
+    format!("{head}{bg}{rows}")
+}
+
+/// The catalogue `text` written for test `test`, with a survey.toml giving
+/// N beside it.
+pub fn written(test: &str, text: &str) -> std::path::PathBuf {
+    let dir = scratch(test);
+    let cat = dir.join("cat.csv");
+    std::fs::write(&cat, text).unwrap();
+    std::fs::write(dir.join("survey.toml"), "targets_searched = 50000\n").unwrap();
+    cat
+}
+
+/// Each candidate's verdict from a command's CSV (its k left aside: held
+/// candidates show 0).
+pub fn verdicts(args: &[&str]) -> std::collections::BTreeMap<String, String> {
+    k_and_verdict(args)
+        .into_iter()
+        .map(|(c, (_, v))| (c, v))
+        .collect()
+}
+
+/// Records in the ledger beside catalogue `c` that `vetter` rejected
+/// `candidate` for `reason`.
+pub fn reject(c: &str, candidate: &str, reason: &str, vetter: &str) {
+    let o = starsift(&[
+        "decide",
+        c,
+        "--candidate",
+        candidate,
+        "--decision",
+        "rejected",
+        "--reason",
+        reason,
+        "--vetter",
+        vetter,
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+}
+
+/// The verdicts of `odds`, checked to be those of `export` and `checks`.
+pub fn agreed(c: &str) -> std::collections::BTreeMap<String, String> {
+    let odds = verdicts(&["odds", c, "--format", "csv"]);
+    assert_eq!(odds, verdicts(&["export", c, "--format", "csv"]));
+    assert_eq!(odds, verdicts(&["checks", c, "--format", "csv"]));
+    odds
+}

@@ -26,6 +26,14 @@ pub enum Hold {
     /// (`UnseenFp`: a skipped row, or a ledger decision on a candidate the
     /// catalogue no longer has), `why` for people.
     UnseenSibling { why: String },
+    /// On a star that is also star `other` (as `tie` shows), where a
+    /// vetter rejected `fp` as a false positive (`reason`).
+    OtherId {
+        fp: CandidateId,
+        reason: Reason,
+        other: StarId,
+        tie: crate::checks::Tie,
+    },
 }
 
 impl Live {
@@ -43,8 +51,17 @@ impl Live {
         }
         let members = self.index.members(self.star_of(c));
         let Some(fp) = self.known_fp_among(members, |m| self.decision[m as usize]) else {
-            let u = self.unseen_fp(self.star_of(c))?;
-            return Some(Hold::UnseenSibling { why: u.why.clone() });
+            if let Some(u) = self.unseen_fp(self.star_of(c)) {
+                return Some(Hold::UnseenSibling { why: u.why.clone() });
+            }
+            let (fp, reason, link) =
+                self.linked_fp(self.star_of(c), |m| self.decision[m as usize])?;
+            return Some(Hold::OtherId {
+                fp,
+                reason,
+                other: link.other,
+                tie: link.tie.clone(),
+            });
         };
         // A rejected member marks its star only when rejected as a false
         // positive (`known_fp_among`): its reason is that one.
@@ -91,7 +108,9 @@ impl Live {
                     .for_each(|f| *by_flag.entry(f.name()).or_default() += 1),
                 Some(Hold::Copy { .. }) => copies += 1,
                 Some(Hold::GroupRejected { .. } | Hold::GroupHeld { .. }) => group_out += 1,
-                Some(Hold::Sibling { .. } | Hold::UnseenSibling { .. }) => siblings += 1,
+                Some(Hold::Sibling { .. } | Hold::UnseenSibling { .. } | Hold::OtherId { .. }) => {
+                    siblings += 1
+                }
                 None => {}
             }
         }

@@ -125,7 +125,7 @@ impl App {
             self.after_decision(one.candidate, one.after);
         } else {
             for st in &steps {
-                self.live.set_decision(st.candidate, st.after);
+                self.set_live_decision(st.candidate, st.after);
             }
             self.forget_orders(false);
             self.refresh_view();
@@ -137,7 +137,7 @@ impl App {
     pub(super) fn after_decision(&mut self, c: CandidateId, d: Decision) {
         let s = self.cat.star_of(c);
         let ranks = self.odds_rank_by_size();
-        self.live.set_decision(c, d);
+        self.set_live_decision(c, d);
         self.keep_orders(s, ranks);
         self.pinned = Some(s);
         self.message = Some(format!(
@@ -205,4 +205,21 @@ impl App {
             None => self.redo.push(group),
         }
     }
+}
+
+/// Sets a decision in the odds, as every command's odds have it: a
+/// rejection as a false positive first finds the other ids of its star
+/// (`checks::links_of`, one pass over the catalogue, once per star), whose
+/// candidates it holds (docs/science.md §3.4).
+pub(super) fn set_decision(
+    live: &mut crate::odds::Live,
+    cat: &crate::catalogue::Catalogue,
+    c: CandidateId,
+    d: crate::decision::Decision,
+) {
+    let s = cat.star_of(c);
+    if d.reason().is_some_and(crate::odds::names_false_positive) && !live.links_asked(s) {
+        live.add_links(&[s], crate::checks::links_of(cat, &[s]));
+    }
+    live.set_decision(c, d);
 }

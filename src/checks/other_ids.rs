@@ -1,0 +1,77 @@
+//! Which other star ids name the same star as a given one: a candidate
+//! family split over both, or rows within [`super::same_place::
+//! SAME_PLACE_ARCSEC`] of each other (docs/science.md §3.4). The odds use
+//! these ties to hold the candidates of every id of a star whose
+//! candidate a vetter rejected as a false positive (`Live`), as the checks
+//! do for a false positive they or the catalogue find (`families`,
+//! `same_place`).
+
+use super::{families, same_place};
+use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family};
+
+/// How two star ids are known to name one star.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Tie {
+    /// Both carry candidates of this family (`<star>.<n>`).
+    Family(String),
+    /// Rows of the two this far apart, arcseconds.
+    Place(f64),
+}
+
+/// Star `other` names the same star as `star`, as `tie` shows.
+#[derive(Clone, Debug, PartialEq)]
+pub struct StarLink {
+    pub star: StarId,
+    pub other: StarId,
+    pub tie: Tie,
+}
+
+impl Tie {
+    /// For people: `one candidate family (TOI-902)`, `rows 0.4″ apart`.
+    pub fn describe(&self) -> String {
+        match self {
+            Tie::Family(f) => format!("one candidate family ({})", crate::sanitize::clean(f)),
+            Tie::Place(apart) => format!("rows {apart:.1}″ apart"),
+        }
+    }
+}
+
+/// Every other star id tied to one of `stars`, both ways round (a link
+/// from each of `stars` and one back), one per pair of stars (a family
+/// before a place), sorted by `star`. One or two passes over the
+/// catalogue, whatever the number of `stars`.
+pub fn links_of(cat: &Catalogue, stars: &[StarId]) -> Vec<StarLink> {
+    let members: Vec<CandidateId> = stars
+        .iter()
+        .flat_map(|&s| cat.index().members(s).to_vec())
+        .collect();
+    let by_family = families::ties(cat, &members).into_iter().map(|(t, c)| {
+        let f = candidate_family(cat.candidate_id(t)).unwrap_or_default();
+        (t, c, Tie::Family(f.to_string()))
+    });
+    let by_place = same_place::ties(cat, &members)
+        .into_iter()
+        .map(|(t, c, apart)| (t, c, Tie::Place(apart)));
+    let mut links: Vec<StarLink> = by_family
+        .chain(by_place)
+        .flat_map(|(t, c, tie)| {
+            let (star, other) = (cat.star_of(t), cat.star_of(c));
+            [
+                StarLink {
+                    star,
+                    other,
+                    tie: tie.clone(),
+                },
+                StarLink {
+                    star: other,
+                    other: star,
+                    tie,
+                },
+            ]
+        })
+        .collect();
+    // Stable: the first tie found of a pair (a family's) stays.
+    links.sort_by_key(|l| (l.star, l.other));
+    links.dedup_by_key(|l| (l.star, l.other));
+    links
+}
