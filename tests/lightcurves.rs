@@ -148,6 +148,17 @@ fn fold_reads_csv_gzip_and_fits_alike() {
     );
     assert!((val - 1500.0).abs() < 3.0 * err, "{val} ± {err}");
     assert_eq!(v["lightcurve"]["dropped"], 1);
+    // The light out of transit, fitted orbit by orbit (docs/science.md
+    // §4.6): a planet with white noise raises none beyond chance.
+    let orbit = &v["diagnostics"]["orbit_variation"];
+    assert!(orbit["orbits"].as_u64().unwrap() >= 4, "{orbit}");
+    for at in ["at_period_ppm", "at_half_period_ppm"] {
+        let t = orbit[at]["z"].as_f64().unwrap();
+        assert!(
+            t.abs() < orbit["t_needed"].as_f64().unwrap(),
+            "{at}: {orbit}"
+        );
+    }
     assert!(
         v["diagnostics"]["flags"].as_array().unwrap().is_empty(),
         "{}",
@@ -193,7 +204,8 @@ fn fold_reads_csv_gzip_and_fits_alike() {
     assert!(
         s.contains("relative flux (ppm)")
             && s.contains("odd / even")
-            && s.contains("flags                  none"),
+            && s.contains("flags                  none")
+            && s.contains("light with the orbit   at the period"),
         "{s}"
     );
 }

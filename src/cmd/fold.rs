@@ -232,6 +232,13 @@ pub fn diagnostics_json(d: &Diagnostics) -> Value {
         "thermal_ppm": d.thermal_ppm.map(f),
         "depth_consistency": d.consistency.map(|(c, n, p)| json!({"chi2": c, "dof": n, "p": p})),
         "transits_measured": d.transits_seen,
+        "orbit_variation": d.phase.map(|p| json!({
+            "at_period_ppm": m(p.at_period),
+            "at_half_period_ppm": m(p.at_half),
+            "orbits": p.orbits,
+            "t_needed": f(p.threshold_t),
+            "ellipsoidal_ceiling_ppm": d.ellipsoidal_ceiling_ppm.map(f),
+        })),
         "trapezoid_flat_fraction": f(d.flat_fraction),
         "v_shape_delta_chi2": f(d.v_shape_dchi2),
         "scatter": f(d.scatter),
@@ -418,6 +425,26 @@ fn write_table(
         None => writeln!(
             out,
             "  per-transit depths     fewer than two transits measured"
+        )?,
+    }
+    let t = |x: crate::lightcurve::analysis::Measure| {
+        format!("{:.0} ± {:.0} ppm (t = {:.1})", x.value, x.err, x.z())
+    };
+    match d.phase {
+        Some(p) => writeln!(
+            out,
+            "  light with the orbit   at the period {}, at half the period {}, over {} orbits (t = {:.1} needed); ellipsoidal ceiling {}",
+            t(p.at_period),
+            t(p.at_half),
+            p.orbits,
+            p.threshold_t,
+            d.ellipsoidal_ceiling_ppm
+                .map_or("unknown".into(), |v| format!("{v:.0} ppm"))
+        )?,
+        None => writeln!(
+            out,
+            "  light with the orbit   not measured: fewer than {} orbits with enough samples",
+            crate::lightcurve::analysis::MIN_ORBITS
         )?,
     }
     writeln!(

@@ -17,7 +17,7 @@ use noise::cadence_d;
 pub use noise::{
     null_scatter_factor, phase_scatter_factor, red_noise_beta, transit_scatter_factor,
 };
-pub use phase::{PhaseVariation, ellipsoidal_ceiling_ppm};
+pub use phase::{MIN_ORBITS, PhaseVariation, ellipsoidal_ceiling_ppm};
 pub use scan::{
     Eclipse, Recovery, deepest_eclipse, phase_boxes, phase_boxes_local, recovery, trials_threshold,
 };

@@ -28,7 +28,7 @@ pub const ALPHA_ELLIPSOIDAL_MAX: f64 = 2.0;
 const FALSE_ALARM: f64 = 0.0013499;
 
 /// The fewest orbits whose amplitudes are averaged.
-const MIN_ORBITS: usize = 4;
+pub const MIN_ORBITS: usize = 4;
 
 /// The fewest samples an orbit is fitted with, and per quarter of phase.
 const MIN_SAMPLES: usize = 24;
