@@ -64,15 +64,14 @@ pub enum Status {
 pub struct Live {
     model: Model,
     index: Arc<StarIndex>,
-    /// Per-candidate prior FP probability: its `fpp`, else its f.
-    prior: Vec<f64>,
-    /// Whether the prior came from `fpp`.
-    has_fpp: Vec<bool>,
+    /// Whether the candidate's prior came from `fpp`.
+    has_fpp: PerCandidate<bool>,
     /// Per-candidate f (by its planet radius when f depends on size).
-    f_of: Vec<f64>,
-    /// Distinct priors ascending, and each candidate's class among them.
+    f_of: PerCandidate<f64>,
+    /// Distinct priors ascending (a prior is the candidate's `fpp`, else
+    /// its f), and each candidate's class among them.
     classes: Vec<f64>,
-    class_of: Vec<u32>,
+    class_of: PerCandidate<u32>,
     flags: Vec<FlagSet>,
     groups: SignalGroups,
     decision: Vec<Decision>,
@@ -151,17 +150,26 @@ impl Live {
         check_inputs(&model, cat.star_count())?;
         let n = cat.len();
         let mut input_warnings = Vec::new();
-        let f_of: Vec<f64> = if model.fp_by_radius.is_empty() {
-            vec![model.fp_fraction; n]
+        let f_of = if model.fp_by_radius.is_empty() {
+            PerCandidate::All(model.fp_fraction)
         } else {
-            crate::checks::planet_radii(cat)
-                .into_iter()
-                .map(|r| model.fp_for_radius(r))
-                .collect()
+            PerCandidate::Each(
+                crate::checks::planet_radii(cat)
+                    .into_iter()
+                    .map(|r| model.fp_for_radius(r))
+                    .collect(),
+            )
         };
-        let mut has_fpp = vec![false; n];
-        let mut prior = f_of.clone();
+        // Each candidate's prior, where the priors are not one value: with
+        // an fpp column, or an f by size.
+        let mut has_fpp = PerCandidate::All(false);
+        let mut prior: Option<Vec<f64>> = match &f_of {
+            PerCandidate::All(_) => None,
+            PerCandidate::Each(f) => Some(f.clone()),
+        };
         if let Some(col) = cat.column(Field::Fpp) {
+            let mut has = vec![false; n];
+            let prior = prior.get_or_insert_with(|| (0..n).map(|c| f_of.get(c)).collect());
             let (mut bad, mut zero) = (0, 0);
             for (c, &v) in col.iter().enumerate() {
                 if v.is_nan() {
@@ -175,7 +183,7 @@ impl Live {
                     zero += 1;
                 } else if (0.0..=1.0).contains(&v) {
                     prior[c] = v;
-                    has_fpp[c] = true;
+                    has[c] = true;
                 } else {
                     bad += 1;
                 }
@@ -192,20 +200,28 @@ impl Live {
                     if zero == 1 { "was" } else { "were" },
                 ));
             }
+            has_fpp = PerCandidate::Each(has);
         }
-        let classes = distinct_sorted(&prior);
-        let class_of = prior
-            .iter()
-            .map(|p| classes.partition_point(|c| c < p) as u32)
-            .collect();
-        let singles_by_f: Vec<(f64, i64)> =
-            distinct_sorted(&f_of).into_iter().map(|f| (f, 0)).collect();
+        let (classes, class_of) = match &prior {
+            None => (vec![f_of.get(0)], PerCandidate::All(0)),
+            Some(prior) => {
+                let classes = distinct_sorted(prior);
+                let class_of = prior
+                    .iter()
+                    .map(|p| classes.partition_point(|c| c < p) as u32)
+                    .collect();
+                (classes, PerCandidate::Each(class_of))
+            }
+        };
+        let singles_by_f: Vec<(f64, i64)> = match &f_of {
+            PerCandidate::All(f) => vec![(*f, 0)],
+            PerCandidate::Each(f) => distinct_sorted(f).into_iter().map(|f| (f, 0)).collect(),
+        };
         let nclasses = classes.len();
         let ngroups = groups.len();
         let mut live = Live {
             model,
             index: cat.index(),
-            prior,
             has_fpp,
             f_of,
             classes,
@@ -320,7 +336,7 @@ impl Live {
 
     /// Prior FP probability: the candidate's `fpp`, else its f.
     pub fn prior(&self, c: CandidateId) -> f64 {
-        self.prior[c as usize]
+        self.classes[self.class_of.get(c as usize) as usize]
     }
 
     /// The factor on prior odds the candidate gets: its system's boost when
@@ -335,7 +351,7 @@ impl Live {
 
     /// Posterior odds planet : FP; `None` once rejected.
     pub fn odds(&self, c: CandidateId) -> Option<f64> {
-        Some(posterior_odds(self.boost(c)?, self.prior[c as usize]))
+        Some(posterior_odds(self.boost(c)?, self.prior(c)))
     }
 
     /// The largest odds among a star's candidates not rejected; `None` when
@@ -438,7 +454,7 @@ impl Live {
             let f = after
                 .iter()
                 .find(|x| x.1 == Status::Counted)
-                .map_or(0.0, |x| self.f_of[x.0 as usize]);
+                .map_or(0.0, |x| self.f_of.get(x.0 as usize));
             fp_singles += f;
         }
         let t = table_with(&self.model, trimmed(&hist), fp_singles.max(0.0));
@@ -449,7 +465,7 @@ impl Live {
                 (
                     m,
                     k_new,
-                    posterior_odds(t.boost(k_new), self.prior[m as usize]),
+                    posterior_odds(t.boost(k_new), self.prior(m)),
                 )
             })
             .collect()
@@ -557,7 +573,7 @@ impl Live {
             .members(s)
             .iter()
             .find(|&&m| self.status[m as usize] == Status::Counted)
-            .map_or(0.0, |&m| self.f_of[m as usize])
+            .map_or(0.0, |&m| self.f_of.get(m as usize))
     }
 
     /// Σ f over the counted singles.
@@ -627,7 +643,7 @@ impl Live {
             self.contribute(c as CandidateId, k, 1);
             // A star of one counted candidate: its f among the singles.
             if k == 1 && self.status[c] == Status::Counted {
-                self.bump_single(self.f_of[c], 1);
+                self.bump_single(self.f_of.get(c), 1);
             }
         }
         for (s, _) in grouped.iter().enumerate().filter(|g| *g.1) {
@@ -673,7 +689,7 @@ impl Live {
     }
 
     fn contribute(&mut self, c: CandidateId, k: usize, delta: i32) {
-        let class = self.class_of[c as usize] as usize;
+        let class = self.class_of.get(c as usize) as usize;
         match self.status[c as usize] {
             Status::Rejected => {
                 self.rejected = self.rejected.wrapping_add_signed(delta as isize);
@@ -727,6 +743,25 @@ impl Live {
         counts.likely += l;
         counts.unlikely += self.held.total - l;
         self.counts = counts;
+    }
+}
+
+/// A value per candidate that is often one value for all: stored once
+/// then (a catalogue without fpp or an f by size: tens of MB fewer at 10⁷
+/// candidates, each written before it is read).
+#[derive(Clone, Debug)]
+enum PerCandidate<T> {
+    All(T),
+    Each(Vec<T>),
+}
+
+impl<T: Copy> PerCandidate<T> {
+    #[inline]
+    fn get(&self, c: usize) -> T {
+        match self {
+            PerCandidate::All(v) => *v,
+            PerCandidate::Each(v) => v[c],
+        }
     }
 }
 

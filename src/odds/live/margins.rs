@@ -33,27 +33,28 @@ impl Live {
         let k = self.k(c);
         let m = self.margins.get_or_init(|| self.margins_table());
         let t = self.model.threshold;
-        let f_c = self.f_of[c as usize];
+        let f_c = self.f_of.get(c as usize);
+        let has_fpp = self.has_fpp.get(c as usize);
         let last = m.scale.len() - 1;
         let hold_at = |j: usize| {
             let b = m.boost[j].get(k).copied().unwrap_or(1.0);
-            let p = if self.has_fpp[c as usize] {
-                self.prior[c as usize]
+            let p = if has_fpp {
+                self.prior(c)
             } else {
                 (m.scale[j] * f_c).min(1.0)
             };
             posterior_odds(b, p) >= t
         };
-        if !self.has_fpp[c as usize] {
+        if !has_fpp {
             return m
                 .refined
                 .iter()
                 .find(|r| r.0 == k && r.1 == f_c)
                 .and_then(|r| r.2);
         }
-        let j = if self.has_fpp[c as usize] {
+        let j = if has_fpp {
             // Largest j with boost_j ≥ x: the suffix maximum falls with j.
-            let p = self.prior[c as usize];
+            let p = self.prior(c);
             let x = t * p / (1.0 - p).max(1e-300);
             let sm = m.suffix_max.get(k)?;
             let upto = sm.partition_point(|&b| b >= x);
