@@ -65,40 +65,8 @@ impl IdIndex {
     /// hash part.
     pub(super) fn build(hashes: &[u64], same: impl Fn(u32, u32) -> bool) -> (IdIndex, Vec<u32>) {
         let grouped = Grouped::new(hashes);
-        let agreed = grouped.agrees(0..hashes.len(), &same);
-        grouped.settle(agreed, hashes, same)
-    }
-
-    /// `build` when some hash part is shared by different texts: within
-    /// each run of one hash part, every row is compared with the distinct
-    /// texts before it.
-    pub(super) fn build_comparing(
-        mut self,
-        keys: &[u64],
-        mut first_of: Vec<u32>,
-        same: impl Fn(u32, u32) -> bool,
-    ) -> (IdIndex, Vec<u32>) {
-        let (bits, mask) = (self.id_bits, self.mask());
-        let mut i = 0;
-        while i < keys.len() {
-            let hash = keys[i] >> bits;
-            let run_start = self.keys.len();
-            while i < keys.len() && keys[i] >> bits == hash {
-                let row = (keys[i] & mask) as u32;
-                // Rows ascend within a run, so an equal earlier entry is the first.
-                let earlier = self.keys[run_start..].iter().map(|k| (k & mask) as u32);
-                match earlier.clone().find(|&r| same(r, row)) {
-                    Some(first) => first_of[row as usize] = first,
-                    None => {
-                        first_of[row as usize] = row;
-                        self.keys.push(keys[i]);
-                    }
-                }
-                i += 1;
-            }
-        }
-        self.keys.shrink_to_fit();
-        (self, first_of)
+        let off = grouped.disagreeing(0..hashes.len(), &same);
+        grouped.settle(&off, hashes, same)
     }
 
     /// Renames every id (a row, when built) by `to`.
@@ -151,65 +119,110 @@ impl Grouped {
         Grouped { index, first_of }
     }
 
-    /// True when each of these rows that is grouped with an earlier row
-    /// has its text (`same` says), in row order: one side of every
-    /// comparison is then read in sequence.
-    pub(super) fn agrees(
+    /// The rows among these grouped with an earlier row whose text is
+    /// not its (`same` says): rows of a hash part shared by two texts, a
+    /// collision. Checked in row order, so that one side of every
+    /// comparison is read in sequence. Rare below a million ids, a few
+    /// dozen rows among ten million (the hash part keeps 64 − log₂ n bits).
+    pub(super) fn disagreeing(
         &self,
         rows: std::ops::Range<usize>,
         same: &impl Fn(u32, u32) -> bool,
-    ) -> bool {
+    ) -> Vec<u32> {
         (self.first_of[rows.clone()].iter().zip(rows))
-            .all(|(&f, r)| f as usize == r || same(f, r as u32))
+            .filter(|&(&f, r)| f as usize != r && !same(f, r as u32))
+            .map(|(_, r)| r as u32)
+            .collect()
     }
 
-    /// The index and first rows: as grouped when the texts `agreed`, else
-    /// by the slower path that compares within each hash part (a collision:
-    /// two texts, one hash part; rare).
+    /// The index and first rows, with the rows `off` ([`Grouped::
+    /// disagreeing`], ascending) sorted out: each takes the first row of
+    /// its hash part with its text, or becomes one, whose key joins the
+    /// index. Only those rows are compared again, however many ids share
+    /// the catalogue.
     pub(super) fn settle(
         self,
-        agreed: bool,
+        off: &[u32],
         hashes: &[u64],
         same: impl Fn(u32, u32) -> bool,
     ) -> (IdIndex, Vec<u32>) {
         let Grouped {
             mut index,
-            first_of,
+            mut first_of,
         } = self;
-        if agreed {
+        if off.is_empty() {
             index.keys.shrink_to_fit();
             return (index, first_of);
         }
-        // The keys again (they are not kept meanwhile: memory).
-        let keys = sorted_keys(hashes, index.id_bits);
-        index.keys.clear();
-        index.build_comparing(&keys, first_of, same)
+        let bits = index.id_bits;
+        // Per hash part (named by its first row), the first rows of its
+        // texts so far, in row order.
+        let mut texts: hashbrown::HashMap<u32, Vec<u32>> = hashbrown::HashMap::new();
+        let mut added: Vec<u64> = Vec::new();
+        for &r in off {
+            let part = first_of[r as usize];
+            let firsts = texts.entry(part).or_insert_with(|| vec![part]);
+            match firsts.iter().copied().find(|&f| same(f, r)) {
+                Some(f) => first_of[r as usize] = f,
+                None => {
+                    firsts.push(r);
+                    first_of[r as usize] = r;
+                    added.push((hashes[r as usize] >> bits << bits) | r as u64);
+                }
+            }
+        }
+        // The new keys merged in: the index stays sorted, one key per text.
+        added.sort_unstable();
+        let old = std::mem::take(&mut index.keys);
+        let mut keys = Vec::with_capacity(old.len() + added.len());
+        let mut new = added.into_iter().peekable();
+        for k in old {
+            while let Some(a) = new.next_if(|&a| a < k) {
+                keys.push(a);
+            }
+            keys.push(k);
+        }
+        keys.extend(new);
+        index.keys = keys;
+        (index, first_of)
     }
 }
 
-/// True when `test` passes for every block of `0..n`, tried on two threads
-/// (blocks handed out in turn, so uneven blocks still share the work).
-pub(super) fn all_blocks(n: usize, test: impl Fn(std::ops::Range<usize>) -> bool + Sync) -> bool {
-    use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+/// The rows `find` gives for the blocks of `0..n`, in order, found on two
+/// threads (blocks handed out in turn, so uneven blocks still share the
+/// work).
+pub(super) fn all_blocks(
+    n: usize,
+    find: impl Fn(std::ops::Range<usize>) -> Vec<u32> + Sync,
+) -> Vec<u32> {
+    use std::sync::atomic::{AtomicUsize, Ordering};
     const BLOCK: usize = 1 << 15;
     let next = AtomicUsize::new(0);
-    let failed = AtomicBool::new(false);
     let work = || {
+        let mut found: Vec<(usize, Vec<u32>)> = Vec::new();
         loop {
             let start = next.fetch_add(1, Ordering::Relaxed) * BLOCK;
-            if start >= n || failed.load(Ordering::Relaxed) {
-                return;
+            if start >= n {
+                return found;
             }
-            if !test(start..(start + BLOCK).min(n)) {
-                failed.store(true, Ordering::Relaxed);
+            let rows = find(start..(start + BLOCK).min(n));
+            if !rows.is_empty() {
+                found.push((start, rows));
             }
         }
     };
-    std::thread::scope(|s| {
-        s.spawn(work);
-        work();
+    let mut found = std::thread::scope(|s| {
+        let other = s.spawn(work);
+        let mut mine = work();
+        mine.extend(
+            other
+                .join()
+                .unwrap_or_else(|e| std::panic::resume_unwind(e)),
+        );
+        mine
     });
-    !failed.load(Ordering::Relaxed)
+    found.sort_unstable_by_key(|f| f.0);
+    found.into_iter().flat_map(|f| f.1).collect()
 }
 
 /// The keys of `hashes` (each hash with its low `id_bits` bits replaced by

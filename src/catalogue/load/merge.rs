@@ -238,11 +238,13 @@ impl Merger {
         let (cand_ids, star_ids) = (&self.candidates, &self.row_stars);
         let same_cand = |a: u32, b: u32| cand_ids.get(a as usize) == cand_ids.get(b as usize);
         let same_star = |a: u32, b: u32| star_ids.get(a as usize) == star_ids.get(b as usize);
-        let cands_agree = all_blocks(self.candidate_hash.len(), |r| cands.agrees(r, &same_cand));
-        let stars_agree = all_blocks(self.star_hash.len(), |r| stars.agrees(r, &same_star));
+        let cands_off = all_blocks(self.candidate_hash.len(), |r| {
+            cands.disagreeing(r, &same_cand)
+        });
+        let stars_off = all_blocks(self.star_hash.len(), |r| stars.disagreeing(r, &same_star));
         let (candidate_lookup, first_of) =
-            cands.settle(cands_agree, &self.candidate_hash, same_cand);
-        let grouping = StarGrouping::number(stars.settle(stars_agree, &self.star_hash, same_star));
+            cands.settle(&cands_off, &self.candidate_hash, same_cand);
+        let grouping = StarGrouping::number(stars.settle(&stars_off, &self.star_hash, same_star));
         let mut dups = repeats(&first_of);
         drop(first_of);
         let mut candidate_lookup = candidate_lookup;

@@ -265,6 +265,31 @@ fn ids_group_by_text_even_when_hashes_collide() {
 }
 
 #[test]
+fn ids_group_by_text_when_many_texts_share_few_hashes() {
+    // 20,000 rows of 3,000 texts under 7 hash parts: every row of a text
+    // must find the text's first row, as a plain map by text says.
+    let mut state = 0x9e37_79b9_7f4a_7c15u64;
+    let mut next = || {
+        state ^= state << 13;
+        state ^= state >> 7;
+        state ^= state << 17;
+        state
+    };
+    let texts: Vec<String> = (0..20_000).map(|_| format!("T{}", next() % 3000)).collect();
+    let hash = |t: &str| (t.bytes().map(u64::from).sum::<u64>() % 7) << 40;
+    let hashes: Vec<u64> = texts.iter().map(|t| hash(t)).collect();
+    let (index, first_of) = IdIndex::build(&hashes, |a, b| texts[a as usize] == texts[b as usize]);
+    let mut first: std::collections::HashMap<&str, u32> = Default::default();
+    for (row, t) in texts.iter().enumerate() {
+        let f = *first.entry(t.as_str()).or_insert(row as u32);
+        assert_eq!(first_of[row], f, "row {row}");
+        assert_eq!(index.find(hash(t), |r| texts[r as usize] == *t), Some(f));
+    }
+    assert_eq!(index.keys.len(), first.len());
+    assert!(index.keys.windows(2).all(|w| w[0] < w[1]));
+}
+
+#[test]
 fn fast_path_agrees_with_std() {
     for s in [
         "0",
