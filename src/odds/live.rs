@@ -461,13 +461,7 @@ impl Live {
         after
             .iter()
             .filter(|&&(m, st)| m != c && st == Status::Counted)
-            .map(|&(m, _)| {
-                (
-                    m,
-                    k_new,
-                    posterior_odds(t.boost(k_new), self.prior(m)),
-                )
-            })
+            .map(|&(m, _)| (m, k_new, posterior_odds(t.boost(k_new), self.prior(m))))
             .collect()
     }
 
