@@ -11,7 +11,9 @@ use super::keymap::Keymap;
 use crate::decision::Decision;
 use crate::odds::{Live, Model};
 
+mod background;
 mod other_ids;
+mod screens;
 
 fn demo_app() -> App {
     demo_app_with(None)
@@ -234,39 +236,6 @@ fn keep_advances_to_the_next_open_candidate_and_find_jumps() {
 }
 
 #[test]
-fn renders_at_80x24_and_says_so_when_too_small() {
-    let mut app = demo_app();
-    let s = screen(&app, 80, 24);
-    assert!(s.contains("Systems 321/321"), "{s}");
-    assert!(s.contains("Candidates of"), "{s}");
-    assert!(s.contains("Facts"), "{s}");
-    assert!(s.contains("validated"), "{s}");
-    act(&mut app, Action::Help);
-    let h = screen(&app, 120, 40);
-    for a in Action::ALL {
-        assert!(h.contains(a.name()), "help lacks {}", a.name());
-    }
-    let tiny = screen(&app, 20, 6);
-    assert!(
-        tiny.contains("starsift needs at") && tiny.contains("20x6"),
-        "{tiny}"
-    );
-    for (w, h) in [(1, 1), (2, 3), (59, 15), (60, 16)] {
-        let _ = screen(&app, w, h);
-    }
-}
-
-#[test]
-fn escape_sequences_in_ids_never_reach_the_screen() {
-    let text = "star,candidate,period_d,epoch,depth_ppm,duration_h\nE\u{1b}[2J,E-\u{1b}]0;x\u{7}1,3,10,500,2\n";
-    let cat = crate::catalogue::Catalogue::from_text("esc.csv", text);
-    let app = app_of(cat, 100, None);
-    let s = screen(&app, 100, 30);
-    assert!(!s.contains('\u{1b}') && !s.contains('\u{7}'));
-    assert!(s.contains("E\\x1b[2J"), "{s}");
-}
-
-#[test]
 fn decisions_go_to_the_ledger_first_and_show_in_its_pane() {
     let (dir, mut app) = demo_app_with_ledger("ledger");
     act(&mut app, Action::Select);
@@ -389,123 +358,6 @@ fn a_note_typed_in_the_reason_picker_goes_to_the_ledger() {
     let _ = std::fs::remove_dir_all(&dir);
 }
 
-/// The demo in the browser before its checks arrive (they run on a
-/// background thread), and those checks.
-fn checks_pending() -> (App, crate::checks::Checks) {
-    let cat = crate::demo::catalogue().unwrap();
-    let model = Model {
-        targets: Some(crate::demo::DEMO_TARGETS),
-        ..Model::default()
-    };
-    let live = Live::new(&cat, model).unwrap();
-    let checks = crate::checks::run(&cat, &Default::default());
-    let n = cat.len();
-    let mut app = App::new(
-        std::sync::Arc::new(cat),
-        live,
-        crate::checks::Checks::none(n),
-        None,
-        "t".into(),
-        Keymap::load(&[]).unwrap(),
-    );
-    app.checks_pending = true;
-    (app, checks)
-}
-
-#[test]
-fn checks_built_in_the_background_keep_the_decisions_made_meanwhile() {
-    // The checks thread builds the odds with the decisions of when it
-    // started; the vetter rejects a candidate while it runs.
-    let (mut app, checks) = checks_pending();
-    let (cat, n) = (std::sync::Arc::clone(&app.cat), app.cat.len());
-    let (model, at_start) = (
-        app.live.model().clone(),
-        super::app::decisions_of(&cat, &app.live),
-    );
-    act(&mut app, Action::Select);
-    let c = app.candidate().unwrap();
-    act(&mut app, Action::Reject);
-    act(&mut app, Action::Down);
-    act(&mut app, Action::Select);
-    let rejected = app.live.decision(c);
-    assert!(rejected.is_rejected());
-    let built = crate::session::odds_with(&cat, model, &checks, at_start, &[]);
-    app.update(Input::ChecksBuilt(Box::new((checks.clone(), built))));
-    assert!(!app.checks_pending);
-    assert_eq!(app.live.decision(c), rejected);
-    // The odds of the checks and of every decision now, as if built then.
-    let now = super::app::decisions_of(&cat, &app.live);
-    let fresh =
-        crate::session::odds_with(&cat, app.live.model().clone(), &checks, now, &[]).unwrap();
-    assert!(app.live.same_odds_state(&fresh));
-    for m in 0..n as crate::catalogue::CandidateId {
-        assert_eq!(app.live.odds(m), fresh.odds(m));
-        assert_eq!(app.live.verdict(m), fresh.verdict(m));
-        assert_eq!(app.live.flags(m), checks.flags(m));
-    }
-}
-
-#[test]
-fn checks_arriving_later_feed_the_verdicts() {
-    let (mut app, checks) = checks_pending();
-    let cat = std::sync::Arc::clone(&app.cat);
-    assert!(screen(&app, 120, 30).contains("checks running: 0 %"));
-    app.update(Input::ChecksDone(45));
-    assert!(screen(&app, 120, 30).contains("checks running: 45 %"));
-    app.update(Input::Progress(1240, 8000));
-    assert!(screen(&app, 160, 30).contains("light curves 1,240 / 8,000"));
-    // The planted unstable pair would be validated without its `crowded`
-    // flag: until the checks arrive, nothing is called validated on screen
-    // (the verdict waits for its evidence), nor drawn into a figure.
-    let pair = cat.find_candidate("HWT74304-s1").unwrap();
-    assert_eq!(app.live.verdict(pair), crate::odds::Verdict::Validated);
-    typed_filter(&mut app, "id:HWT74304");
-    act(&mut app, Action::Select);
-    let s = screen(&app, 120, 30);
-    let rows = s
-        .lines()
-        .filter(|l| l.contains("HWT74304-s") && l.contains(" open "));
-    assert!(
-        rows.clone().count() == 2 && rows.clone().all(|l| l.contains("checking")),
-        "{s}"
-    );
-    assert!(!rows.clone().any(|l| l.contains("validated")), "{s}");
-    assert!(s.contains("? validated"), "{s}");
-    act(&mut app, Action::WriteFigure);
-    assert!(
-        app.message
-            .as_deref()
-            .unwrap_or("")
-            .contains("checks are still running")
-    );
-    app.message = None;
-    // The flags found so far show at once (the verdicts still wait).
-    let mut so_far = vec![crate::flags::FlagSet::EMPTY; cat.len()];
-    so_far[pair as usize].insert(crate::flags::Flag::Crowded);
-    app.update(Input::FlagsSoFar(so_far));
-    let s = screen(&app, 120, 30);
-    let row = s
-        .lines()
-        .find(|l| l.contains("HWT74304-s1") && l.contains(" open "))
-        .unwrap();
-    assert!(row.contains("crowded") && row.contains("checking"), "{s}");
-    app.lc_progress = None;
-    assert!(
-        screen(&app, 160, 30).contains("checks running: 45 %, 1 flagged so far"),
-        "{}",
-        screen(&app, 160, 30)
-    );
-    assert!(
-        app.star_flags(cat.star_of(pair))
-            .contains(crate::flags::Flag::Crowded)
-    );
-    app.update(Input::Checks(Box::new(checks)));
-    assert!(app.flags_so_far.is_none());
-    assert!(app.checks.flags(pair).contains(crate::flags::Flag::Crowded));
-    assert_eq!(app.live.verdict(pair), crate::odds::Verdict::Likely);
-    assert!(!screen(&app, 120, 30).contains("checks running"));
-}
-
 /// The order of the systems pane, checked against a plain sort of the
 /// quantities the pane shows (std's stable `sort_by`; ties in catalogue
 /// order, by id for the id sort), for every sort in both directions,
@@ -615,27 +467,6 @@ fn reference_order(app: &App) -> Vec<crate::catalogue::StarId> {
 }
 
 #[test]
-fn the_signal_pane_shows_odd_beside_even_and_the_secondary() {
-    let mut app = demo_app();
-    let s = screen(&app, 80, 24);
-    assert!(s.contains("all transits"), "{s}");
-    act(&mut app, Action::SignalView);
-    let s = screen(&app, 80, 24);
-    assert!(
-        s.contains("odd - model") && s.contains("even - model"),
-        "{s}"
-    );
-    act(&mut app, Action::SignalView);
-    assert!(screen(&app, 80, 24).contains("secondary (phase 0.5)"));
-    act(&mut app, Action::SignalView);
-    // A tall pane shows all four at once.
-    let s = screen(&app, 160, 50);
-    for label in ["all transits", "odd", "even", "secondary (phase 0.5)"] {
-        assert!(s.contains(label), "{label}: {s}");
-    }
-}
-
-#[test]
 fn the_candidates_pane_sorts_its_members() {
     use super::app::CandidateSort;
     let mut app = demo_app();
@@ -705,40 +536,6 @@ fn clicks_select_rows_and_the_wheel_scrolls() {
     assert_eq!(app.star_row, 3);
 }
 
-#[test]
-fn palettes_paint_16_256_and_true_colour_and_none() {
-    use super::draw::Palette;
-    use ratatui::style::Color;
-    let app = demo_app();
-    let colours = |palette| {
-        let mut t = Terminal::new(TestBackend::new(100, 30)).unwrap();
-        t.draw(|f| {
-            draw(
-                &app,
-                f,
-                Look {
-                    palette,
-                    ascii: false,
-                },
-            );
-        })
-        .unwrap();
-        let buf = t.backend().buffer().clone();
-        buf.content().iter().map(|c| c.fg).collect::<Vec<Color>>()
-    };
-    let none = colours(Palette::None);
-    assert!(none.iter().all(|c| *c == Color::Reset));
-    assert!(colours(Palette::Basic).contains(&Color::Green));
-    let indexed = colours(Palette::Indexed);
-    assert!(indexed.iter().any(|c| matches!(c, Color::Indexed(_))));
-    assert!(!indexed.contains(&Color::Green));
-    assert!(
-        colours(Palette::Rgb)
-            .iter()
-            .any(|c| matches!(c, Color::Rgb(..)))
-    );
-}
-
 /// The screen as snapshot files (insta; `cargo insta review` or
 /// `INSTA_UPDATE=always cargo test` after a deliberate change): the demo's
 /// first system at 80x24 with the reason picker open, the odd/even view,
@@ -756,31 +553,6 @@ fn snapshots_at_80x24_60x16_and_20x6() {
     insta::assert_snapshot!("reject_picker_80x24", screen(&app, 80, 24));
     insta::assert_snapshot!("reject_picker_60x16", screen(&app, 60, 16));
     insta::assert_snapshot!("too_small_20x6", screen(&app, 20, 6));
-}
-
-#[test]
-fn the_screen_states_the_model_and_help_scrolls_to_its_statement() {
-    let mut app = demo_app();
-    let s = screen(&app, 80, 24);
-    assert!(
-        s.contains("odds under the multiplicity model, not confirmation"),
-        "{s}"
-    );
-    assert!(s.contains("N=52000 f=0.1"), "{s}");
-    act(&mut app, Action::Help);
-    let top = screen(&app, 80, 24);
-    assert!(top.contains("quit") && top.contains("scroll"), "{top}");
-    for _ in 0..200 {
-        act(&mut app, Action::Down);
-    }
-    let bottom = screen(&app, 80, 24);
-    assert!(bottom.contains("not confirmation."), "{bottom}");
-    assert_eq!(
-        app.star_row, 0,
-        "scrolling the help does not move the selection"
-    );
-    act(&mut app, Action::Close);
-    assert!(matches!(app.mode, Mode::Normal));
 }
 
 #[test]
@@ -919,33 +691,6 @@ fn long_ledger_entries_wrap_and_the_newest_stays_in_view() {
     let _ = std::fs::remove_dir_all(&dir);
 }
 
-#[test]
-fn orders_sorted_in_the_background_are_the_browsers_own() {
-    use super::app::{SortKey, static_order};
-    let mut app = demo_app();
-    let mut sent = Vec::new();
-    for key in [SortKey::Star, SortKey::Period] {
-        for descending in [false, true] {
-            let order = static_order(&app.cat, key, descending).unwrap();
-            (app.sort, app.descending) = (key, descending);
-            app.refresh_view();
-            assert_eq!(app.stars, order, "{} descending {descending}", key.name());
-            sent.push(((key, descending), order));
-        }
-    }
-    assert!(static_order(&app.cat, SortKey::BestOdds, false).is_none());
-    // Delivered to a fresh browser, they are its orders, and survive a decision.
-    let mut fresh = demo_app();
-    fresh.update(Input::Orders(sent.clone()));
-    act(&mut fresh, Action::NextPane);
-    act(&mut fresh, Action::Park);
-    for ((key, descending), order) in sent {
-        (fresh.sort, fresh.descending) = (key, descending);
-        fresh.refresh_view();
-        assert_eq!(fresh.stars, order, "{} descending {descending}", key.name());
-    }
-}
-
 /// A catalogue from bytes (invented rows), default options.
 fn catalogue_of(name: &str, data: &[u8]) -> crate::catalogue::Catalogue {
     crate::catalogue::Catalogue::load(
@@ -1032,81 +777,6 @@ fn after_a_decision_the_cursor_stays_in_the_system_while_it_has_open_candidates(
 }
 
 #[test]
-fn ascii_means_no_byte_above_127_anywhere() {
-    let mut app = demo_app();
-    // A candidate with data in the signal pane, facts with symbols, and
-    // every overlay.
-    let c = app.candidate().unwrap();
-    let mut screens = vec![
-        screen(&app, 80, 24),
-        screen(&app, 60, 16),
-        screen(&app, 200, 50),
-    ];
-    act(&mut app, Action::Reject);
-    screens.push(screen(&app, 80, 24));
-    act(&mut app, Action::Close);
-    act(&mut app, Action::Help);
-    screens.push(screen(&app, 80, 24));
-    act(&mut app, Action::Close);
-    act(&mut app, Action::Filter);
-    typed(&mut app, "k>=2 ★");
-    screens.push(screen(&app, 80, 24));
-    for s in &screens {
-        assert!(
-            s.is_ascii(),
-            "{}",
-            s.chars().filter(|c| !c.is_ascii()).collect::<String>()
-        );
-        assert!(s.contains('+') && s.contains('|'), "{s}");
-    }
-    assert!(screens[0].contains("R_earth"), "{}", screens[0]);
-    let _ = c;
-}
-
-#[test]
-fn small_screens_keep_id_odds_verdict_and_decision() {
-    let app = demo_app();
-    for (w, h) in [(80, 24), (60, 16)] {
-        let s = screen(&app, w, h);
-        let header = s.lines().nth(1).unwrap();
-        for col in ["id", "odds", "verdict", "decision"] {
-            assert!(header.contains(col), "{w}x{h}: {header}");
-        }
-    }
-    let wide = screen(&app, 200, 50);
-    for col in ["depth ppm", "prob", "period d", "snr"] {
-        assert!(wide.contains(col), "{wide}");
-    }
-    assert!(!wide.lines().nth(1).unwrap().contains(" P "), "no bare P");
-}
-
-#[test]
-fn the_reject_dialog_names_the_candidate_and_boxes_keep_their_keys() {
-    let mut app = demo_app();
-    let id = app.cat.candidate_id(app.candidate().unwrap()).to_string();
-    act(&mut app, Action::Reject);
-    let s = screen(&app, 80, 24);
-    assert!(s.contains(&format!("Reject {id}: why?")), "{s}");
-    assert!(s.contains("Esc cancels"), "{s}");
-    act(&mut app, Action::Close);
-    // A filter long enough to wrap in the box: the key line stays whole.
-    act(&mut app, Action::Filter);
-    typed(
-        &mut app,
-        "period>0 period<1000 depth>1 depth<1000000 odds>=0 snr>0 duration>0 k>=1",
-    );
-    act(&mut app, Action::Select);
-    act(&mut app, Action::ApplyToFilter);
-    let s = screen(&app, 80, 24);
-    assert!(s.contains("Esc cancel"), "{s}");
-    assert!(
-        s.lines()
-            .any(|l| l.contains("a keep") && l.contains("x reject")),
-        "{s}"
-    );
-}
-
-#[test]
 fn prompts_edit_as_a_shell_and_recall_earlier_filters() {
     let mut app = demo_app();
     act(&mut app, Action::Filter);
@@ -1141,43 +811,4 @@ fn prompts_edit_as_a_shell_and_recall_earlier_filters() {
     assert_eq!(app.filter.text, "k>=2");
     // The history is remembered with the position.
     assert_eq!(app.position().filters, vec!["k>=2".to_string()]);
-}
-
-#[test]
-fn a_rebound_key_shows_in_every_hint_that_names_it() {
-    let mut app = demo_app();
-    app.keymap = super::keymap::Keymap::load(&[(
-        "mine.toml",
-        "show-ledger = [\"g\"]\nsignal-view = [\"z\"]\nhelp = [\"h\"]\nkeep = [\"K\"]\nclose = [\"ctrl-g\"]\n",
-    )])
-    .unwrap();
-    let s = screen(&app, 100, 30);
-    assert!(s.contains("z: odd/even"), "{s}");
-    assert!(s.contains("(h explains)") && s.contains("K keep"), "{s}");
-    assert!(!s.contains("v: odd/even") && !s.contains("a keep"), "{s}");
-    act(&mut app, Action::ShowLedger);
-    let s = screen(&app, 120, 40);
-    assert!(s.contains("g for facts"), "{s}");
-    act(&mut app, Action::ShowLedger);
-    act(&mut app, Action::Help);
-    let s = screen(&app, 120, 40);
-    assert!(
-        s.contains("Keys (Ctrl-g closes)") || s.contains("Keys (ctrl-g closes)"),
-        "{s}"
-    );
-    act(&mut app, Action::Close);
-    act(&mut app, Action::Reject);
-    let s = screen(&app, 120, 40);
-    assert!(s.to_lowercase().contains("ctrl-g cancels"), "{s}");
-}
-
-#[test]
-fn a_long_prompt_scrolls_to_keep_the_cursor_in_sight() {
-    let mut app = demo_app();
-    act(&mut app, Action::Filter);
-    let long = "period>0 ".repeat(20) + "depth>42";
-    typed(&mut app, &long);
-    let s = screen(&app, 80, 24);
-    let last = s.lines().last().unwrap();
-    assert!(last.contains("<") && last.contains("depth>42|"), "{last}");
 }

@@ -60,7 +60,7 @@ fn reject_as_binary(app: &mut App, c: CandidateId) {
 /// The odds built from nothing with every decision of the browser now, as
 /// a command builds them.
 fn from_scratch(app: &App, checks: &crate::checks::Checks) -> Live {
-    let now = super::super::app::decisions_of(&app.cat, &app.live);
+    let now = crate::tui::app::decisions_of(&app.cat, &app.live);
     crate::session::odds_with(&app.cat, app.live.model().clone(), checks, now, &[]).unwrap()
 }
 
@@ -119,7 +119,7 @@ fn checks_arriving_after_the_rejection_keep_the_other_id_held() {
         Keymap::load(&[]).unwrap(),
     );
     app.checks_pending = true;
-    let at_start = super::super::app::decisions_of(&app.cat, &app.live);
+    let at_start = crate::tui::app::decisions_of(&app.cat, &app.live);
     let binary = app.cat.find_candidate("TOI-906.03").unwrap();
     reject_as_binary(&mut app, binary);
     let built = crate::session::odds_with(&app.cat, model, &checks, at_start, &[]);
