@@ -1,6 +1,7 @@
 //! What the browser shows: the systems the filter keeps, in the order of
 //! the current sort (orders kept per sort key and reused), each star's
-//! members in the candidate order, and where the selection lands.
+//! members in the candidate order, where the selection lands, and the
+//! moves to the next open candidate or flagged star.
 
 use super::*;
 
@@ -414,5 +415,52 @@ impl App {
             .unwrap_or(0)
             .min(self.stars.len().saturating_sub(1));
         self.cand_row = self.cand_row.min(self.members().len().saturating_sub(1));
+    }
+
+    /// Moves to the next (or previous) open candidate in view order,
+    /// looking star by star from the selection (no pass over the whole view).
+    pub(super) fn next_open(&mut self, forward: bool) {
+        let n = self.stars.len();
+        if n == 0 {
+            return;
+        }
+        for step in 0..=n {
+            let row = if forward {
+                (self.star_row + step) % n
+            } else {
+                (self.star_row + n - step % n) % n
+            };
+            let members = self.members_of(self.stars[row]);
+            let m = members.len();
+            let picks: Vec<usize> = match (step, forward) {
+                (0, true) => (self.cand_row + 1..m).collect(),
+                (0, false) => (0..self.cand_row.min(m)).rev().collect(),
+                (_, true) => (0..m).collect(),
+                (_, false) => (0..m).rev().collect(),
+            };
+            if let Some(&i) = picks
+                .iter()
+                .find(|&&i| self.live.decision(members[i]) == Decision::Open)
+            {
+                self.star_row = row;
+                self.cand_row = i;
+                self.focus = Pane::Candidates;
+                return;
+            }
+        }
+        self.message = Some("no open candidate left in view".into());
+    }
+
+    pub(super) fn next_flagged(&mut self) {
+        let n = self.stars.len();
+        for step in 1..=n {
+            let row = (self.star_row + step) % n;
+            if !self.star_flags(self.stars[row]).is_empty() {
+                self.star_row = row;
+                self.cand_row = 0;
+                return;
+            }
+        }
+        self.message = Some("no flagged star in view".into());
     }
 }
