@@ -713,12 +713,11 @@ impl App {
             Ok(mut live) => {
                 let (asked, links) = self.live.links();
                 live.add_links(asked, links.to_vec());
-                for c in 0..self.cat.len() as CandidateId {
-                    let now = self.live.decision(c);
-                    if live.decision(c) != now {
-                        decide::set_decision(&mut live, &self.cat, c, now);
-                    }
-                }
+                let since: Vec<_> = (0..self.cat.len() as CandidateId)
+                    .map(|c| (c, self.live.decision(c)))
+                    .filter(|&(c, now)| live.decision(c) != now)
+                    .collect();
+                decide::set_decisions(&mut live, &self.cat, &since);
                 self.live = live;
             }
             Err(e) => self.message = Some(format!("checks not applied: {e}")),
@@ -728,11 +727,6 @@ impl App {
         self.flags_so_far = None;
         self.forget_orders(true);
         self.refresh_view();
-    }
-
-    /// Sets a decision in the odds ([`decide::set_decision`]).
-    pub(super) fn set_live_decision(&mut self, c: CandidateId, d: crate::decision::Decision) {
-        decide::set_decision(&mut self.live, &self.cat, c, d);
     }
 
     /// The siblings' odds if the selected candidate were rejected for what

@@ -124,9 +124,8 @@ impl App {
         if let [one] = steps.as_slice() {
             self.after_decision(one.candidate, one.after);
         } else {
-            for st in &steps {
-                self.set_live_decision(st.candidate, st.after);
-            }
+            let decided: Vec<_> = steps.iter().map(|st| (st.candidate, st.after)).collect();
+            set_decisions(&mut self.live, &self.cat, &decided);
             self.forget_orders(false);
             self.refresh_view();
             self.refresh_history(true);
@@ -137,7 +136,7 @@ impl App {
     pub(super) fn after_decision(&mut self, c: CandidateId, d: Decision) {
         let s = self.cat.star_of(c);
         let ranks = self.odds_rank_by_size();
-        self.set_live_decision(c, d);
+        set_decisions(&mut self.live, &self.cat, &[(c, d)]);
         self.keep_orders(s, ranks);
         self.pinned = Some(s);
         self.message = Some(format!(
@@ -207,19 +206,28 @@ impl App {
     }
 }
 
-/// Sets a decision in the odds, as every command's odds have it: a
-/// rejection as a false positive first finds the other ids of its star
-/// (`checks::links_of`, one pass over the catalogue, once per star), whose
-/// candidates it holds (docs/science.md §3.4).
-pub(super) fn set_decision(
+/// Sets decisions in the odds, as every command's odds have them: the
+/// rejections as a false positive first find the other ids of their stars
+/// not looked for yet (`checks::links_of`: one pass over the catalogue for
+/// all of them, however many), whose candidates they hold (docs/science.md
+/// §3.4).
+pub(super) fn set_decisions(
     live: &mut crate::odds::Live,
     cat: &crate::catalogue::Catalogue,
-    c: CandidateId,
-    d: crate::decision::Decision,
+    decided: &[(CandidateId, crate::decision::Decision)],
 ) {
-    let s = cat.star_of(c);
-    if d.reason().is_some_and(crate::odds::names_false_positive) && !live.links_asked(s) {
-        live.add_links(&[s], crate::checks::links_of(cat, &[s]));
+    let mut ask: Vec<crate::catalogue::StarId> = decided
+        .iter()
+        .filter(|(_, d)| d.reason().is_some_and(crate::odds::names_false_positive))
+        .map(|&(c, _)| cat.star_of(c))
+        .filter(|&s| !live.links_asked(s))
+        .collect();
+    if !ask.is_empty() {
+        ask.sort_unstable();
+        ask.dedup();
+        live.add_links(&ask, crate::checks::links_of(cat, &ask));
     }
-    live.set_decision(c, d);
+    for &(c, d) in decided {
+        live.set_decision(c, d);
+    }
 }

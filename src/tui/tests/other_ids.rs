@@ -6,9 +6,10 @@ use super::*;
 use crate::catalogue::{CandidateId, Catalogue, LoadOptions, Source};
 use crate::odds::{Status, Verdict};
 
-/// Invented: 400 singles and 60 doubles for a histogram, and one star
-/// under two ids by its candidate family (`TOI-906.03` on `Gaia 4415`,
-/// the others on `TIC 790`).
+/// Invented: 400 singles and 60 doubles for a histogram, and two stars
+/// each under two ids by its candidate family (`TOI-906.03` on `Gaia
+/// 4415`, the others on `TIC 790`; `TOI-907.03` on `Gaia 4416`, the
+/// others on `TIC 791`).
 fn split_family() -> Catalogue {
     let mut t = String::from(
         "star,candidate,period_d,period_err_d,epoch,epoch_err_d,depth_ppm,duration_h,snr,impact,star_radius_rsun,star_mass_msun,star_teff_k\n",
@@ -31,7 +32,10 @@ fn split_family() -> Catalogue {
     t.push_str(
         "TIC 790,TOI-906.01,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772\n\
          TIC 790,TOI-906.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772\n\
-         Gaia 4415,TOI-906.03,2.7,0.00001,101.3,0.001,700,2.0,30,0.3,1,1,5772\n",
+         Gaia 4415,TOI-906.03,2.7,0.00001,101.3,0.001,700,2.0,30,0.3,1,1,5772\n\
+         TIC 791,TOI-907.01,5.3,0.00001,100.2,0.001,700,3.0,30,0.3,1,1,5772\n\
+         TIC 791,TOI-907.02,12.9,0.00001,101.2,0.001,650,3.6,28,0.3,1,1,5772\n\
+         Gaia 4416,TOI-907.03,3.1,0.00001,101.6,0.001,700,2.0,30,0.3,1,1,5772\n",
     );
     Catalogue::load(
         Source::Bytes {
@@ -126,5 +130,31 @@ fn checks_arriving_after_the_rejection_keep_the_other_id_held() {
     app.update(Input::ChecksBuilt(Box::new((checks.clone(), built))));
     let planet = app.cat.find_candidate("TOI-906.01").unwrap();
     assert_eq!(app.live.status(planet), Status::Held);
+    assert!(app.live.same_odds_state(&from_scratch(&app, &checks)));
+}
+
+#[test]
+fn a_rejection_of_a_whole_filter_holds_every_other_id_it_names() {
+    // One bulk rejection of both `Gaia` stars' binaries: one pass over the
+    // catalogue finds both other ids.
+    let cat = split_family();
+    let checks = crate::checks::run(&cat, &Default::default());
+    let mut app = app_of(cat, 50_000, None);
+    typed_filter(&mut app, "star:gaia");
+    act(&mut app, Action::ApplyToFilter);
+    act(&mut app, Action::Reject);
+    act(&mut app, Action::Select);
+    act(&mut app, Action::Select);
+    for binary in ["TOI-906.03", "TOI-907.03"] {
+        let c = app.cat.find_candidate(binary).unwrap();
+        assert_eq!(
+            app.live.decision(c),
+            Decision::Rejected(crate::decision::Reason::EclipsingBinary)
+        );
+    }
+    for planet in ["TOI-906.01", "TOI-906.02", "TOI-907.01", "TOI-907.02"] {
+        let c = app.cat.find_candidate(planet).unwrap();
+        assert_eq!(app.live.status(c), Status::Held, "{planet}");
+    }
     assert!(app.live.same_odds_state(&from_scratch(&app, &checks)));
 }
