@@ -133,6 +133,13 @@ fn main() {
             "decision",
             vec![Input::Action(Action::NextPane), Input::Action(Action::Keep)],
         ),
+        // A rejection as a binary: the picker opens, then the first reason;
+        // each star's first such rejection looks for its other ids (one
+        // pass over the catalogue).
+        (
+            "rejection as a binary",
+            vec![Input::Action(Action::Reject), Input::Action(Action::Select)],
+        ),
         // A decision makes the best-odds order stale: the next sort change
         // (here: reverse and back) sorts every star again.
         (
