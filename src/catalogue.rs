@@ -170,9 +170,10 @@ pub struct Catalogue {
     pub notes: Vec<String>,
     /// Data rows seen (loaded plus skipped).
     pub rows_seen: u64,
-    /// Each star by its id's key (`load::star_key`), built on the first
-    /// id [`Catalogue::find_star`] does not find as written.
-    star_keys: std::sync::OnceLock<hashbrown::HashMap<Vec<u8>, StarId>>,
+    /// Each star by the hash of its id's key (`load::star_key`; the keys
+    /// themselves are not kept), built on the first id
+    /// [`Catalogue::find_star`] does not find as written.
+    star_keys: std::sync::OnceLock<load::IdIndex>,
     /// Each candidate family's one star (`load::family_stars`), built on
     /// the first call of [`Catalogue::star_of_family`].
     families: std::sync::OnceLock<hashbrown::HashMap<Vec<u8>, Option<StarId>>>,
@@ -347,19 +348,32 @@ impl Catalogue {
         self.star_as_written(id).or_else(|| {
             // Another spelling of a star's id (`TIC100` for `TIC 100`):
             // the ledger's or a skipped row's.
-            let keys = self.star_keys.get_or_init(|| {
-                let mut key = Vec::new();
-                (0..self.stars.len() as StarId)
-                    .map(|s| {
-                        load::star_key(self.stars.get(s as usize), &mut key);
-                        (key.clone(), s)
-                    })
-                    .collect()
-            });
+            let keys = self.star_keys.get_or_init(|| self.star_key_index());
             let mut key = Vec::new();
             load::star_key(id, &mut key);
-            keys.get(&key).copied()
+            keys.find(self.hasher.hash_one(&key), |s| self.star_key_of(s) == key)
         })
+    }
+
+    /// The key of star s's id (`load::star_key`).
+    fn star_key_of(&self, s: StarId) -> Vec<u8> {
+        let mut key = Vec::new();
+        load::star_key(self.stars.get(s as usize), &mut key);
+        key
+    }
+
+    /// Every star by the hash of its id's key, in one sorted index: no key
+    /// is kept (at 10⁷ stars a map of the keys held half a GB and took
+    /// seconds to build, on the browser's first search).
+    fn star_key_index(&self) -> load::IdIndex {
+        let mut key = Vec::new();
+        let hashes: Vec<u64> = (0..self.stars.len())
+            .map(|s| {
+                load::star_key(self.stars.get(s), &mut key);
+                self.hasher.hash_one(&key)
+            })
+            .collect();
+        load::IdIndex::build(&hashes, |a, b| self.star_key_of(a) == self.star_key_of(b)).0
     }
 
     /// Number of stars with exactly k candidates, indexed by k (index 0 is 0).

@@ -63,7 +63,10 @@ impl IdIndex {
     /// is read in sequence; a collision (two texts, one hash part; rare)
     /// sends the build through the slower path that compares within each
     /// hash part.
-    pub(super) fn build(hashes: &[u64], same: impl Fn(u32, u32) -> bool) -> (IdIndex, Vec<u32>) {
+    pub(in crate::catalogue) fn build(
+        hashes: &[u64],
+        same: impl Fn(u32, u32) -> bool,
+    ) -> (IdIndex, Vec<u32>) {
         let grouped = Grouped::new(hashes);
         let off = grouped.disagreeing(0..hashes.len(), &same);
         grouped.settle(&off, hashes, same)

@@ -536,3 +536,23 @@ fn probabilities_as_limits_or_with_errors_are_their_numbers() {
         assert_eq!(bounded_number(bad.as_bytes()), None, "{bad}");
     }
 }
+
+#[test]
+fn a_star_is_found_by_another_spelling_among_thousands() {
+    // Invented: 6,000 stars (past the small-catalogue sort), each found
+    // by its id as written and by another spelling of it (case, a
+    // hyphen for the space, leading zeros: docs/science.md §3.4).
+    let mut text = String::from("star,candidate,period,epoch,depth,duration\n");
+    for i in 0..6000 {
+        text.push_str(&format!("TIC {i},C{i}-1,{}.5,100.0,800,3.0\n", 3 + i % 7));
+    }
+    let cat = Catalogue::from_text("invented.csv", &text);
+    assert_eq!(cat.star_count(), 6000);
+    for i in [0, 1, 999, 4095, 4096, 5999] {
+        let s = cat.find_star(&format!("TIC {i}")).unwrap();
+        assert_eq!(cat.find_star(&format!("tic-{i}")), Some(s), "{i}");
+        assert_eq!(cat.find_star(&format!("TIC 000{i}")), Some(s), "{i}");
+    }
+    assert_eq!(cat.find_star("tic-6000"), None);
+    assert_eq!(cat.find_star("KIC 12"), None);
+}
