@@ -142,7 +142,26 @@ Gaia 91,G91-a,2.9,0.00001,101.3,0.001,700,2.0,30,0.3,1,1,5772,153.01000,20.00000
         assert_eq!(v[p], "validated", "{p}, before any decision");
     }
     reject(c, "TOI-906.03", "eclipsing-binary", "ann");
-    reject(c, "G90-a", "blend", "ann");
+    // `decide --verdicts` says what the rejection did at the other id too.
+    let o = starsift(&[
+        "decide",
+        c,
+        "--candidate",
+        "G90-a",
+        "--decision",
+        "rejected",
+        "--reason",
+        "blend",
+        "--vetter",
+        "ann",
+        "--verdicts",
+    ]);
+    let said = stdout(&o);
+    assert!(
+        said.contains("the same star as star TIC 503 (rows 0.8″ apart):")
+            && said.contains("TOI-503.01 likely"),
+        "{said}"
+    );
     reject(c, "G91-a", "eclipsing-binary", "ann");
     let v = agreed(c);
     for p in &planets[..4] {

@@ -147,15 +147,12 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     match &session.live {
         Ok(live) => {
             let cat = &session.loaded.catalogue;
-            for id in &members {
-                let Some(m) = cat.find_candidate(id) else {
-                    continue;
-                };
+            let line = |out: &mut dyn Write, m: crate::catalogue::CandidateId| {
                 let held = crate::odds::hold_text(cat, live, m);
                 writeln!(
                     out,
                     "  {} {} {} (k={}){}",
-                    clean(id),
+                    clean(cat.candidate_id(m)),
                     live.verdict(m),
                     live.odds(m).map_or("-".into(), crate::odds::format_odds),
                     live.k(m),
@@ -164,7 +161,25 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     } else {
                         format!(": {held}")
                     }
+                )
+            };
+            for id in &members {
+                if let Some(m) = cat.find_candidate(id) {
+                    line(out, m)?;
+                }
+            }
+            // The star's other ids, whose candidates a rejection as a false
+            // positive holds too (docs/science.md §3.4).
+            for link in live.links_of(star) {
+                writeln!(
+                    out,
+                    "  the same star as star {} ({}):",
+                    clean(cat.star_id(link.other)),
+                    link.tie.describe()
                 )?;
+                for &m in cat.members(link.other) {
+                    line(out, m)?;
+                }
             }
         }
         Err(e) => writeln!(out, "  no verdicts: {e}")?,
