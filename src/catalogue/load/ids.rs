@@ -60,9 +60,8 @@ impl IdIndex {
     /// row the first row whose text is the same (`same` says), itself when
     /// it is the first. Rows whose keys share a hash part are taken as one
     /// id, then checked in row order, so that one side of every comparison
-    /// is read in sequence; a collision (two texts, one hash part; rare)
-    /// sends the build through the slower path that compares within each
-    /// hash part.
+    /// is read in sequence; the rows of a collision (two texts, one hash
+    /// part) are then sorted out alone ([`Grouped::settle`]).
     pub(in crate::catalogue) fn build(
         hashes: &[u64],
         same: impl Fn(u32, u32) -> bool,
