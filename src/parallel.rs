@@ -8,6 +8,21 @@ pub fn workers() -> usize {
         .clamp(1, 8)
 }
 
+/// Lowers the calling thread to the lowest scheduling priority (nice 19;
+/// on Linux a thread has its own): work that is worth having early but
+/// must not slow the work the user waits for, such as the browser's
+/// orders sorted ahead of their first use while the checks run. Does
+/// nothing elsewhere, or when the system refuses.
+pub fn run_when_idle() {
+    #[cfg(target_os = "linux")]
+    // SAFETY: gettid and setpriority read no memory of ours; a failure is
+    // an error code, ignored (the thread keeps its priority).
+    unsafe {
+        let tid = libc::syscall(libc::SYS_gettid) as libc::id_t;
+        libc::setpriority(libc::PRIO_PROCESS, tid, 19);
+    }
+}
+
 /// `f` of `0..len` cut into one contiguous range per core, each on a
 /// thread of its own (the first on this one); the results in the order of
 /// the ranges. An empty `len` is one empty range.

@@ -476,11 +476,15 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         });
     }
     // The orders no decision moves (by star id, by shortest period), sorted
-    // in the background too, so that the first such sort is not a wait.
+    // in the background too, so that the first such sort is not a wait; at
+    // the lowest priority, so that on a machine of few cores they take no
+    // time from the checks (a sort asked for before they arrive is sorted
+    // then).
     let (orders_tx, orders_rx) = mpsc::channel();
     {
         let cat = Arc::clone(&app.cat);
         std::thread::spawn(move || {
+            crate::parallel::run_when_idle();
             let orders: Vec<_> = [app::SortKey::Star, app::SortKey::Period]
                 .into_iter()
                 .flat_map(|k| [(k, false), (k, true)])
