@@ -355,6 +355,13 @@ impl Catalogue {
         })
     }
 
+    /// Builds now what [`Catalogue::find_star`] builds on its first id not
+    /// found as written (the browser does so in the background, so that
+    /// its first search is no wait).
+    pub fn prepare_spellings(&self) {
+        self.star_keys.get_or_init(|| self.star_key_index());
+    }
+
     /// The key of star s's id (`load::star_key`).
     fn star_key_of(&self, s: StarId) -> Vec<u8> {
         let mut key = Vec::new();

@@ -491,6 +491,9 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                 .filter_map(|(k, d)| Some(((k, d), app::static_order(&cat, k, d)?)))
                 .collect();
             let _ = orders_tx.send(orders);
+            // And the index of the star ids' other spellings, which the
+            // first search would otherwise build.
+            cat.prepare_spellings();
         });
     }
     // SIGTERM, SIGHUP (a lost terminal) and SIGINT end the browser the
