@@ -7,6 +7,7 @@ mod common;
 use common::{fixture, load_text, starsift, stderr, stdout};
 use proptest::prelude::*;
 use starsift::catalogue::{CandidateId, Catalogue};
+use starsift::checks::{StarLink, Tie};
 use starsift::decision::{Decision, Reason};
 use starsift::flags::{ALL_FLAGS, FlagSet};
 use starsift::odds::{ALL_VERDICTS, BoostMode, Live, Model, Status, Verdict, VerdictCounts};
@@ -60,6 +61,7 @@ proptest! {
         mode in 0u8..3,
         threshold in prop_oneof![Just(100.0), 1.0f64..5000.0],
         steps in proptest::collection::vec((0usize..1000, 0u8..5, proptest::option::of(0u16..1024)), 1..60),
+        ties in proptest::collection::vec((0usize..1000, 0usize..1000), 0..6),
     ) {
         let cat = catalogue(&sizes, fpp.as_deref());
         let model = Model {
@@ -70,6 +72,22 @@ proptest! {
             ..Model::default()
         };
         let mut live = Live::new(&cat, model).unwrap();
+        // Star ids of one star (docs/science.md §3.4), both ways round, as
+        // `checks::links_of` gives them: a rejection as a binary at one
+        // holds the other's candidates.
+        let stars = cat.star_count();
+        let ties: Vec<(u32, u32)> = ties
+            .into_iter()
+            .map(|(a, b)| ((a % stars) as u32, (b % stars) as u32))
+            .filter(|(a, b)| a != b)
+            .collect();
+        let links: Vec<StarLink> = ties
+            .iter()
+            .flat_map(|&(a, b)| [(a, b), (b, a)])
+            .map(|(star, other)| StarLink { star, other, tie: Tie::Place(1.0) })
+            .collect();
+        let asked: Vec<u32> = ties.iter().flat_map(|&(a, b)| [a, b]).collect();
+        live.add_links(&asked, links);
         for (pick, code, flags) in steps {
             let c = (pick % cat.len()) as CandidateId;
             live.set_decision(c, decision(code));
@@ -79,6 +97,18 @@ proptest! {
             }
             let fresh = live.rebuilt(&cat).unwrap();
             prop_assert!(live.same_odds_state(&fresh));
+            // A star tied to one with a candidate rejected as a binary
+            // counts none of its own.
+            for &(a, b) in &ties {
+                for (s, o) in [(a, b), (b, a)] {
+                    let binary = cat.members(o).iter().any(|&m| live.decision(m) == Decision::Rejected(Reason::EclipsingBinary));
+                    if binary {
+                        for &m in cat.members(s) {
+                            prop_assert_ne!(live.status(m), Status::Counted);
+                        }
+                    }
+                }
+            }
             prop_assert_eq!(live.counts(), tally(&live, cat.len()));
             let total: usize = ALL_VERDICTS.iter().map(|v| live.counts().get(*v)).sum();
             prop_assert_eq!(total, cat.len());
