@@ -54,6 +54,31 @@ fn app_of(
     )
 }
 
+/// The browser on a catalogue before its checks arrive (they run on a
+/// background thread), N targets, every candidate open, and those checks.
+fn checks_pending_on(
+    cat: crate::catalogue::Catalogue,
+    targets: u64,
+) -> (App, crate::checks::Checks) {
+    let model = Model {
+        targets: Some(targets),
+        ..Model::default()
+    };
+    let live = Live::new(&cat, model).unwrap();
+    let checks = crate::checks::run(&cat, &Default::default());
+    let n = cat.len();
+    let mut app = App::new(
+        std::sync::Arc::new(cat),
+        live,
+        crate::checks::Checks::none(n),
+        None,
+        "t".into(),
+        Keymap::load(&[]).unwrap(),
+    );
+    app.checks_pending = true;
+    (app, checks)
+}
+
 /// The demo browser with a ledger in a fresh scratch folder (returned, to
 /// be removed by the test).
 fn demo_app_with_ledger(tag: &str) -> (std::path::PathBuf, App) {

@@ -7,24 +7,7 @@ use super::*;
 /// The demo in the browser before its checks arrive (they run on a
 /// background thread), and those checks.
 fn checks_pending() -> (App, crate::checks::Checks) {
-    let cat = crate::demo::catalogue().unwrap();
-    let model = Model {
-        targets: Some(crate::demo::DEMO_TARGETS),
-        ..Model::default()
-    };
-    let live = Live::new(&cat, model).unwrap();
-    let checks = crate::checks::run(&cat, &Default::default());
-    let n = cat.len();
-    let mut app = App::new(
-        std::sync::Arc::new(cat),
-        live,
-        crate::checks::Checks::none(n),
-        None,
-        "t".into(),
-        Keymap::load(&[]).unwrap(),
-    );
-    app.checks_pending = true;
-    (app, checks)
+    checks_pending_on(crate::demo::catalogue().unwrap(), crate::demo::DEMO_TARGETS)
 }
 
 #[test]

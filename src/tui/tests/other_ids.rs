@@ -106,23 +106,8 @@ fn rejecting_a_binary_holds_the_other_id_of_its_star_and_undo_releases_it() {
 fn checks_arriving_after_the_rejection_keep_the_other_id_held() {
     // The checks thread builds its odds from the decisions of when it
     // started, before the rejection.
-    let cat = split_family();
-    let checks = crate::checks::run(&cat, &Default::default());
-    let model = Model {
-        targets: Some(50_000),
-        ..Model::default()
-    };
-    let n = cat.len();
-    let live = Live::new(&cat, model.clone()).unwrap();
-    let mut app = App::new(
-        std::sync::Arc::new(cat),
-        live,
-        crate::checks::Checks::none(n),
-        None,
-        "t".into(),
-        Keymap::load(&[]).unwrap(),
-    );
-    app.checks_pending = true;
+    let (mut app, checks) = checks_pending_on(split_family(), 50_000);
+    let model = app.live.model().clone();
     let at_start = crate::tui::app::decisions_of(&app.cat, &app.live);
     let binary = app.cat.find_candidate("TOI-906.03").unwrap();
     reject_as_binary(&mut app, binary);
