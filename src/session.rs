@@ -109,7 +109,12 @@ pub fn odds_with(
     decisions: Vec<Decision>,
     gone: &[crate::checks::UnseenFp],
 ) -> Result<Live, ModelError> {
-    let rejected_fp = rejected_fp_stars(cat, &decisions);
+    let rejected: Vec<_> = decisions
+        .iter()
+        .enumerate()
+        .filter(|(_, d)| d.reason().is_some_and(crate::odds::names_false_positive))
+        .map(|(c, &d)| (c as crate::catalogue::CandidateId, d))
+        .collect();
     let mut live = Live::with_evidence(
         cat,
         model,
@@ -118,31 +123,34 @@ pub fn odds_with(
         decisions,
         checks.unseen_fp().iter().chain(gone).cloned().collect(),
     )?;
-    // A vetter's rejection as a false positive holds the star's other ids
-    // (docs/science.md §3.4): one pass over the catalogue finds them.
-    if !rejected_fp.is_empty() {
-        live.add_links(&rejected_fp, crate::checks::links_of(cat, &rejected_fp));
-    }
+    link_other_ids(&mut live, cat, rejected);
     // What the checks say of the inputs, among the other input warnings.
     live.input_warnings.extend(checks.notes().iter().cloned());
     Ok(live)
 }
 
-/// The stars with a candidate rejected as a false positive under
-/// `decisions` (`odds::names_false_positive`), each once.
-fn rejected_fp_stars(
+/// Finds the other ids (`checks::links_of`: one pass over the catalogue
+/// for all of them) of the stars whose candidates these decisions reject as
+/// a false positive, where `live` has not looked yet, so that it holds
+/// their candidates too (docs/science.md §3.4). Every command (through
+/// [`odds_with`]) and the browser, before it sets decisions, call it.
+pub fn link_other_ids(
+    live: &mut Live,
     cat: &crate::catalogue::Catalogue,
-    decisions: &[Decision],
-) -> Vec<crate::catalogue::StarId> {
-    let mut stars: Vec<_> = decisions
-        .iter()
-        .enumerate()
+    decided: impl IntoIterator<Item = (crate::catalogue::CandidateId, Decision)>,
+) {
+    let mut ask: Vec<_> = decided
+        .into_iter()
         .filter(|(_, d)| d.reason().is_some_and(crate::odds::names_false_positive))
-        .map(|(c, _)| cat.star_of(c as crate::catalogue::CandidateId))
+        .map(|(c, _)| cat.star_of(c))
+        .filter(|&s| !live.links_asked(s))
         .collect();
-    stars.sort_unstable();
-    stars.dedup();
-    stars
+    if ask.is_empty() {
+        return;
+    }
+    ask.sort_unstable();
+    ask.dedup();
+    live.add_links(&ask, crate::checks::links_of(cat, &ask));
 }
 
 impl Session {

@@ -207,26 +207,14 @@ impl App {
 }
 
 /// Sets decisions in the odds, as every command's odds have them: the
-/// rejections as a false positive first find the other ids of their stars
-/// not looked for yet (`checks::links_of`: one pass over the catalogue for
-/// all of them, however many), whose candidates they hold (docs/science.md
-/// §3.4).
+/// other ids of the stars they reject a candidate of as a false positive
+/// are looked for first (`session::link_other_ids`).
 pub(super) fn set_decisions(
     live: &mut crate::odds::Live,
     cat: &crate::catalogue::Catalogue,
     decided: &[(CandidateId, crate::decision::Decision)],
 ) {
-    let mut ask: Vec<crate::catalogue::StarId> = decided
-        .iter()
-        .filter(|(_, d)| d.reason().is_some_and(crate::odds::names_false_positive))
-        .map(|&(c, _)| cat.star_of(c))
-        .filter(|&s| !live.links_asked(s))
-        .collect();
-    if !ask.is_empty() {
-        ask.sort_unstable();
-        ask.dedup();
-        live.add_links(&ask, crate::checks::links_of(cat, &ask));
-    }
+    crate::session::link_other_ids(live, cat, decided.iter().copied());
     for &(c, d) in decided {
         live.set_decision(c, d);
     }
