@@ -25,8 +25,10 @@ use super::fenwick::Fenwick;
 mod held;
 mod links;
 mod margins;
+mod per_candidate;
 pub use held::{Hold, names_false_positive};
 use margins::Margins;
+use per_candidate::PerCandidate;
 
 /// Candidates per verdict.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
@@ -737,25 +739,6 @@ impl Live {
         counts.likely += l;
         counts.unlikely += self.held.total - l;
         self.counts = counts;
-    }
-}
-
-/// A value per candidate that is often one value for all: stored once
-/// then (a catalogue without fpp or an f by size: tens of MB fewer at 10⁷
-/// candidates, each written before it is read).
-#[derive(Clone, Debug)]
-enum PerCandidate<T> {
-    All(T),
-    Each(Vec<T>),
-}
-
-impl<T: Copy> PerCandidate<T> {
-    #[inline]
-    fn get(&self, c: usize) -> T {
-        match self {
-            PerCandidate::All(v) => *v,
-            PerCandidate::Each(v) => v[c],
-        }
     }
 }
 
