@@ -14,18 +14,10 @@
 # has seen the catalogue already, as a vetter's every decision after the
 # first does (the fingerprint known from the file's stamp).
 set -euo pipefail
-root="$(cd "$(dirname "$0")/.." && pwd)"
-# STARSIFT_BIN runs another build (e.g. an older commit's) on the same file.
-bin="${STARSIFT_BIN:-$root/target/release/starsift}"
-n="${1:-1000000}"
 rounds="${2:-3}"
-cat="$root/bench-data/big-$n.csv"
-[ -x "$bin" ] || { echo "build first: cargo build --release" >&2; exit 1; }
 [ -x /usr/bin/time ] || { echo "needs GNU time (/usr/bin/time)" >&2; exit 1; }
-if [ ! -f "$cat" ]; then
-  mkdir -p "$root/bench-data"
-  "$bin" generate big --candidates "$n" --out "$cat" >&2
-fi
+# STARSIFT_BIN runs another build (e.g. an older commit's) on the same file.
+. "$(dirname "$0")/big.sh"
 tmpd="$(mktemp -d)"
 trap 'rm -rf "$tmpd"' EXIT
 # Read once so that every timing finds the file in the page cache, the

@@ -9,14 +9,7 @@
 # CANDIDATES defaults to 1000000 (bench-data/big-N.csv, written on first
 # use). STARSIFT_BIN runs another build on the same file.
 set -euo pipefail
-root="$(cd "$(dirname "$0")/.." && pwd)"
-bin="${STARSIFT_BIN:-$root/target/release/starsift}"
-n="${1:-1000000}"
-cat="$root/bench-data/big-$n.csv"
-if [ ! -f "$cat" ]; then
-  mkdir -p "$root/bench-data"
-  "$bin" generate big --candidates "$n" --out "$cat" >&2
-fi
+. "$(dirname "$0")/big.sh"
 s="starsift-find-$$"
 tmpd="$(mktemp -d)"
 trap 'tmux kill-session -t "$s" 2>/dev/null || true; rm -rf "$tmpd"' EXIT

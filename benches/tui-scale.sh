@@ -11,14 +11,7 @@
 # so far"), and to the end of the checks (flags all filled in), with the peak memory
 # of the browser, and the time and memory of `summary`.
 set -euo pipefail
-root="$(cd "$(dirname "$0")/.." && pwd)"
-bin="$root/target/release/starsift"
-n="${1:-1000000}"
-cat="$root/bench-data/big-$n.csv"
-if [ ! -f "$cat" ]; then
-  mkdir -p "$root/bench-data"
-  "$bin" generate big --candidates "$n" --out "$cat" >&2
-fi
+. "$(dirname "$0")/big.sh"
 s="starsift-scale-$$"
 tmpd="$(mktemp -d)"
 trap 'tmux kill-session -t "$s" 2>/dev/null || true; rm -rf "$tmpd"' EXIT
