@@ -126,10 +126,19 @@ pub fn family_key(candidate: &str, out: &mut Vec<u8>) -> bool {
 pub fn family_stars<'a, S: PartialEq + Copy>(
     rows: impl Iterator<Item = (&'a str, S)>,
 ) -> hashbrown::HashMap<Vec<u8>, Option<S>> {
+    family_stars_among(rows, None)
+}
+
+/// [`family_stars`] of the families in `wanted` only (all without it): a
+/// few rows' families looked up in a large table hold no key of the rest.
+pub fn family_stars_among<'a, S: PartialEq + Copy>(
+    rows: impl Iterator<Item = (&'a str, S)>,
+    wanted: Option<&hashbrown::HashSet<Vec<u8>>>,
+) -> hashbrown::HashMap<Vec<u8>, Option<S>> {
     let mut map: hashbrown::HashMap<Vec<u8>, Option<S>> = hashbrown::HashMap::new();
     let mut key = Vec::new();
     for (cand, star) in rows {
-        if family_key(cand, &mut key) {
+        if family_key(cand, &mut key) && wanted.is_none_or(|w| w.contains(key.as_slice())) {
             map.entry_ref(key.as_slice())
                 .and_modify(|s| {
                     if *s != Some(star) {
@@ -195,10 +204,20 @@ impl Merger {
         if count == 0 {
             return None;
         }
-        let families = family_stars(
+        // The families of the rows with no star: few, however large the
+        // table.
+        let wanted: hashbrown::HashSet<Vec<u8>> = (0..n)
+            .filter(|&r| hostless[r])
+            .filter_map(|r| {
+                let mut key = Vec::new();
+                family_key(self.candidates.get(r), &mut key).then_some(key)
+            })
+            .collect();
+        let families = family_stars_among(
             (0..n)
                 .filter(|&r| !hostless[r])
                 .map(|r| (self.candidates.get(r), self.row_stars.get(r))),
+            Some(&wanted),
         );
         let mut key = Vec::new();
         let mut joined: Vec<(usize, String)> = Vec::new();
@@ -348,5 +367,13 @@ mod tests {
         );
         assert_eq!(stars[b"toi1".as_slice()], Some(7));
         assert_eq!(stars[b"toi2".as_slice()], None, "two stars: no family");
+        // Only the families asked for are kept.
+        let wanted: hashbrown::HashSet<Vec<u8>> = [b"toi2".to_vec()].into_iter().collect();
+        let some = family_stars_among(
+            [("TOI-1.01", 7), ("TOI-2.01", 8), ("TOI-2.02", 8)].into_iter(),
+            Some(&wanted),
+        );
+        assert_eq!(some.len(), 1);
+        assert_eq!(some[b"toi2".as_slice()], Some(8));
     }
 }
