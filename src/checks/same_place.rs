@@ -17,7 +17,9 @@ pub const SAME_PLACE_ARCSEC: f64 = 2.0;
 
 /// Every row of another star id within [`SAME_PLACE_ARCSEC`] of one of
 /// `targets`: (the first such target, the row, how far apart in ″). One
-/// pass over the catalogue; `targets` are few. None without positions.
+/// pass over the catalogue, each row looking only at the targets of its
+/// few bands of declination (an archive table can call a third of its
+/// rows false positives). None without positions.
 pub(super) fn ties(
     cat: &Catalogue,
     targets: &[CandidateId],
@@ -36,6 +38,19 @@ pub(super) fn ties(
     }
     near.sort_by(|a, b| a.0.total_cmp(&b.0));
     let reach = SAME_PLACE_ARCSEC / 3600.0;
+    // Bands of declination `reach` wide, and where each starts in `near`
+    // (sorted by declination, so each band's targets lie together). A row's
+    // targets within reach lie in its band or the next one each side; two
+    // each side are read, for the rounding of the band numbers.
+    let bands = (180.0 / reach).ceil() as usize + 1;
+    let band = |d: f64| (((d + 90.0) / reach).floor().max(0.0) as usize).min(bands - 1);
+    let mut start = vec![0u32; bands + 1];
+    for f in &near {
+        start[band(f.0) + 1] += 1;
+    }
+    for i in 1..start.len() {
+        start[i] += start[i - 1];
+    }
     (0..cat.len() as CandidateId)
         .filter_map(|c| {
             let (r, d) = (ra[c as usize], dec[c as usize]);
@@ -43,9 +58,11 @@ pub(super) fn ties(
                 return None;
             }
             let star: StarId = cat.star_of(c);
-            let from = near.partition_point(|f| f.0 < d - reach);
-            near[from..]
+            let b = band(d);
+            let (lo, hi) = (start[b.saturating_sub(2)], start[(b + 3).min(bands)]);
+            near[lo as usize..hi as usize]
                 .iter()
+                .skip_while(|f| f.0 < d - reach)
                 .take_while(|f| f.0 <= d + reach)
                 .filter(|f| cat.star_of(f.2) != star)
                 .map(|f| (f.2, c, separation_arcsec(f.1, f.0, r, d)))
@@ -86,4 +103,72 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
             if n == 1 { "" } else { "s" },
         )
     });
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// What `ties` finds, by comparing every row with every target in
+    /// declination order (the order `ties` reads them in).
+    fn every_pair(
+        cat: &Catalogue,
+        targets: &[CandidateId],
+    ) -> Vec<(CandidateId, CandidateId, f64)> {
+        let (ra, dec) = (
+            cat.column(Field::RaDeg).unwrap(),
+            cat.column(Field::DecDeg).unwrap(),
+        );
+        let mut near: Vec<CandidateId> = targets.to_vec();
+        near.sort_by(|&a, &b| dec[a as usize].total_cmp(&dec[b as usize]));
+        (0..cat.len() as CandidateId)
+            .filter_map(|c| {
+                let (r, d) = (ra[c as usize], dec[c as usize]);
+                near.iter()
+                    .filter(|&&t| (dec[t as usize] - d).abs() <= SAME_PLACE_ARCSEC / 3600.0)
+                    .filter(|&&t| cat.star_of(t) != cat.star_of(c))
+                    .map(|&t| {
+                        (
+                            t,
+                            c,
+                            separation_arcsec(ra[t as usize], dec[t as usize], r, d),
+                        )
+                    })
+                    .find(|&(_, _, apart)| apart <= SAME_PLACE_ARCSEC)
+            })
+            .collect()
+    }
+
+    #[test]
+    fn the_bands_find_what_comparing_every_pair_finds() {
+        // Invented: 3,000 rows in pairs of stars 0–3″ apart, some on band
+        // edges and at the poles; every third row a target.
+        let mut state = 0x2545_f491_4f6c_dd1du64;
+        let mut next = || {
+            state ^= state << 13;
+            state ^= state >> 7;
+            state ^= state << 17;
+            (state >> 11) as f64 / (1u64 << 53) as f64
+        };
+        let mut text = String::from("star,candidate,period,epoch,depth,duration,ra,dec\n");
+        for i in 0..1500 {
+            let dec = match i % 5 {
+                0 => 89.9995 + next() * 0.0005,
+                1 => -90.0 + next() * 0.0005,
+                // On an edge of a band of 2″.
+                2 => -90.0 + (next() * 180.0 * 1800.0).floor() / 1800.0,
+                _ => next() * 170.0 - 85.0,
+            };
+            let ra = next() * 360.0;
+            let off = next() * 3.0 / 3600.0;
+            for (j, (r, d)) in [(ra, dec), (ra, (dec + off).min(90.0))].iter().enumerate() {
+                text.push_str(&format!("S{i}x{j},C{i}x{j},3.5,100,800,3,{r},{d}\n"));
+            }
+        }
+        let cat = Catalogue::from_text("invented.csv", &text);
+        let targets: Vec<CandidateId> = (0..cat.len() as CandidateId).step_by(3).collect();
+        let found = ties(&cat, &targets);
+        assert!(found.len() > 500, "{}", found.len());
+        assert_eq!(found, every_pair(&cat, &targets));
+    }
 }
