@@ -401,6 +401,28 @@ pub(crate) fn shows_false_positive(checks: &Checks, c: CandidateId) -> bool {
         || (f.intersects(FlagSet::false_positive_signs()) && !f.intersects(FlagSet::group_flags()))
 }
 
+/// A false positive's signs (the catalogue's word, an eclipse pair, a
+/// radius no planet has) hold its star under its other ids too: a split
+/// candidate family (`families`), one place (`same_place`). The false
+/// positives are found in one pass for both; run after the star checks
+/// and again after the light curves.
+pub(crate) fn hold_other_ids(cat: &Catalogue, out: &mut Checks) {
+    // Few, usually none. The family check also takes the catalogue's word
+    // on a copy, which is a warning there.
+    let (mut shown, mut called) = (Vec::new(), Vec::new());
+    for c in 0..cat.len() as CandidateId {
+        let shows = shows_false_positive(out, c);
+        if shows {
+            shown.push(c);
+        }
+        if shows || out.warnings(c).contains(Flag::KnownFp) {
+            called.push(c);
+        }
+    }
+    families::flag(cat, out, &called);
+    same_place::flag(cat, out, &shown);
+}
+
 /// How a false positive is known, for the notes of the stars it holds
 /// under another id: `a known false positive (the catalogue)`, else the
 /// signs its checks show.
@@ -486,10 +508,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         }
         progress.add(unsaid);
         group_flags(cat, &links, &mut checks);
-        // A false positive's signs (the catalogue's word, an eclipse pair,
-        // a radius no planet has) hold the star under its other ids too.
-        families::flag(cat, &mut checks);
-        same_place::flag(cat, &mut checks);
+        hold_other_ids(cat, &mut checks);
         progress.publish(checks.all_flags());
         (
             checks,

@@ -9,7 +9,6 @@
 
 use super::{Checks, UnseenFp};
 use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family as family};
-use crate::flags::Flag;
 
 /// Every row of another star id that shares a candidate family with one of
 /// `targets`: (the first such target, the row). One pass over the
@@ -39,15 +38,13 @@ pub(super) fn ties(cat: &Catalogue, targets: &[CandidateId]) -> Vec<(CandidateId
 /// checks show one's signs (`secondary`, `big-radius`, `ellipsoidal`: the
 /// signs that hold its own star), and says so. Run again after the light
 /// curves, whose findings add signs; a star already held stays as it was.
-pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
-    // The false positives: few, usually none.
-    let fps: Vec<CandidateId> = (0..cat.len() as CandidateId)
-        .filter(|&c| super::shows_false_positive(out, c) || out.warnings(c).contains(Flag::KnownFp))
-        .collect();
+/// `fps`: those false positives, and the candidates the catalogue calls
+/// one only in a warning (a copy's `known-fp`).
+pub(super) fn flag(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
     if fps.is_empty() {
         return;
     }
-    let held: Vec<UnseenFp> = ties(cat, &fps)
+    let held: Vec<UnseenFp> = ties(cat, fps)
         .into_iter()
         .map(|(fp, c)| UnseenFp {
             star: cat.star_of(c),

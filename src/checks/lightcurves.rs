@@ -141,8 +141,7 @@ pub fn run_lightcurves_counted(
     }
     // The light curves' signs of a false positive hold its star under its
     // other ids too.
-    super::families::flag(cat, checks);
-    super::same_place::flag(cat, checks);
+    super::hold_other_ids(cat, checks);
     checks.sort_findings();
     let notice = match (offset_notice(&spans), folder_notice(cat, finder, total)) {
         (Some(a), Some(b)) => Some(format!("{a}; {b}")),

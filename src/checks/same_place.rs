@@ -76,15 +76,9 @@ pub(super) fn ties(
 /// calls it one, or its checks show one's signs: `Checks::
 /// shows_false_positive`), and says so. Run again after the light curves;
 /// a star already held stays as it was.
-pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
-    if cat.column(Field::RaDeg).is_none() || cat.column(Field::DecDeg).is_none() {
-        return;
-    }
-    // The false positives: few, usually none.
-    let fps: Vec<CandidateId> = (0..cat.len() as CandidateId)
-        .filter(|&c| super::shows_false_positive(out, c))
-        .collect();
-    let held: Vec<UnseenFp> = ties(cat, &fps)
+/// `fps`: those false positives.
+pub(super) fn flag(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
+    let held: Vec<UnseenFp> = ties(cat, fps)
         .into_iter()
         .map(|(fp, c, apart)| UnseenFp {
             star: cat.star_of(c),
