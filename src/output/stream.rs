@@ -21,8 +21,47 @@ pub struct CsvOut<'a> {
     out: Option<&'a mut dyn Write>,
     buf: Vec<u8>,
     ryu: ryu::Buffer,
+    recent: Recent,
     /// Whether the next field is the first of its row.
     first: bool,
+}
+
+/// The text of numbers written lately, by their bits: the odds, priors and
+/// boosts of a catalogue take a few values a million times over, and
+/// copying their text costs a fraction of making it again.
+struct Recent {
+    bits: [u64; RECENT],
+    text: [[u8; 24]; RECENT],
+    len: [u8; RECENT],
+}
+
+/// Slots of [`Recent`], one per value, chosen by the value's bits.
+const RECENT: usize = 32;
+
+impl Recent {
+    fn new() -> Recent {
+        Recent {
+            // A NaN's bits: never asked for (only finite values are written).
+            bits: [u64::MAX; RECENT],
+            text: [[0; 24]; RECENT],
+            len: [0; RECENT],
+        }
+    }
+
+    /// The text [`exact_in`] gives `v` (finite), made at most once per slot
+    /// and value.
+    fn exact(&mut self, ryu: &mut ryu::Buffer, v: f64) -> &[u8] {
+        let bits = v.to_bits();
+        let slot = (bits.wrapping_mul(0x9e37_79b9_7f4a_7c15) >> 59) as usize;
+        if self.bits[slot] != bits {
+            // Ryu's text is at most 24 bytes.
+            let s = exact_in(ryu, Some(v)).as_bytes();
+            self.text[slot][..s.len()].copy_from_slice(s);
+            self.len[slot] = s.len() as u8;
+            self.bits[slot] = bits;
+        }
+        &self.text[slot][..self.len[slot] as usize]
+    }
 }
 
 impl<'a> CsvOut<'a> {
@@ -31,6 +70,7 @@ impl<'a> CsvOut<'a> {
             out: Some(out),
             buf: Vec::with_capacity(1 << 17),
             ryu: ryu::Buffer::new(),
+            recent: Recent::new(),
             first: true,
         }
     }
@@ -41,6 +81,7 @@ impl<'a> CsvOut<'a> {
             out: None,
             buf,
             ryu: ryu::Buffer::new(),
+            recent: Recent::new(),
             first: true,
         }
     }
@@ -105,8 +146,10 @@ impl<'a> CsvOut<'a> {
     /// A number as [`exact`] writes it (empty when missing or not finite).
     pub fn exact(&mut self, v: Option<f64>) {
         self.separate();
-        let s = exact_in(&mut self.ryu, v);
-        self.buf.extend_from_slice(s.as_bytes());
+        if let Some(v) = v.filter(|v| v.is_finite()) {
+            let s = self.recent.exact(&mut self.ryu, v);
+            self.buf.extend_from_slice(s);
+        }
     }
 
     /// A whole number.
@@ -356,6 +399,40 @@ mod tests {
         let extra = b"one;two,\"needs, quotes\"\n";
         assert_eq!(got[..got.len() - extra.len()], want[..]);
         assert_eq!(&got[got.len() - extra.len()..], extra);
+    }
+
+    #[test]
+    fn numbers_written_again_are_written_as_ryu_writes_them() {
+        // ryu (through `exact`) is the reference for every value, whether
+        // its text was made now or kept from before: values repeated, and
+        // more different values than the kept slots, so slots are reused.
+        let mut values: Vec<Option<f64>> = Vec::new();
+        let mut x = 0x2545_f491_4f6c_dd1d_u64;
+        for i in 0..5000 {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            values.push(match i % 7 {
+                0 => Some(0.1),
+                1 => Some(f64::from_bits(x >> 2)),
+                2 => Some((x % 1000) as f64 / 8.0),
+                3 => None,
+                4 => Some(f64::NAN),
+                5 => Some(-((x % 50) as f64) * 1e-300),
+                _ => Some(1.0 / 3.0),
+            });
+        }
+        let mut got = Vec::new();
+        {
+            let mut w = CsvOut::new(&mut got);
+            for v in &values {
+                w.exact(*v);
+            }
+            w.end_row().unwrap();
+            w.finish().unwrap();
+        }
+        let want: Vec<String> = values.iter().map(|v| exact(*v)).collect();
+        assert_eq!(String::from_utf8(got).unwrap(), want.join(",") + "\n");
     }
 
     #[test]
