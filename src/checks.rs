@@ -407,19 +407,11 @@ pub(crate) fn shows_false_positive(checks: &Checks, c: CandidateId) -> bool {
 /// positives are found in one pass for both; run after the star checks
 /// and again after the light curves.
 pub(crate) fn hold_other_ids(cat: &Catalogue, out: &mut Checks) {
-    // Few, usually none. The family check also takes the catalogue's word
-    // on a copy, which is a warning there.
-    let (mut shown, mut called) = (Vec::new(), Vec::new());
-    for c in 0..cat.len() as CandidateId {
-        let shows = shows_false_positive(out, c);
-        if shows {
-            shown.push(c);
-        }
-        if shows || out.warnings(c).contains(Flag::KnownFp) {
-            called.push(c);
-        }
-    }
-    families::flag(cat, out, &called);
+    // Few, usually none.
+    let shown: Vec<CandidateId> = (0..cat.len() as CandidateId)
+        .filter(|&c| shows_false_positive(out, c))
+        .collect();
+    families::flag(cat, out, &shown);
     same_place::flag(cat, out, &shown);
 }
 
@@ -427,7 +419,7 @@ pub(crate) fn hold_other_ids(cat: &Catalogue, out: &mut Checks) {
 /// under another id: `a known false positive (the catalogue)`, else the
 /// signs its checks show.
 pub(crate) fn false_positive_words(checks: &Checks, c: CandidateId) -> String {
-    if checks.flags(c).contains(Flag::KnownFp) || checks.warnings(c).contains(Flag::KnownFp) {
+    if checks.flags(c).contains(Flag::KnownFp) {
         return "a known false positive (the catalogue)".into();
     }
     let signs: Vec<&str> = checks

@@ -38,8 +38,7 @@ pub(super) fn ties(cat: &Catalogue, targets: &[CandidateId]) -> Vec<(CandidateId
 /// checks show one's signs (`secondary`, `big-radius`, `ellipsoidal`: the
 /// signs that hold its own star), and says so. Run again after the light
 /// curves, whose findings add signs; a star already held stays as it was.
-/// `fps`: those false positives, and the candidates the catalogue calls
-/// one only in a warning (a copy's `known-fp`).
+/// `fps`: those false positives (`checks::shows_false_positive`).
 pub(super) fn flag(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
     if fps.is_empty() {
         return;
