@@ -596,6 +596,19 @@ fn durations_in_days_under_a_plain_name_are_said() {
         "{:?}",
         c.notes
     );
+    // `summary`'s load, which keeps only the ids, says the same.
+    let ids_only = Catalogue::load(
+        Source::Bytes {
+            name: "invented.csv",
+            data: days.as_bytes(),
+        },
+        &LoadOptions {
+            index_only: true,
+            ..LoadOptions::default()
+        },
+    )
+    .unwrap();
+    assert_eq!(ids_only.notes, c.notes);
     let c = common::load_text(&days.replace("0.125", "3.0"));
     assert!(c.notes.is_empty(), "{:?}", c.notes);
     // Stated in the header, the unit is read and nothing is said.

@@ -32,6 +32,11 @@ pub(super) struct Merger {
     zeros: usize,
     pub(super) rows_seen: u64,
     pub(super) reserved: bool,
+    /// Whether each parsed column is kept in the catalogue (`Layout::kept`).
+    kept: Vec<bool>,
+    /// The places in the parts' columns of the period and the duration.
+    ephemeris: Option<(usize, usize)>,
+    durations: DurationSample,
     /// The file's line at the start of the next part (parts number their
     /// lines from their own start).
     pub(super) next_line: u64,
@@ -65,6 +70,12 @@ impl Merger {
             zeros: 0,
             rows_seen: 0,
             reserved: false,
+            kept: layout.kept.clone(),
+            ephemeris: {
+                let at = |f: Field| layout.num_cols.iter().position(|&(s, _)| NUMERIC[s] == f);
+                at(Field::PeriodD).zip(at(Field::DurationH))
+            },
+            durations: DurationSample::default(),
             next_line: first_line,
         }
     }
@@ -85,8 +96,8 @@ impl Merger {
         self.star_hash.reserve(est);
         self.lines.reserve(est);
         // Columns not kept (`index_only`) stay empty.
-        for (c, p) in self.num.iter_mut().zip(&part.num) {
-            if !p.is_empty() {
+        for (c, &kept) in self.num.iter_mut().zip(&self.kept) {
+            if kept {
                 c.reserve(est);
             }
         }
@@ -118,7 +129,13 @@ impl Merger {
         self.star_hash.extend_from_slice(&part.star_hash);
         let line = |l: &u32| u32::try_from(base + *l as u64).unwrap_or(u32::MAX);
         self.lines.extend(part.lines.iter().map(line));
-        for (dst, src) in self.num.iter_mut().zip(&part.num) {
+        if let Some((p, t)) = self.ephemeris {
+            self.durations.add(&part.num[p], &part.num[t]);
+        }
+        for ((dst, src), _) in (self.num.iter_mut().zip(&part.num))
+            .zip(&self.kept)
+            .filter(|(_, k)| **k)
+        {
             dst.extend_from_slice(src);
         }
         if let (Some(dst), Some(src)) = (self.lightcurve.as_mut(), part.lightcurve.as_ref()) {
@@ -309,6 +326,7 @@ impl Merger {
             hasher,
             mut skipped,
             rows_seen,
+            durations,
             ..
         } = self;
         let StarGrouping {
@@ -469,17 +487,13 @@ impl Merger {
             }
         }
         // Durations in days read as hours: said, with what to do.
-        if let (Some(p), Some(t), Some(&index)) = (
-            Field::PeriodD.num_slot().and_then(|s| num[s].as_deref()),
-            Field::DurationH.num_slot().and_then(|s| num[s].as_deref()),
-            mapping.by_field.get(&Field::DurationH),
-        ) {
+        if let Some(&index) = mapping.by_field.get(&Field::DurationH) {
             let stated = opts
                 .header_units
                 .get(index)
                 .is_some_and(|u| !u.trim().is_empty());
             let ratio = (!stated)
-                .then(|| duration_ratio(p, t))
+                .then(|| durations.duration_ratio())
                 .flatten()
                 .filter(|&r| r < DAYS_AS_HOURS_RATIO);
             if let Some(ratio) = ratio {

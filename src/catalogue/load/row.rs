@@ -12,9 +12,12 @@ pub(super) struct Layout {
     pub(super) star_col: usize,
     pub(super) cand_col: usize,
     /// (slot in NUMERIC, column index), of the columns parsed and
-    /// validated, and whether each is kept.
+    /// validated, whether each is kept in the catalogue, and whether each
+    /// goes into the parts (kept, or read by the merge's rules only: the
+    /// period and duration of `index_only`, for the durations' unit).
     pub(super) num_cols: Vec<(usize, usize)>,
     pub(super) kept: Vec<bool>,
+    pub(super) in_parts: Vec<bool>,
     /// Columns whose values no rule and no caller reads (`index_only`):
     /// each cell is only checked to be a number or missing.
     pub(super) checked: Vec<bool>,
@@ -112,6 +115,13 @@ impl Layout {
             .iter()
             .map(|&(slot, _)| !index_only || NUMERIC[slot] == Field::DepthPpm)
             .collect();
+        let in_parts: Vec<bool> = num_cols
+            .iter()
+            .zip(&kept)
+            .map(|(&(slot, _), &kept)| {
+                kept || [Field::PeriodD, Field::DurationH].contains(&NUMERIC[slot])
+            })
+            .collect();
         let checked: Vec<bool> = num_cols
             .iter()
             .zip(&kept)
@@ -138,6 +148,7 @@ impl Layout {
             convert_text: Vec::new(),
             checked,
             kept,
+            in_parts,
             num_cols,
             star_col: col(Field::Star).unwrap_or(0),
             cand_col: col(Field::Candidate).unwrap_or(0),
@@ -422,7 +433,7 @@ impl Layout {
                 }
                 part.lines.push(u32::try_from(line).unwrap_or(u32::MAX));
                 for (j, &(slot, _)) in self.num_cols.iter().enumerate() {
-                    if self.kept[j] {
+                    if self.in_parts[j] {
                         part.num[j].push(scratch[slot]);
                     }
                 }

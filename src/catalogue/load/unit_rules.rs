@@ -1,5 +1,6 @@
 //! The unit rules: the conversions a table's stated units imply, and the
-//! depth unit (flag, table, header name, else the median rule).
+//! depth unit (flag, table, header name, else the median rule), and the
+//! sample that tells durations in days from durations in hours.
 
 use super::*;
 
@@ -67,22 +68,57 @@ pub(super) fn depth_unit(
 /// no source).
 pub(super) const DAYS_AS_HOURS_RATIO: f64 = 0.125;
 
-/// The median ratio of `durations_h` to the central transit duration of a
-/// small planet across a Sun-like star at each period (Winn 2010 via
-/// `science::durations_h`), over up to 10,000 rows spread through the
-/// table; `None` without rows to compare.
-pub(super) fn duration_ratio(periods: &[f64], durations_h: &[f64]) -> Option<f64> {
-    let step = (periods.len() / 10_000).max(1);
-    let mut ratios: Vec<f64> = (0..periods.len())
-        .step_by(step)
-        .filter_map(|r| {
-            let (p, t) = (periods[r], durations_h[r]);
-            let a = crate::science::a_over_rstar(p, 1.0, 1.0);
-            let (central, _) = crate::science::durations_h(p, a, 0.0, 0.0)?;
-            (t.is_finite() && central > 0.0).then(|| t / central)
-        })
-        .collect();
-    median(&mut ratios)
+/// Rows for [`duration_ratio`], by their place among the rows read (before
+/// duplicate ids go): every `step`-th from the first, `step` the smallest
+/// power of two that keeps at most [`SAMPLE`] of them. The same rows
+/// whether the load keeps the columns or only the ids (`summary`), so
+/// every command says the same of a table's durations.
+#[derive(Debug, Default)]
+pub(super) struct DurationSample {
+    /// (period in days, duration in hours) of the rows taken, in order.
+    pairs: Vec<(f64, f64)>,
+    step: usize,
+    seen: usize,
+}
+
+/// Rows at most in a [`DurationSample`].
+const SAMPLE: usize = 10_000;
+
+impl DurationSample {
+    /// Takes the rows that follow those seen (their periods and durations).
+    pub(super) fn add(&mut self, periods: &[f64], durations_h: &[f64]) {
+        self.step = self.step.max(1);
+        let first = (self.step - self.seen % self.step) % self.step;
+        for i in (first..periods.len().min(durations_h.len())).step_by(self.step) {
+            self.pairs.push((periods[i], durations_h[i]));
+        }
+        self.seen += periods.len();
+        // Every other row taken is at a multiple of the doubled step.
+        while self.pairs.len() > SAMPLE {
+            self.step *= 2;
+            let mut i = 0;
+            self.pairs.retain(|_| {
+                i += 1;
+                i % 2 == 1
+            });
+        }
+    }
+
+    /// The median ratio of the durations to the central transit duration
+    /// of a small planet across a Sun-like star at each period (Winn 2010
+    /// via `science::durations_h`); `None` without rows to compare.
+    pub(super) fn duration_ratio(&self) -> Option<f64> {
+        let mut ratios: Vec<f64> = self
+            .pairs
+            .iter()
+            .filter_map(|&(p, t)| {
+                let a = crate::science::a_over_rstar(p, 1.0, 1.0);
+                let (central, _) = crate::science::durations_h(p, a, 0.0, 0.0)?;
+                (t.is_finite() && central > 0.0).then(|| t / central)
+            })
+            .collect();
+        median(&mut ratios)
+    }
 }
 
 /// The middle value of `v` (the upper of the two middle ones for an even
@@ -93,4 +129,33 @@ fn median(v: &mut [f64]) -> Option<f64> {
     }
     let mid = v.len() / 2;
     Some(*v.select_nth_unstable_by(mid, f64::total_cmp).1)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_durations_sample_takes_the_same_rows_however_the_table_is_cut() {
+        // 50,000 rows, row i with period i + 1: taken whole, or in parts
+        // of every size the chunks make, the rows are every 8th from the
+        // first (8 the smallest power of two leaving at most 10,000).
+        let periods: Vec<f64> = (0..50_000).map(|i| (i + 1) as f64).collect();
+        let durations = vec![3.0; periods.len()];
+        let mut whole = DurationSample::default();
+        whole.add(&periods, &durations);
+        let want: Vec<f64> = (0..50_000).step_by(8).map(|i| (i + 1) as f64).collect();
+        assert_eq!(whole.pairs.iter().map(|p| p.0).collect::<Vec<_>>(), want);
+        for cut in [1, 7, 999, 4096, 12_345] {
+            let mut parts = DurationSample::default();
+            for (p, t) in periods.chunks(cut).zip(durations.chunks(cut)) {
+                parts.add(p, t);
+            }
+            assert_eq!(parts.pairs, whole.pairs, "parts of {cut}");
+        }
+        // A table of fewer rows than the sample: every row.
+        let mut few = DurationSample::default();
+        few.add(&periods[..9_000], &durations[..9_000]);
+        assert_eq!(few.pairs.len(), 9_000);
+    }
 }
