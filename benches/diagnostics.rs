@@ -157,7 +157,7 @@ fn keystrokes_while_light_curves_run() {
     let mut i = 0;
     while !done.load(std::sync::atomic::Ordering::Relaxed) {
         let t = Instant::now();
-        app.update(Input::Action(keys[i % keys.len()]));
+        let _ = app.update(Input::Action(keys[i % keys.len()]));
         term.draw(|f| {
             draw(&app, f, look);
         })

@@ -95,11 +95,11 @@ fn main() {
         t.elapsed().as_secs_f64()
     );
     let (sorted, took) = orders.join().expect("orders");
-    app.update(Input::Orders(sorted));
+    let _ = app.update(Input::Orders(sorted));
     println!("orders by star and by period (both ways) sorted in the background in {took:.3} s");
     let checks = background.join().expect("checks");
     let ready = t.elapsed().as_secs_f64();
-    app.update(Input::Checks(Box::new(checks)));
+    let _ = app.update(Input::Checks(Box::new(checks)));
     term.draw(|f| {
         draw(&app, f, look);
     })
@@ -114,7 +114,7 @@ fn main() {
     // orders sorted in the background).
     for _ in 0..5 {
         let t = Instant::now();
-        app.update(Input::Action(Action::SortNext));
+        let _ = app.update(Input::Action(Action::SortNext));
         term.draw(|f| {
             draw(&app, f, look);
         })
@@ -171,7 +171,7 @@ fn main() {
                     app.focus = Pane::Systems;
                 }
                 let t = Instant::now();
-                app.update(input.clone());
+                let _ = app.update(input.clone());
                 term.draw(|f| {
                     draw(&app, f, look);
                 })
@@ -179,11 +179,11 @@ fn main() {
                 times.push(t.elapsed().as_secs_f64() * 1e3);
             }
             if *name == "filter edit" {
-                app.update(Input::Action(Action::Filter));
+                let _ = app.update(Input::Action(Action::Filter));
                 for _ in 0..3 {
-                    app.update(Input::Backspace);
+                    let _ = app.update(Input::Backspace);
                 }
-                app.update(Input::Action(Action::Select));
+                let _ = app.update(Input::Action(Action::Select));
             }
         }
         times.sort_by(f64::total_cmp);
@@ -196,17 +196,17 @@ fn main() {
     }
     // Fuzzy find: every typed character jumps to the best match.
     let mut times = Vec::new();
-    app.update(Input::Action(Action::Find));
+    let _ = app.update(Input::Action(Action::Find));
     for ch in "SYN05517".chars() {
         let t = Instant::now();
-        app.update(Input::Char(ch));
+        let _ = app.update(Input::Char(ch));
         term.draw(|f| {
             draw(&app, f, look);
         })
         .expect("draw");
         times.push(t.elapsed().as_secs_f64() * 1e3);
     }
-    app.update(Input::Action(Action::Close));
+    let _ = app.update(Input::Action(Action::Close));
     times.sort_by(f64::total_cmp);
     println!(
         "find keystroke         median {:.2} ms, max {:.2} ms ({} keystrokes)",
@@ -220,15 +220,15 @@ fn main() {
         let (mut up, mut dr) = (Vec::new(), Vec::new());
         for _ in 0..20 {
             for text in [filter, ""] {
-                app.update(Input::Action(Action::Filter));
+                let _ = app.update(Input::Action(Action::Filter));
                 for _ in 0..filter.len() {
-                    app.update(Input::Backspace);
+                    let _ = app.update(Input::Backspace);
                 }
                 for ch in text.chars() {
-                    app.update(Input::Char(ch));
+                    let _ = app.update(Input::Char(ch));
                 }
                 let t = Instant::now();
-                app.update(Input::Action(Action::Select));
+                let _ = app.update(Input::Action(Action::Select));
                 let t1 = t.elapsed().as_secs_f64() * 1e3;
                 term.draw(|f| {
                     draw(&app, f, look);
@@ -265,7 +265,7 @@ fn main() {
         (Pane::Candidates, "candidate to candidate"),
     ] {
         app.focus = pane;
-        app.update(Input::Action(Action::Top));
+        let _ = app.update(Input::Action(Action::Top));
         term.draw(|f| {
             draw(&app, f, look);
         })
@@ -279,7 +279,7 @@ fn main() {
             } else {
                 Action::Down
             };
-            app.update(Input::Action(a));
+            let _ = app.update(Input::Action(a));
             term.draw(|f| {
                 draw(&app, f, look);
             })

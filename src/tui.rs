@@ -439,7 +439,8 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         res_tx,
     );
     // The checks (and, when asked, the light-curve checks) in the background.
-    app.update(Input::ChecksStarted);
+    // Its effects hold the first candidate's light-curve request.
+    let mut effects = app.update(Input::ChecksStarted);
     let (checks_tx, checks_rx) = mpsc::channel();
     let check_progress = Arc::new(crate::checks::CheckProgress::sharing_flags());
     let (progress_tx, progress_rx) = mpsc::channel();
@@ -508,7 +509,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         signal_hook::flag::register(sig, Arc::clone(&stop))?;
     }
     let (w, h) = terminal::size().unwrap_or((80, 24));
-    let mut effects = app.update(Input::Resize(w, h));
+    effects.extend(app.update(Input::Resize(w, h)));
     const FRAME: Duration = Duration::from_millis(16);
     let mut last_draw = std::time::Instant::now() - FRAME;
     // A frame is drawn only when something changed: a key, a resize, a

@@ -133,6 +133,11 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
     let session = format!("starsift-test-{}", std::process::id());
     let status = start(&session, &dir, "80", "24");
     wait_for(&session, "Systems 321/321");
+    // The first candidate's light curve is read and drawn with no key
+    // pressed (its request was once lost at start-up: "reading the light
+    // curve" stayed until the selection moved).
+    wait_for(&session, "data HWT");
+    wait_gone(&session, "reading the light curve");
     // The checks (light curves included) run in the background and change
     // the odds when they arrive: wait for them.
     wait_gone(&session, "checks running");

@@ -524,7 +524,10 @@ impl App {
         }
     }
 
-    /// Applies one input; returns what the shell must do.
+    /// Applies one input; returns what the shell must do. The effects
+    /// must reach the shell: a request for the selected candidate's light
+    /// curve is made once, and one dropped leaves it "reading" for good.
+    #[must_use = "the effects (a light-curve request) must reach the shell"]
     pub fn update(&mut self, input: Input) -> Vec<Effect> {
         let before = self.candidate();
         let mut effects = match input {

@@ -96,12 +96,12 @@ fn ledger_history(app: &App, c: crate::catalogue::CandidateId) -> Vec<crate::led
 }
 
 fn act(app: &mut App, a: Action) {
-    app.update(Input::Action(a));
+    let _ = app.update(Input::Action(a));
 }
 
 fn typed(app: &mut App, text: &str) {
     for c in text.chars() {
-        app.update(Input::Char(c));
+        let _ = app.update(Input::Char(c));
     }
 }
 
@@ -212,7 +212,7 @@ fn rejecting_one_of_three_drops_the_siblings_to_two_candidate_odds() {
 fn typed_filter(app: &mut App, text: &str) {
     act(app, Action::Filter);
     for _ in 0..app.filter.text.chars().count() {
-        app.update(Input::Backspace);
+        let _ = app.update(Input::Backspace);
     }
     typed(app, text);
     act(app, Action::Select);
@@ -364,7 +364,7 @@ fn a_note_typed_in_the_reason_picker_goes_to_the_ledger() {
     act(&mut app, Action::Down);
     // Letters type into the note, even those bound to actions elsewhere.
     typed(&mut app, "odd/even x2");
-    app.update(Input::Backspace);
+    let _ = app.update(Input::Backspace);
     let s = screen(&app, 80, 24);
     assert!(s.contains("note: odd/even x_"), "{s}");
     act(&mut app, Action::Select);
@@ -444,12 +444,12 @@ fn every_sort_orders_the_systems_exactly() {
             app.descending = true;
             app.refresh_view();
             for _ in 0..round % 5 {
-                app.update(Input::Action(Action::Down));
+                let _ = app.update(Input::Action(Action::Down));
             }
-            app.update(Input::Action(Action::NextPane));
-            app.update(Input::Action(Action::Reject));
-            app.update(Input::Action(Action::Select));
-            app.update(Input::Action(Action::NextPane));
+            let _ = app.update(Input::Action(Action::NextPane));
+            let _ = app.update(Input::Action(Action::Reject));
+            let _ = app.update(Input::Action(Action::Select));
+            let _ = app.update(Input::Action(Action::NextPane));
         }
         let rejected = (0..app.cat.len() as u32)
             .filter(|&c| app.live.decision(c).is_rejected())
@@ -540,15 +540,15 @@ fn clicks_select_rows_and_the_wheel_scrolls() {
     assert!(rows.height > 5 && first == 0);
     let pick = |app: &mut App, hits: &Hits, x: u16, y: u16| {
         if let Some((pane, row)) = hits.at(x, y) {
-            app.update(Input::Pick(pane, row));
+            let _ = app.update(Input::Pick(pane, row));
         }
     };
     // The fourth system's row.
     pick(&mut app, &hits, rows.x + 2, rows.y + 3);
     assert_eq!((app.focus, app.star_row), (Pane::Systems, 3));
-    app.update(Input::Wheel(Pane::Systems, true));
+    let _ = app.update(Input::Wheel(Pane::Systems, true));
     assert_eq!(app.star_row, 6);
-    app.update(Input::Wheel(Pane::Systems, false));
+    let _ = app.update(Input::Wheel(Pane::Systems, false));
     assert_eq!(app.star_row, 3);
     let hits = frame_hits(&app, 100, 30);
     let (cands, _) = hits.candidates;
@@ -763,7 +763,7 @@ fn a_paste_is_text_in_a_prompt_and_never_keys() {
     let mut app = demo_app();
     let before = app.live.counts();
     // Outside a prompt a paste of "xxxx" rejects nothing.
-    app.update(Input::Paste("xxxx".into()));
+    let _ = app.update(Input::Paste("xxxx".into()));
     assert_eq!(app.live.counts(), before);
     assert!(
         app.message
@@ -772,10 +772,10 @@ fn a_paste_is_text_in_a_prompt_and_never_keys() {
             .contains("paste ignored")
     );
     // In the filter prompt it is typed, line breaks as spaces, capped.
-    app.update(Input::Action(Action::Filter));
-    app.update(Input::Paste("k=3\n".into()));
+    let _ = app.update(Input::Action(Action::Filter));
+    let _ = app.update(Input::Paste("k=3\n".into()));
     assert!(screen(&app, 100, 30).contains("k=3"));
-    app.update(Input::Paste("y".repeat(100_000)));
+    let _ = app.update(Input::Paste("y".repeat(100_000)));
     match &app.mode {
         Mode::Prompt { line, .. } => assert_eq!(line.text.chars().count(), PROMPT_MAX),
         other => panic!("{other:?}"),
@@ -815,16 +815,16 @@ fn prompts_edit_as_a_shell_and_recall_earlier_filters() {
         _ => String::from("(no prompt)"),
     };
     assert_eq!(text(&app), "k>=3");
-    app.update(Input::Edit(super::app::Edit::KillToStart));
+    let _ = app.update(Input::Edit(super::app::Edit::KillToStart));
     assert_eq!(text(&app), "");
-    app.update(Input::Recall(true));
+    let _ = app.update(Input::Recall(true));
     assert_eq!(text(&app), "k>=2");
     // End keeps the recalled text for editing.
-    app.update(Input::Edit(super::app::Edit::End));
+    let _ = app.update(Input::Edit(super::app::Edit::End));
     typed(&mut app, " odds>10");
     assert_eq!(text(&app), "k>=2 odds>10");
-    app.update(Input::Edit(super::app::Edit::KillWord));
-    app.update(Input::Edit(super::app::Edit::Home));
+    let _ = app.update(Input::Edit(super::app::Edit::KillWord));
+    let _ = app.update(Input::Edit(super::app::Edit::Home));
     typed(&mut app, "!flag:echo ");
     assert_eq!(text(&app), "!flag:echo k>=2 ");
     // Esc leaves the filter in effect as it was.

@@ -28,7 +28,7 @@ fn checks_built_in_the_background_keep_the_decisions_made_meanwhile() {
     let rejected = app.live.decision(c);
     assert!(rejected.is_rejected());
     let built = crate::session::odds_with(&cat, model, &checks, at_start, &[]);
-    app.update(Input::ChecksBuilt(Box::new((checks.clone(), built))));
+    let _ = app.update(Input::ChecksBuilt(Box::new((checks.clone(), built))));
     assert!(!app.checks_pending);
     assert_eq!(app.live.decision(c), rejected);
     // The odds of the checks and of every decision now, as if built then.
@@ -48,9 +48,9 @@ fn checks_arriving_later_feed_the_verdicts() {
     let (mut app, checks) = checks_pending();
     let cat = std::sync::Arc::clone(&app.cat);
     assert!(screen(&app, 120, 30).contains("checks running: 0 %"));
-    app.update(Input::ChecksDone(45));
+    let _ = app.update(Input::ChecksDone(45));
     assert!(screen(&app, 120, 30).contains("checks running: 45 %"));
-    app.update(Input::Progress(1240, 8000));
+    let _ = app.update(Input::Progress(1240, 8000));
     assert!(screen(&app, 160, 30).contains("light curves 1,240 / 8,000"));
     // The planted unstable pair would be validated without its `crowded`
     // flag: until the checks arrive, nothing is called validated on screen
@@ -80,7 +80,7 @@ fn checks_arriving_later_feed_the_verdicts() {
     // The flags found so far show at once (the verdicts still wait).
     let mut so_far = vec![crate::flags::FlagSet::EMPTY; cat.len()];
     so_far[pair as usize].insert(crate::flags::Flag::Crowded);
-    app.update(Input::FlagsSoFar(so_far));
+    let _ = app.update(Input::FlagsSoFar(so_far));
     let s = screen(&app, 120, 30);
     let row = s
         .lines()
@@ -97,7 +97,7 @@ fn checks_arriving_later_feed_the_verdicts() {
         app.star_flags(cat.star_of(pair))
             .contains(crate::flags::Flag::Crowded)
     );
-    app.update(Input::Checks(Box::new(checks)));
+    let _ = app.update(Input::Checks(Box::new(checks)));
     assert!(app.flags_so_far.is_none());
     assert!(app.checks.flags(pair).contains(crate::flags::Flag::Crowded));
     assert_eq!(app.live.verdict(pair), crate::odds::Verdict::Likely);
@@ -121,7 +121,7 @@ fn orders_sorted_in_the_background_are_the_browsers_own() {
     assert!(static_order(&app.cat, SortKey::BestOdds, false).is_none());
     // Delivered to a fresh browser, they are its orders, and survive a decision.
     let mut fresh = demo_app();
-    fresh.update(Input::Orders(sent.clone()));
+    let _ = fresh.update(Input::Orders(sent.clone()));
     act(&mut fresh, Action::NextPane);
     act(&mut fresh, Action::Park);
     for ((key, descending), order) in sent {

@@ -112,7 +112,7 @@ fn checks_arriving_after_the_rejection_keep_the_other_id_held() {
     let binary = app.cat.find_candidate("TOI-906.03").unwrap();
     reject_as_binary(&mut app, binary);
     let built = crate::session::odds_with(&app.cat, model, &checks, at_start, &[]);
-    app.update(Input::ChecksBuilt(Box::new((checks.clone(), built))));
+    let _ = app.update(Input::ChecksBuilt(Box::new((checks.clone(), built))));
     let planet = app.cat.find_candidate("TOI-906.01").unwrap();
     assert_eq!(app.live.status(planet), Status::Held);
     assert!(app.live.same_odds_state(&from_scratch(&app, &checks)));
