@@ -113,14 +113,23 @@ impl Args {
 
 /// Builds the browser state for a catalogue (everything but the terminal).
 pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliError> {
-    build_app_counting(args, None)
+    build_app_counting(args, None).map(|(app, finder, _)| (app, finder))
+}
+
+/// A catalogue the ledger has yet to record (`Loaded::sighting_deferred`):
+/// the file and its stamp at the load, for the background fingerprint.
+struct Unseen {
+    path: PathBuf,
+    stamp: String,
 }
 
 /// [`build_app`], counting the catalogue's bytes read into `read`.
+/// With `read` (the browser's loading screen), a catalogue new to the
+/// ledger is not hashed before the table: it comes back as [`Unseen`].
 fn build_app_counting(
     args: &Args,
     read: Option<Arc<std::sync::atomic::AtomicU64>>,
-) -> Result<(App, crate::lightcurve::Finder), CliError> {
+) -> Result<(App, crate::lightcurve::Finder, Option<Unseen>), CliError> {
     let keymap = args.keymap()?;
     let VettingArgs {
         input,
@@ -130,6 +139,7 @@ fn build_app_counting(
         ..
     } = &args.vetting;
     lc.check_folder()?;
+    let counting = read.is_some();
     let loaded = match read {
         Some(r) => input.load_counting(r, (!args.no_ledger).then_some(ledger_args))?,
         None => input.load()?,
@@ -139,11 +149,21 @@ fn build_app_counting(
     let finder = lc.finder(&loaded);
     // The ledger's notes (catalogue changed, decided candidates gone) go to
     // the message line: stderr is behind the browser's screen.
-    let (ledger, notes) = if args.no_ledger {
-        (None, Vec::new())
+    let (ledger, notes, unseen) = if args.no_ledger {
+        (None, Vec::new(), None)
+    } else if counting {
+        let (l, notes, deferred) = ledger_args.open_deferring(input, &loaded)?;
+        let unseen = match (deferred, &loaded.path, &loaded.stamp) {
+            (true, Some(path), Some(stamp)) => Some(Unseen {
+                path: path.clone(),
+                stamp: stamp.clone(),
+            }),
+            _ => None,
+        };
+        (Some(l), notes, unseen)
     } else {
         let (l, notes) = ledger_args.open_noting(input, &loaded)?;
-        (Some(l), notes)
+        (Some(l), notes, None)
     };
     let cat = &loaded.catalogue;
     let latest = match &ledger {
@@ -169,7 +189,7 @@ fn build_app_counting(
         app.filter = f;
         app.refresh_view();
     }
-    Ok((app, finder))
+    Ok((app, finder, unseen))
 }
 
 /// Rows that did not load, and the loader's notes, said as the browser opens
@@ -265,7 +285,7 @@ fn load_showing_progress(
     args: &Args,
     term: &mut Terminal<CrosstermBackend<std::io::Stdout>>,
     look: Look,
-) -> Result<Option<(App, crate::lightcurve::Finder)>, CliError> {
+) -> Result<Option<(App, crate::lightcurve::Finder, Option<Unseen>)>, CliError> {
     use std::sync::atomic::{AtomicU64, Ordering::Relaxed};
     let path = args.vetting.input.catalogue.clone();
     let total = path
@@ -417,7 +437,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     let guard = Guard::enter(args.mouse)?;
     let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
     let built = load_showing_progress(args, &mut term, look);
-    let (mut app, finder) = match built {
+    let (mut app, finder, unseen) = match built {
         Ok(Some(b)) => b,
         Ok(None) => return Ok(()),
         Err(e) => {
@@ -495,6 +515,19 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             // And the index of the star ids' other spellings, which the
             // first search would otherwise build.
             cat.prepare_spellings();
+        });
+    }
+    // A catalogue new to the ledger is hashed for its sighting here, not
+    // before the table: at the lowest priority, then recorded if the file
+    // is as it was read (the same stamp); else the next start records it.
+    let (seen_tx, seen_rx) = mpsc::channel();
+    if let Some(Unseen { path, stamp }) = unseen {
+        std::thread::spawn(move || {
+            crate::parallel::run_when_idle();
+            let fp = crate::ledger::fingerprint_file(&path);
+            if crate::fingerprint::file_stamp(&path).as_deref() == Some(stamp.as_str()) {
+                let _ = seen_tx.send(fp.map(|fp| (fp, stamp)));
+            }
         });
     }
     // SIGTERM, SIGHUP (a lost terminal) and SIGINT end the browser the
@@ -602,6 +635,10 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                 )));
             }
             Err(_) => {}
+        }
+        if let Ok(seen) = seen_rx.try_recv() {
+            effects.extend(app.update(Input::Seen(seen.map_err(|e| e.to_string()))));
+            dirty = true;
         }
         if let Ok(orders) = orders_rx.try_recv() {
             effects.extend(app.update(Input::Orders(orders)));

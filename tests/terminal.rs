@@ -318,3 +318,50 @@ fn ascii_small_screen_prompt_keys_and_staying_in_the_system() {
     assert!(after.is_ascii(), "{after}");
     tmux(&["kill-session", "-t", &session]);
 }
+
+/// A catalogue new to the ledger is hashed for the ledger's record after
+/// the table is up (in the background), and recorded: the ledger then
+/// knows its fingerprint by the file's stamp. Changed, it is said so on the
+/// message line, as every command says it on stderr.
+#[test]
+fn a_new_catalogue_is_recorded_by_the_ledger_after_the_table() {
+    if !have_tmux() {
+        return;
+    }
+    let dir = common::scratch("sighting");
+    let cat = dir.join("survey.csv");
+    std::fs::write(&cat, starsift::demo::CATALOGUE_CSV).unwrap();
+    // A stamp is trusted once the file has settled (0.1 s).
+    sleep(Duration::from_millis(300));
+    let ledger = dir.join("survey.csv.ledger.sqlite");
+    let session = format!("starsift-seen-{}", std::process::id());
+    let options = format!("{} --no-lightcurves --targets 52000", cat.display());
+    let status = start_with(&session, &dir, "80", "24", &options);
+    wait_for(&session, "Systems 321/321");
+    let stamp = starsift::fingerprint::file_stamp(&cat).unwrap();
+    let want = starsift::ledger::fingerprint(starsift::demo::CATALOGUE_CSV.as_bytes());
+    let start = Instant::now();
+    let path = cat.display().to_string();
+    while starsift::ledger::recorded_fingerprint(&ledger, &path, &stamp).as_deref()
+        != Some(want.as_str())
+    {
+        assert!(
+            start.elapsed() < Duration::from_secs(20),
+            "the ledger never recorded the catalogue:\n{}",
+            pane(&session)
+        );
+        sleep(Duration::from_millis(100));
+    }
+    keys(&session, &["q"]);
+    ended(&dir, &status, "q");
+    tmux(&["kill-session", "-t", &session]);
+    // The file changed (a blank line at its end): the next start says so
+    // once it has hashed the file.
+    std::fs::write(&cat, format!("{}\n", starsift::demo::CATALOGUE_CSV)).unwrap();
+    sleep(Duration::from_millis(300));
+    let dir2 = common::scratch("sighting-again");
+    let session = format!("starsift-seen2-{}", std::process::id());
+    start_with(&session, &dir2, "200", "24", &options);
+    wait_for(&session, "changed since this ledger last saw it");
+    tmux(&["kill-session", "-t", &session]);
+}

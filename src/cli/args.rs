@@ -180,8 +180,36 @@ impl LedgerArgs {
         input: &CatalogueArgs,
         loaded: &Loaded,
     ) -> Result<(crate::ledger::Ledger, Vec<String>), CliError> {
-        let (default, fp) = default_ledger(input, loaded)?;
-        let path = self.ledger.clone().unwrap_or(default);
+        let (ledger, notes, _) = self.open_with(input, loaded, false)?;
+        Ok((ledger, notes))
+    }
+
+    /// [`LedgerArgs::open_noting`] for a catalogue whose fingerprint its
+    /// load left for later ([`CatalogueArgs::load_counting`]): the sighting
+    /// is not recorded, and the third value says so; the browser records it
+    /// from the background ([`crate::ledger::Ledger::sighting_note`]).
+    pub fn open_deferring(
+        &self,
+        input: &CatalogueArgs,
+        loaded: &Loaded,
+    ) -> Result<(crate::ledger::Ledger, Vec<String>, bool), CliError> {
+        self.open_with(input, loaded, true)
+    }
+
+    fn open_with(
+        &self,
+        input: &CatalogueArgs,
+        loaded: &Loaded,
+        defer: bool,
+    ) -> Result<(crate::ledger::Ledger, Vec<String>, bool), CliError> {
+        // The fingerprint names the ledger only where an earlier version
+        // named it by content: read for it then, and only then.
+        let path = match &self.ledger {
+            Some(p) => p.clone(),
+            None => crate::ledger::default_path_with(input.catalogue.as_deref(), &|| {
+                loaded.fingerprint_now(None).unwrap_or_default()
+            }),
+        };
         if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
             std::fs::create_dir_all(dir).map_err(|e| {
                 CliError::Ledger(crate::ledger::LedgerError::Unwritable {
@@ -193,16 +221,18 @@ impl LedgerArgs {
         let mut ledger = crate::ledger::Ledger::open(&path)?;
         let cat = &loaded.catalogue;
         let mut notes = Vec::new();
-        if let Some(previous) =
-            ledger.note_catalogue(&cat.source, &fp, cat.len(), loaded.stamp.as_deref())?
-        {
-            notes.push(format!(
-                "{} changed since this ledger last saw it ({previous} → {fp}); decisions are matched by candidate id",
-                crate::sanitize::clean(&cat.source)
-            ));
+        let deferred = defer && loaded.sighting_deferred();
+        if !deferred {
+            let fp = loaded.fingerprint_now(None)?;
+            notes.extend(ledger.sighting_note(
+                &cat.source,
+                &fp,
+                cat.len(),
+                loaded.stamp.as_deref(),
+            )?);
         }
         notes.extend(gone_note(&ledger, cat)?);
-        Ok((ledger, notes))
+        Ok((ledger, notes, deferred))
     }
 }
 
@@ -214,16 +244,6 @@ fn default_ledger_path(input: &CatalogueArgs) -> PathBuf {
         None => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
     };
     crate::ledger::default_path_with(input.catalogue.as_deref(), &fp)
-}
-
-/// The default ledger of a catalogue (beside it, or in the data folder) and
-/// the catalogue's fingerprint.
-fn default_ledger(input: &CatalogueArgs, loaded: &Loaded) -> Result<(PathBuf, String), CliError> {
-    let fp = loaded.fingerprint_now(None)?;
-    Ok((
-        crate::ledger::default_path(input.catalogue.as_deref(), &fp),
-        fp,
-    ))
 }
 
 /// A path made absolute with its folder resolved (the file itself need not
@@ -375,6 +395,13 @@ impl Loaded {
         }
     }
 
+    /// Whether the load left the fingerprint for later: a file whose stamp
+    /// was the same before and after the read, and whose fingerprint
+    /// neither the read nor the ledger gave (`CatalogueArgs::load_counting`).
+    pub fn sighting_deferred(&self) -> bool {
+        self.fingerprint.is_none() && self.stamp.is_some() && self.path.is_some()
+    }
+
     /// A candidate by id, or an error naming the catalogue.
     pub fn candidate(&self, id: &str) -> Result<crate::catalogue::CandidateId, CliError> {
         self.catalogue.find_candidate(id).ok_or_else(|| {
@@ -493,8 +520,11 @@ impl CatalogueArgs {
     }
 
     /// `load` counting the bytes read into `read`, for the browser's
-    /// loading screen; the fingerprint for the ledger (none without one)
-    /// from the same read, or from the ledger (`load_for_ledger`).
+    /// loading screen. The fingerprint for the ledger (none without one)
+    /// comes from the ledger (`load_for_ledger`), else it is left for later
+    /// ([`Loaded::sighting_deferred`]: the browser hashes the file in the
+    /// background, where it costs the table nothing), else, for a file
+    /// too fresh to trust its stamp, from the same read.
     pub fn load_counting(
         &self,
         read: std::sync::Arc<std::sync::atomic::AtomicU64>,
@@ -504,7 +534,7 @@ impl CatalogueArgs {
             progress: Some(read),
             ..self.options()?
         };
-        self.load_noting(opts, ledger)
+        self.load_noting(opts, ledger, true)
     }
 
     /// `load` for a command that reads or writes the ledger: the
@@ -518,16 +548,19 @@ impl CatalogueArgs {
             index_only: ids_only,
             ..self.options()?
         };
-        self.load_noting(opts, Some(ledger))
+        self.load_noting(opts, Some(ledger), false)
     }
 
     /// `load_with` for a ledger: the file's stamp taken before the read and
     /// kept when it is the same after it; the fingerprint the ledger
     /// recorded for that stamp, else the one the read computes.
+    /// With `defer`, a file with a stamp is not hashed by the read
+    /// ([`Loaded::sighting_deferred`]).
     fn load_noting(
         &self,
         opts: LoadOptions,
         ledger: Option<&LedgerArgs>,
+        defer: bool,
     ) -> Result<Loaded, CliError> {
         let stamp_now = || {
             self.catalogue
@@ -541,7 +574,8 @@ impl CatalogueArgs {
         };
         // Hashed only for a ledger that does not know it yet.
         let opts = LoadOptions {
-            fingerprint: (ledger.is_some() && known.is_none()).then(Default::default),
+            fingerprint: (ledger.is_some() && known.is_none() && !(defer && stamp.is_some()))
+                .then(Default::default),
             ..opts
         };
         let mut loaded = self.load_with(opts)?;

@@ -58,6 +58,23 @@ impl Ledger {
         }
         Ok(previous_fp.filter(|&p| p != fp).map(str::to_string))
     }
+
+    /// [`Ledger::note_catalogue`], said for people: the note when the
+    /// catalogue changed since this ledger last saw it.
+    pub fn sighting_note(
+        &mut self,
+        path: &str,
+        fp: &str,
+        candidates: usize,
+        stamp: Option<&str>,
+    ) -> Result<Option<String>, LedgerError> {
+        Ok(self.note_catalogue(path, fp, candidates, stamp)?.map(|previous| {
+            format!(
+                "{} changed since this ledger last saw it ({previous} → {fp}); decisions are matched by candidate id",
+                crate::sanitize::clean(path)
+            )
+        }))
+    }
 }
 
 /// The fingerprint that the ledger at `ledger` recorded for the catalogue

@@ -65,6 +65,10 @@ pub enum Input {
     Resize(u16, u16),
     /// The checks started on a background thread.
     ChecksStarted,
+    /// The catalogue's fingerprint and stamp, hashed in the background for
+    /// a catalogue new to the ledger, to record its sighting (or why the
+    /// file could not be read).
+    Seen(Result<(String, String), String>),
     /// A line for the message bar, from a background thread.
     Notice(String),
     /// The background checks stopped without a result: why.
@@ -546,6 +550,10 @@ impl App {
                 self.checks_pending = true;
                 Vec::new()
             }
+            Input::Seen(seen) => {
+                self.record_sighting(seen);
+                Vec::new()
+            }
             Input::Orders(orders) => {
                 for (at, order) in orders {
                     // Cached as the least recently used, while there is room.
@@ -640,6 +648,29 @@ impl App {
             }
         }
         effects
+    }
+
+    /// Records the catalogue's sighting in the ledger (`Input::Seen`); a
+    /// changed catalogue, or a sighting that could not be recorded, is said
+    /// on the message line.
+    fn record_sighting(&mut self, seen: Result<(String, String), String>) {
+        let Some(ledger) = self.ledger.as_mut() else {
+            return;
+        };
+        let said = seen.and_then(|(fp, stamp)| {
+            ledger
+                .sighting_note(&self.cat.source, &fp, self.cat.len(), Some(&stamp))
+                .map_err(|e| e.to_string())
+        });
+        match said {
+            Ok(None) => {}
+            Ok(Some(note)) => self.message = Some(note),
+            Err(e) => {
+                self.message = Some(format!(
+                    "the ledger could not record this catalogue's fingerprint: {e}"
+                ))
+            }
+        }
     }
 
     /// Reloads the selected star's ledger history when the star changed (or
