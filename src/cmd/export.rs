@@ -439,7 +439,7 @@ impl<'a> Export<'a> {
         );
         votable::begin(out, &description, &info, &columns)?;
         write_joined_rows(out, rows, b"", |&c, buf| {
-            let (mut b, mut scratch) = (ryu::Buffer::new(), String::new());
+            let (mut b, mut scratch) = (crate::output::Shortest::new(), String::new());
             let texts: Vec<String> = (self.cells(c).into_iter().enumerate())
                 .map(|(i, cell)| match cell {
                     _ if i == held_at => self.held(c),

@@ -129,7 +129,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 "weighted_mean",
                 "model",
             ])?;
-            let mut b = ryu::Buffer::new();
+            let mut b = crate::output::Shortest::new();
             for i in 0..binned.centre.len() {
                 let p = binned.centre[i];
                 for v in [p, binned.mean[i], binned.err[i]] {

@@ -8,10 +8,10 @@ use std::io::{self, Write};
 use serde::Serialize;
 use serde_json::Value;
 
-use super::exact_in;
+use super::{Shortest, exact_in};
 
 /// CSV written row by row into one reused buffer, for the long outputs:
-/// numbers straight from `ryu`/`itoa`, no allocation per cell. The bytes
+/// numbers straight from [`Shortest`]/`itoa`, no allocation per cell. The bytes
 /// are those of [`csv_writer`] (RFC 4180 as the `csv` crate writes it by
 /// default: a field is quoted only when it holds a comma, a quote, CR or
 /// LF, a quote inside doubled; `\n` ends a row). Rows of one empty field,
@@ -20,7 +20,7 @@ pub struct CsvOut<'a> {
     /// Where full buffers go; none when the rows are kept in `buf`.
     out: Option<&'a mut dyn Write>,
     buf: Vec<u8>,
-    ryu: ryu::Buffer,
+    floats: Shortest,
     recent: Recent,
     /// Whether the next field is the first of its row.
     first: bool,
@@ -50,12 +50,12 @@ impl Recent {
 
     /// The text [`exact_in`] gives `v` (finite), made at most once per slot
     /// and value.
-    fn exact(&mut self, ryu: &mut ryu::Buffer, v: f64) -> &[u8] {
+    fn exact(&mut self, floats: &mut Shortest, v: f64) -> &[u8] {
         let bits = v.to_bits();
         let slot = (bits.wrapping_mul(0x9e37_79b9_7f4a_7c15) >> 59) as usize;
         if self.bits[slot] != bits {
-            // Ryu's text is at most 24 bytes.
-            let s = exact_in(ryu, Some(v)).as_bytes();
+            // The text is at most 24 bytes.
+            let s = exact_in(floats, Some(v)).as_bytes();
             self.text[slot][..s.len()].copy_from_slice(s);
             self.len[slot] = s.len() as u8;
             self.bits[slot] = bits;
@@ -69,7 +69,7 @@ impl<'a> CsvOut<'a> {
         CsvOut {
             out: Some(out),
             buf: Vec::with_capacity(1 << 17),
-            ryu: ryu::Buffer::new(),
+            floats: Shortest::new(),
             recent: Recent::new(),
             first: true,
         }
@@ -80,7 +80,7 @@ impl<'a> CsvOut<'a> {
         CsvOut {
             out: None,
             buf,
-            ryu: ryu::Buffer::new(),
+            floats: Shortest::new(),
             recent: Recent::new(),
             first: true,
         }
@@ -147,7 +147,7 @@ impl<'a> CsvOut<'a> {
     pub fn exact(&mut self, v: Option<f64>) {
         self.separate();
         if let Some(v) = v.filter(|v| v.is_finite()) {
-            let s = self.recent.exact(&mut self.ryu, v);
+            let s = self.recent.exact(&mut self.floats, v);
             self.buf.extend_from_slice(s);
         }
     }
@@ -403,7 +403,7 @@ mod tests {
 
     #[test]
     fn numbers_written_again_are_written_as_ryu_writes_them() {
-        // ryu (through `exact`) is the reference for every value, whether
+        // Ryu (the ryu crate) is the reference for every value, whether
         // its text was made now or kept from before: values repeated, and
         // more different values than the kept slots, so slots are reused.
         let mut values: Vec<Option<f64>> = Vec::new();
@@ -431,7 +431,15 @@ mod tests {
             w.end_row().unwrap();
             w.finish().unwrap();
         }
-        let want: Vec<String> = values.iter().map(|v| exact(*v)).collect();
+        let ryu = |v: &Option<f64>| match v {
+            Some(v) if v.is_finite() => {
+                let mut b = ryu::Buffer::new();
+                let s = b.format_finite(*v);
+                s.strip_suffix(".0").unwrap_or(s).to_string()
+            }
+            _ => String::new(),
+        };
+        let want: Vec<String> = values.iter().map(ryu).collect();
         assert_eq!(String::from_utf8(got).unwrap(), want.join(",") + "\n");
     }
 

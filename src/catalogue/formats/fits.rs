@@ -125,7 +125,7 @@ fn read(path: &Path, hdu: Option<&str>) -> Result<Converted, LoadError> {
         push_cell(&mut out, n, k == 0);
     }
     out.push(b'\n');
-    let mut b = ryu::Buffer::new();
+    let mut b = crate::output::Shortest::new();
     for r in 0..*num_rows {
         for (k, col) in columns.iter().enumerate() {
             let text: &str = match col {
