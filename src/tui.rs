@@ -153,13 +153,13 @@ fn build_app_counting(
         (None, Vec::new(), None)
     } else if counting {
         let (l, notes, deferred) = ledger_args.open_deferring(input, &loaded)?;
-        let unseen = match (deferred, &loaded.path, &loaded.stamp) {
-            (true, Some(path), Some(stamp)) => Some(Unseen {
-                path: path.clone(),
-                stamp: stamp.clone(),
-            }),
-            _ => None,
-        };
+        let unseen = loaded
+            .sighting_deferred()
+            .filter(|_| deferred)
+            .map(|(path, stamp)| Unseen {
+                path: path.to_path_buf(),
+                stamp: stamp.to_string(),
+            });
         (Some(l), notes, unseen)
     } else {
         let (l, notes) = ledger_args.open_noting(input, &loaded)?;

@@ -221,7 +221,7 @@ impl LedgerArgs {
         let mut ledger = crate::ledger::Ledger::open(&path)?;
         let cat = &loaded.catalogue;
         let mut notes = Vec::new();
-        let deferred = defer && loaded.sighting_deferred();
+        let deferred = defer && loaded.sighting_deferred().is_some();
         if !deferred {
             let fp = loaded.fingerprint_now(None)?;
             notes.extend(ledger.sighting_note(
@@ -395,11 +395,15 @@ impl Loaded {
         }
     }
 
-    /// Whether the load left the fingerprint for later: a file whose stamp
-    /// was the same before and after the read, and whose fingerprint
-    /// neither the read nor the ledger gave (`CatalogueArgs::load_counting`).
-    pub fn sighting_deferred(&self) -> bool {
-        self.fingerprint.is_none() && self.stamp.is_some() && self.path.is_some()
+    /// The file and its stamp when the load left the fingerprint for later:
+    /// a file whose stamp was the same before and after the read, and whose
+    /// fingerprint neither the read nor the ledger gave
+    /// (`CatalogueArgs::load_counting`).
+    pub fn sighting_deferred(&self) -> Option<(&Path, &str)> {
+        match (&self.fingerprint, &self.path, &self.stamp) {
+            (None, Some(path), Some(stamp)) => Some((path, stamp)),
+            _ => None,
+        }
     }
 
     /// A candidate by id, or an error naming the catalogue.

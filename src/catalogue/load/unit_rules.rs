@@ -73,7 +73,7 @@ pub(super) const DAYS_AS_HOURS_RATIO: f64 = 0.125;
 /// power of two that keeps at most [`SAMPLE`] of them. The same rows
 /// whether the load keeps the columns or only the ids (`summary`), so
 /// every command says the same of a table's durations.
-#[derive(Debug, Default)]
+#[derive(Debug)]
 pub(super) struct DurationSample {
     /// (period in days, duration in hours) of the rows taken, in order.
     pairs: Vec<(f64, f64)>,
@@ -84,10 +84,19 @@ pub(super) struct DurationSample {
 /// Rows at most in a [`DurationSample`].
 const SAMPLE: usize = 10_000;
 
+impl Default for DurationSample {
+    fn default() -> Self {
+        DurationSample {
+            pairs: Vec::new(),
+            step: 1,
+            seen: 0,
+        }
+    }
+}
+
 impl DurationSample {
     /// Takes the rows that follow those seen (their periods and durations).
     pub(super) fn add(&mut self, periods: &[f64], durations_h: &[f64]) {
-        self.step = self.step.max(1);
         let first = (self.step - self.seen % self.step) % self.step;
         for i in (first..periods.len().min(durations_h.len())).step_by(self.step) {
             self.pairs.push((periods[i], durations_h[i]));
