@@ -70,7 +70,41 @@ pub fn odds_of(
 /// through a candidate the catalogue no longer has (rejected as an
 /// eclipsing binary, a blend or a stellar-size companion; docs/science.md
 /// §1.1): a new release that dropped the binary still has its star.
+///
+/// The star's other ids (a split candidate family, rows at one place:
+/// `checks::links_of`, docs/science.md §3.4) are held as well, as a
+/// rejection of a loaded candidate holds them.
 pub fn gone_false_positives(
+    cat: &crate::catalogue::Catalogue,
+    latest: &Latest,
+) -> Vec<crate::checks::UnseenFp> {
+    let gone = gone_at_their_stars(cat, latest);
+    if gone.is_empty() {
+        return gone;
+    }
+    let mut stars: Vec<_> = gone.iter().map(|u| u.star).collect();
+    stars.sort_unstable();
+    stars.dedup();
+    let others: Vec<_> = crate::checks::links_of(cat, &stars)
+        .into_iter()
+        .filter_map(|link| {
+            let u = gone.iter().find(|u| u.star == link.star)?;
+            Some(crate::checks::UnseenFp {
+                star: link.other,
+                why: format!(
+                    "{}, on star {}, the same star as this one ({})",
+                    u.why,
+                    clean(cat.star_id(link.star)),
+                    link.tie.describe()
+                ),
+            })
+        })
+        .collect();
+    gone.into_iter().chain(others).collect()
+}
+
+/// [`gone_false_positives`] at the stars the ledger names.
+fn gone_at_their_stars(
     cat: &crate::catalogue::Catalogue,
     latest: &Latest,
 ) -> Vec<crate::checks::UnseenFp> {

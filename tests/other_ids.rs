@@ -187,3 +187,47 @@ Gaia 91,G91-a,2.9,0.00001,101.3,0.001,700,2.0,30,0.3,1,1,5772,153.01000,20.00000
         assert_eq!(v[p], "validated", "{p}, after the artefact");
     }
 }
+
+#[test]
+fn a_binary_the_ledger_knows_holds_the_other_id_of_its_star_when_a_release_drops_it() {
+    // Invented: one star under two ids 0.8″ apart (`TIC 507`, `Gaia 97`).
+    // A vetter rejects G97-a as an eclipsing binary; the next release no
+    // longer lists G97-a but keeps G97-b. The ledger still says the star
+    // hosts a false positive (docs/science.md §1.1): G97-b is held, and so
+    // are the planets of its other id (§3.4), as they were while G97-a was
+    // listed. Before, TOI-507.01 and .02 came back validated.
+    let rows = "\
+TIC 507,TOI-507.01,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,152.00000,20.00000,PC\n\
+TIC 507,TOI-507.02,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,152.00000,20.00000,PC\n\
+Gaia 97,G97-a,2.7,0.00001,101.3,0.001,700,2.0,30,0.3,1,1,5772,152.00020,20.00010,PC\n\
+Gaia 97,G97-b,17.3,0.00001,102.3,0.001,600,4.0,25,0.3,1,1,5772,152.00020,20.00010,PC\n";
+    let cat = written("other_id_gone", &catalogue("ra,dec,disposition", rows));
+    let c = cat.to_str().unwrap();
+    let planets = ["TOI-507.01", "TOI-507.02"];
+    let v = agreed(c);
+    for p in planets {
+        assert_eq!(v[p], "validated", "{p}, before any decision");
+    }
+    reject(c, "G97-a", "eclipsing-binary", "ann");
+    let v = agreed(c);
+    for p in planets {
+        assert_ne!(v[p], "validated", "{p}, with G97-a listed");
+    }
+    let dropped: String = rows
+        .lines()
+        .filter(|l| !l.contains("G97-a"))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    std::fs::write(&cat, catalogue("ra,dec,disposition", &dropped)).unwrap();
+    let v = agreed(c);
+    for p in planets.iter().chain(&["G97-b"]) {
+        assert_ne!(v[*p], "validated", "{p}, with G97-a gone");
+    }
+    let table = stdout(&starsift(&["odds", c, "--format", "csv"]));
+    assert!(
+        table
+            .contains("G97-a, no longer in the catalogue, rejected as eclipsing-binary by ann on ")
+            && table.contains(", on star Gaia 97, the same star as this one (rows 0.8″ apart)"),
+        "{table}"
+    );
+}
