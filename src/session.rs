@@ -70,41 +70,7 @@ pub fn odds_of(
 /// through a candidate the catalogue no longer has (rejected as an
 /// eclipsing binary, a blend or a stellar-size companion; docs/science.md
 /// §1.1): a new release that dropped the binary still has its star.
-///
-/// The star's other ids (a split candidate family, rows at one place:
-/// `checks::links_of`, docs/science.md §3.4) are held as well, as a
-/// rejection of a loaded candidate holds them.
 pub fn gone_false_positives(
-    cat: &crate::catalogue::Catalogue,
-    latest: &Latest,
-) -> Vec<crate::checks::UnseenFp> {
-    let gone = gone_at_their_stars(cat, latest);
-    if gone.is_empty() {
-        return gone;
-    }
-    let mut stars: Vec<_> = gone.iter().map(|u| u.star).collect();
-    stars.sort_unstable();
-    stars.dedup();
-    let others: Vec<_> = crate::checks::links_of(cat, &stars)
-        .into_iter()
-        .filter_map(|link| {
-            let u = gone.iter().find(|u| u.star == link.star)?;
-            Some(crate::checks::UnseenFp {
-                star: link.other,
-                why: format!(
-                    "{}, on star {}, the same star as this one ({})",
-                    u.why,
-                    clean(cat.star_id(link.star)),
-                    link.tie.describe()
-                ),
-            })
-        })
-        .collect();
-    gone.into_iter().chain(others).collect()
-}
-
-/// [`gone_false_positives`] at the stars the ledger names.
-fn gone_at_their_stars(
     cat: &crate::catalogue::Catalogue,
     latest: &Latest,
 ) -> Vec<crate::checks::UnseenFp> {
@@ -130,6 +96,39 @@ fn gone_at_their_stars(
         .collect()
 }
 
+/// The other ids (a split candidate family, rows at one place:
+/// `checks::links_of`, docs/science.md §3.4) of stars known to host a false
+/// positive that no loaded row shows (a skipped row's word, a rejection of
+/// a candidate the catalogue no longer has): held as well, as a rejection
+/// of a loaded candidate holds them. One pass over the catalogue, only
+/// when there are such stars.
+fn held_at_other_ids(
+    cat: &crate::catalogue::Catalogue,
+    unseen: &[crate::checks::UnseenFp],
+) -> Vec<crate::checks::UnseenFp> {
+    if unseen.is_empty() {
+        return Vec::new();
+    }
+    let mut stars: Vec<_> = unseen.iter().map(|u| u.star).collect();
+    stars.sort_unstable();
+    stars.dedup();
+    crate::checks::links_of(cat, &stars)
+        .into_iter()
+        .filter_map(|link| {
+            let u = unseen.iter().find(|u| u.star == link.star)?;
+            Some(crate::checks::UnseenFp {
+                star: link.other,
+                why: format!(
+                    "{}, on star {}, the same star as this one ({})",
+                    u.why,
+                    clean(cat.star_id(link.star)),
+                    link.tie.describe()
+                ),
+            })
+        })
+        .collect()
+}
+
 /// The odds under `model` with the checks' flags and signal groups and
 /// these decisions: the one way every command and the browser build them.
 ///
@@ -149,13 +148,16 @@ pub fn odds_with(
         .filter(|(_, d)| d.reason().is_some_and(crate::odds::names_false_positive))
         .map(|(c, &d)| (c as crate::catalogue::CandidateId, d))
         .collect();
+    let mut unseen: Vec<_> = checks.unseen_fp().iter().chain(gone).cloned().collect();
+    let others = held_at_other_ids(cat, &unseen);
+    unseen.extend(others);
     let mut live = Live::with_evidence(
         cat,
         model,
         checks.all_flags().to_vec(),
         checks.groups().clone(),
         decisions,
-        checks.unseen_fp().iter().chain(gone).cloned().collect(),
+        unseen,
     )?;
     link_other_ids(&mut live, cat, rejected);
     // What the checks say of the inputs, among the other input warnings.

@@ -231,3 +231,30 @@ Gaia 97,G97-b,17.3,0.00001,102.3,0.001,600,4.0,25,0.3,1,1,5772,152.00020,20.0001
         "{table}"
     );
 }
+
+#[test]
+fn a_false_positive_only_a_skipped_row_names_holds_the_other_id_of_its_star() {
+    // Invented: one star under two ids 0.8″ apart (`TIC 509`, `Gaia 99`).
+    // G99-a's row cannot load (no period) but its disposition says FALSE
+    // POSITIVE; G99-b loads. The skipped row holds its own star
+    // (docs/science.md §3.5) and, as a loaded false positive would, the
+    // other id of that star (§3.4). Before, TOI-509.01 and .02 were
+    // validated.
+    let rows = "\
+TIC 509,TOI-509.01,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,152.00000,20.00000,PC\n\
+TIC 509,TOI-509.02,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,152.00000,20.00000,PC\n\
+Gaia 99,G99-a,,,,,,,,,1,1,5772,152.00020,20.00010,FALSE POSITIVE\n\
+Gaia 99,G99-b,17.3,0.00001,102.3,0.001,600,4.0,25,0.3,1,1,5772,152.00020,20.00010,PC\n";
+    let cat = written("other_id_skipped", &catalogue("ra,dec,disposition", rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for p in ["TOI-509.01", "TOI-509.02", "G99-b"] {
+        assert_ne!(v[p], "validated", "{p}");
+    }
+    let table = stdout(&starsift(&["odds", c, "--format", "csv"]));
+    assert!(
+        table.contains("says disposition `FALSE POSITIVE` and was skipped")
+            && table.contains(", on star Gaia 99, the same star as this one (rows 0.8″ apart)"),
+        "{table}"
+    );
+}
