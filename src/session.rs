@@ -84,6 +84,7 @@ pub fn gone_false_positives(
             let star = cat.find_star(&e.star)?;
             Some(crate::checks::UnseenFp {
                 star,
+                by_tie: false,
                 why: format!(
                     "{}, no longer in the catalogue, rejected as {} by {} on {} (the ledger)",
                     clean(&e.candidate),
@@ -106,18 +107,22 @@ fn held_at_other_ids(
     cat: &crate::catalogue::Catalogue,
     unseen: &[crate::checks::UnseenFp],
 ) -> Vec<crate::checks::UnseenFp> {
-    if unseen.is_empty() {
+    // From the stars that host one themselves: one step, so that a
+    // rebuild given the odds' own list holds what a first build holds.
+    let own: Vec<_> = unseen.iter().filter(|u| !u.by_tie).collect();
+    let mut stars: Vec<_> = own.iter().map(|u| u.star).collect();
+    if stars.is_empty() {
         return Vec::new();
     }
-    let mut stars: Vec<_> = unseen.iter().map(|u| u.star).collect();
     stars.sort_unstable();
     stars.dedup();
     crate::checks::links_of(cat, &stars)
         .into_iter()
         .filter_map(|link| {
-            let u = unseen.iter().find(|u| u.star == link.star)?;
+            let u = own.iter().find(|u| u.star == link.star)?;
             Some(crate::checks::UnseenFp {
                 star: link.other,
+                by_tie: true,
                 why: format!(
                     "{}, on star {}, the same star as this one ({})",
                     u.why,

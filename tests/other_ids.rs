@@ -258,3 +258,42 @@ Gaia 99,G99-b,17.3,0.00001,102.3,0.001,600,4.0,25,0.3,1,1,5772,152.00020,20.0001
         "{table}"
     );
 }
+
+#[test]
+fn a_rebuild_from_the_odds_own_list_holds_what_a_first_build_holds() {
+    // Invented: three ids in a row at 1.5″ steps (`TIC 512`, `Gaia 112`,
+    // `2MASS 12`); a skipped row at TIC 512 says FALSE POSITIVE. Gaia 112,
+    // 1.5″ away, is held as the same star; 2MASS 12 is 3″ from TIC 512 and
+    // a tie only of Gaia 112: one step holds it not. The browser rebuilds
+    // its odds when the checks arrive from the list the first odds hold
+    // (`Live::unseen_fps`), and must hold the same stars as every command.
+    let rows = "\
+TIC 512,T512-a,,,,,,,,,1,1,5772,152.000000,20.000000,FALSE POSITIVE\n\
+TIC 512,T512-b,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,152.000000,20.000000,PC\n\
+Gaia 112,G112-a,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,152.000000,20.000417,PC\n\
+Gaia 112,G112-b,17.3,0.00001,102.3,0.001,600,4.0,25,0.3,1,1,5772,152.000000,20.000417,PC\n\
+2MASS 12,M12-a,5.3,0.00001,100.6,0.001,700,3.0,30,0.3,1,1,5772,152.000000,20.000833,PC\n\
+2MASS 12,M12-b,12.9,0.00001,101.6,0.001,650,3.6,28,0.3,1,1,5772,152.000000,20.000833,PC\n";
+    let cat = common::load_text(&catalogue("ra,dec,disposition", rows));
+    let checks = starsift::checks::run(&cat, &starsift::checks::CheckSettings::default());
+    let model = starsift::odds::Model {
+        targets: Some(50_000),
+        ..Default::default()
+    };
+    let open = vec![starsift::decision::Decision::Open; cat.len()];
+    let first =
+        starsift::session::odds_with(&cat, model.clone(), &checks, open.clone(), &[]).unwrap();
+    let again =
+        starsift::session::odds_with(&cat, model, &checks, open, first.unseen_fps()).unwrap();
+    let status =
+        |live: &starsift::odds::Live, id: &str| live.status(cat.find_candidate(id).unwrap());
+    for id in ["T512-b", "G112-a", "G112-b", "M12-a", "M12-b"] {
+        assert_eq!(status(&first, id), status(&again, id), "{id}");
+    }
+    for id in ["G112-a", "G112-b"] {
+        assert_eq!(status(&first, id), starsift::odds::Status::Held, "{id}");
+    }
+    for id in ["M12-a", "M12-b"] {
+        assert_ne!(status(&first, id), starsift::odds::Status::Held, "{id}");
+    }
+}

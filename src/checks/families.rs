@@ -47,6 +47,7 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
         .into_iter()
         .map(|(fp, c)| UnseenFp {
             star: cat.star_of(c),
+            by_tie: true,
             why: format!(
                 "{}, on star {}, is of this star's candidate family ({}) and {}; archives number one star's candidates <star>.<n>, so both star ids name one star",
                 crate::sanitize::clean(cat.candidate_id(fp)),

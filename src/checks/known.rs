@@ -218,6 +218,11 @@ pub struct UnseenFp {
     pub star: StarId,
     /// What says so, where, for people.
     pub why: String,
+    /// Held as another id of a star that hosts the false positive (a split
+    /// family, one place: docs/science.md §3.4), not by its own rows or
+    /// decisions: its own other ids are not looked for (one step, in every
+    /// command and in the browser alike).
+    pub by_tie: bool,
 }
 
 /// What a skipped row's cells say of a false positive, read as a loaded
@@ -288,6 +293,7 @@ fn skipped_rows(cat: &Catalogue, out: &mut Checks) {
             let said = skipped_row_says(row, disposition, fpp, fpp_scale)?;
             Some(UnseenFp {
                 star,
+                by_tie: false,
                 why: format!(
                     "line {} says {said} and was skipped ({}){}",
                     skip.line,

@@ -82,6 +82,7 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
         .into_iter()
         .map(|(fp, c, apart)| UnseenFp {
             star: cat.star_of(c),
+            by_tie: true,
             why: format!(
                 "{}, on star {} {apart:.1}″ from this star's {}, is {}: one place, one light (one star under two ids, or stars no aperture parts)",
                 crate::sanitize::clean(cat.candidate_id(fp)),
