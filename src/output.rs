@@ -108,7 +108,7 @@ impl Shortest {
             return s.strip_suffix(".0").unwrap_or(s);
         };
         // `1e+16` → `1e16`: at most 24 bytes.
-        let (head, exponent) = (&s.as_bytes()[..plus], &s.as_bytes()[plus + 1..]);
+        let (head, exponent) = (&b[..plus], &b[plus + 1..]);
         let n = head.len() + exponent.len();
         self.spelled[..head.len()].copy_from_slice(head);
         self.spelled[head.len()..n].copy_from_slice(exponent);

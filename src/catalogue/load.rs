@@ -443,7 +443,7 @@ fn read_catalogue(
             plain: false,
         };
         let part = layout.parse(&chunk, &merger.hasher, None);
-        merger.absorb(part, size_hint);
+        merger.absorb(part, &layout, size_hint);
         return merger.finish(&layout, opts);
     }
     let workers = std::thread::available_parallelism()
@@ -567,7 +567,7 @@ fn read_catalogue(
             while let Some(part) = waiting.remove(&next) {
                 match part {
                     Ok(p) => {
-                        let spent = merger.absorb(p, size_hint);
+                        let spent = merger.absorb(p, &layout, size_hint);
                         let _ = part_spare_tx.send(spent);
                     }
                     Err(mut e) => {

@@ -32,10 +32,6 @@ pub(super) struct Merger {
     zeros: usize,
     pub(super) rows_seen: u64,
     pub(super) reserved: bool,
-    /// Whether each parsed column is kept in the catalogue (`Layout::kept`).
-    kept: Vec<bool>,
-    /// The places in the parts' columns of the period and the duration.
-    ephemeris: Option<(usize, usize)>,
     durations: DurationSample,
     /// The file's line at the start of the next part (parts number their
     /// lines from their own start).
@@ -70,18 +66,13 @@ impl Merger {
             zeros: 0,
             rows_seen: 0,
             reserved: false,
-            kept: layout.kept.clone(),
-            ephemeris: {
-                let at = |f: Field| layout.num_cols.iter().position(|&(s, _)| NUMERIC[s] == f);
-                at(Field::PeriodD).zip(at(Field::DurationH))
-            },
             durations: DurationSample::default(),
             next_line: first_line,
         }
     }
 
     /// Sizes the columns once from the first part's rows per byte.
-    pub(super) fn reserve(&mut self, part: &Part, size_hint: Option<u64>) {
+    pub(super) fn reserve(&mut self, part: &Part, layout: &Layout, size_hint: Option<u64>) {
         self.reserved = true;
         let (Some(size), true) = (size_hint, part.bytes > 0) else {
             return;
@@ -96,7 +87,7 @@ impl Merger {
         self.star_hash.reserve(est);
         self.lines.reserve(est);
         // Columns not kept (`index_only`) stay empty.
-        for (c, &kept) in self.num.iter_mut().zip(&self.kept) {
+        for (c, &kept) in self.num.iter_mut().zip(&layout.kept) {
             if kept {
                 c.reserve(est);
             }
@@ -105,9 +96,14 @@ impl Merger {
 
     /// Appends a part's rows; returns the part, emptied of its skips, for
     /// its memory to be used again.
-    pub(super) fn absorb(&mut self, mut part: Part, size_hint: Option<u64>) -> Part {
+    pub(super) fn absorb(
+        &mut self,
+        mut part: Part,
+        layout: &Layout,
+        size_hint: Option<u64>,
+    ) -> Part {
         if !self.reserved {
-            self.reserve(&part, size_hint);
+            self.reserve(&part, layout, size_hint);
         }
         self.rows_seen += part.rows_seen;
         let base = self.next_line;
@@ -129,11 +125,11 @@ impl Merger {
         self.star_hash.extend_from_slice(&part.star_hash);
         let line = |l: &u32| u32::try_from(base + *l as u64).unwrap_or(u32::MAX);
         self.lines.extend(part.lines.iter().map(line));
-        if let Some((p, t)) = self.ephemeris {
+        if let Some((p, t)) = layout.ephemeris {
             self.durations.add(&part.num[p], &part.num[t]);
         }
         for ((dst, src), _) in (self.num.iter_mut().zip(&part.num))
-            .zip(&self.kept)
+            .zip(&layout.kept)
             .filter(|(_, k)| **k)
         {
             dst.extend_from_slice(src);

@@ -18,6 +18,8 @@ pub(super) struct Layout {
     pub(super) num_cols: Vec<(usize, usize)>,
     pub(super) kept: Vec<bool>,
     pub(super) in_parts: Vec<bool>,
+    /// The places among `num_cols` of the period and the duration.
+    pub(super) ephemeris: Option<(usize, usize)>,
     /// Columns whose values no rule and no caller reads (`index_only`):
     /// each cell is only checked to be a number or missing.
     pub(super) checked: Vec<bool>,
@@ -122,6 +124,8 @@ impl Layout {
                 kept || [Field::PeriodD, Field::DurationH].contains(&NUMERIC[slot])
             })
             .collect();
+        let at = |f: Field| num_cols.iter().position(|&(s, _)| NUMERIC[s] == f);
+        let ephemeris = at(Field::PeriodD).zip(at(Field::DurationH));
         let checked: Vec<bool> = num_cols
             .iter()
             .zip(&kept)
@@ -149,6 +153,7 @@ impl Layout {
             checked,
             kept,
             in_parts,
+            ephemeris,
             num_cols,
             star_col: col(Field::Star).unwrap_or(0),
             cand_col: col(Field::Candidate).unwrap_or(0),
