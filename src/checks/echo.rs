@@ -121,7 +121,7 @@ pub(super) fn check(
     // The signals and the index: two of the four stages.
     stage(false);
     stage(false);
-    let mut swept = crate::parallel::in_parts(index.bands_len(), |r| index.sweep_bands(r, &pair));
+    let mut swept = crate::parallel::in_parts(index.cells_len(), |r| index.sweep_cells(r, &pair));
     swept.extend(crate::parallel::in_parts(index.unplaced_len(), |r| {
         index.sweep_unplaced(r, &pair)
     }));

@@ -1,14 +1,17 @@
 //! Where the echo search looks. Every signal is compared with the signals
 //! after it in period order whose period is the same or twice its own
 //! (within the widest relative difference ever matched). A signal with a
-//! position is compared only with signals whose declination is within the
-//! echo radius of its own, found in bands of declination as wide as the
-//! radius (its own band and the two beside it: any other is farther than
-//! the radius in declination alone, so farther on the sky), and with every
-//! signal that has no position. A signal without a position is compared
+//! position is compared only with signals that could be within the echo
+//! radius of it on the sky, and with every signal that has no position. The
+//! sky is cut into bands of declination as wide as the radius, and each
+//! band into cells of right ascension at least as wide as two positions
+//! within the radius can differ in right ascension in that band or the two
+//! beside it; a signal is compared with the cells of its band and the two
+//! beside it that reach that far. A signal without a position is compared
 //! with all. The pairs left out are pairs the comparison would refuse, so
 //! the matches are those of a search of every pair in the period windows,
-//! and windows stay small in a catalogue of millions.
+//! and windows stay small in a catalogue of millions, spread over the sky
+//! or crowded into one field.
 
 use super::{ECHO_MATCHES, ECHO_PLACED_REL, ECHO_WINDOW, Match, Pair, Sig};
 use crate::catalogue::CandidateId;
@@ -18,16 +21,119 @@ pub(super) struct Index {
     /// Every signal in period order; kept only when some signal has no
     /// position (their search reads all signals).
     all: Vec<Sig>,
-    /// The signals with a position, band by band (by band number), each
-    /// band in period order.
+    /// The signals with a position, cell by cell (band by band, each band's
+    /// cells by number), each cell in period order.
     placed: Vec<Sig>,
-    /// (band number, start, end) of each band that has signals, in `placed`.
-    bands: Vec<(i64, usize, usize)>,
+    /// The bands of declination that hold signals, in order.
+    bands: Vec<Band>,
+    /// The cells that hold signals, in the order of `placed`: the cell's
+    /// number in its band, and where its signals start in `placed` (they
+    /// end where the next cell's start, or at its band's `stop`).
+    cells: Vec<(u32, u32)>,
+    /// The bands' width, degrees.
+    width: f64,
     /// The places in `all` of the signals without a position.
     unplaced: Vec<u32>,
     /// Those signals themselves, in period order, when some signals have a
     /// position (their search reads them); empty otherwise.
     unplaced_sigs: Vec<Sig>,
+}
+
+/// A band of declination that holds signals.
+#[derive(Clone, Copy, Debug)]
+struct Band {
+    /// Its number: the band from -90° + number·width to one width north.
+    number: u32,
+    /// How many cells of right ascension it is cut into, numbered from 0
+    /// at right ascension 0°, each 360°/cells wide.
+    cells: u32,
+    /// Its cells that hold signals, in `Index::cells`.
+    first: usize,
+    end: usize,
+    /// Where its signals end in `Index::placed`.
+    stop: u32,
+}
+
+/// Signals per cell on average in a band, when the radius allows cells
+/// that narrow: a signal is then compared with the few cells around its
+/// own, not with whole bands of thousands, and the cells kept stay few
+/// beside the signals (common practice, no source).
+const PER_CELL: usize = 4;
+
+/// The most two positions within `width` degrees of each other on the sky
+/// can differ in right ascension, degrees, when both lie in band `band`
+/// or the two beside it (bands `width` wide): 360 where any difference is
+/// possible (bands that reach a pole, or a band of the whole sky).
+///
+/// From the haversine formula, hav θ = hav Δδ + cos δ₁ cos δ₂ hav Δα ≥
+/// cos² D hav Δα for |δ₁|, |δ₂| ≤ D, so sin(Δα/2) ≤ sin(θ/2) / cos D. D is
+/// taken two bands beyond the neighbours' edges, and the result widened a
+/// little, so rounding in a band or cell number never parts a pair.
+fn reach(width: f64, band: u32) -> f64 {
+    if !width.is_finite() || width >= 180.0 {
+        return 360.0;
+    }
+    let lo = -90.0 + (f64::from(band) - 3.0) * width;
+    let hi = -90.0 + (f64::from(band) + 4.0) * width;
+    let d = lo.abs().max(hi.abs()).min(90.0);
+    let s = (width.to_radians() / 2.0).sin() / d.to_radians().cos();
+    if !s.is_finite() || s >= 1.0 {
+        return 360.0;
+    }
+    let r = 2.0 * s.asin().to_degrees() * (1.0 + 1e-6) + 1e-9;
+    if r < 180.0 { r } else { 360.0 }
+}
+
+/// How many cells a band of `count` signals is cut into: about
+/// [`PER_CELL`] signals each, none narrower than `reach` (so the cells
+/// beside a cell hold every signal within the radius of it).
+fn cells_in_band(count: usize, reach: f64) -> u32 {
+    let widest = if reach < 360.0 {
+        (360.0 / reach).floor()
+    } else {
+        1.0
+    };
+    let want = (count / PER_CELL) as f64;
+    want.min(widest).clamp(1.0, f64::from(1u32 << 30)) as u32
+}
+
+/// The cell of right ascension `ra`, degrees, in a band of `cells` cells.
+fn cell_number(ra: f64, cells: u32) -> u32 {
+    if cells <= 1 {
+        return 0;
+    }
+    let x = ra.rem_euclid(360.0);
+    ((x / (360.0 / f64::from(cells))).floor() as u32).min(cells - 1)
+}
+
+/// The cells of a band of `to` cells that hold every signal within the
+/// radius of a signal in cell `number` of a band of `from` cells (the same
+/// band or one beside it, whose `reach` is given): one range of cell
+/// numbers, or two where the range wraps past 360°.
+fn cells_near(reach: f64, number: u32, from: u32, to: u32) -> [(u32, u32); 2] {
+    const NONE: (u32, u32) = (1, 0);
+    let all = [(0, to - 1), NONE];
+    if to <= 1 || reach >= 360.0 {
+        return all;
+    }
+    let own = 360.0 / f64::from(from);
+    let lo = f64::from(number) * own - reach;
+    let hi = f64::from(number + 1) * own + reach;
+    if hi - lo >= 360.0 {
+        return all;
+    }
+    let width = 360.0 / f64::from(to);
+    let (a, b) = ((lo / width).floor() as i64, (hi / width).floor() as i64);
+    let to = i64::from(to);
+    if b - a + 1 >= to {
+        return all;
+    }
+    let (a, b) = (a.rem_euclid(to) as u32, b.rem_euclid(to) as u32);
+    if a <= b {
+        [(a, b), NONE]
+    } else {
+        [(a, to as u32 - 1), (0, b)]
+    }
 }
 
 /// One match as found, with where it stands in the order of a search of
@@ -93,8 +199,8 @@ impl Index {
     ///
     /// Laid out without reading anything out of file order: each signal is
     /// built from the columns in file order and written to its band (in two
-    /// steps, below), and then each band, a few hundred signals, is sorted
-    /// by period. A layout that read the signals in the index's order
+    /// steps, below), and then each band, a few thousand signals at most
+    /// when spread over the sky, is sorted by cell and period. A layout that read the signals in the index's order
     /// waited on memory at every signal.
     pub fn new(n: usize, radius_arcsec: f64, sig: impl Fn(usize) -> Sig) -> Index {
         // A little wider than the radius, so rounding in the band number
@@ -216,29 +322,50 @@ impl Index {
                 *e += 1;
             }
         }
-        // Each band by period: its ranks sorted as integers (with the
-        // signal's place in their low bits), the signals then put in that
-        // order, which moves each signal once.
-        let mut keys: Vec<u64> = Vec::new();
-        for &(_, a, b) in &bands {
+        // Each band cut into cells, and each cell by period: the cell
+        // numbers and ranks sorted as integers (with the signal's place in
+        // the band in their low bits), the signals then put in that order,
+        // which moves each signal once.
+        let mut keys: Vec<u128> = Vec::new();
+        let mut spans: Vec<Band> = Vec::with_capacity(bands.len());
+        let mut cells: Vec<(u32, u32)> = Vec::new();
+        for &(number, a, b) in &bands {
+            let number = number as u32;
+            let count = cells_in_band(b - a, reach(width, number));
             let band = &mut in_bands[a..b];
             keys.clear();
-            keys.extend(
-                band.iter()
-                    .enumerate()
-                    .map(|(k, s)| u64::from(s.rank) << 32 | k as u64),
-            );
+            keys.extend(band.iter().enumerate().map(|(k, s)| {
+                u128::from(cell_number(s.ra, count)) << 64 | u128::from(s.rank) << 32 | k as u128
+            }));
             keys.sort_unstable();
             copy.clear();
             copy.extend(keys.iter().map(|&k| band[k as u32 as usize]));
             band.copy_from_slice(&copy);
+            let first = cells.len();
+            for (k, &key) in keys.iter().enumerate() {
+                let cell = (key >> 64) as u32;
+                if cells.len() == first || cells[cells.len() - 1].0 != cell {
+                    cells.push((cell, (a + k) as u32));
+                }
+            }
+            spans.push(Band {
+                number,
+                cells: count,
+                first,
+                end: cells.len(),
+                stop: b as u32,
+            });
         }
+        drop(keys);
+        let (bands, placed_sigs) = (spans, in_bands);
         if split == n {
-            // Every signal has a position: the bands are all there is.
+            // Every signal has a position: the cells are all there is.
             return Index {
                 all,
-                placed: in_bands,
+                placed: placed_sigs,
                 bands,
+                cells,
+                width,
                 unplaced: Vec::new(),
                 unplaced_sigs: Vec::new(),
             };
@@ -247,7 +374,7 @@ impl Index {
         // period order. Their ranks are their places in `all`.
         let unplaced_sigs: Vec<Sig> = all.iter().filter(|s| !placed(s)).copied().collect();
         let unplaced = unplaced_sigs.iter().map(|s| s.rank).collect();
-        // With no position anywhere, the bands and their search are empty.
+        // With no position anywhere, the cells and their search are empty.
         let unplaced_sigs = if split == 0 {
             Vec::new()
         } else {
@@ -255,8 +382,10 @@ impl Index {
         };
         Index {
             all,
-            placed: in_bands,
+            placed: placed_sigs,
             bands,
+            cells,
+            width,
             unplaced,
             unplaced_sigs,
         }
@@ -300,10 +429,22 @@ impl Index {
         out
     }
 
-    /// The search from the signals with a position, those of the bands of
-    /// `range` in `bands`: each against the later signals of its band and
-    /// the two beside it, and the later signals without a position.
-    pub fn sweep_bands(&self, range: std::ops::Range<usize>, pair: &Pair) -> Swept {
+    /// The signals of cell `ci` (in `cells`) of band `band`.
+    fn cell(&self, band: &Band, ci: usize) -> &[Sig] {
+        let start = self.cells[ci].1 as usize;
+        let end = if ci + 1 < band.end {
+            self.cells[ci + 1].1 as usize
+        } else {
+            band.stop as usize
+        };
+        &self.placed[start..end]
+    }
+
+    /// The search from the signals with a position, those of the cells of
+    /// `range` in `cells`: each against the later signals of the cells of
+    /// its band and the two beside it that reach it, and the later signals
+    /// without a position.
+    pub fn sweep_cells(&self, range: std::ops::Range<usize>, pair: &Pair) -> Swept {
         // Placed signals match within a wider relative difference
         // (`Pair::widest_rel`); the unplaced list (the last) within the
         // narrow one.
@@ -313,27 +454,42 @@ impl Index {
         } else {
             narrow
         };
-        let rels = [wide, wide, wide, narrow];
+        let rels = [wide, narrow];
         let mut out = Swept::default();
-        let mut near: Vec<&Sig> = Vec::new();
-        for bi in range {
-            let (number, start, end) = self.bands[bi];
-            let own = &self.placed[start..end];
-            let beside = |other: Option<&(i64, usize, usize)>, want: i64| {
-                other
-                    .filter(|b| b.0 == want)
-                    .map_or(&[][..], |b| &self.placed[b.1..b.2])
-            };
-            let lists: [&[Sig]; 4] = [
-                beside(
-                    bi.checked_sub(1).and_then(|b| self.bands.get(b)),
-                    number - 1,
-                ),
-                own,
-                beside(self.bands.get(bi + 1), number + 1),
-                &self.unplaced_sigs,
-            ];
-            // Where each list's windows start; the signals of the band come
+        // Copies, so that `around` can be refilled cell after cell.
+        let mut near: Vec<Sig> = Vec::new();
+        // The signals of the cells around one, in period order.
+        let mut around: Vec<Sig> = Vec::new();
+        let mut bi = self.bands.partition_point(|b| b.end <= range.start);
+        for ci in range {
+            while self.bands[bi].end <= ci {
+                bi += 1;
+            }
+            let band = self.bands[bi];
+            let own = self.cell(&band, ci);
+            let number = self.cells[ci].0;
+            let reach = reach(self.width, band.number);
+            around.clear();
+            let beside = [bi.checked_sub(1), Some(bi), bi.checked_add(1)];
+            for other in beside.into_iter().flatten() {
+                let Some(other) = self.bands.get(other) else {
+                    continue;
+                };
+                if other.number.abs_diff(band.number) > 1 {
+                    continue;
+                }
+                let theirs = &self.cells[other.first..other.end];
+                for (lo, hi) in cells_near(reach, number, band.cells, other.cells) {
+                    let from = theirs.partition_point(|c| c.0 < lo);
+                    let to = theirs.partition_point(|c| c.0 <= hi).max(from);
+                    for k in from..to {
+                        around.extend_from_slice(self.cell(other, other.first + k));
+                    }
+                }
+            }
+            around.sort_unstable_by_key(|s| s.rank);
+            let lists: [&[Sig]; 2] = [&around, &self.unplaced_sigs];
+            // Where each list's windows start; the signals of the cell come
             // in period order, so these only move forward.
             let first = &own[0];
             let mut after = lists.map(|l| l.partition_point(|b| b.rank <= first.rank));
@@ -366,13 +522,14 @@ impl Index {
                             list[from..]
                                 .iter()
                                 .take_while(|b| b.period <= hi)
-                                .take(8 * ECHO_WINDOW),
+                                .take(8 * ECHO_WINDOW)
+                                .copied(),
                         );
                     }
-                    // The four lists merged into period order.
+                    // The two lists merged into period order.
                     near.sort_unstable_by_key(|b| b.rank);
                     near.truncate(8 * ECHO_WINDOW);
-                    crowded |= scan(a, n, near.iter().copied(), pair, &mut out.matches);
+                    crowded |= scan(a, n, near.iter(), pair, &mut out.matches);
                 }
                 if crowded {
                     out.crowded.push(a.c);
@@ -386,8 +543,8 @@ impl Index {
         self.unplaced.len()
     }
 
-    pub fn bands_len(&self) -> usize {
-        self.bands.len()
+    pub fn cells_len(&self) -> usize {
+        self.cells.len()
     }
 }
 
@@ -424,7 +581,8 @@ mod tests {
 
     /// Invented signals (a fixed pseudo-random sequence): periods in a few
     /// tight clusters and at twice them, positions in a few small patches
-    /// (some missing, some impossible), so that many pairs fall in one
+    /// (some missing, some impossible, one across right ascension 0° and
+    /// one around a pole), so that many pairs fall in one
     /// period window and many near each other on the sky.
     fn signals(n: usize, seed: u64) -> Vec<Sig> {
         let mut x = seed;
@@ -438,10 +596,14 @@ mod tests {
             .map(|i| {
                 let base = [3.0, 7.5, 15.0, 40.0][(next() * 4.0) as usize];
                 let period = base * if next() < 0.3 { 2.0 } else { 1.0 } * (1.0 + 5e-3 * next());
-                let (ra, dec) = match (next() * 10.0) as u32 {
+                let (ra, dec) = match (next() * 12.0) as u32 {
                     0 => (f64::NAN, f64::NAN),
                     1 => (10.0, 95.0),
                     2 => (f64::NAN, 10.0),
+                    // Across right ascension 0° (written past 360° too).
+                    3 => (359.97 + 0.06 * next(), 5.0 + 0.05 * next()),
+                    // Around the north pole, at every right ascension.
+                    4 => (360.0 * next(), 89.95 + 0.05 * next()),
                     k => (
                         10.0 * f64::from(k % 3) + 0.05 * next(),
                         -30.0 + 0.1 * f64::from(k % 2) + 0.05 * next(),
@@ -489,6 +651,81 @@ mod tests {
     }
 
     #[test]
+    fn the_cells_beside_a_cell_hold_every_position_within_the_radius() {
+        // Pairs of positions a chosen angle apart (the destination point
+        // from the spherical cosine and sine rules, from memory; each pair
+        // kept only if the haversine separation agrees), at every declination, across
+        // right ascension 0° and around the poles, in bands cut into
+        // cells for a range of signal counts: the second position's cell
+        // is always among those searched from the first's.
+        let mut x = 7u64;
+        let mut next = move || {
+            x = x
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            (x >> 11) as f64 / (1u64 << 53) as f64
+        };
+        let mut checked = 0;
+        for radius in [0.5f64, 120.0, 3600.0, 40000.0] {
+            let width = (radius * (1.0 + 1e-6) / 3600.0).max(1e-7);
+            for _ in 0..20000 {
+                let dec1: f64 = match (next() * 4.0) as u32 {
+                    0 => 90.0 - next() * 0.2,
+                    1 => -90.0 + next() * 0.2,
+                    _ => -90.0 + 180.0 * next(),
+                };
+                let ra1 = if next() < 0.3 {
+                    360.0 - next() * 0.1
+                } else {
+                    360.0 * next()
+                };
+                let theta = (radius / 3600.0 * next()).to_radians();
+                let phi = std::f64::consts::TAU * next();
+                let (d1, a1) = (dec1.to_radians(), ra1.to_radians());
+                let d2 = (d1.sin() * theta.cos() + d1.cos() * theta.sin() * phi.cos()).asin();
+                let a2 = a1
+                    + (phi.sin() * theta.sin() * d1.cos()).atan2(theta.cos() - d1.sin() * d2.sin());
+                let (ra2, dec2) = (a2.to_degrees().rem_euclid(360.0), d2.to_degrees());
+                if super::super::separation_arcsec(ra1, dec1, ra2, dec2) > radius {
+                    continue;
+                }
+                let (b1, b2) = (band_number_of(dec1, width), band_number_of(dec2, width));
+                assert!(b1.abs_diff(b2) <= 1, "{dec1} {dec2}");
+                let reach1 = reach(width, b1);
+                let count = |c: f64| (c * 1e7) as usize;
+                let (m1, m2) = (
+                    cells_in_band(count(next()), reach1),
+                    cells_in_band(count(next()), reach(width, b2)),
+                );
+                let (c1, c2) = (cell_number(ra1, m1), cell_number(ra2, m2));
+                let near = cells_near(reach1, c1, m1, m2);
+                assert!(
+                    near.iter().any(|&(lo, hi)| (lo..=hi).contains(&c2)),
+                    "radius {radius}: ({ra1}, {dec1}) cell {c1}/{m1}, ({ra2}, {dec2}) cell {c2}/{m2}: {near:?}"
+                );
+                checked += 1;
+            }
+        }
+        assert!(checked > 70000, "{checked}");
+    }
+
+    fn band_number_of(dec: f64, width: f64) -> u32 {
+        let s = Sig {
+            c: 0,
+            rank: 0,
+            star: 0,
+            period: 1.0,
+            period_err: 0.0,
+            epoch: 0.0,
+            epoch_err: 0.0,
+            t14_d: 0.1,
+            ra: 0.0,
+            dec,
+        };
+        band_number(&s, width)
+    }
+
+    #[test]
     fn groups_of_bands_are_numbered_without_gaps() {
         // Bands of 0, 10, 0, 90 and 1 signals in groups of about 26: the
         // band of 90 fills more than one group's share, and the band after
@@ -527,7 +764,7 @@ mod tests {
             want.sort_unstable();
             let index = Index::new(sigs.len(), radius, |i| sigs[i]);
             let (bands, unplaced) = (
-                index.sweep_bands(0..index.bands_len(), &pair),
+                index.sweep_cells(0..index.cells_len(), &pair),
                 index.sweep_unplaced(0..index.unplaced_len(), &pair),
             );
             // No window filled up: the search was not cut short.
