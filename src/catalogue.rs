@@ -207,6 +207,15 @@ impl Catalogue {
         self.stars.get(s as usize)
     }
 
+    /// Asks the memory for the id of candidate `c`'s star ahead of reading
+    /// it, in two steps (see `StrPool::prefetch`).
+    #[inline]
+    pub fn prefetch_star_id(&self, c: CandidateId, bytes: bool) {
+        if let Some(&s) = self.index.star_of.get(c as usize) {
+            self.stars.prefetch(s as usize, bytes);
+        }
+    }
+
     pub fn star_of(&self, c: CandidateId) -> StarId {
         self.index.star_of[c as usize]
     }

@@ -32,6 +32,24 @@ impl StrPool {
         &self.buf[start..self.ends[i]]
     }
 
+    /// Asks the memory for string `i` ahead of reading it: where it ends
+    /// (`bytes` false), or, once that is at hand, its bytes (`bytes` true).
+    /// A hint that never changes what the program computes.
+    #[inline]
+    pub fn prefetch(&self, i: usize, bytes: bool) {
+        if bytes {
+            let start = if i == 0 {
+                0
+            } else {
+                self.ends.get(i - 1).copied().unwrap_or(0)
+            };
+            crate::prefetch::value(self.buf.as_bytes(), start);
+        } else {
+            crate::prefetch::value(&self.ends, i.saturating_sub(1));
+            crate::prefetch::value(&self.ends, i);
+        }
+    }
+
     /// Appends every string of `other`.
     pub fn append(&mut self, other: &StrPool) {
         let base = self.buf.len();

@@ -84,9 +84,11 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let rows: Vec<CandidateId> = (0..cat.len() as CandidateId)
         .filter(|&c| only.is_none_or(|f| ch.flags(c).contains(f) || ch.warnings(c).contains(f)))
         .collect();
+    // Rows read their star's id out of file order.
+    let ahead = |&c: &CandidateId, bytes: bool| cat.prefetch_star_id(c, bytes);
     match args.format {
         Format::Csv => {
-            write_csv_rows(out, COLUMNS, &rows, |w, &c| {
+            write_csv_rows(out, COLUMNS, &rows, ahead, |w, &c| {
                 let d = checks::derive(cat, c, settings);
                 w.text(clean(cat.star_id(cat.star_of(c))).as_bytes());
                 w.text(clean(cat.candidate_id(c)).as_bytes());
@@ -174,7 +176,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     held_back: live.map(|l| crate::odds::hold_text(cat, l, c)),
                 }
             };
-            write_json_rows(out, head, "candidates", &rows, row)?;
+            write_json_rows(out, head, "candidates", &rows, ahead, row)?;
         }
         Format::Table => {
             writeln!(out, "catalogue  {}", clean(&cat.source))?;
@@ -189,7 +191,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 ("verdict", Align::Left),
                 ("flags", Align::Left),
             ];
-            write_table_rows(out, &columns, &rows, |&c, cells| {
+            write_table_rows(out, &columns, &rows, ahead, |&c, cells| {
                 let [star, cand, r, a, teq, s, rho, verdict, flags] = cells;
                 let d = checks::derive(cat, c, settings);
                 star.push_str(cat.star_id(cat.star_of(c)));

@@ -79,7 +79,8 @@ fn write_csv(
         "held_back",
         "holds_to_f",
     ];
-    write_csv_rows(out, header, shown.rows, |w, &c| {
+    let ahead = |&c: &CandidateId, bytes: bool| live.prefetch_star(cat, c, bytes);
+    write_csv_rows(out, header, shown.rows, ahead, |w, &c| {
         w.text(clean(cat.star_id(cat.star_of(c))).as_bytes());
         w.text(clean(cat.candidate_id(c)).as_bytes());
         w.int(live.k(c));
@@ -194,7 +195,8 @@ fn write_json_out(
         held_back: hold_text(cat, live, c),
         holds_to_f: live.holds_to(c),
     };
-    write_json_rows(out, head, "candidates", shown.rows, row)
+    let ahead = |&c: &CandidateId, bytes: bool| live.prefetch_star(cat, c, bytes);
+    write_json_rows(out, head, "candidates", shown.rows, ahead, row)
 }
 
 fn write_table(
@@ -226,7 +228,8 @@ fn write_table(
         ("holds to f", Align::Right),
         ("held back", Align::Left),
     ];
-    write_table_rows(out, &columns, shown.rows, |&c, cells| {
+    let ahead = |&c: &CandidateId, bytes: bool| live.prefetch_star(cat, c, bytes);
+    write_table_rows(out, &columns, shown.rows, ahead, |&c, cells| {
         let [
             star,
             cand,

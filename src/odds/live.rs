@@ -302,6 +302,17 @@ impl Live {
         self.held.total
     }
 
+    /// Asks the memory for what a row of candidate `c` reads of its star
+    /// (its system's size, and its id: see `Catalogue::prefetch_star_id`),
+    /// ahead of reading it.
+    #[inline]
+    pub fn prefetch_star(&self, cat: &Catalogue, c: CandidateId, bytes: bool) {
+        if !bytes && let Some(&s) = self.index.star_of.get(c as usize) {
+            crate::prefetch::value(&self.k_of_star, s as usize);
+        }
+        cat.prefetch_star_id(c, bytes);
+    }
+
     fn star_of(&self, c: CandidateId) -> StarId {
         self.index.star_of[c as usize]
     }

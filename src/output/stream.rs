@@ -9,6 +9,7 @@ use serde::Serialize;
 use serde_json::Value;
 
 use super::{Shortest, exact_in};
+use crate::prefetch::each_ahead;
 
 /// CSV written row by row into one reused buffer, for the long outputs:
 /// numbers straight from [`Shortest`]/`itoa`, no allocation per cell. The bytes
@@ -192,10 +193,16 @@ impl<'a> CsvOut<'a> {
 /// A CSV file of a header and a row per item: `row` writes an item's
 /// fields, on every core a chunk of items at a time ([`in_order`]); the
 /// rows come out in order, as one [`CsvOut`] would write them.
+///
+/// `ahead` asks the memory for what an item's row will read out of order,
+/// some rows before ([`crate::prefetch::each_ahead`]; e.g. the ids of the
+/// candidates' stars, in a file whose rows are not grouped by star), or
+/// is [`crate::prefetch::nothing`]; the rows are the same either way.
 pub fn write_csv_rows<T: Sync, H: AsRef<[u8]>>(
     out: &mut dyn Write,
     header: impl IntoIterator<Item = H>,
     items: &[T],
+    ahead: impl Fn(&T, bool) + Sync,
     row: impl Fn(&mut CsvOut, &T) + Sync,
 ) -> io::Result<()> {
     let mut w = CsvOut::new(out);
@@ -203,11 +210,11 @@ pub fn write_csv_rows<T: Sync, H: AsRef<[u8]>>(
     w.finish()?;
     in_order(items, out, |part, buf| {
         let mut w = CsvOut::keeping(std::mem::take(buf));
-        for item in part {
+        each_ahead(part, &ahead, |item| {
             row(&mut w, item);
             // Kept in memory: ending a row cannot fail.
             let _ = w.end_row();
-        }
+        });
         *buf = w.into_bytes();
     })
 }
@@ -218,11 +225,13 @@ pub fn write_csv_rows<T: Sync, H: AsRef<[u8]>>(
 /// is never held: the rows are serialised a chunk at a time on every core
 /// ([`in_order`]), each pretty on its own and indented to its place (JSON
 /// text holds no raw line break, so every line break is the printer's).
+/// `ahead` as for [`write_csv_rows`].
 pub fn write_json_rows<T: Sync, R: Serialize>(
     out: &mut dyn Write,
     head: Vec<(&str, Value)>,
     key: &str,
     items: &[T],
+    ahead: impl Fn(&T, bool) + Sync,
     row: impl Fn(&T) -> R + Sync,
 ) -> io::Result<()> {
     let mut object: serde_json::Map<String, Value> =
@@ -245,14 +254,14 @@ pub fn write_json_rows<T: Sync, R: Serialize>(
     in_order(items, &mut rows, |part, buf| {
         // One row's JSON at a time, in a buffer kept for the chunk.
         let mut one = Vec::with_capacity(1024);
-        for item in part {
+        each_ahead(part, &ahead, |item| {
             buf.extend_from_slice(sep);
             one.clear();
             // Serialising into memory fails only for a map with non-string
             // keys, which no row has.
             let _ = serde_json::to_writer_pretty(&mut one, &row(item));
             indented(buf, &one, b"    ");
-        }
+        });
     })?;
     out.write_all(b"\n  ]\n}\n")?;
     out.flush()
@@ -271,11 +280,13 @@ fn indented(buf: &mut Vec<u8>, text: &[u8], indent: &[u8]) {
 }
 
 /// Every item made into bytes by `one`, with `sep` between them, on every
-/// core a chunk at a time ([`in_order`]), written in order.
+/// core a chunk at a time ([`in_order`]), written in order. `ahead` as
+/// for [`write_csv_rows`].
 pub fn write_joined_rows<T: Sync>(
     out: &mut dyn Write,
     items: &[T],
     sep: &[u8],
+    ahead: impl Fn(&T, bool) + Sync,
     one: impl Fn(&T, &mut Vec<u8>) + Sync,
 ) -> io::Result<()> {
     let mut rows = SkipFirst {
@@ -283,10 +294,10 @@ pub fn write_joined_rows<T: Sync>(
         skip: sep.len(),
     };
     in_order(items, &mut rows, |part, buf| {
-        for item in part {
+        each_ahead(part, &ahead, |item| {
             buf.extend_from_slice(sep);
             one(item, buf);
-        }
+        })
     })
 }
 
@@ -484,7 +495,15 @@ mod tests {
             let mut want = Vec::new();
             write_json(&mut want, &Value::Object(whole)).unwrap();
             let mut got = Vec::new();
-            write_json_rows(&mut got, head, "candidates", &items, row).unwrap();
+            write_json_rows(
+                &mut got,
+                head,
+                "candidates",
+                &items,
+                crate::prefetch::nothing,
+                row,
+            )
+            .unwrap();
             assert_eq!(
                 String::from_utf8(got).unwrap(),
                 String::from_utf8(want).unwrap()

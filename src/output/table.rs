@@ -8,6 +8,7 @@ use std::io::{self, Write};
 use super::Align;
 use super::stream::in_order;
 use crate::parallel::in_parts;
+use crate::prefetch::each_ahead;
 use crate::sanitize::clean;
 
 /// A table that holds its rows until written.
@@ -53,11 +54,13 @@ impl Table {
 /// reused strings), written in two passes holding no row: every row is
 /// measured, then the header and every row written. Both passes run on
 /// every core, a part of the rows each, and the rows come out in order;
-/// the bytes are those of a [`Table`] given the same rows.
+/// the bytes are those of a [`Table`] given the same rows. `ahead` as for
+/// [`super::write_csv_rows`].
 pub fn write_table_rows<T: Sync, const N: usize>(
     out: &mut dyn Write,
     columns: &[(&str, Align); N],
     rows: &[T],
+    ahead: impl Fn(&T, bool) + Sync,
     fill: impl Fn(&T, &mut [String; N]) + Sync,
 ) -> io::Result<()> {
     let mut cols = Columns::new(columns);
@@ -68,12 +71,12 @@ pub fn write_table_rows<T: Sync, const N: usize>(
     };
     for widths in in_parts(rows.len(), |part| {
         let (mut cells, mut widths) = (blank(), [0; N]);
-        for r in &rows[part] {
+        each_ahead(&rows[part], &ahead, |r| {
             filled(r, &mut cells);
             for (w, c) in widths.iter_mut().zip(&cells) {
                 *w = (*w).max(width(&clean(c)));
             }
-        }
+        });
         widths
     }) {
         for (w, part) in cols.width.iter_mut().zip(widths) {
@@ -85,11 +88,11 @@ pub fn write_table_rows<T: Sync, const N: usize>(
     out.write_all(line.as_bytes())?;
     in_order(rows, out, |part, buf| {
         let (mut cells, mut line) = (blank(), String::new());
-        for r in part {
+        each_ahead(part, &ahead, |r| {
             filled(r, &mut cells);
             let clean: [Cow<str>; N] = std::array::from_fn(|i| clean(&cells[i]));
             cols.line("", &clean, &mut line);
-        }
+        });
         buf.extend_from_slice(line.as_bytes());
     })
 }
@@ -200,7 +203,7 @@ mod tests {
         let mut a = Vec::new();
         want.write(&mut a, "").unwrap();
         let mut b = Vec::new();
-        write_table_rows(&mut b, &cols, &rows, fill).unwrap();
+        write_table_rows(&mut b, &cols, &rows, crate::prefetch::nothing, fill).unwrap();
         assert_eq!(String::from_utf8(b).unwrap(), String::from_utf8(a).unwrap());
     }
 }

@@ -292,11 +292,12 @@ impl Index {
         let mut all: Vec<Sig> = Vec::new();
         if n > 0 {
             let filler = sig(0);
-            in_bands.resize(split, filler);
+            in_bands.reserve_exact(split);
             if split < n {
                 all.resize(n, filler);
             }
             let mut end = group_start.clone();
+            let slots = &mut in_bands.spare_capacity_mut()[..split];
             for i in 0..n {
                 let s = sig(i);
                 let b = band(&s);
@@ -305,10 +306,16 @@ impl Index {
                 }
                 if b != UNPLACED {
                     let e = &mut end[group_of[slot(b)] as usize];
-                    in_bands[*e] = s;
+                    slots[*e].write(s);
                     *e += 1;
                 }
             }
+            // Each group's signals fill it to where the next starts.
+            assert_eq!(end[..end.len() - 1], group_start[1..]);
+            // SAFETY: the groups' ranges cover 0..split, and each was
+            // written from its start to its end (the assert above), so
+            // every slot below split holds a signal.
+            unsafe { in_bands.set_len(split) };
         }
         let mut copy: Vec<Sig> = Vec::new();
         let mut end = start;
@@ -456,10 +463,10 @@ impl Index {
         };
         let rels = [wide, narrow];
         let mut out = Swept::default();
-        // Copies, so that `around` can be refilled cell after cell.
-        let mut near: Vec<Sig> = Vec::new();
+        let mut near: Vec<&Sig> = Vec::new();
         // The signals of the cells around one, in period order.
-        let mut around: Vec<Sig> = Vec::new();
+        let mut around: Vec<&Sig> = Vec::new();
+        let unplaced: Vec<&Sig> = self.unplaced_sigs.iter().collect();
         let mut bi = self.bands.partition_point(|b| b.end <= range.start);
         for ci in range {
             while self.bands[bi].end <= ci {
@@ -483,12 +490,12 @@ impl Index {
                     let from = theirs.partition_point(|c| c.0 < lo);
                     let to = theirs.partition_point(|c| c.0 <= hi).max(from);
                     for k in from..to {
-                        around.extend_from_slice(self.cell(other, other.first + k));
+                        around.extend(self.cell(other, other.first + k));
                     }
                 }
             }
             around.sort_unstable_by_key(|s| s.rank);
-            let lists: [&[Sig]; 2] = [&around, &self.unplaced_sigs];
+            let lists: [&[&Sig]; 2] = [&around, &unplaced];
             // Where each list's windows start; the signals of the cell come
             // in period order, so these only move forward.
             let first = &own[0];
@@ -529,7 +536,7 @@ impl Index {
                     // The two lists merged into period order.
                     near.sort_unstable_by_key(|b| b.rank);
                     near.truncate(8 * ECHO_WINDOW);
-                    crowded |= scan(a, n, near.iter(), pair, &mut out.matches);
+                    crowded |= scan(a, n, near.iter().copied(), pair, &mut out.matches);
                 }
                 if crowded {
                     out.crowded.push(a.c);
