@@ -42,6 +42,28 @@ struct Sig {
     dec: f64,
 }
 
+/// What the first tests of a comparison read of a signal
+/// ([`Pair::plausible`]).
+#[derive(Clone, Copy)]
+struct Quick {
+    star: u32,
+    period: f64,
+    period_err: f64,
+    /// Whether it has a real position.
+    placed: bool,
+}
+
+impl Sig {
+    fn quick(&self) -> Quick {
+        Quick {
+            star: self.star,
+            period: self.period,
+            period_err: self.period_err,
+            placed: sweep::placed(self),
+        }
+    }
+}
+
 /// One echo finding: (candidate, soft, why), in the order they are added.
 pub(super) type Finding = (CandidateId, bool, String);
 
@@ -121,9 +143,10 @@ pub(super) fn check(
     // The signals and the index: two of the four stages.
     stage(false);
     stage(false);
-    let mut swept = crate::parallel::in_parts(index.cells_len(), |r| index.sweep_cells(r, &pair));
+    let mut swept =
+        crate::parallel::in_parts(index.cells_len(), |r| index.sweep_cells(r, &pair, &sig));
     swept.extend(crate::parallel::in_parts(index.unplaced_len(), |r| {
-        index.sweep_unplaced(r, &pair)
+        index.sweep_unplaced(r, &pair, &sig)
     }));
     stage(true);
     let mut matches: Vec<sweep::Found> = Vec::new();
@@ -232,8 +255,8 @@ impl Pair<'_> {
     /// and the echo radius is at most [`ECHO_PLACED_RADIUS`] (their
     /// neighbours on the sky are then few, so a wide window costs little;
     /// the periods' own errors still decide).
-    fn widest_rel(&self, a: &Sig, b: &Sig) -> f64 {
-        if self.wide_for_placed() && sweep::placed(a) && sweep::placed(b) {
+    fn widest_rel(&self, a_placed: bool, b_placed: bool) -> f64 {
+        if self.wide_for_placed() && a_placed && b_placed {
             self.s.echo_max_rel.max(ECHO_PLACED_REL)
         } else {
             self.s.echo_max_rel
@@ -249,30 +272,38 @@ impl Pair<'_> {
         self.depth.map_or(f64::NAN, |d| d[c as usize])
     }
 
+    /// The first tests of [`Pair::compare`], on what they read of the two
+    /// signals: other stars, and b's period n·P_a within the widest
+    /// relative difference and then within 3σ of the combined period error
+    /// (or half the relative bound when no errors are given).
+    fn plausible(&self, a: &Quick, b: &Quick, n: f64) -> bool {
+        if a.star == b.star {
+            return false;
+        }
+        let dp = (b.period - n * a.period).abs();
+        // The wider bound first: it needs no square root.
+        if dp > self.widest_rel(a.placed, b.placed) * b.period {
+            return false;
+        }
+        // Squared, so no root is taken.
+        let var_p = b.period_err.powi(2) + (n * a.period_err).powi(2);
+        if var_p > 0.0 {
+            dp * dp <= 9.0 * var_p
+        } else {
+            dp <= 0.5 * self.s.echo_max_rel * b.period
+        }
+    }
+
     /// One match: b's transits fall on a's (b's period n·P_a, n = 1 or 2).
     /// `a` has the shorter period. Returns the copy and the match with its
     /// source.
     fn compare(&self, a: &Sig, b: &Sig, n: f64) -> Option<(CandidateId, Match)> {
         let s = self.s;
-        if a.star == b.star {
+        if !self.plausible(&a.quick(), &b.quick(), n) {
             return None;
         }
         let dp = (b.period - n * a.period).abs();
-        // The wider bound first: it needs no square root.
-        if dp > self.widest_rel(a, b) * b.period {
-            return None;
-        }
-        // Within 3σ of the combined period error, or half the relative
-        // bound when no errors are given; squared, so no root is taken.
         let var_p = b.period_err.powi(2) + (n * a.period_err).powi(2);
-        let p_ok = if var_p > 0.0 {
-            dp * dp <= 9.0 * var_p
-        } else {
-            dp <= 0.5 * s.echo_max_rel * b.period
-        };
-        if !p_ok {
-            return None;
-        }
         // Two stars farther apart in declination alone than the radius are
         // farther apart on the sky (the arc is at least the difference in
         // latitude): no trigonometry and no timing needed. Only for real

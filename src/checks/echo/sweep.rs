@@ -13,17 +13,92 @@
 //! and windows stay small in a catalogue of millions, spread over the sky
 //! or crowded into one field.
 
-use super::{ECHO_MATCHES, ECHO_PLACED_REL, ECHO_WINDOW, Match, Pair, Sig};
+use super::{ECHO_MATCHES, ECHO_PLACED_REL, ECHO_WINDOW, Match, Pair, Quick, Sig};
 use crate::catalogue::CandidateId;
+
+/// A signal as the search holds it: what the first tests of a comparison
+/// read ([`Pair::plausible`]), its place in the period order, and its
+/// cell. The rest of a signal (epoch, duration, position) is read from the
+/// columns only for the pairs those tests let through, which are few: 32
+/// bytes a signal instead of a whole [`Sig`]'s 72, at the peak of the
+/// checks' memory.
+#[derive(Clone, Copy, Debug)]
+pub(super) struct Entry {
+    period: f64,
+    period_err: f64,
+    c: CandidateId,
+    star: u32,
+    /// Place in the period order.
+    rank: u32,
+    /// Its cell's number in its band; [`UNPLACED`] without a position.
+    cell: u32,
+}
+
+/// A signal as a search window holds it: an [`Entry`], or a whole [`Sig`].
+trait Held {
+    fn quick(&self) -> Quick;
+    fn rank(&self) -> u32;
+    /// The whole signal; `sig(i)` is the i-th in file order.
+    fn whole(&self, sig: &impl Fn(usize) -> Sig) -> Sig;
+}
+
+impl Held for Entry {
+    fn quick(&self) -> Quick {
+        Quick {
+            star: self.star,
+            period: self.period,
+            period_err: self.period_err,
+            placed: self.cell != UNPLACED,
+        }
+    }
+    fn rank(&self) -> u32 {
+        self.rank
+    }
+    fn whole(&self, sig: &impl Fn(usize) -> Sig) -> Sig {
+        sig(self.c as usize)
+    }
+}
+
+impl Held for Sig {
+    fn quick(&self) -> Quick {
+        Sig::quick(self)
+    }
+    fn rank(&self) -> u32 {
+        self.rank
+    }
+    fn whole(&self, _: &impl Fn(usize) -> Sig) -> Sig {
+        *self
+    }
+}
+
+/// The first place at or after `from` in `list` where `before` is false
+/// (`before` true up to some place and false after it): by galloping, so
+/// a cursor that moves far (a cell's signals span every period) costs the
+/// logarithm of the distance, not the distance.
+fn advance<T>(list: &[T], from: usize, before: impl Fn(&T) -> bool) -> usize {
+    let mut step = 1;
+    let mut lo = from;
+    while lo < list.len() && before(&list[lo]) {
+        let next = (lo + step).min(list.len());
+        if next < list.len() && before(&list[next]) {
+            lo = next + 1;
+            step *= 2;
+        } else {
+            return lo + 1 + list[lo + 1..next].partition_point(&before);
+        }
+    }
+    lo
+}
 
 /// The signals, laid out in the order the search reads them.
 pub(super) struct Index {
-    /// Every signal in period order; kept only when some signal has no
-    /// position (their search reads all signals).
+    /// Every signal in period order, whole; kept only when some signal has
+    /// no position (their search reads all signals, and without positions
+    /// most pairs in a window pass the first tests).
     all: Vec<Sig>,
     /// The signals with a position, cell by cell (band by band, each band's
     /// cells by number), each cell in period order.
-    placed: Vec<Sig>,
+    placed: Vec<Entry>,
     /// The bands of declination that hold signals, in order.
     bands: Vec<Band>,
     /// The cells that hold signals, in the order of `placed`: the cell's
@@ -36,7 +111,7 @@ pub(super) struct Index {
     unplaced: Vec<u32>,
     /// Those signals themselves, in period order, when some signals have a
     /// position (their search reads them); empty otherwise.
-    unplaced_sigs: Vec<Sig>,
+    unplaced_sigs: Vec<Entry>,
 }
 
 /// A band of declination that holds signals.
@@ -168,40 +243,16 @@ fn band_number(s: &Sig, width: f64) -> u32 {
     }
 }
 
-/// How many groups of neighbouring bands the index is first laid out in.
-const GROUPS: usize = 64;
-
-/// The group of each band (`start`: where each band starts, and at the end
-/// where the last ends), numbered from 0 with no number skipped:
-/// neighbouring bands, about `groups` groups of equal signal counts, a
-/// band never split.
-fn groups_of_bands(start: &[usize], groups: usize) -> Vec<u32> {
-    let total = start.last().copied().unwrap_or(0);
-    let per = total.div_ceil(groups).max(1);
-    let mut id = 0;
-    let mut last = None;
-    (0..start.len().saturating_sub(1))
-        .map(|k| {
-            let g = start[k] / per;
-            if last.is_some_and(|l| l != g) {
-                id += 1;
-            }
-            last = Some(g);
-            id
-        })
-        .collect()
-}
-
 impl Index {
     /// The index of the signals, for an echo radius in arcsec: `sig(i)` is
     /// the i-th in file order, with its place in the period order (`rank`,
     /// a permutation of 0..n).
     ///
     /// Laid out without reading anything out of file order: each signal is
-    /// built from the columns in file order and written to its band (in two
-    /// steps, below), and then each band, a few thousand signals at most
-    /// when spread over the sky, is sorted by cell and period. A layout that read the signals in the index's order
-    /// waited on memory at every signal.
+    /// built from the columns in file order and written to the end of its
+    /// band, and then each band, a few thousand signals at most when spread
+    /// over the sky, is sorted by cell and period. A layout that read the
+    /// signals in the index's order waited on memory at every signal.
     pub fn new(n: usize, radius_arcsec: f64, sig: impl Fn(usize) -> Sig) -> Index {
         // A little wider than the radius, so rounding in the band number
         // never parts two signals within it by more than one band; and at
@@ -267,109 +318,83 @@ impl Index {
             start[k] += start[k - 1];
         }
         let split = start[numbers.len()];
-        let bands: Vec<(i64, usize, usize)> = numbers
-            .iter()
-            .enumerate()
-            .filter(|&(k, _)| start[k + 1] > start[k])
-            .map(|(k, &b)| (i64::from(b), start[k], start[k + 1]))
+        // How many cells each band is cut into, now that its signals are
+        // counted.
+        let cells_of: Vec<u32> = (0..numbers.len())
+            .map(|k| cells_in_band(start[k + 1] - start[k], reach(width, numbers[k])))
             .collect();
+        let entry = |s: &Sig, b: u32| Entry {
+            period: s.period,
+            period_err: s.period_err,
+            c: s.c,
+            star: s.star,
+            rank: s.rank,
+            cell: if b == UNPLACED {
+                UNPLACED
+            } else {
+                cell_number(s.ra, cells_of[slot(b)])
+            },
+        };
         // Signals with a position to the end of their band; where some
         // signal has none, every signal to its place in period order too.
-        // Written in two steps, so that the ends being written are always
-        // few (in cache and in the address cache): first to the end of a
-        // group of neighbouring bands, then, a group at a time, from a copy
-        // of the group to the end of each band.
-        let group_of = groups_of_bands(&start, GROUPS);
-        let group_start: Vec<usize> = {
-            let mut g: Vec<usize> = (0..start.len() - 1)
-                .filter(|&k| k == 0 || group_of[k] != group_of[k - 1])
-                .map(|k| start[k])
-                .collect();
-            g.push(split);
-            g
-        };
-        let mut in_bands: Vec<Sig> = Vec::new();
+        let mut placed_entries: Vec<Entry> = Vec::with_capacity(split);
         let mut all: Vec<Sig> = Vec::new();
         if n > 0 {
-            let filler = sig(0);
-            in_bands.reserve_exact(split);
             if split < n {
-                all.resize(n, filler);
+                all.resize(n, sig(0));
             }
-            let mut end = group_start.clone();
-            let slots = &mut in_bands.spare_capacity_mut()[..split];
+            let mut end = start.clone();
+            let slots = &mut placed_entries.spare_capacity_mut()[..split];
             for i in 0..n {
                 let s = sig(i);
                 let b = band(&s);
+                let e = entry(&s, b);
                 if split < n {
                     all[s.rank as usize] = s;
                 }
                 if b != UNPLACED {
-                    let e = &mut end[group_of[slot(b)] as usize];
-                    slots[*e].write(s);
-                    *e += 1;
+                    let at = &mut end[slot(b)];
+                    slots[*at].write(e);
+                    *at += 1;
                 }
             }
-            // Each group's signals fill it to where the next starts.
-            assert_eq!(end[..end.len() - 1], group_start[1..]);
-            // SAFETY: the groups' ranges cover 0..split, and each was
+            // Each band's signals fill it to where the next starts.
+            assert_eq!(end[..end.len() - 1], start[1..]);
+            // SAFETY: the bands' ranges cover 0..split, and each was
             // written from its start to its end (the assert above), so
             // every slot below split holds a signal.
-            unsafe { in_bands.set_len(split) };
+            unsafe { placed_entries.set_len(split) };
         }
-        let mut copy: Vec<Sig> = Vec::new();
-        let mut end = start;
-        for g in 0..group_start.len() - 1 {
-            let (a, b) = (group_start[g], group_start[g + 1]);
-            copy.clear();
-            copy.extend_from_slice(&in_bands[a..b]);
-            for s in &copy {
-                let e = &mut end[slot(band_number(s, width))];
-                in_bands[*e] = *s;
-                *e += 1;
-            }
-        }
-        // Each band cut into cells, and each cell by period: the cell
-        // numbers and ranks sorted as integers (with the signal's place in
-        // the band in their low bits), the signals then put in that order,
-        // which moves each signal once.
-        let mut keys: Vec<u128> = Vec::new();
-        let mut spans: Vec<Band> = Vec::with_capacity(bands.len());
+        // Each band by cell, and each cell by period; then the cells that
+        // hold signals.
+        let mut bands: Vec<Band> = Vec::new();
         let mut cells: Vec<(u32, u32)> = Vec::new();
-        for &(number, a, b) in &bands {
-            let number = number as u32;
-            let count = cells_in_band(b - a, reach(width, number));
-            let band = &mut in_bands[a..b];
-            keys.clear();
-            keys.extend(band.iter().enumerate().map(|(k, s)| {
-                u128::from(cell_number(s.ra, count)) << 64 | u128::from(s.rank) << 32 | k as u128
-            }));
-            keys.sort_unstable();
-            copy.clear();
-            copy.extend(keys.iter().map(|&k| band[k as u32 as usize]));
-            band.copy_from_slice(&copy);
+        for (k, &number) in numbers.iter().enumerate() {
+            let (a, b) = (start[k], start[k + 1]);
+            if a == b {
+                continue;
+            }
+            let band = &mut placed_entries[a..b];
+            band.sort_unstable_by_key(|e| (e.cell, e.rank));
             let first = cells.len();
-            for (k, &key) in keys.iter().enumerate() {
-                let cell = (key >> 64) as u32;
-                if cells.len() == first || cells[cells.len() - 1].0 != cell {
-                    cells.push((cell, (a + k) as u32));
+            for (at, e) in band.iter().enumerate() {
+                if cells.len() == first || cells[cells.len() - 1].0 != e.cell {
+                    cells.push((e.cell, (a + at) as u32));
                 }
             }
-            spans.push(Band {
+            bands.push(Band {
                 number,
-                cells: count,
+                cells: cells_of[k],
                 first,
                 end: cells.len(),
                 stop: b as u32,
             });
         }
-        drop(keys);
-        let (bands, placed_sigs) = (spans, in_bands);
         if split == n {
             // Every signal has a position: the cells are all there is.
             return Index {
                 all,
-                placed: placed_sigs,
+                placed: placed_entries,
                 bands,
                 cells,
                 width,
@@ -379,8 +404,12 @@ impl Index {
         }
         // Some have no position: their search reads every signal, in
         // period order. Their ranks are their places in `all`.
-        let unplaced_sigs: Vec<Sig> = all.iter().filter(|s| !placed(s)).copied().collect();
-        let unplaced = unplaced_sigs.iter().map(|s| s.rank).collect();
+        let unplaced_sigs: Vec<Entry> = all
+            .iter()
+            .filter(|s| !placed(s))
+            .map(|s| entry(s, UNPLACED))
+            .collect();
+        let unplaced = unplaced_sigs.iter().map(|e| e.rank).collect();
         // With no position anywhere, the cells and their search are empty.
         let unplaced_sigs = if split == 0 {
             Vec::new()
@@ -389,7 +418,7 @@ impl Index {
         };
         Index {
             all,
-            placed: placed_sigs,
+            placed: placed_entries,
             bands,
             cells,
             width,
@@ -399,8 +428,14 @@ impl Index {
     }
 
     /// The search from the signals without a position, those of
-    /// `range` in `unplaced`: each against every later signal.
-    pub fn sweep_unplaced(&self, range: std::ops::Range<usize>, pair: &Pair) -> Swept {
+    /// `range` in `unplaced`: each against every later signal. `sig(i)` is
+    /// the whole of the i-th signal in file order, as given to [`Index::new`].
+    pub fn sweep_unplaced(
+        &self,
+        range: std::ops::Range<usize>,
+        pair: &Pair,
+        sig: &impl Fn(usize) -> Sig,
+    ) -> Swept {
         let sigs = &self.all;
         let rel = pair.s.echo_max_rel;
         let mut out = Swept::default();
@@ -427,7 +462,7 @@ impl Index {
                     .iter()
                     .take_while(|b| b.period <= hi)
                     .take(8 * ECHO_WINDOW);
-                crowded |= scan(a, n, others, pair, &mut out.matches);
+                crowded |= scan(a, n, others, pair, sig, &mut out.matches);
             }
             if crowded {
                 out.crowded.push(a.c);
@@ -437,7 +472,7 @@ impl Index {
     }
 
     /// The signals of cell `ci` (in `cells`) of band `band`.
-    fn cell(&self, band: &Band, ci: usize) -> &[Sig] {
+    fn cell(&self, band: &Band, ci: usize) -> &[Entry] {
         let start = self.cells[ci].1 as usize;
         let end = if ci + 1 < band.end {
             self.cells[ci + 1].1 as usize
@@ -450,8 +485,13 @@ impl Index {
     /// The search from the signals with a position, those of the cells of
     /// `range` in `cells`: each against the later signals of the cells of
     /// its band and the two beside it that reach it, and the later signals
-    /// without a position.
-    pub fn sweep_cells(&self, range: std::ops::Range<usize>, pair: &Pair) -> Swept {
+    /// without a position. `sig` as for [`Index::sweep_unplaced`].
+    pub fn sweep_cells(
+        &self,
+        range: std::ops::Range<usize>,
+        pair: &Pair,
+        sig: &impl Fn(usize) -> Sig,
+    ) -> Swept {
         // Placed signals match within a wider relative difference
         // (`Pair::widest_rel`); the unplaced list (the last) within the
         // narrow one.
@@ -463,10 +503,10 @@ impl Index {
         };
         let rels = [wide, narrow];
         let mut out = Swept::default();
-        let mut near: Vec<&Sig> = Vec::new();
+        let mut near: Vec<&Entry> = Vec::new();
         // The signals of the cells around one, in period order.
-        let mut around: Vec<&Sig> = Vec::new();
-        let unplaced: Vec<&Sig> = self.unplaced_sigs.iter().collect();
+        let mut around: Vec<&Entry> = Vec::new();
+        let unplaced: Vec<&Entry> = self.unplaced_sigs.iter().collect();
         let mut bi = self.bands.partition_point(|b| b.end <= range.start);
         for ci in range {
             while self.bands[bi].end <= ci {
@@ -494,8 +534,8 @@ impl Index {
                     }
                 }
             }
-            around.sort_unstable_by_key(|s| s.rank);
-            let lists: [&[&Sig]; 2] = [&around, &unplaced];
+            around.sort_unstable_by_key(|e| e.rank);
+            let lists: [&[&Entry]; 2] = [&around, &unplaced];
             // Where each list's windows start; the signals of the cell come
             // in period order, so these only move forward.
             let first = &own[0];
@@ -515,14 +555,10 @@ impl Index {
                         let lo = 2.0 * a.period * (1.0 - rel);
                         let hi = f64::from(n) * a.period * (1.0 + rel);
                         let from = if n == 1 {
-                            while after[l] < list.len() && list[after[l]].rank <= a.rank {
-                                after[l] += 1;
-                            }
+                            after[l] = advance(list, after[l], |b| b.rank <= a.rank);
                             after[l]
                         } else {
-                            while twice[l] < list.len() && list[twice[l]].period < lo {
-                                twice[l] += 1;
-                            }
+                            twice[l] = advance(list, twice[l], |b| b.period < lo);
                             twice[l]
                         };
                         near.extend(
@@ -536,7 +572,7 @@ impl Index {
                     // The two lists merged into period order.
                     near.sort_unstable_by_key(|b| b.rank);
                     near.truncate(8 * ECHO_WINDOW);
-                    crowded |= scan(a, n, near.iter().copied(), pair, &mut out.matches);
+                    crowded |= scan(a, n, near.iter().copied(), pair, sig, &mut out.matches);
                 }
                 if crowded {
                     out.crowded.push(a.c);
@@ -559,22 +595,30 @@ impl Index {
 /// window `n`: at most [`ECHO_WINDOW`] of them on other stars, stopping at
 /// [`ECHO_MATCHES`] matches (a catalogue with thousands of copies of one
 /// ephemeris stays O(n log n), and each still meets a copy). Returns whether
-/// the window filled up.
-fn scan<'s>(
-    a: &Sig,
+/// the window filled up. A pair the first tests let through
+/// ([`Pair::plausible`]) is compared whole, each signal read by `sig`.
+fn scan<'s, T: Held + 's>(
+    a: &impl Held,
     n: u8,
-    others: impl Iterator<Item = &'s Sig>,
+    others: impl Iterator<Item = &'s T>,
     pair: &Pair,
+    sig: &impl Fn(usize) -> Sig,
     out: &mut Vec<Found>,
 ) -> bool {
-    let others = others.filter(|b| b.star != a.star);
+    let (quick, nf) = (a.quick(), f64::from(n));
+    let others = others.filter(|b| b.quick().star != quick.star);
+    let mut whole: Option<Sig> = None;
     let mut found = 0;
     for (k, b) in others.enumerate() {
         if k == ECHO_WINDOW || found == ECHO_MATCHES {
             return true;
         }
-        if let Some(m) = pair.compare(a, b, f64::from(n)) {
-            out.push(((a.rank, n, b.rank), m));
+        if !pair.plausible(&quick, &b.quick(), nf) {
+            continue;
+        }
+        let a = *whole.get_or_insert_with(|| a.whole(sig));
+        if let Some(m) = pair.compare(&a, &b.whole(sig), nf) {
+            out.push(((a.rank, n, b.rank()), m));
             found += 1;
         }
     }
@@ -641,7 +685,7 @@ mod tests {
             for n in [1u8, 2] {
                 let nf = f64::from(n);
                 for b in by_rank {
-                    let rel = pair.widest_rel(a, b);
+                    let rel = pair.widest_rel(placed(a), placed(b));
                     let inside = if n == 1 {
                         b.rank > a.rank && b.period <= a.period * (1.0 + rel)
                     } else {
@@ -655,6 +699,20 @@ mod tests {
             }
         }
         out
+    }
+
+    #[test]
+    fn advance_finds_what_a_step_by_step_walk_finds() {
+        let list: Vec<u32> = (0..300).map(|x| x / 3).collect();
+        for from in 0..=list.len() {
+            for bound in 0..=101 {
+                let mut walk = from;
+                while walk < list.len() && list[walk] < bound {
+                    walk += 1;
+                }
+                assert_eq!(advance(&list, from, |&x| x < bound), walk, "{from} {bound}");
+            }
+        }
     }
 
     #[test]
@@ -733,16 +791,6 @@ mod tests {
     }
 
     #[test]
-    fn groups_of_bands_are_numbered_without_gaps() {
-        // Bands of 0, 10, 0, 90 and 1 signals in groups of about 26: the
-        // band of 90 fills more than one group's share, and the band after
-        // it is in group 1, the next group, not group 3.
-        let start = [0, 0, 10, 10, 100, 101];
-        assert_eq!(groups_of_bands(&start, 4), vec![0, 0, 0, 0, 1]);
-        assert_eq!(groups_of_bands(&[0], 4), Vec::<u32>::new());
-    }
-
-    #[test]
     fn the_bands_find_what_comparing_every_pair_finds() {
         // Radii from far below the patches' size to wider than the sky.
         for (seed, radius) in [(1, 120.0), (2, 30.0), (3, 1000.0), (4, 1e7), (5, 0.0)] {
@@ -769,10 +817,11 @@ mod tests {
             by_rank.sort_by_key(|s| s.rank);
             let mut want = every_pair(&by_rank, &pair);
             want.sort_unstable();
-            let index = Index::new(sigs.len(), radius, |i| sigs[i]);
+            let sig = |i: usize| sigs[i];
+            let index = Index::new(sigs.len(), radius, sig);
             let (bands, unplaced) = (
-                index.sweep_cells(0..index.cells_len(), &pair),
-                index.sweep_unplaced(0..index.unplaced_len(), &pair),
+                index.sweep_cells(0..index.cells_len(), &pair, &sig),
+                index.sweep_unplaced(0..index.unplaced_len(), &pair, &sig),
             );
             // No window filled up: the search was not cut short.
             assert!(
