@@ -4,6 +4,7 @@
 //! period, then a search of bounded windows in period and, where positions
 //! exist, in declination (`sweep`): O(n log n).
 
+mod cells;
 mod sweep;
 
 use std::collections::HashMap;
