@@ -616,7 +616,14 @@ impl Live {
         for u in self.unseen_fp.iter() {
             grouped[u.star as usize] = true;
         }
-        for (c, &s) in index.star_of.iter().enumerate() {
+        // The stars' counts are read at random (rows in any order): each
+        // asked for some rows ahead.
+        const AHEAD: usize = 16;
+        let star_of = &index.star_of;
+        for (c, &s) in star_of.iter().enumerate() {
+            if let Some(&ahead) = star_of.get(c + AHEAD) {
+                crate::prefetch::value(&k_of, ahead as usize);
+            }
             // A star with a member in an active group, or with a known false
             // positive (whose siblings are held), is placed whole.
             if self.active_group(c as CandidateId).is_some()
@@ -642,7 +649,11 @@ impl Live {
                 self.bump_hist(k as usize, 1);
             }
         }
-        for (c, &s) in index.star_of.iter().enumerate() {
+        for (c, &s) in star_of.iter().enumerate() {
+            if let Some(&ahead) = star_of.get(c + AHEAD) {
+                crate::prefetch::value(&grouped, ahead as usize);
+                crate::prefetch::value(&k_of, ahead as usize);
+            }
             if grouped[s as usize] {
                 continue;
             }
