@@ -246,33 +246,27 @@ impl Index {
         };
         // Signals with a position to the end of their band; where some
         // signal has none, every signal to its place in period order too.
-        let mut placed_entries: Vec<Entry> = Vec::with_capacity(split);
+        let mut placed_entries: Vec<Entry> = Vec::new();
         let mut all: Vec<Sig> = Vec::new();
         if n > 0 {
+            let s = sig(0);
+            placed_entries.resize(split, entry(&s, band(&s)));
             if split < n {
-                all.resize(n, sig(0));
+                all.resize(n, s);
             }
             let mut end = start.clone();
-            let slots = &mut placed_entries.spare_capacity_mut()[..split];
             for i in 0..n {
                 let s = sig(i);
                 let b = band(&s);
-                let e = entry(&s, b);
                 if split < n {
                     all[s.rank as usize] = s;
                 }
                 if b != UNPLACED {
                     let at = &mut end[slot(b)];
-                    slots[*at].write(e);
+                    placed_entries[*at] = entry(&s, b);
                     *at += 1;
                 }
             }
-            // Each band's signals fill it to where the next starts.
-            assert_eq!(end[..end.len() - 1], start[1..]);
-            // SAFETY: the bands' ranges cover 0..split, and each was
-            // written from its start to its end (the assert above), so
-            // every slot below split holds a signal.
-            unsafe { placed_entries.set_len(split) };
         }
         // Each band by cell, and each cell by period; then the cells that
         // hold signals.
