@@ -2,7 +2,7 @@
 //! their uncertainties (the ephemeris matching of Coughlin et al. 2014, AJ
 //! 147, 119), and within an angular radius when positions exist. One sort by
 //! period, then a search of bounded windows in period and, where positions
-//! exist, in declination (`sweep`): O(n log n).
+//! exist, in cells of the sky (`cells`, `sweep`): O(n log n).
 
 mod cells;
 mod sweep;

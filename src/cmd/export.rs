@@ -357,25 +357,20 @@ impl<'a> Export<'a> {
         }
         let header: Vec<String> = self.columns().into_iter().map(|c| c.name).collect();
         let held_at = header.len() - 2;
-        write_csv_rows(
-            out,
-            &header,
-            rows,
-            |c, b| self.ahead(c, b),
-            |w, &c| {
-                for (i, cell) in self.cells(c).into_iter().enumerate() {
-                    match cell {
-                        _ if i == held_at => w.text(self.held(c)),
-                        Cell::Text(s) => w.text(s),
-                        Cell::Opt(s) => w.text(s.unwrap_or("")),
-                        Cell::Num(x) => w.exact(x),
-                        Cell::Int(n) => w.int(n),
-                        Cell::Bool(t) => w.text(if t { "yes" } else { "no" }),
-                        Cell::List(l) => w.list(l, ";"),
-                    }
+        let ahead = |c: &CandidateId, bytes: bool| self.ahead(c, bytes);
+        write_csv_rows(out, &header, rows, ahead, |w, &c| {
+            for (i, cell) in self.cells(c).into_iter().enumerate() {
+                match cell {
+                    _ if i == held_at => w.text(self.held(c)),
+                    Cell::Text(s) => w.text(s),
+                    Cell::Opt(s) => w.text(s.unwrap_or("")),
+                    Cell::Num(x) => w.exact(x),
+                    Cell::Int(n) => w.int(n),
+                    Cell::Bool(t) => w.text(if t { "yes" } else { "no" }),
+                    Cell::List(l) => w.list(l, ";"),
                 }
-            },
-        )?;
+            }
+        })?;
         Ok(())
     }
 
@@ -397,42 +392,35 @@ impl<'a> Export<'a> {
             .iter()
             .map(|n| serde_json::to_string(n).unwrap_or_default())
             .collect();
-        write_joined_rows(
-            out,
-            rows,
-            b",\n",
-            |c, b| self.ahead(c, b),
-            |&c, buf| {
-                let cells = self.cells(c);
-                buf.push(b'{');
-                let mut first = true;
-                for (i, &p) in place.iter().enumerate() {
-                    if p != i {
-                        continue;
-                    }
-                    if !first {
-                        buf.push(b',');
-                    }
-                    first = false;
-                    buf.extend_from_slice(keys[i].as_bytes());
-                    buf.push(b':');
-                    let j = last[i];
-                    // Writing JSON into memory cannot fail.
-                    let _ = match &cells[j] {
-                        _ if j == held_at => serde_json::to_writer(&mut *buf, &self.held(c)),
-                        Cell::Text(s) => serde_json::to_writer(&mut *buf, s),
-                        Cell::Opt(s) => serde_json::to_writer(&mut *buf, s),
-                        Cell::Num(x) => {
-                            serde_json::to_writer(&mut *buf, &x.filter(|x| x.is_finite()))
-                        }
-                        Cell::Int(k) => serde_json::to_writer(&mut *buf, k),
-                        Cell::Bool(t) => serde_json::to_writer(&mut *buf, t),
-                        Cell::List(l) => serde_json::to_writer(&mut *buf, l),
-                    };
+        let ahead = |c: &CandidateId, bytes: bool| self.ahead(c, bytes);
+        write_joined_rows(out, rows, b",\n", ahead, |&c, buf| {
+            let cells = self.cells(c);
+            buf.push(b'{');
+            let mut first = true;
+            for (i, &p) in place.iter().enumerate() {
+                if p != i {
+                    continue;
                 }
-                buf.push(b'}');
-            },
-        )?;
+                if !first {
+                    buf.push(b',');
+                }
+                first = false;
+                buf.extend_from_slice(keys[i].as_bytes());
+                buf.push(b':');
+                let j = last[i];
+                // Writing JSON into memory cannot fail.
+                let _ = match &cells[j] {
+                    _ if j == held_at => serde_json::to_writer(&mut *buf, &self.held(c)),
+                    Cell::Text(s) => serde_json::to_writer(&mut *buf, s),
+                    Cell::Opt(s) => serde_json::to_writer(&mut *buf, s),
+                    Cell::Num(x) => serde_json::to_writer(&mut *buf, &x.filter(|x| x.is_finite())),
+                    Cell::Int(k) => serde_json::to_writer(&mut *buf, k),
+                    Cell::Bool(t) => serde_json::to_writer(&mut *buf, t),
+                    Cell::List(l) => serde_json::to_writer(&mut *buf, l),
+                };
+            }
+            buf.push(b'}');
+        })?;
         out.write_all(b"\n]\n")?;
         Ok(())
     }
@@ -458,28 +446,23 @@ impl<'a> Export<'a> {
             model_statement(self.live.model())
         );
         votable::begin(out, &description, &info, &columns)?;
-        write_joined_rows(
-            out,
-            rows,
-            b"",
-            |c, b| self.ahead(c, b),
-            |&c, buf| {
-                let (mut b, mut scratch) = (crate::output::Shortest::new(), String::new());
-                let texts: Vec<String> = (self.cells(c).into_iter().enumerate())
-                    .map(|(i, cell)| match cell {
-                        _ if i == held_at => self.held(c),
-                        Cell::Text(s) => clean(s).into_owned(),
-                        Cell::Opt(s) => clean(s.unwrap_or("")).into_owned(),
-                        Cell::Num(x) => exact_in(&mut b, x).to_string(),
-                        Cell::Int(k) => k.to_string(),
-                        Cell::Bool(t) => (if t { "T" } else { "F" }).to_string(),
-                        Cell::List(l) => l.join(";"),
-                    })
-                    .collect();
-                // Writing into memory cannot fail.
-                let _ = votable::row(buf, &texts, &mut scratch);
-            },
-        )?;
+        let ahead = |c: &CandidateId, bytes: bool| self.ahead(c, bytes);
+        write_joined_rows(out, rows, b"", ahead, |&c, buf| {
+            let (mut b, mut scratch) = (crate::output::Shortest::new(), String::new());
+            let texts: Vec<String> = (self.cells(c).into_iter().enumerate())
+                .map(|(i, cell)| match cell {
+                    _ if i == held_at => self.held(c),
+                    Cell::Text(s) => clean(s).into_owned(),
+                    Cell::Opt(s) => clean(s.unwrap_or("")).into_owned(),
+                    Cell::Num(x) => exact_in(&mut b, x).to_string(),
+                    Cell::Int(k) => k.to_string(),
+                    Cell::Bool(t) => (if t { "T" } else { "F" }).to_string(),
+                    Cell::List(l) => l.join(";"),
+                })
+                .collect();
+            // Writing into memory cannot fail.
+            let _ = votable::row(buf, &texts, &mut scratch);
+        })?;
         votable::end(out)?;
         Ok(())
     }
