@@ -225,6 +225,18 @@ impl Catalogue {
         self.index.members(s)
     }
 
+    /// True when `other` holds the same rows as this catalogue: the same
+    /// candidates on the same stars in the same order, from as many rows
+    /// seen and skipped. Two reads of one unchanged file always do (the
+    /// browser's read of the ids, then of the values, `tui::values`).
+    pub fn same_rows(&self, other: &Catalogue) -> bool {
+        self.rows_seen == other.rows_seen
+            && self.skipped.len() == other.skipped.len()
+            && self.index.star_of == other.index.star_of
+            && self.candidates == other.candidates
+            && self.stars == other.stars
+    }
+
     /// The star index, shared (cheaply cloned) with the live odds state.
     pub fn index(&self) -> Arc<StarIndex> {
         Arc::clone(&self.index)

@@ -97,7 +97,7 @@ impl Clause {
             Clause::Compare(f, op, v) => s.number(*f).is_some_and(|x| op.holds(x, *v)),
             Clause::Flag(f, want) => s.has_flag(*f) == *want,
             Clause::Decision(d, want) => (s.decision() == *d) == *want,
-            Clause::Verdict(v, want) => (s.verdict() == *v) == *want,
+            Clause::Verdict(v, want) => (s.verdict() == Some(*v)) == *want,
             Clause::Reason(r, want) => (s.reason() == Some(*r)) == *want,
             Clause::Star(t, want) => contains_folded(s.star(), t) == *want,
             Clause::Id(t, want) => contains_folded(s.id(), t) == *want,
@@ -165,7 +165,8 @@ pub trait Subject {
     fn has_flag(&self, f: Flag) -> bool;
     fn decision(&self) -> &'static str;
     fn reason(&self) -> Option<Reason>;
-    fn verdict(&self) -> Verdict;
+    /// `None` while the verdict waits for its evidence (the checks).
+    fn verdict(&self) -> Option<Verdict>;
     fn star(&self) -> &str;
     fn id(&self) -> &str;
     fn disagreed(&self) -> bool;
@@ -395,8 +396,8 @@ mod tests {
         fn reason(&self) -> Option<Reason> {
             None
         }
-        fn verdict(&self) -> Verdict {
-            Verdict::Validated
+        fn verdict(&self) -> Option<Verdict> {
+            Some(Verdict::Validated)
         }
         fn star(&self) -> &str {
             "HWT12345"
@@ -454,8 +455,8 @@ mod tests {
             fn reason(&self) -> Option<Reason> {
                 None
             }
-            fn verdict(&self) -> Verdict {
-                Verdict::Likely
+            fn verdict(&self) -> Option<Verdict> {
+                Some(Verdict::Likely)
             }
             fn star(&self) -> &str {
                 self.id

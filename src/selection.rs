@@ -24,6 +24,10 @@ pub struct Selection<'a> {
     pub radii: &'a [f64],
     /// Candidates whose vetters' latest decisions differ.
     pub disagree: &'a HashSet<CandidateId>,
+    /// True while the checks have not given their evidence (the browser
+    /// before they arrive, or after they failed): no candidate's verdict
+    /// is validated then, and a filter on it finds none.
+    pub withheld: bool,
 }
 
 impl Selection<'_> {
@@ -100,6 +104,7 @@ pub fn selected(
         checks,
         radii: &radii,
         disagree,
+        withheld: false,
     };
     all.filter(|&c| selection.selects(filter, c)).collect()
 }
@@ -160,8 +165,9 @@ impl Subject for Row<'_> {
     fn reason(&self) -> Option<Reason> {
         self.app.live.decision(self.c).reason()
     }
-    fn verdict(&self) -> Verdict {
-        self.app.live.verdict(self.c)
+    fn verdict(&self) -> Option<Verdict> {
+        let v = self.app.live.verdict(self.c);
+        (!(self.app.withheld && v == Verdict::Validated)).then_some(v)
     }
     fn star(&self) -> &str {
         self.app.cat.star_id(self.star)

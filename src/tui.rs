@@ -4,6 +4,7 @@
 //! background thread, and draws with [`draw::draw`].
 
 pub mod app;
+mod background;
 pub mod draw;
 mod input;
 pub mod keymap;
@@ -25,7 +26,6 @@ use crate::cli::error::CliError;
 use app::{App, Effect, Input};
 use draw::Look;
 use keymap::Keymap;
-use worker::spawn_worker;
 
 #[derive(Debug, Clone, clap::Args)]
 pub struct Args {
@@ -113,7 +113,17 @@ impl Args {
 
 /// Builds the browser state for a catalogue (everything but the terminal).
 pub fn build_app(args: &Args) -> Result<(App, crate::lightcurve::Finder), CliError> {
-    build_app_counting(args, None).map(|(app, finder, _)| (app, finder))
+    build_app_counting(args, None).map(|b| (b.app, b.finder))
+}
+
+/// The browser as its first read builds it.
+struct Built {
+    app: App,
+    finder: crate::lightcurve::Finder,
+    /// A catalogue new to the ledger, to hash in the background.
+    unseen: Option<Unseen>,
+    /// The file's stamp at the read, when it could be trusted.
+    stamp: Option<String>,
 }
 
 /// A catalogue the ledger has yet to record (`Loaded::sighting_deferred`):
@@ -124,12 +134,14 @@ struct Unseen {
 }
 
 /// [`build_app`], counting the catalogue's bytes read into `read`.
-/// With `read` (the browser's loading screen), a catalogue new to the
-/// ledger is not hashed before the table: it comes back as [`Unseen`].
+/// With `read` (the browser's loading screen), only the ids are read
+/// (`CatalogueArgs::load_counting`; the App waits for its values,
+/// `app::Values`), and a catalogue new to the ledger is not hashed before
+/// the table: it comes back as [`Unseen`].
 fn build_app_counting(
     args: &Args,
     read: Option<Arc<std::sync::atomic::AtomicU64>>,
-) -> Result<(App, crate::lightcurve::Finder, Option<Unseen>), CliError> {
+) -> Result<Built, CliError> {
     let keymap = args.keymap()?;
     let VettingArgs {
         input,
@@ -173,6 +185,7 @@ fn build_app_counting(
     // The same odds as every command's session; the checks arrive later.
     let live =
         crate::session::odds_of(cat, model.model(&loaded.survey)?, &checks, latest.as_ref())?;
+    let stamp = loaded.stamp.clone();
     let mut app = App::new(
         Arc::new(loaded.catalogue),
         live,
@@ -185,11 +198,19 @@ fn build_app_counting(
         .into_iter()
         .chain(notes)
         .reduce(|a, b| format!("{a} · {b}"));
+    if counting {
+        app.values = app::Values::Reading(0);
+    }
     if let Some(f) = crate::cli::args::parse_where(args.filter.as_deref())? {
         app.filter = f;
         app.refresh_view();
     }
-    Ok((app, finder, unseen))
+    Ok(Built {
+        app,
+        finder,
+        unseen,
+        stamp,
+    })
 }
 
 /// Rows that did not load, and the loader's notes, said as the browser opens
@@ -285,7 +306,7 @@ fn load_showing_progress(
     args: &Args,
     term: &mut Terminal<CrosstermBackend<std::io::Stdout>>,
     look: Look,
-) -> Result<Option<(App, crate::lightcurve::Finder, Option<Unseen>)>, CliError> {
+) -> Result<Option<Built>, CliError> {
     use std::sync::atomic::{AtomicU64, Ordering::Relaxed};
     let path = args.vetting.input.catalogue.clone();
     let total = path
@@ -437,7 +458,12 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     let guard = Guard::enter(args.mouse)?;
     let mut term = Terminal::new(CrosstermBackend::new(std::io::stdout()))?;
     let built = load_showing_progress(args, &mut term, look);
-    let (mut app, finder, unseen) = match built {
+    let Built {
+        mut app,
+        finder,
+        unseen,
+        stamp,
+    } = match built {
         Ok(Some(b)) => b,
         Ok(None) => return Ok(()),
         Err(e) => {
@@ -451,72 +477,12 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             app.restore(p);
         }
     }
-    let (res_tx, res_rx) = mpsc::channel();
-    let worker = spawn_worker(
-        Arc::clone(&app.cat),
-        finder.clone(),
-        args.vetting.lc.detrend(),
-        res_tx,
-    );
-    // The checks (and, when asked, the light-curve checks) in the background.
-    // Its effects hold the first candidate's light-curve request.
+    // The values (the first read kept ids only), then what needs them:
+    // the checks, the light-curve worker, the orders. The verdicts wait
+    // for the checks from the first frame on.
+    let values = background::ValuesRead::start(args, stamp);
+    let mut running: Option<background::Running> = None;
     let mut effects = app.update(Input::ChecksStarted);
-    let (checks_tx, checks_rx) = mpsc::channel();
-    let check_progress = Arc::new(crate::checks::CheckProgress::sharing_flags());
-    let (progress_tx, progress_rx) = mpsc::channel();
-    {
-        let cat = Arc::clone(&app.cat);
-        let settings = args.vetting.checks.settings();
-        let lc = args.vetting.lc.clone();
-        let finder = finder.clone();
-        let counted = Arc::clone(&check_progress);
-        // The odds with the checks are built there too, from the decisions
-        // of now; those made meanwhile are applied when they arrive.
-        let (model, decisions, gone) = (
-            app.live.model().clone(),
-            app::decisions_of(&app.cat, &app.live),
-            app.live.unseen_fps().to_vec(),
-        );
-        std::thread::spawn(move || {
-            let mut checks = crate::checks::run_counted(&cat, &settings, &counted);
-            let run = if lc.wanted() {
-                crate::checks::run_lightcurves_counted(
-                    &cat,
-                    &finder,
-                    &lc.detrend(),
-                    &mut checks,
-                    |done, total| {
-                        let _ = progress_tx.send((done, total));
-                    },
-                )
-            } else {
-                Default::default()
-            };
-            let live = crate::session::odds_with(&cat, model, &checks, decisions, &gone);
-            let _ = checks_tx.send((checks, live, run));
-        });
-    }
-    // The orders no decision moves (by star id, by shortest period), sorted
-    // in the background too, so that the first such sort is not a wait; at
-    // the lowest priority, so that on a machine of few cores they take no
-    // time from the checks (a sort asked for before they arrive is sorted
-    // then).
-    let (orders_tx, orders_rx) = mpsc::channel();
-    {
-        let cat = Arc::clone(&app.cat);
-        std::thread::spawn(move || {
-            crate::parallel::run_when_idle();
-            let orders: Vec<_> = [app::SortKey::Star, app::SortKey::Period]
-                .into_iter()
-                .flat_map(|k| [(k, false), (k, true)])
-                .filter_map(|(k, d)| Some(((k, d), app::static_order(&cat, k, d)?)))
-                .collect();
-            let _ = orders_tx.send(orders);
-            // And the index of the star ids' other spellings, which the
-            // first search would otherwise build.
-            cat.prepare_spellings();
-        });
-    }
     // A catalogue new to the ledger is hashed for its sighting here, not
     // before the table: at the lowest priority, then recorded if the file
     // is as it was read (the same stamp); else the next start records it.
@@ -574,7 +540,9 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                     let _ = out.flush();
                 }
                 Effect::LoadSignal(c) => {
-                    let _ = worker.send(c);
+                    if let Some(r) = &running {
+                        let _ = r.worker.send(c);
+                    }
                 }
                 Effect::WriteFigure(c) => {
                     let said = write_figure(&app, &finder, args, c);
@@ -588,7 +556,12 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         // for the rest of a 16 ms frame before the screen is drawn again.
         let since = last_draw.elapsed();
         if since < FRAME && event::poll(FRAME - since)? {
-            read_batch(&mut app, &hits, &mut effects, &worker)?;
+            read_batch(
+                &mut app,
+                &hits,
+                &mut effects,
+                running.as_ref().map(|r| &r.worker),
+            )?;
             dirty = true;
             continue;
         }
@@ -597,55 +570,18 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             last_draw = std::time::Instant::now();
             dirty = false;
         }
-        let percent = check_progress.percent(app.cat.len());
-        if app.checks_pending && app.lc_progress.is_none() && percent != app.checks_percent {
-            effects.extend(app.update(Input::ChecksDone(percent)));
-            dirty = true;
-        }
-        if let Some(flags) = check_progress.take_flags() {
-            effects.extend(app.update(Input::FlagsSoFar(flags)));
-            dirty = true;
-        }
-        if let Some((done, total)) = progress_rx.try_iter().last() {
-            effects.extend(app.update(Input::Progress(done, total)));
-            dirty = true;
-        }
-        match checks_rx.try_recv() {
-            Ok((checks, live, run)) => {
-                dirty = true;
-                let note = checks.notes().first().cloned();
-                effects.extend(app.update(Input::ChecksBuilt(Box::new((checks, live)))));
-                if let Some(n) = run.notice {
-                    effects.extend(app.update(Input::Notice(n)));
-                } else if let Some((_, first)) = run.errors.first() {
-                    effects.extend(app.update(Input::Notice(format!(
-                        "{} light curves could not be read (first: {first})",
-                        run.errors.len(),
-                    ))));
-                } else if let Some(n) = note {
-                    effects.extend(app.update(Input::Notice(n)));
+        match &running {
+            Some(r) => dirty |= r.poll(&mut app, &mut effects),
+            None => {
+                let before = app.values;
+                if values.poll(&mut app, &mut effects) && app.values == app::Values::In {
+                    running = Some(background::Running::start(&app, args, &finder));
                 }
+                dirty |= app.values != before;
             }
-            Err(mpsc::TryRecvError::Disconnected) if app.checks_pending => {
-                dirty = true;
-                effects.extend(app.update(Input::ChecksFailed(
-                    "the checks stopped on an internal error: flags and verdicts are not shown; \
-                     run `starsift checks` on this catalogue to see the error"
-                        .into(),
-                )));
-            }
-            Err(_) => {}
         }
         if let Ok(seen) = seen_rx.try_recv() {
             effects.extend(app.update(Input::Seen(seen.map_err(|e| e.to_string()))));
-            dirty = true;
-        }
-        if let Ok(orders) = orders_rx.try_recv() {
-            effects.extend(app.update(Input::Orders(orders)));
-            dirty = true;
-        }
-        while let Ok((c, r)) = res_rx.try_recv() {
-            effects.extend(app.update(Input::Signal(c, Box::new(r))));
             dirty = true;
         }
         if !effects.is_empty() || dirty {
@@ -664,7 +600,12 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         if !event::poll(wait)? {
             continue;
         }
-        read_batch(&mut app, &hits, &mut effects, &worker)?;
+        read_batch(
+            &mut app,
+            &hits,
+            &mut effects,
+            running.as_ref().map(|r| &r.worker),
+        )?;
         dirty = true;
     }
 }
@@ -677,7 +618,7 @@ fn read_batch(
     app: &mut App,
     hits: &app::Hits,
     effects: &mut Vec<Effect>,
-    worker: &mpsc::Sender<u32>,
+    worker: Option<&mpsc::Sender<u32>>,
 ) -> std::io::Result<()> {
     for _ in 0..4096 {
         match input::translate(app, hits, event::read()?) {
@@ -687,7 +628,9 @@ fn read_batch(
         }
         effects.retain(|e| match e {
             Effect::LoadSignal(c) => {
-                let _ = worker.send(*c);
+                if let Some(w) = worker {
+                    let _ = w.send(*c);
+                }
                 false
             }
             _ => true,

@@ -1,7 +1,7 @@
 //! A pool of strings stored end to end in one buffer: one allocation for a
 //! million ids instead of a million.
 
-#[derive(Debug, Default, Clone)]
+#[derive(Debug, Default, Clone, PartialEq, Eq)]
 pub struct StrPool {
     buf: String,
     ends: Vec<usize>,

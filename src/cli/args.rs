@@ -523,8 +523,11 @@ impl CatalogueArgs {
         }
     }
 
-    /// `load` counting the bytes read into `read`, for the browser's
-    /// loading screen. The fingerprint for the ledger (none without one)
+    /// The browser's first read, counting the bytes read into `read` for
+    /// its loading screen: the ids, the star index and the skips only
+    /// (`LoadOptions::index_only`, as `summary`), enough for the table; the
+    /// values follow in a second read ([`CatalogueArgs::load_values`]).
+    /// The fingerprint for the ledger (none without one)
     /// comes from the ledger (`load_for_ledger`), else it is left for later
     /// ([`Loaded::sighting_deferred`]: the browser hashes the file in the
     /// background, where it costs the table nothing), else, for a file
@@ -536,9 +539,25 @@ impl CatalogueArgs {
     ) -> Result<Loaded, CliError> {
         let opts = LoadOptions {
             progress: Some(read),
+            index_only: true,
             ..self.options()?
         };
         self.load_noting(opts, ledger, true)
+    }
+
+    /// The browser's second read: the whole catalogue, counting the bytes
+    /// read into `read`, with nothing said on stderr (the browser's screen
+    /// is in front of it). Whoever shows it checks that it holds the rows
+    /// of the first read (`Catalogue::same_rows`).
+    pub fn load_values(
+        &self,
+        read: std::sync::Arc<std::sync::atomic::AtomicU64>,
+    ) -> Result<Catalogue, CliError> {
+        let opts = LoadOptions {
+            progress: Some(read),
+            ..self.options()?
+        };
+        Ok(self.load_with(opts)?.catalogue)
     }
 
     /// `load` for a command that reads or writes the ledger: the

@@ -23,6 +23,7 @@ pub(crate) mod action;
 mod decide;
 mod order;
 mod prompt;
+mod values;
 mod view;
 pub use action::Action;
 use decide::Step;
@@ -30,6 +31,7 @@ pub use order::{CandidateSort, SortKey, static_order};
 use order::{
     ORDERS_KEPT, Scratch, id_common_of, id_tie, low_bits_of, sort_keyed, sortable_bits, static_key,
 };
+pub use values::Values;
 
 /// The longest filter or find text, characters (a filter is a line, not a
 /// file; the cap keeps every keystroke's work bounded).
@@ -73,6 +75,11 @@ pub enum Input {
     Notice(String),
     /// The background checks stopped without a result: why.
     ChecksFailed(String),
+    /// The whole catalogue, read after the table (`App::take_values`), or
+    /// why it could not be.
+    Values(Result<std::sync::Arc<Catalogue>, String>),
+    /// Whole percent of the catalogue's second read done so far.
+    ValuesRead(u8),
     /// Light curves checked so far, of how many.
     Progress(usize, usize),
     /// Whole percent of the catalogue checks done so far.
@@ -261,6 +268,10 @@ pub struct App {
     pub help_scroll: usize,
     /// True until the background checks have arrived.
     pub checks_pending: bool,
+    /// True once the checks have failed: no verdict is called validated.
+    pub checks_failed: bool,
+    /// Whether the catalogue's values are in (`App::take_values`).
+    pub values: Values,
     /// The flags the background checks found so far, while they run, and
     /// how many candidates they flag.
     pub flags_so_far: Option<Vec<FlagSet>>,
@@ -351,6 +362,8 @@ impl App {
             signal_view: SignalView::Transit,
             help_scroll: 0,
             checks_pending: false,
+            checks_failed: false,
+            values: Values::In,
             flags_so_far: None,
             flagged_so_far: 0,
             lc_progress: None,
@@ -504,6 +517,7 @@ impl App {
                 &[]
             },
             disagree: &self.disagree,
+            withheld: self.verdicts_withheld(),
         }
     }
 
@@ -600,8 +614,19 @@ impl App {
                 self.lc_progress = Some((done, total));
                 Vec::new()
             }
+            Input::Values(read) => {
+                self.take_values(read);
+                Vec::new()
+            }
+            Input::ValuesRead(percent) => {
+                if let Values::Reading(p) = &mut self.values {
+                    *p = percent;
+                }
+                Vec::new()
+            }
             Input::ChecksFailed(text) => {
                 self.checks_pending = false;
+                self.checks_failed = true;
                 // No flag is shown that the verdicts have not seen.
                 self.flags_so_far = None;
                 self.message = Some(text);
@@ -638,7 +663,8 @@ impl App {
             }
         };
         self.refresh_history(false);
-        if let Some(c) = self.candidate() {
+        // A fold needs the catalogue's values: asked for once they are in.
+        if let Some(c) = self.candidate().filter(|_| self.values == Values::In) {
             if (before != Some(c) || !self.signals.contains_key(&c))
                 && !self.pending.contains(&c)
                 && !self.signals.contains_key(&c)
@@ -648,56 +674,6 @@ impl App {
             }
         }
         effects
-    }
-
-    /// Records the catalogue's sighting in the ledger (`Input::Seen`); a
-    /// changed catalogue, or a sighting that could not be recorded, is said
-    /// on the message line.
-    fn record_sighting(&mut self, seen: Result<(String, String), String>) {
-        let Some(ledger) = self.ledger.as_mut() else {
-            return;
-        };
-        let said = seen.and_then(|(fp, stamp)| {
-            ledger
-                .sighting_note(&self.cat.source, &fp, self.cat.len(), Some(&stamp))
-                .map_err(|e| e.to_string())
-        });
-        match said {
-            Ok(None) => {}
-            Ok(Some(note)) => self.message = Some(note),
-            Err(e) => {
-                self.message = Some(format!(
-                    "the ledger could not record this catalogue's fingerprint: {e}"
-                ))
-            }
-        }
-    }
-
-    /// Reloads the selected star's ledger history when the star changed (or
-    /// when forced, after a decision).
-    fn refresh_history(&mut self, force: bool) {
-        let star = self.star();
-        if !force && star == self.history_of {
-            return;
-        }
-        self.history_of = star;
-        self.history = match (star, self.ledger.as_ref()) {
-            (Some(s), Some(l)) => {
-                let ids: Vec<&str> = self
-                    .cat
-                    .members(s)
-                    .iter()
-                    .map(|&c| self.cat.candidate_id(c))
-                    .collect();
-                let mut h: Vec<crate::ledger::Entry> = Vec::new();
-                for id in ids {
-                    h.extend(l.history(Some(id)).unwrap_or_default());
-                }
-                h.sort_by_key(|e| e.id);
-                h
-            }
-            _ => Vec::new(),
-        };
     }
 
     /// True while any light-curve result is being computed.

@@ -10,7 +10,7 @@ use ratatui::widgets::{
     Axis, Block, Borders, Cell, Chart, Clear, Dataset, GraphType, Paragraph, Row, Table, Wrap,
 };
 
-use super::app::{App, Hits, Mode, Pane, PromptKind, SignalResult};
+use super::app::{App, Hits, Mode, Pane, PromptKind, SignalResult, Values};
 use crate::catalogue::{CandidateId, Field};
 use crate::decision::ALL_REASONS;
 use crate::lightcurve::analysis::{Binned, Views};
@@ -262,6 +262,14 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) -> (Rec
     let (a, z) = window(app.cand_row, members.len(), height);
     let placed = (rows_area(inner), a);
     let v = |f, c| app.cat.value(f, c);
+    // A catalogue value not read yet (the browser's second read) is not a
+    // missing one.
+    let num = |x: Option<f64>, digits: usize| match app.values {
+        Values::In => num(x, digits),
+        Values::Reading(_) if look.ascii => "...".to_string(),
+        Values::Reading(_) => "…".to_string(),
+        Values::Missing => "?".to_string(),
+    };
     // Columns by priority (0 always: id, odds, verdict, decision); as many
     // as fit are shown, in this order. Headers name the filter field and
     // the unit.
@@ -307,8 +315,13 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) -> (Rec
             // Before the checks, no candidate is called validated: the
             // verdict waits for its evidence.
             let (verdict_text, verdict_look) =
-                if app.checks_pending && verdict == Verdict::Validated {
-                    ("checking", style(look, Color::DarkGray))
+                if app.verdicts_withheld() && verdict == Verdict::Validated {
+                    let why = if app.checks_failed {
+                        "unchecked"
+                    } else {
+                        "checking"
+                    };
+                    (why, style(look, Color::DarkGray))
                 } else {
                     (verdict.name(), verdict_style(look, verdict))
                 };
@@ -441,6 +454,13 @@ fn draw_facts(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let inner = b.inner(area);
     frame.render_widget(b, area);
     let Some(c) = app.candidate() else { return };
+    if let Some(why) = values_wait(app) {
+        frame.render_widget(
+            Paragraph::new(spelled(look, why)).wrap(Wrap { trim: true }),
+            inner,
+        );
+        return;
+    }
     let d = crate::checks::derive(&app.cat, c, &Default::default());
     // Why each flag fired first: on a small screen the flags are what a
     // vetter must see; the derived quantities follow.
@@ -548,6 +568,18 @@ fn thousands(n: usize) -> String {
     out
 }
 
+/// What the panes that show catalogue values say while there are none
+/// (`Values`), or `None` once they are in.
+fn values_wait(app: &App) -> Option<String> {
+    match app.values {
+        Values::In => None,
+        Values::Reading(p) => Some(format!(
+            "reading the catalogue's values ({p} %): periods, depths and the checks follow"
+        )),
+        Values::Missing => Some("the catalogue's values could not be read".into()),
+    }
+}
+
 fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
     let c = app.live.counts();
     let m = app.live.model();
@@ -560,9 +592,10 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
                 "" => String::new(),
                 f => format!("filter [{}] · ", clean(f)),
             },
-            match (app.checks_pending, app.lc_progress) {
-                (false, _) => String::new(),
-                (true, None) => match app.flags_so_far {
+            match (app.values, app.checks_pending, app.lc_progress) {
+                (Values::Reading(p), ..) => format!("reading the values: {p} % · "),
+                (_, false, _) => String::new(),
+                (_, true, None) => match app.flags_so_far {
                     Some(_) => format!(
                         "checks running: {} %, {} flagged so far · ",
                         app.checks_percent,
@@ -570,14 +603,14 @@ fn draw_status(app: &App, frame: &mut Frame, area: Rect, look: Look) {
                     ),
                     None => format!("checks running: {} % · ", app.checks_percent),
                 },
-                (true, Some((done, total))) => format!(
+                (_, true, Some((done, total))) => format!(
                     "checks running: light curves {} / {} · ",
                     thousands(done),
                     thousands(total)
                 ),
             },
             // No count of validated candidates before the checks.
-            if app.checks_pending {
+            if app.verdicts_withheld() {
                 "?".to_string()
             } else {
                 c.validated.to_string()

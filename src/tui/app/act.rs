@@ -267,8 +267,11 @@ impl App {
                 }
             }
             Action::WriteFigure => {
-                if self.checks_pending {
-                    // A figure states the verdict: not before its evidence.
+                if self.checks_failed {
+                    // A figure states the verdict: never without its evidence.
+                    self.message =
+                        Some("no figure: the checks could not run, so there is no verdict".into());
+                } else if self.checks_pending {
                     self.message = Some(
                         "the checks are still running: the figure waits for the verdict they give"
                             .into(),

@@ -1,6 +1,8 @@
 //! Decisions from the browser: one candidate or every candidate of the
 //! filter, written to the ledger first (nothing is shown as decided that is
 //! not on disk), then to the live odds; undo and redo as ledger rows too.
+//! And what the ledger says back: the selected star's history, the
+//! catalogue's sighting.
 
 use super::*;
 
@@ -217,5 +219,57 @@ pub(super) fn set_decisions(
     crate::session::link_other_ids(live, cat, decided.iter().copied());
     for &(c, d) in decided {
         live.set_decision(c, d);
+    }
+}
+
+impl App {
+    /// Records the catalogue's sighting in the ledger (`Input::Seen`); a
+    /// changed catalogue, or a sighting that could not be recorded, is said
+    /// on the message line.
+    pub(super) fn record_sighting(&mut self, seen: Result<(String, String), String>) {
+        let Some(ledger) = self.ledger.as_mut() else {
+            return;
+        };
+        let said = seen.and_then(|(fp, stamp)| {
+            ledger
+                .sighting_note(&self.cat.source, &fp, self.cat.len(), Some(&stamp))
+                .map_err(|e| e.to_string())
+        });
+        match said {
+            Ok(None) => {}
+            Ok(Some(note)) => self.message = Some(note),
+            Err(e) => {
+                self.message = Some(format!(
+                    "the ledger could not record this catalogue's fingerprint: {e}"
+                ))
+            }
+        }
+    }
+
+    /// Reloads the selected star's ledger history when the star changed (or
+    /// when forced, after a decision).
+    pub(super) fn refresh_history(&mut self, force: bool) {
+        let star = self.star();
+        if !force && star == self.history_of {
+            return;
+        }
+        self.history_of = star;
+        self.history = match (star, self.ledger.as_ref()) {
+            (Some(s), Some(l)) => {
+                let ids: Vec<&str> = self
+                    .cat
+                    .members(s)
+                    .iter()
+                    .map(|&c| self.cat.candidate_id(c))
+                    .collect();
+                let mut h: Vec<crate::ledger::Entry> = Vec::new();
+                for id in ids {
+                    h.extend(l.history(Some(id)).unwrap_or_default());
+                }
+                h.sort_by_key(|e| e.id);
+                h
+            }
+            _ => Vec::new(),
+        };
     }
 }

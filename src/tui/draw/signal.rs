@@ -14,6 +14,16 @@ pub(super) fn draw_signal(app: &App, frame: &mut Frame, area: Rect, look: Look) 
         frame.render_widget(block(" Signal ".into(), false, look), area);
         return;
     };
+    if let Some(why) = values_wait(app) {
+        let b = block(" Signal ".into(), false, look);
+        let inner = b.inner(area);
+        frame.render_widget(b, area);
+        frame.render_widget(
+            Paragraph::new(spelled(look, why)).wrap(Wrap { trim: true }),
+            inner,
+        );
+        return;
+    }
     let m = crate::lightcurve::model_params(&app.cat, c);
     let (period, dur) = (
         app.cat.value(Field::PeriodD, c).unwrap_or(1.0),

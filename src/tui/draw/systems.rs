@@ -121,7 +121,9 @@ pub(super) fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look)
             ];
             if with_fold {
                 // The model's shape is dimmed: only a measured fold is data.
-                cells.push(match best.map(|c| sparkline(app, c, look)) {
+                // No shape before the catalogue's values are in.
+                let shape = best.filter(|_| app.values == Values::In);
+                cells.push(match shape.map(|c| sparkline(app, c, look)) {
                     Some((line, true)) => Cell::from(line),
                     Some((line, false)) => Cell::from(Span::styled(
                         line,

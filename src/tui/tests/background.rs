@@ -3,6 +3,7 @@
 //! sorted ahead of their first use.
 
 use super::*;
+use crate::tui::app::Values;
 
 /// The demo in the browser before its checks arrive (they run on a
 /// background thread), and those checks.
@@ -129,4 +130,151 @@ fn orders_sorted_in_the_background_are_the_browsers_own() {
         fresh.refresh_view();
         assert_eq!(fresh.stars, order, "{} descending {descending}", key.name());
     }
+}
+
+/// The demo as the browser's first read keeps it (ids, star index, depth:
+/// `LoadOptions::index_only`), in the browser before its values arrive;
+/// and the whole catalogue of the second read.
+fn values_pending() -> (App, crate::catalogue::Catalogue) {
+    use crate::catalogue::{Catalogue, LoadOptions, Source};
+    let source = || Source::Bytes {
+        name: crate::demo::NAME,
+        data: crate::demo::CATALOGUE_CSV.as_bytes(),
+    };
+    let ids = Catalogue::load(
+        source(),
+        &LoadOptions {
+            index_only: true,
+            ..Default::default()
+        },
+    )
+    .unwrap();
+    let whole = Catalogue::load(source(), &LoadOptions::default()).unwrap();
+    let model = Model {
+        targets: Some(crate::demo::DEMO_TARGETS),
+        ..Model::default()
+    };
+    let live = Live::new(&ids, model).unwrap();
+    let n = ids.len();
+    let mut app = App::new(
+        std::sync::Arc::new(ids),
+        live,
+        crate::checks::Checks::none(n),
+        None,
+        "t".into(),
+        Keymap::load(&[]).unwrap(),
+    );
+    app.values = Values::Reading(0);
+    let _ = app.update(Input::ChecksStarted);
+    (app, whole)
+}
+
+#[test]
+fn the_table_opens_on_the_ids_and_takes_the_values_when_they_are_read() {
+    use crate::tui::app::{Effect, SortKey, static_order};
+    let (mut app, whole) = values_pending();
+    // A sort by a value asked for before the values are in.
+    (app.sort, app.descending) = (SortKey::Period, false);
+    app.refresh_view();
+    act(&mut app, Action::NextPane);
+    // No fold is asked for: there is no period to fold on.
+    let moved = app.update(Input::Action(Action::Down));
+    assert!(moved.is_empty(), "{moved:?}");
+    assert!(!app.waiting());
+    let _ = app.update(Input::ValuesRead(40));
+    let s = screen(&app, 120, 30);
+    assert!(s.contains("reading the values: 40 %"), "{s}");
+    assert!(s.contains("reading the catalogue's values (40 %)"), "{s}");
+    // A value not read yet is not a missing one ("-").
+    let row = s.lines().find(|l| l.contains(" open ")).unwrap();
+    assert!(row.contains("..."), "{s}");
+    assert!(!row.contains("validated"), "{s}");
+    let star = app.star();
+    let c = app.candidate().unwrap();
+    let effects = app.update(Input::Values(Ok(std::sync::Arc::new(whole))));
+    assert_eq!(app.values, Values::In);
+    // The same star stays selected, its fold is asked for, and the sort
+    // asked for earlier is the exact one of the values.
+    assert_eq!(app.star(), star);
+    let now = app.candidate().unwrap();
+    assert_eq!(app.cat.star_of(now), app.cat.star_of(c));
+    assert_eq!(effects, vec![Effect::LoadSignal(now)]);
+    assert_eq!(
+        app.stars,
+        static_order(&app.cat, SortKey::Period, false).unwrap()
+    );
+    let s = screen(&app, 120, 30);
+    assert!(!s.contains("values"), "{s}");
+    // The checks still run: the verdicts wait for them.
+    assert!(s.contains("checks running: 0 %"), "{s}");
+    // The checks of the whole catalogue arrive as ever.
+    let checks = crate::checks::run(&app.cat, &Default::default());
+    let _ = app.update(Input::Checks(Box::new(checks)));
+    assert!(!app.verdicts_withheld());
+    assert!(screen(&app, 120, 30).contains("validated"));
+}
+
+#[test]
+fn values_of_other_rows_or_a_failed_read_leave_no_verdict_validated() {
+    use crate::catalogue::{Catalogue, LoadOptions, Source};
+    // The file rewritten between the two reads: one row fewer.
+    let text = crate::demo::CATALOGUE_CSV;
+    let last = text.trim_end().rfind('\n').unwrap() + 1;
+    let shorter = &text[..last];
+    let other = Catalogue::load(
+        Source::Bytes {
+            name: crate::demo::NAME,
+            data: shorter.as_bytes(),
+        },
+        &LoadOptions::default(),
+    )
+    .unwrap();
+    let failed: Result<std::sync::Arc<Catalogue>, String> = Err("disk gone".into());
+    for (read, said) in [
+        (
+            Ok(std::sync::Arc::new(other)),
+            "changed between its two reads",
+        ),
+        (failed, "could not be read: disk gone"),
+    ] {
+        let (mut app, _) = values_pending();
+        let validated = (0..app.cat.len() as u32)
+            .find(|&c| app.live.verdict(c) == crate::odds::Verdict::Validated)
+            .unwrap();
+        let _ = app.update(Input::Values(read));
+        assert_eq!(app.values, Values::Missing);
+        assert!(app.message.as_deref().unwrap().contains(said));
+        assert!(app.verdicts_withheld() && !app.checks_pending);
+        // Nothing that needs a value: no fold, no figure, no verdict.
+        act(&mut app, Action::NextPane);
+        assert!(app.update(Input::Action(Action::Down)).is_empty());
+        act(&mut app, Action::WriteFigure);
+        assert!(app.message.as_deref().unwrap().contains("no figure"));
+        typed_filter(&mut app, "verdict:validated");
+        assert!(app.stars.is_empty());
+        typed_filter(&mut app, "");
+        app.go_to(validated);
+        app.message = None;
+        let s = screen(&app, 120, 30);
+        let row = s
+            .lines()
+            .find(|l| l.contains(app.cat.candidate_id(validated)) && l.contains(" open "))
+            .unwrap();
+        assert!(row.contains("unchecked") && row.contains('?'), "{s}");
+        assert!(s.contains("? validated"), "{s}");
+    }
+}
+
+#[test]
+fn checks_that_failed_leave_no_verdict_validated() {
+    let (mut app, _) = checks_pending();
+    let _ = app.update(Input::ChecksFailed("the checks stopped".into()));
+    assert!(app.verdicts_withheld());
+    typed_filter(&mut app, "verdict:validated");
+    assert!(app.stars.is_empty());
+    typed_filter(&mut app, "!verdict:validated");
+    assert_eq!(app.stars.len(), app.cat.star_count());
+    act(&mut app, Action::NextPane);
+    act(&mut app, Action::WriteFigure);
+    assert!(app.message.as_deref().unwrap().contains("no figure"));
 }

@@ -1,0 +1,227 @@
+//! The browser's work behind the table. First the catalogue's second read
+//! (its values: the first read kept ids only, `app::Values`); once the
+//! values are in, the checks, the light-curve worker and the orders no
+//! decision moves, each on a thread of its own, and their results taken
+//! into the App as they come.
+
+use std::sync::atomic::{AtomicU64, Ordering::Relaxed};
+use std::sync::{Arc, mpsc};
+
+use super::Args;
+use super::app::{self, App, Effect, Input};
+use super::worker::spawn_worker;
+use crate::catalogue::Catalogue;
+
+/// The second read of the catalogue, on its thread.
+pub(super) struct ValuesRead {
+    rx: mpsc::Receiver<Result<Catalogue, String>>,
+    read: Arc<AtomicU64>,
+    total: u64,
+}
+
+impl ValuesRead {
+    /// Reads the whole catalogue on a thread. `stamp` is the file's stamp
+    /// at the first read (when it could be trusted): a file whose stamp is
+    /// another after this read was written meanwhile, and is refused.
+    pub(super) fn start(args: &Args, stamp: Option<String>) -> ValuesRead {
+        let path = args.vetting.input.catalogue.clone();
+        let total = path
+            .as_ref()
+            .and_then(|p| std::fs::metadata(p).ok())
+            .map_or(0, |m| m.len());
+        let read = Arc::new(AtomicU64::new(0));
+        let (tx, rx) = mpsc::channel();
+        let (input, counted) = (args.vetting.input.clone(), Arc::clone(&read));
+        std::thread::spawn(move || {
+            let whole = input.load_values(counted).map_err(|e| e.to_string());
+            let now = path.as_deref().and_then(crate::fingerprint::file_stamp);
+            let _ = tx.send(match (whole, stamp) {
+                (Ok(_), Some(then)) if now.as_deref() != Some(then.as_str()) => {
+                    Err("the catalogue file changed after it was first read; \
+                     restart starsift to read it again"
+                        .into())
+                }
+                (whole, _) => whole,
+            });
+        });
+        ValuesRead { rx, read, total }
+    }
+
+    /// How far the read is, then the catalogue, into the App; true when
+    /// the read is over (values in or not).
+    pub(super) fn poll(&self, app: &mut App, effects: &mut Vec<Effect>) -> bool {
+        match self.rx.try_recv() {
+            Ok(read) => {
+                effects.extend(app.update(Input::Values(read.map(Arc::new))));
+                true
+            }
+            Err(mpsc::TryRecvError::Disconnected) => {
+                effects.extend(app.update(Input::Values(Err(
+                    "the read stopped on an internal error".into(),
+                ))));
+                true
+            }
+            Err(mpsc::TryRecvError::Empty) => {
+                let percent = (100 * self.read.load(Relaxed))
+                    .checked_div(self.total)
+                    .map_or(0, |p| p.min(100) as u8);
+                if app.values != app::Values::Reading(percent) {
+                    effects.extend(app.update(Input::ValuesRead(percent)));
+                }
+                false
+            }
+        }
+    }
+}
+
+/// The threads that need the catalogue's values, and what they send.
+pub(super) struct Running {
+    pub(super) worker: mpsc::Sender<u32>,
+    results: mpsc::Receiver<(u32, app::SignalResult)>,
+    checks: mpsc::Receiver<Checked>,
+    progress: mpsc::Receiver<(usize, usize)>,
+    counted: Arc<crate::checks::CheckProgress>,
+    orders: mpsc::Receiver<Orders>,
+}
+
+/// Every star in the order of each (sort, descending) no decision moves.
+type Orders = Vec<((app::SortKey, bool), Vec<crate::catalogue::StarId>)>;
+
+/// The checks, the odds built with them, and the light curves' run.
+type Checked = (
+    crate::checks::Checks,
+    Result<crate::odds::Live, crate::odds::ModelError>,
+    crate::checks::LightcurveRun,
+);
+
+impl Running {
+    /// Starts the light-curve worker, the checks (and, when asked, the
+    /// light-curve checks) and the static orders on the App's catalogue.
+    pub(super) fn start(app: &App, args: &Args, finder: &crate::lightcurve::Finder) -> Running {
+        let (res_tx, results) = mpsc::channel();
+        let worker = spawn_worker(
+            Arc::clone(&app.cat),
+            finder.clone(),
+            args.vetting.lc.detrend(),
+            res_tx,
+        );
+        let (checks_tx, checks) = mpsc::channel();
+        let counted = Arc::new(crate::checks::CheckProgress::sharing_flags());
+        let (progress_tx, progress) = mpsc::channel();
+        {
+            let cat = Arc::clone(&app.cat);
+            let settings = args.vetting.checks.settings();
+            let lc = args.vetting.lc.clone();
+            let finder = finder.clone();
+            let counted = Arc::clone(&counted);
+            // The odds with the checks are built there too, from the decisions
+            // of now; those made meanwhile are applied when they arrive.
+            let (model, decisions, gone) = (
+                app.live.model().clone(),
+                app::decisions_of(&app.cat, &app.live),
+                app.live.unseen_fps().to_vec(),
+            );
+            std::thread::spawn(move || {
+                let mut checks = crate::checks::run_counted(&cat, &settings, &counted);
+                let run = if lc.wanted() {
+                    crate::checks::run_lightcurves_counted(
+                        &cat,
+                        &finder,
+                        &lc.detrend(),
+                        &mut checks,
+                        |done, total| {
+                            let _ = progress_tx.send((done, total));
+                        },
+                    )
+                } else {
+                    Default::default()
+                };
+                let live = crate::session::odds_with(&cat, model, &checks, decisions, &gone);
+                let _ = checks_tx.send((checks, live, run));
+            });
+        }
+        // The orders no decision moves (by star id, by shortest period), sorted
+        // in the background too, so that the first such sort is not a wait; at
+        // the lowest priority, so that on a machine of few cores they take no
+        // time from the checks (a sort asked for before they arrive is sorted
+        // then).
+        let (orders_tx, orders) = mpsc::channel();
+        {
+            let cat = Arc::clone(&app.cat);
+            std::thread::spawn(move || {
+                crate::parallel::run_when_idle();
+                let orders: Vec<_> = [app::SortKey::Star, app::SortKey::Period]
+                    .into_iter()
+                    .flat_map(|k| [(k, false), (k, true)])
+                    .filter_map(|(k, d)| Some(((k, d), app::static_order(&cat, k, d)?)))
+                    .collect();
+                let _ = orders_tx.send(orders);
+                // And the index of the star ids' other spellings, which the
+                // first search would otherwise build.
+                cat.prepare_spellings();
+            });
+        }
+        Running {
+            worker,
+            results,
+            checks,
+            progress,
+            counted,
+            orders,
+        }
+    }
+
+    /// Takes what the threads sent since the last look into the App;
+    /// true when anything came.
+    pub(super) fn poll(&self, app: &mut App, effects: &mut Vec<Effect>) -> bool {
+        let mut came = false;
+        let percent = self.counted.percent(app.cat.len());
+        if app.checks_pending && app.lc_progress.is_none() && percent != app.checks_percent {
+            effects.extend(app.update(Input::ChecksDone(percent)));
+            came = true;
+        }
+        if let Some(flags) = self.counted.take_flags() {
+            effects.extend(app.update(Input::FlagsSoFar(flags)));
+            came = true;
+        }
+        if let Some((done, total)) = self.progress.try_iter().last() {
+            effects.extend(app.update(Input::Progress(done, total)));
+            came = true;
+        }
+        match self.checks.try_recv() {
+            Ok((checks, live, run)) => {
+                came = true;
+                let note = checks.notes().first().cloned();
+                effects.extend(app.update(Input::ChecksBuilt(Box::new((checks, live)))));
+                if let Some(n) = run.notice {
+                    effects.extend(app.update(Input::Notice(n)));
+                } else if let Some((_, first)) = run.errors.first() {
+                    effects.extend(app.update(Input::Notice(format!(
+                        "{} light curves could not be read (first: {first})",
+                        run.errors.len(),
+                    ))));
+                } else if let Some(n) = note {
+                    effects.extend(app.update(Input::Notice(n)));
+                }
+            }
+            Err(mpsc::TryRecvError::Disconnected) if app.checks_pending => {
+                came = true;
+                effects.extend(app.update(Input::ChecksFailed(
+                    "the checks stopped on an internal error: flags and verdicts are not shown; \
+                     run `starsift checks` on this catalogue to see the error"
+                        .into(),
+                )));
+            }
+            Err(_) => {}
+        }
+        if let Ok(orders) = self.orders.try_recv() {
+            effects.extend(app.update(Input::Orders(orders)));
+            came = true;
+        }
+        while let Ok((c, r)) = self.results.try_recv() {
+            effects.extend(app.update(Input::Signal(c, Box::new(r))));
+            came = true;
+        }
+        came
+    }
+}
