@@ -7,7 +7,9 @@
 # CANDIDATES defaults to 1000000 (bench-data/big-N.csv, written on first
 # use). Prints the seconds from the start to the first frame showing the
 # load's progress, to the table of systems (usable: keys move), to the
-# first flags shown (a stage of the background checks finished: "N flagged
+# catalogue's values in (the table opens on the ids; the values follow in a
+# second read: "reading the values" gone), to the first flags shown (a stage
+# of the background checks finished: "N flagged
 # so far"), and to the end of the checks (flags all filled in), with the peak memory
 # of the browser, and the time and memory of `summary`.
 set -euo pipefail
@@ -30,7 +32,11 @@ table=$(ms)
 pid=$(pgrep -n -f "$bin $cat" || true)
 peak=0
 some=""
-while screen=$(tmux capture-pane -p -t "$s") && grep -q "checks running" <<<"$screen"; do
+values=""
+while screen=$(tmux capture-pane -p -t "$s") && grep -qE "checks running|reading the values" <<<"$screen"; do
+  if [ -z "$values" ] && ! grep -q "reading the values" <<<"$screen"; then
+    values=$(ms)
+  fi
   if [ -z "$some" ] && grep -q "flagged so far" <<<"$screen"; then
     some=$(ms)
   fi
@@ -46,11 +52,12 @@ if [ -n "$pid" ]; then
   [ "${kb:-0}" -gt "$peak" ] && peak=$kb
 fi
 read -r ss skb <"$tmpd/summary"
-awk -v n="$n" -v f="$first" -v t="$table" -v g="$flags" -v p="$peak" -v ss="$ss" -v skb="$skb" -v so="${some:--1}" 'BEGIN {
+awk -v n="$n" -v f="$first" -v t="$table" -v g="$flags" -v p="$peak" -v ss="$ss" -v skb="$skb" -v so="${some:--1}" -v va="${values:--1}" 'BEGIN {
   printf "%d candidates\n", n
   printf "summary                       %6.2f s  %6.0f MB\n", ss, skb / 1024
   printf "browser: progress line shown  %6.2f s\n", f / 1000
   printf "browser: table of systems     %6.2f s  (%.2fx summary)\n", t / 1000, t / 1000 / ss
+  if (va >= 0) printf "browser: values in            %6.2f s\n", va / 1000
   if (so >= 0) printf "browser: first flags shown    %6.2f s\n", so / 1000
   printf "browser: every flag filled in %6.2f s  %6.0f MB peak (%.2fx summary)\n", g / 1000, p / 1024, p / skb
 }'

@@ -122,8 +122,8 @@ struct Built {
     finder: crate::lightcurve::Finder,
     /// A catalogue new to the ledger, to hash in the background.
     unseen: Option<Unseen>,
-    /// The file's stamp at the read, when it could be trusted.
-    stamp: Option<String>,
+    /// The second read, of the values, when the first kept ids only.
+    values: Option<background::ValuesRead>,
 }
 
 /// A catalogue the ledger has yet to record (`Loaded::sighting_deferred`):
@@ -185,7 +185,8 @@ fn build_app_counting(
     // The same odds as every command's session; the checks arrive later.
     let live =
         crate::session::odds_of(cat, model.model(&loaded.survey)?, &checks, latest.as_ref())?;
-    let stamp = loaded.stamp.clone();
+    // The values are read at once, behind the table being built.
+    let values = counting.then(|| background::ValuesRead::start(args, loaded.stamp.clone()));
     let mut app = App::new(
         Arc::new(loaded.catalogue),
         live,
@@ -209,7 +210,7 @@ fn build_app_counting(
         app,
         finder,
         unseen,
-        stamp,
+        values,
     })
 }
 
@@ -461,8 +462,8 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     let Built {
         mut app,
         finder,
-        unseen,
-        stamp,
+        mut unseen,
+        mut values,
     } = match built {
         Ok(Some(b)) => b,
         Ok(None) => return Ok(()),
@@ -480,22 +481,9 @@ pub fn run(args: &Args) -> Result<(), CliError> {
     // The values (the first read kept ids only), then what needs them:
     // the checks, the light-curve worker, the orders. The verdicts wait
     // for the checks from the first frame on.
-    let values = background::ValuesRead::start(args, stamp);
     let mut running: Option<background::Running> = None;
     let mut effects = app.update(Input::ChecksStarted);
-    // A catalogue new to the ledger is hashed for its sighting here, not
-    // before the table: at the lowest priority, then recorded if the file
-    // is as it was read (the same stamp); else the next start records it.
     let (seen_tx, seen_rx) = mpsc::channel();
-    if let Some(Unseen { path, stamp }) = unseen {
-        std::thread::spawn(move || {
-            crate::parallel::run_when_idle();
-            let fp = crate::ledger::fingerprint_file(&path);
-            if crate::fingerprint::file_stamp(&path).as_deref() == Some(stamp.as_str()) {
-                let _ = seen_tx.send(fp.map(|fp| (fp, stamp)));
-            }
-        });
-    }
     // SIGTERM, SIGHUP (a lost terminal) and SIGINT end the browser the
     // normal way: terminal restored, place saved. Ctrl-C in raw mode is a
     // key, which `quit` handles.
@@ -574,10 +562,32 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             Some(r) => dirty |= r.poll(&mut app, &mut effects),
             None => {
                 let before = app.values;
-                if values.poll(&mut app, &mut effects) && app.values == app::Values::In {
-                    running = Some(background::Running::start(&app, args, &finder));
+                if values
+                    .as_ref()
+                    .is_some_and(|v| v.poll(&mut app, &mut effects))
+                {
+                    values = None;
                 }
                 dirty |= app.values != before;
+                if app.values == app::Values::In {
+                    running = Some(background::Running::start(&app, args, &finder));
+                    // A catalogue new to the ledger is hashed for its
+                    // sighting here, not before the table: at the lowest
+                    // priority, then recorded if the file is as it was read
+                    // (the same stamp); else the next start records it.
+                    if let Some(Unseen { path, stamp }) = unseen.take() {
+                        let seen_tx = seen_tx.clone();
+                        std::thread::spawn(move || {
+                            crate::parallel::run_when_idle();
+                            let fp = crate::ledger::fingerprint_file(&path);
+                            if crate::fingerprint::file_stamp(&path).as_deref()
+                                == Some(stamp.as_str())
+                            {
+                                let _ = seen_tx.send(fp.map(|fp| (fp, stamp)));
+                            }
+                        });
+                    }
+                }
             }
         }
         if let Ok(seen) = seen_rx.try_recv() {

@@ -20,7 +20,9 @@ pub(super) struct ValuesRead {
 }
 
 impl ValuesRead {
-    /// Reads the whole catalogue on a thread. `stamp` is the file's stamp
+    /// Reads the whole catalogue on a thread, at the lowest priority: it
+    /// starts as the first read ends and takes only the time that building
+    /// the table leaves idle, then all of it. `stamp` is the file's stamp
     /// at the first read (when it could be trusted): a file whose stamp is
     /// another after this read was written meanwhile, and is refused.
     pub(super) fn start(args: &Args, stamp: Option<String>) -> ValuesRead {
@@ -33,6 +35,8 @@ impl ValuesRead {
         let (tx, rx) = mpsc::channel();
         let (input, counted) = (args.vetting.input.clone(), Arc::clone(&read));
         std::thread::spawn(move || {
+            // The loader's threads, started from this one, inherit it.
+            crate::parallel::run_when_idle();
             let whole = input.load_values(counted).map_err(|e| e.to_string());
             let now = path.as_deref().and_then(crate::fingerprint::file_stamp);
             let _ = tx.send(match (whole, stamp) {

@@ -33,6 +33,19 @@ impl App {
         }
         let why = match read {
             Ok(cat) if cat.same_rows(&self.cat) => {
+                // What the loader says of the values (placeholders read as
+                // unknown, units), which the ids' read could not say.
+                let said = self.cat.load_warnings();
+                let new: Vec<String> = (cat.load_warnings().into_iter())
+                    .filter(|w| !said.contains(w))
+                    .collect();
+                if !new.is_empty() {
+                    let new = new.join("; ");
+                    self.message = Some(match self.message.take() {
+                        Some(m) => format!("{m} · {new}"),
+                        None => new,
+                    });
+                }
                 self.cat = cat;
                 self.values = Values::In;
                 // What was computed from the values' absence.

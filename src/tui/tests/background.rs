@@ -136,10 +136,15 @@ fn orders_sorted_in_the_background_are_the_browsers_own() {
 /// `LoadOptions::index_only`), in the browser before its values arrive;
 /// and the whole catalogue of the second read.
 fn values_pending() -> (App, crate::catalogue::Catalogue) {
+    values_pending_of(crate::demo::CATALOGUE_CSV)
+}
+
+/// [`values_pending`] on a catalogue's text.
+fn values_pending_of(text: &str) -> (App, crate::catalogue::Catalogue) {
     use crate::catalogue::{Catalogue, LoadOptions, Source};
     let source = || Source::Bytes {
-        name: crate::demo::NAME,
-        data: crate::demo::CATALOGUE_CSV.as_bytes(),
+        name: "catalogue.csv",
+        data: text.as_bytes(),
     };
     let ids = Catalogue::load(
         source(),
@@ -277,4 +282,20 @@ fn checks_that_failed_leave_no_verdict_validated() {
     act(&mut app, Action::NextPane);
     act(&mut app, Action::WriteFigure);
     assert!(app.message.as_deref().unwrap().contains("no figure"));
+}
+
+#[test]
+fn what_the_loader_says_of_the_values_is_said_when_they_arrive() {
+    // A stellar radius of 0 is a placeholder, read as unknown: a note only
+    // the read of the values can make.
+    let text = "star,candidate,period,epoch,depth,duration,star_radius\n\
+                ZZ1,ZZ1-a,3,1,100,2,0\nZZ2,ZZ2-a,5,1,200,3,1.1\n";
+    let (mut app, whole) = values_pending_of(text);
+    assert!(app.cat.load_warnings().is_empty());
+    app.message = Some("the ledger's word".into());
+    let _ = app.update(Input::Values(Ok(std::sync::Arc::new(whole))));
+    assert_eq!(app.values, Values::In);
+    let said = app.message.as_deref().unwrap();
+    assert!(said.starts_with("the ledger's word · 1 "), "{said}");
+    assert!(said.contains("read as unknown"), "{said}");
 }
