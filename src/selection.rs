@@ -117,6 +117,20 @@ pub fn needs_radii(filter: &Filter) -> bool {
         .any(|c| matches!(c, Clause::Compare(NumField::Radius, ..)))
 }
 
+/// Whether a filter reads the catalogue's values (a column, or the planet
+/// radius made from them), which the browser reads after the ids.
+pub fn reads_values(filter: &Filter) -> bool {
+    filter.clauses.iter().any(|c| {
+        matches!(c, Clause::Compare(f, ..) if *f == NumField::Radius || column_field(*f).is_some())
+    })
+}
+
+/// Whether a filter reads what the checks give (a flag, a verdict), which
+/// the browser has only once they have run.
+pub fn reads_checks(filter: &Filter) -> bool {
+    (filter.clauses.iter()).any(|c| matches!(c, Clause::Flag(..) | Clause::Verdict(..)))
+}
+
 /// The catalogue column a numeric filter field reads, if it is one.
 pub fn column_field(f: NumField) -> Option<Field> {
     Some(match f {

@@ -257,11 +257,26 @@ impl App {
             Action::ShowLedger => self.show_ledger = !self.show_ledger,
             Action::SignalView => self.signal_view = self.signal_view.next(),
             Action::ApplyToFilter => {
+                // What the filter matches must be what it will match: not
+                // on values or checks yet to come.
+                let waits = if self.values != Values::In
+                    && crate::selection::reads_values(&self.filter)
+                {
+                    Some("catalogue values, which are not read yet")
+                } else if self.verdicts_withheld() && crate::selection::reads_checks(&self.filter) {
+                    Some("flags or verdicts, which the checks have not given yet")
+                } else {
+                    None
+                };
                 if self.filter.is_empty() {
                     self.message = Some(
                         "set a filter first: a decision applies to every candidate it matches"
                             .into(),
                     );
+                } else if let Some(what) = waits {
+                    self.message = Some(format!(
+                        "the filter reads {what}: a decision for all it matches waits for them"
+                    ));
                 } else {
                     self.mode = Mode::Bulk;
                 }

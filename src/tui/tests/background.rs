@@ -299,3 +299,44 @@ fn what_the_loader_says_of_the_values_is_said_when_they_arrive() {
     assert!(said.starts_with("the ledger's word · 1 "), "{said}");
     assert!(said.contains("read as unknown"), "{said}");
 }
+
+#[test]
+fn a_decision_for_a_whole_filter_waits_for_what_the_filter_reads() {
+    let (mut app, whole) = values_pending();
+    let checks = crate::checks::run(&whole, &Default::default());
+    // A clause on a value not read yet would match none (or, negated, all).
+    for (filter, waits) in [
+        ("period<3", Some("not read yet")),
+        ("radius>2", Some("not read yet")),
+        ("flag:crowded", Some("checks have not given")),
+        ("verdict:likely", Some("checks have not given")),
+        ("k=3 decision:open", None),
+    ] {
+        typed_filter(&mut app, filter);
+        app.message = None;
+        act(&mut app, Action::ApplyToFilter);
+        match waits {
+            Some(why) => {
+                assert_eq!(app.mode, Mode::Normal, "{filter}");
+                assert!(app.message.as_deref().unwrap().contains(why), "{filter}");
+            }
+            None => {
+                assert_eq!(app.mode, Mode::Bulk, "{filter}");
+                act(&mut app, Action::Close);
+            }
+        }
+    }
+    // Once the values are in, a value clause may decide; a flag waits for
+    // the checks, then may too.
+    let _ = app.update(Input::Values(Ok(std::sync::Arc::new(whole))));
+    typed_filter(&mut app, "period<3");
+    act(&mut app, Action::ApplyToFilter);
+    assert_eq!(app.mode, Mode::Bulk);
+    act(&mut app, Action::Close);
+    typed_filter(&mut app, "flag:crowded");
+    act(&mut app, Action::ApplyToFilter);
+    assert_eq!(app.mode, Mode::Normal);
+    let _ = app.update(Input::Checks(Box::new(checks)));
+    act(&mut app, Action::ApplyToFilter);
+    assert_eq!(app.mode, Mode::Bulk);
+}
