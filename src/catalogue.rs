@@ -152,14 +152,16 @@ impl StarIndex {
 pub struct Catalogue {
     /// Where it came from, as given (a path, or `built-in demo`).
     pub source: String,
-    candidates: StrPool,
-    stars: StrPool,
+    // The ids are shared (`Arc`) with a second read of the same rows
+    // (`LoadOptions::ids_from`).
+    candidates: Arc<StrPool>,
+    stars: Arc<StrPool>,
     index: Arc<StarIndex>,
     num: Vec<Option<Vec<f64>>>,
     lightcurve: Option<StrPool>,
     extras: Vec<(String, StrPool)>,
-    candidate_lookup: load::IdIndex,
-    star_lookup: load::IdIndex,
+    candidate_lookup: Arc<load::IdIndex>,
+    star_lookup: Arc<load::IdIndex>,
     hasher: hashbrown::DefaultHashBuilder,
     /// Which header fed which field, in which unit.
     pub columns: Vec<ColumnUse>,

@@ -177,24 +177,18 @@ fn build_app_counting(
         let (l, notes) = ledger_args.open_noting(input, &loaded)?;
         (Some(l), notes, None)
     };
-    let cat = &loaded.catalogue;
+    let model = model.model(&loaded.survey)?;
+    let stamp = loaded.stamp.clone();
+    let cat = Arc::new(loaded.catalogue);
+    // The values are read at once, behind the table being built.
+    let values = counting.then(|| background::ValuesRead::start(args, stamp, Arc::clone(&cat)));
     let latest = match &ledger {
         Some(l) => Some(l.latest(ledger_args.vetter.as_deref())?),
         None => None,
     };
     // The same odds as every command's session; the checks arrive later.
-    let live =
-        crate::session::odds_of(cat, model.model(&loaded.survey)?, &checks, latest.as_ref())?;
-    // The values are read at once, behind the table being built.
-    let values = counting.then(|| background::ValuesRead::start(args, loaded.stamp.clone()));
-    let mut app = App::new(
-        Arc::new(loaded.catalogue),
-        live,
-        checks,
-        ledger,
-        ledger_args.vetter(),
-        keymap,
-    );
+    let live = crate::session::odds_of(&cat, model, &checks, latest.as_ref())?;
+    let mut app = App::new(cat, live, checks, ledger, ledger_args.vetter(), keymap);
     app.message = skipped_message(&app.cat)
         .into_iter()
         .chain(notes)

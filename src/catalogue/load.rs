@@ -59,6 +59,11 @@ pub struct LoadOptions {
     /// Per header column, the unit the table's own header states (IPAC,
     /// VOTable, FITS, ECSV); set by the format readers, empty for CSV.
     pub header_units: Vec<String>,
+    /// A catalogue read from the same file before with `index_only` (the
+    /// browser's table): when this read's rows name the same candidates
+    /// and stars row by row, its ids and grouping are taken as they are
+    /// (shared, not grouped again); else the rows are grouped as ever.
+    pub ids_from: Option<std::sync::Arc<Catalogue>>,
     /// The FITS extension holding the catalogue (default: the first table).
     pub hdu: Option<String>,
     /// Bytes of the file read so far, for a progress display.

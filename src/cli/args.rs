@@ -494,6 +494,7 @@ impl CatalogueArgs {
             index_only: false,
             header_units: Vec::new(),
             hdu: self.table_hdu.clone(),
+            ids_from: None,
             progress: None,
             fingerprint: None,
         })
@@ -547,14 +548,18 @@ impl CatalogueArgs {
 
     /// The browser's second read: the whole catalogue, counting the bytes
     /// read into `read`, with nothing said on stderr (the browser's screen
-    /// is in front of it). Whoever shows it checks that it holds the rows
-    /// of the first read (`Catalogue::same_rows`).
+    /// is in front of it), its ids shared with the first read's `ids` when
+    /// its rows name the same (`LoadOptions::ids_from`). Whoever shows it
+    /// checks that it holds the rows of the first read
+    /// (`Catalogue::same_rows`).
     pub fn load_values(
         &self,
         read: std::sync::Arc<std::sync::atomic::AtomicU64>,
+        ids: std::sync::Arc<Catalogue>,
     ) -> Result<Catalogue, CliError> {
         let opts = LoadOptions {
             progress: Some(read),
+            ids_from: Some(ids),
             ..self.options()?
         };
         Ok(self.load_with(opts)?.catalogue)

@@ -25,7 +25,9 @@ impl ValuesRead {
     /// the table leaves idle, then all of it. `stamp` is the file's stamp
     /// at the first read (when it could be trusted): a file whose stamp is
     /// another after this read was written meanwhile, and is refused.
-    pub(super) fn start(args: &Args, stamp: Option<String>) -> ValuesRead {
+    /// The read takes the ids of `ids` (the first read's catalogue) when
+    /// its rows name the same candidates and stars (`LoadOptions::ids_from`).
+    pub(super) fn start(args: &Args, stamp: Option<String>, ids: Arc<Catalogue>) -> ValuesRead {
         let path = args.vetting.input.catalogue.clone();
         let total = path
             .as_ref()
@@ -37,7 +39,7 @@ impl ValuesRead {
         std::thread::spawn(move || {
             // The loader's threads, started from this one, inherit it.
             crate::parallel::run_when_idle();
-            let whole = input.load_values(counted).map_err(|e| e.to_string());
+            let whole = input.load_values(counted, ids).map_err(|e| e.to_string());
             let now = path.as_deref().and_then(crate::fingerprint::file_stamp);
             let _ = tx.send(match (whole, stamp) {
                 (Ok(_), Some(then)) if now.as_deref() != Some(then.as_str()) => {

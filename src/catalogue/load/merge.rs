@@ -2,6 +2,7 @@
 //! star index, the columns, the unit of depth, the catalogue itself.
 
 use super::*;
+use std::sync::Arc;
 
 /// Takes parts in file order and appends them; duplicates and star ids are
 /// resolved once at the end, by sorting hashes, which is far cheaper than a
@@ -233,117 +234,24 @@ impl Merger {
         if self.lines.is_empty() && self.skipped.is_empty() {
             return Err(LoadError::NoRows { path: self.name });
         }
-        // Rows that name no star: their family's star, else their own.
-        let written = std::mem::take(&mut self.hostless_written);
-        let hostless_note = self.place_hostless(&written, self.hostless, self.zeros);
-        // Candidate ids and star ids are grouped by hash on two threads at
-        // once, then checked by text on both (star ids repeat: most of the
-        // work). Duplicate ids are rare; when there are some, their rows go
-        // and the stars are grouped again without them.
-        let (cands, stars) = std::thread::scope(|s| {
-            let stars = s.spawn(|| Grouped::new(&self.star_hash));
-            let cands = Grouped::new(&self.candidate_hash);
-            let stars = stars
-                .join()
-                .unwrap_or_else(|e| std::panic::resume_unwind(e));
-            (cands, stars)
-        });
-        let (cand_ids, star_ids) = (&self.candidates, &self.row_stars);
-        let same_cand = |a: u32, b: u32| cand_ids.get(a as usize) == cand_ids.get(b as usize);
-        let same_star = |a: u32, b: u32| star_ids.get(a as usize) == star_ids.get(b as usize);
-        let cands_off = all_blocks(self.candidate_hash.len(), |r| {
-            cands.disagreeing(r, &same_cand)
-        });
-        let stars_off = all_blocks(self.star_hash.len(), |r| stars.disagreeing(r, &same_star));
-        let (candidate_lookup, first_of) =
-            cands.settle(&cands_off, &self.candidate_hash, same_cand);
-        let grouping = StarGrouping::number(stars.settle(&stars_off, &self.star_hash, same_star));
-        let mut dups = repeats(&first_of);
-        drop(first_of);
-        let mut candidate_lookup = candidate_lookup;
-        let mut id_note = None;
-        if self.numbered_per_star(&dups) {
-            // Ids that number the candidates of each star (`1`, `2`, or
-            // `b`, `c`): the star's id and its own make one.
-            let n = self.candidates.len();
-            let mut ids = StrPool::with_capacity(
-                n,
-                self.candidates.byte_len() + self.row_stars.byte_len() + n,
-            );
-            let mut id = String::new();
-            for r in 0..n {
-                id.clear();
-                id.push_str(self.row_stars.get(r));
-                id.push('/');
-                id.push_str(self.candidates.get(r));
-                ids.push(&id);
-            }
-            self.candidate_hash = (0..n)
-                .map(|r| self.hasher.hash_one(ids.get(r).as_bytes()))
-                .collect();
-            self.candidates = ids;
-            let cands = &self.candidates;
-            let (lookup, first_of) = IdIndex::build(&self.candidate_hash, |a, b| {
-                cands.get(a as usize) == cands.get(b as usize)
-            });
-            candidate_lookup = lookup;
-            id_note = Some(format!(
-                "candidate ids repeat across stars ({} rows): read as numbered per star, each candidate named `star/id`",
-                dups.len()
-            ));
-            dups = repeats(&first_of);
-        }
-        let (candidate_lookup, grouping) = if dups.is_empty() {
-            (candidate_lookup, grouping)
-        } else {
-            self.remove_rows(&dups);
-            let cands = &self.candidates;
-            let (ids, _) = IdIndex::build(&self.candidate_hash, |a, b| {
-                cands.get(a as usize) == cands.get(b as usize)
-            });
-            (ids, StarGrouping::build(&self.row_stars, &self.star_hash))
-        };
-        // One star written several ways is one star (`TIC 100`, `TIC100`).
-        let mut notes: Vec<String> = hostless_note.into_iter().chain(id_note).collect();
-        let grouping = match self.join_spellings(&grouping.first_rows, &grouping.star_of) {
-            Some(note) => {
-                notes.push(note);
-                StarGrouping::build(&self.row_stars, &self.star_hash)
-            }
-            None => grouping,
+        // A second read of the rows of an earlier one (the browser's read
+        // of the values) takes its ids as they are; anything else groups
+        // its own.
+        let ids = match opts.ids_from.as_deref() {
+            Some(first) if self.names_as(first) => Ids::of(first),
+            _ => self.group_ids(),
         };
         let Merger {
             name,
-            mut candidates,
-            row_stars,
             num: parsed,
             mut lightcurve,
             extras,
-            hasher,
             mut skipped,
             rows_seen,
             durations,
             ..
         } = self;
-        let StarGrouping {
-            star_of,
-            first_rows,
-            lookup: star_lookup,
-        } = grouping;
-        // The stars' ids and the star → members rows, on two threads.
-        let (stars, (member_start, members)) = std::thread::scope(|s| {
-            let ids = s.spawn(|| {
-                let mut stars = StrPool::with_capacity(first_rows.len(), row_stars.byte_len() / 2);
-                for &r in &first_rows {
-                    stars.push(row_stars.get(r as usize));
-                }
-                stars
-            });
-            let members = star_members(&star_of, first_rows.len());
-            let stars = ids.join().unwrap_or_else(|e| std::panic::resume_unwind(e));
-            (stars, members)
-        });
-        drop(row_stars);
+        let mut notes = ids.notes.clone();
         // Duplicates were found after their chunk's own skips: restore file order.
         skipped.sort_by_key(|s| s.line);
         let mut num: Vec<Option<Vec<f64>>> = vec![None; NUMERIC.len()];
@@ -509,7 +417,6 @@ impl Merger {
                 how: format!("also names {f}, which another column feeds; kept as an extra column"),
             });
         }
-        candidates.shrink_to_fit();
         for v in num.iter_mut().flatten() {
             if v.capacity() > v.len() + v.len() / 8 {
                 v.shrink_to_fit();
@@ -521,19 +428,15 @@ impl Merger {
         let extra_names = mapping.extras.iter().map(|(_, h)| h.clone());
         Ok(Catalogue {
             source: name,
-            candidates,
-            stars,
-            index: std::sync::Arc::new(crate::catalogue::StarIndex {
-                star_of,
-                member_start,
-                members,
-            }),
+            candidates: ids.candidates,
+            stars: ids.stars,
+            index: ids.index,
             num,
             lightcurve,
             extras: extra_names.zip(extras).collect(),
-            candidate_lookup,
-            star_lookup,
-            hasher,
+            candidate_lookup: ids.candidate_lookup,
+            star_lookup: ids.star_lookup,
+            hasher: ids.hasher,
             columns,
             skipped,
             notes,
@@ -542,6 +445,173 @@ impl Merger {
             rows_seen,
             format: TableFormat::Delimited.name(),
         })
+    }
+}
+
+/// A catalogue's ids and what groups them: the candidates' and stars'
+/// ids, the star index, the lookups and the hasher they were built with,
+/// shared (`Arc`) between two reads of the same rows; and what the
+/// grouping said (`Catalogue::notes`).
+pub(super) struct Ids {
+    candidates: Arc<StrPool>,
+    stars: Arc<StrPool>,
+    index: Arc<crate::catalogue::StarIndex>,
+    candidate_lookup: Arc<IdIndex>,
+    star_lookup: Arc<IdIndex>,
+    hasher: hashbrown::DefaultHashBuilder,
+    notes: Vec<String>,
+}
+
+impl Ids {
+    /// The ids of `first`, shared.
+    fn of(first: &Catalogue) -> Ids {
+        Ids {
+            candidates: Arc::clone(&first.candidates),
+            stars: Arc::clone(&first.stars),
+            index: first.index(),
+            candidate_lookup: Arc::clone(&first.candidate_lookup),
+            star_lookup: Arc::clone(&first.star_lookup),
+            hasher: first.hasher,
+            notes: Vec::new(),
+        }
+    }
+}
+
+impl Merger {
+    /// Whether the rows read name what `first`'s rows name, row by row:
+    /// as many rows, each with `first`'s candidate id and star id as
+    /// written. Then the ids' work would group them as `first` is grouped
+    /// (it is a function of the ids' text and order alone), and `first`'s
+    /// grouping is taken. A row `first` dropped as a duplicate, placed on
+    /// another star (no star named; a star written several ways) or named
+    /// `star/id` makes them differ, and the rows are grouped anew.
+    fn names_as(&self, first: &Catalogue) -> bool {
+        let n = self.candidates.len();
+        n == first.len()
+            && self.row_stars.len() == n
+            && self.candidates == *first.candidates
+            && (0..n).all(|r| self.row_stars.get(r) == first.star_id(first.star_of(r as u32)))
+    }
+
+    /// Groups the rows by their ids: rows that name no star placed,
+    /// duplicate ids removed (with a skip each), ids numbered per star
+    /// named `star/id`, spellings of one star joined; the stars' ids and
+    /// the star index built. Takes the ids out of the merger.
+    fn group_ids(&mut self) -> Ids {
+        // Rows that name no star: their family's star, else their own.
+        let written = std::mem::take(&mut self.hostless_written);
+        let hostless_note = self.place_hostless(&written, self.hostless, self.zeros);
+        // Candidate ids and star ids are grouped by hash on two threads at
+        // once, then checked by text on both (star ids repeat: most of the
+        // work). Duplicate ids are rare; when there are some, their rows go
+        // and the stars are grouped again without them.
+        let (cands, stars) = std::thread::scope(|s| {
+            let stars = s.spawn(|| Grouped::new(&self.star_hash));
+            let cands = Grouped::new(&self.candidate_hash);
+            let stars = stars
+                .join()
+                .unwrap_or_else(|e| std::panic::resume_unwind(e));
+            (cands, stars)
+        });
+        let (cand_ids, star_ids) = (&self.candidates, &self.row_stars);
+        let same_cand = |a: u32, b: u32| cand_ids.get(a as usize) == cand_ids.get(b as usize);
+        let same_star = |a: u32, b: u32| star_ids.get(a as usize) == star_ids.get(b as usize);
+        let cands_off = all_blocks(self.candidate_hash.len(), |r| {
+            cands.disagreeing(r, &same_cand)
+        });
+        let stars_off = all_blocks(self.star_hash.len(), |r| stars.disagreeing(r, &same_star));
+        let (candidate_lookup, first_of) =
+            cands.settle(&cands_off, &self.candidate_hash, same_cand);
+        let grouping = StarGrouping::number(stars.settle(&stars_off, &self.star_hash, same_star));
+        let mut dups = repeats(&first_of);
+        drop(first_of);
+        let mut candidate_lookup = candidate_lookup;
+        let mut id_note = None;
+        if self.numbered_per_star(&dups) {
+            // Ids that number the candidates of each star (`1`, `2`, or
+            // `b`, `c`): the star's id and its own make one.
+            let n = self.candidates.len();
+            let mut ids = StrPool::with_capacity(
+                n,
+                self.candidates.byte_len() + self.row_stars.byte_len() + n,
+            );
+            let mut id = String::new();
+            for r in 0..n {
+                id.clear();
+                id.push_str(self.row_stars.get(r));
+                id.push('/');
+                id.push_str(self.candidates.get(r));
+                ids.push(&id);
+            }
+            self.candidate_hash = (0..n)
+                .map(|r| self.hasher.hash_one(ids.get(r).as_bytes()))
+                .collect();
+            self.candidates = ids;
+            let cands = &self.candidates;
+            let (lookup, first_of) = IdIndex::build(&self.candidate_hash, |a, b| {
+                cands.get(a as usize) == cands.get(b as usize)
+            });
+            candidate_lookup = lookup;
+            id_note = Some(format!(
+                "candidate ids repeat across stars ({} rows): read as numbered per star, each candidate named `star/id`",
+                dups.len()
+            ));
+            dups = repeats(&first_of);
+        }
+        let (candidate_lookup, grouping) = if dups.is_empty() {
+            (candidate_lookup, grouping)
+        } else {
+            self.remove_rows(&dups);
+            let cands = &self.candidates;
+            let (ids, _) = IdIndex::build(&self.candidate_hash, |a, b| {
+                cands.get(a as usize) == cands.get(b as usize)
+            });
+            (ids, StarGrouping::build(&self.row_stars, &self.star_hash))
+        };
+        // One star written several ways is one star (`TIC 100`, `TIC100`).
+        let mut notes: Vec<String> = hostless_note.into_iter().chain(id_note).collect();
+        let grouping = match self.join_spellings(&grouping.first_rows, &grouping.star_of) {
+            Some(note) => {
+                notes.push(note);
+                StarGrouping::build(&self.row_stars, &self.star_hash)
+            }
+            None => grouping,
+        };
+        let row_stars = std::mem::take(&mut self.row_stars);
+        let mut candidates = std::mem::take(&mut self.candidates);
+        let StarGrouping {
+            star_of,
+            first_rows,
+            lookup: star_lookup,
+        } = grouping;
+        // The stars' ids and the star → members rows, on two threads.
+        let (stars, (member_start, members)) = std::thread::scope(|s| {
+            let ids = s.spawn(|| {
+                let mut stars = StrPool::with_capacity(first_rows.len(), row_stars.byte_len() / 2);
+                for &r in &first_rows {
+                    stars.push(row_stars.get(r as usize));
+                }
+                stars
+            });
+            let members = star_members(&star_of, first_rows.len());
+            let stars = ids.join().unwrap_or_else(|e| std::panic::resume_unwind(e));
+            (stars, members)
+        });
+        drop(row_stars);
+        candidates.shrink_to_fit();
+        Ids {
+            candidates: Arc::new(candidates),
+            stars: Arc::new(stars),
+            index: Arc::new(crate::catalogue::StarIndex {
+                star_of,
+                member_start,
+                members,
+            }),
+            candidate_lookup: Arc::new(candidate_lookup),
+            star_lookup: Arc::new(star_lookup),
+            hasher: self.hasher,
+            notes,
+        }
     }
 }
 

@@ -556,3 +556,91 @@ fn a_star_is_found_by_another_spelling_among_thousands() {
     assert_eq!(cat.find_star("tic-6000"), None);
     assert_eq!(cat.find_star("KIC 12"), None);
 }
+
+/// A second read given the first read's ids (`LoadOptions::ids_from`, the
+/// browser's read of the values) is the catalogue a plain read makes, in
+/// everything it holds; it shares the first read's ids when its rows name
+/// the same, and groups its own otherwise (a duplicate dropped, a star
+/// written two ways, a row naming no star).
+#[test]
+fn a_read_given_the_ids_of_a_first_read_is_a_plain_read() {
+    let demo = crate::demo::CATALOGUE_CSV;
+    let head = "star,candidate,period,epoch,depth,duration,star_radius\n";
+    let duplicate =
+        format!("{head}A1,A1-a,3,1,100,2,1\nA1,A1-a,3,1,100,2,1\nB2,B2-a,5,1,200,3,0\n");
+    let spelled = format!("{head}KQ 100,k1,3,1,100,2,1\nKQ100,k2,5,1,200,3,1\nKQ7,k3,4,1,90,2,1\n");
+    let hostless =
+        format!("{head}S9,ZZ-901.01,3,1,100,2,1\n,ZZ-901.02,5,1,200,3,1\n,QQ-5.01,4,1,90,2,1\n");
+    // The file rewritten between the reads: one candidate moved to
+    // another star, as many rows, the same candidate ids.
+    let last = demo.trim_end().rfind('\n').unwrap() + 1;
+    let moved = format!(
+        "{}ZZ0{}",
+        &demo[..last],
+        &demo[last + demo[last..].find(',').unwrap()..]
+    );
+    for (first, text, shared) in [
+        (demo, demo, Some(true)),
+        (demo, moved.as_str(), Some(false)),
+        (duplicate.as_str(), duplicate.as_str(), Some(false)),
+        (spelled.as_str(), spelled.as_str(), None),
+        (hostless.as_str(), hostless.as_str(), None),
+    ] {
+        let load_of = |text: &str, opts: &LoadOptions| {
+            Catalogue::load(
+                Source::Bytes {
+                    name: "catalogue.csv",
+                    data: text.as_bytes(),
+                },
+                opts,
+            )
+            .unwrap()
+        };
+        let load = |opts: &LoadOptions| load_of(text, opts);
+        let ids = std::sync::Arc::new(load_of(
+            first,
+            &LoadOptions {
+                index_only: true,
+                ..Default::default()
+            },
+        ));
+        let plain = load(&LoadOptions::default());
+        let second = load(&LoadOptions {
+            ids_from: Some(std::sync::Arc::clone(&ids)),
+            ..Default::default()
+        });
+        if let Some(shared) = shared {
+            assert_eq!(
+                std::sync::Arc::ptr_eq(&ids.candidates, &second.candidates),
+                shared,
+                "{text}"
+            );
+        }
+        assert!(second.same_rows(&plain), "{text}");
+        assert_eq!(second.same_rows(&ids), first == text);
+        assert_eq!(second.skipped, plain.skipped);
+        assert_eq!(second.load_warnings(), plain.load_warnings());
+        assert_eq!(
+            format!("{:?}", second.columns),
+            format!("{:?}", plain.columns)
+        );
+        for &field in &NUMERIC {
+            let bits = |c: &Catalogue| {
+                c.column(field)
+                    .map(|v| v.iter().map(|x| x.to_bits()).collect::<Vec<_>>())
+            };
+            assert_eq!(bits(&second), bits(&plain), "{field:?}");
+        }
+        for c in 0..plain.len() as CandidateId {
+            assert_eq!(second.find_candidate(plain.candidate_id(c)), Some(c));
+            assert_eq!(second.lightcurve(c), plain.lightcurve(c));
+            for i in 0..plain.extra_headers().count() {
+                assert_eq!(second.extra(i, c), plain.extra(i, c));
+            }
+        }
+        for s in 0..plain.star_count() as StarId {
+            assert_eq!(second.members(s), plain.members(s));
+            assert_eq!(second.find_star(plain.star_id(s)), Some(s));
+        }
+    }
+}
