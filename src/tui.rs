@@ -177,17 +177,21 @@ fn build_app_counting(
         let (l, notes) = ledger_args.open_noting(input, &loaded)?;
         (Some(l), notes, None)
     };
-    let model = model.model(&loaded.survey)?;
-    let stamp = loaded.stamp.clone();
-    let cat = Arc::new(loaded.catalogue);
-    // The values are read at once, behind the table being built.
-    let values = counting.then(|| background::ValuesRead::start(args, stamp, Arc::clone(&cat)));
     let latest = match &ledger {
         Some(l) => Some(l.latest(ledger_args.vetter.as_deref())?),
         None => None,
     };
     // The same odds as every command's session; the checks arrive later.
-    let live = crate::session::odds_of(&cat, model, &checks, latest.as_ref())?;
+    let live = crate::session::odds_of(
+        &loaded.catalogue,
+        model.model(&loaded.survey)?,
+        &checks,
+        latest.as_ref(),
+    )?;
+    let cat = Arc::new(loaded.catalogue);
+    // The values are read from now on, behind the table being drawn.
+    let values =
+        counting.then(|| background::ValuesRead::start(args, loaded.stamp, Arc::clone(&cat)));
     let mut app = App::new(cat, live, checks, ledger, ledger_args.vetter(), keymap);
     app.message = skipped_message(&app.cat)
         .into_iter()

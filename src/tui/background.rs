@@ -21,8 +21,8 @@ pub(super) struct ValuesRead {
 
 impl ValuesRead {
     /// Reads the whole catalogue on a thread, at the lowest priority: it
-    /// starts as the first read ends and takes only the time that building
-    /// the table leaves idle, then all of it. `stamp` is the file's stamp
+    /// starts as the table is about to be drawn and takes only the time
+    /// the browser leaves idle, then all of it. `stamp` is the file's stamp
     /// at the first read (when it could be trusted): a file whose stamp is
     /// another after this read was written meanwhile, and is refused.
     /// The read takes the ids of `ids` (the first read's catalogue) when
