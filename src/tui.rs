@@ -542,12 +542,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         // for the rest of a 16 ms frame before the screen is drawn again.
         let since = last_draw.elapsed();
         if since < FRAME && event::poll(FRAME - since)? {
-            read_batch(
-                &mut app,
-                &hits,
-                &mut effects,
-                running.as_ref().map(|r| &r.worker),
-            )?;
+            read_batch(&mut app, &hits, &mut effects, &running)?;
             dirty = true;
             continue;
         }
@@ -608,12 +603,7 @@ pub fn run(args: &Args) -> Result<(), CliError> {
         if !event::poll(wait)? {
             continue;
         }
-        read_batch(
-            &mut app,
-            &hits,
-            &mut effects,
-            running.as_ref().map(|r| &r.worker),
-        )?;
+        read_batch(&mut app, &hits, &mut effects, &running)?;
         dirty = true;
     }
 }
@@ -626,7 +616,7 @@ fn read_batch(
     app: &mut App,
     hits: &app::Hits,
     effects: &mut Vec<Effect>,
-    worker: Option<&mpsc::Sender<u32>>,
+    running: &Option<background::Running>,
 ) -> std::io::Result<()> {
     for _ in 0..4096 {
         match input::translate(app, hits, event::read()?) {
@@ -636,8 +626,8 @@ fn read_batch(
         }
         effects.retain(|e| match e {
             Effect::LoadSignal(c) => {
-                if let Some(w) = worker {
-                    let _ = w.send(*c);
+                if let Some(r) = running {
+                    let _ = r.worker.send(*c);
                 }
                 false
             }
