@@ -37,7 +37,7 @@ rm "$tmpd/lc/one.csv"
 tmux new-session -d -s "$s" -x 120 -y 40 \
   "XDG_DATA_HOME=$tmpd XDG_STATE_HOME=$tmpd $bin $tmpd/cat.csv --lightcurves $tmpd/lc --targets 1000 --no-ledger"
 until tmux capture-pane -p -t "$s" | grep -q "Systems $stars"; do sleep 0.1; done
-while tmux capture-pane -p -t "$s" | grep -q "checks running"; do sleep 0.2; done
+while tmux capture-pane -p -t "$s" | grep -qE "checks running|reading the values"; do sleep 0.2; done
 wait_settled() {
   sleep 0.02
   while tmux capture-pane -p -t "$s" | grep -q "loading"; do :; done

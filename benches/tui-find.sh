@@ -16,7 +16,7 @@ trap 'tmux kill-session -t "$s" 2>/dev/null || true; rm -rf "$tmpd"' EXIT
 tmux new-session -d -s "$s" -x 120 -y 40 \
   "XDG_DATA_HOME=$tmpd XDG_STATE_HOME=$tmpd $bin $cat --no-lightcurves --targets $((2 * n)) --no-ledger"
 until tmux capture-pane -p -t "$s" | grep -q "Systems"; do sleep 0.05; done
-while tmux capture-pane -p -t "$s" | grep -q "checks running"; do sleep 0.2; done
+while tmux capture-pane -p -t "$s" | grep -qE "checks running|reading the values"; do sleep 0.2; done
 # What runs in the background after the checks (orders, indexes) has time.
 sleep 4
 tmux send-keys -t "$s" '/'

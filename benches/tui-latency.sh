@@ -15,7 +15,7 @@ tmpd="$(mktemp -d)"
 trap 'tmux kill-session -t "$s" 2>/dev/null || true; rm -rf "$tmpd"' EXIT
 tmux new-session -d -s "$s" -x 120 -y 40 "XDG_DATA_HOME=$tmpd XDG_STATE_HOME=$tmpd $bin --no-ledger"
 until tmux capture-pane -p -t "$s" | grep -q "Systems 321"; do sleep 0.05; done
-while tmux capture-pane -p -t "$s" | grep -q "checks running"; do sleep 0.1; done
+while tmux capture-pane -p -t "$s" | grep -qE "checks running|reading the values"; do sleep 0.1; done
 # Into the candidates pane: moves go between siblings and stars.
 wait_settled() {
   local t0=$1

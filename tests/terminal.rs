@@ -43,6 +43,13 @@ fn wait_gone(session: &str, text: &str) {
     }
 }
 
+/// Waits until the browser's background work is done: the catalogue's
+/// values read (the table opens on the ids first), then the checks.
+fn wait_checked(session: &str) {
+    wait_gone(session, "reading the values");
+    wait_gone(session, "checks running");
+}
+
 fn keys(session: &str, k: &[&str]) {
     let mut args = vec!["send-keys", "-t", session];
     args.extend_from_slice(k);
@@ -140,7 +147,7 @@ fn browse_the_demo_reject_one_of_three_and_quit() {
     wait_gone(&session, "reading the light curve");
     // The checks (light curves included) run in the background and change
     // the odds when they arrive: wait for them.
-    wait_gone(&session, "checks running");
+    wait_checked(&session);
     keys(&session, &["?"]);
     wait_for(&session, "Keys (Esc closes)");
     keys(&session, &["Escape"]);
@@ -268,7 +275,7 @@ fn ascii_small_screen_prompt_keys_and_staying_in_the_system() {
     let session = format!("starsift-ascii-{}", std::process::id());
     start_with(&session, &dir, "60", "16", "--ascii");
     wait_for(&session, "Systems 321/321");
-    wait_gone(&session, "checks running");
+    wait_checked(&session);
     let s = pane(&session);
     assert!(s.is_ascii(), "{s}");
     assert!(s.lines().nth(1).unwrap().contains("decision"), "{s}");

@@ -480,14 +480,17 @@ impl Ids {
 impl Merger {
     /// Whether the rows read name what `first`'s rows name, row by row:
     /// as many rows, each with `first`'s candidate id and star id as
-    /// written. Then the ids' work would group them as `first` is grouped
-    /// (it is a function of the ids' text and order alone), and `first`'s
-    /// grouping is taken. A row `first` dropped as a duplicate, placed on
-    /// another star (no star named; a star written several ways) or named
-    /// `star/id` makes them differ, and the rows are grouped anew.
+    /// written, and every row naming its star. Then the ids' work would
+    /// group them as `first` is grouped (it is a function of the ids' text
+    /// and order alone) and say nothing (no note), and `first`'s grouping
+    /// is taken. A row `first` dropped as a duplicate, a row naming no
+    /// star, a star written several ways or ids named `star/id` make them
+    /// differ, and the rows are grouped anew.
     fn names_as(&self, first: &Catalogue) -> bool {
         let n = self.candidates.len();
-        n == first.len()
+        self.hostless == 0
+            && self.zeros == 0
+            && n == first.len()
             && self.row_stars.len() == n
             && self.candidates == *first.candidates
             && (0..n).all(|r| self.row_stars.get(r) == first.star_id(first.star_of(r as u32)))

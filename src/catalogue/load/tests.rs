@@ -571,6 +571,9 @@ fn a_read_given_the_ids_of_a_first_read_is_a_plain_read() {
     let spelled = format!("{head}KQ 100,k1,3,1,100,2,1\nKQ100,k2,5,1,200,3,1\nKQ7,k3,4,1,90,2,1\n");
     let hostless =
         format!("{head}S9,ZZ-901.01,3,1,100,2,1\n,ZZ-901.02,5,1,200,3,1\n,QQ-5.01,4,1,90,2,1\n");
+    // A row naming no star and of no family keeps a star of its own, the
+    // same in both reads: the note that says so must stay.
+    let own = format!("{head}S9,ZZ-901.01,3,1,100,2,1\n,QQ-5.01,4,1,90,2,1\n");
     // The file rewritten between the reads: one candidate moved to
     // another star, as many rows, the same candidate ids.
     let last = demo.trim_end().rfind('\n').unwrap() + 1;
@@ -585,6 +588,7 @@ fn a_read_given_the_ids_of_a_first_read_is_a_plain_read() {
         (duplicate.as_str(), duplicate.as_str(), Some(false)),
         (spelled.as_str(), spelled.as_str(), None),
         (hostless.as_str(), hostless.as_str(), None),
+        (own.as_str(), own.as_str(), Some(false)),
     ] {
         let load_of = |text: &str, opts: &LoadOptions| {
             Catalogue::load(
