@@ -248,7 +248,16 @@ fn direction(look: Look, descending: bool) -> &'static str {
 fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) -> (Rect, usize) {
     let order = match (app.cand_sort, app.cand_descending) {
         (super::app::CandidateSort::File, false) => String::new(),
-        (k, d) => format!("· by {}{} ", k.name(), direction(look, d)),
+        (k, d) => {
+            use super::app::CandidateSort::{Depth, Period, Snr};
+            let later = matches!(k, Period | Depth | Snr) && app.values != Values::In;
+            format!(
+                "· by {}{}{} ",
+                k.name(),
+                direction(look, d),
+                if later { systems::VALUES_LATER } else { "" }
+            )
+        }
     };
     let title = match app.star() {
         Some(s) => format!(" Candidates of {} {order}", clean(app.cat.star_id(s))),

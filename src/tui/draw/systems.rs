@@ -175,8 +175,15 @@ pub(super) fn draw_systems(app: &App, frame: &mut Frame, area: Rect, look: Look)
 pub(super) fn systems_title(app: &App, room: usize, look: Look) -> String {
     let dot = if look.ascii { " - " } else { " · " };
     let mut t = format!("Systems {}/{}", app.stars.len(), app.cat.star_count());
+    // A filter or an order by values not read yet is redone when they are.
+    let waiting = app.values != Values::In;
+    let later = |reads: bool| if waiting && reads { VALUES_LATER } else { "" };
     if !app.filter.text.is_empty() {
-        let f = format!("{dot}filter {}", clean(&app.filter.text));
+        let f = format!(
+            "{dot}filter {}{}",
+            clean(&app.filter.text),
+            later(crate::selection::reads_values(&app.filter))
+        );
         let left = room.saturating_sub(t.chars().count());
         if f.chars().count() <= left {
             t.push_str(&f);
@@ -191,11 +198,21 @@ pub(super) fn systems_title(app: &App, room: usize, look: Look) -> String {
         app.sort.name(),
         direction(look, app.descending)
     );
-    if t.chars().count() + sort.chars().count() <= room {
-        t.push_str(&sort);
+    let said = format!(
+        "{sort}{}",
+        later(app.sort == crate::tui::app::SortKey::Period)
+    );
+    if let Some(s) = [said, sort]
+        .into_iter()
+        .find(|s| t.chars().count() + s.chars().count() <= room)
+    {
+        t.push_str(&s);
     }
     format!(" {t} ")
 }
+
+/// Said after a filter or an order that reads values not read yet.
+pub(super) const VALUES_LATER: &str = " (values to come)";
 
 /// An id in at most `width` columns: whole when it fits, else its end after
 /// an ellipsis (ids of one survey share their beginnings).

@@ -189,6 +189,8 @@ fn the_table_opens_on_the_ids_and_takes_the_values_when_they_are_read() {
     let _ = app.update(Input::ValuesRead(40));
     let s = screen(&app, 120, 30);
     assert!(s.contains("reading the values: 40 %"), "{s}");
+    let wide = screen(&app, 200, 30);
+    assert!(wide.contains("period asc (values to come)"), "{wide}");
     assert!(s.contains("reading the catalogue's values (40 %)"), "{s}");
     // A value not read yet is not a missing one ("-").
     let row = s.lines().find(|l| l.contains(" open ")).unwrap();
@@ -210,6 +212,7 @@ fn the_table_opens_on_the_ids_and_takes_the_values_when_they_are_read() {
     );
     let s = screen(&app, 120, 30);
     assert!(!s.contains("values"), "{s}");
+    assert!(s.contains("period asc"), "{s}");
     // The checks still run: the verdicts wait for them.
     assert!(s.contains("checks running: 0 %"), "{s}");
     // The checks of the whole catalogue arrive as ever.
