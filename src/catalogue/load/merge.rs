@@ -493,7 +493,13 @@ impl Merger {
             && n == first.len()
             && self.row_stars.len() == n
             && self.candidates == *first.candidates
-            && (0..n).all(|r| self.row_stars.get(r) == first.star_id(first.star_of(r as u32)))
+            // Each row's star read at random: on every core.
+            && crate::parallel::in_parts(n, |rows| {
+                rows.into_iter()
+                    .all(|r| self.row_stars.get(r) == first.star_id(first.star_of(r as u32)))
+            })
+            .into_iter()
+            .all(|same| same)
     }
 
     /// Groups the rows by their ids: rows that name no star placed,
