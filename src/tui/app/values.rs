@@ -48,6 +48,7 @@ impl App {
                 }
                 self.cat = cat;
                 self.values = Values::In;
+                self.odds_of_the_values();
                 // What was computed from the values' absence.
                 self.radius = std::cell::OnceCell::new();
                 self.orders.clear();
@@ -64,6 +65,25 @@ impl App {
         self.checks_failed = true;
         self.flags_so_far = None;
         self.message = Some(format!("{why}: no flag, verdict or light curve is shown"));
+    }
+
+    /// The odds again, from the whole catalogue and every decision now:
+    /// the priors of an fpp column, f by planet size and the other ids of
+    /// a star rejected as a false positive (found by position) all read
+    /// values. Nothing of the odds built from the ids is kept: their links
+    /// were looked for without positions.
+    fn odds_of_the_values(&mut self) {
+        let decisions = decisions_of(&self.cat, &self.live);
+        match crate::session::odds_with(
+            &self.cat,
+            self.live.model().clone(),
+            &self.checks,
+            decisions,
+            self.live.unseen_fps(),
+        ) {
+            Ok(live) => self.live = live,
+            Err(e) => self.message = Some(format!("odds not rebuilt with the values: {e}")),
+        }
     }
 
     /// True while no candidate may be called validated: before the checks

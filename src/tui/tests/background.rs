@@ -343,3 +343,35 @@ fn a_decision_for_a_whole_filter_waits_for_what_the_filter_reads() {
     act(&mut app, Action::ApplyToFilter);
     assert_eq!(app.mode, Mode::Bulk);
 }
+
+#[test]
+fn the_odds_are_built_again_from_the_values_with_every_decision() {
+    // An fpp column sets each candidate's prior: a value the ids' read
+    // does not keep. The odds before the values are the ids' alone.
+    let text = "star,candidate,period,epoch,depth,duration,fpp\n\
+                ZZ1,ZZ1-a,3,1,100,2,0.9\nZZ1,ZZ1-b,5,1,200,3,0.001\n\
+                ZZ1,ZZ1-c,9,1,150,3,0.01\nZZ2,ZZ2-a,4,1,90,2,0.5\n";
+    let (mut app, whole) = values_pending_of(text);
+    let model = app.live.model().clone();
+    let c = app.cat.find_candidate("ZZ1-c").unwrap();
+    app.go_to(c);
+    act(&mut app, Action::NextPane);
+    act(&mut app, Action::Park);
+    let _ = app.update(Input::Values(Ok(std::sync::Arc::new(whole))));
+    let now = crate::tui::app::decisions_of(&app.cat, &app.live);
+    assert!(now[c as usize] != crate::decision::Decision::Open);
+    let fresh = crate::session::odds_with(
+        &app.cat,
+        model,
+        &crate::checks::Checks::none(app.cat.len()),
+        now,
+        &[],
+    )
+    .unwrap();
+    assert!(app.live.same_odds_state(&fresh));
+    let a = app.cat.find_candidate("ZZ1-a").unwrap();
+    let b = app.cat.find_candidate("ZZ1-b").unwrap();
+    assert_eq!(app.live.odds(a), fresh.odds(a));
+    // The priors differ by candidate now: fpp 0.9 against 0.001.
+    assert!(app.live.odds(a).unwrap() < app.live.odds(b).unwrap());
+}
