@@ -375,3 +375,33 @@ fn the_odds_are_built_again_from_the_values_with_every_decision() {
     // The priors differ by candidate now: fpp 0.9 against 0.001.
     assert!(app.live.odds(a).unwrap() < app.live.odds(b).unwrap());
 }
+
+#[test]
+fn a_star_rejected_before_the_values_holds_its_other_id_once_they_arrive() {
+    // P1 and Q7 are one star under two ids, 0.4″ apart: only the values
+    // (the positions) tell it. Invented.
+    let mut text = String::from("star,candidate,period,epoch,depth,duration,ra_deg,dec_deg\n");
+    for i in 0..40 {
+        text.push_str(&format!(
+            "F{i},F{i}-a,{}.3,1,100,2,{}.5,-30\n",
+            2 + i % 7,
+            i * 3
+        ));
+    }
+    text.push_str(
+        "P1,P1-a,3.1,1,900,2,150.0,20.0\nP1,P1-b,7.7,1,400,3,150.0,20.0\n\
+         Q7,Q7-a,5.2,1,300,2,150.0001,20.0\n",
+    );
+    let (mut app, whole) = values_pending_of(&text);
+    let p = app.cat.find_candidate("P1-a").unwrap();
+    let q = app.cat.find_candidate("Q7-a").unwrap();
+    app.go_to(p);
+    act(&mut app, Action::NextPane);
+    act(&mut app, Action::Reject);
+    act(&mut app, Action::Select);
+    assert!(app.live.decision(p).is_rejected());
+    // Without positions, nothing ties Q7 to P1 yet.
+    assert_eq!(app.live.status(q), crate::odds::Status::Counted);
+    let _ = app.update(Input::Values(Ok(std::sync::Arc::new(whole))));
+    assert_ne!(app.live.status(q), crate::odds::Status::Counted);
+}
