@@ -212,6 +212,23 @@ fn build_app_counting(
     })
 }
 
+/// Hashes a catalogue new to the ledger for its sighting, once the values
+/// are in (not before the table): at the lowest priority, then sends it
+/// if the file is as it was read (the same stamp); else the next start
+/// records it.
+fn hash_for_sighting(
+    Unseen { path, stamp }: Unseen,
+    seen: mpsc::Sender<std::io::Result<(String, String)>>,
+) {
+    std::thread::spawn(move || {
+        crate::parallel::run_when_idle();
+        let fp = crate::ledger::fingerprint_file(&path);
+        if crate::fingerprint::file_stamp(&path).as_deref() == Some(stamp.as_str()) {
+            let _ = seen.send(fp.map(|fp| (fp, stamp)));
+        }
+    });
+}
+
 /// Rows that did not load, and the loader's notes, said as the browser opens
 /// (`Catalogue::load_warnings`).
 fn skipped_message(cat: &crate::catalogue::Catalogue) -> Option<String> {
@@ -564,21 +581,8 @@ pub fn run(args: &Args) -> Result<(), CliError> {
                 dirty |= app.values != before;
                 if app.values == app::Values::In {
                     running = Some(background::Running::start(&app, args, &finder));
-                    // A catalogue new to the ledger is hashed for its
-                    // sighting here, not before the table: at the lowest
-                    // priority, then recorded if the file is as it was read
-                    // (the same stamp); else the next start records it.
-                    if let Some(Unseen { path, stamp }) = unseen.take() {
-                        let seen_tx = seen_tx.clone();
-                        std::thread::spawn(move || {
-                            crate::parallel::run_when_idle();
-                            let fp = crate::ledger::fingerprint_file(&path);
-                            if crate::fingerprint::file_stamp(&path).as_deref()
-                                == Some(stamp.as_str())
-                            {
-                                let _ = seen_tx.send(fp.map(|fp| (fp, stamp)));
-                            }
-                        });
+                    if let Some(u) = unseen.take() {
+                        hash_for_sighting(u, seen_tx.clone());
                     }
                 }
             }

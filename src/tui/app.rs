@@ -625,11 +625,7 @@ impl App {
                 Vec::new()
             }
             Input::ChecksFailed(text) => {
-                self.checks_pending = false;
-                self.checks_failed = true;
-                // No flag is shown that the verdicts have not seen.
-                self.flags_so_far = None;
-                self.message = Some(text);
+                self.checks_fail(text);
                 Vec::new()
             }
             Input::Char(ch) => {

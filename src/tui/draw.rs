@@ -249,8 +249,7 @@ fn draw_candidates(app: &App, frame: &mut Frame, area: Rect, look: Look) -> (Rec
     let order = match (app.cand_sort, app.cand_descending) {
         (super::app::CandidateSort::File, false) => String::new(),
         (k, d) => {
-            use super::app::CandidateSort::{Depth, Period, Snr};
-            let later = matches!(k, Period | Depth | Snr) && app.values != Values::In;
+            let later = k.reads_values() && app.values != Values::In;
             format!(
                 "· by {}{}{} ",
                 k.name(),

@@ -237,7 +237,7 @@ impl Merger {
         // A second read of the rows of an earlier one (the browser's read
         // of the values) takes its ids as they are; anything else groups
         // its own.
-        let ids = match opts.ids_from.as_deref() {
+        let mut ids = match opts.ids_from.as_deref() {
             Some(first) if self.names_as(first) => Ids::of(first),
             _ => self.group_ids(),
         };
@@ -251,7 +251,7 @@ impl Merger {
             durations,
             ..
         } = self;
-        let mut notes = ids.notes.clone();
+        let mut notes = std::mem::take(&mut ids.notes);
         // Duplicates were found after their chunk's own skips: restore file order.
         skipped.sort_by_key(|s| s.line);
         let mut num: Vec<Option<Vec<f64>>> = vec![None; NUMERIC.len()];

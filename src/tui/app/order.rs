@@ -32,6 +32,12 @@ impl SortKey {
             SortKey::Period => "shortest period",
         }
     }
+
+    /// Whether this order reads the catalogue's values (not the ids alone,
+    /// the odds or the checks).
+    pub fn reads_values(self) -> bool {
+        self == SortKey::Period
+    }
 }
 
 /// How the candidates of the selected star are ordered.
@@ -62,6 +68,14 @@ impl CandidateSort {
             CandidateSort::Odds => "odds",
             CandidateSort::Snr => "SNR",
         }
+    }
+
+    /// Whether this order reads the catalogue's values.
+    pub fn reads_values(self) -> bool {
+        matches!(
+            self,
+            CandidateSort::Period | CandidateSort::Depth | CandidateSort::Snr
+        )
     }
 }
 

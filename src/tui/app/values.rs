@@ -23,7 +23,8 @@ impl App {
     /// Takes the whole catalogue of the second read in place of the ids
     /// of the first, once it is sure to hold the same rows
     /// (`Catalogue::same_rows`): every candidate and star keeps its number,
-    /// so the selection, the decisions and the odds stand. A file changed
+    /// so the selection and the decisions stand, and the odds are built
+    /// again from them with the values. A file changed
     /// between the two reads, or a read that failed, leaves the ids and
     /// says why; the checks are then not run and no verdict is called
     /// validated.
@@ -61,10 +62,18 @@ impl App {
             Err(e) => format!("the catalogue's values could not be read: {e}"),
         };
         self.values = Values::Missing;
+        self.checks_fail(format!("{why}: no flag, verdict or light curve is shown"));
+    }
+
+    /// The checks will not come (they failed, or the values they read
+    /// could not be): said on the message line, and the verdicts withheld
+    /// for good.
+    pub(super) fn checks_fail(&mut self, why: String) {
         self.checks_pending = false;
         self.checks_failed = true;
+        // No flag is shown that the verdicts have not seen.
         self.flags_so_far = None;
-        self.message = Some(format!("{why}: no flag, verdict or light curve is shown"));
+        self.message = Some(why);
     }
 
     /// The odds again, from the whole catalogue and every decision now:

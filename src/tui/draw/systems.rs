@@ -198,10 +198,7 @@ pub(super) fn systems_title(app: &App, room: usize, look: Look) -> String {
         app.sort.name(),
         direction(look, app.descending)
     );
-    let said = format!(
-        "{sort}{}",
-        later(app.sort == crate::tui::app::SortKey::Period)
-    );
+    let said = format!("{sort}{}", later(app.sort.reads_values()));
     if let Some(s) = [said, sort]
         .into_iter()
         .find(|s| t.chars().count() + s.chars().count() <= room)
