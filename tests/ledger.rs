@@ -765,14 +765,15 @@ fn decide_from_a_file_checks_every_row_then_writes_them_together() {
     let three = system_of(3);
     let two = system_of(2);
     let ledger = d.join("batch.sqlite");
-    // One bad row (an unknown id, a rejection without a reason): nothing
-    // is written, and each bad row is named by line and column.
+    // Bad rows (an unknown id, a rejection without a reason, a reason
+    // given with `kept`): nothing is written, and each bad row is named by
+    // line and by the column at fault.
     let bad = d.join("bad.csv");
     std::fs::write(
         &bad,
         format!(
-            "candidate,decision,reason,note\n{},rejected,eclipsing-binary,secondary seen\nNOPE-1,kept,,\n{},rejected,,\n",
-            three[0], two[0]
+            "candidate,decision,reason,note\n{},rejected,eclipsing-binary,secondary seen\nNOPE-1,kept,,\n{},rejected,,\n{},kept,blend,\n",
+            three[0], two[0], two[1]
         ),
     )
     .unwrap();
@@ -792,7 +793,16 @@ fn decide_from_a_file_checks_every_row_then_writes_them_together() {
         e.contains("bad.csv: line 3: column `candidate`") && e.contains("NOPE-1"),
         "{e}"
     );
-    assert!(e.contains("bad.csv: line 4: column `decision`"), "{e}");
+    assert!(
+        e.contains("bad.csv: line 4: column `reason`: a rejection needs a reason"),
+        "{e}"
+    );
+    assert!(
+        e.contains(
+            "bad.csv: line 5: column `reason`: `blend` goes with the decision `rejected` only"
+        ),
+        "{e}"
+    );
     assert!(e.contains("nothing was recorded"), "{e}");
     if ledger.exists() {
         let l = starsift::ledger::Ledger::open(&ledger).unwrap();

@@ -53,32 +53,72 @@ pub struct Args {
     pub lc: crate::cli::args::LightcurveArgs,
 }
 
-/// Parses a decision and its reason as a person typed them.
-pub fn parse_decision(decision: &str, reason: Option<&str>) -> Result<Decision, CliError> {
-    let known = || ALL_REASONS.map(Reason::name).join(", ");
-    match (decision, reason) {
-        ("rejected", None) => Err(CliError::Input(format!(
-            "a rejection needs a reason: --reason {}",
-            known()
-        ))),
-        ("rejected", Some(r)) => Reason::parse(r).map(Decision::Rejected).ok_or_else(|| {
-            CliError::Input(format!(
-                "--reason {}: unknown; known: {}",
+/// What is wrong with a decision and its reason as a person typed them,
+/// and which of the two is at fault.
+#[derive(Debug)]
+pub enum BadDecision {
+    /// `rejected` with no reason.
+    NeedsReason,
+    /// A reason that is not one of ours.
+    UnknownReason(String),
+    /// A reason with a decision other than `rejected`: (reason, decision).
+    ReasonWithout(String, String),
+    /// A decision that is not one of ours.
+    UnknownDecision(String),
+}
+
+impl BadDecision {
+    /// The field at fault: `decision` or `reason`.
+    pub fn field(&self) -> &'static str {
+        match self {
+            BadDecision::UnknownDecision(_) => "decision",
+            _ => "reason",
+        }
+    }
+
+    /// What is wrong, without the field's name.
+    pub fn what(&self) -> String {
+        let known = || ALL_REASONS.map(Reason::name).join(", ");
+        match self {
+            BadDecision::NeedsReason => format!("a rejection needs a reason: {}", known()),
+            BadDecision::UnknownReason(r) => {
+                format!("`{}` is not a reason; known: {}", clean(r), known())
+            }
+            BadDecision::ReasonWithout(r, d) => format!(
+                "`{}` goes with the decision `rejected` only, not `{}`",
                 clean(r),
-                known()
-            ))
-        }),
-        (d, Some(_)) => Err(CliError::Input(format!(
-            "--reason goes with `rejected` only, not `{}`",
-            clean(d)
-        ))),
+                clean(d)
+            ),
+            BadDecision::UnknownDecision(d) => format!(
+                "`{}` is not a decision: use kept, rejected, parked or open",
+                clean(d)
+            ),
+        }
+    }
+}
+
+impl From<BadDecision> for CliError {
+    /// As said of the command line's flags.
+    fn from(e: BadDecision) -> CliError {
+        CliError::Input(format!("--{}: {}", e.field(), e.what()))
+    }
+}
+
+/// Parses a decision and its reason as a person typed them.
+pub fn parse_decision(decision: &str, reason: Option<&str>) -> Result<Decision, BadDecision> {
+    match (decision, reason) {
+        ("rejected", None) => Err(BadDecision::NeedsReason),
+        ("rejected", Some(r)) => Reason::parse(r)
+            .map(Decision::Rejected)
+            .ok_or_else(|| BadDecision::UnknownReason(r.to_string())),
+        ("kept" | "parked" | "open", Some(r)) => Err(BadDecision::ReasonWithout(
+            r.to_string(),
+            decision.to_string(),
+        )),
         ("kept", None) => Ok(Decision::Kept),
         ("parked", None) => Ok(Decision::Parked),
         ("open", None) => Ok(Decision::Open),
-        (d, None) => Err(CliError::Input(format!(
-            "--decision {}: use kept, rejected, parked or open",
-            clean(d)
-        ))),
+        (d, _) => Err(BadDecision::UnknownDecision(d.to_string())),
     }
 }
 
@@ -293,14 +333,8 @@ fn read_batch(
             }),
             Err(e) => errors.push(format!(
                 "{name}: line {line}: column `{}`: {}",
-                if reason.is_some() && cell(Some(di)) == "rejected" {
-                    "reason"
-                } else {
-                    "decision"
-                },
-                e.to_string()
-                    .replace("--reason ", "")
-                    .replace("--decision ", "")
+                e.field(),
+                e.what()
             )),
         }
     }
