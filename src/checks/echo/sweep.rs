@@ -152,6 +152,10 @@ pub(super) fn placed(s: &Sig) -> bool {
 /// The band of a signal without a position.
 const UNPLACED: u32 = u32::MAX;
 
+/// Signals gathered by band before they are written to their bands
+/// ([`Index::new`]): 2.3 MB of them.
+const FILL_BLOCK: usize = 1 << 16;
+
 impl Index {
     /// The index of the signals, for an echo radius in arcsec: `sig(i)` is
     /// the i-th in file order, with its place in the period order (`rank`,
@@ -163,6 +167,12 @@ impl Index {
     /// over the sky, is sorted by cell and period. A layout that read the
     /// signals in the index's order waited on memory at every signal.
     pub fn new(n: usize, radius_arcsec: f64, sig: impl Fn(usize) -> Sig) -> Index {
+        Index::in_blocks(n, radius_arcsec, sig, FILL_BLOCK)
+    }
+
+    /// [`Index::new`], the signals written to their bands `block` at a
+    /// time (the result is the same for every `block`).
+    fn in_blocks(n: usize, radius_arcsec: f64, sig: impl Fn(usize) -> Sig, block: usize) -> Index {
         // A little wider than the radius, so rounding in the band number
         // never parts two signals within it by more than one band; and at
         // least 1e-7 degree, so every band number fits in 32 bits (wider
@@ -255,16 +265,54 @@ impl Index {
                 all.resize(n, s);
             }
             let mut end = start.clone();
-            for i in 0..n {
-                let s = sig(i);
-                let b = band(&s);
-                if split < n {
-                    all[s.rank as usize] = s;
+            // A block of signals at a time, gathered by band (a counting
+            // sort) before they are written, where the bands are few beside
+            // the block: each band then takes a run of entries at once, not
+            // one entry at a time at thousands of places in turn, each
+            // place a page of its own (a miss of the address cache a
+            // signal: 0.3–0.8 s at 10M signals). A band's order is set by
+            // the sort below, whatever order its entries come in.
+            let gather = numbers.len() * 4 <= block;
+            let mut held: Vec<(u32, Entry)> = Vec::with_capacity(block.min(n));
+            let mut by_band: Vec<Entry> = Vec::new();
+            let mut runs = vec![0usize; if gather { numbers.len() + 1 } else { 0 }];
+            for from in (0..n).step_by(block.max(1)) {
+                held.clear();
+                for i in from..(from + block.max(1)).min(n) {
+                    let s = sig(i);
+                    let b = band(&s);
+                    if split < n {
+                        all[s.rank as usize] = s;
+                    }
+                    if b != UNPLACED {
+                        held.push((slot(b) as u32, entry(&s, b)));
+                    }
                 }
-                if b != UNPLACED {
-                    let at = &mut end[slot(b)];
-                    placed_entries[*at] = entry(&s, b);
-                    *at += 1;
+                if !gather {
+                    for &(k, e) in &held {
+                        placed_entries[end[k as usize]] = e;
+                        end[k as usize] += 1;
+                    }
+                    continue;
+                }
+                runs.fill(0);
+                for &(k, _) in &held {
+                    runs[k as usize + 1] += 1;
+                }
+                for k in 1..runs.len() {
+                    runs[k] += runs[k - 1];
+                }
+                by_band.clear();
+                by_band.extend(held.iter().map(|h| h.1));
+                let mut at = runs.clone();
+                for &(k, e) in &held {
+                    by_band[at[k as usize]] = e;
+                    at[k as usize] += 1;
+                }
+                for k in 0..numbers.len() {
+                    let run = &by_band[runs[k]..runs[k + 1]];
+                    placed_entries[end[k]..end[k] + run.len()].copy_from_slice(run);
+                    end[k] += run.len();
                 }
             }
         }
@@ -646,7 +694,17 @@ mod tests {
             let mut want = every_pair(&by_rank, &pair);
             want.sort_unstable();
             let sig = |i: usize| sigs[i];
+            // Written to the bands in one block, in blocks of a few, and
+            // one at a time (both ways of writing them, `Index::in_blocks`).
             let index = Index::new(sigs.len(), radius, sig);
+            for block in [1, 7, 256] {
+                let other = Index::in_blocks(sigs.len(), radius, sig, block);
+                assert_eq!(
+                    format!("{:?}", (&other.placed, &other.bands, &other.cells)),
+                    format!("{:?}", (&index.placed, &index.bands, &index.cells)),
+                    "seed {seed}, radius {radius}, block {block}"
+                );
+            }
             let (bands, unplaced) = (
                 index.sweep_cells(0..index.cells_len(), &pair, &sig),
                 index.sweep_unplaced(0..index.unplaced_len(), &pair, &sig),
