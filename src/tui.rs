@@ -190,8 +190,10 @@ fn build_app_counting(
     )?;
     let cat = Arc::new(loaded.catalogue);
     // The values are read from now on, behind the table being drawn.
-    let values =
-        counting.then(|| background::ValuesRead::start(args, loaded.stamp, Arc::clone(&cat)));
+    let values = counting.then(|| {
+        let odds = app::OddsFrom::of(&cat, &live);
+        background::ValuesRead::start(args, loaded.stamp, Arc::clone(&cat), odds)
+    });
     let mut app = App::new(cat, live, checks, ledger, ledger_args.vetter(), keymap);
     app.message = skipped_message(&app.cat)
         .into_iter()

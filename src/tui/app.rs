@@ -31,7 +31,7 @@ pub use order::{CandidateSort, SortKey, static_order};
 use order::{
     ORDERS_KEPT, Scratch, id_common_of, id_tie, low_bits_of, sort_keyed, sortable_bits, static_key,
 };
-pub use values::Values;
+pub use values::{OddsAhead, OddsFrom, Values, ValuesIn};
 
 /// The longest filter or find text, characters (a filter is a line, not a
 /// file; the cap keeps every keystroke's work bounded).
@@ -75,9 +75,9 @@ pub enum Input {
     Notice(String),
     /// The background checks stopped without a result: why.
     ChecksFailed(String),
-    /// The whole catalogue, read after the table (`App::take_values`), or
-    /// why it could not be.
-    Values(Result<std::sync::Arc<Catalogue>, String>),
+    /// The whole catalogue, read after the table (`App::take_values`), with
+    /// the odds its thread built from it, or why it could not be read.
+    Values(Result<ValuesIn, String>),
     /// Whole percent of the catalogue's second read done so far.
     ValuesRead(u8),
     /// Light curves checked so far, of how many.

@@ -14,7 +14,7 @@ use crate::catalogue::Catalogue;
 
 /// The second read of the catalogue, on its thread.
 pub(super) struct ValuesRead {
-    rx: mpsc::Receiver<Result<Catalogue, String>>,
+    rx: mpsc::Receiver<Result<app::ValuesIn, String>>,
     read: Arc<AtomicU64>,
     total: u64,
 }
@@ -27,7 +27,14 @@ impl ValuesRead {
     /// another after this read was written meanwhile, and is refused.
     /// The read takes the ids of `ids` (the first read's catalogue) when
     /// its rows name the same candidates and stars (`LoadOptions::ids_from`).
-    pub(super) fn start(args: &Args, stamp: Option<String>, ids: Arc<Catalogue>) -> ValuesRead {
+    /// It then builds the odds of the whole catalogue from `odds` (those
+    /// of the first read, `app::OddsAhead`).
+    pub(super) fn start(
+        args: &Args,
+        stamp: Option<String>,
+        ids: Arc<Catalogue>,
+        odds: app::OddsFrom,
+    ) -> ValuesRead {
         let path = args.vetting.input.catalogue.clone();
         let total = path
             .as_ref()
@@ -47,7 +54,10 @@ impl ValuesRead {
                      restart starsift to read it again"
                         .into())
                 }
-                (whole, _) => whole,
+                (whole, _) => whole.map(|cat| app::ValuesIn {
+                    odds: Some(Box::new(app::OddsAhead::build(&cat, odds))),
+                    cat: Arc::new(cat),
+                }),
             });
         });
         ValuesRead { rx, read, total }
@@ -58,7 +68,7 @@ impl ValuesRead {
     pub(super) fn poll(&self, app: &mut App, effects: &mut Vec<Effect>) -> bool {
         match self.rx.try_recv() {
             Ok(read) => {
-                effects.extend(app.update(Input::Values(read.map(Arc::new))));
+                effects.extend(app.update(Input::Values(read)));
                 true
             }
             Err(mpsc::TryRecvError::Disconnected) => {

@@ -6,6 +6,8 @@
 //! figure; a sort or a filter by a value is done again when it arrives.
 
 use super::*;
+use crate::checks::UnseenFp;
+use crate::odds::{Model, ModelError};
 
 /// Whether the catalogue's values are in.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -19,6 +21,77 @@ pub enum Values {
     Missing,
 }
 
+/// The catalogue's second read, as it arrives.
+#[derive(Clone, Debug)]
+pub struct ValuesIn {
+    pub cat: std::sync::Arc<Catalogue>,
+    /// The odds built from it on the read's thread, if they were.
+    pub odds: Option<Box<OddsAhead>>,
+}
+
+impl From<std::sync::Arc<Catalogue>> for ValuesIn {
+    fn from(cat: std::sync::Arc<Catalogue>) -> ValuesIn {
+        ValuesIn { cat, odds: None }
+    }
+}
+
+/// What the odds are built from when the values arrive
+/// (`App::odds_of_the_values`): the model, every candidate's decision, and
+/// the stars known to host a false positive that no loaded row shows.
+#[derive(Clone, Debug, PartialEq)]
+pub struct OddsFrom {
+    model: Model,
+    decisions: Vec<Decision>,
+    gone: Vec<UnseenFp>,
+}
+
+impl OddsFrom {
+    /// As the odds `live` of the first read (ids only) stand.
+    pub fn of(cat: &Catalogue, live: &Live) -> OddsFrom {
+        OddsFrom {
+            model: live.model().clone(),
+            decisions: decisions_of(cat, live),
+            gone: live.unseen_fps().to_vec(),
+        }
+    }
+
+    /// The odds of the whole catalogue `cat` from these, before any check
+    /// has run (the checks start once the values are in).
+    fn odds(self, cat: &Catalogue) -> Result<Live, ModelError> {
+        let checks = Checks::none(cat.len());
+        crate::session::odds_with(cat, self.model, &checks, self.decisions, &self.gone)
+    }
+}
+
+/// The odds of the whole catalogue built on the second read's thread
+/// (~0.3 s at 10M candidates that the browser's thread need not spend),
+/// with what they were built from: taken only if the App still stands
+/// there when they arrive (no decision made meanwhile).
+#[derive(Clone, Debug)]
+pub struct OddsAhead {
+    from: OddsFrom,
+    odds: Result<Live, ModelError>,
+}
+
+impl OddsAhead {
+    /// The odds of `cat` from `from` (`OddsFrom::of` the first read's).
+    pub fn build(cat: &Catalogue, from: OddsFrom) -> OddsAhead {
+        OddsAhead {
+            odds: from.clone().odds(cat),
+            from,
+        }
+    }
+
+    /// Odds said to be built from `from` (tests: which odds were taken).
+    #[cfg(test)]
+    pub fn planted(from: OddsFrom, odds: Live) -> OddsAhead {
+        OddsAhead {
+            from,
+            odds: Ok(odds),
+        }
+    }
+}
+
 impl App {
     /// Takes the whole catalogue of the second read in place of the ids
     /// of the first, once it is sure to hold the same rows
@@ -28,12 +101,12 @@ impl App {
     /// between the two reads, or a read that failed, leaves the ids and
     /// says why; the checks are then not run and no verdict is called
     /// validated.
-    pub(super) fn take_values(&mut self, read: Result<std::sync::Arc<Catalogue>, String>) {
+    pub(super) fn take_values(&mut self, read: Result<ValuesIn, String>) {
         if !matches!(self.values, Values::Reading(_)) {
             return;
         }
         let why = match read {
-            Ok(cat) if cat.same_rows(&self.cat) => {
+            Ok(ValuesIn { cat, odds }) if cat.same_rows(&self.cat) => {
                 // What the loader says of the values (placeholders read as
                 // unknown, units), which the ids' read could not say.
                 let said = self.cat.load_warnings();
@@ -49,7 +122,7 @@ impl App {
                 }
                 self.cat = cat;
                 self.values = Values::In;
-                self.odds_of_the_values();
+                self.odds_of_the_values(odds);
                 // What was computed from the values' absence.
                 self.radius = std::cell::OnceCell::new();
                 self.orders.clear();
@@ -80,16 +153,24 @@ impl App {
     /// the priors of an fpp column, f by planet size and the other ids of
     /// a star rejected as a false positive (found by position) all read
     /// values. Nothing of the odds built from the ids is kept: their links
-    /// were looked for without positions.
-    fn odds_of_the_values(&mut self) {
-        let decisions = decisions_of(&self.cat, &self.live);
-        match crate::session::odds_with(
-            &self.cat,
-            self.live.model().clone(),
-            &self.checks,
-            decisions,
-            self.live.unseen_fps(),
-        ) {
+    /// were looked for without positions. The odds built `ahead` on the
+    /// read's thread are these when they were built from what the App
+    /// holds now; else they are built here.
+    fn odds_of_the_values(&mut self, ahead: Option<Box<OddsAhead>>) {
+        // The checks have not run (they start once the values are in):
+        // `self.checks` is what `OddsFrom::odds` assumes, none.
+        let now = OddsFrom::of(&self.cat, &self.live);
+        let odds = match ahead {
+            Some(ahead) if ahead.from == now => ahead.odds,
+            _ => crate::session::odds_with(
+                &self.cat,
+                now.model,
+                &self.checks,
+                now.decisions,
+                &now.gone,
+            ),
+        };
+        match odds {
             Ok(live) => self.live = live,
             Err(e) => self.message = Some(format!("odds not rebuilt with the values: {e}")),
         }

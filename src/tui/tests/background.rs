@@ -3,7 +3,7 @@
 //! sorted ahead of their first use.
 
 use super::*;
-use crate::tui::app::Values;
+use crate::tui::app::{OddsAhead, OddsFrom, Values, ValuesIn};
 
 /// The demo in the browser before its checks arrive (they run on a
 /// background thread), and those checks.
@@ -135,12 +135,14 @@ fn orders_sorted_in_the_background_are_the_browsers_own() {
 /// The demo as the browser's first read keeps it (ids, star index, depth:
 /// `LoadOptions::index_only`), in the browser before its values arrive;
 /// and the whole catalogue of the second read.
-fn values_pending() -> (App, crate::catalogue::Catalogue) {
+fn values_pending() -> (App, ValuesIn) {
     values_pending_of(crate::demo::CATALOGUE_CSV)
 }
 
-/// [`values_pending`] on a catalogue's text.
-fn values_pending_of(text: &str) -> (App, crate::catalogue::Catalogue) {
+/// [`values_pending`] on a catalogue's text. The values come as the
+/// read's thread sends them: with the odds it built from the first read's
+/// (`OddsAhead`), before any decision made while they were read.
+fn values_pending_of(text: &str) -> (App, ValuesIn) {
     use crate::catalogue::{Catalogue, LoadOptions, Source};
     let source = || Source::Bytes {
         name: "catalogue.csv",
@@ -171,7 +173,12 @@ fn values_pending_of(text: &str) -> (App, crate::catalogue::Catalogue) {
     );
     app.values = Values::Reading(0);
     let _ = app.update(Input::ChecksStarted);
-    (app, whole)
+    let odds = OddsAhead::build(&whole, OddsFrom::of(&app.cat, &app.live));
+    let values = ValuesIn {
+        cat: std::sync::Arc::new(whole),
+        odds: Some(Box::new(odds)),
+    };
+    (app, values)
 }
 
 #[test]
@@ -198,7 +205,7 @@ fn the_table_opens_on_the_ids_and_takes_the_values_when_they_are_read() {
     assert!(!row.contains("validated"), "{s}");
     let star = app.star();
     let c = app.candidate().unwrap();
-    let effects = app.update(Input::Values(Ok(std::sync::Arc::new(whole))));
+    let effects = app.update(Input::Values(Ok(whole)));
     assert_eq!(app.values, Values::In);
     // The same star stays selected, its fold is asked for, and the sort
     // asked for earlier is the exact one of the values.
@@ -237,10 +244,10 @@ fn values_of_other_rows_or_a_failed_read_leave_no_verdict_validated() {
         &LoadOptions::default(),
     )
     .unwrap();
-    let failed: Result<std::sync::Arc<Catalogue>, String> = Err("disk gone".into());
+    let failed: Result<ValuesIn, String> = Err("disk gone".into());
     for (read, said) in [
         (
-            Ok(std::sync::Arc::new(other)),
+            Ok(std::sync::Arc::new(other).into()),
             "changed between its two reads",
         ),
         (failed, "could not be read: disk gone"),
@@ -296,7 +303,7 @@ fn what_the_loader_says_of_the_values_is_said_when_they_arrive() {
     let (mut app, whole) = values_pending_of(text);
     assert!(app.cat.load_warnings().is_empty());
     app.message = Some("the ledger's word".into());
-    let _ = app.update(Input::Values(Ok(std::sync::Arc::new(whole))));
+    let _ = app.update(Input::Values(Ok(whole)));
     assert_eq!(app.values, Values::In);
     let said = app.message.as_deref().unwrap();
     assert!(said.starts_with("the ledger's word · 1 "), "{said}");
@@ -306,7 +313,7 @@ fn what_the_loader_says_of_the_values_is_said_when_they_arrive() {
 #[test]
 fn a_decision_for_a_whole_filter_waits_for_what_the_filter_reads() {
     let (mut app, whole) = values_pending();
-    let checks = crate::checks::run(&whole, &Default::default());
+    let checks = crate::checks::run(&whole.cat, &Default::default());
     // A clause on a value not read yet would match none (or, negated, all).
     for (filter, waits) in [
         ("period<3", Some("not read yet")),
@@ -331,7 +338,7 @@ fn a_decision_for_a_whole_filter_waits_for_what_the_filter_reads() {
     }
     // Once the values are in, a value clause may decide; a flag waits for
     // the checks, then may too.
-    let _ = app.update(Input::Values(Ok(std::sync::Arc::new(whole))));
+    let _ = app.update(Input::Values(Ok(whole)));
     typed_filter(&mut app, "period<3");
     act(&mut app, Action::ApplyToFilter);
     assert_eq!(app.mode, Mode::Bulk);
@@ -357,7 +364,7 @@ fn the_odds_are_built_again_from_the_values_with_every_decision() {
     app.go_to(c);
     act(&mut app, Action::NextPane);
     act(&mut app, Action::Park);
-    let _ = app.update(Input::Values(Ok(std::sync::Arc::new(whole))));
+    let _ = app.update(Input::Values(Ok(whole)));
     let now = crate::tui::app::decisions_of(&app.cat, &app.live);
     assert!(now[c as usize] != crate::decision::Decision::Open);
     let fresh = crate::session::odds_with(
@@ -402,6 +409,54 @@ fn a_star_rejected_before_the_values_holds_its_other_id_once_they_arrive() {
     assert!(app.live.decision(p).is_rejected());
     // Without positions, nothing ties Q7 to P1 yet.
     assert_eq!(app.live.status(q), crate::odds::Status::Counted);
-    let _ = app.update(Input::Values(Ok(std::sync::Arc::new(whole))));
+    let _ = app.update(Input::Values(Ok(whole)));
     assert_ne!(app.live.status(q), crate::odds::Status::Counted);
+}
+
+#[test]
+fn the_odds_built_with_the_values_on_their_thread_are_taken_when_nothing_was_decided_meanwhile() {
+    // Odds planted as the read's thread's, told apart by their threshold.
+    let planted = |app: &App, whole: &ValuesIn| {
+        let model = crate::odds::Model {
+            threshold: 12345.0,
+            ..app.live.model().clone()
+        };
+        let odds = crate::odds::Live::new(&whole.cat, model).unwrap();
+        ValuesIn {
+            cat: std::sync::Arc::clone(&whole.cat),
+            odds: Some(Box::new(OddsAhead::planted(
+                OddsFrom::of(&app.cat, &app.live),
+                odds,
+            ))),
+        }
+    };
+    let (mut app, whole) = values_pending();
+    let values = planted(&app, &whole);
+    let _ = app.update(Input::Values(Ok(values)));
+    assert_eq!(app.values, Values::In);
+    assert_eq!(app.live.model().threshold, 12345.0);
+    // A decision made while the values were read: the odds are built
+    // again, with it, and the planted ones dropped.
+    let (mut app, whole) = values_pending();
+    let values = planted(&app, &whole);
+    let c = app.candidate().unwrap();
+    act(&mut app, Action::NextPane);
+    act(&mut app, Action::Park);
+    let _ = app.update(Input::Values(Ok(values)));
+    assert_ne!(app.live.model().threshold, 12345.0);
+    assert_eq!(app.live.decision(c), crate::decision::Decision::Parked);
+    // Unplanted, the thread's odds are the odds the browser would build.
+    let (mut app, whole) = values_pending();
+    let from = OddsFrom::of(&app.cat, &app.live);
+    let fresh = crate::session::odds_with(
+        &whole.cat,
+        app.live.model().clone(),
+        &crate::checks::Checks::none(whole.cat.len()),
+        crate::tui::app::decisions_of(&app.cat, &app.live),
+        app.live.unseen_fps(),
+    )
+    .unwrap();
+    let _ = app.update(Input::Values(Ok(whole)));
+    assert_eq!(OddsFrom::of(&app.cat, &app.live), from);
+    assert!(app.live.same_odds_state(&fresh));
 }
