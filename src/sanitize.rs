@@ -12,7 +12,10 @@ use std::fmt::Write as _;
 /// line read differently from what it holds. Backslash is escaped too, so the
 /// output reads back unambiguously. Clean text is borrowed, not copied.
 pub fn clean(s: &str) -> Cow<'_, str> {
-    if !s.chars().any(needs_escape) {
+    // Printable ASCII but the backslash, as ids nearly always are: clean
+    // without decoding a character (every character `needs_escape` names
+    // is a control, a backslash or not ASCII).
+    if s.bytes().all(|b| (0x20..0x7f).contains(&b) && b != b'\\') || !s.chars().any(needs_escape) {
         return Cow::Borrowed(s);
     }
     let mut out = String::with_capacity(s.len() + 8);
@@ -90,6 +93,20 @@ mod tests {
         let cleaned = clean("A\\B-1\tx").into_owned();
         assert_eq!(for_terminal(&cleaned), cleaned);
         assert_eq!(for_terminal("two\nlines"), "two\nlines");
+    }
+
+    #[test]
+    fn the_ascii_shortcut_escapes_what_the_characters_do() {
+        // Every byte on its own, and around a plain id: the shortcut
+        // borrows only what the character test would.
+        for b in 0u8..=0x7f {
+            let one = (b as char).to_string();
+            let id = format!("ZZ{one}-1");
+            for text in [one.as_str(), id.as_str()] {
+                let escaped = text.chars().any(needs_escape);
+                assert_eq!(matches!(clean(text), Cow::Owned(_)), escaped, "{b:#x}");
+            }
+        }
     }
 
     #[test]
