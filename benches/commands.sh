@@ -12,7 +12,8 @@
 # `decide` records one decision twice over: into a new ledger each round
 # (which reads the whole file for its fingerprint), and into a ledger that
 # has seen the catalogue already, as a vetter's every decision after the
-# first does (the fingerprint known from the file's stamp).
+# first does (the fingerprint known from the file's stamp); and a tenth of
+# the candidates at once from a file (`decide --from`) into that ledger.
 set -euo pipefail
 rounds="${2:-3}"
 [ -x /usr/bin/time ] || { echo "needs GNU time (/usr/bin/time)" >&2; exit 1; }
@@ -57,6 +58,15 @@ run "decide (new ledger)" sh -c 'rm -f "$1"*; shift; exec "$@"' - "$tmpd/new.sql
   "$bin" "${decide[@]}" --ledger "$tmpd/new.sqlite"
 "$bin" "${decide[@]}" --ledger "$ledger" >/dev/null 2>&1
 run "decide (seen ledger)" "$bin" "${decide[@]}" --ledger "$ledger"
+# A tenth of the candidates decided at once (`decide --from`), half of them
+# rejected, into the ledger that has seen the catalogue.
+batch="$tmpd/batch.csv"
+{
+  echo "candidate,decision,reason,note"
+  sed -n "2,$((n / 10 + 1))p" "$cat" | cut -d, -f2 |
+    awk 'NR % 2 { print $0 ",rejected,eclipsing-binary,bench"; next } { print $0 ",kept,," }'
+} >"$batch"
+run "decide --from (n/10)" "$bin" decide "$cat" --from "$batch" --vetter bench --ledger "$ledger"
 
 printf '%s candidates, best of %s (time) and largest of %s (memory)\n' "$n" "$rounds" "$rounds"
 printf '%-22s %9s %8s %10s %8s\n' command seconds "x summ." "peak MB" "x summ."

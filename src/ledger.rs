@@ -342,8 +342,15 @@ impl Ledger {
                 self.unwritable(format!("journal mode is {mode}, not WAL")),
             ));
         }
+        // A page cache of up to 64 MiB (SQLite's default is 2 MiB): a batch
+        // of decisions (`decide --from`, a bulk decision) is written at its
+        // commit, not spilled to the WAL page by page and read back. 100,000
+        // decisions made 90,000 page writes and 82,000 reads with the
+        // default, 12,000 and 4,000 with this.
         self.conn
-            .execute_batch("PRAGMA synchronous=FULL; PRAGMA foreign_keys=ON;")
+            .execute_batch(
+                "PRAGMA synchronous=FULL; PRAGMA foreign_keys=ON; PRAGMA cache_size=-65536;",
+            )
             .map_err(fatal)?;
         if version == SCHEMA_VERSION {
             return Ok(());
