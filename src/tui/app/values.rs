@@ -55,11 +55,9 @@ impl OddsFrom {
         }
     }
 
-    /// The odds of the whole catalogue `cat` from these, before any check
-    /// has run (the checks start once the values are in).
-    fn odds(self, cat: &Catalogue) -> Result<Live, ModelError> {
-        let checks = Checks::none(cat.len());
-        crate::session::odds_with(cat, self.model, &checks, self.decisions, &self.gone)
+    /// The odds of the whole catalogue `cat` from these and `checks`.
+    fn odds(self, cat: &Catalogue, checks: &Checks) -> Result<Live, ModelError> {
+        crate::session::odds_with(cat, self.model, checks, self.decisions, &self.gone)
     }
 }
 
@@ -74,10 +72,11 @@ pub struct OddsAhead {
 }
 
 impl OddsAhead {
-    /// The odds of `cat` from `from` (`OddsFrom::of` the first read's).
+    /// The odds of `cat` from `from` (`OddsFrom::of` the first read's),
+    /// before any check has run (the checks start once the values are in).
     pub fn build(cat: &Catalogue, from: OddsFrom) -> OddsAhead {
         OddsAhead {
-            odds: from.clone().odds(cat),
+            odds: from.clone().odds(cat, &Checks::none(cat.len())),
             from,
         }
     }
@@ -158,17 +157,11 @@ impl App {
     /// holds now; else they are built here.
     fn odds_of_the_values(&mut self, ahead: Option<Box<OddsAhead>>) {
         // The checks have not run (they start once the values are in):
-        // `self.checks` is what `OddsFrom::odds` assumes, none.
+        // `self.checks` are none, as `OddsAhead::build`'s.
         let now = OddsFrom::of(&self.cat, &self.live);
         let odds = match ahead {
             Some(ahead) if ahead.from == now => ahead.odds,
-            _ => crate::session::odds_with(
-                &self.cat,
-                now.model,
-                &self.checks,
-                now.decisions,
-                &now.gone,
-            ),
+            _ => now.odds(&self.cat, &self.checks),
         };
         match odds {
             Ok(live) => self.live = live,
