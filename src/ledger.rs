@@ -506,6 +506,30 @@ impl Ledger {
         }
     }
 
+    /// The candidates the ledger has decided on that `cat` does not list,
+    /// in the order of their ids. One pass over the candidate index, each
+    /// id read once and none of their entries: a ledger of a million
+    /// decisions answers in a fraction of a second, where reading the
+    /// latest entries took seconds.
+    pub fn candidates_not_in(
+        &self,
+        cat: &crate::catalogue::Catalogue,
+    ) -> Result<Vec<String>, LedgerError> {
+        let mut gone = Vec::new();
+        self.each(
+            "SELECT DISTINCT candidate FROM decision ORDER BY candidate",
+            &[],
+            |r, _| {
+                let c = r.get_ref(0)?.as_str()?;
+                if cat.find_candidate(c).is_none() {
+                    gone.push(c.to_string());
+                }
+                Ok(())
+            },
+        )?;
+        Ok(gone)
+    }
+
     /// The latest entry per candidate: of any vetter, or of one. One scan
     /// from the newest row back; older rows of a candidate already seen are
     /// passed over without being read into memory.

@@ -330,15 +330,10 @@ pub fn check_output_path(output: &Path, vetting: &VettingArgs) -> Result<(), Cli
 
 /// Which decided candidates the catalogue no longer has, in words.
 fn gone_note(ledger: &crate::ledger::Ledger, cat: &Catalogue) -> Result<Option<String>, CliError> {
-    let mut gone: Vec<String> = ledger
-        .latest(None)?
-        .not_in(cat)
-        .map(|e| e.candidate.clone())
-        .collect();
+    let gone = ledger.candidates_not_in(cat)?;
     if gone.is_empty() {
         return Ok(None);
     }
-    gone.sort();
     Ok(Some(format!(
         "{} decided candidates are not in the catalogue: {}{}",
         gone.len(),
