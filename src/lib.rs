@@ -19,7 +19,8 @@
 //!   ledger) and the live odds; every command's verdicts come from it.
 //! - [`cli`] and [`cmd`]: the command line; one file per command.
 //! - [`parallel`] and [`prefetch`]: work split over threads; rows asked of
-//!   memory ahead of loops that read them out of file order.
+//!   memory ahead of loops that read them out of file order; [`sorted`]:
+//!   searches of sorted lists from a likely place.
 //!
 //! The core (`catalogue`, `survey`, `odds`) knows nothing of terminals.
 
@@ -46,6 +47,7 @@ pub mod sanitize;
 pub mod science;
 pub mod selection;
 pub mod session;
+pub mod sorted;
 pub mod survey;
 pub mod transit_model;
 pub mod tui;

@@ -82,7 +82,10 @@ impl IdIndex {
     pub(in crate::catalogue) fn find(&self, h: u64, eq: impl Fn(u32) -> bool) -> Option<u32> {
         let (bits, mask) = (self.id_bits, self.mask());
         let hash = h >> bits;
-        let start = self.keys.partition_point(|&k| k >> bits < hash);
+        // The hashes are spread evenly: a key's share of the list is close
+        // to its share of the hash space, and the search starts there.
+        let guess = ((u128::from(hash) * self.keys.len() as u128) >> (64 - bits)) as usize;
+        let start = crate::sorted::partition_point_near(&self.keys, guess, |&k| k >> bits < hash);
         self.keys[start..]
             .iter()
             .take_while(|&&k| k >> bits == hash)

@@ -16,6 +16,7 @@
 use super::cells::{band_number, cell_number, cells_in_band, cells_near, reach};
 use super::{ECHO_MATCHES, ECHO_PLACED_REL, ECHO_WINDOW, Match, Pair, Quick, Sig};
 use crate::catalogue::CandidateId;
+use crate::sorted::advance;
 
 /// A signal as the search holds it: what the first tests of a comparison
 /// read ([`Pair::plausible`]), its place in the period order, and its
@@ -70,25 +71,6 @@ impl Held for Sig {
     fn whole(&self, _: &impl Fn(usize) -> Sig) -> Sig {
         *self
     }
-}
-
-/// The first place at or after `from` in `list` where `before` is false
-/// (`before` true up to some place and false after it): by galloping, so
-/// a cursor that moves far (a cell's signals span every period) costs the
-/// logarithm of the distance, not the distance.
-fn advance<T>(list: &[T], from: usize, before: impl Fn(&T) -> bool) -> usize {
-    let mut step = 1;
-    let mut lo = from;
-    while lo < list.len() && before(&list[lo]) {
-        let next = (lo + step).min(list.len());
-        if next < list.len() && before(&list[next]) {
-            lo = next + 1;
-            step *= 2;
-        } else {
-            return lo + 1 + list[lo + 1..next].partition_point(&before);
-        }
-    }
-    lo
 }
 
 /// The signals, laid out in the order the search reads them.
@@ -650,20 +632,6 @@ mod tests {
             }
         }
         out
-    }
-
-    #[test]
-    fn advance_finds_what_a_step_by_step_walk_finds() {
-        let list: Vec<u32> = (0..300).map(|x| x / 3).collect();
-        for from in 0..=list.len() {
-            for bound in 0..=101 {
-                let mut walk = from;
-                while walk < list.len() && list[walk] < bound {
-                    walk += 1;
-                }
-                assert_eq!(advance(&list, from, |&x| x < bound), walk, "{from} {bound}");
-            }
-        }
     }
 
     #[test]
