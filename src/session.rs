@@ -21,6 +21,9 @@ use crate::sanitize::clean;
 pub enum LedgerUse {
     /// The ledger's decisions if the ledger exists; never creates one.
     Read,
+    /// As `Read`, and its whole history too (`report`): every entry in
+    /// memory, which no other command needs.
+    ReadHistory,
     /// No ledger: every candidate open.
     Ignore,
 }
@@ -38,6 +41,8 @@ pub struct Session {
     /// The ledger read, if one was.
     pub ledger_path: Option<String>,
     pub disagreements: BTreeMap<String, Vec<Entry>>,
+    /// Every entry of the ledger, oldest first: read for
+    /// `LedgerUse::ReadHistory` only, empty otherwise.
     pub history: Vec<Entry>,
     /// Stars whose light curve was read, and those that failed (id, error).
     pub lightcurve_stars: usize,
@@ -210,7 +215,7 @@ impl Session {
             Ok(_) | Err(CliError::Model(ModelError::NoTargets(_))) => {}
             Err(e) => return Err(e),
         }
-        if ledger == LedgerUse::Read {
+        if ledger != LedgerUse::Ignore {
             args.ledger.check_exists()?;
         }
         args.lc.check_folder()?;
@@ -269,14 +274,20 @@ impl Session {
             lightcurve_totals = run.totals;
         }
         let opened = match ledger {
-            LedgerUse::Read => ledger_args.open_existing(input, &loaded)?,
+            LedgerUse::Read | LedgerUse::ReadHistory => {
+                ledger_args.open_existing(input, &loaded)?
+            }
             LedgerUse::Ignore => None,
         };
         let (latest, disagreements, history, ledger_path) = match &opened {
             Some(l) => (
                 l.latest(ledger_args.vetter.as_deref())?,
                 l.disagreements()?,
-                l.history(None)?,
+                if ledger == LedgerUse::ReadHistory {
+                    l.history(None)?
+                } else {
+                    Vec::new()
+                },
                 Some(l.path().display().to_string()),
             ),
             None => (Latest::default(), BTreeMap::new(), Vec::new(), None),

@@ -42,7 +42,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     if let Some(path) = &args.output {
         crate::cli::args::check_output_path(path, &args.vetting)?;
     }
-    let v = Session::open_for_verdicts(&args.vetting, LedgerUse::Read)?;
+    let v = Session::open_for_verdicts(&args.vetting, LedgerUse::ReadHistory)?;
     v.warn();
     let r = markdown(&v)?;
     let r = if args.format == "html" {

@@ -1,0 +1,176 @@
+//! Tests of the ledger: append-only, the latest entries, disagreements,
+//! migrations, foreign files.
+
+use super::*;
+
+fn temp(name: &str) -> PathBuf {
+    let d = std::env::temp_dir().join(format!("starsift-ledger-{}-{name}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&d);
+    std::fs::create_dir_all(&d).unwrap();
+    d.join("l.sqlite")
+}
+
+#[test]
+fn rfc3339_dates() {
+    // 2000-03-01 (the day after a leap day): 951868800 s after the Unix epoch.
+    assert_eq!(rfc3339(951_868_800, 5), "2000-03-01T00:00:00.005Z");
+    assert_eq!(rfc3339(0, 0), "1970-01-01T00:00:00.000Z");
+}
+
+#[test]
+fn append_only_and_latest() {
+    let p = temp("basic");
+    let mut l = Ledger::open(&p).unwrap();
+    let d = |c, v, dec| NewDecision {
+        candidate: c,
+        star: "S",
+        vetter: v,
+        decision: dec,
+        note: None,
+        undoes: None,
+    };
+    l.record(&d("S-1", "ann", Decision::Kept)).unwrap();
+    let id = l
+        .record(&d("S-1", "ann", Decision::Rejected(Reason::Blend)))
+        .unwrap();
+    l.record(&d("S-1", "bob", Decision::Kept)).unwrap();
+    l.record(&d("S-2", "bob", Decision::Parked)).unwrap();
+    assert_eq!(l.len().unwrap(), 4);
+    let latest = l.latest(None).unwrap();
+    assert_eq!(latest["S-1"].decision, Decision::Kept);
+    assert_eq!(&*latest["S-1"].vetter, "bob");
+    let ann = l.latest(Some("ann")).unwrap();
+    assert_eq!(ann["S-1"].decision, Decision::Rejected(Reason::Blend));
+    assert!(!ann.contains_key("S-2"));
+    let dis = l.disagreements().unwrap();
+    assert_eq!(dis.keys().collect::<Vec<_>>(), ["S-1"]);
+    // Nothing is updated or deleted in place.
+    let e = l
+        .conn
+        .execute("UPDATE decision SET vetter = 'eve' WHERE id = ?1", [id])
+        .unwrap_err();
+    assert!(e.to_string().contains("append-only"), "{e}");
+    assert!(l.conn.execute("DELETE FROM decision", []).is_err());
+    // A rejection without a reason is refused by the schema itself.
+    assert!(l.conn.execute(
+        "INSERT INTO decision (candidate, star, vetter, decision, decided_at) VALUES ('x','S','ann','rejected','t')",
+        []
+    ).is_err());
+    let mode: String = l
+        .conn
+        .query_row("PRAGMA journal_mode", [], |r| r.get(0))
+        .unwrap();
+    let sync: i64 = l
+        .conn
+        .query_row("PRAGMA synchronous", [], |r| r.get(0))
+        .unwrap();
+    assert_eq!((mode.as_str(), sync), ("wal", 2));
+    assert_eq!(l.integrity().unwrap(), "ok");
+}
+
+#[test]
+fn disagreements_are_latest_decisions_of_two_vetters_that_differ() {
+    let p = temp("disagree");
+    let mut l = Ledger::open(&p).unwrap();
+    let mut say = |c, v, dec| {
+        l.record(&NewDecision {
+            candidate: c,
+            star: "S",
+            vetter: v,
+            decision: dec,
+            note: None,
+            undoes: None,
+        })
+        .unwrap();
+    };
+    // One vetter changing their mind is no disagreement.
+    say("S-1", "ann", Decision::Kept);
+    say("S-1", "ann", Decision::Rejected(Reason::Blend));
+    say("S-2", "ann", Decision::Parked);
+    // A second vetter who agrees (in the end) with the first's latest.
+    say("S-2", "bob", Decision::Kept);
+    say("S-2", "bob", Decision::Parked);
+    // And one who does not: the latest of each counts, not the first.
+    say("S-1", "cy", Decision::Rejected(Reason::Blend));
+    say("S-1", "cy", Decision::Kept);
+    say("S-3", "cy", Decision::Kept);
+    let dis = l.disagreements().unwrap();
+    assert_eq!(dis.keys().collect::<Vec<_>>(), ["S-1"]);
+    let who: Vec<&str> = dis["S-1"].iter().map(|e| &*e.vetter).collect();
+    assert_eq!(who, ["ann", "cy"]);
+    // A ledger of one vetter has none, and so has an empty one.
+    let q = temp("one-vetter");
+    let mut one = Ledger::open(&q).unwrap();
+    assert!(one.disagreements().unwrap().is_empty());
+    for dec in [Decision::Kept, Decision::Parked] {
+        one.record(&NewDecision {
+            candidate: "S-1",
+            star: "S",
+            vetter: "ann",
+            decision: dec,
+            note: None,
+            undoes: None,
+        })
+        .unwrap();
+    }
+    assert!(one.disagreements().unwrap().is_empty());
+}
+
+#[test]
+fn migrates_version_1() {
+    let p = temp("v1");
+    {
+        let c = Connection::open(&p).unwrap();
+        c.execute_batch(SCHEMA_V1).unwrap();
+        c.execute_batch("PRAGMA user_version = 1;").unwrap();
+        c.execute(
+            "INSERT INTO decision (candidate, star, vetter, decision, reason, note, decided_at)
+             VALUES ('OLD-1', 'OLD', 'ann', 'rejected', 'alias', 'from v1', '2026-01-02T03:04:05.000Z')",
+            [],
+        )
+        .unwrap();
+    }
+    let mut l = Ledger::open(&p).unwrap();
+    let h = l.history(None).unwrap();
+    assert_eq!(h.len(), 1);
+    assert_eq!(h[0].decision, Decision::Rejected(Reason::Alias));
+    assert_eq!(h[0].tool_version, None);
+    let v: i32 = l
+        .conn
+        .query_row("PRAGMA user_version", [], |r| r.get(0))
+        .unwrap();
+    assert_eq!(v, SCHEMA_VERSION);
+    let id = l
+        .record(&NewDecision {
+            candidate: "OLD-1",
+            star: "OLD",
+            vetter: "bob",
+            decision: Decision::Open,
+            note: None,
+            undoes: Some(h[0].id),
+        })
+        .unwrap();
+    assert_eq!(l.history(Some("OLD-1")).unwrap()[1].undoes, Some(h[0].id));
+    assert!(id > h[0].id);
+}
+
+#[test]
+fn foreign_files_are_refused_unchanged() {
+    let p = temp("foreign");
+    std::fs::write(&p, b"star,candidate\nA,A-1\n").unwrap();
+    let before = std::fs::read(&p).unwrap();
+    let e = Ledger::open(&p).err().unwrap();
+    assert!(e.to_string().contains("not an SQLite database"), "{e}");
+    assert_eq!(std::fs::read(&p).unwrap(), before);
+    let q = p.with_file_name("other.sqlite");
+    {
+        let c = Connection::open(&q).unwrap();
+        c.execute_batch("CREATE TABLE birds (name TEXT); INSERT INTO birds VALUES ('wren');")
+            .unwrap();
+    }
+    let before = std::fs::read(&q).unwrap();
+    let e = Ledger::open(&q).err().unwrap();
+    assert!(e.to_string().contains("another application"), "{e}");
+    assert_eq!(std::fs::read(&q).unwrap(), before);
+    assert!(!q.with_file_name("other.sqlite-wal").exists());
+}
