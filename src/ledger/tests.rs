@@ -17,18 +17,23 @@ fn rfc3339_dates() {
     assert_eq!(rfc3339(0, 0), "1970-01-01T00:00:00.000Z");
 }
 
+/// A decision on star S, with no note.
+fn on_s<'a>(candidate: &'a str, vetter: &'a str, decision: Decision) -> NewDecision<'a> {
+    NewDecision {
+        candidate,
+        star: "S",
+        vetter,
+        decision,
+        note: None,
+        undoes: None,
+    }
+}
+
 #[test]
 fn append_only_and_latest() {
     let p = temp("basic");
     let mut l = Ledger::open(&p).unwrap();
-    let d = |c, v, dec| NewDecision {
-        candidate: c,
-        star: "S",
-        vetter: v,
-        decision: dec,
-        note: None,
-        undoes: None,
-    };
+    let d = on_s;
     l.record(&d("S-1", "ann", Decision::Kept)).unwrap();
     let id = l
         .record(&d("S-1", "ann", Decision::Rejected(Reason::Blend)))
@@ -73,15 +78,7 @@ fn disagreements_are_latest_decisions_of_two_vetters_that_differ() {
     let p = temp("disagree");
     let mut l = Ledger::open(&p).unwrap();
     let mut say = |c, v, dec| {
-        l.record(&NewDecision {
-            candidate: c,
-            star: "S",
-            vetter: v,
-            decision: dec,
-            note: None,
-            undoes: None,
-        })
-        .unwrap();
+        l.record(&on_s(c, v, dec)).unwrap();
     };
     // One vetter changing their mind is no disagreement.
     say("S-1", "ann", Decision::Kept);
@@ -103,15 +100,7 @@ fn disagreements_are_latest_decisions_of_two_vetters_that_differ() {
     let mut one = Ledger::open(&q).unwrap();
     assert!(one.disagreements().unwrap().is_empty());
     for dec in [Decision::Kept, Decision::Parked] {
-        one.record(&NewDecision {
-            candidate: "S-1",
-            star: "S",
-            vetter: "ann",
-            decision: dec,
-            note: None,
-            undoes: None,
-        })
-        .unwrap();
+        one.record(&on_s("S-1", "ann", dec)).unwrap();
     }
     assert!(one.disagreements().unwrap().is_empty());
 }
