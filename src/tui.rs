@@ -133,15 +133,40 @@ struct Unseen {
     stamp: String,
 }
 
-/// [`build_app`], counting the catalogue's bytes read into `read`.
-/// With `read` (the browser's loading screen), only the ids are read
+/// What the loading screen shows: the catalogue's bytes read so far, and
+/// the stage of the work after the read (a [`Stage`]).
+struct Counted {
+    read: Arc<std::sync::atomic::AtomicU64>,
+    stage: Arc<std::sync::atomic::AtomicU8>,
+}
+
+/// The work before the table, after the bytes are read.
+#[derive(Clone, Copy)]
+enum Stage {
+    /// The rows parsed and grouped by star (the read's own end).
+    Rows = 0,
+    /// The ledger opened, its notes made, its latest decisions read.
+    Ledger = 1,
+    /// The odds built from them.
+    Odds = 2,
+}
+
+impl Stage {
+    fn words(stage: u8) -> &'static str {
+        match stage {
+            0 => "grouping the rows by star",
+            1 => "reading the ledger",
+            _ => "building the odds",
+        }
+    }
+}
+
+/// [`build_app`], counting the catalogue's bytes read and the stage into
+/// `counted`. With it (the browser's loading screen), only the ids are read
 /// (`CatalogueArgs::load_counting`; the App waits for its values,
 /// `app::Values`), and a catalogue new to the ledger is not hashed before
 /// the table: it comes back as [`Unseen`].
-fn build_app_counting(
-    args: &Args,
-    read: Option<Arc<std::sync::atomic::AtomicU64>>,
-) -> Result<Built, CliError> {
+fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, CliError> {
     let keymap = args.keymap()?;
     let VettingArgs {
         input,
@@ -151,11 +176,20 @@ fn build_app_counting(
         ..
     } = &args.vetting;
     lc.check_folder()?;
-    let counting = read.is_some();
-    let loaded = match read {
-        Some(r) => input.load_counting(r, (!args.no_ledger).then_some(ledger_args))?,
+    let counting = counted.is_some();
+    let stage = |s: Stage| {
+        if let Some(c) = &counted {
+            c.stage.store(s as u8, std::sync::atomic::Ordering::Relaxed);
+        }
+    };
+    let loaded = match &counted {
+        Some(c) => {
+            let read = Arc::clone(&c.read);
+            input.load_counting(read, (!args.no_ledger).then_some(ledger_args))?
+        }
         None => input.load()?,
     };
+    stage(Stage::Ledger);
     // The checks run on a background thread once the browser is up (see `run`).
     let checks = crate::checks::Checks::none(loaded.catalogue.len());
     let finder = lc.finder(&loaded);
@@ -181,6 +215,7 @@ fn build_app_counting(
         Some(l) => Some(l.latest(ledger_args.vetter.as_deref())?),
         None => None,
     };
+    stage(Stage::Odds);
     // The same odds as every command's session; the checks arrive later.
     let live = crate::session::odds_of(
         &loaded.catalogue,
@@ -335,11 +370,16 @@ fn load_showing_progress(
         crate::sanitize::clean(&p.display().to_string()).into_owned()
     });
     let read = Arc::new(AtomicU64::new(0));
+    let stage = Arc::new(std::sync::atomic::AtomicU8::new(Stage::Rows as u8));
     let (tx, rx) = mpsc::channel();
     {
-        let (args, read) = (args.clone(), Arc::clone(&read));
+        let counted = Counted {
+            read: Arc::clone(&read),
+            stage: Arc::clone(&stage),
+        };
+        let args = args.clone();
         std::thread::spawn(move || {
-            let _ = tx.send(build_app_counting(&args, Some(read)));
+            let _ = tx.send(build_app_counting(&args, Some(counted)));
         });
     }
     let start = std::time::Instant::now();
@@ -352,12 +392,21 @@ fn load_showing_progress(
             Err(mpsc::RecvTimeoutError::Timeout) => {}
         }
         let r = read.load(Relaxed);
-        let text = if total > 0 {
+        let text = if total > 0 && r < total {
             format!(
                 "starsift: loading {name}: {:.0} of {:.0} MB read ({}%) · {:.1} s · q quits",
                 r as f64 / 1e6,
                 total as f64 / 1e6,
                 (100 * r / total).min(100),
+                start.elapsed().as_secs_f64()
+            )
+        } else if total > 0 {
+            // Read to the end: what comes before the table (with a ledger
+            // of many decisions, seconds).
+            format!(
+                "starsift: loading {name}: {:.0} MB read · {} · {:.1} s · q quits",
+                total as f64 / 1e6,
+                Stage::words(stage.load(Relaxed)),
                 start.elapsed().as_secs_f64()
             )
         } else {
@@ -369,7 +418,10 @@ fn load_showing_progress(
             } else {
                 text.clone()
             };
-            f.render_widget(ratatui::widgets::Paragraph::new(text), f.area());
+            // Wrapped: a long path must not push the numbers off a narrow
+            // screen.
+            let wrap = ratatui::widgets::Wrap { trim: true };
+            f.render_widget(ratatui::widgets::Paragraph::new(text).wrap(wrap), f.area());
         })?;
         while ratatui::crossterm::event::poll(Duration::ZERO)? {
             if let ratatui::crossterm::event::Event::Key(k) = ratatui::crossterm::event::read()? {
