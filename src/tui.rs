@@ -144,18 +144,18 @@ struct Counted {
 #[derive(Clone, Copy)]
 enum Stage {
     /// The rows parsed and grouped by star (the read's own end).
-    Rows = 0,
+    Rows,
     /// The ledger opened, its notes made, its latest decisions read.
-    Ledger = 1,
+    Ledger,
     /// The odds built from them.
-    Odds = 2,
+    Odds,
 }
 
 impl Stage {
     fn words(stage: u8) -> &'static str {
         match stage {
-            0 => "grouping the rows by star",
-            1 => "reading the ledger",
+            s if s == Stage::Rows as u8 => "grouping the rows by star",
+            s if s == Stage::Ledger as u8 => "reading the ledger",
             _ => "building the odds",
         }
     }

@@ -254,13 +254,14 @@ impl Index {
             // place a page of its own (a miss of the address cache a
             // signal: 0.3–0.8 s at 10M signals). A band's order is set by
             // the sort below, whatever order its entries come in.
+            let block = block.max(1);
             let gather = numbers.len() * 4 <= block;
             let mut held: Vec<(u32, Entry)> = Vec::with_capacity(block.min(n));
             let mut by_band: Vec<Entry> = Vec::new();
             let mut runs = vec![0usize; if gather { numbers.len() + 1 } else { 0 }];
-            for from in (0..n).step_by(block.max(1)) {
+            for from in (0..n).step_by(block) {
                 held.clear();
-                for i in from..(from + block.max(1)).min(n) {
+                for i in from..(from + block).min(n) {
                     let s = sig(i);
                     let b = band(&s);
                     if split < n {
