@@ -336,6 +336,24 @@ impl Catalogue {
             .find(h, |c| self.candidates.get(c as usize) == id)
     }
 
+    /// [`Catalogue::find_candidate`] of each of `ids`, in their order: for
+    /// many ids at once (a ledger's), which one sweep of the index finds
+    /// sooner than a search each (`IdIndex::find_each`).
+    pub fn find_candidates<S: AsRef<str>>(&self, ids: &[S]) -> Vec<Option<CandidateId>> {
+        let hashes: Vec<u64> = ids
+            .iter()
+            .map(|id| self.hasher.hash_one(id.as_ref().as_bytes()))
+            .collect();
+        let mut found = vec![None; ids.len()];
+        for (c, q) in self.candidate_lookup.find_each(&hashes) {
+            let q = q as usize;
+            if found[q].is_none() && self.candidates.get(c as usize) == ids[q].as_ref() {
+                found[q] = Some(c);
+            }
+        }
+        found
+    }
+
     /// The star whose id is `id` exactly as the catalogue spells it.
     fn star_as_written(&self, id: &str) -> Option<StarId> {
         let h = self.hasher.hash_one(id.as_bytes());

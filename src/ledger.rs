@@ -103,26 +103,6 @@ impl Latest {
     pub fn iter(&self) -> impl Iterator<Item = &Entry> {
         self.entries.iter()
     }
-
-    /// Entries of candidates the catalogue no longer lists.
-    pub fn not_in<'a>(
-        &'a self,
-        cat: &'a crate::catalogue::Catalogue,
-    ) -> impl Iterator<Item = &'a Entry> {
-        self.iter()
-            .filter(|e| cat.find_candidate(&e.candidate).is_none())
-    }
-
-    /// The decision in force for every candidate of a catalogue (open where
-    /// the ledger has none).
-    pub fn decisions(&self, cat: &crate::catalogue::Catalogue) -> Vec<Decision> {
-        (0..cat.len() as crate::catalogue::CandidateId)
-            .map(|c| {
-                self.get(cat.candidate_id(c))
-                    .map_or(Decision::Open, |e| e.decision)
-            })
-            .collect()
-    }
 }
 
 impl std::ops::Index<&str> for Latest {
@@ -132,6 +112,17 @@ impl std::ops::Index<&str> for Latest {
         self.get(candidate)
             .unwrap_or_else(|| panic!("no entry for {candidate}"))
     }
+}
+
+/// What the odds need of the ledger for one catalogue ([`Ledger::decided`]).
+#[derive(Debug, Default)]
+pub struct Decided {
+    /// By candidate id: the latest decision on each candidate (of one
+    /// vetter when asked), `Open` where there is none.
+    pub decisions: Vec<Decision>,
+    /// The latest entry of each candidate the catalogue does not list,
+    /// newest first.
+    pub gone: Vec<Entry>,
 }
 
 /// What a caller asks to record.
@@ -515,19 +506,84 @@ impl Ledger {
         &self,
         cat: &crate::catalogue::Catalogue,
     ) -> Result<Vec<String>, LedgerError> {
-        let mut gone = Vec::new();
+        let mut names = Names::default();
         self.each(
             "SELECT DISTINCT candidate FROM decision ORDER BY candidate",
             &[],
             |r, _| {
-                let c = r.get_ref(0)?.as_str()?;
-                if cat.find_candidate(c).is_none() {
-                    gone.push(c.to_string());
-                }
+                names.push(r.get_ref(0)?.as_str()?);
                 Ok(())
             },
         )?;
-        Ok(gone)
+        let names = names.all();
+        Ok(cat
+            .find_candidates(&names)
+            .into_iter()
+            .zip(names)
+            .filter(|(found, _)| found.is_none())
+            .map(|(_, name)| name.to_string())
+            .collect())
+    }
+
+    /// The latest decision on each candidate of `cat` (of any vetter, or of
+    /// one), and the latest entries of the candidates it does not list: what
+    /// the odds stand on. One scan of the decisions in the order they were
+    /// made, of their candidate, decision and reason only (a candidate's
+    /// last is its latest), with the candidates looked up in the catalogue
+    /// all at once; whole entries are read for the candidates it does not
+    /// list only.
+    pub fn decided(
+        &self,
+        cat: &crate::catalogue::Catalogue,
+        vetter: Option<&str>,
+    ) -> Result<Decided, LedgerError> {
+        let mut names = Names::default();
+        let mut rows: Vec<(i64, Decision)> = Vec::new();
+        let mut visit = |r: &rusqlite::Row, _: &mut Interner| -> rusqlite::Result<()> {
+            names.push(r.get_ref(1)?.as_str()?);
+            let text =
+                |i| -> rusqlite::Result<Option<&str>> { Ok(r.get_ref(i)?.as_str_or_null()?) };
+            let decision =
+                decision_from(text(2)?.unwrap_or("open"), text(3)?).unwrap_or(Decision::Open);
+            rows.push((r.get(0)?, decision));
+            Ok(())
+        };
+        let columns = "SELECT id, candidate, decision, reason FROM decision";
+        match vetter {
+            None => self.each(&format!("{columns} ORDER BY id"), &[], &mut visit)?,
+            Some(v) => self.each(
+                &format!("{columns} WHERE vetter = ?1 ORDER BY id"),
+                &[&v],
+                &mut visit,
+            )?,
+        }
+        let names = names.all();
+        let mut decisions = vec![Decision::Open; cat.len()];
+        let mut gone: hashbrown::HashMap<&str, i64> = hashbrown::HashMap::new();
+        for ((found, name), (id, decision)) in cat
+            .find_candidates(&names)
+            .into_iter()
+            .zip(&names)
+            .zip(rows)
+        {
+            match found {
+                Some(c) => decisions[c as usize] = decision,
+                None => {
+                    gone.insert(name, id);
+                }
+            }
+        }
+        let mut gone: Vec<i64> = gone.into_values().collect();
+        gone.sort_unstable_by(|a, b| b.cmp(a));
+        let sql = format!("SELECT {} FROM decision WHERE id = ?1", Self::COLUMNS);
+        let mut entries = Vec::with_capacity(gone.len());
+        for id in gone {
+            entries.extend(self.entries(&sql, &[&id])?);
+        }
+        Ok(Decided {
+            decisions,
+            gone: entries,
+        })
     }
 
     /// The latest entry per candidate: of any vetter, or of one. One scan
@@ -646,6 +702,29 @@ impl Ledger {
         self.conn
             .query_row("PRAGMA integrity_check", [], |r| r.get(0))
             .map_err(|e| self.classify(e))
+    }
+}
+
+/// Many ledger texts (candidate ids) end to end in one buffer, for
+/// [`crate::catalogue::Catalogue::find_candidates`].
+#[derive(Default)]
+struct Names {
+    text: String,
+    ends: Vec<usize>,
+}
+
+impl Names {
+    fn push(&mut self, s: &str) {
+        self.text.push_str(s);
+        self.ends.push(self.text.len());
+    }
+
+    fn all(&self) -> Vec<&str> {
+        let starts = std::iter::once(0).chain(self.ends.iter().copied());
+        starts
+            .zip(&self.ends)
+            .map(|(a, &b)| &self.text[a..b])
+            .collect()
     }
 }
 

@@ -12,7 +12,7 @@ use crate::checks::{CheckSettings, Checks};
 use crate::cli::args::{Loaded, VettingArgs};
 use crate::cli::error::CliError;
 use crate::decision::Decision;
-use crate::ledger::{Entry, Latest};
+use crate::ledger::{Decided, Entry, Latest};
 use crate::odds::{Live, ModelError};
 use crate::sanitize::clean;
 
@@ -21,6 +21,9 @@ use crate::sanitize::clean;
 pub enum LedgerUse {
     /// The ledger's decisions if the ledger exists; never creates one.
     Read,
+    /// As `Read`, and the latest entry of each candidate too (who decided
+    /// it, when, the note: `export`, `plot`).
+    ReadEntries,
     /// As `Read`, and its whole history too (`report`): every entry in
     /// memory, which no other command needs.
     ReadHistory,
@@ -36,7 +39,8 @@ pub struct Session {
     /// The odds; `Err` when the model cannot be built (e.g. no N), for the
     /// commands that can report without it.
     pub live: Result<Live, ModelError>,
-    /// Latest entry per candidate id (of one vetter when asked).
+    /// Latest entry per candidate id (of one vetter when asked): read for
+    /// `LedgerUse::ReadEntries` only, empty otherwise.
     pub latest: Latest,
     /// The ledger read, if one was.
     pub ledger_path: Option<String>,
@@ -61,26 +65,25 @@ pub fn odds_of(
     cat: &crate::catalogue::Catalogue,
     model: crate::odds::Model,
     checks: &Checks,
-    latest: Option<&Latest>,
+    decided: Option<Decided>,
 ) -> Result<Live, ModelError> {
-    let decisions = match latest {
-        Some(l) => l.decisions(cat),
-        None => vec![Decision::Open; cat.len()],
+    let (decisions, gone) = match decided {
+        Some(d) => (d.decisions, gone_false_positives(cat, &d.gone)),
+        None => (vec![Decision::Open; cat.len()], Vec::new()),
     };
-    let gone = latest.map_or_else(Vec::new, |l| gone_false_positives(cat, l));
     odds_with(cat, model, checks, decisions, &gone)
 }
 
 /// The stars a vetter's latest decision calls the host of a false positive
-/// through a candidate the catalogue no longer has (rejected as an
-/// eclipsing binary, a blend or a stellar-size companion; docs/science.md
-/// §1.1): a new release that dropped the binary still has its star.
+/// through a candidate the catalogue no longer has (`gone`: their latest
+/// entries; rejected as an eclipsing binary, a blend or a stellar-size
+/// companion; docs/science.md §1.1): a new release that dropped the binary
+/// still has its star.
 pub fn gone_false_positives(
     cat: &crate::catalogue::Catalogue,
-    latest: &Latest,
+    gone: &[Entry],
 ) -> Vec<crate::checks::UnseenFp> {
-    latest
-        .not_in(cat)
+    gone.iter()
         .filter_map(|e| {
             let reason = e
                 .decision
@@ -274,14 +277,20 @@ impl Session {
             lightcurve_totals = run.totals;
         }
         let opened = match ledger {
-            LedgerUse::Read | LedgerUse::ReadHistory => {
+            LedgerUse::Read | LedgerUse::ReadEntries | LedgerUse::ReadHistory => {
                 ledger_args.open_existing(input, &loaded)?
             }
             LedgerUse::Ignore => None,
         };
-        let (latest, disagreements, history, ledger_path) = match &opened {
+        let vetter = ledger_args.vetter.as_deref();
+        let (decided, latest, disagreements, history, ledger_path) = match &opened {
             Some(l) => (
-                l.latest(ledger_args.vetter.as_deref())?,
+                Some(l.decided(cat, vetter)?),
+                if ledger == LedgerUse::ReadEntries {
+                    l.latest(vetter)?
+                } else {
+                    Latest::default()
+                },
                 l.disagreements()?,
                 if ledger == LedgerUse::ReadHistory {
                     l.history(None)?
@@ -290,10 +299,10 @@ impl Session {
                 },
                 Some(l.path().display().to_string()),
             ),
-            None => (Latest::default(), BTreeMap::new(), Vec::new(), None),
+            None => (None, Latest::default(), BTreeMap::new(), Vec::new(), None),
         };
         let live = match model {
-            Ok(m) => odds_of(cat, m, &checks, opened.as_ref().map(|_| &latest)),
+            Ok(m) => odds_of(cat, m, &checks, decided),
             Err(CliError::Model(e)) => Err(e),
             Err(e) => return Err(e),
         };

@@ -211,8 +211,8 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         let (l, notes) = ledger_args.open_noting(input, &loaded)?;
         (Some(l), notes, None)
     };
-    let latest = match &ledger {
-        Some(l) => Some(l.latest(ledger_args.vetter.as_deref())?),
+    let decided = match &ledger {
+        Some(l) => Some(l.decided(&loaded.catalogue, ledger_args.vetter.as_deref())?),
         None => None,
     };
     stage(Stage::Odds);
@@ -221,7 +221,7 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         &loaded.catalogue,
         model.model(&loaded.survey)?,
         &checks,
-        latest.as_ref(),
+        decided,
     )?;
     let cat = Arc::new(loaded.catalogue);
     // The values are read from now on, behind the table being drawn.

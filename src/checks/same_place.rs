@@ -28,15 +28,22 @@ pub(super) fn ties(
         return Vec::new();
     };
     // The targets with a position, by declination.
-    let mut near: Vec<(f64, f64, CandidateId)> = targets
+    let mut near: Vec<Target> = targets
         .iter()
         .map(|&c| (dec[c as usize], ra[c as usize], c))
         .filter(|&(d, r, _)| real_position(r, d))
+        .map(|(dec, ra, c)| Target {
+            dec,
+            ra,
+            c,
+            star: cat.star_of(c),
+            cos_dec: dec.to_radians().cos(),
+        })
         .collect();
     if near.is_empty() {
         return Vec::new();
     }
-    near.sort_by(|a, b| a.0.total_cmp(&b.0));
+    near.sort_by(|a, b| a.dec.total_cmp(&b.dec));
     let reach = SAME_PLACE_ARCSEC / 3600.0;
     // Bands of declination `reach` wide, and where each starts in `near`
     // (sorted by declination, so each band's targets lie together). A row's
@@ -46,7 +53,7 @@ pub(super) fn ties(
     let band = |d: f64| (((d + 90.0) / reach).floor().max(0.0) as usize).min(bands - 1);
     let mut start = vec![0u32; bands + 1];
     for f in &near {
-        start[band(f.0) + 1] += 1;
+        start[band(f.dec) + 1] += 1;
     }
     for i in 1..start.len() {
         start[i] += start[i - 1];
@@ -60,15 +67,46 @@ pub(super) fn ties(
             let star: StarId = cat.star_of(c);
             let b = band(d);
             let (lo, hi) = (start[b.saturating_sub(2)], start[(b + 3).min(bands)]);
+            let mut cos_dec = None;
             near[lo as usize..hi as usize]
                 .iter()
-                .skip_while(|f| f.0 < d - reach)
-                .take_while(|f| f.0 <= d + reach)
-                .filter(|f| cat.star_of(f.2) != star)
-                .map(|f| (f.2, c, separation_arcsec(f.1, f.0, r, d)))
+                .skip_while(|f| f.dec < d - reach)
+                .take_while(|f| f.dec <= d + reach)
+                .filter(|f| f.star != star)
+                .filter(|f| {
+                    let cos_dec = *cos_dec.get_or_insert_with(|| d.to_radians().cos());
+                    !apart_in_ra(f, r, cos_dec)
+                })
+                .map(|f| (f.c, c, separation_arcsec(f.ra, f.dec, r, d)))
                 .find(|&(_, _, apart)| apart <= SAME_PLACE_ARCSEC)
         })
         .collect()
+}
+
+/// A target of [`ties`] with its position (degrees), star and the cosine
+/// of its declination.
+struct Target {
+    dec: f64,
+    ra: f64,
+    c: CandidateId,
+    star: StarId,
+    cos_dec: f64,
+}
+
+/// Whether a row at right ascension `ra` (degrees) whose declination has
+/// cosine `cos_dec` lies farther than [`SAME_PLACE_ARCSEC`] from target
+/// `t` by the difference in right ascension alone: a test without a
+/// sine, so that the separation is computed for the few rows it passes.
+/// By the haversine formula (Sinnott 1984, Sky & Telescope 68, 159; from
+/// memory), hav θ = hav Δδ + cos δ₁ cos δ₂ hav Δα ≥ cos δ₁ cos δ₂ (Δα/π)²
+/// (sin x ≥ 2x/π for 0 ≤ x ≤ π/2), with Δα the difference folded into
+/// [0, π]: past hav R, θ is past R. A margin of 1% keeps rounding from
+/// parting a pair the separation would join.
+fn apart_in_ra(t: &Target, ra: f64, cos_dec: f64) -> bool {
+    let half = (SAME_PLACE_ARCSEC / 3600.0 / 2.0).to_radians().sin();
+    let d = (t.ra - ra).abs().rem_euclid(360.0);
+    let d = d.min(360.0 - d).to_radians() / std::f64::consts::PI;
+    t.cos_dec * cos_dec * d * d > half * half * 1.01
 }
 
 /// Holds each star whose rows sit within [`SAME_PLACE_ARCSEC`] of a
@@ -136,8 +174,9 @@ mod tests {
 
     #[test]
     fn the_bands_find_what_comparing_every_pair_finds() {
-        // Invented: 3,000 rows in pairs of stars 0–3″ apart, some on band
-        // edges and at the poles; every third row a target.
+        // Invented: 3,000 rows in pairs of stars 0–3″ apart in declination
+        // and up to 1.5″ in right ascension, some on band edges and at the
+        // poles; every third row a target.
         let mut state = 0x2545_f491_4f6c_dd1du64;
         let mut next = || {
             state ^= state << 13;
@@ -154,9 +193,15 @@ mod tests {
                 2 => -90.0 + (next() * 180.0 * 1800.0).floor() / 1800.0,
                 _ => next() * 170.0 - 85.0,
             };
-            let ra = next() * 360.0;
+            let ra = if i % 7 == 0 {
+                next() * 1e-4
+            } else {
+                next() * 360.0
+            };
             let off = next() * 3.0 / 3600.0;
-            for (j, (r, d)) in [(ra, dec), (ra, (dec + off).min(90.0))].iter().enumerate() {
+            // Apart in right ascension too, across 0°/360° for some.
+            let ra2 = (ra + (next() - 0.5) * 3.0 / 3600.0).rem_euclid(360.0);
+            for (j, (r, d)) in [(ra, dec), (ra2, (dec + off).min(90.0))].iter().enumerate() {
                 text.push_str(&format!("S{i}x{j},C{i}x{j},3.5,100,800,3,{r},{d}\n"));
             }
         }
@@ -165,5 +210,48 @@ mod tests {
         let found = ties(&cat, &targets);
         assert!(found.len() > 500, "{}", found.len());
         assert_eq!(found, every_pair(&cat, &targets));
+    }
+
+    #[test]
+    fn a_row_set_apart_by_right_ascension_is_beyond_the_radius() {
+        // Invented pairs within a few arcseconds, at every declination (the
+        // poles too) and across right ascension 0°/360°: the cheap test
+        // never parts a pair the haversine formula joins.
+        let mut rng = crate::demo::Rng::new(5);
+        let (mut parted, mut joined) = (0, 0);
+        for i in 0..200_000 {
+            let dec = (rng.uniform(-90.0, 90.0)).clamp(-90.0, 90.0);
+            let ra = if i % 3 == 0 {
+                rng.uniform(0.0, 0.001)
+            } else {
+                rng.uniform(0.0, 360.0)
+            };
+            let cos = dec.to_radians().cos().max(1e-9);
+            let (dr, dd) = (
+                rng.uniform(-0.5, 0.5) * 12.0 / 3600.0 / cos,
+                rng.uniform(-0.5, 0.5) * 4.0 / 3600.0,
+            );
+            let (ra2, dec2) = ((ra + dr).rem_euclid(360.0), (dec + dd).clamp(-90.0, 90.0));
+            let t = Target {
+                dec,
+                ra,
+                c: 0,
+                star: 0,
+                cos_dec: dec.to_radians().cos(),
+            };
+            let apart = separation_arcsec(ra, dec, ra2, dec2);
+            if apart_in_ra(&t, ra2, dec2.to_radians().cos()) {
+                assert!(
+                    apart > SAME_PLACE_ARCSEC,
+                    "{ra} {dec} {ra2} {dec2}: {apart}"
+                );
+                parted += 1;
+            } else if apart <= SAME_PLACE_ARCSEC {
+                joined += 1;
+            }
+        }
+        // The test does its work: many pairs far apart in right ascension
+        // are parted by it, and many pairs within the radius are met.
+        assert!(parted > 50_000 && joined > 10_000, "{parted} {joined}");
     }
 }

@@ -89,7 +89,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         crate::cli::args::check_output_path(path, &args.vetting)?;
         crate::cli::args::check_output_path(&sidecar_path(path), &args.vetting)?;
     }
-    let v = Session::open_for_verdicts(&args.vetting, LedgerUse::Read)?;
+    let v = Session::open_for_verdicts(&args.vetting, LedgerUse::ReadEntries)?;
     v.warn();
     let live = v.live()?;
     let rows = v.selected(live, filter.as_ref());

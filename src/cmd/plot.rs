@@ -48,7 +48,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         )));
     }
     crate::cli::args::check_output_path(&args.output, &args.vetting)?;
-    let v = Session::open_for_verdicts(&args.vetting, LedgerUse::Read)?;
+    let v = Session::open_for_verdicts(&args.vetting, LedgerUse::ReadEntries)?;
     v.warn();
     let live = v.live()?;
     let cat = &v.loaded.catalogue;

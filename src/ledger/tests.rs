@@ -163,3 +163,52 @@ fn foreign_files_are_refused_unchanged() {
     assert_eq!(std::fs::read(&q).unwrap(), before);
     assert!(!q.with_file_name("other.sqlite-wal").exists());
 }
+
+#[test]
+fn what_the_odds_read_is_the_latest_entry_of_each_candidate() {
+    let p = temp("decided");
+    let mut l = Ledger::open(&p).unwrap();
+    let cat = crate::catalogue::Catalogue::from_text(
+        "invented.csv",
+        "star,candidate,period,epoch,depth_ppm,duration_h\n\
+         S,S-1,3.5,100,500,2\nS,S-2,5.5,100,500,2\nS,S-3,7.5,100,500,2\n",
+    );
+    let mut rng = crate::demo::Rng::new(7);
+    let names = ["S-1", "S-2", "gone-1", "gone-2", "S-3"];
+    let vetters = ["ann", "bob"];
+    let decisions = [
+        Decision::Kept,
+        Decision::Parked,
+        Decision::Open,
+        Decision::Rejected(Reason::EclipsingBinary),
+        Decision::Rejected(Reason::Blend),
+    ];
+    for _ in 0..60 {
+        let pick = |rng: &mut crate::demo::Rng, n: usize| rng.below(n as u64) as usize;
+        let (c, v, d) = (pick(&mut rng, 4), pick(&mut rng, 2), pick(&mut rng, 5));
+        l.record(&on_s(names[c], vetters[v], decisions[d])).unwrap();
+    }
+    for vetter in [None, Some("ann"), Some("bob"), Some("eve")] {
+        // What the whole latest entries give, one candidate at a time.
+        let latest = l.latest(vetter).unwrap();
+        let decided = l.decided(&cat, vetter).unwrap();
+        let want: Vec<Decision> = (0..cat.len() as crate::catalogue::CandidateId)
+            .map(|c| {
+                latest
+                    .get(cat.candidate_id(c))
+                    .map_or(Decision::Open, |e| e.decision)
+            })
+            .collect();
+        assert_eq!(decided.decisions, want, "{vetter:?}");
+        let gone: Vec<&Entry> = latest
+            .iter()
+            .filter(|e| cat.find_candidate(&e.candidate).is_none())
+            .collect();
+        assert_eq!(decided.gone.iter().collect::<Vec<_>>(), gone, "{vetter:?}");
+    }
+    // S-3 was never decided: open; both gone candidates were.
+    let all = l.decided(&cat, None).unwrap();
+    assert_eq!(all.decisions[2], Decision::Open);
+    assert_eq!(all.gone.len(), 2);
+    assert_eq!(l.candidates_not_in(&cat).unwrap(), ["gone-1", "gone-2"]);
+}

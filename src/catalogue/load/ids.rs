@@ -92,6 +92,35 @@ impl IdIndex {
             .map(|&k| (k & mask) as u32)
             .find(|&id| eq(id))
     }
+
+    /// [`IdIndex::find`] for many hashes at once: every (id, query) pair
+    /// whose hash part is the query's, sorted by id. The queries are sorted
+    /// by hash and the keys walked beside them once, so that a lookup of a
+    /// ledger's 500,000 candidates reads the index (and the caller its ids'
+    /// text, in id order) in sequence: a lookup one by one reads three or
+    /// four far-apart places per query (0.7 µs each at 1M candidates).
+    pub(in crate::catalogue) fn find_each(&self, hashes: &[u64]) -> Vec<(u32, u32)> {
+        let (bits, mask) = (self.id_bits, self.mask());
+        let mut queries: Vec<(u64, u32)> = hashes
+            .iter()
+            .enumerate()
+            .map(|(q, &h)| (h >> bits, q as u32))
+            .collect();
+        queries.sort_unstable();
+        let mut pairs = Vec::with_capacity(queries.len());
+        let mut at = 0;
+        for (hash, q) in queries {
+            at = crate::sorted::advance(&self.keys, at, |&k| k >> bits < hash);
+            pairs.extend(
+                self.keys[at..]
+                    .iter()
+                    .take_while(|&&k| k >> bits == hash)
+                    .map(|&k| ((k & mask) as u32, q)),
+            );
+        }
+        pairs.sort_unstable();
+        pairs
+    }
 }
 
 /// Rows grouped by hash alone, for `IdIndex::build`: the index of each

@@ -648,3 +648,33 @@ fn a_read_given_the_ids_of_a_first_read_is_a_plain_read() {
         }
     }
 }
+
+#[test]
+fn ids_found_together_are_those_found_one_by_one() {
+    let mut text = String::from("star,candidate,period,epoch,depth_ppm,duration_h\n");
+    for i in 0..300 {
+        let (star, n) = (i / 3, i % 3 + 1);
+        text.push_str(&format!("S{star},C{star}.0{n},{}.5,100,500,2\n", i % 7 + 1));
+    }
+    let cat = Catalogue::from_text("invented.csv", &text);
+    let mut rng = crate::demo::Rng::new(11);
+    // Every id, in a shuffled order with repeats, among ids the catalogue
+    // lacks (a prefix, a suffix, the empty id, a star's id).
+    let mut ids: Vec<String> = (0..cat.len() as CandidateId)
+        .map(|c| cat.candidate_id(c).to_string())
+        .collect();
+    ids.extend(["C1", "C1.011", "", "S4", "c1.01", "C99.03 "].map(String::from));
+    for _ in 0..200 {
+        let at = rng.below(ids.len() as u64) as usize;
+        ids.push(ids[at].clone());
+    }
+    for i in (1..ids.len()).rev() {
+        ids.swap(i, rng.below(i as u64 + 1) as usize);
+    }
+    let found = cat.find_candidates(&ids);
+    let one_by_one: Vec<_> = ids.iter().map(|id| cat.find_candidate(id)).collect();
+    assert_eq!(found, one_by_one);
+    assert_eq!(cat.len(), 300);
+    assert!(found.iter().filter(|f| f.is_none()).count() >= 6);
+    assert!(cat.find_candidates::<&str>(&[]).is_empty());
+}
