@@ -278,14 +278,18 @@ impl Session {
         }
         let opened = match ledger {
             LedgerUse::Read | LedgerUse::ReadEntries | LedgerUse::ReadHistory => {
-                ledger_args.open_existing(input, &loaded)?
+                ledger_args.open_existing(input)?
             }
             LedgerUse::Ignore => None,
         };
         let vetter = ledger_args.vetter.as_deref();
         let (decided, latest, disagreements, history, ledger_path) = match &opened {
             Some(l) => (
-                Some(l.decided(cat, vetter)?),
+                Some(l.decided(cat, vetter).inspect(|d| {
+                    if let Some(n) = crate::cli::args::gone_note(&d.not_listed) {
+                        eprintln!("starsift: note: {n}");
+                    }
+                })?),
                 if ledger == LedgerUse::ReadEntries {
                     l.latest(vetter)?
                 } else {

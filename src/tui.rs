@@ -195,7 +195,7 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
     let finder = lc.finder(&loaded);
     // The ledger's notes (catalogue changed, decided candidates gone) go to
     // the message line: stderr is behind the browser's screen.
-    let (ledger, notes, unseen) = if args.no_ledger {
+    let (ledger, mut notes, unseen) = if args.no_ledger {
         (None, Vec::new(), None)
     } else if counting {
         let (l, notes, deferred) = ledger_args.open_deferring(input, &loaded)?;
@@ -215,6 +215,11 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         Some(l) => Some(l.decided(&loaded.catalogue, ledger_args.vetter.as_deref())?),
         None => None,
     };
+    notes.extend(
+        decided
+            .as_ref()
+            .and_then(|d| crate::cli::args::gone_note(&d.not_listed)),
+    );
     stage(Stage::Odds);
     // The same odds as every command's session; the checks arrive later.
     let live = crate::session::odds_of(

@@ -119,10 +119,6 @@ impl LedgerArgs {
         crate::ledger::recorded_fingerprint(&ledger, &catalogue.display().to_string(), stamp)
     }
 
-    /// The ledger a read-only command reads: the one `--ledger` names (which
-    /// must exist: a mistyped path is an error, not an empty ledger), else
-    /// the default one if it exists; `None` when there is none. Nothing is
-    /// created or written.
     /// For a read-only command: a given `--ledger` must exist (checked
     /// before any data is read).
     pub fn check_exists(&self) -> Result<(), CliError> {
@@ -135,10 +131,13 @@ impl LedgerArgs {
         }
     }
 
+    /// The ledger a read-only command reads: the one `--ledger` names (which
+    /// must exist: a mistyped path is an error, not an empty ledger), else
+    /// the default one if it exists; `None` when there is none. Nothing is
+    /// created or written.
     pub fn open_existing(
         &self,
         input: &CatalogueArgs,
-        loaded: &Loaded,
     ) -> Result<Option<crate::ledger::Ledger>, CliError> {
         self.check_exists()?;
         let path = match &self.ledger {
@@ -151,11 +150,9 @@ impl LedgerArgs {
                 p
             }
         };
-        let ledger = crate::ledger::Ledger::open(&path)?;
-        if let Some(n) = gone_note(&ledger, &loaded.catalogue)? {
-            eprintln!("starsift: note: {n}");
-        }
-        Ok(Some(ledger))
+        // The note of decided candidates gone from the catalogue comes
+        // with the decisions (`crate::ledger::Decided::not_listed`).
+        Ok(Some(crate::ledger::Ledger::open(&path)?))
     }
 
     /// Opens the ledger for a loaded catalogue, records the catalogue's
@@ -166,15 +163,18 @@ impl LedgerArgs {
         input: &CatalogueArgs,
         loaded: &Loaded,
     ) -> Result<crate::ledger::Ledger, CliError> {
-        let (ledger, notes) = self.open_noting(input, loaded)?;
-        for n in notes {
+        let (ledger, notes, _) = self.open_with(input, loaded, false)?;
+        let gone = ledger.candidates_not_in(&loaded.catalogue)?;
+        for n in notes.into_iter().chain(gone_note(&gone)) {
             eprintln!("starsift: note: {n}");
         }
         Ok(ledger)
     }
 
-    /// [`LedgerArgs::open`] returning its notes instead of printing them
-    /// (the browser shows them on its message line).
+    /// [`LedgerArgs::open`] returning its note on the catalogue instead of
+    /// printing it (the browser shows it on its message line), and without
+    /// the note of decided candidates gone from the catalogue, which the
+    /// browser makes from its read of the decisions (`gone_note`).
     pub fn open_noting(
         &self,
         input: &CatalogueArgs,
@@ -196,6 +196,8 @@ impl LedgerArgs {
         self.open_with(input, loaded, true)
     }
 
+    /// Opens (or creates) the ledger and records the catalogue's sighting
+    /// (unless deferred), with the note that it changed.
     fn open_with(
         &self,
         input: &CatalogueArgs,
@@ -231,7 +233,6 @@ impl LedgerArgs {
                 loaded.stamp.as_deref(),
             )?);
         }
-        notes.extend(gone_note(&ledger, cat)?);
         Ok((ledger, notes, deferred))
     }
 }
@@ -328,13 +329,13 @@ pub fn check_output_path(output: &Path, vetting: &VettingArgs) -> Result<(), Cli
     Ok(())
 }
 
-/// Which decided candidates the catalogue no longer has, in words.
-fn gone_note(ledger: &crate::ledger::Ledger, cat: &Catalogue) -> Result<Option<String>, CliError> {
-    let gone = ledger.candidates_not_in(cat)?;
+/// Which decided candidates the catalogue no longer has (`gone`), in
+/// words.
+pub fn gone_note(gone: &[String]) -> Option<String> {
     if gone.is_empty() {
-        return Ok(None);
+        return None;
     }
-    Ok(Some(format!(
+    Some(format!(
         "{} decided candidates are not in the catalogue: {}{}",
         gone.len(),
         gone.iter()
@@ -343,7 +344,7 @@ fn gone_note(ledger: &crate::ledger::Ledger, cat: &Catalogue) -> Result<Option<S
             .collect::<Vec<_>>()
             .join(", "),
         if gone.len() > 20 { ", ..." } else { "" }
-    )))
+    ))
 }
 
 /// A loaded catalogue with the survey facts found beside it.

@@ -205,6 +205,8 @@ fn what_the_odds_read_is_the_latest_entry_of_each_candidate() {
             .filter(|e| cat.find_candidate(&e.candidate).is_none())
             .collect();
         assert_eq!(decided.gone.iter().collect::<Vec<_>>(), gone, "{vetter:?}");
+        // The candidates gone are every vetter's, whoever's decisions count.
+        assert_eq!(decided.not_listed, ["gone-1", "gone-2"], "{vetter:?}");
     }
     // S-3 was never decided: open; both gone candidates were.
     let all = l.decided(&cat, None).unwrap();
