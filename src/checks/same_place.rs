@@ -58,8 +58,23 @@ pub(super) fn ties(
     for i in 1..start.len() {
         start[i] += start[i - 1];
     }
+    // The rows are read in the file's order, the targets near each at
+    // random places: asked for some rows ahead (where the band starts in
+    // `near`, then its first targets), the memory serves many at once.
+    let ask = |c: usize, targets: bool| {
+        if let Some(&d) = dec.get(c) {
+            let b = band(d).saturating_sub(2);
+            if targets {
+                crate::prefetch::value(&near, start[b] as usize);
+            } else {
+                crate::prefetch::value(&start, b);
+            }
+        }
+    };
     (0..cat.len() as CandidateId)
         .filter_map(|c| {
+            ask(c as usize + 16, false);
+            ask(c as usize + 8, true);
             let (r, d) = (ra[c as usize], dec[c as usize]);
             if !real_position(r, d) {
                 return None;
