@@ -16,34 +16,17 @@
 # the candidates at once from a file (`decide --from`) into that ledger.
 set -euo pipefail
 rounds="${2:-3}"
-[ -x /usr/bin/time ] || { echo "needs GNU time (/usr/bin/time)" >&2; exit 1; }
 # STARSIFT_BIN runs another build (e.g. an older commit's) on the same file.
 . "$(dirname "$0")/big.sh"
 tmpd="$(mktemp -d)"
 trap 'rm -rf "$tmpd"' EXIT
-# Read once so that every timing finds the file in the page cache, the
-# first (`summary`) included.
-cat "$cat" >/dev/null
+. "$(dirname "$0")/best.sh"
 ledger="$tmpd/bench.ledger.sqlite"
-model=(--no-lightcurves --targets $((2 * n)))
-first="$(sed -n 2p "$cat" | cut -d, -f2)"
 
-declare -A best_s best_kb
-names=()
+# ROUNDS runs of one command, one after the other.
 run() {
-  local name="$1"; shift
-  names+=("$name")
-  local s kb
   for _ in $(seq "$rounds"); do
-    /usr/bin/time -o "$tmpd/t" -f "%e %M" "$@" >/dev/null 2>"$tmpd/err" \
-      || { echo "$name failed:" >&2; cat "$tmpd/err" >&2; exit 1; }
-    read -r s kb <"$tmpd/t"
-    if [ -z "${best_s[$name]:-}" ] || awk "BEGIN{exit !($s < ${best_s[$name]})}"; then
-      best_s[$name]=$s
-    fi
-    if [ -z "${best_kb[$name]:-}" ] || [ "$kb" -gt "${best_kb[$name]}" ]; then
-      best_kb[$name]=$kb
-    fi
+    timed "$@"
   done
 }
 
@@ -69,9 +52,4 @@ batch="$tmpd/batch.csv"
 run "decide --from (n/10)" "$bin" decide "$cat" --from "$batch" --vetter bench --ledger "$ledger"
 
 printf '%s candidates, best of %s (time) and largest of %s (memory)\n' "$n" "$rounds" "$rounds"
-printf '%-22s %9s %8s %10s %8s\n' command seconds "x summ." "peak MB" "x summ."
-for name in "${names[@]}"; do
-  awk -v n="$name" -v s="${best_s[$name]}" -v kb="${best_kb[$name]}" \
-      -v s0="${best_s[summary]}" -v kb0="${best_kb[summary]}" \
-      'BEGIN{printf "%-22s %9.2f %8.2f %10.0f %8.2f\n", n, s, s/s0, kb/1024, kb/kb0}'
-done
+report

@@ -14,15 +14,12 @@
 # a ledger it writes itself.
 set -euo pipefail
 rounds="${2:-3}"
-[ -x /usr/bin/time ] || { echo "needs GNU time (/usr/bin/time)" >&2; exit 1; }
 . "$(dirname "$0")/big.sh"
 tmpd="$(mktemp -d)"
 s="starsift-ledger-$$"
 trap 'tmux kill-session -t "$s" 2>/dev/null || true; rm -rf "$tmpd"' EXIT
-cat "$cat" >/dev/null
+. "$(dirname "$0")/best.sh"
 ledger="$tmpd/ledger.sqlite"
-model=(--no-lightcurves --targets $((2 * n)))
-first="$(sed -n 2p "$cat" | cut -d, -f2)"
 batch="$tmpd/batch.csv"
 {
   echo "candidate,decision,reason,note"
@@ -33,26 +30,7 @@ batch="$tmpd/batch.csv"
 "$bin" decide "$cat" --from "$batch" --vetter bench --ledger "$ledger" >/dev/null
 echo "$n candidates, ledger of $(( $(wc -l <"$batch") - 1 )) decisions"
 
-declare -A best_s best_kb
-names=()
-keep() {
-  local name="$1" s="$2" kb="$3"
-  [ -n "${best_s[$name]:-}" ] || names+=("$name")
-  if [ -z "${best_s[$name]:-}" ] || awk "BEGIN{exit !($s < ${best_s[$name]})}"; then
-    best_s[$name]=$s
-  fi
-  if [ -z "${best_kb[$name]:-}" ] || [ "$kb" -gt "${best_kb[$name]}" ]; then
-    best_kb[$name]=$kb
-  fi
-}
-timed() {
-  local name="$1"; shift
-  /usr/bin/time -o "$tmpd/t" -f "%e %M" "$@" >/dev/null 2>"$tmpd/err" \
-    || { echo "$name failed:" >&2; cat "$tmpd/err" >&2; exit 1; }
-  local s kb
-  read -r s kb <"$tmpd/t"
-  keep "$name" "$s" "$kb"
-}
+# The browser's table of systems, from its start (tmux), with its peak memory.
 table() {
   local t0 pid kb=0 ms
   t0=$(date +%s%N)
@@ -74,9 +52,4 @@ for _ in $(seq "$rounds"); do
 done
 
 printf 'best of %s (time) and largest of %s (memory)\n' "$rounds" "$rounds"
-printf '%-22s %9s %8s %10s %8s\n' command seconds "x summ." "peak MB" "x summ."
-for name in "${names[@]}"; do
-  awk -v n="$name" -v s="${best_s[$name]}" -v kb="${best_kb[$name]}" \
-      -v s0="${best_s[summary]}" -v kb0="${best_kb[summary]}" \
-      'BEGIN{printf "%-22s %9.2f %8.2f %10.0f %8.2f\n", n, s, s/s0, kb/1024, kb/kb0}'
-done
+report

@@ -11,7 +11,6 @@
 set -euo pipefail
 . "$(dirname "$0")/big.sh"
 runs="${2:-3}"
-cat "$cat" >/dev/null
 table() {
   local tmpd s t0
   tmpd="$(mktemp -d)"
