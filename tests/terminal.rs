@@ -372,3 +372,52 @@ fn a_new_catalogue_is_recorded_by_the_ledger_after_the_table() {
     wait_for(&session, "changed since this ledger last saw it");
     tmux(&["kill-session", "-t", &session]);
 }
+
+/// A decided candidate the catalogue no longer lists is named on the
+/// message line, as every command names it on stderr (the browser finds it
+/// in its one read of the decisions).
+#[test]
+fn a_decided_candidate_gone_from_the_catalogue_is_named() {
+    if !have_tmux() {
+        return;
+    }
+    let dir = common::scratch("gone-candidate");
+    let cat = dir.join("survey.csv");
+    let ledger = dir.join("l.sqlite");
+    let text = starsift::demo::CATALOGUE_CSV;
+    std::fs::write(&cat, text).unwrap();
+    // The first candidate, parked, then its row taken out of the file.
+    let row = text.lines().filter(|l| !l.starts_with('#')).nth(1).unwrap();
+    let gone = row.split(',').nth(1).unwrap();
+    let o = common::starsift(&[
+        "decide",
+        cat.to_str().unwrap(),
+        "--candidate",
+        gone,
+        "--decision",
+        "parked",
+        "--vetter",
+        "ann",
+        "--ledger",
+        ledger.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", common::stderr(&o));
+    let kept: String = text
+        .lines()
+        .filter(|l| *l != row)
+        .map(|l| format!("{l}\n"))
+        .collect();
+    std::fs::write(&cat, kept).unwrap();
+    let session = format!("starsift-gone-{}", std::process::id());
+    let options = format!(
+        "{} --no-lightcurves --targets 52000 --ledger {}",
+        cat.display(),
+        ledger.display()
+    );
+    start_with(&session, &dir, "400", "24", &options);
+    wait_for(
+        &session,
+        &format!("1 decided candidates are not in the catalogue: {gone}"),
+    );
+    tmux(&["kill-session", "-t", &session]);
+}
