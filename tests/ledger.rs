@@ -455,6 +455,16 @@ fn a_changed_catalogue_is_noticed_and_gone_candidates_listed() {
     );
     // The decision is still there, matched by id.
     assert!(stdout(&o).contains(gone.as_str()));
+    // A reading command says so too (from its one read of the decisions).
+    let o = starsift(&["odds", s(&cat)]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains(&format!(
+            "1 decided candidates are not in the catalogue: {gone}"
+        )),
+        "{}",
+        stderr(&o)
+    );
 }
 
 #[test]
