@@ -22,7 +22,7 @@ pub enum LedgerUse {
     /// The ledger's decisions if the ledger exists; never creates one.
     Read,
     /// As `Read`, and the latest entry of each candidate too (who decided
-    /// it, when, the note: `export`, `plot`).
+    /// it, when, the note: `export`).
     ReadEntries,
     /// As `Read`, and its whole history too (`report`): every entry in
     /// memory, which no other command needs.

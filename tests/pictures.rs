@@ -119,6 +119,49 @@ fn a_candidate_figure_has_every_panel_and_the_sessions_numbers() {
 }
 
 #[test]
+fn a_figure_says_who_decided_the_candidate_and_when() {
+    let d = scratch("plot-decided");
+    let ledger = d.join("l.sqlite");
+    let rows = odds_rows();
+    let (id, other) = (&rows[0].0, &rows[1].0);
+    for (c, vetter) in [(id, "zed"), (other, "amy"), (id, "amy")] {
+        let o = starsift(&[
+            "decide",
+            "--candidate",
+            c,
+            "--decision",
+            "parked",
+            "--vetter",
+            vetter,
+            "--ledger",
+            s(&ledger),
+        ]);
+        assert!(o.status.success(), "{}", stderr(&o));
+    }
+    let figure = |extra: &[&str]| {
+        let out = d.join("fig.svg");
+        let mut a = vec![
+            "plot",
+            "--candidate",
+            id,
+            "-o",
+            s(&out),
+            "--ledger",
+            s(&ledger),
+        ];
+        a.extend_from_slice(extra);
+        let o = starsift(&a);
+        assert!(o.status.success(), "{}", stderr(&o));
+        svg_text(&std::fs::read_to_string(&out).unwrap())
+    };
+    // Its latest entry, whoever made it; of one vetter when asked.
+    let text = figure(&[]);
+    assert!(text.contains("decision: parked by amy at "), "{text}");
+    let text = figure(&["--vetter", "zed"]);
+    assert!(text.contains("decision: parked by zed at "), "{text}");
+}
+
+#[test]
 fn a_filter_writes_one_figure_per_candidate() {
     let d = scratch("plot-many");
     let rows = odds_rows();

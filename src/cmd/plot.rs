@@ -48,7 +48,19 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
         )));
     }
     crate::cli::args::check_output_path(&args.output, &args.vetting)?;
-    let v = Session::open_for_verdicts(&args.vetting, LedgerUse::ReadEntries)?;
+    let v = Session::open_for_verdicts(&args.vetting, LedgerUse::Read)?;
+    // Who decided each candidate drawn, and when: its own latest entry,
+    // not every candidate's.
+    let ledger = match &v.ledger_path {
+        Some(p) => Some(crate::ledger::Ledger::open(Path::new(p))?),
+        None => None,
+    };
+    let decided = |c: CandidateId| -> Result<Option<(String, String)>, CliError> {
+        let Some(l) = &ledger else { return Ok(None) };
+        let vetter = args.vetting.ledger.vetter.as_deref();
+        let e = l.latest_of(v.loaded.catalogue.candidate_id(c), vetter)?;
+        Ok(e.map(|e| (e.vetter.to_string(), e.decided_at)))
+    };
     v.warn();
     let live = v.live()?;
     let cat = &v.loaded.catalogue;
@@ -65,7 +77,8 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let cache = Cache::default();
     if single {
         let path = &args.output;
-        write_figure(&v, &cache, &finder, &detrend, chosen[0], path)?;
+        let c = chosen[0];
+        write_figure(&v, &cache, &finder, &detrend, c, decided(c)?, path)?;
         writeln!(out, "wrote {}", clean(&path.display().to_string()))?;
         return Ok(());
     }
@@ -76,7 +89,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             crate::figure::file_name(cat.candidate_id(c)),
             args.format
         ));
-        write_figure(&v, &cache, &finder, &detrend, c, &path)?;
+        write_figure(&v, &cache, &finder, &detrend, c, decided(c)?, &path)?;
         cache.forget(cat.star_of(c));
     }
     writeln!(
@@ -88,13 +101,15 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     Ok(())
 }
 
-/// Draws one candidate's figure into `path` (its extension says SVG or PNG).
+/// Draws one candidate's figure into `path` (its extension says SVG or PNG),
+/// with who decided it and when (`decided`), if anyone did.
 pub fn write_figure(
     v: &Session,
     cache: &Cache,
     finder: &crate::lightcurve::Finder,
     detrend: &crate::lightcurve::analysis::DetrendSettings,
     c: CandidateId,
+    decided: Option<(String, String)>,
     path: &Path,
 ) -> Result<(), CliError> {
     let cat = &v.loaded.catalogue;
@@ -105,7 +120,7 @@ pub fn write_figure(
     crate::figure::draw_to(
         cat,
         shown.as_ref().map_err(String::as_str),
-        &facts(v, c),
+        &facts(v, c, decided),
         &verdict,
         c,
         path,
@@ -119,8 +134,9 @@ pub fn write_figure(
     })
 }
 
-/// The facts box of a candidate, from the session.
-pub fn facts(v: &Session, c: CandidateId) -> Vec<String> {
+/// The facts box of a candidate, from the session, with who decided it
+/// and when.
+pub fn facts(v: &Session, c: CandidateId, decided: Option<(String, String)>) -> Vec<String> {
     let cat = &v.loaded.catalogue;
     crate::figure::facts_of(
         &crate::figure::FactsOf {
@@ -128,10 +144,7 @@ pub fn facts(v: &Session, c: CandidateId) -> Vec<String> {
             settings: &v.settings,
             live: v.live.as_ref().ok(),
             checks: &v.checks,
-            decided: v
-                .latest
-                .get(cat.candidate_id(c))
-                .map(|e| (e.vetter.to_string(), e.decided_at.clone())),
+            decided,
         },
         c,
     )
