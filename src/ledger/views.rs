@@ -208,30 +208,19 @@ impl Ledger {
         })
     }
 
-    /// The latest entry of one candidate (of any vetter, or of one): from
-    /// the candidate index, reading none of the other candidates' entries.
+    /// The latest entry of one candidate (of any vetter, or of one): the
+    /// last of its [`Ledger::history`], read from the candidate index, and
+    /// none of the other candidates' entries.
     pub fn latest_of(
         &self,
         candidate: &str,
         vetter: Option<&str>,
     ) -> Result<Option<Entry>, LedgerError> {
-        let cols = Self::COLUMNS;
-        let mut found = match vetter {
-            None => self.entries(
-                &format!(
-                    "SELECT {cols} FROM decision WHERE candidate = ?1 ORDER BY id DESC LIMIT 1"
-                ),
-                &[&candidate],
-            )?,
-            Some(v) => self.entries(
-                &format!(
-                    "SELECT {cols} FROM decision WHERE candidate = ?1 AND vetter = ?2 \
-                     ORDER BY id DESC LIMIT 1"
-                ),
-                &[&candidate, &v],
-            )?,
-        };
-        Ok(found.pop())
+        Ok(self
+            .history(Some(candidate))?
+            .into_iter()
+            .rev()
+            .find(|e| vetter.is_none_or(|v| &*e.vetter == v)))
     }
 
     /// The latest entry per candidate: of any vetter, or of one. One scan
