@@ -38,6 +38,30 @@ pub fn fnv1a(mut h: u64, bytes: &[u8]) -> u64 {
     h
 }
 
+/// One step of [`digest_bytes`]: the word folded into the state by an
+/// exclusive or, a multiply by an odd constant (2^64 / φ, Knuth's
+/// multiplicative hashing, TAOCP vol. 3 §6.4, from memory) and a shift
+/// that brings the high bits down. For a given word each step is a
+/// bijection of the state, so two inputs of one length that differ in a
+/// single word never share a digest.
+pub fn mix(h: u64, word: u64) -> u64 {
+    let h = (h ^ word).wrapping_mul(0x9e37_79b9_7f4a_7c15);
+    h ^ (h >> 29)
+}
+
+/// A quick digest of bytes held in memory, eight at a time (FNV-1a takes
+/// them one at a time, ~8x slower): to know a set of ids again, never to
+/// name a file (that is [`fingerprint`]).
+pub fn digest_bytes(mut h: u64, bytes: &[u8]) -> u64 {
+    let mut words = bytes.chunks_exact(8);
+    for w in &mut words {
+        h = mix(h, u64::from_le_bytes(w.try_into().unwrap_or([0; 8])));
+    }
+    let mut tail = [0u8; 8];
+    tail[..words.remainder().len()].copy_from_slice(words.remainder());
+    mix(mix(h, u64::from_le_bytes(tail)), bytes.len() as u64)
+}
+
 /// A fingerprint as the ledger records it.
 pub fn fingerprint_text(h: u64) -> String {
     format!("fnv1a64:{h:016x}")
@@ -137,5 +161,26 @@ mod tests {
         std::fs::write(&path, &bytes).unwrap();
         assert_eq!(fingerprint_file(&path).unwrap(), fingerprint(&bytes));
         let _ = std::fs::remove_file(&path);
+    }
+
+    #[test]
+    fn a_digest_tells_apart_bytes_that_differ_anywhere() {
+        let base: Vec<u8> = (0..1003u32).map(|i| (i * 13 % 256) as u8).collect();
+        let d = digest_bytes(FNV_OFFSET, &base);
+        assert_eq!(d, digest_bytes(FNV_OFFSET, &base.clone()));
+        // Every single byte changed, in the words and in the tail.
+        for i in 0..base.len() {
+            let mut other = base.clone();
+            other[i] ^= 0x20;
+            assert_ne!(digest_bytes(FNV_OFFSET, &other), d, "byte {i}");
+        }
+        // Zeros added at the end: the length is folded in.
+        let mut longer = base.clone();
+        longer.push(0);
+        assert_ne!(digest_bytes(FNV_OFFSET, &longer), d);
+        assert_ne!(
+            digest_bytes(FNV_OFFSET, b""),
+            digest_bytes(FNV_OFFSET, &[0])
+        );
     }
 }

@@ -13,6 +13,7 @@ use crate::decision::{Decision, Reason};
 
 mod file;
 mod seen;
+mod unlisted;
 mod views;
 pub use crate::fingerprint::{fingerprint, fingerprint_file, fingerprint_text};
 use file::check_ours;

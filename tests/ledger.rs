@@ -443,28 +443,35 @@ fn a_changed_catalogue_is_noticed_and_gone_candidates_listed() {
         .map(|l| format!("{l}\n"))
         .collect();
     std::fs::write(&cat, kept).unwrap();
-    let o = starsift(&["history", s(&cat)]);
-    assert!(o.status.success(), "{}", stderr(&o));
-    let e = stderr(&o);
+    // The note each command prints on stderr, and the command's output.
+    let noted = |args: &[&str]| {
+        let o = starsift(args);
+        assert!(o.status.success(), "{}", stderr(&o));
+        let e = stderr(&o);
+        let note = format!("1 decided candidates are not in the catalogue: {gone}");
+        assert!(e.contains(&note), "{args:?}: {e}");
+        (e, stdout(&o))
+    };
+    let (e, out) = noted(&["history", s(&cat)]);
     assert!(e.contains("changed since this ledger last saw it"), "{e}");
-    assert!(
-        e.contains(&format!(
-            "1 decided candidates are not in the catalogue: {gone}"
-        )),
-        "{e}"
-    );
     // The decision is still there, matched by id.
-    assert!(stdout(&o).contains(gone.as_str()));
+    assert!(out.contains(gone.as_str()));
     // A reading command says so too (from its one read of the decisions).
-    let o = starsift(&["odds", s(&cat)]);
-    assert!(o.status.success(), "{}", stderr(&o));
-    assert!(
-        stderr(&o).contains(&format!(
-            "1 decided candidates are not in the catalogue: {gone}"
-        )),
-        "{}",
-        stderr(&o)
-    );
+    noted(&["odds", s(&cat)]);
+    // Asked again, from the list the ledger now keeps for these ids: the
+    // same note, and after a decision on a listed candidate too.
+    let other = &system_of(2)[0];
+    noted(&[
+        "decide",
+        s(&cat),
+        "--candidate",
+        other,
+        "--decision",
+        "kept",
+        "--vetter",
+        "bob",
+    ]);
+    noted(&["history", s(&cat)]);
 }
 
 #[test]

@@ -117,6 +117,16 @@ impl StrPool {
         self.buf.as_bytes()
     }
 
+    /// A digest of the strings in order ([`crate::fingerprint::digest_bytes`]
+    /// of the bytes, then each end): pools of other strings, or of the same
+    /// bytes cut elsewhere (`ab`, `c` and `a`, `bc`), differ.
+    pub fn digest(&self) -> u64 {
+        let h = crate::fingerprint::digest_bytes(crate::fingerprint::FNV_OFFSET, self.bytes());
+        self.ends
+            .iter()
+            .fold(h, |h, &e| crate::fingerprint::mix(h, e as u64))
+    }
+
     pub fn byte_len(&self) -> usize {
         self.buf.len()
     }
@@ -143,6 +153,22 @@ mod tests {
         assert_eq!(p.push("çd"), 2);
         assert_eq!((p.get(0), p.get(1), p.get(2)), ("ab", "", "çd"));
         assert_eq!(p.len(), 3);
+    }
+
+    #[test]
+    fn a_digest_knows_where_each_string_ends() {
+        let pool = |ids: &[&str]| {
+            let mut p = StrPool::default();
+            for s in ids {
+                p.push(s);
+            }
+            p
+        };
+        let d = pool(&["ab", "c"]).digest();
+        assert_eq!(d, pool(&["ab", "c"]).digest());
+        assert_ne!(d, pool(&["a", "bc"]).digest());
+        assert_ne!(d, pool(&["ab", "c", ""]).digest());
+        assert_ne!(d, pool(&["c", "ab"]).digest());
     }
 
     #[test]

@@ -163,7 +163,7 @@ impl LedgerArgs {
         input: &CatalogueArgs,
         loaded: &Loaded,
     ) -> Result<crate::ledger::Ledger, CliError> {
-        let (ledger, notes, _) = self.open_with(input, loaded, false)?;
+        let (mut ledger, notes, _) = self.open_with(input, loaded, false)?;
         let gone = ledger.candidates_not_in(&loaded.catalogue)?;
         for n in notes.into_iter().chain(gone_note(&gone)) {
             eprintln!("starsift: note: {n}");

@@ -214,3 +214,61 @@ fn what_the_odds_read_is_the_latest_entry_of_each_candidate() {
     assert_eq!(all.gone.len(), 2);
     assert_eq!(l.candidates_not_in(&cat).unwrap(), ["gone-1", "gone-2"]);
 }
+
+#[test]
+fn the_unlisted_candidates_kept_are_those_found_anew() {
+    let p = temp("unlisted");
+    let mut l = Ledger::open(&p).unwrap();
+    let text = |ids: &[&str]| {
+        let mut t = String::from("star,candidate,period,epoch,depth_ppm,duration_h\n");
+        for (i, id) in ids.iter().enumerate() {
+            t += &format!("S,{id},{}.5,100,500,2\n", i + 3);
+        }
+        t
+    };
+    // Two releases of one survey, and the same ids in another order.
+    let one = crate::catalogue::Catalogue::from_text("r1.csv", &text(&["a-1", "a-2", "b-1"]));
+    let two = crate::catalogue::Catalogue::from_text("r2.csv", &text(&["a-1", "c-1", "c-2"]));
+    let turned = crate::catalogue::Catalogue::from_text("r3.csv", &text(&["b-1", "a-2", "a-1"]));
+    let names = ["a-1", "a-2", "b-1", "c-1", "c-2", "d-1", "b-1 ", "A-1"];
+    // What the ledger's decisions say, asked of every decision.
+    let anew = |l: &Ledger, cat: &crate::catalogue::Catalogue| {
+        let mut all: Vec<String> = l
+            .history(None)
+            .unwrap()
+            .into_iter()
+            .map(|e| e.candidate)
+            .filter(|c| cat.find_candidate(c).is_none())
+            .collect();
+        all.sort_unstable();
+        all.dedup();
+        all
+    };
+    let mut rng = crate::demo::Rng::new(11);
+    let kept = |l: &Ledger| -> i64 {
+        l.conn
+            .query_row("SELECT COUNT(*) FROM unlisted", [], |r| r.get(0))
+            .unwrap_or(0)
+    };
+    for round in 0..40 {
+        for _ in 0..rng.below(4) {
+            let c = names[rng.below(names.len() as u64) as usize];
+            l.record(&on_s(c, "ann", Decision::Kept)).unwrap();
+        }
+        for cat in [&one, &two, &turned] {
+            assert_eq!(
+                l.candidates_not_in(cat).unwrap(),
+                anew(&l, cat),
+                "round {round}, {}",
+                cat.source
+            );
+        }
+        // Each catalogue's list is kept, the one in another order apart.
+        assert_eq!(kept(&l), 3);
+    }
+    // A list that cannot be read as written is found anew.
+    l.conn
+        .execute("UPDATE unlisted SET candidates = 'not a list'", [])
+        .unwrap();
+    assert_eq!(l.candidates_not_in(&one).unwrap(), anew(&l, &one));
+}

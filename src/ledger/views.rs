@@ -75,7 +75,7 @@ impl Ledger {
     }
 
     /// Calls `f` on every row of `sql` (with the interner for repeated text).
-    fn each(
+    pub(super) fn each(
         &self,
         sql: &str,
         args: &[&dyn rusqlite::ToSql],
@@ -111,34 +111,6 @@ impl Ledger {
                 &[],
             ),
         }
-    }
-
-    /// The candidates the ledger has decided on that `cat` does not list,
-    /// in the order of their ids. One pass over the candidate index, each
-    /// id read once and none of their entries: a `decide` into a ledger of
-    /// 500,000 decisions took 2.4-2.6 s and 324 MB when this read the
-    /// latest entries, 0.8-0.9 s and 128 MB now (0.36 s with no history).
-    pub fn candidates_not_in(
-        &self,
-        cat: &crate::catalogue::Catalogue,
-    ) -> Result<Vec<String>, LedgerError> {
-        let mut names = Names::default();
-        self.each(
-            "SELECT DISTINCT candidate FROM decision ORDER BY candidate",
-            &[],
-            |r, _| {
-                names.push(r.get_ref(0)?.as_str()?);
-                Ok(())
-            },
-        )?;
-        let names = names.all();
-        Ok(cat
-            .find_candidates(&names)
-            .into_iter()
-            .zip(names)
-            .filter(|(found, _)| found.is_none())
-            .map(|(_, name)| name.to_string())
-            .collect())
     }
 
     /// The latest decision on each candidate of `cat` (of any vetter, or of
@@ -336,18 +308,18 @@ fn decision_from(name: &str, reason: Option<&str>) -> Option<Decision> {
 /// Many ledger texts (candidate ids) end to end in one buffer, for
 /// [`crate::catalogue::Catalogue::find_candidates`].
 #[derive(Default)]
-struct Names {
+pub(super) struct Names {
     text: String,
     ends: Vec<usize>,
 }
 
 impl Names {
-    fn push(&mut self, s: &str) {
+    pub(super) fn push(&mut self, s: &str) {
         self.text.push_str(s);
         self.ends.push(self.text.len());
     }
 
-    fn all(&self) -> Vec<&str> {
+    pub(super) fn all(&self) -> Vec<&str> {
         let starts = std::iter::once(0).chain(self.ends.iter().copied());
         starts
             .zip(&self.ends)
@@ -358,7 +330,7 @@ impl Names {
 
 /// Shares the text that repeats from row to row (stars, vetters, versions).
 #[derive(Default)]
-struct Interner(hashbrown::HashSet<Arc<str>>);
+pub(super) struct Interner(hashbrown::HashSet<Arc<str>>);
 
 impl Interner {
     fn get(&mut self, s: &str) -> Arc<str> {
