@@ -11,6 +11,7 @@ use rusqlite::{Connection, params};
 
 use crate::decision::{Decision, Reason};
 
+mod disagree;
 mod file;
 mod seen;
 mod unlisted;

@@ -284,25 +284,28 @@ impl Session {
         };
         let vetter = ledger_args.vetter.as_deref();
         let (decided, latest, disagreements, history, ledger_path) = match &opened {
-            Some(l) => (
-                Some(l.decided(cat, vetter).inspect(|d| {
-                    if let Some(n) = crate::cli::args::gone_note(&d.not_listed) {
-                        eprintln!("starsift: note: {n}");
-                    }
-                })?),
-                if ledger == LedgerUse::ReadEntries {
-                    l.latest(vetter)?
-                } else {
-                    Latest::default()
-                },
-                l.disagreements()?,
-                if ledger == LedgerUse::ReadHistory {
-                    l.history(None)?
-                } else {
-                    Vec::new()
-                },
-                Some(l.path().display().to_string()),
-            ),
+            Some(l) => {
+                let mut decided = l.decided(cat, vetter)?;
+                if let Some(n) = crate::cli::args::gone_note(&decided.not_listed) {
+                    eprintln!("starsift: note: {n}");
+                }
+                let disagreements = std::mem::take(&mut decided.disagreements);
+                (
+                    Some(decided),
+                    if ledger == LedgerUse::ReadEntries {
+                        l.latest(vetter)?
+                    } else {
+                        Latest::default()
+                    },
+                    disagreements,
+                    if ledger == LedgerUse::ReadHistory {
+                        l.history(None)?
+                    } else {
+                        Vec::new()
+                    },
+                    Some(l.path().display().to_string()),
+                )
+            }
             None => (None, Latest::default(), BTreeMap::new(), Vec::new(), None),
         };
         let live = match model {

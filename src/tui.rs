@@ -211,10 +211,16 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         let (l, notes) = ledger_args.open_noting(input, &loaded)?;
         (Some(l), notes, None)
     };
-    let decided = match &ledger {
+    let mut decided = match &ledger {
         Some(l) => Some(l.decided(&loaded.catalogue, ledger_args.vetter.as_deref())?),
         None => None,
     };
+    let disagree = decided
+        .as_mut()
+        .map(|d| {
+            crate::selection::disagreeing(&loaded.catalogue, &std::mem::take(&mut d.disagreements))
+        })
+        .unwrap_or_default();
     notes.extend(
         decided
             .as_ref()
@@ -234,7 +240,15 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         let odds = app::OddsFrom::of(&cat, &live);
         background::ValuesRead::start(args, loaded.stamp, Arc::clone(&cat), odds)
     });
-    let mut app = App::new(cat, live, checks, ledger, ledger_args.vetter(), keymap);
+    let mut app = App::with_disagreements(
+        cat,
+        live,
+        checks,
+        ledger,
+        ledger_args.vetter(),
+        keymap,
+        disagree,
+    );
     app.message = skipped_message(&app.cat)
         .into_iter()
         .chain(notes)

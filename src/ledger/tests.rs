@@ -2,6 +2,7 @@
 //! migrations, foreign files.
 
 use super::*;
+use std::collections::BTreeMap;
 
 fn temp(name: &str) -> PathBuf {
     let d = std::env::temp_dir().join(format!("starsift-ledger-{}-{name}", std::process::id()));
@@ -271,4 +272,72 @@ fn the_unlisted_candidates_kept_are_those_found_anew() {
         .execute("UPDATE unlisted SET candidates = 'not a list'", [])
         .unwrap();
     assert_eq!(l.candidates_not_in(&one).unwrap(), anew(&l, &one));
+}
+
+/// Where vetters disagree, from every entry: each vetter's latest entry per
+/// candidate, kept where two differ, sorted by vetter.
+fn disagreements_by_hand(l: &Ledger) -> BTreeMap<String, Vec<Entry>> {
+    let mut latest: BTreeMap<(String, String), Entry> = BTreeMap::new();
+    for e in l.history(None).unwrap() {
+        latest.insert((e.candidate.clone(), e.vetter.to_string()), e);
+    }
+    let mut by: BTreeMap<String, Vec<Entry>> = BTreeMap::new();
+    for ((c, _), e) in latest {
+        by.entry(c).or_default().push(e);
+    }
+    by.retain(|_, v| v.iter().any(|e| e.decision != v[0].decision));
+    by
+}
+
+#[test]
+fn where_vetters_disagree_is_the_same_from_either_read() {
+    let p = temp("disagree");
+    let mut l = Ledger::open(&p).unwrap();
+    let cat = crate::catalogue::Catalogue::from_text(
+        "invented.csv",
+        "star,candidate,period,epoch,depth_ppm,duration_h\n\
+         S,S-1,3.5,100,500,2\nS,S-2,5.5,100,500,2\nS,S-3,7.5,100,500,2\n",
+    );
+    let names = ["S-1", "S-2", "S-3", "gone-1", "gone-2"];
+    let vetters = ["ann", "bob", "cy"];
+    let decisions = [
+        Decision::Kept,
+        Decision::Parked,
+        Decision::Open,
+        Decision::Rejected(Reason::EclipsingBinary),
+        Decision::Rejected(Reason::Blend),
+    ];
+    let mut rng = crate::demo::Rng::new(5);
+    let pick = |rng: &mut crate::demo::Rng, n: usize| rng.below(n as u64) as usize;
+    for round in 0..30 {
+        let batch: Vec<NewDecision> = (0..pick(&mut rng, 6))
+            .map(|_| {
+                let (c, v, d) = (pick(&mut rng, 5), pick(&mut rng, 3), pick(&mut rng, 5));
+                on_s(names[c], vetters[v], decisions[d])
+            })
+            .collect();
+        l.record_all(&batch).unwrap();
+        let want = disagreements_by_hand(&l);
+        assert_eq!(l.disagreements().unwrap(), want, "round {round}");
+        for vetter in [None, Some("bob")] {
+            let decided = l.decided(&cat, vetter).unwrap();
+            assert_eq!(decided.disagreements, want, "round {round}, {vetter:?}");
+        }
+    }
+    // Many at once: their entries are read in one pass, not one by one.
+    let many: Vec<String> = (0..3000).map(|i| format!("M-{i}")).collect();
+    let batch: Vec<NewDecision> = many
+        .iter()
+        .flat_map(|c| {
+            [
+                on_s(c, "ann", Decision::Kept),
+                on_s(c, "bob", Decision::Rejected(Reason::Blend)),
+            ]
+        })
+        .collect();
+    l.record_all(&batch).unwrap();
+    let want = disagreements_by_hand(&l);
+    assert!(want.len() > 3000);
+    assert_eq!(l.disagreements().unwrap(), want);
+    assert_eq!(l.decided(&cat, None).unwrap().disagreements, want);
 }

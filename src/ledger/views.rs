@@ -2,9 +2,10 @@
 //! candidate, what the odds need for one catalogue (`decided`), the decided
 //! candidates a catalogue lacks, and where vetters disagree.
 
-use std::collections::{BTreeMap, HashMap, HashSet};
+use std::collections::BTreeMap;
 use std::sync::Arc;
 
+use super::disagree::Seen;
 use super::{Entry, Ledger, LedgerError};
 use crate::decision::{Decision, Reason};
 
@@ -62,10 +63,17 @@ pub struct Decided {
     /// that the catalogue does not list, in the order of their ids (as
     /// [`Ledger::candidates_not_in`]).
     pub not_listed: Vec<String>,
+    /// Where vetters disagree, as [`Ledger::disagreements`] gives it (from
+    /// the same scan).
+    pub disagreements: BTreeMap<String, Vec<Entry>>,
 }
 
 impl Ledger {
-    fn entries(&self, sql: &str, args: &[&dyn rusqlite::ToSql]) -> Result<Vec<Entry>, LedgerError> {
+    pub(super) fn entries(
+        &self,
+        sql: &str,
+        args: &[&dyn rusqlite::ToSql],
+    ) -> Result<Vec<Entry>, LedgerError> {
         let mut out = Vec::new();
         self.each(sql, args, |r, shared| {
             out.push(entry_from(r, shared)?);
@@ -93,7 +101,7 @@ impl Ledger {
         Ok(())
     }
 
-    const COLUMNS: &'static str =
+    pub(super) const COLUMNS: &'static str =
         "id, candidate, star, vetter, decision, reason, note, decided_at, tool_version, undoes";
 
     /// Every entry, oldest first; for one candidate if given.
@@ -129,54 +137,62 @@ impl Ledger {
         cat: &crate::catalogue::Catalogue,
         vetter: Option<&str>,
     ) -> Result<Decided, LedgerError> {
-        let mut names = Names::default();
-        // Each row's id, decision, and whether it is of the vetter asked.
-        let mut rows: Vec<(i64, Decision, bool)> = Vec::new();
+        let (mut names, mut vetters) = (Names::default(), super::disagree::Vetters::default());
+        // Each row's id, decision and vetter, and whether it is of the
+        // vetter asked.
+        let (mut rows, mut mine) = (Vec::new(), Vec::new());
         self.each(
             "SELECT id, candidate, vetter, decision, reason FROM decision ORDER BY id",
             &[],
             |r, _| {
                 names.push(r.get_ref(1)?.as_str()?);
-                let text =
-                    |i| -> rusqlite::Result<Option<&str>> { Ok(r.get_ref(i)?.as_str_or_null()?) };
-                let who = text(2)?;
-                let mine = vetter.is_none_or(|v| who == Some(v));
-                let decision =
-                    decision_from(text(3)?.unwrap_or("open"), text(4)?).unwrap_or(Decision::Open);
-                rows.push((r.get(0)?, decision, mine));
+                let who = r.get_ref(2)?.as_str_or_null()?;
+                mine.push(vetter.is_none_or(|v| who == Some(v)));
+                rows.push(Seen {
+                    id: r.get(0)?,
+                    decision: decision_of(r, 3)?,
+                    vetter: vetters.number(who.unwrap_or("")),
+                });
                 Ok(())
             },
         )?;
         let names = names.all();
         let mut decisions = vec![Decision::Open; cat.len()];
+        // Each row's candidate as a number: its place in the catalogue, or
+        // past the catalogue's end, its place among the ids it lacks.
+        let mut unlisted: hashbrown::HashMap<&str, u32> = hashbrown::HashMap::new();
         let mut gone: hashbrown::HashMap<&str, i64> = hashbrown::HashMap::new();
-        let mut not_listed: hashbrown::HashSet<&str> = hashbrown::HashSet::new();
         let found = cat.find_candidates(&names);
-        for ((found, name), (id, decision, mine)) in found.into_iter().zip(&names).zip(rows) {
-            match (found, mine) {
-                (Some(c), true) => decisions[c as usize] = decision,
-                (Some(_), false) => {}
-                (None, mine) => {
-                    not_listed.insert(name);
+        let mut group = Vec::with_capacity(rows.len());
+        for (((found, name), row), mine) in found.into_iter().zip(&names).zip(&rows).zip(mine) {
+            group.push(match found {
+                Some(c) => {
                     if mine {
-                        gone.insert(name, id);
+                        decisions[c as usize] = row.decision;
                     }
+                    c
                 }
-            }
+                None => {
+                    if mine {
+                        gone.insert(name, row.id);
+                    }
+                    let next = (cat.len() + unlisted.len()) as u32;
+                    *unlisted.entry(name).or_insert(next)
+                }
+            });
         }
+        let disagree = super::disagree::disagreeing(&rows, &group, cat.len() + unlisted.len());
         let mut gone: Vec<i64> = gone.into_values().collect();
-        gone.sort_unstable_by(|a, b| b.cmp(a));
-        let sql = format!("SELECT {} FROM decision WHERE id = ?1", Self::COLUMNS);
-        let mut entries = Vec::with_capacity(gone.len());
-        for id in gone {
-            entries.extend(self.entries(&sql, &[&id])?);
-        }
-        let mut not_listed: Vec<String> = not_listed.into_iter().map(String::from).collect();
+        gone.sort_unstable();
+        let mut gone = self.entries_by_id(&gone)?;
+        gone.reverse();
+        let mut not_listed: Vec<String> = unlisted.into_keys().map(String::from).collect();
         not_listed.sort_unstable();
         Ok(Decided {
             decisions,
-            gone: entries,
+            gone,
             not_listed,
+            disagreements: super::disagree::by_candidate(self.entries_by_id(&disagree)?),
         })
     }
 
@@ -231,68 +247,13 @@ impl Ledger {
         }
         Ok(latest)
     }
+}
 
-    /// Candidates on which vetters' latest decisions differ: candidate →
-    /// each vetter's latest entry.
-    pub fn disagreements(&self) -> Result<BTreeMap<String, Vec<Entry>>, LedgerError> {
-        // Only a candidate two vetters or more decided on can be one. A
-        // ledger of one vetter has none: its first and last vetter (the
-        // ends of the vetter index) are one. Otherwise these candidates are
-        // found first, so that the entries of no other are read. A ledger
-        // of 500,000 decisions by one vetter took 3.4 s here.
-        let mut one_vetter = true;
-        let ends = "SELECT (SELECT MIN(vetter) FROM decision) = (SELECT MAX(vetter) FROM decision)";
-        self.each(ends, &[], |r, _| {
-            one_vetter = r.get::<_, Option<bool>>(0)?.unwrap_or(true);
-            Ok(())
-        })?;
-        if one_vetter {
-            return Ok(BTreeMap::new());
-        }
-        let mut shared_out: HashSet<String> = HashSet::new();
-        self.each(
-            // From the (vetter, candidate) index alone: 0.4 s for 500,000
-            // decisions, where counting each candidate's vetters from its
-            // rows took 1.4 s.
-            "SELECT candidate FROM (SELECT DISTINCT vetter, candidate FROM decision) \
-             GROUP BY candidate HAVING COUNT(*) > 1",
-            &[],
-            |r, _| {
-                shared_out.insert(r.get_ref(0)?.as_str()?.to_string());
-                Ok(())
-            },
-        )?;
-        if shared_out.is_empty() {
-            return Ok(BTreeMap::new());
-        }
-        // Each vetter's latest entry per candidate, newest rows first.
-        let mut latest: HashMap<(String, Arc<str>), Entry> = HashMap::new();
-        self.each(
-            &format!("SELECT {} FROM decision ORDER BY id DESC", Self::COLUMNS),
-            &[],
-            |r, shared| {
-                let c = r.get_ref(1)?.as_str()?;
-                if !shared_out.contains(c) {
-                    return Ok(());
-                }
-                let v = shared.get(r.get_ref(3)?.as_str()?);
-                if !latest.contains_key(&(c.to_string(), Arc::clone(&v))) {
-                    let e = entry_from(r, shared)?;
-                    latest.insert((e.candidate.clone(), v), e);
-                }
-                Ok(())
-            },
-        )?;
-        let mut by: BTreeMap<String, Vec<Entry>> = BTreeMap::new();
-        for ((c, _), e) in latest {
-            by.entry(c).or_default().push(e);
-        }
-        by.retain(|_, v| v.iter().any(|e| e.decision != v[0].decision));
-        for v in by.values_mut() {
-            v.sort_by(|a, b| a.vetter.cmp(&b.vetter));
-        }
-        Ok(by)
-    }
+/// The decision of a row whose columns `i` and `i + 1` are the decision
+/// and its reason.
+pub(super) fn decision_of(r: &rusqlite::Row, i: usize) -> rusqlite::Result<Decision> {
+    let text = |i| -> rusqlite::Result<Option<&str>> { Ok(r.get_ref(i)?.as_str_or_null()?) };
+    Ok(decision_from(text(i)?.unwrap_or("open"), text(i + 1)?).unwrap_or(Decision::Open))
 }
 
 fn decision_from(name: &str, reason: Option<&str>) -> Option<Decision> {
@@ -346,7 +307,7 @@ impl Interner {
 }
 
 /// One ledger row (in `Ledger::COLUMNS` order) as an entry.
-fn entry_from(r: &rusqlite::Row, shared: &mut Interner) -> rusqlite::Result<Entry> {
+pub(super) fn entry_from(r: &rusqlite::Row, shared: &mut Interner) -> rusqlite::Result<Entry> {
     let text = |i| -> rusqlite::Result<Option<&str>> { Ok(r.get_ref(i)?.as_str_or_null()?) };
     Ok(Entry {
         id: r.get(0)?,

@@ -310,6 +310,8 @@ struct SortBuffers {
 }
 
 impl App {
+    /// The browser over `cat`, with where vetters disagree read from the
+    /// ledger.
     pub fn new(
         cat: std::sync::Arc<Catalogue>,
         live: Live,
@@ -318,16 +320,30 @@ impl App {
         vetter: String,
         keymap: super::keymap::Keymap,
     ) -> App {
-        let ledger_path = ledger
-            .as_ref()
-            .map_or("none (decisions in memory)".into(), |l| {
-                l.path().display().to_string()
-            });
         let disagree = ledger
             .as_ref()
             .and_then(|l| l.disagreements().ok())
             .map(|d| crate::selection::disagreeing(&cat, &d))
             .unwrap_or_default();
+        App::with_disagreements(cat, live, checks, ledger, vetter, keymap, disagree)
+    }
+
+    /// [`App::new`] given where vetters disagree (the browser has it from
+    /// its one read of the decisions, `Ledger::decided`).
+    pub fn with_disagreements(
+        cat: std::sync::Arc<Catalogue>,
+        live: Live,
+        checks: Checks,
+        ledger: Option<Ledger>,
+        vetter: String,
+        keymap: super::keymap::Keymap,
+        disagree: HashSet<CandidateId>,
+    ) -> App {
+        let ledger_path = ledger
+            .as_ref()
+            .map_or("none (decisions in memory)".into(), |l| {
+                l.path().display().to_string()
+            });
         let mut app = App {
             cat,
             live,
