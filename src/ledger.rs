@@ -14,6 +14,7 @@ use crate::decision::{Decision, Reason};
 mod disagree;
 mod file;
 mod seen;
+mod stamps;
 mod unlisted;
 mod views;
 pub use crate::fingerprint::{fingerprint, fingerprint_file, fingerprint_text};
@@ -22,6 +23,7 @@ pub use file::{
     classify, data_dir, default_path, default_path_with, login_name, network_file_system,
 };
 pub use seen::recorded_fingerprint;
+pub use stamps::{Stamp, Stamps};
 pub use views::{Decided, Latest};
 
 /// `PRAGMA application_id` of a starsift ledger: "STSF".

@@ -12,7 +12,7 @@ use crate::checks::{CheckSettings, Checks};
 use crate::cli::args::{Loaded, VettingArgs};
 use crate::cli::error::CliError;
 use crate::decision::Decision;
-use crate::ledger::{Decided, Entry, Latest};
+use crate::ledger::{Decided, Entry, Stamps};
 use crate::odds::{Live, ModelError};
 use crate::sanitize::clean;
 
@@ -21,8 +21,8 @@ use crate::sanitize::clean;
 pub enum LedgerUse {
     /// The ledger's decisions if the ledger exists; never creates one.
     Read,
-    /// As `Read`, and the latest entry of each candidate too (who decided
-    /// it, when, the note: `export`).
+    /// As `Read`, and who made each candidate's decision in force too,
+    /// when, with its note (`export`).
     ReadEntries,
     /// As `Read`, and its whole history too (`report`): every entry in
     /// memory, which no other command needs.
@@ -39,9 +39,10 @@ pub struct Session {
     /// The odds; `Err` when the model cannot be built (e.g. no N), for the
     /// commands that can report without it.
     pub live: Result<Live, ModelError>,
-    /// Latest entry per candidate id (of one vetter when asked): read for
-    /// `LedgerUse::ReadEntries` only, empty otherwise.
-    pub latest: Latest,
+    /// Who made each candidate's decision in force (of one vetter when
+    /// asked), when, with its note: read for `LedgerUse::ReadEntries`
+    /// only, empty otherwise.
+    pub stamps: Stamps,
     /// The ledger read, if one was.
     pub ledger_path: Option<String>,
     pub disagreements: BTreeMap<String, Vec<Entry>>,
@@ -283,20 +284,20 @@ impl Session {
             LedgerUse::Ignore => None,
         };
         let vetter = ledger_args.vetter.as_deref();
-        let (decided, latest, disagreements, history, ledger_path) = match &opened {
+        let (decided, stamps, disagreements, history, ledger_path) = match &opened {
             Some(l) => {
-                let mut decided = l.decided(cat, vetter)?;
+                let (mut decided, stamps) = if ledger == LedgerUse::ReadEntries {
+                    l.decided_with_stamps(cat, vetter)?
+                } else {
+                    (l.decided(cat, vetter)?, Stamps::default())
+                };
                 if let Some(n) = crate::cli::args::gone_note(&decided.not_listed) {
                     eprintln!("starsift: note: {n}");
                 }
                 let disagreements = std::mem::take(&mut decided.disagreements);
                 (
                     Some(decided),
-                    if ledger == LedgerUse::ReadEntries {
-                        l.latest(vetter)?
-                    } else {
-                        Latest::default()
-                    },
+                    stamps,
                     disagreements,
                     if ledger == LedgerUse::ReadHistory {
                         l.history(None)?
@@ -306,7 +307,7 @@ impl Session {
                     Some(l.path().display().to_string()),
                 )
             }
-            None => (None, Latest::default(), BTreeMap::new(), Vec::new(), None),
+            None => (None, Stamps::default(), BTreeMap::new(), Vec::new(), None),
         };
         let live = match model {
             Ok(m) => odds_of(cat, m, &checks, decided),
@@ -318,7 +319,7 @@ impl Session {
             settings,
             checks,
             live,
-            latest,
+            stamps,
             ledger_path,
             disagreements,
             history,

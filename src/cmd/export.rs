@@ -270,7 +270,7 @@ impl<'a> Export<'a> {
             out.push(Cell::Text(cat.lightcurve(c).unwrap_or("")));
         }
         out.extend((0..self.extras.len()).map(|i| Cell::Text(cat.extra(i, c))));
-        let e = v.latest.get(cat.candidate_id(c));
+        let e = v.stamps.get(c);
         let names = |s: crate::flags::FlagSet| s.iter().map(|f| f.name()).collect::<Vec<_>>();
         out.extend([
             Cell::Int(live.k(c) as u64),
@@ -280,9 +280,9 @@ impl<'a> Export<'a> {
             Cell::Text(live.verdict(c).name()),
             Cell::Text(live.decision(c).name()),
             Cell::Opt(live.decision(c).reason().map(|r| r.name())),
-            Cell::Opt(e.and_then(|e| e.note.as_deref())),
-            Cell::Opt(e.map(|e| &*e.vetter)),
-            Cell::Opt(e.map(|e| e.decided_at.as_str())),
+            Cell::Opt(e.and_then(|e| e.note)),
+            Cell::Opt(e.map(|e| e.vetter)),
+            Cell::Opt(e.map(|e| e.decided_at)),
             Cell::List(names(v.checks.flags(c))),
             Cell::List(names(v.checks.warnings(c))),
             Cell::Bool(live.counted(c)),

@@ -29,6 +29,10 @@ pub(super) struct Seen {
 pub(super) struct Vetters(Vec<String>);
 
 impl Vetters {
+    pub fn into_names(self) -> Vec<String> {
+        self.0
+    }
+
     pub fn number(&mut self, name: &str) -> u32 {
         match self.0.iter().position(|v| v == name) {
             Some(i) => i as u32,

@@ -341,3 +341,47 @@ fn where_vetters_disagree_is_the_same_from_either_read() {
     assert_eq!(l.disagreements().unwrap(), want);
     assert_eq!(l.decided(&cat, None).unwrap().disagreements, want);
 }
+
+#[test]
+fn the_stamps_are_those_of_each_candidates_latest_entry() {
+    let p = temp("stamps");
+    let mut l = Ledger::open(&p).unwrap();
+    let cat = crate::catalogue::Catalogue::from_text(
+        "invented.csv",
+        "star,candidate,period,epoch,depth_ppm,duration_h\n\
+         S,S-1,3.5,100,500,2\nS,S-2,5.5,100,500,2\nS,S-3,7.5,100,500,2\nS,S-4,9.5,100,500,2\n",
+    );
+    let names = ["S-1", "S-2", "S-3", "gone-1"];
+    let notes = [None, Some(""), Some("odd-even at 2σ"), Some("ask bob")];
+    let mut rng = crate::demo::Rng::new(3);
+    let pick = |rng: &mut crate::demo::Rng, n: usize| rng.below(n as u64) as usize;
+    for _ in 0..80 {
+        l.record(&NewDecision {
+            note: notes[pick(&mut rng, 4)],
+            ..on_s(
+                names[pick(&mut rng, 4)],
+                ["ann", "bob"][pick(&mut rng, 2)],
+                Decision::Kept,
+            )
+        })
+        .unwrap();
+    }
+    for vetter in [None, Some("ann"), Some("bob"), Some("eve")] {
+        let latest = l.latest(vetter).unwrap();
+        let (decided, stamps) = l.decided_with_stamps(&cat, vetter).unwrap();
+        assert_eq!(
+            decided.decisions,
+            l.decided(&cat, vetter).unwrap().decisions
+        );
+        for c in 0..cat.len() as crate::catalogue::CandidateId {
+            let want = latest.get(cat.candidate_id(c)).map(|e| Stamp {
+                vetter: &e.vetter,
+                decided_at: &e.decided_at,
+                note: e.note.as_deref(),
+            });
+            assert_eq!(stamps.get(c), want, "{vetter:?} {}", cat.candidate_id(c));
+        }
+        // S-4 was never decided.
+        assert_eq!(stamps.get(3), None);
+    }
+}

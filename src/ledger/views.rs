@@ -6,6 +6,7 @@ use std::collections::BTreeMap;
 use std::sync::Arc;
 
 use super::disagree::Seen;
+use super::stamps::Stamps;
 use super::{Entry, Ledger, LedgerError};
 use crate::decision::{Decision, Reason};
 
@@ -137,6 +138,30 @@ impl Ledger {
         cat: &crate::catalogue::Catalogue,
         vetter: Option<&str>,
     ) -> Result<Decided, LedgerError> {
+        Ok(self.decided_reading(cat, vetter, false)?.0)
+    }
+
+    /// [`Ledger::decided`], and who made each candidate's decision in
+    /// force, when, with its note (`export`): read of those entries only,
+    /// in one more pass, where reading every latest entry whole took 1.9 s
+    /// and 190 MB more at 1M candidates with 1,000,000 decisions.
+    pub fn decided_with_stamps(
+        &self,
+        cat: &crate::catalogue::Catalogue,
+        vetter: Option<&str>,
+    ) -> Result<(Decided, Stamps), LedgerError> {
+        let (decided, latest) = self.decided_reading(cat, vetter, true)?;
+        Ok((decided, self.stamps(&latest)?))
+    }
+
+    /// What [`Ledger::decided`] reads, and when `stamps`, each catalogue
+    /// candidate's latest entry id (0 for none).
+    fn decided_reading(
+        &self,
+        cat: &crate::catalogue::Catalogue,
+        vetter: Option<&str>,
+        stamps: bool,
+    ) -> Result<(Decided, Vec<i64>), LedgerError> {
         let (mut names, mut vetters) = (Names::default(), super::disagree::Vetters::default());
         // Each row's id, decision and vetter, and whether it is of the
         // vetter asked.
@@ -158,6 +183,7 @@ impl Ledger {
         )?;
         let names = names.all();
         let mut decisions = vec![Decision::Open; cat.len()];
+        let mut latest = vec![0; if stamps { cat.len() } else { 0 }];
         // Each row's candidate as a number: its place in the catalogue, or
         // past the catalogue's end, its place among the ids it lacks.
         let mut unlisted: hashbrown::HashMap<&str, u32> = hashbrown::HashMap::new();
@@ -169,6 +195,9 @@ impl Ledger {
                 Some(c) => {
                     if mine {
                         decisions[c as usize] = row.decision;
+                        if stamps {
+                            latest[c as usize] = row.id;
+                        }
                     }
                     c
                 }
@@ -188,12 +217,13 @@ impl Ledger {
         gone.reverse();
         let mut not_listed: Vec<String> = unlisted.into_keys().map(String::from).collect();
         not_listed.sort_unstable();
-        Ok(Decided {
+        let decided = Decided {
             decisions,
             gone,
             not_listed,
             disagreements: super::disagree::by_candidate(self.entries_by_id(&disagree)?),
-        })
+        };
+        Ok((decided, latest))
     }
 
     /// The latest entry of one candidate (of any vetter, or of one): the
@@ -268,7 +298,7 @@ fn decision_from(name: &str, reason: Option<&str>) -> Option<Decision> {
 
 /// Many ledger texts (candidate ids) end to end in one buffer, for
 /// [`crate::catalogue::Catalogue::find_candidates`].
-#[derive(Default)]
+#[derive(Debug, Default)]
 pub(super) struct Names {
     text: String,
     ends: Vec<usize>,
@@ -278,6 +308,11 @@ impl Names {
     pub(super) fn push(&mut self, s: &str) {
         self.text.push_str(s);
         self.ends.push(self.text.len());
+    }
+
+    pub(super) fn get(&self, i: usize) -> &str {
+        let start = if i == 0 { 0 } else { self.ends[i - 1] };
+        &self.text[start..self.ends[i]]
     }
 
     pub(super) fn all(&self) -> Vec<&str> {
