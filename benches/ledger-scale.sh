@@ -1,10 +1,11 @@
 #!/usr/bin/env bash
 # A team half way through a survey: a generated catalogue whose ledger holds
 # a decision for every other candidate (half of them rejections, written
-# with one `decide --from`), and what a vetter then waits for: `summary`
-# (which reads no ledger) for the ratio, `odds --format csv`, one `decide`,
-# and the browser's table of systems (scripted tmux run), each with its
-# peak memory (GNU time; the browser's from /proc).
+# with one `decide --from`), a second vetter's look at one in eight of those
+# (a quarter of them decided otherwise), and what a vetter then waits for:
+# `summary` (which reads no ledger) for the ratio, `odds --format csv`,
+# `export`, one `decide`, and the browser's table of systems (scripted tmux
+# run), each with its peak memory (GNU time; the browser's from /proc).
 #
 #   cargo build --release && benches/ledger-scale.sh [CANDIDATES] [ROUNDS]
 #
@@ -28,7 +29,17 @@ batch="$tmpd/batch.csv"
          NR % 4 == 3 { print $0 ",kept,," }'
 } >"$batch"
 "$bin" decide "$cat" --from "$batch" --vetter bench --ledger "$ledger" >/dev/null
-echo "$n candidates, ledger of $(( $(wc -l <"$batch") - 1 )) decisions"
+# A second vetter looks again at one decided candidate in eight, and
+# decides otherwise on a quarter of those: where vetters disagree.
+second="$tmpd/second.csv"
+{
+  echo "candidate,decision,reason,note"
+  sed -n '2,$p' "$batch" | awk -F, '
+    NR % 32 == 0 { if ($2 == "kept") print $1 ",rejected,blend,second look"; else print $1 ",kept,,second look"; next }
+    NR % 8 == 0 { print $1 "," $2 "," $3 ",second look" }'
+} >"$second"
+"$bin" decide "$cat" --from "$second" --vetter second --ledger "$ledger" >/dev/null
+echo "$n candidates, ledger of $(( $(wc -l <"$batch") + $(wc -l <"$second") - 2 )) decisions by two vetters"
 
 # The browser's table of systems, from its start (tmux), with its peak memory.
 table() {
@@ -46,6 +57,7 @@ table() {
 for _ in $(seq "$rounds"); do
   timed "summary" "$bin" summary "$cat"
   timed "odds --format csv" "$bin" odds "$cat" "${model[@]}" --format csv --ledger "$ledger"
+  timed "export (csv)" "$bin" export "$cat" "${model[@]}" --ledger "$ledger"
   timed "decide (one)" "$bin" decide "$cat" "${model[@]}" --candidate "$first" \
     --decision kept --vetter bench --ledger "$ledger"
   table
