@@ -154,6 +154,21 @@ impl Ledger {
         Ok(by_candidate(self.entries_by_id(&ids)?))
     }
 
+    /// Whether the vetters' latest decisions on `candidate` differ, from
+    /// its own entries (the candidate index), for the browser after a
+    /// decision.
+    pub fn disagreed_on(&self, candidate: &str) -> Result<bool, LedgerError> {
+        let entries = self.history(Some(candidate))?;
+        let mut latest: Vec<(&str, Decision)> = Vec::new();
+        for e in &entries {
+            match latest.iter_mut().find(|(v, _)| *v == &*e.vetter) {
+                Some(l) => l.1 = e.decision,
+                None => latest.push((&e.vetter, e.decision)),
+            }
+        }
+        Ok(latest.iter().any(|l| l.1 != latest[0].1))
+    }
+
     /// The entries of `ids` (ascending), in that order.
     pub(super) fn entries_by_id(&self, ids: &[i64]) -> Result<Vec<Entry>, LedgerError> {
         let mut out = Vec::with_capacity(ids.len());

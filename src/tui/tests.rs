@@ -14,6 +14,7 @@ use crate::odds::{Live, Model};
 mod background;
 mod other_ids;
 mod screens;
+mod team;
 
 fn demo_app() -> App {
     demo_app_with(None)

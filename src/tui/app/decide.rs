@@ -111,6 +111,8 @@ impl App {
                     return None;
                 }
             }
+            let decided: Vec<CandidateId> = rows.iter().map(|r| r.0).collect();
+            self.refresh_disagree(&decided);
         }
         let steps: Vec<Step> = rows
             .iter()
@@ -246,6 +248,34 @@ impl App {
         }
     }
 
+    /// Where vetters disagree, again for the candidates just decided (from
+    /// their own entries), or past [`REFRESH_ONE_BY_ONE`] of them, from the
+    /// whole ledger. Decisions other vetters record meanwhile show at the
+    /// next start, or the next decision on their candidate.
+    fn refresh_disagree(&mut self, decided: &[CandidateId]) {
+        let Some(l) = self.ledger.as_ref() else {
+            return;
+        };
+        if decided.len() > REFRESH_ONE_BY_ONE {
+            if let Ok(d) = l.disagreements() {
+                self.disagree = crate::selection::disagreeing(&self.cat, &d);
+            }
+            return;
+        }
+        for &c in decided {
+            match l.disagreed_on(self.cat.candidate_id(c)) {
+                Ok(true) => {
+                    self.disagree.insert(c);
+                }
+                Ok(false) => {
+                    self.disagree.remove(&c);
+                }
+                // Left as it was: the decision itself is recorded.
+                Err(_) => {}
+            }
+        }
+    }
+
     /// Reloads the selected star's ledger history when the star changed (or
     /// when forced, after a decision).
     pub(super) fn refresh_history(&mut self, force: bool) {
@@ -273,3 +303,9 @@ impl App {
         };
     }
 }
+
+/// Candidates decided at once whose disagreements are asked of their own
+/// entries; past this many, the whole ledger is read once (a candidate's
+/// entries cost tens of microseconds, a scan of a ledger of 1,000,000
+/// decisions 0.3-0.6 s here; common practice, no source).
+const REFRESH_ONE_BY_ONE: usize = 10_000;
