@@ -15,6 +15,7 @@ mod disagree;
 mod file;
 mod seen;
 mod stamps;
+mod tally;
 mod unlisted;
 mod views;
 pub use crate::fingerprint::{fingerprint, fingerprint_file, fingerprint_text};
@@ -24,6 +25,7 @@ pub use file::{
 };
 pub use seen::recorded_fingerprint;
 pub use stamps::{Stamp, Stamps};
+pub use tally::Tally;
 pub use views::{Decided, Latest};
 
 /// `PRAGMA application_id` of a starsift ledger: "STSF".

@@ -12,7 +12,7 @@ use crate::checks::{CheckSettings, Checks};
 use crate::cli::args::{Loaded, VettingArgs};
 use crate::cli::error::CliError;
 use crate::decision::Decision;
-use crate::ledger::{Decided, Entry, Stamps};
+use crate::ledger::{Decided, Entry, Stamps, Tally};
 use crate::odds::{Live, ModelError};
 use crate::sanitize::clean;
 
@@ -24,9 +24,8 @@ pub enum LedgerUse {
     /// As `Read`, and who made each candidate's decision in force too,
     /// when, with its note (`export`).
     ReadEntries,
-    /// As `Read`, and its whole history too (`report`): every entry in
-    /// memory, which no other command needs.
-    ReadHistory,
+    /// As `Read`, and its rows counted by vetter and kind too (`report`).
+    ReadTally,
     /// No ledger: every candidate open.
     Ignore,
 }
@@ -46,9 +45,9 @@ pub struct Session {
     /// The ledger read, if one was.
     pub ledger_path: Option<String>,
     pub disagreements: BTreeMap<String, Vec<Entry>>,
-    /// Every entry of the ledger, oldest first: read for
-    /// `LedgerUse::ReadHistory` only, empty otherwise.
-    pub history: Vec<Entry>,
+    /// The ledger's rows counted by vetter and kind: for
+    /// `LedgerUse::ReadTally` only, empty otherwise.
+    pub tally: Tally,
     /// Stars whose light curve was read, and those that failed (id, error).
     pub lightcurve_stars: usize,
     pub lightcurve_errors: Vec<(String, String)>,
@@ -278,13 +277,13 @@ impl Session {
             lightcurve_totals = run.totals;
         }
         let opened = match ledger {
-            LedgerUse::Read | LedgerUse::ReadEntries | LedgerUse::ReadHistory => {
+            LedgerUse::Read | LedgerUse::ReadEntries | LedgerUse::ReadTally => {
                 ledger_args.open_existing(input)?
             }
             LedgerUse::Ignore => None,
         };
         let vetter = ledger_args.vetter.as_deref();
-        let (decided, stamps, disagreements, history, ledger_path) = match &opened {
+        let (decided, stamps, disagreements, tally, ledger_path) = match &opened {
             Some(l) => {
                 let (mut decided, stamps) = if ledger == LedgerUse::ReadEntries {
                     l.decided_with_stamps(cat, vetter)?
@@ -299,15 +298,21 @@ impl Session {
                     Some(decided),
                     stamps,
                     disagreements,
-                    if ledger == LedgerUse::ReadHistory {
-                        l.history(None)?
+                    if ledger == LedgerUse::ReadTally {
+                        l.tally()?
                     } else {
-                        Vec::new()
+                        Tally::default()
                     },
                     Some(l.path().display().to_string()),
                 )
             }
-            None => (None, Stamps::default(), BTreeMap::new(), Vec::new(), None),
+            None => (
+                None,
+                Stamps::default(),
+                BTreeMap::new(),
+                Tally::default(),
+                None,
+            ),
         };
         let live = match model {
             Ok(m) => odds_of(cat, m, &checks, decided),
@@ -322,7 +327,7 @@ impl Session {
             stamps,
             ledger_path,
             disagreements,
-            history,
+            tally,
             lightcurve_stars,
             lightcurve_errors,
             lightcurve_notice,

@@ -42,7 +42,7 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     if let Some(path) = &args.output {
         crate::cli::args::check_output_path(path, &args.vetting)?;
     }
-    let v = Session::open_for_verdicts(&args.vetting, LedgerUse::ReadHistory)?;
+    let v = Session::open_for_verdicts(&args.vetting, LedgerUse::ReadTally)?;
     v.warn();
     let r = markdown(&v)?;
     let r = if args.format == "html" {
@@ -78,7 +78,7 @@ pub fn markdown(v: &Session) -> Result<String, CliError> {
         r,
         "Ledger: `{}`; {} decisions recorded.\n",
         md(v.ledger_path.as_deref().unwrap_or("none yet")),
-        v.history.len()
+        v.tally.rows
     );
     let _ = writeln!(r, "> {}\n", model_statement(m));
     let _ = writeln!(r, "## Model\n");
@@ -201,20 +201,8 @@ pub fn markdown(v: &Session) -> Result<String, CliError> {
     }
     let _ = writeln!(r, "\n## Decisions per vetter\n");
     // An undo row and the row it reverted are not decisions: the undos are
-    // counted apart.
-    let undone: std::collections::HashSet<i64> =
-        v.history.iter().filter_map(|e| e.undoes).collect();
-    let mut per: BTreeMap<&str, BTreeMap<&str, usize>> = BTreeMap::new();
-    for e in &v.history {
-        let kind = if e.undoes.is_some() {
-            "undo"
-        } else if undone.contains(&e.id) {
-            continue;
-        } else {
-            e.decision.name()
-        };
-        *per.entry(&*e.vetter).or_default().entry(kind).or_default() += 1;
-    }
+    // counted apart (`Ledger::tally`).
+    let per = &v.tally.per_vetter;
     if per.is_empty() {
         let _ = writeln!(r, "No decisions yet.");
     } else {
@@ -222,7 +210,7 @@ pub fn markdown(v: &Session) -> Result<String, CliError> {
             r,
             "| vetter | open | kept | parked | rejected | undone |\n|---|---|---|---|---|---|"
         );
-        for (who, d) in &per {
+        for (who, d) in per {
             let g = |k: &str| d.get(k).copied().unwrap_or(0);
             let _ = writeln!(
                 r,

@@ -2,7 +2,7 @@
 //! migrations, foreign files.
 
 use super::*;
-use std::collections::BTreeMap;
+use std::collections::{BTreeMap, HashSet};
 
 fn temp(name: &str) -> PathBuf {
     let d = std::env::temp_dir().join(format!("starsift-ledger-{}-{name}", std::process::id()));
@@ -384,4 +384,51 @@ fn the_stamps_are_those_of_each_candidates_latest_entry() {
         // S-4 was never decided.
         assert_eq!(stamps.get(3), None);
     }
+}
+
+#[test]
+fn the_tally_counts_what_the_history_holds() {
+    let p = temp("tally");
+    let mut l = Ledger::open(&p).unwrap();
+    let mut rng = crate::demo::Rng::new(9);
+    let pick = |rng: &mut crate::demo::Rng, n: usize| rng.below(n as u64) as usize;
+    let decisions = [
+        Decision::Kept,
+        Decision::Parked,
+        Decision::Open,
+        Decision::Rejected(Reason::Artefact),
+    ];
+    let mut ids = Vec::new();
+    for _ in 0..150 {
+        let who = ["ann", "bob", "cy"][pick(&mut rng, 3)];
+        let c = ["S-1", "S-2", "S-3"][pick(&mut rng, 3)];
+        // One row in five undoes an earlier one (an undo may be undone).
+        let undoes =
+            (pick(&mut rng, 5) == 0 && !ids.is_empty()).then(|| ids[pick(&mut rng, ids.len())]);
+        let d = NewDecision {
+            undoes,
+            ..on_s(c, who, decisions[pick(&mut rng, 4)])
+        };
+        ids.push(l.record(&d).unwrap());
+    }
+    // By hand: an undo row is an undo; a row undone is no decision.
+    let h = l.history(None).unwrap();
+    let undone: HashSet<i64> = h.iter().filter_map(|e| e.undoes).collect();
+    let mut want: BTreeMap<String, BTreeMap<&str, u64>> = BTreeMap::new();
+    for e in &h {
+        let kind = match (e.undoes, undone.contains(&e.id)) {
+            (Some(_), _) => "undo",
+            (None, true) => continue,
+            (None, false) => e.decision.name(),
+        };
+        *want
+            .entry(e.vetter.to_string())
+            .or_default()
+            .entry(kind)
+            .or_default() += 1;
+    }
+    let t = l.tally().unwrap();
+    assert_eq!(t.rows, 150);
+    assert_eq!(t.per_vetter, want);
+    assert!(want.values().any(|k| k.contains_key("undo")));
 }
