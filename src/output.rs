@@ -7,8 +7,8 @@ mod table;
 pub mod votable;
 
 pub use number::{push_fixed, push_num};
-pub use stream::{CsvOut, write_csv_rows, write_joined_rows, write_json_rows};
-pub use table::{Table, write_table_rows};
+pub use stream::{CsvOut, JsonRows, write_csv_rows, write_joined_rows, write_json_rows};
+pub use table::{Measured, Table, write_table_rows};
 
 use std::io::{self, Write};
 
@@ -179,5 +179,73 @@ mod tests {
         assert_eq!(exact(Some(-2.5e-7)).parse::<f64>().unwrap(), -2.5e-7);
         assert_eq!(exact(Some(0.9988901220865705)), "0.9988901220865705");
         assert_eq!(exact(None), "");
+    }
+
+    #[test]
+    fn rows_written_as_they_come_are_the_document_and_table_of_all() {
+        // Rows of every kind: nested values, text with quotes and line
+        // breaks (escaped), wide cells late, text to be sanitised.
+        let rows = |n: usize| -> Vec<serde_json::Value> {
+            (0..n)
+                .map(|i| {
+                    let text = ["a \"q\"\nb", "ünï", ""][i % 3];
+                    serde_json::json!({
+                        "id": i, "text": text,
+                        "list": [i, {"x": null}], "empty": {},
+                    })
+                })
+                .collect()
+        };
+        for n in [0, 1, 2, 3000] {
+            let head = || vec![("ledger", serde_json::json!("l.sqlite"))];
+            let mut whole = head()
+                .into_iter()
+                .map(|(k, v)| (k.to_string(), v))
+                .collect::<serde_json::Map<_, _>>();
+            whole.insert("entries".into(), serde_json::Value::Array(rows(n)));
+            let mut want = Vec::new();
+            write_json(&mut want, &serde_json::Value::Object(whole)).unwrap();
+            let mut got = Vec::new();
+            let mut w = JsonRows::new(&mut got, head(), "entries").unwrap();
+            for r in rows(n) {
+                w.row(&r).unwrap();
+            }
+            w.finish().unwrap();
+            assert_eq!(
+                String::from_utf8(got).unwrap(),
+                String::from_utf8(want).unwrap(),
+                "{n} rows"
+            );
+        }
+        let cols = [
+            ("#", Align::Right),
+            ("who", Align::Left),
+            ("note", Align::Left),
+        ];
+        let cells = |i: usize| {
+            [
+                i.to_string(),
+                ["ann", "tab\there", "ünï"][i % 3].to_string(),
+                if i == 2500 {
+                    "a long note, late".into()
+                } else {
+                    String::new()
+                },
+            ]
+        };
+        let mut want = Table::new(&cols);
+        let mut t = Measured::new(&cols);
+        for i in 0..3000 {
+            want.row(&cells(i));
+            t.measure(&cells(i));
+        }
+        let (mut a, mut b) = (Vec::new(), Vec::new());
+        want.write(&mut a, "").unwrap();
+        t.header(&mut b).unwrap();
+        for i in 0..3000 {
+            t.row(&cells(i), &mut b).unwrap();
+        }
+        t.finish(&mut b).unwrap();
+        assert_eq!(String::from_utf8(b).unwrap(), String::from_utf8(a).unwrap());
     }
 }

@@ -1,7 +1,9 @@
 //! What the commands print, held byte for byte: the demo (light curves
 //! read), a generated catalogue of 20,000 candidates, the same with a copy
 //! of every tenth signal on an invented neighbour 4″ away (2,000 echoes),
-//! and the generated catalogue with three decisions in a ledger.
+//! and the generated catalogue with three decisions in a ledger, then a
+//! second vetter's three (one against the first's): every command that
+//! reads a ledger (the `team` rows, from 837ac55).
 //!
 //! Each output (stdout, then stderr) is reduced to an FNV-1a 64-bit hash and
 //! its length; the expected values were taken from the build before the
@@ -197,6 +199,24 @@ const EXPECTED: &[(&str, &str, u64, usize)] = &[
     ("ledger", "decide --from", 0xab0575173d17932f, 90),
     ("ledger", "odds --format csv", 0x4197f027f7cd38a6, 1989076),
     ("ledger", "export", 0xdfddc07ba813728f, 4058707),
+    // Printed by the build of 837ac55, before the ledger's reads changed
+    // (where vetters disagree, the stamps of export, report's tally, the
+    // history written as read).
+    ("team", "decide --from", 0xc38f37c3ad8f0771, 90),
+    ("team", "odds --format csv", 0x87810b387b46a972, 1976592),
+    ("team", "export", 0x1c5e6c21c55d80ee, 4046204),
+    ("team", "export --vetter bob", 0xe807220aef0b5bb8, 4051666),
+    ("team", "report", 0xcaeab798cfa3425e, 2758),
+    ("team", "history", 0x516326ad6a65368e, 522),
+    ("team", "history --format csv", 0xa7cad4a1a64196af, 472),
+    ("team", "history --format json", 0x8aa08303dad20f15, 1812),
+    ("team", "history --vetter bob", 0xcf576d5528fa5bae, 290),
+    (
+        "team",
+        "history --candidate SYN0000003-s1 --format json",
+        0x822b9aa91e03651b,
+        687,
+    ),
 ];
 
 #[test]
@@ -266,6 +286,54 @@ fn every_command_prints_what_it_printed_before() {
         args.extend(ledger);
         let (h, n) = run(&dir, &args);
         got.push(("ledger".into(), key(command), h, n));
+    }
+    // A second vetter: one decision against the first's, one with it, one
+    // of their own; then every command that reads the ledger.
+    std::fs::write(
+        dir.join("second.csv"),
+        "candidate,decision,reason,note\n\
+         SYN0000003-s1,kept,,no secondary in my look\n\
+         SYN0000012-s1,kept,,\n\
+         SYN0000020-s1,parked,,\n",
+    )
+    .unwrap();
+    let mut decide = vec![
+        "decide",
+        "gen.csv",
+        "--from",
+        "second.csv",
+        "--vetter",
+        "bob",
+    ];
+    decide.extend(model);
+    decide.extend(ledger);
+    let (h, n) = run(&dir, &decide);
+    got.push(("team".into(), "decide --from".into(), h, n));
+    for command in [
+        &["odds", "--format", "csv"][..],
+        &["export"],
+        &["export", "--vetter", "bob"],
+        &["report"],
+        &["history"],
+        &["history", "--format", "csv"],
+        &["history", "--format", "json"],
+        &["history", "--vetter", "bob"],
+        &[
+            "history",
+            "--candidate",
+            "SYN0000003-s1",
+            "--format",
+            "json",
+        ],
+    ] {
+        let mut args: Vec<&str> = command.to_vec();
+        args.push("gen.csv");
+        if command[0] != "history" {
+            args.extend(model);
+        }
+        args.extend(ledger);
+        let (h, n) = run(&dir, &args);
+        got.push(("team".into(), key(command), h, n));
     }
     if std::env::var_os("STARSIFT_PRINT_HASHES").is_some() {
         for (case, command, h, n) in &got {

@@ -7,7 +7,8 @@ use serde_json::json;
 
 use crate::cli::args::{CatalogueArgs, LedgerArgs};
 use crate::cli::error::CliError;
-use crate::output::{Align, Format, Table, csv_writer, write_json};
+use crate::ledger::Entry;
+use crate::output::{Align, Format, JsonRows, Measured, csv_writer};
 use crate::sanitize::clean;
 
 #[derive(Debug, Clone, clap::Args)]
@@ -24,27 +25,31 @@ pub struct Args {
     pub format: Format,
 }
 
+/// The entries are read from the ledger as they are written, none held
+/// (a table reads them twice: once for its widths).
 pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
     let loaded = args.input.load_for_ledger(true, &args.ledger)?;
     let ledger = args.ledger.open(&args.input, &loaded)?;
-    let mut rows = ledger.history(args.candidate.as_deref())?;
-    if let Some(v) = &args.ledger.vetter {
-        rows.retain(|e| *e.vetter == **v);
-    }
-    let reason = |e: &crate::ledger::Entry| e.decision.reason().map_or("", |r| r.name());
+    let (candidate, vetter) = (args.candidate.as_deref(), args.ledger.vetter.as_deref());
+    let each = |f: &mut dyn FnMut(&Entry) -> std::io::Result<()>| -> Result<(), CliError> {
+        ledger.history_each(candidate, vetter, f)??;
+        Ok(())
+    };
+    let reason = |e: &Entry| e.decision.reason().map_or("", |r| r.name());
+    let path = clean(&ledger.path().display().to_string()).into_owned();
     match args.format {
-        Format::Json => write_json(
-            out,
-            &json!({
-                "ledger": clean(&ledger.path().display().to_string()),
-                "entries": rows.iter().map(|e| json!({
+        Format::Json => {
+            let mut w = JsonRows::new(out, vec![("ledger", json!(path))], "entries")?;
+            each(&mut |e| {
+                w.row(&json!({
                     "id": e.id, "candidate": clean(&e.candidate), "star": clean(&e.star),
                     "vetter": clean(&e.vetter), "decision": e.decision.name(), "reason": e.decision.reason().map(|r| r.name()),
                     "note": e.note.as_deref().map(|n| clean(n).into_owned()), "decided_at": e.decided_at,
                     "tool_version": e.tool_version.as_deref(), "undoes": e.undoes,
-                })).collect::<Vec<_>>(),
-            }),
-        )?,
+                }))
+            })?;
+            w.finish()?;
+        }
         Format::Csv => {
             let mut w = csv_writer(out);
             w.write_record([
@@ -58,34 +63,27 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 "decided_at",
                 "undoes",
             ])?;
-            for e in &rows {
+            each(&mut |e| {
                 w.write_record([
-                    e.id.to_string(),
-                    clean(&e.candidate).into_owned(),
-                    clean(&e.star).into_owned(),
-                    clean(&e.vetter).into_owned(),
-                    e.decision.name().to_string(),
-                    reason(e).to_string(),
-                    e.note
+                    &e.id.to_string(),
+                    &*clean(&e.candidate),
+                    &clean(&e.star),
+                    &clean(&e.vetter),
+                    e.decision.name(),
+                    reason(e),
+                    &e.note
                         .as_deref()
                         .map_or(String::new(), |n| clean(n).into_owned()),
-                    e.decided_at.clone(),
-                    e.undoes.map_or(String::new(), |u| u.to_string()),
-                ])?;
-            }
+                    &e.decided_at,
+                    &e.undoes.map_or(String::new(), |u| u.to_string()),
+                ])
+                .map_err(std::io::Error::other)
+            })?;
             w.flush()?;
         }
         Format::Table => {
-            writeln!(
-                out,
-                "ledger  {}",
-                clean(&ledger.path().display().to_string())
-            )?;
-            if rows.is_empty() {
-                writeln!(out, "no decisions yet")?;
-                return Ok(());
-            }
-            let mut t = Table::new(&[
+            writeln!(out, "ledger  {path}")?;
+            let mut t = Measured::new(&[
                 ("#", Align::Right),
                 ("when (UTC)", Align::Left),
                 ("vetter", Align::Left),
@@ -94,8 +92,8 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 ("reason", Align::Left),
                 ("note", Align::Left),
             ]);
-            for e in &rows {
-                t.row(&[
+            let cells = |e: &Entry| {
+                [
                     e.id.to_string(),
                     e.decided_at.clone(),
                     e.vetter.to_string(),
@@ -106,9 +104,26 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                     },
                     reason(e).to_string(),
                     e.note.clone().unwrap_or_default(),
-                ]);
-            }
-            t.write(out, "")?;
+                ]
+            };
+            // The rows measured, and only they, are written: a decision
+            // recorded between the two passes is left to the next look.
+            let mut last = None;
+            each(&mut |e| {
+                t.measure(&cells(e));
+                last = Some(e.id);
+                Ok(())
+            })?;
+            let Some(last) = last else {
+                writeln!(out, "no decisions yet")?;
+                return Ok(());
+            };
+            t.header(out)?;
+            each(&mut |e| match e.id <= last {
+                true => t.row(&cells(e), out),
+                false => Ok(()),
+            })?;
+            t.finish(out)?;
         }
     }
     Ok(())

@@ -234,18 +234,12 @@ pub fn write_json_rows<T: Sync, R: Serialize>(
     ahead: impl Fn(&T, bool) + Sync,
     row: impl Fn(&T) -> R + Sync,
 ) -> io::Result<()> {
-    let mut object: serde_json::Map<String, Value> =
-        head.into_iter().map(|(k, v)| (k.to_string(), v)).collect();
-    object.insert(key.to_string(), Value::Array(Vec::new()));
-    let mut text = serde_json::to_vec_pretty(&Value::Object(object))?;
+    let mut text = empty_list(head, key)?;
     if items.is_empty() {
         text.push(b'\n');
         return out.write_all(&text);
     }
-    // The list is last: cut its `[]` and the closing brace, write the rows.
-    text.truncate(text.len() - b"[]\n}".len());
-    text.extend_from_slice(b"[\n    ");
-    out.write_all(&text)?;
+    out.write_all(&opened(text))?;
     let sep = b",\n    ";
     let mut rows = SkipFirst {
         out,
@@ -265,6 +259,76 @@ pub fn write_json_rows<T: Sync, R: Serialize>(
     })?;
     out.write_all(b"\n  ]\n}\n")?;
     out.flush()
+}
+
+/// The pretty JSON object of `head`'s members and then `key`, an empty
+/// list.
+fn empty_list(head: Vec<(&str, Value)>, key: &str) -> io::Result<Vec<u8>> {
+    let mut object: serde_json::Map<String, Value> =
+        head.into_iter().map(|(k, v)| (k.to_string(), v)).collect();
+    object.insert(key.to_string(), Value::Array(Vec::new()));
+    Ok(serde_json::to_vec_pretty(&Value::Object(object))?)
+}
+
+/// [`empty_list`]'s text up to its first row: the list is last, its `[]`
+/// and the closing brace cut.
+fn opened(mut text: Vec<u8>) -> Vec<u8> {
+    text.truncate(text.len() - b"[]\n}".len());
+    text.extend_from_slice(b"[\n    ");
+    text
+}
+
+/// [`write_json_rows`] for rows that come one at a time (a query's), on
+/// one thread: the same bytes, no row held, the head written with the
+/// first row.
+pub struct JsonRows<'a> {
+    out: &'a mut dyn Write,
+    /// The object with an empty list, until the first row.
+    head: Option<Vec<u8>>,
+    one: Vec<u8>,
+    buf: Vec<u8>,
+}
+
+impl<'a> JsonRows<'a> {
+    pub fn new(
+        out: &'a mut dyn Write,
+        head: Vec<(&str, Value)>,
+        key: &str,
+    ) -> io::Result<JsonRows<'a>> {
+        Ok(JsonRows {
+            out,
+            head: Some(empty_list(head, key)?),
+            one: Vec::with_capacity(1024),
+            buf: Vec::with_capacity(1 << 16),
+        })
+    }
+
+    pub fn row<R: Serialize>(&mut self, row: &R) -> io::Result<()> {
+        match self.head.take() {
+            Some(text) => self.buf.extend_from_slice(&opened(text)),
+            None => self.buf.extend_from_slice(b",\n    "),
+        }
+        self.one.clear();
+        serde_json::to_writer_pretty(&mut self.one, row)?;
+        indented(&mut self.buf, &self.one, b"    ");
+        if self.buf.len() >= 1 << 16 {
+            self.out.write_all(&self.buf)?;
+            self.buf.clear();
+        }
+        Ok(())
+    }
+
+    pub fn finish(mut self) -> io::Result<()> {
+        match self.head.take() {
+            Some(text) => {
+                self.buf.extend_from_slice(&text);
+                self.buf.push(b'\n');
+            }
+            None => self.buf.extend_from_slice(b"\n  ]\n}\n"),
+        }
+        self.out.write_all(&self.buf)?;
+        self.out.flush()
+    }
 }
 
 /// `text` appended to `buf` with `indent` after each of its line breaks

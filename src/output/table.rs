@@ -97,6 +97,54 @@ pub fn write_table_rows<T: Sync, const N: usize>(
     })
 }
 
+/// A table whose rows come twice (a query run twice) and are held by
+/// none: every row measured, then the header and every row written. The
+/// bytes are those of a [`Table`] given the same rows.
+pub struct Measured {
+    columns: Columns,
+    line: String,
+}
+
+impl Measured {
+    pub fn new(columns: &[(&str, Align)]) -> Measured {
+        Measured {
+            columns: Columns::new(columns),
+            line: String::new(),
+        }
+    }
+
+    /// Widens the columns to hold a row (the first pass).
+    pub fn measure<S: AsRef<str>>(&mut self, cells: &[S]) {
+        for (w, c) in self.columns.width.iter_mut().zip(cells) {
+            *w = (*w).max(width(&clean(c.as_ref())));
+        }
+    }
+
+    pub fn header(&mut self, out: &mut dyn Write) -> io::Result<()> {
+        self.columns.line("", &self.columns.header, &mut self.line);
+        self.flush(out, 0)
+    }
+
+    /// Writes a row (the second pass), a buffer at a time.
+    pub fn row<S: AsRef<str>>(&mut self, cells: &[S], out: &mut dyn Write) -> io::Result<()> {
+        let clean: Vec<Cow<str>> = cells.iter().map(|c| clean(c.as_ref())).collect();
+        self.columns.line("", &clean, &mut self.line);
+        self.flush(out, 1 << 16)
+    }
+
+    pub fn finish(&mut self, out: &mut dyn Write) -> io::Result<()> {
+        self.flush(out, 0)
+    }
+
+    fn flush(&mut self, out: &mut dyn Write, past: usize) -> io::Result<()> {
+        if self.line.len() >= past {
+            out.write_all(self.line.as_bytes())?;
+            self.line.clear();
+        }
+        Ok(())
+    }
+}
+
 /// Characters a cell takes (its text is sanitised, so one column each).
 fn width(s: &str) -> usize {
     if s.is_ascii() {
