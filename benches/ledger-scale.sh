@@ -4,8 +4,9 @@
 # with one `decide --from`), a second vetter's look at one in eight of those
 # (a quarter of them decided otherwise), and what a vetter then waits for:
 # `summary` (which reads no ledger) for the ratio, `odds --format csv`,
-# `export`, one `decide`, and the browser's table of systems (scripted tmux
-# run), each with its peak memory (GNU time; the browser's from /proc).
+# `export`, `report`, `history` (table and JSON), one `decide`, and the
+# browser's table of systems (scripted tmux run), each with its peak memory
+# (GNU time; the browser's from /proc).
 #
 #   cargo build --release && benches/ledger-scale.sh [CANDIDATES] [ROUNDS]
 #
@@ -58,6 +59,9 @@ for _ in $(seq "$rounds"); do
   timed "summary" "$bin" summary "$cat"
   timed "odds --format csv" "$bin" odds "$cat" "${model[@]}" --format csv --ledger "$ledger"
   timed "export (csv)" "$bin" export "$cat" "${model[@]}" --ledger "$ledger"
+  timed "report" "$bin" report "$cat" "${model[@]}" --ledger "$ledger"
+  timed "history (table)" "$bin" history "$cat" --ledger "$ledger"
+  timed "history --format json" "$bin" history "$cat" --ledger "$ledger" --format json
   timed "decide (one)" "$bin" decide "$cat" "${model[@]}" --candidate "$first" \
     --decision kept --vetter bench --ledger "$ledger"
   table

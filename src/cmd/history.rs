@@ -92,25 +92,28 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
                 ("reason", Align::Left),
                 ("note", Align::Left),
             ]);
-            let cells = |e: &Entry| {
-                [
-                    e.id.to_string(),
-                    e.decided_at.clone(),
-                    e.vetter.to_string(),
-                    e.candidate.clone(),
-                    match e.undoes {
-                        Some(u) => format!("{} (undoes #{u})", e.decision.name()),
-                        None => e.decision.name().to_string(),
-                    },
-                    reason(e).to_string(),
-                    e.note.clone().unwrap_or_default(),
-                ]
+            // Each row's cells, into strings kept from row to row.
+            let fill = |e: &Entry, c: &mut [String; 7]| {
+                use std::fmt::Write as _;
+                c.iter_mut().for_each(String::clear);
+                let _ = write!(c[0], "{}", e.id);
+                c[1].push_str(&e.decided_at);
+                c[2].push_str(&e.vetter);
+                c[3].push_str(&e.candidate);
+                c[4].push_str(e.decision.name());
+                if let Some(u) = e.undoes {
+                    let _ = write!(c[4], " (undoes #{u})");
+                }
+                c[5].push_str(reason(e));
+                c[6].push_str(e.note.as_deref().unwrap_or_default());
             };
+            let mut cells: [String; 7] = Default::default();
             // The rows measured, and only they, are written: a decision
             // recorded between the two passes is left to the next look.
             let mut last = None;
             each(&mut |e| {
-                t.measure(&cells(e));
+                fill(e, &mut cells);
+                t.measure(&cells);
                 last = Some(e.id);
                 Ok(())
             })?;
@@ -120,7 +123,10 @@ pub fn run(args: &Args, out: &mut dyn Write) -> Result<(), CliError> {
             };
             t.header(out)?;
             each(&mut |e| match e.id <= last {
-                true => t.row(&cells(e), out),
+                true => {
+                    fill(e, &mut cells);
+                    t.row(&cells, out)
+                }
                 false => Ok(()),
             })?;
             t.finish(out)?;
