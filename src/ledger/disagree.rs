@@ -49,6 +49,10 @@ impl Vetters {
 /// the decisions were made; `group[i]` numbers row `i`'s candidate (below
 /// `groups`): one number per candidate id.
 pub(super) fn disagreeing(rows: &[Seen], group: &[u32], groups: usize) -> Vec<i64> {
+    // One vetter (or none) disagrees with nobody: no array per candidate.
+    if rows.iter().all(|s| s.vetter == rows[0].vetter) {
+        return Vec::new();
+    }
     const NONE: u32 = u32::MAX;
     let mut first = vec![NONE; groups];
     let mut shared = vec![false; groups];
