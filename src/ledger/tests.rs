@@ -165,25 +165,33 @@ fn foreign_files_are_refused_unchanged() {
     assert!(!q.with_file_name("other.sqlite-wal").exists());
 }
 
+/// Every decision, and two reasons of a rejection.
+const FIVE_DECISIONS: [Decision; 5] = [
+    Decision::Kept,
+    Decision::Parked,
+    Decision::Open,
+    Decision::Rejected(Reason::EclipsingBinary),
+    Decision::Rejected(Reason::Blend),
+];
+
+/// An invented catalogue of candidates S-1, S-2 and S-3 on star S.
+fn three_on_s() -> crate::catalogue::Catalogue {
+    crate::catalogue::Catalogue::from_text(
+        "invented.csv",
+        "star,candidate,period,epoch,depth_ppm,duration_h\n\
+         S,S-1,3.5,100,500,2\nS,S-2,5.5,100,500,2\nS,S-3,7.5,100,500,2\n",
+    )
+}
+
 #[test]
 fn what_the_odds_read_is_the_latest_entry_of_each_candidate() {
     let p = temp("decided");
     let mut l = Ledger::open(&p).unwrap();
-    let cat = crate::catalogue::Catalogue::from_text(
-        "invented.csv",
-        "star,candidate,period,epoch,depth_ppm,duration_h\n\
-         S,S-1,3.5,100,500,2\nS,S-2,5.5,100,500,2\nS,S-3,7.5,100,500,2\n",
-    );
+    let cat = three_on_s();
     let mut rng = crate::demo::Rng::new(7);
     let names = ["S-1", "S-2", "gone-1", "gone-2", "S-3"];
     let vetters = ["ann", "bob"];
-    let decisions = [
-        Decision::Kept,
-        Decision::Parked,
-        Decision::Open,
-        Decision::Rejected(Reason::EclipsingBinary),
-        Decision::Rejected(Reason::Blend),
-    ];
+    let decisions = FIVE_DECISIONS;
     for _ in 0..60 {
         let pick = |rng: &mut crate::demo::Rng, n: usize| rng.below(n as u64) as usize;
         let (c, v, d) = (pick(&mut rng, 4), pick(&mut rng, 2), pick(&mut rng, 5));
@@ -293,20 +301,10 @@ fn disagreements_by_hand(l: &Ledger) -> BTreeMap<String, Vec<Entry>> {
 fn where_vetters_disagree_is_the_same_from_either_read() {
     let p = temp("disagree");
     let mut l = Ledger::open(&p).unwrap();
-    let cat = crate::catalogue::Catalogue::from_text(
-        "invented.csv",
-        "star,candidate,period,epoch,depth_ppm,duration_h\n\
-         S,S-1,3.5,100,500,2\nS,S-2,5.5,100,500,2\nS,S-3,7.5,100,500,2\n",
-    );
+    let cat = three_on_s();
     let names = ["S-1", "S-2", "S-3", "gone-1", "gone-2"];
     let vetters = ["ann", "bob", "cy"];
-    let decisions = [
-        Decision::Kept,
-        Decision::Parked,
-        Decision::Open,
-        Decision::Rejected(Reason::EclipsingBinary),
-        Decision::Rejected(Reason::Blend),
-    ];
+    let decisions = FIVE_DECISIONS;
     let mut rng = crate::demo::Rng::new(5);
     let pick = |rng: &mut crate::demo::Rng, n: usize| rng.below(n as u64) as usize;
     for round in 0..30 {
