@@ -24,11 +24,25 @@ pub(super) struct Seen {
     pub vetter: u32,
 }
 
+/// The decisions as [`Ledger::scan_decisions`] reads them: row by row,
+/// each candidate id (`names`) and the rest (`rows`).
+#[derive(Default)]
+pub(super) struct Scan {
+    pub names: Names,
+    pub rows: Vec<Seen>,
+    pub vetters: Vetters,
+}
+
 /// Numbers for the few vetters of a ledger, in the order first seen.
 #[derive(Default)]
 pub(super) struct Vetters(Vec<String>);
 
 impl Vetters {
+    /// The number of a vetter already seen.
+    pub fn find(&self, name: &str) -> Option<u32> {
+        self.0.iter().position(|v| v == name).map(|i| i as u32)
+    }
+
     pub fn into_names(self) -> Vec<String> {
         self.0
     }
@@ -131,20 +145,7 @@ impl Ledger {
         if one_vetter {
             return Ok(BTreeMap::new());
         }
-        let (mut names, mut rows, mut vetters) = (Names::default(), Vec::new(), Vetters::default());
-        self.each(
-            "SELECT id, candidate, vetter, decision, reason FROM decision ORDER BY id",
-            &[],
-            |r, _| {
-                names.push(r.get_ref(1)?.as_str()?);
-                rows.push(Seen {
-                    id: r.get(0)?,
-                    vetter: vetters.number(r.get_ref(2)?.as_str()?),
-                    decision: super::views::decision_of(r, 3)?,
-                });
-                Ok(())
-            },
-        )?;
+        let Scan { names, rows, .. } = self.scan_decisions()?;
         let mut number: hashbrown::HashMap<&str, u32> = hashbrown::HashMap::new();
         let names = names.all();
         let group: Vec<u32> = names
@@ -156,6 +157,28 @@ impl Ledger {
             .collect();
         let ids = disagreeing(&rows, &group, number.len());
         Ok(by_candidate(self.entries_by_id(&ids)?))
+    }
+
+    /// Every decision in the order made: what [`Ledger::decided`] and
+    /// [`Ledger::disagreements`] read of it, in one scan of the candidate,
+    /// vetter, decision and reason.
+    pub(super) fn scan_decisions(&self) -> Result<Scan, LedgerError> {
+        let mut scan = Scan::default();
+        self.each(
+            "SELECT id, candidate, vetter, decision, reason FROM decision ORDER BY id",
+            &[],
+            |r, _| {
+                scan.names.push(r.get_ref(1)?.as_str()?);
+                let who = r.get_ref(2)?.as_str_or_null()?.unwrap_or("");
+                scan.rows.push(Seen {
+                    id: r.get(0)?,
+                    vetter: scan.vetters.number(who),
+                    decision: super::views::decision_of(r, 3)?,
+                });
+                Ok(())
+            },
+        )?;
+        Ok(scan)
     }
 
     /// Whether the vetters' latest decisions on `candidate` differ, from

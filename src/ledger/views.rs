@@ -5,7 +5,6 @@
 use std::collections::BTreeMap;
 use std::sync::Arc;
 
-use super::disagree::Seen;
 use super::stamps::Stamps;
 use super::{Entry, Ledger, LedgerError};
 use crate::decision::{Decision, Reason};
@@ -107,19 +106,13 @@ impl Ledger {
 
     /// Every entry, oldest first; for one candidate if given.
     pub fn history(&self, candidate: Option<&str>) -> Result<Vec<Entry>, LedgerError> {
-        match candidate {
-            Some(c) => self.entries(
-                &format!(
-                    "SELECT {} FROM decision WHERE candidate = ?1 ORDER BY id",
-                    Self::COLUMNS
-                ),
-                &[&c],
-            ),
-            None => self.entries(
-                &format!("SELECT {} FROM decision ORDER BY id", Self::COLUMNS),
-                &[],
-            ),
-        }
+        let mut out = Vec::new();
+        // Kept in memory: giving an entry cannot fail.
+        let _kept: std::io::Result<()> = self.entries_each(candidate, None, |e| {
+            out.push(e);
+            Ok(())
+        })?;
+        Ok(out)
     }
 
     /// Every entry, oldest first (for one candidate, of one vetter, if
@@ -132,6 +125,16 @@ impl Ledger {
         vetter: Option<&str>,
         mut f: impl FnMut(&Entry) -> std::io::Result<()>,
     ) -> Result<std::io::Result<()>, LedgerError> {
+        self.entries_each(candidate, vetter, |e| f(&e))
+    }
+
+    /// [`Ledger::history_each`], each entry given away.
+    fn entries_each(
+        &self,
+        candidate: Option<&str>,
+        vetter: Option<&str>,
+        mut f: impl FnMut(Entry) -> std::io::Result<()>,
+    ) -> Result<std::io::Result<()>, LedgerError> {
         let mut failed = Ok(());
         let mut visit = |r: &rusqlite::Row, shared: &mut Interner| -> rusqlite::Result<()> {
             if failed.is_err() {
@@ -143,7 +146,7 @@ impl Ledger {
             {
                 return Ok(());
             }
-            failed = f(&entry_from(r, shared)?);
+            failed = f(entry_from(r, shared)?);
             Ok(())
         };
         match candidate {
@@ -204,25 +207,16 @@ impl Ledger {
         vetter: Option<&str>,
         stamps: bool,
     ) -> Result<(Decided, Vec<i64>), LedgerError> {
-        let (mut names, mut vetters) = (Names::default(), super::disagree::Vetters::default());
-        // Each row's id, decision and vetter, and whether it is of the
-        // vetter asked.
-        let (mut rows, mut mine) = (Vec::new(), Vec::new());
-        self.each(
-            "SELECT id, candidate, vetter, decision, reason FROM decision ORDER BY id",
-            &[],
-            |r, _| {
-                names.push(r.get_ref(1)?.as_str()?);
-                let who = r.get_ref(2)?.as_str_or_null()?;
-                mine.push(vetter.is_none_or(|v| who == Some(v)));
-                rows.push(Seen {
-                    id: r.get(0)?,
-                    decision: decision_of(r, 3)?,
-                    vetter: vetters.number(who.unwrap_or("")),
-                });
-                Ok(())
-            },
-        )?;
+        let super::disagree::Scan {
+            names,
+            rows,
+            vetters,
+        } = self.scan_decisions()?;
+        // Whether each row is of the vetter asked (every row when none is).
+        let asked = vetter.map(|v| vetters.find(v));
+        let mine = rows
+            .iter()
+            .map(|row| asked.is_none_or(|a| a == Some(row.vetter)));
         let names = names.all();
         let mut decisions = vec![Decision::Open; cat.len()];
         let mut latest = vec![0; if stamps { cat.len() } else { 0 }];
