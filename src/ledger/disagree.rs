@@ -33,28 +33,40 @@ pub(super) struct Scan {
     pub vetters: Vetters,
 }
 
-/// Numbers for the few vetters of a ledger, in the order first seen.
+/// Numbers for the vetters of a ledger, in the order first seen (the last
+/// asked first: a vetter's decisions come in runs).
 #[derive(Default)]
-pub(super) struct Vetters(Vec<String>);
+pub(super) struct Vetters {
+    names: Vec<String>,
+    numbers: hashbrown::HashMap<String, u32>,
+    last: Option<u32>,
+}
 
 impl Vetters {
+    pub fn number(&mut self, name: &str) -> u32 {
+        if let Some(n) = self.last.filter(|&n| self.names[n as usize] == name) {
+            return n;
+        }
+        let n = match self.numbers.get(name) {
+            Some(&n) => n,
+            None => {
+                let n = self.names.len() as u32;
+                self.names.push(name.to_string());
+                self.numbers.insert(name.to_string(), n);
+                n
+            }
+        };
+        self.last = Some(n);
+        n
+    }
+
     /// The number of a vetter already seen.
     pub fn find(&self, name: &str) -> Option<u32> {
-        self.0.iter().position(|v| v == name).map(|i| i as u32)
+        self.numbers.get(name).copied()
     }
 
     pub fn into_names(self) -> Vec<String> {
-        self.0
-    }
-
-    pub fn number(&mut self, name: &str) -> u32 {
-        match self.0.iter().position(|v| v == name) {
-            Some(i) => i as u32,
-            None => {
-                self.0.push(name.to_string());
-                (self.0.len() - 1) as u32
-            }
-        }
+        self.names
     }
 }
 

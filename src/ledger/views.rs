@@ -1,6 +1,8 @@
 //! What is read of the ledger: every entry (history), the latest entry per
-//! candidate, what the odds need for one catalogue (`decided`), the decided
-//! candidates a catalogue lacks, and where vetters disagree.
+//! candidate, and what the odds need for one catalogue (`decided`). The
+//! decided candidates a catalogue lacks are in `unlisted.rs`, where
+//! vetters disagree in `disagree.rs`, the stamps `export` writes in
+//! `stamps.rs`, `report`'s counts in `tally.rs`.
 
 use std::collections::BTreeMap;
 use std::sync::Arc;
