@@ -18,7 +18,7 @@ pub use load::{
     LoadOptions, Source, bounded_number, candidate_family, family_key, family_stars, is_missing,
     names_no_star, parse_number,
 };
-use pool::StrPool;
+pub use pool::StrPool;
 use serde::Serialize;
 
 /// Why a catalogue could not be loaded at all. Bad rows are not errors: they

@@ -112,6 +112,15 @@ impl StrPool {
         }
     }
 
+    /// Every string, in order.
+    pub fn all(&self) -> Vec<&str> {
+        let starts = std::iter::once(0).chain(self.ends.iter().copied());
+        starts
+            .zip(&self.ends)
+            .map(|(a, &b)| &self.buf[a..b])
+            .collect()
+    }
+
     /// The pool's bytes, all strings end to end.
     pub fn bytes(&self) -> &[u8] {
         self.buf.as_bytes()
@@ -129,6 +138,10 @@ impl StrPool {
 
     pub fn byte_len(&self) -> usize {
         self.buf.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.ends.is_empty()
     }
 
     pub fn len(&self) -> usize {

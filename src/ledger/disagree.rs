@@ -11,8 +11,8 @@
 
 use std::collections::BTreeMap;
 
-use super::views::Names;
 use super::{Entry, Ledger, LedgerError};
+use crate::catalogue::StrPool;
 use crate::decision::Decision;
 
 /// A decision as the grouping sees it: its row id, what was decided, and
@@ -28,7 +28,7 @@ pub(super) struct Seen {
 /// each candidate id (`names`) and the rest (`rows`).
 #[derive(Default)]
 pub(super) struct Scan {
-    pub names: Names,
+    pub names: StrPool,
     pub rows: Vec<Seen>,
     pub vetters: Vetters,
 }
@@ -197,15 +197,18 @@ impl Ledger {
     /// its own entries (the candidate index), for the browser after a
     /// decision.
     pub fn disagreed_on(&self, candidate: &str) -> Result<bool, LedgerError> {
-        let entries = self.history(Some(candidate))?;
-        let mut latest: Vec<(&str, Decision)> = Vec::new();
-        for e in &entries {
-            match latest.iter_mut().find(|(v, _)| *v == &*e.vetter) {
-                Some(l) => l.1 = e.decision,
-                None => latest.push((&e.vetter, e.decision)),
-            }
-        }
-        Ok(latest.iter().any(|l| l.1 != latest[0].1))
+        let mut vetters = Vetters::default();
+        let rows: Vec<Seen> = self
+            .history(Some(candidate))?
+            .iter()
+            .map(|e| Seen {
+                id: e.id,
+                decision: e.decision,
+                vetter: vetters.number(&e.vetter),
+            })
+            .collect();
+        // One candidate: every row in group 0.
+        Ok(!disagreeing(&rows, &vec![0; rows.len()], 1).is_empty())
     }
 
     /// The entries of `ids` (ascending), in that order.

@@ -2,9 +2,9 @@
 //! `export` writes beside the decision, read of those entries only (their
 //! vetter, time and note, nothing else of them) into a few buffers.
 
-use super::views::Names;
 use super::{Ledger, LedgerError};
 use crate::catalogue::CandidateId;
+use crate::catalogue::StrPool;
 
 /// The vetter, time and note of each catalogue candidate's latest entry
 /// ([`Ledger::decided_with_stamps`]).
@@ -14,8 +14,8 @@ pub struct Stamps {
     of: Vec<u32>,
     vetters: Vec<String>,
     who: Vec<u32>,
-    dates: Names,
-    notes: Names,
+    dates: StrPool,
+    notes: StrPool,
     /// Whether each entry has a note (an empty note is one).
     noted: Vec<bool>,
 }

@@ -66,7 +66,7 @@ impl Ledger {
                 )
             };
             // In one buffer: every decided candidate of a big ledger.
-            let mut pool = super::views::Names::default();
+            let mut pool = crate::catalogue::StrPool::default();
             self.each(sql, args, |r, _| {
                 pool.push(r.get_ref(0)?.as_str()?);
                 Ok(())

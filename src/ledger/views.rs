@@ -334,34 +334,6 @@ fn decision_from(name: &str, reason: Option<&str>) -> Option<Decision> {
     })
 }
 
-/// Many ledger texts (candidate ids) end to end in one buffer, for
-/// [`crate::catalogue::Catalogue::find_candidates`].
-#[derive(Debug, Default)]
-pub(super) struct Names {
-    text: String,
-    ends: Vec<usize>,
-}
-
-impl Names {
-    pub(super) fn push(&mut self, s: &str) {
-        self.text.push_str(s);
-        self.ends.push(self.text.len());
-    }
-
-    pub(super) fn get(&self, i: usize) -> &str {
-        let start = if i == 0 { 0 } else { self.ends[i - 1] };
-        &self.text[start..self.ends[i]]
-    }
-
-    pub(super) fn all(&self) -> Vec<&str> {
-        let starts = std::iter::once(0).chain(self.ends.iter().copied());
-        starts
-            .zip(&self.ends)
-            .map(|(a, &b)| &self.text[a..b])
-            .collect()
-    }
-}
-
 /// Shares the text that repeats from row to row (stars, vetters, versions).
 #[derive(Default)]
 pub(super) struct Interner(hashbrown::HashSet<Arc<str>>);
