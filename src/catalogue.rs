@@ -1,6 +1,7 @@
 //! The candidate catalogue: columnar storage with interned ids, indexed by
 //! host star. Loading lives in `load`, the header mapping in `columns`.
 
+mod column;
 mod columns;
 pub mod formats;
 mod load;
@@ -10,6 +11,7 @@ pub mod units;
 use std::hash::BuildHasher;
 use std::sync::Arc;
 
+pub use column::Column;
 pub use columns::{
     ColumnMap, ColumnUse, DepthUnit, FIELDS, FPP_PERCENT, Field, Mapping, NUMERIC, REQUIRED,
     percent_by_range,
@@ -157,7 +159,7 @@ pub struct Catalogue {
     candidates: Arc<StrPool>,
     stars: Arc<StrPool>,
     index: Arc<StarIndex>,
-    num: Vec<Option<Vec<f64>>>,
+    num: Vec<Option<Column>>,
     lightcurve: Option<StrPool>,
     extras: Vec<(String, StrPool)>,
     candidate_lookup: Arc<load::IdIndex>,
@@ -246,14 +248,16 @@ impl Catalogue {
 
     /// The value of a numeric field, `None` where the column is absent or the
     /// cell was empty.
+    #[inline(always)]
     pub fn value(&self, field: Field, c: CandidateId) -> Option<f64> {
-        let v = self.column(field)?[c as usize];
+        let v = self.column(field)?.get(c as usize);
         (!v.is_nan()).then_some(v)
     }
 
     /// A whole numeric column (`NaN` = missing), `None` if the catalogue lacks it.
-    pub fn column(&self, field: Field) -> Option<&[f64]> {
-        self.num[field.num_slot()?].as_deref()
+    #[inline]
+    pub fn column(&self, field: Field) -> Option<&Column> {
+        self.num[field.num_slot()?].as_ref()
     }
 
     pub fn has(&self, field: Field) -> bool {
@@ -446,7 +450,7 @@ impl Catalogue {
         let mut keyed: Vec<(f64, CandidateId)> = col
             .iter()
             .enumerate()
-            .map(|(i, &v)| (v, i as CandidateId))
+            .map(|(i, v)| (v, i as CandidateId))
             .collect();
         keyed.sort_unstable_by(|a, b| match (a.0.is_nan(), b.0.is_nan()) {
             (true, true) => a.1.cmp(&b.1),

@@ -373,18 +373,18 @@ fn epoch_zeros(cat: &Catalogue, out: &mut Checks) {
     let Some(epochs) = cat.column(Field::Epoch) else {
         return;
     };
-    let full = epochs.iter().position(|&e| e > 2.0e6);
-    let offset = epochs.iter().position(|&e| e < 1.0e5);
+    let full = epochs.iter().position(|e| e > 2.0e6);
+    let offset = epochs.iter().position(|e| e < 1.0e5);
     if let (Some(f), Some(o)) = (full, offset) {
-        let count = |p: fn(f64) -> bool| epochs.iter().filter(|&&e| p(e)).count();
+        let count = |p: fn(f64) -> bool| epochs.iter().filter(|&e| p(e)).count();
         out.notes.push(format!(
             "the epochs count from different zeros: {} rows near a full Julian date (such as {}, {}) and {} far below one (such as {}, {}; BJD − 2457000 and the like): signal groups, echoes and light curves compare epochs, so give the table one zero",
             count(|e| e > 2.0e6),
             crate::sanitize::clean(cat.candidate_id(f as CandidateId)),
-            epochs[f],
+            epochs.get(f),
             count(|e| e < 1.0e5),
             crate::sanitize::clean(cat.candidate_id(o as CandidateId)),
-            epochs[o],
+            epochs.get(o),
         ));
     }
 }

@@ -51,10 +51,11 @@ impl Selection<'_> {
                 return (self.radii.get(cands)).map_or(0, |r| compare_bits(r, op, v, true));
             }
             if let Some(field) = column_field(f) {
-                return self
-                    .cat
-                    .column(field)
-                    .map_or(0, |col| compare_bits(&col[cands], op, v, false));
+                return self.cat.column(field).map_or(0, |col| {
+                    let mut values = [0.0; 64];
+                    let n = col.read_into(cands, &mut values);
+                    compare_bits(&values[..n], op, v, false)
+                });
             }
         }
         let mut out = 0;

@@ -12,6 +12,7 @@ use std::sync::{Mutex, mpsc};
 use csv::ByteRecord;
 use flate2::read::MultiGzDecoder;
 
+use super::Column;
 use super::columns::{
     ColumnMap, ColumnUse, DepthUnit, FPP_PERCENT, Field, Mapping, NUMERIC, REQUIRED, header_unit,
 };

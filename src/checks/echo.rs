@@ -10,7 +10,7 @@ mod sweep;
 use std::collections::HashMap;
 
 use super::CheckSettings;
-use crate::catalogue::{CandidateId, Catalogue, Field};
+use crate::catalogue::{CandidateId, Catalogue, Column, Field};
 
 /// Whether (ra, dec) in degrees is a real position: finite, and a
 /// declination within ±90°.
@@ -107,7 +107,7 @@ pub(super) fn check(
     // as one integer per signal: the order of `f64::total_cmp`, then the
     // hash, then the candidate.
     let mut order: Vec<u128> = (0..cat.len())
-        .map(|i| order_key(periods[i], i as CandidateId))
+        .map(|i| order_key(periods.get(i), i as CandidateId))
         .collect();
     order.sort_unstable();
     let period_order: Vec<CandidateId> = order.into_iter().map(|k| k as CandidateId).collect();
@@ -132,13 +132,13 @@ pub(super) fn check(
         c: i as CandidateId,
         star: cat.star_of(i as CandidateId),
         rank: rank[i],
-        period: periods[i],
-        period_err: per_err.map_or(0.0, |e| nan_to_zero(e[i])),
-        epoch: epochs[i],
-        epoch_err: ep_err.map_or(0.0, |e| nan_to_zero(e[i])),
-        t14_d: durations[i] / 24.0,
-        ra: ra.map_or(f64::NAN, |r| r[i]),
-        dec: dec.map_or(f64::NAN, |d| d[i]),
+        period: periods.get(i),
+        period_err: per_err.map_or(0.0, |e| nan_to_zero(e.get(i))),
+        epoch: epochs.get(i),
+        epoch_err: ep_err.map_or(0.0, |e| nan_to_zero(e.get(i))),
+        t14_d: durations.get(i) / 24.0,
+        ra: ra.map_or(f64::NAN, |r| r.get(i)),
+        dec: dec.map_or(f64::NAN, |d| d.get(i)),
     };
     let index = sweep::Index::new(cat.len(), s.echo_radius_arcsec, sig);
     // The signals and the index: two of the four stages.
@@ -246,8 +246,8 @@ struct Pair<'a> {
     s: &'a CheckSettings,
     /// Whether the catalogue gives positions (each Sig carries its own).
     positions: bool,
-    mag: Option<&'a [f64]>,
-    depth: Option<&'a [f64]>,
+    mag: Option<&'a Column>,
+    depth: Option<&'a Column>,
 }
 
 impl Pair<'_> {
@@ -270,7 +270,7 @@ impl Pair<'_> {
     }
 
     fn depth_of(&self, c: CandidateId) -> f64 {
-        self.depth.map_or(f64::NAN, |d| d[c as usize])
+        self.depth.map_or(f64::NAN, |d| d.get(c as usize))
     }
 
     /// The first tests of [`Pair::compare`], on what they read of the two
@@ -347,9 +347,9 @@ impl Pair<'_> {
                 (b.c, a.c, false)
             }
         } else {
-            let (ma, mb) = self
-                .mag
-                .map_or((f64::NAN, f64::NAN), |m| (m[a.c as usize], m[b.c as usize]));
+            let (ma, mb) = self.mag.map_or((f64::NAN, f64::NAN), |m| {
+                (m.get(a.c as usize), m.get(b.c as usize))
+            });
             if ma.is_finite() && mb.is_finite() && ma > mb {
                 (a.c, b.c, true)
             } else {

@@ -447,7 +447,7 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
                 );
             }
         }
-        if let Some(p) = fpp.map(|col| col[c as usize]) {
+        if let Some(p) = fpp.map(|col| col.get(c as usize)) {
             if (FPP_EVEN..=1.0).contains(&p) {
                 out.add(
                     c,

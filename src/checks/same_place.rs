@@ -30,7 +30,7 @@ pub(super) fn ties(
     // The targets with a position, by declination.
     let mut near: Vec<Target> = targets
         .iter()
-        .map(|&c| (dec[c as usize], ra[c as usize], c))
+        .map(|&c| (dec.get(c as usize), ra.get(c as usize), c))
         .filter(|&(d, r, _)| real_position(r, d))
         .map(|(dec, ra, c)| Target {
             dec,
@@ -67,7 +67,7 @@ pub(super) fn ties(
     // random places: asked for some rows ahead (where the band starts in
     // `near`, then its first targets), the memory serves many at once.
     let ask = |c: usize, targets: bool| {
-        if let Some(&d) = dec.get(c) {
+        if let Some(d) = (c < dec.len()).then(|| dec.get(c)) {
             let b = band(d - reach);
             if targets {
                 crate::prefetch::value(&near, start[b] as usize);
@@ -80,7 +80,7 @@ pub(super) fn ties(
         .filter_map(|c| {
             ask(c as usize + 16, false);
             ask(c as usize + 8, true);
-            let (r, d) = (ra[c as usize], dec[c as usize]);
+            let (r, d) = (ra.get(c as usize), dec.get(c as usize));
             if !real_position(r, d) {
                 return None;
             }
@@ -184,18 +184,18 @@ mod tests {
             cat.column(Field::DecDeg).unwrap(),
         );
         let mut near: Vec<CandidateId> = targets.to_vec();
-        near.sort_by(|&a, &b| dec[a as usize].total_cmp(&dec[b as usize]));
+        near.sort_by(|&a, &b| dec.get(a as usize).total_cmp(&dec.get(b as usize)));
         (0..cat.len() as CandidateId)
             .filter_map(|c| {
-                let (r, d) = (ra[c as usize], dec[c as usize]);
+                let (r, d) = (ra.get(c as usize), dec.get(c as usize));
                 near.iter()
-                    .filter(|&&t| (dec[t as usize] - d).abs() <= SAME_PLACE_ARCSEC / 3600.0)
+                    .filter(|&&t| (dec.get(t as usize) - d).abs() <= SAME_PLACE_ARCSEC / 3600.0)
                     .filter(|&&t| cat.star_of(t) != cat.star_of(c))
                     .map(|&t| {
                         (
                             t,
                             c,
-                            separation_arcsec(ra[t as usize], dec[t as usize], r, d),
+                            separation_arcsec(ra.get(t as usize), dec.get(t as usize), r, d),
                         )
                     })
                     .find(|&(_, _, apart)| apart <= SAME_PLACE_ARCSEC)

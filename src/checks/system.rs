@@ -2,7 +2,7 @@
 //! close to be stable, and durations that betray a different star.
 
 use super::{CheckSettings, Checks};
-use crate::catalogue::{CandidateId, Catalogue, Field};
+use crate::catalogue::{CandidateId, Catalogue, Column, Field};
 use crate::flags::Flag;
 use crate::science;
 use crate::transit_model::DEFAULT_LD;
@@ -220,9 +220,16 @@ fn together(a: &Member, b: &Member, n: f64, t14_d: f64) -> Together {
     }
 }
 
+/// The columns [`check`] reads of each member: the catalogue's and the
+/// derived ones.
+pub(super) struct Read<'a> {
+    catalogue: Vec<&'a Column>,
+    derived: [&'a [f64]; 2],
+}
+
 /// The columns [`check`] reads of each member, catalogue's and derived.
-pub(super) fn read_columns<'a>(cat: &'a Catalogue, derived: &PerCandidate<'a>) -> Vec<&'a [f64]> {
-    [
+pub(super) fn read_columns<'a>(cat: &'a Catalogue, derived: &PerCandidate<'a>) -> Read<'a> {
+    let catalogue = [
         Field::PeriodD,
         Field::PeriodErrD,
         Field::DurationH,
@@ -237,16 +244,22 @@ pub(super) fn read_columns<'a>(cat: &'a Catalogue, derived: &PerCandidate<'a>) -
     ]
     .into_iter()
     .filter_map(|f| cat.column(f))
-    .chain([derived.density_transit, derived.radius_rearth])
-    .collect()
+    .collect();
+    Read {
+        catalogue,
+        derived: [derived.density_transit, derived.radius_rearth],
+    }
 }
 
 /// Asks the memory for what [`check`] will read of `members`' rows
 /// (`columns` from [`read_columns`]), some stars before it reads them: a
 /// star's rows lie anywhere in the file.
-pub(super) fn prefetch(columns: &[&[f64]], members: &[CandidateId]) {
+pub(super) fn prefetch(columns: &Read, members: &[CandidateId]) {
     for &c in members {
-        crate::prefetch::row(columns, c as usize);
+        for col in &columns.catalogue {
+            col.prefetch(c as usize);
+        }
+        crate::prefetch::row(&columns.derived, c as usize);
     }
 }
 
@@ -282,7 +295,8 @@ pub(super) fn check(
         col(Field::Epoch),
         col(Field::EpochErrD),
     );
-    let at = |column: Option<&[f64]>, c: CandidateId| column.map_or(f64::NAN, |x| x[c as usize]);
+    let at =
+        |column: Option<&Column>, c: CandidateId| column.map_or(f64::NAN, |x| x.get(c as usize));
     m.clear();
     m.extend(members.iter().map(|&c| Member {
         c,
@@ -577,7 +591,7 @@ fn one_place(
         return false;
     };
     let mut placed = members.iter().filter_map(|&c| {
-        let (r, d) = (ra[c as usize], dec[c as usize]);
+        let (r, d) = (ra.get(c as usize), dec.get(c as usize));
         super::echo::real_position(r, d).then_some((c, r, d))
     });
     let Some((first, ra0, dec0)) = placed.next() else {
@@ -627,7 +641,7 @@ fn one_star_values(cat: &Catalogue, members: &[CandidateId], out: &mut Checks) {
         let col = cat.column(f)?;
         let mut vals = members
             .iter()
-            .map(|&c| (c, col[c as usize]))
+            .map(|&c| (c, col.get(c as usize)))
             .filter(|v| v.1.is_finite());
         let first = vals.next()?;
         let (lo, hi) = vals.fold((first, first), |(lo, hi), v| {

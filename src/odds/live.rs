@@ -174,7 +174,7 @@ impl Live {
             let mut has = vec![false; n];
             let prior = prior.get_or_insert_with(|| (0..n).map(|c| f_of.get(c)).collect());
             let (mut bad, mut zero) = (0, 0);
-            for (c, &v) in col.iter().enumerate() {
+            for (c, v) in col.iter().enumerate() {
                 if v.is_nan() {
                     continue;
                 }

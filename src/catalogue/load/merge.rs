@@ -16,7 +16,7 @@ pub(super) struct Merger {
     pub(super) star_hash: Vec<u64>,
     pub(super) lines: Vec<u32>,
     /// One column per `Layout::num_cols` entry.
-    pub(super) num: Vec<Vec<f64>>,
+    pub(super) num: Vec<Column>,
     pub(super) lightcurve: Option<StrPool>,
     pub(super) extras: Vec<StrPool>,
     pub(super) hasher: hashbrown::DefaultHashBuilder,
@@ -48,7 +48,7 @@ impl Merger {
             row_stars: StrPool::default(),
             star_hash: Vec::new(),
             lines: Vec::new(),
-            num: vec![Vec::new(); layout.num_cols.len()],
+            num: vec![Column::default(); layout.num_cols.len()],
             lightcurve: layout.lc_col.map(|_| StrPool::default()),
             extras: vec![StrPool::default(); layout.extra_cols.len()],
             hasher: hashbrown::DefaultHashBuilder::default(),
@@ -90,7 +90,7 @@ impl Merger {
         // Columns not kept (`index_only`) stay empty.
         for (c, &kept) in self.num.iter_mut().zip(&layout.kept) {
             if kept {
-                c.reserve(est);
+                *c = Column::with_capacity(est);
             }
         }
     }
@@ -133,7 +133,7 @@ impl Merger {
             .zip(&layout.kept)
             .filter(|(_, k)| **k)
         {
-            dst.extend_from_slice(src);
+            dst.append(src);
         }
         if let (Some(dst), Some(src)) = (self.lightcurve.as_mut(), part.lightcurve.as_ref()) {
             dst.append(src);
@@ -170,7 +170,7 @@ impl Merger {
             )
         });
         let numbers = self.evidence_num.iter().map(|(j, h)| {
-            let v = self.num[*j][row];
+            let v = self.num[*j].get(row);
             (h, (!v.is_nan()).then(|| v.to_string()))
         });
         let cells: Vec<(String, String)> = text
@@ -216,7 +216,7 @@ impl Merger {
         retain(&mut self.star_hash, &keep);
         retain(&mut self.lines, &keep);
         for col in &mut self.num {
-            retain(col, &keep);
+            *col = col.filter(&keep);
         }
         if let Some(p) = self.lightcurve.as_mut() {
             *p = p.filter(&keep);
@@ -254,7 +254,7 @@ impl Merger {
         let mut notes = std::mem::take(&mut ids.notes);
         // Duplicates were found after their chunk's own skips: restore file order.
         skipped.sort_by_key(|s| s.line);
-        let mut num: Vec<Option<Vec<f64>>> = vec![None; NUMERIC.len()];
+        let mut num: Vec<Option<Column>> = vec![None; NUMERIC.len()];
         for ((&(slot, _), col), &kept) in layout.num_cols.iter().zip(parsed).zip(&layout.kept) {
             if kept {
                 num[slot] = Some(col);
@@ -274,7 +274,8 @@ impl Merger {
                 .filter(|u| !u.is_empty());
             if *field == Field::DepthPpm {
                 let slot = Field::DepthPpm.num_slot().unwrap_or(0);
-                let depths = num[slot].as_deref_mut().unwrap_or(&mut []);
+                let mut no_depths = Column::default();
+                let depths = num[slot].as_mut().unwrap_or(&mut no_depths);
                 let per_mag = stated.and_then(units::magnitude_scale);
                 let (du, why, extra) = match (opts.depth_unit, stated.map(units::depth_unit)) {
                     (None, Some(Some((du, extra)))) => (
@@ -285,9 +286,7 @@ impl Merger {
                     // A depth in magnitudes (`Depth (mmag)`): the flux
                     // drop by Pogson's ratio (docs/science.md §2).
                     (None, Some(None)) if let Some(per_mag) = per_mag => {
-                        depths
-                            .iter_mut()
-                            .for_each(|d| *d = units::depth_ppm_of_magnitudes(*d * per_mag));
+                        depths.update(|d| units::depth_ppm_of_magnitudes(d * per_mag));
                         (
                             DepthUnit::Ppm,
                             format!(
@@ -315,7 +314,7 @@ impl Merger {
                 };
                 let factor = du.to_ppm() * extra;
                 if factor != 1.0 {
-                    depths.iter_mut().for_each(|d| *d *= factor);
+                    depths.update(|d| d * factor);
                 }
                 unit = format!("{} (stored as ppm)", du.name());
                 if extra != 1.0 || per_mag.is_some() {
@@ -326,19 +325,19 @@ impl Merger {
                 // A probability in percent: stated so (`FPP (%)`), or seen
                 // (values above 1, none above 100), stored as a fraction.
                 let slot = Field::Fpp.num_slot().unwrap_or(0);
-                if let Some(fpp) = num[slot].as_deref_mut() {
+                if let Some(fpp) = num[slot].as_mut() {
                     let said = stated.is_some_and(|u| {
                         matches!(u.to_ascii_lowercase().as_str(), "%" | "percent" | "pct")
                     });
                     let (lo, hi) = fpp
                         .iter()
                         .filter(|v| v.is_finite())
-                        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &v| {
+                        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
                             (lo.min(v), hi.max(v))
                         });
                     let seen = crate::catalogue::percent_by_range(lo, hi);
                     if said || seen {
-                        fpp.iter_mut().for_each(|v| *v /= 100.0);
+                        fpp.update(|v| v / 100.0);
                         unit = FPP_PERCENT.to_string();
                         how = if said {
                             format!("{how}; table unit {}", stated.unwrap_or(""))
@@ -374,14 +373,10 @@ impl Merger {
             Field::PeriodErrD,
             Field::EpochErrD,
         ] {
-            let Some(col) = field.num_slot().and_then(|s| num[s].as_deref_mut()) else {
+            let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) else {
                 continue;
             };
-            let mut unknown = 0;
-            for v in col.iter_mut().filter(|v| **v <= 0.0) {
-                *v = f64::NAN;
-                unknown += 1;
-            }
+            let unknown = col.update(|v| if v <= 0.0 { f64::NAN } else { v });
             if unknown > 0 {
                 notes.push(format!(
                     "{unknown} {field} value{} of zero or below (`{}`) read as unknown: a placeholder, not a value",
@@ -418,9 +413,7 @@ impl Merger {
             });
         }
         for v in num.iter_mut().flatten() {
-            if v.capacity() > v.len() + v.len() / 8 {
-                v.shrink_to_fit();
-            }
+            v.settle();
         }
         if let Some(p) = lightcurve.as_mut() {
             p.shrink_to_fit();

@@ -241,6 +241,21 @@ pub(super) fn number_scan(b: &[u8], p: usize) -> Option<(Decimal, usize)> {
 #[inline(always)]
 pub(super) fn number_at(b: &[u8], p: usize) -> Option<(f64, usize)> {
     let (d, end) = number_scan(b, p)?;
+    Some((fast_value(&d)?, end))
+}
+
+/// [`number_at`], with the number's code in a [`Column`] (`Column::code_of`:
+/// the same digits, so the same value), or [`Column::NO_CODE`].
+#[inline(always)]
+pub(super) fn number_and_code_at(b: &[u8], p: usize) -> Option<(f64, u32, usize)> {
+    let (d, end) = number_scan(b, p)?;
+    let v = fast_value(&d)?;
+    Some((v, Column::code_of(d.neg, d.m, d.exp), end))
+}
+
+/// The value of a decimal on Clinger's fast path, `None` off it.
+#[inline(always)]
+fn fast_value(d: &Decimal) -> Option<f64> {
     if d.digits > 19 || d.m > (1u64 << 53) || !(-22..=22).contains(&d.exp) {
         return None;
     }
@@ -249,7 +264,7 @@ pub(super) fn number_at(b: &[u8], p: usize) -> Option<(f64, usize)> {
     } else {
         d.m as f64 * POW10[d.exp as usize]
     };
-    Some((if d.neg { -v } else { v }, end))
+    Some(if d.neg { -v } else { v })
 }
 
 /// `end`, or one byte less when `b[start..end]` ends in a CR (of a CRLF).

@@ -83,7 +83,7 @@ pub(super) struct Part {
     pub(super) star_hash: Vec<u64>,
     pub(super) lines: Vec<u32>,
     /// One column per `Layout::num_cols` entry.
-    pub(super) num: Vec<Vec<f64>>,
+    pub(super) num: Vec<Column>,
     pub(super) lightcurve: Option<StrPool>,
     pub(super) extras: Vec<StrPool>,
     pub(super) skipped: Vec<Skip>,
@@ -98,6 +98,13 @@ pub(super) struct Part {
     pub(super) bytes: usize,
     /// Line ends in the chunk: lines here count from 0 at its start.
     pub(super) newlines: u64,
+}
+
+/// A row's numbers as read, by slot in `NUMERIC`: the values, and their
+/// codes (`Column::code_of`) when the quick reader read them.
+pub(super) struct Cells<'a> {
+    pub(super) values: &'a [f64],
+    pub(super) codes: Option<&'a [u32]>,
 }
 
 impl Layout {
@@ -195,7 +202,7 @@ impl Layout {
                 p.stars.clear();
                 p.star_hash.clear();
                 p.lines.clear();
-                p.num.iter_mut().for_each(Vec::clear);
+                p.num.iter_mut().for_each(Column::clear);
                 if let Some(l) = p.lightcurve.as_mut() {
                     l.clear();
                 }
@@ -216,7 +223,7 @@ impl Layout {
                 star_hash: Vec::new(),
                 lines: Vec::new(),
                 num: (0..self.num_cols.len())
-                    .map(|_| Vec::with_capacity(chunk.bytes.len() / 100))
+                    .map(|_| Column::with_capacity(chunk.bytes.len() / 100))
                     .collect(),
                 lightcurve: self.lc_col.map(|_| StrPool::default()),
                 extras: vec![StrPool::default(); self.extra_cols.len()],
@@ -230,6 +237,8 @@ impl Layout {
             },
         };
         let mut scratch = vec![f64::NAN; NUMERIC.len()];
+        // The codes of a quick row's numbers (`Column::code_of`).
+        let mut codes = vec![Column::NO_CODE; NUMERIC.len()];
         // Field bounds are u32 (chunks are a few MB; a longer one takes the
         // general path).
         if chunk.bytes.len() <= u32::MAX as usize && (chunk.plain || plain_text(&chunk.bytes)) {
@@ -251,14 +260,18 @@ impl Layout {
             };
             let (mut line, mut start) = (0u64, 0usize);
             while start < bytes.len() {
-                let end = match self.quick_row(bytes, start, &mut rec, &mut scratch) {
+                let end = match self.quick_row(bytes, start, &mut rec, &mut scratch, &mut codes) {
                     Some(end) => {
                         let ids = (id(rec.bounds[self.star_col]), id(rec.bounds[self.cand_col]));
                         if let (Some(star), Some(cand)) = ids {
                             let row = self
                                 .validate(&rec, line, &mut scratch)
                                 .map(|()| (star, cand));
-                            self.push_row(&mut part, &rec, line, &scratch, hasher, row);
+                            let cells = Cells {
+                                values: &scratch,
+                                codes: Some(&codes),
+                            };
+                            self.push_row(&mut part, &rec, line, cells, hasher, row);
                         } else {
                             // Not UTF-8: the general rules say so.
                             self.add(&mut part, &rec, line, &mut scratch, hasher);
@@ -323,6 +336,7 @@ impl Layout {
         start: usize,
         rec: &mut SplitRecord,
         scratch: &mut [f64],
+        codes: &mut [u32],
     ) -> Option<usize> {
         rec.bounds.clear();
         let last = self.roles.len().checked_sub(1)?;
@@ -339,21 +353,25 @@ impl Layout {
             };
             let mut end = match (*role, checked) {
                 (_, Some(q)) => q,
-                (Role::Number(slot) | Role::Checked(slot), None) => match number_at(b, p) {
-                    Some((v, q)) if stop(q) => {
-                        scratch[slot] = v;
-                        q
-                    }
-                    Some(_) => return None,
-                    None => {
-                        let q = before_cr(b, p, text_end(b, p, self.delimiter));
-                        if !MISSING_TOKENS.contains(&&b[p..q]) {
-                            return None;
+                (Role::Number(slot) | Role::Checked(slot), None) => {
+                    match number_and_code_at(b, p) {
+                        Some((v, code, q)) if stop(q) => {
+                            scratch[slot] = v;
+                            codes[slot] = code;
+                            q
                         }
-                        scratch[slot] = f64::NAN;
-                        q
+                        Some(_) => return None,
+                        None => {
+                            let q = before_cr(b, p, text_end(b, p, self.delimiter));
+                            if !MISSING_TOKENS.contains(&&b[p..q]) {
+                                return None;
+                            }
+                            scratch[slot] = f64::NAN;
+                            codes[slot] = Column::MISSING;
+                            q
+                        }
                     }
-                },
+                }
                 (Role::Id | Role::Text, None) => before_cr(b, p, text_end(b, p, self.delimiter)),
             };
             if let Role::Id = role {
@@ -409,7 +427,11 @@ impl Layout {
         hasher: &hashbrown::DefaultHashBuilder,
     ) {
         let row = self.row(rec, line, scratch);
-        self.push_row(part, rec, line, scratch, hasher, row);
+        let cells = Cells {
+            values: scratch,
+            codes: None,
+        };
+        self.push_row(part, rec, line, cells, hasher, row);
     }
 
     /// Appends a row read as (star, candidate) with its numbers in
@@ -419,7 +441,7 @@ impl Layout {
         part: &mut Part,
         rec: &impl Record,
         line: u64,
-        scratch: &[f64],
+        cells: Cells,
         hasher: &hashbrown::DefaultHashBuilder,
         row: Result<(&str, &str), Skip>,
     ) {
@@ -439,7 +461,12 @@ impl Layout {
                 part.lines.push(u32::try_from(line).unwrap_or(u32::MAX));
                 for (j, &(slot, _)) in self.num_cols.iter().enumerate() {
                     if self.in_parts[j] {
-                        part.num[j].push(scratch[slot]);
+                        // A converted value is no longer its text's.
+                        let code = match cells.codes {
+                            Some(codes) if !self.convert.iter().any(|c| c.0 == slot) => codes[slot],
+                            _ => Column::NO_CODE,
+                        };
+                        part.num[j].push_code(code, cells.values[slot]);
                     }
                 }
                 if let (Some(pool), Some(col)) = (part.lightcurve.as_mut(), self.lc_col) {

@@ -77,7 +77,8 @@ fn part_text(p: &Part) -> Vec<String> {
             let nums: Vec<String> = p
                 .num
                 .iter()
-                .filter_map(|c| c.get(r))
+                .filter(|c| r < c.len())
+                .map(|c| c.get(r))
                 .map(|v| format!("{:?}", v.to_bits()))
                 .collect();
             format!(

@@ -34,7 +34,7 @@ pub(super) fn unit_conversions(
 pub(super) fn depth_unit(
     path: &str,
     header: &str,
-    depths: &[f64],
+    depths: &crate::catalogue::Column,
     flag: Option<DepthUnit>,
 ) -> Result<(DepthUnit, String), LoadError> {
     if let Some(u) = flag {
@@ -43,7 +43,7 @@ pub(super) fn depth_unit(
     if let Some(u) = DepthUnit::from_header(header) {
         return Ok((u, "from the header name".into()));
     }
-    let mut v: Vec<f64> = depths.iter().copied().filter(|d| d.is_finite()).collect();
+    let mut v: Vec<f64> = depths.iter().filter(|d| d.is_finite()).collect();
     let Some(median) = median(&mut v) else {
         return Ok((DepthUnit::Ppm, "assumed ppm (no rows)".into()));
     };
@@ -96,10 +96,10 @@ impl Default for DurationSample {
 
 impl DurationSample {
     /// Takes the rows that follow those seen (their periods and durations).
-    pub(super) fn add(&mut self, periods: &[f64], durations_h: &[f64]) {
+    pub(super) fn add(&mut self, periods: &Column, durations_h: &Column) {
         let first = (self.step - self.seen % self.step) % self.step;
         for i in (first..periods.len().min(durations_h.len())).step_by(self.step) {
-            self.pairs.push((periods[i], durations_h[i]));
+            self.pairs.push((periods.get(i), durations_h.get(i)));
         }
         self.seen += periods.len();
         // Every other row taken is at a multiple of the doubled step.
@@ -152,19 +152,20 @@ mod tests {
         let periods: Vec<f64> = (0..50_000).map(|i| (i + 1) as f64).collect();
         let durations = vec![3.0; periods.len()];
         let mut whole = DurationSample::default();
-        whole.add(&periods, &durations);
+        let col = |v: &[f64]| Column::from_values(v);
+        whole.add(&col(&periods), &col(&durations));
         let want: Vec<f64> = (0..50_000).step_by(8).map(|i| (i + 1) as f64).collect();
         assert_eq!(whole.pairs.iter().map(|p| p.0).collect::<Vec<_>>(), want);
         for cut in [1, 7, 999, 4096, 12_345] {
             let mut parts = DurationSample::default();
             for (p, t) in periods.chunks(cut).zip(durations.chunks(cut)) {
-                parts.add(p, t);
+                parts.add(&col(p), &col(t));
             }
             assert_eq!(parts.pairs, whole.pairs, "parts of {cut}");
         }
         // A table of fewer rows than the sample: every row.
         let mut few = DurationSample::default();
-        few.add(&periods[..9_000], &durations[..9_000]);
+        few.add(&col(&periods[..9_000]), &col(&durations[..9_000]));
         assert_eq!(few.pairs.len(), 9_000);
     }
 }

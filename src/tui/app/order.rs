@@ -233,11 +233,11 @@ pub(super) fn static_key(cat: &Catalogue, common: usize, sort: SortKey, s: StarI
     Some(match sort {
         SortKey::Star => prefix_key(&cat.star_id(s).as_bytes()[common..]),
         SortKey::Period => {
-            let period = cat.column(Field::PeriodD).unwrap_or(&[]);
+            let period = cat.column(Field::PeriodD);
             sortable_bits(
                 cat.members(s)
                     .iter()
-                    .filter_map(|&c| period.get(c as usize).copied())
+                    .filter_map(|&c| period.map(|p| p.get(c as usize)))
                     .fold(f64::INFINITY, f64::min),
             )
         }

@@ -1,0 +1,422 @@
+//! A numeric column in four bytes a value where the catalogue wrote it
+//! with few digits, as catalogues do (`9.375664`, `298.1`, `-48.82098`),
+//! and in eight where it did not: the same `f64`s, bit for bit, in about
+//! half the memory.
+//!
+//! A value is kept as a decimal m / 10^e (m < 2^26, e ≤ 15) when that
+//! quotient, computed in one IEEE division, is the value itself. Both m and
+//! 10^e are exact in an `f64`, so the division is correctly rounded
+//! (Clinger 1990, "How to read floating point numbers accurately", PLDI:
+//! the fast path), and it is the very operation that read the value from
+//! its text (`load::number::number_at`): the reader hands over its digits
+//! as the code (`Column::code_of`), and any other value is encoded only
+//! after the code is checked to give it back bit for bit. Anything else (a
+//! converted unit, a BJD with six decimals, a NaN other than the loader's)
+//! is kept whole, in eight bytes beside the codes. A column of mostly such
+//! values is kept as plain `f64`s.
+
+/// Powers of ten exact in an `f64`, for the codes' exponents.
+const POW10: [f64; 16] = [
+    1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15,
+];
+/// A code's top bit: the value is `wide[code & INDEX]`.
+const WIDE: u32 = 1 << 31;
+const INDEX: u32 = WIDE - 1;
+/// Otherwise: the sign, then four bits of exponent, then the mantissa.
+const SIGN: u32 = 1 << 30;
+const EXP_SHIFT: u32 = 26;
+const MANTISSA: u32 = (1 << EXP_SHIFT) - 1;
+/// The loader's NaN (a missing value): minus zero at the largest exponent,
+/// a code no value is given (`code_at` and `code_of` refuse it; minus zero
+/// is coded at exponent 0).
+const NAN: u32 = SIGN | (15 << EXP_SHIFT);
+
+/// A column of `f64`s; see the module's text.
+#[derive(Debug, Clone, Default)]
+pub struct Column {
+    /// One per value; empty when `plain`.
+    codes: Vec<u32>,
+    /// The values no code holds; every value when `plain`.
+    wide: Vec<f64>,
+    /// Most values were wide: kept as plain `f64`s.
+    plain: bool,
+    /// The exponent that encoded the last value, tried first for the next
+    /// (a column's values mostly carry the same number of decimals).
+    hint: u8,
+}
+
+impl Column {
+    /// No code: the value is encoded from itself ([`Column::push_code`]).
+    pub const NO_CODE: u32 = u32::MAX;
+    /// The code of a missing value (the loader's NaN).
+    pub const MISSING: u32 = NAN;
+
+    /// The code of the decimal ±m·10^exp as read from its text, if it has
+    /// one: its value is the reader's (`m / 10^-exp`, the same division),
+    /// so no check is needed. [`Column::NO_CODE`] otherwise.
+    #[inline]
+    pub fn code_of(neg: bool, m: u64, exp: i32) -> u32 {
+        if (-15..=0).contains(&exp) && m <= MANTISSA as u64 {
+            let code = (u32::from(neg) << 30) | (((-exp) as u32) << EXP_SHIFT) | m as u32;
+            if code != NAN {
+                return code;
+            }
+        }
+        Column::NO_CODE
+    }
+
+    pub fn with_capacity(n: usize) -> Column {
+        Column {
+            codes: Vec::with_capacity(n),
+            ..Column::default()
+        }
+    }
+
+    pub fn from_values(values: &[f64]) -> Column {
+        let mut c = Column::with_capacity(values.len());
+        c.extend(values);
+        c
+    }
+
+    pub fn len(&self) -> usize {
+        if self.plain {
+            self.wide.len()
+        } else {
+            self.codes.len()
+        }
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    /// The i-th value.
+    #[inline(always)]
+    pub fn get(&self, i: usize) -> f64 {
+        if self.plain {
+            return self.wide[i];
+        }
+        let code = self.codes[i];
+        if code & WIDE == 0 {
+            decode(code)
+        } else {
+            self.wide[(code & INDEX) as usize]
+        }
+    }
+
+    pub fn iter(&self) -> impl ExactSizeIterator<Item = f64> + '_ {
+        (0..self.len()).map(|i| self.get(i))
+    }
+
+    /// The values of `rows` into the start of `out`; returns how many.
+    pub fn read_into(&self, rows: std::ops::Range<usize>, out: &mut [f64]) -> usize {
+        let n = rows.len().min(out.len());
+        for (o, i) in out.iter_mut().zip(rows.take(n)) {
+            *o = self.get(i);
+        }
+        n
+    }
+
+    /// Every value, as plain `f64`s.
+    pub fn to_vec(&self) -> Vec<f64> {
+        self.iter().collect()
+    }
+
+    /// Asks the memory for the i-th value ahead of reading it.
+    #[inline]
+    pub fn prefetch(&self, i: usize) {
+        if self.plain {
+            crate::prefetch::value(&self.wide, i);
+        } else {
+            crate::prefetch::value(&self.codes, i);
+        }
+    }
+
+    pub fn push(&mut self, v: f64) {
+        if !self.plain && self.wide.len() as u64 >= INDEX as u64 {
+            // More wide values than a code can index: plain from here on.
+            self.go_plain();
+        }
+        if self.plain {
+            self.wide.push(v);
+            return;
+        }
+        let code = match self.encode(v) {
+            Some(code) => code,
+            None => self.wide_code(v),
+        };
+        self.codes.push(code);
+    }
+
+    /// Appends `v`, whose code (from [`Column::code_of`]) is `code`, or
+    /// [`Column::NO_CODE`] to encode it here.
+    #[inline]
+    pub fn push_code(&mut self, code: u32, v: f64) {
+        if code == Column::NO_CODE || self.plain {
+            return self.push(v);
+        }
+        debug_assert_eq!(decode(code).to_bits(), v.to_bits(), "code {code:#x}");
+        self.codes.push(code);
+    }
+
+    /// Empties the column, keeping its memory.
+    pub fn clear(&mut self) {
+        self.codes.clear();
+        self.wide.clear();
+        self.plain = false;
+    }
+
+    pub fn extend(&mut self, values: &[f64]) {
+        self.codes.reserve(values.len());
+        for &v in values {
+            self.push(v);
+        }
+    }
+
+    /// Appends another column's values.
+    pub fn append(&mut self, other: &Column) {
+        if self.plain || other.plain {
+            for v in other.iter() {
+                self.push(v);
+            }
+            return;
+        }
+        let base = self.wide.len() as u32;
+        if other.wide.is_empty() {
+            self.codes.extend_from_slice(&other.codes);
+        } else {
+            self.codes
+                .extend((other.codes.iter()).map(|&c| if c & WIDE != 0 { c + base } else { c }));
+            self.wide.extend_from_slice(&other.wide);
+        }
+        self.hint = other.hint;
+    }
+
+    /// Sets every value v to `f(v)` (a unit's conversion, a placeholder
+    /// read as missing); returns how many changed.
+    pub fn update(&mut self, mut f: impl FnMut(f64) -> f64) -> usize {
+        let mut changed = 0;
+        if self.plain {
+            for v in &mut self.wide {
+                let w = f(*v);
+                changed += usize::from(w.to_bits() != v.to_bits());
+                *v = w;
+            }
+            return changed;
+        }
+        for i in 0..self.codes.len() {
+            let v = self.get(i);
+            let w = f(v);
+            if w.to_bits() != v.to_bits() {
+                changed += 1;
+                // A wide value's old slot is left unused: updates are
+                // whole-column conversions, done once.
+                self.codes[i] = match self.encode(w) {
+                    Some(code) => code,
+                    None => self.wide_code(w),
+                };
+            }
+        }
+        changed
+    }
+
+    /// The values whose `keep` is true, in order (an empty column, one
+    /// not kept, stays empty).
+    pub fn filter(&self, keep: &[bool]) -> Column {
+        let mut out = Column::with_capacity(self.len());
+        for (i, _) in keep
+            .iter()
+            .take(self.len())
+            .enumerate()
+            .filter(|(_, k)| **k)
+        {
+            out.push(self.get(i));
+        }
+        out.settle();
+        out
+    }
+
+    /// Done growing: plain `f64`s when most values were wide (a code and a
+    /// wide value cost more than the value alone), spare capacity freed.
+    pub fn settle(&mut self) {
+        if !self.plain && self.wide.len() > self.codes.len() / 2 {
+            self.go_plain();
+        }
+        for_spare(&mut self.codes);
+        for_spare(&mut self.wide);
+    }
+
+    fn wide_code(&mut self, v: f64) -> u32 {
+        let at = self.wide.len() as u32;
+        self.wide.push(v);
+        WIDE | at
+    }
+
+    fn go_plain(&mut self) {
+        let values = self.to_vec();
+        self.codes = Vec::new();
+        self.wide = values;
+        self.plain = true;
+    }
+
+    /// The code of `v`, trying the last exponent first; `None` when no code
+    /// gives back `v` exactly.
+    #[inline]
+    fn encode(&mut self, v: f64) -> Option<u32> {
+        if let Some(code) = code_at(v, self.hint) {
+            return Some(code);
+        }
+        if v.to_bits() == f64::NAN.to_bits() {
+            return Some(NAN);
+        }
+        for e in 0..16u8 {
+            match code_at(v, e) {
+                Some(code) => {
+                    self.hint = e;
+                    return Some(code);
+                }
+                // A larger exponent only makes m larger.
+                None if v.abs() * POW10[e as usize] >= MANTISSA as f64 => return None,
+                None => {}
+            }
+        }
+        None
+    }
+}
+
+fn for_spare<T>(v: &mut Vec<T>) {
+    if v.capacity() > v.len() + v.len() / 8 {
+        v.shrink_to_fit();
+    }
+}
+
+/// The code m / 10^e of `v` at exponent `e`, if it gives back `v` bit for bit.
+#[inline]
+fn code_at(v: f64, e: u8) -> Option<u32> {
+    let a = v.abs();
+    let t = a * POW10[(e & 15) as usize];
+    // Also refuses NaN and infinity.
+    if t.is_nan() || t >= MANTISSA as f64 {
+        return None;
+    }
+    // Rounded to the nearest (a truncation of t + ½, cheaper than a call
+    // to `round`); a wrong m fails the check below.
+    let m = (t + 0.5) as u32;
+    let code = (u32::from(v.is_sign_negative()) << 30) | ((e as u32) << EXP_SHIFT) | m;
+    (code != NAN && decode(code).to_bits() == v.to_bits()).then_some(code)
+}
+
+/// The value of a code that is not wide.
+#[inline(always)]
+fn decode(code: u32) -> f64 {
+    if code == NAN {
+        return f64::NAN;
+    }
+    let v = (code & MANTISSA) as f64 / POW10[((code >> EXP_SHIFT) & 15) as usize];
+    // The code's sign bit to the value's (bit 30 to bit 63).
+    f64::from_bits(v.to_bits() | (u64::from(code & SIGN) << 33))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn same(values: &[f64]) {
+        let c = Column::from_values(values);
+        for (i, v) in values.iter().enumerate() {
+            assert_eq!(c.get(i).to_bits(), v.to_bits(), "value {i}: {v}");
+        }
+    }
+
+    #[test]
+    fn catalogue_values_fit_in_four_bytes() {
+        // As catalogues write them (the demo's generator's forms).
+        let text = [
+            "9.375664",
+            "9.38e-5",
+            "106.74707",
+            "298.1",
+            "-48.82098",
+            "271.94057",
+            "0",
+            "5462",
+            "0.01646",
+            "-0.0",
+        ];
+        let values: Vec<f64> = text.iter().map(|t| t.parse().unwrap()).collect();
+        let c = Column::from_values(&values);
+        assert!(c.wide.is_empty() && !c.plain);
+        same(&values);
+    }
+
+    #[test]
+    fn every_other_value_is_kept_whole_and_exact() {
+        let values = [
+            2459000.123456,
+            f64::NAN,
+            -f64::NAN,
+            f64::from_bits(f64::NAN.to_bits() | 1),
+            f64::INFINITY,
+            f64::NEG_INFINITY,
+            0.1 + 0.2,
+            3.6 * 24.0,
+            1e300,
+            5e-324,
+            -1.5e-9,
+            67_108_864.0,
+            f64::MAX,
+        ];
+        same(&values);
+        // A NaN's sign is kept (it orders by `total_cmp`).
+        let c = Column::from_values(&values);
+        assert!(c.get(2).is_sign_negative() && !c.get(1).is_sign_negative());
+    }
+
+    #[test]
+    fn random_bits_and_random_decimals_come_back_bit_for_bit() {
+        // A small xorshift: the values only need to be many and varied.
+        let mut s = 0x9E37_79B9_7F4A_7C15u64;
+        let mut next = || {
+            s ^= s << 13;
+            s ^= s >> 7;
+            s ^= s << 17;
+            s
+        };
+        let mut values = Vec::new();
+        for _ in 0..20_000 {
+            values.push(f64::from_bits(next()));
+            let digits = next() % 100_000_000;
+            let e = (next() % 12) as i32;
+            values.push(format!("{digits}e-{e}").parse().unwrap());
+        }
+        same(&values);
+    }
+
+    #[test]
+    fn append_update_filter_and_settle_keep_the_values() {
+        let a = [1.5, 2459000.123456, f64::NAN, 7.25];
+        let b = [0.1 + 0.2, 3.0, 2459001.5];
+        let mut c = Column::from_values(&a);
+        c.append(&Column::from_values(&b));
+        let all: Vec<f64> = a.iter().chain(&b).copied().collect();
+        assert_eq!(c.to_vec().len(), all.len());
+        for (x, y) in c.iter().zip(&all) {
+            assert_eq!(x.to_bits(), y.to_bits());
+        }
+        let changed = c.update(|v| if v > 2e6 { v * 24.0 } else { v });
+        assert_eq!(changed, 2);
+        assert_eq!(c.get(1), 2459000.123456 * 24.0);
+        assert_eq!(c.get(6), 2459001.5 * 24.0);
+        let f = c.filter(&[true, false, true, true, false, true, false]);
+        let kept: Vec<f64> = f.iter().collect();
+        assert_eq!(kept[0], 1.5);
+        assert!(kept[1].is_nan());
+        assert_eq!(&kept[2..], &[7.25, 3.0]);
+        // Mostly wide: plain.
+        let mut w = Column::from_values(&[0.1 + 0.2, 0.7 + 0.1, 1.0]);
+        w.settle();
+        assert!(w.plain);
+        assert_eq!(w.get(0), 0.1 + 0.2);
+        assert_eq!(w.get(2), 1.0);
+    }
+}
