@@ -674,3 +674,75 @@ fn a_table_that_numbers_each_stars_signals_names_them_star_dot_number() {
     let c = load_bytes("named.csv", named.as_bytes()).unwrap();
     assert_eq!(c.candidate_id(0), "K00005.01");
 }
+
+/// Every value the catalogue keeps is the standard library's reading of
+/// its cell (Rust's `str::parse::<f64>`, correctly rounded), bit for bit,
+/// however the column stores it: few digits (four bytes), full Julian
+/// dates with many decimals, exponents, signs, missing cells; read by the
+/// quick reader, and by the general one (a table with quoted cells).
+#[test]
+fn kept_values_are_the_cells_read_exactly() {
+    for quoted in [false, true] {
+        kept_values_read_exactly(quoted);
+    }
+}
+
+fn kept_values_read_exactly(quoted: bool) {
+    let mut text = String::from("star,candidate,period,epoch,depth_ppm,duration_h,dec_deg,snr\n");
+    let mut want = Vec::new();
+    for i in 0..3000u32 {
+        let period = format!("{}.{:06}", 1 + i % 97, (i * 7919) % 1_000_000);
+        let epoch = if i % 3 == 0 {
+            format!("2459{:03}.{:06}", i % 1000, (i * 104_729) % 1_000_000)
+        } else {
+            format!("{}.{:05}", 100 + i % 50, (i * 31) % 100_000)
+        };
+        let depth = match i % 4 {
+            0 => format!("{}e2", 1 + i % 90),
+            1 => format!("{}.{}", 200 + i, i % 10),
+            2 => format!("{}", 150 + i),
+            _ => format!(
+                "{}.{:012}",
+                300 + i % 7,
+                u64::from(i) * 123_456_789 % 1_000_000_000_000
+            ),
+        };
+        let dec = format!("-{}.{:05}", i % 89, (i * 13) % 100_000);
+        let snr = if i % 5 == 0 {
+            String::new()
+        } else {
+            format!("{}.{}", 7 + i % 30, i % 10)
+        };
+        let (star, cand) = (format!("S{i}"), format!("S{i}-1"));
+        let cand_cell = if quoted && i % 7 == 0 {
+            format!("\"{cand}\"")
+        } else {
+            cand
+        };
+        text.push_str(&format!(
+            "{star},{cand_cell},{period},{epoch},{depth},3.5,{dec},{snr}\n"
+        ));
+        want.push([period, epoch, depth, dec, snr]);
+    }
+    let cat = load_bytes("exact.csv", text.as_bytes()).unwrap();
+    assert_eq!(cat.len(), want.len());
+    let fields = [
+        Field::PeriodD,
+        Field::Epoch,
+        Field::DepthPpm,
+        Field::DecDeg,
+        Field::Snr,
+    ];
+    for (c, cells) in want.iter().enumerate() {
+        let c = cat.find_candidate(&format!("S{c}-1")).unwrap();
+        for (field, cell) in fields.iter().zip(cells) {
+            let got = cat.value(*field, c);
+            let expected = (!cell.is_empty()).then(|| cell.parse::<f64>().unwrap());
+            assert_eq!(
+                got.map(f64::to_bits),
+                expected.map(f64::to_bits),
+                "{field:?} of `{cell}` (quoted: {quoted})"
+            );
+        }
+    }
+}
