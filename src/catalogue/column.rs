@@ -374,14 +374,9 @@ mod tests {
 
     #[test]
     fn random_bits_and_random_decimals_come_back_bit_for_bit() {
-        // A small xorshift: the values only need to be many and varied.
-        let mut s = 0x9E37_79B9_7F4A_7C15u64;
-        let mut next = || {
-            s ^= s << 13;
-            s ^= s >> 7;
-            s ^= s << 17;
-            s
-        };
+        // The values only need to be many and varied.
+        let mut rng = crate::demo::Rng::new(7);
+        let mut next = || rng.next_u64();
         let mut values = Vec::new();
         for _ in 0..20_000 {
             values.push(f64::from_bits(next()));
