@@ -140,7 +140,7 @@ pub(super) fn check(
         ra: ra.map_or(f64::NAN, |r| r.get(i)),
         dec: dec.map_or(f64::NAN, |d| d.get(i)),
     };
-    let index = sweep::Index::new(cat.len(), s.echo_radius_arcsec, sig);
+    let index = sweep::Index::new(s.echo_radius_arcsec, sig, period_order);
     // The signals and the index: two of the four stages.
     stage(false);
     stage(false);
@@ -149,6 +149,8 @@ pub(super) fn check(
     swept.extend(crate::parallel::in_parts(index.unplaced_len(), |r| {
         index.sweep_unplaced(r, &pair, &sig)
     }));
+    // The index's memory goes; its period order stays.
+    let period_order = index.into_order();
     stage(true);
     let mut matches: Vec<sweep::Found> = Vec::new();
     let mut crowded_window = vec![false; cat.len()];

@@ -19,16 +19,18 @@ use crate::catalogue::CandidateId;
 use crate::sorted::advance;
 
 /// A signal as the search holds it: what the first tests of a comparison
-/// read ([`Pair::plausible`]), its place in the period order, and its
-/// cell. The rest of a signal (epoch, duration, position) is read from the
-/// columns only for the pairs those tests let through, which are few: 32
-/// bytes a signal instead of a whole [`Sig`]'s 72, at the peak of the
-/// checks' memory.
+/// read ([`Pair::plausible`]), its place in the period order (which names
+/// the candidate, `Index::order`), and its cell. The rest of a signal
+/// (epoch, duration, position) is read from the columns only for the pairs
+/// those tests let through, which are few: 24 bytes a signal instead of a
+/// whole [`Sig`]'s 72, at the peak of the checks' memory. The period's
+/// error is rounded up to an `f32`: the first tests then let through a
+/// pair or two more (they only widen as the errors grow), never fewer, and
+/// the comparison that decides reads the exact error.
 #[derive(Clone, Copy, Debug)]
 pub(super) struct Entry {
     period: f64,
-    period_err: f64,
-    c: CandidateId,
+    period_err: f32,
     star: u32,
     /// Place in the period order.
     rank: u32,
@@ -41,9 +43,22 @@ trait Held {
     fn quick(&self) -> Quick;
     fn rank(&self) -> u32;
     fn period(&self) -> f64;
-    fn candidate(&self) -> CandidateId;
+    /// The candidate; `order` is every candidate in period order.
+    fn candidate(&self, order: &[CandidateId]) -> CandidateId;
     /// The whole signal; `sig(i)` is the i-th in file order.
-    fn whole(&self, sig: &impl Fn(usize) -> Sig) -> Sig;
+    fn whole(&self, sig: &impl Fn(usize) -> Sig, order: &[CandidateId]) -> Sig;
+}
+
+/// `x` rounded up to an `f32` (never below it; infinity above the largest).
+/// For x ≥ 0 (an error's size; only its square is read): the next `f32`
+/// up is the next bit pattern.
+fn f32_up(x: f64) -> f32 {
+    let f = x as f32;
+    if f64::from(f) < x && f >= 0.0 {
+        f32::from_bits(f.to_bits() + 1)
+    } else {
+        f
+    }
 }
 
 impl Held for Entry {
@@ -51,7 +66,7 @@ impl Held for Entry {
         Quick {
             star: self.star,
             period: self.period,
-            period_err: self.period_err,
+            period_err: f64::from(self.period_err),
             placed: self.cell != UNPLACED,
         }
     }
@@ -61,11 +76,11 @@ impl Held for Entry {
     fn period(&self) -> f64 {
         self.period
     }
-    fn candidate(&self) -> CandidateId {
-        self.c
+    fn candidate(&self, order: &[CandidateId]) -> CandidateId {
+        order[self.rank as usize]
     }
-    fn whole(&self, sig: &impl Fn(usize) -> Sig) -> Sig {
-        sig(self.c as usize)
+    fn whole(&self, sig: &impl Fn(usize) -> Sig, order: &[CandidateId]) -> Sig {
+        sig(self.candidate(order) as usize)
     }
 }
 
@@ -79,16 +94,18 @@ impl Held for Sig {
     fn period(&self) -> f64 {
         self.period
     }
-    fn candidate(&self) -> CandidateId {
+    fn candidate(&self, _: &[CandidateId]) -> CandidateId {
         self.c
     }
-    fn whole(&self, _: &impl Fn(usize) -> Sig) -> Sig {
+    fn whole(&self, _: &impl Fn(usize) -> Sig, _: &[CandidateId]) -> Sig {
         *self
     }
 }
 
 /// The signals, laid out in the order the search reads them.
 pub(super) struct Index {
+    /// Every candidate in period order (the ranks' candidates).
+    order: Vec<CandidateId>,
     /// Every signal in period order; kept only when some signal has no
     /// position (their search reads all signals).
     all: InPeriodOrder,
@@ -179,8 +196,16 @@ impl Index {
     /// band, and then each band, a few thousand signals at most when spread
     /// over the sky, is sorted by cell and period. A layout that read the
     /// signals in the index's order waited on memory at every signal.
-    pub fn new(n: usize, radius_arcsec: f64, sig: impl Fn(usize) -> Sig) -> Index {
-        Index::in_blocks(n, radius_arcsec, sig, FILL_BLOCK, n / WHOLE_WHEN_ONE_IN)
+    /// `order` is every candidate in period order (rank r is `order[r]`).
+    pub fn new(radius_arcsec: f64, sig: impl Fn(usize) -> Sig, order: Vec<CandidateId>) -> Index {
+        let n = order.len();
+        Index::in_blocks(radius_arcsec, sig, order, FILL_BLOCK, n / WHOLE_WHEN_ONE_IN)
+    }
+
+    /// Every candidate in period order, as given to [`Index::new`]; the
+    /// rest of the index is let go.
+    pub fn into_order(self) -> Vec<CandidateId> {
+        self.order
     }
 
     /// [`Index::new`], the signals written to their bands `block` at a
@@ -188,12 +213,13 @@ impl Index {
     /// period order when more than `whole_above` have no position (the
     /// result is the same either way).
     fn in_blocks(
-        n: usize,
         radius_arcsec: f64,
         sig: impl Fn(usize) -> Sig,
+        order: Vec<CandidateId>,
         block: usize,
         whole_above: usize,
     ) -> Index {
+        let n = order.len();
         // A little wider than the radius, so rounding in the band number
         // never parts two signals within it by more than one band; and at
         // least 1e-7 degree, so every band number fits in 32 bits (wider
@@ -265,8 +291,7 @@ impl Index {
             .collect();
         let entry = |s: &Sig, b: u32| Entry {
             period: s.period,
-            period_err: s.period_err,
-            c: s.c,
+            period_err: f32_up(s.period_err.abs()),
             star: s.star,
             rank: s.rank,
             cell: if b == UNPLACED {
@@ -371,6 +396,7 @@ impl Index {
         if split == n {
             // Every signal has a position: the cells are all there is.
             return Index {
+                order,
                 all: InPeriodOrder::Entries(Vec::new()),
                 placed: placed_entries,
                 bands,
@@ -406,6 +432,7 @@ impl Index {
             unplaced_sigs
         };
         Index {
+            order,
             all,
             placed: placed_entries,
             bands,
@@ -464,10 +491,10 @@ impl Index {
                     .iter()
                     .take_while(|b| b.period() <= hi)
                     .take(8 * ECHO_WINDOW);
-                crowded |= scan(a, n, others, pair, sig, &mut out.matches);
+                crowded |= scan(a, n, others, pair, sig, &self.order, &mut out.matches);
             }
             if crowded {
-                out.crowded.push(a.candidate());
+                out.crowded.push(a.candidate(&self.order));
             }
         }
         out
@@ -574,10 +601,18 @@ impl Index {
                     // The two lists merged into period order.
                     near.sort_unstable_by_key(|b| b.rank);
                     near.truncate(8 * ECHO_WINDOW);
-                    crowded |= scan(a, n, near.iter().copied(), pair, sig, &mut out.matches);
+                    crowded |= scan(
+                        a,
+                        n,
+                        near.iter().copied(),
+                        pair,
+                        sig,
+                        &self.order,
+                        &mut out.matches,
+                    );
                 }
                 if crowded {
-                    out.crowded.push(a.c);
+                    out.crowded.push(a.candidate(&self.order));
                 }
             }
         }
@@ -605,6 +640,7 @@ fn scan<'s, T: Held + 's>(
     others: impl Iterator<Item = &'s T>,
     pair: &Pair,
     sig: &impl Fn(usize) -> Sig,
+    order: &[CandidateId],
     out: &mut Vec<Found>,
 ) -> bool {
     let (quick, nf) = (a.quick(), f64::from(n));
@@ -618,8 +654,8 @@ fn scan<'s, T: Held + 's>(
         if !pair.plausible(&quick, &b.quick(), nf) {
             continue;
         }
-        let a = *whole.get_or_insert_with(|| a.whole(sig));
-        if let Some(m) = pair.compare(&a, &b.whole(sig), nf) {
+        let a = *whole.get_or_insert_with(|| a.whole(sig, order));
+        if let Some(m) = pair.compare(&a, &b.whole(sig, order), nf) {
             out.push(((a.rank, n, b.rank()), m));
             found += 1;
         }
@@ -704,6 +740,19 @@ mod tests {
     }
 
     #[test]
+    fn an_entry_is_24_bytes_and_its_error_never_below_the_signals() {
+        assert_eq!(std::mem::size_of::<Entry>(), 24);
+        for x in [0.0, 1e-320, 1.1e-7, 9.38e-5, 0.1, 1.0 / 3.0, 1e38, 1e300] {
+            let up = f64::from(f32_up(x));
+            assert!(up >= x && (x == 0.0 || up > 0.0), "{x}");
+            // At most one f32 step above.
+            let below = f32::from_bits((up as f32).to_bits().saturating_sub(1));
+            assert!(x == 0.0 || f64::from(below) < x, "{x}");
+        }
+        assert_eq!(f32_up(0.0), 0.0);
+    }
+
+    #[test]
     fn the_bands_find_what_comparing_every_pair_finds() {
         // Radii from far below the patches' size to wider than the sky.
         for (seed, radius) in [(1, 120.0), (2, 30.0), (3, 1000.0), (4, 1e7), (5, 0.0)] {
@@ -726,6 +775,7 @@ mod tests {
             for (r, &k) in order.iter().enumerate() {
                 sigs[k as u32 as usize].rank = r as u32;
             }
+            let by_period: Vec<CandidateId> = order.iter().map(|&k| k as CandidateId).collect();
             let mut by_rank = sigs.clone();
             by_rank.sort_by_key(|s| s.rank);
             let mut want = every_pair(&by_rank, &pair);
@@ -733,9 +783,9 @@ mod tests {
             let sig = |i: usize| sigs[i];
             // Written to the bands in one block, in blocks of a few, and
             // one at a time (both ways of writing them, `Index::in_blocks`).
-            let index = Index::new(sigs.len(), radius, sig);
+            let index = Index::new(radius, sig, by_period.clone());
             for block in [1, 7, 256] {
-                let other = Index::in_blocks(sigs.len(), radius, sig, block, sigs.len() / 8);
+                let other = Index::in_blocks(radius, sig, by_period.clone(), block, 8);
                 assert_eq!(
                     format!("{:?}", (&other.placed, &other.bands, &other.cells)),
                     format!("{:?}", (&index.placed, &index.bands, &index.cells)),
@@ -743,8 +793,8 @@ mod tests {
                 );
             }
             // The signals in period order held whole, and as entries.
-            let whole = Index::in_blocks(sigs.len(), radius, sig, FILL_BLOCK, 0);
-            let entries = Index::in_blocks(sigs.len(), radius, sig, FILL_BLOCK, usize::MAX);
+            let whole = Index::in_blocks(radius, sig, by_period.clone(), FILL_BLOCK, 0);
+            let entries = Index::in_blocks(radius, sig, by_period.clone(), FILL_BLOCK, usize::MAX);
             assert!(matches!(whole.all, InPeriodOrder::Whole(_)) || whole.unplaced.is_empty());
             assert!(matches!(entries.all, InPeriodOrder::Entries(_)));
             let by_entries = entries.sweep_unplaced(0..entries.unplaced_len(), &pair, &sig);
