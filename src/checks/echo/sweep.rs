@@ -131,7 +131,7 @@ pub(super) struct Index {
 /// position: whole when those are many (without positions most pairs in a
 /// window pass the first tests, and each would read the columns), as
 /// entries when they are few (a catalogue with a few positions missing:
-/// 32 bytes a signal instead of 72, and few pairs read whole). The search
+/// 24 bytes a signal instead of 72, and few pairs read whole). The search
 /// is the same either way (tested).
 enum InPeriodOrder {
     Whole(Vec<Sig>),
