@@ -220,6 +220,28 @@ impl Column {
         changed
     }
 
+    /// Sets every value of zero or below to missing (NaN), reading the
+    /// codes' own sign and mantissa rather than decoding each; returns how
+    /// many. The same as `update(|v| if v <= 0.0 { NaN } else { v })`.
+    pub fn not_positive_to_missing(&mut self) -> usize {
+        if self.plain {
+            return self.update(|v| if v <= 0.0 { f64::NAN } else { v });
+        }
+        let mut changed = 0;
+        for code in &mut self.codes {
+            let not_positive = if *code & WIDE != 0 {
+                self.wide[(*code & INDEX) as usize] <= 0.0
+            } else {
+                *code != NAN && (*code & SIGN != 0 || *code & MANTISSA == 0)
+            };
+            if not_positive {
+                *code = NAN;
+                changed += 1;
+            }
+        }
+        changed
+    }
+
     /// The values whose `keep` is true, in order (an empty column, one
     /// not kept, stays empty).
     pub fn filter(&self, keep: &[bool]) -> Column {
@@ -402,6 +424,23 @@ mod tests {
         assert_eq!(changed, 2);
         assert_eq!(c.get(1), 2459000.123456 * 24.0);
         assert_eq!(c.get(6), 2459001.5 * 24.0);
+        let mut signs = Column::from_values(&[
+            -0.0,
+            0.0,
+            -2.5,
+            3.25,
+            f64::NAN,
+            -2459000.123456,
+            2459000.123456,
+            -1e-300,
+        ]);
+        let mut by_update = signs.clone();
+        let want = by_update.update(|v| if v <= 0.0 { f64::NAN } else { v });
+        assert_eq!(signs.not_positive_to_missing(), want);
+        assert_eq!(want, 5);
+        for (a, b) in signs.iter().zip(by_update.iter()) {
+            assert_eq!(a.to_bits(), b.to_bits());
+        }
         let f = c.filter(&[true, false, true, true, false, true, false]);
         let kept: Vec<f64> = f.iter().collect();
         assert_eq!(kept[0], 1.5);

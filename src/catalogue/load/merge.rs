@@ -376,7 +376,7 @@ impl Merger {
             let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) else {
                 continue;
             };
-            let unknown = col.update(|v| if v <= 0.0 { f64::NAN } else { v });
+            let unknown = col.not_positive_to_missing();
             if unknown > 0 {
                 notes.push(format!(
                     "{unknown} {field} value{} of zero or below (`{}`) read as unknown: a placeholder, not a value",
