@@ -175,6 +175,10 @@ impl Column {
 
     /// Appends another column's values.
     pub fn append(&mut self, other: &Column) {
+        if !self.plain && (self.wide.len() + other.wide.len()) as u64 >= INDEX as u64 {
+            // More wide values than a code can index: plain from here on.
+            self.go_plain();
+        }
         if self.plain || other.plain {
             for v in other.iter() {
                 self.push(v);
