@@ -18,12 +18,17 @@ pub(super) fn real_position(ra: f64, dec: f64) -> bool {
     ra.is_finite() && dec.abs() <= 90.0
 }
 
-/// Angular distance, arcsec, by the haversine formula.
+/// Angular distance, arcsec, by the haversine formula; NaN when a
+/// coordinate is missing (NaN).
 pub fn separation_arcsec(ra1: f64, dec1: f64, ra2: f64, dec2: f64) -> f64 {
     let (d1, d2) = (dec1.to_radians(), dec2.to_radians());
     let h = ((d2 - d1) / 2.0).sin().powi(2)
         + d1.cos() * d2.cos() * ((ra2 - ra1).to_radians() / 2.0).sin().powi(2);
-    2.0 * h.sqrt().min(1.0).asin().to_degrees() * 3600.0
+    // Rounding can take √h a hair above 1; `min` would also turn a NaN
+    // into 1 (half the sky), so the bound is applied only to a number.
+    let root = h.sqrt();
+    let root = if root > 1.0 { 1.0 } else { root };
+    2.0 * root.asin().to_degrees() * 3600.0
 }
 
 #[derive(Clone, Copy)]
@@ -330,7 +335,10 @@ impl Pair<'_> {
         if !t_ok {
             return None;
         }
-        let sep = if self.positions {
+        // A separation only between two real positions: a signal without
+        // one (an empty cell in a table that gives positions) is matched
+        // as in a table without them, a warning.
+        let sep = if self.positions && sweep::placed(a) && sweep::placed(b) {
             let v = separation_arcsec(a.ra, a.dec, b.ra, b.dec);
             if v.is_finite() && v > s.echo_radius_arcsec {
                 return None;
@@ -445,6 +453,10 @@ mod tests {
         // one degree of right ascension spans cos 60° = 0.5 degree.
         assert!((separation_arcsec(10.0, 20.0, 10.0, 20.0 + 1.0 / 60.0) - 60.0).abs() < 1e-6);
         assert!((separation_arcsec(10.0, 60.0, 11.0, 60.0) - 1800.0).abs() < 1.0);
+        // A missing coordinate is no distance, not half the sky.
+        assert!(separation_arcsec(f64::NAN, f64::NAN, 10.0, 20.0).is_nan());
+        // Antipodes: √h rounds to 1 or a hair above; the bound keeps 180°.
+        assert!((separation_arcsec(0.0, 0.0, 180.0, 0.0) - 648_000.0).abs() < 1e-6);
     }
 
     #[test]

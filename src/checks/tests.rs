@@ -388,6 +388,28 @@ A,A-1,3.2,100.0,20000,2.5\nB,B-1,3.2000001,100.0003,150,2.5\n";
         "{}",
         ch.why(1)
     );
+    // So is a match where one of the two has no position in a table that
+    // gives positions (an empty cell, or a declination beyond the pole):
+    // not taken for two stars half the sky apart.
+    for (ra, dec) in [("", ""), ("50.001", "95.0")] {
+        let gap = format!(
+            "star,candidate,period_d,epoch,depth_ppm,duration_h,ra_deg,dec_deg\n\
+A,A-1,3.2,100.0,20000,2.5,50.0,-15.0\nB,B-1,3.2000001,100.0003,150,2.5,{ra},{dec}\n"
+        );
+        let c = load(&gap);
+        let ch = run(&c, &CheckSettings::default());
+        assert!(
+            !ch.flags(1).contains(Flag::Echo) && ch.warnings(1).contains(Flag::Echo),
+            "`{ra}`, `{dec}`: {}",
+            ch.why(1)
+        );
+        assert!(
+            ch.why(1).contains("no positions to say how close"),
+            "{}",
+            ch.why(1)
+        );
+        assert!(ch.warnings(0).contains(Flag::Echo), "{}", ch.why(0));
+    }
 }
 
 #[test]
