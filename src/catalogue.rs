@@ -11,7 +11,7 @@ pub mod units;
 use std::hash::BuildHasher;
 use std::sync::Arc;
 
-pub use column::Column;
+pub use column::{Column, Decimal};
 pub use columns::{
     ColumnMap, ColumnUse, DepthUnit, FIELDS, FPP_PERCENT, Field, Mapping, NUMERIC, REQUIRED,
     percent_by_range,
@@ -252,6 +252,13 @@ impl Catalogue {
     pub fn value(&self, field: Field, c: CandidateId) -> Option<f64> {
         let v = self.column(field)?.get(c as usize);
         (!v.is_nan()).then_some(v)
+    }
+
+    /// A value as the decimal it was written as, when it is kept as one
+    /// ([`Column::decimal`]): written out without a search for its digits.
+    #[inline]
+    pub fn decimal(&self, field: Field, c: CandidateId) -> Option<Decimal> {
+        self.column(field)?.decimal(c as usize)
     }
 
     /// A whole numeric column (`NaN` = missing), `None` if the catalogue lacks it.

@@ -116,9 +116,133 @@ impl Shortest {
     }
 }
 
+/// A coded value's decimal ([`crate::catalogue::Decimal`]) as Ryu spells
+/// its `f64` (Adams 2018; serde_json's numbers) when `point_zero`, else as
+/// [`Shortest`] does (no bare `.0`): the same bytes, without the search for
+/// the digits. Ryu's layout: a whole number plainly, a point inside the
+/// digits or `0.` and up to four zeros before them, else `d.ddde-N`
+/// (a decimal of eight digits at most needs no other form).
+pub fn push_decimal(buf: &mut Vec<u8>, d: crate::catalogue::Decimal, point_zero: bool) {
+    // Made in place, then copied once: at most a sign, eight digits, a
+    // point and four zeros, or seven zeros and `.0`, or `e-NN`.
+    let mut text = [0u8; 24];
+    let mut n = 0;
+    let mut put = |bytes: &[u8]| {
+        text[n..n + bytes.len()].copy_from_slice(bytes);
+        n += bytes.len();
+    };
+    if d.negative {
+        put(b"-");
+    }
+    let (mut m, mut k) = (d.digits, -(d.scale as i32));
+    if m == 0 {
+        put(if point_zero { b"0.0" } else { b"0" });
+    } else {
+        while m % 10 == 0 {
+            m /= 10;
+            k += 1;
+        }
+        let mut spelled = [0u8; 8];
+        let mut start = spelled.len();
+        while m > 0 {
+            start -= 1;
+            spelled[start] = b'0' + (m % 10) as u8;
+            m /= 10;
+        }
+        let digits = &spelled[start..];
+        // The value is 0.digits x 10^kk.
+        let kk = digits.len() as i32 + k;
+        if k >= 0 {
+            put(digits);
+            put(&b"0000000"[..k as usize]);
+            if point_zero {
+                put(b".0");
+            }
+        } else if kk > 0 {
+            let (whole, part) = digits.split_at(kk as usize);
+            put(whole);
+            put(b".");
+            put(part);
+        } else if kk > -5 {
+            put(b"0.");
+            put(&b"0000"[..(-kk) as usize]);
+            put(digits);
+        } else {
+            put(&digits[..1]);
+            if digits.len() > 1 {
+                put(b".");
+                put(&digits[1..]);
+            }
+            put(b"e");
+            put(itoa::Buffer::new().format(kk - 1).as_bytes());
+        }
+    }
+    buf.extend_from_slice(&text[..n]);
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn decimals_are_written_as_ryu_writes_their_values() {
+        // The ryu crate (Adams 2018) is the reference, through Column's own
+        // codes: every scale, both signs, random digits and the edges (0,
+        // powers of ten, zeros at the end, the largest digits 2^26 - 1).
+        use crate::catalogue::{Column, Decimal};
+        let mut x = 0x2545_f491_4f6c_dd1d_u64;
+        let mut digits = vec![
+            0,
+            1,
+            9,
+            10,
+            100,
+            1_000_000,
+            10_000_000,
+            60_000_000,
+            (1 << 26) - 1,
+        ];
+        for _ in 0..20_000 {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            // Short and long digit strings alike.
+            digits.push((x >> 40) as u32 % 10u32.pow(1 + (x % 8) as u32) % (1 << 26));
+        }
+        let (mut written, mut b) = (Vec::new(), Shortest::new());
+        for &m in &digits {
+            for scale in 0..16 {
+                for negative in [false, true] {
+                    let v = m as f64 / 10f64.powi(scale as i32);
+                    let v = if negative { -v } else { v };
+                    let column = Column::from_values(&[v]);
+                    let d = Decimal {
+                        negative,
+                        digits: m,
+                        scale,
+                    };
+                    // The column keeps it as some decimal of the same value
+                    // (all but the largest digits, which are kept whole).
+                    let kept = column.decimal(0).unwrap_or(d);
+                    assert!(column.decimal(0).is_some() || m == (1 << 26) - 1);
+                    assert_eq!(column.get(0).to_bits(), v.to_bits());
+                    for (d, point_zero) in [(d, true), (d, false), (kept, false), (kept, true)] {
+                        written.clear();
+                        push_decimal(&mut written, d, point_zero);
+                        let want = if point_zero {
+                            ryu::Buffer::new().format_finite(v).to_string()
+                        } else {
+                            b.format(v).to_string()
+                        };
+                        assert_eq!(String::from_utf8_lossy(&written), want, "{m} / 10^{scale}");
+                    }
+                }
+            }
+        }
+        // Kept whole, or missing: no decimal.
+        let column = Column::from_values(&[2_458_325.123_456_78, f64::NAN, f64::INFINITY]);
+        assert!((0..3).all(|i| column.decimal(i).is_none()));
+    }
 
     #[test]
     fn shortest_writes_what_ryu_writes() {

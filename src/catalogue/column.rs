@@ -15,6 +15,21 @@
 //! is kept whole, in eight bytes beside the codes. A column of mostly such
 //! values is kept as plain `f64`s.
 
+/// A coded value as a decimal: ±`digits` / 10^`scale`, `digits` < 2^26
+/// (at most eight significant digits). Its value is the `f64` nearest this
+/// decimal, and no other decimal of eight digits or fewer is that near:
+/// two such decimals differ by at least 10^-9 of their size, an `f64`'s
+/// rounding interval spans 2^-52 of it. So the decimal, its zeros at the
+/// end left out, is the shortest text that reads back as the value, the
+/// digits a shortest round-trip formatter finds (Steele & White 1990;
+/// Adams 2018, Ryu), and it can be written without searching for them.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Decimal {
+    pub negative: bool,
+    pub digits: u32,
+    pub scale: u32,
+}
+
 /// Powers of ten exact in an `f64`, for the codes' exponents.
 const POW10: [f64; 16] = [
     1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15,
@@ -102,6 +117,23 @@ impl Column {
         } else {
             self.wide[(code & INDEX) as usize]
         }
+    }
+
+    /// The i-th value as the decimal its code holds, when it has one (not
+    /// kept whole, not missing): the value is the `f64` nearest that
+    /// decimal, so the decimal, its zeros at the end left out, is the
+    /// shortest text that reads back as the value (see [`Decimal`]).
+    #[inline]
+    pub fn decimal(&self, i: usize) -> Option<Decimal> {
+        if self.plain {
+            return None;
+        }
+        let code = self.codes[i];
+        (code & WIDE == 0 && code != NAN).then_some(Decimal {
+            negative: code & SIGN != 0,
+            digits: code & MANTISSA,
+            scale: (code >> EXP_SHIFT) & 15,
+        })
     }
 
     pub fn iter(&self) -> impl ExactSizeIterator<Item = f64> + '_ {

@@ -15,12 +15,12 @@ use std::path::{Path, PathBuf};
 
 use serde_json::{Value, json};
 
-use crate::catalogue::{CandidateId, Field, NUMERIC};
+use crate::catalogue::{CandidateId, Decimal, Field, NUMERIC};
 use crate::cli::args::VettingArgs;
 use crate::cli::error::CliError;
 use crate::odds::{Live, model_statement};
 use crate::output::votable::{self, Column, Kind};
-use crate::output::{exact_in, write_atomically, write_csv_rows, write_joined_rows};
+use crate::output::{exact_in, push_decimal, write_atomically, write_csv_rows, write_joined_rows};
 use crate::query::Filter;
 use crate::sanitize::clean;
 use crate::session::{LedgerUse, Session};
@@ -139,6 +139,8 @@ enum Cell<'a> {
     /// Text that may be absent: empty in CSV, null in JSON.
     Opt(Option<&'a str>),
     Num(Option<f64>),
+    /// An input value kept as the decimal it was written as.
+    Decimal(Decimal),
     Int(u64),
     Bool(bool),
     List(Vec<&'static str>),
@@ -265,7 +267,10 @@ impl<'a> Export<'a> {
         let mut out = Vec::with_capacity(self.numeric.len() + self.extras.len() + 18);
         out.push(Cell::Text(cat.star_id(cat.star_of(c))));
         out.push(Cell::Text(cat.candidate_id(c)));
-        out.extend(self.numeric.iter().map(|f| Cell::Num(cat.value(*f, c))));
+        out.extend(self.numeric.iter().map(|&f| match cat.decimal(f, c) {
+            Some(d) => Cell::Decimal(d),
+            None => Cell::Num(cat.value(f, c)),
+        }));
         if cat.has(Field::Lightcurve) {
             out.push(Cell::Text(cat.lightcurve(c).unwrap_or("")));
         }
@@ -365,6 +370,7 @@ impl<'a> Export<'a> {
                     Cell::Text(s) => w.text(s),
                     Cell::Opt(s) => w.text(s.unwrap_or("")),
                     Cell::Num(x) => w.exact(x),
+                    Cell::Decimal(d) => w.decimal(d),
                     Cell::Int(n) => w.int(n),
                     Cell::Bool(t) => w.text(if t { "yes" } else { "no" }),
                     Cell::List(l) => w.list(l, ";"),
@@ -414,6 +420,10 @@ impl<'a> Export<'a> {
                     Cell::Text(s) => serde_json::to_writer(&mut *buf, s),
                     Cell::Opt(s) => serde_json::to_writer(&mut *buf, s),
                     Cell::Num(x) => serde_json::to_writer(&mut *buf, &x.filter(|x| x.is_finite())),
+                    Cell::Decimal(d) => {
+                        push_decimal(buf, *d, true);
+                        Ok(())
+                    }
                     Cell::Int(k) => serde_json::to_writer(&mut *buf, k),
                     Cell::Bool(t) => serde_json::to_writer(&mut *buf, t),
                     Cell::List(l) => serde_json::to_writer(&mut *buf, l),
@@ -455,6 +465,11 @@ impl<'a> Export<'a> {
                     Cell::Text(s) => clean(s).into_owned(),
                     Cell::Opt(s) => clean(s.unwrap_or("")).into_owned(),
                     Cell::Num(x) => exact_in(&mut b, x).to_string(),
+                    Cell::Decimal(d) => {
+                        let mut text = Vec::new();
+                        push_decimal(&mut text, d, false);
+                        String::from_utf8_lossy(&text).into_owned()
+                    }
                     Cell::Int(k) => k.to_string(),
                     Cell::Bool(t) => (if t { "T" } else { "F" }).to_string(),
                     Cell::List(l) => l.join(";"),

@@ -153,6 +153,12 @@ impl<'a> CsvOut<'a> {
         }
     }
 
+    /// A value kept as a decimal, as [`CsvOut::exact`] writes its value.
+    pub fn decimal(&mut self, d: crate::catalogue::Decimal) {
+        self.separate();
+        super::push_decimal(&mut self.buf, d, false);
+    }
+
     /// A whole number.
     pub fn int(&mut self, n: impl itoa::Integer) {
         self.separate();
