@@ -23,14 +23,18 @@ pub(super) fn ties(cat: &Catalogue, targets: &[CandidateId]) -> Vec<(CandidateId
     if of.is_empty() {
         return Vec::new();
     }
-    (0..cat.len() as CandidateId)
-        .filter_map(|c| {
+    // Every row is looked at alone: a part of the rows on each core.
+    crate::parallel::in_parts(cat.len(), |rows| {
+        rows.filter_map(|c| {
+            let c = c as CandidateId;
             let ts = of.get(family(cat.candidate_id(c))?)?;
             let star: StarId = cat.star_of(c);
             let t = ts.iter().copied().find(|&t| cat.star_of(t) != star)?;
             Some((t, c))
         })
-        .collect()
+        .collect::<Vec<_>>()
+    })
+    .concat()
 }
 
 /// Holds each star a split family shares with a false positive: a

@@ -76,14 +76,16 @@ pub(super) fn ties(
             }
         }
     };
-    (0..cat.len() as CandidateId)
-        .filter_map(|c| {
-            ask(c as usize + 16, false);
-            ask(c as usize + 8, true);
-            let (r, d) = (ra.get(c as usize), dec.get(c as usize));
+    // Every row is looked at alone: a part of the rows on each core.
+    crate::parallel::in_parts(cat.len(), |rows| {
+        rows.filter_map(|c| {
+            ask(c + 16, false);
+            ask(c + 8, true);
+            let (r, d) = (ra.get(c), dec.get(c));
             if !real_position(r, d) {
                 return None;
             }
+            let c = c as CandidateId;
             let star: StarId = cat.star_of(c);
             let (lo, hi) = (start[band(d - reach)], start[band(d + reach) + 1]);
             let mut cos_dec = None;
@@ -99,7 +101,9 @@ pub(super) fn ties(
                 .map(|f| (f.c, c, separation_arcsec(f.ra, f.dec, r, d)))
                 .find(|&(_, _, apart)| apart <= SAME_PLACE_ARCSEC)
         })
-        .collect()
+        .collect::<Vec<_>>()
+    })
+    .concat()
 }
 
 /// A target of [`ties`] with its position (degrees), star and the cosine
