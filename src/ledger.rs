@@ -26,7 +26,7 @@ pub use file::{
 pub use seen::recorded_fingerprint;
 pub use stamps::{Stamp, Stamps};
 pub use tally::Tally;
-pub use views::{Decided, Latest};
+pub use views::{Decided, Latest, ReadAhead};
 
 /// `PRAGMA application_id` of a starsift ledger: "STSF".
 pub const APPLICATION_ID: i32 = 0x5354_5346;

@@ -30,6 +30,10 @@ pub enum LedgerUse {
     Ignore,
 }
 
+/// A ledger opened, and its decisions read, while the catalogue loads
+/// (none when the catalogue has no ledger yet).
+type LedgerAhead = Option<(crate::ledger::Ledger, crate::ledger::ReadAhead)>;
+
 /// A catalogue with all its evidence and the odds it implies.
 pub struct Session {
     pub loaded: Loaded,
@@ -222,8 +226,20 @@ impl Session {
             args.ledger.check_exists()?;
         }
         args.lc.check_folder()?;
+        // The ledger's decisions need no catalogue: they are read on a
+        // thread of their own while the catalogue loads.
+        let ahead = (ledger != LedgerUse::Ignore).then(|| {
+            let (ledger_args, input) = (args.ledger.clone(), args.input.clone());
+            std::thread::spawn(move || -> Result<LedgerAhead, CliError> {
+                let Some(l) = ledger_args.open_existing(&input)? else {
+                    return Ok(None);
+                };
+                let read = l.read_ahead()?;
+                Ok(Some((l, read)))
+            })
+        });
         let loaded = args.input.load()?;
-        Session::with_loaded(args, loaded, ledger)
+        Session::build(args, loaded, ledger, ahead)
     }
 
     /// [`Session::open`] for a command whose output needs the verdicts:
@@ -239,6 +255,17 @@ impl Session {
         args: &VettingArgs,
         loaded: Loaded,
         ledger: LedgerUse,
+    ) -> Result<Session, CliError> {
+        Session::build(args, loaded, ledger, None)
+    }
+
+    /// [`Session::with_loaded`], the ledger taken from `ahead` when it was
+    /// opened and read while the catalogue loaded.
+    fn build(
+        args: &VettingArgs,
+        loaded: Loaded,
+        ledger: LedgerUse,
+        ahead: Option<std::thread::JoinHandle<Result<LedgerAhead, CliError>>>,
     ) -> Result<Session, CliError> {
         let VettingArgs {
             input,
@@ -276,19 +303,29 @@ impl Session {
             lightcurve_notice = run.notice;
             lightcurve_totals = run.totals;
         }
-        let opened = match ledger {
-            LedgerUse::Read | LedgerUse::ReadEntries | LedgerUse::ReadTally => {
-                ledger_args.open_existing(input)?
-            }
-            LedgerUse::Ignore => None,
+        let (opened, read) = match ahead {
+            Some(thread) => match thread
+                .join()
+                .unwrap_or_else(|e| std::panic::resume_unwind(e))?
+            {
+                Some((l, read)) => (Some(l), Some(read)),
+                None => (None, None),
+            },
+            None => match ledger {
+                LedgerUse::Read | LedgerUse::ReadEntries | LedgerUse::ReadTally => {
+                    (ledger_args.open_existing(input)?, None)
+                }
+                LedgerUse::Ignore => (None, None),
+            },
         };
         let vetter = ledger_args.vetter.as_deref();
         let (decided, stamps, disagreements, tally, ledger_path) = match &opened {
             Some(l) => {
-                let (mut decided, stamps) = if ledger == LedgerUse::ReadEntries {
-                    l.decided_with_stamps(cat, vetter)?
-                } else {
-                    (l.decided(cat, vetter)?, Stamps::default())
+                let entries = ledger == LedgerUse::ReadEntries;
+                let (mut decided, stamps) = match read {
+                    Some(read) => l.decided_ahead(cat, vetter, read, entries)?,
+                    None if entries => l.decided_with_stamps(cat, vetter)?,
+                    None => (l.decided(cat, vetter)?, Stamps::default()),
                 };
                 if let Some(n) = crate::cli::args::gone_note(&decided.not_listed) {
                     eprintln!("starsift: note: {n}");

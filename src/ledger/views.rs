@@ -53,6 +53,10 @@ impl std::ops::Index<&str> for Latest {
 }
 
 /// What the odds need of the ledger for one catalogue ([`Ledger::decided`]).
+/// The decisions of a ledger as scanned ahead of the catalogue
+/// ([`Ledger::read_ahead`]), for [`Ledger::decided_ahead`].
+pub struct ReadAhead(super::disagree::Scan);
+
 #[derive(Debug, Default)]
 pub struct Decided {
     /// By candidate id: the latest decision on each candidate (of one
@@ -185,7 +189,31 @@ impl Ledger {
         cat: &crate::catalogue::Catalogue,
         vetter: Option<&str>,
     ) -> Result<Decided, LedgerError> {
-        Ok(self.decided_reading(cat, vetter, false)?.0)
+        Ok(self.decided_reading(cat, vetter, false, None)?.0)
+    }
+
+    /// The scan of the decisions that [`Ledger::decided`] makes, made
+    /// ahead, while the catalogue is read: it needs no catalogue.
+    pub fn read_ahead(&self) -> Result<ReadAhead, LedgerError> {
+        Ok(ReadAhead(self.scan_decisions()?))
+    }
+
+    /// [`Ledger::decided`] (with `stamps`, [`Ledger::decided_with_stamps`])
+    /// from the scan made by [`Ledger::read_ahead`].
+    pub fn decided_ahead(
+        &self,
+        cat: &crate::catalogue::Catalogue,
+        vetter: Option<&str>,
+        ahead: ReadAhead,
+        stamps: bool,
+    ) -> Result<(Decided, Stamps), LedgerError> {
+        let (decided, latest) = self.decided_reading(cat, vetter, stamps, Some(ahead.0))?;
+        let stamps = if stamps {
+            self.stamps(&latest)?
+        } else {
+            Stamps::default()
+        };
+        Ok((decided, stamps))
     }
 
     /// [`Ledger::decided`], and who made each candidate's decision in
@@ -197,7 +225,7 @@ impl Ledger {
         cat: &crate::catalogue::Catalogue,
         vetter: Option<&str>,
     ) -> Result<(Decided, Stamps), LedgerError> {
-        let (decided, latest) = self.decided_reading(cat, vetter, true)?;
+        let (decided, latest) = self.decided_reading(cat, vetter, true, None)?;
         Ok((decided, self.stamps(&latest)?))
     }
 
@@ -208,12 +236,16 @@ impl Ledger {
         cat: &crate::catalogue::Catalogue,
         vetter: Option<&str>,
         stamps: bool,
+        scanned: Option<super::disagree::Scan>,
     ) -> Result<(Decided, Vec<i64>), LedgerError> {
         let super::disagree::Scan {
             names,
             rows,
             vetters,
-        } = self.scan_decisions()?;
+        } = match scanned {
+            Some(scan) => scan,
+            None => self.scan_decisions()?,
+        };
         // Whether each row is of the vetter asked (every row when none is).
         let asked = vetter.map(|v| vetters.find(v));
         let mine = rows
