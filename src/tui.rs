@@ -182,6 +182,8 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
             c.stage.store(s as u8, std::sync::atomic::Ordering::Relaxed);
         }
     };
+    // The ledger's decisions are read while the catalogue loads.
+    let ahead = (!args.no_ledger).then(|| ledger_args.read_ahead(input));
     let loaded = match &counted {
         Some(c) => {
             let read = Arc::clone(&c.read);
@@ -211,9 +213,16 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         let (l, notes) = ledger_args.open_noting(input, &loaded)?;
         (Some(l), notes, None)
     };
-    let mut decided = match &ledger {
-        Some(l) => Some(l.decided(&loaded.catalogue, ledger_args.vetter.as_deref())?),
-        None => None,
+    let read = ahead
+        .and_then(|t| t.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
+        .filter(|(path, _)| ledger.as_ref().is_some_and(|l| l.path() == path));
+    let vetter = ledger_args.vetter.as_deref();
+    let mut decided = match (&ledger, read) {
+        (Some(l), Some((_, read))) => {
+            Some(l.decided_ahead(&loaded.catalogue, vetter, read, false)?.0)
+        }
+        (Some(l), None) => Some(l.decided(&loaded.catalogue, vetter)?),
+        (None, _) => None,
     };
     let disagree = decided
         .as_mut()

@@ -155,6 +155,23 @@ impl LedgerArgs {
         Ok(Some(crate::ledger::Ledger::open(&path)?))
     }
 
+    /// The decisions of the ledger that [`LedgerArgs::open_existing`] opens,
+    /// scanned on a thread while the catalogue loads (the browser's first
+    /// read), with the ledger's path: `None` from the thread when there is
+    /// no ledger yet or it cannot be read (opening it again, after the
+    /// load, says why). Used only for a ledger opened again at that path.
+    pub fn read_ahead(
+        &self,
+        input: &CatalogueArgs,
+    ) -> std::thread::JoinHandle<Option<(PathBuf, crate::ledger::ReadAhead)>> {
+        let (args, input) = (self.clone(), input.clone());
+        std::thread::spawn(move || {
+            let ledger = args.open_existing(&input).ok()??;
+            let read = ledger.read_ahead().ok()?;
+            Some((ledger.path().to_path_buf(), read))
+        })
+    }
+
     /// Opens the ledger for a loaded catalogue, records the catalogue's
     /// fingerprint and warns (on stderr) when the catalogue changed or
     /// decisions name candidates it no longer has.

@@ -216,6 +216,15 @@ fn what_the_odds_read_is_the_latest_entry_of_each_candidate() {
         assert_eq!(decided.gone.iter().collect::<Vec<_>>(), gone, "{vetter:?}");
         // The candidates gone are every vetter's, whoever's decisions count.
         assert_eq!(decided.not_listed, ["gone-1", "gone-2"], "{vetter:?}");
+        // The same from a scan made ahead of the catalogue (as a command
+        // scans while the catalogue loads).
+        let (ahead, _) = l
+            .decided_ahead(&cat, vetter, l.read_ahead().unwrap(), false)
+            .unwrap();
+        assert_eq!(ahead.decisions, decided.decisions, "{vetter:?}");
+        assert_eq!(ahead.gone, decided.gone, "{vetter:?}");
+        assert_eq!(ahead.not_listed, decided.not_listed, "{vetter:?}");
+        assert_eq!(ahead.disagreements, decided.disagreements, "{vetter:?}");
     }
     // S-3 was never decided: open; both gone candidates were.
     let all = l.decided(&cat, None).unwrap();
@@ -381,6 +390,14 @@ fn the_stamps_are_those_of_each_candidates_latest_entry() {
         }
         // S-4 was never decided.
         assert_eq!(stamps.get(3), None);
+        // The same from a scan made ahead of the catalogue.
+        let (ahead, ahead_stamps) = l
+            .decided_ahead(&cat, vetter, l.read_ahead().unwrap(), true)
+            .unwrap();
+        assert_eq!(ahead.decisions, decided.decisions);
+        for c in 0..cat.len() as crate::catalogue::CandidateId {
+            assert_eq!(ahead_stamps.get(c), stamps.get(c));
+        }
     }
 }
 

@@ -52,11 +52,11 @@ impl std::ops::Index<&str> for Latest {
     }
 }
 
-/// What the odds need of the ledger for one catalogue ([`Ledger::decided`]).
 /// The decisions of a ledger as scanned ahead of the catalogue
 /// ([`Ledger::read_ahead`]), for [`Ledger::decided_ahead`].
 pub struct ReadAhead(super::disagree::Scan);
 
+/// What the odds need of the ledger for one catalogue ([`Ledger::decided`]).
 #[derive(Debug, Default)]
 pub struct Decided {
     /// By candidate id: the latest decision on each candidate (of one
