@@ -507,9 +507,10 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
             echo.join().unwrap_or_else(|e| std::panic::resume_unwind(e)),
         )
     });
-    for (c, soft, why) in echoes {
+    for (c, soft, why) in echoes.findings {
         checks.add(c, Flag::Echo, soft, why);
     }
+    checks.notes.extend(echoes.chance.note());
     checks.sort_findings();
     progress.publish(checks.all_flags());
     checks

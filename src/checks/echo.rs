@@ -5,6 +5,8 @@
 //! exist, in cells of the sky (`cells`, `sweep`): O(n log n).
 
 mod cells;
+#[cfg(test)]
+mod chance_tests;
 mod sweep;
 
 use std::collections::HashMap;
@@ -73,15 +75,18 @@ impl Sig {
 /// One echo finding: (candidate, soft, why), in the order they are added.
 pub(super) type Finding = (CandidateId, bool, String);
 
+/// The echo search's findings, and what it says of the catalogue as a
+/// whole: how many of its matches without positions chance explains.
+pub(super) struct Echoes {
+    pub findings: Vec<Finding>,
+    pub chance: Chance,
+}
+
 /// The echo findings of the catalogue: each copy, each source it feeds,
 /// and the runs of signals whose window filled up.
 /// Its work is counted into `progress` in four stages of a quarter of the
 /// candidates each: the period order, the signals, the index, the search.
-pub(super) fn check(
-    cat: &Catalogue,
-    s: &CheckSettings,
-    progress: &super::CheckProgress,
-) -> Vec<Finding> {
+pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckProgress) -> Echoes {
     let quarter = cat.len() / 4;
     let stage = |last: bool| {
         progress.add(if last {
@@ -97,7 +102,10 @@ pub(super) fn check(
         col(Field::DurationH),
     ) else {
         progress.add(cat.len());
-        return Vec::new();
+        return Echoes {
+            findings: Vec::new(),
+            chance: Chance::new(0, 0),
+        };
     };
     let per_err = col(Field::PeriodErrD);
     let ep_err = col(Field::EpochErrD);
@@ -159,13 +167,19 @@ pub(super) fn check(
     stage(true);
     let mut matches: Vec<sweep::Found> = Vec::new();
     let mut crowded_window = vec![false; cat.len()];
+    let mut control = 0;
     for part in swept {
         matches.extend(part.matches);
         for c in part.crowded {
             crowded_window[c as usize] = true;
         }
+        control += part.control;
     }
     matches.sort_unstable_by_key(|m| m.0);
+    let chance = Chance::new(
+        matches.iter().filter(|m| m.1.1.sep.is_none()).count() as u64,
+        control,
+    );
     // What each candidate is, gathered over all its matches: the deepest
     // source it copies, and the copies it feeds (the first one found and
     // how many). Kept only for candidates with a match.
@@ -208,9 +222,10 @@ pub(super) fn check(
             // Without positions a match is only a hint (chance coincidences
             // in a large catalogue): a warning, never blocking.
             out.push((c, m.sep.is_none(), format!(
-                "same ephemeris as {} on {} (ΔP = {:.2e} d, Δt = {:.2} h{}{}); this is the {} copy: likely light from {}",
+                "same ephemeris as {} on {} (ΔP = {:.2e} d, Δt = {:.2} h{}{}); this is the {} copy: {}light from {}{}",
                 cat.candidate_id(m.other), star(m.other), m.dp, m.off_h, ratio(m.n), place(m.sep),
-                if m.fainter { "fainter" } else { "shallower" }, star(m.other)
+                if m.fainter { "fainter" } else { "shallower" }, chance.likely(m.sep), star(m.other),
+                chance.or_chance(m.sep)
             )));
         }
         // A copy that also feeds others is said once, as a copy.
@@ -224,11 +239,13 @@ pub(super) fn check(
                 c,
                 true,
                 format!(
-                    "its signal also appears as {} on {}{more}{}{}: likely leaking into that star",
+                    "its signal also appears as {} on {}{more}{}{}: {}leaking into that star{}",
                     cat.candidate_id(m.other),
                     star(m.other),
                     ratio(m.n),
-                    place(m.sep)
+                    place(m.sep),
+                    chance.likely(m.sep),
+                    chance.or_chance(m.sep)
                 ),
             ));
         }
@@ -245,7 +262,75 @@ pub(super) fn check(
         }
         previous = crowded;
     }
-    out
+    Echoes {
+        findings: out,
+        chance,
+    }
+}
+
+/// How many of the matches without a separation chance explains: the
+/// pairs the control matches ([`Pair::control`]) against the pairs matched.
+pub(super) struct Chance {
+    /// Pairs matched without a separation.
+    pub matched: u64,
+    /// Pairs the control matches.
+    pub control: u64,
+}
+
+impl Chance {
+    fn new(matched: u64, control: u64) -> Chance {
+        Chance { matched, control }
+    }
+
+    /// The share of the matches without a separation to expect by chance,
+    /// in percent (at most 100); `None` when the control matched nothing.
+    fn percent(&self) -> Option<f64> {
+        (self.control > 0 && self.matched > 0)
+            .then(|| (100.0 * self.control as f64 / self.matched as f64).min(100.0))
+    }
+
+    /// "likely " before the source, unless the match has no separation and
+    /// chance explains some of those.
+    fn likely(&self, sep: Option<f64>) -> &'static str {
+        if sep.is_none() && self.percent().is_some() {
+            ""
+        } else {
+            "likely "
+        }
+    }
+
+    /// What chance explains, after a match without a separation.
+    fn or_chance(&self, sep: Option<f64>) -> String {
+        match (sep, self.percent()) {
+            (None, Some(p)) => format!(
+                ", or chance: {} of this catalogue's matches without positions are",
+                share(p)
+            ),
+            _ => String::new(),
+        }
+    }
+
+    /// The catalogue's note, when the control matched any pair.
+    pub fn note(&self) -> Option<String> {
+        let p = self.percent()?;
+        Some(format!(
+            "echo: {} pair{} of signals on different stars match in period and epoch with no positions to say how close; with every epoch moved half a period, {} pair{} match: {} of the matches are chance coincidences (docs/science.md §3.3)",
+            self.matched,
+            if self.matched == 1 { "" } else { "s" },
+            self.control,
+            if self.control == 1 { "" } else { "s" },
+            share(p)
+        ))
+    }
+}
+
+/// A percentage in words: "under 1 %", "about 37 %".
+fn share(p: f64) -> String {
+    if p < 1.0 {
+        "under 1 %".into()
+    } else {
+        format!("about {p:.0} %")
+    }
 }
 
 /// What comparing two signals needs besides them.
@@ -302,6 +387,26 @@ impl Pair<'_> {
         }
     }
 
+    /// The control of a match without a separation (a warning): whether
+    /// b's transits would fall on a's with b's epoch moved half of a's
+    /// period, which no copy of a's light does. An unrelated pair of
+    /// matching period has its transits at a random phase, as likely in
+    /// the half-period window as in the real one, so the pairs the control
+    /// matches count the chance matches to expect (docs/science.md §3.3:
+    /// background by shifted times). Pairs with a separation (both placed,
+    /// in a table that gives positions) are not counted: their radius
+    /// makes chance rare, and their matches are flags.
+    fn control(&self, a: &Sig, b: &Sig, n: f64) -> bool {
+        if self.positions && sweep::placed(a) && sweep::placed(b) {
+            return false;
+        }
+        if !self.plausible(&a.quick(), &b.quick(), n) {
+            return false;
+        }
+        let var_p = b.period_err.powi(2) + (n * a.period_err).powi(2);
+        in_time(a, b, 0.5 * a.period, var_p).is_some()
+    }
+
     /// One match: b's transits fall on a's (b's period n·P_a, n = 1 or 2).
     /// `a` has the shorter period. Returns the copy and the match with its
     /// source.
@@ -323,18 +428,7 @@ impl Pair<'_> {
         {
             return None;
         }
-        // b's transit nearest a's epoch, against a's transits.
-        // Multiplied by the reciprocal periods (as the results always were).
-        let nb = nearest((a.epoch - b.epoch) * (1.0 / b.period));
-        let diff = b.epoch + nb * b.period - a.epoch;
-        let off = (diff - nearest(diff * (1.0 / a.period)) * a.period).abs();
-        // Within a quarter of the shorter duration, or 3σ of the combined
-        // timing error (squared again).
-        let t_ok = off <= 0.25 * a.t14_d.min(b.t14_d)
-            || off * off <= 9.0 * (a.epoch_err.powi(2) + b.epoch_err.powi(2) + nb * nb * var_p);
-        if !t_ok {
-            return None;
-        }
+        let off = in_time(a, b, 0.0, var_p)?;
         // A separation only between two real positions: a signal without
         // one (an empty cell in a table that gives positions) is matched
         // as in a table without them, a warning.
@@ -378,6 +472,24 @@ impl Pair<'_> {
             },
         ))
     }
+}
+
+/// How far b's transits fall from a's (days), when within the timing
+/// tolerance: a quarter of the shorter duration, or 3σ of the combined
+/// timing error, the period's error (variance `var_p`) carried over the
+/// cycles between the epochs. `shift` (days) moves b's epoch, for the
+/// control ([`Pair::control`]); 0 otherwise.
+fn in_time(a: &Sig, b: &Sig, shift: f64, var_p: f64) -> Option<f64> {
+    let epoch = b.epoch + shift;
+    // b's transit nearest a's epoch, against a's transits.
+    // Multiplied by the reciprocal periods (as the results always were).
+    let nb = nearest((a.epoch - epoch) * (1.0 / b.period));
+    let diff = epoch + nb * b.period - a.epoch;
+    let off = (diff - nearest(diff * (1.0 / a.period)) * a.period).abs();
+    // Squared again: no root taken.
+    (off <= 0.25 * a.t14_d.min(b.t14_d)
+        || off * off <= 9.0 * (a.epoch_err.powi(2) + b.epoch_err.powi(2) + nb * nb * var_p))
+        .then_some(off)
 }
 
 /// The period order as one integer: the order of `f64::total_cmp` on the

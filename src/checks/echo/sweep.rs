@@ -164,6 +164,9 @@ pub(super) type Found = ((u32, u8, u32), (CandidateId, Match));
 pub(super) struct Swept {
     pub matches: Vec<Found>,
     pub crowded: Vec<CandidateId>,
+    /// Pairs without a separation that match with one epoch moved half a
+    /// period ([`super::Pair::control`]): the chance matches to expect.
+    pub control: u64,
 }
 
 /// Whether a signal has a real position: the bands hold these, and the
@@ -491,7 +494,7 @@ impl Index {
                     .iter()
                     .take_while(|b| b.period() <= hi)
                     .take(8 * ECHO_WINDOW);
-                crowded |= scan(a, n, others, pair, sig, &self.order, &mut out.matches);
+                crowded |= scan(a, n, others, pair, sig, &self.order, &mut out);
             }
             if crowded {
                 out.crowded.push(a.candidate(&self.order));
@@ -601,15 +604,7 @@ impl Index {
                     // The two lists merged into period order.
                     near.sort_unstable_by_key(|b| b.rank);
                     near.truncate(8 * ECHO_WINDOW);
-                    crowded |= scan(
-                        a,
-                        n,
-                        near.iter().copied(),
-                        pair,
-                        sig,
-                        &self.order,
-                        &mut out.matches,
-                    );
+                    crowded |= scan(a, n, near.iter().copied(), pair, sig, &self.order, &mut out);
                 }
                 if crowded {
                     out.crowded.push(a.candidate(&self.order));
@@ -633,7 +628,8 @@ impl Index {
 /// [`ECHO_MATCHES`] matches (a catalogue with thousands of copies of one
 /// ephemeris stays O(n log n), and each still meets a copy). Returns whether
 /// the window filled up. A pair the first tests let through
-/// ([`Pair::plausible`]) is compared whole, each signal read by `sig`.
+/// ([`Pair::plausible`]) is compared whole, each signal read by `sig`, and
+/// in the control ([`Pair::control`]).
 fn scan<'s, T: Held + 's>(
     a: &impl Held,
     n: u8,
@@ -641,7 +637,7 @@ fn scan<'s, T: Held + 's>(
     pair: &Pair,
     sig: &impl Fn(usize) -> Sig,
     order: &[CandidateId],
-    out: &mut Vec<Found>,
+    out: &mut Swept,
 ) -> bool {
     let (quick, nf) = (a.quick(), f64::from(n));
     let others = others.filter(|b| b.quick().star != quick.star);
@@ -655,10 +651,12 @@ fn scan<'s, T: Held + 's>(
             continue;
         }
         let a = *whole.get_or_insert_with(|| a.whole(sig, order));
-        if let Some(m) = pair.compare(&a, &b.whole(sig, order), nf) {
-            out.push(((a.rank, n, b.rank()), m));
+        let whole_b = b.whole(sig, order);
+        if let Some(m) = pair.compare(&a, &whole_b, nf) {
+            out.matches.push(((a.rank, n, b.rank()), m));
             found += 1;
         }
+        out.control += u64::from(pair.control(&a, &whole_b, nf));
     }
     false
 }
