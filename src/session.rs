@@ -9,7 +9,7 @@ use std::collections::BTreeMap;
 use std::io::IsTerminal;
 
 use crate::checks::{CheckSettings, Checks};
-use crate::cli::args::{Loaded, VettingArgs};
+use crate::cli::args::{LedgerRead, Loaded, VettingArgs};
 use crate::cli::error::CliError;
 use crate::decision::Decision;
 use crate::ledger::{Decided, Entry, Stamps, Tally};
@@ -29,10 +29,6 @@ pub enum LedgerUse {
     /// No ledger: every candidate open.
     Ignore,
 }
-
-/// A ledger opened, and its decisions read, while the catalogue loads
-/// (none when the catalogue has no ledger yet).
-type LedgerAhead = Option<(crate::ledger::Ledger, crate::ledger::ReadAhead)>;
 
 /// A catalogue with all its evidence and the odds it implies.
 pub struct Session {
@@ -226,18 +222,8 @@ impl Session {
             args.ledger.check_exists()?;
         }
         args.lc.check_folder()?;
-        // The ledger's decisions need no catalogue: they are read on a
-        // thread of their own while the catalogue loads.
-        let ahead = (ledger != LedgerUse::Ignore).then(|| {
-            let (ledger_args, input) = (args.ledger.clone(), args.input.clone());
-            std::thread::spawn(move || -> Result<LedgerAhead, CliError> {
-                let Some(l) = ledger_args.open_existing(&input)? else {
-                    return Ok(None);
-                };
-                let read = l.read_ahead()?;
-                Ok(Some((l, read)))
-            })
-        });
+        // The ledger's decisions are read while the catalogue loads.
+        let ahead = (ledger != LedgerUse::Ignore).then(|| args.ledger.read_ahead(&args.input));
         let loaded = args.input.load()?;
         Session::build(args, loaded, ledger, ahead)
     }
@@ -265,7 +251,7 @@ impl Session {
         args: &VettingArgs,
         loaded: Loaded,
         ledger: LedgerUse,
-        ahead: Option<std::thread::JoinHandle<Result<LedgerAhead, CliError>>>,
+        ahead: Option<std::thread::JoinHandle<Result<Option<LedgerRead>, CliError>>>,
     ) -> Result<Session, CliError> {
         let VettingArgs {
             input,

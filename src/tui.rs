@@ -213,9 +213,15 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         let (l, notes) = ledger_args.open_noting(input, &loaded)?;
         (Some(l), notes, None)
     };
+    // The scan serves the ledger opened above when it is the one scanned
+    // (opening that one again said why, if the scan's could not be read).
     let read = ahead
-        .and_then(|t| t.join().unwrap_or_else(|e| std::panic::resume_unwind(e)))
-        .filter(|(path, _)| ledger.as_ref().is_some_and(|l| l.path() == path));
+        .and_then(|t| {
+            t.join()
+                .unwrap_or_else(|e| std::panic::resume_unwind(e))
+                .ok()?
+        })
+        .filter(|(scanned, _)| ledger.as_ref().is_some_and(|l| l.path() == scanned.path()));
     let vetter = ledger_args.vetter.as_deref();
     let mut decided = match (&ledger, read) {
         (Some(l), Some((_, read))) => {

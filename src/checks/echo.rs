@@ -395,12 +395,10 @@ impl Pair<'_> {
     /// matches count the chance matches to expect (docs/science.md §3.3:
     /// background by shifted times). Pairs with a separation (both placed,
     /// in a table that gives positions) are not counted: their radius
-    /// makes chance rare, and their matches are flags.
+    /// makes chance rare, and their matches are flags. For a pair
+    /// [`Pair::plausible`] let through.
     fn control(&self, a: &Sig, b: &Sig, n: f64) -> bool {
         if self.positions && sweep::placed(a) && sweep::placed(b) {
-            return false;
-        }
-        if !self.plausible(&a.quick(), &b.quick(), n) {
             return false;
         }
         let var_p = b.period_err.powi(2) + (n * a.period_err).powi(2);

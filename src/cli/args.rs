@@ -85,6 +85,9 @@ impl ModelArgs {
     }
 }
 
+/// A ledger opened and its decisions scanned ([`LedgerArgs::read_ahead`]).
+pub type LedgerRead = (crate::ledger::Ledger, crate::ledger::ReadAhead);
+
 /// Which ledger to use and who is deciding.
 #[derive(Debug, Clone, Default, clap::Args)]
 pub struct LedgerArgs {
@@ -155,20 +158,21 @@ impl LedgerArgs {
         Ok(Some(crate::ledger::Ledger::open(&path)?))
     }
 
-    /// The decisions of the ledger that [`LedgerArgs::open_existing`] opens,
-    /// scanned on a thread while the catalogue loads (the browser's first
-    /// read), with the ledger's path: `None` from the thread when there is
-    /// no ledger yet or it cannot be read (opening it again, after the
-    /// load, says why). Used only for a ledger opened again at that path.
+    /// The ledger [`LedgerArgs::open_existing`] opens, and its decisions
+    /// scanned ([`crate::ledger::Ledger::read_ahead`]), on a thread, while
+    /// the catalogue loads: they need no catalogue. `None` from the thread
+    /// when the catalogue has no ledger yet.
     pub fn read_ahead(
         &self,
         input: &CatalogueArgs,
-    ) -> std::thread::JoinHandle<Option<(PathBuf, crate::ledger::ReadAhead)>> {
+    ) -> std::thread::JoinHandle<Result<Option<LedgerRead>, CliError>> {
         let (args, input) = (self.clone(), input.clone());
         std::thread::spawn(move || {
-            let ledger = args.open_existing(&input).ok()??;
-            let read = ledger.read_ahead().ok()?;
-            Some((ledger.path().to_path_buf(), read))
+            let Some(ledger) = args.open_existing(&input)? else {
+                return Ok(None);
+            };
+            let read = ledger.read_ahead()?;
+            Ok(Some((ledger, read)))
         })
     }
 
