@@ -223,7 +223,8 @@ impl Session {
         }
         args.lc.check_folder()?;
         // The ledger's decisions are read while the catalogue loads.
-        let ahead = (ledger != LedgerUse::Ignore).then(|| args.ledger.read_ahead(&args.input));
+        let ahead =
+            (ledger != LedgerUse::Ignore).then(|| args.ledger.read_ahead(&args.input, true));
         let loaded = args.input.load()?;
         Session::build(args, loaded, ledger, ahead)
     }

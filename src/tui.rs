@@ -183,7 +183,7 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         }
     };
     // The ledger's decisions are read while the catalogue loads.
-    let ahead = (!args.no_ledger).then(|| ledger_args.read_ahead(input));
+    let ahead = (!args.no_ledger).then(|| ledger_args.read_ahead(input, false));
     let loaded = match &counted {
         Some(c) => {
             let read = Arc::clone(&c.read);

@@ -142,11 +142,27 @@ impl LedgerArgs {
         &self,
         input: &CatalogueArgs,
     ) -> Result<Option<crate::ledger::Ledger>, CliError> {
+        self.open_found(input, true)
+    }
+
+    /// [`LedgerArgs::open_existing`]; with `by_content` false, a default
+    /// ledger named by the catalogue's content (an earlier version's name,
+    /// where the catalogue's folder cannot be written) is not looked for:
+    /// that would read the whole catalogue for its fingerprint.
+    fn open_found(
+        &self,
+        input: &CatalogueArgs,
+        by_content: bool,
+    ) -> Result<Option<crate::ledger::Ledger>, CliError> {
         self.check_exists()?;
         let path = match &self.ledger {
             Some(p) => p.clone(),
             None => {
-                let p = default_ledger_path(input);
+                let p = if by_content {
+                    default_ledger_path(input)
+                } else {
+                    crate::ledger::default_path_with(input.catalogue.as_deref(), &String::new)
+                };
                 if !p.exists() {
                     return Ok(None);
                 }
@@ -161,14 +177,18 @@ impl LedgerArgs {
     /// The ledger [`LedgerArgs::open_existing`] opens, and its decisions
     /// scanned ([`crate::ledger::Ledger::read_ahead`]), on a thread, while
     /// the catalogue loads: they need no catalogue. `None` from the thread
-    /// when the catalogue has no ledger yet.
+    /// when the catalogue has no ledger yet. `by_content` as for
+    /// `open_found`: false where the scan only saves time (the browser,
+    /// which opens its ledger again after the load), so that it never
+    /// reads the catalogue a second time.
     pub fn read_ahead(
         &self,
         input: &CatalogueArgs,
+        by_content: bool,
     ) -> std::thread::JoinHandle<Result<Option<LedgerRead>, CliError>> {
         let (args, input) = (self.clone(), input.clone());
         std::thread::spawn(move || {
-            let Some(ledger) = args.open_existing(&input)? else {
+            let Some(ledger) = args.open_found(&input, by_content)? else {
                 return Ok(None);
             };
             let read = ledger.read_ahead()?;
