@@ -290,9 +290,10 @@ impl Chance {
     }
 
     /// "likely " before the source, unless the match has no separation and
-    /// chance explains some of those.
+    /// chance explains half or more of those: then a match is as likely
+    /// chance as light from the other star, or more.
     fn likely(&self, sep: Option<f64>) -> &'static str {
-        if sep.is_none() && self.percent().is_some() {
+        if sep.is_none() && self.percent().is_some_and(|p| p >= 50.0) {
             ""
         } else {
             "likely "
