@@ -190,7 +190,6 @@ mod tests {
         // codes: every scale, both signs, random digits and the edges (0,
         // powers of ten, zeros at the end, the largest digits 2^26 - 1).
         use crate::catalogue::{Column, Decimal};
-        let mut x = 0x2545_f491_4f6c_dd1d_u64;
         let mut digits = vec![
             0,
             1,
@@ -202,12 +201,11 @@ mod tests {
             60_000_000,
             (1 << 26) - 1,
         ];
+        let mut rng = crate::demo::Rng::new(11);
         for _ in 0..20_000 {
-            x ^= x << 13;
-            x ^= x >> 7;
-            x ^= x << 17;
-            // Short and long digit strings alike.
-            digits.push((x >> 40) as u32 % 10u32.pow(1 + (x % 8) as u32) % (1 << 26));
+            // Short and long digit strings alike: one to eight digits.
+            let width = 10u64.pow(1 + rng.below(8) as u32);
+            digits.push((rng.below(width) % (1 << 26)) as u32);
         }
         let (mut written, mut b) = (Vec::new(), Shortest::new());
         for &m in &digits {

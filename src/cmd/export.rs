@@ -468,7 +468,8 @@ impl<'a> Export<'a> {
                     Cell::Decimal(d) => {
                         let mut text = Vec::new();
                         push_decimal(&mut text, d, false);
-                        String::from_utf8_lossy(&text).into_owned()
+                        // Digits, a sign, a point and an exponent: ASCII.
+                        String::from_utf8(text).unwrap_or_default()
                     }
                     Cell::Int(k) => k.to_string(),
                     Cell::Bool(t) => (if t { "T" } else { "F" }).to_string(),
