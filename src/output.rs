@@ -253,7 +253,6 @@ mod tests {
             s.strip_suffix(".0").unwrap_or(s).to_string()
         };
         let mut b = Shortest::new();
-        let mut x = 0x9e37_79b9_7f4a_7c15_u64;
         let mut values = vec![
             0.0,
             -0.0,
@@ -273,10 +272,9 @@ mod tests {
             123456789012345680.0,
             2459000.12345,
         ];
+        let mut rng = crate::demo::Rng::new(0x9e37_79b9);
         for i in 0..400_000 {
-            x ^= x << 13;
-            x ^= x >> 7;
-            x ^= x << 17;
+            let x = rng.next_u64();
             values.push(if i % 2 == 0 {
                 f64::from_bits(x)
             } else {
