@@ -134,6 +134,17 @@ impl FlagSet {
         .collect()
     }
 
+    /// The flags that say a candidate is itself no planet: the
+    /// [`false_positive_signs`](Self::false_positive_signs) and
+    /// `known-artefact` (the catalogue's own "not transit-like"). A held
+    /// candidate with one of them among the blocking flags is `unlikely`,
+    /// its odds at most 1:1 (docs/science.md §1.1).
+    pub fn not_a_planet() -> FlagSet {
+        let mut set = FlagSet::false_positive_signs();
+        set.insert(Flag::KnownArtefact);
+        set
+    }
+
     /// The flags that mark a candidate as a copy of another signal of its
     /// star (one member of a signal group that is not its representative).
     pub fn group_flags() -> FlagSet {

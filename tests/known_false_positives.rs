@@ -227,6 +227,12 @@ fn every_command_holds_the_siblings_of_a_known_false_positive() {
         assert_ne!(odds[s], "validated", "{s}");
     }
     assert_eq!(odds["T3-1"], "validated");
+    // The false positives themselves are `unlikely` in every output
+    // (docs/science.md §1.1), their siblings `likely` at their prior.
+    for s in ["SIB-2", "TRI-3", "FPP-2"] {
+        assert_eq!(odds[s], "unlikely", "{s}");
+    }
+    assert_eq!(odds["SIB-1"], "likely");
     // No word of the test rows is unknown: no warning.
     let o = starsift(&["odds", c, "--format", "csv"]);
     assert!(!stderr(&o).contains("read as neither"), "{}", stderr(&o));

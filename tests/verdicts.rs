@@ -579,3 +579,74 @@ fn a_placeholder_without_positions_is_told_apart_by_its_stars_brightness() {
         assert_eq!(r[10], "no", "{r:?}");
     }
 }
+
+#[test]
+fn a_candidate_its_own_evidence_calls_no_planet_is_unlikely() {
+    // docs/science.md §1.1: a held candidate whose own blocking flags say it
+    // is no planet (the catalogue's false positive, an fpp of at least 0.5,
+    // the catalogue's "no transit", a body larger than any planet) has odds
+    // of at most 1:1, the fpp's own bound for `known-fp` (odds = (1 − p)/p
+    // at p = 0.5), and is `unlikely` even at that bound. Before, the
+    // catalogue's false positive read `likely`, 9:1, at the prior of f = 0.1.
+    let rows = "\
+DISP,DISP-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,FALSE POSITIVE,\n\
+HALF,HALF-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,,0.5\n\
+ART,ART-1,4.5,0.00001,100.5,0.001,700,3.0,30,0.3,1,1,5772,FA,\n\
+BIG,BIG-1,4.7,0.00001,100.7,0.001,250000,3.0,300,0.3,1,1,5772,,\n\
+LOW,LOW-1,4.9,0.00001,100.9,0.001,700,3.0,5,0.3,1,1,5772,,\n";
+    let blanks = ",,";
+    let bg: String = background()
+        .lines()
+        .map(|l| format!("{l}{blanks}\n"))
+        .collect();
+    let text = format!("{},disposition,fpp\n{bg}{rows}", HEAD.trim_end());
+    let (cat, live) = vet(&text);
+    for (s, flag) in [
+        ("DISP-1", Flag::KnownFp),
+        ("HALF-1", Flag::KnownFp),
+        ("ART-1", Flag::KnownArtefact),
+        ("BIG-1", Flag::BigRadius),
+    ] {
+        let c = id(&cat, s);
+        assert!(live.flags(c).contains(flag), "{s}: {:?}", live.flags(c));
+        assert_eq!(live.status(c), Status::Held, "{s}");
+        assert_eq!(live.verdict(c), Verdict::Unlikely, "{s}");
+        assert!(live.odds(c).unwrap() <= 1.0, "{s}: {:?}", live.odds(c));
+    }
+    // The catalogue's false positive at f = 0.1 and the fpp of 0.5 are both
+    // at the bound, 1:1.
+    assert_eq!(live.odds(id(&cat, "DISP-1")), Some(1.0));
+    assert_eq!(live.odds(id(&cat, "HALF-1")), Some(1.0));
+    // Held by a flag that says nothing of what it is (`low-snr`): its prior
+    // odds, 9:1 at f = 0.1 (odds = (1 − f)/f), `likely`.
+    let low = id(&cat, "LOW-1");
+    assert!(live.flags(low).contains(Flag::LowSnr));
+    assert_eq!(live.verdict(low), Verdict::Likely);
+    assert!((live.odds(low).unwrap() - 9.0).abs() < 1e-9);
+    // The counts are the verdicts' (all four are held back, and unlikely).
+    let counts = live.counts();
+    let tally = |v: Verdict| {
+        (0..cat.len() as CandidateId)
+            .filter(|&c| live.verdict(c) == v)
+            .count()
+    };
+    assert_eq!(counts.unlikely, tally(Verdict::Unlikely));
+    assert_eq!(counts.unlikely, 4);
+    assert_eq!(counts.likely, tally(Verdict::Likely));
+    assert_eq!(
+        live.held_count(),
+        (0..cat.len() as CandidateId)
+            .filter(|&c| live.status(c) == Status::Held)
+            .count()
+    );
+    // The rule follows the blocking set: with `known-fp` out of it, the
+    // catalogue's false positive is a counted single at its prior again
+    // (the vetter's choice, stated in every output's model line).
+    let mut m = model();
+    m.blocking = m.blocking.difference([Flag::KnownFp].into_iter().collect());
+    let live = live_for(&cat, m);
+    let disp = id(&cat, "DISP-1");
+    assert_eq!(live.status(disp), Status::Counted);
+    assert_eq!(live.verdict(disp), Verdict::Likely);
+    assert_eq!(live.verdict(id(&cat, "ART-1")), Verdict::Unlikely);
+}

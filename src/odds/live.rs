@@ -88,8 +88,11 @@ pub struct Live {
     singles_by_f: Vec<(f64, i64)>,
     /// Counted candidates of k-systems, by prior class.
     buckets: Vec<Fenwick>,
-    /// Held candidates, by prior class.
+    /// Held candidates, by prior class, but for those whose own blocking
+    /// flags say they are no planet (`FlagSet::not_a_planet`): those are
+    /// `unlikely` whatever their prior, and only counted (`not_planets`).
     held: Fenwick,
+    not_planets: usize,
     table: Table,
     counts: VerdictCounts,
     rejected: usize,
@@ -238,6 +241,7 @@ impl Live {
             singles_by_f,
             buckets: Vec::new(),
             held: Fenwick::new(nclasses),
+            not_planets: 0,
             table: Table {
                 targets: None,
                 fp_fraction: 0.0,
@@ -300,7 +304,7 @@ impl Live {
 
     /// Candidates held back (not rejected, not counted).
     pub fn held_count(&self) -> usize {
-        self.held.total
+        self.held.total + self.not_planets
     }
 
     /// Asks the memory for what a row of candidate `c` reads of its star
@@ -363,9 +367,25 @@ impl Live {
         }
     }
 
-    /// Posterior odds planet : FP; `None` once rejected.
+    /// Posterior odds planet : FP; `None` once rejected. A held candidate
+    /// whose own blocking flags say it is no planet has at most 1:1 (the
+    /// odds at which an `fpp` makes a candidate `known-fp`, docs/science.md
+    /// §1.1): its prior is the model's, not evidence for it.
     pub fn odds(&self, c: CandidateId) -> Option<f64> {
-        Some(posterior_odds(self.boost(c)?, self.prior(c)))
+        let odds = posterior_odds(self.boost(c)?, self.prior(c));
+        Some(if self.not_a_planet(c) {
+            odds.min(1.0)
+        } else {
+            odds
+        })
+    }
+
+    /// Whether a held candidate's own blocking flags say it is no planet
+    /// (a false-positive sign, or `known-artefact`).
+    pub fn not_a_planet(&self, c: CandidateId) -> bool {
+        self.status[c as usize] == Status::Held
+            && self.flags[c as usize]
+                .intersects(self.model.blocking.intersection(FlagSet::not_a_planet()))
     }
 
     /// The largest odds among a star's candidates not rejected; `None` when
@@ -386,6 +406,7 @@ impl Live {
     pub fn verdict(&self, c: CandidateId) -> Verdict {
         match self.odds(c) {
             None => Verdict::Rejected,
+            Some(_) if self.not_a_planet(c) => Verdict::Unlikely,
             Some(o) => verdict(
                 o,
                 self.model.threshold,
@@ -422,10 +443,10 @@ impl Live {
         if self.flags[c as usize] == flags {
             return;
         }
-        self.flags[c as usize] = flags;
         // Flags move only the candidate's own status: a group's standing
-        // depends on the decisions alone.
-        self.replace_stars(&[self.star_of(c)]);
+        // depends on the decisions alone. The star is taken out under the
+        // old flags (they say where a held candidate was counted).
+        self.replace_star_around(self.star_of(c), |live| live.flags[c as usize] = flags);
     }
 
     /// The odds each counted sibling would have if `c` were rejected for
@@ -501,6 +522,7 @@ impl Live {
             && self.table == other.table
             && self.counts == other.counts
             && self.rejected == other.rejected
+            && self.not_planets == other.not_planets
     }
 
     /// Blocking flags that hold a candidate back on their own (the group
@@ -610,7 +632,7 @@ impl Live {
         }
         let l = self.held.prefix(upto(1.0, 1.0));
         counts.likely += l;
-        counts.unlikely += self.held.total - l;
+        counts.unlikely += self.held.total - l + self.not_planets;
         self.counts = counts;
     }
 }

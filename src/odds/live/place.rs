@@ -17,6 +17,17 @@ impl Live {
         self.refresh();
     }
 
+    /// [`Live::replace_stars`] of one star around a change that moves
+    /// where its candidates are counted: taken out before the change, put
+    /// back after it.
+    pub(super) fn replace_star_around(&mut self, s: StarId, change: impl FnOnce(&mut Live)) {
+        self.unplace_star(s);
+        change(self);
+        self.place_star(s);
+        self.margins = OnceLock::new();
+        self.refresh();
+    }
+
     /// Places every star, as [`Live::place_star`] on each in turn would,
     /// but candidate by candidate in file order. A candidate's status
     /// depends on itself alone unless it is in an active signal group, so
@@ -129,6 +140,9 @@ impl Live {
         match self.status[c as usize] {
             Status::Rejected => {
                 self.rejected = self.rejected.wrapping_add_signed(delta as isize);
+            }
+            Status::Held if self.not_a_planet(c) => {
+                self.not_planets = self.not_planets.wrapping_add_signed(delta as isize);
             }
             Status::Held => self.held.add(class, delta),
             Status::Counted => {
