@@ -134,14 +134,18 @@ impl FlagSet {
         .collect()
     }
 
-    /// The flags that say a candidate is itself no planet: the
-    /// [`false_positive_signs`](Self::false_positive_signs) and
-    /// `known-artefact` (the catalogue's own "not transit-like"). A held
-    /// candidate with one of them among the blocking flags is `unlikely`,
-    /// its odds at most 1:1 (docs/science.md §1.1).
+    /// The flags that say a candidate is itself no planet of its star: the
+    /// [`false_positive_signs`](Self::false_positive_signs), `known-artefact`
+    /// (the catalogue's own "not transit-like") and `echo` as a blocking
+    /// flag (the shallower copy of a neighbour's eclipse, within the echo
+    /// radius: light from another star, which says nothing of this star's
+    /// other candidates). A held candidate with one of them among the
+    /// blocking flags is `unlikely`, its odds at most 1:1 (docs/science.md
+    /// §1.1).
     pub fn not_a_planet() -> FlagSet {
         let mut set = FlagSet::false_positive_signs();
         set.insert(Flag::KnownArtefact);
+        set.insert(Flag::Echo);
         set
     }
 

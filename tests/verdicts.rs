@@ -584,7 +584,8 @@ fn a_placeholder_without_positions_is_told_apart_by_its_stars_brightness() {
 fn a_candidate_its_own_evidence_calls_no_planet_is_unlikely() {
     // docs/science.md §1.1: a held candidate whose own blocking flags say it
     // is no planet (the catalogue's false positive, an fpp of at least 0.5,
-    // the catalogue's "no transit", a body larger than any planet) has odds
+    // the catalogue's "no transit", a body larger than any planet, a
+    // neighbour's light) has odds
     // of at most 1:1, the fpp's own bound for `known-fp` (odds = (1 − p)/p
     // at p = 0.5), and is `unlikely` even at that bound. Before, the
     // catalogue's false positive read `likely`, 9:1, at the prior of f = 0.1.
@@ -593,19 +594,31 @@ DISP,DISP-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,FALSE POSITIVE,\n\
 HALF,HALF-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,,0.5\n\
 ART,ART-1,4.5,0.00001,100.5,0.001,700,3.0,30,0.3,1,1,5772,FA,\n\
 BIG,BIG-1,4.7,0.00001,100.7,0.001,250000,3.0,300,0.3,1,1,5772,,\n\
-LOW,LOW-1,4.9,0.00001,100.9,0.001,700,3.0,5,0.3,1,1,5772,,\n";
-    let blanks = ",,";
-    let bg: String = background()
+LOW,LOW-1,4.9,0.00001,100.9,0.001,700,3.0,5,0.3,1,1,5772,,\n\
+SRC,SRC-1,5.3,0.00001,100.3,0.001,9000,3.0,90,0.3,1,1,5772,,,10.0,-20.0\n\
+COPY,COPY-1,5.3,0.00001,100.3,0.001,400,3.0,12,0.3,1,1,5772,,,10.0,-19.9972\n";
+    // Rows without a position end at the fpp cell.
+    let rows: String = rows
         .lines()
-        .map(|l| format!("{l}{blanks}\n"))
+        .map(|l| match l.split(',').count() {
+            15 => format!("{l},,\n"),
+            _ => format!("{l}\n"),
+        })
         .collect();
-    let text = format!("{},disposition,fpp\n{bg}{rows}", HEAD.trim_end());
+    let bg: String = background().lines().map(|l| format!("{l},,,,\n")).collect();
+    let text = format!(
+        "{},disposition,fpp,ra_deg,dec_deg\n{bg}{rows}",
+        HEAD.trim_end()
+    );
     let (cat, live) = vet(&text);
     for (s, flag) in [
         ("DISP-1", Flag::KnownFp),
         ("HALF-1", Flag::KnownFp),
         ("ART-1", Flag::KnownArtefact),
         ("BIG-1", Flag::BigRadius),
+        // The shallower of two eclipses of one ephemeris 10″ apart: the
+        // neighbour's light (docs/science.md §3.3).
+        ("COPY-1", Flag::Echo),
     ] {
         let c = id(&cat, s);
         assert!(live.flags(c).contains(flag), "{s}: {:?}", live.flags(c));
@@ -631,7 +644,9 @@ LOW,LOW-1,4.9,0.00001,100.9,0.001,700,3.0,5,0.3,1,1,5772,,\n";
             .count()
     };
     assert_eq!(counts.unlikely, tally(Verdict::Unlikely));
-    assert_eq!(counts.unlikely, 4);
+    assert_eq!(counts.unlikely, 5);
+    // The source of the echo is a single at its prior.
+    assert_eq!(live.verdict(id(&cat, "SRC-1")), Verdict::Likely);
     assert_eq!(counts.likely, tally(Verdict::Likely));
     assert_eq!(
         live.held_count(),
