@@ -574,6 +574,8 @@ impl fmt::Display for Verdict {
 /// `rejected`: a vetter rejected it; `validated`: counted by the model (not
 /// rejected, no blocking flag, the representative of its signal group) with
 /// odds ≥ threshold; else `likely` at odds ≥ 1 and `unlikely` below.
+/// (`Live::verdict` makes a held candidate whose own flags say it is no
+/// planet `unlikely` before asking this; docs/science.md §1.1.)
 pub fn verdict(odds: f64, threshold: f64, rejected: bool, counted: bool) -> Verdict {
     if rejected {
         Verdict::Rejected
