@@ -34,7 +34,11 @@ use crate::science;
 pub fn planet_radii(cat: &Catalogue) -> Vec<f64> {
     let settings = CheckSettings::default();
     (0..cat.len() as CandidateId)
-        .map(|c| derive(cat, c, &settings).radius_rearth.unwrap_or(f64::NAN))
+        .map(|c| {
+            derive_for_flags(cat, c, &settings)
+                .radius_rearth
+                .unwrap_or(f64::NAN)
+        })
         .collect()
 }
 
@@ -126,6 +130,18 @@ fn finite(v: f64) -> Option<f64> {
 
 /// The derived quantities of one candidate.
 pub fn derive(cat: &Catalogue, c: CandidateId, s: &CheckSettings) -> Derived {
+    derive_with(cat, c, s, true)
+}
+
+/// What the flags read of [`derive`]: the radius and the two densities;
+/// the orbit's size, equilibrium temperature, insolation and expected
+/// duration stay `None` (the outputs that show them call `derive`).
+pub fn derive_for_flags(cat: &Catalogue, c: CandidateId, s: &CheckSettings) -> Derived {
+    derive_with(cat, c, s, false)
+}
+
+/// [`derive`], the orbit's quantities only when `orbit`.
+fn derive_with(cat: &Catalogue, c: CandidateId, s: &CheckSettings, orbit: bool) -> Derived {
     let v = |f: Field| cat.value(f, c);
     let (period, depth, t14) = (
         v(Field::PeriodD).unwrap_or(f64::NAN),
@@ -164,14 +180,16 @@ pub fn derive(cat: &Catalogue, c: CandidateId, s: &CheckSettings) -> Derived {
     if let Some(r) = radius {
         d.radius_rearth = finite(science::radius_rearth(k, r));
     }
-    if let Some(m) = mass {
+    if let (Some(m), Some(r)) = (mass, radius) {
+        d.density_star = finite(science::star_density(m, r));
+    }
+    if let (Some(m), true) = (mass, orbit) {
         d.a_au = finite(science::semi_major_axis_m(period, m, 0.0) / AU_M);
     }
-    if let (Some(m), Some(r)) = (mass, radius) {
+    if let (Some(m), Some(r), true) = (mass, radius, orbit) {
         let a_rstar = science::a_over_rstar(period, m, r);
         d.a_rstar = finite(a_rstar);
         d.t14_central_h = science::durations_h(period, a_rstar, k, 0.0).map(|t| t.0);
-        d.density_star = finite(science::star_density(m, r));
         if let Some(teff) = v(Field::StarTeffK) {
             d.teq_k = finite(science::equilibrium_temperature_k(
                 teff,
@@ -450,7 +468,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         let mut density_transit = vec![f64::NAN; n];
         let mut radius = vec![f64::NAN; n];
         for c in 0..n as CandidateId {
-            let d = derive(cat, c, s);
+            let d = derive_for_flags(cat, c, s);
             density_transit[c as usize] = d.density_transit.unwrap_or(f64::NAN);
             radius[c as usize] = d.radius_rearth.unwrap_or(f64::NAN);
             candidate_flags(cat, c, &d, s, &mut checks);
