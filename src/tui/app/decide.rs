@@ -237,15 +237,17 @@ impl App {
                 .sighting_note(&self.cat.source, &fp, self.cat.len(), Some(&stamp))
                 .map_err(|e| e.to_string())
         });
-        match said {
-            Ok(None) => {}
-            Ok(Some(note)) => self.message = Some(note),
-            Err(e) => {
-                self.message = Some(format!(
-                    "the ledger could not record this catalogue's fingerprint: {e}"
-                ))
-            }
-        }
+        let note = match said {
+            Ok(None) => return,
+            Ok(Some(note)) => note,
+            Err(e) => format!("the ledger could not record this catalogue's fingerprint: {e}"),
+        };
+        // Said after what the line says already (the start's notes, such as
+        // decided candidates the catalogue no longer lists), not over it.
+        self.message = Some(match self.message.take() {
+            Some(m) => format!("{m} · {note}"),
+            None => note,
+        });
     }
 
     /// Where vetters disagree, again for the candidates just decided (from

@@ -43,3 +43,31 @@ fn where_vetters_disagree_follows_each_decision() {
     assert!(app.disagree.contains(&c), "the park is in force again");
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn a_changed_catalogue_is_said_after_the_start_notes_not_over_them() {
+    let (dir, mut app) = demo_app_with_ledger("sighting");
+    let source = app.cat.source.clone();
+    // The ledger saw another version of this catalogue before.
+    app.ledger
+        .as_mut()
+        .unwrap()
+        .sighting_note(&source, "fnv1a64:01", app.cat.len(), Some("s0"))
+        .unwrap();
+    app.message = Some("1 decided candidates are not in the catalogue: X-1".into());
+    let _ = app.update(Input::Seen(Ok(("fnv1a64:02".into(), "s1".into()))));
+    let said = app.message.clone().unwrap();
+    assert!(
+        said.starts_with("1 decided candidates are not in the catalogue: X-1 · "),
+        "{said}"
+    );
+    assert!(
+        said.contains("changed since this ledger last saw it"),
+        "{said}"
+    );
+    // Without a note before it, the change is the message.
+    app.message = None;
+    let _ = app.update(Input::Seen(Ok(("fnv1a64:03".into(), "s2".into()))));
+    assert!(app.message.unwrap().contains("changed since"));
+    let _ = std::fs::remove_dir_all(dir);
+}
