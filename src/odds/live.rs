@@ -380,8 +380,9 @@ impl Live {
         })
     }
 
-    /// Whether a held candidate's own blocking flags say it is no planet
-    /// (a false-positive sign, or `known-artefact`).
+    /// Whether a held candidate's own blocking flags say it is no planet of
+    /// its star (`FlagSet::not_a_planet`: a false-positive sign,
+    /// `known-artefact`, `echo`).
     pub fn not_a_planet(&self, c: CandidateId) -> bool {
         self.status[c as usize] == Status::Held
             && self.flags[c as usize]
