@@ -665,3 +665,70 @@ COPY,COPY-1,5.3,0.00001,100.3,0.001,400,3.0,12,0.3,1,1,5772,,,10.0,-19.9972\n";
     assert_eq!(live.verdict(disp), Verdict::Likely);
     assert_eq!(live.verdict(id(&cat, "ART-1")), Verdict::Unlikely);
 }
+
+#[test]
+fn a_copy_of_a_signal_that_is_no_planet_is_unlikely_too() {
+    // docs/science.md §1.1: one signal listed twice is one verdict. A copy
+    // held back in its signal group is `unlikely` when the signal is no
+    // planet: its representative's own flags say so, the catalogue's word
+    // (`known-fp`) is on any entry, or a vetter rejected an entry as a
+    // binary. A copy's other flags are not the signal's.
+    let text = format!(
+        "{HEAD}{}\
+EB,EB-1,2.5,0.00001,100.0,0.001,9000,3.0,90,0.3,1,1,5772\n\
+EB,EB-2,2.5,0.00001,100.0,0.001,8800,3.0,60,0.3,1,1,5772\n\
+KF,KF-1,3.5,0.00001,100.0,0.001,900,3.0,40,0.3,1,1,5772\n\
+KF,KF-2,3.5,0.00001,100.0,0.001,880,3.0,30,0.3,1,1,5772\n\
+AL,AL-1,4.5,0.00001,100.0,0.001,900,3.0,40,0.3,1,1,5772\n\
+AL,AL-2,9.0,0.00001,100.0,0.001,880,3.0,30,0.3,1,1,5772\n\
+AL,AL-3,4.5,0.00001,100.0,0.001,870,3.0,35,0.3,1,1,5772\n",
+        background()
+    );
+    let cat = load(&text);
+    let c = |s: &str| id(&cat, s);
+    let n = cat.len();
+    let groups = SignalGroups::from_links(
+        &cat,
+        &[
+            (c("EB-1"), c("EB-2"), Flag::NearTwin),
+            (c("KF-1"), c("KF-2"), Flag::NearTwin),
+            (c("AL-1"), c("AL-2"), Flag::Harmonic),
+            (c("AL-1"), c("AL-3"), Flag::NearTwin),
+        ],
+    );
+    let mut flags = vec![FlagSet::EMPTY; n];
+    // The best entry of EB shows the binary's secondary eclipse.
+    flags[c("EB-1") as usize] = [Flag::Secondary].into_iter().collect();
+    // The catalogue calls the weaker entry of KF a false positive.
+    flags[c("KF-2") as usize] = [Flag::KnownFp].into_iter().collect();
+    // AL-2, an alias at twice the period, shows AL-1's transit at phase 0.5.
+    flags[c("AL-2") as usize] = [Flag::Secondary].into_iter().collect();
+    let mut live = Live::with_state(&cat, model(), flags, groups, vec![Decision::Open; n]).unwrap();
+    for s in ["EB-1", "EB-2", "KF-1", "KF-2", "AL-2"] {
+        assert_eq!(live.status(c(s)), Status::Held, "{s}");
+        assert_eq!(live.verdict(c(s)), Verdict::Unlikely, "{s}");
+        assert!(live.odds(c(s)).unwrap() <= 1.0, "{s}");
+    }
+    // AL is a planet listed three times: the alias's flag is its own entry's
+    // (that period is no planet), not the signal's. AL-1 stands for it, a
+    // single; the near twin AL-3 is a copy at its prior, 9:1.
+    assert_eq!(live.status(c("AL-1")), Status::Counted);
+    assert_eq!(live.verdict(c("AL-3")), Verdict::Likely);
+    assert!((live.odds(c("AL-3")).unwrap() - 9.0).abs() < 1e-9);
+    // A vetter rejects AL-1 as a binary: the signal is none, AL-3 with it.
+    live.set_decision(c("AL-1"), Decision::Rejected(Reason::EclipsingBinary));
+    assert_eq!(live.verdict(c("AL-3")), Verdict::Unlikely);
+    // As a duplicate instead, AL-3 (the next best) stands for the signal.
+    live.set_decision(c("AL-1"), Decision::Rejected(Reason::Duplicate));
+    assert_eq!(live.status(c("AL-3")), Status::Counted);
+    assert_eq!(live.verdict(c("AL-3")), Verdict::Likely);
+    // The secondary found on EB-1 proves spurious (its flags rebuilt
+    // without it): EB-2 is a copy of a signal at its prior again.
+    live.set_flags(c("EB-1"), FlagSet::EMPTY);
+    assert_eq!(live.verdict(c("EB-2")), Verdict::Likely);
+    assert!(live.same_odds_state(&live.rebuilt(&cat).unwrap()));
+    let tally = (0..n as CandidateId)
+        .filter(|&m| live.verdict(m) == Verdict::Unlikely)
+        .count();
+    assert_eq!(live.counts().unlikely, tally);
+}

@@ -88,11 +88,15 @@ pub struct Live {
     singles_by_f: Vec<(f64, i64)>,
     /// Counted candidates of k-systems, by prior class.
     buckets: Vec<Fenwick>,
-    /// Held candidates, by prior class, but for those whose own blocking
-    /// flags say they are no planet (`FlagSet::not_a_planet`): those are
-    /// `unlikely` whatever their prior, and only counted (`not_planets`).
+    /// Held candidates, by prior class, but for those that are no planet
+    /// (`no_planet`): those are `unlikely` whatever their prior, and only
+    /// counted (`not_planets`).
     held: Fenwick,
     not_planets: usize,
+    /// Per candidate, set where it was placed: held, and no planet of its
+    /// star by its own blocking flags, or a copy of a signal that is none
+    /// ([`Live::no_planet_now`]).
+    no_planet: Vec<bool>,
     table: Table,
     counts: VerdictCounts,
     rejected: usize,
@@ -242,6 +246,7 @@ impl Live {
             buckets: Vec::new(),
             held: Fenwick::new(nclasses),
             not_planets: 0,
+            no_planet: vec![false; n],
             table: Table {
                 targets: None,
                 fp_fraction: 0.0,
@@ -368,8 +373,8 @@ impl Live {
     }
 
     /// Posterior odds planet : FP; `None` once rejected. A held candidate
-    /// whose own blocking flags say it is no planet has at most 1:1 (the
-    /// odds at which an `fpp` makes a candidate `known-fp`, docs/science.md
+    /// that is no planet ([`Live::not_a_planet`]) has at most 1:1 (the odds
+    /// at which an `fpp` makes a candidate `known-fp`, docs/science.md
     /// §1.1): its prior is the model's, not evidence for it.
     pub fn odds(&self, c: CandidateId) -> Option<f64> {
         let odds = posterior_odds(self.boost(c)?, self.prior(c));
@@ -380,13 +385,51 @@ impl Live {
         })
     }
 
-    /// Whether a held candidate's own blocking flags say it is no planet of
-    /// its star (`FlagSet::not_a_planet`: a false-positive sign,
-    /// `known-artefact`, `echo`).
+    /// Whether a held candidate is no planet of its star: its own blocking
+    /// flags say so (`FlagSet::not_a_planet`: a false-positive sign,
+    /// `known-artefact`, `echo`), or it is a copy of a signal that is none
+    /// (docs/science.md §1.1).
     pub fn not_a_planet(&self, c: CandidateId) -> bool {
-        self.status[c as usize] == Status::Held
-            && self.flags[c as usize]
-                .intersects(self.model.blocking.intersection(FlagSet::not_a_planet()))
+        self.no_planet[c as usize]
+    }
+
+    /// The blocking flags that say a candidate is no planet of its star.
+    fn no_planet_flags(&self) -> FlagSet {
+        self.model.blocking.intersection(FlagSet::not_a_planet())
+    }
+
+    /// [`Live::not_a_planet`] of candidate `c` held back, as it stands now:
+    /// its own flags; or, a copy in an active signal group, the signal's
+    /// word: its representative's own flags, the catalogue's word on any
+    /// member (`known-fp`, `known-artefact`: on the signal, whichever entry
+    /// carries it), or a member rejected as a false positive. A copy's
+    /// other flags are not the signal's (an alias folded at twice the
+    /// period shows the transit at phase 0.5), as for its siblings (§1.1).
+    pub(super) fn no_planet_now(&self, c: CandidateId) -> bool {
+        let signs = self.no_planet_flags();
+        if self.flags[c as usize].intersects(signs) {
+            return true;
+        }
+        let Some(g) = self.active_group(c) else {
+            return false;
+        };
+        let standing = self.standings[g as usize];
+        if standing
+            .rejected_by
+            .is_some_and(|(_, r)| names_false_positive(r))
+        {
+            return true;
+        }
+        let word: FlagSet = [Flag::KnownFp, Flag::KnownArtefact].into_iter().collect();
+        let word = signs.intersection(word);
+        standing
+            .rep
+            .is_some_and(|r| r != c && self.flags[r as usize].intersects(signs))
+            || self
+                .groups
+                .members(g)
+                .iter()
+                .any(|&m| self.flags[m as usize].intersects(word))
     }
 
     /// The largest odds among a star's candidates not rejected; `None` when
@@ -444,10 +487,17 @@ impl Live {
         if self.flags[c as usize] == flags {
             return;
         }
-        // Flags move only the candidate's own status: a group's standing
-        // depends on the decisions alone. The star is taken out under the
-        // old flags (they say where a held candidate was counted).
-        self.replace_star_around(self.star_of(c), |live| live.flags[c as usize] = flags);
+        // Flags move only the candidate's own status, and whether the copies
+        // of its signal are planets: a group's standing depends on the
+        // decisions alone.
+        let mut stars = vec![self.star_of(c)];
+        if let Some(g) = self.active_group(c) {
+            stars.extend(self.groups.members(g).iter().map(|&m| self.star_of(m)));
+        }
+        stars.sort_unstable();
+        stars.dedup();
+        self.flags[c as usize] = flags;
+        self.replace_stars(&stars);
     }
 
     /// The odds each counted sibling would have if `c` were rejected for

@@ -17,17 +17,6 @@ impl Live {
         self.refresh();
     }
 
-    /// [`Live::replace_stars`] of one star around a change that moves
-    /// where its candidates are counted: taken out before the change, put
-    /// back after it.
-    pub(super) fn replace_star_around(&mut self, s: StarId, change: impl FnOnce(&mut Live)) {
-        self.unplace_star(s);
-        change(self);
-        self.place_star(s);
-        self.margins = OnceLock::new();
-        self.refresh();
-    }
-
     /// Places every star, as [`Live::place_star`] on each in turn would,
     /// but candidate by candidate in file order. A candidate's status
     /// depends on itself alone unless it is in an active signal group, so
@@ -70,6 +59,8 @@ impl Live {
                 Status::Counted
             };
             self.status[c] = status;
+            self.no_planet[c] =
+                status == Status::Held && self.flags[c].intersects(self.no_planet_flags());
             k_of[s as usize] += u32::from(status == Status::Counted);
         }
         for (s, &k) in k_of.iter().enumerate() {
@@ -112,8 +103,12 @@ impl Live {
         let k = st.iter().filter(|x| x.1 == Status::Counted).count();
         self.k_of_star[s as usize] = k as u16;
         self.bump_hist(k, 1);
-        for (c, status) in st {
+        for &(c, status) in &st {
             self.status[c as usize] = status;
+        }
+        // Once every status and standing is in (a copy reads its group's).
+        for (c, status) in st {
+            self.no_planet[c as usize] = status == Status::Held && self.no_planet_now(c);
             self.contribute(c, k, 1);
         }
         if k == 1 {
@@ -141,7 +136,7 @@ impl Live {
             Status::Rejected => {
                 self.rejected = self.rejected.wrapping_add_signed(delta as isize);
             }
-            Status::Held if self.not_a_planet(c) => {
+            Status::Held if self.no_planet[c as usize] => {
                 self.not_planets = self.not_planets.wrapping_add_signed(delta as isize);
             }
             Status::Held => self.held.add(class, delta),

@@ -36,10 +36,12 @@ impl App {
             let k = match sort {
                 SortKey::BestOdds => match &by_size {
                     // A star with no counted candidate but a held one has
-                    // the held one's prior odds: those of a single.
-                    Some(rank) => match self.live.star_k(s) {
-                        0 if self.live.best_odds(s).is_some() => rank[1.min(rank.len() - 1)],
-                        k => rank[k],
+                    // the held one's prior odds, those of a single; at most
+                    // 1:1 where every one held is no planet (the last rank).
+                    Some(rank) => match (self.live.star_k(s), self.live.best_odds(s)) {
+                        (0, Some(best)) if best <= 1.0 => rank[rank.len() - 1],
+                        (0, Some(_)) => rank[1],
+                        (k, _) => rank[k],
                     },
                     None => sortable_bits(self.live.best_odds(s).unwrap_or(-1.0)),
                 },
@@ -58,15 +60,18 @@ impl App {
         *self.id_common.get_or_init(|| id_common_of(&self.cat))
     }
 
-    /// For each system size 0..=k_max, the rank of its odds among all
-    /// sizes' (ties share a rank; 0 = every candidate rejected), when the
-    /// odds depend on the size alone.
+    /// For each system size 0..=k_max (at least 1), the rank of its odds
+    /// among all sizes' (ties share a rank; 0 = every candidate rejected),
+    /// when the odds depend on the size alone; and last, the rank of the
+    /// odds of a held candidate that is no planet (a single's, at most 1:1;
+    /// `Live::not_a_planet`).
     pub(super) fn odds_rank_by_size(&self) -> Option<Vec<u64>> {
-        self.live.uniform_odds(1)?;
+        let single = self.live.uniform_odds(1)?;
         // The live histogram only grows, so it covers every star's size.
-        let k_max = self.live.histogram().len().saturating_sub(1);
+        let k_max = self.live.histogram().len().saturating_sub(1).max(1);
         let odds: Vec<f64> = (0..=k_max)
             .map(|k| self.live.uniform_odds(k).unwrap_or(-1.0))
+            .chain([single.min(1.0)])
             .collect();
         Some(
             odds.iter()
