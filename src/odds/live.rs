@@ -471,15 +471,23 @@ impl Live {
         if old == d {
             return;
         }
+        let stars = self.stars_moved_by(c);
+        self.replace_stars(&stars);
+    }
+
+    /// The stars a decision on `c` can move, ascending: its own, those of
+    /// the members of its active signal group, and its star's other ids (a
+    /// rejection as a false positive holds them too, docs/science.md §3.4;
+    /// as far as `add_links` has asked for them).
+    pub fn stars_moved_by(&self, c: CandidateId) -> Vec<StarId> {
         let mut stars = vec![self.star_of(c)];
         if let Some(g) = self.active_group(c) {
             stars.extend(self.groups.members(g).iter().map(|&m| self.star_of(m)));
         }
-        // A rejection as a false positive holds the star's other ids too.
         stars.extend(self.links_of(self.star_of(c)).iter().map(|l| l.other));
         stars.sort_unstable();
         stars.dedup();
-        self.replace_stars(&stars);
+        stars
     }
 
     /// Sets a candidate's flags (from the checks).

@@ -141,7 +141,8 @@ impl App {
         let s = self.cat.star_of(c);
         let ranks = self.odds_rank_by_size();
         set_decisions(&mut self.live, &self.cat, &[(c, d)]);
-        self.keep_orders(s, ranks);
+        let moved = self.live.stars_moved_by(c);
+        self.keep_orders(&moved, ranks);
         self.pinned = Some(s);
         self.message = Some(format!(
             "{} {}",
@@ -149,7 +150,7 @@ impl App {
             d
         ));
         let row = self.cand_row;
-        self.reposition(s);
+        self.reposition(s, &moved);
         self.cand_row = row.min(self.members().len().saturating_sub(1));
         self.refresh_history(true);
     }

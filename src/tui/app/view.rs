@@ -103,17 +103,44 @@ impl App {
         }
     }
 
-    /// After a decision on star `s`: it moves to its new place, found by
-    /// binary search, O(log n) plus one memmove. Stars of the same size keep
-    /// their order (their odds all move by one factor); a change of the
-    /// table can reorder stars of different sizes whose odds are close, and
-    /// the view shows that at its next full sort (a sort or filter change),
-    /// which is exact.
-    pub(super) fn reposition(&mut self, s: StarId) {
+    /// After a decision on star `s` that moved the stars `moved` (`s`
+    /// among them; `Live::stars_moved_by`): those the view shows move to
+    /// their new places, found by binary search, O(log n) plus one memmove
+    /// each, and `s` is selected. Stars of the same size keep their order
+    /// (their odds all move by one factor); a change of the table can
+    /// reorder stars of different sizes whose odds are close, and the view
+    /// shows that at its next full sort (a sort or filter change), which is
+    /// exact.
+    pub(super) fn reposition(&mut self, s: StarId, moved: &[StarId]) {
         let mut stars = std::mem::take(&mut self.stars);
-        let at = self.place(&mut stars, s, self.sort, self.descending);
+        let shown: Vec<StarId> = moved
+            .iter()
+            .copied()
+            .filter(|&m| m == s || stars.contains(&m))
+            .collect();
+        self.place_all_of(&mut stars, &shown, self.sort, self.descending);
+        self.star_row = stars.iter().position(|&x| x == s).unwrap_or(0);
         self.stars = stars;
-        self.star_row = at;
+    }
+
+    /// [`App::place`] of several stars at once: all taken out first, so
+    /// that each is placed among stars in order.
+    pub(super) fn place_all_of(
+        &self,
+        order: &mut Vec<StarId>,
+        stars: &[StarId],
+        sort: SortKey,
+        descending: bool,
+    ) {
+        if let [one] = stars {
+            self.place(order, *one, sort, descending);
+            return;
+        }
+        order.retain(|x| !stars.contains(x));
+        for &s in stars {
+            order.push(s);
+            self.place(order, s, sort, descending);
+        }
     }
 
     /// Moves star `s` to its place in `order` (sorted by `sort` in that
@@ -221,12 +248,13 @@ impl App {
         self.recycle(gone);
     }
 
-    /// After a decision on star `s`, keeps the cached orders exact without
-    /// sorting again where only `s`'s key moved: by size always; by best
-    /// odds when they depend on size alone (no `fpp`) and the sizes' ranks
-    /// (`before`, from before the decision) still hold. The others whose
-    /// keys a decision moves are forgotten, to be sorted afresh.
-    pub(super) fn keep_orders(&mut self, s: StarId, before: Option<Vec<u64>>) {
+    /// After a decision that moved the stars `moved`, keeps the cached
+    /// orders exact without sorting again where only their keys moved: by
+    /// size always; by best odds when they depend on size alone (no `fpp`)
+    /// and the sizes' ranks (`before`, from before the decision) still
+    /// hold. The others whose keys a decision moves are forgotten, to be
+    /// sorted afresh.
+    pub(super) fn keep_orders(&mut self, moved: &[StarId], before: Option<Vec<u64>>) {
         let same_ranks = before.is_some() && before == self.odds_rank_by_size();
         let orders = std::mem::take(&mut self.orders);
         let mut gone = Vec::new();
@@ -243,7 +271,7 @@ impl App {
                 gone.push(((key, descending), order));
                 continue;
             }
-            self.place(&mut order, s, key, descending);
+            self.place_all_of(&mut order, moved, key, descending);
             self.orders.push(((key, descending), order));
         }
         self.recycle(gone);

@@ -143,3 +143,40 @@ fn a_rejection_of_a_whole_filter_holds_every_other_id_it_names() {
     }
     assert!(app.live.same_odds_state(&from_scratch(&app, &checks)));
 }
+
+#[test]
+fn a_rejection_that_holds_another_id_moves_that_star_in_every_order() {
+    // The orders by size and by best odds are kept across a decision by
+    // moving the stars it moved. A rejection of TOI-906.03 as a binary
+    // holds TIC 790 (its other id) too: its size falls from 2 to 0, and
+    // the cached orders and the view move it with Gaia 4415 (before, they
+    // moved only the decided star, and TIC 790 stayed among the pairs).
+    use crate::tui::app::SortKey;
+    let (mut app, checks) = checks_pending_on(split_family(), 50_000);
+    let decisions = crate::tui::app::decisions_of(&app.cat, &app.live);
+    let built =
+        crate::session::odds_with(&app.cat, app.live.model().clone(), &checks, decisions, &[]);
+    let _ = app.update(Input::ChecksBuilt(Box::new((checks, built))));
+    let sorts = [SortKey::Multiplicity, SortKey::BestOdds];
+    for (sort, descending) in sorts.into_iter().flat_map(|s| [(s, false), (s, true)]) {
+        app.sort = sort;
+        app.descending = descending;
+        app.refresh_view();
+    }
+    let binary = app.cat.find_candidate("TOI-906.03").unwrap();
+    reject_as_binary(&mut app, binary);
+    let tic = app.cat.find_star("TIC 790").unwrap();
+    assert_eq!(app.live.star_k(tic), 0);
+    // The view as the decision left it (sorted by best odds, descending).
+    assert_eq!(app.stars, super::reference_order(&app));
+    for (sort, descending) in sorts.into_iter().flat_map(|s| [(s, false), (s, true)]) {
+        app.sort = sort;
+        app.descending = descending;
+        app.refresh_view();
+        assert_eq!(
+            app.stars,
+            super::reference_order(&app),
+            "{sort:?} {descending}"
+        );
+    }
+}
