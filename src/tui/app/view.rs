@@ -38,10 +38,14 @@ impl App {
                     // A star with no counted candidate but a held one has
                     // the held one's prior odds, those of a single; at most
                     // 1:1 where every one held is no planet (the last rank).
-                    Some(rank) => match (self.live.star_k(s), self.live.best_odds(s)) {
-                        (0, Some(best)) if best <= 1.0 => rank[rank.len() - 1],
-                        (0, Some(_)) => rank[1],
-                        (k, _) => rank[k],
+                    // (Their odds are read only for the stars of size 0.)
+                    Some(rank) => match self.live.star_k(s) {
+                        0 => match self.live.best_odds(s) {
+                            Some(best) if best <= 1.0 => rank[rank.len() - 1],
+                            Some(_) => rank[1],
+                            None => rank[0],
+                        },
+                        k => rank[k],
                     },
                     None => sortable_bits(self.live.best_odds(s).unwrap_or(-1.0)),
                 },
