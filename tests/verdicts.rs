@@ -6,7 +6,7 @@
 
 mod common;
 
-use common::{HEAD, background, load_text as load, scratch, starsift, stderr, stdout};
+use common::{HEAD, background, catalogue, load_text as load, scratch, starsift, stderr, stdout};
 use proptest::prelude::*;
 use starsift::catalogue::{CandidateId, Catalogue};
 use starsift::checks::{CheckSettings, SignalGroups};
@@ -590,26 +590,14 @@ fn a_candidate_its_own_evidence_calls_no_planet_is_unlikely() {
     // at p = 0.5), and is `unlikely` even at that bound. Before, the
     // catalogue's false positive read `likely`, 9:1, at the prior of f = 0.1.
     let rows = "\
-DISP,DISP-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,FALSE POSITIVE,\n\
-HALF,HALF-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,,0.5\n\
-ART,ART-1,4.5,0.00001,100.5,0.001,700,3.0,30,0.3,1,1,5772,FA,\n\
-BIG,BIG-1,4.7,0.00001,100.7,0.001,250000,3.0,300,0.3,1,1,5772,,\n\
-LOW,LOW-1,4.9,0.00001,100.9,0.001,700,3.0,5,0.3,1,1,5772,,\n\
+DISP,DISP-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,FALSE POSITIVE,,,\n\
+HALF,HALF-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,,0.5,,\n\
+ART,ART-1,4.5,0.00001,100.5,0.001,700,3.0,30,0.3,1,1,5772,FA,,,\n\
+BIG,BIG-1,4.7,0.00001,100.7,0.001,250000,3.0,300,0.3,1,1,5772,,,,\n\
+LOW,LOW-1,4.9,0.00001,100.9,0.001,700,3.0,5,0.3,1,1,5772,,,,\n\
 SRC,SRC-1,5.3,0.00001,100.3,0.001,9000,3.0,90,0.3,1,1,5772,,,10.0,-20.0\n\
 COPY,COPY-1,5.3,0.00001,100.3,0.001,400,3.0,12,0.3,1,1,5772,,,10.0,-19.9972\n";
-    // Rows without a position end at the fpp cell.
-    let rows: String = rows
-        .lines()
-        .map(|l| match l.split(',').count() {
-            15 => format!("{l},,\n"),
-            _ => format!("{l}\n"),
-        })
-        .collect();
-    let bg: String = background().lines().map(|l| format!("{l},,,,\n")).collect();
-    let text = format!(
-        "{},disposition,fpp,ra_deg,dec_deg\n{bg}{rows}",
-        HEAD.trim_end()
-    );
+    let text = catalogue("disposition,fpp,ra_deg,dec_deg", rows);
     let (cat, live) = vet(&text);
     for (s, flag) in [
         ("DISP-1", Flag::KnownFp),
