@@ -480,13 +480,20 @@ impl Live {
     /// rejection as a false positive holds them too, docs/science.md §3.4;
     /// as far as `add_links` has asked for them).
     pub fn stars_moved_by(&self, c: CandidateId) -> Vec<StarId> {
+        let mut stars = self.signal_stars(c);
+        stars.extend(self.links_of(self.star_of(c)).iter().map(|l| l.other));
+        stars.sort_unstable();
+        stars.dedup();
+        stars
+    }
+
+    /// The stars of `c`'s signal: its own, and those of the members of its
+    /// active signal group (in no order, maybe repeated).
+    fn signal_stars(&self, c: CandidateId) -> Vec<StarId> {
         let mut stars = vec![self.star_of(c)];
         if let Some(g) = self.active_group(c) {
             stars.extend(self.groups.members(g).iter().map(|&m| self.star_of(m)));
         }
-        stars.extend(self.links_of(self.star_of(c)).iter().map(|l| l.other));
-        stars.sort_unstable();
-        stars.dedup();
         stars
     }
 
@@ -498,10 +505,7 @@ impl Live {
         // Flags move only the candidate's own status, and whether the copies
         // of its signal are planets: a group's standing depends on the
         // decisions alone.
-        let mut stars = vec![self.star_of(c)];
-        if let Some(g) = self.active_group(c) {
-            stars.extend(self.groups.members(g).iter().map(|&m| self.star_of(m)));
-        }
+        let mut stars = self.signal_stars(c);
         stars.sort_unstable();
         stars.dedup();
         self.flags[c as usize] = flags;
