@@ -106,8 +106,11 @@ impl Default for CheckSettings {
 pub struct Derived {
     pub star_radius_rsun: Option<f64>,
     pub star_mass_msun: Option<f64>,
-    /// R_p from depth, stellar radius and contamination.
+    /// R_p from depth (or `ror`), stellar radius and contamination; where
+    /// the star's radius is unknown, the catalogue's own planet radius.
     pub radius_rearth: Option<f64>,
+    /// The catalogue's own planet radius, where it gives one.
+    pub catalogue_radius_rearth: Option<f64>,
     pub a_au: Option<f64>,
     pub a_rstar: Option<f64>,
     pub teq_k: Option<f64>,
@@ -177,9 +180,10 @@ fn derive_with(cat: &Catalogue, c: CandidateId, s: &CheckSettings, orbit: bool) 
         star_mass_msun: mass,
         ..Derived::default()
     };
-    if let Some(r) = radius {
-        d.radius_rearth = finite(science::radius_rearth(k, r));
-    }
+    d.catalogue_radius_rearth = v(Field::PlanetRadiusRearth).filter(|r| *r > 0.0);
+    d.radius_rearth = radius
+        .and_then(|r| finite(science::radius_rearth(k, r)))
+        .or(d.catalogue_radius_rearth);
     if let (Some(m), Some(r)) = (mass, radius) {
         d.density_star = finite(science::star_density(m, r));
     }
@@ -677,6 +681,28 @@ fn eclipse_pair_too_deep(cat: &Catalogue, a: CandidateId, b: CandidateId) -> Opt
 /// of k²(R★/a)²: 1 + 2/3 (docs/science.md §4.3).
 const OCCULTATION_CEILING_FACTOR: f64 = 5.0 / 3.0;
 
+/// The radius the `big-radius` check reads, and whose it is when not the
+/// checks' own: the larger of the checks' (depth and star) and the
+/// catalogue's own planet radius. Either is evidence of a body too large
+/// for a planet; a fit's radius can be larger than the depth's (a grazing
+/// transit), the depth's than a fit's (a contaminated or outdated star).
+fn flag_radius(d: &Derived) -> Option<(f64, String)> {
+    let (Some(r), given) = (d.radius_rearth, d.catalogue_radius_rearth) else {
+        return None;
+    };
+    Some(match given {
+        Some(g) if g > r => (
+            g,
+            format!(" (the catalogue's; its depth and star give {r:.1})"),
+        ),
+        Some(g) if g == r && d.star_radius_rsun.is_none() => (
+            g,
+            " (the catalogue's; its star's radius is unknown)".to_string(),
+        ),
+        _ => (r, String::new()),
+    })
+}
+
 fn candidate_flags(
     cat: &Catalogue,
     c: CandidateId,
@@ -684,14 +710,14 @@ fn candidate_flags(
     s: &CheckSettings,
     out: &mut Checks,
 ) {
-    if let Some(r) = d.radius_rearth {
+    if let Some((r, whose)) = flag_radius(d) {
         if r > s.big_radius_rearth {
             out.add(
                 c,
                 Flag::BigRadius,
                 false,
                 format!(
-                    "R = {r:.1} R⊕ > {} R⊕ (2 R_J): likely a star",
+                    "R = {r:.1} R⊕{whose} > {} R⊕ (2 R_J): likely a star",
                     s.big_radius_rearth
                 ),
             );
@@ -701,7 +727,7 @@ fn candidate_flags(
                 Flag::BigRadius,
                 true,
                 format!(
-                    "R = {r:.1} R⊕ > {} R⊕: giant or small star",
+                    "R = {r:.1} R⊕{whose} > {} R⊕: giant or small star",
                     s.suspect_radius_rearth
                 ),
             );

@@ -33,13 +33,17 @@ pub enum Field {
     PeriodErrD,
     EpochErrD,
     Contamination,
+    /// The catalogue's own planet radius, Earth radii (a stated unit such
+    /// as `R_Jupiter` is converted): read where the star's radius is
+    /// unknown, and by the `big-radius` check beside the checks' own.
+    PlanetRadiusRearth,
     /// A disposition the catalogue already gives (text: `FALSE POSITIVE`,
     /// `PC`...): kept as it is among the extra columns, read by the checks.
     Disposition,
 }
 
 /// Every field, in the order summaries list them.
-pub const FIELDS: [Field; 22] = [
+pub const FIELDS: [Field; 23] = [
     Field::Star,
     Field::Candidate,
     Field::PeriodD,
@@ -61,6 +65,7 @@ pub const FIELDS: [Field; 22] = [
     Field::PeriodErrD,
     Field::EpochErrD,
     Field::Contamination,
+    Field::PlanetRadiusRearth,
     Field::Disposition,
 ];
 
@@ -75,7 +80,7 @@ pub const REQUIRED: [Field; 6] = [
 ];
 
 /// The numeric fields, in storage order: `Field::num_slot` indexes this.
-pub const NUMERIC: [Field; 18] = [
+pub const NUMERIC: [Field; 19] = [
     Field::PeriodD,
     Field::Epoch,
     Field::DepthPpm,
@@ -94,6 +99,7 @@ pub const NUMERIC: [Field; 18] = [
     Field::PeriodErrD,
     Field::EpochErrD,
     Field::Contamination,
+    Field::PlanetRadiusRearth,
 ];
 
 impl Field {
@@ -121,6 +127,7 @@ impl Field {
             Field::PeriodErrD => "period_err_d",
             Field::EpochErrD => "epoch_err_d",
             Field::Contamination => "contamination",
+            Field::PlanetRadiusRearth => "planet_radius_rearth",
             Field::Disposition => "disposition",
         }
     }
@@ -263,6 +270,20 @@ impl Field {
                 "tce_time0bt_err",
             ],
             Field::Contamination => &["contamination", "dilution"],
+            // Names that say Earth radii, or that archives use for them
+            // (`Planet Radius (R_Earth)` reads as `planet_radius` with its
+            // unit); a bare `rp` or `radius` is left out: tables use it in
+            // Jupiter radii as often.
+            Field::PlanetRadiusRearth => &[
+                "planet_radius_rearth",
+                "planet_radius",
+                "radius_rearth",
+                "rp_rearth",
+                "prad",
+                "pl_rade",
+                "koi_prad",
+                "tce_prad",
+            ],
             Field::Disposition => &[
                 "disposition",
                 "disp",
@@ -288,6 +309,7 @@ impl Field {
             Field::Mag => "mag",
             Field::Fpp | Field::Contamination => "fraction",
             Field::Ror => "R_p/R_star",
+            Field::PlanetRadiusRearth => "R_earth",
             _ => "",
         }
     }
@@ -314,6 +336,7 @@ impl Field {
             Field::PeriodErrD => 15,
             Field::EpochErrD => 16,
             Field::Contamination => 17,
+            Field::PlanetRadiusRearth => 18,
             Field::Star | Field::Candidate | Field::Lightcurve | Field::Disposition => return None,
         })
     }

@@ -27,6 +27,30 @@ pub fn days_per(unit: &str) -> Option<f64> {
     })
 }
 
+/// Earth radii in one unit of a planet's radius, for the spellings tables
+/// use (VOUnits 1.0 and astropy: `earthRad`, `jupiterRad`, `solRad`, `km`;
+/// archives' brackets: `R_Earth`, `R_Jupiter`, `Rjup`), from the IAU 2015
+/// nominal equatorial radii (Resolution B3: R⊕ 6.3781e6 m, R_J 7.1492e7 m,
+/// R☉ 6.957e8 m). Spaces and underscores are left out before the match.
+pub fn earth_radii_per(unit: &str) -> Option<f64> {
+    use crate::constants::{R_EARTH_M, R_JUPITER_M, R_SUN_M};
+    let u: String = unit
+        .trim()
+        .to_ascii_lowercase()
+        .chars()
+        .filter(|c| !matches!(c, ' ' | '_' | '.'))
+        .collect();
+    Some(match u.as_str() {
+        "re" | "rearth" | "earthrad" | "earthradius" | "earthradii" | "r⊕" | "rgeo" => 1.0,
+        "rj" | "rjup" | "rjupiter" | "jupiterrad" | "jupiterradius" | "jupiterradii" => {
+            R_JUPITER_M / R_EARTH_M
+        }
+        "rsun" | "rsol" | "solrad" | "r☉" => R_SUN_M / R_EARTH_M,
+        "km" => 1e3 / R_EARTH_M,
+        _ => return None,
+    })
+}
+
 /// The depth unit a table states: ppm, percent, parts per thousand or a
 /// plain fraction (an empty unit says nothing).
 pub fn depth_unit(unit: &str) -> Option<(DepthUnit, f64)> {
@@ -100,6 +124,19 @@ pub fn conversion(field: Field, unit: &str) -> Result<Option<Conversion>, String
     match field {
         Field::PeriodD | Field::PeriodErrD | Field::EpochErrD => time_field(1.0, "days"),
         Field::DurationH => time_field(1.0 / 24.0, "hours"),
+        Field::PlanetRadiusRearth => {
+            let scale = earth_radii_per(u).ok_or_else(|| {
+                format!(
+                    "unit `{u}` is not a radius unit starsift converts (R_Earth, R_Jupiter, \
+                     R_Sun, km)"
+                )
+            })?;
+            Ok((scale != 1.0).then(|| Conversion {
+                scale,
+                offset: 0.0,
+                text: format!("table unit {u}, × {} to Earth radii", trim_float(scale)),
+            }))
+        }
         Field::Epoch => Ok(epoch_zero(u).map(|zero| Conversion {
             scale: 1.0,
             offset: zero,
@@ -142,6 +179,30 @@ mod tests {
         assert_eq!((c.scale, c.offset), (1.0, 2_457_000.0));
         assert_eq!(epoch_zero("MJD"), Some(2_400_000.5));
         assert_eq!(conversion(Field::Epoch, "d").unwrap(), None);
+    }
+
+    #[test]
+    fn planet_radii_convert_to_earth_radii() {
+        // R_J/R⊕ = 7.1492e7 / 6.3781e6 = 11.209 and R☉/R⊕ = 109.08 (IAU
+        // 2015 Resolution B3 nominal equatorial radii, ratios worked by
+        // hand); 1 R⊕ = 6378.1 km.
+        let c = conversion(Field::PlanetRadiusRearth, "R_Jupiter")
+            .unwrap()
+            .unwrap();
+        assert!((c.scale - 11.209).abs() < 5e-4, "{}", c.scale);
+        for u in ["Rjup", "jupiterRad", "R_J"] {
+            assert_eq!(earth_radii_per(u), Some(c.scale), "{u}");
+        }
+        assert!((earth_radii_per("solRad").unwrap() - 109.08).abs() < 5e-3);
+        assert!((earth_radii_per("km").unwrap() * 6378.1 - 1.0).abs() < 1e-12);
+        for u in ["R_Earth", "Rearth", "earthRad", "R_E"] {
+            assert_eq!(
+                conversion(Field::PlanetRadiusRearth, u).unwrap(),
+                None,
+                "{u}"
+            );
+        }
+        assert!(conversion(Field::PlanetRadiusRearth, "furlong").is_err());
     }
 
     #[test]

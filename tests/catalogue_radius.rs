@@ -1,0 +1,135 @@
+//! A catalogue's own planet radius (`koi_prad`, `pl_rade`, `Planet Radius
+//! (R_Jupiter)`...) is evidence the checks read (docs/science.md §2): an
+//! eclipsing binary the catalogue sizes at 38 R⊕ on a star of unknown
+//! radius was validated before, its radius ignored. Invented catalogues;
+//! the limits are docs/science.md's (22.4 R⊕ = 2 R_J firm, 15 R⊕ a
+//! warning), the unit from the IAU 2015 nominal radii.
+
+mod common;
+
+use common::{agreed, catalogue, load_text, starsift, stdout, written};
+use starsift::catalogue::{CandidateId, Catalogue};
+use starsift::checks::{CheckSettings, derive};
+use starsift::decision::Decision;
+use starsift::flags::Flag;
+use starsift::odds::{Live, Model, Verdict};
+
+fn live(cat: &Catalogue) -> Live {
+    let checks = starsift::checks::run(cat, &CheckSettings::default());
+    Live::with_state(
+        cat,
+        Model {
+            targets: Some(50_000),
+            ..Model::default()
+        },
+        checks.all_flags().to_vec(),
+        checks.groups().clone(),
+        vec![Decision::Open; cat.len()],
+    )
+    .unwrap()
+}
+
+/// Rows under the tests' header (star radius the 11th cell, empty where
+/// unknown) with one more cell, the catalogue's planet radius.
+const ROWS: &str = "\
+NOR,NOR-1,3.52,0.00001,100.0,0.001,150000,3.1,900,0.3,,,5772,38.5\n\
+NOR,NOR-2,9.81,0.00001,101.2,0.001,800,4.0,25,0.3,,,5772,2.9\n\
+FIT,FIT-1,4.10,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,30.0\n\
+FIT,FIT-2,9.70,0.00001,101.6,0.001,650,3.6,28,0.3,1,1,5772,2.5\n\
+DEP,DEP-1,4.70,0.00001,100.7,0.001,250000,3.0,300,0.3,1,1,5772,2.0\n\
+DEP,DEP-2,11.3,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,2.5\n\
+OK,OK-1,5.30,0.00001,100.3,0.001,700,3.0,30,0.3,,,5772,2.4\n\
+OK,OK-2,12.1,0.00001,101.3,0.001,650,3.6,28,0.3,,,5772,2.3\n";
+
+fn id(cat: &Catalogue, s: &str) -> CandidateId {
+    cat.find_candidate(s).unwrap()
+}
+
+#[test]
+fn the_catalogues_planet_radius_is_read_by_the_size_check() {
+    let text = catalogue("koi_prad", ROWS);
+    let cat = load_text(&text);
+    let live = live(&cat);
+    // The star's radius unknown: the catalogue's 38.5 R⊕ is the radius,
+    // above 22.4 R⊕: firm, held, unlikely at most 1:1; its sibling held
+    // back as the sibling of a false positive (docs/science.md §1.1).
+    let nor = id(&cat, "NOR-1");
+    assert_eq!(
+        derive(&cat, nor, &CheckSettings::default()).radius_rearth,
+        Some(38.5)
+    );
+    assert!(live.flags(nor).contains(Flag::BigRadius));
+    assert_eq!(live.verdict(nor), Verdict::Unlikely);
+    assert!(live.odds(nor).unwrap() <= 1.0);
+    assert_eq!(live.verdict(id(&cat, "NOR-2")), Verdict::Likely);
+    // Both known: the larger is read. A fit's 30 R⊕ against the depth's
+    // 2.6 R⊕ (700 ppm across 1 R☉), and a depth of 25 % (55 R⊕) against a
+    // fit's 2.0 R⊕: each is flagged; the radius shown is the checks' own.
+    for s in ["FIT-1", "DEP-1"] {
+        let c = id(&cat, s);
+        assert!(live.flags(c).contains(Flag::BigRadius), "{s}");
+        assert_eq!(live.verdict(c), Verdict::Unlikely, "{s}");
+    }
+    let fit = derive(&cat, id(&cat, "FIT-1"), &CheckSettings::default());
+    assert!((fit.radius_rearth.unwrap() - 2.6).abs() < 0.2, "{fit:?}");
+    // Planet-sized either way: a clean pair, validated.
+    for s in ["OK-1", "OK-2"] {
+        assert_eq!(live.verdict(id(&cat, s)), Verdict::Validated, "{s}");
+    }
+    // Every command says the same, and names whose radius it was.
+    let c = written("catalogue_radius_commands", &text);
+    let c = c.to_str().unwrap();
+    let v = agreed(c);
+    assert_eq!(v["NOR-1"], "unlikely");
+    assert_eq!(v["OK-1"], "validated");
+    let out = stdout(&starsift(&["checks", c]));
+    assert!(
+        out.contains("R = 38.5 R⊕ (the catalogue's; its star's radius is unknown) > 22.4"),
+        "{out}"
+    );
+    assert!(
+        out.contains("R = 30.0 R⊕ (the catalogue's; its depth and star give 2.6) > 22.4"),
+        "{out}"
+    );
+}
+
+#[test]
+fn a_radius_stated_in_jupiter_radii_is_converted() {
+    // R_J/R⊕ = 11.209 (IAU 2015 Resolution B3 nominal equatorial radii):
+    // 2.3 R_J = 25.8 R⊕, above the firm 22.4; 1.5 R_J = 16.8 R⊕, a
+    // warning only; 0.25 R_J = 2.8 R⊕, a planet.
+    let rows = "\
+JA,JA-1,3.52,0.00001,100.0,0.001,9000,3.1,90,0.3,,,5772,2.3\n\
+JA,JA-2,9.81,0.00001,101.2,0.001,800,4.0,25,0.3,,,5772,0.25\n\
+JB,JB-1,4.10,0.00001,100.4,0.001,9000,3.0,90,0.3,,,5772,1.5\n\
+JB,JB-2,9.70,0.00001,101.6,0.001,650,3.6,28,0.3,,,5772,0.25\n";
+    let cat = load_text(&catalogue("Planet Radius (R_Jupiter)", rows));
+    let live = live(&cat);
+    let s = CheckSettings::default();
+    let ja = derive(&cat, id(&cat, "JA-1"), &s).radius_rearth.unwrap();
+    assert!((ja - 25.78).abs() < 0.01, "{ja}");
+    assert!(live.flags(id(&cat, "JA-1")).contains(Flag::BigRadius));
+    assert_eq!(live.verdict(id(&cat, "JA-1")), Verdict::Unlikely);
+    let jb = id(&cat, "JB-1");
+    assert!(!live.flags(jb).contains(Flag::BigRadius), "warning only");
+    let checks = starsift::checks::run(&cat, &s);
+    assert!(
+        checks
+            .findings(jb)
+            .any(|f| f.flag == Flag::BigRadius && f.soft)
+    );
+    assert_eq!(live.verdict(jb), Verdict::Validated);
+}
+
+#[test]
+fn a_radius_in_a_unit_not_converted_stops_the_load_naming_the_column() {
+    let c = written(
+        "catalogue_radius_unit",
+        &catalogue("Planet Radius (furlongs)", ""),
+    );
+    let o = starsift(&["summary", c.to_str().unwrap()]);
+    assert!(!o.status.success());
+    let err = common::stderr(&o);
+    assert!(err.contains("Planet Radius (furlongs)"), "{err}");
+    assert!(err.contains("not a radius unit"), "{err}");
+}
