@@ -468,13 +468,11 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         let echo = scope.spawn(|| echo::check(cat, s, progress));
         let mut checks = empty();
         checks.big_radius_rearth = s.big_radius_rearth;
-        // Transit densities are needed by the sibling comparison.
-        let mut density_transit = vec![f64::NAN; n];
-        let mut radius = vec![f64::NAN; n];
+        // The star checks derive their members' densities and radii again
+        // where they read them, a star at a time: two arrays of every
+        // candidate's would be 16 bytes a candidate at the checks' peak.
         for c in 0..n as CandidateId {
             let d = derive_for_flags(cat, c, s);
-            density_transit[c as usize] = d.density_transit.unwrap_or(f64::NAN);
-            radius[c as usize] = d.radius_rearth.unwrap_or(f64::NAN);
             candidate_flags(cat, c, &d, s, &mut checks);
             if (c as usize + 1) % progress::STEP == 0 {
                 progress.add(progress::STEP);
@@ -484,16 +482,12 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         known::flag(cat, &mut checks);
         epoch_zeros(cat, &mut checks);
         progress.publish(checks.all_flags());
-        let derived = system::PerCandidate {
-            density_transit: &density_transit,
-            radius_rearth: &radius,
-        };
         let mut scratch = system::Scratch::default();
         let mut links = Vec::new();
         let mut unsaid = 0;
         // A star's rows lie anywhere in the file: the memory is asked for
         // them some stars ahead, so that it serves many at once.
-        let columns = system::read_columns(cat, &derived);
+        let columns = system::read_columns(cat);
         const AHEAD: u32 = 8;
         let stars = cat.star_count() as u32;
         for star in 0..stars {
@@ -505,15 +499,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
             }
             let members = cat.members(star);
             if members.len() >= 2 {
-                system::check(
-                    cat,
-                    members,
-                    &derived,
-                    s,
-                    &mut scratch,
-                    &mut links,
-                    &mut checks,
-                );
+                system::check(cat, members, s, &mut scratch, &mut links, &mut checks);
             }
             unsaid += members.len();
             if unsaid >= progress::STEP {

@@ -66,12 +66,6 @@ impl Joined {
     }
 }
 
-/// What the per-candidate pass derived, indexed by candidate (NaN = missing).
-pub(super) struct PerCandidate<'a> {
-    pub density_transit: &'a [f64],
-    pub radius_rearth: &'a [f64],
-}
-
 /// What the checks of a star read of one member, gathered once (the
 /// catalogue's columns are read at random, a star at a time; NaN = missing).
 #[derive(Clone, Copy)]
@@ -82,6 +76,10 @@ struct Member {
     duration_h: f64,
     epoch: f64,
     epoch_err: f64,
+    /// The stellar density its transit implies, kg m⁻³, and its radius,
+    /// R⊕ (`derive_for_flags`; NaN where unknown).
+    density_transit: f64,
+    radius_rearth: f64,
 }
 
 /// A value, `None` where missing (NaN), as `Catalogue::value` gives it.
@@ -220,15 +218,14 @@ fn together(a: &Member, b: &Member, n: f64, t14_d: f64) -> Together {
     }
 }
 
-/// The columns [`check`] reads of each member: the catalogue's and the
-/// derived ones.
+/// The catalogue's columns [`check`] reads of each member, its own and
+/// those `derive_for_flags` reads.
 pub(super) struct Read<'a> {
     catalogue: Vec<&'a Column>,
-    derived: [&'a [f64]; 2],
 }
 
-/// The columns [`check`] reads of each member, catalogue's and derived.
-pub(super) fn read_columns<'a>(cat: &'a Catalogue, derived: &PerCandidate<'a>) -> Read<'a> {
+/// The columns [`check`] reads of each member.
+pub(super) fn read_columns(cat: &Catalogue) -> Read<'_> {
     let catalogue = [
         Field::PeriodD,
         Field::PeriodErrD,
@@ -241,14 +238,17 @@ pub(super) fn read_columns<'a>(cat: &'a Catalogue, derived: &PerCandidate<'a>) -
         Field::StarRadiusRsun,
         Field::StarTeffK,
         Field::DepthPpm,
+        Field::StarMassMsun,
+        Field::StarLogg,
+        Field::Contamination,
+        Field::Impact,
+        Field::Ror,
+        Field::PlanetRadiusRearth,
     ]
     .into_iter()
     .filter_map(|f| cat.column(f))
     .collect();
-    Read {
-        catalogue,
-        derived: [derived.density_transit, derived.radius_rearth],
-    }
+    Read { catalogue }
 }
 
 /// Asks the memory for what [`check`] will read of `members`' rows
@@ -259,7 +259,6 @@ pub(super) fn prefetch(columns: &Read, members: &[CandidateId]) {
         for col in &columns.catalogue {
             col.prefetch(c as usize);
         }
-        crate::prefetch::row(&columns.derived, c as usize);
     }
 }
 
@@ -274,7 +273,6 @@ pub(super) struct Scratch {
 pub(super) fn check(
     cat: &Catalogue,
     members: &[CandidateId],
-    derived: &PerCandidate,
     s: &CheckSettings,
     scratch: &mut Scratch,
     links: &mut Vec<Link>,
@@ -298,13 +296,18 @@ pub(super) fn check(
     let at =
         |column: Option<&Column>, c: CandidateId| column.map_or(f64::NAN, |x| x.get(c as usize));
     m.clear();
-    m.extend(members.iter().map(|&c| Member {
-        c,
-        period: at(periods, c),
-        period_err: at(period_errs, c),
-        duration_h: at(durations, c),
-        epoch: at(epochs, c),
-        epoch_err: at(epoch_errs, c),
+    m.extend(members.iter().map(|&c| {
+        let d = super::derive_for_flags(cat, c, s);
+        Member {
+            c,
+            period: at(periods, c),
+            period_err: at(period_errs, c),
+            duration_h: at(durations, c),
+            epoch: at(epochs, c),
+            epoch_err: at(epoch_errs, c),
+            density_transit: d.density_transit.unwrap_or(f64::NAN),
+            radius_rearth: d.radius_rearth.unwrap_or(f64::NAN),
+        }
     }));
     // Stable: members of equal period keep their catalogue order.
     m.sort_by(|a, b| a.period.total_cmp(&b.period));
@@ -323,19 +326,19 @@ pub(super) fn check(
     // could keep both.
     let star_mass = v(Field::StarMassMsun, m[0].c);
     let depths = col(Field::DepthPpm);
-    let radius = |c: CandidateId| {
-        let r = derived.radius_rearth[c as usize];
+    let radius = |x: &Member| {
+        let r = x.radius_rearth;
         if r.is_finite() {
             return Some((r, false));
         }
-        let k = science::ror_from_depth(at(depths, c), 0.0, 0.0, DEFAULT_LD);
+        let k = science::ror_from_depth(at(depths, x.c), 0.0, 0.0, DEFAULT_LD);
         let smallest = science::radius_rearth(k, SMALLEST_STAR_RSUN);
         (smallest.is_finite() && smallest > 0.0).then_some((smallest, true))
     };
     for i in 0..m.len().saturating_sub(1) {
         let (a, b) = (m[i].c, m[i + 1].c);
         let (period_a, period_b) = (m[i].period, m[i + 1].period);
-        let delta = match (radius(a), radius(b)) {
+        let delta = match (radius(&m[i]), radius(&m[i + 1])) {
             (Some((ra, least_a)), Some((rb, least_b))) => {
                 let least = least_a || least_b;
                 let mass_star = match (star_mass, least) {
@@ -410,12 +413,14 @@ pub(super) fn check(
     // Durations: the density each transit implies, against its siblings'.
     // The siblings' median is read from one sorted list of the whole star
     // with the candidate's own value taken out (O(m log m) per star).
-    let dens = |c: CandidateId| derived.density_transit[c as usize];
     others.clear();
-    others.extend(m.iter().map(|o| dens(o.c)).filter(|d| d.is_finite()));
+    others.extend(
+        m.iter()
+            .map(|o| o.density_transit)
+            .filter(|d| d.is_finite()),
+    );
     others.sort_by(f64::total_cmp);
-    for c in m.iter().map(|x| x.c) {
-        let own = dens(c);
+    for (c, own) in m.iter().map(|x| (x.c, x.density_transit)) {
         if !own.is_finite() || others.len() < 2 {
             continue;
         }
