@@ -13,7 +13,9 @@ const NONE: u32 = u32::MAX;
 /// The signal groups of a catalogue, members best first.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct SignalGroups {
-    /// Group of each candidate; `NONE` when it is alone.
+    /// Group of each candidate; `NONE` when it is alone. Empty while no
+    /// candidate has a group (4 bytes a candidate the checks need not
+    /// hold while they run).
     of: Vec<u32>,
     /// Members of group g: `members[start[g]..start[g + 1]]`, best first.
     start: Vec<u32>,
@@ -24,9 +26,9 @@ pub struct SignalGroups {
 
 impl SignalGroups {
     /// No groups, for `n` candidates.
-    pub fn none(n: usize) -> SignalGroups {
+    pub fn none(_n: usize) -> SignalGroups {
         SignalGroups {
-            of: vec![NONE; n],
+            of: Vec::new(),
             start: vec![0],
             members: Vec::new(),
             kinds: Vec::new(),
@@ -41,6 +43,7 @@ impl SignalGroups {
         if links.is_empty() {
             return g;
         }
+        g.of = vec![NONE; n];
         // Union-find over the linked candidates only.
         let mut parent: std::collections::HashMap<CandidateId, CandidateId> = Default::default();
         fn find(
