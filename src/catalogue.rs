@@ -18,7 +18,7 @@ pub use columns::{
 };
 pub use load::{
     LoadOptions, Source, bounded_number, candidate_family, family_key, family_stars, is_missing,
-    names_no_star, parse_number,
+    names_no_star, parse_number, rounded_number,
 };
 pub use pool::StrPool;
 use serde::Serialize;

@@ -39,7 +39,7 @@ use number::*;
 pub use number::{bounded_number, is_missing, parse_number};
 use records::*;
 use row::*;
-pub use spelling::star_key;
+pub use spelling::{rounded_number, star_key};
 use unit_rules::*;
 
 /// How to read a catalogue. The default reads any supported file unaided.

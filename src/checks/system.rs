@@ -315,7 +315,7 @@ pub(super) fn check(
     deltas.clear();
 
     let mut joined = link_pairs(m, s, links);
-    if !one_place(cat, members, s, out) {
+    if !one_place(cat, members, s, out) && !rounded_id(cat, members, out) {
         one_star_values(cat, members, out);
     }
 
@@ -617,6 +617,37 @@ fn one_place(
         cat.candidate_id(first),
         cat.candidate_id(other),
         s.echo_radius_arcsec
+    );
+    for &c in members {
+        out.add(c, Flag::MixedHost, false, why.clone());
+    }
+    true
+}
+
+/// A star whose id is a whole number written as a rounded float
+/// (`1.23457e+08`: `catalogue::rounded_number`) may be several stars whose
+/// ids lost the digits that told them apart (docs/science.md §3.4). Where
+/// no row gives a position (which [`one_place`] reads), nothing shows its
+/// rows to be one star: every member is flagged `mixed-host`. True when it
+/// flagged them.
+fn rounded_id(cat: &Catalogue, members: &[CandidateId], out: &mut Checks) -> bool {
+    let id = cat.star_id(cat.star_of(members[0]));
+    if !crate::catalogue::rounded_number(id) {
+        return false;
+    }
+    if let (Some(ra), Some(dec)) = (cat.column(Field::RaDeg), cat.column(Field::DecDeg)) {
+        let placed =
+            |c: CandidateId| super::echo::real_position(ra.get(c as usize), dec.get(c as usize));
+        if members.iter().any(|&c| placed(c)) {
+            return false;
+        }
+    }
+    let why = format!(
+        "the star's id `{}` is a whole number written as a rounded float: ids of several \
+         stars that differ only in the digits left out read as this one, and no position \
+         says whether its rows are one star, so none of them counts towards a system; write \
+         the ids as text or give positions",
+        id.trim()
     );
     for &c in members {
         out.add(c, Flag::MixedHost, false, why.clone());

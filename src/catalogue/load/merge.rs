@@ -579,6 +579,11 @@ impl Merger {
             }
             None => grouping,
         };
+        notes.extend(super::spelling::rounded_note(
+            &self.row_stars,
+            &grouping.first_rows,
+            &self.lines,
+        ));
         let row_stars = std::mem::take(&mut self.row_stars);
         let mut candidates = std::mem::take(&mut self.candidates);
         let StarGrouping {

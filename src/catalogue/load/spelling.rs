@@ -50,6 +50,60 @@ pub fn star_key(id: &str, out: &mut Vec<u8>) {
     }
 }
 
+/// Whether an id is a whole number written as a rounded floating-point
+/// number: digits, a fraction, an exponent, and fewer digits shown than
+/// the number has (`1.23457e+08`: a 9-digit number of which 6 digits are
+/// left, as `%g` writes it; `4.295806720123457e+18`: a 19-digit id through
+/// a double, which keeps 16). Such an id has lost its last digits: several
+/// stars may read as one (docs/science.md §3.4).
+pub fn rounded_number(id: &str) -> bool {
+    let b = id.trim().as_bytes();
+    let Some(e) = b.iter().position(|&c| c == b'e' || c == b'E') else {
+        return false;
+    };
+    let (mantissa, exponent) = (&b[..e], &b[e + 1..]);
+    let exponent = exponent.strip_prefix(b"+").unwrap_or(exponent);
+    if exponent.is_empty() || exponent.len() > 3 || !exponent.iter().all(u8::is_ascii_digit) {
+        return false;
+    }
+    let exponent = exponent
+        .iter()
+        .fold(0usize, |n, d| n * 10 + usize::from(d - b'0'));
+    let (int, frac) = match mantissa.iter().position(|&c| c == b'.') {
+        Some(dot) => (&mantissa[..dot], &mantissa[dot + 1..]),
+        None => (mantissa, &b""[..]),
+    };
+    let digits = |p: &[u8]| p.iter().all(u8::is_ascii_digit);
+    !int.is_empty() && digits(int) && digits(frac) && exponent > frac.len()
+}
+
+/// What the catalogue is told of star ids written as rounded numbers
+/// ([`rounded_number`]): how many stars, the first with its line. `None`
+/// when there are none. `first_rows` is each star's first row; `lines`
+/// each row's line.
+pub(super) fn rounded_note(
+    row_stars: &StrPool,
+    first_rows: &[u32],
+    lines: &[u32],
+) -> Option<String> {
+    let mut rounded = first_rows
+        .iter()
+        .filter(|&&r| rounded_number(row_stars.get(r as usize)));
+    let first = *rounded.next()?;
+    let n = 1 + rounded.count();
+    Some(format!(
+        "{n} star id{} {} whole numbers written as rounded floating-point numbers, such as \
+         `{}` (line {}): only the digits shown are kept, so several stars may read as one and \
+         their signals as one system; where no positions show each such star to be one place, \
+         its candidates count towards no system (flag mixed-host). Write the ids as text \
+         (docs/science.md §3.4)",
+        if n == 1 { "" } else { "s" },
+        if n == 1 { "is" } else { "are" },
+        crate::sanitize::clean(row_stars.get(first as usize).trim()),
+        lines.get(first as usize).copied().unwrap_or(0),
+    ))
+}
+
 /// The letters before the number of a key that is letters then a number
 /// (`tic100` → `tic`), `Some("")` for a bare number, `None` otherwise.
 fn prefix(key: &[u8]) -> Option<&[u8]> {
@@ -230,6 +284,37 @@ mod tests {
         let mut k = Vec::new();
         star_key(id, &mut k);
         k
+    }
+
+    #[test]
+    fn whole_numbers_written_as_rounded_floats_are_told() {
+        // A double keeps 15–17 significant digits (IEEE 754 binary64), so a
+        // 19-digit id through one prints 16; `%g` prints 6 (C standard,
+        // from memory).
+        for id in [
+            "4.295806720123457e+18",
+            "1.23457e+08",
+            "1.23457E8",
+            " 9e+05 ",
+            "12e3",
+        ] {
+            assert!(rounded_number(id), "{id}");
+        }
+        // Every digit shown, or not a number in exponent form.
+        for id in [
+            "1.234e3",
+            "123456789",
+            "4295806720123456789",
+            "1.5e0",
+            "TIC 1e5",
+            "-1.2e+05",
+            "1.2e-05",
+            "WASP-12E",
+            "e5",
+            "1.2e",
+        ] {
+            assert!(!rounded_number(id), "{id}");
+        }
     }
 
     #[test]
