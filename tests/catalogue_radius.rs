@@ -133,3 +133,26 @@ fn a_radius_in_a_unit_not_converted_stops_the_load_naming_the_column() {
     assert!(err.contains("Planet Radius (furlongs)"), "{err}");
     assert!(err.contains("not a radius unit"), "{err}");
 }
+
+#[test]
+fn a_radius_of_zero_or_below_is_unknown_and_said() {
+    // `0` and `-1` are what tables write for an unknown value (common
+    // practice, no source): no radius, not a planet of size 0.
+    let rows = "\
+ZR,ZR-1,4.10,0.00001,100.4,0.001,700,3.0,30,0.3,,,5772,0\n\
+ZR,ZR-2,9.70,0.00001,101.6,0.001,650,3.6,28,0.3,,,5772,-1\n";
+    let text = catalogue("planet_radius", rows);
+    let cat = load_text(&text);
+    let s = CheckSettings::default();
+    assert_eq!(derive(&cat, id(&cat, "ZR-1"), &s).radius_rearth, None);
+    assert_eq!(derive(&cat, id(&cat, "ZR-2"), &s).radius_rearth, None);
+    let c = written("catalogue_radius_zero", &text);
+    let o = starsift(&["odds", c.to_str().unwrap()]);
+    let err = common::stderr(&o);
+    assert!(
+        err.contains(
+            "2 planet_radius_rearth values of zero or below (`planet_radius`) read as unknown"
+        ),
+        "{err}"
+    );
+}

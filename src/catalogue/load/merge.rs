@@ -360,8 +360,8 @@ impl Merger {
                 how,
             });
         }
-        // A star's radius, mass or temperature, a radius ratio, or an
-        // ephemeris error, of zero or below is a placeholder for an unknown
+        // A star's radius, mass or temperature, a radius ratio, a planet's
+        // radius, or an ephemeris error, of zero or below is a placeholder for an unknown
         // value (`0`, `-1`), not a value: read as missing, as an empty cell
         // (common practice, no source). Read as values, a mass of 0 made
         // every orbit unstable, and errors of -1 d joined unrelated periods.
@@ -370,6 +370,7 @@ impl Merger {
             Field::StarMassMsun,
             Field::StarTeffK,
             Field::Ror,
+            Field::PlanetRadiusRearth,
             Field::PeriodErrD,
             Field::EpochErrD,
         ] {
