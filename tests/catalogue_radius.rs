@@ -7,27 +7,11 @@
 
 mod common;
 
-use common::{agreed, catalogue, load_text, starsift, stdout, written};
+use common::{agreed, catalogue, live_of as live, load_text, starsift, stdout, written};
 use starsift::catalogue::{CandidateId, Catalogue};
 use starsift::checks::{CheckSettings, derive};
-use starsift::decision::Decision;
 use starsift::flags::Flag;
-use starsift::odds::{Live, Model, Verdict};
-
-fn live(cat: &Catalogue) -> Live {
-    let checks = starsift::checks::run(cat, &CheckSettings::default());
-    Live::with_state(
-        cat,
-        Model {
-            targets: Some(50_000),
-            ..Model::default()
-        },
-        checks.all_flags().to_vec(),
-        checks.groups().clone(),
-        vec![Decision::Open; cat.len()],
-    )
-    .unwrap()
-}
+use starsift::odds::Verdict;
 
 /// Rows under the tests' header (star radius the 11th cell, empty where
 /// unknown) with one more cell, the catalogue's planet radius.

@@ -10,8 +10,8 @@
 mod common;
 
 use common::{
-    HEAD, agreed, background, catalogue, load_text, reject, scratch, starsift, stderr, stdout,
-    verdicts, written,
+    HEAD, agreed, background, catalogue, live_of, load_text, reject, scratch, starsift, stderr,
+    stdout, verdicts, written,
 };
 use starsift::catalogue::{CandidateId, Catalogue};
 use starsift::checks::{CheckSettings, SignalGroups};
@@ -34,21 +34,6 @@ FPP,FPP-2,11.2,0.00001,101.7,0.001,650,3.6,28,0.3,1,1,5772,,0.97\n\
 T3,T3-1,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772,,\n\
 T3,T3-2,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,,\n\
 T3,T3-3,25.1,0.00001,102.9,0.001,640,4.7,26,0.3,1,1,5772,,\n";
-
-fn live_of(cat: &Catalogue) -> Live {
-    let checks = starsift::checks::run(cat, &CheckSettings::default());
-    Live::with_state(
-        cat,
-        Model {
-            targets: Some(50_000),
-            ..Model::default()
-        },
-        checks.all_flags().to_vec(),
-        checks.groups().clone(),
-        vec![Decision::Open; cat.len()],
-    )
-    .unwrap()
-}
 
 fn id(cat: &Catalogue, s: &str) -> CandidateId {
     cat.find_candidate(s).unwrap()

@@ -6,10 +6,12 @@
 
 mod common;
 
-use common::{HEAD, background, catalogue, load_text as load, scratch, starsift, stderr, stdout};
+use common::{
+    HEAD, background, catalogue, live_under, load_text as load, scratch, starsift, stderr, stdout,
+};
 use proptest::prelude::*;
 use starsift::catalogue::{CandidateId, Catalogue};
-use starsift::checks::{CheckSettings, SignalGroups};
+use starsift::checks::SignalGroups;
 use starsift::decision::{Decision, Reason};
 use starsift::flags::{Flag, FlagSet};
 use starsift::odds::{Live, Model, Status, Verdict, parse_fp_fraction, table};
@@ -21,23 +23,9 @@ fn model() -> Model {
     }
 }
 
-/// The checks and the live odds under `model`, every candidate open, as
-/// every command builds them.
-fn live_for(cat: &Catalogue, model: Model) -> Live {
-    let checks = starsift::checks::run(cat, &CheckSettings::default());
-    Live::with_state(
-        cat,
-        model,
-        checks.all_flags().to_vec(),
-        checks.groups().clone(),
-        vec![Decision::Open; cat.len()],
-    )
-    .unwrap()
-}
-
 fn vet(text: &str) -> (Catalogue, Live) {
     let cat = load(text);
-    let live = live_for(&cat, model());
+    let live = live_under(&cat, model());
     (cat, live)
 }
 
@@ -229,7 +217,7 @@ fn holds_to_f_is_the_edge_of_the_verdict() {
             fp_fraction: f,
             ..model()
         };
-        live_for(&cat, m).verdict(double)
+        live_under(&cat, m).verdict(double)
     };
     assert_eq!(at(edge * 0.999), Verdict::Validated);
     assert_ne!(at((edge * 1.02).min(0.99)), Verdict::Validated);
@@ -328,7 +316,7 @@ proptest! {
         steps in proptest::collection::vec((0usize..10_000, 0u8..3), 1..25),
     ) {
         let cat = load(&random_catalogue(&sizes, &twins));
-        let mut live = live_for(
+        let mut live = live_under(
             &cat,
             Model { targets: Some(cat.star_count() as u64 + extra), fp_fraction: f, ..Model::default() },
         );
@@ -647,7 +635,7 @@ COPY,COPY-1,5.3,0.00001,100.3,0.001,400,3.0,12,0.3,1,1,5772,,,10.0,-19.9972\n";
     // (the vetter's choice, stated in every output's model line).
     let mut m = model();
     m.blocking = m.blocking.difference([Flag::KnownFp].into_iter().collect());
-    let live = live_for(&cat, m);
+    let live = live_under(&cat, m);
     let disp = id(&cat, "DISP-1");
     assert_eq!(live.status(disp), Status::Counted);
     assert_eq!(live.verdict(disp), Verdict::Likely);

@@ -158,3 +158,32 @@ pub fn agreed(c: &str) -> std::collections::BTreeMap<String, String> {
     assert_eq!(odds, verdicts(&["checks", c, "--format", "csv"]));
     odds
 }
+
+/// The checks and the live odds of `cat` under `model`, every candidate
+/// open, as every command builds them.
+pub fn live_under(
+    cat: &starsift::catalogue::Catalogue,
+    model: starsift::odds::Model,
+) -> starsift::odds::Live {
+    let checks = starsift::checks::run(cat, &starsift::checks::CheckSettings::default());
+    starsift::odds::Live::with_state(
+        cat,
+        model,
+        checks.all_flags().to_vec(),
+        checks.groups().clone(),
+        vec![starsift::decision::Decision::Open; cat.len()],
+    )
+    .unwrap()
+}
+
+/// [`live_under`] the verdict tests' model: N = 50,000 targets, the rest
+/// the defaults.
+pub fn live_of(cat: &starsift::catalogue::Catalogue) -> starsift::odds::Live {
+    live_under(
+        cat,
+        starsift::odds::Model {
+            targets: Some(50_000),
+            ..starsift::odds::Model::default()
+        },
+    )
+}
