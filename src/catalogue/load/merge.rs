@@ -361,10 +361,11 @@ impl Merger {
             });
         }
         // A star's radius, mass or temperature, a radius ratio, a planet's
-        // radius, or an ephemeris error, of zero or below is a placeholder for an unknown
-        // value (`0`, `-1`), not a value: read as missing, as an empty cell
-        // (common practice, no source). Read as values, a mass of 0 made
-        // every orbit unstable, and errors of -1 d joined unrelated periods.
+        // radius, or an ephemeris error, of zero or below is a placeholder
+        // for an unknown value (`0`, `-1`), not a value: read as missing,
+        // as an empty cell (common practice, no source). Read as values, a
+        // mass of 0 made every orbit unstable, and errors of -1 d joined
+        // unrelated periods.
         for field in [
             Field::StarRadiusRsun,
             Field::StarMassMsun,
