@@ -626,10 +626,10 @@ fn one_place(
 
 /// A star whose id is a whole number written as a rounded float
 /// (`1.23457e+08`: `catalogue::rounded_number`) may be several stars whose
-/// ids lost the digits that told them apart (docs/science.md §3.4). Where
-/// no row gives a position (which [`one_place`] reads), nothing shows its
-/// rows to be one star: every member is flagged `mixed-host`. True when it
-/// flagged them.
+/// ids lost the digits that told them apart (docs/science.md §3.4). Unless
+/// every row gives a position (which [`one_place`] has found within the
+/// echo radius of each other), nothing shows its rows to be one star:
+/// every member is flagged `mixed-host`. True when it flagged them.
 fn rounded_id(cat: &Catalogue, members: &[CandidateId], out: &mut Checks) -> bool {
     let id = cat.star_id(cat.star_of(members[0]));
     if !crate::catalogue::rounded_number(id) {
@@ -638,14 +638,14 @@ fn rounded_id(cat: &Catalogue, members: &[CandidateId], out: &mut Checks) -> boo
     if let (Some(ra), Some(dec)) = (cat.column(Field::RaDeg), cat.column(Field::DecDeg)) {
         let placed =
             |c: CandidateId| super::echo::real_position(ra.get(c as usize), dec.get(c as usize));
-        if members.iter().any(|&c| placed(c)) {
+        if members.iter().all(|&c| placed(c)) {
             return false;
         }
     }
     let why = format!(
         "the star's id `{}` is a whole number written as a rounded float: ids of several \
-         stars that differ only in the digits left out read as this one, and no position \
-         says whether its rows are one star, so none of them counts towards a system; write \
+         stars that differ only in the digits left out read as this one, and no positions \
+         say whether its rows are one star, so none of them counts towards a system; write \
          the ids as text or give positions",
         id.trim()
     );

@@ -94,8 +94,8 @@ pub(super) fn rounded_note(
     Some(format!(
         "{n} star id{} {} whole numbers written as rounded floating-point numbers, such as \
          `{}` (line {}): only the digits shown are kept, so several stars may read as one and \
-         their signals as one system; where no positions show each such star to be one place, \
-         its candidates count towards no system (flag mixed-host). Write the ids as text \
+         their signals as one system; unless every row of such a star gives a position, its \
+         candidates count towards no system (flag mixed-host). Write the ids as text \
          (docs/science.md §3.4)",
         if n == 1 { "" } else { "s" },
         if n == 1 { "is" } else { "are" },
