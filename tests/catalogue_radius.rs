@@ -140,3 +140,46 @@ ZR,ZR-2,9.70,0.00001,101.6,0.001,650,3.6,28,0.3,,,5772,-1\n";
         "{err}"
     );
 }
+
+#[test]
+fn radius_ratios_in_percent_are_read_as_percent() {
+    // `rp_rs` as a percentage (2.6 for k = 0.026): read as a fraction it
+    // made every candidate 280 R⊕ and `unlikely`. A depth of 700 ppm is
+    // k ≈ 0.026 (δ ≈ k², docs/science.md §2), so the depths say which.
+    let rows = "\
+RP,RP-1,4.10,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,2.6\n\
+RP,RP-2,9.70,0.00001,101.6,0.001,650,3.6,28,0.3,1,1,5772,2.5\n";
+    // The background's rows give no ratio: these two decide.
+    for (header, said) in [("rp_rs", false), ("Rp/Rs (%)", true)] {
+        let text = catalogue(header, rows);
+        let cat = load_text(&text);
+        let r = derive(&cat, id(&cat, "RP-1"), &CheckSettings::default());
+        // k = 0.026 around 1 R☉: 0.026 × 109.08 = 2.84 R⊕.
+        assert!(
+            (r.radius_rearth.unwrap() - 2.84).abs() < 0.01,
+            "{header}: {r:?}"
+        );
+        assert_eq!(
+            live(&cat).verdict(id(&cat, "RP-1")),
+            Verdict::Validated,
+            "{header}"
+        );
+        let c = written(&format!("catalogue_radius_pct_{said}"), &text);
+        let o = starsift(&["odds", c.to_str().unwrap()]);
+        let err = common::stderr(&o);
+        // Detected: said in every output; stated: nothing to say.
+        assert_eq!(err.contains("are read as percent"), !said, "{err}");
+        let summary = stdout(&starsift(&["summary", c.to_str().unwrap()]));
+        assert!(
+            summary.contains("percent (stored as a fraction)"),
+            "{summary}"
+        );
+    }
+    // Fractions stay fractions.
+    let text = catalogue("rp_rs", rows)
+        .replace(",2.6\n", ",0.026\n")
+        .replace(",2.5\n", ",0.025\n");
+    let cat = load_text(&text);
+    let r = derive(&cat, id(&cat, "RP-1"), &CheckSettings::default());
+    assert!((r.radius_rearth.unwrap() - 2.84).abs() < 0.01, "{r:?}");
+}

@@ -34,6 +34,7 @@ pub(super) struct Merger {
     pub(super) rows_seen: u64,
     pub(super) reserved: bool,
     durations: DurationSample,
+    rors: RorSample,
     /// The file's line at the start of the next part (parts number their
     /// lines from their own start).
     pub(super) next_line: u64,
@@ -68,6 +69,7 @@ impl Merger {
             rows_seen: 0,
             reserved: false,
             durations: DurationSample::default(),
+            rors: RorSample::default(),
             next_line: first_line,
         }
     }
@@ -127,7 +129,10 @@ impl Merger {
         let line = |l: &u32| u32::try_from(base + *l as u64).unwrap_or(u32::MAX);
         self.lines.extend(part.lines.iter().map(line));
         if let Some((p, t)) = layout.ephemeris {
-            self.durations.add(&part.num[p], &part.num[t]);
+            self.durations.add([&part.num[p], &part.num[t]]);
+        }
+        if let Some((r, d)) = layout.ror_depth {
+            self.rors.add([&part.num[r], &part.num[d]]);
         }
         for ((dst, src), _) in (self.num.iter_mut().zip(&part.num))
             .zip(&layout.kept)
@@ -249,6 +254,7 @@ impl Merger {
             mut skipped,
             rows_seen,
             durations,
+            rors,
             ..
         } = self;
         let mut notes = std::mem::take(&mut ids.notes);
@@ -263,6 +269,9 @@ impl Merger {
         let header = &layout.header;
         let mapping = &layout.mapping;
         let mut columns = Vec::new();
+        // How the table's depths became ppm: from magnitudes (that many
+        // to one), then times a factor; read by the radius ratios' rule.
+        let mut depth_from: (Option<f64>, f64) = (None, 1.0);
         for (field, &index) in &mapping.by_field {
             let forced = opts.columns.fields.contains_key(field);
             let mut unit = field.unit().to_string();
@@ -287,6 +296,7 @@ impl Merger {
                     // drop by Pogson's ratio (docs/science.md §2).
                     (None, Some(None)) if let Some(per_mag) = per_mag => {
                         depths.update(|d| units::depth_ppm_of_magnitudes(d * per_mag));
+                        depth_from.0 = Some(per_mag);
                         (
                             DepthUnit::Ppm,
                             format!(
@@ -316,6 +326,7 @@ impl Merger {
                 if factor != 1.0 {
                     depths.update(|d| d * factor);
                 }
+                depth_from.1 = factor;
                 unit = format!("{} (stored as ppm)", du.name());
                 if extra != 1.0 || per_mag.is_some() {
                     unit = format!("{} (stored as ppm)", stated.unwrap_or(""));
@@ -345,6 +356,38 @@ impl Merger {
                             format!("{how}; percent, detected: values up to {hi}, none above 100")
                         };
                     }
+                }
+            } else if *field == Field::Ror {
+                // A radius ratio in percent: stated so (`Rp/Rs (%)`), or
+                // seen (about 100 times the square root of its depth).
+                let said = stated.is_some_and(|u| {
+                    matches!(u.to_ascii_lowercase().as_str(), "%" | "percent" | "pct")
+                });
+                let to_ppm = |d: f64| {
+                    let d = depth_from
+                        .0
+                        .map_or(d, |per_mag| units::depth_ppm_of_magnitudes(d * per_mag));
+                    d * depth_from.1
+                };
+                let seen = !said && rors.ror_in_percent(to_ppm);
+                if said || seen {
+                    if let Some(ror) = Field::Ror.num_slot().and_then(|s| num[s].as_mut()) {
+                        ror.update(|v| v / 100.0);
+                    }
+                    unit = FPP_PERCENT.to_string();
+                    how = match stated {
+                        Some(u) if said => format!("{how}; table unit {u}"),
+                        _ => format!("{how}; percent, detected from the depths"),
+                    };
+                }
+                if seen {
+                    notes.push(format!(
+                        "the radius ratios (`{h}`) are read as percent: most are about 100 times \
+                         the square root of their depth, as a percentage is (a fraction is about \
+                         once it); if they are fractions after all, the depths are wrong \
+                         (docs/science.md §2). State the unit in the header (`{h} (%)`) to say so",
+                        h = crate::sanitize::clean(header[index].trim())
+                    ));
                 }
             } else if let Some(u) = stated {
                 how = match layout.convert_text.iter().find(|(f, _)| f == field) {

@@ -20,6 +20,8 @@ pub(super) struct Layout {
     pub(super) in_parts: Vec<bool>,
     /// The places among `num_cols` of the period and the duration.
     pub(super) ephemeris: Option<(usize, usize)>,
+    /// The places among `num_cols` of the radius ratio and the depth.
+    pub(super) ror_depth: Option<(usize, usize)>,
     /// Columns whose values no rule and no caller reads (`index_only`):
     /// each cell is only checked to be a number or missing.
     pub(super) checked: Vec<bool>,
@@ -124,19 +126,21 @@ impl Layout {
             .iter()
             .map(|&(slot, _)| !index_only || NUMERIC[slot] == Field::DepthPpm)
             .collect();
+        // Read by the merge's unit rules even where not kept: the period
+        // and duration (the durations' unit), the radius ratio (its unit).
+        const RULES: [Field; 3] = [Field::PeriodD, Field::DurationH, Field::Ror];
         let in_parts: Vec<bool> = num_cols
             .iter()
             .zip(&kept)
-            .map(|(&(slot, _), &kept)| {
-                kept || [Field::PeriodD, Field::DurationH].contains(&NUMERIC[slot])
-            })
+            .map(|(&(slot, _), &kept)| kept || RULES.contains(&NUMERIC[slot]))
             .collect();
         let at = |f: Field| num_cols.iter().position(|&(s, _)| NUMERIC[s] == f);
         let ephemeris = at(Field::PeriodD).zip(at(Field::DurationH));
+        let ror_depth = at(Field::Ror).zip(at(Field::DepthPpm));
         let checked: Vec<bool> = num_cols
             .iter()
-            .zip(&kept)
-            .map(|(&(slot, _), &kept)| !kept && !REQUIRED.contains(&NUMERIC[slot]))
+            .zip(&in_parts)
+            .map(|(&(slot, _), &in_parts)| !in_parts && !REQUIRED.contains(&NUMERIC[slot]))
             .collect();
         let roles = (0..header.len())
             .map(|c| {
@@ -161,6 +165,7 @@ impl Layout {
             kept,
             in_parts,
             ephemeris,
+            ror_depth,
             num_cols,
             star_col: col(Field::Star).unwrap_or(0),
             cand_col: col(Field::Candidate).unwrap_or(0),

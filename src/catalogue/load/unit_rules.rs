@@ -68,59 +68,90 @@ pub(super) fn depth_unit(
 /// no source).
 pub(super) const DAYS_AS_HOURS_RATIO: f64 = 0.125;
 
-/// Rows for [`duration_ratio`], by their place among the rows read (before
-/// duplicate ids go): every `step`-th from the first, `step` the smallest
-/// power of two that keeps at most [`SAMPLE`] of them. The same rows
-/// whether the load keeps the columns or only the ids (`summary`), so
-/// every command says the same of a table's durations.
+/// Rows for the unit rules ([`DurationSample::duration_ratio`],
+/// [`RorSample::ror_in_percent`]): K columns of every `step`-th row from
+/// the first, by their place among the rows read (before duplicate ids
+/// go), `step` the smallest power of two that keeps at most [`SAMPLE`] of
+/// them. The same rows whether the load keeps the columns or only the ids
+/// (`summary`), so every command says the same of a table's units.
 #[derive(Debug)]
-pub(super) struct DurationSample {
-    /// (period in days, duration in hours) of the rows taken, in order.
-    pairs: Vec<(f64, f64)>,
+pub(super) struct RowSample<const K: usize> {
+    /// The values of the rows taken, in order.
+    rows: Vec<[f64; K]>,
     step: usize,
     seen: usize,
 }
 
-/// Rows at most in a [`DurationSample`].
+/// Rows at most in a [`RowSample`].
 const SAMPLE: usize = 10_000;
 
-impl Default for DurationSample {
+impl<const K: usize> Default for RowSample<K> {
     fn default() -> Self {
-        DurationSample {
-            pairs: Vec::new(),
+        RowSample {
+            rows: Vec::new(),
             step: 1,
             seen: 0,
         }
     }
 }
 
-impl DurationSample {
-    /// Takes the rows that follow those seen (their periods and durations).
-    pub(super) fn add(&mut self, periods: &Column, durations_h: &Column) {
+/// (period in days, duration in hours) of the rows taken.
+pub(super) type DurationSample = RowSample<2>;
+
+impl<const K: usize> RowSample<K> {
+    /// Takes the rows that follow those seen (their cells in `columns`).
+    pub(super) fn add(&mut self, columns: [&Column; K]) {
+        let len = columns.iter().map(|c| c.len()).min().unwrap_or(0);
         let first = (self.step - self.seen % self.step) % self.step;
-        for i in (first..periods.len().min(durations_h.len())).step_by(self.step) {
-            self.pairs.push((periods.get(i), durations_h.get(i)));
+        for i in (first..len).step_by(self.step) {
+            self.rows.push(columns.map(|c| c.get(i)));
         }
-        self.seen += periods.len();
+        self.seen += len;
         // Every other row taken is at a multiple of the doubled step.
-        while self.pairs.len() > SAMPLE {
+        while self.rows.len() > SAMPLE {
             self.step *= 2;
             let mut i = 0;
-            self.pairs.retain(|_| {
+            self.rows.retain(|_| {
                 i += 1;
                 i % 2 == 1
             });
         }
     }
+}
 
+/// (radius ratio, depth) of the rows taken, as the table writes them.
+pub(super) type RorSample = RowSample<2>;
+
+impl RorSample {
+    /// Whether the radius-ratio column is in percent: most rows with a
+    /// ratio k and a depth δ (`to_ppm` turns the table's depth into ppm, as
+    /// the depth column is) give k/√δ above 10. A transit's depth is about
+    /// k² (Seager & Mallén-Ornelas 2003; limb darkening makes it up to
+    /// ~1.2 k², docs/science.md §2), so a fraction gives k/√δ near 1 and a
+    /// percentage near 100; 10 is their geometric middle, which only light
+    /// diluted a hundredfold would carry a fraction past.
+    pub(super) fn ror_in_percent(&self, to_ppm: impl Fn(f64) -> f64) -> bool {
+        let (mut above, mut rows) = (0usize, 0usize);
+        for &[k, depth] in &self.rows {
+            let d = to_ppm(depth);
+            if k > 0.0 && d > 0.0 && k.is_finite() && d.is_finite() {
+                rows += 1;
+                above += usize::from(k > 10.0 * (d * 1e-6).sqrt());
+            }
+        }
+        2 * above > rows
+    }
+}
+
+impl DurationSample {
     /// The median ratio of the durations to the central transit duration
     /// of a small planet across a Sun-like star at each period (Winn 2010
     /// via `science::durations_h`); `None` without rows to compare.
     pub(super) fn duration_ratio(&self) -> Option<f64> {
         let mut ratios: Vec<f64> = self
-            .pairs
+            .rows
             .iter()
-            .filter_map(|&(p, t)| {
+            .filter_map(|&[p, t]| {
                 let a = crate::science::a_over_rstar(p, 1.0, 1.0);
                 let (central, _) = crate::science::durations_h(p, a, 0.0, 0.0)?;
                 (t.is_finite() && central > 0.0).then(|| t / central)
@@ -153,19 +184,46 @@ mod tests {
         let durations = vec![3.0; periods.len()];
         let mut whole = DurationSample::default();
         let col = |v: &[f64]| Column::from_values(v);
-        whole.add(&col(&periods), &col(&durations));
+        whole.add([&col(&periods), &col(&durations)]);
         let want: Vec<f64> = (0..50_000).step_by(8).map(|i| (i + 1) as f64).collect();
-        assert_eq!(whole.pairs.iter().map(|p| p.0).collect::<Vec<_>>(), want);
+        assert_eq!(whole.rows.iter().map(|p| p[0]).collect::<Vec<_>>(), want);
         for cut in [1, 7, 999, 4096, 12_345] {
             let mut parts = DurationSample::default();
             for (p, t) in periods.chunks(cut).zip(durations.chunks(cut)) {
-                parts.add(&col(p), &col(t));
+                parts.add([&col(p), &col(t)]);
             }
-            assert_eq!(parts.pairs, whole.pairs, "parts of {cut}");
+            assert_eq!(parts.rows, whole.rows, "parts of {cut}");
         }
         // A table of fewer rows than the sample: every row.
         let mut few = DurationSample::default();
-        few.add(&col(&periods[..9_000]), &col(&durations[..9_000]));
-        assert_eq!(few.pairs.len(), 9_000);
+        few.add([&col(&periods[..9_000]), &col(&durations[..9_000])]);
+        assert_eq!(few.rows.len(), 9_000);
+    }
+
+    #[test]
+    fn radius_ratios_in_percent_are_told_by_their_depths() {
+        // δ ≈ k² (Seager & Mallén-Ornelas 2003): 800 ppm is k ≈ 0.028, so
+        // 0.028 is a fraction and 2.8 a percentage; 10 (k/√δ) parts them.
+        let col = |v: &[f64]| Column::from_values(v);
+        let sample = |k: &[f64], d: &[f64]| {
+            let mut s = RorSample::default();
+            s.add([&col(k), &col(d)]);
+            s
+        };
+        let ppm = |d: f64| d;
+        let depths = [800.0, 700.0, 900.0];
+        assert!(!sample(&[0.028, 0.026, 0.030], &depths).ror_in_percent(ppm));
+        assert!(sample(&[2.8, 2.6, 3.0], &depths).ror_in_percent(ppm));
+        // The depths as the table gives them, turned into ppm as the depth
+        // column is: percent (× 10⁴), or 0.87 mmag ≈ 800 ppm (Pogson).
+        let pct = [0.08, 0.07, 0.09];
+        assert!(!sample(&[0.028, 0.026, 0.030], &pct).ror_in_percent(|d| d * 1e4));
+        assert!(sample(&[2.8, 2.6, 3.0], &pct).ror_in_percent(|d| d * 1e4));
+        let mmag = [0.87, 0.76, 0.98];
+        let pogson = |d: f64| crate::catalogue::units::depth_ppm_of_magnitudes(d * 1e-3);
+        assert!(!sample(&[0.028, 0.026, 0.030], &mmag).ror_in_percent(pogson));
+        // Most rows decide; rows without a ratio or a depth say nothing.
+        assert!(!sample(&[0.028, 2.6, 0.030, f64::NAN], &[800.0; 4]).ror_in_percent(ppm));
+        assert!(!RorSample::default().ror_in_percent(ppm));
     }
 }
