@@ -51,6 +51,15 @@ pub fn earth_radii_per(unit: &str) -> Option<f64> {
     })
 }
 
+/// Whether a stated unit is percent (`%`, `percent`, `pct`): a value
+/// read as such is stored as a fraction.
+pub fn is_percent(unit: &str) -> bool {
+    matches!(
+        unit.trim().to_ascii_lowercase().as_str(),
+        "%" | "percent" | "pct"
+    )
+}
+
 /// The depth unit a table states: ppm, percent, parts per thousand or a
 /// plain fraction (an empty unit says nothing).
 pub fn depth_unit(unit: &str) -> Option<(DepthUnit, f64)> {

@@ -337,9 +337,7 @@ impl Merger {
                 // (values above 1, none above 100), stored as a fraction.
                 let slot = Field::Fpp.num_slot().unwrap_or(0);
                 if let Some(fpp) = num[slot].as_mut() {
-                    let said = stated.is_some_and(|u| {
-                        matches!(u.to_ascii_lowercase().as_str(), "%" | "percent" | "pct")
-                    });
+                    let said = stated.is_some_and(units::is_percent);
                     let (lo, hi) = fpp
                         .iter()
                         .filter(|v| v.is_finite())
@@ -360,9 +358,7 @@ impl Merger {
             } else if *field == Field::Ror {
                 // A radius ratio in percent: stated so (`Rp/Rs (%)`), or
                 // seen (about 100 times the square root of its depth).
-                let said = stated.is_some_and(|u| {
-                    matches!(u.to_ascii_lowercase().as_str(), "%" | "percent" | "pct")
-                });
+                let said = stated.is_some_and(units::is_percent);
                 let to_ppm = |d: f64| {
                     let d = depth_from
                         .0
