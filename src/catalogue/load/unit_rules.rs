@@ -125,21 +125,27 @@ pub(super) type RorSample = RowSample<2>;
 impl RorSample {
     /// Whether the radius-ratio column is in percent: most rows with a
     /// ratio k and a depth δ (`to_ppm` turns the table's depth into ppm, as
-    /// the depth column is) give k/√δ above 10. A transit's depth is about
-    /// k² (Seager & Mallén-Ornelas 2003; limb darkening makes it up to
-    /// ~1.2 k², docs/science.md §2), so a fraction gives k/√δ near 1 and a
-    /// percentage near 100; 10 is their geometric middle, which only light
-    /// diluted a hundredfold would carry a fraction past.
+    /// the depth column is) give k/√δ above 10, and most give k above 0.3.
+    /// A transit's depth is about k² (Seager & Mallén-Ornelas 2003; limb
+    /// darkening makes it up to ~1.2 k², docs/science.md §2), so a fraction
+    /// gives k/√δ near 1 and a percentage near 100; 10 is their geometric
+    /// middle, which only light diluted a hundredfold would carry a
+    /// fraction past. The second test keeps a table whose depths are in the
+    /// wrong unit (fractions under a ppm header: k/√δ near 1000) from
+    /// shrinking its ratios: as a fraction, 0.3 is a body a third the size
+    /// of its star, a binary's rather than most planets', while a planet's
+    /// ratio in percent is 0.9 (the Earth across the Sun) and up.
     pub(super) fn ror_in_percent(&self, to_ppm: impl Fn(f64) -> f64) -> bool {
-        let (mut above, mut rows) = (0usize, 0usize);
+        let (mut above, mut large, mut rows) = (0usize, 0usize, 0usize);
         for &[k, depth] in &self.rows {
             let d = to_ppm(depth);
             if k > 0.0 && d > 0.0 && k.is_finite() && d.is_finite() {
                 rows += 1;
                 above += usize::from(k > 10.0 * (d * 1e-6).sqrt());
+                large += usize::from(k > 0.3);
             }
         }
-        2 * above > rows
+        2 * above > rows && 2 * large > rows
     }
 }
 
@@ -222,6 +228,11 @@ mod tests {
         let mmag = [0.87, 0.76, 0.98];
         let pogson = |d: f64| crate::catalogue::units::depth_ppm_of_magnitudes(d * 1e-3);
         assert!(!sample(&[0.028, 0.026, 0.030], &mmag).ror_in_percent(pogson));
+        // Depths a million times too small (fractions under a ppm header)
+        // make fractions look like percentages by k/√δ alone; the ratios
+        // themselves (0.03, far below 0.3) keep them fractions.
+        let fractions_as_ppm = [0.0008, 0.0007, 0.0009];
+        assert!(!sample(&[0.028, 0.026, 0.030], &fractions_as_ppm).ror_in_percent(ppm));
         // Most rows decide; rows without a ratio or a depth say nothing.
         assert!(!sample(&[0.028, 2.6, 0.030, f64::NAN], &[800.0; 4]).ror_in_percent(ppm));
         assert!(!RorSample::default().ror_in_percent(ppm));
