@@ -72,7 +72,7 @@ fn main() {
         &cat,
         model,
         vec![Default::default(); n],
-        starsift::checks::SignalGroups::none(n),
+        starsift::checks::SignalGroups::none(),
         vec![Decision::Open; n],
     )
     .expect("model");

@@ -255,7 +255,7 @@ impl Checks {
             flags: vec![FlagSet::EMPTY; n],
             soft: vec![FlagSet::EMPTY; n],
             findings: Vec::new(),
-            groups: SignalGroups::none(n),
+            groups: SignalGroups::none(),
             shapes: Default::default(),
             notes: Vec::new(),
             unseen_fp: Vec::new(),

@@ -244,7 +244,7 @@ fn fp_fraction_by_planet_radius() {
             ..model()
         },
         vec![FlagSet::EMPTY; cat.len()],
-        SignalGroups::none(cat.len()),
+        SignalGroups::none(),
         vec![Decision::Open; cat.len()],
     )
     .unwrap();

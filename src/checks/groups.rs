@@ -25,8 +25,9 @@ pub struct SignalGroups {
 }
 
 impl SignalGroups {
-    /// No groups, for `n` candidates.
-    pub fn none(_n: usize) -> SignalGroups {
+    /// No groups (for any number of candidates: the per-candidate array
+    /// is made when the first group is).
+    pub fn none() -> SignalGroups {
         SignalGroups {
             of: Vec::new(),
             start: vec![0],
@@ -39,7 +40,7 @@ impl SignalGroups {
     /// components, each ordered best first by [`rank_key`].
     pub fn from_links(cat: &Catalogue, links: &[(CandidateId, CandidateId, Flag)]) -> SignalGroups {
         let n = cat.len();
-        let mut g = SignalGroups::none(n);
+        let mut g = SignalGroups::none();
         if links.is_empty() {
             return g;
         }

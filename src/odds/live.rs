@@ -126,7 +126,7 @@ impl Live {
             cat,
             model,
             vec![FlagSet::EMPTY; cat.len()],
-            SignalGroups::none(cat.len()),
+            SignalGroups::none(),
             vec![Decision::Open; cat.len()],
         )
     }
