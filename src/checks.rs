@@ -673,17 +673,16 @@ const OCCULTATION_CEILING_FACTOR: f64 = 5.0 / 3.0;
 /// for a planet; a fit's radius can be larger than the depth's (a grazing
 /// transit), the depth's than a fit's (a contaminated or outdated star).
 fn flag_radius(d: &Derived) -> Option<(f64, String)> {
-    let (Some(r), given) = (d.radius_rearth, d.catalogue_radius_rearth) else {
-        return None;
-    };
-    Some(match given {
+    let r = d.radius_rearth?;
+    Some(match d.catalogue_radius_rearth {
+        // The star's radius unknown, the radius is the catalogue's.
+        Some(g) if d.star_radius_rsun.is_none() => (
+            g,
+            " (the catalogue's; its star's radius is unknown)".to_string(),
+        ),
         Some(g) if g > r => (
             g,
             format!(" (the catalogue's; its depth and star give {r:.1})"),
-        ),
-        Some(g) if g == r && d.star_radius_rsun.is_none() => (
-            g,
-            " (the catalogue's; its star's radius is unknown)".to_string(),
         ),
         _ => (r, String::new()),
     })
