@@ -51,6 +51,51 @@ pub fn earth_radii_per(unit: &str) -> Option<f64> {
     })
 }
 
+/// Degrees in one unit of a position's stated unit, for the spellings
+/// tables use (VOUnits 1.0: `deg`, `h` and `rad`; astropy's `hourangle`):
+/// `None` for degrees, a sexagesimal form (`h:m:s`, `hms`, `d:m:s`: its
+/// cells are read as sexagesimal whatever the unit says) or no unit. Words
+/// that name the frame rather than the unit (`J2000`, `ICRS`, `epoch
+/// 2000`, and `decimal`) are passed over. Right ascension only may be in hours: 1 h =
+/// 15° (24 h of right ascension make the 360° of a circle, a definition);
+/// 1 rad = 180°/π. Anything else is an error that names it, so a position
+/// in a unit not read is never taken as degrees.
+fn degrees_per(right_ascension: bool, unit: &str) -> Result<Option<f64>, String> {
+    let lower = unit.to_ascii_lowercase();
+    let words = lower
+        .split(|c: char| c == ',' || c == ';' || c.is_whitespace())
+        .map(|w| w.trim_matches(['(', ')', '[', ']']).trim_end_matches('.'))
+        .filter(|w| !w.is_empty());
+    for w in words {
+        let frame = matches!(
+            w,
+            "icrs" | "fk5" | "fk4" | "epoch" | "equinox" | "eq" | "ep" | "decimal"
+        ) || w.trim_start_matches(['j', 'b', '=']).parse::<f64>().is_ok()
+            || w.starts_with("eq=")
+            || w.starts_with("ep=");
+        let sexagesimal = matches!(w, "hms" | "dms" | "sexagesimal")
+            || (w.contains(':') && w.chars().all(|c| "hdms:.\"".contains(c)));
+        if frame || sexagesimal {
+            continue;
+        }
+        return match w {
+            "deg" | "degree" | "degrees" | "°" => Ok(None),
+            "h" | "hr" | "hrs" | "hour" | "hours" | "hourangle" if right_ascension => {
+                Ok(Some(15.0))
+            }
+            "h" | "hr" | "hrs" | "hour" | "hours" | "hourangle" => Err(format!(
+                "unit `{unit}`: a declination is not given in hours"
+            )),
+            "rad" | "radian" | "radians" => Ok(Some(180.0 / std::f64::consts::PI)),
+            _ => Err(format!(
+                "unit `{unit}` is not a position unit starsift converts (deg; h for right \
+                 ascension; rad; a sexagesimal form such as h:m:s)"
+            )),
+        };
+    }
+    Ok(None)
+}
+
 /// Whether a stated unit is percent (`%`, `percent`, `pct`): a value
 /// read as such is stored as a fraction.
 pub fn is_percent(unit: &str) -> bool {
@@ -146,6 +191,14 @@ pub fn conversion(field: Field, unit: &str) -> Result<Option<Conversion>, String
                 text: format!("table unit {u}, × {} to Earth radii", trim_float(scale)),
             }))
         }
+        Field::RaDeg | Field::DecDeg => {
+            let scale = degrees_per(field == Field::RaDeg, u)?;
+            Ok(scale.map(|scale| Conversion {
+                scale,
+                offset: 0.0,
+                text: format!("table unit {u}, × {} to degrees", trim_float(scale)),
+            }))
+        }
         Field::Epoch => Ok(epoch_zero(u).map(|zero| Conversion {
             scale: 1.0,
             offset: zero,
@@ -188,6 +241,34 @@ mod tests {
         assert_eq!((c.scale, c.offset), (1.0, 2_457_000.0));
         assert_eq!(epoch_zero("MJD"), Some(2_400_000.5));
         assert_eq!(conversion(Field::Epoch, "d").unwrap(), None);
+    }
+
+    #[test]
+    fn positions_convert_to_degrees() {
+        // 24 h of right ascension = 360°, so 1 h = 15°; 1 rad = 180°/π
+        // (definitions).
+        let scale = |f, u| conversion(f, u).map(|c| c.map(|c| c.scale));
+        assert_eq!(scale(Field::RaDeg, "h"), Ok(Some(15.0)));
+        assert_eq!(scale(Field::RaDeg, "hourangle"), Ok(Some(15.0)));
+        assert_eq!(scale(Field::DecDeg, "rad"), Ok(Some(57.295_779_513_082_32)));
+        // Degrees, sexagesimal forms and frames keep the values as they are.
+        for u in [
+            "deg",
+            "degrees",
+            "J2000",
+            "deg; ICRS",
+            "h:m:s",
+            "\"d:m:s\"",
+            "hms",
+            "ep=2000",
+            "decimal degrees",
+            "deg. (J2000)",
+        ] {
+            assert_eq!(scale(Field::RaDeg, u), Ok(None), "{u}");
+        }
+        assert!(scale(Field::DecDeg, "h").is_err());
+        assert!(scale(Field::RaDeg, "arcsec").is_err());
+        assert!(scale(Field::RaDeg, "parsec").is_err());
     }
 
     #[test]

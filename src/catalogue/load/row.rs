@@ -270,7 +270,7 @@ impl Layout {
                         let ids = (id(rec.bounds[self.star_col]), id(rec.bounds[self.cand_col]));
                         if let (Some(star), Some(cand)) = ids {
                             let row = self
-                                .validate(&rec, line, &mut scratch)
+                                .validate(&rec, line, &mut scratch, 0)
                                 .map(|()| (star, cand));
                             let cells = Cells {
                                 values: &scratch,
@@ -595,6 +595,9 @@ impl Layout {
         }
         let star = self.id_cell(rec, self.star_col, Field::Star, line)?;
         let cand = self.id_cell(rec, self.cand_col, Field::Candidate, line)?;
+        // The slots read as sexagesimal: in degrees already, whatever unit
+        // the header states for decimal values.
+        let mut sexagesimal_slots = 0u32;
         for (j, &(slot, col)) in self.num_cols.iter().enumerate() {
             let raw = rec.field(col);
             if self.checked[j] && is_number(raw) {
@@ -616,7 +619,10 @@ impl Layout {
             scratch[slot] = match parse_cell(raw) {
                 Cell::Value(v) => v,
                 Cell::Missing => f64::NAN,
-                Cell::Bad if let Some(v) = angle() => v,
+                Cell::Bad if let Some(v) = angle() => {
+                    sexagesimal_slots |= 1 << slot;
+                    v
+                }
                 Cell::Bad if let Some(v) = bound() => v,
                 Cell::Bad => {
                     return Err(self.skip(
@@ -631,21 +637,25 @@ impl Layout {
                 }
             };
         }
-        self.validate(rec, line, scratch)?;
+        self.validate(rec, line, scratch, sexagesimal_slots)?;
         Ok((star, cand))
     }
 
     /// The per-row rules: required fields present and numeric, period finite
     /// and positive, duration positive and shorter than the period, depth
-    /// positive.
+    /// positive. The stated units' conversions apply first, except to the
+    /// slots in `sexagesimal` (bit `slot`), whose values are degrees.
     pub(super) fn validate(
         &self,
         rec: &impl Record,
         line: u64,
         scratch: &mut [f64],
+        sexagesimal: u32,
     ) -> Result<(), Skip> {
         for &(slot, scale, offset) in &self.convert {
-            scratch[slot] = scratch[slot] * scale + offset;
+            if sexagesimal & (1 << slot) == 0 {
+                scratch[slot] = scratch[slot] * scale + offset;
+            }
         }
         let scratch = &*scratch;
         let get = |f: Field| scratch[f.num_slot().unwrap_or(0)];

@@ -457,6 +457,57 @@ fn an_archive_exports_headers_and_bracketed_units_are_read() {
 }
 
 #[test]
+fn positions_in_a_stated_unit_are_read_in_degrees() {
+    // 1 h of right ascension = 15° and 1 rad = 180°/π (definitions).
+    // Decimal hours stated in the header are converted; sexagesimal cells
+    // of the same column are degrees already and are not converted again.
+    // (Invented rows.)
+    let load = |ra: &str, dec: &str| {
+        Catalogue::load(
+            Source::Bytes {
+                name: "invented.csv",
+                data: format!(
+                    "star,candidate,{ra},{dec},period,epoch,depth_ppm,duration\n\
+                     S1,S1-1,1.5,-0.1,3.5,100.0,800,3.0\n\
+                     S2,S2-1,07:30:00,-05:06:07.1,4.5,100.0,800,3.0\n"
+                )
+                .as_bytes(),
+            },
+            &LoadOptions::default(),
+        )
+    };
+    let cat = load("RA (h)", "Dec (deg)").unwrap();
+    assert_eq!(cat.len(), 2, "{:?}", cat.skipped);
+    assert_eq!(cat.value(Field::RaDeg, 0), Some(22.5));
+    assert_eq!(cat.value(Field::RaDeg, 1), Some(112.5));
+    assert_eq!(cat.value(Field::DecDeg, 0), Some(-0.1));
+    let cat = load("RA [rad]", "Dec [rad]").unwrap();
+    assert!(
+        (cat.value(Field::RaDeg, 0).unwrap() - 1.5 * 180.0 / std::f64::consts::PI).abs() < 1e-9
+    );
+    assert!((cat.value(Field::DecDeg, 1).unwrap() + 5.101_972_222_222_222).abs() < 1e-9);
+    // The frame is not a unit: degrees, as without one.
+    for (ra, dec) in [
+        ("RA (J2000)", "Dec (J2000)"),
+        ("RA [deg; ICRS]", "Dec [h:m:s]"),
+    ] {
+        let cat = load(ra, dec).unwrap();
+        assert_eq!(cat.len(), 2, "{:?}", cat.skipped);
+        assert_eq!(cat.value(Field::RaDeg, 0), Some(1.5), "{ra}");
+        assert_eq!(cat.value(Field::DecDeg, 0), Some(-0.1), "{dec}");
+    }
+    // A declination in hours, or a unit not read, stops the load naming
+    // the column: a position is never read in a unit it is not in.
+    for (ra, dec, col) in [
+        ("RA (h)", "Dec (h)", "Dec (h)"),
+        ("RA (arcsec)", "Dec", "RA (arcsec)"),
+    ] {
+        let e = load(ra, dec).unwrap_err().to_string();
+        assert!(e.contains(&format!("column `{col}`")), "{e}");
+    }
+}
+
+#[test]
 fn a_false_positive_probability_in_percent_is_stored_as_a_fraction() {
     // A probability cannot exceed 1: values above 1 and none above 100 are
     // percent; so is a column whose header states `%`. (Invented rows.)
