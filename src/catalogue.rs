@@ -183,6 +183,11 @@ pub struct Catalogue {
     families: std::sync::OnceLock<hashbrown::HashMap<Vec<u8>, Option<StarId>>>,
     /// The table format read ("CSV/TSV", "IPAC table", "VOTable"...).
     pub format: &'static str,
+    /// Its rows are threshold-crossing events, a pipeline's detections
+    /// before vetting, not candidates (`load::events_note`): an event counts
+    /// in its star's system only once a vetter keeps it (docs/science.md
+    /// §1.1).
+    pub events: bool,
 }
 
 impl Catalogue {

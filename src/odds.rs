@@ -612,6 +612,7 @@ pub fn hold_text(
     match live.hold(c) {
         None => String::new(),
         Some(Hold::Flags(f)) => format!("blocked by {}", f.joined(", ")),
+        Some(Hold::Unvetted) => "an event not yet kept by a vetter".to_string(),
         Some(Hold::Copy { rep, kind }) => {
             format!("{kind}: one signal with {}, counted as it", id(rep))
         }

@@ -355,6 +355,17 @@ const HEAD_BYTES: usize = 64 << 10;
 /// Reads the header, then parses the rest in record-aligned chunks on worker
 /// threads and merges the parts in file order, so the result is the same as
 /// a serial read, row for row.
+/// What every output says of a table of threshold-crossing events
+/// ([`Catalogue::events`]).
+pub(super) fn events_note() -> String {
+    "the rows are threshold-crossing events, not yet candidates: a noisy or variable star's \
+     false alarms come several to a star, which the multiplicity model (false positives at \
+     random) does not expect. An event counts in its star's system only once a vetter keeps \
+     it (decision `kept`, after its light curve): until then it is held back at its prior and \
+     none is validated"
+        .to_string()
+}
+
 fn read_catalogue(
     name: String,
     mut text: impl Read + Send,
@@ -396,12 +407,13 @@ fn read_catalogue(
         let mut cat = read_catalogue(name, std::io::Cursor::new(with), delimiter, opts, None)?;
         cat.notes.push(format!(
             "no candidate column: each row's candidate is named <star>.<nn> from its star \
-             and `{}`, the number of its signal on that star. Threshold-crossing events are \
-             not yet candidates: a noisy star's false alarms come several to a star, which \
-             the multiplicity model (false positives at random) does not expect; vet them \
-             (light curves) before reading the odds",
+             and `{}`, the number of its signal on that star",
             crate::sanitize::clean(&header_fields[cols.1])
         ));
+        if !cat.events {
+            cat.events = true;
+            cat.notes.push(events_note());
+        }
         return Ok(cat);
     }
     let mapping = Mapping::resolve(&name, &header_fields, &opts.columns)?;

@@ -115,6 +115,9 @@ pub struct Live {
     links: Vec<StarLink>,
     /// The stars whose other ids were looked for (`links` has theirs).
     links_asked: Vec<StarId>,
+    /// The rows are threshold-crossing events ([`Catalogue::events`]): a
+    /// candidate counts only once a vetter keeps it ([`Live::unvetted`]).
+    events: bool,
     /// Cautions about the inputs (bad fpp values, clamps in the table).
     pub input_warnings: Vec<String>,
 }
@@ -261,6 +264,7 @@ impl Live {
             unseen_fp: unseen_fp.into(),
             links: Vec::new(),
             links_asked: Vec::new(),
+            events: cat.events,
             input_warnings,
         };
         live.place_all();
@@ -594,6 +598,14 @@ impl Live {
         self.model.blocking.difference(FlagSet::group_flags())
     }
 
+    /// Whether a candidate under `decision` is an event no vetter has kept
+    /// yet, in a table of threshold-crossing events: a noisy star's false
+    /// alarms come several to a star, so an event is held back until a
+    /// vetter keeps it (docs/science.md §1.1).
+    fn unvetted(&self, decision: Decision) -> bool {
+        self.events && decision != Decision::Kept
+    }
+
     /// The candidate's group, when its links are among the blocking flags.
     fn active_group(&self, c: CandidateId) -> Option<u32> {
         let g = self.groups.group_of(c)?;
@@ -621,7 +633,9 @@ impl Live {
             .map(|&c| {
                 let st = if decision(c).is_rejected() {
                     Status::Rejected
-                } else if self.flags[c as usize].intersects(own_blocking) {
+                } else if self.flags[c as usize].intersects(own_blocking)
+                    || self.unvetted(decision(c))
+                {
                     Status::Held
                 } else if fp.is_some_and(|m| m != c) || unseen {
                     // A sibling of a known false positive (§1.1).
@@ -653,10 +667,18 @@ impl Live {
                 let r = decision(m).reason()?;
                 (!is_copy(r)).then_some((m, r))
             }),
+            // Among events, the first a vetter kept, if any: an event
+            // not kept counts for nothing, and would hold the group back.
             rep: members
                 .iter()
                 .copied()
-                .find(|&m| !decision(m).is_rejected()),
+                .find(|&m| !decision(m).is_rejected() && !self.unvetted(decision(m)))
+                .or_else(|| {
+                    members
+                        .iter()
+                        .copied()
+                        .find(|&m| !decision(m).is_rejected())
+                }),
         }
     }
 

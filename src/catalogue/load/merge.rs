@@ -444,6 +444,16 @@ impl Merger {
                 ));
             }
         }
+        // A table of threshold-crossing events names its quantities
+        // `tce_*` (the archives' prefix, from memory of their column
+        // lists): its rows are detections, not yet candidates.
+        let events = mapping
+            .by_field
+            .get(&Field::PeriodD)
+            .is_some_and(|&i| header[i].trim().to_ascii_lowercase().starts_with("tce_"));
+        if events {
+            notes.push(super::events_note());
+        }
         for (index, h, f) in &mapping.shadowed {
             columns.push(ColumnUse {
                 field: "",
@@ -478,6 +488,7 @@ impl Merger {
             families: std::sync::OnceLock::new(),
             rows_seen,
             format: TableFormat::Delimited.name(),
+            events,
         })
     }
 }

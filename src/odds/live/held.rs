@@ -9,6 +9,8 @@ use super::*;
 pub enum Hold {
     /// Blocking flags of its own.
     Flags(FlagSet),
+    /// A threshold-crossing event that no vetter has kept yet.
+    Unvetted,
     /// One signal with `rep`, which stands for the group.
     Copy { rep: CandidateId, kind: Flag },
     /// One signal with `by`, which a vetter rejected for what it is.
@@ -45,6 +47,9 @@ impl Live {
         let own = self.flags[c as usize].intersection(self.own_blocking());
         if !own.is_empty() {
             return Some(Hold::Flags(own));
+        }
+        if self.unvetted(self.decision[c as usize]) {
+            return Some(Hold::Unvetted);
         }
         if let Some(h) = self.group_hold(c) {
             return Some(h);
@@ -98,6 +103,7 @@ impl Live {
     /// flags counts under each.
     pub fn held_summary(&self) -> Vec<(String, usize)> {
         let mut copies = 0;
+        let mut unvetted = 0;
         let mut group_out = 0;
         let mut siblings = 0;
         let mut by_flag: std::collections::BTreeMap<&'static str, usize> = Default::default();
@@ -107,6 +113,7 @@ impl Live {
                     .iter()
                     .for_each(|f| *by_flag.entry(f.name()).or_default() += 1),
                 Some(Hold::Copy { .. }) => copies += 1,
+                Some(Hold::Unvetted) => unvetted += 1,
                 Some(Hold::GroupRejected { .. } | Hold::GroupHeld { .. }) => group_out += 1,
                 Some(Hold::Sibling { .. } | Hold::UnseenSibling { .. } | Hold::OtherId { .. }) => {
                     siblings += 1
@@ -120,6 +127,9 @@ impl Live {
                 "copies of another signal (near-twin, harmonic, half-phase)".to_string(),
                 copies,
             ));
+        }
+        if unvetted > 0 {
+            out.push(("events not yet kept by a vetter".to_string(), unvetted));
         }
         if group_out > 0 {
             out.push((

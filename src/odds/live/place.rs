@@ -53,7 +53,7 @@ impl Live {
             // As `statuses` says of a candidate outside any active group.
             let status = if self.decision[c].is_rejected() {
                 Status::Rejected
-            } else if self.flags[c].intersects(own_blocking) {
+            } else if self.flags[c].intersects(own_blocking) || self.unvetted(self.decision[c]) {
                 Status::Held
             } else {
                 Status::Counted
