@@ -125,6 +125,11 @@ pub struct Derived {
     pub density_ratio: Option<f64>,
     /// True when the transit density assumed b = 0 (no impact column).
     pub assumed_central: bool,
+    /// Where the star's radius is unknown: the least radius any star of
+    /// the transit's density can have (`science::least_star_radius_rsun`),
+    /// and the planet's radius on it, a lower bound (docs/science.md §2).
+    pub least_star_rsun: Option<f64>,
+    pub least_radius_rearth: Option<f64>,
 }
 
 fn finite(v: f64) -> Option<f64> {
@@ -212,6 +217,12 @@ fn derive_with(cat: &Catalogue, c: CandidateId, s: &CheckSettings, orbit: bool) 
             .and_then(|a| finite(science::density_from_a_rstar(a, period)));
     if let (Some(t), Some(st)) = (d.density_transit, d.density_star) {
         d.density_ratio = finite(t / st);
+    }
+    if radius.is_none() {
+        d.least_star_rsun = d.density_transit.and_then(science::least_star_radius_rsun);
+        d.least_radius_rearth = d
+            .least_star_rsun
+            .and_then(|r| finite(science::radius_rearth(k, r)));
     }
     d
 }
@@ -673,13 +684,33 @@ const OCCULTATION_CEILING_FACTOR: f64 = 5.0 / 3.0;
 /// for a planet; a fit's radius can be larger than the depth's (a grazing
 /// transit), the depth's than a fit's (a contaminated or outdated star).
 fn flag_radius(d: &Derived) -> Option<(f64, String)> {
+    if d.star_radius_rsun.is_none() {
+        // The star's radius unknown: the catalogue's radius, or the least
+        // the transit's own density allows, whichever is larger.
+        let least = d.least_radius_rearth.zip(d.least_star_rsun).map(|(r, star)| {
+            (
+                r,
+                format!(
+                    " at least (its star's radius is unknown; the transit's density, {:.0} kg/m³{}, \
+                     allows no star smaller than {star:.2} R☉)",
+                    d.density_transit.unwrap_or(f64::NAN),
+                    if d.assumed_central { " at b = 0" } else { "" },
+                ),
+            )
+        });
+        let given = d.catalogue_radius_rearth.map(|g| {
+            (
+                g,
+                " (the catalogue's; its star's radius is unknown)".to_string(),
+            )
+        });
+        return match (given, least) {
+            (Some(g), Some(l)) if l.0 > g.0 => Some(l),
+            (given, least) => given.or(least),
+        };
+    }
     let r = d.radius_rearth?;
     Some(match d.catalogue_radius_rearth {
-        // The star's radius unknown, the radius is the catalogue's.
-        Some(g) if d.star_radius_rsun.is_none() => (
-            g,
-            " (the catalogue's; its star's radius is unknown)".to_string(),
-        ),
         Some(g) if g > r => (
             g,
             format!(" (the catalogue's; its depth and star give {r:.1})"),

@@ -145,6 +145,30 @@ pub fn star_density(star_mass_msun: f64, star_radius_rsun: f64) -> f64 {
     m / (4.0 / 3.0 * PI * r.powi(3))
 }
 
+/// The least radius, R☉, that a star of mean density `density_kg_m3` can
+/// have (docs/science.md §2). R★ = (M★/ρ★)^{1/3}, so the least radius goes
+/// with the least mass a star of that density can have. On the main
+/// sequence R★ ≥ 0.85 (ρ★/ρ☉)^{−1/2} R☉: the Sun, GJ 436, GJ 1214,
+/// Barnard's star, Proxima Centauri and TRAPPIST-1 lie on or above it
+/// (their published masses and radii, from memory; the coefficient is the
+/// lowest of theirs, TRAPPIST-1's 0.87, rounded down). A star off the main
+/// sequence has M★ ≥ 0.8 M☉ (no lighter star has left it in the age of
+/// the Universe, from memory), so R★ ≥ (0.8 M☉/ρ★)^{1/3}. A star is one or
+/// the other: the lesser bound holds for both. Young stars still
+/// contracting onto the main sequence can be larger than it allows by up
+/// to about half (TOI-1227, from memory), brown dwarfs too; white dwarfs
+/// are far smaller but far denser, and keep to it. `None` for a density
+/// that is not finite and positive.
+pub fn least_star_radius_rsun(density_kg_m3: f64) -> Option<f64> {
+    let rho = density_kg_m3 / star_density(1.0, 1.0);
+    if !(rho.is_finite() && rho > 0.0) {
+        return None;
+    }
+    let main_sequence = 0.85 / rho.sqrt();
+    let evolved = (0.8 / rho).cbrt();
+    Some(main_sequence.min(evolved))
+}
+
 /// Normalised transit duration ratio ξ = (T_in/T_out)(P_out/P_in)^{1/3}
 /// (Fabrycky et al. 2014, ApJ 790, 146; definition from memory).
 pub fn duration_ratio_xi(t_in_h: f64, p_in_d: f64, t_out_h: f64, p_out_d: f64) -> f64 {
@@ -239,6 +263,36 @@ pub const SMALLEST_STAR_MSUN: f64 = 0.1;
 mod tests {
     use super::*;
     use crate::constants::{AU_M, GM_EARTH, SIDEREAL_YEAR_D};
+
+    #[test]
+    fn the_least_radius_of_a_star_of_a_density_bounds_real_stars() {
+        // (name, M/M☉, R/R☉), published values from memory: the Sun; M
+        // dwarfs GJ 436, GJ 1214, Barnard's star, Proxima Centauri,
+        // TRAPPIST-1; stars off the main sequence Kepler-56 and Kepler-91.
+        let stars = [
+            ("Sun", 1.0, 1.0),
+            ("GJ 436", 0.445, 0.417),
+            ("GJ 1214", 0.178, 0.215),
+            ("Barnard's star", 0.162, 0.187),
+            ("Proxima Centauri", 0.122, 0.154),
+            ("TRAPPIST-1", 0.0898, 0.1192),
+            ("Kepler-56", 1.32, 4.23),
+            ("Kepler-91", 1.31, 6.30),
+        ];
+        for (name, m, r) in stars {
+            let least = least_star_radius_rsun(star_density(m, r)).unwrap();
+            // Never above the star's radius, and not far below it.
+            assert!(
+                least <= r && least > 0.75 * r,
+                "{name}: {least} against {r}"
+            );
+        }
+        // The Sun's density: 0.85 R☉ (the main-sequence bound is the lesser).
+        let sun = least_star_radius_rsun(star_density(1.0, 1.0)).unwrap();
+        assert!((sun - 0.85).abs() < 1e-12);
+        assert_eq!(least_star_radius_rsun(0.0), None);
+        assert_eq!(least_star_radius_rsun(f64::NAN), None);
+    }
 
     #[test]
     fn kepler_third_law() {

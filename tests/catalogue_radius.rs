@@ -183,3 +183,54 @@ RP,RP-2,9.70,0.00001,101.6,0.001,650,3.6,28,0.3,1,1,5772,2.5\n";
     let r = derive(&cat, id(&cat, "RP-1"), &CheckSettings::default());
     assert!((r.radius_rearth.unwrap() - 2.84).abs() < 0.01, "{r:?}");
 }
+
+#[test]
+fn the_transits_own_density_bounds_the_size_of_a_star_of_unknown_radius() {
+    // No star radius, mass or planet radius: a 30 % eclipse at 3.2 d
+    // lasting 2.5 h implies ρ★ ≈ 5,800 kg/m³ at b = 0 (Seager &
+    // Mallén-Ornelas 2003), and no star of that density is smaller than
+    // 0.42 R☉ (docs/science.md §2), so the companion is at least 22.7 R⊕:
+    // an eclipsing binary, which a planet beside it made a validated pair
+    // before. A hot Jupiter on an early M dwarf (3.2 % at 3.3 d for 2.2 h,
+    // as a 1 R_J planet on a 0.57 R☉, 0.57 M☉ star gives; values from
+    // memory of such a system) is bounded at 8.5 R⊕ and stays a planet.
+    let rows = "\
+DEEP,DEEP-1,3.2,0.00001,100.0,0.001,300000,2.5,900,,,,\n\
+DEEP,DEEP-2,7.7,0.00001,101.3,0.001,800,3.1,25,,,,\n\
+MJ,MJ-1,3.325,0.00001,100.2,0.001,32000,2.17,200,,,,\n\
+MJ,MJ-2,8.9,0.00001,101.7,0.001,900,2.8,20,,,,\n";
+    let text = format!("{}{}{rows}", common::HEAD, common::background());
+    let cat = load_text(&text);
+    let live = live(&cat);
+    let deep = id(&cat, "DEEP-1");
+    assert!(live.flags(deep).contains(Flag::BigRadius));
+    assert_eq!(live.verdict(deep), Verdict::Unlikely);
+    assert_eq!(live.verdict(id(&cat, "DEEP-2")), Verdict::Likely);
+    let d = derive(&cat, deep, &CheckSettings::default());
+    assert_eq!(d.radius_rearth, None, "the radius shown stays unknown");
+    assert!((d.least_star_rsun.unwrap() - 0.42).abs() < 0.01, "{d:?}");
+    assert!(d.least_radius_rearth.unwrap() > 22.4, "{d:?}");
+    let mj = derive(&cat, id(&cat, "MJ-1"), &CheckSettings::default());
+    assert!(
+        (mj.least_radius_rearth.unwrap() - 8.5).abs() < 0.5,
+        "{mj:?}"
+    );
+    for s in ["MJ-1", "MJ-2"] {
+        assert!(!live.flags(id(&cat, s)).contains(Flag::BigRadius), "{s}");
+        assert_eq!(live.verdict(id(&cat, s)), Verdict::Validated, "{s}");
+    }
+    // Every command says the same, and says why.
+    let path = written("least-star", &text);
+    let c = path.to_str().unwrap();
+    let v = agreed(c);
+    assert_eq!(v["DEEP-1"], "unlikely");
+    assert_eq!(v["DEEP-2"], "likely");
+    assert_eq!(v["MJ-1"], "validated");
+    let o = starsift(&["checks", c, "--format", "csv"]);
+    let row = stdout(&o)
+        .lines()
+        .find(|l| l.starts_with("DEEP,DEEP-1,"))
+        .unwrap()
+        .to_string();
+    assert!(row.contains("allows no star smaller than 0.42 R☉"), "{row}");
+}
