@@ -234,3 +234,52 @@ MJ,MJ-2,8.9,0.00001,101.7,0.001,900,2.8,20,,,,\n";
         .to_string();
     assert!(row.contains("allows no star smaller than 0.42 R☉"), "{row}");
 }
+
+#[test]
+fn a_dilution_column_is_read_as_the_others_share_of_the_light_by_its_values() {
+    // A fit's dilution factor (the target's share, 1 = undiluted) read as
+    // contamination made every candidate 1,000 times deeper than seen (c
+    // near 1): 80 R⊕ and more, `big-radius`, every verdict `unlikely`.
+    // Three conventions, told by their values (invented rows): the
+    // target's share (at most 1, most at least 0.5), the factor that
+    // undoes the dilution of a depth (at least 1: δ_true = δ·D, so
+    // c = 1 − 1/D), and the others' share (as `contamination`).
+    let rows = |d: [&str; 2]| {
+        format!(
+            "A,A-1,3.52,0.00001,100.0,0.001,800,3.1,90,0.3,1,1,5772,{}\n\
+             A,A-2,9.81,0.00001,101.2,0.001,700,4.0,25,0.3,1,1,5772,{}\n",
+            d[0], d[1]
+        )
+    };
+    let cases = [
+        (["1.0", "0.8"], [0.0, 0.2]),
+        (["1.0", "1.25"], [0.0, 0.2]),
+        (["0.0", "0.2"], [0.0, 0.2]),
+    ];
+    for (cells, want) in cases {
+        let text = catalogue("dilution", &rows(cells));
+        let cat = load_text(&text);
+        // Said wherever it was converted.
+        let said = cat
+            .notes
+            .iter()
+            .any(|n| n.contains("`dilution` is read as"));
+        assert_eq!(said, cells[0] == "1.0", "{cells:?} {:?}", cat.notes);
+        for (s, w) in ["A-1", "A-2"].iter().zip(want) {
+            let c = cat
+                .value(starsift::catalogue::Field::Contamination, id(&cat, s))
+                .unwrap();
+            assert!((c - w).abs() < 1e-12, "{cells:?} {s}: {c}");
+        }
+        // Planet-sized as they are (800 ppm, diluted 0 or 20 %, across 1 R☉):
+        // a clean pair.
+        let live = live(&cat);
+        for s in ["A-1", "A-2"] {
+            assert_eq!(
+                live.verdict(id(&cat, s)),
+                Verdict::Validated,
+                "{cells:?} {s}"
+            );
+        }
+    }
+}

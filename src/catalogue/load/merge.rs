@@ -399,6 +399,35 @@ impl Merger {
                 how,
             });
         }
+        // A column named `dilution` may give the others' light, the
+        // target's, or the depth's factor: read by its values as c.
+        let contamination = mapping.by_field.get(&Field::Contamination).copied();
+        if let Some(index) =
+            contamination.filter(|&i| header[i].to_ascii_lowercase().contains("dilution"))
+            && let Some(col) = Field::Contamination
+                .num_slot()
+                .and_then(|s| num[s].as_mut())
+        {
+            let reading = Dilution::of(col.iter());
+            if reading != Dilution::Contamination {
+                col.update(|v| reading.contamination(v));
+                let what = match reading {
+                    Dilution::TargetShare => {
+                        "the target's share of the light (every value at most 1, most at least 0.5): c = 1 − dilution"
+                    }
+                    _ => {
+                        "the factor that undoes a depth's dilution (every value at least 1): c = 1 − 1/dilution"
+                    }
+                };
+                let h = crate::sanitize::clean(header[index].trim()).into_owned();
+                notes.push(format!(
+                    "`{h}` is read as {what}, the others' share of the light; name the column `contamination` if it gives that share already"
+                ));
+                if let Some(u) = columns.iter_mut().find(|u| u.index == index) {
+                    u.how = format!("{}; read as {what}", u.how);
+                }
+            }
+        }
         // A star's radius, mass or temperature, a radius ratio, a planet's
         // radius, or an ephemeris error, of zero or below is a placeholder
         // for an unknown value (`0`, `-1`), not a value: read as missing,
