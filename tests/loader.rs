@@ -451,11 +451,18 @@ fn the_fingerprint_comes_from_the_loads_own_read() {
     let text = "star,candidate,period_d,epoch,depth_ppm,duration_h\nS1,S1-1,3.5,10.0,500,2.0\nS2,S2-1,4.5,11.0,600,2.5\n";
     let plain = d.join("cat.csv");
     std::fs::write(&plain, text).unwrap();
+    // And a file of many blocks, which a thread of its own hashes in order.
+    let mut big = String::from("star,candidate,period_d,epoch,depth_ppm,duration_h\n");
+    for i in 0..200_000 {
+        big.push_str(&format!("S{i},S{i}-1,{}.5,10.0,500,2.0\n", 1 + i % 40));
+    }
+    let many = d.join("many.csv");
+    std::fs::write(&many, &big).unwrap();
     let gz = d.join("cat.csv.gz");
     let mut enc = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::default());
     std::io::Write::write_all(&mut enc, text.as_bytes()).unwrap();
     std::fs::write(&gz, enc.finish().unwrap()).unwrap();
-    for p in [&plain, &gz] {
+    for (p, n) in [(&plain, 2), (&gz, 2), (&many, 200_000)] {
         let out = Arc::new(AtomicU64::new(0));
         let opts = starsift::catalogue::LoadOptions {
             fingerprint: Some(Arc::clone(&out)),
@@ -463,7 +470,7 @@ fn the_fingerprint_comes_from_the_loads_own_read() {
         };
         let cat = starsift::catalogue::Catalogue::load(starsift::catalogue::Source::Path(p), &opts)
             .unwrap();
-        assert_eq!(cat.len(), 2);
+        assert_eq!(cat.len(), n);
         assert_eq!(
             starsift::ledger::fingerprint_text(out.load(Ordering::Relaxed)),
             starsift::ledger::fingerprint(&std::fs::read(p).unwrap()),
