@@ -237,7 +237,14 @@ impl Field {
                 "stellar_eff_temp",
                 "tce_steff",
             ],
-            Field::StarLogg => &["logg", "star_logg", "st_logg", "koi_slogg", "tce_slogg"],
+            Field::StarLogg => &[
+                "logg",
+                "star_logg",
+                "st_logg",
+                "stellar_logg",
+                "koi_slogg",
+                "tce_slogg",
+            ],
             Field::RaDeg => &["ra", "ra_deg"],
             Field::DecDeg => &["dec", "dec_deg"],
             Field::Mag => &[
@@ -389,6 +396,15 @@ pub fn name_time_unit(header: &str) -> Option<(Field, &'static str)> {
 /// write them: `Period (days)`, `Epoch (BJD) err`, `Depth [ppm]`. The first
 /// bracketed part is the unit; the name is the rest.
 pub fn header_unit(header: &str) -> (String, Option<String>) {
+    // `log(g)` names the quantity, not its unit (`Stellar log(g) (cm/s^2)`).
+    let spelled;
+    let header = match header.to_ascii_lowercase().find("log(g)") {
+        Some(i) => {
+            spelled = format!("{}logg{}", &header[..i], &header[i + 6..]);
+            spelled.as_str()
+        }
+        None => header,
+    };
     let open = header.find(['(', '[']);
     let close = open.and_then(|o| {
         let want = if header.as_bytes()[o] == b'(' {

@@ -426,8 +426,8 @@ fn an_archive_exports_headers_and_bracketed_units_are_read() {
     // unit in brackets, `err` after it; positions in sexagesimal; a
     // duration in days, converted to hours (1 d = 24 h, SI).
     let text = "TIC ID,TOI,RA,Dec,Period (days),Period (days) err,Epoch (BJD - 2457000),\
-                Duration [d],Depth (ppm),TFOPWG Disposition\n\
-                100,100.01,07:29:25.85,-05:06:07.1,3.5,0.0001,1400.25,0.125,800,PC\n";
+                Duration [d],Depth (ppm),TFOPWG Disposition,Stellar log(g) (cm/s^2)\n\
+                100,100.01,07:29:25.85,-05:06:07.1,3.5,0.0001,1400.25,0.125,800,PC,4.44\n";
     let cat = Catalogue::from_text("invented.csv", text);
     assert_eq!(cat.len(), 1, "{:?}", cat.skipped);
     assert_eq!(cat.star_id(0), "100");
@@ -436,6 +436,8 @@ fn an_archive_exports_headers_and_bracketed_units_are_read() {
     assert_eq!(cat.value(Field::Epoch, 0), Some(2_458_400.25));
     assert_eq!(cat.value(Field::DurationH, 0), Some(3.0));
     assert_eq!(cat.value(Field::DepthPpm, 0), Some(800.0));
+    // `log(g)` is the quantity's name, `(cm/s^2)` its unit.
+    assert_eq!(cat.value(Field::StarLogg, 0), Some(4.44));
     assert!((cat.value(Field::RaDeg, 0).unwrap() - 112.357_708_333_333_33).abs() < 1e-9);
     assert!((cat.value(Field::DecDeg, 0).unwrap() + 5.101_972_222_222_222).abs() < 1e-9);
     assert_eq!(cat.disposition_columns().len(), 1);
