@@ -75,52 +75,20 @@ pub struct LoadOptions {
 }
 
 /// A reader that hashes the bytes it reads (FNV-1a, the ledger's
-/// fingerprint) and leaves the hash in `out` when it is dropped (the load
-/// drops its reader before it returns). FNV-1a takes a byte at a time, a
-/// multiply each: a thread of its own hashes copies of the blocks read,
-/// so that the reads (and the load behind them) do not wait on it.
+/// fingerprint) and leaves the running hash in `out`.
 struct Hashed<R> {
     inner: R,
-    blocks: Option<mpsc::SyncSender<Vec<u8>>>,
-    hasher: Option<std::thread::JoinHandle<u64>>,
+    state: u64,
     out: std::sync::Arc<std::sync::atomic::AtomicU64>,
-}
-
-impl<R> Hashed<R> {
-    fn new(inner: R, out: std::sync::Arc<std::sync::atomic::AtomicU64>) -> Hashed<R> {
-        // A few blocks may wait: the reads run ahead of the hash by that much.
-        let (blocks, rx) = mpsc::sync_channel::<Vec<u8>>(8);
-        let hasher = std::thread::spawn(move || {
-            rx.iter().fold(crate::fingerprint::FNV_OFFSET, |h, b| {
-                crate::fingerprint::fnv1a(h, &b)
-            })
-        });
-        Hashed {
-            inner,
-            blocks: Some(blocks),
-            hasher: Some(hasher),
-            out,
-        }
-    }
 }
 
 impl<R: Read> Read for Hashed<R> {
     fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
         let n = self.inner.read(buf)?;
-        if let (Some(tx), true) = (&self.blocks, n > 0) {
-            // The hasher ends only when the blocks do: a send cannot fail.
-            let _ = tx.send(buf[..n].to_vec());
-        }
+        self.state = crate::fingerprint::fnv1a(self.state, &buf[..n]);
+        self.out
+            .store(self.state, std::sync::atomic::Ordering::Relaxed);
         Ok(n)
-    }
-}
-
-impl<R> Drop for Hashed<R> {
-    fn drop(&mut self) {
-        drop(self.blocks.take());
-        if let Some(h) = self.hasher.take().and_then(|t| t.join().ok()) {
-            self.out.store(h, std::sync::atomic::Ordering::Relaxed);
-        }
     }
 }
 
@@ -278,7 +246,11 @@ impl Catalogue {
                                 crate::fingerprint::FNV_OFFSET,
                                 std::sync::atomic::Ordering::Relaxed,
                             );
-                            Box::new(Hashed::new(file, std::sync::Arc::clone(out)))
+                            Box::new(Hashed {
+                                inner: file,
+                                state: crate::fingerprint::FNV_OFFSET,
+                                out: std::sync::Arc::clone(out),
+                            })
                         }
                         None => Box::new(file),
                     };
