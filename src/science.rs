@@ -154,10 +154,12 @@ pub fn star_density(star_mass_msun: f64, star_radius_rsun: f64) -> f64 {
 /// lowest of theirs, TRAPPIST-1's 0.87, rounded down). A star off the main
 /// sequence has M★ ≥ 0.8 M☉ (no lighter star has left it in the age of
 /// the Universe, from memory), so R★ ≥ (0.8 M☉/ρ★)^{1/3}. A star is one or
-/// the other: the lesser bound holds for both. Young stars still
-/// contracting onto the main sequence can be larger than it allows by up
-/// to about half (TOI-1227, from memory), brown dwarfs too; white dwarfs
-/// are far smaller but far denser, and keep to it. `None` for a density
+/// the other: the lesser bound holds for both. It fails for young
+/// low-mass stars still contracting onto the main sequence, less dense
+/// than a main-sequence star of their size: the bound can be half again
+/// their radius (TOI-1227, 0.56 R☉ against 0.86, from memory); and for
+/// brown dwarfs. White dwarfs are far smaller but far denser, and keep to
+/// it. `None` for a density
 /// that is not finite and positive.
 pub fn least_star_radius_rsun(density_kg_m3: f64) -> Option<f64> {
     let rho = density_kg_m3 / star_density(1.0, 1.0);

@@ -352,9 +352,6 @@ const CHUNK_BYTES: usize = 2 << 20;
 /// The first read, which finds the header; a small file is read whole by it.
 const HEAD_BYTES: usize = 64 << 10;
 
-/// Reads the header, then parses the rest in record-aligned chunks on worker
-/// threads and merges the parts in file order, so the result is the same as
-/// a serial read, row for row.
 /// What every output says of a table of threshold-crossing events
 /// ([`Catalogue::events`]).
 pub(super) fn events_note() -> String {
@@ -366,6 +363,9 @@ pub(super) fn events_note() -> String {
         .to_string()
 }
 
+/// Reads the header, then parses the rest in record-aligned chunks on worker
+/// threads and merges the parts in file order, so the result is the same as
+/// a serial read, row for row.
 fn read_catalogue(
     name: String,
     mut text: impl Read + Send,

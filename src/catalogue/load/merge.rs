@@ -413,15 +413,15 @@ impl Merger {
                 col.update(|v| reading.contamination(v));
                 let what = match reading {
                     Dilution::TargetShare => {
-                        "the target's share of the light (every value at most 1, most at least 0.5): c = 1 − dilution"
+                        "the target's share of the light (every value at most 1, most at least 0.5), the others' share c = 1 − dilution"
                     }
                     _ => {
-                        "the factor that undoes a depth's dilution (every value at least 1): c = 1 − 1/dilution"
+                        "the factor that undoes a depth's dilution (every value at least 1), the others' share c = 1 − 1/dilution"
                     }
                 };
                 let h = crate::sanitize::clean(header[index].trim()).into_owned();
                 notes.push(format!(
-                    "`{h}` is read as {what}, the others' share of the light; name the column `contamination` if it gives that share already"
+                    "`{h}` is read as {what}; name the column `contamination` if it gives the others' share already"
                 ));
                 if let Some(u) = columns.iter_mut().find(|u| u.index == index) {
                     u.how = format!("{}; read as {what}", u.how);

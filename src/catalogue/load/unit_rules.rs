@@ -177,6 +177,49 @@ fn median(v: &mut [f64]) -> Option<f64> {
     Some(*v.select_nth_unstable_by(mid, f64::total_cmp).1)
 }
 
+/// How a column named `dilution` gives the light of other sources in the
+/// aperture: tables use the word for three quantities (common practice,
+/// no source), told apart by their values.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub(super) enum Dilution {
+    /// The others' share of the light, c, as `contamination` is: most
+    /// values below 0.5.
+    Contamination,
+    /// The target's share, 1 − c (a light-curve fit's dilution factor; 1 is
+    /// undiluted): every value at most 1, most at least 0.5.
+    TargetShare,
+    /// The factor that undoes the dilution of a depth, 1/(1 − c): every
+    /// value at least 1, some above it.
+    DepthFactor,
+}
+
+impl Dilution {
+    /// The reading of a `dilution` column's values (its finite ones).
+    pub(super) fn of(values: impl Iterator<Item = f64>) -> Dilution {
+        let mut v: Vec<f64> = values.filter(|v| v.is_finite()).collect();
+        let (lo, hi) = v
+            .iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &x| {
+                (lo.min(x), hi.max(x))
+            });
+        match median(&mut v) {
+            None => Dilution::Contamination,
+            Some(_) if lo >= 1.0 && hi > 1.0 => Dilution::DepthFactor,
+            Some(m) if hi <= 1.0 && m >= 0.5 => Dilution::TargetShare,
+            Some(_) => Dilution::Contamination,
+        }
+    }
+
+    /// c, the others' share of the light, from a value read this way.
+    pub(super) fn contamination(self, v: f64) -> f64 {
+        match self {
+            Dilution::Contamination => v,
+            Dilution::TargetShare => 1.0 - v,
+            Dilution::DepthFactor => 1.0 - 1.0 / v,
+        }
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -236,48 +279,5 @@ mod tests {
         // Most rows decide; rows without a ratio or a depth say nothing.
         assert!(!sample(&[0.028, 2.6, 0.030, f64::NAN], &[800.0; 4]).ror_in_percent(ppm));
         assert!(!RorSample::default().ror_in_percent(ppm));
-    }
-}
-
-/// How a column named `dilution` gives the light of other sources in the
-/// aperture: tables use the word for three quantities (common practice,
-/// no source), told apart by their values.
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub(super) enum Dilution {
-    /// The others' share of the light, c, as `contamination` is: most
-    /// values below 0.5.
-    Contamination,
-    /// The target's share, 1 − c (a light-curve fit's dilution factor; 1 is
-    /// undiluted): every value at most 1, most at least 0.5.
-    TargetShare,
-    /// The factor that undoes the dilution of a depth, 1/(1 − c): every
-    /// value at least 1, some above it.
-    DepthFactor,
-}
-
-impl Dilution {
-    /// The reading of a `dilution` column's values (its finite ones).
-    pub(super) fn of(values: impl Iterator<Item = f64>) -> Dilution {
-        let mut v: Vec<f64> = values.filter(|v| v.is_finite()).collect();
-        let (lo, hi) = v
-            .iter()
-            .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &x| {
-                (lo.min(x), hi.max(x))
-            });
-        match median(&mut v) {
-            None => Dilution::Contamination,
-            Some(_) if lo >= 1.0 && hi > 1.0 => Dilution::DepthFactor,
-            Some(m) if hi <= 1.0 && m >= 0.5 => Dilution::TargetShare,
-            Some(_) => Dilution::Contamination,
-        }
-    }
-
-    /// c, the others' share of the light, from a value read this way.
-    pub(super) fn contamination(self, v: f64) -> f64 {
-        match self {
-            Dilution::Contamination => v,
-            Dilution::TargetShare => 1.0 - v,
-            Dilution::DepthFactor => 1.0 - 1.0 / v,
-        }
     }
 }
