@@ -357,9 +357,9 @@ const HEAD_BYTES: usize = 64 << 10;
 pub(super) fn events_note() -> String {
     "the rows are threshold-crossing events, not yet candidates: a noisy or variable star's \
      false alarms come several to a star, which the multiplicity model (false positives at \
-     random) does not expect. An event counts in its star's system only once a vetter keeps \
-     it (decision `kept`, after its light curve): until then it is held back at its prior and \
-     none is validated"
+     random) does not expect, and most events are no planet. An event counts in its star's \
+     system only once a vetter keeps it (decision `kept`, after its light curve): until then it \
+     is held back, `unlikely` at 1:1, and none is validated"
         .to_string()
 }
 

@@ -59,8 +59,9 @@ impl Live {
                 Status::Counted
             };
             self.status[c] = status;
-            self.no_planet[c] =
-                status == Status::Held && self.flags[c].intersects(self.no_planet_flags());
+            self.no_planet[c] = status == Status::Held
+                && (self.flags[c].intersects(self.no_planet_flags())
+                    || self.unvetted(self.decision[c]));
             k_of[s as usize] += u32::from(status == Status::Counted);
         }
         for (s, &k) in k_of.iter().enumerate() {
