@@ -30,6 +30,11 @@ pub enum BoostMode {
 }
 
 impl BoostMode {
+    /// Whether the boost comes from the catalogue's histogram (not given).
+    pub fn uses_histogram(&self) -> bool {
+        matches!(self, BoostMode::Catalogue | BoostMode::System)
+    }
+
     /// Parses `catalogue`, `system` or `fixed:2=25,3=100`.
     pub fn parse(s: &str) -> Result<BoostMode, String> {
         match s {
@@ -380,10 +385,15 @@ pub fn table_with(model: &Model, hist: &[usize], fp_singles: f64) -> Table {
     let big_n = targets as f64;
     let n_fp = f * n1;
     let lambda = n_fp / big_n;
-    if n(1) == 0 {
+    // No single to estimate N_FP from: λ would be 0 and every multiple
+    // planets beyond doubt, which says nothing of a survey but that the
+    // table holds only its multiples (a subset, or singles all held back).
+    let no_singles = n(1) == 0;
+    if no_singles && model.mode.uses_histogram() {
         warnings.push(
-            "no single-candidate stars: the model's false-positive rate λ = N_FP/N is 0, \
-             so multiplicity odds are unbounded and were floored"
+            "no single-candidate stars: the model's false-positive rate λ = N_FP/N cannot be \
+             estimated (N_FP comes from the singles; a table of multiples only is not a \
+             survey's catalogue), so no multiplicity boost is applied"
                 .to_string(),
         );
     }
@@ -481,6 +491,7 @@ pub fn table_with(model: &Model, hist: &[usize], fp_singles: f64) -> Table {
     }
     for r in &mut rows {
         r.boost = match &model.mode {
+            BoostMode::Catalogue | BoostMode::System if no_singles => 1.0,
             BoostMode::Catalogue | BoostMode::System => ((1.0 - r.q_used) / r.q_used) / prior_odds,
             fixed => fixed_boost(fixed, r.k),
         };

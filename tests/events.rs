@@ -164,6 +164,15 @@ fn keeping_an_event_in_a_session_counts_it_as_a_fresh_build_would() {
     assert_eq!(live.k(id("102000.01")), 1);
     live.set_decision(id("102000.02"), Decision::Kept);
     assert_eq!(live.k(id("102000.02")), 2);
+    // With no kept single the false-positive rate cannot be estimated
+    // (docs/science.md §1.2): no boost yet, the pair at its prior.
+    assert_eq!(live.boost(id("102000.02")), Some(1.0));
+    assert_eq!(
+        live.verdict(id("102000.02")),
+        starsift::odds::Verdict::Likely
+    );
+    // A kept single gives the model its singles: the pair is validated.
+    live.set_decision(id("101000.01"), Decision::Kept);
     assert_eq!(
         live.verdict(id("102000.02")),
         starsift::odds::Verdict::Validated

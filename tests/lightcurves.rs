@@ -774,13 +774,24 @@ fn a_binary_seen_in_the_light_curve_under_another_star_id_at_the_same_place_hold
     let cat = d.join("merged.csv");
     std::fs::write(
         &cat,
-        "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,star_radius_rsun,star_mass_msun,ra,dec\n\
+        format!(
+            "star,candidate,period_d,epoch,depth_ppm,duration_h,snr,star_radius_rsun,star_mass_msun,ra,dec\n\
          T601,T601-1,3.1,1001.0,800,2.5,40,1,1,150.00000,20.00000\n\
          T601,T601-2,7.4,1002.9,1200,3.4,40,1,1,150.00000,20.00000\n\
          G99,G99-3,2.2,1000.4,5000,2.0,40,1,1,150.00020,20.00010\n\
          T602,T602-1,3.1,1001.0,800,2.5,40,1,1,151.00000,20.00000\n\
          T602,T602-2,7.4,1002.9,1200,3.4,40,1,1,151.00000,20.00000\n\
-         G98,G98-3,2.2,1000.4,5000,2.0,40,1,1,151.01000,20.00000\n",
+         G98,G98-3,2.2,1000.4,5000,2.0,40,1,1,151.01000,20.00000\n{}",
+            // Singles far away, for the model's false-positive rate
+            // (without one it cannot be estimated, docs/science.md §1.2).
+            (0..40)
+                .map(|i| format!(
+                    "S{i},S{i}-1,{:.3},1000.1,900,2.5,40,1,1,{}.5,-30.0\n",
+                    4.0 + 0.37 * i as f64,
+                    200 + i
+                ))
+                .collect::<String>()
+        ),
     )
     .unwrap();
     let rows = odds_rows(&cat, &lcs);

@@ -708,3 +708,30 @@ AL,AL-3,4.5,0.00001,100.0,0.001,870,3.0,35,0.3,1,1,5772\n",
         .count();
     assert_eq!(live.counts().unlikely, tally);
 }
+
+#[test]
+fn a_table_of_multiples_only_gives_no_boost() {
+    // The false-positive rate λ = N_FP/N comes from the singles (N_FP = f
+    // n₁, docs/science.md §1.2). A histogram of doubles and triples alone
+    // (a subset of a survey, its singles left out or all held back) made
+    // λ = 0 and every pair validated at the 1e300:1 floor. Now no boost is
+    // applied, and the table says why; one single restores the model.
+    let none = table(&model(), &[0, 0, 60, 20]);
+    assert_eq!((none.boost(2), none.boost(3)), (1.0, 1.0));
+    assert!(
+        none.warnings
+            .iter()
+            .any(|w| w.contains("no single-candidate stars")),
+        "{:?}",
+        none.warnings
+    );
+    let one = table(&model(), &[0, 1, 60, 20]);
+    assert!(one.boost(2) > 100.0, "{}", one.boost(2));
+    assert!(one.warnings.is_empty(), "{:?}", one.warnings);
+    // A fixed boost is given, not estimated: it stands.
+    let fixed = Model {
+        mode: starsift::odds::BoostMode::Fixed(vec![(2, 25.0)]),
+        ..model()
+    };
+    assert_eq!(table(&fixed, &[0, 0, 60]).boost(2), 25.0);
+}
