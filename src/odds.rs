@@ -389,6 +389,16 @@ pub fn table_with(model: &Model, hist: &[usize], fp_singles: f64) -> Table {
     // planets beyond doubt, which says nothing of a survey but that the
     // table holds only its multiples (a subset, or singles all held back).
     let no_singles = n(1) == 0;
+    let multiples: usize = (2..hist.len()).map(n).sum();
+    if !no_singles && n(1) < multiples && model.mode.uses_histogram() {
+        warnings.push(format!(
+            "fewer single-candidate stars ({}) than stars with several ({multiples}): a survey's \
+             catalogue has several singles to each multiple (827 to 170 among Kepler's first \
+             candidates, Latham et al. 2011, from memory), so this table may be a subset of one; \
+             the odds assume it is a survey's whole vetted catalogue",
+            n(1)
+        ));
+    }
     if no_singles && model.mode.uses_histogram() {
         warnings.push(
             "no single-candidate stars: the model's false-positive rate λ = N_FP/N cannot be \
