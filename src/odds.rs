@@ -390,7 +390,16 @@ pub fn table_with(model: &Model, hist: &[usize], fp_singles: f64) -> Table {
     // table holds only its multiples (a subset, or singles all held back).
     let no_singles = n(1) == 0;
     let multiples: usize = (2..hist.len()).map(n).sum();
-    if !no_singles && n(1) < multiples && model.mode.uses_histogram() {
+    if !model.mode.uses_histogram() {
+        // A given boost stands, whatever the histogram.
+    } else if no_singles {
+        warnings.push(
+            "no single-candidate stars: the model's false-positive rate λ = N_FP/N cannot be \
+             estimated (N_FP comes from the singles; a table of multiples only is not a \
+             survey's catalogue), so no multiplicity boost is applied"
+                .to_string(),
+        );
+    } else if n(1) < multiples {
         warnings.push(format!(
             "fewer single-candidate stars ({}) than stars with several ({multiples}): a survey's \
              catalogue has several singles to each multiple (827 to 170 among Kepler's first \
@@ -398,14 +407,6 @@ pub fn table_with(model: &Model, hist: &[usize], fp_singles: f64) -> Table {
              the odds assume it is a survey's whole vetted catalogue",
             n(1)
         ));
-    }
-    if no_singles && model.mode.uses_histogram() {
-        warnings.push(
-            "no single-candidate stars: the model's false-positive rate λ = N_FP/N cannot be \
-             estimated (N_FP comes from the singles; a table of multiples only is not a \
-             survey's catalogue), so no multiplicity boost is applied"
-                .to_string(),
-        );
     }
     let h = |m: usize| -> f64 {
         match m {
