@@ -753,3 +753,36 @@ fn kept_values_read_exactly(quoted: bool) {
         }
     }
 }
+
+#[test]
+fn a_k2_style_candidate_table_is_read_by_its_own_names() {
+    // Invented rows under the K2 candidate table's names (`hostname`,
+    // `epic_candname`, `pl_trandur` in hours; from memory of the archive's
+    // column list): before, the load stopped for want of a star column.
+    // Its depth, in percent there, is refused until the unit is said, as
+    // any bare depth whose median is below 50.
+    let text = "pl_name,hostname,epic_candname,disposition,pl_orbper,pl_tranmid,pl_trandep,pl_trandur\n\
+        ,EPIC 900,EPIC 900.01,CANDIDATE,10.05,2456813.4,0.12,2.6\n\
+        ,EPIC 900,EPIC 900.02,CANDIDATE,24.6,2456812.3,0.09,3.1\n";
+    let e = load_bytes("k2.csv", text.as_bytes())
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("depth"), "{e}");
+    let opts = LoadOptions {
+        depth_unit: Some(DepthUnit::Percent),
+        ..Default::default()
+    };
+    let c = Catalogue::load(
+        starsift::catalogue::Source::Bytes {
+            name: "k2.csv",
+            data: text.as_bytes(),
+        },
+        &opts,
+    )
+    .unwrap();
+    assert_eq!(c.len(), 2);
+    assert_eq!(c.star_id(c.star_of(1)), "EPIC 900");
+    assert_eq!(c.candidate_id(1), "EPIC 900.02");
+    assert_eq!(c.value(Field::DurationH, 1), Some(3.1));
+    assert_eq!(c.value(Field::DepthPpm, 0), Some(1200.0));
+}

@@ -139,9 +139,10 @@ impl Field {
     pub fn synonyms(self) -> &'static [&'static str] {
         match self {
             // Archive spellings last (the exoplanet archives' candidate
-            // tables: `tid`/`toi`, `kepid`/`kepoi_name`, `pl_*`, `koi_*`,
-            // `st_*`; their threshold-crossing event tables: `ticid`,
-            // `tce_*`; from memory of their column lists).
+            // tables: `tid`/`toi`, `kepid`/`kepoi_name`, the K2 table's
+            // `hostname`/`epic_candname`, `pl_*`, `koi_*`, `st_*`; their
+            // threshold-crossing event tables: `ticid`, `tce_*`; from memory
+            // of their column lists).
             Field::Star => &[
                 "star",
                 "star_id",
@@ -153,6 +154,8 @@ impl Field {
                 "tic_id",
                 "kepid",
                 "ticid",
+                "hostname",
+                "epic_hostname",
             ],
             Field::Candidate => &[
                 "candidate",
@@ -163,6 +166,7 @@ impl Field {
                 "id",
                 "toi",
                 "kepoi_name",
+                "epic_candname",
             ],
             Field::PeriodD => &[
                 "period",
@@ -204,6 +208,7 @@ impl Field {
                 "dur",
                 "t14",
                 "pl_trandurh",
+                "pl_trandur",
                 "koi_duration",
                 "tce_duration",
             ],
