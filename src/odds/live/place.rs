@@ -59,9 +59,8 @@ impl Live {
                 Status::Counted
             };
             self.status[c] = status;
-            self.no_planet[c] = status == Status::Held
-                && (self.flags[c].intersects(self.no_planet_flags())
-                    || self.unvetted(self.decision[c]));
+            // Outside any active group: its own flags, or an event not kept.
+            self.no_planet[c] = status == Status::Held && self.no_planet_now(c as CandidateId);
             k_of[s as usize] += u32::from(status == Status::Counted);
         }
         for (s, &k) in k_of.iter().enumerate() {
