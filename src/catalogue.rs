@@ -511,13 +511,72 @@ pub fn names_an_fp_probability(header: &str) -> bool {
         || words.windows(2).any(|w| w[0] == "fp" && prob(&w[1]))
 }
 
-/// Whether an extra column is a false-positive flag of an archive table
+/// Whether an extra column is a false-positive flag: an archive table's
 /// (`koi_fpflag_ss`, `koi_fpflag_co`... from memory of the archive's
-/// column list; `fp_flag`): a header holding `fpflag` or `fp_flag`.
+/// column list; `fp_flag`), a header holding `fpflag` or `fp_flag`; or a
+/// survey team's own yes/no column named by what it marks, a false
+/// positive or an eclipsing binary ([`FLAGGED_AS`]: `is_eb`, `EB_flag`,
+/// `false_positive`, `known_fp`, `isFP`), its words (lower case, parted by
+/// anything but letters and digits) less [`FLAG_WORDS`] before and after
+/// them (`is`, `known`, `flag`...) being exactly one of those names.
+/// `binary` alone is not one: a binary host may have planets.
 pub fn names_an_fp_flag(header: &str) -> bool {
     let h = header.trim().to_ascii_lowercase();
-    h.contains("fpflag") || h.contains("fp_flag")
+    if h.contains("fpflag") || h.contains("fp_flag") {
+        return true;
+    }
+    let mut words: Vec<&str> = h
+        .split(|c: char| !c.is_ascii_alphanumeric())
+        .filter(|w| !w.is_empty())
+        .collect();
+    // `isfp`, `ebflag`, `knowneb`: a flag word run into the name.
+    if let [one] = words.as_slice() {
+        let mut w = *one;
+        for prefix in FLAG_WORDS {
+            w = w.strip_prefix(prefix).unwrap_or(w);
+        }
+        for suffix in FLAG_WORDS {
+            w = w.strip_suffix(suffix).unwrap_or(w);
+        }
+        return FLAGGED_AS.contains(&w);
+    }
+    while words.first().is_some_and(|w| FLAG_WORDS.contains(w)) {
+        words.remove(0);
+    }
+    while words.last().is_some_and(|w| FLAG_WORDS.contains(w)) {
+        words.pop();
+    }
+    FLAGGED_AS.contains(&words.join(" ").as_str())
 }
+
+/// What a yes/no column may be named for to mark false positives (lower
+/// case, words parted by a space): a false positive, or an eclipsing
+/// binary, on the target (`eb`) or a nearby, background or hierarchical
+/// one (`neb`, `beb`, `heb`: the follow-up groups' codes, from memory).
+const FLAGGED_AS: [&str; 9] = [
+    "fp",
+    "false positive",
+    "falsepositive",
+    "eb",
+    "eclipsing binary",
+    "eclipsingbinary",
+    "neb",
+    "beb",
+    "heb",
+];
+
+/// Words around a flag's name that say it is a flag (`is_eb`, `eb_flag`,
+/// `known_fp`, `likely_eb`: a doubt is enough, as in a disposition).
+const FLAG_WORDS: [&str; 8] = [
+    "is",
+    "known",
+    "likely",
+    "possible",
+    "probable",
+    "suspected",
+    "flag",
+    "flagged",
+];
 
 /// Whether a false-positive flag column is the "not transit-like" one
 /// (`koi_fpflag_nt`, from memory of the archive's columns): it names no

@@ -155,6 +155,72 @@ F1,F1-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,1,0\n";
 }
 
 #[test]
+fn a_surveys_own_yes_no_columns_for_false_positives_are_read() {
+    // A survey team's table marks its eclipsing binaries and false
+    // positives in a yes/no column of its own naming, as tables and their
+    // writers spell a logical value (pandas `True`, FITS and VOTable `T`,
+    // 0/1). The marked candidate is a known false positive and its
+    // siblings are held back in every command, where before the column
+    // was an extra one no check read and the trio was validated.
+    let rows = |yes: &str, no: &str| {
+        format!(
+            "\
+Y3,Y3-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772,{yes}\n\
+Y3,Y3-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772,{no}\n\
+Y3,Y3-3,21.3,0.00001,102.0,0.001,640,4.6,26,0.3,1,1,5772,{no}\n\
+N3,N3-1,4.3,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,{no}\n\
+N3,N3-2,10.1,0.00001,101.4,0.001,650,3.6,28,0.3,1,1,5772,{no}\n\
+N3,N3-3,22.9,0.00001,102.4,0.001,640,4.7,26,0.3,1,1,5772,\n"
+        )
+    };
+    for (i, (header, yes, no)) in [
+        ("is_eb", "True", "False"),
+        ("EB_flag", "1", "0"),
+        ("false_positive", "T", "F"),
+        ("isFP", "yes", "no"),
+        ("known_fp", "1.0", "0.0"),
+        ("likely_beb", "EB", "-"),
+    ]
+    .into_iter()
+    .enumerate()
+    {
+        let cat = written(
+            &format!("yes_no_fp_{i}"),
+            &catalogue(header, &rows(yes, no)),
+        );
+        let c = cat.to_str().unwrap();
+        let odds = agreed(c);
+        assert_eq!(odds["Y3-1"], "unlikely", "{header}");
+        for s in ["Y3-2", "Y3-3"] {
+            assert_eq!(odds[s], "likely", "{header} {s}");
+        }
+        for s in ["N3-1", "N3-2", "N3-3"] {
+            assert_eq!(odds[s], "validated", "{header} {s}");
+        }
+        let o = starsift(&["odds", c, "--format", "csv"]);
+        assert!(!stderr(&o).contains("read as neither"), "{}", stderr(&o));
+        let s = stdout(&starsift(&["summary", c]));
+        assert!(s.contains("false-positive flag"), "{header}: {s}");
+    }
+    // A host in a binary is no false positive: a `binary` column is not
+    // read as one. A value read as neither set nor unset is said.
+    let cat = written("yes_no_fp_binary", &catalogue("binary", &rows("1", "0")));
+    assert_eq!(agreed(cat.to_str().unwrap())["Y3-1"], "validated");
+    let cat = written(
+        "yes_no_fp_unknown",
+        &catalogue("is_eb", &rows("maybe", "0")),
+    );
+    let c = cat.to_str().unwrap();
+    assert_eq!(agreed(c)["Y3-1"], "validated");
+    let e = stderr(&starsift(&["odds", c, "--format", "csv"]));
+    assert!(
+        e.contains("is_eb holds 1 value read as neither set (1, true, yes) nor unset")
+            && e.contains("`maybe` (1)"),
+        "{e}"
+    );
+}
+
+#[test]
 fn a_copys_flags_do_not_mark_its_star_but_its_representatives_do() {
     // A, B, C on one star; B is A at twice its period (one signal, A
     // stands for it). An alias folded at twice its period shows its own

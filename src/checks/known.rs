@@ -195,14 +195,44 @@ fn begins_with_one(n: &str, words: &[&str]) -> bool {
     })
 }
 
-/// Whether a false-positive flag's cell is set: a number other than 0, or
-/// `true`/`yes`/`y`. Empty and unreadable cells are not.
-fn flag_is_set(cell: &str) -> bool {
+/// What a false-positive flag's cell says.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+enum FlagCell {
+    /// A number of at least 0.5 (a 1, or a probability that makes a false
+    /// positive the likelier: [`FPP_EVEN`]); `true`, `yes`, `y`, `t` (a FITS
+    /// or VOTable logical); or a disposition's word for a false positive
+    /// (`EB`, [`says_false_positive`]).
+    Set,
+    /// A number below 0.5 (`0`), `false`, `no`, `n`, `f`, or a missing cell.
+    Unset,
+    /// Anything else: read as not set, and named in a note.
+    Unknown,
+}
+
+fn flag_cell(cell: &str) -> FlagCell {
     let c = cell.trim();
-    match c.parse::<f64>() {
-        Ok(v) => v != 0.0 && !v.is_nan(),
-        Err(_) => matches!(c.to_ascii_lowercase().as_str(), "true" | "yes" | "y"),
+    if crate::catalogue::is_missing(c.as_bytes()) {
+        return FlagCell::Unset;
     }
+    if let Ok(v) = c.parse::<f64>() {
+        return if v >= FPP_EVEN {
+            FlagCell::Set
+        } else if v.is_nan() {
+            FlagCell::Unknown
+        } else {
+            FlagCell::Unset
+        };
+    }
+    match c.to_ascii_lowercase().as_str() {
+        "true" | "yes" | "y" | "t" => FlagCell::Set,
+        "false" | "no" | "n" | "f" | "-" | "none" => FlagCell::Unset,
+        _ if says_false_positive(c) => FlagCell::Set,
+        _ => FlagCell::Unknown,
+    }
+}
+
+fn flag_is_set(cell: &str) -> bool {
+    flag_cell(cell) == FlagCell::Set
 }
 
 /// The `fpp` at and above which a candidate is more likely a false positive
@@ -382,6 +412,8 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     // A table holds a handful of distinct dispositions: each is read once,
     // and counted (column, cell) → (what it says, rows).
     let mut seen: hashbrown::HashMap<(usize, &str), (Said, usize)> = hashbrown::HashMap::new();
+    let mut flag_seen: hashbrown::HashMap<(usize, &str), (FlagCell, usize)> =
+        hashbrown::HashMap::new();
     for c in 0..cat.len() as CandidateId {
         for &i in &columns {
             let cell = cat.extra(i, c);
@@ -409,7 +441,11 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
         }
         for &i in &flag_columns {
             let cell = cat.extra(i, c);
-            if flag_is_set(cell) {
+            let what = flag_seen
+                .entry((i, cell))
+                .or_insert_with(|| (flag_cell(cell), 0));
+            what.1 += 1;
+            if what.0 == FlagCell::Set {
                 // The "not transit-like" flag names no false positive of the star.
                 let not_transit = crate::catalogue::names_a_not_transit_flag(headers[i]);
                 out.add(
@@ -462,30 +498,59 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     }
     // Words read as neither: said once per column, most rows first.
     for &i in &columns {
-        let mut unknown: Vec<(&str, usize)> = seen
+        let unknown = seen
             .iter()
             .filter(|((col, _), (what, _))| *col == i && *what == Said::Unknown)
-            .map(|((_, cell), (_, n))| (*cell, *n))
-            .collect();
-        if unknown.is_empty() {
-            continue;
-        }
-        unknown.sort_unstable_by(|a, b| b.1.cmp(&a.1).then(a.0.cmp(b.0)));
-        let rows: usize = unknown.iter().map(|u| u.1).sum();
-        let listed: Vec<String> = unknown
-            .iter()
-            .take(5)
-            .map(|(cell, n)| format!("`{}` ({n})", crate::sanitize::clean(cell.trim())))
-            .collect();
-        out.notes.push(format!(
-            "the catalogue's {} holds {} value{} read as neither a false positive nor a planet or candidate ({rows} rows: {}{}): those rows are vetted as candidates (docs/science.md §3.5)",
+            .map(|((_, cell), (_, n))| (*cell, *n));
+        out.notes.extend(unknown_note(
             headers[i],
-            unknown.len(),
-            if unknown.len() == 1 { "" } else { "s" },
-            listed.join(", "),
-            if unknown.len() > 5 { ", …" } else { "" }
+            unknown,
+            "neither a false positive nor a planet or candidate",
+            "those rows are vetted as candidates",
         ));
     }
+    for &i in &flag_columns {
+        let unknown = flag_seen
+            .iter()
+            .filter(|((col, _), (what, _))| *col == i && *what == FlagCell::Unknown)
+            .map(|((_, cell), (_, n))| (*cell, *n));
+        out.notes.extend(unknown_note(
+            headers[i],
+            unknown,
+            "neither set (1, true, yes) nor unset (0, false, no)",
+            "those rows are read as not flagged",
+        ));
+    }
+}
+
+/// The note that names the values of an earlier verdict's column read as
+/// `neither`, most rows first, five at most, and what was done with their
+/// rows; `None` when there are none.
+fn unknown_note<'a>(
+    header: &str,
+    unknown: impl Iterator<Item = (&'a str, usize)>,
+    neither: &str,
+    done: &str,
+) -> Option<String> {
+    let mut unknown: Vec<(&str, usize)> = unknown.collect();
+    if unknown.is_empty() {
+        return None;
+    }
+    unknown.sort_unstable_by(|a, b| b.1.cmp(&a.1).then(a.0.cmp(b.0)));
+    let rows: usize = unknown.iter().map(|u| u.1).sum();
+    let listed: Vec<String> = unknown
+        .iter()
+        .take(5)
+        .map(|(cell, n)| format!("`{}` ({n})", crate::sanitize::clean(cell.trim())))
+        .collect();
+    Some(format!(
+        "the catalogue's {} holds {} value{} read as {neither} ({rows} rows: {}{}): {done} (docs/science.md §3.5)",
+        crate::sanitize::clean(header),
+        unknown.len(),
+        if unknown.len() == 1 { "" } else { "s" },
+        listed.join(", "),
+        if unknown.len() > 5 { ", …" } else { "" }
+    ))
 }
 
 #[cfg(test)]
@@ -494,17 +559,58 @@ mod tests {
 
     #[test]
     fn false_positive_flag_columns() {
-        for h in ["koi_fpflag_ss", "KOI_FPFLAG_CO", "fp_flag", "my_fpflag"] {
+        for h in [
+            "koi_fpflag_ss",
+            "KOI_FPFLAG_CO",
+            "fp_flag",
+            "my_fpflag",
+            // A survey's own yes/no columns, named by what they mark.
+            "is_eb",
+            "isEB",
+            "EB",
+            "eb_flag",
+            "EBflag",
+            "flag_eb",
+            "false_positive",
+            "False Positive",
+            "FalsePositive",
+            "is_fp",
+            "known_FP",
+            "likely_neb",
+            "BEB",
+            "eclipsing_binary",
+            "Eclipsing Binary Flag",
+        ] {
             assert!(crate::catalogue::names_an_fp_flag(h), "{h}");
         }
-        for h in ["fpp", "flag", "quality_flag", "disposition"] {
+        for h in [
+            "fpp",
+            "flag",
+            "quality_flag",
+            "disposition",
+            // A binary host may have planets; other words are not a mark.
+            "binary",
+            "is_binary",
+            "eb_period",
+            "ebv",
+            "E(B-V)",
+            "web",
+            "isolated",
+            "fp_prob",
+            "flagged",
+        ] {
             assert!(!crate::catalogue::names_an_fp_flag(h), "{h}");
         }
-        for set in ["1", " 1 ", "1.0", "2", "true", "Y"] {
-            assert!(flag_is_set(set), "{set}");
+        for set in [
+            "1", " 1 ", "1.0", "2", "true", "Y", "T", "True", "EB", "0.9",
+        ] {
+            assert_eq!(flag_cell(set), FlagCell::Set, "{set}");
         }
-        for unset in ["0", "0.0", "", "nan", "no", "false", "-"] {
-            assert!(!flag_is_set(unset), "{unset}");
+        for unset in ["0", "0.0", "", "nan", "NA", "no", "false", "F", "-", "0.2"] {
+            assert_eq!(flag_cell(unset), FlagCell::Unset, "{unset}");
+        }
+        for unknown in ["maybe", "?", "PC"] {
+            assert_eq!(flag_cell(unknown), FlagCell::Unknown, "{unknown}");
         }
     }
 
