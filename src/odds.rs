@@ -15,7 +15,7 @@ use statrs::function::factorial::ln_factorial;
 
 use crate::flags::FlagSet;
 
-pub use live::{Hold, Live, Status, VerdictCounts, names_false_positive};
+pub use live::{Dispute, Hold, Live, Status, VerdictCounts, names_false_positive};
 
 /// How the boost on prior odds is defined (docs/science.md §1).
 #[derive(Clone, Debug, PartialEq)]
@@ -653,6 +653,12 @@ pub fn hold_text(
         }
         Some(Hold::UnseenSibling { why, .. }) => {
             format!("its star hosts a known false positive: {why}")
+        }
+        Some(Hold::Disputed { fp, why }) => {
+            format!(
+                "vetters disagree whether {} is a false positive ({why}): held until they agree",
+                id(fp)
+            )
         }
         Some(Hold::OtherId {
             fp,

@@ -13,7 +13,7 @@ use crate::cli::args::{LedgerRead, Loaded, VettingArgs};
 use crate::cli::error::CliError;
 use crate::decision::Decision;
 use crate::ledger::{Decided, Entry, Stamps, Tally};
-use crate::odds::{Live, ModelError};
+use crate::odds::{Dispute, Live, ModelError};
 use crate::sanitize::clean;
 
 /// What a session reads of the ledger.
@@ -61,17 +61,83 @@ pub struct Session {
 /// The odds of a catalogue from its checks and the ledger's latest
 /// decisions (every candidate open without a ledger): the one place a
 /// `Live` is built, for every command (through [`Session`]) and the browser.
+///
+/// The decisions are taken out of `decided`; the rest is left to the
+/// caller (where vetters disagree, which the odds read here first).
 pub fn odds_of(
     cat: &crate::catalogue::Catalogue,
     model: crate::odds::Model,
     checks: &Checks,
-    decided: Option<Decided>,
+    decided: Option<&mut Decided>,
 ) -> Result<Live, ModelError> {
-    let (decisions, gone) = match decided {
-        Some(d) => (d.decisions, gone_false_positives(cat, &d.gone)),
-        None => (vec![Decision::Open; cat.len()], Vec::new()),
+    let (decisions, gone, disputes) = match decided {
+        Some(d) => {
+            let decisions = std::mem::take(&mut d.decisions);
+            let disputes = disputes_of(cat, &decisions, &d.disagreements);
+            (decisions, gone_false_positives(cat, &d.gone), disputes)
+        }
+        None => (vec![Decision::Open; cat.len()], Vec::new(), Vec::new()),
     };
-    odds_with(cat, model, checks, decisions, &gone)
+    odds_with(cat, model, checks, decisions, &gone, disputes)
+}
+
+/// Where vetters disagree whether a candidate is a false positive
+/// ([`dispute_of`] of every candidate the ledger's disagreements name and
+/// the catalogue lists), under the decisions in force.
+pub fn disputes_of(
+    cat: &crate::catalogue::Catalogue,
+    decisions: &[Decision],
+    disagreements: &BTreeMap<String, Vec<Entry>>,
+) -> Vec<Dispute> {
+    disagreements
+        .iter()
+        .filter_map(|(id, latest)| {
+            let c = cat.find_candidate(id)?;
+            dispute_of(cat, c, decisions[c as usize], latest)
+        })
+        .collect()
+}
+
+/// Candidate c's dispute: some vetter's latest decision (`latest`, each
+/// vetter's) rejects it as a false positive (an eclipsing binary, a blend,
+/// a stellar-size companion) and the decision in force does not; the
+/// newest such rejection is named, with what the others decided. `None`
+/// when no such rejection stands, or the decision in force is one
+/// (docs/science.md §1.1).
+pub fn dispute_of(
+    cat: &crate::catalogue::Catalogue,
+    c: crate::catalogue::CandidateId,
+    in_force: Decision,
+    latest: &[Entry],
+) -> Option<Dispute> {
+    let fp = |d: Decision| d.reason().is_some_and(crate::odds::names_false_positive);
+    if fp(in_force) {
+        return None;
+    }
+    let by = latest
+        .iter()
+        .filter(|e| fp(e.decision))
+        .max_by_key(|e| e.id)?;
+    let others: Vec<String> = latest
+        .iter()
+        .filter(|e| !fp(e.decision))
+        .map(|e| format!("{} {}", clean(&e.vetter), e.decision))
+        .collect();
+    Some(Dispute {
+        candidate: c,
+        star: cat.star_of(c),
+        why: format!(
+            "{} rejected it as {} on {}{}",
+            clean(&by.vetter),
+            by.decision.reason().map_or("", |r| r.name()),
+            clean(by.decided_at.get(..10).unwrap_or(&by.decided_at)),
+            if others.is_empty() {
+                String::new()
+            } else {
+                format!("; {}", others.join(", "))
+            }
+        ),
+    })
 }
 
 /// The stars a vetter's latest decision calls the host of a false positive
@@ -147,13 +213,16 @@ fn held_at_other_ids(
 ///
 /// `gone` are the stars the ledger knows to host a false positive the
 /// catalogue no longer has ([`gone_false_positives`]; a rebuild passes
-/// `Live::unseen_fps` of the odds it replaces).
+/// `Live::unseen_fps` of the odds it replaces); `disputes` where vetters
+/// disagree whether a candidate is one ([`disputes_of`]; a rebuild passes
+/// `Live::disputes`).
 pub fn odds_with(
     cat: &crate::catalogue::Catalogue,
     model: crate::odds::Model,
     checks: &Checks,
     decisions: Vec<Decision>,
     gone: &[crate::checks::UnseenFp],
+    disputes: Vec<Dispute>,
 ) -> Result<Live, ModelError> {
     let rejected: Vec<_> = decisions
         .iter()
@@ -173,6 +242,7 @@ pub fn odds_with(
         unseen,
     )?;
     link_other_ids(&mut live, cat, rejected);
+    live.set_disputes(disputes);
     // What the checks say of the inputs, among the other input warnings.
     live.input_warnings.extend(checks.notes().iter().cloned());
     Ok(live)
@@ -306,10 +376,10 @@ impl Session {
             },
         };
         let vetter = ledger_args.vetter.as_deref();
-        let (decided, stamps, disagreements, tally, ledger_path) = match &opened {
+        let (mut decided, stamps, tally, ledger_path) = match &opened {
             Some(l) => {
                 let entries = ledger == LedgerUse::ReadEntries;
-                let (mut decided, stamps) = match read {
+                let (decided, stamps) = match read {
                     Some(read) => l.decided_ahead(cat, vetter, read, entries)?,
                     None if entries => l.decided_with_stamps(cat, vetter)?,
                     None => (l.decided(cat, vetter)?, Stamps::default()),
@@ -317,11 +387,9 @@ impl Session {
                 if let Some(n) = crate::cli::args::gone_note(&decided.not_listed) {
                     eprintln!("starsift: note: {n}");
                 }
-                let disagreements = std::mem::take(&mut decided.disagreements);
                 (
                     Some(decided),
                     stamps,
-                    disagreements,
                     if ledger == LedgerUse::ReadTally {
                         l.tally()?
                     } else {
@@ -330,19 +398,14 @@ impl Session {
                     Some(l.path().display().to_string()),
                 )
             }
-            None => (
-                None,
-                Stamps::default(),
-                BTreeMap::new(),
-                Tally::default(),
-                None,
-            ),
+            None => (None, Stamps::default(), Tally::default(), None),
         };
         let live = match model {
-            Ok(m) => odds_of(cat, m, &checks, decided),
+            Ok(m) => odds_of(cat, m, &checks, decided.as_mut()),
             Err(CliError::Model(e)) => Err(e),
             Err(e) => return Err(e),
         };
+        let disagreements = decided.map(|d| d.disagreements).unwrap_or_default();
         Ok(Session {
             loaded,
             settings,

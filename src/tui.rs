@@ -230,12 +230,6 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         (Some(l), None) => Some(l.decided(&loaded.catalogue, vetter)?),
         (None, _) => None,
     };
-    let disagree = decided
-        .as_mut()
-        .map(|d| {
-            crate::selection::disagreeing(&loaded.catalogue, &std::mem::take(&mut d.disagreements))
-        })
-        .unwrap_or_default();
     notes.extend(
         decided
             .as_ref()
@@ -247,8 +241,11 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         &loaded.catalogue,
         model.model(&loaded.survey)?,
         &checks,
-        decided,
+        decided.as_mut(),
     )?;
+    let disagree = decided
+        .map(|d| crate::selection::disagreeing(&loaded.catalogue, &d.disagreements))
+        .unwrap_or_default();
     let cat = Arc::new(loaded.catalogue);
     // The values are read from now on, behind the table being drawn.
     let values = counting.then(|| {

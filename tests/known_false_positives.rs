@@ -387,6 +387,7 @@ UN,UN-3,,,,,,,,,1,1,5772,PC,\n";
         &checks,
         vec![Decision::Open; cat.len()],
         &[],
+        Vec::new(),
     )
     .unwrap();
     for s in ["SK-1", "SK-2", "KD-1", "KD-2", "KP-1", "KP-2"] {

@@ -282,9 +282,11 @@ Gaia 112,G112-b,17.3,0.00001,102.3,0.001,600,4.0,25,0.3,1,1,5772,152.000000,20.0
     };
     let open = vec![starsift::decision::Decision::Open; cat.len()];
     let first =
-        starsift::session::odds_with(&cat, model.clone(), &checks, open.clone(), &[]).unwrap();
+        starsift::session::odds_with(&cat, model.clone(), &checks, open.clone(), &[], Vec::new())
+            .unwrap();
     let again =
-        starsift::session::odds_with(&cat, model, &checks, open, first.unseen_fps()).unwrap();
+        starsift::session::odds_with(&cat, model, &checks, open, first.unseen_fps(), Vec::new())
+            .unwrap();
     let status =
         |live: &starsift::odds::Live, id: &str| live.status(cat.find_candidate(id).unwrap());
     for id in ["T512-b", "G112-a", "G112-b", "M12-a", "M12-b"] {

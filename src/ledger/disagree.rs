@@ -197,9 +197,17 @@ impl Ledger {
     /// its own entries (the candidate index), for the browser after a
     /// decision.
     pub fn disagreed_on(&self, candidate: &str) -> Result<bool, LedgerError> {
+        Ok(!self.disagreement_on(candidate)?.is_empty())
+    }
+
+    /// Each vetter's latest entry on `candidate`, sorted by vetter, when
+    /// their latest decisions differ; empty when they agree. From its own
+    /// entries (the candidate index), as [`Ledger::disagreements`] has it
+    /// of every candidate.
+    pub fn disagreement_on(&self, candidate: &str) -> Result<Vec<Entry>, LedgerError> {
         let mut vetters = Vetters::default();
-        let rows: Vec<Seen> = self
-            .history(Some(candidate))?
+        let history = self.history(Some(candidate))?;
+        let rows: Vec<Seen> = history
             .iter()
             .map(|e| Seen {
                 id: e.id,
@@ -208,7 +216,13 @@ impl Ledger {
             })
             .collect();
         // One candidate: every row in group 0.
-        Ok(!disagreeing(&rows, &vec![0; rows.len()], 1).is_empty())
+        let ids = disagreeing(&rows, &vec![0; rows.len()], 1);
+        let mut latest: Vec<Entry> = history
+            .into_iter()
+            .filter(|e| ids.binary_search(&e.id).is_ok())
+            .collect();
+        latest.sort_by(|a, b| a.vetter.cmp(&b.vetter));
+        Ok(latest)
     }
 
     /// The entries of `ids` (ascending), in that order.

@@ -22,11 +22,13 @@ use crate::flags::{Flag, FlagSet};
 
 use super::fenwick::Fenwick;
 
+mod disputes;
 mod held;
 mod links;
 mod margins;
 mod per_candidate;
 mod place;
+pub use disputes::Dispute;
 pub use held::{Hold, names_false_positive};
 use margins::Margins;
 use per_candidate::PerCandidate;
@@ -115,6 +117,9 @@ pub struct Live {
     links: Vec<StarLink>,
     /// The stars whose other ids were looked for (`links` has theirs).
     links_asked: Vec<StarId>,
+    /// Candidates whose vetters disagree whether they are a false
+    /// positive, by star ([`Dispute`]): their stars are held back.
+    disputes: Vec<Dispute>,
     /// The rows are threshold-crossing events ([`Catalogue::events`]): a
     /// candidate counts only once a vetter keeps it ([`Live::unvetted`]).
     events: bool,
@@ -264,6 +269,7 @@ impl Live {
             unseen_fp: unseen_fp.into(),
             links: Vec::new(),
             links_asked: Vec::new(),
+            disputes: Vec::new(),
             events: cat.events,
             input_warnings,
         };
@@ -578,6 +584,7 @@ impl Live {
             self.unseen_fp.to_vec(),
         )?;
         live.add_links(&self.links_asked, self.links.clone());
+        live.set_disputes(self.disputes.clone());
         Ok(live)
     }
 
@@ -629,8 +636,11 @@ impl Live {
         let members = self.index.members(s);
         let fp = self.known_fp_among(members, &decision);
         // A false positive no loaded row shows holds every member, as one
-        // a vetter rejected under another id of the star does.
-        let unseen = self.unseen_fp(s).is_some() || self.linked_fp(s, &decision).is_some();
+        // a vetter rejected under another id of the star does, and as one
+        // rejected by a vetter while another decided otherwise (a dispute).
+        let unseen = self.unseen_fp(s).is_some()
+            || self.dispute(s).is_some()
+            || self.linked_fp(s, &decision).is_some();
         members
             .iter()
             .map(|&c| {

@@ -720,6 +720,7 @@ impl App {
             &checks,
             decisions,
             self.live.unseen_fps(),
+            self.live.disputes().to_vec(),
         );
         self.apply_built(checks, live);
     }
@@ -740,6 +741,7 @@ impl App {
                     .filter(|&(c, now)| live.decision(c) != now)
                     .collect();
                 decide::set_decisions(&mut live, &self.cat, &since);
+                live.set_disputes(self.live.disputes().to_vec());
                 self.live = live;
             }
             Err(e) => self.message = Some(format!("checks not applied: {e}")),

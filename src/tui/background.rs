@@ -135,10 +135,11 @@ impl Running {
             let counted = Arc::clone(&counted);
             // The odds with the checks are built there too, from the decisions
             // of now; those made meanwhile are applied when they arrive.
-            let (model, decisions, gone) = (
+            let (model, decisions, gone, disputes) = (
                 app.live.model().clone(),
                 app::decisions_of(&app.cat, &app.live),
                 app.live.unseen_fps().to_vec(),
+                app.live.disputes().to_vec(),
             );
             std::thread::spawn(move || {
                 let mut checks = crate::checks::run_counted(&cat, &settings, &counted);
@@ -155,7 +156,8 @@ impl Running {
                 } else {
                     Default::default()
                 };
-                let live = crate::session::odds_with(&cat, model, &checks, decisions, &gone);
+                let live =
+                    crate::session::odds_with(&cat, model, &checks, decisions, &gone, disputes);
                 let _ = checks_tx.send((checks, live, run));
             });
         }

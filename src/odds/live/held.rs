@@ -28,6 +28,10 @@ pub enum Hold {
     /// (`UnseenFp`: a skipped row, or a ledger decision on a candidate the
     /// catalogue no longer has), `why` for people.
     UnseenSibling { why: String },
+    /// On a star where vetters disagree whether `fp` is a false positive:
+    /// one rejected it as one, the decision in force does not (`why` for
+    /// people; docs/science.md §1.1).
+    Disputed { fp: CandidateId, why: String },
     /// On a star that is also star `other` (as `tie` shows), where a
     /// vetter rejected `fp` as a false positive (`reason`).
     OtherId {
@@ -58,6 +62,12 @@ impl Live {
         let Some(fp) = self.known_fp_among(members, |m| self.decision[m as usize]) else {
             if let Some(u) = self.unseen_fp(self.star_of(c)) {
                 return Some(Hold::UnseenSibling { why: u.why.clone() });
+            }
+            if let Some(d) = self.dispute(self.star_of(c)) {
+                return Some(Hold::Disputed {
+                    fp: d.candidate,
+                    why: d.why.clone(),
+                });
             }
             let (fp, reason, link) =
                 self.linked_fp(self.star_of(c), |m| self.decision[m as usize])?;
@@ -106,6 +116,7 @@ impl Live {
         let mut unvetted = 0;
         let mut group_out = 0;
         let mut siblings = 0;
+        let mut disputed = 0;
         let mut by_flag: std::collections::BTreeMap<&'static str, usize> = Default::default();
         for c in 0..self.status.len() as CandidateId {
             match self.hold(c) {
@@ -118,6 +129,7 @@ impl Live {
                 Some(Hold::Sibling { .. } | Hold::UnseenSibling { .. } | Hold::OtherId { .. }) => {
                     siblings += 1
                 }
+                Some(Hold::Disputed { .. }) => disputed += 1,
                 None => {}
             }
         }
@@ -141,6 +153,12 @@ impl Live {
             out.push((
                 "on a star with a known false positive".to_string(),
                 siblings,
+            ));
+        }
+        if disputed > 0 {
+            out.push((
+                "on a star where vetters disagree on a false positive".to_string(),
+                disputed,
             ));
         }
         out.extend(by_flag.into_iter().map(|(f, n)| (format!("flag {f}"), n)));

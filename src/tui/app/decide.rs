@@ -111,8 +111,6 @@ impl App {
                     return None;
                 }
             }
-            let decided: Vec<CandidateId> = rows.iter().map(|r| r.0).collect();
-            self.refresh_disagree(&decided);
         }
         let steps: Vec<Step> = rows
             .iter()
@@ -130,6 +128,8 @@ impl App {
         } else {
             let decided: Vec<_> = steps.iter().map(|st| (st.candidate, st.after)).collect();
             set_decisions(&mut self.live, &self.cat, &decided);
+            let decided: Vec<CandidateId> = decided.iter().map(|d| d.0).collect();
+            self.refresh_disagree(&decided);
             self.forget_orders(false);
             self.refresh_view();
             self.refresh_history(true);
@@ -141,6 +141,7 @@ impl App {
         let s = self.cat.star_of(c);
         let ranks = self.odds_rank_by_size();
         set_decisions(&mut self.live, &self.cat, &[(c, d)]);
+        self.refresh_disagree(&[c]);
         let moved = self.live.stars_moved_by(c);
         self.keep_orders(&moved, ranks);
         self.pinned = Some(s);
@@ -253,8 +254,11 @@ impl App {
 
     /// Where vetters disagree, again for the candidates just decided (from
     /// their own entries), or past [`REFRESH_ONE_BY_ONE`] of them, from the
-    /// whole ledger. Decisions other vetters record meanwhile show at the
-    /// next start, or the next decision on their candidate.
+    /// whole ledger; and so where they disagree whether a candidate is a
+    /// false positive (`session::dispute_of`), which the odds hold back.
+    /// Call once the decisions are in the odds: a dispute is against the
+    /// decision in force. Decisions other vetters record meanwhile show at
+    /// the next start, or the next decision on their candidate.
     fn refresh_disagree(&mut self, decided: &[CandidateId]) {
         let Some(l) = self.ledger.as_ref() else {
             return;
@@ -262,19 +266,24 @@ impl App {
         if decided.len() > REFRESH_ONE_BY_ONE {
             if let Ok(d) = l.disagreements() {
                 self.disagree = crate::selection::disagreeing(&self.cat, &d);
+                let now = decisions_of(&self.cat, &self.live);
+                let disputes = crate::session::disputes_of(&self.cat, &now, &d);
+                self.live.set_disputes(disputes);
             }
             return;
         }
         for &c in decided {
-            match l.disagreed_on(self.cat.candidate_id(c)) {
-                Ok(true) => {
+            // On an error the marks are left as they were: the decision
+            // itself is recorded.
+            if let Ok(latest) = l.disagreement_on(self.cat.candidate_id(c)) {
+                if latest.is_empty() {
+                    self.disagree.remove(&c);
+                } else {
                     self.disagree.insert(c);
                 }
-                Ok(false) => {
-                    self.disagree.remove(&c);
-                }
-                // Left as it was: the decision itself is recorded.
-                Err(_) => {}
+                let d = self.live.decision(c);
+                let dispute = crate::session::dispute_of(&self.cat, c, d, &latest);
+                self.live.set_dispute(c, dispute);
             }
         }
     }

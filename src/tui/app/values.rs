@@ -37,12 +37,14 @@ impl From<std::sync::Arc<Catalogue>> for ValuesIn {
 
 /// What the odds are built from when the values arrive
 /// (`App::odds_of_the_values`): the model, every candidate's decision, and
-/// the stars known to host a false positive that no loaded row shows.
+/// the stars known to host a false positive that no loaded row shows, and
+/// where vetters disagree on one.
 #[derive(Clone, Debug, PartialEq)]
 pub struct OddsFrom {
     model: Model,
     decisions: Vec<Decision>,
     gone: Vec<UnseenFp>,
+    disputes: Vec<crate::odds::Dispute>,
 }
 
 impl OddsFrom {
@@ -52,12 +54,20 @@ impl OddsFrom {
             model: live.model().clone(),
             decisions: decisions_of(cat, live),
             gone: live.unseen_fps().to_vec(),
+            disputes: live.disputes().to_vec(),
         }
     }
 
     /// The odds of the whole catalogue `cat` from these and `checks`.
     fn odds(self, cat: &Catalogue, checks: &Checks) -> Result<Live, ModelError> {
-        crate::session::odds_with(cat, self.model, checks, self.decisions, &self.gone)
+        crate::session::odds_with(
+            cat,
+            self.model,
+            checks,
+            self.decisions,
+            &self.gone,
+            self.disputes,
+        )
     }
 }
 

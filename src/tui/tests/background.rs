@@ -28,14 +28,21 @@ fn checks_built_in_the_background_keep_the_decisions_made_meanwhile() {
     act(&mut app, Action::Select);
     let rejected = app.live.decision(c);
     assert!(rejected.is_rejected());
-    let built = crate::session::odds_with(&cat, model, &checks, at_start, &[]);
+    let built = crate::session::odds_with(&cat, model, &checks, at_start, &[], Vec::new());
     let _ = app.update(Input::ChecksBuilt(Box::new((checks.clone(), built))));
     assert!(!app.checks_pending);
     assert_eq!(app.live.decision(c), rejected);
     // The odds of the checks and of every decision now, as if built then.
     let now = crate::tui::app::decisions_of(&cat, &app.live);
-    let fresh =
-        crate::session::odds_with(&cat, app.live.model().clone(), &checks, now, &[]).unwrap();
+    let fresh = crate::session::odds_with(
+        &cat,
+        app.live.model().clone(),
+        &checks,
+        now,
+        &[],
+        Vec::new(),
+    )
+    .unwrap();
     assert!(app.live.same_odds_state(&fresh));
     for m in 0..n as crate::catalogue::CandidateId {
         assert_eq!(app.live.odds(m), fresh.odds(m));
@@ -373,6 +380,7 @@ fn the_odds_are_built_again_from_the_values_with_every_decision() {
         &crate::checks::Checks::none(app.cat.len()),
         now,
         &[],
+        Vec::new(),
     )
     .unwrap();
     assert!(app.live.same_odds_state(&fresh));
@@ -454,6 +462,7 @@ fn the_odds_built_with_the_values_on_their_thread_are_taken_when_nothing_was_dec
         &crate::checks::Checks::none(whole.cat.len()),
         crate::tui::app::decisions_of(&app.cat, &app.live),
         app.live.unseen_fps(),
+        app.live.disputes().to_vec(),
     )
     .unwrap();
     let _ = app.update(Input::Values(Ok(whole)));

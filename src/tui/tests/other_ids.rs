@@ -65,7 +65,15 @@ fn reject_as_binary(app: &mut App, c: CandidateId) {
 /// a command builds them.
 fn from_scratch(app: &App, checks: &crate::checks::Checks) -> Live {
     let now = crate::tui::app::decisions_of(&app.cat, &app.live);
-    crate::session::odds_with(&app.cat, app.live.model().clone(), checks, now, &[]).unwrap()
+    crate::session::odds_with(
+        &app.cat,
+        app.live.model().clone(),
+        checks,
+        now,
+        &[],
+        Vec::new(),
+    )
+    .unwrap()
 }
 
 #[test]
@@ -111,7 +119,7 @@ fn checks_arriving_after_the_rejection_keep_the_other_id_held() {
     let at_start = crate::tui::app::decisions_of(&app.cat, &app.live);
     let binary = app.cat.find_candidate("TOI-906.03").unwrap();
     reject_as_binary(&mut app, binary);
-    let built = crate::session::odds_with(&app.cat, model, &checks, at_start, &[]);
+    let built = crate::session::odds_with(&app.cat, model, &checks, at_start, &[], Vec::new());
     let _ = app.update(Input::ChecksBuilt(Box::new((checks.clone(), built))));
     let planet = app.cat.find_candidate("TOI-906.01").unwrap();
     assert_eq!(app.live.status(planet), Status::Held);
@@ -154,8 +162,14 @@ fn a_rejection_that_holds_another_id_moves_that_star_in_every_order() {
     use crate::tui::app::SortKey;
     let (mut app, checks) = checks_pending_on(split_family(), 50_000);
     let decisions = crate::tui::app::decisions_of(&app.cat, &app.live);
-    let built =
-        crate::session::odds_with(&app.cat, app.live.model().clone(), &checks, decisions, &[]);
+    let built = crate::session::odds_with(
+        &app.cat,
+        app.live.model().clone(),
+        &checks,
+        decisions,
+        &[],
+        Vec::new(),
+    );
     let _ = app.update(Input::ChecksBuilt(Box::new((checks, built))));
     let sorts = [SortKey::Multiplicity, SortKey::BestOdds];
     for (sort, descending) in sorts.into_iter().flat_map(|s| [(s, false), (s, true)]) {

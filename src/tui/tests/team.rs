@@ -71,3 +71,96 @@ fn a_changed_catalogue_is_said_after_the_start_notes_not_over_them() {
     assert!(app.message.unwrap().contains("changed since"));
     let _ = std::fs::remove_dir_all(dir);
 }
+
+#[test]
+fn another_vetters_rejection_as_a_false_positive_holds_the_star_until_they_agree() {
+    use crate::catalogue::CandidateId;
+    use crate::odds::{Hold, Status, Verdict};
+    let (dir, mut app) = demo_app_with_ledger("dispute");
+    app.advance = false;
+    // A candidate validated in a system of two or more.
+    let c = (0..app.cat.len() as CandidateId)
+        .find(|&c| app.live.verdict(c) == Verdict::Validated && app.live.k(c) >= 2)
+        .unwrap();
+    app.go_to(c);
+    assert_eq!(app.candidate(), Some(c));
+    let members = app.cat.members(app.cat.star_of(c)).to_vec();
+    let id = app.cat.candidate_id(c).to_string();
+    let star = app.cat.star_id(app.cat.star_of(c)).to_string();
+    let record = |app: &mut App, decision: Decision| {
+        app.ledger
+            .as_mut()
+            .unwrap()
+            .record(&NewDecision {
+                candidate: &id,
+                star: &star,
+                vetter: "other",
+                decision,
+                note: None,
+                undoes: None,
+            })
+            .unwrap();
+    };
+    // Another vetter rejected it as an eclipsing binary; this browser's
+    // vetter keeps it: while they disagree, the star is held back.
+    record(
+        &mut app,
+        Decision::Rejected(crate::decision::Reason::EclipsingBinary),
+    );
+    act(&mut app, Action::Keep);
+    assert_eq!(app.live.decision(c), Decision::Kept);
+    assert!(app.disagree.contains(&c));
+    for &m in &members {
+        assert_eq!(app.live.status(m), Status::Held);
+        assert_ne!(app.live.verdict(m), Verdict::Validated);
+        assert!(matches!(app.live.hold(m), Some(Hold::Disputed { fp, .. }) if fp == c));
+    }
+    // As the odds from nothing, and as every command builds them from the
+    // ledger (`session::odds_of`).
+    let same_as_the_commands = |app: &App| {
+        let l = app.ledger.as_ref().unwrap();
+        let mut decided = l.decided(&app.cat, None).unwrap();
+        let fresh = crate::session::odds_of(
+            &app.cat,
+            app.live.model().clone(),
+            &app.checks,
+            Some(&mut decided),
+        )
+        .unwrap();
+        app.live.same_odds_state(&fresh)
+            && app.live.disputes() == fresh.disputes()
+            && app
+                .live
+                .same_odds_state(&app.live.rebuilt(&app.cat).unwrap())
+    };
+    assert!(same_as_the_commands(&app));
+    let text = crate::odds::hold_text(&app.cat, &app.live, members[0]);
+    assert!(
+        text.contains("other rejected it as eclipsing-binary") && text.contains("kept"),
+        "{text}"
+    );
+    // This vetter rejects it as one too: no dispute, a known false
+    // positive, whose siblings are held as such.
+    act(&mut app, Action::Reject);
+    act(&mut app, Action::Select);
+    assert_eq!(
+        app.live.decision(c),
+        Decision::Rejected(crate::decision::Reason::EclipsingBinary)
+    );
+    assert!(app.live.disputes().is_empty());
+    assert!(same_as_the_commands(&app));
+    // Taken back: kept again, and disputed again.
+    act(&mut app, Action::Undo);
+    assert_eq!(app.live.decision(c), Decision::Kept);
+    assert_eq!(app.live.disputes().len(), 1);
+    assert!(same_as_the_commands(&app));
+    // The other vetter keeps it too: once this browser decides on it again,
+    // they agree and the system counts.
+    record(&mut app, Decision::Kept);
+    act(&mut app, Action::Park);
+    act(&mut app, Action::Keep);
+    assert!(app.live.disputes().is_empty());
+    assert_eq!(app.live.verdict(c), Verdict::Validated);
+    assert!(same_as_the_commands(&app));
+    let _ = std::fs::remove_dir_all(&dir);
+}

@@ -1,0 +1,96 @@
+//! A team's ledger: where vetters disagree whether a candidate is a false
+//! positive (one rejected it as an eclipsing binary, a blend or a
+//! stellar-size companion; the decision in force does not), its star is
+//! held back until they agree (docs/science.md §1.1), in every command and
+//! every vetter's view alike. Invented catalogues.
+
+mod common;
+
+use common::{HEAD, agreed, background, reject, starsift, stderr, stdout, verdicts, written};
+
+/// A clean trio (periods far from any alias or unstable ratio) and a clean
+/// pair beside the background.
+const ROWS: &str = "\
+T,T-1,4.1,0.00001,100.0,0.001,700,3.0,30,0.3,1,1,5772\n\
+T,T-2,9.7,0.00001,101.0,0.001,650,3.6,28,0.3,1,1,5772\n\
+T,T-3,21.9,0.00001,102.0,0.001,640,4.7,26,0.3,1,1,5772\n\
+P,P-1,4.4,0.00001,100.3,0.001,700,3.0,30,0.3,1,1,5772\n\
+P,P-2,10.4,0.00001,101.3,0.001,650,3.6,28,0.3,1,1,5772\n";
+
+fn keep(c: &str, candidate: &str, vetter: &str) {
+    let o = starsift(&[
+        "decide",
+        c,
+        "--candidate",
+        candidate,
+        "--decision",
+        "kept",
+        "--vetter",
+        vetter,
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+}
+
+#[test]
+fn a_rejection_as_a_false_positive_that_another_vetter_overrode_holds_the_star() {
+    let cat = written("team_dispute", &format!("{HEAD}{}{ROWS}", background()));
+    let c = cat.to_str().unwrap();
+    let odds = agreed(c);
+    for s in ["T-1", "T-2", "T-3", "P-1", "P-2"] {
+        assert_eq!(odds[s], "validated", "{s}");
+    }
+    // Ann calls T-2 an eclipsing binary; Bob keeps it after her. The latest
+    // decision is Bob's, but Ann's call stands as evidence: the trio is
+    // held back at its prior odds, in the team's view and in each vetter's.
+    reject(c, "T-2", "eclipsing-binary", "ann");
+    keep(c, "T-2", "bob");
+    let team = agreed(c);
+    for s in ["T-1", "T-2", "T-3"] {
+        assert_eq!(team[s], "likely", "{s}");
+    }
+    assert_eq!(team["P-1"], "validated");
+    let bob = verdicts(&["odds", c, "--vetter", "bob", "--format", "csv"]);
+    assert_eq!(bob, team);
+    let ann = verdicts(&["odds", c, "--vetter", "ann", "--format", "csv"]);
+    assert_eq!(ann["T-2"], "rejected");
+    assert_eq!(ann["T-1"], "likely");
+    // Said where it is held, and counted in the cleaning line.
+    let table = stdout(&starsift(&["odds", c]));
+    assert!(
+        table.contains(
+            "vetters disagree whether T-2 is a false positive (ann rejected it as \
+             eclipsing-binary on "
+        ) && table.contains("; bob kept): held until they agree")
+            && table.contains("3 on a star where vetters disagree on a false positive"),
+        "{table}"
+    );
+    // Ann rejects it again, as an artefact: no false positive is named,
+    // and as her decision is the latest, T-2 is out and the pair counts.
+    reject(c, "T-2", "artefact", "ann");
+    let now = agreed(c);
+    assert_eq!(now["T-2"], "rejected");
+    assert_eq!(now["T-1"], "validated");
+    // Both keep it: they agree, and the trio counts again.
+    keep(c, "T-2", "ann");
+    let now = agreed(c);
+    for s in ["T-1", "T-2", "T-3"] {
+        assert_eq!(now[s], "validated", "{s}");
+    }
+    // A blend against a park is a dispute too.
+    reject(c, "T-3", "blend", "ann");
+    let o = starsift(&[
+        "decide",
+        c,
+        "--candidate",
+        "T-3",
+        "--decision",
+        "parked",
+        "--vetter",
+        "bob",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let now = agreed(c);
+    for s in ["T-1", "T-2", "T-3"] {
+        assert_eq!(now[s], "likely", "{s}");
+    }
+}
