@@ -74,7 +74,9 @@ pub fn odds_of(
         Some(d) => {
             let decisions = std::mem::take(&mut d.decisions);
             let disputes = disputes_of(cat, &decisions, &d.disagreements);
-            (decisions, gone_false_positives(cat, &d.gone), disputes)
+            let mut gone = gone_false_positives(cat, &d.gone);
+            gone.extend(gone_disputes(cat, &d.gone, &d.disagreements));
+            (decisions, gone, disputes)
         }
         None => (vec![Decision::Open; cat.len()], Vec::new(), Vec::new()),
     };
@@ -165,6 +167,46 @@ pub fn gone_false_positives(
                     reason.name(),
                     clean(&e.vetter),
                     clean(e.decided_at.get(..10).unwrap_or(&e.decided_at)),
+                ),
+            })
+        })
+        .collect()
+}
+
+/// The stars of candidates the catalogue no longer lists on which vetters
+/// disagree whether they are a false positive: one vetter's latest
+/// decision rejects one as such and the decision in force (`gone`, the
+/// latest entries of the view) does not ([`dispute_of`], for a candidate
+/// no row shows): held as a gone false positive's are.
+pub fn gone_disputes(
+    cat: &crate::catalogue::Catalogue,
+    gone: &[Entry],
+    disagreements: &BTreeMap<String, Vec<Entry>>,
+) -> Vec<crate::checks::UnseenFp> {
+    let fp = |d: Decision| d.reason().is_some_and(crate::odds::names_false_positive);
+    disagreements
+        .iter()
+        .filter(|(id, _)| cat.find_candidate(id).is_none())
+        .filter_map(|(id, latest)| {
+            let in_force = gone.iter().find(|e| &e.candidate == id);
+            if in_force.is_some_and(|e| fp(e.decision)) {
+                // Said by `gone_false_positives` already.
+                return None;
+            }
+            let by = latest
+                .iter()
+                .filter(|e| fp(e.decision))
+                .max_by_key(|e| e.id)?;
+            let star = cat.find_star(&by.star)?;
+            Some(crate::checks::UnseenFp {
+                star,
+                by_tie: false,
+                why: format!(
+                    "{}, no longer in the catalogue, rejected as {} by {} on {}, which other vetters did not (the ledger: vetters disagree)",
+                    clean(id),
+                    by.decision.reason().map_or("", |r| r.name()),
+                    clean(&by.vetter),
+                    clean(by.decided_at.get(..10).unwrap_or(&by.decided_at)),
                 ),
             })
         })

@@ -94,3 +94,34 @@ fn a_rejection_as_a_false_positive_that_another_vetter_overrode_holds_the_star()
         assert_eq!(now[s], "likely", "{s}");
     }
 }
+
+#[test]
+fn a_disputed_candidate_a_new_release_dropped_still_holds_its_star() {
+    let cat = written(
+        "team_dispute_gone",
+        &format!("{HEAD}{}{ROWS}", background()),
+    );
+    let c = cat.to_str().unwrap();
+    reject(c, "T-2", "eclipsing-binary", "ann");
+    keep(c, "T-2", "bob");
+    // The next release no longer lists T-2; its star is still there.
+    let without: String = format!("{HEAD}{}{ROWS}", background())
+        .lines()
+        .filter(|l| !l.starts_with("T,T-2,"))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    std::fs::write(&cat, without).unwrap();
+    for view in [&[][..], &["--vetter", "bob"], &["--vetter", "ann"]] {
+        let mut args = vec!["odds", c, "--format", "csv"];
+        args.extend(view);
+        let v = verdicts(&args);
+        assert_eq!(v["T-1"], "likely", "{view:?}");
+        assert_eq!(v["T-3"], "likely", "{view:?}");
+        assert_eq!(v["P-1"], "validated", "{view:?}");
+    }
+    let table = stdout(&starsift(&["odds", c]));
+    assert!(
+        table.contains("T-2, no longer in the catalogue, rejected as eclipsing-binary by ann"),
+        "{table}"
+    );
+}
