@@ -73,7 +73,11 @@ pub fn odds_of(
     let (decisions, gone, disputes) = match decided {
         Some(d) => {
             let decisions = std::mem::take(&mut d.decisions);
-            let disputes = disputes_of(cat, &decisions, &d.disagreements);
+            let mut disputes = disputes_of(cat, &decisions, &d.disagreements);
+            disputes.extend(d.others_fp.iter().filter_map(|e| {
+                let c = cat.find_candidate(&e.candidate)?;
+                dispute_of(cat, c, decisions[c as usize], std::slice::from_ref(e))
+            }));
             let mut gone = gone_false_positives(cat, &d.gone);
             gone.extend(gone_disputes(cat, &d.gone, &d.disagreements));
             (decisions, gone, disputes)
@@ -85,7 +89,10 @@ pub fn odds_of(
 
 /// Where vetters disagree whether a candidate is a false positive
 /// ([`dispute_of`] of every candidate the ledger's disagreements name and
-/// the catalogue lists), under the decisions in force.
+/// the catalogue lists), under the decisions in force. [`odds_of`] adds, in
+/// one vetter's view, the other vetters' rejections as a false positive of
+/// candidates that vetter has not decided on (`Decided::others_fp`): their
+/// call stands in every view.
 pub fn disputes_of(
     cat: &crate::catalogue::Catalogue,
     decisions: &[Decision],

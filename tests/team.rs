@@ -125,3 +125,31 @@ fn a_disputed_candidate_a_new_release_dropped_still_holds_its_star() {
         "{table}"
     );
 }
+
+#[test]
+fn another_vetters_rejection_as_a_false_positive_holds_the_star_in_every_view() {
+    let cat = written("team_other_view", &format!("{HEAD}{}{ROWS}", background()));
+    let c = cat.to_str().unwrap();
+    // Only Bob has looked at T-2, and calls it a blend; Ann has decided on
+    // another candidate only.
+    reject(c, "T-2", "blend", "bob");
+    keep(c, "P-1", "ann");
+    let ann = verdicts(&["odds", c, "--vetter", "ann", "--format", "csv"]);
+    for s in ["T-1", "T-2", "T-3"] {
+        assert_eq!(ann[s], "likely", "{s}");
+    }
+    assert_eq!(ann["P-1"], "validated");
+    let export = verdicts(&["export", c, "--vetter", "ann", "--format", "csv"]);
+    assert_eq!(export, ann);
+    // A vetter the ledger has never seen: the same.
+    let new = verdicts(&["odds", c, "--vetter", "cyd", "--format", "csv"]);
+    assert_eq!(new, ann);
+    // In the team's view and Bob's, T-2 is rejected and its siblings held.
+    for view in [&[][..], &["--vetter", "bob"]] {
+        let mut args = vec!["odds", c, "--format", "csv"];
+        args.extend(view);
+        let v = verdicts(&args);
+        assert_eq!(v["T-2"], "rejected", "{view:?}");
+        assert_eq!(v["T-1"], "likely", "{view:?}");
+    }
+}

@@ -72,6 +72,13 @@ pub struct Decided {
     /// Where vetters disagree, as [`Ledger::disagreements`] gives it (from
     /// the same scan).
     pub disagreements: BTreeMap<String, Vec<Entry>>,
+    /// Asked for one vetter's decisions: the latest entries of the other
+    /// vetters that reject as a false positive (an eclipsing binary, a
+    /// blend, a stellar-size companion) a catalogue candidate the vetter
+    /// asked for has not decided on, oldest first. Their call stands in
+    /// that vetter's view too (`session::disputes_of`). Empty when no
+    /// vetter is asked.
+    pub others_fp: Vec<Entry>,
 }
 
 impl Ledger {
@@ -281,6 +288,10 @@ impl Ledger {
             });
         }
         let disagree = super::disagree::disagreeing(&rows, &group, cat.len() + unlisted.len());
+        let others_fp = match asked {
+            Some(asked) => self.entries_by_id(&others_fp(&rows, &group, cat.len(), asked))?,
+            None => Vec::new(),
+        };
         let mut gone: Vec<i64> = gone.into_values().collect();
         gone.sort_unstable();
         let mut gone = self.entries_by_id(&gone)?;
@@ -292,6 +303,7 @@ impl Ledger {
             gone,
             not_listed,
             disagreements: super::disagree::by_candidate(self.entries_by_id(&disagree)?),
+            others_fp,
         };
         Ok((decided, latest))
     }
@@ -397,4 +409,48 @@ pub(super) fn entry_from(r: &rusqlite::Row, shared: &mut Interner) -> rusqlite::
         tool_version: text(8)?.map(|v| shared.get(v)),
         undoes: r.get(9)?,
     })
+}
+
+/// The row ids, ascending, of the other vetters' latest decisions that
+/// reject as a false positive a catalogue candidate (`group` below
+/// `listed`) on which vetter `asked` (`None`: a name the ledger has not
+/// seen) has no decision. `rows` in the order made.
+fn others_fp(
+    rows: &[super::disagree::Seen],
+    group: &[u32],
+    listed: usize,
+    asked: Option<u32>,
+) -> Vec<i64> {
+    let fp = |d: Decision| d.reason().is_some_and(crate::odds::names_false_positive);
+    // Only candidates some vetter rejected as a false positive at some
+    // time are followed: a handful of a large ledger.
+    let mut followed: hashbrown::HashSet<u32> = rows
+        .iter()
+        .zip(group)
+        .filter(|&(r, &g)| (g as usize) < listed && fp(r.decision))
+        .map(|(_, &g)| g)
+        .collect();
+    if followed.is_empty() {
+        return Vec::new();
+    }
+    let mut latest: hashbrown::HashMap<(u32, u32), usize> = hashbrown::HashMap::new();
+    for (i, (r, &g)) in rows.iter().zip(group).enumerate() {
+        if !followed.contains(&g) {
+            continue;
+        }
+        if Some(r.vetter) == asked {
+            // The vetter asked decided on it: any difference is a
+            // disagreement, read there.
+            followed.remove(&g);
+            continue;
+        }
+        latest.insert((g, r.vetter), i);
+    }
+    let mut ids: Vec<i64> = latest
+        .into_iter()
+        .filter(|((g, _), i)| followed.contains(g) && fp(rows[*i].decision))
+        .map(|(_, i)| rows[i].id)
+        .collect();
+    ids.sort_unstable();
+    ids
 }

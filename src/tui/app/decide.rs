@@ -267,7 +267,16 @@ impl App {
             if let Ok(d) = l.disagreements() {
                 self.disagree = crate::selection::disagreeing(&self.cat, &d);
                 let now = decisions_of(&self.cat, &self.live);
-                let disputes = crate::session::disputes_of(&self.cat, &now, &d);
+                let mut disputes = crate::session::disputes_of(&self.cat, &now, &d);
+                // The others' calls on candidates this vetter has still not
+                // decided on stand (`Decided::others_fp`).
+                let mut done: HashSet<CandidateId> = decided.iter().copied().collect();
+                done.extend(disputes.iter().map(|x| x.candidate));
+                let kept: Vec<_> = (self.live.disputes().iter())
+                    .filter(|x| !done.contains(&x.candidate))
+                    .cloned()
+                    .collect();
+                disputes.extend(kept);
                 self.live.set_disputes(disputes);
             }
             return;
