@@ -654,12 +654,18 @@ pub fn hold_text(
         Some(Hold::UnseenSibling { why, .. }) => {
             format!("its star hosts a known false positive: {why}")
         }
-        Some(Hold::Disputed { fp, why }) => {
-            format!(
-                "vetters disagree whether {} is a false positive ({why}): held until they agree",
-                id(fp)
-            )
-        }
+        Some(Hold::Disputed { fp, why, other }) => format!(
+            "vetters disagree whether {}{} is a false positive ({why}): held until they agree",
+            id(fp),
+            match other {
+                Some((star, tie)) => format!(
+                    ", on star {} ({}),",
+                    crate::sanitize::clean(cat.star_id(star)),
+                    tie.describe()
+                ),
+                None => String::new(),
+            }
+        ),
         Some(Hold::OtherId {
             fp,
             reason,

@@ -291,6 +291,9 @@ pub fn odds_with(
         unseen,
     )?;
     link_other_ids(&mut live, cat, rejected);
+    // A disputed rejection holds the other ids of its star too, as a
+    // rejection does (docs/science.md §3.4).
+    link_stars(&mut live, cat, disputes.iter().map(|d| d.star));
     live.set_disputes(disputes);
     // What the checks say of the inputs, among the other input warnings.
     live.input_warnings.extend(checks.notes().iter().cloned());
@@ -307,10 +310,22 @@ pub fn link_other_ids(
     cat: &crate::catalogue::Catalogue,
     decided: impl IntoIterator<Item = (crate::catalogue::CandidateId, Decision)>,
 ) {
-    let mut ask: Vec<_> = decided
+    let stars = decided
         .into_iter()
         .filter(|(_, d)| d.reason().is_some_and(crate::odds::names_false_positive))
-        .map(|(c, _)| cat.star_of(c))
+        .map(|(c, _)| cat.star_of(c));
+    link_stars(live, cat, stars);
+}
+
+/// Finds the other ids of `stars` where `live` has not looked yet (one
+/// pass over the catalogue for all of them, only when there are some).
+pub fn link_stars(
+    live: &mut Live,
+    cat: &crate::catalogue::Catalogue,
+    stars: impl IntoIterator<Item = crate::catalogue::StarId>,
+) {
+    let mut ask: Vec<_> = stars
+        .into_iter()
         .filter(|&s| !live.links_asked(s))
         .collect();
     if ask.is_empty() {

@@ -153,3 +153,30 @@ fn another_vetters_rejection_as_a_false_positive_holds_the_star_in_every_view() 
         assert_eq!(v["T-1"], "likely", "{view:?}");
     }
 }
+
+#[test]
+fn a_disputed_rejection_holds_the_other_ids_of_its_star_too() {
+    // Invented: one host under two catalogues' ids (a candidate family split
+    // over `TIC 778` and `Gaia 4411`, docs/science.md §3.4). Ann rejects
+    // the family's third member as an eclipsing binary at one id; Bob
+    // keeps it. The planets at the other id are held, as a rejection
+    // holds them.
+    let rows = "\
+TIC 778,TOI-902.01,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772\n\
+TIC 778,TOI-902.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772\n\
+Gaia 4411,TOI-902.03,2.7,0.00001,101.3,0.001,900,2.0,30,0.3,1,1,5772\n";
+    let cat = written("team_dispute_ids", &format!("{HEAD}{}{rows}", background()));
+    let c = cat.to_str().unwrap();
+    assert_eq!(agreed(c)["TOI-902.01"], "validated");
+    reject(c, "TOI-902.03", "eclipsing-binary", "ann");
+    keep(c, "TOI-902.03", "bob");
+    let v = agreed(c);
+    for s in ["TOI-902.01", "TOI-902.02", "TOI-902.03"] {
+        assert_eq!(v[s], "likely", "{s}");
+    }
+    let table = stdout(&starsift(&["odds", c]));
+    assert!(
+        table.contains("vetters disagree whether TOI-902.03, on star Gaia 4411 ("),
+        "{table}"
+    );
+}

@@ -639,7 +639,7 @@ impl Live {
         // a vetter rejected under another id of the star does, and as one
         // rejected by a vetter while another decided otherwise (a dispute).
         let unseen = self.unseen_fp(s).is_some()
-            || self.dispute(s).is_some()
+            || self.dispute_here_or_linked(s).is_some()
             || self.linked_fp(s, &decision).is_some();
         members
             .iter()

@@ -9,6 +9,7 @@
 //! sets them again for the candidates it decides on.
 
 use super::*;
+use crate::checks::StarLink;
 
 /// A candidate whose vetters disagree whether it is a false positive.
 #[derive(Clone, Debug, PartialEq)]
@@ -24,6 +25,23 @@ impl Live {
     pub fn dispute(&self, s: StarId) -> Option<&Dispute> {
         let i = self.disputes.partition_point(|d| d.star < s);
         self.disputes.get(i).filter(|d| d.star == s)
+    }
+
+    /// The first dispute on a candidate of star s or of one of its other
+    /// ids (as far as [`Live::add_links`] has them; docs/science.md §3.4),
+    /// with the link it came by.
+    pub(super) fn dispute_here_or_linked(
+        &self,
+        s: StarId,
+    ) -> Option<(&Dispute, Option<&StarLink>)> {
+        if self.disputes.is_empty() {
+            return None;
+        }
+        self.dispute(s).map(|d| (d, None)).or_else(|| {
+            self.links_of(s)
+                .iter()
+                .find_map(|l| Some((self.dispute(l.other)?, Some(l))))
+        })
     }
 
     /// Every dispute this state holds, by star: what a rebuild takes again.
@@ -49,7 +67,11 @@ impl Live {
             self.disputes.insert(at, d);
         }
         let star = self.star_of(c);
-        self.replace_stars(&[star]);
+        let mut stars = vec![star];
+        stars.extend(self.links_of(star).iter().map(|l| l.other));
+        stars.sort_unstable();
+        stars.dedup();
+        self.replace_stars(&stars);
     }
 
     /// Replaces every dispute, placing again the stars of the old and the
@@ -60,8 +82,14 @@ impl Live {
         if all == self.disputes {
             return;
         }
-        // Every star of either list: a few, and placing one is cheap.
+        // Every star of either list and their other ids: a few, and
+        // placing one is cheap.
         let mut stars: Vec<StarId> = self.disputes.iter().chain(&all).map(|d| d.star).collect();
+        let linked: Vec<StarId> = stars
+            .iter()
+            .flat_map(|&s| self.links_of(s).iter().map(|l| l.other))
+            .collect();
+        stars.extend(linked);
         self.disputes = all;
         stars.sort_unstable();
         stars.dedup();

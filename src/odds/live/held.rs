@@ -31,7 +31,13 @@ pub enum Hold {
     /// On a star where vetters disagree whether `fp` is a false positive:
     /// one rejected it as one, the decision in force does not (`why` for
     /// people; docs/science.md §1.1).
-    Disputed { fp: CandidateId, why: String },
+    /// On another id of that star when `other` says so (the id, and the
+    /// tie that makes it one star: docs/science.md §3.4).
+    Disputed {
+        fp: CandidateId,
+        why: String,
+        other: Option<(StarId, crate::checks::Tie)>,
+    },
     /// On a star that is also star `other` (as `tie` shows), where a
     /// vetter rejected `fp` as a false positive (`reason`).
     OtherId {
@@ -63,10 +69,11 @@ impl Live {
             if let Some(u) = self.unseen_fp(self.star_of(c)) {
                 return Some(Hold::UnseenSibling { why: u.why.clone() });
             }
-            if let Some(d) = self.dispute(self.star_of(c)) {
+            if let Some((d, link)) = self.dispute_here_or_linked(self.star_of(c)) {
                 return Some(Hold::Disputed {
                     fp: d.candidate,
                     why: d.why.clone(),
+                    other: link.map(|l| (l.other, l.tie.clone())),
                 });
             }
             let (fp, reason, link) =

@@ -277,6 +277,8 @@ impl App {
                     .cloned()
                     .collect();
                 disputes.extend(kept);
+                let stars: Vec<_> = disputes.iter().map(|x| x.star).collect();
+                crate::session::link_stars(&mut self.live, &self.cat, stars);
                 self.live.set_disputes(disputes);
             }
             return;
@@ -292,6 +294,9 @@ impl App {
                 }
                 let d = self.live.decision(c);
                 let dispute = crate::session::dispute_of(&self.cat, c, d, &latest);
+                if let Some(x) = &dispute {
+                    crate::session::link_stars(&mut self.live, &self.cat, [x.star]);
+                }
                 self.live.set_dispute(c, dispute);
             }
         }
