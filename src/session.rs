@@ -119,27 +119,21 @@ pub fn dispute_of(
     in_force: Decision,
     latest: &[Entry],
 ) -> Option<Dispute> {
-    let fp = |d: Decision| d.reason().is_some_and(crate::odds::names_false_positive);
-    if fp(in_force) {
+    if rejects_as_fp(in_force) {
         return None;
     }
-    let by = latest
-        .iter()
-        .filter(|e| fp(e.decision))
-        .max_by_key(|e| e.id)?;
+    let by = newest_fp_rejection(latest)?;
     let others: Vec<String> = latest
         .iter()
-        .filter(|e| !fp(e.decision))
+        .filter(|e| !rejects_as_fp(e.decision))
         .map(|e| format!("{} {}", clean(&e.vetter), e.decision))
         .collect();
     Some(Dispute {
         candidate: c,
         star: cat.star_of(c),
         why: format!(
-            "{} rejected it as {} on {}{}",
-            clean(&by.vetter),
-            by.decision.reason().map_or("", |r| r.name()),
-            clean(by.decided_at.get(..10).unwrap_or(&by.decided_at)),
+            "{}{}",
+            rejected_as(by),
             if others.is_empty() {
                 String::new()
             } else {
@@ -147,6 +141,30 @@ pub fn dispute_of(
             }
         ),
     })
+}
+
+/// Whether a decision rejects its candidate as a false positive of its
+/// star (an eclipsing binary, a blend, a stellar-size companion).
+fn rejects_as_fp(d: Decision) -> bool {
+    d.reason().is_some_and(crate::odds::names_false_positive)
+}
+
+/// The newest of `latest` that rejects its candidate as a false positive.
+fn newest_fp_rejection(latest: &[Entry]) -> Option<&Entry> {
+    latest
+        .iter()
+        .filter(|e| rejects_as_fp(e.decision))
+        .max_by_key(|e| e.id)
+}
+
+/// "rejected as REASON by VETTER on DAY", of a rejection's entry.
+fn rejected_as(e: &Entry) -> String {
+    format!(
+        "rejected as {} by {} on {}",
+        e.decision.reason().map_or("", |r| r.name()),
+        clean(&e.vetter),
+        clean(e.decided_at.get(..10).unwrap_or(&e.decided_at)),
+    )
 }
 
 /// The stars a vetter's latest decision calls the host of a false positive
@@ -159,21 +177,15 @@ pub fn gone_false_positives(
     gone: &[Entry],
 ) -> Vec<crate::checks::UnseenFp> {
     gone.iter()
+        .filter(|e| rejects_as_fp(e.decision))
         .filter_map(|e| {
-            let reason = e
-                .decision
-                .reason()
-                .filter(|&r| crate::odds::names_false_positive(r))?;
-            let star = cat.find_star(&e.star)?;
             Some(crate::checks::UnseenFp {
-                star,
+                star: cat.find_star(&e.star)?,
                 by_tie: false,
                 why: format!(
-                    "{}, no longer in the catalogue, rejected as {} by {} on {} (the ledger)",
+                    "{}, no longer in the catalogue, {} (the ledger)",
                     clean(&e.candidate),
-                    reason.name(),
-                    clean(&e.vetter),
-                    clean(e.decided_at.get(..10).unwrap_or(&e.decided_at)),
+                    rejected_as(e)
                 ),
             })
         })
@@ -190,30 +202,23 @@ pub fn gone_disputes(
     gone: &[Entry],
     disagreements: &BTreeMap<String, Vec<Entry>>,
 ) -> Vec<crate::checks::UnseenFp> {
-    let fp = |d: Decision| d.reason().is_some_and(crate::odds::names_false_positive);
     disagreements
         .iter()
         .filter(|(id, _)| cat.find_candidate(id).is_none())
         .filter_map(|(id, latest)| {
             let in_force = gone.iter().find(|e| &e.candidate == id);
-            if in_force.is_some_and(|e| fp(e.decision)) {
+            if in_force.is_some_and(|e| rejects_as_fp(e.decision)) {
                 // Said by `gone_false_positives` already.
                 return None;
             }
-            let by = latest
-                .iter()
-                .filter(|e| fp(e.decision))
-                .max_by_key(|e| e.id)?;
-            let star = cat.find_star(&by.star)?;
+            let by = newest_fp_rejection(latest)?;
             Some(crate::checks::UnseenFp {
-                star,
+                star: cat.find_star(&by.star)?,
                 by_tie: false,
                 why: format!(
-                    "{}, no longer in the catalogue, rejected as {} by {} on {}, which other vetters did not (the ledger: vetters disagree)",
+                    "{}, no longer in the catalogue, {}, which other vetters did not (the ledger: vetters disagree)",
                     clean(id),
-                    by.decision.reason().map_or("", |r| r.name()),
-                    clean(&by.vetter),
-                    clean(by.decided_at.get(..10).unwrap_or(&by.decided_at)),
+                    rejected_as(by)
                 ),
             })
         })

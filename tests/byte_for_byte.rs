@@ -213,10 +213,10 @@ const EXPECTED: &[(&str, &str, u64, usize)] = &[
     // (where vetters disagree, the stamps of export, report's tally, the
     // history written as read).
     ("team", "decide --from", 0xc38f37c3ad8f0771, 90),
-    ("team", "odds --format csv", 0xc284774e9d6c8c58, 1989216),
-    ("team", "export", 0x8da7a3e12e5e4fb2, 4058828),
-    ("team", "export --vetter bob", 0x628e8d9190707041, 4046325),
-    ("team", "report", 0x9746adf9a7429035, 3069),
+    ("team", "odds --format csv", 0xe3fcb5174243e9c8, 1989216),
+    ("team", "export", 0x76ae408cbbf364e6, 4058828),
+    ("team", "export --vetter bob", 0x826e48dc9b746859, 4046325),
+    ("team", "report", 0x12ab91a4c4b37b85, 3069),
     ("team", "history", 0x516326ad6a65368e, 522),
     ("team", "history --format csv", 0xa7cad4a1a64196af, 472),
     ("team", "history --format json", 0x8aa08303dad20f15, 1812),

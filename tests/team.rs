@@ -17,18 +17,24 @@ T,T-3,21.9,0.00001,102.0,0.001,640,4.7,26,0.3,1,1,5772\n\
 P,P-1,4.4,0.00001,100.3,0.001,700,3.0,30,0.3,1,1,5772\n\
 P,P-2,10.4,0.00001,101.3,0.001,650,3.6,28,0.3,1,1,5772\n";
 
-fn keep(c: &str, candidate: &str, vetter: &str) {
+/// Records in the ledger beside catalogue `c` that `vetter` decided
+/// `decision` (without a reason) on `candidate`.
+fn decide(c: &str, candidate: &str, decision: &str, vetter: &str) {
     let o = starsift(&[
         "decide",
         c,
         "--candidate",
         candidate,
         "--decision",
-        "kept",
+        decision,
         "--vetter",
         vetter,
     ]);
     assert!(o.status.success(), "{}", stderr(&o));
+}
+
+fn keep(c: &str, candidate: &str, vetter: &str) {
+    decide(c, candidate, "kept", vetter);
 }
 
 #[test]
@@ -58,8 +64,8 @@ fn a_rejection_as_a_false_positive_that_another_vetter_overrode_holds_the_star()
     let table = stdout(&starsift(&["odds", c]));
     assert!(
         table.contains(
-            "vetters disagree whether T-2 is a false positive (ann rejected it as \
-             eclipsing-binary on "
+            "vetters disagree whether T-2 is a false positive (rejected as \
+             eclipsing-binary by ann on "
         ) && table.contains("; bob kept): held until they agree")
             && table.contains("3 on a star where vetters disagree on a false positive"),
         "{table}"
@@ -78,17 +84,7 @@ fn a_rejection_as_a_false_positive_that_another_vetter_overrode_holds_the_star()
     }
     // A blend against a park is a dispute too.
     reject(c, "T-3", "blend", "ann");
-    let o = starsift(&[
-        "decide",
-        c,
-        "--candidate",
-        "T-3",
-        "--decision",
-        "parked",
-        "--vetter",
-        "bob",
-    ]);
-    assert!(o.status.success(), "{}", stderr(&o));
+    decide(c, "T-3", "parked", "bob");
     let now = agreed(c);
     for s in ["T-1", "T-2", "T-3"] {
         assert_eq!(now[s], "likely", "{s}");

@@ -136,7 +136,7 @@ fn another_vetters_rejection_as_a_false_positive_holds_the_star_until_they_agree
     assert!(same_as_the_commands(&app));
     let text = crate::odds::hold_text(&app.cat, &app.live, members[0]);
     assert!(
-        text.contains("other rejected it as eclipsing-binary") && text.contains("kept"),
+        text.contains("rejected as eclipsing-binary by other") && text.contains("kept"),
         "{text}"
     );
     // This vetter rejects it as one too: no dispute, a known false
