@@ -281,7 +281,7 @@ pub fn odds_with(
     let rejected: Vec<_> = decisions
         .iter()
         .enumerate()
-        .filter(|(_, d)| d.reason().is_some_and(crate::odds::names_false_positive))
+        .filter(|(_, d)| rejects_as_fp(**d))
         .map(|(c, &d)| (c as crate::catalogue::CandidateId, d))
         .collect();
     let mut unseen: Vec<_> = checks.unseen_fp().iter().chain(gone).cloned().collect();
@@ -317,7 +317,7 @@ pub fn link_other_ids(
 ) {
     let stars = decided
         .into_iter()
-        .filter(|(_, d)| d.reason().is_some_and(crate::odds::names_false_positive))
+        .filter(|(_, d)| rejects_as_fp(*d))
         .map(|(c, _)| cat.star_of(c));
     link_stars(live, cat, stars);
 }

@@ -30,9 +30,9 @@ pub enum Hold {
     UnseenSibling { why: String },
     /// On a star where vetters disagree whether `fp` is a false positive:
     /// one rejected it as one, the decision in force does not (`why` for
-    /// people; docs/science.md §1.1).
-    /// On another id of that star when `other` says so (the id, and the
-    /// tie that makes it one star: docs/science.md §3.4).
+    /// people; docs/science.md §1.1). `fp` is on another id of the star
+    /// when `other` names it, with the tie that makes the two one star
+    /// (§3.4).
     Disputed {
         fp: CandidateId,
         why: String,

@@ -29,14 +29,11 @@ impl Live {
         let own_blocking = self.own_blocking();
         let mut k_of = vec![0u32; index.star_count()];
         let mut grouped = vec![false; index.star_count()];
-        // Stars known to host a false positive no loaded row shows, or
-        // one vetters disagree on, are placed whole, as those with one
-        // among their members.
+        // Stars known to host a false positive no loaded row shows are
+        // placed whole, as those with one among their members. (Disputes
+        // come after the start, through `set_disputes`.)
         for u in self.unseen_fp.iter() {
             grouped[u.star as usize] = true;
-        }
-        for d in &self.disputes {
-            grouped[d.star as usize] = true;
         }
         // The stars' counts are read at random (rows in any order): each
         // asked for some rows ahead.
