@@ -206,6 +206,13 @@ N3,N3-3,22.9,0.00001,102.4,0.001,640,4.7,26,0.3,1,1,5772,\n"
     // read as one. A value read as neither set nor unset is said.
     let cat = written("yes_no_fp_binary", &catalogue("binary", &rows("1", "0")));
     assert_eq!(agreed(cat.to_str().unwrap())["Y3-1"], "validated");
+    // A column named `FP` that holds another quantity (numbers above 1)
+    // is no yes or no: said, and not read as flags.
+    let cat = written("yes_no_fp_other", &catalogue("FP", &rows("98.5", "97")));
+    let c = cat.to_str().unwrap();
+    assert_eq!(agreed(c)["Y3-1"], "validated");
+    let e = stderr(&starsift(&["odds", c, "--format", "csv"]));
+    assert!(e.contains("FP holds 2 values read as neither set"), "{e}");
     let cat = written(
         "yes_no_fp_unknown",
         &catalogue("is_eb", &rows("maybe", "0")),

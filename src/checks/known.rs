@@ -198,14 +198,17 @@ fn begins_with_one(n: &str, words: &[&str]) -> bool {
 /// What a false-positive flag's cell says.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 enum FlagCell {
-    /// A number of at least 0.5 (a 1, or a probability that makes a false
+    /// A number from 0.5 to 1 (a 1, or a probability that makes a false
     /// positive the likelier: [`FPP_EVEN`]); `true`, `yes`, `y`, `t` (a FITS
     /// or VOTable logical); or a disposition's word for a false positive
     /// (`EB`, [`says_false_positive`]).
     Set,
-    /// A number below 0.5 (`0`), `false`, `no`, `n`, `f`, or a missing cell.
+    /// A number from 0 to below 0.5 (`0`), `false`, `no`, `n`, `f`, `-`,
+    /// or a missing cell.
     Unset,
-    /// Anything else: read as not set, and named in a note.
+    /// Anything else (a number below 0 or above 1 is no yes or no: a
+    /// column named `fp` of another quantity is not read as flags): read
+    /// as not set, and named in a note.
     Unknown,
 }
 
@@ -215,12 +218,12 @@ fn flag_cell(cell: &str) -> FlagCell {
         return FlagCell::Unset;
     }
     if let Ok(v) = c.parse::<f64>() {
-        return if v >= FPP_EVEN {
+        return if (FPP_EVEN..=1.0).contains(&v) {
             FlagCell::Set
-        } else if v.is_nan() {
-            FlagCell::Unknown
-        } else {
+        } else if (0.0..FPP_EVEN).contains(&v) {
             FlagCell::Unset
+        } else {
+            FlagCell::Unknown
         };
     }
     match c.to_ascii_lowercase().as_str() {
@@ -601,15 +604,13 @@ mod tests {
         ] {
             assert!(!crate::catalogue::names_an_fp_flag(h), "{h}");
         }
-        for set in [
-            "1", " 1 ", "1.0", "2", "true", "Y", "T", "True", "EB", "0.9",
-        ] {
+        for set in ["1", " 1 ", "1.0", "true", "Y", "T", "True", "EB", "0.9"] {
             assert_eq!(flag_cell(set), FlagCell::Set, "{set}");
         }
         for unset in ["0", "0.0", "", "nan", "NA", "no", "false", "F", "-", "0.2"] {
             assert_eq!(flag_cell(unset), FlagCell::Unset, "{unset}");
         }
-        for unknown in ["maybe", "?", "PC"] {
+        for unknown in ["maybe", "?", "PC", "2", "98.5", "-1"] {
             assert_eq!(flag_cell(unknown), FlagCell::Unknown, "{unknown}");
         }
     }
