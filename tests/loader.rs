@@ -591,6 +591,25 @@ fn a_time_columns_name_may_state_its_unit() {
 }
 
 #[test]
+fn a_depths_name_may_state_parts_per_thousand_or_millimagnitudes() {
+    // Invented: a pipeline's table with `depth_ppt` or `depth_mmag`. Before,
+    // those columns matched no field and the table was refused for want of
+    // a depth (the bracketed `Depth (mmag)` was read).
+    let c = common::load_text(
+        "star,candidate,period,epoch,depth_ppt,duration\nA,A-1,3.5,100.5,0.7,3\n",
+    );
+    assert!((c.value(Field::DepthPpm, 0).unwrap() - 700.0).abs() < 1e-9);
+    // 1 mmag is a flux drop of 1 − 10^(−0.4 × 0.001) = 920.6 ppm (Pogson's
+    // ratio, 100^(1/5) per magnitude).
+    let c = common::load_text(
+        "star,candidate,period,epoch,depth_mmag,duration\nA,A-1,3.5,100.5,1.0,3\n",
+    );
+    assert!((c.value(Field::DepthPpm, 0).unwrap() - 920.6).abs() < 0.05);
+    // A unit word on another field is no depth unit.
+    assert_eq!(Field::from_header("period_mmag"), None);
+}
+
+#[test]
 fn durations_in_days_under_a_plain_name_are_said() {
     // Invented rows: 3 h transits at 3.1 and 7.4 d, written in days
     // (0.125 d) under a plain `duration`, which is read as hours. Their

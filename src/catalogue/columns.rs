@@ -361,16 +361,19 @@ impl Field {
         let find = |h: &str| FIELDS.iter().copied().find(|f| f.synonyms().contains(&h));
         find(&header.trim().to_ascii_lowercase())
             .or_else(|| find(&loose(header)))
-            .or_else(|| name_time_unit(header).map(|(f, _)| f))
+            .or_else(|| name_unit(header).map(|(f, _)| f))
     }
 }
 
-/// A time field whose header names its unit as a last word
-/// (`duration_days`, `duration_min`, `period_hours`, `t14_d`) and is not a
-/// synonym as written: the field and the unit, for the unit rules to
-/// convert (`units::conversion`). Only the fields stored in days or hours.
-pub fn name_time_unit(header: &str) -> Option<(Field, &'static str)> {
-    const UNITS: [(&str, &str); 11] = [
+/// A field whose header names its unit as a last word and is not a
+/// synonym as written: a time field stored in days or hours
+/// (`duration_days`, `duration_min`, `period_hours`, `t14_d`), or the depth
+/// in parts per thousand or millimagnitudes (`depth_ppt`, `depth_mmag`: the
+/// depth's other units, `ppm`, `frac`, `pct`, are synonyms of their own).
+/// The field and the unit, for the unit rules to convert
+/// (`units::conversion`, `units::depth_unit`, `units::magnitude_scale`).
+pub fn name_unit(header: &str) -> Option<(Field, &'static str)> {
+    const TIME: [(&str, &str); 11] = [
         ("days", "days"),
         ("day", "days"),
         ("d", "days"),
@@ -383,18 +386,19 @@ pub fn name_time_unit(header: &str) -> Option<(Field, &'static str)> {
         ("mins", "min"),
         ("min", "min"),
     ];
+    const DEPTH: [(&str, &str); 2] = [("ppt", "ppt"), ("mmag", "mmag")];
     let name = loose(header);
     let (stem, last) = name.rsplit_once('_')?;
-    let unit = UNITS.iter().find(|(w, _)| *w == last)?.1;
     let field = FIELDS
         .iter()
         .copied()
         .find(|f| f.synonyms().contains(&stem))?;
-    matches!(
-        field,
-        Field::PeriodD | Field::PeriodErrD | Field::EpochErrD | Field::DurationH
-    )
-    .then_some((field, unit))
+    let units: &[(&str, &'static str)] = match field {
+        Field::PeriodD | Field::PeriodErrD | Field::EpochErrD | Field::DurationH => &TIME,
+        Field::DepthPpm => &DEPTH,
+        _ => return None,
+    };
+    units.iter().find(|(w, _)| *w == last).map(|u| (field, u.1))
 }
 
 /// A header's name and the unit it states in brackets, as archive exports

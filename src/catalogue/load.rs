@@ -424,7 +424,7 @@ fn read_catalogue(
     let unit_of = |h: &String| {
         header_unit(h).1.or_else(|| {
             let as_written = h.trim().to_ascii_lowercase();
-            super::columns::name_time_unit(h)
+            super::columns::name_unit(h)
                 .filter(|(f, _)| !f.synonyms().contains(&as_written.as_str()))
                 .map(|(_, u)| u.to_string())
         })
