@@ -73,11 +73,7 @@ pub fn odds_of(
     let (decisions, gone, disputes) = match decided {
         Some(d) => {
             let decisions = std::mem::take(&mut d.decisions);
-            let mut disputes = disputes_of(cat, &decisions, &d.disagreements);
-            disputes.extend(d.others_fp.iter().filter_map(|e| {
-                let c = cat.find_candidate(&e.candidate)?;
-                dispute_of(cat, c, decisions[c as usize], std::slice::from_ref(e))
-            }));
+            let disputes = disputes_in(cat, &decisions, d);
             let mut gone = gone_false_positives(cat, &d.gone);
             gone.extend(gone_disputes(cat, &d.gone, &d.disagreements));
             (decisions, gone, disputes)
@@ -89,10 +85,7 @@ pub fn odds_of(
 
 /// Where vetters disagree whether a candidate is a false positive
 /// ([`dispute_of`] of every candidate the ledger's disagreements name and
-/// the catalogue lists), under the decisions in force. [`odds_of`] adds, in
-/// one vetter's view, the other vetters' rejections as a false positive of
-/// candidates that vetter has not decided on (`Decided::others_fp`): their
-/// call stands in every view.
+/// the catalogue lists), under the decisions in force.
 pub fn disputes_of(
     cat: &crate::catalogue::Catalogue,
     decisions: &[Decision],
@@ -105,6 +98,23 @@ pub fn disputes_of(
             dispute_of(cat, c, decisions[c as usize], latest)
         })
         .collect()
+}
+
+/// Every dispute a read of the ledger (`decided`) shows under the
+/// decisions in force: where vetters disagree ([`disputes_of`]), and, in
+/// one vetter's view, the other vetters' rejections as a false positive of
+/// candidates that vetter has not decided on (`Decided::others_fp`).
+pub fn disputes_in(
+    cat: &crate::catalogue::Catalogue,
+    decisions: &[Decision],
+    decided: &Decided,
+) -> Vec<Dispute> {
+    let mut disputes = disputes_of(cat, decisions, &decided.disagreements);
+    disputes.extend(decided.others_fp.iter().filter_map(|e| {
+        let c = cat.find_candidate(&e.candidate)?;
+        dispute_of(cat, c, decisions[c as usize], std::slice::from_ref(e))
+    }));
+    disputes
 }
 
 /// Candidate c's dispute: some vetter's latest decision (`latest`, each

@@ -243,6 +243,7 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         &checks,
         decided.as_mut(),
     )?;
+    let newest = decided.as_ref().map_or(0, |d| d.newest);
     let disagree = decided
         .map(|d| crate::selection::disagreeing(&loaded.catalogue, &d.disagreements))
         .unwrap_or_default();
@@ -261,6 +262,7 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
         keymap,
         disagree,
     );
+    app.ledger_seen = newest;
     app.message = skipped_message(&app.cat)
         .into_iter()
         .chain(notes)

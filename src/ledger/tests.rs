@@ -107,6 +107,41 @@ fn disagreements_are_latest_decisions_of_two_vetters_that_differ() {
 }
 
 #[test]
+fn since_says_whether_another_vetter_decided_after_a_row() {
+    let p = temp("since");
+    let mut l = Ledger::open(&p).unwrap();
+    assert_eq!(l.since(0, "ann").unwrap(), (0, false));
+    let a = l.record(&on_s("S-1", "ann", Decision::Kept)).unwrap();
+    // Only Ann's own decision after row 0.
+    assert_eq!(l.since(0, "ann").unwrap(), (a, false));
+    assert_eq!(l.since(0, "bob").unwrap(), (a, true));
+    let b = l
+        .record(&on_s(
+            "S-2",
+            "bob",
+            Decision::Rejected(Reason::EclipsingBinary),
+        ))
+        .unwrap();
+    assert_eq!(l.since(a, "ann").unwrap(), (b, true));
+    // Nothing after the newest.
+    assert_eq!(l.since(b, "ann").unwrap(), (b, false));
+    // A second connection, as the browser's watcher has, sees the same,
+    // and the read of the decisions names the newest row it holds.
+    let other = Ledger::open(&p).unwrap();
+    assert_eq!(other.since(a, "ann").unwrap(), (b, true));
+    let cat = crate::catalogue::Catalogue::load(
+        crate::catalogue::Source::Bytes {
+            name: "s.csv",
+            data: b"star,candidate,period,epoch,depth_ppm,duration_h\nS,S-1,3,1,500,2\nS,S-2,7,1,500,3\n",
+        },
+        &crate::catalogue::LoadOptions::default(),
+    )
+    .unwrap();
+    assert_eq!(other.decided(&cat, None).unwrap().newest, b);
+    assert_eq!(other.decided(&cat, Some("ann")).unwrap().newest, b);
+}
+
+#[test]
 fn migrates_version_1() {
     let p = temp("v1");
     {

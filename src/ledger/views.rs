@@ -57,7 +57,7 @@ impl std::ops::Index<&str> for Latest {
 pub struct ReadAhead(super::disagree::Scan);
 
 /// What the odds need of the ledger for one catalogue ([`Ledger::decided`]).
-#[derive(Debug, Default)]
+#[derive(Clone, Debug, Default)]
 pub struct Decided {
     /// By candidate id: the latest decision on each candidate (of one
     /// vetter when asked), `Open` where there is none.
@@ -79,6 +79,9 @@ pub struct Decided {
     /// that vetter's view too (`session::disputes_of`). Empty when no
     /// vetter is asked.
     pub others_fp: Vec<Entry>,
+    /// The newest decision read (its row id; 0 for none): what a later
+    /// look at the ledger starts after (`Ledger::since`).
+    pub newest: i64,
 }
 
 impl Ledger {
@@ -112,6 +115,24 @@ impl Ledger {
             f(r, &mut shared).map_err(|e| self.classify(e))?;
         }
         Ok(())
+    }
+
+    /// The newest decision's row id (`after` when none is newer), and
+    /// whether a vetter other than `me` recorded any decision after row
+    /// `after`: how a browser learns, cheaply, that its team decided
+    /// something meanwhile (the rows after `after` only are read).
+    pub fn since(&self, after: i64, me: &str) -> Result<(i64, bool), LedgerError> {
+        let (mut newest, mut others) = (after, false);
+        self.each(
+            "SELECT id, vetter FROM decision WHERE id > ?1 ORDER BY id",
+            &[&after],
+            |r, _| {
+                newest = newest.max(r.get(0)?);
+                others |= r.get_ref(1)?.as_str_or_null()?.unwrap_or("") != me;
+                Ok(())
+            },
+        )?;
+        Ok((newest, others))
     }
 
     pub(super) const COLUMNS: &'static str =
@@ -304,6 +325,7 @@ impl Ledger {
             not_listed,
             disagreements: super::disagree::by_candidate(self.entries_by_id(&disagree)?),
             others_fp,
+            newest: rows.iter().map(|r| r.id).max().unwrap_or(0),
         };
         Ok((decided, latest))
     }

@@ -23,6 +23,7 @@ pub(crate) mod action;
 mod decide;
 mod order;
 mod prompt;
+mod team;
 mod values;
 mod view;
 pub use action::Action;
@@ -73,6 +74,9 @@ pub enum Input {
     Seen(Result<(String, String), String>),
     /// A line for the message bar, from a background thread.
     Notice(String),
+    /// The ledger read again after another vetter recorded decisions
+    /// (`App::take_team`).
+    Team(Box<crate::ledger::Decided>),
     /// The background checks stopped without a result: why.
     ChecksFailed(String),
     /// The whole catalogue, read after the table (`App::take_values`), with
@@ -293,6 +297,12 @@ pub struct App {
     /// Filters and finds entered, newest last (kept per catalogue).
     pub filter_history: Vec<String>,
     pub find_history: Vec<String>,
+    /// The newest ledger row the odds hold (`Decided::newest`): the team's
+    /// later decisions are read after it (`App::take_team`).
+    pub ledger_seen: i64,
+    /// The ledger row of each decision made here since the last read of
+    /// the team's (`App::take_team` keeps the newer of the two).
+    own_writes: HashMap<CandidateId, i64>,
 }
 
 /// Memory the sorts of the view reuse.
@@ -378,6 +388,8 @@ impl App {
             signal_view: SignalView::Transit,
             help_scroll: 0,
             checks_pending: false,
+            ledger_seen: 0,
+            own_writes: HashMap::new(),
             checks_failed: false,
             values: Values::In,
             flags_so_far: None,
@@ -582,6 +594,10 @@ impl App {
             }
             Input::Seen(seen) => {
                 self.record_sighting(seen);
+                Vec::new()
+            }
+            Input::Team(decided) => {
+                self.take_team(*decided);
                 Vec::new()
             }
             Input::Orders(orders) => {

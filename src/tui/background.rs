@@ -101,6 +101,9 @@ pub(super) struct Running {
     progress: mpsc::Receiver<(usize, usize)>,
     counted: Arc<crate::checks::CheckProgress>,
     orders: mpsc::Receiver<Orders>,
+    /// The ledger read again after another vetter's decisions, when the
+    /// browser has a ledger ([`watch_team`]).
+    team: Option<mpsc::Receiver<crate::ledger::Decided>>,
 }
 
 /// Every star in the order of each (sort, descending) no decision moves.
@@ -182,6 +185,15 @@ impl Running {
                 cat.prepare_spellings();
             });
         }
+        let team = app.ledger.as_ref().map(|l| {
+            watch_team(
+                l.path().to_path_buf(),
+                app.vetter.clone(),
+                args.vetting.ledger.vetter.clone(),
+                Arc::clone(&app.cat),
+                app.ledger_seen,
+            )
+        });
         Running {
             worker,
             results,
@@ -189,6 +201,7 @@ impl Running {
             progress,
             counted,
             orders,
+            team,
         }
     }
 
@@ -239,10 +252,57 @@ impl Running {
             effects.extend(app.update(Input::Orders(orders)));
             came = true;
         }
+        if let Some(decided) = self.team.as_ref().and_then(|t| t.try_iter().last()) {
+            effects.extend(app.update(Input::Team(Box::new(decided))));
+            came = true;
+        }
         while let Ok((c, r)) = self.results.try_recv() {
             effects.extend(app.update(Input::Signal(c, Box::new(r))));
             came = true;
         }
         came
     }
+}
+
+/// How often the browser looks at its ledger for the team's decisions: a
+/// query of the rows after the last seen (common practice, no source: a
+/// vetter's decisions come seconds apart).
+const TEAM_LOOK: std::time::Duration = std::time::Duration::from_secs(2);
+
+/// Looks at the ledger at `path` every [`TEAM_LOOK`] on a thread of its own
+/// (its own connection) for decisions after row `after`; when a vetter
+/// other than `me` has recorded some, reads the decisions again as the
+/// browser did at its start (`view`: of one vetter, or all) and sends
+/// them. Ends when the browser stops listening, or the ledger cannot be
+/// opened (the browser's own decisions are unaffected).
+fn watch_team(
+    path: std::path::PathBuf,
+    me: String,
+    view: Option<String>,
+    cat: Arc<Catalogue>,
+    mut after: i64,
+) -> mpsc::Receiver<crate::ledger::Decided> {
+    let (tx, rx) = mpsc::channel();
+    std::thread::spawn(move || {
+        let Ok(ledger) = crate::ledger::Ledger::open(&path) else {
+            return;
+        };
+        loop {
+            std::thread::sleep(TEAM_LOOK);
+            let Ok((newest, others)) = ledger.since(after, &me) else {
+                continue;
+            };
+            if !others {
+                after = newest;
+                continue;
+            }
+            if let Ok(decided) = ledger.decided(&cat, view.as_deref()) {
+                after = decided.newest;
+                if tx.send(decided).is_err() {
+                    return;
+                }
+            }
+        }
+    });
+    rx
 }

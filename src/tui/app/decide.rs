@@ -105,7 +105,12 @@ impl App {
                 })
                 .collect();
             match ledger.record_all(&new) {
-                Ok(written) => ids = written.into_iter().map(Some).collect(),
+                Ok(written) => {
+                    for (r, &id) in rows.iter().zip(&written) {
+                        self.own_writes.insert(r.0, id);
+                    }
+                    ids = written.into_iter().map(Some).collect();
+                }
                 Err(e) => {
                     self.message = Some(format!("NOT SAVED: {e}"));
                     return None;
@@ -257,8 +262,8 @@ impl App {
     /// whole ledger; and so where they disagree whether a candidate is a
     /// false positive (`session::dispute_of`), which the odds hold back.
     /// Call once the decisions are in the odds: a dispute is against the
-    /// decision in force. Decisions other vetters record meanwhile show at
-    /// the next start, or the next decision on their candidate.
+    /// decision in force. Decisions other vetters record meanwhile come
+    /// from the ledger's watcher (`App::take_team`).
     fn refresh_disagree(&mut self, decided: &[CandidateId]) {
         let Some(l) = self.ledger.as_ref() else {
             return;

@@ -164,3 +164,87 @@ fn another_vetters_rejection_as_a_false_positive_holds_the_star_until_they_agree
     assert!(same_as_the_commands(&app));
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn the_teams_decisions_made_meanwhile_are_taken_in_and_the_newer_of_two_kept() {
+    use crate::catalogue::CandidateId;
+    use crate::decision::Reason;
+    use crate::odds::{Status, Verdict};
+    let (dir, mut app) = demo_app_with_ledger("team_meanwhile");
+    app.advance = false;
+    let c = (0..app.cat.len() as CandidateId)
+        .find(|&c| app.live.verdict(c) == Verdict::Validated && app.live.k(c) >= 2)
+        .unwrap();
+    let members = app.cat.members(app.cat.star_of(c)).to_vec();
+    let sibling = *members.iter().find(|&&m| m != c).unwrap();
+    let id = app.cat.candidate_id(c).to_string();
+    let star = app.cat.star_id(app.cat.star_of(c)).to_string();
+    let other = |app: &mut App, decision: Decision| {
+        app.ledger
+            .as_mut()
+            .unwrap()
+            .record(&NewDecision {
+                candidate: &id,
+                star: &star,
+                vetter: "other",
+                decision,
+                note: None,
+                undoes: None,
+            })
+            .unwrap()
+    };
+    // The ledger as the watcher reads it (its own connection, the team's
+    // view), and the odds every command builds from the ledger now.
+    let read = |app: &App| {
+        let l = crate::ledger::Ledger::open(app.ledger.as_ref().unwrap().path()).unwrap();
+        l.decided(&app.cat, None).unwrap()
+    };
+    let same_as_the_commands = |app: &App| {
+        let mut decided = read(app);
+        let fresh = crate::session::odds_of(
+            &app.cat,
+            app.live.model().clone(),
+            &app.checks,
+            Some(&mut decided),
+        )
+        .unwrap();
+        app.live.same_odds_state(&fresh) && app.live.disputes() == fresh.disputes()
+    };
+    // Another vetter rejects it as an eclipsing binary while this browser
+    // is open: once the watcher's read is taken in, it is rejected here
+    // too and its siblings are held, as in every command.
+    other(&mut app, Decision::Rejected(Reason::EclipsingBinary));
+    assert_eq!(app.live.verdict(sibling), Verdict::Validated);
+    let _ = app.update(Input::Team(Box::new(read(&app))));
+    assert_eq!(
+        app.live.decision(c),
+        Decision::Rejected(Reason::EclipsingBinary)
+    );
+    assert_eq!(app.live.status(sibling), Status::Held);
+    assert!(same_as_the_commands(&app));
+    assert!(
+        app.message
+            .as_deref()
+            .unwrap()
+            .contains("1 decision by other vetters")
+    );
+    // A read made before this browser's own later decision: the browser's
+    // decision is the newer and stays; the dispute its keep makes stands.
+    other(&mut app, Decision::Parked);
+    let stale = read(&app);
+    app.go_to(c);
+    act(&mut app, Action::Keep);
+    let _ = app.update(Input::Team(Box::new(stale.clone())));
+    assert_eq!(app.live.decision(c), Decision::Kept);
+    assert!(same_as_the_commands(&app));
+    // A read no newer than what the browser holds changes nothing; a
+    // fresh one agrees with it.
+    app.message = None;
+    let _ = app.update(Input::Team(Box::new(stale)));
+    assert_eq!(app.live.decision(c), Decision::Kept);
+    assert!(app.message.is_none());
+    let _ = app.update(Input::Team(Box::new(read(&app))));
+    assert_eq!(app.live.decision(c), Decision::Kept);
+    assert!(same_as_the_commands(&app));
+    let _ = std::fs::remove_dir_all(&dir);
+}
