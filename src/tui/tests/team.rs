@@ -2,17 +2,15 @@
 //! decision made in it.
 
 use super::*;
+use crate::catalogue::CandidateId;
 use crate::decision::Decision;
 use crate::ledger::NewDecision;
 
-#[test]
-fn where_vetters_disagree_follows_each_decision() {
-    let (dir, mut app) = demo_app_with_ledger("team");
-    act(&mut app, Action::Select);
-    let c = app.candidate().unwrap();
+/// Records in the browser's ledger, behind its back, that vetter `other`
+/// decided `decision` on candidate c; the entry's row id.
+fn by_other(app: &mut App, c: CandidateId, decision: Decision) -> i64 {
     let id = app.cat.candidate_id(c).to_string();
     let star = app.cat.star_id(app.cat.star_of(c)).to_string();
-    // Another vetter kept it before this browser's vetter looks at it.
     app.ledger
         .as_mut()
         .unwrap()
@@ -20,11 +18,20 @@ fn where_vetters_disagree_follows_each_decision() {
             candidate: &id,
             star: &star,
             vetter: "other",
-            decision: Decision::Kept,
+            decision,
             note: None,
             undoes: None,
         })
-        .unwrap();
+        .unwrap()
+}
+
+#[test]
+fn where_vetters_disagree_follows_each_decision() {
+    let (dir, mut app) = demo_app_with_ledger("team");
+    act(&mut app, Action::Select);
+    let c = app.candidate().unwrap();
+    // Another vetter kept it before this browser's vetter looks at it.
+    by_other(&mut app, c, Decision::Kept);
     app.advance = false;
     // The status line, once the decision's own message is gone.
     let count = |app: &mut App| {
@@ -74,7 +81,6 @@ fn a_changed_catalogue_is_said_after_the_start_notes_not_over_them() {
 
 #[test]
 fn another_vetters_rejection_as_a_false_positive_holds_the_star_until_they_agree() {
-    use crate::catalogue::CandidateId;
     use crate::odds::{Hold, Status, Verdict};
     let (dir, mut app) = demo_app_with_ledger("dispute");
     app.advance = false;
@@ -85,26 +91,11 @@ fn another_vetters_rejection_as_a_false_positive_holds_the_star_until_they_agree
     app.go_to(c);
     assert_eq!(app.candidate(), Some(c));
     let members = app.cat.members(app.cat.star_of(c)).to_vec();
-    let id = app.cat.candidate_id(c).to_string();
-    let star = app.cat.star_id(app.cat.star_of(c)).to_string();
-    let record = |app: &mut App, decision: Decision| {
-        app.ledger
-            .as_mut()
-            .unwrap()
-            .record(&NewDecision {
-                candidate: &id,
-                star: &star,
-                vetter: "other",
-                decision,
-                note: None,
-                undoes: None,
-            })
-            .unwrap();
-    };
     // Another vetter rejected it as an eclipsing binary; this browser's
     // vetter keeps it: while they disagree, the star is held back.
-    record(
+    by_other(
         &mut app,
+        c,
         Decision::Rejected(crate::decision::Reason::EclipsingBinary),
     );
     act(&mut app, Action::Keep);
@@ -156,7 +147,7 @@ fn another_vetters_rejection_as_a_false_positive_holds_the_star_until_they_agree
     assert!(same_as_the_commands(&app));
     // The other vetter keeps it too: once this browser decides on it again,
     // they agree and the system counts.
-    record(&mut app, Decision::Kept);
+    by_other(&mut app, c, Decision::Kept);
     act(&mut app, Action::Park);
     act(&mut app, Action::Keep);
     assert!(app.live.disputes().is_empty());
@@ -167,7 +158,6 @@ fn another_vetters_rejection_as_a_false_positive_holds_the_star_until_they_agree
 
 #[test]
 fn the_teams_decisions_made_meanwhile_are_taken_in_and_the_newer_of_two_kept() {
-    use crate::catalogue::CandidateId;
     use crate::decision::Reason;
     use crate::odds::{Status, Verdict};
     let (dir, mut app) = demo_app_with_ledger("team_meanwhile");
@@ -177,22 +167,6 @@ fn the_teams_decisions_made_meanwhile_are_taken_in_and_the_newer_of_two_kept() {
         .unwrap();
     let members = app.cat.members(app.cat.star_of(c)).to_vec();
     let sibling = *members.iter().find(|&&m| m != c).unwrap();
-    let id = app.cat.candidate_id(c).to_string();
-    let star = app.cat.star_id(app.cat.star_of(c)).to_string();
-    let other = |app: &mut App, decision: Decision| {
-        app.ledger
-            .as_mut()
-            .unwrap()
-            .record(&NewDecision {
-                candidate: &id,
-                star: &star,
-                vetter: "other",
-                decision,
-                note: None,
-                undoes: None,
-            })
-            .unwrap()
-    };
     // The ledger as the watcher reads it (its own connection, the team's
     // view), and the odds every command builds from the ledger now.
     let read = |app: &App| {
@@ -213,7 +187,7 @@ fn the_teams_decisions_made_meanwhile_are_taken_in_and_the_newer_of_two_kept() {
     // Another vetter rejects it as an eclipsing binary while this browser
     // is open: once the watcher's read is taken in, it is rejected here
     // too and its siblings are held, as in every command.
-    other(&mut app, Decision::Rejected(Reason::EclipsingBinary));
+    by_other(&mut app, c, Decision::Rejected(Reason::EclipsingBinary));
     assert_eq!(app.live.verdict(sibling), Verdict::Validated);
     let _ = app.update(Input::Team(Box::new(read(&app))));
     assert_eq!(
@@ -230,7 +204,7 @@ fn the_teams_decisions_made_meanwhile_are_taken_in_and_the_newer_of_two_kept() {
     );
     // A read made before this browser's own later decision: the browser's
     // decision is the newer and stays; the dispute its keep makes stands.
-    other(&mut app, Decision::Parked);
+    by_other(&mut app, c, Decision::Parked);
     let stale = read(&app);
     app.go_to(c);
     act(&mut app, Action::Keep);
