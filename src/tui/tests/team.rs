@@ -1,5 +1,6 @@
-//! The browser with a team's ledger: where vetters disagree follows each
-//! decision made in it.
+//! The browser with a team's ledger: where vetters disagree, and whether
+//! on a false positive, follows each decision made in it and the team's
+//! decisions made meanwhile.
 
 use super::*;
 use crate::catalogue::CandidateId;
