@@ -26,6 +26,40 @@ fn by_other(app: &mut App, c: CandidateId, decision: Decision) -> i64 {
         .unwrap()
 }
 
+/// A candidate validated in a system of two or more.
+fn validated_in_a_system(app: &App) -> CandidateId {
+    use crate::odds::Verdict;
+    (0..app.cat.len() as CandidateId)
+        .find(|&c| app.live.verdict(c) == Verdict::Validated && app.live.k(c) >= 2)
+        .unwrap()
+}
+
+/// The browser's ledger as the watcher reads it (its own connection, the
+/// team's view).
+fn read_ledger(app: &App) -> crate::ledger::Decided {
+    let l = crate::ledger::Ledger::open(app.ledger.as_ref().unwrap().path()).unwrap();
+    l.decided(&app.cat, None).unwrap()
+}
+
+/// Whether the browser's odds are those every command builds from its
+/// ledger now (`session::odds_of`), disputes included, and those of a
+/// rebuild from nothing.
+fn same_as_the_commands(app: &App) -> bool {
+    let mut decided = read_ledger(app);
+    let fresh = crate::session::odds_of(
+        &app.cat,
+        app.live.model().clone(),
+        &app.checks,
+        Some(&mut decided),
+    )
+    .unwrap();
+    app.live.same_odds_state(&fresh)
+        && app.live.disputes() == fresh.disputes()
+        && app
+            .live
+            .same_odds_state(&app.live.rebuilt(&app.cat).unwrap())
+}
+
 #[test]
 fn where_vetters_disagree_follows_each_decision() {
     let (dir, mut app) = demo_app_with_ledger("team");
@@ -85,10 +119,7 @@ fn another_vetters_rejection_as_a_false_positive_holds_the_star_until_they_agree
     use crate::odds::{Hold, Status, Verdict};
     let (dir, mut app) = demo_app_with_ledger("dispute");
     app.advance = false;
-    // A candidate validated in a system of two or more.
-    let c = (0..app.cat.len() as CandidateId)
-        .find(|&c| app.live.verdict(c) == Verdict::Validated && app.live.k(c) >= 2)
-        .unwrap();
+    let c = validated_in_a_system(&app);
     app.go_to(c);
     assert_eq!(app.candidate(), Some(c));
     let members = app.cat.members(app.cat.star_of(c)).to_vec();
@@ -107,24 +138,6 @@ fn another_vetters_rejection_as_a_false_positive_holds_the_star_until_they_agree
         assert_ne!(app.live.verdict(m), Verdict::Validated);
         assert!(matches!(app.live.hold(m), Some(Hold::Disputed { fp, .. }) if fp == c));
     }
-    // As the odds from nothing, and as every command builds them from the
-    // ledger (`session::odds_of`).
-    let same_as_the_commands = |app: &App| {
-        let l = app.ledger.as_ref().unwrap();
-        let mut decided = l.decided(&app.cat, None).unwrap();
-        let fresh = crate::session::odds_of(
-            &app.cat,
-            app.live.model().clone(),
-            &app.checks,
-            Some(&mut decided),
-        )
-        .unwrap();
-        app.live.same_odds_state(&fresh)
-            && app.live.disputes() == fresh.disputes()
-            && app
-                .live
-                .same_odds_state(&app.live.rebuilt(&app.cat).unwrap())
-    };
     assert!(same_as_the_commands(&app));
     let text = crate::odds::hold_text(&app.cat, &app.live, members[0]);
     assert!(
@@ -163,34 +176,15 @@ fn the_teams_decisions_made_meanwhile_are_taken_in_and_the_newer_of_two_kept() {
     use crate::odds::{Status, Verdict};
     let (dir, mut app) = demo_app_with_ledger("team_meanwhile");
     app.advance = false;
-    let c = (0..app.cat.len() as CandidateId)
-        .find(|&c| app.live.verdict(c) == Verdict::Validated && app.live.k(c) >= 2)
-        .unwrap();
+    let c = validated_in_a_system(&app);
     let members = app.cat.members(app.cat.star_of(c)).to_vec();
     let sibling = *members.iter().find(|&&m| m != c).unwrap();
-    // The ledger as the watcher reads it (its own connection, the team's
-    // view), and the odds every command builds from the ledger now.
-    let read = |app: &App| {
-        let l = crate::ledger::Ledger::open(app.ledger.as_ref().unwrap().path()).unwrap();
-        l.decided(&app.cat, None).unwrap()
-    };
-    let same_as_the_commands = |app: &App| {
-        let mut decided = read(app);
-        let fresh = crate::session::odds_of(
-            &app.cat,
-            app.live.model().clone(),
-            &app.checks,
-            Some(&mut decided),
-        )
-        .unwrap();
-        app.live.same_odds_state(&fresh) && app.live.disputes() == fresh.disputes()
-    };
     // Another vetter rejects it as an eclipsing binary while this browser
     // is open: once the watcher's read is taken in, it is rejected here
     // too and its siblings are held, as in every command.
     by_other(&mut app, c, Decision::Rejected(Reason::EclipsingBinary));
     assert_eq!(app.live.verdict(sibling), Verdict::Validated);
-    let _ = app.update(Input::Team(Box::new(read(&app))));
+    let _ = app.update(Input::Team(Box::new(read_ledger(&app))));
     assert_eq!(
         app.live.decision(c),
         Decision::Rejected(Reason::EclipsingBinary)
@@ -206,7 +200,7 @@ fn the_teams_decisions_made_meanwhile_are_taken_in_and_the_newer_of_two_kept() {
     // A read made before this browser's own later decision: the browser's
     // decision is the newer and stays; the dispute its keep makes stands.
     by_other(&mut app, c, Decision::Parked);
-    let stale = read(&app);
+    let stale = read_ledger(&app);
     app.go_to(c);
     act(&mut app, Action::Keep);
     let _ = app.update(Input::Team(Box::new(stale.clone())));
@@ -218,7 +212,7 @@ fn the_teams_decisions_made_meanwhile_are_taken_in_and_the_newer_of_two_kept() {
     let _ = app.update(Input::Team(Box::new(stale)));
     assert_eq!(app.live.decision(c), Decision::Kept);
     assert!(app.message.is_none());
-    let _ = app.update(Input::Team(Box::new(read(&app))));
+    let _ = app.update(Input::Team(Box::new(read_ledger(&app))));
     assert_eq!(app.live.decision(c), Decision::Kept);
     assert!(same_as_the_commands(&app));
     let _ = std::fs::remove_dir_all(&dir);
