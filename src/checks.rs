@@ -5,6 +5,7 @@
 //! duplicate or alias, a signal copied from a neighbour. Methods and
 //! thresholds: docs/science.md §2–§3.
 
+mod copies;
 mod echo;
 mod families;
 mod groups;
@@ -436,7 +437,8 @@ pub(crate) fn shows_false_positive(checks: &Checks, c: CandidateId) -> bool {
 
 /// A false positive's signs (the catalogue's word, an eclipse pair, a
 /// radius no planet has) hold its star under its other ids too: a split
-/// candidate family (`families`), one place (`same_place`). The false
+/// candidate family (`families`), one place (`same_place`), one row
+/// listed under both (`copies`). The false
 /// positives are found in one pass for both; run after the star checks
 /// and again after the light curves.
 pub(crate) fn hold_other_ids(cat: &Catalogue, out: &mut Checks) {
@@ -446,6 +448,7 @@ pub(crate) fn hold_other_ids(cat: &Catalogue, out: &mut Checks) {
         .collect();
     families::flag(cat, out, &shown);
     same_place::flag(cat, out, &shown);
+    copies::hold(cat, out, &shown);
 }
 
 /// How a false positive is known, for the notes of the stars it holds
@@ -475,7 +478,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
     let empty = || Checks::none(n);
     // The cross-star echo sweep is independent of the per-star checks: it
     // runs on a thread of its own and the two results are merged.
-    let (mut checks, echoes) = std::thread::scope(|scope| {
+    let (mut checks, mut links, echoes) = std::thread::scope(|scope| {
         let echo = scope.spawn(|| echo::check(cat, s, progress));
         let mut checks = empty();
         checks.big_radius_rearth = s.big_radius_rearth;
@@ -518,14 +521,18 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
             }
         }
         progress.add(unsaid);
-        group_flags(cat, &links, &mut checks);
-        hold_other_ids(cat, &mut checks);
-        progress.publish(checks.all_flags());
         (
             checks,
+            links,
             echo.join().unwrap_or_else(|e| std::panic::resume_unwind(e)),
         )
     });
+    // The signal groups and the holds across star ids wait for the echo
+    // search, which finds the rows listed on two star ids (`copies`).
+    links.extend(copies::links(cat, &echoes.copies));
+    copies::flag(cat, &echoes.copies, &mut checks);
+    group_flags(cat, &links, &mut checks);
+    hold_other_ids(cat, &mut checks);
     for (c, soft, why) in echoes.findings {
         checks.add(c, Flag::Echo, soft, why);
     }
@@ -557,6 +564,13 @@ fn group_flags(cat: &Catalogue, links: &[system::Link], out: &mut Checks) {
     for g in 0..groups.len() as u32 {
         let members = groups.members(g);
         let rep = members[0];
+        // A row on two star ids counts towards neither (`copies`): its
+        // group is still one signal, one verdict.
+        let counts = if out.flags(rep).contains(Flag::MixedHost) {
+            "one signal with"
+        } else {
+            "counts once, as"
+        };
         for &m in &members[1..] {
             // The link to the representative if there is one, else any.
             let mine = links_of(m);
@@ -571,7 +585,7 @@ fn group_flags(cat: &Catalogue, links: &[system::Link], out: &mut Checks) {
                     l.flag,
                     false,
                     format!(
-                        "with {}: {}; counts once, as {}",
+                        "with {}: {}; {counts} {}",
                         id(other(l, m)),
                         l.detail,
                         id(rep)

@@ -1,5 +1,6 @@
 //! One star under two ids (docs/science.md §3.4): a candidate family split
-//! over two star ids, or rows of two star ids at one place. A false
+//! over two star ids, rows of two star ids at one place, or one row listed
+//! under two star ids. A false
 //! positive at one id holds the candidates of the other, whether the
 //! catalogue names it, its checks show it, or a vetter rejects it as one.
 //! Invented catalogues; every command and the browser build the same
@@ -298,4 +299,85 @@ Gaia 112,G112-b,17.3,0.00001,102.3,0.001,600,4.0,25,0.3,1,1,5772,152.000000,20.0
     for id in ["M12-a", "M12-b"] {
         assert_ne!(status(&first, id), starsift::odds::Status::Held, "{id}");
     }
+}
+
+#[test]
+fn one_row_listed_under_two_star_ids_counts_towards_neither_and_ties_them() {
+    // Invented: a table merged from two lists, one host under two ids
+    // (`KIC 000757` and `EPIC 201757`), no positions. The same row (period,
+    // epoch, depth and duration to the last digit) sits on both, beside a
+    // planet of each id. Before, each id was a pair and all four were
+    // validated: one signal counted twice, on two stars. A neighbour's
+    // light would be shallower (docs/science.md §3.3); an identical row is
+    // one row named twice, whose star cannot be known (§3.4).
+    let rows = "\
+KIC 000757,K-1,3.7,0.00001,100.5,0.001,3000,2.5,40,0.3,1,1,5772,PC\n\
+KIC 000757,K-2,9.1,0.00001,101.5,0.001,600,3.0,30,0.3,1,1,5772,PC\n\
+EPIC 201757,E-1,3.7,0.00001,100.5,0.001,3000,2.5,40,0.3,1,1,5772,PC\n\
+EPIC 201757,E-2,17.2,0.00001,102.5,0.001,400,4.0,25,0.3,1,1,5772,PC\n\
+TIC 900,T-1,3.7,0.00001,100.5,0.001,2990,2.5,40,0.3,1,1,5772,PC\n\
+TIC 900,T-2,8.3,0.00001,101.1,0.001,500,3.2,30,0.3,1,1,5772,PC\n";
+    let cat = written("one_row_two_ids", &catalogue("disposition", rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    // Neither copy counts (mixed-host, at its prior odds); each id's other
+    // planet is a single. T-1 is 10 ppm shallower: a measurement of its
+    // own, left to the echo search (a warning without positions), and T's
+    // pair stands.
+    for s in ["K-1", "K-2", "E-1", "E-2"] {
+        assert_eq!(v[s], "likely", "{s}");
+    }
+    assert_eq!(v["T-1"], "validated");
+    let checks = stdout(&starsift(&["checks", c, "--format", "csv"]));
+    let line = |id: &str| {
+        checks
+            .lines()
+            .find(|l| l.split(',').nth(1) == Some(id))
+            .unwrap()
+            .to_string()
+    };
+    assert!(line("E-1").contains("mixed-host"), "{}", line("E-1"));
+    assert!(line("E-1").contains("also listed as K-1 on star KIC 000757"));
+    // The two copies are no echo of each other (T-1's shallower signal
+    // is a warning of one).
+    assert!(!line("E-1").contains("same ephemeris as K-1"));
+    assert!(!line("E-1").contains("appears as K-1"), "{}", line("E-1"));
+    assert!(line("T-1").contains("warning echo"), "{}", line("T-1"));
+    assert!(!line("K-2").contains("mixed-host"), "{}", line("K-2"));
+    // One row, one verdict, and the two ids one star: the catalogue's
+    // word on either copy makes the other no planet and holds both ids.
+    let fp = rows.replacen(
+        "3000,2.5,40,0.3,1,1,5772,PC",
+        "3000,2.5,40,0.3,1,1,5772,FP",
+        1,
+    );
+    let cat = written("one_row_two_ids_fp", &catalogue("disposition", &fp));
+    let v = agreed(cat.to_str().unwrap());
+    for s in ["K-1", "E-1"] {
+        assert_eq!(v[s], "unlikely", "{s}");
+    }
+    for s in ["K-2", "E-2"] {
+        assert_eq!(v[s], "likely", "{s}");
+    }
+    let o = starsift(&["odds", cat.to_str().unwrap(), "--format", "csv"]);
+    assert!(
+        stderr(&o).contains(
+            "1 star repeats a row of a false positive on another star id (star EPIC 201757)"
+        ),
+        "{}",
+        stderr(&o)
+    );
+    // A vetter's rejection as an eclipsing binary does the same, in every
+    // command (the odds' ties of the rejected candidate's star).
+    reject(c, "K-1", "eclipsing-binary", "ann");
+    let v = agreed(c);
+    assert_eq!(v["K-1"], "rejected");
+    assert_eq!(v["E-1"], "unlikely");
+    let o = stdout(&starsift(&["odds", c, "--format", "csv"]));
+    let e2 = o.lines().find(|l| l.contains(",E-2,")).unwrap();
+    assert!(
+        e2.contains("one row listed under both (K-1 and E-1)"),
+        "{e2}"
+    );
+    assert_eq!(v["E-2"], "likely");
 }

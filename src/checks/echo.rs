@@ -80,6 +80,9 @@ pub(super) type Finding = (CandidateId, bool, String);
 pub(super) struct Echoes {
     pub findings: Vec<Finding>,
     pub chance: Chance,
+    /// The rows whose signal is repeated on another star id, a set per
+    /// signal (`copies::find`, from the same period order).
+    pub copies: Vec<Vec<CandidateId>>,
 }
 
 /// The echo findings of the catalogue: each copy, each source it feeds,
@@ -105,6 +108,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
         return Echoes {
             findings: Vec::new(),
             chance: Chance::new(0, 0),
+            copies: Vec::new(),
         };
     };
     let per_err = col(Field::PeriodErrD);
@@ -123,6 +127,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
         .map(|i| order_key(periods.get(i), i as CandidateId))
         .collect();
     order.sort_unstable();
+    let copies = super::copies::find(cat, &order);
     let period_order: Vec<CandidateId> = order.into_iter().map(|k| k as CandidateId).collect();
     stage(false);
     let mut rank = vec![0u32; cat.len()];
@@ -176,6 +181,10 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
         control += part.control;
     }
     matches.sort_unstable_by_key(|m| m.0);
+    // One row listed on two star ids is no neighbour's light (`copies`).
+    if !copies.is_empty() {
+        matches.retain(|&(_, (copy, m))| !super::copies::same_row(cat, copy, m.other));
+    }
     let chance = Chance::new(
         matches.iter().filter(|m| m.1.1.sep.is_none()).count() as u64,
         control,
@@ -265,6 +274,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
     Echoes {
         findings: out,
         chance,
+        copies,
     }
 }
 

@@ -1,12 +1,13 @@
 //! Which other star ids name the same star as a given one: a candidate
-//! family split over both, or rows within [`super::same_place::
-//! SAME_PLACE_ARCSEC`] of each other (docs/science.md §3.4). The odds use
+//! family split over both, rows within [`super::same_place::
+//! SAME_PLACE_ARCSEC`] of each other, or one row listed under both
+//! (docs/science.md §3.4). The odds use
 //! these ties to hold the candidates of every id of a star whose
 //! candidate a vetter rejected as a false positive (`Live`), as the checks
 //! do for a false positive they or the catalogue find (`families`,
 //! `same_place`).
 
-use super::{families, same_place};
+use super::{copies, families, same_place};
 use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family};
 
 /// How two star ids are known to name one star.
@@ -16,6 +17,9 @@ pub enum Tie {
     Family(String),
     /// Rows of the two this far apart, arcseconds.
     Place(f64),
+    /// One row listed under both: these two candidates, the same period,
+    /// epoch, depth and duration.
+    Row(String, String),
 }
 
 /// Star `other` names the same star as `star`, as `tie` shows.
@@ -32,13 +36,18 @@ impl Tie {
         match self {
             Tie::Family(f) => format!("one candidate family ({})", crate::sanitize::clean(f)),
             Tie::Place(apart) => format!("rows {apart:.1}″ apart"),
+            Tie::Row(a, b) => format!(
+                "one row listed under both ({} and {})",
+                crate::sanitize::clean(a),
+                crate::sanitize::clean(b)
+            ),
         }
     }
 }
 
 /// Every other star id tied to one of `stars`, both ways round (a link
 /// from each of `stars` and one back), one per pair of stars (a family
-/// before a place), sorted by `star`. One or two passes over the
+/// before a place, a place before a row), sorted by `star`. One or two passes over the
 /// catalogue, whatever the number of `stars`.
 pub fn links_of(cat: &Catalogue, stars: &[StarId]) -> Vec<StarLink> {
     let members: Vec<CandidateId> = stars
@@ -52,8 +61,13 @@ pub fn links_of(cat: &Catalogue, stars: &[StarId]) -> Vec<StarLink> {
     let by_place = same_place::ties(cat, &members)
         .into_iter()
         .map(|(t, c, apart)| (t, c, Tie::Place(apart)));
+    let by_row = copies::ties(cat, &members).into_iter().map(|(t, c)| {
+        let (a, b) = (cat.candidate_id(t), cat.candidate_id(c));
+        (t, c, Tie::Row(a.to_string(), b.to_string()))
+    });
     let mut links: Vec<StarLink> = by_family
         .chain(by_place)
+        .chain(by_row)
         .flat_map(|(t, c, tie)| {
             let (star, other) = (cat.star_of(t), cat.star_of(c));
             [
