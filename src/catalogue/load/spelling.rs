@@ -13,7 +13,10 @@ use crate::catalogue::pool::StrPool;
 /// A star id in one spelling (docs/science.md §3.4): ASCII lower case;
 /// spaces, `_` and `-` (but a leading sign) left out; a whole number
 /// written as a float (`100.0`) as the number; and the leading zeros of
-/// the number that ends the id left out (`KIC 005706966` → `kic5706966`). Ids that differ only
+/// the number that ends the id left out (`KIC 005706966` → `kic5706966`);
+/// the Kepler and K2 archives' file prefixes read as their catalogues'
+/// (`kplr005706966` → `kic5706966`, `ktwo201234567` → `epic201234567`).
+/// Ids that differ only
 /// so are one star in every catalogue convention we know of (common
 /// practice, no source).
 pub fn star_key(id: &str, out: &mut Vec<u8>) {
@@ -42,6 +45,15 @@ pub fn star_key(id: &str, out: &mut Vec<u8>) {
     }
     // The ending number without its leading zeros (one digit kept).
     let digits = out.iter().rev().take_while(|b| b.is_ascii_digit()).count();
+    // The Kepler and K2 archives' file prefixes of their catalogues'
+    // numbers (`kplr005706966` is KIC 5706966, `ktwo201234567` EPIC
+    // 201234567), as ids taken from file names carry them.
+    for (file, catalogue) in [(&b"kplr"[..], &b"kic"[..]), (b"ktwo", b"epic")] {
+        if digits > 0 && out.len() == file.len() + digits && out.starts_with(file) {
+            out.splice(..file.len(), catalogue.iter().copied());
+            break;
+        }
+    }
     let start = out.len() - digits;
     let zeros = out[start..].iter().take_while(|&&b| b == b'0').count();
     let zeros = zeros.min(digits.saturating_sub(1));
@@ -268,7 +280,7 @@ impl Merger {
         }
         self.row_stars = pool;
         Some(format!(
-            "star ids written more than one way were read as one star ({count} spelling{} joined: {}{}); a spelling is the same star when the ids differ only in case, spaces, `-` or `_`, leading zeros, a float's `.0`, or a missing catalogue prefix (before 4 digits or more)",
+            "star ids written more than one way were read as one star ({count} spelling{} joined: {}{}); a spelling is the same star when the ids differ only in case, spaces, `-` or `_`, leading zeros, a float's `.0`, an archive's file prefix (`kplr` for KIC, `ktwo` for EPIC), or a missing catalogue prefix (before 4 digits or more)",
             if count == 1 { "" } else { "s" },
             examples.join(", "),
             if count > 3 { ", …" } else { "" }
@@ -324,6 +336,10 @@ mod tests {
             ("TIC 100", "tic-100"),
             ("TIC 100", " TIC_100 "),
             ("KIC 005706966", "KIC 5706966"),
+            // The archives' file names (MAST's Kepler and K2 products,
+            // `kplr<9 digits>`, `ktwo<9 digits>`: from memory).
+            ("kplr005706966", "KIC 5706966"),
+            ("KTWO201234567", "EPIC 201234567"),
             ("100", "100.0"),
             ("0", "000"),
             ("WASP-12", "wasp 12"),
@@ -336,6 +352,9 @@ mod tests {
             ("-1", "1"),
             ("100", "100.5"),
             ("TIC 10 0", "TIC 1"),
+            ("kplr", "kic"),
+            ("kplr12x", "kic12x"),
+            ("kplr005706966", "EPIC 5706966"),
         ] {
             assert_ne!(key(a), key(b), "{a} / {b}");
         }
