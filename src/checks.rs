@@ -13,6 +13,7 @@ pub mod known;
 mod lightcurves;
 mod other_ids;
 mod progress;
+mod reported;
 mod same_place;
 mod system;
 
@@ -494,6 +495,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         }
         progress.add(n % progress::STEP);
         known::flag(cat, &mut checks);
+        reported::flag(cat, &mut checks);
         epoch_zeros(cat, &mut checks);
         progress.publish(checks.all_flags());
         let mut scratch = system::Scratch::default();
@@ -657,18 +659,8 @@ fn eclipse_pair_too_deep(cat: &Catalogue, a: CandidateId, b: CandidateId) -> Opt
     // at a multiple of it: a/R★ ∝ P^(2/3) (Kepler's third law).
     let other = cat.value(Field::PeriodD, shallow).unwrap_or(period);
     let orbit = other.min(period);
-    let a_rstar = derive(cat, deep, &CheckSettings::default())
-        .a_rstar
-        .or_else(|| {
-            science::a_rstar_from_duration(
-                period,
-                cat.value(Field::DurationH, deep)?,
-                k,
-                cat.value(Field::Impact, deep).unwrap_or(0.0).min(1.0 + k),
-            )
-        })?
-        * (orbit / period).powf(2.0 / 3.0);
-    let ceiling = OCCULTATION_CEILING_FACTOR * d1 / (a_rstar * a_rstar);
+    let a_rstar = reported::a_rstar_of(cat, deep, k)? * (orbit / period).powf(2.0 / 3.0);
+    let ceiling = reported::occultation_ceiling_ppm(d1, a_rstar);
     let sigma2 = cat
         .value(Field::Snr, shallow)
         .filter(|s| *s > 0.0)

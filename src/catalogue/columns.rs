@@ -40,10 +40,18 @@ pub enum Field {
     /// A disposition the catalogue already gives (text: `FALSE POSITIVE`,
     /// `PC`...): kept as it is among the extra columns, read by the checks.
     Disposition,
+    /// What a pipeline measured in the candidate's own light curve: the
+    /// depth at phase 0.5 (an occultation or a secondary eclipse), ppm, and
+    /// its error; read by `checks::reported`.
+    SecondaryDepthPpm,
+    SecondaryDepthErrPpm,
+    /// The significance of the difference between the odd and the even
+    /// transits' depths, σ (a pipeline's, from the light curve).
+    OddEvenSigma,
 }
 
 /// Every field, in the order summaries list them.
-pub const FIELDS: [Field; 23] = [
+pub const FIELDS: [Field; 26] = [
     Field::Star,
     Field::Candidate,
     Field::PeriodD,
@@ -67,6 +75,9 @@ pub const FIELDS: [Field; 23] = [
     Field::Contamination,
     Field::PlanetRadiusRearth,
     Field::Disposition,
+    Field::SecondaryDepthPpm,
+    Field::SecondaryDepthErrPpm,
+    Field::OddEvenSigma,
 ];
 
 /// The fields a row cannot do without.
@@ -80,7 +91,7 @@ pub const REQUIRED: [Field; 6] = [
 ];
 
 /// The numeric fields, in storage order: `Field::num_slot` indexes this.
-pub const NUMERIC: [Field; 19] = [
+pub const NUMERIC: [Field; 22] = [
     Field::PeriodD,
     Field::Epoch,
     Field::DepthPpm,
@@ -100,6 +111,9 @@ pub const NUMERIC: [Field; 19] = [
     Field::EpochErrD,
     Field::Contamination,
     Field::PlanetRadiusRearth,
+    Field::SecondaryDepthPpm,
+    Field::SecondaryDepthErrPpm,
+    Field::OddEvenSigma,
 ];
 
 impl Field {
@@ -129,6 +143,9 @@ impl Field {
             Field::Contamination => "contamination",
             Field::PlanetRadiusRearth => "planet_radius_rearth",
             Field::Disposition => "disposition",
+            Field::SecondaryDepthPpm => "secondary_depth_ppm",
+            Field::SecondaryDepthErrPpm => "secondary_depth_err_ppm",
+            Field::OddEvenSigma => "odd_even_sigma",
         }
     }
 
@@ -303,6 +320,32 @@ impl Field {
                 "koi_pdisposition",
                 "tfopwg_disp",
             ],
+            Field::SecondaryDepthPpm => &[
+                "secondary_depth_ppm",
+                "secondary_depth",
+                "sec_depth_ppm",
+                "sec_depth",
+                "occultation_depth_ppm",
+                "occultation_depth",
+            ],
+            Field::SecondaryDepthErrPpm => &[
+                "secondary_depth_err_ppm",
+                "secondary_depth_err",
+                "sec_depth_err_ppm",
+                "sec_depth_err",
+                "occultation_depth_err_ppm",
+                "occultation_depth_err",
+            ],
+            // `tce_bin_oedp_stat`: the odd/even depth comparison statistic
+            // of the Kepler pipeline's threshold-crossing event tables, in σ
+            // (the archive's name, from memory).
+            Field::OddEvenSigma => &[
+                "odd_even_sigma",
+                "odd_even_z",
+                "odd_even_significance",
+                "oe_sigma",
+                "tce_bin_oedp_stat",
+            ],
         }
     }
 
@@ -322,6 +365,8 @@ impl Field {
             Field::Fpp | Field::Contamination => "fraction",
             Field::Ror => "R_p/R_star",
             Field::PlanetRadiusRearth => "R_earth",
+            Field::SecondaryDepthPpm | Field::SecondaryDepthErrPpm => "ppm",
+            Field::OddEvenSigma => "sigma",
             _ => "",
         }
     }
@@ -349,6 +394,9 @@ impl Field {
             Field::EpochErrD => 16,
             Field::Contamination => 17,
             Field::PlanetRadiusRearth => 18,
+            Field::SecondaryDepthPpm => 19,
+            Field::SecondaryDepthErrPpm => 20,
+            Field::OddEvenSigma => 21,
             Field::Star | Field::Candidate | Field::Lightcurve | Field::Disposition => return None,
         })
     }

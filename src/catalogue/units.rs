@@ -199,6 +199,25 @@ pub fn conversion(field: Field, unit: &str) -> Result<Option<Conversion>, String
                 text: format!("table unit {u}, × {} to degrees", trim_float(scale)),
             }))
         }
+        // A secondary eclipse's depth and error, in the depth units (small
+        // depths in magnitudes are linear in them: 1 mmag is 921 ppm to
+        // within 0.05 %, Pogson's ratio).
+        Field::SecondaryDepthPpm | Field::SecondaryDepthErrPpm => {
+            let scale = match (depth_unit(u), magnitude_scale(u)) {
+                (Some((du, extra)), _) => du.to_ppm() * extra,
+                (None, Some(per_mag)) => depth_ppm_of_magnitudes(1e-3) * 1e3 * per_mag,
+                (None, None) => {
+                    return Err(format!(
+                        "unit `{u}` is not a depth unit starsift converts (ppm, %, ppt, fraction, mmag)"
+                    ));
+                }
+            };
+            Ok((scale != 1.0).then(|| Conversion {
+                scale,
+                offset: 0.0,
+                text: format!("table unit {u}, × {} to ppm", trim_float(scale)),
+            }))
+        }
         Field::Epoch => Ok(epoch_zero(u).map(|zero| Conversion {
             scale: 1.0,
             offset: zero,
@@ -302,6 +321,22 @@ mod tests {
         assert_eq!(depth_unit("ppt"), Some((DepthUnit::Ppm, 1e3)));
         assert_eq!(depth_unit(""), None);
         assert_eq!(depth_unit("mmag"), None);
+    }
+
+    #[test]
+    fn a_secondary_depths_stated_unit_converts_to_ppm() {
+        // 1 ppt = 1000 ppm, 1 % = 10⁴ ppm (definitions); 1 mmag is 920.6 ppm
+        // of flux for small depths (Pogson's ratio, below).
+        for (u, ppm) in [("ppt", 1e3), ("%", 1e4), ("fraction", 1e6)] {
+            let c = conversion(Field::SecondaryDepthErrPpm, u).unwrap().unwrap();
+            assert_eq!(c.scale, ppm, "{u}");
+        }
+        let c = conversion(Field::SecondaryDepthPpm, "mmag")
+            .unwrap()
+            .unwrap();
+        assert!((c.scale - 920.6).abs() < 0.1, "{}", c.scale);
+        assert_eq!(conversion(Field::SecondaryDepthPpm, "ppm").unwrap(), None);
+        assert!(conversion(Field::SecondaryDepthPpm, "furlong").is_err());
     }
 
     #[test]

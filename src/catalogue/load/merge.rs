@@ -385,6 +385,23 @@ impl Merger {
                         h = crate::sanitize::clean(header[index].trim())
                     ));
                 }
+            } else if matches!(
+                field,
+                Field::SecondaryDepthPpm | Field::SecondaryDepthErrPpm
+            ) && stated.is_none()
+            {
+                // No unit of its own: the depth's (a small depth in
+                // magnitudes is linear in them, units::conversion).
+                let per_mag = depth_from
+                    .0
+                    .map_or(1.0, |m| units::depth_ppm_of_magnitudes(1e-3) * 1e3 * m);
+                let factor = per_mag * depth_from.1;
+                if factor != 1.0 {
+                    if let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) {
+                        col.update(|v| v * factor);
+                    }
+                    how = format!("{how}; the depth's unit, × {factor} to ppm");
+                }
             } else if let Some(u) = stated {
                 how = match layout.convert_text.iter().find(|(f, _)| f == field) {
                     Some((_, text)) => format!("{how}; {text}"),

@@ -1,0 +1,114 @@
+//! What the catalogue reports of a candidate's own light curve: a
+//! pipeline's depth at phase 0.5 and the significance of its odd/even
+//! difference (docs/science.md §4.8). Judged by the physics a light curve
+//! starsift reads itself is judged by, in every command. Invented
+//! catalogues.
+
+mod common;
+
+use common::{agreed, catalogue, starsift, stdout, written};
+
+/// A binary (`B`: its secondary eclipse well above any planet's
+/// occultation) beside two planets; a hot Jupiter (`J`) whose occultation
+/// is within a planet's reach; a candidate whose odd and even transits
+/// differ (`O`) beside two planets; and the same binary as B with the
+/// secondary's error left out, judged by the transit's SNR (`S`), or with
+/// neither error nor SNR (`N`).
+const ROWS: &str = "\
+B,B-1,3.7,0.00001,100.5,0.001,9000,2.5,60,0.3,1,1,5772,2000,100,0.4\n\
+B,B-2,9.1,0.00001,101.5,0.001,600,3.0,30,0.3,1,1,5772,,,\n\
+B,B-3,21.7,0.00001,102.5,0.001,500,4.0,25,0.3,1,1,5772,,,\n\
+J,J-1,3.1,0.00001,100.2,0.001,10000,2.8,80,0.3,1,1,5772,40,10,0.5\n\
+J,J-2,8.8,0.00001,101.2,0.001,600,3.5,30,0.3,1,1,5772,,,\n\
+O,O-1,4.3,0.00001,100.9,0.001,3000,2.6,40,0.3,1,1,5772,,,6.5\n\
+O,O-2,10.8,0.00001,101.9,0.001,600,3.6,30,0.3,1,1,5772,,,\n\
+O,O-3,23.9,0.00001,102.9,0.001,500,4.6,25,0.3,1,1,5772,,,\n\
+S,S-1,3.9,0.00001,100.3,0.001,9000,2.5,60,0.3,1,1,5772,2000,,\n\
+S,S-2,9.6,0.00001,101.3,0.001,600,3.0,30,0.3,1,1,5772,,,\n\
+N,N-1,4.9,0.00001,100.4,0.001,9000,2.5,,0.3,1,1,5772,2000,,\n\
+N,N-2,11.9,0.00001,101.4,0.001,600,3.0,,0.3,1,1,5772,,,\n";
+
+#[test]
+fn a_catalogues_own_secondary_eclipse_and_odd_even_difference_are_read() {
+    // Before, these columns were kept as extras and read by nothing: B's
+    // trio and O's were validated, binary and all.
+    let extra = "secondary_depth_ppm,secondary_depth_err_ppm,odd_even_sigma";
+    let cat = written("reported", &catalogue(extra, ROWS));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    // B-1's 2,000 ± 100 ppm at phase 0.5: a planet's occultation behind a
+    // 9,000 ppm transit at P = 3.7 d around the Sun (a/R★ = 10.1, Kepler's
+    // third law) reaches (5/3)·9000/10.1² = 148 ppm (docs/science.md
+    // §4.3, computed offline in Python). An eclipsing binary: its star is
+    // held.
+    assert_eq!(v["B-1"], "unlikely");
+    for s in ["B-2", "B-3"] {
+        assert_eq!(v[s], "likely", "{s}");
+    }
+    // J-1's 40 ± 10 ppm is within a hot Jupiter's reach at 3.1 d (a/R★ =
+    // 8.9: 208 ppm, computed as above): nothing.
+    for s in ["J-1", "J-2"] {
+        assert_eq!(v[s], "validated", "{s}");
+    }
+    // O-1's odd and even transits differ at 6.5σ: held itself (a planet
+    // reaches 3σ by chance now and then), its siblings count on.
+    assert_eq!(v["O-1"], "likely");
+    for s in ["O-2", "O-3"] {
+        assert_eq!(v[s], "validated", "{s}");
+    }
+    // Without an error, the transit's own noise (9000 / 60 = 150 ppm)
+    // judges S-1's secondary; with neither, a warning only.
+    assert_eq!(v["S-1"], "unlikely");
+    assert_eq!(v["S-2"], "likely");
+    assert_eq!(v["N-1"], "validated");
+    let checks = stdout(&starsift(&["checks", c, "--format", "csv"]));
+    let line = |id: &str| {
+        checks
+            .lines()
+            .find(|l| l.split(',').nth(1) == Some(id))
+            .unwrap()
+            .to_string()
+    };
+    assert!(
+        line("B-1").contains("2000 ± 100 ppm") && line("B-1").contains("an eclipsing binary"),
+        "{}",
+        line("B-1")
+    );
+    assert!(line("O-1").contains("6.5σ"), "{}", line("O-1"));
+    assert!(line("N-1").contains("warning secondary"), "{}", line("N-1"));
+}
+
+#[test]
+fn a_secondary_depth_without_a_unit_of_its_own_takes_the_depths() {
+    // Invented: every depth written as a fraction (`depth_frac`), the
+    // secondary's too, under a name that says no unit. Read as ppm, B-1's 0.002 would be nothing; in the
+    // depth's unit it is 2,000 ppm, a binary.
+    let extra = "secondary_depth,secondary_depth_err,odd_even_sigma";
+    let rows: String = ROWS
+        .lines()
+        .filter(|l| l.starts_with("B,"))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    let text = catalogue(extra, &rows);
+    let mut lines = text.lines();
+    let head = lines.next().unwrap().replace("depth_ppm", "depth_frac");
+    let mut out = format!("{head}\n");
+    for l in lines {
+        let mut cells: Vec<String> = l.split(',').map(str::to_string).collect();
+        for i in [6, 13, 14] {
+            if let Ok(v) = cells[i].parse::<f64>() {
+                cells[i] = format!("{}", v * 1e-6);
+            }
+        }
+        out.push_str(&(cells.join(",") + "\n"));
+    }
+    let cat = written("reported_fraction", &out);
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    assert_eq!(v["B-1"], "unlikely", "{v:?}");
+    let summary = stdout(&starsift(&["summary", c]));
+    assert!(
+        summary.contains("the depth's unit, × 1000000 to ppm"),
+        "{summary}"
+    );
+}
