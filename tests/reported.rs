@@ -112,3 +112,31 @@ fn a_secondary_depth_without_a_unit_of_its_own_takes_the_depths() {
         "{summary}"
     );
 }
+
+#[test]
+fn dimming_light_away_from_the_target_is_another_stars() {
+    // Invented: the pipeline's offset of the dimming light from the target
+    // (a difference image's centroid) under the Kepler tables' names. C-1's
+    // light is 4.0″ ± 0.5″ away (8σ): a background binary's, no planet of
+    // C, held alone (its siblings count on, as beside a neighbour's echo,
+    // docs/science.md §3.3). D-1's 1.0″ ± 0.5″ (2σ) is the target's.
+    let rows = "\
+C,C-1,3.7,0.00001,100.5,0.001,3000,2.5,60,0.3,1,1,5772,4.0,0.5\n\
+C,C-2,9.1,0.00001,101.5,0.001,600,3.0,30,0.3,1,1,5772,0.2,0.5\n\
+C,C-3,21.7,0.00001,102.5,0.001,500,4.0,25,0.3,1,1,5772,,\n\
+D,D-1,4.1,0.00001,100.1,0.001,3000,2.5,60,0.3,1,1,5772,1.0,0.5\n\
+D,D-2,9.9,0.00001,101.1,0.001,600,3.0,30,0.3,1,1,5772,,\n";
+    let cat = written(
+        "reported_centroid",
+        &catalogue("tce_dikco_msky,tce_dikco_msky_err", rows),
+    );
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    assert_eq!(v["C-1"], "unlikely");
+    for s in ["C-2", "C-3", "D-1", "D-2"] {
+        assert_eq!(v[s], "validated", "{s}");
+    }
+    let checks = stdout(&starsift(&["checks", c, "--format", "csv"]));
+    let c1 = checks.lines().find(|l| l.contains(",C-1,")).unwrap();
+    assert!(c1.contains("4.0″ ± 0.5″ from the target (8.0σ"), "{c1}");
+}

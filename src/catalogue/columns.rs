@@ -48,10 +48,15 @@ pub enum Field {
     /// The significance of the difference between the odd and the even
     /// transits' depths, σ (a pipeline's, from the light curve).
     OddEvenSigma,
+    /// How far from the target's catalogue position the dimming light is
+    /// (the centroid of the in- minus out-of-transit image), arcsec, and
+    /// its error (a pipeline's, from the pixels).
+    CentroidOffsetArcsec,
+    CentroidOffsetErrArcsec,
 }
 
 /// Every field, in the order summaries list them.
-pub const FIELDS: [Field; 26] = [
+pub const FIELDS: [Field; 28] = [
     Field::Star,
     Field::Candidate,
     Field::PeriodD,
@@ -78,6 +83,8 @@ pub const FIELDS: [Field; 26] = [
     Field::SecondaryDepthPpm,
     Field::SecondaryDepthErrPpm,
     Field::OddEvenSigma,
+    Field::CentroidOffsetArcsec,
+    Field::CentroidOffsetErrArcsec,
 ];
 
 /// The fields a row cannot do without.
@@ -91,7 +98,7 @@ pub const REQUIRED: [Field; 6] = [
 ];
 
 /// The numeric fields, in storage order: `Field::num_slot` indexes this.
-pub const NUMERIC: [Field; 22] = [
+pub const NUMERIC: [Field; 24] = [
     Field::PeriodD,
     Field::Epoch,
     Field::DepthPpm,
@@ -114,6 +121,8 @@ pub const NUMERIC: [Field; 22] = [
     Field::SecondaryDepthPpm,
     Field::SecondaryDepthErrPpm,
     Field::OddEvenSigma,
+    Field::CentroidOffsetArcsec,
+    Field::CentroidOffsetErrArcsec,
 ];
 
 impl Field {
@@ -146,6 +155,8 @@ impl Field {
             Field::SecondaryDepthPpm => "secondary_depth_ppm",
             Field::SecondaryDepthErrPpm => "secondary_depth_err_ppm",
             Field::OddEvenSigma => "odd_even_sigma",
+            Field::CentroidOffsetArcsec => "centroid_offset_arcsec",
+            Field::CentroidOffsetErrArcsec => "centroid_offset_err_arcsec",
         }
     }
 
@@ -346,6 +357,22 @@ impl Field {
                 "oe_sigma",
                 "tce_bin_oedp_stat",
             ],
+            // `*_dikco_msky`: the Kepler pipeline's offset of the difference
+            // image's centroid from the target's catalogue position, in the
+            // archive's tables of events and of candidates (the names from
+            // memory).
+            Field::CentroidOffsetArcsec => &[
+                "centroid_offset_arcsec",
+                "centroid_offset",
+                "tce_dikco_msky",
+                "koi_dikco_msky",
+            ],
+            Field::CentroidOffsetErrArcsec => &[
+                "centroid_offset_err_arcsec",
+                "centroid_offset_err",
+                "tce_dikco_msky_err",
+                "koi_dikco_msky_err",
+            ],
         }
     }
 
@@ -367,6 +394,7 @@ impl Field {
             Field::PlanetRadiusRearth => "R_earth",
             Field::SecondaryDepthPpm | Field::SecondaryDepthErrPpm => "ppm",
             Field::OddEvenSigma => "sigma",
+            Field::CentroidOffsetArcsec | Field::CentroidOffsetErrArcsec => "arcsec",
             _ => "",
         }
     }
@@ -397,6 +425,8 @@ impl Field {
             Field::SecondaryDepthPpm => 19,
             Field::SecondaryDepthErrPpm => 20,
             Field::OddEvenSigma => 21,
+            Field::CentroidOffsetArcsec => 22,
+            Field::CentroidOffsetErrArcsec => 23,
             Field::Star | Field::Candidate | Field::Lightcurve | Field::Disposition => return None,
         })
     }

@@ -1,11 +1,14 @@
-//! What the catalogue reports of a candidate's own light curve: a
-//! pipeline's depth at phase 0.5 (with its error) and the significance of
-//! the difference between its odd and even transits. The light curve's
-//! evidence where starsift has no light curve to read; judged by the same
-//! physics as a light curve starsift reads itself (docs/science.md §4.2,
-//! §4.3): a secondary eclipse deeper than any planet's occultation is an
-//! eclipsing binary (`secondary`, which holds the star); odd and even
-//! transits that differ are `odd-even` (which holds the candidate).
+//! What the catalogue reports of a candidate's own light curve and pixels:
+//! a pipeline's depth at phase 0.5 (with its error), the significance of
+//! the difference between its odd and even transits, and how far from the
+//! target the dimming light is. The light curve's evidence where starsift
+//! has no light curve to read; judged by the same physics as a light curve
+//! starsift reads itself (docs/science.md §4.2, §4.3, §4.8): a secondary
+//! eclipse deeper than any planet's occultation is an eclipsing binary
+//! (`secondary`, which holds the star); odd and even transits that differ
+//! are `odd-even` (which holds the candidate); dimming light away from the
+//! target is another star's (`echo`, as a neighbour's copy of an eclipse:
+//! no planet of this star, which holds only the candidate).
 
 use super::{CheckSettings, Checks, OCCULTATION_CEILING_FACTOR, derive};
 use crate::catalogue::{CandidateId, Catalogue, Field};
@@ -41,7 +44,10 @@ pub(super) fn occultation_ceiling_ppm(depth_ppm: f64, a_rstar: f64) -> f64 {
 pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     let secondary = cat.column(Field::SecondaryDepthPpm);
     let odd_even = cat.column(Field::OddEvenSigma);
-    if secondary.is_none() && odd_even.is_none() {
+    let offset = cat
+        .column(Field::CentroidOffsetArcsec)
+        .zip(cat.column(Field::CentroidOffsetErrArcsec));
+    if secondary.is_none() && odd_even.is_none() && offset.is_none() {
         return;
     }
     for c in 0..cat.len() as CandidateId {
@@ -59,6 +65,20 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
         }
         if let Some((flag, soft, why)) = secondary.and_then(|_| secondary_finding(cat, c)) {
             out.add(c, flag, soft, why);
+        }
+        if let Some((off, err)) = offset.map(|(o, e)| (o.get(c as usize), e.get(c as usize))) {
+            if err > 0.0 && off.abs() >= FLAG_Z * err {
+                out.add(
+                    c,
+                    Flag::Echo,
+                    false,
+                    format!(
+                        "the catalogue puts the dimming light {:.1}″ ± {err:.1}″ from the target ({:.1}σ ≥ {FLAG_Z}; its pipeline's, from the pixels): light from another star",
+                        off.abs(),
+                        off.abs() / err
+                    ),
+                );
+            }
         }
     }
 }
