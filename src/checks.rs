@@ -523,6 +523,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
             }
         }
         progress.add(unsaid);
+        progress.publish(checks.all_flags());
         (
             checks,
             links,

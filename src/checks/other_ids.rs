@@ -5,7 +5,7 @@
 //! these ties to hold the candidates of every id of a star whose
 //! candidate a vetter rejected as a false positive (`Live`), as the checks
 //! do for a false positive they or the catalogue find (`families`,
-//! `same_place`).
+//! `same_place`, `copies`).
 
 use super::{copies, families, same_place};
 use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family};
