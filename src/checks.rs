@@ -283,15 +283,24 @@ impl Checks {
     }
 
     /// Holds stars known to host a false positive that another star id's
-    /// row shows (`families`, `same_place`): one entry per star, in star
-    /// order (an entry already there stays), and a note, `say(n, listed)`
-    /// with the number of stars and the first few named.
+    /// row shows (`families`, `same_place`, `copies`): the star of each
+    /// row of `tied` (the row, why), one entry per star, in star order (an
+    /// entry already there stays), and a note, `say(n, listed)` with the
+    /// number of stars and the first few named.
     fn hold_for_another_id(
         &mut self,
         cat: &Catalogue,
-        mut held: Vec<UnseenFp>,
+        tied: Vec<(CandidateId, String)>,
         say: impl Fn(usize, &str) -> String,
     ) {
+        let mut held: Vec<UnseenFp> = tied
+            .into_iter()
+            .map(|(c, why)| UnseenFp {
+                star: cat.star_of(c),
+                by_tie: true,
+                why,
+            })
+            .collect();
         held.sort_by_key(|u| u.star);
         held.dedup_by_key(|u| u.star);
         // A star held already (by an earlier pass, or a skipped row) stays

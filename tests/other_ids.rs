@@ -8,7 +8,7 @@
 
 mod common;
 
-use common::{agreed, catalogue, reject, starsift, stderr, stdout, written};
+use common::{agreed, catalogue, checks_rows, reject, starsift, stderr, stdout, written};
 
 #[test]
 fn a_candidate_family_split_over_two_star_ids_is_held_by_its_false_positive() {
@@ -328,14 +328,8 @@ TIC 900,T-2,8.3,0.00001,101.1,0.001,500,3.2,30,0.3,1,1,5772,PC\n";
         assert_eq!(v[s], "likely", "{s}");
     }
     assert_eq!(v["T-1"], "validated");
-    let checks = stdout(&starsift(&["checks", c, "--format", "csv"]));
-    let line = |id: &str| {
-        checks
-            .lines()
-            .find(|l| l.split(',').nth(1) == Some(id))
-            .unwrap()
-            .to_string()
-    };
+    let checks = checks_rows(c);
+    let line = |id: &str| checks[id].clone();
     assert!(line("E-1").contains("mixed-host"), "{}", line("E-1"));
     assert!(line("E-1").contains("also listed as K-1 on star KIC 000757"));
     // The two copies are no echo of each other (T-1's shallower signal

@@ -6,7 +6,7 @@
 
 mod common;
 
-use common::{agreed, catalogue, starsift, stdout, written};
+use common::{agreed, catalogue, checks_rows, starsift, stdout, written};
 
 /// A binary (`B`: its secondary eclipse well above any planet's
 /// occultation) beside two planets; a hot Jupiter (`J`) whose occultation
@@ -61,14 +61,8 @@ fn a_catalogues_own_secondary_eclipse_and_odd_even_difference_are_read() {
     assert_eq!(v["S-1"], "unlikely");
     assert_eq!(v["S-2"], "likely");
     assert_eq!(v["N-1"], "validated");
-    let checks = stdout(&starsift(&["checks", c, "--format", "csv"]));
-    let line = |id: &str| {
-        checks
-            .lines()
-            .find(|l| l.split(',').nth(1) == Some(id))
-            .unwrap()
-            .to_string()
-    };
+    let rows = checks_rows(c);
+    let line = |id: &str| rows[id].clone();
     assert!(
         line("B-1").contains("2000 ± 100 ppm") && line("B-1").contains("an eclipsing binary"),
         "{}",
@@ -136,7 +130,6 @@ D,D-2,9.9,0.00001,101.1,0.001,600,3.0,30,0.3,1,1,5772,,\n";
     for s in ["C-2", "C-3", "D-1", "D-2"] {
         assert_eq!(v[s], "validated", "{s}");
     }
-    let checks = stdout(&starsift(&["checks", c, "--format", "csv"]));
-    let c1 = checks.lines().find(|l| l.contains(",C-1,")).unwrap();
+    let c1 = &checks_rows(c)["C-1"];
     assert!(c1.contains("4.0″ ± 0.5″ from the target (8.0σ"), "{c1}");
 }

@@ -9,8 +9,8 @@
 //! holds the candidates of the other, as a split family or one place does
 //! (docs/science.md §3.4).
 
+use super::Checks;
 use super::system::Link;
-use super::{Checks, UnseenFp};
 use crate::catalogue::{CandidateId, Catalogue, Column, Field, StarId};
 use crate::flags::Flag;
 
@@ -177,18 +177,17 @@ pub(super) fn hold(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
     if fps.is_empty() {
         return;
     }
-    let held: Vec<UnseenFp> = ties(cat, fps)
+    let held: Vec<(CandidateId, String)> = ties(cat, fps)
         .into_iter()
-        .map(|(fp, c)| UnseenFp {
-            star: cat.star_of(c),
-            by_tie: true,
-            why: format!(
+        .map(|(fp, c)| {
+            let why = format!(
                 "{}, on star {}, is the same row as this star's {} (period, epoch, depth and duration identical) and {}; one row under two star ids names one star",
                 crate::sanitize::clean(cat.candidate_id(fp)),
                 crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
                 crate::sanitize::clean(cat.candidate_id(c)),
                 super::false_positive_words(out, fp),
-            ),
+            );
+            (c, why)
         })
         .collect();
     out.hold_for_another_id(cat, held, |n, listed| {

@@ -7,7 +7,7 @@
 //! row's does (docs/science.md §3.4, §3.5). Stars are not joined: that
 //! would add multiplicity from a naming convention alone.
 
-use super::{Checks, UnseenFp};
+use super::Checks;
 use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family as family};
 
 /// Every row of another star id that shares a candidate family with one of
@@ -47,18 +47,17 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
     if fps.is_empty() {
         return;
     }
-    let held: Vec<UnseenFp> = ties(cat, fps)
+    let held: Vec<(CandidateId, String)> = ties(cat, fps)
         .into_iter()
-        .map(|(fp, c)| UnseenFp {
-            star: cat.star_of(c),
-            by_tie: true,
-            why: format!(
+        .map(|(fp, c)| {
+            let why = format!(
                 "{}, on star {}, is of this star's candidate family ({}) and {}; archives number one star's candidates <star>.<n>, so both star ids name one star",
                 crate::sanitize::clean(cat.candidate_id(fp)),
                 crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
                 crate::sanitize::clean(family(cat.candidate_id(fp)).unwrap_or_default()),
                 super::false_positive_words(out, fp),
-            ),
+            );
+            (c, why)
         })
         .collect();
     out.hold_for_another_id(cat, held, |n, listed| {

@@ -6,8 +6,8 @@
 //! siblings (docs/science.md §1.1, §3.4). Stars are not joined: that would
 //! add multiplicity from a position match alone.
 
+use super::Checks;
 use super::echo::{real_position, separation_arcsec};
-use super::{Checks, UnseenFp};
 use crate::catalogue::{CandidateId, Catalogue, Field, StarId};
 
 /// Two catalogue positions this close are one star, or stars no survey
@@ -151,18 +151,17 @@ fn ra_bound() -> f64 {
 /// a star already held stays as it was.
 /// `fps`: those false positives.
 pub(super) fn flag(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
-    let held: Vec<UnseenFp> = ties(cat, fps)
+    let held: Vec<(CandidateId, String)> = ties(cat, fps)
         .into_iter()
-        .map(|(fp, c, apart)| UnseenFp {
-            star: cat.star_of(c),
-            by_tie: true,
-            why: format!(
+        .map(|(fp, c, apart)| {
+            let why = format!(
                 "{}, on star {} {apart:.1}″ from this star's {}, is {}: one place, one light (one star under two ids, or stars no aperture parts)",
                 crate::sanitize::clean(cat.candidate_id(fp)),
                 crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
                 crate::sanitize::clean(cat.candidate_id(c)),
                 super::false_positive_words(out, fp),
-            ),
+            );
+            (c, why)
         })
         .collect();
     out.hold_for_another_id(cat, held, |n, listed| {

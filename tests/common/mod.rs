@@ -187,3 +187,12 @@ pub fn live_of(cat: &starsift::catalogue::Catalogue) -> starsift::odds::Live {
         },
     )
 }
+
+/// Each candidate's row of `starsift checks CATALOGUE --format csv`, by id.
+pub fn checks_rows(c: &str) -> std::collections::BTreeMap<String, String> {
+    stdout(&starsift(&["checks", c, "--format", "csv"]))
+        .lines()
+        .skip(1)
+        .filter_map(|l| Some((l.split(',').nth(1)?.to_string(), l.to_string())))
+        .collect()
+}
