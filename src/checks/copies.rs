@@ -148,26 +148,7 @@ pub(super) fn ties(cat: &Catalogue, targets: &[CandidateId]) -> Vec<(CandidateId
     let Some(cols) = Cols::of(cat) else {
         return Vec::new();
     };
-    let mut of: hashbrown::HashMap<Key, Vec<CandidateId>> = hashbrown::HashMap::new();
-    for &t in targets {
-        if let Some(k) = cols.key(t) {
-            of.entry(k).or_default().push(t);
-        }
-    }
-    if of.is_empty() {
-        return Vec::new();
-    }
-    crate::parallel::in_parts(cat.len(), |rows| {
-        rows.filter_map(|c| {
-            let c = c as CandidateId;
-            let ts = of.get(&cols.key(c)?)?;
-            let star = cat.star_of(c);
-            let t = ts.iter().copied().find(|&t| cat.star_of(t) != star)?;
-            Some((t, c))
-        })
-        .collect::<Vec<_>>()
-    })
-    .concat()
+    super::other_ids::rows_sharing(cat, targets, |c| cols.key(c))
 }
 
 /// Holds each star that repeats a row of a false positive on another star

@@ -8,33 +8,13 @@
 //! would add multiplicity from a naming convention alone.
 
 use super::Checks;
-use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family as family};
+use crate::catalogue::{CandidateId, Catalogue, candidate_family as family};
 
 /// Every row of another star id that shares a candidate family with one of
 /// `targets`: (the first such target, the row). One pass over the
 /// catalogue; `targets` are few.
 pub(super) fn ties(cat: &Catalogue, targets: &[CandidateId]) -> Vec<(CandidateId, CandidateId)> {
-    let mut of: hashbrown::HashMap<&str, Vec<CandidateId>> = hashbrown::HashMap::new();
-    for &t in targets {
-        if let Some(f) = family(cat.candidate_id(t)) {
-            of.entry(f).or_default().push(t);
-        }
-    }
-    if of.is_empty() {
-        return Vec::new();
-    }
-    // Every row is looked at alone: a part of the rows on each core.
-    crate::parallel::in_parts(cat.len(), |rows| {
-        rows.filter_map(|c| {
-            let c = c as CandidateId;
-            let ts = of.get(family(cat.candidate_id(c))?)?;
-            let star: StarId = cat.star_of(c);
-            let t = ts.iter().copied().find(|&t| cat.star_of(t) != star)?;
-            Some((t, c))
-        })
-        .collect::<Vec<_>>()
-    })
-    .concat()
+    super::other_ids::rows_sharing(cat, targets, |c| family(cat.candidate_id(c)))
 }
 
 /// Holds each star a split family shares with a false positive: a

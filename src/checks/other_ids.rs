@@ -22,6 +22,37 @@ pub enum Tie {
     Row(String, String),
 }
 
+/// Every row of another star id whose `key` is that of one of `targets`:
+/// (the first such target, the row). One pass over the catalogue, a part
+/// of the rows on each core; `targets` are few. The ties of a candidate
+/// family (`families`) and of one row (`copies`).
+pub(super) fn rows_sharing<K: Eq + std::hash::Hash + Sync>(
+    cat: &Catalogue,
+    targets: &[CandidateId],
+    key: impl Fn(CandidateId) -> Option<K> + Sync,
+) -> Vec<(CandidateId, CandidateId)> {
+    let mut of: hashbrown::HashMap<K, Vec<CandidateId>> = hashbrown::HashMap::new();
+    for &t in targets {
+        if let Some(k) = key(t) {
+            of.entry(k).or_default().push(t);
+        }
+    }
+    if of.is_empty() {
+        return Vec::new();
+    }
+    crate::parallel::in_parts(cat.len(), |rows| {
+        rows.filter_map(|c| {
+            let c = c as CandidateId;
+            let ts = of.get(&key(c)?)?;
+            let star: StarId = cat.star_of(c);
+            let t = ts.iter().copied().find(|&t| cat.star_of(t) != star)?;
+            Some((t, c))
+        })
+        .collect::<Vec<_>>()
+    })
+    .concat()
+}
+
 /// Star `other` names the same star as `star`, as `tie` shows.
 #[derive(Clone, Debug, PartialEq)]
 pub struct StarLink {
