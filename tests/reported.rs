@@ -133,3 +133,20 @@ D,D-2,9.9,0.00001,101.1,0.001,600,3.0,30,0.3,1,1,5772,,\n";
     let c1 = &checks_rows(c)["C-1"];
     assert!(c1.contains("4.0″ ± 0.5″ from the target (8.0σ"), "{c1}");
 }
+
+#[test]
+fn a_secondary_depths_error_without_a_unit_takes_the_secondary_depths() {
+    // Invented: the secondary in ppt (`Secondary depth (ppt)`), its error
+    // under a bare name: 2.0 ± 0.1 ppt, not ± 0.1 ppm.
+    let rows = "B,B-1,3.7,0.00001,100.5,0.001,9000,2.5,60,0.3,1,1,5772,2.0,0.1\n";
+    let text = catalogue("Secondary depth (ppt),secondary_depth_err", rows);
+    let cat = written("reported_ppt", &text);
+    let c = cat.to_str().unwrap();
+    assert_eq!(agreed(c)["B-1"], "unlikely");
+    assert!(checks_rows(c)["B-1"].contains("2000 ± 100 ppm"));
+    let summary = stdout(&starsift(&["summary", c]));
+    assert!(
+        summary.contains("the secondary depth's unit, × 1000 to ppm"),
+        "{summary}"
+    );
+}

@@ -338,6 +338,8 @@ impl Field {
                 "sec_depth",
                 "occultation_depth_ppm",
                 "occultation_depth",
+                "secondary_eclipse_depth",
+                "depth_secondary",
             ],
             Field::SecondaryDepthErrPpm => &[
                 "secondary_depth_err_ppm",
@@ -346,6 +348,8 @@ impl Field {
                 "sec_depth_err",
                 "occultation_depth_err_ppm",
                 "occultation_depth_err",
+                "secondary_eclipse_depth_err",
+                "depth_secondary_err",
             ],
             // `tce_bin_oedp_stat`: the odd/even depth comparison statistic
             // of the Kepler pipeline's threshold-crossing event tables, in σ

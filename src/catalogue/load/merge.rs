@@ -390,17 +390,28 @@ impl Merger {
                 Field::SecondaryDepthPpm | Field::SecondaryDepthErrPpm
             ) && stated.is_none()
             {
-                // No unit of its own: the depth's (a small depth in
+                // No unit of its own: an error takes its secondary depth's
+                // stated unit, else both take the depth's (a small depth in
                 // magnitudes is linear in them, units::conversion).
+                let secondary_slot = Field::SecondaryDepthPpm.num_slot();
+                let stated_secondary = (*field == Field::SecondaryDepthErrPpm)
+                    .then(|| layout.convert.iter().find(|c| Some(c.0) == secondary_slot))
+                    .flatten()
+                    .map(|c| c.1);
                 let per_mag = depth_from
                     .0
                     .map_or(1.0, |m| units::depth_ppm_of_magnitudes(1e-3) * 1e3 * m);
-                let factor = per_mag * depth_from.1;
+                let factor = stated_secondary.unwrap_or(per_mag * depth_from.1);
                 if factor != 1.0 {
                     if let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) {
                         col.update(|v| v * factor);
                     }
-                    how = format!("{how}; the depth's unit, × {factor} to ppm");
+                    let whose = if stated_secondary.is_some() {
+                        "the secondary depth's"
+                    } else {
+                        "the depth's"
+                    };
+                    how = format!("{how}; {whose} unit, × {factor} to ppm");
                 }
             } else if let Some(u) = stated {
                 how = match layout.convert_text.iter().find(|(f, _)| f == field) {
