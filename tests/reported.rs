@@ -150,3 +150,15 @@ fn a_secondary_depths_error_without_a_unit_takes_the_secondary_depths() {
         "{summary}"
     );
 }
+
+#[test]
+fn a_centroid_offsets_error_without_a_unit_takes_the_offsets() {
+    // Invented: the offset in milliarcseconds, its error under a bare
+    // name: 4000 ± 500 mas is 4.0″ ± 0.5″ (8σ), not 4.0″ ± 500″.
+    let rows = "C,C-1,3.7,0.00001,100.5,0.001,3000,2.5,60,0.3,1,1,5772,4000,500\n";
+    let text = catalogue("Centroid offset (mas),centroid_offset_err", rows);
+    let cat = written("reported_mas", &text);
+    let c = cat.to_str().unwrap();
+    assert_eq!(agreed(c)["C-1"], "unlikely");
+    assert!(checks_rows(c)["C-1"].contains("4.0″ ± 0.5″ from the target (8.0σ"));
+}

@@ -218,6 +218,22 @@ pub fn conversion(field: Field, unit: &str) -> Result<Option<Conversion>, String
                 text: format!("table unit {u}, × {} to ppm", trim_float(scale)),
             }))
         }
+        // A centroid offset and its error: angles to arcseconds; a unit
+        // that is no angle (pixels) is kept as written, since the check
+        // reads only their ratio.
+        Field::CentroidOffsetArcsec | Field::CentroidOffsetErrArcsec => {
+            let scale = match u.to_ascii_lowercase().as_str() {
+                "mas" | "milliarcsec" | "milliarcsecond" | "milliarcseconds" => 1e-3,
+                "arcmin" | "arcminute" | "arcminutes" | "'" => 60.0,
+                "deg" | "degree" | "degrees" | "°" => 3600.0,
+                _ => 1.0,
+            };
+            Ok((scale != 1.0).then(|| Conversion {
+                scale,
+                offset: 0.0,
+                text: format!("table unit {u}, × {} to arcsec", trim_float(scale)),
+            }))
+        }
         Field::Epoch => Ok(epoch_zero(u).map(|zero| Conversion {
             scale: 1.0,
             offset: zero,
@@ -336,6 +352,19 @@ mod tests {
             .unwrap();
         assert!((c.scale - 920.6).abs() < 0.1, "{}", c.scale);
         assert_eq!(conversion(Field::SecondaryDepthPpm, "ppm").unwrap(), None);
+        // 1″ = 1000 mas, 1° = 3600″ (definitions); pixels kept as written.
+        let c = conversion(Field::CentroidOffsetErrArcsec, "mas")
+            .unwrap()
+            .unwrap();
+        assert_eq!(c.scale, 1e-3);
+        let c = conversion(Field::CentroidOffsetArcsec, "deg")
+            .unwrap()
+            .unwrap();
+        assert_eq!(c.scale, 3600.0);
+        assert_eq!(
+            conversion(Field::CentroidOffsetArcsec, "pix").unwrap(),
+            None
+        );
         assert!(conversion(Field::SecondaryDepthPpm, "furlong").is_err());
     }
 

@@ -385,6 +385,18 @@ impl Merger {
                         h = crate::sanitize::clean(header[index].trim())
                     ));
                 }
+            } else if *field == Field::CentroidOffsetErrArcsec && stated.is_none() {
+                // No unit of its own: its offset's.
+                let offset_slot = Field::CentroidOffsetArcsec.num_slot();
+                if let Some(scale) = (layout.convert.iter())
+                    .find(|c| Some(c.0) == offset_slot)
+                    .map(|c| c.1)
+                {
+                    if let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) {
+                        col.update(|v| v * scale);
+                    }
+                    how = format!("{how}; the offset's unit, × {scale} to arcsec");
+                }
             } else if matches!(
                 field,
                 Field::SecondaryDepthPpm | Field::SecondaryDepthErrPpm
