@@ -162,3 +162,26 @@ fn a_centroid_offsets_error_without_a_unit_takes_the_offsets() {
     assert_eq!(agreed(c)["C-1"], "unlikely");
     assert!(checks_rows(c)["C-1"].contains("4.0″ ± 0.5″ from the target (8.0σ"));
 }
+
+#[test]
+fn a_comment_that_names_a_false_positive_is_a_warning_only() {
+    // Invented: a team's free-text `Comments`. A person's word in free
+    // text can say anything of anything (`EB ruled out`, `nearby EB`): it
+    // is shown, never read as the catalogue's verdict.
+    let rows = "\
+P,P-1,4.4,0.00001,100.3,0.001,700,3.0,30,0.3,1,1,5772,\"possible EB, V-shaped\"\n\
+P,P-2,10.4,0.00001,101.3,0.001,650,3.6,28,0.3,1,1,5772,EB ruled out by RVs\n";
+    let cat = written("reported_comments", &catalogue("Comments", rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    assert_eq!(v["P-1"], "validated");
+    assert_eq!(v["P-2"], "validated");
+    let rows = checks_rows(c);
+    assert!(
+        rows["P-1"]
+            .contains("warning known-fp: the catalogue's Comments says `possible EB, V-shaped`"),
+        "{}",
+        rows["P-1"]
+    );
+    assert!(!rows["P-2"].contains("known-fp"), "{}", rows["P-2"]);
+}

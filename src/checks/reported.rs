@@ -8,7 +8,9 @@
 //! (`secondary`, which holds the star); odd and even transits that differ
 //! are `odd-even` (which holds the candidate); dimming light away from the
 //! target is another star's (`echo`, as a neighbour's copy of an eclipse:
-//! no planet of this star, which holds only the candidate).
+//! no planet of this star, which holds only the candidate). And a person's
+//! word: a comment column that names a false positive (`possible EB`) is a
+//! warning, never a hold (free text can say anything of anything).
 
 use super::{CheckSettings, Checks, OCCULTATION_CEILING_FACTOR, derive};
 use crate::catalogue::{CandidateId, Catalogue, Field};
@@ -47,7 +49,11 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     let offset = cat
         .column(Field::CentroidOffsetArcsec)
         .zip(cat.column(Field::CentroidOffsetErrArcsec));
-    if secondary.is_none() && odd_even.is_none() && offset.is_none() {
+    let headers: Vec<&str> = cat.extra_headers().collect();
+    let comments: Vec<usize> = (0..headers.len())
+        .filter(|&i| names_comments(headers[i]))
+        .collect();
+    if secondary.is_none() && odd_even.is_none() && offset.is_none() && comments.is_empty() {
         return;
     }
     for c in 0..cat.len() as CandidateId {
@@ -65,6 +71,21 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
         }
         if let Some((flag, soft, why)) = secondary.and_then(|_| secondary_finding(cat, c)) {
             out.add(c, flag, soft, why);
+        }
+        for &i in &comments {
+            let cell = cat.extra(i, c);
+            if crate::checks::known::says_false_positive(cell) {
+                out.add(
+                    c,
+                    Flag::KnownFp,
+                    true,
+                    format!(
+                        "the catalogue's {} says `{}`: read it before trusting the verdict",
+                        headers[i],
+                        crate::sanitize::clean(cell.trim())
+                    ),
+                );
+            }
         }
         if let Some((off, err)) = offset.map(|(o, e)| (o.get(c as usize), e.get(c as usize))) {
             if err > 0.0 && off.abs() >= FLAG_Z * err {
@@ -132,4 +153,13 @@ fn secondary_finding(cat: &Catalogue, c: CandidateId) -> Option<(Flag, bool, Str
         )),
         _ => None,
     }
+}
+
+/// Whether a kept column's header names people's comments: a word
+/// `comment(s)`, `remark(s)` or `notes` (`Comments`, `tfop_comments`).
+fn names_comments(header: &str) -> bool {
+    header
+        .to_ascii_lowercase()
+        .split(|c: char| !c.is_ascii_alphanumeric())
+        .any(|w| matches!(w, "comment" | "comments" | "remark" | "remarks" | "notes"))
 }
