@@ -385,45 +385,15 @@ impl Merger {
                         h = crate::sanitize::clean(header[index].trim())
                     ));
                 }
-            } else if *field == Field::CentroidOffsetErrArcsec && stated.is_none() {
-                // No unit of its own: its offset's.
-                let offset_slot = Field::CentroidOffsetArcsec.num_slot();
-                if let Some(scale) = (layout.convert.iter())
-                    .find(|c| Some(c.0) == offset_slot)
-                    .map(|c| c.1)
-                {
-                    if let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) {
-                        col.update(|v| v * scale);
-                    }
-                    how = format!("{how}; the offset's unit, × {scale} to arcsec");
-                }
-            } else if matches!(
-                field,
-                Field::SecondaryDepthPpm | Field::SecondaryDepthErrPpm
-            ) && stated.is_none()
+            } else if let (None, Some((factor, whose, to))) =
+                (stated, borrowed_unit(*field, &layout.convert, depth_from))
             {
-                // No unit of its own: an error takes its secondary depth's
-                // stated unit, else both take the depth's (a small depth in
-                // magnitudes is linear in them, units::conversion).
-                let secondary_slot = Field::SecondaryDepthPpm.num_slot();
-                let stated_secondary = (*field == Field::SecondaryDepthErrPpm)
-                    .then(|| layout.convert.iter().find(|c| Some(c.0) == secondary_slot))
-                    .flatten()
-                    .map(|c| c.1);
-                let per_mag = depth_from
-                    .0
-                    .map_or(1.0, |m| units::depth_ppm_of_magnitudes(1e-3) * 1e3 * m);
-                let factor = stated_secondary.unwrap_or(per_mag * depth_from.1);
+                // No unit of its own: its partner's (`borrowed_unit`).
                 if factor != 1.0 {
                     if let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) {
                         col.update(|v| v * factor);
                     }
-                    let whose = if stated_secondary.is_some() {
-                        "the secondary depth's"
-                    } else {
-                        "the depth's"
-                    };
-                    how = format!("{how}; {whose} unit, × {factor} to ppm");
+                    how = format!("{how}; {whose} unit, × {factor} to {to}");
                 }
             } else if let Some(u) = stated {
                 how = match layout.convert_text.iter().find(|(f, _)| f == field) {
@@ -769,4 +739,44 @@ pub(super) fn star_members(star_of: &[StarId], stars: usize) -> (Vec<u32>, Vec<C
         fill[s as usize] += 1;
     }
     (member_start, members)
+}
+
+/// The unit a column without one of its own takes, as a factor to its
+/// stored unit, whose unit that is, and the stored unit: a centroid
+/// offset's error its offset's stated unit; a secondary depth's error its
+/// secondary depth's stated unit, else, as the secondary depth itself, the
+/// depth column's (`depth_from`: magnitudes per unit, then a factor; a
+/// small depth in magnitudes is linear in them, `units::conversion`).
+/// `None` for every other field, and where the partner states none.
+fn borrowed_unit(
+    field: Field,
+    convert: &[(usize, f64, f64)],
+    depth_from: (Option<f64>, f64),
+) -> Option<(f64, &'static str, &'static str)> {
+    let stated = |f: Field| {
+        convert
+            .iter()
+            .find(|c| Some(c.0) == f.num_slot())
+            .map(|c| c.1)
+    };
+    match field {
+        Field::CentroidOffsetErrArcsec => {
+            stated(Field::CentroidOffsetArcsec).map(|s| (s, "the offset's", "arcsec"))
+        }
+        Field::SecondaryDepthPpm | Field::SecondaryDepthErrPpm => {
+            let own = (field == Field::SecondaryDepthErrPpm)
+                .then(|| stated(Field::SecondaryDepthPpm))
+                .flatten();
+            Some(match own {
+                Some(s) => (s, "the secondary depth's", "ppm"),
+                None => {
+                    let per_mag = depth_from
+                        .0
+                        .map_or(1.0, |m| units::depth_ppm_of_magnitudes(1e-3) * 1e3 * m);
+                    (per_mag * depth_from.1, "the depth's", "ppm")
+                }
+            })
+        }
+        _ => None,
+    }
 }
