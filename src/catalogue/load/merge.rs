@@ -770,9 +770,7 @@ fn borrowed_unit(
             Some(match own {
                 Some(s) => (s, "the secondary depth's", "ppm"),
                 None => {
-                    let per_mag = depth_from
-                        .0
-                        .map_or(1.0, |m| units::depth_ppm_of_magnitudes(1e-3) * 1e3 * m);
+                    let per_mag = depth_from.0.map_or(1.0, |m| units::ppm_per_magnitude() * m);
                     (per_mag * depth_from.1, "the depth's", "ppm")
                 }
             })
