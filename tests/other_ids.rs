@@ -375,3 +375,29 @@ TIC 900,T-2,8.3,0.00001,101.1,0.001,500,3.2,30,0.3,1,1,5772,PC\n";
     );
     assert_eq!(v["E-2"], "likely");
 }
+
+#[test]
+fn one_row_under_two_star_ids_is_found_with_its_epoch_from_another_zero() {
+    // Invented: the same merged table, one source writing its epochs as
+    // BJD − 2457000 and the other as full BJD (a zero the archives
+    // document, from memory). The row on EPIC 201757 is K-1's with
+    // 2457000 added: one row, whose star cannot be known. Before, the
+    // epochs differed and both pairs were validated.
+    let rows = "\
+KIC 000757,K-1,3.7,0.00001,100.5,0.001,3000,2.5,40,0.3,1,1,5772,PC\n\
+KIC 000757,K-2,9.1,0.00001,101.5,0.001,600,3.0,30,0.3,1,1,5772,PC\n\
+EPIC 201757,E-1,3.7,0.00001,2457100.5,0.001,3000,2.5,40,0.3,1,1,5772,PC\n\
+EPIC 201757,E-2,17.2,0.00001,2457102.5,0.001,400,4.0,25,0.3,1,1,5772,PC\n";
+    let cat = written("one_row_two_zeros", &catalogue("disposition", rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for s in ["K-1", "K-2", "E-1", "E-2"] {
+        assert_eq!(v[s], "likely", "{s}");
+    }
+    let line = checks_rows(c)["E-1"].clone();
+    assert!(line.contains("mixed-host"), "{line}");
+    assert!(
+        line.contains("E-1 as 2457100.5, K-1 as 100.5, 2457000 days apart"),
+        "{line}"
+    );
+}

@@ -14,9 +14,40 @@ use super::system::Link;
 use crate::catalogue::{CandidateId, Catalogue, Column, Field, StarId};
 use crate::flags::Flag;
 
-/// What makes a row's signal, as read: the bit patterns of its period,
-/// epoch, depth and duration (a missing duration as one NaN).
-type Key = [u64; 4];
+/// What makes a row's signal, as read, but its epoch: the bit patterns of
+/// its period, depth and duration (a missing duration as one NaN).
+type Key = [u64; 3];
+
+/// Two epochs this close, days, once counted from one zero, are one epoch
+/// as two tables wrote it: rounding to the 3–6 decimals catalogues write
+/// leaves them closer; 0.001 d is 86 s, far below any epoch's error
+/// (common practice, no source).
+const EPOCH_TOLERANCE_D: f64 = 1e-3;
+
+/// The amounts, days, by which two writings of one epoch differ when each
+/// counts from its own zero: 0, and the differences of the common zeros
+/// and of each from the full Julian date (BJD − 2457000 against BJD is
+/// 2457000; against BJD − 2454833, 2167).
+fn zero_shifts() -> Vec<f64> {
+    let zeros: Vec<f64> = std::iter::once(0.0)
+        .chain(crate::lightcurve::timezero::COMMON_ZEROS)
+        .collect();
+    let mut out: Vec<f64> = zeros
+        .iter()
+        .flat_map(|a| zeros.iter().map(move |b| a - b))
+        .filter(|d| *d >= 0.0)
+        .collect();
+    out.sort_by(f64::total_cmp);
+    out.dedup();
+    out
+}
+
+/// Whether epochs `a` and `b` are one epoch, perhaps counted from two of
+/// the common zeros ([`zero_shifts`]).
+fn one_epoch(a: f64, b: f64, shifts: &[f64]) -> bool {
+    let d = (a - b).abs();
+    shifts.iter().any(|s| (d - s).abs() <= EPOCH_TOLERANCE_D)
+}
 
 /// The columns a [`Key`] is read from.
 struct Cols<'a> {
@@ -24,6 +55,7 @@ struct Cols<'a> {
     epoch: &'a Column,
     depth: &'a Column,
     duration: Option<&'a Column>,
+    shifts: Vec<f64>,
 }
 
 impl<'a> Cols<'a> {
@@ -33,12 +65,13 @@ impl<'a> Cols<'a> {
             epoch: cat.column(Field::Epoch)?,
             depth: cat.column(Field::DepthPpm)?,
             duration: cat.column(Field::DurationH),
+            shifts: zero_shifts(),
         })
     }
 
-    /// Row `c`'s key; `None` when its period, epoch or depth is missing or
-    /// its depth is not above zero (nothing to be the same of).
-    fn key(&self, c: CandidateId) -> Option<Key> {
+    /// Row `c`'s key and epoch; `None` when its period, epoch or depth is
+    /// missing or its depth is not above zero (nothing to be the same of).
+    fn key(&self, c: CandidateId) -> Option<(Key, f64)> {
         let i = c as usize;
         let (p, e, d) = (self.period.get(i), self.epoch.get(i), self.depth.get(i));
         if !(p.is_finite() && e.is_finite() && d > 0.0 && d.is_finite()) {
@@ -46,27 +79,36 @@ impl<'a> Cols<'a> {
         }
         let t = self.duration.map_or(f64::NAN, |t| t.get(i));
         let t = if t.is_nan() { f64::NAN } else { t };
-        Some([p.to_bits(), e.to_bits(), d.to_bits(), t.to_bits()])
+        Some(([p.to_bits(), d.to_bits(), t.to_bits()], e))
+    }
+
+    /// Whether rows `a` and `b` carry the same signal: period, depth and
+    /// duration identical, and one epoch.
+    fn same(&self, a: CandidateId, b: CandidateId) -> bool {
+        match (self.key(a), self.key(b)) {
+            (Some((ka, ea)), Some((kb, eb))) => ka == kb && one_epoch(ea, eb, &self.shifts),
+            _ => false,
+        }
     }
 }
 
-/// Whether rows `a` and `b` carry the same signal, value for value.
+/// Whether rows `a` and `b` carry the same signal, value for value (the
+/// epoch perhaps counted from another common zero).
 pub(super) fn same_row(cat: &Catalogue, a: CandidateId, b: CandidateId) -> bool {
-    Cols::of(cat).is_some_and(|k| k.key(a).is_some() && k.key(a) == k.key(b))
+    Cols::of(cat).is_some_and(|k| k.same(a, b))
 }
 
 /// The rows whose signal is repeated on another star id, in sets of one
-/// signal (each in the order of `period_order`, then star, then row), from
-/// the echo search's period order (keys whose high 64 bits order the
-/// periods, the candidate in the low 32). Rows of one period lie together
-/// there, so only those are compared: O(n), and O(r log r) for a run of r
-/// rows of one period.
+/// signal (each in the order of star, then row), from the echo search's
+/// period order (keys whose high 64 bits order the periods, the candidate
+/// in the low 32). Rows of one period lie together there, so only those
+/// are compared: O(n), and O(r log r) for a run of r rows of one period.
 pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateId>> {
     let Some(cols) = Cols::of(cat) else {
         return Vec::new();
     };
     let mut out = Vec::new();
-    let mut run: Vec<(Key, StarId, CandidateId)> = Vec::new();
+    let mut run: Vec<(Key, f64, StarId, CandidateId)> = Vec::new();
     for same_period in period_order.chunk_by(|a, b| a >> 64 == b >> 64) {
         if same_period.len() < 2 {
             continue;
@@ -74,16 +116,64 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
         run.clear();
         run.extend(same_period.iter().filter_map(|&k| {
             let c = k as CandidateId;
-            Some((cols.key(c)?, cat.star_of(c), c))
+            let (key, epoch) = cols.key(c)?;
+            Some((key, epoch, cat.star_of(c), c))
         }));
-        run.sort_unstable();
+        run.sort_unstable_by_key(|r| (r.0, r.2, r.3));
         for same in run.chunk_by(|a, b| a.0 == b.0) {
-            if same[0].1 != same[same.len() - 1].1 {
-                out.push(same.iter().map(|&(_, _, c)| c).collect());
+            if same.len() < 2 || same.iter().all(|r| r.2 == same[0].2) {
+                continue;
+            }
+            for set in one_epoch_sets(same, &cols.shifts) {
+                if set.iter().any(|&i| same[i].2 != same[set[0]].2) {
+                    out.push(set.iter().map(|&i| same[i].3).collect());
+                }
             }
         }
     }
     out
+}
+
+/// The rows of `same` (one key, in the order of star, then row) that carry
+/// one epoch ([`one_epoch`]), as sets of their places in `same`, each in
+/// order, sets of one left out. Epochs sorted, each row is joined to the
+/// next within the tolerance and to the nearest a zero's shift away:
+/// O(r log r) for r rows, however many repeat one epoch.
+fn one_epoch_sets(same: &[(Key, f64, StarId, CandidateId)], shifts: &[f64]) -> Vec<Vec<usize>> {
+    let mut by_epoch: Vec<usize> = (0..same.len()).collect();
+    by_epoch.sort_by(|&a, &b| same[a].1.total_cmp(&same[b].1));
+    let epoch = |j: usize| same[by_epoch[j]].1;
+    let mut root: Vec<usize> = (0..same.len()).collect();
+    fn find(root: &mut [usize], mut i: usize) -> usize {
+        while root[i] != i {
+            root[i] = root[root[i]];
+            i = root[i];
+        }
+        i
+    }
+    let mut join = |a: usize, b: usize| {
+        let (ra, rb) = (find(&mut root, a), find(&mut root, b));
+        root[ra.max(rb)] = ra.min(rb);
+    };
+    for j in 0..by_epoch.len() {
+        if j + 1 < by_epoch.len() && epoch(j + 1) - epoch(j) <= EPOCH_TOLERANCE_D {
+            join(by_epoch[j], by_epoch[j + 1]);
+        }
+        for &s in shifts.iter().filter(|s| **s > 0.0) {
+            let at = epoch(j) + s;
+            let k = by_epoch.partition_point(|&i| same[i].1 < at - EPOCH_TOLERANCE_D);
+            if k < by_epoch.len() && epoch(k) <= at + EPOCH_TOLERANCE_D {
+                join(by_epoch[j], by_epoch[k]);
+            }
+        }
+    }
+    let mut sets: Vec<Vec<usize>> = vec![Vec::new(); same.len()];
+    for i in 0..same.len() {
+        let r = find(&mut root, i);
+        sets[r].push(i);
+    }
+    sets.retain(|s| s.len() > 1);
+    sets
 }
 
 /// The signal-group links of the sets [`find`] found, for
@@ -98,17 +188,36 @@ pub(super) fn links(cat: &Catalogue, sets: &[Vec<CandidateId>]) -> Vec<Link> {
                 b: c,
                 flag: Flag::NearTwin,
                 detail: if cat.star_of(other) == cat.star_of(c) {
-                    "the same row on this star".to_string()
+                    format!("the same row on this star{}", zeros(cat, other, c))
                 } else {
                     format!(
-                        "the same row under another star id ({}): period, epoch, depth and duration identical",
-                        crate::sanitize::clean(cat.star_id(cat.star_of(other)))
+                        "the same row under another star id ({}): period, epoch, depth and duration identical{}",
+                        crate::sanitize::clean(cat.star_id(cat.star_of(other))),
+                        zeros(cat, other, c)
                     )
                 },
             });
         }
     }
     out
+}
+
+/// What the words "epoch identical" leave out for rows `a` and `b`: that
+/// one epoch is written from another zero, when it is.
+fn zeros(cat: &Catalogue, a: CandidateId, b: CandidateId) -> String {
+    let epoch = |c: CandidateId| cat.value(Field::Epoch, c).unwrap_or(f64::NAN);
+    let (ea, eb) = (epoch(a), epoch(b));
+    if (ea - eb).abs() <= EPOCH_TOLERANCE_D {
+        return String::new();
+    }
+    format!(
+        " (the epoch once counted from another zero: {} as {}, {} as {}, {} days apart)",
+        crate::sanitize::clean(cat.candidate_id(a)),
+        crate::output::exact(Some(ea)),
+        crate::sanitize::clean(cat.candidate_id(b)),
+        crate::output::exact(Some(eb)),
+        crate::output::num(Some((ea - eb).abs()), 8),
+    )
 }
 
 /// The first row of `set` on another star than `c`'s (every set spans two
@@ -132,7 +241,8 @@ pub(super) fn flag(cat: &Catalogue, sets: &[Vec<CandidateId>], out: &mut Checks)
                 Flag::MixedHost,
                 false,
                 format!(
-                    "the same row (period, epoch, depth and duration identical) is also listed as {} on star {}: one row under two star ids, from a merged table or one star under two catalogues' ids, and no neighbour's light, which would be shallower; which star it is on cannot be known, so it counts towards neither (docs/science.md §3.4)",
+                    "the same row (period, epoch, depth and duration identical{}) is also listed as {} on star {}: one row under two star ids, from a merged table or one star under two catalogues' ids, and no neighbour's light, which would be shallower; which star it is on cannot be known, so it counts towards neither (docs/science.md §3.4)",
+                    zeros(cat, c, other),
                     crate::sanitize::clean(cat.candidate_id(other)),
                     crate::sanitize::clean(cat.star_id(cat.star_of(other)))
                 ),
@@ -148,7 +258,12 @@ pub(super) fn ties(cat: &Catalogue, targets: &[CandidateId]) -> Vec<(CandidateId
     let Some(cols) = Cols::of(cat) else {
         return Vec::new();
     };
-    super::other_ids::rows_sharing(cat, targets, |c| cols.key(c))
+    super::other_ids::rows_sharing(
+        cat,
+        targets,
+        |c| cols.key(c).map(|k| k.0),
+        |t, c| cols.same(t, c),
+    )
 }
 
 /// Holds each star that repeats a row of a false positive on another star
@@ -162,10 +277,11 @@ pub(super) fn hold(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
         .into_iter()
         .map(|(fp, c)| {
             let why = format!(
-                "{}, on star {}, is the same row as this star's {} (period, epoch, depth and duration identical) and {}; one row under two star ids names one star",
+                "{}, on star {}, is the same row as this star's {} (period, epoch, depth and duration identical{}) and {}; one row under two star ids names one star",
                 crate::sanitize::clean(cat.candidate_id(fp)),
                 crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
                 crate::sanitize::clean(cat.candidate_id(c)),
+                zeros(cat, fp, c),
                 super::false_positive_words(out, fp),
             );
             (c, why)
@@ -189,27 +305,34 @@ mod tests {
     fn only_the_same_row_on_another_star_id_is_a_copy() {
         // Invented rows. A's row is repeated on B, on C written with other
         // digits of the same numbers (`3.70`, `100.50`), and a second time
-        // on A (one star's own repeat: `near-twin`, not a copy). D differs
-        // by 1 ppm in depth, E by 0.001 h in duration: a measurement of
-        // its own.
+        // on A (one star's own repeat: `near-twin`, not a copy); on F and
+        // G with the epoch written as BJD and as BJD − 2454833, where A's
+        // counts from 2457000 (G's rounded otherwise, 0.00004 d). D
+        // differs by 1 ppm in depth, E by 0.001 h in duration, H by
+        // 0.01 d in epoch, I by 0.1 d once the zeros are taken away: each
+        // a measurement of its own.
         let text = "star,candidate,period_d,epoch,depth_ppm,duration_h\n\
 A,A-1,3.7,100.5,3000,2.5\n\
 B,B-1,3.7,100.5,3000,2.5\n\
 C,C-1,3.70,100.50,3000.0,2.50\n\
 A,A-2,3.7,100.5,3000,2.5\n\
 D,D-1,3.7,100.5,3001,2.5\n\
-E,E-1,3.7,100.5,3000,2.501\n";
+E,E-1,3.7,100.5,3000,2.501\n\
+F,F-1,3.7,2457100.5,3000,2.5\n\
+G,G-1,3.7,2454933.50004,3000,2.5\n\
+H,H-1,3.7,100.51,3000,2.5\n\
+I,I-1,3.7,2457100.6,3000,2.5\n";
         let cat = Catalogue::from_text("t.csv", text);
         let id = |s: &str| cat.find_candidate(s).unwrap();
         let ch = run(&cat, &CheckSettings::default());
-        for s in ["A-1", "B-1", "C-1", "A-2"] {
+        for s in ["A-1", "B-1", "C-1", "A-2", "F-1", "G-1"] {
             assert!(
                 ch.flags(id(s)).contains(Flag::MixedHost),
                 "{s}: {}",
                 ch.why(id(s))
             );
         }
-        for s in ["D-1", "E-1"] {
+        for s in ["D-1", "E-1", "H-1", "I-1"] {
             assert!(
                 !ch.flags(id(s)).contains(Flag::MixedHost),
                 "{s}: {}",
@@ -218,7 +341,7 @@ E,E-1,3.7,100.5,3000,2.501\n";
         }
         // One signal group: A-1 stands for it, every other copy follows.
         let g = ch.groups().group_of(id("A-1")).unwrap();
-        assert_eq!(ch.groups().members(g).len(), 4);
+        assert_eq!(ch.groups().members(g).len(), 6);
         assert!(ch.why(id("C-1")).contains("also listed as A-1 on star A"));
         assert!(ch.why(id("A-1")).contains("also listed as B-1 on star B"));
         // The ties a false positive at B holds: A and C (each once).
@@ -227,6 +350,14 @@ E,E-1,3.7,100.5,3000,2.501\n";
             .map(|(_, c)| cat.candidate_id(c))
             .collect();
         tied.sort_unstable();
-        assert_eq!(tied, ["A-1", "A-2", "C-1"]);
+        assert_eq!(tied, ["A-1", "A-2", "C-1", "F-1", "G-1"]);
+        assert!(
+            ch.why(id("F-1"))
+                .contains("F-1 as 2457100.5, A-1 as 100.5, 2457000 days apart"),
+            "{}",
+            ch.why(id("F-1"))
+        );
+        assert!(same_row(&cat, id("A-1"), id("G-1")));
+        assert!(!same_row(&cat, id("A-1"), id("I-1")));
     }
 }
