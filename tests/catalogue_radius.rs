@@ -106,6 +106,56 @@ JB,JB-2,9.70,0.00001,101.6,0.001,650,3.6,28,0.3,,,5772,0.25\n";
 }
 
 #[test]
+fn a_bare_planet_radius_in_jupiter_radii_is_told_by_its_depths_and_stars() {
+    // A column named `planet_radius` without a unit, in Jupiter radii (as
+    // many tables give it). Where the star's radius is known, R★√δ says
+    // which: 700 ppm across 1 R☉ is 2.9 R⊕ = 0.26 R_J (docs/science.md §2;
+    // R_J/R⊕ = 11.209, IAU 2015 Resolution B3). BIN-1's star has no
+    // radius, so its catalogue radius, 2.5 R_J = 28.0 R⊕, is its size:
+    // above the firm 22.4 R⊕. Before, read as 2.5 R⊕, BIN's pair was
+    // validated.
+    let rows = "\
+JA,JA-1,4.10,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,0.26\n\
+JA,JA-2,9.70,0.00001,101.6,0.001,650,3.6,28,0.3,1,1,5772,0.25\n\
+JB,JB-1,5.30,0.00001,100.3,0.001,1200,3.0,30,0.3,0.9,0.9,5500,0.30\n\
+JC,JC-1,6.10,0.00001,100.9,0.001,400,3.2,20,0.3,1.2,1.1,6000,0.22\n\
+BIN,BIN-1,3.52,0.00001,100.0,0.001,6000,3.1,90,0.3,,,5772,2.5\n\
+BIN,BIN-2,9.81,0.00001,101.2,0.001,800,4.0,25,0.3,,,5772,0.26\n";
+    let text = catalogue("planet_radius", rows);
+    let cat = load_text(&text);
+    let s = CheckSettings::default();
+    let bin = derive(&cat, id(&cat, "BIN-1"), &s).radius_rearth.unwrap();
+    assert!((bin - 28.02).abs() < 0.01, "{bin}");
+    let live = live(&cat);
+    assert!(live.flags(id(&cat, "BIN-1")).contains(Flag::BigRadius));
+    assert_eq!(live.verdict(id(&cat, "BIN-1")), Verdict::Unlikely);
+    // Every command says the same, and says why.
+    let c = written("catalogue_radius_bare_jupiter", &text);
+    let c = c.to_str().unwrap();
+    let v = agreed(c);
+    assert_eq!(v["BIN-1"], "unlikely");
+    assert_eq!(v["JA-1"], "validated");
+    let o = starsift(&["summary", c]);
+    let err = common::stderr(&o) + &stdout(&o);
+    assert!(
+        err.contains("the planet radii (`planet_radius`) are read as Jupiter radii"),
+        "{err}"
+    );
+    // In Earth radii the same column stays as written.
+    let earth = rows
+        .replace(",2.5\n", ",28.0\n")
+        .replace(",0.26\n", ",2.9\n")
+        .replace(",0.25\n", ",2.8\n")
+        .replace(",0.30\n", ",3.4\n")
+        .replace(",0.22\n", ",2.5\n");
+    let cat = load_text(&catalogue("planet_radius", &earth));
+    let ja = derive(&cat, id(&cat, "JA-2"), &s).catalogue_radius_rearth;
+    assert_eq!(ja, Some(2.8));
+    let bin = derive(&cat, id(&cat, "BIN-1"), &s).catalogue_radius_rearth;
+    assert_eq!(bin, Some(28.0));
+}
+
+#[test]
 fn a_radius_in_a_unit_not_converted_stops_the_load_naming_the_column() {
     let c = written(
         "catalogue_radius_unit",

@@ -35,6 +35,7 @@ pub(super) struct Merger {
     pub(super) reserved: bool,
     durations: DurationSample,
     rors: RorSample,
+    radii: RadiusSample,
     /// The file's line at the start of the next part (parts number their
     /// lines from their own start).
     pub(super) next_line: u64,
@@ -70,6 +71,7 @@ impl Merger {
             reserved: false,
             durations: DurationSample::default(),
             rors: RorSample::default(),
+            radii: RadiusSample::default(),
             next_line: first_line,
         }
     }
@@ -133,6 +135,9 @@ impl Merger {
         }
         if let Some((r, d)) = layout.ror_depth {
             self.rors.add([&part.num[r], &part.num[d]]);
+        }
+        if let Some((r, d, s)) = layout.radius_depth_star {
+            self.radii.add([&part.num[r], &part.num[d], &part.num[s]]);
         }
         for ((dst, src), _) in (self.num.iter_mut().zip(&part.num))
             .zip(&layout.kept)
@@ -255,6 +260,7 @@ impl Merger {
             rows_seen,
             durations,
             rors,
+            radii,
             ..
         } = self;
         let mut notes = std::mem::take(&mut ids.notes);
@@ -359,13 +365,7 @@ impl Merger {
                 // A radius ratio in percent: stated so (`Rp/Rs (%)`), or
                 // seen (about 100 times the square root of its depth).
                 let said = stated.is_some_and(units::is_percent);
-                let to_ppm = |d: f64| {
-                    let d = depth_from
-                        .0
-                        .map_or(d, |per_mag| units::depth_ppm_of_magnitudes(d * per_mag));
-                    d * depth_from.1
-                };
-                let seen = !said && rors.ror_in_percent(to_ppm);
+                let seen = !said && rors.ror_in_percent(|d| depth_in_ppm(depth_from, d));
                 if said || seen {
                     if let Some(ror) = Field::Ror.num_slot().and_then(|s| num[s].as_mut()) {
                         ror.update(|v| v / 100.0);
@@ -383,6 +383,25 @@ impl Merger {
                          once it); if they are fractions after all, the depths are wrong \
                          (docs/science.md §2). State the unit in the header (`{h} (%)`) to say so",
                         h = crate::sanitize::clean(header[index].trim())
+                    ));
+                }
+            } else if *field == Field::PlanetRadiusRearth && stated.is_none() {
+                // No unit stated: Earth radii, unless the depths and stars
+                // show Jupiter radii (`RadiusSample::radius_ratio`).
+                let ratio = radii
+                    .radius_ratio(|d| depth_in_ppm(depth_from, d))
+                    .filter(|&r| r < JUPITER_RADII_RATIO);
+                if let Some(ratio) = ratio {
+                    let per = crate::constants::R_JUPITER_M / crate::constants::R_EARTH_M;
+                    if let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) {
+                        col.update(|v| v * per);
+                    }
+                    let h = crate::sanitize::clean(header[index].trim()).into_owned();
+                    how = format!(
+                        "{how}; Jupiter radii, detected from the depths and stars, × {per:.4} to Earth radii"
+                    );
+                    notes.push(format!(
+                        "the planet radii (`{h}`) are read as Jupiter radii: as Earth radii their median is {ratio:.3} of the radius each depth gives on its star (about 1 in Earth radii, 1/11.2 in Jupiter radii; docs/science.md §2). State the unit in the header (`{h} (R_Earth)`) if they are Earth radii after all"
                     ));
                 }
             } else if let (None, Some((factor, whose, to))) =
@@ -739,6 +758,16 @@ pub(super) fn star_members(star_of: &[StarId], stars: usize) -> (Vec<u32>, Vec<C
         fill[s as usize] += 1;
     }
     (member_start, members)
+}
+
+/// A depth as the table writes it, in ppm as the depth column is stored:
+/// from magnitudes (`depth_from.0` of them to one), then times
+/// `depth_from.1`.
+fn depth_in_ppm(depth_from: (Option<f64>, f64), d: f64) -> f64 {
+    let d = depth_from
+        .0
+        .map_or(d, |per_mag| units::depth_ppm_of_magnitudes(d * per_mag));
+    d * depth_from.1
 }
 
 /// The unit a column without one of its own takes, as a factor to its

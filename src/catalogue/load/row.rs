@@ -22,6 +22,9 @@ pub(super) struct Layout {
     pub(super) ephemeris: Option<(usize, usize)>,
     /// The places among `num_cols` of the radius ratio and the depth.
     pub(super) ror_depth: Option<(usize, usize)>,
+    /// The places among `num_cols` of the planet radius, the depth and
+    /// the star radius.
+    pub(super) radius_depth_star: Option<(usize, usize, usize)>,
     /// Columns whose values no rule and no caller reads (`index_only`):
     /// each cell is only checked to be a number or missing.
     pub(super) checked: Vec<bool>,
@@ -127,16 +130,31 @@ impl Layout {
             .map(|&(slot, _)| !index_only || NUMERIC[slot] == Field::DepthPpm)
             .collect();
         // Read by the merge's unit rules even where not kept: the period
-        // and duration (the durations' unit), the radius ratio (its unit).
+        // and duration (the durations' unit), the radius ratio (its unit),
+        // the planet radius and its star's (the planet radius's unit).
         const RULES: [Field; 3] = [Field::PeriodD, Field::DurationH, Field::Ror];
+        let planet_radius = col(Field::PlanetRadiusRearth).is_some();
         let in_parts: Vec<bool> = num_cols
             .iter()
             .zip(&kept)
-            .map(|(&(slot, _), &kept)| kept || RULES.contains(&NUMERIC[slot]))
+            .map(|(&(slot, _), &kept)| {
+                let f = NUMERIC[slot];
+                kept || RULES.contains(&f)
+                    || (planet_radius
+                        && [Field::PlanetRadiusRearth, Field::StarRadiusRsun].contains(&f))
+            })
             .collect();
         let at = |f: Field| num_cols.iter().position(|&(s, _)| NUMERIC[s] == f);
         let ephemeris = at(Field::PeriodD).zip(at(Field::DurationH));
         let ror_depth = at(Field::Ror).zip(at(Field::DepthPpm));
+        let radius_depth_star = match (
+            at(Field::PlanetRadiusRearth),
+            at(Field::DepthPpm),
+            at(Field::StarRadiusRsun),
+        ) {
+            (Some(r), Some(d), Some(s)) => Some((r, d, s)),
+            _ => None,
+        };
         let checked: Vec<bool> = num_cols
             .iter()
             .zip(&in_parts)
@@ -166,6 +184,7 @@ impl Layout {
             in_parts,
             ephemeris,
             ror_depth,
+            radius_depth_star,
             num_cols,
             star_col: col(Field::Star).unwrap_or(0),
             cand_col: col(Field::Candidate).unwrap_or(0),

@@ -149,6 +149,37 @@ impl RorSample {
     }
 }
 
+/// (planet radius, depth, star radius) of the rows taken, as the table
+/// writes them.
+pub(super) type RadiusSample = RowSample<3>;
+
+/// Below this median ratio of a planet-radius column, read as Earth radii,
+/// to the radii its depths and stars give, the column is in Jupiter radii:
+/// in Earth radii the ratio is near 1, in Jupiter radii near 1/11.2
+/// (R_J/R⊕, IAU 2015 Resolution B3); 0.3 is their geometric middle, which
+/// only light diluted tenfold in radius (a hundredfold in depth) would
+/// carry a column in Earth radii past.
+pub(super) const JUPITER_RADII_RATIO: f64 = 0.3;
+
+impl RadiusSample {
+    /// The median ratio of the planet radii to R★√δ, the radius of a
+    /// uniform disc blocking the depth δ (`to_ppm` turns the table's depth
+    /// into ppm, as the depth column is) in Earth radii (docs/science.md
+    /// §2); `None` without rows that give all three.
+    pub(super) fn radius_ratio(&self, to_ppm: impl Fn(f64) -> f64) -> Option<f64> {
+        let mut ratios: Vec<f64> = self
+            .rows
+            .iter()
+            .filter_map(|&[rp, depth, star]| {
+                let from_depth = crate::science::radius_from_depth_rearth(to_ppm(depth), star, 0.0);
+                let ok = rp > 0.0 && from_depth > 0.0 && star > 0.0;
+                (ok && (rp / from_depth).is_finite()).then(|| rp / from_depth)
+            })
+            .collect();
+        median(&mut ratios)
+    }
+}
+
 impl DurationSample {
     /// The median ratio of the durations to the central transit duration
     /// of a small planet across a Sun-like star at each period (Winn 2010
