@@ -498,7 +498,7 @@ pub fn run_counted(cat: &Catalogue, s: &CheckSettings, progress: &CheckProgress)
         for c in 0..n as CandidateId {
             let d = derive_for_flags(cat, c, s);
             candidate_flags(cat, c, &d, s, &mut checks);
-            if (c as usize + 1) % progress::STEP == 0 {
+            if (c as usize + 1).is_multiple_of(progress::STEP) {
                 progress.add(progress::STEP);
             }
         }
@@ -765,15 +765,15 @@ fn candidate_flags(
             );
         }
     }
-    if let Some(snr) = cat.value(Field::Snr, c) {
-        if snr < s.low_snr {
-            out.add(
-                c,
-                Flag::LowSnr,
-                false,
-                format!("SNR {snr:.1} < {}", s.low_snr),
-            );
-        }
+    if let Some(snr) = cat.value(Field::Snr, c)
+        && snr < s.low_snr
+    {
+        out.add(
+            c,
+            Flag::LowSnr,
+            false,
+            format!("SNR {snr:.1} < {}", s.low_snr),
+        );
     }
     if let Some(ratio) = d.density_ratio {
         // With b unknown the transit density (b = 0) is an upper bound: a

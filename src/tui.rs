@@ -575,10 +575,10 @@ pub fn run(args: &Args) -> Result<(), CliError> {
             return Err(e);
         }
     };
-    if args.filter.is_none() {
-        if let Some(p) = load_positions().get(&app.cat.source) {
-            app.restore(p);
-        }
+    if args.filter.is_none()
+        && let Some(p) = load_positions().get(&app.cat.source)
+    {
+        app.restore(p);
     }
     // The values (the first read kept ids only), then what needs them:
     // the checks, the light-curve worker, the orders. The verdicts wait

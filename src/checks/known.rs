@@ -486,17 +486,15 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
                 );
             }
         }
-        if let Some(p) = fpp.map(|col| col.get(c as usize)) {
-            if (FPP_EVEN..=1.0).contains(&p) {
-                out.add(
-                    c,
-                    Flag::KnownFp,
-                    false,
-                    format!(
-                        "the catalogue's fpp is {p}: more likely a false positive than a planet"
-                    ),
-                );
-            }
+        if let Some(p) = fpp.map(|col| col.get(c as usize))
+            && (FPP_EVEN..=1.0).contains(&p)
+        {
+            out.add(
+                c,
+                Flag::KnownFp,
+                false,
+                format!("the catalogue's fpp is {p}: more likely a false positive than a planet"),
+            );
         }
     }
     // Words read as neither: said once per column, most rows first.

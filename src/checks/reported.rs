@@ -57,9 +57,10 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
         return;
     }
     for c in 0..cat.len() as CandidateId {
-        if let Some(z) = odd_even.map(|z| z.get(c as usize).abs()) {
-            if z >= FLAG_Z {
-                out.add(
+        if let Some(z) = odd_even.map(|z| z.get(c as usize).abs())
+            && z >= FLAG_Z
+        {
+            out.add(
                     c,
                     Flag::OddEven,
                     false,
@@ -67,7 +68,6 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
                         "the catalogue's odd and even transits differ in depth at {z:.1}σ ≥ {FLAG_Z} (its pipeline's, from the light curve)"
                     ),
                 );
-            }
         }
         if let Some((flag, soft, why)) = secondary.and_then(|_| secondary_finding(cat, c)) {
             out.add(c, flag, soft, why);
@@ -87,9 +87,11 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
                 );
             }
         }
-        if let Some((off, err)) = offset.map(|(o, e)| (o.get(c as usize), e.get(c as usize))) {
-            if err > 0.0 && off.abs() >= FLAG_Z * err {
-                out.add(
+        if let Some((off, err)) = offset.map(|(o, e)| (o.get(c as usize), e.get(c as usize)))
+            && err > 0.0
+            && off.abs() >= FLAG_Z * err
+        {
+            out.add(
                     c,
                     Flag::Echo,
                     false,
@@ -99,7 +101,6 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
                         off.abs() / err
                     ),
                 );
-            }
         }
     }
 }

@@ -386,26 +386,25 @@ pub(super) fn check(
         deltas.push(delta);
     }
     for i in 0..deltas.len().saturating_sub(1) {
-        if let (Some(d1), Some(d2)) = (deltas[i], deltas[i + 1]) {
-            if d1 + d2 < s.trio_hill_sum
-                && d1 >= science::HILL_CRITICAL
-                && d2 >= science::HILL_CRITICAL
-            {
-                let trio = [m[i].c, m[i + 1].c, m[i + 2].c];
-                for &x in &trio {
-                    out.add(
-                        x,
-                        Flag::Crowded,
-                        true,
-                        format!(
-                            "trio {}, {}, {}: Hill spacings {d1:.1} + {d2:.1} < {}",
-                            id(trio[0]),
-                            id(trio[1]),
-                            id(trio[2]),
-                            s.trio_hill_sum
-                        ),
-                    );
-                }
+        if let (Some(d1), Some(d2)) = (deltas[i], deltas[i + 1])
+            && d1 + d2 < s.trio_hill_sum
+            && d1 >= science::HILL_CRITICAL
+            && d2 >= science::HILL_CRITICAL
+        {
+            let trio = [m[i].c, m[i + 1].c, m[i + 2].c];
+            for &x in &trio {
+                out.add(
+                    x,
+                    Flag::Crowded,
+                    true,
+                    format!(
+                        "trio {}, {}, {}: Hill spacings {d1:.1} + {d2:.1} < {}",
+                        id(trio[0]),
+                        id(trio[1]),
+                        id(trio[2]),
+                        s.trio_hill_sum
+                    ),
+                );
             }
         }
     }

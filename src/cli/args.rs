@@ -335,10 +335,10 @@ pub fn check_output_path(output: &Path, vetting: &VettingArgs) -> Result<(), Cli
         if resolved(cat) == out {
             return refuse("the input catalogue");
         }
-        if let Some(survey) = crate::survey::SurveyFacts::beside(cat) {
-            if resolved(&survey) == out {
-                return refuse("the catalogue's survey.toml");
-            }
+        if let Some(survey) = crate::survey::SurveyFacts::beside(cat)
+            && resolved(&survey) == out
+        {
+            return refuse("the catalogue's survey.toml");
         }
     }
     ledgers.push(crate::ledger::default_path(
@@ -354,10 +354,10 @@ pub fn check_output_path(output: &Path, vetting: &VettingArgs) -> Result<(), Cli
             return refuse("the ledger (or one of its side files)");
         }
     }
-    if let Some(dir) = vetting.lc.lightcurves.as_deref().filter(|d| !d.is_empty()) {
-        if out.starts_with(resolved(Path::new(dir))) {
-            return refuse("inside the light-curve folder");
-        }
+    if let Some(dir) = vetting.lc.lightcurves.as_deref().filter(|d| !d.is_empty())
+        && out.starts_with(resolved(Path::new(dir)))
+    {
+        return refuse("inside the light-curve folder");
     }
     let mut head = [0u8; 16];
     if std::fs::File::open(&out)

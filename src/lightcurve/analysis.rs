@@ -584,16 +584,15 @@ fn findings(d: &Diagnostics) -> Vec<(Flag, String)> {
     // likely the transit at another epoch than a secondary eclipse: it is
     // named in the not-recovered finding instead.
     let shown = matches!(d.recovery, Recovery::Shown | Recovery::Hidden);
-    if let (Some(e), true) = (d.eclipse, shown) {
-        if !out.iter().any(|(f, _)| *f == Flag::Secondary)
-            && e.depth.z() >= e.threshold_z
-            && e.depth.value > 2.0 * ceiling
-        {
-            out.push((Flag::Secondary, format!(
+    if let (Some(e), true) = (d.eclipse, shown)
+        && !out.iter().any(|(f, _)| *f == Flag::Secondary)
+        && e.depth.z() >= e.threshold_z
+        && e.depth.value > 2.0 * ceiling
+    {
+        out.push((Flag::Secondary, format!(
                 "eclipse at phase {:.3}: {:.0} ± {:.0} ppm (Z = {:.1} ≥ {:.1}, the threshold for the phases searched), above twice the planetary ceiling {:.0} ppm",
                 e.phase, e.depth.value, e.depth.err, e.depth.z(), e.threshold_z, ceiling,
             )));
-        }
     }
     // Two different eclipses, both there, beyond chance: at twice the
     // period, a binary's primary and secondary. The shallower is far above

@@ -211,10 +211,10 @@ pub fn locate_all(
             found.extend(folder_files(&sub));
         }
         // Else the archives' names: the star's number, zero-padded.
-        if found.is_empty() {
-            if let Some(n) = star_number(star) {
-                found.extend(index.numbered(n).iter().cloned());
-            }
+        if found.is_empty()
+            && let Some(n) = star_number(star)
+        {
+            found.extend(index.numbered(n).iter().cloned());
         }
         if !found.is_empty() {
             return Ok(found);

@@ -692,14 +692,13 @@ impl App {
         };
         self.refresh_history(false);
         // A fold needs the catalogue's values: asked for once they are in.
-        if let Some(c) = self.candidate().filter(|_| self.values == Values::In) {
-            if (before != Some(c) || !self.signals.contains_key(&c))
-                && !self.pending.contains(&c)
-                && !self.signals.contains_key(&c)
-            {
-                self.pending.insert(c);
-                effects.push(Effect::LoadSignal(c));
-            }
+        if let Some(c) = self.candidate().filter(|_| self.values == Values::In)
+            && (before != Some(c) || !self.signals.contains_key(&c))
+            && !self.pending.contains(&c)
+            && !self.signals.contains_key(&c)
+        {
+            self.pending.insert(c);
+            effects.push(Effect::LoadSignal(c));
         }
         effects
     }

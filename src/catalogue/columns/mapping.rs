@@ -152,11 +152,11 @@ impl Mapping {
         }
         // The disposition is read as text from the extra columns, where it
         // stays as the file gave it.
-        if let Some(&index) = by_field.get(&Field::Disposition) {
-            if !extras.iter().any(|(i, _)| *i == index) {
-                extras.push((index, header[index].clone()));
-                extras.sort_unstable_by_key(|(i, _)| *i);
-            }
+        if let Some(&index) = by_field.get(&Field::Disposition)
+            && !extras.iter().any(|(i, _)| *i == index)
+        {
+            extras.push((index, header[index].clone()));
+            extras.sort_unstable_by_key(|(i, _)| *i);
         }
         for field in REQUIRED {
             if !by_field.contains_key(&field) {

@@ -222,10 +222,10 @@ impl Merger {
         let mut key = Vec::new();
         let mut joined: Vec<(usize, String)> = Vec::new();
         for r in (0..n).filter(|&r| hostless[r]) {
-            if family_key(self.candidates.get(r), &mut key) {
-                if let Some(Some(star)) = families.get(key.as_slice()) {
-                    joined.push((r, star.to_string()));
-                }
+            if family_key(self.candidates.get(r), &mut key)
+                && let Some(Some(star)) = families.get(key.as_slice())
+            {
+                joined.push((r, star.to_string()));
             }
         }
         drop(families);

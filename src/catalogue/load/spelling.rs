@@ -194,10 +194,11 @@ pub(super) fn joins(
     let lead = letters.filter(|_| one_prefix && !bare.is_empty());
     let full_key = |s: usize, key: &mut Vec<u8>| {
         star_key(spelt(s), key);
-        if let Some(l) = &lead {
-            if prefix(key) == Some(&[]) && key.len() >= BARE_DIGITS {
-                key.splice(0..0, l.iter().copied());
-            }
+        if let Some(l) = &lead
+            && prefix(key) == Some(&[])
+            && key.len() >= BARE_DIGITS
+        {
+            key.splice(0..0, l.iter().copied());
         }
     };
     if lead.is_some() {

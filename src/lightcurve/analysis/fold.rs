@@ -47,10 +47,10 @@ pub fn fold_bin(
     let inv_p = 1.0 / period_d;
     let nb = bins as f64;
     for i in 0..time.len() {
-        if let Some(s) = skip {
-            if s[i] {
-                continue;
-            }
+        if let Some(s) = skip
+            && s[i]
+        {
+            continue;
         }
         // The phase of `phase()`, in one multiply: x − ⌊x⌋ − ½ with x = (t − e₀)/P + ½.
         let x = (time[i] - e0) * inv_p + 0.5;
