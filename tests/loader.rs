@@ -805,3 +805,45 @@ fn a_k2_style_candidate_table_is_read_by_its_own_names() {
     assert_eq!(c.value(Field::DurationH, 1), Some(3.1));
     assert_eq!(c.value(Field::DepthPpm, 0), Some(1200.0));
 }
+
+#[test]
+fn units_in_an_archives_comment_lines_above_the_header_are_read() {
+    // The exoplanet archives write `# COLUMN name: description [unit]`
+    // above a CSV table (from memory); a K2-style table gives its depths
+    // in percent there and nowhere else. Invented rows. Before, its
+    // depths (median 0.06) stopped the load as of no known unit.
+    let text = "\
+# An invented archive table
+#
+# COLUMN epic_hostname:  Host Name
+# COLUMN epic_candname:  Candidate Name
+# COLUMN pl_orbper:      Orbital Period [days]
+# COLUMN pl_trandep:     Transit Depth [%]
+# COLUMN pl_trandur:     Transit Duration [hours]
+# COLUMN planet_radius:  Planet Radius [Jupiter radii]
+#
+epic_hostname,epic_candname,pl_orbper,pl_tranmid,pl_trandep,pl_trandur,planet_radius
+EPIC 1,EPIC 1.01,3.52,2457100.1,0.08,3.1,0.2
+EPIC 1,EPIC 1.02,9.81,2457101.2,0.05,4.0,0.3
+EPIC 2,EPIC 2.01,4.10,2457100.4,6.0,3.0,2.5
+";
+    let cat = load_bytes("k2_like.csv", text.as_bytes()).unwrap();
+    let depth = |s: &str| cat.value(Field::DepthPpm, cat.find_candidate(s).unwrap());
+    // 1 % = 10⁴ ppm (a definition).
+    assert_eq!(depth("EPIC 2.01"), Some(60_000.0));
+    assert_eq!(depth("EPIC 1.01"), Some(800.0));
+    // R_J/R⊕ = 11.209 (IAU 2015 Resolution B3).
+    let r = cat
+        .value(
+            Field::PlanetRadiusRearth,
+            cat.find_candidate("EPIC 2.01").unwrap(),
+        )
+        .unwrap();
+    assert!((r - 28.02).abs() < 0.01, "{r}");
+    // A unit the header gives itself is its own: `(ppm)` beside a comment
+    // that says percent.
+    let own = text.replace(",pl_trandep,", ",pl_trandep (ppm),");
+    let cat = load_bytes("k2_own_unit.csv", own.as_bytes()).unwrap();
+    let d = cat.value(Field::DepthPpm, cat.find_candidate("EPIC 1.02").unwrap());
+    assert_eq!(d, Some(0.05));
+}

@@ -421,12 +421,15 @@ fn read_catalogue(
     // brackets (`Period (days)`); the other formats have their own.
     // A time field's name may say it instead (`duration_days`): only where
     // the name is not a synonym as written (`period_d` is one).
+    // Else the comment lines above the header may (`comment_units`).
+    let from_comments = comment_units(&buf[..header_end.0]);
     let unit_of = |h: &String| {
         header_unit(h).1.or_else(|| {
             let as_written = h.trim().to_ascii_lowercase();
             super::columns::name_unit(h)
                 .filter(|(f, _)| !f.synonyms().contains(&as_written.as_str()))
                 .map(|(_, u)| u.to_string())
+                .or_else(|| from_comments.get(&as_written).cloned())
         })
     };
     let stated;

@@ -251,6 +251,91 @@ impl Dilution {
     }
 }
 
+/// A depth as the table writes it, in ppm as the depth column is stored:
+/// from magnitudes (`depth_from.0` of them to one), then times
+/// `depth_from.1`.
+pub(super) fn depth_in_ppm(depth_from: (Option<f64>, f64), d: f64) -> f64 {
+    let d = depth_from
+        .0
+        .map_or(d, |per_mag| units::depth_ppm_of_magnitudes(d * per_mag));
+    d * depth_from.1
+}
+
+/// The unit a column without one of its own takes, as a factor to its
+/// stored unit, whose unit that is, and the stored unit: a centroid
+/// offset's error its offset's stated unit; a secondary depth's error its
+/// secondary depth's stated unit, else, as the secondary depth itself, the
+/// depth column's (`depth_from`: magnitudes per unit, then a factor; a
+/// small depth in magnitudes is linear in them, `units::conversion`).
+/// `None` for every other field, and where the partner states none.
+pub(super) fn borrowed_unit(
+    field: Field,
+    convert: &[(usize, f64, f64)],
+    depth_from: (Option<f64>, f64),
+) -> Option<(f64, &'static str, &'static str)> {
+    let stated = |f: Field| {
+        convert
+            .iter()
+            .find(|c| Some(c.0) == f.num_slot())
+            .map(|c| c.1)
+    };
+    match field {
+        Field::CentroidOffsetErrArcsec => {
+            stated(Field::CentroidOffsetArcsec).map(|s| (s, "the offset's", "arcsec"))
+        }
+        Field::SecondaryDepthPpm | Field::SecondaryDepthErrPpm => {
+            let own = (field == Field::SecondaryDepthErrPpm)
+                .then(|| stated(Field::SecondaryDepthPpm))
+                .flatten();
+            Some(match own {
+                Some(s) => (s, "the secondary depth's", "ppm"),
+                None => {
+                    let per_mag = depth_from.0.map_or(1.0, |m| units::ppm_per_magnitude() * m);
+                    (per_mag * depth_from.1, "the depth's", "ppm")
+                }
+            })
+        }
+        _ => None,
+    }
+}
+
+/// The units a table's comment lines above its header give its columns,
+/// by column name in lower case: an archive's `# COLUMN koi_depth:
+/// Transit Depth [ppm]` (the form the exoplanet archives write above
+/// their CSV tables, from memory), the unit the last brackets of the line.
+/// A column the header itself gives a unit keeps its own
+/// (`read_catalogue`).
+pub(super) fn comment_units(head: &[u8]) -> std::collections::HashMap<String, String> {
+    let mut out = std::collections::HashMap::new();
+    for line in head.split(|&b| b == b'\n') {
+        let Some(rest) = line.strip_prefix(b"#") else {
+            continue;
+        };
+        let text = String::from_utf8_lossy(rest);
+        let text = text.trim();
+        let Some(after) = text
+            .get(..7)
+            .filter(|w| w.eq_ignore_ascii_case("column "))
+            .map(|_| &text[7..])
+        else {
+            continue;
+        };
+        let Some((name, what)) = after.split_once(':') else {
+            continue;
+        };
+        let unit = what
+            .trim_end()
+            .strip_suffix(']')
+            .and_then(|w| w.rsplit_once('['))
+            .map(|(_, u)| u.trim())
+            .filter(|u| !u.is_empty());
+        if let Some(u) = unit {
+            out.insert(name.trim().to_ascii_lowercase(), u.to_string());
+        }
+    }
+    out
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -278,6 +363,23 @@ mod tests {
         let mut few = DurationSample::default();
         few.add([&col(&periods[..9_000]), &col(&durations[..9_000])]);
         assert_eq!(few.rows.len(), 9_000);
+    }
+
+    #[test]
+    fn comment_lines_give_units_by_column_name() {
+        // The archives' form (from memory), and lines that give none.
+        let head = b"# produced by an archive [not a unit]\n\
+#\n\
+# COLUMN koi_depth:      Transit Depth [ppm]\n\
+# column Koi_Prad: Planetary Radius [Earth radii]\n\
+# COLUMN koi_model_snr:  Transit Signal-to-Noise\n\
+# COLUMN koi_time0bk:    Transit Epoch [BKJD] and more\n\
+# COLUMN koi_steff:      Stellar Effective Temperature [K]   \r\n";
+        let u = comment_units(head);
+        assert_eq!(u.get("koi_depth").map(String::as_str), Some("ppm"));
+        assert_eq!(u.get("koi_prad").map(String::as_str), Some("Earth radii"));
+        assert_eq!(u.get("koi_steff").map(String::as_str), Some("K"));
+        assert_eq!(u.len(), 3, "{u:?}");
     }
 
     #[test]
