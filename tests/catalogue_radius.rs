@@ -153,6 +153,25 @@ BIN,BIN-2,9.81,0.00001,101.2,0.001,800,4.0,25,0.3,,,5772,0.26\n";
     assert_eq!(ja, Some(2.8));
     let bin = derive(&cat, id(&cat, "BIN-1"), &s).catalogue_radius_rearth;
     assert_eq!(bin, Some(28.0));
+    // No row with a radius gives its star's: nothing tells the unit, the
+    // column is read as Earth radii, and every output says so.
+    let starless = written(
+        "catalogue_radius_bare_starless",
+        &catalogue(
+            "planet_radius",
+            "JA,JA-1,4.10,0.00001,100.4,0.001,700,3.0,30,0.3,,,5772,0.26\n\
+             JA,JA-2,9.70,0.00001,101.6,0.001,650,3.6,28,0.3,,,5772,0.25\n",
+        ),
+    );
+    let starless = starless.to_str().unwrap();
+    let o = starsift(&["odds", starless, "--format", "csv"]);
+    assert!(
+        common::stderr(&o).contains(
+            "the planet radii (`planet_radius`) state no unit, and no row gives a depth and a star radius"
+        ),
+        "{}",
+        common::stderr(&o)
+    );
 }
 
 #[test]

@@ -388,15 +388,21 @@ impl Merger {
             } else if *field == Field::PlanetRadiusRearth && stated.is_none() {
                 // No unit stated: Earth radii, unless the depths and stars
                 // show Jupiter radii (`RadiusSample::radius_ratio`).
-                let ratio = radii
-                    .radius_ratio(|d| depth_in_ppm(depth_from, d))
-                    .filter(|&r| r < JUPITER_RADII_RATIO);
-                if let Some(ratio) = ratio {
+                let measured = radii.radius_ratio(|d| depth_in_ppm(depth_from, d));
+                let h = crate::sanitize::clean(header[index].trim()).into_owned();
+                // A name that says nothing of the unit (`koi_prad`,
+                // `pl_rade` name Earth radii in their archives).
+                let bare = ["planet_radius", "prad"].contains(&h.to_ascii_lowercase().as_str());
+                if measured.is_none() && bare {
+                    notes.push(format!(
+                        "the planet radii (`{h}`) state no unit, and no row gives a depth and a star radius to tell Earth radii from Jupiter radii by: read as Earth radii. State the unit in the header (`{h} (R_Earth)` or `{h} (R_Jupiter)`)"
+                    ));
+                }
+                if let Some(ratio) = measured.filter(|&r| r < JUPITER_RADII_RATIO) {
                     let per = crate::constants::R_JUPITER_M / crate::constants::R_EARTH_M;
                     if let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) {
                         col.update(|v| v * per);
                     }
-                    let h = crate::sanitize::clean(header[index].trim()).into_owned();
                     how = format!(
                         "{how}; Jupiter radii, detected from the depths and stars, × {per:.4} to Earth radii"
                     );
