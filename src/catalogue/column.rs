@@ -14,6 +14,16 @@
 //! converted unit, a BJD with six decimals, a NaN other than the loader's)
 //! is kept whole, in eight bytes beside the codes. A column of mostly such
 //! values is kept as plain `f64`s.
+//!
+//! Once complete, a column is kept in two bytes a value where its values
+//! allow ([`Column::narrow`]), in one of two forms: the digits of every
+//! value at the column's largest exponent s, below 65,534 (a
+//! signal-to-noise ratio written `59.7`, an impact `0.043`, a temperature
+//! `5038`), m / 10^e being m·10^(s−e) / 10^s, one rational number, both
+//! divisions correctly rounded, so the same `f64`; or each value's own
+//! code with a mantissa below 4,096 (errors written `1.40e-4`, `3.1e-3`).
+//! At most one value in sixteen that neither holds (a negative value, a
+//! deep eclipse among shallow transits) is kept whole beside them.
 
 /// A coded value as a decimal: ±`digits` / 10^`scale`, `digits` < 2^26
 /// (at most eight significant digits). Its value is the `f64` nearest this
@@ -41,10 +51,25 @@ const INDEX: u32 = WIDE - 1;
 const SIGN: u32 = 1 << 30;
 const EXP_SHIFT: u32 = 26;
 const MANTISSA: u32 = (1 << EXP_SHIFT) - 1;
+/// A missing value in a narrow column (the loader's NaN; no value is
+/// given it, nor [`NARROW_RARE`]).
+const NARROW_NAN: u16 = u16::MAX;
+/// A narrow column's value kept whole, in `rare`.
+const NARROW_RARE: u16 = u16::MAX - 1;
+/// The `scale` of a narrow column whose values carry their own exponent:
+/// e in the top four bits, the mantissa in the low [`FLOAT_BITS`].
+const FLOATING: u8 = u8::MAX;
+const FLOAT_BITS: u32 = 12;
+const FLOAT_MANTISSA: u16 = (1 << FLOAT_BITS) - 1;
+/// 10^k as integers, for a narrow column's digits.
+const POW10_INT: [u32; 5] = [1, 10, 100, 1000, 10_000];
 /// The loader's NaN (a missing value): minus zero at the largest exponent,
 /// a code no value is given (`code_at` and `code_of` refuse it; minus zero
 /// is coded at exponent 0).
 const NAN: u32 = SIGN | (15 << EXP_SHIFT);
+
+/// A narrow column's values kept whole: (row, value), in row order.
+type Rare = Vec<(u32, f64)>;
 
 /// A column of `f64`s; see the module's text.
 #[derive(Debug, Clone, Default)]
@@ -55,6 +80,15 @@ pub struct Column {
     wide: Vec<f64>,
     /// Most values were wide: kept as plain `f64`s.
     plain: bool,
+    /// Two bytes a value ([`Column::narrow`]): each value's digits at the
+    /// column's exponent `scale`, or its code when `scale` is
+    /// [`FLOATING`], or [`NARROW_NAN`], or [`NARROW_RARE`]; `codes` and
+    /// `wide` are empty.
+    narrow: Vec<u16>,
+    narrowed: bool,
+    scale: u8,
+    /// The values of a narrow column kept whole.
+    rare: Rare,
     /// The exponent that encoded the last value, tried first for the next
     /// (a column's values mostly carry the same number of decimals).
     hint: u8,
@@ -96,6 +130,8 @@ impl Column {
     pub fn len(&self) -> usize {
         if self.plain {
             self.wide.len()
+        } else if self.narrowed {
+            self.narrow.len()
         } else {
             self.codes.len()
         }
@@ -110,6 +146,21 @@ impl Column {
     pub fn get(&self, i: usize) -> f64 {
         if self.plain {
             return self.wide[i];
+        }
+        if self.narrowed {
+            let n = self.narrow[i];
+            if n >= NARROW_RARE {
+                return if n == NARROW_NAN {
+                    f64::NAN
+                } else {
+                    self.rare_at(i)
+                };
+            }
+            return if self.scale == FLOATING {
+                f64::from(n & FLOAT_MANTISSA) / POW10[(n >> FLOAT_BITS) as usize]
+            } else {
+                f64::from(n) / POW10[self.scale as usize]
+            };
         }
         let code = self.codes[i];
         if code & WIDE == 0 {
@@ -127,6 +178,19 @@ impl Column {
     pub fn decimal(&self, i: usize) -> Option<Decimal> {
         if self.plain {
             return None;
+        }
+        if self.narrowed {
+            let n = self.narrow[i];
+            let (digits, scale) = if self.scale == FLOATING {
+                (n & FLOAT_MANTISSA, n >> FLOAT_BITS)
+            } else {
+                (n, u16::from(self.scale))
+            };
+            return (n < NARROW_RARE).then_some(Decimal {
+                negative: false,
+                digits: u32::from(digits),
+                scale: u32::from(scale),
+            });
         }
         let code = self.codes[i];
         (code & WIDE == 0 && code != NAN).then_some(Decimal {
@@ -159,12 +223,15 @@ impl Column {
     pub fn prefetch(&self, i: usize) {
         if self.plain {
             crate::prefetch::value(&self.wide, i);
+        } else if self.narrowed {
+            crate::prefetch::value(&self.narrow, i);
         } else {
             crate::prefetch::value(&self.codes, i);
         }
     }
 
     pub fn push(&mut self, v: f64) {
+        self.widen();
         if !self.plain && self.wide.len() as u64 >= INDEX as u64 {
             // More wide values than a code can index: plain from here on.
             self.go_plain();
@@ -184,7 +251,7 @@ impl Column {
     /// [`Column::NO_CODE`] to encode it here.
     #[inline]
     pub fn push_code(&mut self, code: u32, v: f64) {
-        if code == Column::NO_CODE || self.plain {
+        if code == Column::NO_CODE || self.plain || self.narrowed {
             return self.push(v);
         }
         debug_assert_eq!(decode(code).to_bits(), v.to_bits(), "code {code:#x}");
@@ -195,6 +262,9 @@ impl Column {
     pub fn clear(&mut self) {
         self.codes.clear();
         self.wide.clear();
+        self.narrow = Vec::new();
+        self.rare = Vec::new();
+        self.narrowed = false;
         self.plain = false;
     }
 
@@ -207,11 +277,12 @@ impl Column {
 
     /// Appends another column's values.
     pub fn append(&mut self, other: &Column) {
+        self.widen();
         if !self.plain && (self.wide.len() + other.wide.len()) as u64 >= INDEX as u64 {
             // More wide values than a code can index: plain from here on.
             self.go_plain();
         }
-        if self.plain || other.plain {
+        if self.plain || other.plain || other.narrowed {
             for v in other.iter() {
                 self.push(v);
             }
@@ -231,6 +302,7 @@ impl Column {
     /// Sets every value v to `f(v)` (a unit's conversion, a placeholder
     /// read as missing); returns how many changed.
     pub fn update(&mut self, mut f: impl FnMut(f64) -> f64) -> usize {
+        self.widen();
         let mut changed = 0;
         if self.plain {
             for v in &mut self.wide {
@@ -264,6 +336,24 @@ impl Column {
             return self.update(|v| if v <= 0.0 { f64::NAN } else { v });
         }
         let mut changed = 0;
+        if self.narrowed {
+            // Of the two-byte values, zero is the only one not positive
+            // (none is negative); of those kept whole, any may be.
+            for &(row, v) in &self.rare {
+                if v <= 0.0 {
+                    self.narrow[row as usize] = NARROW_NAN;
+                    changed += 1;
+                }
+            }
+            let zero = |n: u16| {
+                n < NARROW_RARE && n & FLOAT_MANTISSA == 0 && (self.scale == FLOATING || n == 0)
+            };
+            for n in self.narrow.iter_mut().filter(|n| zero(**n)) {
+                *n = NARROW_NAN;
+                changed += 1;
+            }
+            return changed;
+        }
         for code in &mut self.codes {
             let not_positive = if *code & WIDE != 0 {
                 self.wide[(*code & INDEX) as usize] <= 0.0
@@ -295,13 +385,90 @@ impl Column {
     }
 
     /// Done growing: plain `f64`s when most values were wide (a code and a
-    /// wide value cost more than the value alone), spare capacity freed.
+    /// wide value cost more than the value alone), two bytes a value where
+    /// the values allow ([`Column::narrow`]), spare capacity freed.
     pub fn settle(&mut self) {
-        if !self.plain && self.wide.len() > self.codes.len() / 2 {
+        if !self.plain && !self.narrowed && self.wide.len() > self.codes.len() / 2 {
             self.go_plain();
         }
+        self.narrow();
         for_spare(&mut self.codes);
         for_spare(&mut self.wide);
+    }
+
+    /// Two bytes a value where the values allow (see the module's text):
+    /// the digits at the largest exponent, else each value's own code,
+    /// whichever keeps at most one value in sixteen whole (a wide value, a
+    /// negative one, or one whose digits do not fit); anything else stays
+    /// as it is. The same `f64`s, bit for bit. A later push or update
+    /// widens the column back to codes.
+    pub fn narrow(&mut self) {
+        if self.plain || self.narrowed || self.codes.is_empty() {
+            return;
+        }
+        let limit = self.codes.len() / 16;
+        let largest = (self.codes.iter())
+            .filter(|&&c| c & (WIDE | SIGN) == 0)
+            .map(|&c| c >> EXP_SHIFT)
+            .max()
+            .unwrap_or(0);
+        for scale in [largest as u8, FLOATING] {
+            if let Some((narrow, rare)) = self.narrowed_at(scale, limit) {
+                self.codes = Vec::new();
+                self.wide = Vec::new();
+                self.narrow = narrow;
+                self.rare = rare;
+                self.scale = scale;
+                self.narrowed = true;
+                return;
+            }
+        }
+    }
+
+    /// The two-byte values at `scale` (or [`FLOATING`]) and those kept
+    /// whole, when these are at most `limit`.
+    fn narrowed_at(&self, scale: u8, limit: usize) -> Option<(Vec<u16>, Rare)> {
+        let mut out = Vec::with_capacity(self.codes.len());
+        let mut rare = Vec::new();
+        for (i, &c) in self.codes.iter().enumerate() {
+            let n = match c {
+                NAN => Some(NARROW_NAN),
+                c if c & (WIDE | SIGN) != 0 => None,
+                c => narrow_code(c, scale),
+            };
+            out.push(n.unwrap_or_else(|| {
+                rare.push((i as u32, self.get(i)));
+                NARROW_RARE
+            }));
+            if rare.len() > limit {
+                return None;
+            }
+        }
+        Some((out, rare))
+    }
+
+    /// A value kept whole in a narrow column.
+    #[cold]
+    fn rare_at(&self, i: usize) -> f64 {
+        let at = self.rare.partition_point(|r| (r.0 as usize) < i);
+        self.rare.get(at).map_or(f64::NAN, |r| r.1)
+    }
+
+    /// Back to four-byte codes from two bytes a value, for a push or an
+    /// update.
+    fn widen(&mut self) {
+        if !self.narrowed {
+            return;
+        }
+        let values = self.to_vec();
+        self.narrow = Vec::new();
+        self.rare = Vec::new();
+        self.narrowed = false;
+        self.codes = Vec::with_capacity(values.len());
+        self.wide = Vec::new();
+        for v in values {
+            self.push(v);
+        }
     }
 
     fn wide_code(&mut self, v: f64) -> u32 {
@@ -313,6 +480,9 @@ impl Column {
     fn go_plain(&mut self) {
         let values = self.to_vec();
         self.codes = Vec::new();
+        self.narrow = Vec::new();
+        self.rare = Vec::new();
+        self.narrowed = false;
         self.wide = values;
         self.plain = true;
     }
@@ -346,6 +516,26 @@ fn for_spare<T>(v: &mut Vec<T>) {
     if v.capacity() > v.len() + v.len() / 8 {
         v.shrink_to_fit();
     }
+}
+
+/// The two bytes of `code` (a decimal, not negative) in a narrow column of
+/// `scale` ([`Column::narrow`]), if they hold it.
+fn narrow_code(code: u32, scale: u8) -> Option<u16> {
+    let (mut m, mut e) = (code & MANTISSA, code >> EXP_SHIFT);
+    let n = if scale == FLOATING {
+        // Its zeros at the end left out (`1.40e-4` as 14e-5).
+        while m != 0 && m % 10 == 0 && e > 0 {
+            m /= 10;
+            e -= 1;
+        }
+        (m <= u32::from(FLOAT_MANTISSA)).then_some((e << FLOAT_BITS) | m)?
+    } else if m == 0 {
+        0
+    } else {
+        let up = u32::from(scale).checked_sub(e)?;
+        m.checked_mul(*POW10_INT.get(up as usize)?)?
+    };
+    (n < u32::from(NARROW_RARE)).then_some(n as u16)
 }
 
 /// The code m / 10^e of `v` at exponent `e`, if it gives back `v` bit for bit.
@@ -443,6 +633,115 @@ mod tests {
             values.push(format!("{digits}e-{e}").parse().unwrap());
         }
         same(&values);
+    }
+
+    /// Column of `text` parsed as the reader parses it, narrowed.
+    fn narrowed(text: &[&str]) -> (Vec<f64>, Column) {
+        let values: Vec<f64> = text.iter().map(|t| t.parse().unwrap()).collect();
+        let mut c = Column::from_values(&values);
+        c.narrow();
+        (values, c)
+    }
+
+    /// The text of each value as the output writes it: a coded one from
+    /// its decimal (`push_decimal`), another by its shortest round trip
+    /// (`output::exact`, Ryu's digits: Adams 2018).
+    fn texts(c: &Column) -> Vec<String> {
+        (0..c.len())
+            .map(|i| match c.decimal(i) {
+                Some(d) => {
+                    let mut b = Vec::new();
+                    crate::output::push_decimal(&mut b, d, false);
+                    String::from_utf8(b).unwrap()
+                }
+                None => crate::output::exact(Some(c.get(i))),
+            })
+            .collect()
+    }
+
+    #[test]
+    fn narrow_columns_give_back_every_value_and_its_digits() {
+        // One exponent for all (`59.7` as 597 tenths, `5038` as 50380).
+        let text = ["59.7", "5038", "0.9", "0", "12.5", "NaN"];
+        let (values, c) = narrowed(&text);
+        assert!(c.narrowed && c.scale == 1 && c.rare.is_empty(), "{c:?}");
+        let before = texts(&Column::from_values(&values));
+        assert_eq!(texts(&c), before);
+        assert_eq!(&before[..3], ["59.7", "5038", "0.9"]);
+        // Errors over decades: each value its own exponent.
+        let (values, c) = narrowed(&["1.40e-4", "3.06e-3", "2.5e-1", "9e-7", "0.0"]);
+        assert!(c.narrowed && c.scale == FLOATING, "{c:?}");
+        for (i, v) in values.iter().enumerate() {
+            assert_eq!(c.get(i).to_bits(), v.to_bits(), "{v}");
+        }
+        assert_eq!(texts(&c), texts(&Column::from_values(&values)));
+        // A few values that no two bytes hold (negative, deep, not a
+        // short decimal) are kept whole; too many, and nothing changes.
+        let mut text: Vec<String> = (0..64).map(|i| format!("{}.{}", 500 + i, i % 10)).collect();
+        text.extend(["-3.5", "150000.5", "2459000.123456", "-0.0"].map(String::from));
+        let refs: Vec<&str> = text.iter().map(String::as_str).collect();
+        let (values, c) = narrowed(&refs);
+        assert!(c.narrowed && c.rare.len() == 4, "{:?}", c.rare);
+        for (i, v) in values.iter().enumerate() {
+            assert_eq!(c.get(i).to_bits(), v.to_bits(), "{v}");
+        }
+        assert_eq!(texts(&c), texts(&Column::from_values(&values)));
+        let (_, c) = narrowed(&refs[60..]);
+        assert!(!c.narrowed);
+    }
+
+    #[test]
+    fn narrow_columns_change_as_the_others_do() {
+        let mut text: Vec<String> = (0..40).map(|i| format!("{}.5", i % 7)).collect();
+        text.extend(["-2.5", "-0.0", "NaN"].map(String::from));
+        let refs: Vec<&str> = text.iter().map(String::as_str).collect();
+        let (values, mut c) = narrowed(&refs);
+        assert!(c.narrowed);
+        let mut by_update = Column::from_values(&values);
+        let want = by_update.update(|v| if v <= 0.0 { f64::NAN } else { v });
+        let mut missing = c.clone();
+        assert_eq!(missing.not_positive_to_missing(), want);
+        for (a, b) in missing.iter().zip(by_update.iter()) {
+            assert_eq!(a.to_bits(), b.to_bits());
+        }
+        // A push, an update or an append widens it, values kept.
+        c.push(0.1 + 0.2);
+        c.append(&narrowed(&["7.5", "8.5"]).1);
+        assert!(!c.narrowed);
+        let want: Vec<f64> = values
+            .iter()
+            .copied()
+            .chain([0.1 + 0.2, 7.5, 8.5])
+            .collect();
+        for (a, b) in c.iter().zip(&want) {
+            assert_eq!(a.to_bits(), b.to_bits());
+        }
+        let (_, mut u) = narrowed(&refs);
+        assert_eq!(u.update(|v| v * 2.0), 41);
+        assert_eq!(u.get(1), 3.0);
+    }
+
+    #[test]
+    fn random_short_decimals_narrow_bit_for_bit() {
+        let mut rng = crate::demo::Rng::new(11);
+        for round in 0..200 {
+            let digits = 1 + (rng.next_u64() % 5) as u32;
+            let spread = rng.next_u64() % 4;
+            let values: Vec<f64> = (0..200)
+                .map(|_| {
+                    let m = rng.next_u64() % 10u64.pow(digits);
+                    let e = (rng.next_u64() % (spread + 1)) as i32 + (round % 6);
+                    format!("{m}e-{e}").parse().unwrap()
+                })
+                .collect();
+            let mut c = Column::from_values(&values);
+            let before = texts(&c);
+            c.narrow();
+            for (i, v) in values.iter().enumerate() {
+                assert_eq!(c.get(i).to_bits(), v.to_bits(), "round {round}: {v}");
+            }
+            assert_eq!(texts(&c), before, "round {round}");
+        }
     }
 
     #[test]

@@ -244,6 +244,11 @@ impl Merger {
         if self.lines.is_empty() && self.skipped.is_empty() {
             return Err(LoadError::NoRows { path: self.name });
         }
+        // Complete: two bytes a value where the values allow, before the
+        // ids' grouping adds its own memory (`Column::narrow`).
+        for col in &mut self.num {
+            col.narrow();
+        }
         // A second read of the rows of an earlier one (the browser's read
         // of the values) takes its ids as they are; anything else groups
         // its own.
