@@ -42,6 +42,31 @@ pub fn in_parts<R: Send>(len: usize, f: impl Fn(std::ops::Range<usize>) -> R + S
     })
 }
 
+/// `f` of every item, on one thread per core (this one among them), each
+/// taking the next item not yet taken: for items of unequal work, such
+/// as a catalogue's columns.
+pub fn each_mut<T: Send>(items: &mut [T], f: impl Fn(&mut T) + Sync) {
+    let next = std::sync::Mutex::new(items.iter_mut());
+    let work = || {
+        loop {
+            let item = match next.lock() {
+                Ok(mut it) => it.next(),
+                Err(_) => None,
+            };
+            match item {
+                Some(item) => f(item),
+                None => return,
+            }
+        }
+    };
+    std::thread::scope(|scope| {
+        for _ in 1..workers() {
+            scope.spawn(work);
+        }
+        work();
+    });
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -53,5 +78,13 @@ mod tests {
             let flat: Vec<usize> = parts.into_iter().flatten().collect();
             assert_eq!(flat, (0..len).collect::<Vec<_>>());
         }
+    }
+
+    #[test]
+    fn each_item_is_worked_once() {
+        let mut items: Vec<usize> = (0..100).collect();
+        each_mut(&mut items, |x| *x *= 2);
+        assert_eq!(items, (0..100).map(|x| 2 * x).collect::<Vec<_>>());
+        each_mut(&mut Vec::<usize>::new(), |x| *x += 1);
     }
 }

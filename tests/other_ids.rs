@@ -401,3 +401,30 @@ EPIC 201757,E-2,17.2,0.00001,2457102.5,0.001,400,4.0,25,0.3,1,1,5772,PC\n";
         "{line}"
     );
 }
+
+#[test]
+fn one_row_under_two_star_ids_is_found_written_with_fewer_digits() {
+    // Invented: the second source writes the row with fewer digits (each
+    // value the first's rounded: 3.71234 → 3.712, 100.54321 → 100.543,
+    // 2.51 → 2.5). One row, whose star cannot be known; and a vetter's
+    // rejection of one copy holds the other id's planet (the odds' ties).
+    let rows = "\
+KIC 000757,K-1,3.71234,0.00001,100.54321,0.001,3000,2.51,40,0.3,1,1,5772,PC\n\
+KIC 000757,K-2,9.1,0.00001,101.5,0.001,600,3.0,30,0.3,1,1,5772,PC\n\
+EPIC 201757,E-1,3.712,0.00001,100.543,0.001,3000,2.5,40,0.3,1,1,5772,PC\n\
+EPIC 201757,E-2,17.2,0.00001,102.5,0.001,400,4.0,25,0.3,1,1,5772,PC\n";
+    let cat = written("one_row_fewer_digits", &catalogue("disposition", rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for s in ["K-1", "K-2", "E-1", "E-2"] {
+        assert_eq!(v[s], "likely", "{s}");
+    }
+    assert!(checks_rows(c)["E-1"].contains("mixed-host"));
+    reject(c, "K-1", "eclipsing-binary", "ann");
+    let o = stdout(&starsift(&["odds", c, "--format", "csv"]));
+    let e2 = o.lines().find(|l| l.contains(",E-2,")).unwrap();
+    assert!(
+        e2.contains("one row listed under both (K-1 and E-1)"),
+        "{e2}"
+    );
+}

@@ -522,6 +522,10 @@ fn for_spare<T>(v: &mut Vec<T>) {
 /// `scale` ([`Column::narrow`]), if they hold it.
 fn narrow_code(code: u32, scale: u8) -> Option<u16> {
     let (mut m, mut e) = (code & MANTISSA, code >> EXP_SHIFT);
+    if e == u32::from(scale) {
+        // The column's own exponent, the most common.
+        return (m < u32::from(NARROW_RARE)).then_some(m as u16);
+    }
     let n = if scale == FLOATING {
         // Its zeros at the end left out (`1.40e-4` as 14e-5).
         while m != 0 && m % 10 == 0 && e > 0 {

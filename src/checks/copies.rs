@@ -1,7 +1,8 @@
 //! One row under two star ids. A table merged from two sources, or one
 //! star listed under two catalogues' ids, can carry the same row twice: the
-//! same period, epoch, depth and duration, to the last digit, on two star
-//! ids. That is no neighbour's light (§3.3: a neighbour's copy is diluted,
+//! same period, epoch, depth and duration, to the last digit written (one
+//! source may write fewer digits, or the epoch from another zero), on two
+//! star ids. That is no neighbour's light (§3.3: a neighbour's copy is diluted,
 //! so shallower, and measured anew), it is one entry named twice. Which
 //! star it is on cannot be known: each copy is flagged `mixed-host` and
 //! counts towards neither system; the copies are one signal group (one
@@ -24,6 +25,15 @@ type Key = [u64; 3];
 /// (common practice, no source).
 const EPOCH_TOLERANCE_D: f64 = 1e-3;
 
+/// The widest rounding of a period compared: written to two decimals. A
+/// period written with fewer is compared only with its equal.
+const PERIOD_WINDOW_D: f64 = 0.005;
+
+/// How many rows of the period order each row is compared with on either
+/// side for a copy written with other digits (a run of one period longer
+/// than this is compared by its exact values only).
+const NEIGHBOURS: usize = 64;
+
 /// The amounts, days, by which two writings of one epoch differ when each
 /// counts from its own zero: 0, and the differences of the common zeros
 /// and of each from the full Julian date (BJD − 2457000 against BJD is
@@ -42,14 +52,45 @@ fn zero_shifts() -> Vec<f64> {
     out
 }
 
-/// Whether epochs `a` and `b` are one epoch, perhaps counted from two of
-/// the common zeros ([`zero_shifts`]).
-fn one_epoch(a: f64, b: f64, shifts: &[f64]) -> bool {
-    let d = (a - b).abs();
-    shifts.iter().any(|s| (d - s).abs() <= EPOCH_TOLERANCE_D)
+/// The decimals a value is written with, its zeros at the end after the
+/// point left out (`3000` has 0, `3.70` 1); `None` for a value that is no
+/// short decimal (kept whole: compared exactly).
+fn decimals(col: &Column, i: usize) -> Option<i32> {
+    let d = col.decimal(i)?;
+    let (mut m, mut scale) = (d.digits, d.scale as i32);
+    while scale > 0 && m % 10 == 0 {
+        m /= 10;
+        scale -= 1;
+    }
+    Some(scale)
 }
 
-/// The columns a [`Key`] is read from.
+/// Half a unit in the last decimal a value is written with: how far the
+/// value it rounds may lie; zero for a value kept whole ([`decimals`]).
+fn half_digit(col: &Column, i: usize) -> f64 {
+    decimals(col, i).map_or(0.0, |k| 0.5 * 10f64.powi(-k))
+}
+
+/// Whether values `a` and `b` of `col` are one value as two tables wrote
+/// it: equal, or one the other rounded to the coarser's last decimal
+/// (`3.7123` and `3.712345`; `3000` and `3000.4`), the rounding at least
+/// `floor` and at most `cap`. `shifts`: amounts the two may also differ by
+/// (an epoch's zeros).
+fn one_value(col: &Column, a: usize, b: usize, shifts: &[f64], (floor, cap): (f64, f64)) -> bool {
+    let (x, y) = (col.get(a), col.get(b));
+    if x.to_bits() == y.to_bits() {
+        return true;
+    }
+    let tolerance = half_digit(col, a)
+        .max(half_digit(col, b))
+        .max(floor)
+        .min(cap)
+        * (1.0 + 1e-9);
+    let d = (x - y).abs();
+    shifts.iter().any(|s| (d - s).abs() <= tolerance)
+}
+
+/// The columns a row's signal is read from.
 struct Cols<'a> {
     period: &'a Column,
     epoch: &'a Column,
@@ -82,18 +123,38 @@ impl<'a> Cols<'a> {
         Some(([p.to_bits(), d.to_bits(), t.to_bits()], e))
     }
 
-    /// Whether rows `a` and `b` carry the same signal: period, depth and
-    /// duration identical, and one epoch.
+    /// Whether rows `a` and `b` carry the same signal: period, depth,
+    /// duration and epoch each one value as written ([`one_value`]; the
+    /// period within [`PERIOD_WINDOW_D`] at most, the epoch perhaps counted
+    /// from another common zero, within [`EPOCH_TOLERANCE_D`] at least).
     fn same(&self, a: CandidateId, b: CandidateId) -> bool {
-        match (self.key(a), self.key(b)) {
-            (Some((ka, ea)), Some((kb, eb))) => ka == kb && one_epoch(ea, eb, &self.shifts),
-            _ => false,
-        }
+        let (i, j) = (a as usize, b as usize);
+        let (Some(_), Some(_)) = (self.key(a), self.key(b)) else {
+            return false;
+        };
+        let any = (0.0, f64::INFINITY);
+        one_value(self.period, i, j, &[0.0], (0.0, PERIOD_WINDOW_D))
+            && one_value(self.depth, i, j, &[0.0], any)
+            && (self.duration).is_none_or(|t| one_value(t, i, j, &[0.0], any))
+            && one_value(
+                self.epoch,
+                i,
+                j,
+                &self.shifts,
+                (EPOCH_TOLERANCE_D, f64::INFINITY),
+            )
+    }
+
+    /// How far from row `c`'s period another row's may lie and still be
+    /// the same value as written ([`half_digit`], at most
+    /// [`PERIOD_WINDOW_D`]).
+    fn period_window(&self, c: CandidateId) -> f64 {
+        half_digit(self.period, c as usize).min(PERIOD_WINDOW_D)
     }
 }
 
-/// Whether rows `a` and `b` carry the same signal, value for value (the
-/// epoch perhaps counted from another common zero).
+/// Whether rows `a` and `b` carry the same signal, as written (the epoch
+/// perhaps counted from another common zero).
 pub(super) fn same_row(cat: &Catalogue, a: CandidateId, b: CandidateId) -> bool {
     Cols::of(cat).is_some_and(|k| k.same(a, b))
 }
@@ -101,13 +162,15 @@ pub(super) fn same_row(cat: &Catalogue, a: CandidateId, b: CandidateId) -> bool 
 /// The rows whose signal is repeated on another star id, in sets of one
 /// signal (each in the order of star, then row), from the echo search's
 /// period order (keys whose high 64 bits order the periods, the candidate
-/// in the low 32). Rows of one period lie together there, so only those
-/// are compared: O(n), and O(r log r) for a run of r rows of one period.
+/// in the low 32). Rows of one period lie together there: those of one
+/// key are compared by their epochs (O(r log r) for a run of r), and each
+/// row with its [`NEIGHBOURS`] on either side within its period's
+/// rounding, for the same row written with other digits. O(n) in all.
 pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateId>> {
     let Some(cols) = Cols::of(cat) else {
         return Vec::new();
     };
-    let mut out = Vec::new();
+    let mut pairs: Vec<(CandidateId, CandidateId)> = Vec::new();
     let mut run: Vec<(Key, f64, StarId, CandidateId)> = Vec::new();
     for same_period in period_order.chunk_by(|a, b| a >> 64 == b >> 64) {
         if same_period.len() < 2 {
@@ -125,34 +188,112 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
                 continue;
             }
             for set in one_epoch_sets(same, &cols.shifts) {
-                if set.iter().any(|&i| same[i].2 != same[set[0]].2) {
-                    out.push(set.iter().map(|&i| same[i].3).collect());
-                }
+                pairs.extend(set.windows(2).map(|w| (same[w[0]].3, same[w[1]].3)));
             }
         }
     }
-    out
+    // The same row written with other digits: a row and its neighbours
+    // in the period order within its period's rounding. The decimals of
+    // every period first, in row order (one pass through the column); the
+    // order's periods from its keys.
+    let written: Vec<i8> = (0..cat.len())
+        .map(|i| decimals(cols.period, i).map_or(i8::MAX, |k| k.clamp(0, 20) as i8))
+        .collect();
+    // Within the rounding (and a hair more: `same` decides exactly), by
+    // the decimals written.
+    let windows: Vec<f64> = (0..=20)
+        .map(|k| (0.5 * 10f64.powi(-k)).min(PERIOD_WINDOW_D) * (1.0 + 1e-9))
+        .collect();
+    for (at, &k) in period_order.iter().enumerate() {
+        let c = k as CandidateId;
+        let Some(&window) = windows.get(written[c as usize] as usize) else {
+            continue;
+        };
+        let p = period_of_key(k);
+        let near = period_order[at.saturating_sub(NEIGHBOURS)..at]
+            .iter()
+            .rev()
+            .take_while(|&&o| p - period_of_key(o) <= window)
+            .chain(
+                period_order[at + 1..]
+                    .iter()
+                    .take(NEIGHBOURS)
+                    .take_while(|&&o| period_of_key(o) - p <= window),
+            );
+        for &o in near {
+            let o = o as CandidateId;
+            if cat.star_of(o) != cat.star_of(c) && cols.same(c, o) {
+                pairs.push((c.min(o), c.max(o)));
+            }
+        }
+    }
+    sets_of(cat, pairs)
+}
+
+/// The period of a key of the echo search's period order: its high 64
+/// bits, `f64::total_cmp`'s order of the period's bits (`echo::order_key`),
+/// turned back.
+fn period_of_key(k: u128) -> f64 {
+    let bits = (k >> 64) as u64;
+    f64::from_bits(if bits >> 63 == 1 {
+        bits ^ (1 << 63)
+    } else {
+        !bits
+    })
+}
+
+/// The sets the `pairs` of one signal join (union by pair), each in the
+/// order of star, then row, sets on one star alone left out, in the order
+/// of their first row.
+fn sets_of(cat: &Catalogue, pairs: Vec<(CandidateId, CandidateId)>) -> Vec<Vec<CandidateId>> {
+    let mut rows: Vec<CandidateId> = pairs.iter().flat_map(|&(a, b)| [a, b]).collect();
+    rows.sort_unstable();
+    rows.dedup();
+    let place = |c: CandidateId| rows.binary_search(&c).unwrap_or(0);
+    let mut root: Vec<usize> = (0..rows.len()).collect();
+    for &(a, b) in &pairs {
+        let (ra, rb) = (
+            find_root(&mut root, place(a)),
+            find_root(&mut root, place(b)),
+        );
+        root[ra.max(rb)] = ra.min(rb);
+    }
+    let mut sets: Vec<Vec<CandidateId>> = vec![Vec::new(); rows.len()];
+    for (i, &c) in rows.iter().enumerate() {
+        let r = find_root(&mut root, i);
+        sets[r].push(c);
+    }
+    sets.retain(|s| s.len() > 1);
+    for s in &mut sets {
+        s.sort_unstable_by_key(|&c| (cat.star_of(c), c));
+    }
+    sets.retain(|s| cat.star_of(s[0]) != cat.star_of(s[s.len() - 1]));
+    sets.sort_unstable_by_key(|s| (cat.star_of(s[0]), s[0]));
+    sets
+}
+
+/// The root of `i` in a union-find forest, its path halved.
+fn find_root(root: &mut [usize], mut i: usize) -> usize {
+    while root[i] != i {
+        root[i] = root[root[i]];
+        i = root[i];
+    }
+    i
 }
 
 /// The rows of `same` (one key, in the order of star, then row) that carry
-/// one epoch ([`one_epoch`]), as sets of their places in `same`, each in
-/// order, sets of one left out. Epochs sorted, each row is joined to the
-/// next within the tolerance and to the nearest a zero's shift away:
-/// O(r log r) for r rows, however many repeat one epoch.
+/// one epoch (within [`EPOCH_TOLERANCE_D`], perhaps a zero's shift away),
+/// as sets of their places in `same`, each in order, sets of one left out.
+/// Epochs sorted, each row is joined to the next within the tolerance and
+/// to the nearest a zero's shift away: O(r log r) for r rows, however many
+/// repeat one epoch.
 fn one_epoch_sets(same: &[(Key, f64, StarId, CandidateId)], shifts: &[f64]) -> Vec<Vec<usize>> {
     let mut by_epoch: Vec<usize> = (0..same.len()).collect();
     by_epoch.sort_by(|&a, &b| same[a].1.total_cmp(&same[b].1));
     let epoch = |j: usize| same[by_epoch[j]].1;
     let mut root: Vec<usize> = (0..same.len()).collect();
-    fn find(root: &mut [usize], mut i: usize) -> usize {
-        while root[i] != i {
-            root[i] = root[root[i]];
-            i = root[i];
-        }
-        i
-    }
     let mut join = |a: usize, b: usize| {
-        let (ra, rb) = (find(&mut root, a), find(&mut root, b));
+        let (ra, rb) = (find_root(&mut root, a), find_root(&mut root, b));
         root[ra.max(rb)] = ra.min(rb);
     };
     for j in 0..by_epoch.len() {
@@ -169,7 +310,7 @@ fn one_epoch_sets(same: &[(Key, f64, StarId, CandidateId)], shifts: &[f64]) -> V
     }
     let mut sets: Vec<Vec<usize>> = vec![Vec::new(); same.len()];
     for i in 0..same.len() {
-        let r = find(&mut root, i);
+        let r = find_root(&mut root, i);
         sets[r].push(i);
     }
     sets.retain(|s| s.len() > 1);
@@ -191,7 +332,7 @@ pub(super) fn links(cat: &Catalogue, sets: &[Vec<CandidateId>]) -> Vec<Link> {
                     format!("the same row on this star{}", zeros(cat, other, c))
                 } else {
                     format!(
-                        "the same row under another star id ({}): period, epoch, depth and duration identical{}",
+                        "the same row under another star id ({}): period, epoch, depth and duration equal to the digits written{}",
                         crate::sanitize::clean(cat.star_id(cat.star_of(other))),
                         zeros(cat, other, c)
                     )
@@ -202,7 +343,7 @@ pub(super) fn links(cat: &Catalogue, sets: &[Vec<CandidateId>]) -> Vec<Link> {
     out
 }
 
-/// What the words "epoch identical" leave out for rows `a` and `b`: that
+/// What the words "epoch equal" leave out for rows `a` and `b`: that
 /// one epoch is written from another zero, when it is.
 fn zeros(cat: &Catalogue, a: CandidateId, b: CandidateId) -> String {
     let epoch = |c: CandidateId| cat.value(Field::Epoch, c).unwrap_or(f64::NAN);
@@ -241,7 +382,7 @@ pub(super) fn flag(cat: &Catalogue, sets: &[Vec<CandidateId>], out: &mut Checks)
                 Flag::MixedHost,
                 false,
                 format!(
-                    "the same row (period, epoch, depth and duration identical{}) is also listed as {} on star {}: one row under two star ids, from a merged table or one star under two catalogues' ids, and no neighbour's light, which would be shallower; which star it is on cannot be known, so it counts towards neither (docs/science.md §3.4)",
+                    "the same row (period, epoch, depth and duration equal to the digits written{}) is also listed as {} on star {}: one row under two star ids, from a merged table or one star under two catalogues' ids, and no neighbour's light, which would be shallower; which star it is on cannot be known, so it counts towards neither (docs/science.md §3.4)",
                     zeros(cat, c, other),
                     crate::sanitize::clean(cat.candidate_id(other)),
                     crate::sanitize::clean(cat.star_id(cat.star_of(other)))
@@ -258,12 +399,47 @@ pub(super) fn ties(cat: &Catalogue, targets: &[CandidateId]) -> Vec<(CandidateId
     let Some(cols) = Cols::of(cat) else {
         return Vec::new();
     };
-    super::other_ids::rows_sharing(
-        cat,
-        targets,
-        |c| cols.key(c).map(|k| k.0),
-        |t, c| cols.same(t, c),
-    )
+    // The targets by their period's bin, 2·PERIOD_WINDOW_D wide: a row's
+    // copy lies in its own bin or the next (the windows are no wider).
+    let bin = |p: f64| (p / (2.0 * PERIOD_WINDOW_D)).floor() as i64;
+    let mut of: hashbrown::HashMap<i64, Vec<(CandidateId, f64, f64)>> = hashbrown::HashMap::new();
+    for &t in targets {
+        if cols.key(t).is_some() {
+            let p = cols.period.get(t as usize);
+            of.entry(bin(p))
+                .or_default()
+                .push((t, p, cols.period_window(t)));
+        }
+    }
+    if of.is_empty() {
+        return Vec::new();
+    }
+    crate::parallel::in_parts(cat.len(), |rows| {
+        rows.filter_map(|c| {
+            let c = c as CandidateId;
+            let p = cols.period.get(c as usize);
+            if !p.is_finite() {
+                return None;
+            }
+            let star = cat.star_of(c);
+            let (lo, hi) = (bin(p - PERIOD_WINDOW_D), bin(p + PERIOD_WINDOW_D));
+            // The periods first: equal, or within either's rounding.
+            let mut own = None;
+            let (t, ..) = (lo..=hi)
+                .filter_map(|b| of.get(&b))
+                .flatten()
+                .copied()
+                .find(|&(t, pt, wt)| {
+                    let d = (pt - p).abs();
+                    (d <= wt || d <= *own.get_or_insert_with(|| cols.period_window(c)))
+                        && cat.star_of(t) != star
+                        && cols.same(t, c)
+                })?;
+            Some((t, c))
+        })
+        .collect::<Vec<_>>()
+    })
+    .concat()
 }
 
 /// Holds each star that repeats a row of a false positive on another star
@@ -277,7 +453,7 @@ pub(super) fn hold(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
         .into_iter()
         .map(|(fp, c)| {
             let why = format!(
-                "{}, on star {}, is the same row as this star's {} (period, epoch, depth and duration identical{}) and {}; one row under two star ids names one star",
+                "{}, on star {}, is the same row as this star's {} (period, epoch, depth and duration equal to the digits written{}) and {}; one row under two star ids names one star",
                 crate::sanitize::clean(cat.candidate_id(fp)),
                 crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
                 crate::sanitize::clean(cat.candidate_id(c)),
@@ -302,37 +478,49 @@ mod tests {
     use crate::checks::{CheckSettings, run};
 
     #[test]
+    fn a_period_order_key_gives_back_its_period() {
+        for p in [3.7123, 0.5, 1e-300, 1234.5678, -2.5, 0.0, -0.0] {
+            let k = super::super::echo::order_key(p, 7);
+            assert_eq!(period_of_key(k).to_bits(), f64::to_bits(p), "{p}");
+        }
+    }
+
+    #[test]
     fn only_the_same_row_on_another_star_id_is_a_copy() {
         // Invented rows. A's row is repeated on B, on C written with other
-        // digits of the same numbers (`3.70`, `100.50`), and a second time
-        // on A (one star's own repeat: `near-twin`, not a copy); on F and
-        // G with the epoch written as BJD and as BJD − 2454833, where A's
-        // counts from 2457000 (G's rounded otherwise, 0.00004 d). D
-        // differs by 1 ppm in depth, E by 0.001 h in duration, H by
-        // 0.01 d in epoch, I by 0.1 d once the zeros are taken away: each
-        // a measurement of its own.
+        // digits of the same numbers (`3.71230`, `100.54320`), and a
+        // second time on A (one star's own repeat: `near-twin`, not a
+        // copy); on F and G with the epoch written as BJD and as
+        // BJD − 2454833, where A's counts from 2457000 (G's rounded
+        // otherwise, 0.00004 d); on J written with fewer digits, its
+        // period and epoch A's rounded. D differs by 1 ppm in depth, E by 0.01 h in
+        // duration, H by 0.01 d in epoch, I by 0.1 d once the zeros are
+        // taken away, K's duration is no rounding of A's: each a
+        // measurement of its own.
         let text = "star,candidate,period_d,epoch,depth_ppm,duration_h\n\
-A,A-1,3.7,100.5,3000,2.5\n\
-B,B-1,3.7,100.5,3000,2.5\n\
-C,C-1,3.70,100.50,3000.0,2.50\n\
-A,A-2,3.7,100.5,3000,2.5\n\
-D,D-1,3.7,100.5,3001,2.5\n\
-E,E-1,3.7,100.5,3000,2.501\n\
-F,F-1,3.7,2457100.5,3000,2.5\n\
-G,G-1,3.7,2454933.50004,3000,2.5\n\
-H,H-1,3.7,100.51,3000,2.5\n\
-I,I-1,3.7,2457100.6,3000,2.5\n";
+A,A-1,3.7123,100.5432,3000,2.51\n\
+B,B-1,3.7123,100.5432,3000,2.51\n\
+C,C-1,3.71230,100.54320,3000.0,2.510\n\
+A,A-2,3.7123,100.5432,3000,2.51\n\
+D,D-1,3.7123,100.5432,3001,2.51\n\
+E,E-1,3.7123,100.5432,3000,2.52\n\
+F,F-1,3.7123,2457100.5432,3000,2.51\n\
+G,G-1,3.7123,2454933.54324,3000,2.51\n\
+H,H-1,3.7123,100.5532,3000,2.51\n\
+I,I-1,3.7123,2457100.6432,3000,2.51\n\
+J,J-1,3.712,100.543,3000,2.51\n\
+K,K-1,3.712,100.543,3000,2.6\n";
         let cat = Catalogue::from_text("t.csv", text);
         let id = |s: &str| cat.find_candidate(s).unwrap();
         let ch = run(&cat, &CheckSettings::default());
-        for s in ["A-1", "B-1", "C-1", "A-2", "F-1", "G-1"] {
+        for s in ["A-1", "B-1", "C-1", "A-2", "F-1", "G-1", "J-1"] {
             assert!(
                 ch.flags(id(s)).contains(Flag::MixedHost),
                 "{s}: {}",
                 ch.why(id(s))
             );
         }
-        for s in ["D-1", "E-1", "H-1", "I-1"] {
+        for s in ["D-1", "E-1", "H-1", "I-1", "K-1"] {
             assert!(
                 !ch.flags(id(s)).contains(Flag::MixedHost),
                 "{s}: {}",
@@ -341,7 +529,7 @@ I,I-1,3.7,2457100.6,3000,2.5\n";
         }
         // One signal group: A-1 stands for it, every other copy follows.
         let g = ch.groups().group_of(id("A-1")).unwrap();
-        assert_eq!(ch.groups().members(g).len(), 6);
+        assert_eq!(ch.groups().members(g).len(), 7);
         assert!(ch.why(id("C-1")).contains("also listed as A-1 on star A"));
         assert!(ch.why(id("A-1")).contains("also listed as B-1 on star B"));
         // The ties a false positive at B holds: A and C (each once).
@@ -350,10 +538,10 @@ I,I-1,3.7,2457100.6,3000,2.5\n";
             .map(|(_, c)| cat.candidate_id(c))
             .collect();
         tied.sort_unstable();
-        assert_eq!(tied, ["A-1", "A-2", "C-1", "F-1", "G-1"]);
+        assert_eq!(tied, ["A-1", "A-2", "C-1", "F-1", "G-1", "J-1"]);
         assert!(
             ch.why(id("F-1"))
-                .contains("F-1 as 2457100.5, A-1 as 100.5, 2457000 days apart"),
+                .contains("F-1 as 2457100.5432, A-1 as 100.5432, 2457000 days apart"),
             "{}",
             ch.why(id("F-1"))
         );

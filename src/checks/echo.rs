@@ -504,7 +504,7 @@ fn in_time(a: &Sig, b: &Sig, shift: f64, var_p: f64) -> Option<f64> {
 /// The period order as one integer: the order of `f64::total_cmp` on the
 /// period, then a hash of the candidate (so that copies of one ephemeris on
 /// many stars interleave), then the candidate.
-fn order_key(period: f64, c: CandidateId) -> u128 {
+pub(super) fn order_key(period: f64, c: CandidateId) -> u128 {
     (u128::from(total_order_bits(period)) << 64)
         | (u128::from(c.wrapping_mul(2_654_435_761)) << 32)
         | u128::from(c)

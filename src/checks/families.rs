@@ -14,7 +14,7 @@ use crate::catalogue::{CandidateId, Catalogue, candidate_family as family};
 /// `targets`: (the first such target, the row). One pass over the
 /// catalogue; `targets` are few.
 pub(super) fn ties(cat: &Catalogue, targets: &[CandidateId]) -> Vec<(CandidateId, CandidateId)> {
-    super::other_ids::rows_sharing(cat, targets, |c| family(cat.candidate_id(c)), |_, _| true)
+    super::other_ids::rows_sharing(cat, targets, |c| family(cat.candidate_id(c)))
 }
 
 /// Holds each star a split family shares with a false positive: a

@@ -22,16 +22,15 @@ pub enum Tie {
     Row(String, String),
 }
 
-/// Every row of another star id whose `key` is that of one of `targets`
-/// and that `also` accepts with it: (the first such target, the row). One
-/// pass over the catalogue, a part of the rows on each core; `targets` are
-/// few. The ties of a candidate family (`families`) and of one row
-/// (`copies`).
+/// Every row of another star id whose `key` is that of one of `targets`:
+/// (the first such target, the row). One pass over the catalogue, a part
+/// of the rows on each core; `targets` are few. The ties of a candidate
+/// family (`families`; those of one row, `copies::ties`, compare periods
+/// within their rounding).
 pub(super) fn rows_sharing<K: Eq + std::hash::Hash + Sync>(
     cat: &Catalogue,
     targets: &[CandidateId],
     key: impl Fn(CandidateId) -> Option<K> + Sync,
-    also: impl Fn(CandidateId, CandidateId) -> bool + Sync,
 ) -> Vec<(CandidateId, CandidateId)> {
     let mut of: hashbrown::HashMap<K, Vec<CandidateId>> = hashbrown::HashMap::new();
     for &t in targets {
@@ -47,10 +46,7 @@ pub(super) fn rows_sharing<K: Eq + std::hash::Hash + Sync>(
             let c = c as CandidateId;
             let ts = of.get(&key(c)?)?;
             let star: StarId = cat.star_of(c);
-            let t = ts
-                .iter()
-                .copied()
-                .find(|&t| cat.star_of(t) != star && also(t, c))?;
+            let t = ts.iter().copied().find(|&t| cat.star_of(t) != star)?;
             Some((t, c))
         })
         .collect::<Vec<_>>()

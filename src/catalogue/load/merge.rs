@@ -246,9 +246,7 @@ impl Merger {
         }
         // Complete: two bytes a value where the values allow, before the
         // ids' grouping adds its own memory (`Column::narrow`).
-        for col in &mut self.num {
-            col.narrow();
-        }
+        crate::parallel::each_mut(&mut self.num, Column::narrow);
         // A second read of the rows of an earlier one (the browser's read
         // of the values) takes its ids as they are; anything else groups
         // its own.
