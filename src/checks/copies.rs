@@ -30,9 +30,13 @@ const EPOCH_TOLERANCE_D: f64 = 1e-3;
 const PERIOD_WINDOW_D: f64 = 0.005;
 
 /// How many rows of the period order each row is compared with on either
-/// side for a copy written with other digits (a run of one period longer
-/// than this is compared by its exact values only).
-const NEIGHBOURS: usize = 64;
+/// side for a copy written with other digits, and rows of one period by
+/// depth.
+const NEIGHBOURS: usize = 8;
+
+/// How far apart two depths of one period may be, ppm, to be compared as
+/// one written with other digits: an integer ppm's rounding.
+const DEPTH_WINDOW_PPM: f64 = 0.5;
 
 /// The amounts, days, by which two writings of one epoch differ when each
 /// counts from its own zero: 0, and the differences of the common zeros
@@ -129,12 +133,10 @@ impl<'a> Cols<'a> {
     /// from another common zero, within [`EPOCH_TOLERANCE_D`] at least).
     fn same(&self, a: CandidateId, b: CandidateId) -> bool {
         let (i, j) = (a as usize, b as usize);
-        let (Some(_), Some(_)) = (self.key(a), self.key(b)) else {
-            return false;
-        };
         let any = (0.0, f64::INFINITY);
-        one_value(self.period, i, j, &[0.0], (0.0, PERIOD_WINDOW_D))
-            && one_value(self.depth, i, j, &[0.0], any)
+        // The depth first: it tells most rows of one period apart.
+        one_value(self.depth, i, j, &[0.0], any)
+            && one_value(self.period, i, j, &[0.0], (0.0, PERIOD_WINDOW_D))
             && (self.duration).is_none_or(|t| one_value(t, i, j, &[0.0], any))
             && one_value(
                 self.epoch,
@@ -143,6 +145,8 @@ impl<'a> Cols<'a> {
                 &self.shifts,
                 (EPOCH_TOLERANCE_D, f64::INFINITY),
             )
+            && self.key(a).is_some()
+            && self.key(b).is_some()
     }
 
     /// How far from row `c`'s period another row's may lie and still be
@@ -191,6 +195,22 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
                 pairs.extend(set.windows(2).map(|w| (same[w[0]].3, same[w[1]].3)));
             }
         }
+        // One period, the depths (or durations) written with other digits:
+        // by depth, each row against the next few within an integer ppm's
+        // rounding (the values at hand; `same` decides).
+        run.sort_unstable_by(|a, b| f64::from_bits(a.0[1]).total_cmp(&f64::from_bits(b.0[1])));
+        for (i, a) in run.iter().enumerate() {
+            let depth = f64::from_bits(a.0[1]);
+            for b in run[i + 1..]
+                .iter()
+                .take(NEIGHBOURS)
+                .take_while(|b| f64::from_bits(b.0[1]) - depth <= DEPTH_WINDOW_PPM)
+            {
+                if a.2 != b.2 && cols.same(a.3, b.3) {
+                    pairs.push((a.3.min(b.3), a.3.max(b.3)));
+                }
+            }
+        }
     }
     // The same row written with other digits: a row and its neighbours
     // in the period order within its period's rounding. The decimals of
@@ -210,6 +230,18 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
             continue;
         };
         let p = period_of_key(k);
+        // A window that holds more rows than are compared (a coarsely
+        // written period in a dense table) is not searched; rows of the
+        // very same period were compared above.
+        let (lo, hi) = (
+            at.checked_sub(NEIGHBOURS),
+            period_order.get(at + NEIGHBOURS),
+        );
+        if lo.is_some_and(|lo| p - period_of_key(period_order[lo]) <= window)
+            && hi.is_some_and(|&h| period_of_key(h) - p <= window)
+        {
+            continue;
+        }
         let near = period_order[at.saturating_sub(NEIGHBOURS)..at]
             .iter()
             .rev()
@@ -221,6 +253,9 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
                     .take_while(|&&o| period_of_key(o) - p <= window),
             );
         for &o in near {
+            if o >> 64 == k >> 64 {
+                continue;
+            }
             let o = o as CandidateId;
             if cat.star_of(o) != cat.star_of(c) && cols.same(c, o) {
                 pairs.push((c.min(o), c.max(o)));
@@ -493,7 +528,8 @@ mod tests {
         // copy); on F and G with the epoch written as BJD and as
         // BJD − 2454833, where A's counts from 2457000 (G's rounded
         // otherwise, 0.00004 d); on J written with fewer digits, its
-        // period and epoch A's rounded. D differs by 1 ppm in depth, E by 0.01 h in
+        // period and epoch A's rounded; on L with its depth to 0.1 ppm
+        // (A's is to the ppm). D differs by 1 ppm in depth, E by 0.01 h in
         // duration, H by 0.01 d in epoch, I by 0.1 d once the zeros are
         // taken away, K's duration is no rounding of A's: each a
         // measurement of its own.
@@ -509,11 +545,12 @@ G,G-1,3.7123,2454933.54324,3000,2.51\n\
 H,H-1,3.7123,100.5532,3000,2.51\n\
 I,I-1,3.7123,2457100.6432,3000,2.51\n\
 J,J-1,3.712,100.543,3000,2.51\n\
-K,K-1,3.712,100.543,3000,2.6\n";
+K,K-1,3.712,100.543,3000,2.6\n\
+L,L-1,3.7123,100.5432,3000.4,2.51\n";
         let cat = Catalogue::from_text("t.csv", text);
         let id = |s: &str| cat.find_candidate(s).unwrap();
         let ch = run(&cat, &CheckSettings::default());
-        for s in ["A-1", "B-1", "C-1", "A-2", "F-1", "G-1", "J-1"] {
+        for s in ["A-1", "B-1", "C-1", "A-2", "F-1", "G-1", "J-1", "L-1"] {
             assert!(
                 ch.flags(id(s)).contains(Flag::MixedHost),
                 "{s}: {}",
@@ -529,7 +566,7 @@ K,K-1,3.712,100.543,3000,2.6\n";
         }
         // One signal group: A-1 stands for it, every other copy follows.
         let g = ch.groups().group_of(id("A-1")).unwrap();
-        assert_eq!(ch.groups().members(g).len(), 7);
+        assert_eq!(ch.groups().members(g).len(), 8);
         assert!(ch.why(id("C-1")).contains("also listed as A-1 on star A"));
         assert!(ch.why(id("A-1")).contains("also listed as B-1 on star B"));
         // The ties a false positive at B holds: A and C (each once).
@@ -538,7 +575,7 @@ K,K-1,3.712,100.543,3000,2.6\n";
             .map(|(_, c)| cat.candidate_id(c))
             .collect();
         tied.sort_unstable();
-        assert_eq!(tied, ["A-1", "A-2", "C-1", "F-1", "G-1", "J-1"]);
+        assert_eq!(tied, ["A-1", "A-2", "C-1", "F-1", "G-1", "J-1", "L-1"]);
         assert!(
             ch.why(id("F-1"))
                 .contains("F-1 as 2457100.5432, A-1 as 100.5432, 2457000 days apart"),
