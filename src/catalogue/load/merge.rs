@@ -244,9 +244,14 @@ impl Merger {
         if self.lines.is_empty() && self.skipped.is_empty() {
             return Err(LoadError::NoRows { path: self.name });
         }
-        // Complete: two bytes a value where the values allow, before the
-        // ids' grouping adds its own memory (`Column::narrow`).
-        crate::parallel::each_mut(&mut self.num, Column::narrow);
+        // Complete: the kept columns in two bytes a value where the values
+        // allow, before the ids' grouping adds its own memory
+        // (`Column::narrow`).
+        let mut kept: Vec<&mut Column> = (self.num.iter_mut())
+            .zip(&layout.kept)
+            .filter_map(|(c, &k)| k.then_some(c))
+            .collect();
+        crate::parallel::each_mut(&mut kept, |c| c.narrow());
         // A second read of the rows of an earlier one (the browser's read
         // of the values) takes its ids as they are; anything else groups
         // its own.
