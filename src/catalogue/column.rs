@@ -40,6 +40,24 @@ pub struct Decimal {
     pub scale: u32,
 }
 
+impl Decimal {
+    /// The same decimal without its zeros at the end after the point
+    /// (`3.70` as `3.7`, `0.000` as `0`; `3000` keeps its zeros: they are
+    /// written to the unit).
+    pub fn trimmed(self) -> Decimal {
+        let (mut digits, mut scale) = (self.digits, self.scale);
+        while scale > 0 && digits % 10 == 0 {
+            digits /= 10;
+            scale -= 1;
+        }
+        Decimal {
+            digits,
+            scale,
+            ..self
+        }
+    }
+}
+
 /// Powers of ten exact in an `f64`, for the codes' exponents.
 const POW10: [f64; 16] = [
     1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15,
@@ -521,18 +539,20 @@ fn for_spare<T>(v: &mut Vec<T>) {
 /// The two bytes of `code` (a decimal, not negative) in a narrow column of
 /// `scale` ([`Column::narrow`]), if they hold it.
 fn narrow_code(code: u32, scale: u8) -> Option<u16> {
-    let (mut m, mut e) = (code & MANTISSA, code >> EXP_SHIFT);
+    let (m, e) = (code & MANTISSA, code >> EXP_SHIFT);
     if e == u32::from(scale) {
         // The column's own exponent, the most common.
         return (m < u32::from(NARROW_RARE)).then_some(m as u16);
     }
     let n = if scale == FLOATING {
         // Its zeros at the end left out (`1.40e-4` as 14e-5).
-        while m != 0 && m % 10 == 0 && e > 0 {
-            m /= 10;
-            e -= 1;
+        let d = Decimal {
+            negative: false,
+            digits: m,
+            scale: e,
         }
-        (m <= u32::from(FLOAT_MANTISSA)).then_some((e << FLOAT_BITS) | m)?
+        .trimmed();
+        (d.digits <= u32::from(FLOAT_MANTISSA)).then_some((d.scale << FLOAT_BITS) | d.digits)?
     } else if m == 0 {
         0
     } else {

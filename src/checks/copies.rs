@@ -41,32 +41,29 @@ const DEPTH_WINDOW_PPM: f64 = 0.5;
 /// The amounts, days, by which two writings of one epoch differ when each
 /// counts from its own zero: 0, and the differences of the common zeros
 /// and of each from the full Julian date (BJD − 2457000 against BJD is
-/// 2457000; against BJD − 2454833, 2167).
-fn zero_shifts() -> Vec<f64> {
-    let zeros: Vec<f64> = std::iter::once(0.0)
-        .chain(crate::lightcurve::timezero::COMMON_ZEROS)
-        .collect();
-    let mut out: Vec<f64> = zeros
-        .iter()
-        .flat_map(|a| zeros.iter().map(move |b| a - b))
-        .filter(|d| *d >= 0.0)
-        .collect();
-    out.sort_by(f64::total_cmp);
-    out.dedup();
-    out
+/// 2457000; against BJD − 2454833, 2167). Computed once.
+fn zero_shifts() -> &'static [f64] {
+    static SHIFTS: std::sync::LazyLock<Vec<f64>> = std::sync::LazyLock::new(|| {
+        let zeros: Vec<f64> = std::iter::once(0.0)
+            .chain(crate::lightcurve::timezero::COMMON_ZEROS)
+            .collect();
+        let mut out: Vec<f64> = zeros
+            .iter()
+            .flat_map(|a| zeros.iter().map(move |b| a - b))
+            .filter(|d| *d >= 0.0)
+            .collect();
+        out.sort_by(f64::total_cmp);
+        out.dedup();
+        out
+    });
+    &SHIFTS
 }
 
 /// The decimals a value is written with, its zeros at the end after the
 /// point left out (`3000` has 0, `3.70` 1); `None` for a value that is no
 /// short decimal (kept whole: compared exactly).
 fn decimals(col: &Column, i: usize) -> Option<i32> {
-    let d = col.decimal(i)?;
-    let (mut m, mut scale) = (d.digits, d.scale as i32);
-    while scale > 0 && m % 10 == 0 {
-        m /= 10;
-        scale -= 1;
-    }
-    Some(scale)
+    Some(col.decimal(i)?.trimmed().scale as i32)
 }
 
 /// Half a unit in the last decimal a value is written with: how far the
@@ -100,7 +97,7 @@ struct Cols<'a> {
     epoch: &'a Column,
     depth: &'a Column,
     duration: Option<&'a Column>,
-    shifts: Vec<f64>,
+    shifts: &'static [f64],
 }
 
 impl<'a> Cols<'a> {
@@ -142,7 +139,7 @@ impl<'a> Cols<'a> {
                 self.epoch,
                 i,
                 j,
-                &self.shifts,
+                self.shifts,
                 (EPOCH_TOLERANCE_D, f64::INFINITY),
             )
             && self.key(a).is_some()
@@ -191,9 +188,7 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
             if same.len() < 2 || same.iter().all(|r| r.2 == same[0].2) {
                 continue;
             }
-            for set in one_epoch_sets(same, &cols.shifts) {
-                pairs.extend(set.windows(2).map(|w| (same[w[0]].3, same[w[1]].3)));
-            }
+            pairs.extend(one_epoch_pairs(same, cols.shifts));
         }
         // One period, the depths (or durations) written with other digits:
         // by depth, each row against the next few within an integer ppm's
@@ -229,7 +224,7 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
         let Some(&window) = windows.get(written[c as usize] as usize) else {
             continue;
         };
-        let p = period_of_key(k);
+        let p = super::echo::period_of_key(k);
         // A window that holds more rows than are compared (a coarsely
         // written period in a dense table) is not searched; rows of the
         // very same period were compared above.
@@ -237,20 +232,20 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
             at.checked_sub(NEIGHBOURS),
             period_order.get(at + NEIGHBOURS),
         );
-        if lo.is_some_and(|lo| p - period_of_key(period_order[lo]) <= window)
-            && hi.is_some_and(|&h| period_of_key(h) - p <= window)
+        if lo.is_some_and(|lo| p - super::echo::period_of_key(period_order[lo]) <= window)
+            && hi.is_some_and(|&h| super::echo::period_of_key(h) - p <= window)
         {
             continue;
         }
         let near = period_order[at.saturating_sub(NEIGHBOURS)..at]
             .iter()
             .rev()
-            .take_while(|&&o| p - period_of_key(o) <= window)
+            .take_while(|&&o| p - super::echo::period_of_key(o) <= window)
             .chain(
                 period_order[at + 1..]
                     .iter()
                     .take(NEIGHBOURS)
-                    .take_while(|&&o| period_of_key(o) - p <= window),
+                    .take_while(|&&o| super::echo::period_of_key(o) - p <= window),
             );
         for &o in near {
             if o >> 64 == k >> 64 {
@@ -263,18 +258,6 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
         }
     }
     sets_of(cat, pairs)
-}
-
-/// The period of a key of the echo search's period order: its high 64
-/// bits, `f64::total_cmp`'s order of the period's bits (`echo::order_key`),
-/// turned back.
-fn period_of_key(k: u128) -> f64 {
-    let bits = (k >> 64) as u64;
-    f64::from_bits(if bits >> 63 == 1 {
-        bits ^ (1 << 63)
-    } else {
-        !bits
-    })
 }
 
 /// The sets the `pairs` of one signal join (union by pair), each in the
@@ -316,40 +299,33 @@ fn find_root(root: &mut [usize], mut i: usize) -> usize {
     i
 }
 
-/// The rows of `same` (one key, in the order of star, then row) that carry
-/// one epoch (within [`EPOCH_TOLERANCE_D`], perhaps a zero's shift away),
-/// as sets of their places in `same`, each in order, sets of one left out.
-/// Epochs sorted, each row is joined to the next within the tolerance and
-/// to the nearest a zero's shift away: O(r log r) for r rows, however many
-/// repeat one epoch.
-fn one_epoch_sets(same: &[(Key, f64, StarId, CandidateId)], shifts: &[f64]) -> Vec<Vec<usize>> {
+/// Pairs of rows of `same` (one key) that carry one epoch (within
+/// [`EPOCH_TOLERANCE_D`], perhaps a zero's shift away), enough for
+/// [`sets_of`] to join every such row: epochs sorted, each row is paired
+/// with the next within the tolerance and with the nearest a zero's shift
+/// away. O(r log r) for r rows, however many repeat one epoch.
+fn one_epoch_pairs(
+    same: &[(Key, f64, StarId, CandidateId)],
+    shifts: &[f64],
+) -> Vec<(CandidateId, CandidateId)> {
     let mut by_epoch: Vec<usize> = (0..same.len()).collect();
     by_epoch.sort_by(|&a, &b| same[a].1.total_cmp(&same[b].1));
     let epoch = |j: usize| same[by_epoch[j]].1;
-    let mut root: Vec<usize> = (0..same.len()).collect();
-    let mut join = |a: usize, b: usize| {
-        let (ra, rb) = (find_root(&mut root, a), find_root(&mut root, b));
-        root[ra.max(rb)] = ra.min(rb);
-    };
+    let row = |j: usize| same[by_epoch[j]].3;
+    let mut out = Vec::new();
     for j in 0..by_epoch.len() {
         if j + 1 < by_epoch.len() && epoch(j + 1) - epoch(j) <= EPOCH_TOLERANCE_D {
-            join(by_epoch[j], by_epoch[j + 1]);
+            out.push((row(j), row(j + 1)));
         }
         for &s in shifts.iter().filter(|s| **s > 0.0) {
             let at = epoch(j) + s;
             let k = by_epoch.partition_point(|&i| same[i].1 < at - EPOCH_TOLERANCE_D);
             if k < by_epoch.len() && epoch(k) <= at + EPOCH_TOLERANCE_D {
-                join(by_epoch[j], by_epoch[k]);
+                out.push((row(j), row(k)));
             }
         }
     }
-    let mut sets: Vec<Vec<usize>> = vec![Vec::new(); same.len()];
-    for i in 0..same.len() {
-        let r = find_root(&mut root, i);
-        sets[r].push(i);
-    }
-    sets.retain(|s| s.len() > 1);
-    sets
+    out
 }
 
 /// The signal-group links of the sets [`find`] found, for
@@ -511,14 +487,6 @@ pub(super) fn hold(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
 mod tests {
     use super::*;
     use crate::checks::{CheckSettings, run};
-
-    #[test]
-    fn a_period_order_key_gives_back_its_period() {
-        for p in [3.7123, 0.5, 1e-300, 1234.5678, -2.5, 0.0, -0.0] {
-            let k = super::super::echo::order_key(p, 7);
-            assert_eq!(period_of_key(k).to_bits(), f64::to_bits(p), "{p}");
-        }
-    }
 
     #[test]
     fn only_the_same_row_on_another_star_id_is_a_copy() {

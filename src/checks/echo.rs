@@ -504,10 +504,21 @@ fn in_time(a: &Sig, b: &Sig, shift: f64, var_p: f64) -> Option<f64> {
 /// The period order as one integer: the order of `f64::total_cmp` on the
 /// period, then a hash of the candidate (so that copies of one ephemeris on
 /// many stars interleave), then the candidate.
-pub(super) fn order_key(period: f64, c: CandidateId) -> u128 {
+fn order_key(period: f64, c: CandidateId) -> u128 {
     (u128::from(total_order_bits(period)) << 64)
         | (u128::from(c.wrapping_mul(2_654_435_761)) << 32)
         | u128::from(c)
+}
+
+/// The period of an [`order_key`]: its high 64 bits turned back
+/// ([`total_order_bits`] undone).
+pub(super) fn period_of_key(k: u128) -> f64 {
+    let bits = (k >> 64) as u64;
+    f64::from_bits(if bits >> 63 == 1 {
+        bits ^ (1 << 63)
+    } else {
+        !bits
+    })
 }
 
 /// An integer whose order is that of [`f64::total_cmp`]: the sign bit
@@ -578,6 +589,13 @@ mod tests {
         assert!(separation_arcsec(f64::NAN, f64::NAN, 10.0, 20.0).is_nan());
         // Antipodes: √h rounds to 1 or a hair above; the bound keeps 180°.
         assert!((separation_arcsec(0.0, 0.0, 180.0, 0.0) - 648_000.0).abs() < 1e-6);
+    }
+
+    #[test]
+    fn a_period_order_key_gives_back_its_period() {
+        for p in [3.7123, 0.5, 1e-300, 1234.5678, -2.5, 0.0, -0.0] {
+            assert_eq!(period_of_key(order_key(p, 7)).to_bits(), p.to_bits(), "{p}");
+        }
     }
 
     #[test]
