@@ -160,6 +160,12 @@ pub struct Catalogue {
     stars: Arc<StrPool>,
     index: Arc<StarIndex>,
     num: Vec<Option<Column>>,
+    /// By numeric slot: what each value written in the table was
+    /// multiplied by to be stored in the field's unit (a unit's
+    /// conversion: 10⁴ for a depth in percent, 24 for a duration in
+    /// days); 1 when stored as written, NaN when the conversion is no
+    /// factor (magnitudes). Empty: every column as written.
+    written_scales: Vec<f64>,
     lightcurve: Option<StrPool>,
     extras: Vec<(String, StrPool)>,
     candidate_lookup: Arc<load::IdIndex>,
@@ -270,6 +276,16 @@ impl Catalogue {
     #[inline]
     pub fn column(&self, field: Field) -> Option<&Column> {
         self.num[field.num_slot()?].as_ref()
+    }
+
+    /// What the table's values of `field` were multiplied by to be stored
+    /// (see `written_scales`): the stored value over this is the value
+    /// as the table wrote it, to its digits.
+    pub fn written_scale(&self, field: Field) -> f64 {
+        field
+            .num_slot()
+            .and_then(|s| self.written_scales.get(s).copied())
+            .unwrap_or(1.0)
     }
 
     pub fn has(&self, field: Field) -> bool {

@@ -428,3 +428,52 @@ EPIC 201757,E-2,17.2,0.00001,102.5,0.001,400,4.0,25,0.3,1,1,5772,PC\n";
         "{e2}"
     );
 }
+
+#[test]
+fn one_row_under_two_star_ids_is_found_with_its_digits_counted_in_the_tables_unit() {
+    // Invented: depths in percent and durations in days, stored as ppm
+    // and hours. The second source rounds each value in the table's own
+    // unit (0.3012 % → 0.30 %, 0.1046 d → 0.105 d): stored, 3012 and 3000
+    // ppm, 2.5104 and 2.52 h, which no rounding of the stored digits
+    // joins. Counted in the unit written, they are one row. Before, both
+    // pairs of each star id were validated. One pair shares its period to
+    // the digit (found among the rows of one period, by depth), the other
+    // is rounded in period too.
+    let head = common::HEAD
+        .replace("depth_ppm", "depth (%)")
+        .replace("duration_h", "duration (d)");
+    let background: String = common::background()
+        .lines()
+        .map(|l| format!("{}\n", l.replace(",600,3.0,", ",0.06,0.125,")))
+        .collect();
+    let rows = "\
+KIC 000858,K-1,3.71234,0.00001,100.54321,0.001,0.3012,0.1046,40,0.3,1,1,5772\n\
+KIC 000858,K-2,9.1,0.00001,101.5,0.001,0.06,0.125,30,0.3,1,1,5772\n\
+EPIC 201858,E-1,3.71234,0.00001,100.54321,0.001,0.30,0.105,40,0.3,1,1,5772\n\
+EPIC 201858,E-2,17.2,0.00001,102.5,0.001,0.04,0.17,25,0.3,1,1,5772\n\
+KIC 000859,K-3,5.43219,0.00001,101.98765,0.001,0.1234,0.0833,40,0.3,1,1,5772\n\
+KIC 000859,K-4,11.3,0.00001,101.1,0.001,0.06,0.125,30,0.3,1,1,5772\n\
+EPIC 201859,E-3,5.432,0.00001,101.988,0.001,0.12,0.083,40,0.3,1,1,5772\n\
+EPIC 201859,E-4,19.9,0.00001,102.9,0.001,0.04,0.17,25,0.3,1,1,5772\n";
+    let cat = written("one_row_table_unit", &format!("{head}{background}{rows}"));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for s in ["K-1", "K-2", "E-1", "E-2", "K-3", "K-4", "E-3", "E-4"] {
+        assert_eq!(v[s], "likely", "{s}");
+    }
+    let checks = checks_rows(c);
+    for s in ["K-1", "E-1", "K-3", "E-3"] {
+        assert!(checks[s].contains("mixed-host"), "{s}: {}", checks[s]);
+    }
+    // A depth rounded to the same digits is no licence for another
+    // depth: 0.31 % is not 0.30 % written with fewer digits.
+    let apart = rows.replace("0.30,0.105", "0.31,0.105");
+    let cat = written(
+        "one_row_table_unit_apart",
+        &format!("{head}{background}{apart}"),
+    );
+    let v = agreed(cat.to_str().unwrap());
+    for s in ["K-1", "K-2", "E-1", "E-2"] {
+        assert_eq!(v[s], "validated", "{s}");
+    }
+}

@@ -34,8 +34,9 @@ const PERIOD_WINDOW_D: f64 = 0.005;
 /// depth.
 const NEIGHBOURS: usize = 8;
 
-/// How far apart two depths of one period may be, ppm, to be compared as
-/// one written with other digits: an integer ppm's rounding.
+/// How far apart two depths of one period may always be, ppm, to be
+/// compared as one written with other digits: an integer ppm's rounding
+/// (wider where the table wrote fewer digits, `Written::half_digit`).
 const DEPTH_WINDOW_PPM: f64 = 0.5;
 
 /// The amounts, days, by which two writings of one epoch differ when each
@@ -59,31 +60,77 @@ fn zero_shifts() -> &'static [f64] {
     &SHIFTS
 }
 
-/// The decimals a value is written with, its zeros at the end after the
-/// point left out (`3000` has 0, `3.70` 1); `None` for a value that is no
-/// short decimal (kept whole: compared exactly).
-fn decimals(col: &Column, i: usize) -> Option<i32> {
-    Some(col.decimal(i)?.trimmed().scale as i32)
+/// A column and what the table's values were multiplied by to be stored
+/// in it (`Catalogue::written_scale`: 10⁴ for a depth in percent), so that
+/// a value's digits are counted as the table wrote them.
+#[derive(Clone, Copy)]
+struct Written<'a> {
+    col: &'a Column,
+    scale: f64,
 }
 
-/// Half a unit in the last decimal a value is written with: how far the
-/// value it rounds may lie; zero for a value kept whole ([`decimals`]).
-fn half_digit(col: &Column, i: usize) -> f64 {
-    decimals(col, i).map_or(0.0, |k| 0.5 * 10f64.powi(-k))
+impl<'a> Written<'a> {
+    fn of(cat: &'a Catalogue, field: Field) -> Option<Written<'a>> {
+        Some(Written {
+            col: cat.column(field)?,
+            scale: cat.written_scale(field),
+        })
+    }
+
+    fn get(&self, i: usize) -> f64 {
+        self.col.get(i)
+    }
+
+    /// The decimals the i-th value is written with in the table, its zeros
+    /// at the end after the point left out (`3000` has 0, `3.70` 1, a depth
+    /// of `0.30` % 1); `None` for a value that is no short decimal (kept
+    /// whole, or converted by no factor: compared exactly).
+    fn decimals(&self, i: usize) -> Option<i32> {
+        if self.scale == 1.0 {
+            return Some(self.col.decimal(i)?.trimmed().scale as i32);
+        }
+        if !self.scale.is_finite() || self.scale == 0.0 {
+            return None;
+        }
+        written_decimals(self.col.get(i) / self.scale)
+    }
+
+    /// Half a unit in the last decimal the i-th value is written with, in
+    /// the stored unit: how far the value it rounds may lie; zero for a
+    /// value kept whole ([`Written::decimals`]).
+    fn half_digit(&self, i: usize) -> f64 {
+        self.decimals(i)
+            .map_or(0.0, |k| 0.5 * 10f64.powi(-k) * self.scale.abs())
+    }
+}
+
+/// The decimals of `w`, a value divided back into the unit its table
+/// wrote it in, as the table wrote it: its digits to 15 significant
+/// figures (the division leaves an error far below them), the zeros at
+/// the end left out.
+fn written_decimals(w: f64) -> Option<i32> {
+    if !w.is_finite() {
+        return None;
+    }
+    let text = format!("{:.14e}", w.abs());
+    let (mantissa, exp) = text.split_once('e')?;
+    let exp: i32 = exp.parse().ok()?;
+    let after = mantissa.split_once('.').map_or("", |(_, f)| f);
+    Some((after.trim_end_matches('0').len() as i32 - exp).max(0))
 }
 
 /// Whether values `a` and `b` of `col` are one value as two tables wrote
 /// it: equal, or one the other rounded to the coarser's last decimal
-/// (`3.7123` and `3.712345`; `3000` and `3000.4`), the rounding at least
-/// `floor` and at most `cap`. `shifts`: amounts the two may also differ by
-/// (an epoch's zeros).
-fn one_value(col: &Column, a: usize, b: usize, shifts: &[f64], (floor, cap): (f64, f64)) -> bool {
+/// (`3.7123` and `3.712345`; `3000` and `3000.4`; `0.30` % and `0.3012` %),
+/// the rounding at least `floor` and at most `cap`. `shifts`: amounts the
+/// two may also differ by (an epoch's zeros).
+fn one_value(col: Written, a: usize, b: usize, shifts: &[f64], (floor, cap): (f64, f64)) -> bool {
     let (x, y) = (col.get(a), col.get(b));
     if x.to_bits() == y.to_bits() {
         return true;
     }
-    let tolerance = half_digit(col, a)
-        .max(half_digit(col, b))
+    let tolerance = (col.half_digit(a))
+        .max(col.half_digit(b))
         .max(floor)
         .min(cap)
         * (1.0 + 1e-9);
@@ -93,20 +140,20 @@ fn one_value(col: &Column, a: usize, b: usize, shifts: &[f64], (floor, cap): (f6
 
 /// The columns a row's signal is read from.
 struct Cols<'a> {
-    period: &'a Column,
-    epoch: &'a Column,
-    depth: &'a Column,
-    duration: Option<&'a Column>,
+    period: Written<'a>,
+    epoch: Written<'a>,
+    depth: Written<'a>,
+    duration: Option<Written<'a>>,
     shifts: &'static [f64],
 }
 
 impl<'a> Cols<'a> {
     fn of(cat: &'a Catalogue) -> Option<Cols<'a>> {
         Some(Cols {
-            period: cat.column(Field::PeriodD)?,
-            epoch: cat.column(Field::Epoch)?,
-            depth: cat.column(Field::DepthPpm)?,
-            duration: cat.column(Field::DurationH),
+            period: Written::of(cat, Field::PeriodD)?,
+            epoch: Written::of(cat, Field::Epoch)?,
+            depth: Written::of(cat, Field::DepthPpm)?,
+            duration: Written::of(cat, Field::DurationH),
             shifts: zero_shifts(),
         })
     }
@@ -147,10 +194,10 @@ impl<'a> Cols<'a> {
     }
 
     /// How far from row `c`'s period another row's may lie and still be
-    /// the same value as written ([`half_digit`], at most
+    /// the same value as written ([`Written::half_digit`], at most
     /// [`PERIOD_WINDOW_D`]).
     fn period_window(&self, c: CandidateId) -> f64 {
-        half_digit(self.period, c as usize).min(PERIOD_WINDOW_D)
+        self.period.half_digit(c as usize).min(PERIOD_WINDOW_D)
     }
 }
 
@@ -191,16 +238,18 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
             pairs.extend(one_epoch_pairs(same, cols.shifts));
         }
         // One period, the depths (or durations) written with other digits:
-        // by depth, each row against the next few within an integer ppm's
-        // rounding (the values at hand; `same` decides).
-        run.sort_unstable_by(|a, b| f64::from_bits(a.0[1]).total_cmp(&f64::from_bits(b.0[1])));
+        // by depth, each row against the next few on either side within
+        // its depth's rounding as written, an integer ppm's at least (the
+        // values at hand; `same` decides).
+        let depth = |r: &(Key, f64, StarId, CandidateId)| f64::from_bits(r.0[1]);
+        run.sort_unstable_by(|a, b| depth(a).total_cmp(&depth(b)));
         for (i, a) in run.iter().enumerate() {
-            let depth = f64::from_bits(a.0[1]);
-            for b in run[i + 1..]
-                .iter()
-                .take(NEIGHBOURS)
-                .take_while(|b| f64::from_bits(b.0[1]) - depth <= DEPTH_WINDOW_PPM)
-            {
+            let window = cols.depth.half_digit(a.3 as usize).max(DEPTH_WINDOW_PPM) * (1.0 + 1e-9);
+            let after = run[i + 1..].iter().take(NEIGHBOURS);
+            let before = run[..i].iter().rev().take(NEIGHBOURS);
+            let near = (after.take_while(|b| depth(b) - depth(a) <= window))
+                .chain(before.take_while(|b| depth(a) - depth(b) <= window));
+            for b in near {
                 if a.2 != b.2 && cols.same(a.3, b.3) {
                     pairs.push((a.3.min(b.3), a.3.max(b.3)));
                 }
@@ -212,12 +261,14 @@ pub(super) fn find(cat: &Catalogue, period_order: &[u128]) -> Vec<Vec<CandidateI
     // every period first, in row order (one pass through the column); the
     // order's periods from its keys.
     let written: Vec<i8> = (0..cat.len())
-        .map(|i| decimals(cols.period, i).map_or(i8::MAX, |k| k.clamp(0, 20) as i8))
+        .map(|i| (cols.period.decimals(i)).map_or(i8::MAX, |k| k.clamp(0, 20) as i8))
         .collect();
     // Within the rounding (and a hair more: `same` decides exactly), by
     // the decimals written.
     let windows: Vec<f64> = (0..=20)
-        .map(|k| (0.5 * 10f64.powi(-k)).min(PERIOD_WINDOW_D) * (1.0 + 1e-9))
+        .map(|k| {
+            (0.5 * 10f64.powi(-k) * cols.period.scale.abs()).min(PERIOD_WINDOW_D) * (1.0 + 1e-9)
+        })
         .collect();
     for (at, &k) in period_order.iter().enumerate() {
         let c = k as CandidateId;
@@ -552,5 +603,31 @@ L,L-1,3.7123,100.5432,3000.4,2.51\n";
         );
         assert!(same_row(&cat, id("A-1"), id("G-1")));
         assert!(!same_row(&cat, id("A-1"), id("I-1")));
+    }
+
+    #[test]
+    fn digits_are_counted_in_the_unit_the_table_wrote() {
+        // A value stored in another unit, divided back: its decimals as
+        // written (hand-counted), the division's error far below them.
+        assert_eq!(written_decimals(3000.0 / 1e4), Some(1)); // 0.3 (%)
+        assert_eq!(written_decimals(3012.0 / 1e4), Some(4)); // 0.3012 (%)
+        assert_eq!(written_decimals(0.104 * 24.0 / 24.0), Some(3)); // 0.104 (d)
+        assert_eq!(written_decimals(0.1 * 24.0 / 24.0), Some(1));
+        assert_eq!(written_decimals(3000.0), Some(0));
+        assert_eq!(written_decimals(-2.5), Some(1));
+        assert_eq!(written_decimals(f64::NAN), None);
+        // Loaded: the factors from the header's units, and the rounding
+        // in the stored unit that half a written digit is.
+        let cat = Catalogue::from_text(
+            "t.csv",
+            "star,candidate,period_d,epoch,depth (%),duration (d)\nA,A-1,3.7,100.5,0.30,0.104\n",
+        );
+        assert_eq!(cat.written_scale(Field::DepthPpm), 1e4);
+        assert_eq!(cat.written_scale(Field::DurationH), 24.0);
+        assert_eq!(cat.written_scale(Field::PeriodD), 1.0);
+        let cols = Cols::of(&cat).unwrap();
+        assert!((cols.depth.half_digit(0) - 500.0).abs() < 1e-9);
+        assert!((cols.duration.unwrap().half_digit(0) - 0.012).abs() < 1e-12);
+        assert!((cols.period.half_digit(0) - 0.05).abs() < 1e-15);
     }
 }

@@ -286,6 +286,17 @@ impl Merger {
         // How the table's depths became ppm: from magnitudes (that many
         // to one), then times a factor; read by the radius ratios' rule.
         let mut depth_from: (Option<f64>, f64) = (None, 1.0);
+        // What each column's written values were multiplied by: the
+        // header's units first (`Layout::convert`), then the rules below.
+        let mut scales = vec![1.0; NUMERIC.len()];
+        for &(slot, scale, _) in &layout.convert {
+            scales[slot] *= scale;
+        }
+        let mut scaled = |f: Field, by: f64| {
+            if let Some(s) = f.num_slot() {
+                scales[s] *= by;
+            }
+        };
         for (field, &index) in &mapping.by_field {
             let forced = opts.columns.fields.contains_key(field);
             let mut unit = field.unit().to_string();
@@ -310,6 +321,7 @@ impl Merger {
                     // drop by Pogson's ratio (docs/science.md §2).
                     (None, Some(None)) if let Some(per_mag) = per_mag => {
                         depths.update(|d| units::depth_ppm_of_magnitudes(d * per_mag));
+                        scaled(Field::DepthPpm, f64::NAN);
                         depth_from.0 = Some(per_mag);
                         (
                             DepthUnit::Ppm,
@@ -339,6 +351,7 @@ impl Merger {
                 let factor = du.to_ppm() * extra;
                 if factor != 1.0 {
                     depths.update(|d| d * factor);
+                    scaled(Field::DepthPpm, factor);
                 }
                 depth_from.1 = factor;
                 unit = format!("{} (stored as ppm)", du.name());
@@ -361,6 +374,7 @@ impl Merger {
                     let seen = crate::catalogue::percent_by_range(lo, hi);
                     if said || seen {
                         fpp.update(|v| v / 100.0);
+                        scaled(*field, 0.01);
                         unit = FPP_PERCENT.to_string();
                         how = if said {
                             format!("{how}; table unit {}", stated.unwrap_or(""))
@@ -378,6 +392,7 @@ impl Merger {
                     if let Some(ror) = Field::Ror.num_slot().and_then(|s| num[s].as_mut()) {
                         ror.update(|v| v / 100.0);
                     }
+                    scaled(Field::Ror, 0.01);
                     unit = FPP_PERCENT.to_string();
                     how = match stated {
                         Some(u) if said => format!("{how}; table unit {u}"),
@@ -411,6 +426,7 @@ impl Merger {
                     if let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) {
                         col.update(|v| v * per);
                     }
+                    scaled(*field, per);
                     how = format!(
                         "{how}; Jupiter radii, detected from the depths and stars, × {per:.4} to Earth radii"
                     );
@@ -426,6 +442,7 @@ impl Merger {
                     if let Some(col) = field.num_slot().and_then(|s| num[s].as_mut()) {
                         col.update(|v| v * factor);
                     }
+                    scaled(*field, factor);
                     how = format!("{how}; {whose} unit, × {factor} to {to}");
                 }
             } else if let Some(u) = stated {
@@ -454,6 +471,7 @@ impl Merger {
             let reading = Dilution::of(col.iter());
             if reading != Dilution::Contamination {
                 col.update(|v| reading.contamination(v));
+                scaled(Field::Contamination, f64::NAN);
                 let what = match reading {
                     Dilution::TargetShare => {
                         "the target's share of the light (every value at most 1, most at least 0.5), the others' share c = 1 − dilution"
@@ -548,6 +566,7 @@ impl Merger {
             stars: ids.stars,
             index: ids.index,
             num,
+            written_scales: scales,
             lightcurve,
             extras: extra_names.zip(extras).collect(),
             candidate_lookup: ids.candidate_lookup,
