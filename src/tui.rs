@@ -131,6 +131,9 @@ struct Built {
 struct Unseen {
     path: PathBuf,
     stamp: String,
+    /// The ledger's last sighting of it is an earlier version's: its
+    /// fingerprint is taken their way too, to compare.
+    earlier: bool,
 }
 
 /// What the loading screen shows: the catalogue's bytes read so far, and
@@ -207,6 +210,8 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
             .map(|(path, stamp)| Unseen {
                 path: path.to_path_buf(),
                 stamp: stamp.to_string(),
+                earlier: (l.last_fingerprint(&loaded.catalogue.source))
+                    .is_some_and(|f| crate::fingerprint::is_earlier(&f)),
             });
         (Some(l), notes, unseen)
     } else {
@@ -287,14 +292,21 @@ fn build_app_counting(args: &Args, counted: Option<Counted>) -> Result<Built, Cl
 /// if the file is as it was read (the same stamp); else the next start
 /// records it.
 fn hash_for_sighting(
-    Unseen { path, stamp }: Unseen,
-    seen: mpsc::Sender<std::io::Result<(String, String)>>,
+    Unseen {
+        path,
+        stamp,
+        earlier,
+    }: Unseen,
+    seen: mpsc::Sender<std::io::Result<(String, String, Option<String>)>>,
 ) {
     std::thread::spawn(move || {
         crate::parallel::run_when_idle();
         let fp = crate::ledger::fingerprint_file(&path);
+        let earlier = earlier
+            .then(|| crate::fingerprint::earlier_fingerprint_file(&path).ok())
+            .flatten();
         if crate::fingerprint::file_stamp(&path).as_deref() == Some(stamp.as_str()) {
-            let _ = seen.send(fp.map(|fp| (fp, stamp)));
+            let _ = seen.send(fp.map(|fp| (fp, stamp, earlier)));
         }
     });
 }

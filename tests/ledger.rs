@@ -478,7 +478,7 @@ fn a_changed_catalogue_is_noticed_and_gone_candidates_listed() {
 fn a_catalogue_the_ledger_has_seen_is_known_by_its_stamp_and_an_edit_still_noticed() {
     let (d, cat) = demo_copy("stamp");
     let ledger = d.join("l.sqlite");
-    let fnv = |p: &Path| starsift::ledger::fingerprint(&std::fs::read(p).unwrap());
+    let fp = |p: &Path| starsift::ledger::fingerprint(&std::fs::read(p).unwrap());
     // A stamp is trusted once the file has settled (2 s on a file system
     // with whole-second times; 0.1 s otherwise).
     std::thread::sleep(std::time::Duration::from_millis(2100));
@@ -505,13 +505,13 @@ fn a_catalogue_the_ledger_has_seen_is_known_by_its_stamp_and_an_edit_still_notic
     let stamp = starsift::fingerprint::file_stamp(&cat).expect("a settled file has a stamp");
     assert_eq!(
         starsift::ledger::recorded_fingerprint(&ledger, s(&cat), &stamp),
-        Some(fnv(&cat))
+        Some(fp(&cat))
     );
     // Read from the ledger, not the file: still no note of a change.
     assert!(!decide("kept").contains("changed since"));
     // One digit edited, the length the same: the next command notices, and
     // records the new fingerprint.
-    let before = fnv(&cat);
+    let before = fp(&cat);
     let text = std::fs::read_to_string(&cat).unwrap();
     let at = text.find(gone.as_str()).unwrap() + gone.len() + 1;
     let mut bytes = text.into_bytes();
@@ -524,7 +524,73 @@ fn a_catalogue_the_ledger_has_seen_is_known_by_its_stamp_and_an_edit_still_notic
     assert!(
         e.contains(&format!(
             "changed since this ledger last saw it ({before} → {})",
-            fnv(&cat)
+            fp(&cat)
+        )),
+        "{e}"
+    );
+}
+
+#[test]
+fn a_sighting_an_earlier_version_recorded_is_no_change() {
+    // Earlier versions recorded FNV-1a fingerprints; this one records
+    // XXH64. A ledger whose last sighting of the catalogue is an earlier
+    // version's compares it as that version took it: the same file says
+    // nothing, an edited one is said, and the sighting is recorded anew.
+    let (d, cat) = demo_copy("earlier");
+    let ledger = d.join("l.sqlite");
+    let one = &system_of(1)[0];
+    let decide = |decision: &str| {
+        let o = starsift(&[
+            "decide",
+            s(&cat),
+            "--ledger",
+            s(&ledger),
+            "--candidate",
+            one,
+            "--decision",
+            decision,
+            "--vetter",
+            "ann",
+        ]);
+        assert!(o.status.success(), "{}", stderr(&o));
+        stderr(&o)
+    };
+    decide("parked");
+    let earlier = |p: &Path| starsift::fingerprint::earlier_fingerprint(&std::fs::read(p).unwrap());
+    // The sightings as an earlier version wrote them.
+    let as_earlier = |fp: &str| {
+        let c = rusqlite::Connection::open(&ledger).unwrap();
+        c.execute("UPDATE catalogue SET fingerprint = ?1", [fp])
+            .unwrap();
+        let _ = c.execute("UPDATE catalogue SET stamp = NULL", []);
+    };
+    let last = || {
+        let c = rusqlite::Connection::open(&ledger).unwrap();
+        c.query_row(
+            "SELECT fingerprint FROM catalogue ORDER BY id DESC LIMIT 1",
+            [],
+            |r| r.get::<_, String>(0),
+        )
+        .unwrap()
+    };
+    as_earlier(&earlier(&cat));
+    let e = decide("kept");
+    assert!(!e.contains("changed since"), "{e}");
+    let now = starsift::ledger::fingerprint(&std::fs::read(&cat).unwrap());
+    assert!(now.starts_with("xxh64:"), "{now}");
+    assert_eq!(last(), now);
+    // Edited since the earlier version saw it: said, with both.
+    let before = earlier(&cat);
+    as_earlier(&before);
+    let mut text = std::fs::read_to_string(&cat).unwrap();
+    text.push_str(&text.lines().last().unwrap().replace(one.as_str(), "NEW-1"));
+    text.push('\n');
+    std::fs::write(&cat, &text).unwrap();
+    let e = decide("parked");
+    let now = starsift::ledger::fingerprint(text.as_bytes());
+    assert!(
+        e.contains(&format!(
+            "changed since this ledger last saw it ({before} → {now})"
         )),
         "{e}"
     );

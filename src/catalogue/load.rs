@@ -69,25 +69,26 @@ pub struct LoadOptions {
     pub hdu: Option<String>,
     /// Bytes of the file read so far, for a progress display.
     pub progress: Option<std::sync::Arc<std::sync::atomic::AtomicU64>>,
-    /// Where to leave the FNV-1a hash of the file's bytes as they are read
-    /// (the ledger's fingerprint, from the same read as the load).
+    /// Where to leave the hash of the file's bytes as they are read (the
+    /// ledger's fingerprint, `crate::fingerprint::Xxh64`, from the same
+    /// read as the load).
     pub fingerprint: Option<std::sync::Arc<std::sync::atomic::AtomicU64>>,
 }
 
-/// A reader that hashes the bytes it reads (FNV-1a, the ledger's
-/// fingerprint) and leaves the running hash in `out`.
+/// A reader that hashes the bytes it reads (the ledger's fingerprint)
+/// and leaves the hash of those read so far in `out`.
 struct Hashed<R> {
     inner: R,
-    state: u64,
+    state: crate::fingerprint::Xxh64,
     out: std::sync::Arc<std::sync::atomic::AtomicU64>,
 }
 
 impl<R: Read> Read for Hashed<R> {
     fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
         let n = self.inner.read(buf)?;
-        self.state = crate::fingerprint::fnv1a(self.state, &buf[..n]);
+        self.state.update(&buf[..n]);
         self.out
-            .store(self.state, std::sync::atomic::Ordering::Relaxed);
+            .store(self.state.value(), std::sync::atomic::Ordering::Relaxed);
         Ok(n)
     }
 }
@@ -169,10 +170,9 @@ fn load_converted(
             .and_then(|mut f| f.read_to_end(&mut raw))
             .map_err(io)?;
         if let Some(out) = &opts.fingerprint {
-            out.store(
-                crate::fingerprint::fnv1a(crate::fingerprint::FNV_OFFSET, &raw),
-                std::sync::atomic::Ordering::Relaxed,
-            );
+            let mut h = crate::fingerprint::Xxh64::new();
+            h.update(&raw);
+            out.store(h.value(), std::sync::atomic::Ordering::Relaxed);
         }
         if raw.starts_with(&GZIP_MAGIC) {
             let mut plain = Vec::with_capacity(raw.len() * 4);
@@ -248,7 +248,7 @@ impl Catalogue {
                             );
                             Box::new(Hashed {
                                 inner: file,
-                                state: crate::fingerprint::FNV_OFFSET,
+                                state: crate::fingerprint::Xxh64::new(),
                                 out: std::sync::Arc::clone(out),
                             })
                         }

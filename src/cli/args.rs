@@ -250,7 +250,7 @@ impl LedgerArgs {
         let path = match &self.ledger {
             Some(p) => p.clone(),
             None => crate::ledger::default_path_with(input.catalogue.as_deref(), &|| {
-                loaded.fingerprint_now(None).unwrap_or_default()
+                earlier_fingerprint(input.catalogue.as_deref())
             }),
         };
         if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
@@ -272,6 +272,7 @@ impl LedgerArgs {
                 &fp,
                 cat.len(),
                 loaded.stamp.as_deref(),
+                &|| Some(earlier_fingerprint(input.catalogue.as_deref())).filter(|f| !f.is_empty()),
             )?);
         }
         Ok((ledger, notes, deferred))
@@ -281,11 +282,20 @@ impl LedgerArgs {
 /// The default ledger of a catalogue (beside it, or in the data folder),
 /// reading the catalogue for its fingerprint only if the place depends on it.
 fn default_ledger_path(input: &CatalogueArgs) -> PathBuf {
-    let fp = || match &input.catalogue {
-        Some(p) => crate::ledger::fingerprint_file(p).unwrap_or_default(),
-        None => crate::ledger::fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
-    };
-    crate::ledger::default_path_with(input.catalogue.as_deref(), &fp)
+    crate::ledger::default_path_with(input.catalogue.as_deref(), &|| {
+        earlier_fingerprint(input.catalogue.as_deref())
+    })
+}
+
+/// The catalogue's fingerprint as earlier versions took it (FNV-1a,
+/// `crate::fingerprint::earlier_fingerprint`; the demo's when `None`),
+/// empty when the file cannot be read: to find a ledger they named by it,
+/// and to know a catalogue again by a sighting they recorded.
+fn earlier_fingerprint(catalogue: Option<&Path>) -> String {
+    match catalogue {
+        Some(p) => crate::fingerprint::earlier_fingerprint_file(p).unwrap_or_default(),
+        None => crate::fingerprint::earlier_fingerprint(crate::demo::CATALOGUE_CSV.as_bytes()),
+    }
 }
 
 /// A path made absolute with its folder resolved (the file itself need not

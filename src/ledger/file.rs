@@ -7,7 +7,7 @@ use std::path::{Path, PathBuf};
 
 use rusqlite::{Connection, OpenFlags};
 
-use super::{APPLICATION_ID, BUSY_TIMEOUT, LedgerError, SQLITE_MAGIC, fingerprint};
+use super::{APPLICATION_ID, BUSY_TIMEOUT, LedgerError, SQLITE_MAGIC};
 
 /// A path for an SQLite `file:` URI: `%`, `?` and `#` percent-encoded
 /// (RFC 3986; SQLite's URI file names).
@@ -247,8 +247,9 @@ pub(super) fn open_checked(path: &Path) -> Result<Option<Connection>, LedgerErro
 /// by what it holds, so an edited catalogue keeps its decisions. Beside the
 /// catalogue (the file a symlink points to, so every link to it shares one
 /// ledger), or in the data folder when that folder cannot be written (and for
-/// the built-in demo). `fp` is the catalogue's content fingerprint: only to
-/// find a ledger an earlier version named by content.
+/// the built-in demo). `fp` is the catalogue's content fingerprint as
+/// earlier versions took it (`crate::fingerprint::earlier_fingerprint`):
+/// only to find a ledger an earlier version named by content.
 pub fn default_path(catalogue: Option<&Path>, fp: &str) -> PathBuf {
     default_path_with(catalogue, &|| fp.to_string())
 }
@@ -273,7 +274,9 @@ pub fn default_path_with(catalogue: Option<&Path>, fp: &dyn Fn() -> String) -> P
             let stem = real
                 .file_name()
                 .map_or("catalogue".into(), |f| f.to_string_lossy().into_owned());
-            let by_place = fingerprint(real.as_os_str().as_encoded_bytes());
+            // Named by the FNV-1a of the place, as ever (a ledger's name).
+            let by_place =
+                crate::fingerprint::earlier_fingerprint(real.as_os_str().as_encoded_bytes());
             let short = |f: &str| {
                 f.rsplit(':')
                     .next()

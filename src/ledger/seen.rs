@@ -19,19 +19,32 @@ impl Ledger {
     /// Notes which catalogue the ledger is used with: a new sighting when
     /// its fingerprint, or its stamp (`crate::fingerprint::file_stamp`),
     /// differs from the last one of the same path. Returns the fingerprint
-    /// recorded last time for this path, when it differs.
+    /// recorded last time for this path, when the catalogue differs from
+    /// it. A last sighting an earlier version recorded
+    /// (`crate::fingerprint::is_earlier`) is compared with `earlier`, the
+    /// catalogue's fingerprint taken as it took them (read only then).
     pub fn note_catalogue(
         &mut self,
         path: &str,
         fp: &str,
         candidates: usize,
         stamp: Option<&str>,
+        earlier: &dyn Fn() -> Option<String>,
     ) -> Result<Option<String>, LedgerError> {
         let previous = last_sighting(&self.conn, path).map_err(|e| self.classify(e))?;
         let (previous_fp, previous_stamp) = match &previous {
             Some((f, s)) => (Some(f.as_str()), s.as_deref()),
             None => (None, None),
         };
+        // Recorded by an earlier version: the same file when its way of
+        // taking the fingerprint gives the same (then recorded anew, below,
+        // in this version's).
+        let known = previous_fp.is_some_and(|p| {
+            p == fp
+                || (crate::fingerprint::is_earlier(p)
+                    && !crate::fingerprint::is_earlier(fp)
+                    && earlier().as_deref() == Some(p))
+        });
         if previous_fp != Some(fp) || stamp.is_some_and(|s| Some(s) != previous_stamp) {
             let at = now_rfc3339();
             self.write(|tx| {
@@ -56,7 +69,13 @@ impl Ledger {
                 }
             })?;
         }
-        Ok(previous_fp.filter(|&p| p != fp).map(str::to_string))
+        Ok(previous_fp.filter(|_| !known).map(str::to_string))
+    }
+
+    /// The fingerprint of the last sighting of `path`, if any (`None` too
+    /// when the ledger cannot say).
+    pub fn last_fingerprint(&self, path: &str) -> Option<String> {
+        last_sighting(&self.conn, path).ok()?.map(|(fp, _)| fp)
     }
 
     /// [`Ledger::note_catalogue`], said for people: the note when the
@@ -67,8 +86,9 @@ impl Ledger {
         fp: &str,
         candidates: usize,
         stamp: Option<&str>,
+        earlier: &dyn Fn() -> Option<String>,
     ) -> Result<Option<String>, LedgerError> {
-        Ok(self.note_catalogue(path, fp, candidates, stamp)?.map(|previous| {
+        Ok(self.note_catalogue(path, fp, candidates, stamp, earlier)?.map(|previous| {
             format!(
                 "{} changed since this ledger last saw it ({previous} → {fp}); decisions are matched by candidate id",
                 crate::sanitize::clean(path)
@@ -140,14 +160,15 @@ mod tests {
         // A ledger as schema version 2 made it: no stamp column until a
         // sighting has a stamp; one without leaves it so.
         assert_eq!(
-            l.note_catalogue("c.csv", "fnv1a64:01", 3, None).unwrap(),
+            l.note_catalogue("c.csv", "xxh64:01", 3, None, &|| None)
+                .unwrap(),
             None
         );
         assert!(!has_stamp(&l.conn).unwrap());
         assert_eq!(recorded_fingerprint(&p, "c.csv", "s1"), None);
         // The same fingerprint with a stamp: a sighting, and the column.
         assert_eq!(
-            l.note_catalogue("c.csv", "fnv1a64:01", 3, Some("s1"))
+            l.note_catalogue("c.csv", "xxh64:01", 3, Some("s1"), &|| None)
                 .unwrap(),
             None
         );
@@ -155,10 +176,10 @@ mod tests {
         assert_eq!(sightings(&l), 2);
         assert_eq!(
             recorded_fingerprint(&p, "c.csv", "s1").as_deref(),
-            Some("fnv1a64:01")
+            Some("xxh64:01")
         );
         // Seen again as it was: nothing written.
-        l.note_catalogue("c.csv", "fnv1a64:01", 3, Some("s1"))
+        l.note_catalogue("c.csv", "xxh64:01", 3, Some("s1"), &|| None)
             .unwrap();
         assert_eq!(sightings(&l), 2);
         // Another stamp, another path: not known.
@@ -167,10 +188,10 @@ mod tests {
         // Changed: the last sighting decides, so the old stamp no longer
         // recalls the old fingerprint.
         assert_eq!(
-            l.note_catalogue("c.csv", "fnv1a64:02", 4, None)
+            l.note_catalogue("c.csv", "xxh64:02", 4, None, &|| None)
                 .unwrap()
                 .as_deref(),
-            Some("fnv1a64:01")
+            Some("xxh64:01")
         );
         assert_eq!(recorded_fingerprint(&p, "c.csv", "s1"), None);
         // No ledger, or a file that is not one: not known, and no error.
@@ -181,5 +202,44 @@ mod tests {
         let other = p.with_extension("txt");
         std::fs::write(&other, "not a ledger").unwrap();
         assert_eq!(recorded_fingerprint(&other, "c.csv", "s1"), None);
+    }
+
+    #[test]
+    fn a_sighting_an_earlier_version_recorded_is_compared_as_it_was_taken() {
+        let p = temp("earlier");
+        let mut l = Ledger::open(&p).unwrap();
+        // An earlier version recorded FNV-1a fingerprints.
+        l.note_catalogue("c.csv", "fnv1a64:0a", 3, None, &|| None)
+            .unwrap();
+        // The same file, its fingerprint now taken another way: the same
+        // by the earlier way, so no change is said; it is recorded anew.
+        let asked = std::cell::Cell::new(0);
+        let same = || {
+            asked.set(asked.get() + 1);
+            Some("fnv1a64:0a".to_string())
+        };
+        assert_eq!(
+            l.note_catalogue("c.csv", "xxh64:0b", 3, None, &same)
+                .unwrap(),
+            None
+        );
+        assert_eq!((asked.get(), sightings(&l)), (1, 2));
+        // From then on compared as this version takes it: not read again.
+        assert_eq!(
+            l.note_catalogue("c.csv", "xxh64:0b", 3, None, &same)
+                .unwrap(),
+            None
+        );
+        assert_eq!((asked.get(), sightings(&l)), (1, 2));
+        // A file that changed since the earlier version saw it is said.
+        l.note_catalogue("d.csv", "fnv1a64:0c", 3, None, &|| None)
+            .unwrap();
+        let other = || Some("fnv1a64:0d".to_string());
+        assert_eq!(
+            l.note_catalogue("d.csv", "xxh64:0e", 3, None, &other)
+                .unwrap()
+                .as_deref(),
+            Some("fnv1a64:0c")
+        );
     }
 }

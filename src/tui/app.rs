@@ -70,8 +70,10 @@ pub enum Input {
     ChecksStarted,
     /// The catalogue's fingerprint and stamp, hashed in the background for
     /// a catalogue new to the ledger, to record its sighting (or why the
-    /// file could not be read).
-    Seen(Result<(String, String), String>),
+    /// file could not be read); and its fingerprint as earlier versions
+    /// took it, where the ledger's last sighting of it is theirs
+    /// (`Ledger::note_catalogue`).
+    Seen(Result<(String, String, Option<String>), String>),
     /// A line for the message bar, from a background thread.
     Notice(String),
     /// The ledger read again after another vetter recorded decisions

@@ -235,13 +235,18 @@ impl App {
     /// Records the catalogue's sighting in the ledger (`Input::Seen`); a
     /// changed catalogue, or a sighting that could not be recorded, is said
     /// on the message line.
-    pub(super) fn record_sighting(&mut self, seen: Result<(String, String), String>) {
+    pub(super) fn record_sighting(
+        &mut self,
+        seen: Result<(String, String, Option<String>), String>,
+    ) {
         let Some(ledger) = self.ledger.as_mut() else {
             return;
         };
-        let said = seen.and_then(|(fp, stamp)| {
+        let said = seen.and_then(|(fp, stamp, earlier)| {
             ledger
-                .sighting_note(&self.cat.source, &fp, self.cat.len(), Some(&stamp))
+                .sighting_note(&self.cat.source, &fp, self.cat.len(), Some(&stamp), &|| {
+                    earlier.clone()
+                })
                 .map_err(|e| e.to_string())
         });
         let note = match said {

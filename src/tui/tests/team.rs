@@ -94,10 +94,10 @@ fn a_changed_catalogue_is_said_after_the_start_notes_not_over_them() {
     app.ledger
         .as_mut()
         .unwrap()
-        .sighting_note(&source, "fnv1a64:01", app.cat.len(), Some("s0"))
+        .sighting_note(&source, "xxh64:01", app.cat.len(), Some("s0"), &|| None)
         .unwrap();
     app.message = Some("1 decided candidates are not in the catalogue: X-1".into());
-    let _ = app.update(Input::Seen(Ok(("fnv1a64:02".into(), "s1".into()))));
+    let _ = app.update(Input::Seen(Ok(("xxh64:02".into(), "s1".into(), None))));
     let said = app.message.clone().unwrap();
     assert!(
         said.starts_with("1 decided candidates are not in the catalogue: X-1 · "),
@@ -109,7 +109,7 @@ fn a_changed_catalogue_is_said_after_the_start_notes_not_over_them() {
     );
     // Without a note before it, the change is the message.
     app.message = None;
-    let _ = app.update(Input::Seen(Ok(("fnv1a64:03".into(), "s2".into()))));
+    let _ = app.update(Input::Seen(Ok(("xxh64:03".into(), "s2".into(), None))));
     assert!(app.message.unwrap().contains("changed since"));
     let _ = std::fs::remove_dir_all(dir);
 }
