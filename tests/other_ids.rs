@@ -477,3 +477,27 @@ EPIC 201859,E-4,19.9,0.00001,102.9,0.001,0.04,0.17,25,0.3,1,1,5772\n";
         assert_eq!(v[s], "validated", "{s}");
     }
 }
+
+#[test]
+fn one_row_under_two_star_ids_is_found_with_its_epoch_moved_whole_periods() {
+    // Invented: the second source moved the epoch to a later transit (37
+    // periods on: 100.54321 + 37 × 3.712345 = 237.89998, written
+    // 237.89997) and kept the rest. No positions: before, an `echo`
+    // warning only, and both pairs were validated.
+    let rows = "\
+KIC 000959,K-1,3.712345,0.00001,100.54321,0.001,3000,2.51,40,0.3,1,1,5772,PC\n\
+KIC 000959,K-2,9.1,0.00001,101.5,0.001,600,3.0,30,0.3,1,1,5772,PC\n\
+EPIC 201959,E-1,3.712345,0.00001,237.89997,0.001,3000,2.51,40,0.3,1,1,5772,PC\n\
+EPIC 201959,E-2,17.2,0.00001,102.5,0.001,400,4.0,25,0.3,1,1,5772,PC\n";
+    let cat = written("one_row_moved_epoch", &catalogue("disposition", rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for s in ["K-1", "K-2", "E-1", "E-2"] {
+        assert_eq!(v[s], "likely", "{s}");
+    }
+    let e1 = &checks_rows(c)["E-1"];
+    assert!(
+        e1.contains("mixed-host") && e1.contains("the epoch moved 37 periods"),
+        "{e1}"
+    );
+}

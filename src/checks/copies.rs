@@ -1,7 +1,8 @@
 //! One row under two star ids. A table merged from two sources, or one
 //! star listed under two catalogues' ids, can carry the same row twice: the
 //! same period, epoch, depth and duration, to the last digit written (one
-//! source may write fewer digits, or the epoch from another zero), on two
+//! source may write fewer digits, or the epoch from another zero or moved
+//! whole periods to a later transit), on two
 //! star ids. That is no neighbour's light (§3.3: a neighbour's copy is diluted,
 //! so shallower, and measured anew), it is one entry named twice. Which
 //! star it is on cannot be known: each copy is flagged `mixed-host` and
@@ -173,8 +174,8 @@ impl<'a> Cols<'a> {
 
     /// Whether rows `a` and `b` carry the same signal: period, depth,
     /// duration and epoch each one value as written ([`one_value`]; the
-    /// period within [`PERIOD_WINDOW_D`] at most, the epoch perhaps counted
-    /// from another common zero, within [`EPOCH_TOLERANCE_D`] at least).
+    /// period within [`PERIOD_WINDOW_D`] at most; the epoch as
+    /// [`Cols::epoch_relation`] says).
     fn same(&self, a: CandidateId, b: CandidateId) -> bool {
         let (i, j) = (a as usize, b as usize);
         let any = (0.0, f64::INFINITY);
@@ -182,15 +183,51 @@ impl<'a> Cols<'a> {
         one_value(self.depth, i, j, &[0.0], any)
             && one_value(self.period, i, j, &[0.0], (0.0, PERIOD_WINDOW_D))
             && (self.duration).is_none_or(|t| one_value(t, i, j, &[0.0], any))
-            && one_value(
-                self.epoch,
-                i,
-                j,
-                self.shifts,
-                (EPOCH_TOLERANCE_D, f64::INFINITY),
-            )
+            && self.epoch_relation(i, j).is_some()
             && self.key(a).is_some()
             && self.key(b).is_some()
+    }
+
+    /// How the epochs of rows `i` and `j` (whose periods are one value as
+    /// written) are one ephemeris: `(shift, n)` when they differ by the
+    /// difference `shift` of two common zeros and `n` whole periods, within
+    /// the epochs' rounding (at least [`EPOCH_TOLERANCE_D`]) and `n` times
+    /// the period's; `None` otherwise. A table that moved the epoch to a
+    /// later transit (`n` ≠ 0) is matched only where that allowance stays
+    /// within a quarter of the transit's duration, so that it still names
+    /// one transit (*common practice, no source*): at most hundreds of
+    /// periods for a period written to four decimals, a few for one
+    /// written to two.
+    fn epoch_relation(&self, i: usize, j: usize) -> Option<(f64, i64)> {
+        let (x, y) = (self.epoch.get(i), self.epoch.get(j));
+        if x.to_bits() == y.to_bits() {
+            return Some((0.0, 0));
+        }
+        let tolerance = (self.epoch.half_digit(i))
+            .max(self.epoch.half_digit(j))
+            .max(EPOCH_TOLERANCE_D)
+            * (1.0 + 1e-9);
+        let d = (x - y).abs();
+        if let Some(&s) = self.shifts.iter().find(|&&s| (d - s).abs() <= tolerance) {
+            return Some((s, 0));
+        }
+        let period = self.period.get(i);
+        let period_rounding = (self.period.half_digit(i))
+            .max(self.period.half_digit(j))
+            .min(PERIOD_WINDOW_D);
+        let quarter = self
+            .duration
+            .map_or(f64::NAN, |t| t.get(i).min(t.get(j)) / 24.0 / 4.0);
+        if !(period > 0.0 && quarter > 0.0) {
+            return None;
+        }
+        self.shifts.iter().find_map(|&s| {
+            let from = d - s;
+            let n = (from / period).round();
+            let allowed = (tolerance + n.abs() * period_rounding) * (1.0 + 1e-9);
+            (n != 0.0 && (from - n * period).abs() <= allowed && allowed <= quarter)
+                .then_some((s, n as i64))
+        })
     }
 
     /// How far from row `c`'s period another row's may lie and still be
@@ -405,16 +442,21 @@ pub(super) fn links(cat: &Catalogue, sets: &[Vec<CandidateId>]) -> Vec<Link> {
     out
 }
 
-/// What the words "epoch equal" leave out for rows `a` and `b`: that
-/// one epoch is written from another zero, when it is.
+/// What the words "epoch equal" leave out for rows `a` and `b`: that one
+/// epoch is written from another zero, or moved whole periods, when it is
+/// ([`Cols::epoch_relation`]).
 fn zeros(cat: &Catalogue, a: CandidateId, b: CandidateId) -> String {
+    let relation = Cols::of(cat).and_then(|k| k.epoch_relation(a as usize, b as usize));
+    let what = match relation {
+        None | Some((0.0, 0)) => return String::new(),
+        Some((_, 0)) => "once counted from another zero".to_string(),
+        Some((0.0, n)) => format!("moved {} periods", n.abs()),
+        Some((_, n)) => format!("counted from another zero and moved {} periods", n.abs()),
+    };
     let epoch = |c: CandidateId| cat.value(Field::Epoch, c).unwrap_or(f64::NAN);
     let (ea, eb) = (epoch(a), epoch(b));
-    if (ea - eb).abs() <= EPOCH_TOLERANCE_D {
-        return String::new();
-    }
     format!(
-        " (the epoch once counted from another zero: {} as {}, {} as {}, {} days apart)",
+        " (the epoch {what}: {} as {}, {} as {}, {} days apart)",
         crate::sanitize::clean(cat.candidate_id(a)),
         crate::output::exact(Some(ea)),
         crate::sanitize::clean(cat.candidate_id(b)),
@@ -603,6 +645,44 @@ L,L-1,3.7123,100.5432,3000.4,2.51\n";
         );
         assert!(same_row(&cat, id("A-1"), id("G-1")));
         assert!(!same_row(&cat, id("A-1"), id("I-1")));
+    }
+
+    #[test]
+    fn an_epoch_moved_whole_periods_is_the_same_row_while_the_period_pins_it() {
+        // Invented rows: A's row with the epoch moved to a later transit,
+        // 100 periods on (M; 100 × 3.7123 = 371.23 d) and from BJD with 10
+        // periods on (P). N is moved 1000 periods: a period written to
+        // four decimals (± 0.00005 d) leaves 0.05 d of doubt there, more
+        // than a quarter of the 2.51 h transit, so it no longer names one
+        // transit. O is 100 periods on and 0.01 d off: another epoch.
+        let text = "star,candidate,period_d,epoch,depth_ppm,duration_h\n\
+A,A-1,3.7123,100.5432,3000,2.51\n\
+M,M-1,3.7123,471.7732,3000,2.51\n\
+P,P-1,3.7123,2457137.6662,3000,2.51\n\
+N,N-1,3.7123,3812.8432,3000,2.51\n\
+O,O-1,3.7123,471.7832,3000,2.51\n";
+        let cat = Catalogue::from_text("t.csv", text);
+        let id = |s: &str| cat.find_candidate(s).unwrap();
+        let ch = run(&cat, &CheckSettings::default());
+        let copy = |s: &str| ch.flags(id(s)).contains(Flag::MixedHost);
+        for s in ["A-1", "M-1", "P-1"] {
+            assert!(copy(s), "{s}: {}", ch.why(id(s)));
+        }
+        for s in ["N-1", "O-1"] {
+            assert!(!copy(s), "{s}: {}", ch.why(id(s)));
+        }
+        assert!(
+            ch.why(id("M-1"))
+                .contains("the epoch moved 100 periods: M-1 as 471.7732, A-1 as 100.5432"),
+            "{}",
+            ch.why(id("M-1"))
+        );
+        assert!(
+            ch.why(id("P-1"))
+                .contains("counted from another zero and moved 10 periods"),
+            "{}",
+            ch.why(id("P-1"))
+        );
     }
 
     #[test]
