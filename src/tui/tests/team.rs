@@ -217,3 +217,30 @@ fn the_teams_decisions_made_meanwhile_are_taken_in_and_the_newer_of_two_kept() {
     assert!(same_as_the_commands(&app));
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn a_sighting_an_earlier_version_recorded_is_compared_the_way_it_took_it() {
+    let (dir, mut app) = demo_app_with_ledger("earlier_sighting");
+    let source = app.cat.source.clone();
+    // An earlier version saw this catalogue, with its FNV-1a fingerprint.
+    let ledger = app.ledger.as_mut().unwrap();
+    ledger
+        .sighting_note(&source, "fnv1a64:0a", app.cat.len(), Some("s0"), &|| None)
+        .unwrap();
+    assert_eq!(
+        ledger.last_fingerprint(&source).as_deref(),
+        Some("fnv1a64:0a")
+    );
+    // The background hashed it both ways: the same file, nothing said,
+    // and the sighting recorded anew.
+    app.message = None;
+    let seen = ("xxh64:0b".into(), "s1".into(), Some("fnv1a64:0a".into()));
+    let _ = app.update(Input::Seen(Ok(seen)));
+    assert_eq!(app.message, None);
+    let ledger = app.ledger.as_ref().unwrap();
+    assert_eq!(
+        ledger.last_fingerprint(&source).as_deref(),
+        Some("xxh64:0b")
+    );
+    let _ = std::fs::remove_dir_all(dir);
+}
