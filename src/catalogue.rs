@@ -18,7 +18,7 @@ pub use columns::{
 };
 pub use load::{
     LoadOptions, Source, bounded_number, candidate_family, family_key, family_stars, is_missing,
-    names_no_star, parse_number, rounded_number,
+    names_no_star, parse_number, rounded_number, star_key,
 };
 pub use pool::StrPool;
 use serde::Serialize;
@@ -309,6 +309,17 @@ impl Catalogue {
 
     pub fn extra(&self, i: usize, c: CandidateId) -> &str {
         self.extras[i].1.get(c as usize)
+    }
+
+    /// The extra columns whose header names a star id too (`hostname`
+    /// beside `tic_id`: the loader reads the first as the star and keeps
+    /// the others), as indices for [`Catalogue::extra`].
+    pub fn other_star_id_columns(&self) -> Vec<usize> {
+        self.extra_headers()
+            .enumerate()
+            .filter(|(_, h)| Field::from_header(&columns::header_unit(h).0) == Some(Field::Star))
+            .map(|(i, _)| i)
+            .collect()
     }
 
     /// The extra columns that give a disposition, as indices for

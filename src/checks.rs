@@ -15,6 +15,7 @@ mod other_ids;
 mod progress;
 mod reported;
 mod same_place;
+mod second_ids;
 mod system;
 
 pub use groups::SignalGroups;
@@ -459,6 +460,7 @@ pub(crate) fn hold_other_ids(cat: &Catalogue, out: &mut Checks) {
     families::flag(cat, out, &shown);
     same_place::flag(cat, out, &shown);
     copies::hold(cat, out, &shown);
+    second_ids::flag(cat, out, &shown);
 }
 
 /// How a false positive is known, for the notes of the stars it holds

@@ -501,3 +501,55 @@ EPIC 201959,E-2,17.2,0.00001,102.5,0.001,400,4.0,25,0.3,1,1,5772,PC\n";
         "{e1}"
     );
 }
+
+#[test]
+fn two_star_ids_of_one_host_in_a_second_id_column_are_held_by_its_false_positive() {
+    // Invented: a table merged from two archives names its stars by one
+    // id and carries the host's name in a second (`hostname`). TIC 101 and
+    // TIC 202 are one host, HWT-77, whose binary sits under TIC 202. Before,
+    // HWT-77.01 and .02 were validated. A host name shared by more star ids
+    // than one host has (a placeholder, HWT-0 on five) ties none; and a
+    // vetter's rejection of a binary holds the other id of its host.
+    let mut rows = String::from(
+        "\
+TIC 101,HWT-77.01,4.9,0.00001,100.9,0.001,700,3.0,30,0.3,1,1,5772,HWT-77,PC\n\
+TIC 101,HWT-77.02,11.7,0.00001,101.9,0.001,650,3.6,28,0.3,1,1,5772,HWT-77,PC\n\
+TIC 202,X-3,2.7,0.00001,101.3,0.001,9000,2.0,55,0.3,1,1,5772,hwt 77,EB\n\
+TIC 303,Y-1,5.3,0.00001,100.2,0.001,700,3.0,30,0.3,1,1,5772,HWT-78,PC\n\
+TIC 303,Y-2,12.9,0.00001,101.2,0.001,650,3.6,28,0.3,1,1,5772,HWT-78,PC\n\
+TIC 404,Z-1,3.1,0.00001,101.6,0.001,700,2.0,30,0.3,1,1,5772,HWT-78,PC\n",
+    );
+    for i in 0..5 {
+        rows.push_str(&format!(
+            "TIC 5{i}0,P-{i},{}.1,0.00001,100.4,0.001,700,3.0,30,0.3,1,1,5772,HWT-0,{}\n",
+            3 + i,
+            if i == 0 { "EB" } else { "PC" }
+        ));
+        rows.push_str(&format!(
+            "TIC 5{i}0,Q-{i},{}.8,0.00001,102.2,0.001,650,3.6,28,0.3,1,1,5772,HWT-0,PC\n",
+            9 + i
+        ));
+    }
+    let cat = written("second_id", &catalogue("hostname,disposition", &rows));
+    let c = cat.to_str().unwrap();
+    let v = agreed(c);
+    for s in ["HWT-77.01", "HWT-77.02"] {
+        assert_eq!(v[s], "likely", "{s}");
+    }
+    let why = &checks_rows(c)["HWT-77.01"];
+    assert!(
+        why.contains("names the same host (hostname hwt 77)"),
+        "{why}"
+    );
+    // The placeholder's stars keep their own verdicts.
+    for i in 1..5 {
+        assert_eq!(v[&format!("P-{i}")], "validated", "P-{i}");
+    }
+    assert_eq!(v["Y-1"], "validated");
+    // A vetter's rejection of Z-1 holds TIC 303, the other id of HWT-78.
+    reject(c, "Z-1", "eclipsing-binary", "ann");
+    let o = stdout(&starsift(&["odds", c, "--format", "csv"]));
+    let y1 = o.lines().find(|l| l.contains(",Y-1,")).unwrap();
+    assert!(y1.contains("one host (hostname HWT-78)"), "{y1}");
+    assert!(y1.contains(",likely,"), "{y1}");
+}

@@ -1,13 +1,13 @@
 //! Which other star ids name the same star as a given one: a candidate
 //! family split over both, rows within [`super::same_place::
-//! SAME_PLACE_ARCSEC`] of each other, or one row listed under both
-//! (docs/science.md §3.4). The odds use
+//! SAME_PLACE_ARCSEC`] of each other, one row listed under both, or one
+//! host in a second id column (docs/science.md §3.4). The odds use
 //! these ties to hold the candidates of every id of a star whose
 //! candidate a vetter rejected as a false positive (`Live`), as the checks
 //! do for a false positive they or the catalogue find (`families`,
 //! `same_place`, `copies`).
 
-use super::{copies, families, same_place};
+use super::{copies, families, same_place, second_ids};
 use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family};
 
 /// How two star ids are known to name one star.
@@ -20,6 +20,8 @@ pub enum Tie {
     /// One row listed under both: these two candidates, the same period,
     /// epoch, depth and duration.
     Row(String, String),
+    /// Both name this host in a second id column (`hostname HWT-77`).
+    Host(String),
 }
 
 /// Every row of another star id whose `key` is that of one of `targets`:
@@ -73,13 +75,15 @@ impl Tie {
                 crate::sanitize::clean(a),
                 crate::sanitize::clean(b)
             ),
+            Tie::Host(h) => format!("one host ({h})"),
         }
     }
 }
 
 /// Every other star id tied to one of `stars`, both ways round (a link
 /// from each of `stars` and one back), one per pair of stars (a family
-/// before a place, a place before a row), sorted by `star`. One or two passes over the
+/// before a place, a place before a row, a row before a host), sorted by
+/// `star`. One or two passes over the
 /// catalogue, whatever the number of `stars`.
 pub fn links_of(cat: &Catalogue, stars: &[StarId]) -> Vec<StarLink> {
     let members: Vec<CandidateId> = stars
@@ -97,9 +101,13 @@ pub fn links_of(cat: &Catalogue, stars: &[StarId]) -> Vec<StarLink> {
         let (a, b) = (cat.candidate_id(t), cat.candidate_id(c));
         (t, c, Tie::Row(a.to_string(), b.to_string()))
     });
+    let by_host = second_ids::ties(cat, &members)
+        .into_iter()
+        .map(|(t, c)| (t, c, Tie::Host(second_ids::describe(cat, t))));
     let mut links: Vec<StarLink> = by_family
         .chain(by_place)
         .chain(by_row)
+        .chain(by_host)
         .flat_map(|(t, c, tie)| {
             let (star, other) = (cat.star_of(t), cat.star_of(c));
             [
