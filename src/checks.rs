@@ -283,52 +283,6 @@ impl Checks {
         &self.unseen_fp
     }
 
-    /// Holds stars known to host a false positive that another star id's
-    /// row shows (`families`, `same_place`, `copies`): the star of each
-    /// row of `tied` (the row, why), one entry per star, in star order (an
-    /// entry already there stays), and a note, `say(n, listed)` with the
-    /// number of stars and the first few named.
-    fn hold_for_another_id(
-        &mut self,
-        cat: &Catalogue,
-        tied: Vec<(CandidateId, String)>,
-        say: impl Fn(usize, &str) -> String,
-    ) {
-        let mut held: Vec<UnseenFp> = tied
-            .into_iter()
-            .map(|(c, why)| UnseenFp {
-                star: cat.star_of(c),
-                by_tie: true,
-                why,
-            })
-            .collect();
-        held.sort_by_key(|u| u.star);
-        held.dedup_by_key(|u| u.star);
-        // A star held already (by an earlier pass, or a skipped row) stays
-        // as it was, and is not said again.
-        held.retain(|u| {
-            self.unseen_fp
-                .binary_search_by_key(&u.star, |o| o.star)
-                .is_err()
-        });
-        if held.is_empty() {
-            return;
-        }
-        let listed: Vec<String> = held
-            .iter()
-            .take(3)
-            .map(|u| format!("star {}", crate::sanitize::clean(cat.star_id(u.star))))
-            .collect();
-        let more = if held.len() > 3 { ", …" } else { "" };
-        self.notes
-            .push(say(held.len(), &format!("{}{more}", listed.join(", "))));
-        let mut all = std::mem::take(&mut self.unseen_fp);
-        all.extend(held);
-        all.sort_by_key(|u| u.star);
-        all.dedup_by_key(|u| u.star);
-        self.unseen_fp = all;
-    }
-
     /// What the checks say of the catalogue as a whole.
     pub fn notes(&self) -> &[String] {
         &self.notes

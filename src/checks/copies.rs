@@ -553,21 +553,17 @@ pub(super) fn hold(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
     if fps.is_empty() {
         return;
     }
-    let held: Vec<(CandidateId, String)> = ties(cat, fps)
-        .into_iter()
-        .map(|(fp, c)| {
-            let why = format!(
-                "{}, on star {}, is the same row as this star's {} (period, epoch, depth and duration equal to the digits written{}) and {}; one row under two star ids names one star",
-                crate::sanitize::clean(cat.candidate_id(fp)),
-                crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
-                crate::sanitize::clean(cat.candidate_id(c)),
-                zeros(cat, fp, c),
-                super::false_positive_words(out, fp),
-            );
-            (c, why)
-        })
-        .collect();
-    out.hold_for_another_id(cat, held, |n, listed| {
+    let why = |out: &Checks, fp, c| {
+        format!(
+            "{}, on star {}, is the same row as this star's {} (period, epoch, depth and duration equal to the digits written{}) and {}; one row under two star ids names one star",
+            crate::sanitize::clean(cat.candidate_id(fp)),
+            crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
+            crate::sanitize::clean(cat.candidate_id(c)),
+            zeros(cat, fp, c),
+            super::false_positive_words(out, fp),
+        )
+    };
+    out.hold_pairs(cat, ties(cat, fps), why, |n, listed| {
         format!(
             "{n} star{} repeat{} a row of a false positive on another star id ({listed}): held back, as one star with it; check the star ids (docs/science.md §3.4)",
             if n == 1 { "" } else { "s" },

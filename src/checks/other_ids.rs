@@ -5,9 +5,10 @@
 //! these ties to hold the candidates of every id of a star whose
 //! candidate a vetter rejected as a false positive (`Live`), as the checks
 //! do for a false positive they or the catalogue find (`families`,
-//! `same_place`, `copies`).
+//! `same_place`, `copies`, `second_ids`, each through
+//! [`Checks::hold_for_another_id`]).
 
-use super::{copies, families, same_place, second_ids};
+use super::{Checks, UnseenFp, copies, families, same_place, second_ids};
 use crate::catalogue::{CandidateId, Catalogue, StarId, candidate_family};
 
 /// How two star ids are known to name one star.
@@ -128,4 +129,67 @@ pub fn links_of(cat: &Catalogue, stars: &[StarId]) -> Vec<StarLink> {
     links.sort_by_key(|l| (l.star, l.other));
     links.dedup_by_key(|l| (l.star, l.other));
     links
+}
+
+impl Checks {
+    /// [`Checks::hold_for_another_id`] for `pairs` of (a false positive,
+    /// a row of another star id tied to it), `why(checks, fp, row)`.
+    pub(super) fn hold_pairs(
+        &mut self,
+        cat: &Catalogue,
+        pairs: Vec<(CandidateId, CandidateId)>,
+        why: impl Fn(&Checks, CandidateId, CandidateId) -> String,
+        say: impl Fn(usize, &str) -> String,
+    ) {
+        let tied = (pairs.into_iter())
+            .map(|(fp, c)| (c, why(self, fp, c)))
+            .collect();
+        self.hold_for_another_id(cat, tied, say);
+    }
+
+    /// Holds stars known to host a false positive that another star id's
+    /// row shows (`families`, `same_place`, `copies`, `second_ids`): the star of each
+    /// row of `tied` (the row, why), one entry per star, in star order (an
+    /// entry already there stays), and a note, `say(n, listed)` with the
+    /// number of stars and the first few named.
+    pub(super) fn hold_for_another_id(
+        &mut self,
+        cat: &Catalogue,
+        tied: Vec<(CandidateId, String)>,
+        say: impl Fn(usize, &str) -> String,
+    ) {
+        let mut held: Vec<UnseenFp> = tied
+            .into_iter()
+            .map(|(c, why)| UnseenFp {
+                star: cat.star_of(c),
+                by_tie: true,
+                why,
+            })
+            .collect();
+        held.sort_by_key(|u| u.star);
+        held.dedup_by_key(|u| u.star);
+        // A star held already (by an earlier pass, or a skipped row) stays
+        // as it was, and is not said again.
+        held.retain(|u| {
+            self.unseen_fp
+                .binary_search_by_key(&u.star, |o| o.star)
+                .is_err()
+        });
+        if held.is_empty() {
+            return;
+        }
+        let listed: Vec<String> = held
+            .iter()
+            .take(3)
+            .map(|u| format!("star {}", crate::sanitize::clean(cat.star_id(u.star))))
+            .collect();
+        let more = if held.len() > 3 { ", …" } else { "" };
+        self.notes
+            .push(say(held.len(), &format!("{}{more}", listed.join(", "))));
+        let mut all = std::mem::take(&mut self.unseen_fp);
+        all.extend(held);
+        all.sort_by_key(|u| u.star);
+        all.dedup_by_key(|u| u.star);
+        self.unseen_fp = all;
+    }
 }

@@ -86,20 +86,16 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks, fps: &[CandidateId]) {
     if fps.is_empty() {
         return;
     }
-    let held: Vec<(CandidateId, String)> = ties(cat, fps)
-        .into_iter()
-        .map(|(fp, c)| {
-            let why = format!(
-                "{}, on star {}, names the same host ({}) and {}; two star ids of one host name one star",
-                crate::sanitize::clean(cat.candidate_id(fp)),
-                crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
-                describe(cat, fp),
-                super::false_positive_words(out, fp),
-            );
-            (c, why)
-        })
-        .collect();
-    out.hold_for_another_id(cat, held, |n, listed| {
+    let why = |out: &Checks, fp: CandidateId, _| {
+        format!(
+            "{}, on star {}, names the same host ({}) and {}; two star ids of one host name one star",
+            crate::sanitize::clean(cat.candidate_id(fp)),
+            crate::sanitize::clean(cat.star_id(cat.star_of(fp))),
+            describe(cat, fp),
+            super::false_positive_words(out, fp),
+        )
+    };
+    out.hold_pairs(cat, ties(cat, fps), why, |n, listed| {
         format!(
             "{n} star{} name{} the same host as a false positive on another star id ({listed}): held back, as one star with it; check the star ids (docs/science.md §3.4)",
             if n == 1 { "" } else { "s" },
