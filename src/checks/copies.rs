@@ -103,6 +103,17 @@ impl<'a> Written<'a> {
         self.decimals(i)
             .map_or(0.0, |k| 0.5 * 10f64.powi(-k) * self.scale.abs())
     }
+
+    /// How far values `a` and `b` may lie apart and be one value as two
+    /// tables wrote it: the coarser's rounding, at least `floor` and at
+    /// most `cap` (and a hair more, for the arithmetic).
+    fn tolerance(&self, a: usize, b: usize, (floor, cap): (f64, f64)) -> f64 {
+        (self.half_digit(a))
+            .max(self.half_digit(b))
+            .max(floor)
+            .min(cap)
+            * (1.0 + 1e-9)
+    }
 }
 
 /// The decimals of `w`, a value divided back into the unit its table
@@ -123,18 +134,14 @@ fn written_decimals(w: f64) -> Option<i32> {
 /// Whether values `a` and `b` of `col` are one value as two tables wrote
 /// it: equal, or one the other rounded to the coarser's last decimal
 /// (`3.7123` and `3.712345`; `3000` and `3000.4`; `0.30` % and `0.3012` %),
-/// the rounding at least `floor` and at most `cap`. `shifts`: amounts the
-/// two may also differ by (an epoch's zeros).
-fn one_value(col: Written, a: usize, b: usize, shifts: &[f64], (floor, cap): (f64, f64)) -> bool {
+/// the rounding within `bounds` ([`Written::tolerance`]). `shifts`:
+/// amounts the two may also differ by (an epoch's zeros).
+fn one_value(col: Written, a: usize, b: usize, shifts: &[f64], bounds: (f64, f64)) -> bool {
     let (x, y) = (col.get(a), col.get(b));
     if x.to_bits() == y.to_bits() {
         return true;
     }
-    let tolerance = (col.half_digit(a))
-        .max(col.half_digit(b))
-        .max(floor)
-        .min(cap)
-        * (1.0 + 1e-9);
+    let tolerance = col.tolerance(a, b, bounds);
     let d = (x - y).abs();
     shifts.iter().any(|s| (d - s).abs() <= tolerance)
 }
@@ -203,10 +210,7 @@ impl<'a> Cols<'a> {
         if x.to_bits() == y.to_bits() {
             return Some((0.0, 0));
         }
-        let tolerance = (self.epoch.half_digit(i))
-            .max(self.epoch.half_digit(j))
-            .max(EPOCH_TOLERANCE_D)
-            * (1.0 + 1e-9);
+        let tolerance = (self.epoch).tolerance(i, j, (EPOCH_TOLERANCE_D, f64::INFINITY));
         let d = (x - y).abs();
         if let Some(&s) = self.shifts.iter().find(|&&s| (d - s).abs() <= tolerance) {
             return Some((s, 0));
