@@ -541,6 +541,9 @@ TIC 404,Z-1,3.1,0.00001,101.6,0.001,700,2.0,30,0.3,1,1,5772,HWT-78,PC\n",
         why.contains("names the same host (hostname hwt 77)"),
         "{why}"
     );
+    // The summary says how the column is read.
+    let summary = stdout(&starsift(&["summary", c]));
+    assert!(summary.contains("a second star id"), "{summary}");
     // The placeholder's stars keep their own verdicts.
     for i in 1..5 {
         assert_eq!(v[&format!("P-{i}")], "validated", "P-{i}");

@@ -550,7 +550,14 @@ impl Merger {
                 header: h.clone(),
                 index: *index,
                 unit: String::new(),
-                how: format!("also names {f}, which another column feeds; kept as an extra column"),
+                how: if *f == Field::Star {
+                    "also names the star, which another column feeds; kept as an extra column, \
+                     a second star id: star ids whose rows give one value in it are one host, \
+                     and a false positive at one holds the other (docs/science.md §3.4)"
+                        .to_string()
+                } else {
+                    format!("also names {f}, which another column feeds; kept as an extra column")
+                },
             });
         }
         for v in num.iter_mut().flatten() {
