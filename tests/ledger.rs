@@ -474,6 +474,20 @@ fn a_changed_catalogue_is_noticed_and_gone_candidates_listed() {
     noted(&["history", s(&cat)]);
 }
 
+/// Edits one digit of candidate `id`'s row of the catalogue at `cat`, the
+/// file's length the same; returns the new text.
+fn edit_a_digit(cat: &Path, id: &str) -> String {
+    let text = std::fs::read_to_string(cat).unwrap();
+    let at = text.find(id).unwrap() + id.len() + 1;
+    let mut bytes = text.into_bytes();
+    let digit = (at..bytes.len())
+        .find(|&i| bytes[i].is_ascii_digit())
+        .unwrap();
+    bytes[digit] = if bytes[digit] == b'7' { b'8' } else { b'7' };
+    std::fs::write(cat, &bytes).unwrap();
+    String::from_utf8(bytes).unwrap()
+}
+
 #[test]
 fn a_catalogue_the_ledger_has_seen_is_known_by_its_stamp_and_an_edit_still_noticed() {
     let (d, cat) = demo_copy("stamp");
@@ -512,14 +526,7 @@ fn a_catalogue_the_ledger_has_seen_is_known_by_its_stamp_and_an_edit_still_notic
     // One digit edited, the length the same: the next command notices, and
     // records the new fingerprint.
     let before = fp(&cat);
-    let text = std::fs::read_to_string(&cat).unwrap();
-    let at = text.find(gone.as_str()).unwrap() + gone.len() + 1;
-    let mut bytes = text.into_bytes();
-    let digit = (at..bytes.len())
-        .find(|&i| bytes[i].is_ascii_digit())
-        .unwrap();
-    bytes[digit] = if bytes[digit] == b'7' { b'8' } else { b'7' };
-    std::fs::write(&cat, &bytes).unwrap();
+    edit_a_digit(&cat, gone);
     let e = decide("parked");
     assert!(
         e.contains(&format!(
@@ -582,10 +589,7 @@ fn a_sighting_an_earlier_version_recorded_is_no_change() {
     // Edited since the earlier version saw it: said, with both.
     let before = earlier(&cat);
     as_earlier(&before);
-    let mut text = std::fs::read_to_string(&cat).unwrap();
-    text.push_str(&text.lines().last().unwrap().replace(one.as_str(), "NEW-1"));
-    text.push('\n');
-    std::fs::write(&cat, &text).unwrap();
+    let text = edit_a_digit(&cat, one);
     let e = decide("parked");
     let now = starsift::ledger::fingerprint(text.as_bytes());
     assert!(
