@@ -82,6 +82,29 @@ pub struct ColumnUse {
     pub how: String,
 }
 
+impl ColumnUse {
+    /// A column whose header names `field`, which another column feeds:
+    /// kept as an extra column (a second star id ties the star ids of one
+    /// host: `checks::second_ids`).
+    pub fn shadowed(index: usize, header: &str, field: Field) -> ColumnUse {
+        let how = if field == Field::Star {
+            "also names the star, which another column feeds; kept as an extra column, a second \
+             star id: star ids whose rows give one value in it are one host, and a false \
+             positive at one holds the other (docs/science.md §3.4)"
+                .to_string()
+        } else {
+            format!("also names {field}, which another column feeds; kept as an extra column")
+        };
+        ColumnUse {
+            field: "",
+            header: header.to_string(),
+            index,
+            unit: String::new(),
+            how,
+        }
+    }
+}
+
 /// Whether a depth column's header states no unit or one the loader
 /// reads (ppm, %, ppt, fraction; not `mmag`).
 fn depth_unit_read(header: &str) -> bool {

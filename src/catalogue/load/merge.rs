@@ -545,20 +545,7 @@ impl Merger {
             notes.push(super::events_note());
         }
         for (index, h, f) in &mapping.shadowed {
-            columns.push(ColumnUse {
-                field: "",
-                header: h.clone(),
-                index: *index,
-                unit: String::new(),
-                how: if *f == Field::Star {
-                    "also names the star, which another column feeds; kept as an extra column, \
-                     a second star id: star ids whose rows give one value in it are one host, \
-                     and a false positive at one holds the other (docs/science.md §3.4)"
-                        .to_string()
-                } else {
-                    format!("also names {f}, which another column feeds; kept as an extra column")
-                },
-            });
+            columns.push(ColumnUse::shadowed(*index, h, *f));
         }
         for v in num.iter_mut().flatten() {
             v.settle();
