@@ -474,6 +474,25 @@ fn a_changed_catalogue_is_noticed_and_gone_candidates_listed() {
     noted(&["history", s(&cat)]);
 }
 
+/// Ann's `decision` on candidate `id` of the catalogue at `cat`, into the
+/// ledger at `ledger`; what the command said on stderr.
+fn ann_decides(cat: &Path, ledger: &Path, id: &str, decision: &str) -> String {
+    let o = starsift(&[
+        "decide",
+        s(cat),
+        "--ledger",
+        s(ledger),
+        "--candidate",
+        id,
+        "--decision",
+        decision,
+        "--vetter",
+        "ann",
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    stderr(&o)
+}
+
 /// Edits one digit of candidate `id`'s row of the catalogue at `cat`, the
 /// file's length the same; returns the new text.
 fn edit_a_digit(cat: &Path, id: &str) -> String {
@@ -497,22 +516,7 @@ fn a_catalogue_the_ledger_has_seen_is_known_by_its_stamp_and_an_edit_still_notic
     // with whole-second times; 0.1 s otherwise).
     std::thread::sleep(std::time::Duration::from_millis(2100));
     let gone = &system_of(1)[0];
-    let decide = |decision: &str| {
-        let o = starsift(&[
-            "decide",
-            s(&cat),
-            "--ledger",
-            s(&ledger),
-            "--candidate",
-            gone,
-            "--decision",
-            decision,
-            "--vetter",
-            "ann",
-        ]);
-        assert!(o.status.success(), "{}", stderr(&o));
-        stderr(&o)
-    };
+    let decide = |decision: &str| ann_decides(&cat, &ledger, gone, decision);
     decide("parked");
     // The ledger recorded the file's fingerprint with its stamp, and knows
     // it again from the stamp alone.
@@ -546,22 +550,7 @@ fn a_sighting_an_earlier_version_recorded_is_no_change() {
     let (d, cat) = demo_copy("earlier");
     let ledger = d.join("l.sqlite");
     let one = &system_of(1)[0];
-    let decide = |decision: &str| {
-        let o = starsift(&[
-            "decide",
-            s(&cat),
-            "--ledger",
-            s(&ledger),
-            "--candidate",
-            one,
-            "--decision",
-            decision,
-            "--vetter",
-            "ann",
-        ]);
-        assert!(o.status.success(), "{}", stderr(&o));
-        stderr(&o)
-    };
+    let decide = |decision: &str| ann_decides(&cat, &ledger, one, decision);
     decide("parked");
     let earlier = |p: &Path| starsift::fingerprint::earlier_fingerprint(&std::fs::read(p).unwrap());
     // The sightings as an earlier version wrote them.

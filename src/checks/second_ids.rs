@@ -18,7 +18,7 @@ use crate::catalogue::{CandidateId, Catalogue, StarId};
 /// The most star ids one host is expected under in a merged table (one
 /// per catalogue it was drawn from; common practice, no source). A value
 /// shared by more is a placeholder.
-pub(super) const MAX_STARS: usize = 4;
+const MAX_STARS: usize = 4;
 
 /// A row's host as its second id columns give it: (column, the value in
 /// one spelling); `None` when they are empty or hold no id (`0`, `nan`).
