@@ -133,6 +133,13 @@ pub struct Derived {
     /// and the planet's radius on it, a lower bound (docs/science.md §2).
     pub least_star_rsun: Option<f64>,
     pub least_radius_rearth: Option<f64>,
+    /// The least density a star can have for this orbit to clear its
+    /// surface (`science::least_density_for_orbit`), kg m⁻³, where the
+    /// catalogue's star has a density to compare.
+    pub least_density_orbit: Option<f64>,
+    /// The transit lasts half the period or more: no orbit gives it
+    /// (`science::longest_transit_h`).
+    pub transit_too_long: bool,
 }
 
 fn finite(v: f64) -> Option<f64> {
@@ -220,6 +227,10 @@ fn derive_with(cat: &Catalogue, c: CandidateId, s: &CheckSettings, orbit: bool) 
             .and_then(|a| finite(science::density_from_a_rstar(a, period)));
     if let (Some(t), Some(st)) = (d.density_transit, d.density_star) {
         d.density_ratio = finite(t / st);
+    }
+    d.transit_too_long = period > 0.0 && t14 >= science::longest_transit_h(period);
+    if d.density_star.is_some() && period > 0.0 {
+        d.least_density_orbit = finite(science::least_density_for_orbit(period, k));
     }
     if radius.is_none() {
         d.least_star_rsun = d.density_transit.and_then(science::least_star_radius_rsun);
@@ -731,6 +742,7 @@ fn candidate_flags(
             format!("SNR {snr:.1} < {}", s.low_snr),
         );
     }
+    orbit_flags(cat, c, d, out);
     if let Some(ratio) = d.density_ratio {
         // With b unknown the transit density (b = 0) is an upper bound: a
         // transit density far above the star's can be a high-b transit, so
@@ -746,6 +758,31 @@ fn candidate_flags(
                 f = s.density_factor
             ) + if explainable { "; b is unknown and a larger b lowers the transit density, so this is a warning" } else { "" });
         }
+    }
+}
+
+/// The orbits no body can have: a transit of half the period or more
+/// (T₁₄ ≤ P/2 for every circular orbit), and an orbit inside the
+/// catalogue's star (its density below the least that lets a body of this
+/// size clear its surface in this period). Firm `density-mismatch`: the
+/// signal is no planet of this star as the catalogue gives it, whatever b
+/// is (docs/science.md §2).
+fn orbit_flags(cat: &Catalogue, c: CandidateId, d: &Derived, out: &mut Checks) {
+    let period = cat.value(Field::PeriodD, c).unwrap_or(f64::NAN);
+    if d.transit_too_long {
+        let t14 = cat.value(Field::DurationH, c).unwrap_or(f64::NAN);
+        out.add(c, Flag::DensityMismatch, false, format!(
+            "the transit lasts {t14:.2} h, half its {:.2} h period or more: no orbit outside a star gives a transit that long (T₁₄ ≤ P/2)",
+            period * 24.0
+        ));
+    }
+    if let (Some(least), Some(star)) = (d.least_density_orbit, d.density_star)
+        && star < least
+    {
+        out.add(c, Flag::DensityMismatch, false, format!(
+            "an orbit of {period:.4} d lies inside the catalogue star: its density {star:.0} kg/m³ is below the {least:.0} kg/m³ a star needs for this body to orbit it that fast without touching it (a/R★ = {:.2})",
+            science::a_over_rstar(period, d.star_mass_msun.unwrap_or(f64::NAN), d.star_radius_rsun.unwrap_or(f64::NAN))
+        ));
     }
 }
 

@@ -111,12 +111,14 @@ pub fn density_from_a_rstar(a_rstar: f64, period_d: f64) -> f64 {
 
 /// a/R★ from the total duration, impact parameter and R_p/R★ of a circular
 /// orbit: (a/R★)² = [(1+k)² − b²(1 − s_T²)] / s_T², s_T = sin(π T₁₄/P)
-/// (Seager & Mallén-Ornelas 2003, docs/science.md §2).
+/// (Seager & Mallén-Ornelas 2003, docs/science.md §2). `None` for a
+/// duration of half the period or more ([`longest_transit_h`]), which no
+/// orbit gives: the sine would read it as the shorter duration P − T₁₄.
 pub fn a_rstar_from_duration(period_d: f64, t14_h: f64, ror: f64, impact: f64) -> Option<f64> {
-    let st = (PI * t14_h / (period_d * 24.0)).sin();
-    if !(st > 0.0 && st < 1.0) {
+    if !(t14_h > 0.0 && t14_h < longest_transit_h(period_d)) {
         return None;
     }
+    let st = (PI * t14_h / (period_d * 24.0)).sin();
     let v = ((1.0 + ror).powi(2) - impact * impact * (1.0 - st * st)) / (st * st);
     (v > 0.0).then(|| v.sqrt())
 }
@@ -135,6 +137,22 @@ pub fn impact_and_a_rstar(period_d: f64, t14_h: f64, t23_h: f64, depth: f64) -> 
     }
     let b = b2.sqrt();
     Some((b, a_rstar_from_duration(period_d, t14_h, k, b)?))
+}
+
+/// The longest transit any circular orbit of `period_d` days gives, hours:
+/// T₁₄ = (P/π) asin[(R★/a)√((1+k)²−b²)/sin i] (Winn 2010, arXiv:1001.2010,
+/// eq. 14) and the arcsine is at most π/2, so T₁₄ ≤ P/2, reached only by a
+/// body grazing its star (docs/science.md §2).
+pub fn longest_transit_h(period_d: f64) -> f64 {
+    period_d * 24.0 / 2.0
+}
+
+/// The least mean density, kg m⁻³, of a star that a body of radius ratio
+/// `ror` can orbit in `period_d` days without touching it: a/R★ = 1 + k in
+/// ρ★ = 3π (a/R★)³ / (G P²) (Seager & Mallén-Ornelas 2003, ApJ 585, 1038;
+/// docs/science.md §2). A star less dense than this has the orbit inside it.
+pub fn least_density_for_orbit(period_d: f64, ror: f64) -> f64 {
+    density_from_a_rstar(1.0 + ror.max(0.0), period_d)
 }
 
 /// Mean density of a star from its mass and radius, kg m⁻³, with
@@ -406,6 +424,34 @@ mod tests {
             (b - 0.5).abs() < 1e-3 && (a - 8.7536).abs() < 5e-3,
             "{b} {a}"
         );
+    }
+
+    #[test]
+    fn no_orbit_outside_the_star_is_shorter_or_its_transit_longer() {
+        // An orbit grazing the Sun (a = R☉) has the period 2πR☉/v with
+        // v = v_esc/√2 and the Sun's surface escape velocity 617.7 km/s
+        // (handbook value, from memory): 2.780 h. A Sun-dense star is the
+        // least dense that a point mass can orbit in that time.
+        let v = 617.7e3 / 2f64.sqrt();
+        let p_d = 2.0 * PI * R_SUN_M / v / DAY_S;
+        assert!((p_d * 24.0 - 2.780).abs() < 1e-3, "{}", p_d * 24.0);
+        let least = least_density_for_orbit(p_d, 0.0);
+        assert!(
+            (least / star_density(1.0, 1.0) - 1.0).abs() < 1e-3,
+            "{least}"
+        );
+        // And Kepler's law puts that orbit at a/R★ = 1 around the Sun.
+        assert!((a_over_rstar(p_d, 1.0, 1.0) - 1.0).abs() < 1e-3);
+        // A larger body needs (1 + k)³ the density.
+        let ratio = least_density_for_orbit(p_d, 0.1) / least;
+        assert!((ratio - 1.331).abs() < 1e-9, "{ratio}");
+        // T₁₄ ≤ P/2 (Winn 2010 eq. 14, the arcsine at most π/2): a transit
+        // of 0.7 P is no orbit, not the 0.3 P transit its sine equals.
+        assert_eq!(longest_transit_h(1.0), 12.0);
+        assert!(a_rstar_from_duration(1.0, 0.7 * 24.0, 0.02, 0.0).is_none());
+        assert!(a_rstar_from_duration(1.0, 12.0, 0.02, 0.0).is_none());
+        let a = a_rstar_from_duration(1.0, 0.3 * 24.0, 0.02, 0.0).unwrap();
+        assert!((a - 1.02 / (0.3 * PI).sin()).abs() < 1e-12, "{a}");
     }
 
     #[test]
