@@ -761,14 +761,29 @@ fn candidate_flags(
     }
 }
 
-/// The orbits no body can have: a transit of half the period or more
-/// (T₁₄ ≤ P/2 for every circular orbit), and an orbit inside the
-/// catalogue's star (its density below the least that lets a body of this
-/// size clear its surface in this period). Firm `density-mismatch`: the
-/// signal is no planet of this star as the catalogue gives it, whatever b
-/// is (docs/science.md §2).
+/// The densest a planet can be, g cm⁻³, for the Roche limit's period
+/// (`science::least_planet_density`): the densest planets measured are
+/// below 15 g cm⁻³ (from memory), and twice that leaves room for a
+/// compressed iron world none has shown (the doubling: common practice, no
+/// source). Orbits shorter than 2.05 h.
+const DENSEST_PLANET_G_CM3: f64 = 30.0;
+
+/// The orbits no planet can have: one so short that only a body denser
+/// than any planet survives its star's tides there; a transit of half the
+/// period or more (T₁₄ ≤ P/2 for every circular orbit); and an orbit
+/// inside the catalogue's star (its density below the least that lets a
+/// body of this size clear its surface in this period). Firm
+/// `density-mismatch`: the signal is no planet of this star as the
+/// catalogue gives it, whatever b is (docs/science.md §2).
 fn orbit_flags(cat: &Catalogue, c: CandidateId, d: &Derived, out: &mut Checks) {
     let period = cat.value(Field::PeriodD, c).unwrap_or(f64::NAN);
+    let least = science::least_planet_density(period);
+    if least > DENSEST_PLANET_G_CM3 {
+        out.add(c, Flag::DensityMismatch, false, format!(
+            "an orbit of {:.2} h: a body survives its star's tides there only at a mean density above {least:.0} g/cm³ (the Roche limit), beyond any planet's ({DENSEST_PLANET_G_CM3:.0} g/cm³)",
+            period * 24.0
+        ));
+    }
     if d.transit_too_long {
         let t14 = cat.value(Field::DurationH, c).unwrap_or(f64::NAN);
         out.add(c, Flag::DensityMismatch, false, format!(

@@ -155,6 +155,21 @@ pub fn least_density_for_orbit(period_d: f64, ror: f64) -> f64 {
     density_from_a_rstar(1.0 + ror.max(0.0), period_d)
 }
 
+/// Hours times (g cm⁻³)^½ in the least mean density a planet needs to
+/// orbit in a period outside its Roche limit: ρ_p ≥ (C/P)². The limit
+/// a_R ∝ R★(ρ★/ρ_p)^{1/3} and Kepler's law leave only the planet's density
+/// and the period (Rappaport et al. 2013, ApJ 773, L15); their worked
+/// value, a 4.245 h orbit needing ρ_p ≳ 7 g cm⁻³ (KOI 1843.03, the
+/// abstract's numbers), gives C = 4.245 √7.
+pub const ROCHE_PERIOD_H: f64 = 11.231;
+
+/// The least mean density, g cm⁻³, of a planet on an orbit of `period_d`
+/// days that its star's tides do not pull apart, whatever the star
+/// ([`ROCHE_PERIOD_H`]; docs/science.md §2).
+pub fn least_planet_density(period_d: f64) -> f64 {
+    (ROCHE_PERIOD_H / (period_d * 24.0)).powi(2)
+}
+
 /// Mean density of a star from its mass and radius, kg m⁻³, with
 /// M☉ = GM☉/G (IAU 2015 B3 nominal GM☉, CODATA 2018 G).
 pub fn star_density(star_mass_msun: f64, star_radius_rsun: f64) -> f64 {
@@ -452,6 +467,18 @@ mod tests {
         assert!(a_rstar_from_duration(1.0, 12.0, 0.02, 0.0).is_none());
         let a = a_rstar_from_duration(1.0, 0.3 * 24.0, 0.02, 0.0).unwrap();
         assert!((a - 1.02 / (0.3 * PI).sin()).abs() < 1e-12, "{a}");
+    }
+
+    #[test]
+    fn the_roche_limit_sets_a_planets_least_density_by_its_period() {
+        // Rappaport et al. 2013 (ApJ 773, L15), abstract: the 4.245 h orbit
+        // of KOI 1843.03 needs a mean density ≳ 7 g cm⁻³.
+        assert!((least_planet_density(4.245 / 24.0) - 7.0).abs() < 1e-3);
+        // ρ_p ∝ P⁻²: twice the period, a quarter of the density; at 12.6 h
+        // about 0.8 g cm⁻³, a Saturn's (0.69 g cm⁻³, from memory) at 13.5 h.
+        let ratio = least_planet_density(0.5) / least_planet_density(1.0);
+        assert!((ratio - 4.0).abs() < 1e-12);
+        assert!((least_planet_density(13.5 / 24.0) - 0.692).abs() < 1e-3);
     }
 
     #[test]

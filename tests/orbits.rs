@@ -1,5 +1,6 @@
-//! Orbits no body has (docs/science.md §2): a transit of half its period
-//! or more (T₁₄ ≤ P/2 for every circular orbit, Winn 2010 eq. 14), and an
+//! Orbits no planet has (docs/science.md §2): one shorter than the Roche
+//! limit of the densest planet (Rappaport et al. 2013), a transit of half
+//! its period or more (T₁₄ ≤ P/2 for every circular orbit, Winn 2010 eq. 14), and an
 //! orbit inside the catalogue's star (a/R★ < 1 + k: the star less dense
 //! than 3π(1+k)³/(GP²), Seager & Mallén-Ornelas 2003). Each is a firm
 //! `density-mismatch` on the candidate, in every command. Invented
@@ -26,6 +27,11 @@ fn rows() -> String {
         // star at best.
         "HALF,HALF-1,2.000000,0.00001,100.5,0.001,450,24.0,25,,,,",
         "HALF,HALF-2,11.4321,0.00001,101.6,0.001,420,5.0,20,,,,",
+        // A 1.7 h signal on an M dwarf (0.45 R☉, 0.47 M☉): a/R★ = 1.2,
+        // outside the star, but a planet there would need 45 g/cm³ to
+        // survive its tides (Rappaport et al. 2013); validated before.
+        "RCH,RCH-1,0.070000,0.00001,100.1,0.001,400,0.4,30,,0.45,0.47,3600",
+        "RCH,RCH-2,6.54321,0.00001,101.1,0.001,900,1.6,30,,0.45,0.47,3600",
         // The control: an ultra-short period around a K dwarf (0.68 R☉,
         // 0.71 M☉), 8.6 h, a/R★ = 2.8, a 1.0 h transit: a planet's orbit.
         "USP,USP-1,0.360000,0.00001,100.1,0.001,250,1.0,15,,0.68,0.71,4500",
@@ -42,7 +48,9 @@ fn a_transit_too_long_for_any_orbit_or_an_orbit_inside_its_star_validates_nothin
     let c = written("orbits", &text);
     let c = c.to_str().unwrap();
     let v = agreed(c);
-    for s in ["SUB-1", "SUB-2", "LONG-1", "LONG-2", "HALF-1", "HALF-2"] {
+    for s in [
+        "SUB-1", "SUB-2", "LONG-1", "LONG-2", "HALF-1", "HALF-2", "RCH-1", "RCH-2",
+    ] {
         assert_ne!(v[s], "validated", "{s}");
     }
     assert_eq!(v["USP-1"], "validated");
@@ -65,9 +73,10 @@ fn a_transit_too_long_for_any_orbit_or_an_orbit_inside_its_star_validates_nothin
         "the transit lasts 24.00 h, half its 48.00 h period or more",
     );
     // The siblings are held by nothing of their own: each is a single now.
-    for s in ["SUB-2", "LONG-2", "HALF-2"] {
+    for s in ["SUB-2", "LONG-2", "HALF-2", "RCH-2"] {
         assert!(!rows[s].contains("inside the catalogue star"), "{s}");
         assert!(!rows[s].contains("the transit lasts"), "{s}");
+        assert!(!rows[s].contains("tides"), "{s}");
     }
     assert!(
         !rows["USP-1"].contains("density-mismatch"),
