@@ -522,15 +522,17 @@ impl Merger {
                 .header_units
                 .get(index)
                 .is_some_and(|u| !u.trim().is_empty());
-            let ratio = (!stated)
-                .then(|| durations.duration_ratio())
-                .flatten()
-                .filter(|&r| r < DAYS_AS_HOURS_RATIO);
-            if let Some(ratio) = ratio {
+            let ratio = (!stated).then(|| durations.duration_ratio()).flatten();
+            let name = crate::sanitize::clean(&header[index]);
+            let bare = crate::sanitize::clean(header[index].trim());
+            if let Some(ratio) = ratio.filter(|&r| r < DAYS_AS_HOURS_RATIO) {
                 notes.push(format!(
-                    "the durations (`{}`) look like days read as hours: their median is {ratio:.3} of a central transit across a Sun-like star at each period (a day-valued column read as hours is 1/24 of it); if they are days, state it in the header (`{} (days)`) and load again",
-                    crate::sanitize::clean(&header[index]),
-                    crate::sanitize::clean(header[index].trim()),
+                    "the durations (`{name}`) look like days read as hours: their median is {ratio:.3} of a central transit across a Sun-like star at each period (a day-valued column read as hours is 1/24 of it); if they are days, state it in the header (`{bare} (days)`) and load again",
+                ));
+            }
+            if let Some(ratio) = ratio.filter(|&r| r > MINUTES_AS_HOURS_RATIO) {
+                notes.push(format!(
+                    "the durations (`{name}`) look like minutes read as hours: their median is {ratio:.1} times a central transit across a Sun-like star at each period (a minute-valued column read as hours is 60 times it), and a transit of half the period or more is no orbit's; if they are minutes, state it in the header (`{bare} (minutes)`) and load again",
                 ));
             }
         }

@@ -732,3 +732,29 @@ fn ids_found_together_are_those_found_one_by_one() {
     assert!(found.iter().filter(|f| f.is_none()).count() >= 6);
     assert!(cat.find_candidates::<&str>(&[]).is_empty());
 }
+
+#[test]
+fn durations_in_minutes_under_a_plain_name_are_said() {
+    // Invented rows: 3 h transits at 13.1 and 27.4 d written in minutes
+    // (180) under a plain `duration`, read as hours: 42 and 33 times a
+    // central transit across the Sun at those periods (Winn 2010's T14,
+    // 4.3 and 5.5 h), so the load says they look like minutes. The same
+    // rows in hours say nothing, and stated in the header they are read.
+    let minutes = "star,candidate,period,epoch,depth_ppm,duration\n\
+                   M,M-1,13.1,1001.0,800,180\nM,M-2,27.4,1002.9,1200,180\n";
+    let cat = Catalogue::from_text("invented.csv", minutes);
+    assert!(
+        cat.notes
+            .iter()
+            .any(|n| n.contains("look like minutes read as hours")
+                && n.contains("`duration (minutes)`")),
+        "{:?}",
+        cat.notes
+    );
+    let cat = Catalogue::from_text("invented.csv", &minutes.replace(",180", ",3"));
+    assert!(cat.notes.is_empty(), "{:?}", cat.notes);
+    let stated = minutes.replace(",duration\n", ",duration (minutes)\n");
+    let cat = Catalogue::from_text("invented.csv", &stated);
+    assert!(cat.notes.is_empty(), "{:?}", cat.notes);
+    assert!((cat.value(Field::DurationH, 0).unwrap() - 3.0).abs() < 1e-12);
+}

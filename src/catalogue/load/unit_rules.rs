@@ -68,6 +68,12 @@ pub(super) fn depth_unit(
 /// no source).
 pub(super) const DAYS_AS_HOURS_RATIO: f64 = 0.125;
 
+/// Above this median ratio, a duration column read as hours was written
+/// in minutes (60 times the truth); the mirror of [`DAYS_AS_HOURS_RATIO`]:
+/// a giant's transits run a few times a Sun-like star's (common practice,
+/// no source).
+pub(super) const MINUTES_AS_HOURS_RATIO: f64 = 8.0;
+
 /// Rows for the unit rules ([`DurationSample::duration_ratio`],
 /// [`RorSample::ror_in_percent`]): K columns of every `step`-th row from
 /// the first, by their place among the rows read (before duplicate ids
