@@ -161,6 +161,23 @@ fn a_centroid_offsets_error_without_a_unit_takes_the_offsets() {
     let c = cat.to_str().unwrap();
     assert_eq!(agreed(c)["C-1"], "unlikely");
     assert!(checks_rows(c)["C-1"].contains("4.0″ ± 0.5″ from the target (8.0σ"));
+    // In pixels, no angle: kept as written and said so (only the ratio to
+    // its error is read). Before, `summary` called the column arcsec and
+    // the finding printed 4.0″.
+    let text = catalogue(
+        "Centroid offset (pix),centroid_offset_err",
+        &rows.replace("4000,500", "4.0,0.5"),
+    );
+    let cat = written("reported_pix", &text);
+    let c = cat.to_str().unwrap();
+    assert_eq!(agreed(c)["C-1"], "unlikely");
+    assert!(checks_rows(c)["C-1"].contains("4.0 pix ± 0.5 pix from the target (8.0σ"));
+    let summary = stdout(&starsift(&["summary", c]));
+    let line = summary
+        .lines()
+        .find(|l| l.contains("Centroid offset (pix)"))
+        .unwrap();
+    assert!(line.contains("(pix)  pix  "), "{line}");
 }
 
 #[test]

@@ -158,6 +158,33 @@ pub fn epoch_zero(unit: &str) -> Option<f64> {
     digits.parse::<f64>().ok().filter(|z| *z >= 1000.0)
 }
 
+/// Whether `u`, a centroid offset's stated unit, is an angle starsift
+/// converts to arcseconds (else, pixels, it is kept as written: only the
+/// offset's ratio to its error is read).
+pub fn is_angle(u: &str) -> bool {
+    matches!(
+        u.trim().to_ascii_lowercase().as_str(),
+        "arcsec"
+            | "arcsecond"
+            | "arcseconds"
+            | "as"
+            | "\""
+            | "″"
+            | "mas"
+            | "milliarcsec"
+            | "milliarcsecond"
+            | "milliarcseconds"
+            | "arcmin"
+            | "arcminute"
+            | "arcminutes"
+            | "'"
+            | "deg"
+            | "degree"
+            | "degrees"
+            | "°"
+    )
+}
+
 /// The conversion a stated unit implies for a field stored in days or
 /// hours (period, its error, the epoch's error, the duration) or for the
 /// epoch (a zero in the unit is added). `Ok(None)` when the field keeps its
@@ -229,6 +256,7 @@ pub fn conversion(field: Field, unit: &str) -> Result<Option<Conversion>, String
         // reads only their ratio.
         Field::CentroidOffsetArcsec | Field::CentroidOffsetErrArcsec => {
             let scale = match u.to_ascii_lowercase().as_str() {
+                _ if !is_angle(u) => 1.0,
                 "mas" | "milliarcsec" | "milliarcsecond" | "milliarcseconds" => 1e-3,
                 "arcmin" | "arcminute" | "arcminutes" | "'" => 60.0,
                 "deg" | "degree" | "degrees" | "°" => 3600.0,

@@ -56,6 +56,14 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
     if secondary.is_none() && odd_even.is_none() && offset.is_none() && comments.is_empty() {
         return;
     }
+    // The offset's unit as said: arcseconds, or the table's own (pixels).
+    let per = cat
+        .columns
+        .iter()
+        .find(|u| u.field == Field::CentroidOffsetArcsec.name() && u.unit != "arcsec")
+        .map_or("″".to_string(), |u| {
+            format!(" {}", crate::sanitize::clean(&u.unit))
+        });
     for c in 0..cat.len() as CandidateId {
         if let Some(z) = odd_even.map(|z| z.get(c as usize).abs())
             && z >= FLAG_Z
@@ -96,7 +104,7 @@ pub(super) fn flag(cat: &Catalogue, out: &mut Checks) {
                     Flag::Echo,
                     false,
                     format!(
-                        "the catalogue puts the dimming light {:.1}″ ± {err:.1}″ from the target ({:.1}σ ≥ {FLAG_Z}; its pipeline's, from the pixels): light from another star",
+                        "the catalogue puts the dimming light {:.1}{per} ± {err:.1}{per} from the target ({:.1}σ ≥ {FLAG_Z}; its pipeline's, from the pixels): light from another star",
                         off.abs(),
                         off.abs() / err
                     ),

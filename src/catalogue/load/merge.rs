@@ -450,6 +450,11 @@ impl Merger {
                     Some((_, text)) => format!("{how}; {text}"),
                     None => format!("{how}; table unit {u}"),
                 };
+                // A centroid offset in pixels stays in pixels.
+                let offset = [Field::CentroidOffsetArcsec, Field::CentroidOffsetErrArcsec];
+                if offset.contains(field) && !units::is_angle(u) {
+                    unit = u.to_string();
+                }
             }
             columns.push(ColumnUse {
                 field: field.name(),
