@@ -762,10 +762,13 @@ fn candidate_flags(
 }
 
 /// The densest a planet can be, g cm⁻³, for the Roche limit's period
-/// (`science::least_planet_density`): the densest planets measured are
-/// below 15 g cm⁻³ (from memory), and twice that leaves room for a
-/// compressed iron world none has shown (the doubling: common practice, no
-/// source). Orbits shorter than 2.05 h.
+/// (`science::least_planet_density`): a body of 13 Jupiter masses, the
+/// deuterium-burning limit commonly taken as a planet's largest mass, at
+/// Jupiter's radius (giants of that mass are about that size) has 17
+/// g cm⁻³, and rocky planets measured are below 15 g cm⁻³ (all from
+/// memory); 30 leaves room for a compressed iron world none has shown
+/// (common practice, no source). Denser bodies of a Jupiter's size are
+/// brown dwarfs. Orbits shorter than 2.05 h.
 const DENSEST_PLANET_G_CM3: f64 = 30.0;
 
 /// The orbits no planet can have: one so short that only a body denser
