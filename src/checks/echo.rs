@@ -7,6 +7,7 @@
 mod cells;
 #[cfg(test)]
 mod chance_tests;
+mod shared;
 mod sweep;
 
 use std::collections::HashMap;
@@ -169,6 +170,9 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
     }));
     // The index's memory goes; its period order stays.
     let period_order = index.into_order();
+    // One ephemeris on many stars anywhere: searched once the index is
+    // gone, so its keys never add to the index's memory.
+    let shared = shared::find(cat, &pair, (periods, epochs), &sig);
     stage(true);
     let mut matches: Vec<sweep::Found> = Vec::new();
     let mut crowded_window = vec![false; cat.len()];
@@ -270,6 +274,22 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
             )));
         }
         previous = crowded;
+    }
+    for f in shared {
+        let why = format!(
+            "the same ephemeris as {} signals on other stars, anywhere on the sky ({} on {} among them; period and epoch within their errors), where chance gives a signal of its period {:.1e} such matches and {} or more would be one catalogue in a hundred: the instrument's own signal, or one eclipse's light carried across the detector",
+            f.n,
+            cat.candidate_id(f.first),
+            star(f.first),
+            f.chance,
+            f.needed
+        );
+        let c = f.c;
+        out.push(if f.source {
+            (c, true, format!("{why}; it is more than twice as deep as any of them: perhaps the eclipse whose light they carry"))
+        } else {
+            (c, false, format!("{why}: no planet of this star"))
+        });
     }
     Echoes {
         findings: out,
