@@ -90,6 +90,34 @@ fn the_deepest_of_them_by_far_is_only_warned_and_unshared_ephemerides_are_not_fl
     assert_eq!(v["CM3-1"], "validated");
     assert!(rows["CM3-1"].contains("perhaps the eclipse whose light they carry"));
     assert_eq!(v["CM0-1"], "unlikely");
+    // One row listed on the eight star ids, digit for digit (a merged
+    // table): one signal under eight ids (`copies`), not the instrument's.
+    let c = catalogue("shared_rows", true, |_| 0.0, None);
+    let same = std::fs::read_to_string(&c).unwrap();
+    let same = same
+        .lines()
+        .map(|l| {
+            let cells: Vec<&str> = l.split(',').collect();
+            if cells[1].starts_with("CM") && cells[1].ends_with("-1") {
+                let mut cells: Vec<String> = cells.iter().map(|s| s.to_string()).collect();
+                cells[2] = "13.70012".into();
+                cells[6] = "300".into();
+                cells[7] = "4.00".into();
+                cells.join(",")
+            } else {
+                l.to_string()
+            }
+        })
+        .collect::<Vec<_>>()
+        .join("\n");
+    std::fs::write(&c, same + "\n").unwrap();
+    let rows = checks_rows(&c);
+    assert!(
+        !rows["CM0-1"].contains("anywhere on the sky"),
+        "{}",
+        rows["CM0-1"]
+    );
+    assert!(rows["CM0-1"].contains("mixed-host"), "{}", rows["CM0-1"]);
     // The same periods with epochs spread over the orbit (a day apart):
     // eight planets that happen to share a period, each validated.
     let c = catalogue("shared_not", true, |i| i as f64 * 1.0, None);

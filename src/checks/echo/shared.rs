@@ -162,7 +162,11 @@ pub(super) fn find(
         let (mut count, mut first, mut deepest) = (0, None, f64::NAN);
         for &o in others.iter().filter(|&&o| o != c) {
             let other = sig(o as usize);
-            if other.star != s.star && shares(&s, &other) {
+            // One row listed on two star ids is one signal (`copies`).
+            if other.star != s.star
+                && shares(&s, &other)
+                && !crate::checks::copies::same_row(cat, c, o)
+            {
                 count += 1;
                 first.get_or_insert(o);
                 deepest = deepest.max(pair.depth_of(o));
