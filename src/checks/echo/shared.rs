@@ -12,10 +12,12 @@
 //!
 //! Only a candidate that shares its star with another is judged (no other
 //! can be validated), against every signal of the catalogue. Signals are
-//! sorted by a bin of log-period as wide as the widest relative difference
-//! the echo search matches, and by phase within it: the others a signal
-//! can match lie in its bin and the two beside it, within a narrow phase
-//! window, each found by a binary search. O(n log n).
+//! counted into bins of the period's bits at least as wide as the widest
+//! relative difference the echo search matches, and sorted by phase
+//! within each: the others a signal can match lie in its bin and the two
+//! beside it, within a narrow phase window, counted by pointers that only
+//! move forward; the matches themselves are sought only where the window
+//! holds enough rows. O(n) but for the sorts of the bins.
 
 use super::{Pair, Quick, Sig, in_time};
 use crate::catalogue::{CandidateId, Catalogue, Column};
@@ -34,7 +36,7 @@ const LEAST_MATCHES: usize = 3;
 /// signal's times are the instrument's, the same to a few minutes, and a
 /// quarter of a transit is 0.003 of the period of a 3 h transit at 10 d;
 /// the echo search's own tests then decide. Matches farther apart in phase
-/// are not counted, in the control alike.
+/// are not counted.
 const COARSE_PHASE: f64 = 0.004;
 
 /// A candidate whose ephemeris more stars share than chance allows.
