@@ -158,31 +158,24 @@ pub fn epoch_zero(unit: &str) -> Option<f64> {
     digits.parse::<f64>().ok().filter(|z| *z >= 1000.0)
 }
 
+/// Arcseconds per unit of `u`, an angle's stated unit (1″ = 1000 mas,
+/// 1′ = 60″, 1° = 3600″, definitions); `None` for a unit that is no angle
+/// (pixels), which a centroid offset keeps as written: only the offset's
+/// ratio to its error is read.
+fn arcsec_per(u: &str) -> Option<f64> {
+    Some(match u.trim().to_ascii_lowercase().as_str() {
+        "arcsec" | "arcsecond" | "arcseconds" | "as" | "\"" | "″" => 1.0,
+        "mas" | "milliarcsec" | "milliarcsecond" | "milliarcseconds" => 1e-3,
+        "arcmin" | "arcminute" | "arcminutes" | "'" => 60.0,
+        "deg" | "degree" | "degrees" | "°" => 3600.0,
+        _ => return None,
+    })
+}
+
 /// Whether `u`, a centroid offset's stated unit, is an angle starsift
-/// converts to arcseconds (else, pixels, it is kept as written: only the
-/// offset's ratio to its error is read).
+/// converts to arcseconds ([`arcsec_per`]).
 pub fn is_angle(u: &str) -> bool {
-    matches!(
-        u.trim().to_ascii_lowercase().as_str(),
-        "arcsec"
-            | "arcsecond"
-            | "arcseconds"
-            | "as"
-            | "\""
-            | "″"
-            | "mas"
-            | "milliarcsec"
-            | "milliarcsecond"
-            | "milliarcseconds"
-            | "arcmin"
-            | "arcminute"
-            | "arcminutes"
-            | "'"
-            | "deg"
-            | "degree"
-            | "degrees"
-            | "°"
-    )
+    arcsec_per(u).is_some()
 }
 
 /// The conversion a stated unit implies for a field stored in days or
@@ -255,13 +248,7 @@ pub fn conversion(field: Field, unit: &str) -> Result<Option<Conversion>, String
         // that is no angle (pixels) is kept as written, since the check
         // reads only their ratio.
         Field::CentroidOffsetArcsec | Field::CentroidOffsetErrArcsec => {
-            let scale = match u.to_ascii_lowercase().as_str() {
-                _ if !is_angle(u) => 1.0,
-                "mas" | "milliarcsec" | "milliarcsecond" | "milliarcseconds" => 1e-3,
-                "arcmin" | "arcminute" | "arcminutes" | "'" => 60.0,
-                "deg" | "degree" | "degrees" | "°" => 3600.0,
-                _ => 1.0,
-            };
+            let scale = arcsec_per(u).unwrap_or(1.0);
             Ok((scale != 1.0).then(|| Conversion {
                 scale,
                 offset: 0.0,
