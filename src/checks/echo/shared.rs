@@ -155,10 +155,11 @@ pub(super) fn find(
     // Candidate c's matches among the rows of the runs beside r within the
     // phase window of `at`: (how many, one of them, the deepest's depth).
     let mut others = Vec::new();
-    let mut matches = |c: u32, r: usize, at: f64| {
+    let half = (COARSE_PHASE * CYCLE as f64) as i64;
+    let mut matches = |c: u32, r: usize, at: i64| {
         others.clear();
         for q in beside(r) {
-            near(run(q), at, COARSE_PHASE, &mut others);
+            near(run(q), at, half, &mut others);
         }
         let s = sig(c as usize);
         let (mut count, mut first, mut deepest) = (0, None, f64::NAN);
@@ -188,7 +189,6 @@ pub(super) fn find(
     // counted with pointers that only move forward; the matches
     // themselves are sought only where that many could be enough.
     let mut found = Vec::new();
-    let half = (COARSE_PHASE * CYCLE as f64) as i64;
     // The matches needed, by the rows about a signal (worked out once each).
     let mut needs: Vec<usize> = Vec::new();
     for r in 0..count {
@@ -203,14 +203,11 @@ pub(super) fn find(
         let needed = needs[about];
         let mut windows: Vec<Window> = beside(r).map(|q| Window::new(run(q))).collect();
         for &k in run(r).iter().filter(|&&k| is_judged(k as u32)) {
-            let coarse: usize = windows
-                .iter_mut()
-                .map(|w| w.count((k >> 32) as i64, half))
-                .sum();
+            let coarse: usize = windows.iter_mut().map(|w| w.count(phase(k), half)).sum();
             // Itself is in its own run's window.
             if coarse > needed {
                 let c = k as u32;
-                let (n, first, deepest) = matches(c, r, phase_of(k));
+                let (n, first, deepest) = matches(c, r, phase(k));
                 if let Some(first) = first.filter(|_| n >= needed) {
                     let source = pair.depth_of(c) > 2.0 * deepest;
                     found.push(Found {
@@ -261,7 +258,7 @@ impl<'a> Window<'a> {
     /// steps; `at` at least the last call's), the window wrapping through 0.
     fn count(&mut self, at: i64, half: i64) -> usize {
         let run = self.run;
-        let phase = |i: usize| (run[i] >> 32) as i64;
+        let phase = |i: usize| phase(run[i]);
         let (lo, hi) = (at - half, at + half);
         while self.from < run.len() && phase(self.from) < lo {
             self.from += 1;
@@ -287,25 +284,28 @@ impl<'a> Window<'a> {
     }
 }
 
-/// The rows of `run` (one bin's keys, by phase) within `half` cycles of
-/// phase `at`, the window wrapping through 0.
-fn near(run: &[u64], at: f64, half: f64, out: &mut Vec<u32>) {
-    let mut span = |lo: f64, hi: f64| {
-        let from = run.partition_point(|&k| phase_of(k) < lo);
-        let to = run.partition_point(|&k| phase_of(k) <= hi);
+/// The rows of `run` (one bin's keys, by phase) within `half` of phase
+/// `at`, the window wrapping through 0: those [`Window::count`] counts
+/// (phases in the keys' steps).
+fn near(run: &[u64], at: i64, half: i64, out: &mut Vec<u32>) {
+    let mut span = |lo: i64, hi: i64| {
+        let from = run.partition_point(|&k| phase(k) < lo);
+        let to = run.partition_point(|&k| phase(k) <= hi);
         out.extend(run[from..to].iter().map(|&k| k as u32));
     };
-    span((at - half).max(0.0), (at + half).min(1.0));
-    if at - half < 0.0 {
-        span(at - half + 1.0, 1.0);
+    let (lo, hi) = (at - half, at + half);
+    span(lo.max(0), hi);
+    if lo < 0 {
+        span(lo + CYCLE, CYCLE);
     }
-    if at + half > 1.0 {
-        span(0.0, at + half - 1.0);
+    if hi >= CYCLE {
+        span(0, hi - CYCLE);
     }
 }
 
-fn phase_of(k: u64) -> f64 {
-    (k >> 32) as f64 / 4_294_967_296.0
+/// A key's phase, in its steps (2³² a cycle).
+fn phase(k: u64) -> i64 {
+    (k >> 32) as i64
 }
 
 /// A signal's key within its bin: its phase in 2³² steps, then its row.
@@ -408,6 +408,10 @@ mod tests {
         let mut w = Window::new(&run);
         for at in [0.0, 0.0015, 0.2, 0.4985, 0.997, 0.9999] {
             assert_eq!(w.count(q(at), q(0.0025)), every(at, 0.0025), "{at}");
+            // And `near` gathers those same rows.
+            let mut rows = Vec::new();
+            near(&run, q(at), q(0.0025), &mut rows);
+            assert_eq!(rows.len(), every(at, 0.0025), "{at}");
         }
     }
 
@@ -417,6 +421,6 @@ mod tests {
         k.sort_unstable();
         assert_eq!(k, [key(0.05, 10), key(0.1, 9), key(0.9, 0), key(0.9, 1)]);
         assert!(key(1.0, 0) > key(0.999_999, u32::MAX));
-        assert!((phase_of(key(0.25, 7)) - 0.25).abs() < 1e-9);
+        assert_eq!(phase(key(0.25, 7)), CYCLE / 4);
     }
 }
