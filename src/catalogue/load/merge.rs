@@ -728,6 +728,10 @@ impl Merger {
             &grouping.first_rows,
             &self.lines,
         ));
+        // The grouping is final: the rows' hashes go before the stars' ids
+        // and members are built, where a load's memory peaks.
+        drop(std::mem::take(&mut self.candidate_hash));
+        drop(std::mem::take(&mut self.star_hash));
         let row_stars = std::mem::take(&mut self.row_stars);
         let mut candidates = std::mem::take(&mut self.candidates);
         let StarGrouping {

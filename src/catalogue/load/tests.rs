@@ -611,6 +611,32 @@ fn a_star_is_found_by_another_spelling_among_thousands() {
     assert_eq!(cat.find_star("KIC 12"), None);
 }
 
+/// Spellings joined among thousands of stars, whichever half of the hash
+/// space their key falls in: three spellings of one star are one star,
+/// under the first written (docs/science.md §3.4).
+#[test]
+fn three_spellings_of_one_star_among_thousands_are_one_star() {
+    let mut text = String::from("star,candidate,period,epoch,depth,duration\n");
+    for i in 0..5000 {
+        text.push_str(&format!("TIC {i},C{i}-1,{}.5,100.0,800,3.0\n", 3 + i % 7));
+    }
+    let joined = [7, 1234, 4096, 4999];
+    for i in joined {
+        text.push_str(&format!("TIC{i},C{i}-2,11.5,100.0,800,3.0\n"));
+        text.push_str(&format!("tic-000{i},C{i}-3,17.5,100.0,800,3.0\n"));
+    }
+    let cat = Catalogue::from_text("invented.csv", &text);
+    assert_eq!(cat.star_count(), 5000);
+    for i in joined {
+        let c = |j: usize| cat.find_candidate(&format!("C{i}-{j}")).unwrap();
+        assert_eq!(cat.members(cat.star_of(c(1))).len(), 3, "{i}");
+        for j in 2..=3 {
+            assert_eq!(cat.star_of(c(j)), cat.star_of(c(1)), "{i}");
+        }
+        assert_eq!(cat.star_id(cat.star_of(c(3))), format!("TIC {i}"));
+    }
+}
+
 /// A second read given the first read's ids (`LoadOptions::ids_from`, the
 /// browser's read of the values) is the catalogue a plain read makes, in
 /// everything it holds; it shares the first read's ids when its rows name
