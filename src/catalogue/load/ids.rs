@@ -133,23 +133,25 @@ pub(super) struct Grouped {
 impl Grouped {
     pub(super) fn new(hashes: &[u64]) -> Grouped {
         let id_bits = (usize::BITS - hashes.len().leading_zeros()).max(1);
-        let keys = sorted_keys(hashes, id_bits);
-        let mut index = IdIndex {
-            keys: Vec::with_capacity(keys.len()),
-            id_bits,
-        };
-        let mask = index.mask();
+        // The sorted keys become the index in place, the first of each hash
+        // part kept: a second array of them would add 8 bytes a row at the
+        // load's peak.
+        let mut keys = sorted_keys(hashes, id_bits);
+        let mask = (1u64 << id_bits) - 1;
         let mut first_of: Vec<u32> = (0..hashes.len() as u32).collect();
-        let mut i = 0;
+        let (mut i, mut kept) = (0, 0);
         while i < keys.len() {
             let (hash, first) = (keys[i] >> id_bits, (keys[i] & mask) as u32);
-            index.keys.push(keys[i]);
+            keys[kept] = keys[i];
+            kept += 1;
             i += 1;
             while i < keys.len() && keys[i] >> id_bits == hash {
                 first_of[(keys[i] & mask) as usize] = first;
                 i += 1;
             }
         }
+        keys.truncate(kept);
+        let index = IdIndex { keys, id_bits };
         Grouped { index, first_of }
     }
 
