@@ -450,6 +450,7 @@ fn read_catalogue(
     buf.drain(..header_end.1);
     let conversions = unit_conversions(&name, &header_fields, &mapping, opts)?;
     let mut layout = Layout::new(header_fields, mapping, delimiter, opts.index_only);
+    layout.hash_ids = opts.ids_from.is_none();
     layout.convert = conversions
         .iter()
         .map(|(f, c)| (f.num_slot().unwrap_or(0), c.scale, c.offset))

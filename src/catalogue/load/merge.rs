@@ -88,8 +88,10 @@ impl Merger {
         self.candidates =
             StrPool::with_capacity(est, (est as f64 * per_row(&part.candidates)) as usize);
         self.row_stars = StrPool::with_capacity(est, (est as f64 * per_row(&part.stars)) as usize);
-        self.candidate_hash.reserve(est);
-        self.star_hash.reserve(est);
+        if layout.hash_ids {
+            self.candidate_hash.reserve(est);
+            self.star_hash.reserve(est);
+        }
         self.lines.reserve(est);
         // Columns not kept (`index_only`) stay empty.
         for (c, &kept) in self.num.iter_mut().zip(&layout.kept) {
@@ -257,7 +259,10 @@ impl Merger {
         // its own.
         let mut ids = match opts.ids_from.as_deref() {
             Some(first) if self.names_as(first) => Ids::of(first),
-            _ => self.group_ids(),
+            _ => {
+                self.hash_rows();
+                self.group_ids()
+            }
         };
         let Merger {
             name,
@@ -637,6 +642,33 @@ impl Merger {
             })
             .into_iter()
             .all(|same| same)
+    }
+
+    /// Each row's ids hashed, for their grouping, where the rows were read
+    /// without (`Layout::hash_ids`): a row's star hash is its star text's,
+    /// as the reader makes it (a row naming no star: the star it was given).
+    fn hash_rows(&mut self) {
+        if self.candidate_hash.len() == self.candidates.len() {
+            return;
+        }
+        let hasher = self.hasher;
+        let hash_all = |ids: &StrPool| -> Vec<u64> {
+            (0..ids.len())
+                .map(|r| hasher.hash_one(ids.get(r).as_bytes()))
+                .collect()
+        };
+        let (cands, stars) = std::thread::scope(|s| {
+            let stars = s.spawn(|| hash_all(&self.row_stars));
+            let cands = hash_all(&self.candidates);
+            (
+                cands,
+                stars
+                    .join()
+                    .unwrap_or_else(|e| std::panic::resume_unwind(e)),
+            )
+        });
+        self.candidate_hash = cands;
+        self.star_hash = stars;
     }
 
     /// Groups the rows by their ids: rows that name no star placed,

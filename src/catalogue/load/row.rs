@@ -41,6 +41,12 @@ pub(super) struct Layout {
     pub(super) convert: Vec<(usize, f64, f64)>,
     /// The same conversions in words, by field, for the summary.
     pub(super) convert_text: Vec<(Field, String)>,
+    /// Whether each row's ids are hashed as they are read, for their
+    /// grouping. Not in a read given an earlier read's ids
+    /// (`LoadOptions::ids_from`), which takes that read's grouping when
+    /// its rows name the same and hashes them only when they do not
+    /// (`Merger::hash_rows`): 16 bytes a row at the read's peak.
+    pub(super) hash_ids: bool,
 }
 
 /// A column as `Layout::quick_row` reads it.
@@ -69,14 +75,21 @@ pub(super) fn zero_bytes(x: u64) -> u64 {
 /// counted and the first few kept for the note.
 #[cold]
 #[inline(never)]
-fn push_hostless(part: &mut Part, star: &str, cand: &str, hasher: &hashbrown::DefaultHashBuilder) {
+fn push_hostless(
+    part: &mut Part,
+    star: &str,
+    cand: &str,
+    hasher: Option<&hashbrown::DefaultHashBuilder>,
+) {
     part.hostless += 1;
     let written = star.trim();
     if part.hostless_written.len() < 3 && !part.hostless_written.iter().any(|w| w == written) {
         part.hostless_written.push(written.to_string());
     }
     let own = hosts::own_star(cand);
-    part.star_hash.push(hasher.hash_one(own.as_bytes()));
+    if let Some(hasher) = hasher {
+        part.star_hash.push(hasher.hash_one(own.as_bytes()));
+    }
     part.stars.push(&own);
 }
 
@@ -179,6 +192,7 @@ impl Layout {
             roles,
             convert: Vec::new(),
             convert_text: Vec::new(),
+            hash_ids: true,
             checked,
             kept,
             in_parts,
@@ -472,13 +486,18 @@ impl Layout {
         part.rows_seen += 1;
         match row {
             Ok((star, cand)) => {
-                part.candidate_hash.push(hasher.hash_one(cand.as_bytes()));
+                let hasher = self.hash_ids.then_some(hasher);
+                if let Some(hasher) = hasher {
+                    part.candidate_hash.push(hasher.hash_one(cand.as_bytes()));
+                }
                 part.candidates.push(cand);
                 match hosts::host_cell(star) {
                     hosts::HostCell::NoStar => push_hostless(part, star, cand, hasher),
                     cell => {
                         part.zeros += usize::from(cell == hosts::HostCell::Zero);
-                        part.star_hash.push(hasher.hash_one(star.as_bytes()));
+                        if let Some(hasher) = hasher {
+                            part.star_hash.push(hasher.hash_one(star.as_bytes()));
+                        }
                         part.stars.push(star);
                     }
                 }
