@@ -430,16 +430,10 @@ impl Live {
         {
             return true;
         }
-        let word: FlagSet = [Flag::KnownFp, Flag::KnownArtefact].into_iter().collect();
-        let word = signs.intersection(word);
         standing
             .rep
             .is_some_and(|r| r != c && self.flags[r as usize].intersects(signs))
-            || self
-                .groups
-                .members(g)
-                .iter()
-                .any(|&m| self.flags[m as usize].intersects(word))
+            || standing.words.intersects(signs)
     }
 
     /// The largest odds among a star's candidates not rejected; `None` when
@@ -513,8 +507,9 @@ impl Live {
             return;
         }
         // Flags move only the candidate's own status, and whether the copies
-        // of its signal are planets: a group's standing depends on the
-        // decisions alone.
+        // of its signal are planets (its group's standing holds the
+        // catalogue's word on any member, worked out again as its stars
+        // are placed).
         let mut stars = self.signal_stars(c);
         stars.sort_unstable();
         stars.dedup();
@@ -631,10 +626,28 @@ impl Live {
         s: StarId,
         decision: impl Fn(CandidateId) -> Decision,
     ) -> Vec<(CandidateId, Status)> {
+        let memo: std::cell::RefCell<HashMap<u32, GroupStanding>> = Default::default();
+        let standing = |g: u32| {
+            *memo
+                .borrow_mut()
+                .entry(g)
+                .or_insert_with(|| self.group_standing(g, &decision))
+        };
+        self.statuses_under(s, &decision, standing)
+    }
+
+    /// [`Live::statuses`], each active group's standing under `decision`
+    /// from `standing` (worked out once for many stars: a group's members
+    /// may be on thousands).
+    fn statuses_under(
+        &self,
+        s: StarId,
+        decision: impl Fn(CandidateId) -> Decision,
+        standing: impl Fn(u32) -> GroupStanding,
+    ) -> Vec<(CandidateId, Status)> {
         let own_blocking = self.own_blocking();
-        let mut memo: HashMap<u32, GroupStanding> = HashMap::new();
         let members = self.index.members(s);
-        let fp = self.known_fp_among(members, &decision);
+        let fp = self.known_fp_among(members, &decision, &standing);
         // A false positive no loaded row shows holds every member, as one
         // a vetter rejected under another id of the star does, and as one
         // rejected by a vetter while another decided otherwise (a dispute).
@@ -654,9 +667,7 @@ impl Live {
                     // A sibling of a known false positive (§1.1).
                     Status::Held
                 } else if let Some(g) = self.active_group(c) {
-                    let standing = *memo
-                        .entry(g)
-                        .or_insert_with(|| self.group_standing(g, &decision));
+                    let standing = standing(g);
                     if standing.rejected_by.is_none() && standing.rep == Some(c) {
                         Status::Counted
                     } else {
@@ -675,7 +686,11 @@ impl Live {
     /// otherwise the first member not rejected (best first) stands for it.
     fn group_standing(&self, g: u32, decision: impl Fn(CandidateId) -> Decision) -> GroupStanding {
         let members = self.groups.members(g);
+        let word: FlagSet = [Flag::KnownFp, Flag::KnownArtefact].into_iter().collect();
         GroupStanding {
+            words: (members.iter())
+                .map(|&m| self.flags[m as usize].intersection(word))
+                .fold(FlagSet::default(), |all, f| all.union(f)),
             rejected_by: members.iter().find_map(|&m| {
                 let r = decision(m).reason()?;
                 (!is_copy(r)).then_some((m, r))
@@ -740,6 +755,9 @@ impl Live {
 struct GroupStanding {
     rejected_by: Option<(CandidateId, Reason)>,
     rep: Option<CandidateId>,
+    /// The catalogue's word on any member (`known-fp`, `known-artefact`):
+    /// on the signal, whichever entry carries it.
+    words: FlagSet,
 }
 
 /// A rejection that says "this entry is a copy" (the signal lives on in

@@ -65,7 +65,11 @@ impl Live {
             return Some(h);
         }
         let members = self.index.members(self.star_of(c));
-        let Some(fp) = self.known_fp_among(members, |m| self.decision[m as usize]) else {
+        let Some(fp) = self.known_fp_among(
+            members,
+            |m| self.decision[m as usize],
+            |g| self.standings[g as usize],
+        ) else {
             if let Some(u) = self.unseen_fp(self.star_of(c)) {
                 return Some(Hold::UnseenSibling { why: u.why.clone() });
             }
@@ -233,6 +237,7 @@ impl Live {
         &self,
         members: &[CandidateId],
         decision: impl Fn(CandidateId) -> Decision,
+        standing: impl Fn(u32) -> GroupStanding,
     ) -> Option<CandidateId> {
         members.iter().copied().find(|&m| {
             // A vetter's rejection says what the member is, over its flags:
@@ -248,7 +253,7 @@ impl Live {
                 return true;
             }
             match self.active_group(m) {
-                Some(g) => self.group_standing(g, &decision).rep == Some(m),
+                Some(g) => standing(g).rep == Some(m),
                 None => true,
             }
         })

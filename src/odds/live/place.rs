@@ -4,14 +4,16 @@
 //! system sizes, the counts per prior class and the counted singles' f).
 
 use super::*;
+use std::collections::HashSet;
 
 impl Live {
     /// Removes the stars' contributions, recomputes their statuses, adds
     /// them back.
     pub(super) fn replace_stars(&mut self, stars: &[StarId]) {
+        let mut fresh = HashSet::new();
         for &s in stars {
             self.unplace_star(s);
-            self.place_star(s);
+            self.place_star(s, &mut fresh);
         }
         self.margins = OnceLock::new();
         self.refresh();
@@ -85,22 +87,31 @@ impl Live {
                 self.bump_single(self.f_of.get(c), 1);
             }
         }
+        let mut fresh = HashSet::new();
         for (s, _) in grouped.iter().enumerate().filter(|g| *g.1) {
-            self.place_star(s as StarId);
+            self.place_star(s as StarId, &mut fresh);
         }
     }
 
-    fn place_star(&mut self, s: StarId) {
-        let st = self.statuses(s, |m| self.decision[m as usize]);
-        let mut groups: Vec<u32> = st
-            .iter()
-            .filter_map(|&(c, _)| self.active_group(c))
-            .collect();
-        groups.sort_unstable();
-        groups.dedup();
-        for g in groups {
-            self.standings[g as usize] = self.group_standing(g, |m| self.decision[m as usize]);
+    /// Places star s under the decisions of now. The standings of its
+    /// members' active groups are worked out first, each once for the
+    /// stars placed together (`fresh`: the decisions do not change among
+    /// them), and read from there: a group of copies may span thousands of
+    /// stars.
+    fn place_star(&mut self, s: StarId, fresh: &mut HashSet<u32>) {
+        let index = Arc::clone(&self.index);
+        for &c in index.members(s) {
+            if let Some(g) = self.active_group(c)
+                && fresh.insert(g)
+            {
+                self.standings[g as usize] = self.group_standing(g, |m| self.decision[m as usize]);
+            }
         }
+        let st = self.statuses_under(
+            s,
+            |m| self.decision[m as usize],
+            |g| self.standings[g as usize],
+        );
         let k = st.iter().filter(|x| x.1 == Status::Counted).count();
         self.k_of_star[s as usize] = k as u16;
         self.bump_hist(k, 1);
