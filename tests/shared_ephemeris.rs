@@ -127,3 +127,57 @@ fn the_deepest_of_them_by_far_is_only_warned_and_unshared_ephemerides_are_not_fl
         assert_eq!(v[&format!("CM{i}-2")], "validated", "CM{i}-2");
     }
 }
+
+#[test]
+fn one_ephemeris_on_forty_stars_is_flagged_on_each_and_a_row_listed_twice_with_it() {
+    // Forty stars, each a candidate at one period and epoch (to their
+    // errors) beside one of its own; the first star's shared row listed
+    // digit for digit again under a forty-first star id (a merged table).
+    // Each is sought among its nearest matches only, sixteen at most once
+    // flagged (`shared::ENOUGH`): the finding says "or more".
+    let mut t = String::new();
+    for i in 0..40 {
+        let s = format!("FS{i}");
+        let jitter = (i % 7) as f64 * 3e-4 - 9e-4;
+        t.push_str(&format!(
+            "{s},{s}-1,{:.5},0.00004,{:.4},0.002,{},{:.2},14,,1,1,5772,,\n",
+            13.70012 + (i % 5) as f64 * 1e-5 - 2e-5,
+            1325.402 + jitter,
+            300 + 7 * i,
+            4.0 + 0.03 * i as f64,
+        ));
+        t.push_str(&format!(
+            "{s},{s}-2,{:.5},0.00002,1326.1,0.001,500,3.0,25,,1,1,5772,,\n",
+            5.1 + 0.37 * i as f64
+        ));
+    }
+    let first = t.lines().next().unwrap().replace("FS0,FS0-1", "FT0,FT0-1");
+    t.push_str(&format!(
+        "{first}\nFT0,FT0-2,9.91,0.00002,1326.3,0.001,500,3.0,25,,1,1,5772,,\n"
+    ));
+    let head = format!("{},ra_deg,dec_deg\n", HEAD.trim_end());
+    let bg: String = background().lines().map(|l| format!("{l},,\n")).collect();
+    let c = written("shared_forty", &format!("{head}{bg}{t}"));
+    let c = c.to_str().unwrap();
+    let v = agreed(c);
+    let rows = checks_rows(c);
+    for i in 0..40 {
+        let one = format!("FS{i}-1");
+        assert_eq!(v[&one], "unlikely", "{one}");
+        assert!(
+            rows[&one].contains("the same ephemeris as 16 or more signals on other stars"),
+            "{}",
+            rows[&one]
+        );
+        assert_ne!(v[&format!("FS{i}-2")], "validated", "FS{i}-2");
+    }
+    // The row listed twice: one signal under two ids, and the
+    // instrument's under both.
+    assert_eq!(v["FT0-1"], "unlikely");
+    assert!(rows["FT0-1"].contains("mixed-host"), "{}", rows["FT0-1"]);
+    assert!(
+        rows["FT0-1"].contains("anywhere on the sky"),
+        "{}",
+        rows["FT0-1"]
+    );
+}

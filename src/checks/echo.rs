@@ -140,6 +140,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
         positions: ra.is_some(),
         mag: col(Field::Mag),
         depth: col(Field::DepthPpm),
+        copies: (!copies.is_empty()).then_some(cat),
     };
     // The search is pure: each part finds its matches on a thread of its
     // own, and they are applied below in the order of a search of one
@@ -172,7 +173,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
     let period_order = index.into_order();
     // One ephemeris on many stars anywhere: searched once the index is
     // gone, so its keys never add to the index's memory.
-    let shared = shared::find(cat, &pair, (periods, epochs), &sig);
+    let shared = shared::find(cat, &pair, (periods, epochs), &sig, &copies);
     stage(true);
     let mut matches: Vec<sweep::Found> = Vec::new();
     let mut crowded_window = vec![false; cat.len()];
@@ -185,10 +186,6 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
         control += part.control;
     }
     matches.sort_unstable_by_key(|m| m.0);
-    // One row listed on two star ids is no neighbour's light (`copies`).
-    if !copies.is_empty() {
-        matches.retain(|&(_, (copy, m))| !super::copies::same_row(cat, copy, m.other));
-    }
     let chance = Chance::new(
         matches.iter().filter(|m| m.1.1.sep.is_none()).count() as u64,
         control,
@@ -277,8 +274,9 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
     }
     for f in shared {
         let why = format!(
-            "the same ephemeris as {} signals on other stars, anywhere on the sky ({} on {} among them; period and epoch within their errors), where chance gives a signal of its period {:.1e} such matches and {} or more would be one catalogue in a hundred: the instrument's own signal, or one eclipse's light carried across the detector",
+            "the same ephemeris as {}{} signals on other stars, anywhere on the sky ({} on {} among them; period and epoch within their errors), where chance gives a signal of its period {:.1e} such matches and {} or more would be one catalogue in a hundred: the instrument's own signal, or one eclipse's light carried across the detector",
             f.n,
+            if f.more { " or more" } else { "" },
             cat.candidate_id(f.first),
             star(f.first),
             f.chance,
@@ -371,9 +369,18 @@ struct Pair<'a> {
     positions: bool,
     mag: Option<&'a Column>,
     depth: Option<&'a Column>,
+    /// The catalogue, where some row is listed on two star ids (`copies`):
+    /// a row matched with itself under another id is one signal, no echo.
+    copies: Option<&'a Catalogue>,
 }
 
 impl Pair<'_> {
+    /// Whether a and b are one row listed on two star ids (`copies`).
+    fn same_row(&self, a: CandidateId, b: CandidateId) -> bool {
+        self.copies
+            .is_some_and(|cat| super::copies::same_row(cat, a, b))
+    }
+
     /// The widest relative difference in period ever matched between a and
     /// b: `echo_max_rel`, or [`ECHO_PLACED_REL`] when both have positions
     /// and the echo radius is at most [`ECHO_PLACED_RADIUS`] (their

@@ -17,7 +17,8 @@
 //! within each: the others a signal can match lie in its bin and the two
 //! beside it, within a narrow phase window, counted by pointers that only
 //! move forward; the matches themselves are sought only where the window
-//! holds enough rows. O(n) but for the sorts of the bins.
+//! holds enough rows, nearest in phase first and no further than a flag
+//! needs ([`ENOUGH`], [`COMPARED`]). O(n) but for the sorts of the bins.
 
 use super::{Pair, Quick, Sig, in_time};
 use crate::catalogue::{CandidateId, Catalogue, Column};
@@ -27,6 +28,16 @@ use crate::catalogue::{CandidateId, Catalogue, Column};
 /// chance matches a signal has, times the signals judged, is below it
 /// *(common practice, no source)*.
 const FALSE_FLAGS: f64 = 0.01;
+
+/// The matches past which a flagged signal's are not sought further
+/// (unless it may be their source): its verdict is the same with more.
+const ENOUGH: usize = 16;
+
+/// The rows of its window a signal is compared with at most, nearest in
+/// phase first, beside four per match it needs: where more rows than
+/// that lie about a phase, a shared signal's (the same to its errors)
+/// are the nearest.
+const COMPARED: usize = 256;
 
 /// Never fewer matches than this: two signals of one ephemeris are the echo
 /// search's to judge (a neighbour's light, or chance).
@@ -42,9 +53,12 @@ const COARSE_PHASE: f64 = 0.004;
 /// A candidate whose ephemeris more stars share than chance allows.
 pub(super) struct Found {
     pub c: CandidateId,
-    /// How many signals on other stars share it, and one of them.
+    /// How many signals on other stars share it, and the nearest in phase.
     pub n: usize,
     pub first: CandidateId,
+    /// Whether rows of its window were left uncompared once it was
+    /// flagged past doubt (`n` is then a least count).
+    pub more: bool,
     /// Whether it is more than twice as deep as any of them (the possible
     /// source of their light).
     pub source: bool,
@@ -62,9 +76,12 @@ pub(super) fn find(
     pair: &Pair,
     (periods, epochs): (&Column, &Column),
     sig: &impl Fn(usize) -> Sig,
+    copies: &[Vec<CandidateId>],
 ) -> Vec<Found> {
     let n = cat.len();
-    // The judged: candidates that share their star, a bit each by row.
+    // The judged: candidates that share their star, a bit each by row. A
+    // row listed on several star ids (`copies`) is one signal, judged once
+    // under its first id, and its finding is each id's.
     let mut judged = vec![0u64; n.div_ceil(64)];
     for star in 0..cat.star_count() as u32 {
         let members = cat.members(star);
@@ -73,6 +90,9 @@ pub(super) fn find(
                 judged[c as usize / 64] |= 1 << (c % 64);
             }
         }
+    }
+    for &c in copies.iter().flat_map(|set| set.iter().skip(1)) {
+        judged[c as usize / 64] &= !(1 << (c % 64));
     }
     if judged.iter().all(|&w| w == 0) {
         return Vec::new();
@@ -153,29 +173,49 @@ pub(super) fn find(
             && in_time(a, b, 0.0, b.period_err.powi(2) + a.period_err.powi(2)).is_some()
     };
     // Candidate c's matches among the rows of the runs beside r within the
-    // phase window of `at`: (how many, one of them, the deepest's depth).
-    let mut others = Vec::new();
+    // phase window of `at`, nearest in phase first: (how many, the nearest,
+    // the deepest's depth, whether more were left unsought). Sought until
+    // the count flags it past doubt: [`ENOUGH`] of them (or all its window
+    // holds), and one at least half as deep as itself (it is then no
+    // source); and among [`COMPARED`] rows and four per match needed at
+    // most. One ephemeris on a hundred thousand stars costs a few dozen
+    // comparisons a signal, not a hundred thousand.
     let half = (COARSE_PHASE * CYCLE as f64) as i64;
-    let mut matches = |c: u32, r: usize, at: i64| {
-        others.clear();
-        for q in beside(r) {
-            near(run(q), at, half, &mut others);
-        }
+    let matches = |c: u32, r: usize, at: i64, needed: usize| {
         let s = sig(c as usize);
+        let own = pair.depth_of(c);
+        let budget = COMPARED.saturating_add(needed.saturating_mul(4));
         let (mut count, mut first, mut deepest) = (0, None, f64::NAN);
-        for &o in others.iter().filter(|&&o| o != c) {
+        let mut compared = 0;
+        let mut nearest = Nearest::new(beside(r).map(run), at, half);
+        while let Some(o) = nearest.next() {
+            if o == c {
+                continue;
+            }
+            if compared == budget {
+                return (count, first, deepest, true);
+            }
             let other = sig(o as usize);
-            // One row listed on two star ids is one signal (`copies`).
-            if other.star != s.star
-                && shares(&s, &other)
-                && !crate::checks::copies::same_row(cat, c, o)
-            {
-                count += 1;
-                first.get_or_insert(o);
-                deepest = deepest.max(pair.depth_of(o));
+            if other.star == s.star || !shares(&s, &other) {
+                compared += 1;
+                continue;
+            }
+            // Its own row listed under another star id (`copies`): itself,
+            // neither a match nor a row compared.
+            if crate::checks::copies::same_row(cat, c, o) {
+                continue;
+            }
+            compared += 1;
+            count += 1;
+            first.get_or_insert(o);
+            deepest = deepest.max(pair.depth_of(o));
+            // Its source, perhaps, while more than twice as deep as all.
+            let source = own > 2.0 * deepest;
+            if count >= needed.max(ENOUGH) && !source {
+                return (count, first, deepest, nearest.more());
             }
         }
-        (count, first, deepest)
+        (count, first, deepest, false)
     };
     let judged_count = judged
         .iter()
@@ -207,13 +247,14 @@ pub(super) fn find(
             // Itself is in its own run's window.
             if coarse > needed {
                 let c = k as u32;
-                let (n, first, deepest) = matches(c, r, phase(k));
+                let (n, first, deepest, more) = matches(c, r, phase(k), needed);
                 if let Some(first) = first.filter(|_| n >= needed) {
                     let source = pair.depth_of(c) > 2.0 * deepest;
                     found.push(Found {
                         c,
                         n,
                         first,
+                        more,
                         source,
                         chance,
                         needed,
@@ -222,6 +263,15 @@ pub(super) fn find(
             }
         }
     }
+    found.sort_unstable_by_key(|f| f.c);
+    // A row listed on several star ids: its first id's finding is each id's.
+    let mut each = Vec::new();
+    for set in copies {
+        if let Ok(i) = found.binary_search_by_key(&set[0], |f| f.c) {
+            each.extend(set[1..].iter().map(|&c| Found { c, ..found[i] }));
+        }
+    }
+    found.extend(each);
     found.sort_unstable_by_key(|f| f.c);
     found
 }
@@ -284,22 +334,99 @@ impl<'a> Window<'a> {
     }
 }
 
-/// The rows of `run` (one bin's keys, by phase) within `half` of phase
-/// `at`, the window wrapping through 0: those [`Window::count`] counts
-/// (phases in the keys' steps).
-fn near(run: &[u64], at: i64, half: i64, out: &mut Vec<u32>) {
-    let mut span = |lo: i64, hi: i64| {
-        let from = run.partition_point(|&k| phase(k) < lo);
-        let to = run.partition_point(|&k| phase(k) <= hi);
-        out.extend(run[from..to].iter().map(|&k| k as u32));
-    };
-    let (lo, hi) = (at - half, at + half);
-    span(lo.max(0), hi);
-    if lo < 0 {
-        span(lo + CYCLE, CYCLE);
+/// The rows of a few runs (each one bin's keys, by phase) within `half`
+/// of phase `at`, nearest first, the window wrapping through 0: those
+/// [`Window::count`] counts (phases in the keys' steps). Each run is walked
+/// both ways from `at`, and the nearer of all their next rows taken.
+struct Nearest<'a> {
+    sides: [Side<'a>; 3],
+    at: i64,
+    half: i64,
+}
+
+/// One run walked both ways from a phase: the next row up and the next
+/// down (wrapping), and how many rows are left to take.
+#[derive(Default)]
+struct Side<'a> {
+    run: &'a [u64],
+    up: usize,
+    down: usize,
+    left: usize,
+}
+
+impl<'a> Side<'a> {
+    fn new(run: &'a [u64], at: i64) -> Side<'a> {
+        let n = run.len();
+        let from = run.partition_point(|&k| phase(k) < at);
+        Side {
+            run,
+            up: if n == 0 { 0 } else { from % n },
+            down: (from + n).saturating_sub(1) % n.max(1),
+            left: n,
+        }
     }
-    if hi >= CYCLE {
-        span(0, hi - CYCLE);
+
+    /// How far row i lies from `at` in phase, either way round.
+    fn distance(&self, i: usize, at: i64) -> i64 {
+        let d = (phase(self.run[i]) - at).rem_euclid(CYCLE);
+        d.min(CYCLE - d)
+    }
+
+    /// The distance of the nearer next row, and whether it is the one up.
+    fn next(&self, at: i64) -> Option<(i64, bool)> {
+        (self.left > 0).then(|| {
+            let (up, down) = (self.distance(self.up, at), self.distance(self.down, at));
+            if up <= down {
+                (up, true)
+            } else {
+                (down, false)
+            }
+        })
+    }
+
+    fn take(&mut self, up: bool) -> u32 {
+        let n = self.run.len();
+        let i = if up { self.up } else { self.down };
+        if up {
+            self.up = (i + 1) % n;
+        } else {
+            self.down = (i + n - 1) % n;
+        }
+        self.left -= 1;
+        self.run[i] as u32
+    }
+}
+
+impl<'a> Nearest<'a> {
+    fn new(runs: impl Iterator<Item = &'a [u64]>, at: i64, half: i64) -> Nearest<'a> {
+        let mut sides: [Side<'a>; 3] = Default::default();
+        for (side, run) in sides.iter_mut().zip(runs) {
+            *side = Side::new(run, at);
+        }
+        Nearest { sides, at, half }
+    }
+
+    /// The side whose next row is nearest, and which way, if within the window.
+    fn nearest(&self) -> Option<(usize, bool)> {
+        (self.sides.iter().enumerate())
+            .filter_map(|(i, s)| s.next(self.at).map(|(d, up)| (d, i, up)))
+            .min()
+            .filter(|&(d, _, _)| d <= self.half)
+            .map(|(_, i, up)| (i, up))
+    }
+
+    /// Whether rows are left within the window.
+    fn more(&self) -> bool {
+        self.nearest().is_some()
+    }
+}
+
+impl Iterator for Nearest<'_> {
+    type Item = u32;
+
+    fn next(&mut self) -> Option<u32> {
+        let (i, up) = self.nearest()?;
+        Some(self.sides[i].take(up))
     }
 }
 
@@ -408,10 +535,17 @@ mod tests {
         let mut w = Window::new(&run);
         for at in [0.0, 0.0015, 0.2, 0.4985, 0.997, 0.9999] {
             assert_eq!(w.count(q(at), q(0.0025)), every(at, 0.0025), "{at}");
-            // And `near` gathers those same rows.
-            let mut rows = Vec::new();
-            near(&run, q(at), q(0.0025), &mut rows);
+            // And `Nearest` gives those same rows, nearest first.
+            let rows: Vec<u32> = Nearest::new([&run[..]].into_iter(), q(at), q(0.0025)).collect();
             assert_eq!(rows.len(), every(at, 0.0025), "{at}");
+            let far = |r: &u32| {
+                let d = ([0.001, 0.002, 0.5, 0.998, 0.999][*r as usize] - at).rem_euclid(1.0);
+                d.min(1.0 - d)
+            };
+            assert!(
+                rows.windows(2).all(|w| far(&w[0]) <= far(&w[1])),
+                "{at}: {rows:?}"
+            );
         }
     }
 

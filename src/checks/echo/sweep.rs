@@ -653,7 +653,11 @@ fn scan<'s, T: Held + 's>(
         let a = *whole.get_or_insert_with(|| a.whole(sig, order));
         let whole_b = b.whole(sig, order);
         if let Some(m) = pair.compare(&a, &whole_b, nf) {
-            out.matches.push(((a.rank, n, b.rank()), m));
+            // One row listed on two star ids is no neighbour's light
+            // (`copies`): a match towards the window's cap, not kept.
+            if !pair.same_row(m.0, m.1.other) {
+                out.matches.push(((a.rank, n, b.rank()), m));
+            }
             found += 1;
         }
         out.control += u64::from(pair.control(&a, &whole_b, nf));

@@ -101,6 +101,7 @@ fn the_bands_find_what_comparing_every_pair_finds() {
             positions: true,
             mag: None,
             depth: None,
+            copies: None,
         };
         let mut sigs = signals(1500, seed);
         let mut order: Vec<u128> = sigs
