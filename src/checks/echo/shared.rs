@@ -195,17 +195,16 @@ pub(super) fn find(
             if compared == budget {
                 return (count, first, deepest, true);
             }
-            let other = sig(o as usize);
-            if other.star == s.star || !shares(&s, &other) {
-                compared += 1;
-                continue;
-            }
-            // Its own row listed under another star id (`copies`): itself,
-            // neither a match nor a row compared.
-            if crate::checks::copies::same_row(cat, c, o) {
-                continue;
-            }
             compared += 1;
+            let other = sig(o as usize);
+            // Its own row listed under another star id (`copies`): itself,
+            // no match.
+            if other.star == s.star
+                || !shares(&s, &other)
+                || crate::checks::copies::same_row(cat, c, o)
+            {
+                continue;
+            }
             count += 1;
             first.get_or_insert(o);
             deepest = deepest.max(pair.depth_of(o));
