@@ -21,6 +21,7 @@ use super::pool::StrPool;
 use super::units;
 use super::{CandidateId, Catalogue, LoadError, Skip, SkippedRow, StarId};
 
+mod grouping;
 mod hosts;
 mod ids;
 mod merge;
