@@ -134,7 +134,9 @@ fn one_ephemeris_on_forty_stars_is_flagged_on_each_and_a_row_listed_twice_with_i
     // errors) beside one of its own; the first star's shared row listed
     // digit for digit again under a forty-first star id (a merged table).
     // Each is sought among its nearest matches only, sixteen at most once
-    // flagged (`shared::ENOUGH`): the finding says "or more".
+    // flagged (`shared::ENOUGH`): the finding says "or more". The second
+    // star's shared row is listed again, first in the file, as the only
+    // candidate of another star id (FA0, judged for nothing: no sibling).
     let mut t = String::new();
     for i in 0..40 {
         let s = format!("FS{i}");
@@ -152,6 +154,8 @@ fn one_ephemeris_on_forty_stars_is_flagged_on_each_and_a_row_listed_twice_with_i
         ));
     }
     let first = t.lines().next().unwrap().replace("FS0,FS0-1", "FT0,FT0-1");
+    let single = t.lines().nth(2).unwrap().replace("FS1,FS1-1", "FA0,FA0-1");
+    t = format!("{single}\n{t}");
     t.push_str(&format!(
         "{first}\nFT0,FT0-2,9.91,0.00002,1326.3,0.001,500,3.0,25,,1,1,5772,,\n"
     ));
@@ -180,4 +184,13 @@ fn one_ephemeris_on_forty_stars_is_flagged_on_each_and_a_row_listed_twice_with_i
         "{}",
         rows["FT0-1"]
     );
+    // Listed first under a star id of no other candidate, the row is still
+    // judged under the id that has a sibling.
+    assert!(rows["FS1-1"].contains("mixed-host"), "{}", rows["FS1-1"]);
+    assert!(
+        rows["FS1-1"].contains("anywhere on the sky"),
+        "{}",
+        rows["FS1-1"]
+    );
+    assert_ne!(v["FA0-1"], "validated");
 }

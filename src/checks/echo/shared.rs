@@ -81,7 +81,8 @@ pub(super) fn find(
     let n = cat.len();
     // The judged: candidates that share their star, a bit each by row. A
     // row listed on several star ids (`copies`) is one signal, judged once
-    // under its first id, and its finding is each id's.
+    // under the first of its ids judged, and its finding is each such id's.
+    let shares_star = |c: CandidateId| cat.members(cat.star_of(c)).len() >= 2;
     let mut judged = vec![0u64; n.div_ceil(64)];
     for star in 0..cat.star_count() as u32 {
         let members = cat.members(star);
@@ -91,8 +92,15 @@ pub(super) fn find(
             }
         }
     }
-    for &c in copies.iter().flat_map(|set| set.iter().skip(1)) {
-        judged[c as usize / 64] &= !(1 << (c % 64));
+    let mut judged_for: Vec<(CandidateId, &[CandidateId])> = Vec::new();
+    for set in copies {
+        let mut ids = set.iter().copied().filter(|&c| shares_star(c));
+        if let Some(first) = ids.next() {
+            for c in ids {
+                judged[c as usize / 64] &= !(1 << (c % 64));
+            }
+            judged_for.push((first, set));
+        }
     }
     if judged.iter().all(|&w| w == 0) {
         return Vec::new();
@@ -263,11 +271,16 @@ pub(super) fn find(
         }
     }
     found.sort_unstable_by_key(|f| f.c);
-    // A row listed on several star ids: its first id's finding is each id's.
+    // A row listed on several star ids: the finding of the id judged is
+    // each judged id's.
     let mut each = Vec::new();
-    for set in copies {
-        if let Ok(i) = found.binary_search_by_key(&set[0], |f| f.c) {
-            each.extend(set[1..].iter().map(|&c| Found { c, ..found[i] }));
+    for (first, set) in judged_for {
+        if let Ok(i) = found.binary_search_by_key(&first, |f| f.c) {
+            let others = set
+                .iter()
+                .copied()
+                .filter(|&c| c != first && shares_star(c));
+            each.extend(others.map(|c| Found { c, ..found[i] }));
         }
     }
     found.extend(each);
