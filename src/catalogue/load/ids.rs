@@ -137,7 +137,11 @@ impl Grouped {
         // part kept: a second array of them would add 8 bytes a row at the
         // load's peak.
         let mut keys = sorted_keys(hashes, id_bits);
-        let mask = (1u64 << id_bits) - 1;
+        let mut index = IdIndex {
+            keys: Vec::new(),
+            id_bits,
+        };
+        let mask = index.mask();
         let mut first_of: Vec<u32> = (0..hashes.len() as u32).collect();
         let (mut i, mut kept) = (0, 0);
         while i < keys.len() {
@@ -151,7 +155,7 @@ impl Grouped {
             }
         }
         keys.truncate(kept);
-        let index = IdIndex { keys, id_bits };
+        index.keys = keys;
         Grouped { index, first_of }
     }
 
