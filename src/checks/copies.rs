@@ -242,10 +242,20 @@ impl<'a> Cols<'a> {
     }
 }
 
-/// Whether rows `a` and `b` carry the same signal, as written (the epoch
-/// perhaps counted from another common zero).
-pub(super) fn same_row(cat: &Catalogue, a: CandidateId, b: CandidateId) -> bool {
-    Cols::of(cat).is_some_and(|k| k.same(a, b))
+/// Whether two rows carry the same signal, as written (the epoch perhaps
+/// counted from another common zero), the catalogue's columns looked up
+/// once for the many pairs a search asks about.
+pub(super) struct SameRow<'a>(Option<Cols<'a>>);
+
+impl<'a> SameRow<'a> {
+    pub(super) fn of(cat: &'a Catalogue) -> SameRow<'a> {
+        SameRow(Cols::of(cat))
+    }
+
+    /// Whether rows `a` and `b` carry the same signal.
+    pub(super) fn same(&self, a: CandidateId, b: CandidateId) -> bool {
+        self.0.as_ref().is_some_and(|k| k.same(a, b))
+    }
 }
 
 /// The rows whose signal is repeated on another star id, in sets of one
@@ -643,8 +653,9 @@ L,L-1,3.7123,100.5432,3000.4,2.51\n";
             "{}",
             ch.why(id("F-1"))
         );
-        assert!(same_row(&cat, id("A-1"), id("G-1")));
-        assert!(!same_row(&cat, id("A-1"), id("I-1")));
+        let same = SameRow::of(&cat);
+        assert!(same.same(id("A-1"), id("G-1")));
+        assert!(!same.same(id("A-1"), id("I-1")));
     }
 
     #[test]

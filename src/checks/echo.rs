@@ -140,7 +140,7 @@ pub(super) fn check(cat: &Catalogue, s: &CheckSettings, progress: &super::CheckP
         positions: ra.is_some(),
         mag: col(Field::Mag),
         depth: col(Field::DepthPpm),
-        copies: (!copies.is_empty()).then_some(cat),
+        copies: (!copies.is_empty()).then(|| super::copies::SameRow::of(cat)),
     };
     // The search is pure: each part finds its matches on a thread of its
     // own, and they are applied below in the order of a search of one
@@ -369,16 +369,15 @@ struct Pair<'a> {
     positions: bool,
     mag: Option<&'a Column>,
     depth: Option<&'a Column>,
-    /// The catalogue, where some row is listed on two star ids (`copies`):
-    /// a row matched with itself under another id is one signal, no echo.
-    copies: Option<&'a Catalogue>,
+    /// Where some row is listed on two star ids (`copies`): a row matched
+    /// with itself under another id is one signal, no echo.
+    copies: Option<super::copies::SameRow<'a>>,
 }
 
 impl Pair<'_> {
     /// Whether a and b are one row listed on two star ids (`copies`).
     fn same_row(&self, a: CandidateId, b: CandidateId) -> bool {
-        self.copies
-            .is_some_and(|cat| super::copies::same_row(cat, a, b))
+        self.copies.as_ref().is_some_and(|k| k.same(a, b))
     }
 
     /// The widest relative difference in period ever matched between a and

@@ -189,6 +189,7 @@ pub(super) fn find(
     // most. One ephemeris on a hundred thousand stars costs a few dozen
     // comparisons a signal, not a hundred thousand.
     let half = (COARSE_PHASE * CYCLE as f64) as i64;
+    let same_row = crate::checks::copies::SameRow::of(cat);
     let matches = |c: u32, r: usize, at: i64, needed: usize| {
         let s = sig(c as usize);
         let own = pair.depth_of(c);
@@ -207,10 +208,7 @@ pub(super) fn find(
             let other = sig(o as usize);
             // Its own row listed under another star id (`copies`): itself,
             // no match.
-            if other.star == s.star
-                || !shares(&s, &other)
-                || crate::checks::copies::same_row(cat, c, o)
-            {
+            if other.star == s.star || !shares(&s, &other) || same_row.same(c, o) {
                 continue;
             }
             count += 1;
